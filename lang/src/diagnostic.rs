@@ -1,0 +1,202 @@
+//! The one diagnostic type of the core, and the catalogue of rules.
+//!
+//! Every stage reports problems as [`Diagnostic`]s that carry a stable [`Rule`] id. Front ends
+//! render them (ariadne in the CLI, LSP diagnostics in the server, JSON and SARIF for machines)
+//! but never invent their own.
+
+use crate::source::{LineIndex, SourceDb, Span};
+use serde::Serialize;
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Severity {
+    Note,
+    Warning,
+    Error,
+}
+
+impl Severity {
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Severity::Note => "note",
+            Severity::Warning => "warning",
+            Severity::Error => "error",
+        }
+    }
+}
+
+macro_rules! rules {
+    ($( $variant:ident = $id:literal, $sev:ident, $summary:literal; )*) => {
+        /// Every rule the core can report, with its stable id.
+        #[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash)]
+        pub enum Rule { $( $variant, )* }
+
+        impl Rule {
+            pub const ALL: &'static [Rule] = &[ $( Rule::$variant, )* ];
+
+            /// The stable id used in output, configuration and silencing comments.
+            pub fn id(self) -> &'static str {
+                match self { $( Rule::$variant => $id, )* }
+            }
+
+            pub fn default_severity(self) -> Severity {
+                match self { $( Rule::$variant => Severity::$sev, )* }
+            }
+
+            /// One line saying what the rule catches.
+            pub fn summary(self) -> &'static str {
+                match self { $( Rule::$variant => $summary, )* }
+            }
+
+            pub fn from_id(id: &str) -> Option<Rule> {
+                match id { $( $id => Some(Rule::$variant), )* _ => None }
+            }
+        }
+    };
+}
+
+rules! {
+    Syntax = "syntax", Error, "The text does not follow the grammar of the language.";
+    Io = "io", Error, "A file could not be read.";
+    UnitMismatch = "unit-mismatch", Error, "A value or expression has the wrong physical dimension.";
+    UnknownUnit = "unknown-unit", Error, "A unit symbol that the unit registry does not know.";
+    UnknownQuantity = "unknown-quantity", Error, "A property name that is not a quantity of this kind of body.";
+    UnknownBody = "unknown-body", Error, "A reference to a body that is not declared in this system.";
+    UnknownRef = "unknown-ref", Error, "A citation of a reference id that the file does not declare.";
+    UnknownName = "unknown-name", Error, "A name in an expression that is neither a let binding nor a constant.";
+    Duplicate = "duplicate", Error, "The same body, reference, binding or quantity is declared twice.";
+    OutOfRange = "out-of-range", Error, "A declared value lies outside the range the quantity can take.";
+    InvalidValue = "invalid-value", Error, "A number that is not finite, or an expression that cannot be evaluated.";
+    Inconsistent = "inconsistent", Warning, "A declared value disagrees with the value derived from other measurements.";
+    NotDerivable = "not-derivable", Note, "A quantity could not be derived because an input is missing or unusable.";
+    DenserThanIron = "denser-than-iron", Error, "The planet is denser than a pure-iron body of its mass.";
+    AboveDeuteriumLimit = "above-deuterium-limit", Warning, "The companion is more massive than about 13 Jupiter masses: a brown dwarf, not a planet.";
+    StellarMassCompanion = "stellar-mass-companion", Error, "The companion is more massive than about 0.075 solar masses: a star.";
+    LargerThanStar = "larger-than-star", Error, "The planet's radius is at least the radius of its star.";
+    PeriastronInsideStar = "periastron-inside-star", Error, "The orbit's closest approach lies inside the star.";
+    InsideRocheLimit = "inside-roche-limit", Warning, "The orbit lies inside the fluid-body Roche limit for the planet's density.";
+    TransitGeometry = "transit-geometry", Error, "A transit is declared but the impact parameter or inclination allows none.";
+    CrossingOrbits = "crossing-orbits", Error, "Two planets of one star have orbits that cross.";
+    UnstableSpacing = "unstable-spacing", Warning, "Neighbouring planets are closer than 2 sqrt(3) mutual Hill radii.";
+    ImplausibleStar = "implausible-star", Warning, "No main-sequence or evolved star combines this mass, radius and temperature.";
+    UnusedAllow = "unused-allow", Warning, "A silencing comment that no longer silences anything.";
+}
+
+/// A secondary location with a message.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Label {
+    pub span: Span,
+    pub message: String,
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct Diagnostic {
+    pub rule: Rule,
+    pub severity: Severity,
+    pub span: Span,
+    pub message: String,
+    pub labels: Vec<Label>,
+    pub notes: Vec<String>,
+    pub help: Option<String>,
+}
+
+impl Diagnostic {
+    /// A diagnostic at the rule's default severity.
+    pub fn new(rule: Rule, span: Span, message: impl Into<String>) -> Diagnostic {
+        Diagnostic {
+            rule,
+            severity: rule.default_severity(),
+            span,
+            message: message.into(),
+            labels: Vec::new(),
+            notes: Vec::new(),
+            help: None,
+        }
+    }
+
+    pub fn with_label(mut self, span: Span, message: impl Into<String>) -> Diagnostic {
+        self.labels.push(Label {
+            span,
+            message: message.into(),
+        });
+        self
+    }
+
+    pub fn with_note(mut self, note: impl Into<String>) -> Diagnostic {
+        self.notes.push(note.into());
+        self
+    }
+
+    pub fn with_help(mut self, help: impl Into<String>) -> Diagnostic {
+        self.help = Some(help.into());
+        self
+    }
+
+    pub fn with_severity(mut self, severity: Severity) -> Diagnostic {
+        self.severity = severity;
+        self
+    }
+
+    /// The machine-readable form documented in `docs/json-output.md`.
+    pub fn to_json(&self, db: &dyn SourceDb, index: &LineIndex) -> serde_json::Value {
+        let text = db.text(self.span.file);
+        let start = index.line_col(text, self.span.start as usize);
+        let end = index.line_col(text, self.span.end as usize);
+        let labels: Vec<serde_json::Value> = self
+            .labels
+            .iter()
+            .map(|l| {
+                let lt = db.text(l.span.file);
+                let li = LineIndex::new(lt);
+                let s = li.line_col(lt, l.span.start as usize);
+                serde_json::json!({
+                    "file": db.name(l.span.file),
+                    "line": s.line,
+                    "column": s.column,
+                    "message": l.message,
+                })
+            })
+            .collect();
+        serde_json::json!({
+            "rule": self.rule.id(),
+            "severity": self.severity.as_str(),
+            "message": self.message,
+            "file": db.name(self.span.file),
+            "line": start.line,
+            "column": start.column,
+            "end_line": end.line,
+            "end_column": end.column,
+            "labels": labels,
+            "notes": self.notes,
+            "help": self.help,
+        })
+    }
+}
+
+/// Sort diagnostics into a stable, reading order: by file, position, then rule.
+pub fn sort_diagnostics(diags: &mut [Diagnostic]) {
+    diags.sort_by(|a, b| {
+        (a.span.file, a.span.start, a.span.end, a.rule, &a.message).cmp(&(
+            b.span.file,
+            b.span.start,
+            b.span.end,
+            b.rule,
+            &b.message,
+        ))
+    });
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn rule_ids_are_unique_and_round_trip() {
+        let mut seen = std::collections::HashSet::new();
+        for r in Rule::ALL {
+            assert!(seen.insert(r.id()), "duplicate id {}", r.id());
+            assert_eq!(Rule::from_id(r.id()), Some(*r));
+        }
+        assert_eq!(Rule::from_id("no-such-rule"), None);
+    }
+}

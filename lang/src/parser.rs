@@ -1,0 +1,892 @@
+//! The parser: tokens to a syntax tree, with error recovery.
+//!
+//! Grammar (`?` optional, `*` repeated, `SEP` is a newline or `;`):
+//!
+//! ```text
+//! file      = (ref | system | SEP)*
+//! ref       = "ref" NAME STRING
+//! system    = "system" STRING "{" (body | let | SEP)* "}"
+//! body      = ("star" NAME | "planet" NAME ("orbits" NAME)?) "{" (prop | let | SEP)* "}"
+//! let       = "let" NAME "=" expr
+//! prop      = NAME ("=" | "<" | ">") value
+//! value     = (STRING | expr) ("assumed" | citations)*
+//! citations = "[" NAME ("," NAME)* ","? "]"
+//! expr      = product (("+" | "-") product)*
+//! product   = unary (("*" | "/") unary)*
+//! unary     = "-"* power
+//! power     = atom ("^" "-"? atom)*            (right-associative)
+//! atom      = literal | NAME "(" expr,* ")" | NAME "." NAME | NAME | "(" expr ")"
+//! literal   = NUMBER ("±" NUMBER | "+" NUMBER "/" "-" NUMBER)? unit?
+//! unit      = factor ("/"? factor)*            ("/" divides by the one factor after it)
+//! factor    = NAME ("^" "-"? NUMBER)?
+//! ```
+//!
+//! The block structure (files, systems, bodies, one property a line) is parsed by hand,
+//! because the language is line-oriented and recovery at line and brace boundaries is then
+//! exact: a bad property costs that one line, a missing `}` is reported where the next body
+//! starts. Each property's value is parsed with a `chumsky` grammar, which recovers inside
+//! parentheses. Nesting deeper than [`MAX_DEPTH`] is refused before it can exhaust the stack.
+
+use crate::ast::*;
+use crate::diagnostic::{Diagnostic, Rule};
+use crate::lexer::{lex, Tok, Token};
+use crate::source::{FileId, Span};
+use chumsky::prelude::*;
+use chumsky::Stream;
+
+/// Deepest nesting of parentheses (and brackets) accepted in one value.
+pub const MAX_DEPTH: usize = 64;
+
+type Range = std::ops::Range<usize>;
+type ValueParser<'a> = chumsky::BoxedParser<'a, Tok, ValueParts, Simple<Tok>>;
+
+/// What one property value parses to.
+#[derive(Debug, Clone)]
+struct ValueParts {
+    value: PropValue,
+    assumed: Option<Span>,
+    citations: Vec<Ident>,
+}
+
+/// The result of parsing: a tree (possibly with `Error` placeholders) and the problems found.
+pub struct Parsed {
+    pub file: File,
+    pub diagnostics: Vec<Diagnostic>,
+}
+
+/// Parse one source text.
+pub fn parse(file: FileId, src: &str) -> Parsed {
+    let all = lex(src);
+    let mut comments = Vec::new();
+    let mut toks = Vec::with_capacity(all.len());
+    let mut line_has_code = false;
+    for t in &all {
+        match t.kind {
+            Tok::Comment => comments.push(Comment {
+                text: src.get(t.start..t.end).unwrap_or("").to_string(),
+                span: Span::new(file, t.start, t.end),
+                trailing: line_has_code,
+            }),
+            Tok::Newline => {
+                line_has_code = false;
+                toks.push(*t);
+            }
+            _ => {
+                line_has_code = true;
+                toks.push(*t);
+            }
+        }
+    }
+    let mut p = Cursor {
+        src,
+        file,
+        toks,
+        pos: 0,
+        diags: Vec::new(),
+        value: value_parser(src, file),
+    };
+    let mut out = p.parse_file();
+    out.comments = comments;
+    Parsed {
+        file: out,
+        diagnostics: p.diags,
+    }
+}
+
+struct Cursor<'a> {
+    src: &'a str,
+    file: FileId,
+    toks: Vec<Token>,
+    pos: usize,
+    diags: Vec<Diagnostic>,
+    value: ValueParser<'a>,
+}
+
+impl<'a> Cursor<'a> {
+    fn peek(&self) -> Option<Tok> {
+        self.toks.get(self.pos).map(|t| t.kind)
+    }
+
+    fn peek_token(&self) -> Option<Token> {
+        self.toks.get(self.pos).copied()
+    }
+
+    fn span_here(&self) -> Span {
+        match self.toks.get(self.pos) {
+            Some(t) => Span::new(self.file, t.start, t.end),
+            None => Span::new(self.file, self.src.len(), self.src.len()),
+        }
+    }
+
+    fn prev_end(&self) -> usize {
+        self.pos
+            .checked_sub(1)
+            .and_then(|i| self.toks.get(i))
+            .map_or(0, |t| t.end)
+    }
+
+    fn text(&self, t: Token) -> &'a str {
+        self.src.get(t.start..t.end).unwrap_or("")
+    }
+
+    fn bump(&mut self) -> Option<Token> {
+        let t = self.toks.get(self.pos).copied();
+        if t.is_some() {
+            self.pos += 1;
+        }
+        t
+    }
+
+    fn eat(&mut self, kind: Tok) -> Option<Token> {
+        if self.peek() == Some(kind) {
+            self.bump()
+        } else {
+            None
+        }
+    }
+
+    fn skip_separators(&mut self) {
+        while matches!(self.peek(), Some(Tok::Newline | Tok::Semi)) {
+            self.pos += 1;
+        }
+    }
+
+    fn error(&mut self, span: Span, message: impl Into<String>) {
+        self.diags
+            .push(Diagnostic::new(Rule::Syntax, span, message.into()));
+    }
+
+    fn found(&self) -> String {
+        match self.peek_token() {
+            None => "end of file".to_string(),
+            Some(t) => match t.kind {
+                Tok::Ident | Tok::Number => format!("'{}'", self.text(t)),
+                Tok::Error => format!("unexpected character '{}'", self.text(t)),
+                k => k.describe().to_string(),
+            },
+        }
+    }
+
+    fn expect_error(&mut self, what: &str) {
+        let msg = format!("expected {what}, found {}", self.found());
+        let span = self.span_here();
+        self.error(span, msg);
+    }
+
+    /// Skip to the end of the current line (not past a `}` that closes a block).
+    fn skip_line(&mut self) {
+        while let Some(k) = self.peek() {
+            match k {
+                Tok::Newline | Tok::Semi | Tok::RBrace => return,
+                _ => self.pos += 1,
+            }
+        }
+    }
+
+    fn ident(&mut self, what: &str) -> Option<Ident> {
+        match self.peek_token() {
+            Some(t) if t.kind == Tok::Ident => {
+                self.pos += 1;
+                Some(Ident {
+                    name: self.text(t).to_string(),
+                    span: Span::new(self.file, t.start, t.end),
+                })
+            }
+            _ => {
+                self.expect_error(what);
+                None
+            }
+        }
+    }
+
+    fn string(&mut self, what: &str) -> Option<(String, Span)> {
+        match self.peek_token() {
+            Some(t) if t.kind == Tok::Str => {
+                self.pos += 1;
+                Some((unescape(self.text(t)), Span::new(self.file, t.start, t.end)))
+            }
+            Some(t) if t.kind == Tok::UnterminatedStr => {
+                self.pos += 1;
+                let span = Span::new(self.file, t.start, t.end);
+                self.diags.push(
+                    Diagnostic::new(Rule::Syntax, span, "unterminated string")
+                        .with_help("close the string with '\"' on the same line"),
+                );
+                let s = self.text(t).get(1..).unwrap_or("");
+                Some((s.to_string(), span))
+            }
+            _ => {
+                self.expect_error(what);
+                None
+            }
+        }
+    }
+
+    fn parse_file(&mut self) -> File {
+        let mut file = File::default();
+        loop {
+            self.skip_separators();
+            match self.peek() {
+                None => break,
+                Some(Tok::Ref) => {
+                    if let Some(r) = self.parse_ref() {
+                        file.refs.push(r);
+                    }
+                }
+                Some(Tok::System) => {
+                    if let Some(s) = self.parse_system() {
+                        file.systems.push(s);
+                    }
+                }
+                Some(Tok::RBrace) => {
+                    let span = self.span_here();
+                    self.error(span, "unmatched '}'");
+                    self.pos += 1;
+                }
+                Some(Tok::StarKw | Tok::Planet) => {
+                    let span = self.span_here();
+                    self.diags.push(
+                        Diagnostic::new(
+                            Rule::Syntax,
+                            span,
+                            "a body must be declared inside a system",
+                        )
+                        .with_help("wrap it in `system \"Name\" { ... }`"),
+                    );
+                    // Parse it anyway so its own mistakes are reported, then drop it.
+                    let _ = self.parse_body();
+                }
+                Some(_) => {
+                    self.expect_error("'system' or 'ref'");
+                    self.skip_line();
+                    if self.peek() == Some(Tok::RBrace) {
+                        self.pos += 1;
+                    }
+                }
+            }
+        }
+        file
+    }
+
+    fn parse_ref(&mut self) -> Option<RefDecl> {
+        let start = self.bump().map_or(0, |t| t.start);
+        let id = self.ident("a reference id after 'ref'");
+        let text = if id.is_some() {
+            self.string("the reference text in quotes")
+        } else {
+            None
+        };
+        let end = self.prev_end();
+        self.expect_line_end();
+        Some(RefDecl {
+            id: id?,
+            text: text?.0,
+            span: Span::new(self.file, start, end),
+        })
+    }
+
+    /// After a complete line: anything but a separator or `}` is an error.
+    fn expect_line_end(&mut self) {
+        match self.peek() {
+            None | Some(Tok::Newline | Tok::Semi | Tok::RBrace) => {}
+            Some(_) => {
+                self.expect_error("end of line");
+                self.skip_line();
+            }
+        }
+    }
+
+    fn parse_system(&mut self) -> Option<SystemDecl> {
+        let start = self.bump().map_or(0, |t| t.start);
+        let name = self.string("the system's name in quotes");
+        while self.peek() == Some(Tok::Newline) {
+            self.pos += 1;
+        }
+        if self.eat(Tok::LBrace).is_none() {
+            self.expect_error("'{' to open the system");
+            self.skip_line();
+            return None;
+        }
+        let (name, name_span) = name.unwrap_or_else(|| (String::new(), Span::new(self.file, start, start)));
+        let mut sys = SystemDecl {
+            name,
+            name_span,
+            lets: Vec::new(),
+            bodies: Vec::new(),
+            span: Span::new(self.file, start, start),
+        };
+        loop {
+            self.skip_separators();
+            match self.peek() {
+                None => {
+                    let span = Span::new(self.file, start, self.src.len());
+                    self.diags.push(
+                        Diagnostic::new(Rule::Syntax, sys.name_span, "this system is never closed")
+                            .with_label(span, "the file ends here")
+                            .with_help("add '}' at the end of the system"),
+                    );
+                    break;
+                }
+                Some(Tok::RBrace) => {
+                    self.pos += 1;
+                    break;
+                }
+                Some(Tok::StarKw | Tok::Planet) => {
+                    if let Some(b) = self.parse_body() {
+                        sys.bodies.push(b);
+                    }
+                }
+                Some(Tok::Let) => {
+                    if let Some(l) = self.parse_let() {
+                        sys.lets.push(l);
+                    }
+                }
+                Some(Tok::System) => {
+                    let span = self.span_here();
+                    self.diags.push(
+                        Diagnostic::new(Rule::Syntax, sys.name_span, "this system is not closed before the next one")
+                            .with_label(span, "the next system starts here")
+                            .with_help("add '}' to close the system"),
+                    );
+                    break;
+                }
+                Some(Tok::Ident) => {
+                    let span = self.span_here();
+                    self.diags.push(
+                        Diagnostic::new(Rule::Syntax, span, "a property must belong to a star or planet")
+                            .with_help("declare it inside `star NAME { ... }` or `planet NAME orbits STAR { ... }`"),
+                    );
+                    self.skip_line();
+                }
+                Some(_) => {
+                    self.expect_error("'star', 'planet', 'let' or '}'");
+                    self.skip_line();
+                    if self.peek() == Some(Tok::RBrace) {
+                        // Leave it: it closes the system.
+                    }
+                }
+            }
+        }
+        sys.span = Span::new(self.file, start, self.prev_end());
+        Some(sys)
+    }
+
+    fn parse_body(&mut self) -> Option<BodyDecl> {
+        let kw = self.bump()?;
+        let start = kw.start;
+        let kind = if kw.kind == Tok::StarKw {
+            BodyKind::Star
+        } else {
+            BodyKind::Planet
+        };
+        let name = self.ident(match kind {
+            BodyKind::Star => "the star's name",
+            BodyKind::Planet => "the planet's name",
+        });
+        let mut orbits = None;
+        if kind == BodyKind::Planet && name.is_some() {
+            if self.eat(Tok::Orbits).is_some() {
+                orbits = self.ident("the name of the star it orbits");
+            } else if self.peek() == Some(Tok::LBrace) {
+                let span = name.as_ref().map_or(self.span_here(), |n| n.span);
+                self.diags.push(
+                    Diagnostic::new(Rule::Syntax, span, "a planet must say which star it orbits")
+                        .with_help("write `planet NAME orbits STAR { ... }`"),
+                );
+            }
+        } else if kind == BodyKind::Star && self.peek() == Some(Tok::Orbits) {
+            let span = self.span_here();
+            self.error(span, "a star does not orbit another body in this language");
+            self.pos += 1;
+            let _ = self.ident("a name");
+        }
+        while self.peek() == Some(Tok::Newline) {
+            self.pos += 1;
+        }
+        if self.eat(Tok::LBrace).is_none() {
+            self.expect_error("'{' to open the body");
+            self.skip_line();
+            return None;
+        }
+        let name = name?;
+        let mut body = BodyDecl {
+            kind,
+            name,
+            orbits,
+            props: Vec::new(),
+            lets: Vec::new(),
+            span: Span::new(self.file, start, start),
+        };
+        loop {
+            self.skip_separators();
+            match self.peek() {
+                None => {
+                    self.diags.push(
+                        Diagnostic::new(Rule::Syntax, body.name.span, "this body is never closed")
+                            .with_help("add '}' after its last property"),
+                    );
+                    break;
+                }
+                Some(Tok::RBrace) => {
+                    self.pos += 1;
+                    break;
+                }
+                Some(Tok::StarKw | Tok::Planet | Tok::System) => {
+                    let span = self.span_here();
+                    self.diags.push(
+                        Diagnostic::new(Rule::Syntax, body.name.span, "this body is not closed before the next declaration")
+                            .with_label(span, "the next declaration starts here")
+                            .with_help("add '}' after the body's last property"),
+                    );
+                    break;
+                }
+                Some(Tok::Let) => {
+                    if let Some(l) = self.parse_let() {
+                        body.lets.push(l);
+                    }
+                }
+                Some(Tok::Ident) => {
+                    if let Some(p) = self.parse_prop() {
+                        body.props.push(p);
+                    }
+                }
+                Some(_) => {
+                    self.expect_error("a property name, 'let' or '}'");
+                    self.skip_line();
+                }
+            }
+        }
+        body.span = Span::new(self.file, start, self.prev_end());
+        Some(body)
+    }
+
+    fn parse_let(&mut self) -> Option<LetDecl> {
+        let start = self.bump().map_or(0, |t| t.start);
+        let name = self.ident("a name after 'let'");
+        if name.is_none() {
+            self.skip_line();
+            return None;
+        }
+        if self.eat(Tok::Eq).is_none() {
+            self.expect_error("'=' after the name");
+            self.skip_line();
+            return None;
+        }
+        let parts = self.parse_value()?;
+        let span = Span::new(self.file, start, self.prev_end());
+        let value = match parts.value {
+            PropValue::Expr(e) => e,
+            PropValue::Text(_, s) => {
+                self.error(s, "a 'let' binding takes a number or an expression, not text");
+                Expr {
+                    kind: ExprKind::Error,
+                    span: s,
+                }
+            }
+        };
+        if let Some(s) = parts.assumed {
+            self.error(s, "'assumed' belongs on a property, not on a 'let' binding");
+        }
+        if let Some(c) = parts.citations.first() {
+            self.error(c.span, "citations belong on a property, not on a 'let' binding");
+        }
+        Some(LetDecl {
+            name: name?,
+            value,
+            span,
+        })
+    }
+
+    fn parse_prop(&mut self) -> Option<Prop> {
+        let name = self.ident("a property name")?;
+        let relation = match self.peek() {
+            Some(Tok::Eq) => Relation::Equal,
+            Some(Tok::Lt) => Relation::Below,
+            Some(Tok::Gt) => Relation::Above,
+            _ => {
+                let msg = format!("expected '=', '<' or '>' after '{}', found {}", name.name, self.found());
+                let span = self.span_here();
+                self.diags.push(
+                    Diagnostic::new(Rule::Syntax, span, msg)
+                        .with_help(format!("write `{} = VALUE UNIT`", name.name)),
+                );
+                self.skip_line();
+                return None;
+            }
+        };
+        self.pos += 1;
+        let parts = self.parse_value()?;
+        Some(Prop {
+            span: name.span.join(Span::new(self.file, self.prev_end(), self.prev_end())),
+            name,
+            relation,
+            value: parts.value,
+            assumed: parts.assumed,
+            citations: parts.citations,
+        })
+    }
+
+    /// The tokens up to the end of the line (or `;` or `}`), handed to the value grammar.
+    fn parse_value(&mut self) -> Option<ValueParts> {
+        let begin = self.pos;
+        let mut depth = 0usize;
+        let mut max_depth = 0usize;
+        while let Some(k) = self.peek() {
+            match k {
+                Tok::Newline | Tok::Semi | Tok::RBrace | Tok::LBrace => break,
+                Tok::LParen | Tok::LBracket => {
+                    depth += 1;
+                    max_depth = max_depth.max(depth);
+                }
+                Tok::RParen | Tok::RBracket => depth = depth.saturating_sub(1),
+                _ => {}
+            }
+            self.pos += 1;
+        }
+        let slice = self.toks.get(begin..self.pos).unwrap_or(&[]);
+        let here = self.prev_end();
+        if slice.is_empty() {
+            let span = self.span_here();
+            self.error(span, "expected a value here");
+            return None;
+        }
+        let whole = Span::new(
+            self.file,
+            slice.first().map_or(here, |t| t.start),
+            slice.last().map_or(here, |t| t.end),
+        );
+        if max_depth > MAX_DEPTH {
+            self.diags.push(Diagnostic::new(
+                Rule::Syntax,
+                whole,
+                format!("parentheses nested more than {MAX_DEPTH} deep"),
+            ));
+            return Some(ValueParts {
+                value: PropValue::Expr(Expr {
+                    kind: ExprKind::Error,
+                    span: whole,
+                }),
+                assumed: None,
+                citations: Vec::new(),
+            });
+        }
+        let eoi = whole.end as usize..whole.end as usize;
+        let stream = Stream::from_iter(eoi, slice.iter().map(|t| (t.kind, t.start..t.end)));
+        let (out, errs) = self.value.parse_recovery(stream);
+        for e in errs {
+            let d = self.syntax_from_chumsky(e);
+            self.diags.push(d);
+        }
+        Some(out.unwrap_or(ValueParts {
+            value: PropValue::Expr(Expr {
+                kind: ExprKind::Error,
+                span: whole,
+            }),
+            assumed: None,
+            citations: Vec::new(),
+        }))
+    }
+
+    fn syntax_from_chumsky(&self, e: Simple<Tok>) -> Diagnostic {
+        let r = e.span();
+        let span = Span::new(self.file, r.start, r.end);
+        let found = match e.found() {
+            None => "end of line".to_string(),
+            Some(Tok::Ident | Tok::Number) => {
+                format!("'{}'", self.src.get(r.clone()).unwrap_or(""))
+            }
+            Some(Tok::Error) => format!("unexpected character '{}'", self.src.get(r.clone()).unwrap_or("")),
+            Some(k) => k.describe().to_string(),
+        };
+        if let chumsky::error::SimpleReason::Custom(msg) = e.reason() {
+            return Diagnostic::new(Rule::Syntax, span, msg.clone());
+        }
+        if let chumsky::error::SimpleReason::Unclosed { delimiter, .. } = e.reason() {
+            return Diagnostic::new(
+                Rule::Syntax,
+                span,
+                format!("unclosed {}", delimiter.describe()),
+            );
+        }
+        let mut expected: Vec<&str> = e
+            .expected()
+            .map(|t| match t {
+                Some(k) => k.describe(),
+                None => "end of line",
+            })
+            .collect();
+        expected.sort_unstable();
+        expected.dedup();
+        let msg = if expected.is_empty() {
+            format!("unexpected {found}")
+        } else {
+            format!("expected {}, found {found}", join_or(&expected))
+        };
+        let mut d = Diagnostic::new(Rule::Syntax, span, msg);
+        if e.found() == Some(&Tok::Ident) || e.found() == Some(&Tok::Number) {
+            d = d.with_help("a unit follows the whole measurement: `1.2 ± 0.1 Rjup`; to multiply, write `*`");
+        }
+        d
+    }
+}
+
+fn join_or(items: &[&str]) -> String {
+    match items {
+        [] => String::new(),
+        [one] => (*one).to_string(),
+        [init @ .., last] => format!("{} or {}", init.join(", "), last),
+    }
+}
+
+fn unescape(quoted: &str) -> String {
+    let inner = quoted
+        .strip_prefix('"')
+        .and_then(|s| s.strip_suffix('"'))
+        .unwrap_or(quoted);
+    let mut out = String::with_capacity(inner.len());
+    let mut chars = inner.chars();
+    while let Some(c) = chars.next() {
+        if c == '\\' {
+            match chars.next() {
+                Some('n') => out.push('\n'),
+                Some('t') => out.push('\t'),
+                Some(other) => out.push(other),
+                None => {}
+            }
+        } else {
+            out.push(c);
+        }
+    }
+    out
+}
+
+/// The chumsky grammar for one property value (see the module doc).
+fn value_parser<'a>(src: &'a str, file: FileId) -> ValueParser<'a> {
+    let sp = move |r: Range| Span::new(file, r.start, r.end);
+    let slice = move |r: &Range| src.get(r.clone()).unwrap_or("").to_string();
+
+    let ident = tok(Tok::Ident).map_with_span(move |_, r: Range| Ident {
+        name: slice(&r),
+        span: sp(r),
+    });
+    let number = tok(Tok::Number).map_with_span(move |_, r: Range| {
+        let v = src.get(r.clone()).unwrap_or("").parse::<f64>().unwrap_or(f64::NAN);
+        (v, sp(r))
+    });
+    let exponent = tok(Tok::Minus)
+        .or_not()
+        .then(tok(Tok::Number).map_with_span(move |_, r: Range| (slice(&r), r)))
+        .try_map(|(neg, (text, r)), _| {
+            let v: i32 = text
+                .parse()
+                .map_err(|_| Simple::custom(r.clone(), "a unit exponent must be a whole number"))?;
+            if v.abs() > 12 {
+                return Err(Simple::custom(r, "a unit exponent must lie between -12 and 12"));
+            }
+            Ok(if neg.is_some() { -v } else { v })
+        });
+    let factor = ident
+        .clone()
+        .then(tok(Tok::Caret).ignore_then(exponent).or_not())
+        .map(|(symbol, e)| UnitFactor {
+            symbol,
+            exponent: e.unwrap_or(1),
+        });
+    let unit = factor
+        .clone()
+        .then(
+            tok(Tok::Slash)
+                .or_not()
+                .then(factor)
+                .map(|(slash, mut f)| {
+                    if slash.is_some() {
+                        f.exponent = -f.exponent;
+                    }
+                    f
+                })
+                .repeated(),
+        )
+        .map_with_span(move |(first, rest), r: Range| {
+            let mut factors = vec![first];
+            factors.extend(rest);
+            UnitExpr {
+                factors,
+                span: sp(r),
+            }
+        });
+    let uncertainty = choice((
+        tok(Tok::PlusMinus)
+            .ignore_then(number.clone())
+            .map_with_span(move |(s, _), r: Range| Uncertainty::Symmetric(s, sp(r))),
+        tok(Tok::Plus)
+            .ignore_then(number.clone())
+            .then_ignore(tok(Tok::Slash))
+            .then_ignore(tok(Tok::Minus))
+            .then(number.clone())
+            .map_with_span(move |((p, _), (m, _)), r: Range| Uncertainty::Asymmetric {
+                plus: p,
+                minus: m,
+                span: sp(r),
+            }),
+    ));
+    let literal = number
+        .then(uncertainty.or_not())
+        .then(unit.or_not())
+        .map_with_span(move |(((value, value_span), unc), unit), r: Range| Expr {
+            kind: ExprKind::Literal(Literal {
+                value,
+                value_span,
+                uncertainty: unc.unwrap_or(Uncertainty::None),
+                unit,
+            }),
+            span: sp(r),
+        });
+
+    let expr = recursive(|expr| {
+        let call = ident
+            .clone()
+            .then(
+                expr.clone()
+                    .separated_by(tok(Tok::Comma))
+                    .delimited_by(tok(Tok::LParen), tok(Tok::RParen)),
+            )
+            .map_with_span(move |(f, args), r: Range| Expr {
+                kind: ExprKind::Call(f, args),
+                span: sp(r),
+            });
+        let reference = ident
+            .clone()
+            .then_ignore(tok(Tok::Dot))
+            .then(ident.clone())
+            .map_with_span(move |(b, q), r: Range| Expr {
+                kind: ExprKind::Ref(b, q),
+                span: sp(r),
+            });
+        let name = ident.clone().map(|i| {
+            let span = i.span;
+            Expr {
+                kind: ExprKind::Name(i),
+                span,
+            }
+        });
+        let paren = expr
+            .clone()
+            .delimited_by(tok(Tok::LParen), tok(Tok::RParen))
+            .recover_with(nested_delimiters(
+                Tok::LParen,
+                Tok::RParen,
+                [(Tok::LBracket, Tok::RBracket)],
+                move |r: Range| Expr {
+                    kind: ExprKind::Error,
+                    span: sp(r),
+                },
+            ));
+        let atom = choice((literal, call, reference, name, paren));
+        let power = atom
+            .clone()
+            .then(
+                tok(Tok::Caret)
+                    .ignore_then(tok(Tok::Minus).map_with_span(move |_, r: Range| sp(r)).or_not().then(atom))
+                    .repeated(),
+            )
+            .map(|(base, rest)| {
+                // Right-associative: a^b^c = a^(b^c).
+                let mut exps: Vec<Expr> = rest
+                    .into_iter()
+                    .map(|(neg, e)| match neg {
+                        Some(s) => Expr {
+                            span: s.join(e.span),
+                            kind: ExprKind::Neg(Box::new(e)),
+                        },
+                        None => e,
+                    })
+                    .collect();
+                let mut acc = match exps.pop() {
+                    Some(last) => last,
+                    None => return base,
+                };
+                while let Some(prev) = exps.pop() {
+                    acc = Expr {
+                        span: prev.span.join(acc.span),
+                        kind: ExprKind::Pow(Box::new(prev), Box::new(acc)),
+                    };
+                }
+                Expr {
+                    span: base.span.join(acc.span),
+                    kind: ExprKind::Pow(Box::new(base), Box::new(acc)),
+                }
+            });
+        let unary = tok(Tok::Minus)
+            .map_with_span(move |_, r: Range| sp(r))
+            .repeated()
+            .then(power)
+            .foldr(|s, e| Expr {
+                span: s.join(e.span),
+                kind: ExprKind::Neg(Box::new(e)),
+            });
+        let product = unary
+            .clone()
+            .then(
+                choice((tok(Tok::Star).to(BinOp::Mul), tok(Tok::Slash).to(BinOp::Div)))
+                    .then(unary)
+                    .repeated(),
+            )
+            .foldl(|a, (op, b)| Expr {
+                span: a.span.join(b.span),
+                kind: ExprKind::Binary(op, Box::new(a), Box::new(b)),
+            });
+        product
+            .clone()
+            .then(
+                choice((tok(Tok::Plus).to(BinOp::Add), tok(Tok::Minus).to(BinOp::Sub)))
+                    .then(product)
+                    .repeated(),
+            )
+            .foldl(|a, (op, b)| Expr {
+                span: a.span.join(b.span),
+                kind: ExprKind::Binary(op, Box::new(a), Box::new(b)),
+            })
+    });
+
+    let text = tok(Tok::Str).map_with_span(move |_, r: Range| {
+        PropValue::Text(unescape(src.get(r.clone()).unwrap_or("")), sp(r))
+    });
+    let citations = ident
+        .separated_by(tok(Tok::Comma))
+        .allow_trailing()
+        .at_least(1)
+        .delimited_by(tok(Tok::LBracket), tok(Tok::RBracket));
+    enum Trail {
+        Assumed(Span),
+        Cites(Vec<Ident>),
+    }
+    let trail = choice((
+        tok(Tok::Assumed).map_with_span(move |_, r: Range| Trail::Assumed(sp(r))),
+        citations.map(Trail::Cites),
+    ));
+    choice((text, expr.map(PropValue::Expr)))
+        .then(trail.repeated())
+        .then_ignore(end())
+        .map(|(value, trails)| {
+            let mut parts = ValueParts {
+                value,
+                assumed: None,
+                citations: Vec::new(),
+            };
+            for t in trails {
+                match t {
+                    Trail::Assumed(s) => parts.assumed = Some(s),
+                    Trail::Cites(c) => parts.citations.extend(c),
+                }
+            }
+            parts
+        })
+        .boxed()
+}
+
+#[cfg(test)]
+mod tests;
+
+fn tok(t: Tok) -> impl chumsky::Parser<Tok, Tok, Error = Simple<Tok>> + Clone {
+    just(t)
+}

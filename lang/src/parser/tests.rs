@@ -1,0 +1,133 @@
+use super::*;
+
+fn parse_ok(src: &str) -> File {
+    let p = parse(FileId(0), src);
+    assert!(p.diagnostics.is_empty(), "unexpected diagnostics: {:#?}", p.diagnostics);
+    p.file
+}
+
+fn messages(src: &str) -> Vec<String> {
+    parse(FileId(0), src)
+        .diagnostics
+        .into_iter()
+        .map(|d| d.message)
+        .collect()
+}
+
+const DEMO: &str = r#"
+ref rv1 "Demo radial-velocity campaign (invented data)"
+system "Veyra" {
+  star veyra {
+    mass     = 0.93 ± 0.04 Msun      [rv1]
+    radius   = 0.88 +0.03/-0.02 Rsun [rv1, ph1]
+    teff     = 5310 +- 80 K
+    spectral_type = "K0V"
+  }
+  planet b orbits veyra {
+    period = 3.52474 ± 0.00002 d; eccentricity < 0.08
+    albedo = 0.3 assumed
+    let twice = 2 * b.period
+  }
+}
+"#;
+
+#[test]
+fn demo_parses_with_all_measurement_forms() {
+    let f = parse_ok(DEMO);
+    assert_eq!(f.refs.len(), 1);
+    let sys = &f.systems[0];
+    assert_eq!(sys.name, "Veyra");
+    let star = &sys.bodies[0];
+    assert_eq!(star.props.len(), 4);
+    let ExprKind::Literal(m) = &match &star.props[0].value {
+        PropValue::Expr(e) => e.clone(),
+        PropValue::Text(..) => panic!("text"),
+    }
+    .kind
+    else {
+        panic!("not a literal")
+    };
+    assert_eq!(m.value, 0.93);
+    assert!(matches!(m.uncertainty, Uncertainty::Symmetric(s, _) if s == 0.04));
+    assert_eq!(m.unit.as_ref().map(|u| u.factors[0].symbol.name.as_str()), Some("Msun"));
+    assert_eq!(star.props[1].citations.len(), 2);
+    let PropValue::Expr(r) = &star.props[1].value else { panic!() };
+    let ExprKind::Literal(r) = &r.kind else { panic!() };
+    assert!(matches!(r.uncertainty, Uncertainty::Asymmetric { plus, minus, .. } if plus == 0.03 && minus == 0.02));
+    assert!(matches!(&star.props[3].value, PropValue::Text(t, _) if t == "K0V"));
+    let planet = &sys.bodies[1];
+    assert_eq!(planet.orbits.as_ref().map(|o| o.name.as_str()), Some("veyra"));
+    assert_eq!(planet.props[1].relation, Relation::Below);
+    assert!(planet.props[2].assumed.is_some());
+    assert_eq!(planet.lets.len(), 1);
+}
+
+#[test]
+fn unit_products_and_powers() {
+    let f = parse_ok("system \"S\" { star s { density = 1.4 g/cm^3; x = 3 km s^-1 } }");
+    let props = &f.systems[0].bodies[0].props;
+    let PropValue::Expr(e) = &props[0].value else { panic!() };
+    let ExprKind::Literal(l) = &e.kind else { panic!() };
+    let u = l.unit.as_ref().map(|u| {
+        u.factors
+            .iter()
+            .map(|f| (f.symbol.name.clone(), f.exponent))
+            .collect::<Vec<_>>()
+    });
+    assert_eq!(u, Some(vec![("g".into(), 1), ("cm".into(), -3)]));
+    let PropValue::Expr(e) = &props[1].value else { panic!() };
+    let ExprKind::Literal(l) = &e.kind else { panic!() };
+    assert_eq!(l.unit.as_ref().map(|u| u.factors[1].exponent), Some(-1));
+}
+
+#[test]
+fn precedence_and_right_associative_power() {
+    let f = parse_ok("system \"S\" { let x = 1 + 2 * 3 ^ 2 ^ 0.5 }");
+    let e = &f.systems[0].lets[0].value;
+    let ExprKind::Binary(BinOp::Add, _, rhs) = &e.kind else { panic!("{e:?}") };
+    let ExprKind::Binary(BinOp::Mul, _, pow) = &rhs.kind else { panic!() };
+    let ExprKind::Pow(_, exp) = &pow.kind else { panic!() };
+    assert!(matches!(exp.kind, ExprKind::Pow(..)));
+}
+
+#[test]
+fn one_mistake_does_not_hide_the_rest() {
+    let src = "system \"S\" {\n star s {\n mass = = 1 Msun\n radius 1 Rsun\n teff = 5000 K\n }\n}\n";
+    let p = parse(FileId(0), src);
+    assert_eq!(p.diagnostics.len(), 2, "{:#?}", p.diagnostics);
+    assert_eq!(p.file.systems[0].bodies[0].props.last().map(|p| p.name.name.as_str()), Some("teff"));
+}
+
+#[test]
+fn missing_brace_is_reported_at_the_next_body() {
+    let src = "system \"S\" {\n star s {\n mass = 1 Msun\n planet b orbits s {\n period = 3 d\n }\n}\n";
+    let p = parse(FileId(0), src);
+    assert!(p.diagnostics.iter().any(|d| d.message.contains("not closed")));
+    assert_eq!(p.file.systems[0].bodies.len(), 2);
+}
+
+#[test]
+fn hostile_inputs_never_panic() {
+    let deep = format!("system \"S\" {{ let x = {}1{} }}", "(".repeat(5000), ")".repeat(5000));
+    assert!(messages(&deep).iter().any(|m| m.contains("nested")));
+    for src in [
+        "",
+        "\u{0}\u{1}\u{2}",
+        "system \"open",
+        "system",
+        "system \"S\" {",
+        "system \"S\" { star s { mass = 1e999 Msun } }",
+        "}}}}{{{{",
+        "ref",
+        "system \"S\" { star s { mass = 1 ± } }",
+        "system \"S\" { star s { mass = (1 + } }",
+        "system \"S\" { star s { mass = 1 Msun^x } }",
+    ] {
+        let _ = parse(FileId(0), src);
+    }
+}
+
+#[test]
+fn unterminated_string_is_named() {
+    assert!(messages("ref a \"never closed\n").iter().any(|m| m.contains("unterminated")));
+}

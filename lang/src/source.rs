@@ -1,0 +1,227 @@
+//! Source files, spans and line indexes.
+//!
+//! A [`Span`] is an end-exclusive byte range in one file. The core never reads the file
+//! system: front ends hand it text through a [`SourceDb`]. [`LineIndex`] turns byte offsets
+//! into 1-based lines and columns (in characters, for people) and into UTF-16 positions (for
+//! the Language Server Protocol), and back.
+
+use serde::Serialize;
+
+/// Identifies one source file inside a [`SourceDb`].
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, Serialize, Default)]
+pub struct FileId(pub u32);
+
+/// An end-exclusive byte range in one file.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, Default)]
+pub struct Span {
+    pub file: FileId,
+    pub start: u32,
+    pub end: u32,
+}
+
+impl Span {
+    pub fn new(file: FileId, start: usize, end: usize) -> Span {
+        Span {
+            file,
+            start: clamp_u32(start),
+            end: clamp_u32(end.max(start)),
+        }
+    }
+
+    /// The smallest span covering both.
+    pub fn join(self, other: Span) -> Span {
+        Span {
+            file: self.file,
+            start: self.start.min(other.start),
+            end: self.end.max(other.end),
+        }
+    }
+
+    pub fn range(self) -> std::ops::Range<usize> {
+        self.start as usize..self.end as usize
+    }
+
+    pub fn contains(self, offset: usize) -> bool {
+        (self.start as usize) <= offset && offset <= (self.end as usize)
+    }
+}
+
+fn clamp_u32(v: usize) -> u32 {
+    u32::try_from(v).unwrap_or(u32::MAX)
+}
+
+/// Where the core gets source text from. The CLI reads files, the language server keeps
+/// open buffers, the tests keep strings in memory.
+pub trait SourceDb {
+    fn name(&self, file: FileId) -> &str;
+    fn text(&self, file: FileId) -> &str;
+}
+
+/// The simplest [`SourceDb`]: named texts in memory.
+#[derive(Debug, Default, Clone)]
+pub struct MemoryDb {
+    files: Vec<(String, String)>,
+}
+
+impl MemoryDb {
+    pub fn new() -> MemoryDb {
+        MemoryDb::default()
+    }
+
+    pub fn add(&mut self, name: impl Into<String>, text: impl Into<String>) -> FileId {
+        self.files.push((name.into(), text.into()));
+        FileId(clamp_u32(self.files.len() - 1))
+    }
+
+    pub fn files(&self) -> impl Iterator<Item = FileId> + '_ {
+        (0..self.files.len()).map(|i| FileId(clamp_u32(i)))
+    }
+}
+
+impl SourceDb for MemoryDb {
+    fn name(&self, file: FileId) -> &str {
+        self.files
+            .get(file.0 as usize)
+            .map(|f| f.0.as_str())
+            .unwrap_or("<unknown>")
+    }
+    fn text(&self, file: FileId) -> &str {
+        self.files
+            .get(file.0 as usize)
+            .map(|f| f.1.as_str())
+            .unwrap_or("")
+    }
+}
+
+/// A 1-based line and column; the column counts characters (Unicode scalar values).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+pub struct LineCol {
+    pub line: u32,
+    pub column: u32,
+}
+
+/// Byte offsets of line starts, for turning spans into positions and back.
+#[derive(Debug, Clone)]
+pub struct LineIndex {
+    starts: Vec<usize>,
+    len: usize,
+}
+
+impl LineIndex {
+    pub fn new(text: &str) -> LineIndex {
+        let mut starts = vec![0];
+        starts.extend(text.match_indices('\n').map(|(i, _)| i + 1));
+        LineIndex {
+            starts,
+            len: text.len(),
+        }
+    }
+
+    /// The 0-based line holding `offset` and that line's start offset.
+    fn line_of(&self, offset: usize) -> (usize, usize) {
+        let offset = offset.min(self.len);
+        let line = match self.starts.binary_search(&offset) {
+            Ok(l) => l,
+            Err(l) => l.saturating_sub(1),
+        };
+        (line, self.starts.get(line).copied().unwrap_or(0))
+    }
+
+    /// 1-based line and character column of a byte offset.
+    pub fn line_col(&self, text: &str, offset: usize) -> LineCol {
+        let (line, start) = self.line_of(offset);
+        let offset = floor_char_boundary(text, offset.min(text.len()));
+        let column = text.get(start..offset).map_or(0, |s| s.chars().count());
+        LineCol {
+            line: clamp_u32(line + 1),
+            column: clamp_u32(column + 1),
+        }
+    }
+
+    /// 0-based line and UTF-16 column of a byte offset (the protocol's default encoding).
+    pub fn utf16_position(&self, text: &str, offset: usize) -> (u32, u32) {
+        let (line, start) = self.line_of(offset);
+        let offset = floor_char_boundary(text, offset.min(text.len()));
+        let col: usize = text
+            .get(start..offset)
+            .map_or(0, |s| s.chars().map(char::len_utf16).sum());
+        (clamp_u32(line), clamp_u32(col))
+    }
+
+    /// 0-based line and UTF-8 byte column of a byte offset.
+    pub fn utf8_position(&self, offset: usize) -> (u32, u32) {
+        let (line, start) = self.line_of(offset);
+        (clamp_u32(line), clamp_u32(offset.min(self.len) - start))
+    }
+
+    /// The byte offset of a 0-based line and UTF-16 column; positions past the end of a line
+    /// or of the file are clamped, as the protocol asks.
+    pub fn offset_of_utf16(&self, text: &str, line: u32, col: u32) -> usize {
+        let Some(&start) = self.starts.get(line as usize) else {
+            return text.len();
+        };
+        let end = self
+            .starts
+            .get(line as usize + 1)
+            .map_or(text.len(), |&e| e.saturating_sub(1));
+        let mut units = 0usize;
+        for (i, ch) in text.get(start..end).unwrap_or("").char_indices() {
+            if units >= col as usize {
+                return start + i;
+            }
+            units += ch.len_utf16();
+        }
+        end
+    }
+
+    /// The byte offset of a 0-based line and UTF-8 column, clamped like the UTF-16 form.
+    pub fn offset_of_utf8(&self, text: &str, line: u32, col: u32) -> usize {
+        let Some(&start) = self.starts.get(line as usize) else {
+            return text.len();
+        };
+        let end = self
+            .starts
+            .get(line as usize + 1)
+            .map_or(text.len(), |&e| e.saturating_sub(1));
+        floor_char_boundary(text, (start + col as usize).min(end))
+    }
+
+    pub fn line_count(&self) -> usize {
+        self.starts.len()
+    }
+}
+
+fn floor_char_boundary(text: &str, mut offset: usize) -> usize {
+    while offset > 0 && !text.is_char_boundary(offset) {
+        offset -= 1;
+    }
+    offset
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn line_col_counts_characters_not_bytes() {
+        let text = "a ± b\nsecond";
+        let idx = LineIndex::new(text);
+        let b = text.find('b').unwrap_or(0);
+        assert_eq!(idx.line_col(text, b), LineCol { line: 1, column: 5 });
+        let s = text.find("second").unwrap_or(0);
+        assert_eq!(idx.line_col(text, s), LineCol { line: 2, column: 1 });
+    }
+
+    #[test]
+    fn utf16_round_trip_with_astral_characters() {
+        let text = "x = 1 M☉ 𝑀\nnext";
+        let idx = LineIndex::new(text);
+        for (off, _) in text.char_indices() {
+            let (l, c) = idx.utf16_position(text, off);
+            assert_eq!(idx.offset_of_utf16(text, l, c), off);
+        }
+        // Past the end of the line and of the file are clamped.
+        assert_eq!(idx.offset_of_utf16(text, 0, 999), text.find('\n').unwrap_or(0));
+        assert_eq!(idx.offset_of_utf16(text, 99, 0), text.len());
+    }
+}
