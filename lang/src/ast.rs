@@ -146,7 +146,11 @@ pub enum Uncertainty {
     /// `± s`
     Symmetric(f64, Span),
     /// `+p/-m`: the uncertainty above (plus) and below (minus) the value.
-    Asymmetric { plus: f64, minus: f64, span: Span },
+    Asymmetric {
+        plus: f64,
+        minus: f64,
+        span: Span,
+    },
 }
 
 #[derive(Debug, Clone, PartialEq)]

@@ -83,7 +83,7 @@ mod tests {
     #[test]
     fn parsec_and_light_year_match_iau_figures() {
         // IAU 2015 B2: 1 pc = 3.085 677 581 491 3673e16 m (to the digits quoted there).
-        assert!((PARSEC / 3.085_677_581_491_367_3e16 - 1.0).abs() < 1e-14);
+        assert!((PARSEC / 3.085_677_581_491_367e16 - 1.0).abs() < 1e-14);
         // IAU: 1 ly = 9 460 730 472 580 800 m exactly.
         assert_eq!(LIGHT_YEAR, 9_460_730_472_580_800.0);
     }

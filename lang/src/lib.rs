@@ -4,9 +4,71 @@
 //! derivations → physics checks → [`diagnostic`]s. The core does no I/O: front ends give it
 //! text through [`source::SourceDb`].
 
+#![cfg_attr(test, allow(clippy::unwrap_used, clippy::indexing_slicing))]
+
 pub mod ast;
+pub mod composition;
 pub mod constants;
+pub mod derive;
 pub mod diagnostic;
+pub mod format;
+pub mod formulas;
 pub mod lexer;
+pub mod model;
 pub mod parser;
+pub mod quantities;
+pub mod report;
+pub mod solar_system;
 pub mod source;
+pub mod text;
+pub mod units;
+
+use std::collections::HashMap;
+
+pub use derive::{Options, Propagation};
+
+/// Everything the core knows about one file.
+pub struct Analysis {
+    pub file: source::FileId,
+    pub ast: ast::File,
+    pub model: model::Model,
+    /// One result per system, in the order of `model.systems`.
+    pub results: Vec<derive::SystemResult>,
+    /// Composition summaries per (system index, planet id), as JSON and as a line of text.
+    pub composition: HashMap<(usize, String), serde_json::Value>,
+    pub composition_text: HashMap<(usize, String), String>,
+    pub diagnostics: Vec<diagnostic::Diagnostic>,
+}
+
+impl Analysis {
+    pub fn has_errors(&self) -> bool {
+        self.diagnostics
+            .iter()
+            .any(|d| d.severity == diagnostic::Severity::Error)
+    }
+}
+
+/// Run the whole pipeline on one source text: parse, lower, derive, check.
+pub fn analyze(file: source::FileId, src: &str, options: &Options) -> Analysis {
+    let parsed = parser::parse(file, src);
+    let mut diagnostics = parsed.diagnostics;
+    let model = model::lower(file, &parsed.file, &mut diagnostics);
+    let mut results = Vec::with_capacity(model.systems.len());
+    let composition = HashMap::new();
+    let composition_text = HashMap::new();
+    for sys in &model.systems {
+        let d = derive::Derivation::run(sys, options);
+        diagnostics.extend(d.diagnostics.iter().cloned());
+        results.push(d.summarize());
+    }
+    diagnostic::sort_diagnostics(&mut diagnostics);
+    Analysis {
+        file,
+        ast: parsed.file,
+        model,
+        results,
+        composition,
+        composition_text,
+        diagnostics,
+    }
+}

@@ -307,7 +307,8 @@ impl<'a> Cursor<'a> {
             self.skip_line();
             return None;
         }
-        let (name, name_span) = name.unwrap_or_else(|| (String::new(), Span::new(self.file, start, start)));
+        let (name, name_span) =
+            name.unwrap_or_else(|| (String::new(), Span::new(self.file, start, start)));
         let mut sys = SystemDecl {
             name,
             name_span,
@@ -344,9 +345,13 @@ impl<'a> Cursor<'a> {
                 Some(Tok::System) => {
                     let span = self.span_here();
                     self.diags.push(
-                        Diagnostic::new(Rule::Syntax, sys.name_span, "this system is not closed before the next one")
-                            .with_label(span, "the next system starts here")
-                            .with_help("add '}' to close the system"),
+                        Diagnostic::new(
+                            Rule::Syntax,
+                            sys.name_span,
+                            "this system is not closed before the next one",
+                        )
+                        .with_label(span, "the next system starts here")
+                        .with_help("add '}' to close the system"),
                     );
                     break;
                 }
@@ -434,9 +439,13 @@ impl<'a> Cursor<'a> {
                 Some(Tok::StarKw | Tok::Planet | Tok::System) => {
                     let span = self.span_here();
                     self.diags.push(
-                        Diagnostic::new(Rule::Syntax, body.name.span, "this body is not closed before the next declaration")
-                            .with_label(span, "the next declaration starts here")
-                            .with_help("add '}' after the body's last property"),
+                        Diagnostic::new(
+                            Rule::Syntax,
+                            body.name.span,
+                            "this body is not closed before the next declaration",
+                        )
+                        .with_label(span, "the next declaration starts here")
+                        .with_help("add '}' after the body's last property"),
                     );
                     break;
                 }
@@ -477,7 +486,10 @@ impl<'a> Cursor<'a> {
         let value = match parts.value {
             PropValue::Expr(e) => e,
             PropValue::Text(_, s) => {
-                self.error(s, "a 'let' binding takes a number or an expression, not text");
+                self.error(
+                    s,
+                    "a 'let' binding takes a number or an expression, not text",
+                );
                 Expr {
                     kind: ExprKind::Error,
                     span: s,
@@ -488,7 +500,10 @@ impl<'a> Cursor<'a> {
             self.error(s, "'assumed' belongs on a property, not on a 'let' binding");
         }
         if let Some(c) = parts.citations.first() {
-            self.error(c.span, "citations belong on a property, not on a 'let' binding");
+            self.error(
+                c.span,
+                "citations belong on a property, not on a 'let' binding",
+            );
         }
         Some(LetDecl {
             name: name?,
@@ -504,7 +519,11 @@ impl<'a> Cursor<'a> {
             Some(Tok::Lt) => Relation::Below,
             Some(Tok::Gt) => Relation::Above,
             _ => {
-                let msg = format!("expected '=', '<' or '>' after '{}', found {}", name.name, self.found());
+                let msg = format!(
+                    "expected '=', '<' or '>' after '{}', found {}",
+                    name.name,
+                    self.found()
+                );
                 let span = self.span_here();
                 self.diags.push(
                     Diagnostic::new(Rule::Syntax, span, msg)
@@ -517,7 +536,9 @@ impl<'a> Cursor<'a> {
         self.pos += 1;
         let parts = self.parse_value()?;
         Some(Prop {
-            span: name.span.join(Span::new(self.file, self.prev_end(), self.prev_end())),
+            span: name
+                .span
+                .join(Span::new(self.file, self.prev_end(), self.prev_end())),
             name,
             relation,
             value: parts.value,
@@ -595,7 +616,10 @@ impl<'a> Cursor<'a> {
             Some(Tok::Ident | Tok::Number) => {
                 format!("'{}'", self.src.get(r.clone()).unwrap_or(""))
             }
-            Some(Tok::Error) => format!("unexpected character '{}'", self.src.get(r.clone()).unwrap_or("")),
+            Some(Tok::Error) => format!(
+                "unexpected character '{}'",
+                self.src.get(r.clone()).unwrap_or("")
+            ),
             Some(k) => k.describe().to_string(),
         };
         if let chumsky::error::SimpleReason::Custom(msg) = e.reason() {
@@ -624,7 +648,9 @@ impl<'a> Cursor<'a> {
         };
         let mut d = Diagnostic::new(Rule::Syntax, span, msg);
         if e.found() == Some(&Tok::Ident) || e.found() == Some(&Tok::Number) {
-            d = d.with_help("a unit follows the whole measurement: `1.2 ± 0.1 Rjup`; to multiply, write `*`");
+            d = d.with_help(
+                "a unit follows the whole measurement: `1.2 ± 0.1 Rjup`; to multiply, write `*`",
+            );
         }
         d
     }
@@ -670,7 +696,11 @@ fn value_parser<'a>(src: &'a str, file: FileId) -> ValueParser<'a> {
         span: sp(r),
     });
     let number = tok(Tok::Number).map_with_span(move |_, r: Range| {
-        let v = src.get(r.clone()).unwrap_or("").parse::<f64>().unwrap_or(f64::NAN);
+        let v = src
+            .get(r.clone())
+            .unwrap_or("")
+            .parse::<f64>()
+            .unwrap_or(f64::NAN);
         (v, sp(r))
     });
     let exponent = tok(Tok::Minus)
@@ -681,7 +711,10 @@ fn value_parser<'a>(src: &'a str, file: FileId) -> ValueParser<'a> {
                 .parse()
                 .map_err(|_| Simple::custom(r.clone(), "a unit exponent must be a whole number"))?;
             if v.abs() > 12 {
-                return Err(Simple::custom(r, "a unit exponent must lie between -12 and 12"));
+                return Err(Simple::custom(
+                    r,
+                    "a unit exponent must lie between -12 and 12",
+                ));
             }
             Ok(if neg.is_some() { -v } else { v })
         });
@@ -786,7 +819,12 @@ fn value_parser<'a>(src: &'a str, file: FileId) -> ValueParser<'a> {
             .clone()
             .then(
                 tok(Tok::Caret)
-                    .ignore_then(tok(Tok::Minus).map_with_span(move |_, r: Range| sp(r)).or_not().then(atom))
+                    .ignore_then(
+                        tok(Tok::Minus)
+                            .map_with_span(move |_, r: Range| sp(r))
+                            .or_not()
+                            .then(atom),
+                    )
                     .repeated(),
             )
             .map(|(base, rest)| {
@@ -827,9 +865,12 @@ fn value_parser<'a>(src: &'a str, file: FileId) -> ValueParser<'a> {
         let product = unary
             .clone()
             .then(
-                choice((tok(Tok::Star).to(BinOp::Mul), tok(Tok::Slash).to(BinOp::Div)))
-                    .then(unary)
-                    .repeated(),
+                choice((
+                    tok(Tok::Star).to(BinOp::Mul),
+                    tok(Tok::Slash).to(BinOp::Div),
+                ))
+                .then(unary)
+                .repeated(),
             )
             .foldl(|a, (op, b)| Expr {
                 span: a.span.join(b.span),
@@ -838,9 +879,12 @@ fn value_parser<'a>(src: &'a str, file: FileId) -> ValueParser<'a> {
         product
             .clone()
             .then(
-                choice((tok(Tok::Plus).to(BinOp::Add), tok(Tok::Minus).to(BinOp::Sub)))
-                    .then(product)
-                    .repeated(),
+                choice((
+                    tok(Tok::Plus).to(BinOp::Add),
+                    tok(Tok::Minus).to(BinOp::Sub),
+                ))
+                .then(product)
+                .repeated(),
             )
             .foldl(|a, (op, b)| Expr {
                 span: a.span.join(b.span),

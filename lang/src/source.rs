@@ -221,7 +221,10 @@ mod tests {
             assert_eq!(idx.offset_of_utf16(text, l, c), off);
         }
         // Past the end of the line and of the file are clamped.
-        assert_eq!(idx.offset_of_utf16(text, 0, 999), text.find('\n').unwrap_or(0));
+        assert_eq!(
+            idx.offset_of_utf16(text, 0, 999),
+            text.find('\n').unwrap_or(0)
+        );
         assert_eq!(idx.offset_of_utf16(text, 99, 0), text.len());
     }
 }

@@ -2,7 +2,11 @@ use super::*;
 
 fn parse_ok(src: &str) -> File {
     let p = parse(FileId(0), src);
-    assert!(p.diagnostics.is_empty(), "unexpected diagnostics: {:#?}", p.diagnostics);
+    assert!(
+        p.diagnostics.is_empty(),
+        "unexpected diagnostics: {:#?}",
+        p.diagnostics
+    );
     p.file
 }
 
@@ -49,14 +53,26 @@ fn demo_parses_with_all_measurement_forms() {
     };
     assert_eq!(m.value, 0.93);
     assert!(matches!(m.uncertainty, Uncertainty::Symmetric(s, _) if s == 0.04));
-    assert_eq!(m.unit.as_ref().map(|u| u.factors[0].symbol.name.as_str()), Some("Msun"));
+    assert_eq!(
+        m.unit.as_ref().map(|u| u.factors[0].symbol.name.as_str()),
+        Some("Msun")
+    );
     assert_eq!(star.props[1].citations.len(), 2);
-    let PropValue::Expr(r) = &star.props[1].value else { panic!() };
-    let ExprKind::Literal(r) = &r.kind else { panic!() };
-    assert!(matches!(r.uncertainty, Uncertainty::Asymmetric { plus, minus, .. } if plus == 0.03 && minus == 0.02));
+    let PropValue::Expr(r) = &star.props[1].value else {
+        panic!()
+    };
+    let ExprKind::Literal(r) = &r.kind else {
+        panic!()
+    };
+    assert!(
+        matches!(r.uncertainty, Uncertainty::Asymmetric { plus, minus, .. } if plus == 0.03 && minus == 0.02)
+    );
     assert!(matches!(&star.props[3].value, PropValue::Text(t, _) if t == "K0V"));
     let planet = &sys.bodies[1];
-    assert_eq!(planet.orbits.as_ref().map(|o| o.name.as_str()), Some("veyra"));
+    assert_eq!(
+        planet.orbits.as_ref().map(|o| o.name.as_str()),
+        Some("veyra")
+    );
     assert_eq!(planet.props[1].relation, Relation::Below);
     assert!(planet.props[2].assumed.is_some());
     assert_eq!(planet.lets.len(), 1);
@@ -66,8 +82,12 @@ fn demo_parses_with_all_measurement_forms() {
 fn unit_products_and_powers() {
     let f = parse_ok("system \"S\" { star s { density = 1.4 g/cm^3; x = 3 km s^-1 } }");
     let props = &f.systems[0].bodies[0].props;
-    let PropValue::Expr(e) = &props[0].value else { panic!() };
-    let ExprKind::Literal(l) = &e.kind else { panic!() };
+    let PropValue::Expr(e) = &props[0].value else {
+        panic!()
+    };
+    let ExprKind::Literal(l) = &e.kind else {
+        panic!()
+    };
     let u = l.unit.as_ref().map(|u| {
         u.factors
             .iter()
@@ -75,8 +95,12 @@ fn unit_products_and_powers() {
             .collect::<Vec<_>>()
     });
     assert_eq!(u, Some(vec![("g".into(), 1), ("cm".into(), -3)]));
-    let PropValue::Expr(e) = &props[1].value else { panic!() };
-    let ExprKind::Literal(l) = &e.kind else { panic!() };
+    let PropValue::Expr(e) = &props[1].value else {
+        panic!()
+    };
+    let ExprKind::Literal(l) = &e.kind else {
+        panic!()
+    };
     assert_eq!(l.unit.as_ref().map(|u| u.factors[1].exponent), Some(-1));
 }
 
@@ -84,31 +108,52 @@ fn unit_products_and_powers() {
 fn precedence_and_right_associative_power() {
     let f = parse_ok("system \"S\" { let x = 1 + 2 * 3 ^ 2 ^ 0.5 }");
     let e = &f.systems[0].lets[0].value;
-    let ExprKind::Binary(BinOp::Add, _, rhs) = &e.kind else { panic!("{e:?}") };
-    let ExprKind::Binary(BinOp::Mul, _, pow) = &rhs.kind else { panic!() };
-    let ExprKind::Pow(_, exp) = &pow.kind else { panic!() };
+    let ExprKind::Binary(BinOp::Add, _, rhs) = &e.kind else {
+        panic!("{e:?}")
+    };
+    let ExprKind::Binary(BinOp::Mul, _, pow) = &rhs.kind else {
+        panic!()
+    };
+    let ExprKind::Pow(_, exp) = &pow.kind else {
+        panic!()
+    };
     assert!(matches!(exp.kind, ExprKind::Pow(..)));
 }
 
 #[test]
 fn one_mistake_does_not_hide_the_rest() {
-    let src = "system \"S\" {\n star s {\n mass = = 1 Msun\n radius 1 Rsun\n teff = 5000 K\n }\n}\n";
+    let src =
+        "system \"S\" {\n star s {\n mass = = 1 Msun\n radius 1 Rsun\n teff = 5000 K\n }\n}\n";
     let p = parse(FileId(0), src);
     assert_eq!(p.diagnostics.len(), 2, "{:#?}", p.diagnostics);
-    assert_eq!(p.file.systems[0].bodies[0].props.last().map(|p| p.name.name.as_str()), Some("teff"));
+    assert_eq!(
+        p.file.systems[0].bodies[0]
+            .props
+            .last()
+            .map(|p| p.name.name.as_str()),
+        Some("teff")
+    );
 }
 
 #[test]
 fn missing_brace_is_reported_at_the_next_body() {
-    let src = "system \"S\" {\n star s {\n mass = 1 Msun\n planet b orbits s {\n period = 3 d\n }\n}\n";
+    let src =
+        "system \"S\" {\n star s {\n mass = 1 Msun\n planet b orbits s {\n period = 3 d\n }\n}\n";
     let p = parse(FileId(0), src);
-    assert!(p.diagnostics.iter().any(|d| d.message.contains("not closed")));
+    assert!(p
+        .diagnostics
+        .iter()
+        .any(|d| d.message.contains("not closed")));
     assert_eq!(p.file.systems[0].bodies.len(), 2);
 }
 
 #[test]
 fn hostile_inputs_never_panic() {
-    let deep = format!("system \"S\" {{ let x = {}1{} }}", "(".repeat(5000), ")".repeat(5000));
+    let deep = format!(
+        "system \"S\" {{ let x = {}1{} }}",
+        "(".repeat(5000),
+        ")".repeat(5000)
+    );
     assert!(messages(&deep).iter().any(|m| m.contains("nested")));
     for src in [
         "",
@@ -129,5 +174,7 @@ fn hostile_inputs_never_panic() {
 
 #[test]
 fn unterminated_string_is_named() {
-    assert!(messages("ref a \"never closed\n").iter().any(|m| m.contains("unterminated")));
+    assert!(messages("ref a \"never closed\n")
+        .iter()
+        .any(|m| m.contains("unterminated")));
 }

@@ -1,0 +1,1026 @@
+//! The derivation engine: every quantity that a system's measurements imply.
+//!
+//! Declared measurements become independent inputs. Rules ([`rules::RULES`]) fire in rounds:
+//! a rule fires once all its inputs are known and none of them was itself derived from the
+//! rule's output (so no value is ever used to confirm itself). When a quantity is first
+//! reachable in a round, the best route of that round becomes its value — routes are ranked
+//! by how complete their physics is, then by precision. Routes found later, and routes to
+//! quantities the user declared, are kept as alternatives and compared: a difference over the
+//! consistency threshold (3 combined sigma by default) is an `inconsistent` warning.
+//!
+//! Uncertainties are propagated by Monte Carlo (default) or to first order; see
+//! [`value`]. A few quantities have defaults when not declared (circular orbit, zero Bond
+//! albedo, full heat redistribution); a default that a result used is listed with it.
+
+pub mod rules;
+pub mod value;
+
+use crate::ast::{self, BinOp, BodyKind, ExprKind, Uncertainty};
+use crate::diagnostic::{Diagnostic, Rule};
+use crate::model::{self, Content, Form, Measurement, System};
+use crate::quantities::{self, Qty};
+use crate::source::Span;
+use rules::{RuleDef, Slot, RULES};
+use std::collections::{BTreeMap, BTreeSet, HashMap};
+pub use value::{InputInfo, Value};
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Propagation {
+    MonteCarlo,
+    Linear,
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct Options {
+    pub propagation: Propagation,
+    /// Monte Carlo sample count.
+    pub samples: usize,
+    pub seed: u64,
+    /// Declared and derived values further apart than this many combined standard
+    /// deviations are reported as `inconsistent`.
+    pub consistency_sigma: f64,
+}
+
+impl Default for Options {
+    fn default() -> Options {
+        Options {
+            propagation: Propagation::MonteCarlo,
+            samples: 10_000,
+            seed: 0x5359_5a59,
+            consistency_sigma: 3.0,
+        }
+    }
+}
+
+impl Options {
+    pub fn linear() -> Options {
+        Options {
+            propagation: Propagation::Linear,
+            ..Options::default()
+        }
+    }
+}
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Origin {
+    /// Measured and declared by the user.
+    Declared,
+    /// Declared with `assumed`: chosen by the user, not measured.
+    Assumed,
+    /// Computed by a rule.
+    Derived,
+    /// A default the engine supplied because a rule needed it.
+    Default,
+}
+
+impl Origin {
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Origin::Declared => "declared",
+            Origin::Assumed => "assumed",
+            Origin::Derived => "derived",
+            Origin::Default => "default",
+        }
+    }
+}
+
+/// A reference to a quantity of a body in the same system.
+pub type Key = (usize, Qty);
+
+/// One quantity of one body as reported.
+#[derive(Debug, Clone, PartialEq)]
+pub struct QuantityResult {
+    pub qty: Qty,
+    pub origin: Origin,
+    /// SI value and uncertainty below and above (zero for exact values and limits).
+    pub value: f64,
+    pub below: f64,
+    pub above: f64,
+    pub form: Form,
+    pub text: Option<String>,
+    pub rule: Option<&'static str>,
+    pub formula: Option<&'static str>,
+    pub inputs: Vec<Key>,
+    pub citations: Vec<String>,
+    /// Where it was declared.
+    pub span: Option<Span>,
+    /// Share of the variance per independent input (label, fraction), largest first.
+    pub budget: Vec<(String, f64)>,
+    /// What was assumed on the way (defaults, approximations), in words.
+    pub assumptions: Vec<String>,
+    pub notes: Vec<String>,
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct BodyResult {
+    pub quantities: Vec<QuantityResult>,
+}
+
+impl BodyResult {
+    pub fn get(&self, qty: Qty) -> Option<&QuantityResult> {
+        self.quantities.iter().find(|q| q.qty == qty)
+    }
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct SystemResult {
+    pub bodies: Vec<BodyResult>,
+}
+
+#[derive(Debug, Clone)]
+struct Entry {
+    value: Value,
+    origin: Origin,
+    rule: Option<usize>,
+    inputs: Vec<Key>,
+    deps: BTreeSet<Key>,
+    assumptions: BTreeSet<String>,
+}
+
+#[derive(Debug, Clone)]
+struct Candidate {
+    rule: usize,
+    value: Value,
+    inputs: Vec<Key>,
+    deps: BTreeSet<Key>,
+    assumptions: BTreeSet<String>,
+}
+
+/// A system's derivation with its full values (samples included). Physics checks read it;
+/// [`Derivation::summarize`] reduces it to what is reported.
+pub struct Derivation<'m> {
+    pub sys: &'m System,
+    pub options: Options,
+    entries: BTreeMap<Key, Entry>,
+    candidates: BTreeMap<Key, Vec<Candidate>>,
+    pub inputs: Vec<InputInfo>,
+    literal_inputs: HashMap<Span, u32>,
+    used: BTreeSet<Key>,
+    pub diagnostics: Vec<Diagnostic>,
+}
+
+/// What a rule or assumption stands for in words.
+fn rule_assumption(id: &str) -> Option<&'static str> {
+    Some(match id {
+        "depth-radius-ratio" | "radius-ratio-depth" => {
+            "transit depth = (Rp/R*)^2: limb darkening neglected"
+        }
+        "kepler-third-law-min-mass" | "hill-radius-min-mass" => {
+            "the minimum mass stands in for the true mass"
+        }
+        "kepler-third-law-light-planet"
+        | "kepler-period-light-planet"
+        | "kepler-stellar-mass-light-planet" => {
+            "the planet's mass is neglected in Kepler's third law"
+        }
+        "stellar-density-from-transit" => "the planet's mass is neglected against the star's",
+        "equilibrium-temperature" => {
+            "the star radiates as a blackbody; the planet sits at distance a"
+        }
+        "insolation" => "flux at the semi-major axis (not orbit-averaged)",
+        _ => return None,
+    })
+}
+
+/// Defaults for planet quantities that rules need, with the words shown when used.
+fn default_for(q: Qty) -> Option<(f64, &'static str)> {
+    Some(match q {
+        Qty::Eccentricity => (0.0, "eccentricity = 0 (default: circular orbit)"),
+        Qty::ArgPeriastron => (
+            std::f64::consts::FRAC_PI_2,
+            "argument of periastron = 90 deg (default; no effect on a circular orbit)",
+        ),
+        Qty::Albedo => (0.0, "Bond albedo = 0 (default)"),
+        Qty::Redistribution => (
+            1.0,
+            "heat redistribution f = 1 (default: full redistribution)",
+        ),
+        _ => return None,
+    })
+}
+
+fn is_pending<T>(r: &Result<T, Pending>) -> bool {
+    matches!(r, Err(Pending::Waiting))
+}
+
+#[derive(Debug)]
+enum Pending {
+    /// A referenced quantity is not known yet.
+    Waiting,
+    /// The expression cannot be evaluated (reported).
+    Failed,
+}
+
+impl<'m> Derivation<'m> {
+    pub fn run(sys: &'m System, options: &Options) -> Derivation<'m> {
+        let mut d = Derivation {
+            sys,
+            options: options.clone(),
+            entries: BTreeMap::new(),
+            candidates: BTreeMap::new(),
+            inputs: Vec::new(),
+            literal_inputs: HashMap::new(),
+            used: BTreeSet::new(),
+            diagnostics: Vec::new(),
+        };
+        d.declare_measurements();
+        d.fixed_point();
+        d.check_consistency();
+        d
+    }
+
+    fn n(&self) -> usize {
+        match self.options.propagation {
+            Propagation::MonteCarlo => self.options.samples.max(1),
+            Propagation::Linear => 0,
+        }
+    }
+
+    fn new_input(&mut self, label: String, m: &Measurement, lo: f64, hi: f64) -> Value {
+        let id = u32::try_from(self.inputs.len()).unwrap_or(u32::MAX);
+        let (below, above) = match m.form {
+            Form::UpperLimit | Form::LowerLimit => {
+                let width = if m.form == Form::UpperLimit {
+                    m.value - lo
+                } else {
+                    hi - m.value
+                };
+                let s = width / 12f64.sqrt();
+                (s, s)
+            }
+            _ => (m.below, m.above),
+        };
+        let nominal = match m.form {
+            Form::UpperLimit => (lo + m.value) / 2.0,
+            Form::LowerLimit => (m.value + hi) / 2.0,
+            _ => m.value,
+        };
+        let n = self.n();
+        let samples = (n > 0).then(|| {
+            let seed = value::stable_hash(&[&self.sys.name, &label], self.options.seed);
+            std::sync::Arc::from(value::draw(m, lo, hi, n, seed))
+        });
+        self.inputs.push(InputInfo {
+            label,
+            below,
+            above,
+        });
+        let exact = below == 0.0 && above == 0.0;
+        Value {
+            nominal,
+            grad: if exact { Vec::new() } else { vec![(id, 1.0)] },
+            samples,
+        }
+    }
+
+    fn declare_measurements(&mut self) {
+        let sys = self.sys;
+        for (bi, body) in sys.bodies.iter().enumerate() {
+            for decl in &body.declared {
+                let Content::Measured(m) = &decl.content else {
+                    continue;
+                };
+                let def = quantities::def(decl.qty);
+                let (lo, hi) = def.limits();
+                let usable = match m.form {
+                    Form::UpperLimit => lo.is_finite(),
+                    Form::LowerLimit => hi.is_finite(),
+                    _ => true,
+                };
+                if !usable {
+                    self.diagnostics.push(
+                        Diagnostic::new(Rule::NotDerivable, decl.span, format!("the lower limit on '{}' is not used in derivations", def.name))
+                            .with_note("a lower limit without an upper physical bound has no distribution to sample; derived values that need it are not computed"),
+                    );
+                    continue;
+                }
+                let label = format!("{}.{}", body.id, def.name);
+                let v = self.new_input(label, m, lo, hi);
+                let origin = if decl.assumed {
+                    Origin::Assumed
+                } else {
+                    Origin::Declared
+                };
+                let mut assumptions = BTreeSet::new();
+                if decl.assumed {
+                    assumptions.insert(format!(
+                        "{}.{} = {} (assumed)",
+                        body.id,
+                        def.name,
+                        crate::format::number(m.value)
+                    ));
+                }
+                if m.form.is_limit() {
+                    assumptions.insert(format!(
+                        "{}.{} {} {} sampled uniformly within its physical range",
+                        body.id,
+                        def.name,
+                        if m.form == Form::UpperLimit { "<" } else { ">" },
+                        crate::format::number(m.value)
+                    ));
+                }
+                self.entries.insert(
+                    (bi, decl.qty),
+                    Entry {
+                        value: v,
+                        origin,
+                        rule: None,
+                        inputs: Vec::new(),
+                        deps: BTreeSet::from([(bi, decl.qty)]),
+                        assumptions,
+                    },
+                );
+            }
+            if body.kind == BodyKind::Planet {
+                for q in [
+                    Qty::Eccentricity,
+                    Qty::ArgPeriastron,
+                    Qty::Albedo,
+                    Qty::Redistribution,
+                ] {
+                    if body.get(q).is_some() {
+                        continue;
+                    }
+                    if let Some((v, words)) = default_for(q) {
+                        self.entries.insert(
+                            (bi, q),
+                            Entry {
+                                value: Value::exact(v, self.n()),
+                                origin: Origin::Default,
+                                rule: None,
+                                inputs: Vec::new(),
+                                deps: BTreeSet::from([(bi, q)]),
+                                assumptions: BTreeSet::from([words.to_string()]),
+                            },
+                        );
+                    }
+                }
+            }
+        }
+    }
+
+    /// The (output, inputs) keys of a rule bound to a body, if it applies to it.
+    fn bind(&self, rule: &RuleDef, bi: usize) -> Option<(Key, Vec<Key>)> {
+        let body = self.sys.bodies.get(bi)?;
+        let is_star_rule = matches!(rule.output, Slot::Star(_));
+        let host = if is_star_rule {
+            if body.kind != BodyKind::Star {
+                return None;
+            }
+            bi
+        } else {
+            if body.kind != BodyKind::Planet {
+                return None;
+            }
+            body.orbits?
+        };
+        let key = |s: Slot| match s {
+            Slot::Planet(q) => (bi, q),
+            Slot::Host(q) => (host, q),
+            Slot::Star(q) => (bi, q),
+        };
+        Some((
+            key(rule.output),
+            rule.inputs.iter().map(|s| key(*s)).collect(),
+        ))
+    }
+
+    fn fixed_point(&mut self) {
+        let mut fired: BTreeSet<(usize, usize)> = BTreeSet::new();
+        let mut pending_exprs: Vec<Key> = Vec::new();
+        for (bi, body) in self.sys.bodies.iter().enumerate() {
+            for decl in &body.declared {
+                if matches!(decl.content, Content::Expr(_)) {
+                    pending_exprs.push((bi, decl.qty));
+                }
+            }
+        }
+        // Rules are admitted tier by tier: the best physics first, approximations only
+        // where nothing better became reachable (a planet's semi-major axis waits for its
+        // minimum mass before the planet's mass is neglected).
+        let max_tier = RULES.iter().map(|r| r.tier).max().unwrap_or(0);
+        for tier in 0..=max_tier {
+            self.rounds(tier, &mut fired, &mut pending_exprs);
+        }
+    }
+
+    fn rounds(
+        &mut self,
+        tier: u8,
+        fired: &mut BTreeSet<(usize, usize)>,
+        pending_exprs: &mut Vec<Key>,
+    ) {
+        for _round in 0..32 {
+            let mut progress = false;
+            // Declared expressions whose references are all known now.
+            let mut still = Vec::new();
+            for key in std::mem::take(pending_exprs) {
+                match self.eval_declared_expr(key) {
+                    Ok(()) => progress = true,
+                    Err(Pending::Waiting) => still.push(key),
+                    Err(Pending::Failed) => {}
+                }
+            }
+            *pending_exprs = still;
+            // Rules.
+            let mut fresh: Vec<Key> = Vec::new();
+            for (ri, rule) in RULES.iter().enumerate() {
+                if rule.tier > tier {
+                    continue;
+                }
+                for bi in 0..self.sys.bodies.len() {
+                    if fired.contains(&(ri, bi)) {
+                        continue;
+                    }
+                    let Some((out, ins)) = self.bind(rule, bi) else {
+                        fired.insert((ri, bi));
+                        continue;
+                    };
+                    if !ins.iter().all(|k| self.entries.contains_key(k)) {
+                        continue;
+                    }
+                    fired.insert((ri, bi));
+                    progress = true;
+                    let mut deps = BTreeSet::new();
+                    let mut assumptions = BTreeSet::new();
+                    let mut args = Vec::with_capacity(ins.len());
+                    for k in &ins {
+                        if let Some(e) = self.entries.get(k) {
+                            deps.extend(e.deps.iter().copied());
+                            assumptions.extend(e.assumptions.iter().cloned());
+                            args.push(&e.value);
+                        }
+                    }
+                    if deps.contains(&out) {
+                        continue; // would confirm a value with itself
+                    }
+                    let Some(value) = value::apply(&rule.eval, &args, &self.inputs) else {
+                        continue;
+                    };
+                    if let Some(a) = rule_assumption(rule.id) {
+                        assumptions.insert(a.to_string());
+                    }
+                    deps.insert(out);
+                    if !self.entries.contains_key(&out) {
+                        fresh.push(out);
+                    }
+                    self.candidates.entry(out).or_default().push(Candidate {
+                        rule: ri,
+                        value,
+                        inputs: ins,
+                        deps,
+                        assumptions,
+                    });
+                }
+            }
+            fresh.sort();
+            fresh.dedup();
+            for key in fresh {
+                let Some(cands) = self.candidates.get(&key) else {
+                    continue;
+                };
+                let best = cands
+                    .iter()
+                    .min_by(|a, b| {
+                        let ta = RULES.get(a.rule).map_or(9, |r| r.tier);
+                        let tb = RULES.get(b.rule).map_or(9, |r| r.tier);
+                        ta.cmp(&tb).then(
+                            relative_spread(&a.value, &self.inputs)
+                                .total_cmp(&relative_spread(&b.value, &self.inputs)),
+                        )
+                    })
+                    .cloned();
+                if let Some(c) = best {
+                    for k in &c.inputs {
+                        self.used.insert(*k);
+                    }
+                    self.entries.insert(
+                        key,
+                        Entry {
+                            value: c.value,
+                            origin: Origin::Derived,
+                            rule: Some(c.rule),
+                            inputs: c.inputs,
+                            deps: c.deps,
+                            assumptions: c.assumptions,
+                        },
+                    );
+                }
+            }
+            if !progress {
+                break;
+            }
+        }
+    }
+
+    fn eval_declared_expr(&mut self, key: Key) -> Result<(), Pending> {
+        let sys = self.sys;
+        let body = sys.bodies.get(key.0).ok_or(Pending::Failed)?;
+        let decl = body.get(key.1).ok_or(Pending::Failed)?;
+        let Content::Expr(e) = &decl.content else {
+            return Err(Pending::Failed);
+        };
+        let mut refs = Vec::new();
+        let v = self.eval(e, Some(key.0), &mut refs, 0)?;
+        let def = quantities::def(key.1);
+        if !def.in_range(v.nominal) {
+            self.diagnostics.push(Diagnostic::new(
+                Rule::OutOfRange,
+                e.span,
+                format!(
+                    "this expression evaluates to {} {}, outside the valid range of '{}': {}",
+                    crate::format::number(v.nominal / display_factor(def.display)),
+                    def.display,
+                    def.name,
+                    def.range_text()
+                ),
+            ));
+            return Err(Pending::Failed);
+        }
+        let mut deps = BTreeSet::from([key]);
+        let mut assumptions = BTreeSet::new();
+        for r in &refs {
+            if let Some(e) = self.entries.get(r) {
+                deps.extend(e.deps.iter().copied());
+                assumptions.extend(e.assumptions.iter().cloned());
+            }
+            self.used.insert(*r);
+        }
+        self.entries.insert(
+            key,
+            Entry {
+                value: v,
+                origin: if decl.assumed {
+                    Origin::Assumed
+                } else {
+                    Origin::Declared
+                },
+                rule: None,
+                inputs: refs,
+                deps,
+                assumptions,
+            },
+        );
+        Ok(())
+    }
+
+    fn eval(
+        &mut self,
+        e: &ast::Expr,
+        body: Option<usize>,
+        refs: &mut Vec<Key>,
+        depth: usize,
+    ) -> Result<Value, Pending> {
+        if depth > 200 {
+            return Err(Pending::Failed);
+        }
+        let n = self.n();
+        match &e.kind {
+            ExprKind::Error => Err(Pending::Failed),
+            ExprKind::Literal(l) => {
+                let factor = match &l.unit {
+                    Some(u) => {
+                        crate::units::resolve(u)
+                            .map_err(|_| Pending::Failed)?
+                            .factor
+                    }
+                    None => 1.0,
+                };
+                let (below, above, form) = match l.uncertainty {
+                    Uncertainty::None => (0.0, 0.0, Form::Exact),
+                    Uncertainty::Symmetric(s, _) => (s, s, Form::Symmetric),
+                    Uncertainty::Asymmetric { plus, minus, .. } => (minus, plus, Form::Asymmetric),
+                };
+                let m = Measurement {
+                    value: l.value * factor,
+                    below: below * factor,
+                    above: above * factor,
+                    form,
+                };
+                if form == Form::Exact {
+                    return Ok(Value::exact(m.value, n));
+                }
+                if let Some(&id) = self.literal_inputs.get(&l.value_span) {
+                    // Re-evaluation in a later round: the same input, the same samples.
+                    let samples = self.literal_samples(&m, id);
+                    return Ok(Value {
+                        nominal: m.value,
+                        grad: vec![(id, 1.0)],
+                        samples,
+                    });
+                }
+                let id = u32::try_from(self.inputs.len()).unwrap_or(u32::MAX);
+                self.literal_inputs.insert(l.value_span, id);
+                let label = format!("literal at byte {}", l.value_span.start);
+                Ok(self.new_input(label, &m, f64::NEG_INFINITY, f64::INFINITY))
+            }
+            ExprKind::Name(id) => {
+                let sys = self.sys;
+                let let_expr = body
+                    .and_then(|b| sys.bodies.get(b))
+                    .and_then(|b| b.lets.iter().find(|l| l.name == id.name))
+                    .map(|l| (&l.expr, body))
+                    .or_else(|| {
+                        sys.lets
+                            .iter()
+                            .find(|l| l.name == id.name)
+                            .map(|l| (&l.expr, None))
+                    });
+                if let Some((expr, scope)) = let_expr {
+                    return self.eval(expr, scope, refs, depth + 1);
+                }
+                match model::constant(&id.name) {
+                    Some((v, _, _)) => Ok(Value::exact(v, n)),
+                    None => Err(Pending::Failed),
+                }
+            }
+            ExprKind::Ref(b, q) => {
+                let bi = self.sys.body(&b.name).ok_or(Pending::Failed)?;
+                let kind = self
+                    .sys
+                    .bodies
+                    .get(bi)
+                    .map(|b| b.kind)
+                    .ok_or(Pending::Failed)?;
+                let def = quantities::find(kind, &q.name).ok_or(Pending::Failed)?;
+                let key = (bi, def.qty);
+                match self.entries.get(&key) {
+                    Some(entry) => {
+                        refs.push(key);
+                        Ok(entry.value.clone())
+                    }
+                    None => Err(Pending::Waiting),
+                }
+            }
+            ExprKind::Neg(x) => {
+                let v = self.eval(x, body, refs, depth + 1)?;
+                value::apply(&|a| a.first().map(|v| -v), &[&v], &self.inputs).ok_or(Pending::Failed)
+            }
+            ExprKind::Binary(op, a, b) => {
+                let va = self.eval(a, body, refs, depth + 1);
+                let vb = self.eval(b, body, refs, depth + 1);
+                if is_pending(&va) || is_pending(&vb) {
+                    return Err(Pending::Waiting);
+                }
+                let (va, vb) = (va?, vb?);
+                let f: fn(&[f64]) -> Option<f64> = match op {
+                    BinOp::Add => |x| Some(x.first()? + x.get(1)?),
+                    BinOp::Sub => |x| Some(x.first()? - x.get(1)?),
+                    BinOp::Mul => |x| Some(x.first()? * x.get(1)?),
+                    BinOp::Div => |x| {
+                        let d = *x.get(1)?;
+                        (d != 0.0).then(|| x.first().map(|n| n / d)).flatten()
+                    },
+                };
+                self.finish(value::apply(&f, &[&va, &vb], &self.inputs), e.span)
+            }
+            ExprKind::Pow(a, b) => {
+                let va = self.eval(a, body, refs, depth + 1);
+                let vb = self.eval(b, body, refs, depth + 1);
+                if is_pending(&va) || is_pending(&vb) {
+                    return Err(Pending::Waiting);
+                }
+                let (va, vb) = (va?, vb?);
+                self.finish(
+                    value::apply(
+                        &|x| Some(x.first()?.powf(*x.get(1)?)),
+                        &[&va, &vb],
+                        &self.inputs,
+                    ),
+                    e.span,
+                )
+            }
+            ExprKind::Call(fname, args) => {
+                let arg = args.first().ok_or(Pending::Failed)?;
+                let v = self.eval(arg, body, refs, depth + 1)?;
+                let f: fn(&[f64]) -> Option<f64> = match fname.name.as_str() {
+                    "sqrt" => |x| x.first().filter(|v| **v >= 0.0).map(|v| v.sqrt()),
+                    "cbrt" => |x| x.first().map(|v| v.cbrt()),
+                    "exp" => |x| x.first().map(|v| v.exp()),
+                    "ln" => |x| x.first().filter(|v| **v > 0.0).map(|v| v.ln()),
+                    "log10" => |x| x.first().filter(|v| **v > 0.0).map(|v| v.log10()),
+                    "sin" => |x| x.first().map(|v| v.sin()),
+                    "cos" => |x| x.first().map(|v| v.cos()),
+                    "tan" => |x| x.first().map(|v| v.tan()),
+                    "abs" => |x| x.first().map(|v| v.abs()),
+                    _ => return Err(Pending::Failed),
+                };
+                self.finish(value::apply(&f, &[&v], &self.inputs), e.span)
+            }
+        }
+    }
+
+    fn literal_samples(&self, m: &Measurement, id: u32) -> Option<std::sync::Arc<[f64]>> {
+        let n = self.n();
+        (n > 0).then(|| {
+            let label = self
+                .inputs
+                .get(id as usize)
+                .map_or("", |i| i.label.as_str());
+            let seed = value::stable_hash(&[&self.sys.name, label], self.options.seed);
+            std::sync::Arc::from(value::draw(m, f64::NEG_INFINITY, f64::INFINITY, n, seed))
+        })
+    }
+
+    fn finish(&mut self, v: Option<Value>, span: Span) -> Result<Value, Pending> {
+        match v {
+            Some(v) => Ok(v),
+            None => {
+                if !self
+                    .diagnostics
+                    .iter()
+                    .any(|d| d.span == span && d.rule == Rule::InvalidValue)
+                {
+                    self.diagnostics.push(
+                        Diagnostic::new(Rule::InvalidValue, span, "this expression has no finite value")
+                            .with_note("division by zero, a root of a negative number or a logarithm of zero or less"),
+                    );
+                }
+                Err(Pending::Failed)
+            }
+        }
+    }
+
+    fn check_consistency(&mut self) {
+        let threshold = self.options.consistency_sigma;
+        let mut reported: BTreeSet<BTreeSet<Key>> = BTreeSet::new();
+        let keys: Vec<Key> = self.candidates.keys().copied().collect();
+        for key in keys {
+            let (Some(entry), Some(cands)) = (self.entries.get(&key), self.candidates.get(&key))
+            else {
+                continue;
+            };
+            for c in cands {
+                if entry.rule == Some(c.rule) && entry.inputs == c.inputs {
+                    continue;
+                }
+                let sigma = entry.value.sigma_of_difference(&c.value, &self.inputs);
+                let diff = (entry.value.nominal - c.value.nominal).abs();
+                let floor = 1e-9 * entry.value.nominal.abs().max(c.value.nominal.abs());
+                let z = diff / sigma.max(floor);
+                if z <= threshold || diff <= floor {
+                    continue;
+                }
+                let mut involved: BTreeSet<Key> = entry.deps.union(&c.deps).copied().collect();
+                involved.retain(|k| self.entries.get(k).is_some_and(|e| e.rule.is_none()));
+                if !reported.insert(involved.clone()) {
+                    continue;
+                }
+                let diag = self.inconsistency(key, entry, c, z, &involved);
+                self.diagnostics.push(diag);
+            }
+        }
+    }
+
+    fn inconsistency(
+        &self,
+        key: Key,
+        entry: &Entry,
+        c: &Candidate,
+        z: f64,
+        involved: &BTreeSet<Key>,
+    ) -> Diagnostic {
+        let def = quantities::def(key.1);
+        let body = self.sys.bodies.get(key.0);
+        let bname = body.map_or("?", |b| b.id.as_str());
+        let shown = |v: &Value| {
+            let (lo, hi) = v.linear_spread(&self.inputs);
+            let unit = display_unit(key.1, v.nominal);
+            let f = display_factor(unit);
+            format!(
+                "{} {unit}",
+                crate::format::with_uncertainty(v.nominal / f, lo / f, hi / f)
+            )
+        };
+        let rule = RULES.get(c.rule);
+        let route = |inputs: &[Key]| {
+            inputs
+                .iter()
+                .map(|k| self.key_name(*k))
+                .collect::<Vec<_>>()
+                .join(", ")
+        };
+        let first = match entry.rule {
+            None => format!("declared {}.{} = {}", bname, def.name, shown(&entry.value)),
+            Some(r) => format!(
+                "{}.{} = {} from {} ({})",
+                bname,
+                def.name,
+                shown(&entry.value),
+                route(&entry.inputs),
+                RULES.get(r).map_or("?", |r| r.id)
+            ),
+        };
+        let message = format!(
+            "{first} disagrees with {} from {} ({}) by {:.1} sigma",
+            shown(&c.value),
+            route(&c.inputs),
+            rule.map_or("?", |r| r.id),
+            z
+        );
+        let span = body
+            .and_then(|b| b.get(key.1))
+            .map(|d| d.value_span)
+            .or_else(|| {
+                involved.iter().find_map(|k| {
+                    self.sys
+                        .bodies
+                        .get(k.0)
+                        .and_then(|b| b.get(k.1))
+                        .map(|d| d.value_span)
+                })
+            })
+            .or_else(|| body.map(|b| b.name_span))
+            .unwrap_or_default();
+        let mut d = Diagnostic::new(Rule::Inconsistent, span, message)
+            .with_help("check the units and the sources of these measurements; one of them may belong to another body or epoch");
+        if let Some(r) = rule {
+            d = d.with_note(format!("{}: {}", r.id, r.formula));
+        }
+        for k in involved {
+            if let Some(decl) = self.sys.bodies.get(k.0).and_then(|b| b.get(k.1)) {
+                if decl.value_span != span {
+                    d = d.with_label(
+                        decl.value_span,
+                        format!("{} is used here", self.key_name(*k)),
+                    );
+                }
+            }
+        }
+        d
+    }
+
+    pub fn key_name(&self, k: Key) -> String {
+        let b = self.sys.bodies.get(k.0).map_or("?", |b| b.id.as_str());
+        format!("{b}.{}", quantities::def(k.1).name)
+    }
+
+    /// The full value of a quantity (with samples), for the physics checks.
+    pub fn value(&self, k: Key) -> Option<&Value> {
+        self.entries.get(&k).map(|e| &e.value)
+    }
+
+    pub fn origin(&self, k: Key) -> Option<Origin> {
+        self.entries.get(&k).map(|e| e.origin)
+    }
+
+    /// Reduce to what is reported: summaries, provenance, budgets.
+    pub fn summarize(&self) -> SystemResult {
+        let mut bodies = Vec::new();
+        for (bi, body) in self.sys.bodies.iter().enumerate() {
+            let mut quantities = Vec::new();
+            for def in quantities::table().iter().filter(|d| d.kind == body.kind) {
+                let key = (bi, def.qty);
+                let decl = body.get(def.qty);
+                if let Some(d) = decl {
+                    if let Content::Text(t) = &d.content {
+                        quantities.push(QuantityResult {
+                            qty: def.qty,
+                            origin: if d.assumed {
+                                Origin::Assumed
+                            } else {
+                                Origin::Declared
+                            },
+                            value: f64::NAN,
+                            below: 0.0,
+                            above: 0.0,
+                            form: Form::Exact,
+                            text: Some(t.clone()),
+                            rule: None,
+                            formula: None,
+                            inputs: Vec::new(),
+                            citations: d.citations.iter().map(|c| c.0.clone()).collect(),
+                            span: Some(d.span),
+                            budget: Vec::new(),
+                            assumptions: Vec::new(),
+                            notes: Vec::new(),
+                        });
+                        continue;
+                    }
+                }
+                let Some(entry) = self.entries.get(&key) else {
+                    continue;
+                };
+                if entry.origin == Origin::Default && !self.used.contains(&key) {
+                    continue;
+                }
+                quantities.push(self.result_for(key, entry, decl));
+            }
+            bodies.push(BodyResult { quantities });
+        }
+        SystemResult { bodies }
+    }
+
+    fn result_for(
+        &self,
+        key: Key,
+        entry: &Entry,
+        decl: Option<&model::Declared>,
+    ) -> QuantityResult {
+        let rule = entry.rule.and_then(|r| RULES.get(r));
+        let mut notes = Vec::new();
+        let (value, below, above, form) = match decl.map(|d| &d.content) {
+            Some(Content::Measured(m)) => (m.value, m.below, m.above, m.form),
+            _ => {
+                let (lo, hi) = entry.value.linear_spread(&self.inputs);
+                match (self.options.propagation, entry.value.sample_summary()) {
+                    (Propagation::MonteCarlo, Some((med, p16, p84, frac))) => {
+                        if frac < 0.999 {
+                            notes.push(format!(
+                                "{:.1}% of the Monte Carlo samples gave no value (outside the formula's domain) and were left out",
+                                (1.0 - frac) * 100.0
+                            ));
+                        }
+                        if !entry.value.grad.is_empty() || entry.origin == Origin::Derived {
+                            (
+                                med,
+                                (med - p16).max(0.0),
+                                (p84 - med).max(0.0),
+                                Form::Asymmetric,
+                            )
+                        } else {
+                            (entry.value.nominal, 0.0, 0.0, Form::Exact)
+                        }
+                    }
+                    _ => {
+                        let form = if lo == 0.0 && hi == 0.0 {
+                            Form::Exact
+                        } else {
+                            Form::Asymmetric
+                        };
+                        (entry.value.nominal, lo, hi, form)
+                    }
+                }
+            }
+        };
+        let form = if form == Form::Asymmetric && ((above - below).abs() <= 1e-3 * above.max(below))
+        {
+            Form::Symmetric
+        } else {
+            form
+        };
+        let budget = entry
+            .value
+            .budget(&self.inputs)
+            .into_iter()
+            .filter(|(_, share)| *share >= 0.001)
+            .map(|(id, share)| {
+                (
+                    self.inputs
+                        .get(id as usize)
+                        .map_or_else(String::new, |i| i.label.clone()),
+                    share,
+                )
+            })
+            .collect();
+        QuantityResult {
+            qty: key.1,
+            origin: entry.origin,
+            value,
+            below,
+            above,
+            form,
+            text: None,
+            rule: rule.map(|r| r.id).or_else(|| {
+                (entry.origin != Origin::Default
+                    && decl.is_some_and(|d| matches!(d.content, Content::Expr(_))))
+                .then_some("expression")
+            }),
+            formula: rule.map(|r| r.formula),
+            inputs: entry.inputs.clone(),
+            citations: decl
+                .map(|d| d.citations.iter().map(|c| c.0.clone()).collect())
+                .unwrap_or_default(),
+            span: decl.map(|d| d.span),
+            budget,
+            assumptions: entry.assumptions.iter().cloned().collect(),
+            notes,
+        }
+    }
+}
+
+fn relative_spread(v: &Value, inputs: &[InputInfo]) -> f64 {
+    let (lo, hi) = v.linear_spread(inputs);
+    (lo + hi) / 2.0 / v.nominal.abs().max(f64::MIN_POSITIVE)
+}
+
+/// The unit a quantity is shown in, chosen by size for planet masses, radii and depths.
+pub fn display_unit(qty: Qty, si: f64) -> &'static str {
+    let def = quantities::def(qty);
+    match qty {
+        Qty::Mass | Qty::MinMass if si.abs() < 0.1 * crate::constants::M_JUPITER => "Mearth",
+        Qty::Radius if si.abs() < 0.5 * crate::constants::R_JUPITER => "Rearth",
+        Qty::TransitDepth if si.abs() < 1e-3 => "ppm",
+        Qty::HillRadius if si.abs() < 1e-3 * crate::constants::AU => "km",
+        _ => def.display,
+    }
+}
+
+/// SI value of one display unit.
+pub fn display_factor(unit: &str) -> f64 {
+    crate::units::parse_unit_text(unit).map_or(1.0, |u| u.factor)
+}
+
+#[cfg(test)]
+mod tests;

@@ -1,0 +1,469 @@
+//! The derivation rules: which quantity follows from which, through which formula.
+//!
+//! Each rule adapts one typed formula of [`crate::formulas`] to the engine's SI numbers; the
+//! conversion between plain SI values and `uom` quantities happens here and nowhere else.
+
+use crate::formulas as f;
+use crate::quantities::Qty;
+use uom::si::angle::radian;
+use uom::si::f64::{Angle, Length, Mass, Power, ThermodynamicTemperature, Time, Velocity};
+use uom::si::heat_flux_density::watt_per_square_meter;
+use uom::si::length::meter;
+use uom::si::mass::kilogram;
+use uom::si::mass_density::kilogram_per_cubic_meter;
+use uom::si::power::watt;
+use uom::si::thermodynamic_temperature::kelvin;
+use uom::si::time::second;
+use uom::si::velocity::meter_per_second;
+
+/// Where a rule reads or writes a quantity: on the planet, on its host star, or (for rules
+/// about a star alone) on the star itself.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Slot {
+    Planet(Qty),
+    Host(Qty),
+    Star(Qty),
+}
+
+pub struct RuleDef {
+    /// Stable id shown in output (`rule` in JSON).
+    pub id: &'static str,
+    /// The formula in words, for `explain` and hovers.
+    pub formula: &'static str,
+    pub output: Slot,
+    pub inputs: &'static [Slot],
+    /// Lower is more complete physics; among routes to one quantity the lowest tier wins,
+    /// then the most precise.
+    pub tier: u8,
+    pub eval: fn(&[f64]) -> Option<f64>,
+}
+
+fn t(x: f64) -> Time {
+    Time::new::<second>(x)
+}
+fn m(x: f64) -> Mass {
+    Mass::new::<kilogram>(x)
+}
+fn l(x: f64) -> Length {
+    Length::new::<meter>(x)
+}
+fn ang(x: f64) -> Angle {
+    Angle::new::<radian>(x)
+}
+fn vel(x: f64) -> Velocity {
+    Velocity::new::<meter_per_second>(x)
+}
+fn temp(x: f64) -> ThermodynamicTemperature {
+    ThermodynamicTemperature::new::<kelvin>(x)
+}
+fn pow(x: f64) -> Power {
+    Power::new::<watt>(x)
+}
+fn sin_of(i: f64) -> f64 {
+    ang(i).sin().value.abs()
+}
+
+use Qty::*;
+use Slot::{Host as H, Planet as P, Star as S};
+
+macro_rules! args {
+    ($x:ident, [$($v:ident),*]) => {
+        let &[$($v),*] = $x else { return None };
+    };
+}
+
+pub static RULES: &[RuleDef] = &[
+    // ---- stars ----
+    RuleDef {
+        id: "stefan-boltzmann",
+        formula: "L = 4 pi R^2 sigma Teff^4",
+        output: S(Luminosity),
+        inputs: &[S(StarRadius), S(Teff)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [r, te]);
+            f::luminosity(l(r), temp(te)).map(|v| v.get::<watt>())
+        },
+    },
+    RuleDef {
+        id: "stefan-boltzmann-radius",
+        formula: "R = sqrt(L / (4 pi sigma Teff^4))",
+        output: S(StarRadius),
+        inputs: &[S(Luminosity), S(Teff)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [lum, te]);
+            f::radius_from_luminosity(pow(lum), temp(te)).map(|v| v.get::<meter>())
+        },
+    },
+    RuleDef {
+        id: "stefan-boltzmann-teff",
+        formula: "Teff = (L / (4 pi R^2 sigma))^(1/4)",
+        output: S(Teff),
+        inputs: &[S(Luminosity), S(StarRadius)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [lum, r]);
+            f::teff_from_luminosity(pow(lum), l(r)).map(|v| v.get::<kelvin>())
+        },
+    },
+    RuleDef {
+        id: "surface-gravity-star",
+        formula: "log g = log10(G M / R^2 in cm s^-2)",
+        output: S(LogG),
+        inputs: &[S(StarMass), S(StarRadius)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [ms, r]);
+            f::log_g_cgs(m(ms), l(r))
+        },
+    },
+    RuleDef {
+        id: "mass-from-log-g",
+        formula: "M = g R^2 / G",
+        output: S(StarMass),
+        inputs: &[S(LogG), S(StarRadius)],
+        tier: 1,
+        eval: |x| {
+            args!(x, [lg, r]);
+            f::mass_from_log_g(lg, l(r)).map(|v| v.get::<kilogram>())
+        },
+    },
+    RuleDef {
+        id: "radius-from-log-g",
+        formula: "R = sqrt(G M / g)",
+        output: S(StarRadius),
+        inputs: &[S(LogG), S(StarMass)],
+        tier: 1,
+        eval: |x| {
+            args!(x, [lg, ms]);
+            f::radius_from_log_g(lg, m(ms)).map(|v| v.get::<meter>())
+        },
+    },
+    RuleDef {
+        id: "mean-density-star",
+        formula: "rho = M / (4/3 pi R^3)",
+        output: S(StarDensity),
+        inputs: &[S(StarMass), S(StarRadius)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [ms, r]);
+            f::mean_density(m(ms), l(r)).map(|v| v.get::<kilogram_per_cubic_meter>())
+        },
+    },
+    // ---- orbit ----
+    RuleDef {
+        id: "kepler-third-law",
+        formula: "a^3 = G (M* + Mp) P^2 / (4 pi^2)",
+        output: P(SemiMajorAxis),
+        inputs: &[P(Period), H(StarMass), P(Mass)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [p, ms, mp]);
+            f::semi_major_axis(t(p), m(ms), m(mp)).map(|v| v.get::<meter>())
+        },
+    },
+    RuleDef {
+        id: "kepler-third-law-min-mass",
+        formula: "a^3 = G (M* + Mp sin i) P^2 / (4 pi^2), with the minimum mass standing in for Mp",
+        output: P(SemiMajorAxis),
+        inputs: &[P(Period), H(StarMass), P(MinMass)],
+        tier: 1,
+        eval: |x| {
+            args!(x, [p, ms, mp]);
+            f::semi_major_axis(t(p), m(ms), m(mp)).map(|v| v.get::<meter>())
+        },
+    },
+    RuleDef {
+        id: "kepler-third-law-light-planet",
+        formula: "a^3 = G M* P^2 / (4 pi^2), the planet's mass neglected",
+        output: P(SemiMajorAxis),
+        inputs: &[P(Period), H(StarMass)],
+        tier: 2,
+        eval: |x| {
+            args!(x, [p, ms]);
+            f::semi_major_axis(t(p), m(ms), m(0.0)).map(|v| v.get::<meter>())
+        },
+    },
+    RuleDef {
+        id: "kepler-period",
+        formula: "P = 2 pi sqrt(a^3 / (G (M* + Mp)))",
+        output: P(Period),
+        inputs: &[P(SemiMajorAxis), H(StarMass), P(Mass)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [a, ms, mp]);
+            f::period_from_axis(l(a), m(ms), m(mp)).map(|v| v.get::<second>())
+        },
+    },
+    RuleDef {
+        id: "kepler-period-light-planet",
+        formula: "P = 2 pi sqrt(a^3 / (G M*)), the planet's mass neglected",
+        output: P(Period),
+        inputs: &[P(SemiMajorAxis), H(StarMass)],
+        tier: 2,
+        eval: |x| {
+            args!(x, [a, ms]);
+            f::period_from_axis(l(a), m(ms), m(0.0)).map(|v| v.get::<second>())
+        },
+    },
+    RuleDef {
+        id: "kepler-stellar-mass",
+        formula: "M* = 4 pi^2 a^3 / (G P^2) - Mp",
+        output: H(StarMass),
+        inputs: &[P(SemiMajorAxis), P(Period), P(Mass)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [a, p, mp]);
+            f::total_mass_from_orbit(l(a), t(p))
+                .map(|v| v.get::<kilogram>() - mp)
+                .filter(|v| *v > 0.0)
+        },
+    },
+    RuleDef {
+        id: "kepler-stellar-mass-light-planet",
+        formula: "M* = 4 pi^2 a^3 / (G P^2), the planet's mass neglected",
+        output: H(StarMass),
+        inputs: &[P(SemiMajorAxis), P(Period)],
+        tier: 2,
+        eval: |x| {
+            args!(x, [a, p]);
+            f::total_mass_from_orbit(l(a), t(p)).map(|v| v.get::<kilogram>())
+        },
+    },
+    RuleDef {
+        id: "orbital-speed",
+        formula: "v = 2 pi a / P",
+        output: P(OrbitalSpeed),
+        inputs: &[P(SemiMajorAxis), P(Period)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [a, p]);
+            f::mean_orbital_speed(l(a), t(p)).map(|v| v.get::<meter_per_second>())
+        },
+    },
+    // ---- radial velocity ----
+    RuleDef {
+        id: "rv-minimum-mass",
+        formula: "K = (2 pi G / P)^(1/3) Mp sin i / (M* + Mp)^(2/3) / sqrt(1 - e^2), solved exactly with sin i = 1",
+        output: P(MinMass),
+        inputs: &[P(RvAmplitude), P(Period), H(StarMass), P(Eccentricity)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [k, p, ms, e]);
+            f::minimum_mass_from_rv(vel(k), t(p), m(ms), e).map(|v| v.get::<kilogram>())
+        },
+    },
+    RuleDef {
+        id: "rv-true-mass",
+        formula: "K = (2 pi G / P)^(1/3) Mp sin i / (M* + Mp)^(2/3) / sqrt(1 - e^2), solved exactly for Mp",
+        output: P(Mass),
+        inputs: &[P(RvAmplitude), P(Period), H(StarMass), P(Eccentricity), P(Inclination)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [k, p, ms, e, i]);
+            f::planet_mass_from_rv(vel(k), t(p), m(ms), e, sin_of(i)).map(|v| v.get::<kilogram>())
+        },
+    },
+    RuleDef {
+        id: "projected-mass",
+        formula: "Mp sin i",
+        output: P(MinMass),
+        inputs: &[P(Mass), P(Inclination)],
+        tier: 1,
+        eval: |x| {
+            args!(x, [mp, i]);
+            Some(mp * sin_of(i)).filter(|v| *v > 0.0)
+        },
+    },
+    // ---- transit ----
+    RuleDef {
+        id: "depth-radius-ratio",
+        formula: "k = sqrt(depth) (no limb darkening)",
+        output: P(RadiusRatio),
+        inputs: &[P(TransitDepth)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [d]);
+            f::radius_ratio_from_depth(d)
+        },
+    },
+    RuleDef {
+        id: "radius-ratio-depth",
+        formula: "depth = k^2 (no limb darkening)",
+        output: P(TransitDepth),
+        inputs: &[P(RadiusRatio)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [k]);
+            f::depth_from_radius_ratio(k)
+        },
+    },
+    RuleDef {
+        id: "planet-radius",
+        formula: "Rp = k R*",
+        output: P(Radius),
+        inputs: &[P(RadiusRatio), H(StarRadius)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [k, r]);
+            Some(k * r).filter(|v| *v > 0.0)
+        },
+    },
+    RuleDef {
+        id: "radius-ratio",
+        formula: "k = Rp / R*",
+        output: P(RadiusRatio),
+        inputs: &[P(Radius), H(StarRadius)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [rp, r]);
+            Some(rp / r).filter(|v| v.is_finite() && *v > 0.0)
+        },
+    },
+    RuleDef {
+        id: "scaled-semi-major-axis",
+        formula: "a / R*",
+        output: P(ScaledAxis),
+        inputs: &[P(SemiMajorAxis), H(StarRadius)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [a, r]);
+            Some(a / r).filter(|v| v.is_finite() && *v > 0.0)
+        },
+    },
+    RuleDef {
+        id: "inclination-from-impact",
+        formula: "cos i = b (1 + e sin omega) / ((a/R*) (1 - e^2)) (Winn 2010 eq. 7)",
+        output: P(Inclination),
+        inputs: &[P(Impact), P(ScaledAxis), P(Eccentricity), P(ArgPeriastron)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [b, ars, e, w]);
+            f::inclination_from_impact(b, ars, e, ang(w)).map(|v| v.get::<radian>())
+        },
+    },
+    RuleDef {
+        id: "impact-from-inclination",
+        formula: "b = (a/R*) cos i (1 - e^2) / (1 + e sin omega) (Winn 2010 eq. 7)",
+        output: P(Impact),
+        inputs: &[P(Inclination), P(ScaledAxis), P(Eccentricity), P(ArgPeriastron)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [i, ars, e, w]);
+            f::impact_from_inclination(ang(i), ars, e, ang(w))
+        },
+    },
+    RuleDef {
+        id: "transit-duration-total",
+        formula: "T14 = P/pi asin[(R*/a) sqrt((1 + k)^2 - b^2) / sin i] sqrt(1 - e^2)/(1 + e sin omega) (Winn 2010 eqs. 14, 16)",
+        output: P(TransitDuration),
+        inputs: &[P(Period), P(ScaledAxis), P(RadiusRatio), P(Impact), P(Eccentricity), P(ArgPeriastron)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [p, ars, k, b, e, w]);
+            f::transit_duration_total(t(p), ars, k, b, e, ang(w)).map(|v| v.get::<second>())
+        },
+    },
+    RuleDef {
+        id: "transit-duration-full",
+        formula: "T23 = P/pi asin[(R*/a) sqrt((1 - k)^2 - b^2) / sin i] sqrt(1 - e^2)/(1 + e sin omega) (Winn 2010 eqs. 15, 16)",
+        output: P(TransitDurationFull),
+        inputs: &[P(Period), P(ScaledAxis), P(RadiusRatio), P(Impact), P(Eccentricity), P(ArgPeriastron)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [p, ars, k, b, e, w]);
+            f::transit_duration_full(t(p), ars, k, b, e, ang(w)).map(|v| v.get::<second>())
+        },
+    },
+    RuleDef {
+        id: "stellar-density-from-transit",
+        formula: "rho* = 3 pi (a/R*)^3 / (G P^2) (Seager & Mallén-Ornelas 2003)",
+        output: H(StarDensity),
+        inputs: &[P(ScaledAxis), P(Period)],
+        tier: 1,
+        eval: |x| {
+            args!(x, [ars, p]);
+            f::stellar_density_from_transit(ars, t(p)).map(|v| v.get::<kilogram_per_cubic_meter>())
+        },
+    },
+    // ---- planet bulk ----
+    RuleDef {
+        id: "bulk-density",
+        formula: "rho = Mp / (4/3 pi Rp^3)",
+        output: P(Density),
+        inputs: &[P(Mass), P(Radius)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [mp, rp]);
+            f::bulk_density(m(mp), l(rp)).map(|v| v.get::<kilogram_per_cubic_meter>())
+        },
+    },
+    RuleDef {
+        id: "surface-gravity",
+        formula: "g = G Mp / Rp^2",
+        output: P(SurfaceGravity),
+        inputs: &[P(Mass), P(Radius)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [mp, rp]);
+            f::surface_gravity(m(mp), l(rp)).map(|v| v.value)
+        },
+    },
+    RuleDef {
+        id: "escape-velocity",
+        formula: "v_esc = sqrt(2 G Mp / Rp)",
+        output: P(EscapeVelocity),
+        inputs: &[P(Mass), P(Radius)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [mp, rp]);
+            f::escape_velocity(m(mp), l(rp)).map(|v| v.get::<meter_per_second>())
+        },
+    },
+    RuleDef {
+        id: "hill-radius",
+        formula: "r_H = a (1 - e) (Mp / (3 M*))^(1/3)",
+        output: P(HillRadius),
+        inputs: &[P(SemiMajorAxis), P(Eccentricity), P(Mass), H(StarMass)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [a, e, mp, ms]);
+            f::hill_radius(l(a), e, m(mp), m(ms)).map(|v| v.get::<meter>())
+        },
+    },
+    RuleDef {
+        id: "hill-radius-min-mass",
+        formula: "r_H = a (1 - e) (Mp sin i / (3 M*))^(1/3), with the minimum mass standing in for Mp",
+        output: P(HillRadius),
+        inputs: &[P(SemiMajorAxis), P(Eccentricity), P(MinMass), H(StarMass)],
+        tier: 1,
+        eval: |x| {
+            args!(x, [a, e, mp, ms]);
+            f::hill_radius(l(a), e, m(mp), m(ms)).map(|v| v.get::<meter>())
+        },
+    },
+    // ---- irradiation ----
+    RuleDef {
+        id: "insolation",
+        formula: "S = L* / (4 pi a^2)",
+        output: P(Insolation),
+        inputs: &[H(Luminosity), P(SemiMajorAxis)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [lum, a]);
+            f::insolation(pow(lum), l(a)).map(|v| v.get::<watt_per_square_meter>())
+        },
+    },
+    RuleDef {
+        id: "equilibrium-temperature",
+        formula: "Teq = Teff sqrt(R* / 2a) [f (1 - A)]^(1/4)",
+        output: P(Teq),
+        inputs: &[H(Teff), H(StarRadius), P(SemiMajorAxis), P(Albedo), P(Redistribution)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [te, r, a, alb, fr]);
+            f::equilibrium_temperature(temp(te), l(r), l(a), alb, fr).map(|v| v.get::<kelvin>())
+        },
+    },
+];

@@ -1,0 +1,367 @@
+//! Uncertain values and their propagation.
+//!
+//! A [`Value`] carries three views of one uncertain number at once:
+//! - the nominal value (every function evaluated at the inputs' values),
+//! - first-order sensitivities to every independent input (`grad`), which give linear
+//!   propagation, keep results that share an input correlated, and yield error budgets,
+//! - optionally, Monte Carlo samples as one flat array, aligned across all values of a
+//!   system (sample `i` of every value comes from the same draw of the inputs).
+//!
+//! [`apply`] pushes a plain SI function through all three views.
+
+use crate::model::{Form, Measurement};
+use rand::{Rng, SeedableRng};
+use rand_chacha::ChaCha8Rng;
+use rand_distr::StandardNormal;
+use std::sync::Arc;
+
+/// An independent input: a declared measurement or an uncertain literal in an expression.
+#[derive(Debug, Clone, PartialEq)]
+pub struct InputInfo {
+    pub label: String,
+    /// Standard uncertainty below and above, SI. A limit is given its uniform-distribution
+    /// standard deviation on both sides.
+    pub below: f64,
+    pub above: f64,
+}
+
+impl InputInfo {
+    fn sigma_for(&self, derivative: f64, side_above: bool) -> f64 {
+        // A positive derivative maps the input's upper side onto the output's upper side.
+        let up = (derivative >= 0.0) == side_above;
+        derivative.abs() * if up { self.above } else { self.below }
+    }
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct Value {
+    pub nominal: f64,
+    /// Sparse sensitivities d(value)/d(input), sorted by input id.
+    pub grad: Vec<(u32, f64)>,
+    pub samples: Option<Arc<[f64]>>,
+}
+
+impl Value {
+    pub fn exact(v: f64, n: usize) -> Value {
+        Value {
+            nominal: v,
+            grad: Vec::new(),
+            samples: (n > 0).then(|| Arc::from(vec![v; n])),
+        }
+    }
+
+    /// Linear (first-order) uncertainty below and above.
+    pub fn linear_spread(&self, inputs: &[InputInfo]) -> (f64, f64) {
+        let mut lo = 0.0;
+        let mut hi = 0.0;
+        for &(id, d) in &self.grad {
+            if let Some(inp) = inputs.get(id as usize) {
+                lo += inp.sigma_for(d, false).powi(2);
+                hi += inp.sigma_for(d, true).powi(2);
+            }
+        }
+        (lo.sqrt(), hi.sqrt())
+    }
+
+    /// Each input's share of the linear variance, largest first.
+    pub fn budget(&self, inputs: &[InputInfo]) -> Vec<(u32, f64)> {
+        let parts: Vec<(u32, f64)> = self
+            .grad
+            .iter()
+            .filter_map(|&(id, d)| {
+                let inp = inputs.get(id as usize)?;
+                let s = d.abs() * (inp.below + inp.above) / 2.0;
+                Some((id, s * s))
+            })
+            .collect();
+        let total: f64 = parts.iter().map(|p| p.1).sum();
+        if total <= 0.0 {
+            return Vec::new();
+        }
+        let mut out: Vec<(u32, f64)> = parts.into_iter().map(|(id, v)| (id, v / total)).collect();
+        out.sort_by(|a, b| b.1.total_cmp(&a.1).then(a.0.cmp(&b.0)));
+        out
+    }
+
+    /// The standard deviation of `self - other`, counting shared inputs once.
+    pub fn sigma_of_difference(&self, other: &Value, inputs: &[InputInfo]) -> f64 {
+        let mut diff = self.grad.clone();
+        diff.extend(other.grad.iter().map(|&(id, d)| (id, -d)));
+        let diff = merge(diff);
+        diff.iter()
+            .filter_map(|&(id, d)| {
+                let inp = inputs.get(id as usize)?;
+                let s = d * (inp.below + inp.above) / 2.0;
+                Some(s * s)
+            })
+            .sum::<f64>()
+            .sqrt()
+    }
+
+    /// Median and the 16th and 84th percentiles of the finite samples, with the fraction of
+    /// samples that were finite.
+    pub fn sample_summary(&self) -> Option<(f64, f64, f64, f64)> {
+        let s = self.samples.as_ref()?;
+        let mut v: Vec<f64> = s.iter().copied().filter(|x| x.is_finite()).collect();
+        if v.is_empty() {
+            return None;
+        }
+        let frac = v.len() as f64 / s.len() as f64;
+        v.sort_unstable_by(f64::total_cmp);
+        let q = |p: f64| {
+            let pos = p * (v.len() - 1) as f64;
+            let i = pos.floor() as usize;
+            let f = pos - i as f64;
+            let a = v.get(i).copied().unwrap_or(f64::NAN);
+            let b = v.get(i + 1).copied().unwrap_or(a);
+            a + f * (b - a)
+        };
+        Some((
+            q(0.5),
+            q(0.158_655_253_931_457),
+            q(0.841_344_746_068_543),
+            frac,
+        ))
+    }
+}
+
+fn merge(mut g: Vec<(u32, f64)>) -> Vec<(u32, f64)> {
+    g.sort_by_key(|p| p.0);
+    let mut out: Vec<(u32, f64)> = Vec::with_capacity(g.len());
+    for (id, d) in g {
+        match out.last_mut() {
+            Some(last) if last.0 == id => last.1 += d,
+            _ => out.push((id, d)),
+        }
+    }
+    out.retain(|p| p.1 != 0.0 && p.1.is_finite());
+    out
+}
+
+/// Push `f` (SI in, SI out) through the nominal values, the sensitivities and the samples.
+/// `None` when `f` has no value at the nominal inputs.
+pub fn apply(
+    f: &dyn Fn(&[f64]) -> Option<f64>,
+    args: &[&Value],
+    inputs: &[InputInfo],
+) -> Option<Value> {
+    let mut x: Vec<f64> = args.iter().map(|a| a.nominal).collect();
+    let y = f(&x).filter(|v| v.is_finite())?;
+    let mut grad = Vec::new();
+    for (j, arg) in args.iter().enumerate() {
+        if arg.grad.is_empty() {
+            continue;
+        }
+        let xj = arg.nominal;
+        let (lo, hi) = arg.linear_spread(inputs);
+        let scale = if xj != 0.0 {
+            xj.abs()
+        } else {
+            (lo + hi).max(1e-12)
+        };
+        let h = scale * 1e-6;
+        let mut at = |v: f64| -> Option<f64> {
+            let slot = x.get_mut(j)?;
+            *slot = v;
+            let r = f(&x).filter(|r| r.is_finite());
+            if let Some(slot) = x.get_mut(j) {
+                *slot = xj;
+            }
+            r
+        };
+        let d = match (at(xj + h), at(xj - h)) {
+            (Some(p), Some(m)) => (p - m) / (2.0 * h),
+            (Some(p), None) => (p - y) / h,
+            (None, Some(m)) => (y - m) / h,
+            (None, None) => 0.0,
+        };
+        grad.extend(arg.grad.iter().map(|&(id, g)| (id, g * d)));
+    }
+    let grad = merge(grad);
+    let samples = sample_through(f, args);
+    Some(Value {
+        nominal: y,
+        grad,
+        samples,
+    })
+}
+
+fn sample_through(f: &dyn Fn(&[f64]) -> Option<f64>, args: &[&Value]) -> Option<Arc<[f64]>> {
+    let cols: Vec<&[f64]> = args
+        .iter()
+        .map(|a| a.samples.as_deref())
+        .collect::<Option<Vec<_>>>()?;
+    let n = cols.first().map_or(0, |c| c.len());
+    if cols.iter().any(|c| c.len() != n) {
+        return None;
+    }
+    let mut buf = vec![0.0; args.len()];
+    let mut out = Vec::with_capacity(n);
+    for i in 0..n {
+        for (b, c) in buf.iter_mut().zip(&cols) {
+            *b = c.get(i).copied().unwrap_or(f64::NAN);
+        }
+        out.push(f(&buf).unwrap_or(f64::NAN));
+    }
+    Some(Arc::from(out))
+}
+
+/// A stable 64-bit hash (FNV-1a), so seeds do not depend on the platform or the run.
+pub fn stable_hash(parts: &[&str], seed: u64) -> u64 {
+    let mut h: u64 = 0xcbf2_9ce4_8422_2325 ^ seed;
+    for p in parts {
+        for b in p.bytes().chain(std::iter::once(0xff)) {
+            h ^= u64::from(b);
+            h = h.wrapping_mul(0x0100_0000_01b3);
+        }
+    }
+    h
+}
+
+/// Draw `n` samples of a measurement, kept inside the physical range `[lo, hi]`.
+///
+/// Symmetric and asymmetric errors use the split normal (two half-Gaussians of widths
+/// `below` and `above` joined at the value). Samples outside the range are redrawn, up to
+/// 100 times, then clamped to the range. An upper limit is sampled uniformly between the
+/// range's lower end and the limit; a lower limit uniformly between the limit and the
+/// range's upper end. Callers do not pass limits without the needed finite end.
+pub fn draw(m: &Measurement, lo: f64, hi: f64, n: usize, seed: u64) -> Vec<f64> {
+    let mut rng = ChaCha8Rng::seed_from_u64(seed);
+    let inside = |v: f64| v >= lo && v <= hi && v.is_finite();
+    let clamp = |v: f64| {
+        let c = v.clamp(lo, hi);
+        if c.is_finite() {
+            c
+        } else {
+            m.value
+        }
+    };
+    match m.form {
+        Form::Exact => vec![m.value; n],
+        Form::UpperLimit => (0..n)
+            .map(|_| lo + (m.value - lo) * rng.gen::<f64>())
+            .collect(),
+        Form::LowerLimit => (0..n)
+            .map(|_| m.value + (hi - m.value) * rng.gen::<f64>())
+            .collect(),
+        Form::Symmetric | Form::Asymmetric => {
+            let total = m.below + m.above;
+            let p_below = if total > 0.0 { m.below / total } else { 0.5 };
+            let one = |rng: &mut ChaCha8Rng| {
+                let z: f64 = rng.sample::<f64, _>(StandardNormal).abs();
+                if rng.gen::<f64>() < p_below {
+                    m.value - z * m.below
+                } else {
+                    m.value + z * m.above
+                }
+            };
+            (0..n)
+                .map(|_| {
+                    for _ in 0..100 {
+                        let v = one(&mut rng);
+                        if inside(v) {
+                            return v;
+                        }
+                    }
+                    clamp(one(&mut rng))
+                })
+                .collect()
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn input(label: &str, s: f64) -> InputInfo {
+        InputInfo {
+            label: label.into(),
+            below: s,
+            above: s,
+        }
+    }
+
+    #[test]
+    fn linear_product_matches_closed_form() {
+        // For z = x*y with independent x, y: (sz/z)^2 = (sx/x)^2 + (sy/y)^2 (common practice).
+        let inputs = vec![input("x", 0.1), input("y", 0.2)];
+        let x = Value {
+            nominal: 2.0,
+            grad: vec![(0, 1.0)],
+            samples: None,
+        };
+        let y = Value {
+            nominal: 4.0,
+            grad: vec![(1, 1.0)],
+            samples: None,
+        };
+        let z = apply(&|v| Some(v[0] * v[1]), &[&x, &y], &inputs).unwrap();
+        let (lo, hi) = z.linear_spread(&inputs);
+        let expect = 8.0 * ((0.1f64 / 2.0).powi(2) + (0.2f64 / 4.0).powi(2)).sqrt();
+        assert!((lo - expect).abs() < 1e-8 && (hi - expect).abs() < 1e-8);
+        // x/x is exact: shared inputs cancel.
+        let r = apply(&|v| Some(v[0] / v[1]), &[&x, &x], &inputs).unwrap();
+        assert!(r.linear_spread(&inputs).0 < 1e-9);
+    }
+
+    #[test]
+    fn split_normal_percentiles() {
+        // For the split normal the mode is the value; P(below) = below/(below+above).
+        let m = Measurement {
+            value: 10.0,
+            below: 1.0,
+            above: 3.0,
+            form: Form::Asymmetric,
+        };
+        let s = draw(&m, f64::NEG_INFINITY, f64::INFINITY, 40_000, 7);
+        let frac_below = s.iter().filter(|v| **v < 10.0).count() as f64 / s.len() as f64;
+        assert!((frac_below - 0.25).abs() < 0.01, "{frac_below}");
+        let again = draw(&m, f64::NEG_INFINITY, f64::INFINITY, 40_000, 7);
+        assert_eq!(s, again, "same seed, same samples");
+    }
+
+    #[test]
+    fn samples_stay_in_range_and_limits_are_uniform() {
+        let e = Measurement {
+            value: 0.05,
+            below: 0.1,
+            above: 0.1,
+            form: Form::Symmetric,
+        };
+        let s = draw(&e, 0.0, 1.0, 10_000, 1);
+        assert!(s.iter().all(|v| (0.0..=1.0).contains(v)));
+        let lim = Measurement {
+            value: 0.08,
+            below: 0.0,
+            above: 0.0,
+            form: Form::UpperLimit,
+        };
+        let u = draw(&lim, 0.0, 1.0, 20_000, 2);
+        let mean = u.iter().sum::<f64>() / u.len() as f64;
+        assert!((mean - 0.04).abs() < 0.001 && u.iter().all(|v| (0.0..=0.08).contains(v)));
+    }
+
+    #[test]
+    fn percentile_summary_of_normal_samples() {
+        let m = Measurement {
+            value: 5.0,
+            below: 0.5,
+            above: 0.5,
+            form: Form::Symmetric,
+        };
+        let v = Value {
+            nominal: 5.0,
+            grad: vec![],
+            samples: Some(Arc::from(draw(
+                &m,
+                f64::NEG_INFINITY,
+                f64::INFINITY,
+                50_000,
+                3,
+            ))),
+        };
+        let (med, p16, p84, frac) = v.sample_summary().unwrap();
+        assert!((med - 5.0).abs() < 0.01 && (p84 - p16 - 1.0).abs() < 0.02 && frac == 1.0);
+    }
+}

@@ -1,0 +1,99 @@
+//! Number formatting for people: a value with its uncertainty rounded the way the trade
+//! writes it (two significant figures of the uncertainty, common practice), and plain
+//! numbers with enough digits to read back.
+
+/// A plain number: up to 6 significant figures, scientific notation outside [1e-3, 1e6).
+pub fn number(v: f64) -> String {
+    if !v.is_finite() {
+        return format!("{v}");
+    }
+    if v == 0.0 {
+        return "0".to_string();
+    }
+    let a = v.abs();
+    if !(1e-3..1e6).contains(&a) {
+        let s = format!("{v:.5e}");
+        return trim_exponent(&s);
+    }
+    let digits = (5 - a.log10().floor() as i32).clamp(0, 12) as usize;
+    trim_zeros(&format!("{v:.digits$}"))
+}
+
+fn trim_zeros(s: &str) -> String {
+    if s.contains('.') {
+        s.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        s.to_string()
+    }
+}
+
+fn trim_exponent(s: &str) -> String {
+    match s.split_once('e') {
+        Some((m, e)) => format!("{}e{}", trim_zeros(m), e),
+        None => s.to_string(),
+    }
+}
+
+/// Decimal places that show two significant figures of `u`.
+fn places_for(u: f64) -> i32 {
+    if u <= 0.0 || !u.is_finite() {
+        return 6;
+    }
+    1 - u.log10().floor() as i32
+}
+
+/// `value ± u` or `value +above/-below`, rounded to the uncertainty. Falls back to
+/// scientific notation with a shared exponent for very large or small values.
+pub fn with_uncertainty(value: f64, below: f64, above: f64) -> String {
+    if !value.is_finite() {
+        return format!("{value}");
+    }
+    let u = below.min(above);
+    let u = if u > 0.0 { u } else { below.max(above) };
+    if u <= 0.0 || !u.is_finite() {
+        return number(value);
+    }
+    let scale = value.abs().max(u);
+    if !(1e-3..1e6).contains(&scale) {
+        let exp = scale.log10().floor() as i32;
+        let f = 10f64.powi(exp);
+        return format!(
+            "({})e{exp}",
+            with_uncertainty(value / f, below / f, above / f)
+        );
+    }
+    let places = places_for(u).clamp(0, 12) as usize;
+    let v = format!("{value:.places$}");
+    let sym = ((above - below).abs() / above.max(below)) < 0.05;
+    if sym {
+        format!("{v} ± {:.places$}", (above + below) / 2.0)
+    } else {
+        format!("{v} +{above:.places$}/-{below:.places$}")
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn plain_numbers() {
+        assert_eq!(number(3.52474), "3.52474");
+        assert_eq!(number(0.5), "0.5");
+        assert_eq!(number(1.0e30), "1e30");
+        assert_eq!(number(12345.678), "12345.7");
+        assert_eq!(number(0.0), "0");
+    }
+
+    #[test]
+    fn rounded_to_the_uncertainty() {
+        assert_eq!(
+            with_uncertainty(0.044251, 0.00063, 0.00063),
+            "0.04425 ± 0.00063"
+        );
+        assert_eq!(with_uncertainty(1044.3, 25.0, 25.0), "1044 ± 25");
+        assert_eq!(with_uncertainty(0.88, 0.02, 0.03), "0.880 +0.030/-0.020");
+        assert_eq!(with_uncertainty(1.4e6, 1.3e5, 1.3e5), "(1.40 ± 0.13)e6");
+        assert_eq!(with_uncertainty(5.0, 0.0, 0.0), "5");
+    }
+}

@@ -1,0 +1,281 @@
+//! What `eval` reports: the machine-readable form (documented in `docs/json-output.md`) and
+//! the text form for people. Pure functions from an [`Analysis`] to data or text.
+
+use crate::derive::{display_factor, display_unit, Origin, QuantityResult};
+use crate::model::Form;
+use crate::quantities::{self, Qty};
+use crate::source::{LineIndex, SourceDb};
+use crate::Analysis;
+use serde_json::{json, Map, Value as Json};
+
+/// Version of the JSON contract; bump on any incompatible change.
+pub const JSON_VERSION: u32 = 1;
+
+fn finite(v: f64) -> Json {
+    if v.is_finite() {
+        json!(v)
+    } else {
+        Json::Null
+    }
+}
+
+fn key_label(a: &Analysis, sys: usize, k: crate::derive::Key) -> String {
+    let b = a
+        .model
+        .systems
+        .get(sys)
+        .and_then(|s| s.bodies.get(k.0))
+        .map_or("?", |b| b.id.as_str());
+    format!("{b}.{}", quantities::def(k.1).name)
+}
+
+fn quantity_json(a: &Analysis, sys: usize, q: &QuantityResult) -> Json {
+    let def = quantities::def(q.qty);
+    let mut m = Map::new();
+    if let Some(t) = &q.text {
+        m.insert("text".into(), json!(t));
+    } else {
+        let unit = display_unit(q.qty, q.value);
+        let f = display_factor(unit);
+        m.insert("value".into(), finite(q.value / f));
+        m.insert("unit".into(), json!(unit));
+        m.insert("below".into(), finite(q.below / f));
+        m.insert("above".into(), finite(q.above / f));
+        m.insert(
+            "si".into(),
+            json!({
+                "value": finite(q.value),
+                "below": finite(q.below),
+                "above": finite(q.above),
+                "unit": def.dim.si_unit(),
+            }),
+        );
+    }
+    m.insert("form".into(), json!(q.form.as_str()));
+    m.insert(
+        "limit".into(),
+        match q.form {
+            Form::UpperLimit => json!("upper"),
+            Form::LowerLimit => json!("lower"),
+            _ => Json::Null,
+        },
+    );
+    m.insert("origin".into(), json!(q.origin.as_str()));
+    if let Some(r) = q.rule {
+        m.insert("rule".into(), json!(r));
+    }
+    if let Some(f) = q.formula {
+        m.insert("formula".into(), json!(f));
+    }
+    if !q.inputs.is_empty() {
+        m.insert(
+            "inputs".into(),
+            json!(q
+                .inputs
+                .iter()
+                .map(|k| key_label(a, sys, *k))
+                .collect::<Vec<_>>()),
+        );
+    }
+    if !q.citations.is_empty() {
+        m.insert("citations".into(), json!(q.citations));
+    }
+    if !q.assumptions.is_empty() {
+        m.insert("assumptions".into(), json!(q.assumptions));
+    }
+    if q.origin == Origin::Derived && !q.budget.is_empty() {
+        m.insert(
+            "budget".into(),
+            json!(q
+                .budget
+                .iter()
+                .map(|(input, share)| json!({"input": input, "share": share}))
+                .collect::<Vec<_>>()),
+        );
+    }
+    if !q.notes.is_empty() {
+        m.insert("notes".into(), json!(q.notes));
+    }
+    Json::Object(m)
+}
+
+/// The systems of one analysed file, in the `eval --format json` shape.
+pub fn systems_json(a: &Analysis, db: &dyn SourceDb) -> Vec<Json> {
+    let mut out = Vec::new();
+    for (si, (sys, res)) in a.model.systems.iter().zip(&a.results).enumerate() {
+        let bodies: Vec<Json> = sys
+            .bodies
+            .iter()
+            .zip(&res.bodies)
+            .map(|(b, r)| {
+                let mut qs = Map::new();
+                for q in &r.quantities {
+                    qs.insert(
+                        quantities::def(q.qty).name.to_string(),
+                        quantity_json(a, si, q),
+                    );
+                }
+                let mut body = Map::new();
+                body.insert("id".into(), json!(b.id));
+                body.insert("kind".into(), json!(b.kind.as_str()));
+                if b.kind == crate::ast::BodyKind::Planet {
+                    body.insert(
+                        "orbits".into(),
+                        b.orbits
+                            .and_then(|h| sys.bodies.get(h))
+                            .map_or(Json::Null, |h| json!(h.id)),
+                    );
+                }
+                body.insert("quantities".into(), Json::Object(qs));
+                if let Some(c) = a.composition.get(&(si, b.id.clone())) {
+                    body.insert("composition".into(), c.clone());
+                }
+                Json::Object(body)
+            })
+            .collect();
+        out.push(json!({
+            "file": db.name(a.file),
+            "name": sys.name,
+            "bodies": bodies,
+        }));
+    }
+    out
+}
+
+/// Diagnostics of one analysed file, in the documented shape.
+pub fn diagnostics_json(a: &Analysis, db: &dyn SourceDb) -> Vec<Json> {
+    let index = LineIndex::new(db.text(a.file));
+    a.diagnostics
+        .iter()
+        .map(|d| d.to_json(db, &index))
+        .collect()
+}
+
+/// A value as people read it: `0.0443 ± 0.0006 au`, `< 0.08`, `"K0V"`.
+pub fn value_text(q: &QuantityResult) -> String {
+    if let Some(t) = &q.text {
+        return format!("\"{t}\"");
+    }
+    let unit = display_unit(q.qty, q.value);
+    let f = display_factor(unit);
+    let u = if unit == "1" {
+        String::new()
+    } else {
+        format!(" {unit}")
+    };
+    let v = match q.form {
+        Form::UpperLimit => format!("< {}", crate::format::number(q.value / f)),
+        Form::LowerLimit => format!("> {}", crate::format::number(q.value / f)),
+        Form::Exact => crate::format::number(q.value / f),
+        _ => crate::format::with_uncertainty(q.value / f, q.below / f, q.above / f),
+    };
+    let extra = if q.qty == Qty::Insolation {
+        format!(
+            " ({} W/m^2)",
+            crate::format::with_uncertainty(q.value, q.below, q.above)
+        )
+    } else {
+        String::new()
+    };
+    format!("{v}{u}{extra}")
+}
+
+/// Where a value came from, in a few words.
+pub fn provenance_text(a: &Analysis, sys: usize, q: &QuantityResult) -> String {
+    let cites = if q.citations.is_empty() {
+        String::new()
+    } else {
+        format!(" [{}]", q.citations.join(", "))
+    };
+    match q.origin {
+        Origin::Declared | Origin::Assumed if q.rule.is_none() => {
+            format!("{}{cites}", q.origin.as_str())
+        }
+        Origin::Default => "default".to_string(),
+        _ => {
+            let inputs: Vec<String> = q.inputs.iter().map(|k| key_label(a, sys, *k)).collect();
+            format!(
+                "{} by {} from {}{cites}",
+                if q.origin == Origin::Derived {
+                    "derived"
+                } else {
+                    q.origin.as_str()
+                },
+                q.rule.unwrap_or("?"),
+                inputs.join(", ")
+            )
+        }
+    }
+}
+
+/// The people's form of `eval` for one file.
+pub fn eval_text(a: &Analysis, db: &dyn SourceDb) -> String {
+    let mut out = String::new();
+    for (si, (sys, res)) in a.model.systems.iter().zip(&a.results).enumerate() {
+        out.push_str(&format!("system \"{}\"  ({})\n", sys.name, db.name(a.file)));
+        for (b, r) in sys.bodies.iter().zip(&res.bodies) {
+            match b.orbits.and_then(|h| sys.bodies.get(h)) {
+                Some(h) => {
+                    out.push_str(&format!("  {} {} orbits {}\n", b.kind.as_str(), b.id, h.id))
+                }
+                None => out.push_str(&format!("  {} {}\n", b.kind.as_str(), b.id)),
+            }
+            let width = r
+                .quantities
+                .iter()
+                .map(|q| quantities::def(q.qty).name.len())
+                .max()
+                .unwrap_or(0);
+            let rows: Vec<(String, String, String)> = r
+                .quantities
+                .iter()
+                .map(|q| {
+                    (
+                        quantities::def(q.qty).name.to_string(),
+                        value_text(q),
+                        provenance_text(a, si, q),
+                    )
+                })
+                .collect();
+            let vwidth = rows.iter().map(|r| r.1.chars().count()).max().unwrap_or(0);
+            for (name, value, prov) in rows {
+                let pad = vwidth.saturating_sub(value.chars().count());
+                out.push_str(&format!(
+                    "    {name:<width$}  {value}{}  {prov}\n",
+                    " ".repeat(pad)
+                ));
+            }
+            if let Some(c) = a.composition_text.get(&(si, b.id.clone())) {
+                out.push_str(&format!("    composition: {c}\n"));
+            }
+            let mut assumed: Vec<&String> = r
+                .quantities
+                .iter()
+                .flat_map(|q| q.assumptions.iter())
+                .collect();
+            assumed.sort();
+            assumed.dedup();
+            if !assumed.is_empty() {
+                out.push_str("    assumed:\n");
+                for s in assumed {
+                    out.push_str(&format!("      - {s}\n"));
+                }
+            }
+            let mut notes: Vec<String> = r
+                .quantities
+                .iter()
+                .flat_map(|q| {
+                    q.notes
+                        .iter()
+                        .map(move |n| format!("{}: {n}", quantities::def(q.qty).name))
+                })
+                .collect();
+            notes.dedup();
+            for n in notes {
+                out.push_str(&format!("    note: {n}\n"));
+            }
+        }
+        out.push('\n');
+    }
+    out
+}

@@ -1,0 +1,657 @@
+//! Dimensions and units at run time.
+//!
+//! A [`Dimension`] is a product of base dimensions (length, mass, time, temperature, angle)
+//! with rational exponents, so `sqrt` and `cbrt` stay exact. Angle is a base dimension of
+//! its own here, deliberately: `inclination = 88` must not pass for `88 deg`.
+//!
+//! One registry ([`lookup`]) holds every unit symbol with its aliases, its SI factor, its
+//! dimension, whether SI prefixes apply, and the standard its value comes from. Constants
+//! live in [`crate::constants`].
+
+use crate::ast::UnitExpr;
+use crate::constants as k;
+use std::fmt;
+use std::sync::OnceLock;
+
+/// A small exact rational number for dimension exponents.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub struct Rat {
+    num: i16,
+    den: i16,
+}
+
+impl Rat {
+    pub const ZERO: Rat = Rat { num: 0, den: 1 };
+    pub const ONE: Rat = Rat { num: 1, den: 1 };
+
+    pub fn new(num: i32, den: i32) -> Rat {
+        let g = gcd(num.unsigned_abs(), den.unsigned_abs()).max(1) as i32;
+        let sign = if den < 0 { -1 } else { 1 };
+        Rat {
+            num: clamp_i16(sign * num / g),
+            den: clamp_i16((sign * den / g).max(1)),
+        }
+    }
+
+    pub fn int(n: i32) -> Rat {
+        Rat::new(n, 1)
+    }
+
+    fn add(self, o: Rat) -> Rat {
+        Rat::new(
+            i32::from(self.num) * i32::from(o.den) + i32::from(o.num) * i32::from(self.den),
+            i32::from(self.den) * i32::from(o.den),
+        )
+    }
+
+    fn mul(self, o: Rat) -> Rat {
+        Rat::new(
+            i32::from(self.num) * i32::from(o.num),
+            i32::from(self.den) * i32::from(o.den),
+        )
+    }
+
+    pub fn is_zero(self) -> bool {
+        self.num == 0
+    }
+
+    pub fn as_f64(self) -> f64 {
+        f64::from(self.num) / f64::from(self.den)
+    }
+}
+
+fn clamp_i16(v: i32) -> i16 {
+    v.clamp(i32::from(i16::MIN), i32::from(i16::MAX)) as i16
+}
+
+fn gcd(mut a: u32, mut b: u32) -> u32 {
+    while b != 0 {
+        (a, b) = (b, a % b);
+    }
+    a
+}
+
+impl fmt::Display for Rat {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        if self.den == 1 {
+            write!(f, "{}", self.num)
+        } else {
+            write!(f, "({}/{})", self.num, self.den)
+        }
+    }
+}
+
+const BASE_NAMES: [&str; 5] = ["m", "kg", "s", "K", "rad"];
+
+/// A product of base dimensions: length, mass, time, temperature, angle.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub struct Dimension([Rat; 5]);
+
+impl Dimension {
+    pub const NONE: Dimension = Dimension([Rat::ZERO; 5]);
+    pub const LENGTH: Dimension = Dimension::base(0);
+    pub const MASS: Dimension = Dimension::base(1);
+    pub const TIME: Dimension = Dimension::base(2);
+    pub const TEMPERATURE: Dimension = Dimension::base(3);
+    pub const ANGLE: Dimension = Dimension::base(4);
+
+    const fn base(i: usize) -> Dimension {
+        let mut e = [Rat::ZERO; 5];
+        e[i] = Rat::ONE;
+        Dimension(e)
+    }
+
+    /// From integer exponents of length, mass, time, temperature, angle.
+    pub fn of(l: i32, m: i32, t: i32, temp: i32, angle: i32) -> Dimension {
+        Dimension([
+            Rat::int(l),
+            Rat::int(m),
+            Rat::int(t),
+            Rat::int(temp),
+            Rat::int(angle),
+        ])
+    }
+
+    pub fn mul(self, o: Dimension) -> Dimension {
+        let mut e = self.0;
+        for (a, b) in e.iter_mut().zip(o.0) {
+            *a = a.add(b);
+        }
+        Dimension(e)
+    }
+
+    pub fn div(self, o: Dimension) -> Dimension {
+        self.mul(o.pow(Rat::int(-1)))
+    }
+
+    pub fn pow(self, p: Rat) -> Dimension {
+        let mut e = self.0;
+        for a in e.iter_mut() {
+            *a = a.mul(p);
+        }
+        Dimension(e)
+    }
+
+    pub fn is_none(self) -> bool {
+        self.0.iter().all(|r| r.is_zero())
+    }
+
+    /// The SI spelling of the dimension: `m^3 kg^-1 s^-2`, `1` when dimensionless.
+    pub fn si_unit(self) -> String {
+        if let Some(name) = self.si_name() {
+            return name.to_string();
+        }
+        let parts: Vec<String> = BASE_NAMES
+            .iter()
+            .zip(self.0)
+            .filter(|(_, e)| !e.is_zero())
+            .map(|(n, e)| {
+                if e == Rat::ONE {
+                    (*n).to_string()
+                } else {
+                    format!("{n}^{e}")
+                }
+            })
+            .collect();
+        if parts.is_empty() {
+            "1".to_string()
+        } else {
+            parts.join(" ")
+        }
+    }
+
+    /// Conventional SI spellings for the dimensions the trade quotes most.
+    fn si_name(self) -> Option<&'static str> {
+        let table: [(Dimension, &str); 6] = [
+            (Dimension::of(1, 0, -1, 0, 0), "m/s"),
+            (Dimension::of(1, 0, -2, 0, 0), "m/s^2"),
+            (Dimension::of(-3, 1, 0, 0, 0), "kg/m^3"),
+            (Dimension::of(2, 1, -3, 0, 0), "W"),
+            (Dimension::of(0, 1, -3, 0, 0), "W/m^2"),
+            (Dimension::of(3, -1, -2, 0, 0), "m^3 kg^-1 s^-2"),
+        ];
+        table.iter().find(|(d, _)| *d == self).map(|(_, n)| *n)
+    }
+
+    /// A plain-English name where one exists ("length", "speed"), else the SI spelling.
+    pub fn describe(self) -> String {
+        let names: [(Dimension, &str); 16] = [
+            (Dimension::NONE, "a dimensionless number"),
+            (Dimension::LENGTH, "a length"),
+            (Dimension::MASS, "a mass"),
+            (Dimension::TIME, "a time"),
+            (Dimension::TEMPERATURE, "a temperature"),
+            (Dimension::ANGLE, "an angle"),
+            (Dimension::of(1, 0, -1, 0, 0), "a speed"),
+            (Dimension::of(1, 0, -2, 0, 0), "an acceleration"),
+            (Dimension::of(-3, 1, 0, 0, 0), "a density"),
+            (Dimension::of(2, 1, -3, 0, 0), "a power"),
+            (Dimension::of(0, 1, -3, 0, 0), "a flux (power per area)"),
+            (Dimension::of(2, 0, 0, 0, 0), "an area"),
+            (Dimension::of(3, 0, 0, 0, 0), "a volume"),
+            (Dimension::of(0, 0, -1, 0, 0), "a frequency"),
+            (Dimension::of(2, 1, -2, 0, 0), "an energy"),
+            (Dimension::of(1, 1, -2, 0, 0), "a force"),
+        ];
+        match names.iter().find(|(d, _)| *d == self) {
+            Some((_, n)) => format!("{n} ({})", self.si_unit()),
+            None => format!("dimension {}", self.si_unit()),
+        }
+    }
+}
+
+impl fmt::Display for Dimension {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(&self.si_unit())
+    }
+}
+
+/// One entry of the unit registry.
+#[derive(Debug, Clone)]
+pub struct UnitDef {
+    pub symbol: &'static str,
+    pub aliases: &'static [&'static str],
+    pub name: &'static str,
+    /// Multiply a value in this unit by `factor` to get SI.
+    pub factor: f64,
+    pub dim: Dimension,
+    pub prefixes: bool,
+    pub source: &'static str,
+}
+
+const PREFIXES: &[(&str, f64)] = &[
+    ("Q", 1e30),
+    ("R", 1e27),
+    ("Y", 1e24),
+    ("Z", 1e21),
+    ("E", 1e18),
+    ("P", 1e15),
+    ("T", 1e12),
+    ("G", 1e9),
+    ("M", 1e6),
+    ("k", 1e3),
+    ("h", 1e2),
+    ("da", 1e1),
+    ("d", 1e-1),
+    ("c", 1e-2),
+    ("m", 1e-3),
+    ("u", 1e-6),
+    ("µ", 1e-6),
+    ("μ", 1e-6),
+    ("n", 1e-9),
+    ("p", 1e-12),
+    ("f", 1e-15),
+    ("a", 1e-18),
+];
+
+fn registry() -> &'static [UnitDef] {
+    static REG: OnceLock<Vec<UnitDef>> = OnceLock::new();
+    REG.get_or_init(build_registry)
+}
+
+fn build_registry() -> Vec<UnitDef> {
+    use Dimension as D;
+    let u = |symbol, aliases, name, factor, dim, prefixes, source| UnitDef {
+        symbol,
+        aliases,
+        name,
+        factor,
+        dim,
+        prefixes,
+        source,
+    };
+    let si = "SI base or derived unit (SI Brochure, 9th edition, 2019)";
+    let b3 = "IAU 2015 Resolution B3 nominal value";
+    vec![
+        u("m", &[], "metre", 1.0, D::LENGTH, true, si),
+        u("g", &[], "gram", 1e-3, D::MASS, true, si),
+        u("s", &["sec"], "second", 1.0, D::TIME, true, si),
+        u("K", &[], "kelvin", 1.0, D::TEMPERATURE, true, si),
+        u("rad", &[], "radian", 1.0, D::ANGLE, true, si),
+        u("W", &[], "watt", 1.0, D::of(2, 1, -3, 0, 0), true, si),
+        u("J", &[], "joule", 1.0, D::of(2, 1, -2, 0, 0), true, si),
+        u("N", &[], "newton", 1.0, D::of(1, 1, -2, 0, 0), true, si),
+        u("Hz", &[], "hertz", 1.0, D::of(0, 0, -1, 0, 0), true, si),
+        u(
+            "erg",
+            &[],
+            "erg",
+            1e-7,
+            D::of(2, 1, -2, 0, 0),
+            false,
+            "cgs unit, 1e-7 J (exact by definition)",
+        ),
+        u(
+            "min",
+            &[],
+            "minute",
+            60.0,
+            D::TIME,
+            false,
+            "60 s (SI Brochure, non-SI unit accepted for use)",
+        ),
+        u(
+            "h",
+            &["hr"],
+            "hour",
+            3600.0,
+            D::TIME,
+            false,
+            "3600 s (SI Brochure, non-SI unit accepted for use)",
+        ),
+        u(
+            "d",
+            &["day", "days"],
+            "day",
+            k::DAY,
+            D::TIME,
+            false,
+            "86 400 s (SI Brochure; IAU)",
+        ),
+        u(
+            "yr",
+            &["a_j"],
+            "Julian year",
+            k::JULIAN_YEAR,
+            D::TIME,
+            true,
+            "Julian year, 365.25 d (IAU)",
+        ),
+        u(
+            "BJD_TDB",
+            &["BJD", "JD_TDB", "JD", "JD_UTC", "HJD"],
+            "Julian date (days)",
+            k::DAY,
+            D::TIME,
+            false,
+            "Julian date counts days of 86 400 s (IAU); the suffix names the time scale",
+        ),
+        u(
+            "deg",
+            &["°"],
+            "degree",
+            std::f64::consts::PI / 180.0,
+            D::ANGLE,
+            false,
+            "pi/180 rad (SI Brochure)",
+        ),
+        u(
+            "arcmin",
+            &[],
+            "arcminute",
+            std::f64::consts::PI / 10_800.0,
+            D::ANGLE,
+            false,
+            "pi/10800 rad (SI Brochure)",
+        ),
+        u(
+            "arcsec",
+            &["as"],
+            "arcsecond",
+            std::f64::consts::PI / 648_000.0,
+            D::ANGLE,
+            false,
+            "pi/648000 rad (SI Brochure)",
+        ),
+        u(
+            "mas",
+            &[],
+            "milliarcsecond",
+            std::f64::consts::PI / 648_000_000.0,
+            D::ANGLE,
+            false,
+            "1e-3 arcsec",
+        ),
+        u(
+            "uas",
+            &["µas", "μas"],
+            "microarcsecond",
+            std::f64::consts::PI / 648_000_000_000.0,
+            D::ANGLE,
+            false,
+            "1e-6 arcsec",
+        ),
+        u(
+            "au",
+            &["AU"],
+            "astronomical unit",
+            k::AU,
+            D::LENGTH,
+            false,
+            "IAU 2012 Resolution B2 (exact)",
+        ),
+        u(
+            "pc",
+            &[],
+            "parsec",
+            k::PARSEC,
+            D::LENGTH,
+            true,
+            "648000/pi au (IAU 2015 Resolution B2)",
+        ),
+        u(
+            "ly",
+            &[],
+            "light-year",
+            k::LIGHT_YEAR,
+            D::LENGTH,
+            false,
+            "c times one Julian year (IAU)",
+        ),
+        u(
+            "Msun",
+            &["M☉", "Msol", "M_sun"],
+            "nominal solar mass",
+            k::M_SUN,
+            D::MASS,
+            false,
+            "IAU 2015 B3 nominal GM_sun divided by CODATA 2018 G",
+        ),
+        u(
+            "Mjup",
+            &["MJ", "M_jup", "Mjupiter"],
+            "nominal Jupiter mass",
+            k::M_JUPITER,
+            D::MASS,
+            false,
+            "IAU 2015 B3 nominal GM_J divided by CODATA 2018 G",
+        ),
+        u(
+            "Mearth",
+            &["M⊕", "M_earth", "Mearth"],
+            "nominal Earth mass",
+            k::M_EARTH,
+            D::MASS,
+            false,
+            "IAU 2015 B3 nominal GM_E divided by CODATA 2018 G",
+        ),
+        u(
+            "Rsun",
+            &["R☉", "Rsol", "R_sun"],
+            "nominal solar radius",
+            k::R_SUN,
+            D::LENGTH,
+            false,
+            b3,
+        ),
+        u(
+            "Rjup",
+            &["RJ", "R_jup", "Rjupiter"],
+            "nominal equatorial Jupiter radius",
+            k::R_JUPITER,
+            D::LENGTH,
+            false,
+            b3,
+        ),
+        u(
+            "Rearth",
+            &["R⊕", "R_earth"],
+            "nominal equatorial Earth radius",
+            k::R_EARTH,
+            D::LENGTH,
+            false,
+            b3,
+        ),
+        u(
+            "Lsun",
+            &["L☉", "Lsol", "L_sun"],
+            "nominal solar luminosity",
+            k::L_SUN,
+            D::of(2, 1, -3, 0, 0),
+            false,
+            b3,
+        ),
+        u(
+            "Searth",
+            &["S⊕", "S_earth"],
+            "insolation at Earth (nominal total solar irradiance)",
+            k::S_SUN,
+            D::of(0, 1, -3, 0, 0),
+            false,
+            "IAU 2015 B3 nominal total solar irradiance, 1361 W/m^2",
+        ),
+        u("%", &["percent"], "percent", 1e-2, D::NONE, false, "1/100"),
+        u("ppm", &[], "part per million", 1e-6, D::NONE, false, "1e-6"),
+        u(
+            "ppt",
+            &[],
+            "part per thousand",
+            1e-3,
+            D::NONE,
+            false,
+            "1e-3",
+        ),
+        u(
+            "dex",
+            &[],
+            "decimal exponent",
+            1.0,
+            D::NONE,
+            false,
+            "dimensionless logarithm (common practice)",
+        ),
+    ]
+}
+
+/// A resolved unit: its SI factor and dimension (and the text it was written as).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Unit {
+    pub factor: f64,
+    pub dim: Dimension,
+    pub text: String,
+}
+
+impl Unit {
+    pub fn one() -> Unit {
+        Unit {
+            factor: 1.0,
+            dim: Dimension::NONE,
+            text: String::new(),
+        }
+    }
+}
+
+/// Why a unit symbol did not resolve.
+#[derive(Debug, Clone, PartialEq)]
+pub struct UnknownUnit {
+    pub symbol: String,
+    pub suggestion: Option<&'static str>,
+}
+
+/// Look up one symbol, with or without an SI prefix.
+pub fn lookup(symbol: &str) -> Option<(f64, &'static UnitDef)> {
+    let reg = registry();
+    if let Some(def) = reg
+        .iter()
+        .find(|d| d.symbol == symbol || d.aliases.contains(&symbol))
+    {
+        return Some((def.factor, def));
+    }
+    for (p, scale) in PREFIXES {
+        if let Some(rest) = symbol.strip_prefix(p) {
+            if let Some(def) = reg.iter().find(|d| d.prefixes && d.symbol == rest) {
+                return Some((scale * def.factor, def));
+            }
+        }
+    }
+    None
+}
+
+/// Every registered unit (for completion and documentation).
+pub fn all_units() -> &'static [UnitDef] {
+    registry()
+}
+
+/// The nearest known symbol, for a did-you-mean hint.
+pub fn suggest(symbol: &str) -> Option<&'static str> {
+    let lower = symbol.to_lowercase();
+    let mut best: Option<(usize, &'static str)> = None;
+    for def in registry() {
+        for cand in std::iter::once(&def.symbol).chain(def.aliases.iter()) {
+            let d = if cand.to_lowercase() == lower {
+                0
+            } else {
+                crate::text::edit_distance(&lower, &cand.to_lowercase())
+            };
+            if d <= 2 && best.is_none_or(|(bd, _)| d < bd) {
+                best = Some((d, def.symbol));
+            }
+        }
+    }
+    best.map(|(_, s)| s)
+}
+
+/// Resolve a parsed unit expression. Errors name each unknown symbol.
+pub fn resolve(expr: &UnitExpr) -> Result<Unit, Vec<(crate::source::Span, UnknownUnit)>> {
+    let mut factor = 1.0;
+    let mut dim = Dimension::NONE;
+    let mut errors = Vec::new();
+    for f in &expr.factors {
+        match lookup(&f.symbol.name) {
+            Some((scale, def)) => {
+                factor *= scale.powi(f.exponent);
+                dim = dim.mul(def.dim.pow(Rat::int(f.exponent)));
+            }
+            None => errors.push((
+                f.symbol.span,
+                UnknownUnit {
+                    symbol: f.symbol.name.clone(),
+                    suggestion: suggest(&f.symbol.name),
+                },
+            )),
+        }
+    }
+    if errors.is_empty() {
+        Ok(Unit {
+            factor,
+            dim,
+            text: unit_text(expr),
+        })
+    } else {
+        Err(errors)
+    }
+}
+
+/// The canonical spelling of a unit expression: numerator factors joined by spaces, each
+/// denominator factor after a `/` (`km s^-1` is spelled `km/s`, `g cm^-3` is `g/cm^3`).
+pub fn unit_text(expr: &UnitExpr) -> String {
+    let power = |name: &str, e: i32| {
+        if e == 1 {
+            name.to_string()
+        } else {
+            format!("{name}^{e}")
+        }
+    };
+    let num: Vec<String> = expr
+        .factors
+        .iter()
+        .filter(|f| f.exponent > 0)
+        .map(|f| power(&f.symbol.name, f.exponent))
+        .collect();
+    let den: Vec<&crate::ast::UnitFactor> =
+        expr.factors.iter().filter(|f| f.exponent < 0).collect();
+    if num.is_empty() {
+        return den
+            .iter()
+            .map(|f| power(&f.symbol.name, f.exponent))
+            .collect::<Vec<_>>()
+            .join(" ");
+    }
+    let mut out = num.join(" ");
+    for f in den {
+        out.push('/');
+        out.push_str(&power(&f.symbol.name, -f.exponent));
+    }
+    out
+}
+
+/// Parse a unit written as text (`km/s`, `g/cm^3`, `W/m^2`, `km s^-1`), for display units
+/// and conversions requested by front ends.
+pub fn parse_unit_text(text: &str) -> Option<Unit> {
+    let text = text.trim();
+    if text.is_empty() || text == "1" {
+        return Some(Unit::one());
+    }
+    let mut factor = 1.0;
+    let mut dim = Dimension::NONE;
+    for (i, part) in text.split('/').enumerate() {
+        for word in part.split_whitespace() {
+            let (sym, exp) = match word.split_once('^') {
+                Some((s, e)) => (s, e.parse::<i32>().ok()?),
+                None => (word, 1),
+            };
+            let exp = if i > 0 { -exp } else { exp };
+            let (scale, def) = lookup(sym)?;
+            factor *= scale.powi(exp);
+            dim = dim.mul(def.dim.pow(Rat::int(exp)));
+        }
+    }
+    Some(Unit {
+        factor,
+        dim,
+        text: text.to_string(),
+    })
+}
+
+#[cfg(test)]
+mod tests;

@@ -1,0 +1,98 @@
+use super::*;
+
+fn si(text: &str) -> (f64, Dimension) {
+    let u = parse_unit_text(text).unwrap_or_else(|| panic!("unit {text} did not parse"));
+    (u.factor, u.dim)
+}
+
+fn close(a: f64, b: f64, rel: f64) -> bool {
+    (a - b).abs() <= rel * b.abs().max(f64::MIN_POSITIVE)
+}
+
+/// Conversions checked against values computed with astropy 8.0.2 (IAU 2015 B3 nominal
+/// values, CODATA 2018 G), recorded by `tests/reference/make_reference.py` in
+/// `tests/reference/units.json`.
+#[test]
+fn conversions_match_astropy_reference() {
+    let json = include_str!("../../../tests/reference/units.json");
+    let v: serde_json::Value = serde_json::from_str(json).unwrap_or_default();
+    let rows = v["units"].as_array().cloned().unwrap_or_default();
+    assert!(rows.len() >= 25, "reference file has too few rows");
+    for row in rows {
+        let text = row["text"].as_str().unwrap_or("");
+        let expected = row["si_value"].as_f64().unwrap_or(f64::NAN);
+        let (value, unit) = text.split_once(' ').unwrap_or((text, ""));
+        let value: f64 = value.parse().unwrap_or(f64::NAN);
+        let (factor, dim) = si(unit);
+        assert!(
+            close(value * factor, expected, 1e-12),
+            "{text}: {} vs astropy {expected}",
+            value * factor
+        );
+        let expect_unit = row["si_unit"].as_str().unwrap_or("");
+        assert_eq!(dim.si_unit(), expect_unit, "{text}");
+    }
+}
+
+#[test]
+fn published_definitions() {
+    // IAU 2012 Resolution B2: 1 au = 149 597 870 700 m exactly.
+    assert_eq!(si("au").0, 149_597_870_700.0);
+    // IAU 2015 Resolution B3: nominal solar radius 6.957e8 m, Jupiter equatorial 7.1492e7 m,
+    // Earth equatorial 6.3781e6 m, nominal solar luminosity 3.828e26 W.
+    assert_eq!(si("Rsun").0, 6.957e8);
+    assert_eq!(si("R☉").0, 6.957e8);
+    assert_eq!(si("Rjup").0, 7.1492e7);
+    assert_eq!(si("R⊕").0, 6.3781e6);
+    assert_eq!(si("Lsun").0, 3.828e26);
+    // Julian year, 365.25 d of 86 400 s (IAU).
+    assert_eq!(si("yr").0, 31_557_600.0);
+    assert_eq!(si("Gyr").0, 31_557_600.0e9);
+    // 1 pc = 648000/pi au (IAU 2015 Resolution B2) = 3.0856775814913673e16 m.
+    assert!(close(si("pc").0, 3.085_677_581_491_367e16, 1e-15));
+    assert!(close(si("kpc").0, 3.085_677_581_491_367_3e19, 1e-15));
+    // 1 mas = pi/648e6 rad (SI Brochure definition of the arcsecond).
+    assert!(close(si("mas").0, 4.848_136_811_095_36e-9, 1e-12));
+}
+
+#[test]
+fn compound_units_and_dimensions() {
+    assert_eq!(si("km/s").1, Dimension::of(1, 0, -1, 0, 0));
+    assert_eq!(si("km s^-1"), si("km/s"));
+    let (f, d) = si("g/cm^3");
+    assert!(close(f, 1000.0, 1e-15));
+    assert_eq!(d, Dimension::of(-3, 1, 0, 0, 0));
+    assert_eq!(si("W/m^2").1.si_unit(), "W/m^2");
+    assert_eq!(si("%").0, 0.01);
+    assert!(
+        si("deg").1 != si("1").1,
+        "angles are not dimensionless numbers"
+    );
+    assert!(parse_unit_text("furlong").is_none());
+}
+
+#[test]
+fn rational_exponents() {
+    let d = Dimension::of(3, 0, 0, 0, 0).pow(Rat::new(1, 3));
+    assert_eq!(d, Dimension::LENGTH);
+    let half = Dimension::LENGTH.pow(Rat::new(1, 2));
+    assert_eq!(half.pow(Rat::int(2)), Dimension::LENGTH);
+    assert_eq!(half.si_unit(), "m^(1/2)");
+}
+
+#[test]
+fn suggestions() {
+    assert_eq!(suggest("msun"), Some("Msun"));
+    assert_eq!(suggest("Rjupp"), Some("Rjup"));
+    assert_eq!(suggest("qqqqqq"), None);
+}
+
+#[test]
+fn prefixes_only_where_allowed() {
+    assert!(lookup("kpc").is_some());
+    assert!(lookup("mm").is_some());
+    assert!(lookup("kMsun").is_none());
+    assert!(lookup("kd").is_none());
+    // "min" is the minute, not milli-inch; "mas" the milliarcsecond.
+    assert_eq!(lookup("min").map(|(f, _)| f), Some(60.0));
+}
