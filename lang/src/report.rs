@@ -279,3 +279,99 @@ pub fn eval_text(a: &Analysis, db: &dyn SourceDb) -> String {
     }
     out
 }
+
+/// Find a body by id: in the named system, or the first system that has it.
+pub fn find_body(a: &Analysis, system: Option<&str>, body: &str) -> Option<(usize, usize)> {
+    a.model.systems.iter().enumerate().find_map(|(si, s)| {
+        if system.is_some_and(|n| n != s.name) {
+            return None;
+        }
+        s.body(body).map(|bi| (si, bi))
+    })
+}
+
+/// The derivation tree of one quantity down to the declared measurements, then its error
+/// budget: each independent input's share of the variance (first order).
+pub fn explain_text(a: &Analysis, si: usize, key: crate::derive::Key) -> Option<String> {
+    let res = a.results.get(si)?;
+    let q = res.bodies.get(key.0)?.get(key.1)?;
+    let mut out = String::new();
+    let mut seen = Vec::new();
+    explain_node(a, si, key, "", "", &mut out, &mut seen);
+    if !q.budget.is_empty() {
+        out.push_str("\nerror budget (share of the variance, first order):\n");
+        let width = q.budget.iter().map(|b| b.0.len()).max().unwrap_or(0);
+        for (input, share) in &q.budget {
+            out.push_str(&format!("  {input:<width$}  {:>5.1} %\n", share * 100.0));
+        }
+        if let Some((top, _)) = q.budget.first() {
+            out.push_str(&format!("  to improve this value, improve {top} first\n"));
+        }
+    }
+    let mut assumed = q.assumptions.clone();
+    assumed.dedup();
+    if !assumed.is_empty() {
+        out.push_str("\nassumed:\n");
+        for s in assumed {
+            out.push_str(&format!("  - {s}\n"));
+        }
+    }
+    Some(out)
+}
+
+fn explain_node(
+    a: &Analysis,
+    si: usize,
+    key: crate::derive::Key,
+    lead: &str,
+    child_lead: &str,
+    out: &mut String,
+    seen: &mut Vec<crate::derive::Key>,
+) {
+    let label = key_label(a, si, key);
+    let Some(q) = a
+        .results
+        .get(si)
+        .and_then(|r| r.bodies.get(key.0))
+        .and_then(|b| b.get(key.1))
+    else {
+        out.push_str(&format!("{lead}{label} (not available)\n"));
+        return;
+    };
+    let how = match (q.origin, q.rule, q.formula) {
+        (_, Some(rule), Some(f)) => format!("{} by {rule}: {f}", q.origin.as_str()),
+        _ => provenance_text(a, si, q),
+    };
+    let again = seen.contains(&key);
+    out.push_str(&format!(
+        "{lead}{label} = {}  {how}{}\n",
+        value_text(q),
+        if again && !q.inputs.is_empty() {
+            "  (expanded above)"
+        } else {
+            ""
+        }
+    ));
+    if again {
+        return;
+    }
+    seen.push(key);
+    let n = q.inputs.len();
+    for (i, k) in q.inputs.iter().enumerate() {
+        let last = i + 1 == n;
+        let (l, c) = if last {
+            ("└─ ", "   ")
+        } else {
+            ("├─ ", "│  ")
+        };
+        explain_node(
+            a,
+            si,
+            *k,
+            &format!("{child_lead}{l}"),
+            &format!("{child_lead}{c}"),
+            out,
+            seen,
+        );
+    }
+}

@@ -755,6 +755,15 @@ impl<'m> Derivation<'m> {
                 if entry.rule == Some(c.rule) && entry.inputs == c.inputs {
                     continue;
                 }
+                // Two routes say something about the data only when each rests on a
+                // measurement the other does not use; otherwise they differ by an
+                // approximation (a planet's mass neglected, say), not by the data.
+                let mine = self.declared_deps(&entry.deps);
+                let mut theirs = self.declared_deps(&c.deps);
+                theirs.remove(&key);
+                if mine.is_subset(&theirs) || theirs.is_subset(&mine) {
+                    continue;
+                }
                 let sigma = entry.value.sigma_of_difference(&c.value, &self.inputs);
                 let diff = (entry.value.nominal - c.value.nominal).abs();
                 let floor = 1e-9 * entry.value.nominal.abs().max(c.value.nominal.abs());
@@ -849,6 +858,18 @@ impl<'m> Derivation<'m> {
             }
         }
         d
+    }
+
+    /// The declared measurements among `deps` (defaults and derived values left out).
+    fn declared_deps(&self, deps: &BTreeSet<Key>) -> BTreeSet<Key> {
+        deps.iter()
+            .copied()
+            .filter(|k| {
+                self.entries
+                    .get(k)
+                    .is_some_and(|e| e.rule.is_none() && e.origin != Origin::Default)
+            })
+            .collect()
     }
 
     pub fn key_name(&self, k: Key) -> String {

@@ -1,0 +1,112 @@
+//! Finding and reading input files. The only place the CLI touches the file system; files
+//! are only ever read.
+
+use std::collections::BTreeSet;
+use std::path::{Path, PathBuf};
+use syzygy::source::{MemoryDb, SourceDb};
+use syzygy::{analyze, Analysis, Options};
+
+pub struct Loaded {
+    pub db: MemoryDb,
+    /// One line per path that could not be read.
+    pub errors: Vec<String>,
+}
+
+/// Collect the files named (folders recursively, `*.syz` only, in sorted order) and read them.
+pub fn load(paths: &[PathBuf]) -> Loaded {
+    let mut files = Vec::new();
+    let mut errors = Vec::new();
+    let mut visited = BTreeSet::new();
+    for p in paths {
+        match std::fs::metadata(p) {
+            Ok(m) if m.is_dir() => walk(p, &mut files, &mut errors, &mut visited),
+            Ok(_) => files.push(p.clone()),
+            Err(e) => errors.push(format!("{}: {}", p.display(), io_words(&e))),
+        }
+    }
+    let mut db = MemoryDb::new();
+    for f in files {
+        match std::fs::read(&f) {
+            Ok(bytes) => match String::from_utf8(bytes) {
+                Ok(text) => {
+                    db.add(f.display().to_string(), text);
+                }
+                Err(e) => errors.push(format!(
+                    "{}: not valid UTF-8 (first bad byte at offset {}); Syzygy files are UTF-8 text",
+                    f.display(),
+                    e.utf8_error().valid_up_to()
+                )),
+            },
+            Err(e) => errors.push(format!("{}: {}", f.display(), io_words(&e))),
+        }
+    }
+    Loaded { db, errors }
+}
+
+fn walk(
+    dir: &Path,
+    files: &mut Vec<PathBuf>,
+    errors: &mut Vec<String>,
+    visited: &mut BTreeSet<PathBuf>,
+) {
+    // A symlink loop leads back to a folder already walked: skip it, once, with a word.
+    match std::fs::canonicalize(dir) {
+        Ok(c) => {
+            if !visited.insert(c) {
+                errors.push(format!(
+                    "{}: folder already visited (symbolic link loop?), skipped",
+                    dir.display()
+                ));
+                return;
+            }
+        }
+        Err(e) => {
+            errors.push(format!("{}: {}", dir.display(), io_words(&e)));
+            return;
+        }
+    }
+    let entries = match std::fs::read_dir(dir) {
+        Ok(rd) => rd,
+        Err(e) => {
+            errors.push(format!("{}: {}", dir.display(), io_words(&e)));
+            return;
+        }
+    };
+    let mut paths: Vec<PathBuf> = entries.filter_map(|e| e.ok().map(|e| e.path())).collect();
+    paths.sort();
+    for p in paths {
+        match std::fs::metadata(&p) {
+            Ok(m) if m.is_dir() => walk(&p, files, errors, visited),
+            Ok(_) if p.extension().is_some_and(|e| e == "syz") => files.push(p),
+            Ok(_) => {}
+            Err(e) => {
+                if p.extension().is_some_and(|e| e == "syz")
+                    || std::fs::symlink_metadata(&p).is_ok()
+                {
+                    errors.push(format!("{}: {}", p.display(), io_words(&e)));
+                }
+            }
+        }
+    }
+}
+
+fn io_words(e: &std::io::Error) -> String {
+    match e.kind() {
+        std::io::ErrorKind::NotFound => "no such file or folder".to_string(),
+        std::io::ErrorKind::PermissionDenied => "permission denied".to_string(),
+        _ => e.to_string(),
+    }
+}
+
+/// Analyse every loaded file.
+pub fn analyze_all(db: &MemoryDb, options: &Options) -> Vec<Analysis> {
+    db.files()
+        .map(|f| analyze(f, db.text(f), options))
+        .collect()
+}
+
+pub fn report_io_errors(errors: &[String]) {
+    for e in errors {
+        eprintln!("syz: error: {e}");
+    }
+}

@@ -1,0 +1,318 @@
+//! `syz`: the command line over the Syzygy core. Reads files, hands their text to the core,
+//! renders what comes back. No language or physics logic lives here.
+
+mod files;
+mod render;
+
+use clap::{Parser, Subcommand, ValueEnum};
+use std::io::Write;
+use std::path::PathBuf;
+use std::process::ExitCode;
+use syzygy::diagnostic::Severity;
+use syzygy::{Options, Propagation};
+
+#[derive(Parser)]
+#[command(
+    name = "syz",
+    version,
+    about = "Check and evaluate Syzygy descriptions of stars and their planets",
+    long_about = "Syzygy reads *.syz files that declare stars, planets and their measurements \
+                  (with units, uncertainties and citations), derives what follows from them \
+                  (semi-major axes, masses, radii, densities, temperatures, ...) and flags unit \
+                  and physics inconsistencies."
+)]
+struct Cli {
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
+enum Format {
+    Human,
+    Json,
+}
+
+#[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
+enum PropagationArg {
+    /// Monte Carlo sampling (default): handles asymmetric errors, limits and non-linearity.
+    MonteCarlo,
+    /// First-order propagation: fast, exact for linear formulas.
+    Linear,
+}
+
+#[derive(clap::Args)]
+struct EngineArgs {
+    /// How uncertainties are propagated.
+    #[arg(long, value_enum, default_value = "monte-carlo")]
+    propagation: PropagationArg,
+    /// Monte Carlo sample count.
+    #[arg(long, default_value_t = 10_000, value_parser = clap::value_parser!(u32).range(1..=10_000_000))]
+    samples: u32,
+    /// Seed of the Monte Carlo generator (the same seed gives the same numbers).
+    #[arg(long, default_value_t = 0x5359_5a59)]
+    seed: u64,
+    /// Declared and derived values further apart than this many combined sigma are reported.
+    #[arg(long, default_value_t = 3.0)]
+    sigma: f64,
+}
+
+impl EngineArgs {
+    fn options(&self) -> Options {
+        Options {
+            propagation: match self.propagation {
+                PropagationArg::MonteCarlo => Propagation::MonteCarlo,
+                PropagationArg::Linear => Propagation::Linear,
+            },
+            samples: self.samples as usize,
+            seed: self.seed,
+            consistency_sigma: self.sigma,
+        }
+    }
+}
+
+#[derive(Subcommand)]
+enum Command {
+    /// Check files or folders (recursing into *.syz) and report problems.
+    #[command(
+        after_help = "Example:\n  syz check examples/\n  syz check --format json catalogue/ > report.json"
+    )]
+    Check {
+        #[arg(required = true)]
+        paths: Vec<PathBuf>,
+        #[arg(long, value_enum, default_value = "human")]
+        format: Format,
+        /// Exit with status 1 on warnings too.
+        #[arg(long)]
+        deny_warnings: bool,
+        #[command(flatten)]
+        engine: EngineArgs,
+    },
+    /// Print every system and body with its declared and derived quantities.
+    #[command(
+        after_help = "Example:\n  syz eval examples/veyra.syz\n  syz eval --format json --propagation linear examples/"
+    )]
+    Eval {
+        #[arg(required = true)]
+        paths: Vec<PathBuf>,
+        #[arg(long, value_enum, default_value = "human")]
+        format: Format,
+        #[command(flatten)]
+        engine: EngineArgs,
+    },
+    /// Show how one quantity was derived, down to the measurements, with its error budget.
+    #[command(after_help = "Example:\n  syz explain examples/veyra.syz b.density")]
+    Explain {
+        file: PathBuf,
+        /// BODY.QUANTITY, for example `b.density` or `veyra.luminosity`.
+        target: String,
+        /// The system, when several systems of the file have a body of that name.
+        #[arg(long)]
+        system: Option<String>,
+        #[command(flatten)]
+        engine: EngineArgs,
+    },
+}
+
+fn main() -> ExitCode {
+    let cli = Cli::parse();
+    let code = match cli.command {
+        Command::Check {
+            paths,
+            format,
+            deny_warnings,
+            engine,
+        } => check(&paths, format, deny_warnings, &engine.options()),
+        Command::Eval {
+            paths,
+            format,
+            engine,
+        } => eval(&paths, format, &engine.options()),
+        Command::Explain {
+            file,
+            target,
+            system,
+            engine,
+        } => explain(&file, &target, system.as_deref(), &engine.options()),
+    };
+    ExitCode::from(code)
+}
+
+fn check(paths: &[PathBuf], format: Format, deny_warnings: bool, options: &Options) -> u8 {
+    let loaded = files::load(paths);
+    let analyses = files::analyze_all(&loaded.db, options);
+    let mut counts = [0usize; 3];
+    for a in &analyses {
+        for d in &a.diagnostics {
+            counts[d.severity as usize] += 1;
+        }
+    }
+    let (notes, warnings, errors) = (counts[0], counts[1], counts[2]);
+    let stdout = std::io::stdout();
+    let mut out = stdout.lock();
+    match format {
+        Format::Json => {
+            let diags: Vec<serde_json::Value> = analyses
+                .iter()
+                .flat_map(|a| syzygy::report::diagnostics_json(a, &loaded.db))
+                .collect();
+            let doc = serde_json::json!({
+                "version": syzygy::report::JSON_VERSION,
+                "files": analyses.len(),
+                "diagnostics": diags,
+                "io_errors": loaded.errors,
+                "summary": {"errors": errors, "warnings": warnings, "notes": notes},
+            });
+            let _ = writeln!(
+                out,
+                "{}",
+                serde_json::to_string_pretty(&doc).unwrap_or_default()
+            );
+        }
+        Format::Human => {
+            let color = render::use_color();
+            for a in &analyses {
+                for d in &a.diagnostics {
+                    let _ = out.write_all(render::diagnostic(&loaded.db, d, color).as_bytes());
+                }
+            }
+            let _ = writeln!(
+                out,
+                "checked {} file{}: {} error{}, {} warning{}, {} note{}",
+                analyses.len(),
+                plural(analyses.len()),
+                errors,
+                plural(errors),
+                warnings,
+                plural(warnings),
+                notes,
+                plural(notes)
+            );
+        }
+    }
+    files::report_io_errors(&loaded.errors);
+    if !loaded.errors.is_empty() {
+        2
+    } else if errors > 0 || (deny_warnings && warnings > 0) {
+        1
+    } else {
+        0
+    }
+}
+
+fn plural(n: usize) -> &'static str {
+    if n == 1 {
+        ""
+    } else {
+        "s"
+    }
+}
+
+fn eval(paths: &[PathBuf], format: Format, options: &Options) -> u8 {
+    let loaded = files::load(paths);
+    let analyses = files::analyze_all(&loaded.db, options);
+    let stdout = std::io::stdout();
+    let mut out = stdout.lock();
+    let errors = analyses.iter().any(|a| a.has_errors());
+    match format {
+        Format::Json => {
+            let systems: Vec<serde_json::Value> = analyses
+                .iter()
+                .flat_map(|a| syzygy::report::systems_json(a, &loaded.db))
+                .collect();
+            let diags: Vec<serde_json::Value> = analyses
+                .iter()
+                .flat_map(|a| syzygy::report::diagnostics_json(a, &loaded.db))
+                .collect();
+            let doc = serde_json::json!({
+                "version": syzygy::report::JSON_VERSION,
+                "options": {
+                    "propagation": match options.propagation { Propagation::MonteCarlo => "monte-carlo", Propagation::Linear => "linear" },
+                    "samples": if options.propagation == Propagation::MonteCarlo { serde_json::json!(options.samples) } else { serde_json::Value::Null },
+                    "seed": options.seed,
+                    "consistency_sigma": options.consistency_sigma,
+                },
+                "systems": systems,
+                "diagnostics": diags,
+                "io_errors": loaded.errors,
+            });
+            let _ = writeln!(
+                out,
+                "{}",
+                serde_json::to_string_pretty(&doc).unwrap_or_default()
+            );
+        }
+        Format::Human => {
+            let color = render::use_color();
+            for a in &analyses {
+                let _ = out.write_all(syzygy::report::eval_text(a, &loaded.db).as_bytes());
+            }
+            let err = std::io::stderr();
+            let mut err = err.lock();
+            for a in &analyses {
+                for d in &a.diagnostics {
+                    let _ = err.write_all(
+                        render::diagnostic(&loaded.db, d, render::stderr_color() && color)
+                            .as_bytes(),
+                    );
+                }
+            }
+        }
+    }
+    files::report_io_errors(&loaded.errors);
+    if !loaded.errors.is_empty() {
+        2
+    } else if errors {
+        1
+    } else {
+        0
+    }
+}
+
+fn explain(file: &std::path::Path, target: &str, system: Option<&str>, options: &Options) -> u8 {
+    let Some((body, qty)) = target.split_once('.') else {
+        eprintln!("syz: expected BODY.QUANTITY, such as b.density, found '{target}'");
+        return 2;
+    };
+    let loaded = files::load(&[file.to_path_buf()]);
+    if !loaded.errors.is_empty() {
+        files::report_io_errors(&loaded.errors);
+        return 2;
+    }
+    let analyses = files::analyze_all(&loaded.db, options);
+    let Some(a) = analyses.first() else { return 2 };
+    let Some((si, bi)) = syzygy::report::find_body(a, system, body) else {
+        eprintln!("syz: no body '{body}' in {}", file.display());
+        return 2;
+    };
+    let kind = a
+        .model
+        .systems
+        .get(si)
+        .and_then(|s| s.bodies.get(bi))
+        .map(|b| b.kind);
+    let Some(def) = kind.and_then(|k| syzygy::quantities::find(k, qty)) else {
+        eprintln!("syz: '{qty}' is not a quantity of '{body}'");
+        return 2;
+    };
+    match syzygy::report::explain_text(a, si, (bi, def.qty)) {
+        Some(text) => {
+            print!("{text}");
+            let bad = a
+                .diagnostics
+                .iter()
+                .filter(|d| d.severity == Severity::Error)
+                .count();
+            if bad > 0 {
+                eprintln!("note: the file has {bad} error(s); run `syz check` on it");
+            }
+            0
+        }
+        None => {
+            eprintln!(
+                "syz: {body}.{} is neither declared nor derivable from what the file declares",
+                def.name
+            );
+            1
+        }
+    }
+}
