@@ -1,0 +1,60 @@
+//! Helpers for end-to-end tests: build the real `syz` binary once and run it.
+
+#![allow(clippy::unwrap_used, clippy::indexing_slicing)]
+
+use std::path::{Path, PathBuf};
+use std::process::{Command, Output, Stdio};
+use std::sync::OnceLock;
+
+/// The workspace root.
+pub fn root() -> PathBuf {
+    Path::new(env!("CARGO_MANIFEST_DIR"))
+        .parent()
+        .unwrap()
+        .to_path_buf()
+}
+
+/// Path to a freshly built `syz` (built once per test process, in the same profile).
+pub fn syz() -> &'static Path {
+    static BIN: OnceLock<PathBuf> = OnceLock::new();
+    BIN.get_or_init(|| {
+        let cargo = std::env::var("CARGO").unwrap_or_else(|_| "cargo".into());
+        let status = Command::new(cargo)
+            .args(["build", "--quiet", "-p", "syzygy-cli", "--bin", "syz"])
+            .current_dir(root())
+            .status()
+            .expect("cargo could not be started");
+        assert!(status.success(), "building syz failed");
+        let target = std::env::var_os("CARGO_TARGET_DIR")
+            .map(PathBuf::from)
+            .unwrap_or_else(|| root().join("target"));
+        target.join("debug").join("syz")
+    })
+}
+
+/// Run `syz` with arguments from the workspace root, with colour off.
+pub fn run(args: &[&str]) -> Output {
+    Command::new(syz())
+        .args(args)
+        .current_dir(root())
+        .env("NO_COLOR", "1")
+        .stdin(Stdio::null())
+        .output()
+        .expect("syz could not be started")
+}
+
+pub fn stdout(o: &Output) -> String {
+    String::from_utf8_lossy(&o.stdout).into_owned()
+}
+
+pub fn stderr(o: &Output) -> String {
+    String::from_utf8_lossy(&o.stderr).into_owned()
+}
+
+/// A scratch folder for one test, emptied first.
+pub fn scratch(name: &str) -> PathBuf {
+    let dir = std::env::temp_dir().join(format!("syzygy-e2e-{}-{name}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&dir);
+    std::fs::create_dir_all(&dir).unwrap();
+    dir
+}

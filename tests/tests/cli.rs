@@ -1,0 +1,113 @@
+//! End-to-end tests of `syz check`, `syz eval` and `syz explain` on the real binary.
+
+#![allow(clippy::unwrap_used, clippy::indexing_slicing)]
+
+use syzygy_e2e::{run, scratch, stderr, stdout};
+
+#[test]
+fn every_demo_example_checks_clean() {
+    let entries = std::fs::read_dir(syzygy_e2e::root().join("examples")).unwrap();
+    let mut n = 0;
+    for e in entries {
+        let p = e.unwrap().path();
+        if p.extension().is_some_and(|x| x == "syz") {
+            n += 1;
+            let o = run(&["check", p.to_str().unwrap()]);
+            assert!(o.status.success(), "{}: {}", p.display(), stdout(&o));
+            assert!(stdout(&o).contains("0 errors, 0 warnings"), "{}", stdout(&o));
+        }
+    }
+    assert!(n >= 1);
+}
+
+#[test]
+fn missing_file_is_an_io_error_with_exit_2() {
+    let o = run(&["check", "no/such/file.syz"]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stderr(&o).contains("no such file"), "{}", stderr(&o));
+}
+
+#[test]
+fn binary_file_is_reported_not_panicked() {
+    let dir = scratch("binary");
+    let f = dir.join("garbage.syz");
+    std::fs::write(&f, [0xff, 0xfe, 0x00, 0x81, 0x9f]).unwrap();
+    let o = run(&["check", f.to_str().unwrap()]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stderr(&o).contains("not valid UTF-8"), "{}", stderr(&o));
+}
+
+#[test]
+fn unit_error_is_reported_with_rule_and_exit_1() {
+    let dir = scratch("unit");
+    let f = dir.join("bad.syz");
+    let src = "system \"Tessaly\" {\n  star t { mass = 1.1 Msun }\n  planet b orbits t {\n    period = 12 m/s\n    inclination = 88\n  }\n}\n";
+    std::fs::write(&f, src).unwrap();
+    let before = std::fs::read(&f).unwrap();
+    let o = run(&["check", "--format", "json", f.to_str().unwrap()]);
+    assert_eq!(o.status.code(), Some(1));
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    let diags = v["diagnostics"].as_array().unwrap();
+    let rules: Vec<&str> = diags.iter().map(|d| d["rule"].as_str().unwrap()).collect();
+    assert_eq!(rules, ["unit-mismatch", "unit-mismatch"], "{v:#}");
+    assert_eq!(diags[0]["line"], 4);
+    assert_eq!(diags[0]["column"], 14);
+    assert_eq!(diags[1]["line"], 5);
+    for k in ["rule", "severity", "message", "file", "line", "column", "end_line", "end_column"] {
+        assert!(diags[0].get(k).is_some(), "missing {k}");
+    }
+    // syz never writes to what it reads.
+    assert_eq!(std::fs::read(&f).unwrap(), before);
+}
+
+#[test]
+fn eval_json_follows_the_contract_and_is_reproducible() {
+    let a = run(&["eval", "--format", "json", "examples/veyra.syz"]);
+    let b = run(&["eval", "--format", "json", "examples/veyra.syz"]);
+    assert!(a.status.success(), "{}", stderr(&a));
+    assert_eq!(a.stdout, b.stdout, "byte-identical JSON on two runs");
+    let v: serde_json::Value = serde_json::from_str(&stdout(&a)).unwrap();
+    assert_eq!(v["version"], 1);
+    let sys = &v["systems"][0];
+    assert_eq!(sys["name"], "Veyra");
+    let planet = sys["bodies"].as_array().unwrap().iter().find(|b| b["id"] == "b").unwrap();
+    assert_eq!(planet["kind"], "planet");
+    assert_eq!(planet["orbits"], "veyra");
+    let d = &planet["quantities"]["density"];
+    assert_eq!(d["origin"], "derived");
+    assert_eq!(d["rule"], "bulk-density");
+    assert_eq!(d["si"]["unit"], "kg/m^3");
+    assert!(d["inputs"].as_array().unwrap().iter().any(|i| i == "b.mass"));
+    let si = d["si"]["value"].as_f64().unwrap();
+    let shown = d["value"].as_f64().unwrap();
+    assert!((si / 1000.0 - shown).abs() < 1e-9 * si, "g/cm^3 vs kg/m^3");
+    let e = &planet["quantities"]["eccentricity"];
+    assert_eq!(e["limit"], "upper");
+    assert_eq!(planet["quantities"]["albedo"]["origin"], "assumed");
+    let period = &planet["quantities"]["period"];
+    assert_eq!(period["origin"], "declared");
+    assert_eq!(period["citations"][0], "ph1");
+}
+
+#[test]
+fn eval_text_shows_derived_values_and_assumptions() {
+    let o = run(&["eval", "examples/veyra.syz"]);
+    assert!(o.status.success());
+    let s = stdout(&o);
+    for needle in ["semi_major_axis", "density", "teq", "insolation", "transit_duration", "derived by kepler", "assumed:", "limb darkening"] {
+        assert!(s.contains(needle), "missing {needle} in\n{s}");
+    }
+}
+
+#[test]
+fn explain_prints_tree_and_budget() {
+    let o = run(&["explain", "examples/veyra.syz", "b.density", "--propagation", "linear"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let s = stdout(&o);
+    assert!(s.contains("b.density"));
+    assert!(s.contains("└─"), "{s}");
+    assert!(s.contains("error budget"), "{s}");
+    assert!(s.contains("veyra.radius"), "{s}");
+    let o = run(&["explain", "examples/veyra.syz", "zz.mass"]);
+    assert_eq!(o.status.code(), Some(2));
+}
