@@ -73,7 +73,7 @@ fn shown(q: Qty, si: f64) -> String {
     let unit = display_unit(q, si);
     format!(
         "{} {unit}",
-        crate::format::number(si / display_factor(unit))
+        crate::format::sig(si / display_factor(unit), 3)
     )
 }
 
