@@ -12,7 +12,10 @@ use syzygy::{analyze, Options};
 struct Lcg(u64);
 impl Lcg {
     fn next(&mut self) -> f64 {
-        self.0 = self.0.wrapping_mul(6_364_136_223_846_793_005).wrapping_add(1_442_695_040_888_963_407);
+        self.0 = self
+            .0
+            .wrapping_mul(6_364_136_223_846_793_005)
+            .wrapping_add(1_442_695_040_888_963_407);
         (self.0 >> 11) as f64 / (1u64 << 53) as f64
     }
     fn range(&mut self, lo: f64, hi: f64) -> f64 {
@@ -50,7 +53,11 @@ fn time<T>(label: &str, bytes: usize, runs: usize, mut f: impl FnMut() -> T) -> 
     }
     let secs = start.elapsed().as_secs_f64() / runs as f64;
     if bytes > 0 {
-        println!("{label:<48} {:>9.2} ms  {:>8.1} MB/s", secs * 1e3, bytes as f64 / secs / 1e6);
+        println!(
+            "{label:<48} {:>9.2} ms  {:>8.1} MB/s",
+            secs * 1e3,
+            bytes as f64 / secs / 1e6
+        );
     } else {
         println!("{label:<48} {:>9.3} ms", secs * 1e3);
     }
@@ -66,26 +73,51 @@ fn main() {
         n += 1;
     }
     let bytes = src.len();
-    println!("generated {:.1} MB: {n} systems, {} planets", bytes as f64 / 1e6, 2 * n);
+    println!(
+        "generated {:.1} MB: {n} systems, {} planets",
+        bytes as f64 / 1e6,
+        2 * n
+    );
     time("lex", bytes, 5, || syzygy::lexer::lex(&src).len());
-    time("lex + parse", bytes, 3, || syzygy::parser::parse(FileId(0), &src).diagnostics.len());
+    time("lex + parse", bytes, 3, || {
+        syzygy::parser::parse(FileId(0), &src).diagnostics.len()
+    });
     time("parse + resolve + unit/range checks", bytes, 3, || {
         let p = syzygy::parser::parse(FileId(0), &src);
         let mut d = p.diagnostics;
-        syzygy::model::lower(FileId(0), &p.file, &mut d).systems.len()
+        syzygy::model::lower(FileId(0), &p.file, &mut d)
+            .systems
+            .len()
     });
-    let lin = time("full check, linear propagation", bytes, 1, || analyze(FileId(0), &src, &Options::linear()).diagnostics.len());
-    println!("  = {:.1} us per planet (derivations and physics checks included)", lin / (2 * n) as f64 * 1e6);
+    let lin = time("full check, linear propagation", bytes, 1, || {
+        analyze(FileId(0), &src, &Options::linear())
+            .diagnostics
+            .len()
+    });
+    println!(
+        "  = {:.1} us per planet (derivations and physics checks included)",
+        lin / (2 * n) as f64 * 1e6
+    );
 
     // One transiting, RV-measured planet (and its RV-only sibling) with 10^4 samples.
     let one = system(0, &mut Lcg(7));
     let planets = 2.0;
-    let mc = time("one system, Monte Carlo, 10^4 samples", 0, 20, || analyze(FileId(0), &one, &Options::default()).results.len());
+    let mc = time("one system, Monte Carlo, 10^4 samples", 0, 20, || {
+        analyze(FileId(0), &one, &Options::default()).results.len()
+    });
     println!("  = {:.2} ms per planet", mc / planets * 1e3);
-    let lin1 = time("one system, linear", 0, 200, || analyze(FileId(0), &one, &Options::linear()).results.len());
+    let lin1 = time("one system, linear", 0, 200, || {
+        analyze(FileId(0), &one, &Options::linear()).results.len()
+    });
     println!("  = {:.1} us per planet", lin1 / planets * 1e6);
     // Rules fired for that system: every derived quantity is one rule evaluation per sample.
     let a = analyze(FileId(0), &one, &Options::default());
-    let derived = a.results.iter().flat_map(|r| &r.bodies).flat_map(|b| &b.quantities).filter(|q| q.origin == syzygy::derive::Origin::Derived).count();
+    let derived = a
+        .results
+        .iter()
+        .flat_map(|r| &r.bodies)
+        .flat_map(|b| &b.quantities)
+        .filter(|q| q.origin == syzygy::derive::Origin::Derived)
+        .count();
     println!("  {derived} derived quantities: {:.1} ns per sample per rule (including candidates and checks)", mc / (derived as f64 * 1e4) * 1e9);
 }

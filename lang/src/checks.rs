@@ -26,7 +26,7 @@ pub const DEUTERIUM_LIMIT: f64 = 13.0 * M_JUPITER;
 /// Hydrogen-burning limit, about 0.075 solar masses (common practice; Chabrier & Baraffe 2000).
 pub const HYDROGEN_LIMIT: f64 = 0.075 * M_SUN;
 /// Samples drawn for composition in linear mode.
-const LINEAR_SAMPLES: usize = 4000;
+const LINEAR_SAMPLES: usize = 500;
 
 /// What the checker found about one planet's composition.
 pub struct CompositionNote {

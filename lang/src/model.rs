@@ -189,8 +189,12 @@ pub fn lower(file: FileId, ast: &ast::File, diags: &mut Vec<Diagnostic>) -> Mode
         if !s.name.is_empty() {
             if let Some(prev) = seen.get(s.name.as_str()) {
                 diags.push(
-                    Diagnostic::new(Rule::Duplicate, s.name_span, format!("system \"{}\" is declared twice in this file", s.name))
-                        .with_label(*prev, "first declared here"),
+                    Diagnostic::new(
+                        Rule::Duplicate,
+                        s.name_span,
+                        format!("system \"{}\" is declared twice in this file", s.name),
+                    )
+                    .with_label(*prev, "first declared here"),
                 );
             } else {
                 seen.insert(&s.name, s.name_span);
@@ -622,7 +626,10 @@ struct Scope<'a> {
 fn check_expressions(sys: &mut System, diags: &mut Vec<Diagnostic>) {
     let any = !sys.lets.is_empty()
         || sys.bodies.iter().any(|b| {
-            !b.lets.is_empty() || b.declared.iter().any(|d| matches!(d.content, Content::Expr(_)))
+            !b.lets.is_empty()
+                || b.declared
+                    .iter()
+                    .any(|d| matches!(d.content, Content::Expr(_)))
         });
     if !any {
         return;
@@ -633,21 +640,36 @@ fn check_expressions(sys: &mut System, diags: &mut Vec<Diagnostic>) {
         .lets
         .iter()
         .map(|l| {
-            let scope = Scope { sys: view, body: None };
+            let scope = Scope {
+                sys: view,
+                body: None,
+            };
             infer(&l.expr, &scope, &mut vec![l.name.clone()], diags)
         })
         .collect();
     let mut updates = Vec::new();
     for (bi, body) in view.bodies.iter().enumerate() {
-        let scope = Scope { sys: view, body: Some(bi) };
+        let scope = Scope {
+            sys: view,
+            body: Some(bi),
+        };
         let let_dims: Vec<Option<Dimension>> = body
             .lets
             .iter()
-            .map(|l| infer(&l.expr, &scope, &mut vec![format!("{}.{}", body.id, l.name)], diags))
+            .map(|l| {
+                infer(
+                    &l.expr,
+                    &scope,
+                    &mut vec![format!("{}.{}", body.id, l.name)],
+                    diags,
+                )
+            })
             .collect();
         let mut drop = Vec::new();
         for (di, decl) in body.declared.iter().enumerate() {
-            let Content::Expr(e) = &decl.content else { continue };
+            let Content::Expr(e) = &decl.content else {
+                continue;
+            };
             let def = quantities::def(decl.qty);
             match infer(e, &scope, &mut Vec::new(), diags) {
                 Some(d) if d == def.dim => {}
@@ -656,7 +678,12 @@ fn check_expressions(sys: &mut System, diags: &mut Vec<Diagnostic>) {
                         Diagnostic::new(
                             Rule::UnitMismatch,
                             e.span,
-                            format!("'{}' is {}, but this expression is {}", def.name, def.dim.describe(), d.describe()),
+                            format!(
+                                "'{}' is {}, but this expression is {}",
+                                def.name,
+                                def.dim.describe(),
+                                d.describe()
+                            ),
                         )
                         .with_help(dimension_fix(def.dim, d)),
                     );

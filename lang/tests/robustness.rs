@@ -8,16 +8,70 @@ use syzygy::source::{FileId, MemoryDb};
 use syzygy::{analyze, Options};
 
 fn fast() -> Options {
-    Options { samples: 64, ..Options::default() }
+    Options {
+        samples: 64,
+        ..Options::default()
+    }
 }
 
 /// Fragments of the language, to build inputs that get deep into the parser and checker.
 fn fragment() -> impl Strategy<Value = &'static str> {
     prop::sample::select(vec![
-        "system", "\"S\"", "{", "}", "star", "planet", "orbits", "s", "b", "ref", "r", "\"t\"", "let", "x",
-        "=", "<", ">", "mass", "radius", "period", "teff", "eccentricity", "inclination", "1.5", "0", "-2", "1e308",
-        "1e999", "±", "+-", "+0.1/-0.2", "Msun", "Rjup", "d", "km/s", "%", "deg", "(", ")", "[r]", "assumed", "*", "/",
-        "^", "sqrt(", "b.mass", "s.radius", ";", "\n", ",", ".", "#c\n", "\"", "☉", "\u{0}",
+        "system",
+        "\"S\"",
+        "{",
+        "}",
+        "star",
+        "planet",
+        "orbits",
+        "s",
+        "b",
+        "ref",
+        "r",
+        "\"t\"",
+        "let",
+        "x",
+        "=",
+        "<",
+        ">",
+        "mass",
+        "radius",
+        "period",
+        "teff",
+        "eccentricity",
+        "inclination",
+        "1.5",
+        "0",
+        "-2",
+        "1e308",
+        "1e999",
+        "±",
+        "+-",
+        "+0.1/-0.2",
+        "Msun",
+        "Rjup",
+        "d",
+        "km/s",
+        "%",
+        "deg",
+        "(",
+        ")",
+        "[r]",
+        "assumed",
+        "*",
+        "/",
+        "^",
+        "sqrt(",
+        "b.mass",
+        "s.radius",
+        ";",
+        "\n",
+        ",",
+        ".",
+        "#c\n",
+        "\"",
+        "☉",
+        "\u{0}",
     ])
 }
 
@@ -80,5 +134,8 @@ fn a_ten_megabyte_file_is_handled() {
     let a = analyze(FileId(0), &src, &Options::linear());
     assert_eq!(a.model.systems.len(), n);
     // The same system name repeated is reported, once per repeat, and nothing else.
-    assert!(a.diagnostics.iter().all(|d| d.rule == syzygy::diagnostic::Rule::Duplicate));
+    assert!(a
+        .diagnostics
+        .iter()
+        .all(|d| d.rule == syzygy::diagnostic::Rule::Duplicate));
 }
