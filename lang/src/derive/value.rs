@@ -196,14 +196,17 @@ fn sample_through(f: &dyn Fn(&[f64]) -> Option<f64>, args: &[&Value]) -> Option<
         return None;
     }
     let mut buf = vec![0.0; args.len()];
-    let mut out = Vec::with_capacity(n);
-    for i in 0..n {
-        for (b, c) in buf.iter_mut().zip(&cols) {
-            *b = c.get(i).copied().unwrap_or(f64::NAN);
-        }
-        out.push(f(&buf).unwrap_or(f64::NAN));
-    }
-    Some(Arc::from(out))
+    // Collected straight into the shared array: one allocation, no copy.
+    Some(
+        (0..n)
+            .map(|i| {
+                for (b, c) in buf.iter_mut().zip(&cols) {
+                    *b = c.get(i).copied().unwrap_or(f64::NAN);
+                }
+                f(&buf).unwrap_or(f64::NAN)
+            })
+            .collect(),
+    )
 }
 
 /// A stable 64-bit hash (FNV-1a), so seeds do not depend on the platform or the run.
