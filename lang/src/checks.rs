@@ -158,11 +158,14 @@ fn composition_check(
         .collect::<Vec<_>>()
         .join(", ");
     let extrapolated = summary.fraction_extrapolated().unwrap_or(0.0);
-    let text = if extrapolated > 0.5 {
-        format!("{text} (curves extrapolated beyond their fitted masses)")
-    } else {
-        text
-    };
+    // Giants are classed by mass and radius thresholds, not by the solid-planet curves, so
+    // extrapolation is only worth saying for small planets.
+    let text =
+        if extrapolated > 0.5 && mass < composition::ClassBoundaries::default().giant_min_mass_kg {
+            format!("{text} (curves extrapolated beyond their fitted masses)")
+        } else {
+            text
+        };
     let _ = radius;
     Some(CompositionNote {
         body: bi,
