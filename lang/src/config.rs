@@ -81,9 +81,11 @@ impl ProjectConfig {
             None => None,
             Some("monte-carlo") => Some(Propagation::MonteCarlo),
             Some("linear") => Some(Propagation::Linear),
-            Some(other) => return Err(format!(
+            Some(other) => {
+                return Err(format!(
                 "[derivation]: propagation = \"{other}\": expected \"monte-carlo\" or \"linear\""
-            )),
+            ))
+            }
         };
         let samples = match d.samples {
             None => None,
