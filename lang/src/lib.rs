@@ -21,6 +21,7 @@ pub mod report;
 pub mod solar_system;
 pub mod source;
 pub mod text;
+pub mod time;
 pub mod units;
 
 use std::collections::HashMap;
