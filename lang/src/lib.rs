@@ -20,6 +20,7 @@ pub mod quantities;
 pub mod report;
 pub mod solar_system;
 pub mod source;
+pub mod spectral;
 pub mod text;
 pub mod time;
 pub mod units;
