@@ -11,6 +11,7 @@ pub mod composition;
 pub mod constants;
 pub mod derive;
 pub mod diagnostic;
+pub mod ephemeris;
 pub mod format;
 pub mod formulas;
 pub mod lexer;
