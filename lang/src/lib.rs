@@ -19,6 +19,7 @@ pub mod lightcurve;
 pub mod model;
 pub mod orbit;
 pub mod parser;
+pub mod plots;
 pub mod quantities;
 pub mod report;
 pub mod solar_system;
