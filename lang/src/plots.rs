@@ -140,14 +140,14 @@ impl<'a> Inputs<'a> {
                 self.assumptions.push(a.clone());
             }
         }
-        if r.origin == Origin::Default && !self.assumptions.iter().any(|a| a.contains(def.name)) {
-            self.assumptions.push(format!("{} = default", def.name));
-        }
-        self.shown.push(format!(
-            "{} = {}",
-            def.name,
-            crate::report::value_text(r)
-        ));
+        let shown = crate::report::value_text(r);
+        let sep = if shown.starts_with(['<', '>']) { " " } else { " = " };
+        let origin = if r.origin == Origin::Default {
+            " (default)"
+        } else {
+            ""
+        };
+        self.shown.push(format!("{}{sep}{shown}{origin}", def.name));
         let m = Measurement {
             value: r.value,
             below: r.below,
