@@ -34,7 +34,9 @@ fn parse_from(text: &str) -> Result<f64, String> {
         return if jd > 1e6 {
             Ok(jd)
         } else {
-            Err(format!("'{t}' is not a Julian date; give e.g. 2461400.5 or 2027-01-01"))
+            Err(format!(
+                "'{t}' is not a Julian date; give e.g. 2461400.5 or 2027-01-01"
+            ))
         };
     }
     time::parse_iso(t).map_err(|e| e.to_string())

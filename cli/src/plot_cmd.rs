@@ -3,8 +3,8 @@
 
 use crate::files;
 use plotters::coord::Shift;
-use plotters::style::text_anchor::{HPos, Pos, VPos};
 use plotters::prelude::*;
+use plotters::style::text_anchor::{HPos, Pos, VPos};
 use std::path::{Path, PathBuf};
 use syzygy::composition::{self, Curve, PLOTTED_CURVES};
 use syzygy::constants::{M_EARTH, R_EARTH};
@@ -59,9 +59,9 @@ fn err<E: std::fmt::Display>(e: E) -> String {
 
 pub fn run(plot: &Plot, options: &Options) -> u8 {
     let out = match plot {
-        Plot::MassRadius { output, .. } | Plot::Rv { output, .. } | Plot::Transit { output, .. } => {
-            output
-        }
+        Plot::MassRadius { output, .. }
+        | Plot::Rv { output, .. }
+        | Plot::Transit { output, .. } => output,
     };
     if !out
         .extension()
@@ -75,17 +75,18 @@ pub fn run(plot: &Plot, options: &Options) -> u8 {
     }
     let result = match plot {
         Plot::MassRadius { paths, .. } => mass_radius(paths, options),
-        Plot::Rv { file, body, system, .. } => one_planet(file, body, system.as_deref(), options)
-            .and_then(|(a, si, bi)| {
-                let c = plots::rv_curve(&a, si, bi)?;
-                model_svg(
-                    &c,
-                    &format!("Radial velocity of {}'s star", c.label),
-                    "time from mid-transit (inferior conjunction) [days]",
-                    "stellar radial velocity [m/s]",
-                    None,
-                )
-            }),
+        Plot::Rv {
+            file, body, system, ..
+        } => one_planet(file, body, system.as_deref(), options).and_then(|(a, si, bi)| {
+            let c = plots::rv_curve(&a, si, bi)?;
+            model_svg(
+                &c,
+                &format!("Radial velocity of {}'s star", c.label),
+                "time from mid-transit (inferior conjunction) [days]",
+                "stellar radial velocity [m/s]",
+                None,
+            )
+        }),
         Plot::Transit {
             file,
             body,
@@ -216,7 +217,11 @@ fn mass_radius(paths: &[PathBuf], options: &Options) -> Result<String, String> {
     let mut lines = vec![
         "Curves: Seager, Kuchner, Hier-Majumder & Militzer 2007, ApJ 669, 1279 (fit coefficients from memory); Zeng, Sasselov & Jacobsen 2016, ApJ 819, 127. Faint: extrapolated beyond the fitted mass range.".to_string(),
     ];
-    lines.extend(points.iter().map(|p| format!("{}: {}", p.label, p.position)));
+    lines.extend(
+        points
+            .iter()
+            .map(|p| format!("{}: {}", p.label, p.position)),
+    );
     let note_h = 10 + 15 * lines.iter().map(|l| wrap(l, 150).len()).sum::<usize>() as u32;
     let mut svg = String::new();
     {
@@ -254,11 +259,16 @@ fn mass_radius(paths: &[PathBuf], options: &Options) -> Result<String, String> {
                     Some((m, r.radius_m / R_EARTH, m >= lo && m <= hi))
                 })
                 .collect();
-            let fitted: Vec<(f64, f64)> =
-                pts.iter().filter(|p| p.2).map(|p| (p.0, p.1)).collect();
+            let fitted: Vec<(f64, f64)> = pts.iter().filter(|p| p.2).map(|p| (p.0, p.1)).collect();
             for side in [
-                pts.iter().filter(|p| p.0 < lo).map(|p| (p.0, p.1)).collect::<Vec<_>>(),
-                pts.iter().filter(|p| p.0 > hi).map(|p| (p.0, p.1)).collect::<Vec<_>>(),
+                pts.iter()
+                    .filter(|p| p.0 < lo)
+                    .map(|p| (p.0, p.1))
+                    .collect::<Vec<_>>(),
+                pts.iter()
+                    .filter(|p| p.0 > hi)
+                    .map(|p| (p.0, p.1))
+                    .collect::<Vec<_>>(),
             ] {
                 chart
                     .draw_series(LineSeries::new(side, color.mix(0.35).stroke_width(1)))
@@ -273,7 +283,9 @@ fn mass_radius(paths: &[PathBuf], options: &Options) -> Result<String, String> {
                 .draw_series(LineSeries::new(fitted.clone(), color.stroke_width(2)))
                 .map_err(err)?
                 .label(legend)
-                .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 22, y)], color.stroke_width(2)));
+                .legend(move |(x, y)| {
+                    PathElement::new(vec![(x, y), (x + 22, y)], color.stroke_width(2))
+                });
             if let Some(&(m, r)) = fitted.last() {
                 let short = match curve {
                     Curve::PureIron => "iron",
@@ -329,7 +341,10 @@ fn mass_radius(paths: &[PathBuf], options: &Options) -> Result<String, String> {
                 vec![(p.mass, yl), (p.mass, p.radius + p.radius_above)],
             ];
             chart
-                .draw_series(bars.into_iter().map(|b| PathElement::new(b, DATA.stroke_width(1))))
+                .draw_series(
+                    bars.into_iter()
+                        .map(|b| PathElement::new(b, DATA.stroke_width(1))),
+                )
                 .map_err(err)?;
             chart
                 .draw_series(std::iter::once(Text::new(
@@ -422,7 +437,9 @@ fn model_svg(
             .draw_series(std::iter::once(Polygon::new(poly, blue.mix(0.22).filled())))
             .map_err(err)?
             .label("1σ band (16th–84th percentile of draws)")
-            .legend(move |(x, y)| Rectangle::new([(x, y - 5), (x + 22, y + 5)], blue.mix(0.22).filled()));
+            .legend(move |(x, y)| {
+                Rectangle::new([(x, y - 5), (x + 22, y + 5)], blue.mix(0.22).filled())
+            });
         chart
             .draw_series(LineSeries::new(
                 b.x.iter().copied().zip(b.median.iter().copied()),
@@ -430,7 +447,9 @@ fn model_svg(
             ))
             .map_err(err)?
             .label(format!("model of {} (median of draws)", c.label))
-            .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 22, y)], blue.stroke_width(2)));
+            .legend(move |(x, y)| {
+                PathElement::new(vec![(x, y), (x + 22, y)], blue.stroke_width(2))
+            });
         chart
             .configure_series_labels()
             .position(SeriesLabelPosition::LowerRight)

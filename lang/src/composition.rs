@@ -754,7 +754,11 @@ mod tests {
         let earth = by_name("Earth").unwrap();
         let d = describe_position(earth.mass_kg, earth.mean_radius_m);
         assert!(d.contains("rocky"), "{d}");
-        assert!(d.contains("% smaller than Earth-like rock") || d.contains("% larger than Earth-like rock"), "{d}");
+        assert!(
+            d.contains("% smaller than Earth-like rock")
+                || d.contains("% larger than Earth-like rock"),
+            "{d}"
+        );
         // Neptune is far above the water-ice curve and needs volatiles.
         let neptune = by_name("Neptune").unwrap();
         let d = describe_position(neptune.mass_kg, neptune.mean_radius_m);

@@ -80,9 +80,8 @@ impl Ephemeris {
         if (epoch.below - epoch.above).abs() > 1e-12 * epoch.value.abs()
             || (period.below - period.above).abs() > 1e-3 * period.above.max(period.below)
         {
-            assumptions.push(
-                "an asymmetric uncertainty enters as the mean of its two sides".to_string(),
-            );
+            assumptions
+                .push("an asymmetric uncertainty enters as the mean of its two sides".to_string());
         }
         if epoch.below == 0.0 && epoch.above == 0.0 {
             assumptions.push("the transit epoch has no stated uncertainty".to_string());
@@ -226,6 +225,9 @@ mod tests {
         let t = e.transit(3).unwrap();
         assert_eq!(t.utc, "2024-01-04T00:00:00Z");
         assert!(e.assumptions.iter().any(|s| s.contains("timestamp")));
-        assert!(e.assumptions.iter().any(|s| s.contains("no stated uncertainty")));
+        assert!(e
+            .assumptions
+            .iter()
+            .any(|s| s.contains("no stated uncertainty")));
     }
 }

@@ -66,8 +66,12 @@ pub fn overlap_area(r: f64, p: f64, z: f64) -> f64 {
         let m = r.min(p);
         return PI * m * m;
     }
-    let k0 = ((p * p + z * z - r * r) / (2.0 * p * z)).clamp(-1.0, 1.0).acos();
-    let k1 = ((r * r + z * z - p * p) / (2.0 * r * z)).clamp(-1.0, 1.0).acos();
+    let k0 = ((p * p + z * z - r * r) / (2.0 * p * z))
+        .clamp(-1.0, 1.0)
+        .acos();
+    let k1 = ((r * r + z * z - p * p) / (2.0 * r * z))
+        .clamp(-1.0, 1.0)
+        .acos();
     let s = (4.0 * z * z * r * r - (r * r + z * z - p * p).powi(2)).max(0.0);
     p * p * k0 + r * r * k1 - 0.5 * s.sqrt()
 }
@@ -125,7 +129,7 @@ fn integrate(f: &dyn Fn(f64) -> f64, a: f64, b: f64) -> f64 {
 /// [`uniform_blocked`].
 pub fn blocked(p: f64, z: f64, ld: LimbDarkening) -> f64 {
     let z = z.abs();
-    if !(p > 0.0) || !z.is_finite() || z >= 1.0 + p {
+    if p.is_nan() || p <= 0.0 || !z.is_finite() || z >= 1.0 + p {
         return 0.0;
     }
     // ∫_0^1 I dA = I(r=1) A(1) − ∫_0^1 A(r) I'(r) dr
@@ -206,7 +210,11 @@ mod tests {
             assert!((blocked(1.3, 0.2, ld) - 1.0).abs() < 1e-9);
             // And the disk flux integral matches 1 − u1/3 − u2/6.
             let numeric = 2.0
-                * integrate(&|r: f64| ld.intensity((1.0 - r * r).max(0.0).sqrt()) * r, 0.0, 1.0);
+                * integrate(
+                    &|r: f64| ld.intensity((1.0 - r * r).max(0.0).sqrt()) * r,
+                    0.0,
+                    1.0,
+                );
             assert!((numeric - ld.disk_flux()).abs() < 1e-4, "{numeric}");
         }
     }
@@ -221,7 +229,10 @@ mod tests {
             let mu = (1.0f64 - z * z).sqrt();
             let expect = p * p * ld.intensity(mu) / ld.disk_flux();
             let got = blocked(p, z, ld);
-            assert!((got / expect - 1.0).abs() < 2e-3, "z={z}: {got} vs {expect}");
+            assert!(
+                (got / expect - 1.0).abs() < 2e-3,
+                "z={z}: {got} vs {expect}"
+            );
         }
     }
 

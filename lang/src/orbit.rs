@@ -85,7 +85,7 @@ impl Orbit {
 
     /// True anomaly at time `t`; `None` for an unusable orbit.
     pub fn true_anomaly_at(&self, t: f64) -> Option<f64> {
-        if !(self.period > 0.0) || !self.period.is_finite() {
+        if self.period.is_nan() || self.period <= 0.0 || !self.period.is_finite() {
             return None;
         }
         let m = TAU * (t - self.t_periastron()) / self.period;
@@ -122,7 +122,11 @@ mod tests {
         // Meeus, Astronomical Algorithms, ch. 30, example 30.a (from memory):
         // e = 0.100, M = 5 deg gives E = 5.554 589 deg.
         let e = eccentric_anomaly(5f64.to_radians(), 0.1).unwrap();
-        assert!((e.to_degrees() - 5.554_589).abs() < 1e-6, "{}", e.to_degrees());
+        assert!(
+            (e.to_degrees() - 5.554_589).abs() < 1e-6,
+            "{}",
+            e.to_degrees()
+        );
         // Closed forms: M = 0 and M = pi are fixed points for every e (E = M).
         for ecc in [0.0, 0.3, 0.9, 0.999] {
             assert!(eccentric_anomaly(0.0, ecc).unwrap().abs() < 1e-14);

@@ -141,7 +141,11 @@ impl<'a> Inputs<'a> {
             }
         }
         let shown = crate::report::value_text(r);
-        let sep = if shown.starts_with(['<', '>']) { " " } else { " = " };
+        let sep = if shown.starts_with(['<', '>']) {
+            " "
+        } else {
+            " = "
+        };
         let origin = if r.origin == Origin::Default {
             " (default)"
         } else {
@@ -206,7 +210,10 @@ pub fn rv_curve(a: &Analysis, sys: usize, body: usize) -> Result<ModelCurve, Str
     let n = DRAWS_RV;
     let k = inp.draws(Qty::RvAmplitude, n, 11)?;
     // The period only scales the time axis: its nominal value is used.
-    let period = inp.draws(Qty::Period, 1, 12).map(|_| inp.nominal(Qty::Period))? / DAY;
+    let period = inp
+        .draws(Qty::Period, 1, 12)
+        .map(|_| inp.nominal(Qty::Period))?
+        / DAY;
     let e = inp.draws(Qty::Eccentricity, n, 13)?;
     let w = inp.draws(Qty::ArgPeriastron, n, 14)?;
     let orbits: Vec<(Orbit, f64)> = (0..n)
@@ -266,7 +273,10 @@ pub fn transit_curve(
     let b = inp.draws(Qty::Impact, n, 23)?;
     let e = inp.draws(Qty::Eccentricity, n, 24)?;
     let w = inp.draws(Qty::ArgPeriastron, n, 25)?;
-    let period = inp.draws(Qty::Period, 1, 26).map(|_| inp.nominal(Qty::Period))? / DAY;
+    let period = inp
+        .draws(Qty::Period, 1, 26)
+        .map(|_| inp.nominal(Qty::Period))?
+        / DAY;
     struct Draw {
         orbit: Orbit,
         k: f64,
@@ -319,10 +329,16 @@ pub fn transit_curve(
     };
     let mut assumptions = inp.assumptions;
     assumptions.push(match limb {
-        Some(l) => format!("quadratic limb darkening u1 = {}, u2 = {} (given)", l.u1, l.u2),
+        Some(l) => format!(
+            "quadratic limb darkening u1 = {}, u2 = {} (given)",
+            l.u1, l.u2
+        ),
         None => LimbDarkening::ASSUMED_BASIS.to_string(),
     });
-    assumptions.push("dark planet; no ellipsoidal, reflected or thermal light; no exposure-time smearing".to_string());
+    assumptions.push(
+        "dark planet; no ellipsoidal, reflected or thermal light; no exposure-time smearing"
+            .to_string(),
+    );
     assumptions.push(BAND_WORDS.to_string());
     Ok((
         ModelCurve {
@@ -359,7 +375,12 @@ mod tests {
         assert!((max - 60.0).abs() < 1.0, "{max}");
         assert!(c.band.low.iter().zip(&c.band.high).all(|(l, h)| l <= h));
         // Circular: the star recedes before mid-transit (v > 0 at t = -P/4).
-        let quarter = c.band.x.iter().position(|x| (*x + 1.0).abs() < 1e-9).unwrap();
+        let quarter = c
+            .band
+            .x
+            .iter()
+            .position(|x| (*x + 1.0).abs() < 1e-9)
+            .unwrap();
         assert!(c.band.median[quarter] > 55.0);
     }
 

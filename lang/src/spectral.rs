@@ -101,16 +101,20 @@ pub fn parse(text: &str) -> Result<SpectralType, String> {
         .chars()
         .all(|c| c.is_ascii_lowercase() || matches!(c, ':' | '+' | '(' | ')'))
     {
-        return Err(format!("'{text}' has unexpected text '{tail}' after the type"));
+        return Err(format!(
+            "'{text}' has unexpected text '{tail}' after the type"
+        ));
     }
     let lum = lum.trim_end_matches(['-', '/']);
     let lum = lum.trim_end_matches(['a', 'b']);
     let lum_class = if lum.is_empty() {
         None
-    } else if lum
-        .split(['-', '/'])
-        .all(|p| matches!(p.trim_end_matches(['a', 'b']), "I" | "II" | "III" | "IV" | "V" | "VI"))
-    {
+    } else if lum.split(['-', '/']).all(|p| {
+        matches!(
+            p.trim_end_matches(['a', 'b']),
+            "I" | "II" | "III" | "IV" | "V" | "VI"
+        )
+    }) {
         Some(lum.to_string())
     } else {
         return Err(format!("'{text}' has an unknown luminosity class '{lum}'"));
@@ -147,31 +151,31 @@ pub const TABLE_SOURCE: &str =
 
 /// Mean dwarfs, A0V to M9V (Pecaut & Mamajek 2013 dwarf sequence; every value from memory).
 pub const DWARF_SEQUENCE: &[DwarfRow] = &[
-    row(20.0, 9700.0, 2.193, 2.18), // A0V
-    row(22.0, 8840.0, 2.136, 2.05), // A2V
-    row(25.0, 8080.0, 1.861, 1.86), // A5V
-    row(27.0, 7770.0, 1.794, 1.74), // A7V
-    row(30.0, 7220.0, 1.728, 1.61), // F0V
-    row(32.0, 6810.0, 1.473, 1.46), // F2V
-    row(35.0, 6510.0, 1.359, 1.33), // F5V
-    row(38.0, 6170.0, 1.217, 1.18), // F8V
-    row(40.0, 5920.0, 1.100, 1.06), // G0V
-    row(42.0, 5770.0, 1.012, 1.02), // G2V
-    row(45.0, 5660.0, 0.977, 0.98), // G5V
-    row(48.0, 5490.0, 0.927, 0.94), // G8V
-    row(50.0, 5280.0, 0.880, 0.88), // K0V
-    row(51.0, 5170.0, 0.845, 0.86), // K1V
-    row(52.0, 5040.0, 0.800, 0.82), // K2V
-    row(53.0, 4830.0, 0.750, 0.78), // K3V
-    row(54.0, 4600.0, 0.730, 0.73), // K4V
-    row(55.0, 4440.0, 0.701, 0.70), // K5V
-    row(56.0, 4300.0, 0.665, 0.69), // K6V
-    row(57.0, 4050.0, 0.630, 0.64), // K7V
-    row(60.0, 3850.0, 0.588, 0.57), // M0V
-    row(61.0, 3660.0, 0.501, 0.50), // M1V
-    row(62.0, 3560.0, 0.446, 0.44), // M2V
-    row(63.0, 3430.0, 0.361, 0.37), // M3V
-    row(64.0, 3210.0, 0.274, 0.23), // M4V
+    row(20.0, 9700.0, 2.193, 2.18),  // A0V
+    row(22.0, 8840.0, 2.136, 2.05),  // A2V
+    row(25.0, 8080.0, 1.861, 1.86),  // A5V
+    row(27.0, 7770.0, 1.794, 1.74),  // A7V
+    row(30.0, 7220.0, 1.728, 1.61),  // F0V
+    row(32.0, 6810.0, 1.473, 1.46),  // F2V
+    row(35.0, 6510.0, 1.359, 1.33),  // F5V
+    row(38.0, 6170.0, 1.217, 1.18),  // F8V
+    row(40.0, 5920.0, 1.100, 1.06),  // G0V
+    row(42.0, 5770.0, 1.012, 1.02),  // G2V
+    row(45.0, 5660.0, 0.977, 0.98),  // G5V
+    row(48.0, 5490.0, 0.927, 0.94),  // G8V
+    row(50.0, 5280.0, 0.880, 0.88),  // K0V
+    row(51.0, 5170.0, 0.845, 0.86),  // K1V
+    row(52.0, 5040.0, 0.800, 0.82),  // K2V
+    row(53.0, 4830.0, 0.750, 0.78),  // K3V
+    row(54.0, 4600.0, 0.730, 0.73),  // K4V
+    row(55.0, 4440.0, 0.701, 0.70),  // K5V
+    row(56.0, 4300.0, 0.665, 0.69),  // K6V
+    row(57.0, 4050.0, 0.630, 0.64),  // K7V
+    row(60.0, 3850.0, 0.588, 0.57),  // M0V
+    row(61.0, 3660.0, 0.501, 0.50),  // M1V
+    row(62.0, 3560.0, 0.446, 0.44),  // M2V
+    row(63.0, 3430.0, 0.361, 0.37),  // M3V
+    row(64.0, 3210.0, 0.274, 0.23),  // M4V
     row(65.0, 3060.0, 0.196, 0.162), // M5V
     row(66.0, 2810.0, 0.137, 0.102), // M6V
     row(67.0, 2680.0, 0.120, 0.090), // M7V
@@ -305,10 +309,22 @@ mod tests {
         let m = parse("M3.5V").unwrap();
         assert_eq!((m.class, m.subtype), ('M', 3.5));
         assert_eq!(m.index(), 63.5);
-        assert_eq!(parse("K1IV-V").unwrap().luminosity_class.as_deref(), Some("IV-V"));
-        assert_eq!(parse("G8III").unwrap().luminosity_class.as_deref(), Some("III"));
-        assert_eq!(parse("M2Ve").unwrap().luminosity_class.as_deref(), Some("V"));
-        assert_eq!(parse("A5Ia").unwrap().luminosity_class.as_deref(), Some("I"));
+        assert_eq!(
+            parse("K1IV-V").unwrap().luminosity_class.as_deref(),
+            Some("IV-V")
+        );
+        assert_eq!(
+            parse("G8III").unwrap().luminosity_class.as_deref(),
+            Some("III")
+        );
+        assert_eq!(
+            parse("M2Ve").unwrap().luminosity_class.as_deref(),
+            Some("V")
+        );
+        assert_eq!(
+            parse("A5Ia").unwrap().luminosity_class.as_deref(),
+            Some("I")
+        );
         assert_eq!(parse("G5").unwrap().luminosity_class, None);
         for bad in ["", "X2V", "K", "Kv", "K12V", "K0Q"] {
             assert!(parse(bad).is_err(), "{bad} accepted");

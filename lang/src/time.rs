@@ -388,7 +388,11 @@ pub fn parse_iso(text: &str) -> Result<f64, TimeError> {
     if let Some(rest) = rest {
         let (clock, zone) = match rest.find(['Z', 'z', '+', '-']) {
             Some(i) => (rest.get(..i).unwrap_or(""), rest.get(i..).unwrap_or("")),
-            None => return Err(bad("a time of day needs a zone: Z for UTC, or an offset such as +02:00")),
+            None => {
+                return Err(bad(
+                    "a time of day needs a zone: Z for UTC, or an offset such as +02:00",
+                ))
+            }
         };
         let mut c = clock.splitn(3, ':');
         hour = num(c.next(), 2, "hour")?;
@@ -462,8 +466,14 @@ mod tests {
         });
         assert_eq!(jd, 2_451_545.0);
         let c = calendar(2_451_545.0, 3).unwrap();
-        assert_eq!((c.year, c.month, c.day, c.hour, c.minute), (2000, 1, 1, 12, 0));
-        assert_eq!(iso(2_451_545.0, Scale::Tt).unwrap(), "2000-01-01T12:00:00 TT");
+        assert_eq!(
+            (c.year, c.month, c.day, c.hour, c.minute),
+            (2000, 1, 1, 12, 0)
+        );
+        assert_eq!(
+            iso(2_451_545.0, Scale::Tt).unwrap(),
+            "2000-01-01T12:00:00 TT"
+        );
     }
 
     #[test]
@@ -550,7 +560,11 @@ mod tests {
             let jd = J2000_JD + f64::from(i) * 0.93;
             max = max.max(tdb_minus_tt(jd).abs());
             let tdb = convert(jd, Scale::Tt, Scale::Tdb).unwrap();
-            assert!(close(convert(tdb, Scale::Tdb, Scale::Tt).unwrap(), jd, 1e-6));
+            assert!(close(
+                convert(tdb, Scale::Tdb, Scale::Tt).unwrap(),
+                jd,
+                1e-6
+            ));
         }
         assert!(max > 0.00165 && max < 0.00168, "{max}");
     }

@@ -17,7 +17,13 @@ fn texts(svg: &str) -> Vec<String> {
 fn mass_radius_diagram_is_valid_svg_with_labels_and_legend() {
     let dir = scratch("mass-radius");
     let out = dir.join("mr.svg");
-    let o = run(&["plot", "mass-radius", "examples/", "-o", out.to_str().unwrap()]);
+    let o = run(&[
+        "plot",
+        "mass-radius",
+        "examples/",
+        "-o",
+        out.to_str().unwrap(),
+    ]);
     assert!(o.status.success(), "{}", stderr(&o));
     // Only the file -o names is written.
     let written: Vec<_> = std::fs::read_dir(&dir).unwrap().collect();
@@ -49,45 +55,106 @@ fn mass_radius_diagram_is_valid_svg_with_labels_and_legend() {
 fn rv_and_transit_plots_show_their_inputs_and_limb_darkening() {
     let dir = scratch("models");
     let rv = dir.join("rv.svg");
-    let o = run(&["plot", "rv", "examples/veyra.syz", "b", "-o", rv.to_str().unwrap()]);
+    let o = run(&[
+        "plot",
+        "rv",
+        "examples/veyra.syz",
+        "b",
+        "-o",
+        rv.to_str().unwrap(),
+    ]);
     assert!(o.status.success(), "{}", stderr(&o));
     let t = texts(&std::fs::read_to_string(&rv).unwrap());
-    assert!(t.iter().any(|x| x.contains("stellar radial velocity [m/s]")), "{t:?}");
-    assert!(t.iter().any(|x| x.contains("rv_amplitude = 56.0 ± 2.0 m/s")), "{t:?}");
+    assert!(
+        t.iter()
+            .any(|x| x.contains("stellar radial velocity [m/s]")),
+        "{t:?}"
+    );
+    assert!(
+        t.iter()
+            .any(|x| x.contains("rv_amplitude = 56.0 ± 2.0 m/s")),
+        "{t:?}"
+    );
 
     let tr = dir.join("tr.svg");
-    let o = run(&["plot", "transit", "examples/veyra.syz", "b", "-o", tr.to_str().unwrap()]);
-    assert!(o.status.success(), "{}", stderr(&o));
-    let t = texts(&std::fs::read_to_string(&tr).unwrap());
-    assert!(t.iter().any(|x| x.contains("relative flux")));
-    assert!(t.iter().any(|x| x.contains("u1 = 0.40, u2 = 0.25 assumed")), "{t:?}");
-
     let o = run(&[
-        "plot", "transit", "examples/veyra.syz", "b", "-o", tr.to_str().unwrap(),
-        "--limb-darkening", "0.5,0.1",
+        "plot",
+        "transit",
+        "examples/veyra.syz",
+        "b",
+        "-o",
+        tr.to_str().unwrap(),
     ]);
     assert!(o.status.success(), "{}", stderr(&o));
     let t = texts(&std::fs::read_to_string(&tr).unwrap());
-    assert!(t.iter().any(|x| x.contains("u1 = 0.5, u2 = 0.1 (given)")), "{t:?}");
+    assert!(t.iter().any(|x| x.contains("relative flux")));
+    assert!(
+        t.iter().any(|x| x.contains("u1 = 0.40, u2 = 0.25 assumed")),
+        "{t:?}"
+    );
+
+    let o = run(&[
+        "plot",
+        "transit",
+        "examples/veyra.syz",
+        "b",
+        "-o",
+        tr.to_str().unwrap(),
+        "--limb-darkening",
+        "0.5,0.1",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let t = texts(&std::fs::read_to_string(&tr).unwrap());
+    assert!(
+        t.iter().any(|x| x.contains("u1 = 0.5, u2 = 0.1 (given)")),
+        "{t:?}"
+    );
 }
 
 #[test]
 fn plot_errors_are_clear() {
     let dir = scratch("plot-errors");
-    let o = run(&["plot", "rv", "examples/veyra.syz", "zz", "-o", dir.join("a.svg").to_str().unwrap()]);
+    let o = run(&[
+        "plot",
+        "rv",
+        "examples/veyra.syz",
+        "zz",
+        "-o",
+        dir.join("a.svg").to_str().unwrap(),
+    ]);
     assert_eq!(o.status.code(), Some(1));
     assert!(stderr(&o).contains("no body 'zz'"));
-    let o = run(&["plot", "rv", "examples/veyra.syz", "b", "-o", dir.join("a.png").to_str().unwrap()]);
+    let o = run(&[
+        "plot",
+        "rv",
+        "examples/veyra.syz",
+        "b",
+        "-o",
+        dir.join("a.png").to_str().unwrap(),
+    ]);
     assert_eq!(o.status.code(), Some(2));
     assert!(stderr(&o).contains("only SVG"));
     let o = run(&[
-        "plot", "transit", "examples/veyra.syz", "b", "-o", dir.join("a.svg").to_str().unwrap(),
-        "--limb-darkening", "0.5",
+        "plot",
+        "transit",
+        "examples/veyra.syz",
+        "b",
+        "-o",
+        dir.join("a.svg").to_str().unwrap(),
+        "--limb-darkening",
+        "0.5",
     ]);
     assert_eq!(o.status.code(), Some(1));
     assert!(stderr(&o).contains("two numbers"), "{}", stderr(&o));
     // Veyra c has no radius ratio: no transit model, and nothing written.
-    let o = run(&["plot", "transit", "examples/veyra.syz", "c", "-o", dir.join("c.svg").to_str().unwrap()]);
+    let o = run(&[
+        "plot",
+        "transit",
+        "examples/veyra.syz",
+        "c",
+        "-o",
+        dir.join("c.svg").to_str().unwrap(),
+    ]);
     assert_eq!(o.status.code(), Some(1));
     assert!(!dir.join("c.svg").exists());
 }
@@ -95,8 +162,15 @@ fn plot_errors_are_clear() {
 #[test]
 fn ephemeris_lists_transits_with_growing_uncertainty() {
     let o = run(&[
-        "ephemeris", "examples/veyra.syz", "b", "--from", "2027-01-01", "--count", "3",
-        "--format", "json",
+        "ephemeris",
+        "examples/veyra.syz",
+        "b",
+        "--from",
+        "2027-01-01",
+        "--count",
+        "3",
+        "--format",
+        "json",
     ]);
     assert!(o.status.success(), "{}", stderr(&o));
     let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
@@ -117,7 +191,9 @@ fn ephemeris_lists_transits_with_growing_uncertainty() {
     let first = ts[0]["jd_utc"].as_f64().unwrap();
     assert!(first >= 2_461_406.5 && first < 2_461_406.5 + 3.53);
     let assumed = v["assumptions"].as_array().unwrap();
-    assert!(assumed.iter().any(|a| a.as_str().unwrap().contains("±8.3 min")));
+    assert!(assumed
+        .iter()
+        .any(|a| a.as_str().unwrap().contains("±8.3 min")));
 
     let o = run(&["ephemeris", "examples/veyra.syz", "b", "--count", "2"]);
     assert!(o.status.success());
@@ -146,5 +222,9 @@ fn spectral_type_estimates_show_in_eval_json() {
     assert!((teff - 3320.0).abs() < 40.0, "{teff}");
     // The estimate's assumption follows into what is derived from it.
     let planet = &v["systems"][0]["bodies"][1]["quantities"]["radius"];
-    assert!(planet["assumptions"].as_array().unwrap().iter().any(|a| a.as_str().unwrap().contains("estimated from spectral type")));
+    assert!(planet["assumptions"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .any(|a| a.as_str().unwrap().contains("estimated from spectral type")));
 }
