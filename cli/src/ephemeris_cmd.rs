@@ -63,7 +63,7 @@ pub fn run(args: &Args, options: &Options) -> u8 {
         files::report_io_errors(&loaded.errors);
         return 2;
     }
-    let analyses = files::analyze_all(&loaded.db, options);
+    let analyses = files::analyze_all(&loaded.db, options, &[]);
     let Some(a) = analyses.first() else { return 2 };
     let Some((si, bi)) = syzygy::report::find_body(a, args.system.as_deref(), &args.body) else {
         eprintln!("syz: no body '{}' in {}", args.body, args.file.display());

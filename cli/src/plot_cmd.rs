@@ -151,7 +151,7 @@ fn one_planet(
     if let Some(e) = loaded.errors.first() {
         return Err(e.clone());
     }
-    let mut analyses = files::analyze_all(&loaded.db, options);
+    let mut analyses = files::analyze_all(&loaded.db, options, &[]);
     let a = analyses.pop().ok_or("nothing to read")?;
     let (si, bi) = syzygy::report::find_body(&a, system, body)
         .ok_or_else(|| format!("no body '{body}' in {}", file.display()))?;
@@ -199,7 +199,7 @@ fn notes(area: &DrawingArea<SVGBackend, Shift>, lines: &[String]) -> Result<(), 
 fn mass_radius(paths: &[PathBuf], options: &Options) -> Result<String, String> {
     let loaded = files::load(paths);
     files::report_io_errors(&loaded.errors);
-    let analyses = files::analyze_all(&loaded.db, options);
+    let analyses = files::analyze_all(&loaded.db, options, &[]);
     let (points, left_out) = plots::mass_radius_points(&analyses);
     for l in &left_out {
         eprintln!("note: not plotted: {l}");

@@ -38,7 +38,136 @@ use chumsky::Stream;
 pub const MAX_DEPTH: usize = 64;
 
 type Range = std::ops::Range<usize>;
-type ValueParser<'a> = chumsky::BoxedParser<'a, Tok, ValueParts, Simple<Tok>>;
+type ValueParser<'a> = chumsky::BoxedParser<'a, Tok, ValueParts, ParseError>;
+
+/// The value grammar's error: a span, what was found, and the expected tokens as a bit set.
+/// Cheaper than chumsky's `Simple` (no allocation per failed alternative), which matters:
+/// most alternatives tried while parsing a measurement fail.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ParseError {
+    span: Range,
+    found: Option<Tok>,
+    expected: u64,
+    message: Option<String>,
+    unclosed: Option<Tok>,
+}
+
+const END_BIT: u64 = 1 << 63;
+
+fn bit(t: Option<Tok>) -> u64 {
+    match t {
+        Some(t) => 1u64 << (t as u8).min(62),
+        None => END_BIT,
+    }
+}
+
+impl ParseError {
+    fn custom(span: Range, message: &str) -> ParseError {
+        ParseError {
+            span,
+            found: None,
+            expected: 0,
+            message: Some(message.to_string()),
+            unclosed: None,
+        }
+    }
+
+    fn expected_names(&self) -> Vec<&'static str> {
+        let mut v: Vec<&'static str> = ALL_TOKS
+            .iter()
+            .filter(|t| self.expected & bit(Some(**t)) != 0)
+            .map(|t| t.describe())
+            .collect();
+        if self.expected & END_BIT != 0 {
+            v.push("end of line");
+        }
+        v.sort_unstable();
+        v.dedup();
+        v
+    }
+}
+
+impl chumsky::Error<Tok> for ParseError {
+    type Span = Range;
+    type Label = &'static str;
+
+    fn expected_input_found<Iter: IntoIterator<Item = Option<Tok>>>(
+        span: Range,
+        expected: Iter,
+        found: Option<Tok>,
+    ) -> Self {
+        ParseError {
+            span,
+            found,
+            expected: expected.into_iter().fold(0, |m, t| m | bit(t)),
+            message: None,
+            unclosed: None,
+        }
+    }
+
+    fn unclosed_delimiter(
+        unclosed_span: Range,
+        unclosed: Tok,
+        _span: Range,
+        _expected: Tok,
+        found: Option<Tok>,
+    ) -> Self {
+        ParseError {
+            span: unclosed_span,
+            found,
+            expected: 0,
+            message: None,
+            unclosed: Some(unclosed),
+        }
+    }
+
+    fn with_label(self, _label: Self::Label) -> Self {
+        self
+    }
+
+    fn merge(mut self, other: Self) -> Self {
+        self.expected |= other.expected;
+        if self.message.is_none() {
+            self.message = other.message;
+        }
+        self
+    }
+}
+
+const ALL_TOKS: &[Tok] = &[
+    Tok::Comment,
+    Tok::Newline,
+    Tok::Semi,
+    Tok::LBrace,
+    Tok::RBrace,
+    Tok::LParen,
+    Tok::RParen,
+    Tok::LBracket,
+    Tok::RBracket,
+    Tok::Comma,
+    Tok::Dot,
+    Tok::Eq,
+    Tok::Lt,
+    Tok::Gt,
+    Tok::PlusMinus,
+    Tok::Plus,
+    Tok::Minus,
+    Tok::Star,
+    Tok::Slash,
+    Tok::Caret,
+    Tok::System,
+    Tok::StarKw,
+    Tok::Planet,
+    Tok::Orbits,
+    Tok::Ref,
+    Tok::Let,
+    Tok::Assumed,
+    Tok::Number,
+    Tok::Str,
+    Tok::UnterminatedStr,
+    Tok::Ident,
+    Tok::Error,
+];
 
 /// What one property value parses to.
 #[derive(Debug, Clone)]
@@ -608,10 +737,10 @@ impl<'a> Cursor<'a> {
         }))
     }
 
-    fn syntax_from_chumsky(&self, e: Simple<Tok>) -> Diagnostic {
-        let r = e.span();
+    fn syntax_from_chumsky(&self, e: ParseError) -> Diagnostic {
+        let r = e.span.clone();
         let span = Span::new(self.file, r.start, r.end);
-        let found = match e.found() {
+        let found = match e.found {
             None => "end of line".to_string(),
             Some(Tok::Ident | Tok::Number) => {
                 format!("'{}'", self.src.get(r.clone()).unwrap_or(""))
@@ -622,32 +751,24 @@ impl<'a> Cursor<'a> {
             ),
             Some(k) => k.describe().to_string(),
         };
-        if let chumsky::error::SimpleReason::Custom(msg) = e.reason() {
+        if let Some(msg) = &e.message {
             return Diagnostic::new(Rule::Syntax, span, msg.clone());
         }
-        if let chumsky::error::SimpleReason::Unclosed { delimiter, .. } = e.reason() {
+        if let Some(delimiter) = e.unclosed {
             return Diagnostic::new(
                 Rule::Syntax,
                 span,
                 format!("unclosed {}", delimiter.describe()),
             );
         }
-        let mut expected: Vec<&str> = e
-            .expected()
-            .map(|t| match t {
-                Some(k) => k.describe(),
-                None => "end of line",
-            })
-            .collect();
-        expected.sort_unstable();
-        expected.dedup();
+        let expected = e.expected_names();
         let msg = if expected.is_empty() {
             format!("unexpected {found}")
         } else {
             format!("expected {}, found {found}", join_or(&expected))
         };
         let mut d = Diagnostic::new(Rule::Syntax, span, msg);
-        if e.found() == Some(&Tok::Ident) || e.found() == Some(&Tok::Number) {
+        if matches!(e.found, Some(Tok::Ident | Tok::Number)) {
             d = d.with_help(
                 "a unit follows the whole measurement: `1.2 ± 0.1 Rjup`; to multiply, write `*`",
             );
@@ -707,11 +828,11 @@ fn value_parser<'a>(src: &'a str, file: FileId) -> ValueParser<'a> {
         .or_not()
         .then(tok(Tok::Number).map_with_span(move |_, r: Range| (slice(&r), r)))
         .try_map(|(neg, (text, r)), _| {
-            let v: i32 = text
-                .parse()
-                .map_err(|_| Simple::custom(r.clone(), "a unit exponent must be a whole number"))?;
+            let v: i32 = text.parse().map_err(|_| {
+                ParseError::custom(r.clone(), "a unit exponent must be a whole number")
+            })?;
             if v.abs() > 12 {
-                return Err(Simple::custom(
+                return Err(ParseError::custom(
                     r,
                     "a unit exponent must lie between -12 and 12",
                 ));
@@ -931,6 +1052,6 @@ fn value_parser<'a>(src: &'a str, file: FileId) -> ValueParser<'a> {
 #[cfg(test)]
 mod tests;
 
-fn tok(t: Tok) -> impl chumsky::Parser<Tok, Tok, Error = Simple<Tok>> + Clone {
+fn tok(t: Tok) -> impl chumsky::Parser<Tok, Tok, Error = ParseError> + Clone {
     just(t)
 }
