@@ -58,7 +58,7 @@ pub fn run(args: &Args, options: &Options) -> u8 {
         }
         None => now_jd(),
     };
-    let loaded = files::load(&[args.file.clone()]);
+    let loaded = files::load(std::slice::from_ref(&args.file));
     if !loaded.errors.is_empty() {
         files::report_io_errors(&loaded.errors);
         return 2;

@@ -139,9 +139,9 @@ mod tests {
     #[test]
     fn julian_dates_keep_their_digits() {
         assert_eq!(
-            julian_date(2_460_123.4567, 0.0004, 0.0004),
+            julian_date(2_460_123.456_7, 0.0004, 0.0004),
             "2460123.45670 ± 0.00040"
         );
-        assert_eq!(julian_date(2_460_123.4567, 0.0, 0.0), "2460123.45670");
+        assert_eq!(julian_date(2_460_123.456_7, 0.0, 0.0), "2460123.45670");
     }
 }

@@ -180,7 +180,7 @@ fn ephemeris_lists_transits_with_growing_uncertainty() {
     for t in ts {
         let n = t["n"].as_f64().unwrap();
         let jd = t["jd"].as_f64().unwrap();
-        assert!((jd - (2_460_123.4567 + n * 3.52474)).abs() < 1e-6);
+        assert!((jd - (2_460_123.456_7 + n * 3.52474)).abs() < 1e-6);
         let sigma = (0.0004f64.powi(2) + (n * 0.00002).powi(2)).sqrt();
         assert!((t["sigma_days"].as_f64().unwrap() - sigma).abs() < 1e-12);
         // UTC = TDB − 69.184 s − (TDB − TT), within 2 ms.
@@ -189,7 +189,7 @@ fn ephemeris_lists_transits_with_growing_uncertainty() {
         assert!(t["utc"].as_str().unwrap().starts_with("2027-01-"));
     }
     let first = ts[0]["jd_utc"].as_f64().unwrap();
-    assert!(first >= 2_461_406.5 && first < 2_461_406.5 + 3.53);
+    assert!((2_461_406.5..2_461_406.5 + 3.53).contains(&first));
     let assumed = v["assumptions"].as_array().unwrap();
     assert!(assumed
         .iter()
