@@ -601,3 +601,36 @@ mod tests {
         assert!((AU_LIGHT_TIME_S - 499.004_784).abs() < 1e-5);
     }
 }
+
+#[cfg(test)]
+mod reference {
+    use super::*;
+
+    /// UTC timestamps converted by astropy.time (ERFA), recorded in
+    /// `tests/reference/beyond.json` by `make_beyond_reference.py`.
+    #[test]
+    fn matches_astropy_time() {
+        let json: serde_json::Value =
+            serde_json::from_str(include_str!("../../tests/reference/beyond.json")).unwrap();
+        let cases = json["timescales"].as_array().unwrap();
+        assert!(cases.len() >= 5);
+        for c in cases {
+            let utc = parse_iso(c["utc"].as_str().unwrap()).unwrap();
+            let tt = convert(utc, Scale::Utc, Scale::Tt).unwrap();
+            let want_tt = c["jd_tt"].as_f64().unwrap();
+            // f64 Julian dates resolve ~40 µs; allow 0.2 ms.
+            assert!(
+                ((tt - want_tt) * DAY).abs() < 2e-4,
+                "{c}: {}",
+                (tt - want_tt) * DAY
+            );
+            // TDB − TT: two-term series against astropy's full series, within 30 µs.
+            let want = c["tdb_minus_tt_s"].as_f64().unwrap();
+            assert!(
+                (tdb_minus_tt(tt) - want).abs() < 3e-5,
+                "{c}: {}",
+                tdb_minus_tt(tt)
+            );
+        }
+    }
+}
