@@ -9,6 +9,7 @@
 pub mod ast;
 pub mod checks;
 pub mod composition;
+pub mod config;
 pub mod constants;
 pub mod derive;
 pub mod diagnostic;

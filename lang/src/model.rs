@@ -383,6 +383,15 @@ fn lower_props(b: &ast::BodyDecl, refs: &[RefInfo], diags: &mut Vec<Diagnostic>)
     out
 }
 
+/// The display unit as written after a number: nothing for plain numbers.
+fn unit_suffix(def: &QuantityDef) -> &'static str {
+    if def.display == "1" {
+        ""
+    } else {
+        def.display
+    }
+}
+
 fn unknown_quantity(kind: BodyKind, name: &ast::Ident) -> Diagnostic {
     let mut d = Diagnostic::new(
         Rule::UnknownQuantity,
@@ -458,7 +467,8 @@ fn lower_value(
                 )
                 .with_help(format!(
                     "write a number with a unit, e.g. `{} = 1.0 {}`",
-                    def.name, def.display
+                    def.name,
+                    unit_suffix(def)
                 )),
             );
             return None;
@@ -484,7 +494,11 @@ fn lower_value(
                     expr.span,
                     "a limit takes a single number with a unit",
                 )
-                .with_help(format!("write `{} < 0.1 {}`", def.name, def.display)),
+                .with_help(format!(
+                    "write `{} < 0.1 {}`",
+                    def.name,
+                    unit_suffix(def)
+                )),
             );
             return None;
         }
@@ -526,7 +540,8 @@ fn lower_value(
                 )
                 .with_help(format!(
                     "write `{} < VALUE {}`, or give the value with its uncertainty after '='",
-                    def.name, def.display
+                    def.name,
+                    unit_suffix(def)
                 )),
             );
             return None;
@@ -628,7 +643,8 @@ fn mismatch_for(
     if lit.unit.is_none() {
         d = d.with_help(format!(
             "add a unit: `{} = {value} {}`",
-            def.name, def.display
+            def.name,
+            unit_suffix(def)
         ));
         if def.dim == Dimension::ANGLE {
             d = d.with_note("angles and plain numbers are different types: write `deg` or `rad`");
@@ -743,7 +759,7 @@ fn check_expressions(sys: &mut System, diags: &mut Vec<Diagnostic>) {
 
 /// Suggest the factor that would fix a dimension mismatch.
 fn dimension_fix(expected: Dimension, found: Dimension) -> String {
-    let missing = expected.div(found);
+    let missing = expected.per(found);
     format!(
         "multiply by a factor of {} to get {}",
         missing.describe(),
@@ -875,8 +891,8 @@ fn infer(
             let db = infer(b, scope, visiting, diags);
             let (da, db) = (da?, db?);
             match op {
-                BinOp::Mul => Some(da.mul(db)),
-                BinOp::Div => Some(da.div(db)),
+                BinOp::Mul => Some(da.times(db)),
+                BinOp::Div => Some(da.per(db)),
                 BinOp::Add | BinOp::Sub => {
                     if da == db {
                         Some(da)
@@ -896,7 +912,7 @@ fn infer(
                             .with_label(b.span, format!("this is {}", db.describe()))
                             .with_help(format!(
                                 "multiply the right-hand side by a factor of {}",
-                                da.div(db).describe()
+                                da.per(db).describe()
                             )),
                         );
                         None

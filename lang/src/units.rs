@@ -95,7 +95,7 @@ impl Dimension {
     pub const TEMPERATURE: Dimension = Dimension::base(3);
     pub const ANGLE: Dimension = Dimension::base(4);
 
-    // Only called with the constant indices 0..5 above, evaluated at compile time.
+    // Only called with constant indexes below 5 (the constants above).
     #[allow(clippy::indexing_slicing)]
     const fn base(i: usize) -> Dimension {
         let mut e = [Rat::ZERO; 5];
@@ -114,8 +114,7 @@ impl Dimension {
         ])
     }
 
-    #[allow(clippy::should_implement_trait)]
-    pub fn mul(self, o: Dimension) -> Dimension {
+    pub fn times(self, o: Dimension) -> Dimension {
         let mut e = self.0;
         for (a, b) in e.iter_mut().zip(o.0) {
             *a = a.add(b);
@@ -123,9 +122,8 @@ impl Dimension {
         Dimension(e)
     }
 
-    #[allow(clippy::should_implement_trait)]
-    pub fn div(self, o: Dimension) -> Dimension {
-        self.mul(o.pow(Rat::int(-1)))
+    pub fn per(self, o: Dimension) -> Dimension {
+        self.times(o.pow(Rat::int(-1)))
     }
 
     pub fn pow(self, p: Rat) -> Dimension {
@@ -562,7 +560,7 @@ pub fn suggest(symbol: &str) -> Option<&'static str> {
             } else {
                 crate::text::edit_distance(&lower, &cand.to_lowercase())
             };
-            if d <= 2 && best.map_or(true, |(bd, _)| d < bd) {
+            if d <= 2 && best.is_none_or(|(bd, _)| d < bd) {
                 best = Some((d, def.symbol));
             }
         }
@@ -579,7 +577,7 @@ pub fn resolve(expr: &UnitExpr) -> Result<Unit, Vec<(crate::source::Span, Unknow
         match lookup(&f.symbol.name) {
             Some((scale, def)) => {
                 factor *= scale.powi(f.exponent);
-                dim = dim.mul(def.dim.pow(Rat::int(f.exponent)));
+                dim = dim.times(def.dim.pow(Rat::int(f.exponent)));
             }
             None => errors.push((
                 f.symbol.span,
@@ -652,7 +650,7 @@ pub fn parse_unit_text(text: &str) -> Option<Unit> {
             let exp = if i > 0 { -exp } else { exp };
             let (scale, def) = lookup(sym)?;
             factor *= scale.powi(exp);
-            dim = dim.mul(def.dim.pow(Rat::int(exp)));
+            dim = dim.times(def.dim.pow(Rat::int(exp)));
         }
     }
     Some(Unit {
