@@ -1,7 +1,9 @@
 //! `syz`: the command line over the Syzygy core. Reads files, hands their text to the core,
 //! renders what comes back. No language or physics logic lives here.
 
+mod ephemeris_cmd;
 mod files;
+mod plot_cmd;
 mod render;
 
 use clap::{Parser, Subcommand, ValueEnum};
@@ -27,7 +29,7 @@ struct Cli {
 }
 
 #[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
-enum Format {
+pub(crate) enum Format {
     Human,
     Json,
 }
@@ -144,6 +146,20 @@ enum Command {
         #[command(flatten)]
         engine: EngineArgs,
     },
+    /// Draw a diagram as SVG: mass-radius, rv or transit.
+    Plot {
+        #[command(subcommand)]
+        plot: plot_cmd::Plot,
+        #[command(flatten)]
+        engine: EngineArgs,
+    },
+    /// List a planet's upcoming mid-transit times with their uncertainty.
+    Ephemeris {
+        #[command(flatten)]
+        args: ephemeris_cmd::Args,
+        #[command(flatten)]
+        engine: EngineArgs,
+    },
 }
 
 fn main() -> ExitCode {
@@ -172,6 +188,8 @@ fn main() -> ExitCode {
             system,
             engine,
         } => explain(&file, &target, system.as_deref(), &engine.options()),
+        Command::Plot { plot, engine } => plot_cmd::run(&plot, &engine.options()),
+        Command::Ephemeris { args, engine } => ephemeris_cmd::run(&args, &engine.options()),
     };
     ExitCode::from(code)
 }

@@ -66,8 +66,11 @@ pub struct Declared {
     pub content: Content,
     pub assumed: bool,
     pub citations: Vec<(String, Span)>,
-    /// The unit as written, when the value is a literal with a unit.
+    /// The unit as written, when the value is a literal with a unit (`JD_UTC` for a
+    /// transit epoch written as an ISO 8601 timestamp).
     pub written_unit: Option<String>,
+    /// The timestamp as written, for a time given as ISO 8601 text.
+    pub timestamp: Option<String>,
 }
 
 #[derive(Debug, Clone, PartialEq)]
@@ -361,6 +364,10 @@ fn lower_props(b: &ast::BodyDecl, refs: &[RefInfo], diags: &mut Vec<Diagnostic>)
         let Some((content, written_unit)) = lower_value(def, p, diags) else {
             continue;
         };
+        let timestamp = match (&p.value, &content) {
+            (ast::PropValue::Text(t, _), Content::Measured(_)) => Some(t.clone()),
+            _ => None,
+        };
         out.push(Declared {
             qty: def.qty,
             name_span: p.name.span,
@@ -370,6 +377,7 @@ fn lower_props(b: &ast::BodyDecl, refs: &[RefInfo], diags: &mut Vec<Diagnostic>)
             assumed: p.assumed.is_some(),
             citations,
             written_unit,
+            timestamp,
         });
     }
     out
@@ -427,6 +435,29 @@ fn lower_value(
         ast::PropValue::Text(t, span) => {
             if def.text {
                 return Some((Content::Text(t.clone()), None));
+            }
+            if def.qty == Qty::TransitEpoch {
+                return match crate::time::parse_iso(t) {
+                    Ok(jd) => Some((
+                        Content::Measured(Measurement {
+                            value: jd * crate::constants::DAY,
+                            below: 0.0,
+                            above: 0.0,
+                            form: Form::Exact,
+                        }),
+                        Some("JD_UTC".to_string()),
+                    )),
+                    Err(e) => {
+                        diags.push(
+                            Diagnostic::new(Rule::InvalidValue, *span, e.to_string()).with_help(
+                                "a transit epoch is a Julian date with its time scale \
+                                 (`2460123.4567 ± 0.0004 BJD_TDB`) or a UTC timestamp \
+                                 (`\"2026-03-14T05:12:00Z\"`)",
+                            ),
+                        );
+                        None
+                    }
+                };
             }
             diags.push(
                 Diagnostic::new(

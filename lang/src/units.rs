@@ -264,7 +264,7 @@ fn build_registry() -> Vec<UnitDef> {
     };
     let si = "SI base or derived unit (SI Brochure, 9th edition, 2019)";
     let b3 = "IAU 2015 Resolution B3 nominal value";
-    vec![
+    let mut v = vec![
         u("m", &[], "metre", 1.0, D::LENGTH, true, si),
         u("g", &[], "gram", 1e-3, D::MASS, true, si),
         u("s", &["sec"], "second", 1.0, D::TIME, true, si),
@@ -318,15 +318,6 @@ fn build_registry() -> Vec<UnitDef> {
             D::TIME,
             true,
             "Julian year, 365.25 d (IAU)",
-        ),
-        u(
-            "BJD_TDB",
-            &["BJD", "JD_TDB", "JD", "JD_UTC", "HJD"],
-            "Julian date (days)",
-            k::DAY,
-            D::TIME,
-            false,
-            "Julian date counts days of 86 400 s (IAU); the suffix names the time scale",
         ),
         u(
             "deg",
@@ -492,7 +483,21 @@ fn build_registry() -> Vec<UnitDef> {
             false,
             "dimensionless logarithm (common practice)",
         ),
-    ]
+    ];
+    // One unit per Julian-date time system: all count days of 86 400 s; the symbol names
+    // the time scale and where the clock sits (see `crate::time`, docs/timescales.md).
+    v.extend(crate::time::JD_UNITS.iter().map(|sym| {
+        u(
+            *sym,
+            &[],
+            "Julian date (days)",
+            k::DAY,
+            D::TIME,
+            false,
+            "Julian date: days of 86 400 s (IAU); the symbol names the time scale",
+        )
+    }));
+    v
 }
 
 /// A resolved unit: its SI factor and dimension (and the text it was written as).
