@@ -131,6 +131,25 @@ impl<'a> Inputs<'a> {
     /// `n` draws of a quantity (SI), or an error naming what is missing.
     fn draws(&mut self, q: Qty, n: usize, seed: u64) -> Result<Vec<f64>, String> {
         let def = quantities::def(q);
+        if q == Qty::ArgPeriastron && self.result(q).is_none() {
+            // The engine spreads an unknown orientation over a full turn (see
+            // `derive::Derivation`); the model curves do the same.
+            let words = "argument of periastron unknown: spread uniformly over 0-360 deg (default)"
+                .to_string();
+            if !self.assumptions.contains(&words) {
+                self.assumptions.push(words);
+            }
+            self.shown
+                .push("arg_periastron uniform over 0-360 deg (default)".to_string());
+            let turn = 2.0 * std::f64::consts::PI;
+            let m = Measurement {
+                value: turn,
+                below: 0.0,
+                above: 0.0,
+                form: crate::model::Form::UpperLimit,
+            };
+            return Ok(value::draw(&m, 0.0, turn, n, seed));
+        }
         let r = self
             .result(q)
             .filter(|r| r.value.is_finite())

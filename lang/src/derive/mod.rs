@@ -364,6 +364,35 @@ impl<'m> Derivation<'m> {
                     if body.get(q).is_some() {
                         continue;
                     }
+                    if q == Qty::ArgPeriastron && body.get(Qty::Eccentricity).is_some() {
+                        // An eccentric orbit of unknown orientation: every orientation is
+                        // equally likely, so the argument of periastron is spread uniformly
+                        // over a full turn (nominal 180 deg, where sin omega = 0) rather
+                        // than fixed at a value that would bias durations and inclinations.
+                        let turn = 2.0 * std::f64::consts::PI;
+                        let m = Measurement {
+                            value: turn,
+                            below: 0.0,
+                            above: 0.0,
+                            form: Form::UpperLimit,
+                        };
+                        let value =
+                            self.new_input(format!("{}.arg_periastron", body.id), &m, 0.0, turn);
+                        self.entries.insert(
+                            (bi, q),
+                            Entry {
+                                value,
+                                origin: Origin::Default,
+                                rule: None,
+                                inputs: Vec::new(),
+                                deps: BTreeSet::from([(bi, q)]),
+                                assumptions: BTreeSet::from([
+                                    "argument of periastron unknown: spread uniformly over 0-360 deg (default)".to_string(),
+                                ]),
+                            },
+                        );
+                        continue;
+                    }
                     if let Some((v, words)) = default_for(q) {
                         self.entries.insert(
                             (bi, q),
@@ -1043,7 +1072,10 @@ impl<'m> Derivation<'m> {
                 let Some(entry) = self.entries.get(&key) else {
                     continue;
                 };
-                if entry.origin == Origin::Default && !self.used.contains(&key) {
+                // A default that a result used is shown, except a spread of orientations,
+                // which has no value to show: the assumption lines of the results say it.
+                let spread = entry.origin == Origin::Default && !entry.value.grad.is_empty();
+                if spread || (entry.origin == Origin::Default && !self.used.contains(&key)) {
                     continue;
                 }
                 quantities.push(self.result_for(key, entry, decl));

@@ -109,7 +109,8 @@ fn monte_carlo_is_deterministic_and_close_to_linear() {
         Qty::Radius,
         Qty::Density,
         Qty::Teq,
-        Qty::TransitDuration,
+        // Not the transit duration: with an eccentricity limit and no argument of
+        // periastron it depends on an angle spread over a full turn, far from linear.
     ] {
         let a = get(&mc, "b", q).unwrap();
         let b = get(&again, "b", q).unwrap();
