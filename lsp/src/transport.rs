@@ -25,7 +25,7 @@ pub struct Seen {
 }
 
 /// The method name the filter forwards in place of a malformed request.
-pub const INVALID_METHOD: &str = "$/syzygy/invalidRequest";
+pub const INVALID_METHOD: &str = "syzygy/invalidRequest";
 
 /// Copy framed messages from `input` to `output`, rewriting as described in the module
 /// doc. Returns at end of input or right after forwarding `exit`; dropping `output` then
