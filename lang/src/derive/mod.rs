@@ -633,7 +633,22 @@ impl<'m> Derivation<'m> {
                 }
                 let id = u32::try_from(self.inputs.len()).unwrap_or(u32::MAX);
                 self.literal_inputs.insert(l.value_span, id);
-                let label = format!("literal at byte {}", l.value_span.start);
+                // Named by order of first use, not by position, so that re-laying out the
+                // file (which moves bytes) never changes a seed or a budget label.
+                let spread = match l.uncertainty {
+                    Uncertainty::None => String::new(),
+                    Uncertainty::Symmetric(s, _) => format!(" ± {}", crate::format::number(s)),
+                    Uncertainty::Asymmetric { plus, minus, .. } => format!(
+                        " +{}/-{}",
+                        crate::format::number(plus),
+                        crate::format::number(minus)
+                    ),
+                };
+                let label = format!(
+                    "literal #{} ({}{spread})",
+                    self.literal_inputs.len(),
+                    crate::format::number(l.value)
+                );
                 Ok(self.new_input(label, &m, f64::NEG_INFINITY, f64::INFINITY))
             }
             ExprKind::Name(id) => {
