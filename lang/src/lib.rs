@@ -8,6 +8,7 @@
 
 pub mod allow;
 pub mod ast;
+pub mod checks;
 pub mod composition;
 pub mod constants;
 pub mod derive;
@@ -57,11 +58,17 @@ pub fn analyze(file: source::FileId, src: &str, options: &Options) -> Analysis {
     let mut diagnostics = parsed.diagnostics;
     let model = model::lower(file, &parsed.file, &mut diagnostics);
     let mut results = Vec::with_capacity(model.systems.len());
-    let composition = HashMap::new();
-    let composition_text = HashMap::new();
-    for sys in &model.systems {
+    let mut composition = HashMap::new();
+    let mut composition_text = HashMap::new();
+    for (si, sys) in model.systems.iter().enumerate() {
         let d = derive::Derivation::run(sys, options);
         diagnostics.extend(d.diagnostics.iter().cloned());
+        for note in checks::run(&d, &mut diagnostics) {
+            if let Some(b) = sys.bodies.get(note.body) {
+                composition.insert((si, b.id.clone()), note.json);
+                composition_text.insert((si, b.id.clone()), note.text);
+            }
+        }
         results.push(d.summarize());
     }
     let mut diagnostics = allow::apply(src, &parsed.file.comments, diagnostics);

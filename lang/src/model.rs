@@ -184,20 +184,21 @@ pub fn lower(file: FileId, ast: &ast::File, diags: &mut Vec<Diagnostic>) -> Mode
             id_span: r.id.span,
         });
     }
+    let mut seen: HashMap<&str, Span> = HashMap::new();
     for s in &ast.systems {
-        if let Some(prev) = model
-            .systems
-            .iter()
-            .find(|p| p.name == s.name && !s.name.is_empty())
-        {
-            diags.push(
-                Diagnostic::new(
-                    Rule::Duplicate,
-                    s.name_span,
-                    format!("system \"{}\" is declared twice in this file", s.name),
-                )
-                .with_label(prev.name_span, "first declared here"),
-            );
+        if !s.name.is_empty() {
+            if let Some(prev) = seen.get(s.name.as_str()) {
+                diags.push(
+                    Diagnostic::new(
+                        Rule::Duplicate,
+                        s.name_span,
+                        format!("system \"{}\" is declared twice in this file", s.name),
+                    )
+                    .with_label(*prev, "first declared here"),
+                );
+            } else {
+                seen.insert(&s.name, s.name_span);
+            }
         }
         let sys = lower_system(s, &model.refs, diags);
         model.systems.push(sys);
@@ -526,13 +527,17 @@ fn lower_value(
             _ => "value",
         };
         let range = def.range_text();
+        let written = crate::format::number(sign * lit.value);
+        let written = if unit.text.is_empty() {
+            written
+        } else {
+            format!("{written} {}", unit.text)
+        };
         let mut d = Diagnostic::new(
             Rule::OutOfRange,
             expr.span,
             format!(
-                "{} of {what} {} lies outside the valid range of '{}': {range}",
-                crate::format::number(sign * lit.value),
-                unit_word(&unit),
+                "the {what} {written} lies outside the valid range of '{}': {range}",
                 def.name
             ),
         );
@@ -552,14 +557,6 @@ fn lower_value(
         }),
         written,
     ))
-}
-
-fn unit_word(u: &units::Unit) -> String {
-    if u.text.is_empty() {
-        String::new()
-    } else {
-        u.text.clone()
-    }
 }
 
 pub(crate) fn unknown_unit(span: Span, e: &units::UnknownUnit) -> Diagnostic {
@@ -627,38 +624,54 @@ struct Scope<'a> {
 }
 
 fn check_expressions(sys: &mut System, diags: &mut Vec<Diagnostic>) {
-    let snapshot = sys.clone();
-    // System lets.
-    let mut sys_dims = Vec::new();
-    for l in &snapshot.lets {
-        let scope = Scope {
-            sys: &snapshot,
-            body: None,
-        };
-        let mut visiting = vec![l.name.clone()];
-        sys_dims.push(infer(&l.expr, &scope, &mut visiting, diags));
+    let any = !sys.lets.is_empty()
+        || sys.bodies.iter().any(|b| {
+            !b.lets.is_empty()
+                || b.declared
+                    .iter()
+                    .any(|d| matches!(d.content, Content::Expr(_)))
+        });
+    if !any {
+        return;
     }
-    for (l, d) in sys.lets.iter_mut().zip(sys_dims) {
-        l.dim = d;
-    }
-    for (bi, body) in snapshot.bodies.iter().enumerate() {
+    // Infer with the system read-only, then write the results back.
+    let view: &System = sys;
+    let sys_dims: Vec<Option<Dimension>> = view
+        .lets
+        .iter()
+        .map(|l| {
+            let scope = Scope {
+                sys: view,
+                body: None,
+            };
+            infer(&l.expr, &scope, &mut vec![l.name.clone()], diags)
+        })
+        .collect();
+    let mut updates = Vec::new();
+    for (bi, body) in view.bodies.iter().enumerate() {
         let scope = Scope {
-            sys: &snapshot,
+            sys: view,
             body: Some(bi),
         };
-        let mut let_dims = Vec::new();
-        for l in &body.lets {
-            let mut visiting = vec![format!("{}.{}", body.id, l.name)];
-            let_dims.push(infer(&l.expr, &scope, &mut visiting, diags));
-        }
+        let let_dims: Vec<Option<Dimension>> = body
+            .lets
+            .iter()
+            .map(|l| {
+                infer(
+                    &l.expr,
+                    &scope,
+                    &mut vec![format!("{}.{}", body.id, l.name)],
+                    diags,
+                )
+            })
+            .collect();
         let mut drop = Vec::new();
         for (di, decl) in body.declared.iter().enumerate() {
             let Content::Expr(e) = &decl.content else {
                 continue;
             };
             let def = quantities::def(decl.qty);
-            let mut visiting = Vec::new();
-            match infer(e, &scope, &mut visiting, diags) {
+            match infer(e, &scope, &mut Vec::new(), diags) {
                 Some(d) if d == def.dim => {}
                 Some(d) => {
                     diags.push(
@@ -679,17 +692,21 @@ fn check_expressions(sys: &mut System, diags: &mut Vec<Diagnostic>) {
                 None => drop.push(di),
             }
         }
-        if let Some(b) = sys.bodies.get_mut(bi) {
-            for (l, d) in b.lets.iter_mut().zip(let_dims) {
-                l.dim = d;
-            }
-            let mut i = 0;
-            b.declared.retain(|_| {
-                let keep = !drop.contains(&i);
-                i += 1;
-                keep
-            });
+        updates.push((let_dims, drop));
+    }
+    for (l, d) in sys.lets.iter_mut().zip(sys_dims) {
+        l.dim = d;
+    }
+    for (b, (let_dims, drop)) in sys.bodies.iter_mut().zip(updates) {
+        for (l, d) in b.lets.iter_mut().zip(let_dims) {
+            l.dim = d;
         }
+        let mut i = 0;
+        b.declared.retain(|_| {
+            let keep = !drop.contains(&i);
+            i += 1;
+            keep
+        });
     }
 }
 
