@@ -213,7 +213,9 @@ fn check(
     let mut counts = [0usize; 3];
     for a in &analyses {
         for d in &a.diagnostics {
-            counts[d.severity as usize] += 1;
+            if let Some(c) = counts.get_mut(d.severity as usize) {
+                *c += 1;
+            }
         }
     }
     let (notes, warnings, errors) = (counts[0], counts[1], counts[2]);

@@ -24,7 +24,7 @@ impl Lcg {
 }
 
 /// One invented system with a transiting, RV-measured planet and an RV-only one.
-pub fn system(i: usize, rng: &mut Lcg) -> String {
+fn system(i: usize, rng: &mut Lcg) -> String {
     let ms = rng.range(0.5, 1.4);
     let rs = ms.powf(0.8);
     let teff = 5772.0 * ms.powf(0.5);

@@ -95,6 +95,8 @@ impl Dimension {
     pub const TEMPERATURE: Dimension = Dimension::base(3);
     pub const ANGLE: Dimension = Dimension::base(4);
 
+    // A const fn cannot use `get_mut`; `i` is one of the five base indices below.
+    #[allow(clippy::indexing_slicing)]
     const fn base(i: usize) -> Dimension {
         let mut e = [Rat::ZERO; 5];
         e[i] = Rat::ONE;
@@ -112,6 +114,7 @@ impl Dimension {
         ])
     }
 
+    #[allow(clippy::should_implement_trait)] // plain methods read better in the engine
     pub fn mul(self, o: Dimension) -> Dimension {
         let mut e = self.0;
         for (a, b) in e.iter_mut().zip(o.0) {
@@ -120,6 +123,7 @@ impl Dimension {
         Dimension(e)
     }
 
+    #[allow(clippy::should_implement_trait)]
     pub fn div(self, o: Dimension) -> Dimension {
         self.mul(o.pow(Rat::int(-1)))
     }
@@ -586,7 +590,7 @@ pub fn suggest(symbol: &str) -> Option<&'static str> {
             } else {
                 crate::text::edit_distance(&lower, &cand.to_lowercase())
             };
-            if d <= 2 && best.is_none_or(|(bd, _)| d < bd) {
+            if d <= 2 && best.map_or(true, |(bd, _)| d < bd) {
                 best = Some((d, def.symbol));
             }
         }
