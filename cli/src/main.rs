@@ -1,8 +1,10 @@
 //! `syz`: the command line over the Syzygy core. Reads files, hands their text to the core,
 //! renders what comes back. No language or physics logic lives here.
 
+mod ephemeris_cmd;
 mod files;
 mod fmt_cmd;
+mod plot_cmd;
 mod render;
 
 use clap::{Parser, Subcommand, ValueEnum};
@@ -28,7 +30,7 @@ struct Cli {
 }
 
 #[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
-enum Format {
+pub(crate) enum Format {
     Human,
     Json,
 }
@@ -53,7 +55,7 @@ struct EngineArgs {
     #[arg(long, default_value_t = 0x5359_5a59)]
     seed: u64,
     /// Declared and derived values further apart than this many combined sigma are reported.
-    #[arg(long, default_value_t = 3.0)]
+    #[arg(long, default_value_t = 3.0, value_parser = parse_sigma)]
     sigma: f64,
     /// Report this rule as an error (repeatable; see docs/rules.md for the ids).
     #[arg(long, value_name = "RULE", value_parser = parse_rule)]
@@ -64,6 +66,15 @@ struct EngineArgs {
     /// Do not report this rule (repeatable).
     #[arg(long, value_name = "RULE", value_parser = parse_rule)]
     allow: Vec<Rule>,
+}
+
+fn parse_sigma(s: &str) -> Result<f64, String> {
+    match s.parse::<f64>() {
+        Ok(v) if v.is_finite() && v > 0.0 => Ok(v),
+        _ => Err(format!(
+            "expected a positive number of standard deviations, found '{s}'"
+        )),
+    }
 }
 
 fn parse_rule(s: &str) -> Result<Rule, String> {
@@ -156,6 +167,20 @@ enum Command {
         #[arg(long)]
         stdio: bool,
     },
+    /// Draw a diagram as SVG: mass-radius, rv or transit.
+    Plot {
+        #[command(subcommand)]
+        plot: plot_cmd::Plot,
+        #[command(flatten)]
+        engine: EngineArgs,
+    },
+    /// List a planet's upcoming mid-transit times with their uncertainty.
+    Ephemeris {
+        #[command(flatten)]
+        args: ephemeris_cmd::Args,
+        #[command(flatten)]
+        engine: EngineArgs,
+    },
 }
 
 fn main() -> ExitCode {
@@ -197,6 +222,8 @@ fn main() -> ExitCode {
             },
         ),
         Command::Lsp { stdio: _ } => syzygy_lsp::run_stdio(),
+        Command::Plot { plot, engine } => plot_cmd::run(&plot, &engine.options()),
+        Command::Ephemeris { args, engine } => ephemeris_cmd::run(&args, &engine.options()),
     };
     ExitCode::from(code)
 }

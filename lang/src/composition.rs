@@ -673,10 +673,102 @@ pub fn probability_below_iron(mass_samples_kg: &[f64], radius_samples_m: &[f64])
         .unwrap_or(f64::NAN)
 }
 
+/// The curves a mass–radius diagram shows, densest first.
+pub const PLOTTED_CURVES: [Curve; 4] = [
+    Curve::PureIron,
+    Curve::EARTH_LIKE,
+    Curve::PureSilicate,
+    Curve::PureWaterIce,
+];
+
+/// Where a planet of `mass_kg` and `radius_m` sits among the composition curves, in
+/// words: the curves either side of it (or the one it lies beyond), how far it is from
+/// the Earth-like rocky curve, and its class. For a hover or a report line; never panics.
+pub fn describe_position(mass_kg: f64, radius_m: f64) -> String {
+    if !is_positive_finite(mass_kg) || !is_positive_finite(radius_m) {
+        return "no position: the mass and the radius must be positive numbers".to_string();
+    }
+    let me = mass_kg / M_EARTH;
+    let re = radius_m / R_EARTH;
+    let mut points: Vec<(Curve, f64, bool)> = PLOTTED_CURVES
+        .iter()
+        .filter_map(|c| {
+            radius_of_extrapolated(*c, mass_kg).map(|p| (*c, p.radius_m / R_EARTH, p.extrapolated))
+        })
+        .collect();
+    points.sort_by(|a, b| a.1.total_cmp(&b.1));
+    let name = |c: &Curve| match c {
+        Curve::Rocky { .. } => "Earth-like rock".to_string(),
+        other => other.label(),
+    };
+    let below = points.iter().rev().find(|p| p.1 <= re);
+    let above = points.iter().find(|p| p.1 > re);
+    let place = match (below, above) {
+        (Some(b), Some(a)) => format!(
+            "between the {} ({:.2} R⊕) and {} ({:.2} R⊕) curves",
+            name(&b.0),
+            b.1,
+            name(&a.0),
+            a.1
+        ),
+        (None, Some(a)) => format!("below the {} curve ({:.2} R⊕)", name(&a.0), a.1),
+        (Some(b), None) => format!("above the {} curve ({:.2} R⊕)", name(&b.0), b.1),
+        (None, None) => "off every curve".to_string(),
+    };
+    let earth_like = points
+        .iter()
+        .find(|p| matches!(p.0, Curve::Rocky { .. }))
+        .map(|p| {
+            let pct = (re / p.1 - 1.0) * 100.0;
+            format!(
+                ", {:.0}% {} than Earth-like rock",
+                pct.abs(),
+                if pct >= 0.0 { "larger" } else { "smaller" }
+            )
+        })
+        .unwrap_or_default();
+    let extrapolated = if points.iter().any(|p| p.2) {
+        " (curves extrapolated beyond their fitted masses)"
+    } else {
+        ""
+    };
+    let class = classify_point(mass_kg, radius_m, &ClassBoundaries::default())
+        .map(|c| format!("; {}", c.description()))
+        .unwrap_or_default();
+    format!(
+        "{} R⊕ at {} M⊕: {place}{earth_like}{extrapolated}{class}",
+        crate::format::number((re * 100.0).round() / 100.0),
+        crate::format::number((me * 100.0).round() / 100.0)
+    )
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
     use crate::solar_system::{by_name, PLANETS};
+
+    #[test]
+    fn positions_in_words() {
+        // Earth (fact sheet, from memory) sits on the Earth-like curve, between pure iron
+        // and pure silicate.
+        let earth = by_name("Earth").unwrap();
+        let d = describe_position(earth.mass_kg, earth.mean_radius_m);
+        assert!(d.contains("rocky"), "{d}");
+        assert!(
+            d.contains("% smaller than Earth-like rock")
+                || d.contains("% larger than Earth-like rock"),
+            "{d}"
+        );
+        // Neptune is far above the water-ice curve and needs volatiles.
+        let neptune = by_name("Neptune").unwrap();
+        let d = describe_position(neptune.mass_kg, neptune.mean_radius_m);
+        assert!(d.contains("above the 100% water ice curve"), "{d}");
+        assert!(d.contains("water or a gas envelope"), "{d}");
+        // A very dense point lies below the iron curve.
+        let d = describe_position(5.0 * M_EARTH, 1.0 * R_EARTH);
+        assert!(d.starts_with("1 R⊕ at 5 M⊕: below the 100% iron"), "{d}");
+        assert!(describe_position(-1.0, 1.0).starts_with("no position"));
+    }
 
     fn rel_diff(a: f64, b: f64) -> f64 {
         ((a - b) / b).abs()

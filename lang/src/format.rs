@@ -109,6 +109,29 @@ pub fn literal_text(value: f64, below: f64, above: f64) -> String {
     with_uncertainty(value, below, above)
 }
 
+/// A Julian date with its uncertainty in days: fixed decimals (two significant figures of
+/// the uncertainty, at least 4 and at most 8 places), never scientific notation.
+pub fn julian_date(jd: f64, below: f64, above: f64) -> String {
+    if !jd.is_finite() {
+        return format!("{jd}");
+    }
+    let u = below.max(above);
+    let places = if u > 0.0 && u.is_finite() {
+        places_for(below.min(above).max(u * 1e-3)).clamp(4, 8) as usize
+    } else {
+        5
+    };
+    let v = format!("{jd:.places$}");
+    if u <= 0.0 || !u.is_finite() {
+        return v;
+    }
+    if ((above - below).abs() / u) < 0.05 {
+        format!("{v} ± {:.places$}", (above + below) / 2.0)
+    } else {
+        format!("{v} +{above:.places$}/-{below:.places$}")
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -157,5 +180,14 @@ mod tests {
         assert_eq!(with_uncertainty(0.88, 0.02, 0.03), "0.880 +0.030/-0.020");
         assert_eq!(with_uncertainty(1.4e6, 1.3e5, 1.3e5), "(1.40 ± 0.13)e6");
         assert_eq!(with_uncertainty(5.0, 0.0, 0.0), "5");
+    }
+
+    #[test]
+    fn julian_dates_keep_their_digits() {
+        assert_eq!(
+            julian_date(2_460_123.456_7, 0.0004, 0.0004),
+            "2460123.45670 ± 0.00040"
+        );
+        assert_eq!(julian_date(2_460_123.456_7, 0.0, 0.0), "2460123.45670");
     }
 }

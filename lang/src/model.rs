@@ -66,8 +66,11 @@ pub struct Declared {
     pub content: Content,
     pub assumed: bool,
     pub citations: Vec<(String, Span)>,
-    /// The unit as written, when the value is a literal with a unit.
+    /// The unit as written, when the value is a literal with a unit (`JD_UTC` for a
+    /// transit epoch written as an ISO 8601 timestamp).
     pub written_unit: Option<String>,
+    /// The timestamp as written, for a time given as ISO 8601 text.
+    pub timestamp: Option<String>,
 }
 
 #[derive(Debug, Clone, PartialEq)]
@@ -361,6 +364,10 @@ fn lower_props(b: &ast::BodyDecl, refs: &[RefInfo], diags: &mut Vec<Diagnostic>)
         let Some((content, written_unit)) = lower_value(def, p, diags) else {
             continue;
         };
+        let timestamp = match (&p.value, &content) {
+            (ast::PropValue::Text(t, _), Content::Measured(_)) => Some(t.clone()),
+            _ => None,
+        };
         out.push(Declared {
             qty: def.qty,
             name_span: p.name.span,
@@ -370,9 +377,19 @@ fn lower_props(b: &ast::BodyDecl, refs: &[RefInfo], diags: &mut Vec<Diagnostic>)
             assumed: p.assumed.is_some(),
             citations,
             written_unit,
+            timestamp,
         });
     }
     out
+}
+
+/// The display unit as written after a number: nothing for plain numbers.
+fn unit_suffix(def: &QuantityDef) -> &'static str {
+    if def.display == "1" {
+        ""
+    } else {
+        def.display
+    }
 }
 
 fn unknown_quantity(kind: BodyKind, name: &ast::Ident) -> Diagnostic {
@@ -419,6 +436,29 @@ fn lower_value(
             if def.text {
                 return Some((Content::Text(t.clone()), None));
             }
+            if def.qty == Qty::TransitEpoch {
+                return match crate::time::parse_iso(t) {
+                    Ok(jd) => Some((
+                        Content::Measured(Measurement {
+                            value: jd * crate::constants::DAY,
+                            below: 0.0,
+                            above: 0.0,
+                            form: Form::Exact,
+                        }),
+                        Some("JD_UTC".to_string()),
+                    )),
+                    Err(e) => {
+                        diags.push(
+                            Diagnostic::new(Rule::InvalidValue, *span, e.to_string()).with_help(
+                                "a transit epoch is a Julian date with its time scale \
+                                 (`2460123.4567 ± 0.0004 BJD_TDB`) or a UTC timestamp \
+                                 (`\"2026-03-14T05:12:00Z\"`)",
+                            ),
+                        );
+                        None
+                    }
+                };
+            }
             diags.push(
                 Diagnostic::new(
                     Rule::UnitMismatch,
@@ -427,7 +467,8 @@ fn lower_value(
                 )
                 .with_help(format!(
                     "write a number with a unit, e.g. `{} = 1.0 {}`",
-                    def.name, def.display
+                    def.name,
+                    unit_suffix(def)
                 )),
             );
             return None;
@@ -453,7 +494,11 @@ fn lower_value(
                     expr.span,
                     "a limit takes a single number with a unit",
                 )
-                .with_help(format!("write `{} < 0.1 {}`", def.name, def.display)),
+                .with_help(format!(
+                    "write `{} < 0.1 {}`",
+                    def.name,
+                    unit_suffix(def)
+                )),
             );
             return None;
         }
@@ -495,7 +540,8 @@ fn lower_value(
                 )
                 .with_help(format!(
                     "write `{} < VALUE {}`, or give the value with its uncertainty after '='",
-                    def.name, def.display
+                    def.name,
+                    unit_suffix(def)
                 )),
             );
             return None;
@@ -597,7 +643,8 @@ fn mismatch_for(
     if lit.unit.is_none() {
         d = d.with_help(format!(
             "add a unit: `{} = {value} {}`",
-            def.name, def.display
+            def.name,
+            unit_suffix(def)
         ));
         if def.dim == Dimension::ANGLE {
             d = d.with_note("angles and plain numbers are different types: write `deg` or `rad`");
@@ -712,7 +759,7 @@ fn check_expressions(sys: &mut System, diags: &mut Vec<Diagnostic>) {
 
 /// Suggest the factor that would fix a dimension mismatch.
 fn dimension_fix(expected: Dimension, found: Dimension) -> String {
-    let missing = expected.div(found);
+    let missing = expected.per(found);
     format!(
         "multiply by a factor of {} to get {}",
         missing.describe(),
@@ -844,8 +891,8 @@ fn infer(
             let db = infer(b, scope, visiting, diags);
             let (da, db) = (da?, db?);
             match op {
-                BinOp::Mul => Some(da.mul(db)),
-                BinOp::Div => Some(da.div(db)),
+                BinOp::Mul => Some(da.times(db)),
+                BinOp::Div => Some(da.per(db)),
                 BinOp::Add | BinOp::Sub => {
                     if da == db {
                         Some(da)
@@ -865,7 +912,7 @@ fn infer(
                             .with_label(b.span, format!("this is {}", db.describe()))
                             .with_help(format!(
                                 "multiply the right-hand side by a factor of {}",
-                                da.div(db).describe()
+                                da.per(db).describe()
                             )),
                         );
                         None

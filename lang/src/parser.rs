@@ -753,7 +753,7 @@ impl<'a> Cursor<'a> {
             (t.kind == Tok::Number)
                 .then(|| (self.text(*t).parse::<f64>().unwrap_or(f64::NAN), sp(t)))
         };
-        let mut i: usize;
+        let mut i;
         let first = slice.first()?;
         let value = match first.kind {
             Tok::Str => {

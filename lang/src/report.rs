@@ -1,7 +1,7 @@
 //! What `eval` reports: the machine-readable form (documented in `docs/json-output.md`) and
 //! the text form for people. Pure functions from an [`Analysis`] to data or text.
 
-use crate::derive::{display_factor, display_unit, Origin, QuantityResult};
+use crate::derive::{display_factor, Origin, QuantityResult};
 use crate::model::Form;
 use crate::quantities::{self, Qty};
 use crate::source::{LineIndex, SourceDb};
@@ -35,7 +35,7 @@ fn quantity_json(a: &Analysis, sys: usize, q: &QuantityResult) -> Json {
     if let Some(t) = &q.text {
         m.insert("text".into(), json!(t));
     } else {
-        let unit = display_unit(q.qty, q.value);
+        let unit = q.shown_unit();
         let f = display_factor(unit);
         m.insert("value".into(), finite(q.value / f));
         m.insert("unit".into(), json!(unit));
@@ -156,8 +156,14 @@ pub fn value_text(q: &QuantityResult) -> String {
     if let Some(t) = &q.text {
         return format!("\"{t}\"");
     }
-    let unit = display_unit(q.qty, q.value);
+    let unit = q.shown_unit();
     let f = display_factor(unit);
+    if q.qty == Qty::TransitEpoch {
+        return format!(
+            "{} {unit}",
+            crate::format::julian_date(q.value / f, q.below / f, q.above / f)
+        );
+    }
     let u = if unit == "1" {
         String::new()
     } else {
@@ -192,17 +198,22 @@ pub fn provenance_text(a: &Analysis, sys: usize, q: &QuantityResult) -> String {
             format!("{}{cites}", q.origin.as_str())
         }
         Origin::Default => "default".to_string(),
+        Origin::Estimated => format!("estimated from the spectral type{cites}"),
         _ => {
             let inputs: Vec<String> = q.inputs.iter().map(|k| key_label(a, sys, *k)).collect();
+            let from = if inputs.is_empty() {
+                String::new()
+            } else {
+                format!(" from {}", inputs.join(", "))
+            };
             format!(
-                "{} by {} from {}{cites}",
+                "{} by {}{from}{cites}",
                 if q.origin == Origin::Derived {
                     "derived"
                 } else {
                     q.origin.as_str()
                 },
                 q.rule.unwrap_or("?"),
-                inputs.join(", ")
             )
         }
     }

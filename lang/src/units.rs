@@ -95,7 +95,7 @@ impl Dimension {
     pub const TEMPERATURE: Dimension = Dimension::base(3);
     pub const ANGLE: Dimension = Dimension::base(4);
 
-    // A const fn cannot use `get_mut`; `i` is one of the five base indices below.
+    // Only called with constant indexes below 5 (the constants above).
     #[allow(clippy::indexing_slicing)]
     const fn base(i: usize) -> Dimension {
         let mut e = [Rat::ZERO; 5];
@@ -114,8 +114,7 @@ impl Dimension {
         ])
     }
 
-    #[allow(clippy::should_implement_trait)] // plain methods read better in the engine
-    pub fn mul(self, o: Dimension) -> Dimension {
+    pub fn times(self, o: Dimension) -> Dimension {
         let mut e = self.0;
         for (a, b) in e.iter_mut().zip(o.0) {
             *a = a.add(b);
@@ -123,9 +122,8 @@ impl Dimension {
         Dimension(e)
     }
 
-    #[allow(clippy::should_implement_trait)]
-    pub fn div(self, o: Dimension) -> Dimension {
-        self.mul(o.pow(Rat::int(-1)))
+    pub fn per(self, o: Dimension) -> Dimension {
+        self.times(o.pow(Rat::int(-1)))
     }
 
     pub fn pow(self, p: Rat) -> Dimension {
@@ -266,7 +264,7 @@ fn build_registry() -> Vec<UnitDef> {
     };
     let si = "SI base or derived unit (SI Brochure, 9th edition, 2019)";
     let b3 = "IAU 2015 Resolution B3 nominal value";
-    vec![
+    let mut v = vec![
         u("m", &[], "metre", 1.0, D::LENGTH, true, si),
         u("g", &[], "gram", 1e-3, D::MASS, true, si),
         u("s", &["sec"], "second", 1.0, D::TIME, true, si),
@@ -320,15 +318,6 @@ fn build_registry() -> Vec<UnitDef> {
             D::TIME,
             true,
             "Julian year, 365.25 d (IAU)",
-        ),
-        u(
-            "BJD_TDB",
-            &["BJD", "JD_TDB", "JD", "JD_UTC", "HJD"],
-            "Julian date (days)",
-            k::DAY,
-            D::TIME,
-            false,
-            "Julian date counts days of 86 400 s (IAU); the suffix names the time scale",
         ),
         u(
             "deg",
@@ -494,7 +483,21 @@ fn build_registry() -> Vec<UnitDef> {
             false,
             "dimensionless logarithm (common practice)",
         ),
-    ]
+    ];
+    // One unit per Julian-date time system: all count days of 86 400 s; the symbol names
+    // the time scale and where the clock sits (see `crate::time`, docs/timescales.md).
+    v.extend(crate::time::JD_UNITS.iter().map(|sym| {
+        u(
+            *sym,
+            &[],
+            "Julian date (days)",
+            k::DAY,
+            D::TIME,
+            false,
+            "Julian date: days of 86 400 s (IAU); the symbol names the time scale",
+        )
+    }));
+    v
 }
 
 /// A resolved unit: its SI factor and dimension (and the text it was written as).
@@ -607,7 +610,7 @@ pub fn resolve(expr: &UnitExpr) -> Result<Unit, Vec<(crate::source::Span, Unknow
         match lookup(&f.symbol.name) {
             Some((scale, def)) => {
                 factor *= scale.powi(f.exponent);
-                dim = dim.mul(def.dim.pow(Rat::int(f.exponent)));
+                dim = dim.times(def.dim.pow(Rat::int(f.exponent)));
             }
             None => errors.push((
                 f.symbol.span,
@@ -680,7 +683,7 @@ pub fn parse_unit_text(text: &str) -> Option<Unit> {
             let exp = if i > 0 { -exp } else { exp };
             let (scale, def) = lookup(sym)?;
             factor *= scale.powi(exp);
-            dim = dim.mul(def.dim.pow(Rat::int(exp)));
+            dim = dim.times(def.dim.pow(Rat::int(exp)));
         }
     }
     Some(Unit {

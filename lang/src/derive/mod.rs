@@ -72,6 +72,9 @@ pub enum Origin {
     Derived,
     /// A default the engine supplied because a rule needed it.
     Default,
+    /// Estimated by the engine from another declaration (a star's spectral type), not
+    /// measured; the estimate's basis is in its assumptions.
+    Estimated,
 }
 
 impl Origin {
@@ -81,6 +84,7 @@ impl Origin {
             Origin::Assumed => "assumed",
             Origin::Derived => "derived",
             Origin::Default => "default",
+            Origin::Estimated => "estimated",
         }
     }
 }
@@ -110,6 +114,18 @@ pub struct QuantityResult {
     /// What was assumed on the way (defaults, approximations), in words.
     pub assumptions: Vec<String>,
     pub notes: Vec<String>,
+    /// The unit the value is shown in when it is not the quantity's usual one: a transit
+    /// epoch keeps the Julian-date time system it was declared in.
+    pub unit: Option<String>,
+}
+
+impl QuantityResult {
+    /// The unit to show the value in.
+    pub fn shown_unit(&self) -> &str {
+        self.unit
+            .as_deref()
+            .unwrap_or_else(|| display_unit(self.qty, self.value))
+    }
 }
 
 #[derive(Debug, Clone, PartialEq)]
@@ -332,6 +348,9 @@ impl<'m> Derivation<'m> {
                         crate::format::number(m.value)
                     ));
                 }
+                if decl.qty == Qty::TransitEpoch {
+                    assumptions.extend(epoch_assumptions(decl));
+                }
                 if m.form.is_limit() {
                     assumptions.insert(format!(
                         "{}.{} {} {} sampled uniformly within its physical range",
@@ -352,6 +371,9 @@ impl<'m> Derivation<'m> {
                         assumptions,
                     },
                 );
+            }
+            if body.kind == BodyKind::Star {
+                self.estimate_from_spectral_type(bi);
             }
             if body.kind == BodyKind::Planet {
                 for q in [
@@ -378,6 +400,93 @@ impl<'m> Derivation<'m> {
                     }
                 }
             }
+        }
+    }
+
+    /// Teff, radius and mass of a dwarf star from its spectral type, for each of them the
+    /// star neither declares nor can derive from its own declarations ([`crate::spectral`]).
+    fn estimate_from_spectral_type(&mut self, bi: usize) {
+        let sys = self.sys;
+        let Some(body) = sys.bodies.get(bi) else {
+            return;
+        };
+        let Some(decl) = body.get(Qty::SpectralType) else {
+            return;
+        };
+        let Content::Text(text) = &decl.content else {
+            return;
+        };
+        let declared = |q: Qty| body.get(q).is_some();
+        let derivable = |q: Qty| {
+            RULES.iter().any(|r| {
+                r.output == Slot::Star(q)
+                    && r.inputs
+                        .iter()
+                        .all(|s| matches!(s, Slot::Star(x) if declared(*x)))
+            })
+        };
+        let wanted: Vec<Qty> = [Qty::Teff, Qty::StarRadius, Qty::StarMass]
+            .into_iter()
+            .filter(|q| !declared(*q) && !derivable(*q))
+            .collect();
+        if wanted.is_empty() {
+            return;
+        }
+        let (_, est) = match crate::spectral::estimate(text) {
+            Ok(e) => e,
+            Err(why) => {
+                let names: Vec<&str> = wanted.iter().map(|q| quantities::def(*q).name).collect();
+                self.diagnostics.push(
+                    Diagnostic::new(
+                        Rule::NotDerivable,
+                        decl.value_span,
+                        format!(
+                            "{} of '{}' not estimated from spectral type \"{text}\": {why}",
+                            names.join(", "),
+                            body.id
+                        ),
+                    )
+                    .with_help("declare them from a measurement or a catalogue"),
+                );
+                return;
+            }
+        };
+        for q in wanted {
+            let (e, unit) = match q {
+                Qty::Teff => (est.teff, "K"),
+                Qty::StarRadius => (est.radius, "Rsun"),
+                _ => (est.mass, "Msun"),
+            };
+            let def = quantities::def(q);
+            let m = Measurement {
+                value: e.value,
+                below: e.sigma,
+                above: e.sigma,
+                form: Form::Symmetric,
+            };
+            let (lo, hi) = def.limits();
+            let label = format!("{}.{}", body.id, def.name);
+            let v = self.new_input(label, &m, lo, hi);
+            let f = display_factor(unit);
+            let words = format!(
+                "{}.{} = {} {unit} estimated from spectral type {text} ({}; {})",
+                body.id,
+                def.name,
+                crate::format::with_uncertainty(e.value / f, e.sigma / f, e.sigma / f),
+                crate::spectral::TABLE_SOURCE,
+                crate::spectral::UNCERTAINTY_WORDS
+            );
+            self.entries.insert(
+                (bi, q),
+                Entry {
+                    value: v,
+                    origin: Origin::Estimated,
+                    rule: None,
+                    inputs: Vec::new(),
+                    deps: BTreeSet::from([(bi, q)]),
+                    assumptions: BTreeSet::from([words]),
+                },
+            );
         }
     }
 
@@ -475,6 +584,16 @@ impl<'m> Derivation<'m> {
                     }
                     if deps.contains(&out) {
                         continue; // would confirm a value with itself
+                    }
+                    if let Some(existing) = self.entries.get(&out) {
+                        // A second route only matters if it can disagree on the data
+                        // (see `check_consistency`); skip the work otherwise.
+                        let mine = self.declared_deps(&existing.deps);
+                        let mut theirs = self.declared_deps(&deps);
+                        theirs.remove(&out);
+                        if mine.is_subset(&theirs) || theirs.is_subset(&mine) {
+                            continue;
+                        }
                     }
                     let Some(value) = value::apply(&rule.eval, &args, &self.inputs) else {
                         continue;
@@ -952,6 +1071,7 @@ impl<'m> Derivation<'m> {
                             budget: Vec::new(),
                             assumptions: Vec::new(),
                             notes: Vec::new(),
+                            unit: None,
                         });
                         continue;
                     }
@@ -1097,8 +1217,37 @@ impl<'m> Derivation<'m> {
             budget,
             assumptions: entry.assumptions.iter().cloned().collect(),
             notes,
+            unit: (key.1 == Qty::TransitEpoch)
+                .then(|| {
+                    decl.and_then(|d| d.written_unit.clone())
+                        .filter(|u| crate::time::system_of_unit(u).is_some())
+                })
+                .flatten(),
         }
     }
+}
+
+/// What reading a transit epoch took for granted: a time scale left unsaid, a timestamp.
+fn epoch_assumptions(decl: &model::Declared) -> Vec<String> {
+    let mut out = Vec::new();
+    if let Some(ts) = &decl.timestamp {
+        out.push(format!(
+            "transit_epoch given as the UTC timestamp {ts}, read as a JD_UTC Julian date"
+        ));
+    }
+    match decl
+        .written_unit
+        .as_deref()
+        .and_then(crate::time::system_of_unit)
+    {
+        Some((_, Some(words))) => out.push(words.to_string()),
+        Some((_, None)) => {}
+        None => out.push(
+            "transit_epoch has no Julian-date time scale (such as BJD_TDB); read as JD_UTC"
+                .to_string(),
+        ),
+    }
+    out
 }
 
 fn relative_spread(v: &Value, inputs: &[InputInfo]) -> f64 {

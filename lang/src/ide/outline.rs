@@ -169,7 +169,13 @@ pub fn token_classes(src: &str, occ: &[Occurrence]) -> Vec<(Span, TokenClass)> {
             Tok::Comment => Some(TokenClass::Comment),
             Tok::Str | Tok::UnterminatedStr => Some(TokenClass::String),
             Tok::Number => Some(TokenClass::Number),
-            k if k.is_keyword() => Some(TokenClass::Keyword),
+            Tok::System
+            | Tok::StarKw
+            | Tok::Planet
+            | Tok::Orbits
+            | Tok::Ref
+            | Tok::Let
+            | Tok::Assumed => Some(TokenClass::Keyword),
             Tok::Eq
             | Tok::Lt
             | Tok::Gt

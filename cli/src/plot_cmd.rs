@@ -1,0 +1,465 @@
+//! `syz plot`: SVG diagrams drawn from what the core computes ([`syzygy::plots`]). The only
+//! file written is the one `-o` names.
+
+use crate::files;
+use plotters::coord::Shift;
+use plotters::prelude::*;
+use plotters::style::text_anchor::{HPos, Pos, VPos};
+use std::path::{Path, PathBuf};
+use syzygy::composition::{self, Curve, PLOTTED_CURVES};
+use syzygy::constants::{M_EARTH, R_EARTH};
+use syzygy::lightcurve::LimbDarkening;
+use syzygy::plots::{self, ModelCurve};
+use syzygy::solar_system;
+use syzygy::Options;
+
+#[derive(clap::Subcommand)]
+pub enum Plot {
+    /// Planets of one or many files on a log–log mass–radius diagram, with composition
+    /// curves and the Solar System planets for reference.
+    #[command(after_help = "Example:\n  syz plot mass-radius examples/ -o mass-radius.svg")]
+    MassRadius {
+        #[arg(required = true)]
+        paths: Vec<PathBuf>,
+        /// The SVG file to write.
+        #[arg(short = 'o', long = "output", required = true)]
+        output: PathBuf,
+    },
+    /// The star's model radial-velocity curve over one orbit, with its uncertainty band.
+    #[command(after_help = "Example:\n  syz plot rv examples/veyra.syz b -o veyra-b-rv.svg")]
+    Rv {
+        file: PathBuf,
+        body: String,
+        #[arg(short = 'o', long = "output", required = true)]
+        output: PathBuf,
+        #[arg(long)]
+        system: Option<String>,
+    },
+    /// The model transit light curve with quadratic limb darkening, with its band.
+    #[command(
+        after_help = "Example:\n  syz plot transit examples/veyra.syz b -o veyra-b-transit.svg --limb-darkening 0.45,0.2"
+    )]
+    Transit {
+        file: PathBuf,
+        body: String,
+        #[arg(short = 'o', long = "output", required = true)]
+        output: PathBuf,
+        /// Quadratic limb-darkening coefficients `u1,u2`. Default: u1 = 0.40, u2 = 0.25,
+        /// typical of a Sun-like dwarf in a broad optical band (shown on the plot).
+        #[arg(long, value_name = "U1,U2")]
+        limb_darkening: Option<String>,
+        #[arg(long)]
+        system: Option<String>,
+    },
+}
+
+fn err<E: std::fmt::Display>(e: E) -> String {
+    e.to_string()
+}
+
+pub fn run(plot: &Plot, options: &Options) -> u8 {
+    let out = match plot {
+        Plot::MassRadius { output, .. }
+        | Plot::Rv { output, .. }
+        | Plot::Transit { output, .. } => output,
+    };
+    if !out
+        .extension()
+        .is_some_and(|e| e.eq_ignore_ascii_case("svg"))
+    {
+        eprintln!(
+            "syz: {}: only SVG output is supported; name the file *.svg",
+            out.display()
+        );
+        return 2;
+    }
+    let result = match plot {
+        Plot::MassRadius { paths, .. } => mass_radius(paths, options),
+        Plot::Rv {
+            file, body, system, ..
+        } => one_planet(file, body, system.as_deref(), options).and_then(|(a, si, bi)| {
+            let c = plots::rv_curve(&a, si, bi)?;
+            model_svg(
+                &c,
+                &format!("Radial velocity of {}'s star", c.label),
+                "time from mid-transit (inferior conjunction) [days]",
+                "stellar radial velocity [m/s]",
+                None,
+            )
+        }),
+        Plot::Transit {
+            file,
+            body,
+            system,
+            limb_darkening,
+            ..
+        } => parse_ld(limb_darkening.as_deref()).and_then(|ld| {
+            let (a, si, bi) = one_planet(file, body, system.as_deref(), options)?;
+            let (c, used) = plots::transit_curve(&a, si, bi, ld)?;
+            model_svg(
+                &c,
+                &format!("Transit of {}", c.label),
+                "time from mid-transit [hours]",
+                "relative flux",
+                Some(used),
+            )
+        }),
+    };
+    match result {
+        Ok(svg) => match std::fs::write(out, svg) {
+            Ok(()) => {
+                eprintln!("wrote {}", out.display());
+                0
+            }
+            Err(e) => {
+                eprintln!("syz: {}: {e}", out.display());
+                2
+            }
+        },
+        Err(e) => {
+            eprintln!("syz: {e}");
+            1
+        }
+    }
+}
+
+fn parse_ld(text: Option<&str>) -> Result<Option<LimbDarkening>, String> {
+    let Some(t) = text else { return Ok(None) };
+    let parts: Vec<&str> = t.split(',').map(str::trim).collect();
+    let [a, b] = parts.as_slice() else {
+        return Err(format!(
+            "--limb-darkening takes two numbers u1,u2 (e.g. 0.45,0.2), not '{t}'"
+        ));
+    };
+    let num = |s: &str| {
+        s.parse::<f64>()
+            .map_err(|_| format!("--limb-darkening: '{s}' is not a number"))
+    };
+    Ok(Some(LimbDarkening {
+        u1: num(a)?,
+        u2: num(b)?,
+    }))
+}
+
+fn one_planet(
+    file: &Path,
+    body: &str,
+    system: Option<&str>,
+    options: &Options,
+) -> Result<(syzygy::Analysis, usize, usize), String> {
+    let loaded = files::load(&[file.to_path_buf()]);
+    if let Some(e) = loaded.errors.first() {
+        return Err(e.clone());
+    }
+    let mut analyses = files::analyze_all(&loaded.db, options, &[]);
+    let a = analyses.pop().ok_or("nothing to read")?;
+    let (si, bi) = syzygy::report::find_body(&a, system, body)
+        .ok_or_else(|| format!("no body '{body}' in {}", file.display()))?;
+    Ok((a, si, bi))
+}
+
+const PALETTE: [RGBColor; 4] = [
+    RGBColor(120, 120, 130),
+    RGBColor(166, 97, 26),
+    RGBColor(200, 60, 50),
+    RGBColor(40, 110, 190),
+];
+const DATA: RGBColor = RGBColor(20, 20, 20);
+const FONT: &str = "sans-serif";
+
+/// Break a long line into lines of at most `width` characters at spaces.
+fn wrap(text: &str, width: usize) -> Vec<String> {
+    let mut out = Vec::new();
+    let mut line = String::new();
+    for word in text.split(' ') {
+        if !line.is_empty() && line.chars().count() + word.chars().count() + 1 > width {
+            out.push(std::mem::take(&mut line));
+        }
+        if !line.is_empty() {
+            line.push(' ');
+        }
+        line.push_str(word);
+    }
+    if !line.is_empty() {
+        out.push(line);
+    }
+    out
+}
+
+fn notes(area: &DrawingArea<SVGBackend, Shift>, lines: &[String]) -> Result<(), String> {
+    let mut y = 4;
+    for l in lines.iter().flat_map(|l| wrap(l, 150)) {
+        area.draw(&Text::new(l, (20, y), (FONT, 12).into_font().color(&BLACK)))
+            .map_err(err)?;
+        y += 15;
+    }
+    Ok(())
+}
+
+fn mass_radius(paths: &[PathBuf], options: &Options) -> Result<String, String> {
+    let loaded = files::load(paths);
+    files::report_io_errors(&loaded.errors);
+    let analyses = files::analyze_all(&loaded.db, options, &[]);
+    let (points, left_out) = plots::mass_radius_points(&analyses);
+    for l in &left_out {
+        eprintln!("note: not plotted: {l}");
+    }
+    if points.is_empty() {
+        return Err("no planet with both a mass and a radius to plot".to_string());
+    }
+    let mut x_max: f64 = 1000.0;
+    let mut y_max: f64 = 25.0;
+    for p in &points {
+        x_max = x_max.max(2.0 * (p.mass + p.mass_above));
+        y_max = y_max.max(1.5 * (p.radius + p.radius_above));
+    }
+    let (x_min, y_min) = (0.03f64, 0.3f64);
+    let mut lines = vec![
+        "Curves: Seager, Kuchner, Hier-Majumder & Militzer 2007, ApJ 669, 1279 (fit coefficients from memory); Zeng, Sasselov & Jacobsen 2016, ApJ 819, 127. Faint: extrapolated beyond the fitted mass range.".to_string(),
+    ];
+    lines.extend(
+        points
+            .iter()
+            .map(|p| format!("{}: {}", p.label, p.position)),
+    );
+    let note_h = 10 + 15 * lines.iter().map(|l| wrap(l, 150).len()).sum::<usize>() as u32;
+    let mut svg = String::new();
+    {
+        let root = SVGBackend::with_string(&mut svg, (1000, 680 + note_h)).into_drawing_area();
+        root.fill(&WHITE).map_err(err)?;
+        let (top, bottom) = root.split_vertically(680);
+        let mut chart = ChartBuilder::on(&top)
+            .caption("Mass–radius diagram", (FONT, 26))
+            .margin(18)
+            .x_label_area_size(55)
+            .y_label_area_size(65)
+            .build_cartesian_2d((x_min..x_max).log_scale(), (y_min..y_max).log_scale())
+            .map_err(err)?;
+        chart
+            .configure_mesh()
+            .x_desc("planet mass [Earth masses, M⊕]")
+            .y_desc("planet radius [Earth radii, R⊕]")
+            .axis_desc_style((FONT, 18))
+            .label_style((FONT, 14))
+            .light_line_style(WHITE)
+            .bold_line_style(RGBColor(225, 225, 225))
+            .x_label_formatter(&|v| syzygy::format::number(*v))
+            .y_label_formatter(&|v| syzygy::format::number(*v))
+            .draw()
+            .map_err(err)?;
+        // Composition curves: strong inside the fitted mass range, faint outside.
+        for (curve, color) in PLOTTED_CURVES.iter().zip(PALETTE) {
+            let (lo, hi) = curve.mass_range_earth();
+            let n = 200;
+            let upto = 60f64.min(x_max);
+            let pts: Vec<(f64, f64, bool)> = (0..=n)
+                .filter_map(|i| {
+                    let m = x_min * (upto / x_min).powf(f64::from(i) / f64::from(n));
+                    let r = composition::radius_of_extrapolated(*curve, m * M_EARTH)?;
+                    Some((m, r.radius_m / R_EARTH, m >= lo && m <= hi))
+                })
+                .collect();
+            let fitted: Vec<(f64, f64)> = pts.iter().filter(|p| p.2).map(|p| (p.0, p.1)).collect();
+            for side in [
+                pts.iter()
+                    .filter(|p| p.0 < lo)
+                    .map(|p| (p.0, p.1))
+                    .collect::<Vec<_>>(),
+                pts.iter()
+                    .filter(|p| p.0 > hi)
+                    .map(|p| (p.0, p.1))
+                    .collect::<Vec<_>>(),
+            ] {
+                chart
+                    .draw_series(LineSeries::new(side, color.mix(0.35).stroke_width(1)))
+                    .map_err(err)?;
+            }
+            let label = match curve {
+                Curve::Rocky { .. } => "Earth-like rock (32.5% iron core)".to_string(),
+                c => c.label(),
+            };
+            let legend = format!("{label} — {}", short_source(curve));
+            chart
+                .draw_series(LineSeries::new(fitted.clone(), color.stroke_width(2)))
+                .map_err(err)?
+                .label(legend)
+                .legend(move |(x, y)| {
+                    PathElement::new(vec![(x, y), (x + 22, y)], color.stroke_width(2))
+                });
+            if let Some(&(m, r)) = fitted.last() {
+                let short = match curve {
+                    Curve::PureIron => "iron",
+                    Curve::PureSilicate => "silicate",
+                    Curve::PureWaterIce => "water ice",
+                    Curve::Rocky { .. } => "Earth-like",
+                };
+                chart
+                    .draw_series(std::iter::once(Text::new(
+                        short,
+                        (m * 1.08, r),
+                        (FONT, 13).into_font().color(&color),
+                    )))
+                    .map_err(err)?;
+            }
+        }
+        // Solar System planets.
+        let grey = RGBColor(90, 90, 90);
+        chart
+            .draw_series(solar_system::PLANETS.iter().map(|p| {
+                Circle::new(
+                    (p.mass_kg / M_EARTH, p.mean_radius_m / R_EARTH),
+                    5,
+                    grey.stroke_width(2),
+                )
+            }))
+            .map_err(err)?
+            .label("Solar System planets (NASA GSFC fact sheet, from memory)")
+            .legend(move |(x, y)| Circle::new((x + 11, y), 5, grey.stroke_width(2)));
+        chart
+            .draw_series(solar_system::PLANETS.iter().map(|p| {
+                // Uranus and Venus sit just left of Neptune and Earth: label them on the left.
+                let left = matches!(p.name, "Uranus" | "Venus");
+                let (m, r) = (p.mass_kg / M_EARTH, p.mean_radius_m / R_EARTH);
+                let font = (FONT, 12).into_font().color(&grey);
+                if left {
+                    Text::new(
+                        p.name.to_string(),
+                        (m / 1.12, r),
+                        font.pos(Pos::new(HPos::Right, VPos::Center)),
+                    )
+                } else {
+                    Text::new(p.name.to_string(), (m * 1.12, r * 1.04), font)
+                }
+            }))
+            .map_err(err)?;
+        // The planets from the files, with 1-sigma error bars.
+        for p in &points {
+            let xl = (p.mass - p.mass_below).max(x_min);
+            let yl = (p.radius - p.radius_below).max(y_min);
+            let bars = [
+                vec![(xl, p.radius), (p.mass + p.mass_above, p.radius)],
+                vec![(p.mass, yl), (p.mass, p.radius + p.radius_above)],
+            ];
+            chart
+                .draw_series(
+                    bars.into_iter()
+                        .map(|b| PathElement::new(b, DATA.stroke_width(1))),
+                )
+                .map_err(err)?;
+            chart
+                .draw_series(std::iter::once(Text::new(
+                    p.label.clone(),
+                    (p.mass * 1.1, p.radius * 1.07),
+                    (FONT, 13).into_font().color(&DATA),
+                )))
+                .map_err(err)?;
+        }
+        chart
+            .draw_series(
+                points
+                    .iter()
+                    .map(|p| Circle::new((p.mass, p.radius), 5, DATA.filled())),
+            )
+            .map_err(err)?
+            .label("planets in the files (1σ error bars)")
+            .legend(move |(x, y)| Circle::new((x + 11, y), 5, DATA.filled()));
+        chart
+            .configure_series_labels()
+            .position(SeriesLabelPosition::UpperLeft)
+            .background_style(WHITE.mix(0.9))
+            .border_style(RGBColor(180, 180, 180))
+            .label_font((FONT, 13))
+            .draw()
+            .map_err(err)?;
+        notes(&bottom, &lines)?;
+        root.present().map_err(err)?;
+    }
+    Ok(svg)
+}
+
+fn short_source(c: &Curve) -> &'static str {
+    match c {
+        Curve::Rocky { .. } => "Zeng et al. 2016",
+        _ => "Seager et al. 2007",
+    }
+}
+
+fn model_svg(
+    c: &ModelCurve,
+    title: &str,
+    x_desc: &str,
+    y_desc: &str,
+    ld: Option<LimbDarkening>,
+) -> Result<String, String> {
+    let b = &c.band;
+    let x0 = b.x.first().copied().unwrap_or(0.0);
+    let x1 = b.x.last().copied().unwrap_or(1.0);
+    let lo = b.low.iter().copied().fold(f64::INFINITY, f64::min);
+    let hi = b.high.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+    let pad = ((hi - lo) * 0.12).max(1e-6);
+    let mut lines: Vec<String> = Vec::new();
+    lines.push(format!("inputs: {}", c.inputs.join("; ")));
+    if let Some(l) = ld {
+        lines.push(format!(
+            "limb darkening (quadratic, Mandel & Agol 2002): u1 = {}, u2 = {}",
+            l.u1, l.u2
+        ));
+    }
+    lines.extend(c.assumptions.iter().map(|a| format!("assumed: {a}")));
+    let note_rows: usize = lines.iter().map(|l| wrap(l, 150).len()).sum();
+    let note_h = 10 + 15 * note_rows as u32;
+    let mut svg = String::new();
+    {
+        let root = SVGBackend::with_string(&mut svg, (1000, 600 + note_h)).into_drawing_area();
+        root.fill(&WHITE).map_err(err)?;
+        let (top, bottom) = root.split_vertically(600);
+        let mut chart = ChartBuilder::on(&top)
+            .caption(title, (FONT, 24))
+            .margin(18)
+            .x_label_area_size(55)
+            .y_label_area_size(85)
+            .build_cartesian_2d(x0..x1, (lo - pad)..(hi + pad))
+            .map_err(err)?;
+        chart
+            .configure_mesh()
+            .x_desc(x_desc)
+            .y_desc(y_desc)
+            .axis_desc_style((FONT, 18))
+            .label_style((FONT, 14))
+            .light_line_style(RGBColor(235, 235, 235))
+            .bold_line_style(RGBColor(215, 215, 215))
+            .draw()
+            .map_err(err)?;
+        let blue = RGBColor(40, 110, 190);
+        let mut poly: Vec<(f64, f64)> = b.x.iter().copied().zip(b.high.iter().copied()).collect();
+        poly.extend(b.x.iter().copied().zip(b.low.iter().copied()).rev());
+        chart
+            .draw_series(std::iter::once(Polygon::new(poly, blue.mix(0.22).filled())))
+            .map_err(err)?
+            .label("1σ band (16th–84th percentile of draws)")
+            .legend(move |(x, y)| {
+                Rectangle::new([(x, y - 5), (x + 22, y + 5)], blue.mix(0.22).filled())
+            });
+        chart
+            .draw_series(LineSeries::new(
+                b.x.iter().copied().zip(b.median.iter().copied()),
+                blue.stroke_width(2),
+            ))
+            .map_err(err)?
+            .label(format!("model of {} (median of draws)", c.label))
+            .legend(move |(x, y)| {
+                PathElement::new(vec![(x, y), (x + 22, y)], blue.stroke_width(2))
+            });
+        chart
+            .configure_series_labels()
+            .position(SeriesLabelPosition::LowerRight)
+            .background_style(WHITE.mix(0.9))
+            .border_style(RGBColor(180, 180, 180))
+            .label_font((FONT, 13))
+            .draw()
+            .map_err(err)?;
+        notes(&bottom, &lines)?;
+        root.present().map_err(err)?;
+    }
+    Ok(svg)
+}

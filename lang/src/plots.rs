@@ -1,0 +1,402 @@
+//! The data behind the diagrams: planets on the mass–radius plane, a model radial-velocity
+//! curve and a model transit light curve, each with its uncertainty band. Pure: front ends
+//! draw what these functions return.
+//!
+//! Bands come from Monte Carlo draws of the model's inputs as reported (value and the
+//! uncertainty on each side, limits sampled uniformly within their range), drawn
+//! independently of each other, so correlations between the inputs are ignored; the curve
+//! is the pointwise median of the draws and the band spans their 16th to 84th percentiles.
+
+use crate::constants::{DAY, M_EARTH, R_EARTH};
+use crate::derive::{value, Origin, QuantityResult};
+use crate::lightcurve::{self, LimbDarkening};
+use crate::model::Measurement;
+use crate::orbit::Orbit;
+use crate::quantities::{self, Qty};
+use crate::Analysis;
+
+/// One planet on the mass–radius diagram, in Earth units.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PlanetPoint {
+    /// `System body`, e.g. `Veyra b`.
+    pub label: String,
+    pub mass: f64,
+    pub mass_below: f64,
+    pub mass_above: f64,
+    pub radius: f64,
+    pub radius_below: f64,
+    pub radius_above: f64,
+    /// Where it sits in words ([`crate::composition::describe_position`]).
+    pub position: String,
+}
+
+/// Every planet of the analyses that has a mass and a radius; the others are listed with
+/// the reason they are left out.
+pub fn mass_radius_points(analyses: &[Analysis]) -> (Vec<PlanetPoint>, Vec<String>) {
+    let mut points = Vec::new();
+    let mut left_out = Vec::new();
+    for a in analyses {
+        for (sys, res) in a.model.systems.iter().zip(&a.results) {
+            for (b, r) in sys.bodies.iter().zip(&res.bodies) {
+                if b.kind != crate::ast::BodyKind::Planet {
+                    continue;
+                }
+                let label = format!("{} {}", sys.name, b.id);
+                let (Some(m), Some(rad)) = (r.get(Qty::Mass), r.get(Qty::Radius)) else {
+                    let missing = if r.get(Qty::Radius).is_none() {
+                        "no radius"
+                    } else {
+                        "no true mass (a minimum mass is not plotted)"
+                    };
+                    left_out.push(format!("{label}: {missing}"));
+                    continue;
+                };
+                if m.form.is_limit() || rad.form.is_limit() {
+                    left_out.push(format!("{label}: a limit, not a value"));
+                    continue;
+                }
+                points.push(PlanetPoint {
+                    label,
+                    mass: m.value / M_EARTH,
+                    mass_below: m.below / M_EARTH,
+                    mass_above: m.above / M_EARTH,
+                    radius: rad.value / R_EARTH,
+                    radius_below: rad.below / R_EARTH,
+                    radius_above: rad.above / R_EARTH,
+                    position: crate::composition::describe_position(m.value, rad.value),
+                });
+            }
+        }
+    }
+    (points, left_out)
+}
+
+/// A model curve with its band: `x`, median, 16th and 84th percentiles.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Band {
+    pub x: Vec<f64>,
+    pub median: Vec<f64>,
+    pub low: Vec<f64>,
+    pub high: Vec<f64>,
+}
+
+/// A model curve and what it assumed.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ModelCurve {
+    /// `System body`.
+    pub label: String,
+    pub band: Band,
+    /// The inputs used, as `name = value` lines for the plot.
+    pub inputs: Vec<String>,
+    pub assumptions: Vec<String>,
+}
+
+const DRAWS_RV: usize = 1000;
+const DRAWS_TRANSIT: usize = 200;
+
+struct Inputs<'a> {
+    a: &'a Analysis,
+    sys: usize,
+    body: usize,
+    label: String,
+    assumptions: Vec<String>,
+    shown: Vec<String>,
+}
+
+impl<'a> Inputs<'a> {
+    fn new(a: &'a Analysis, sys: usize, body: usize) -> Result<Inputs<'a>, String> {
+        let s = a.model.systems.get(sys).ok_or("no such system")?;
+        let b = s.bodies.get(body).ok_or("no such body")?;
+        if b.kind != crate::ast::BodyKind::Planet {
+            return Err(format!("'{}' is a star; this model is a planet's", b.id));
+        }
+        Ok(Inputs {
+            a,
+            sys,
+            body,
+            label: format!("{} {}", s.name, b.id),
+            assumptions: Vec::new(),
+            shown: Vec::new(),
+        })
+    }
+
+    fn result(&self, q: Qty) -> Option<&'a QuantityResult> {
+        self.a.results.get(self.sys)?.bodies.get(self.body)?.get(q)
+    }
+
+    fn nominal(&self, q: Qty) -> f64 {
+        self.result(q).map_or(f64::NAN, |r| r.value)
+    }
+
+    /// `n` draws of a quantity (SI), or an error naming what is missing.
+    fn draws(&mut self, q: Qty, n: usize, seed: u64) -> Result<Vec<f64>, String> {
+        let def = quantities::def(q);
+        let r = self
+            .result(q)
+            .filter(|r| r.value.is_finite())
+            .ok_or_else(|| format!("'{}' is neither declared nor derivable", def.name))?;
+        for a in &r.assumptions {
+            if !self.assumptions.contains(a) {
+                self.assumptions.push(a.clone());
+            }
+        }
+        let shown = crate::report::value_text(r);
+        let sep = if shown.starts_with(['<', '>']) {
+            " "
+        } else {
+            " = "
+        };
+        let origin = if r.origin == Origin::Default {
+            " (default)"
+        } else {
+            ""
+        };
+        self.shown.push(format!("{}{sep}{shown}{origin}", def.name));
+        let m = Measurement {
+            value: r.value,
+            below: r.below,
+            above: r.above,
+            form: r.form,
+        };
+        let (lo, hi) = def.limits();
+        let exact = r.below == 0.0 && r.above == 0.0 && !r.form.is_limit();
+        if exact {
+            return Ok(vec![r.value; n]);
+        }
+        Ok(value::draw(&m, lo, hi, n, seed))
+    }
+}
+
+fn percentiles(mut v: Vec<f64>) -> Option<(f64, f64, f64)> {
+    v.retain(|x| x.is_finite());
+    if v.is_empty() {
+        return None;
+    }
+    v.sort_by(f64::total_cmp);
+    let q = |p: f64| {
+        let i = ((v.len() - 1) as f64 * p).round() as usize;
+        v.get(i).copied().unwrap_or(f64::NAN)
+    };
+    Some((q(0.5), q(0.158_655), q(0.841_345)))
+}
+
+fn band(x: Vec<f64>, per_point: impl Fn(f64) -> Vec<f64>) -> Result<Band, String> {
+    let mut b = Band {
+        x: Vec::with_capacity(x.len()),
+        median: Vec::new(),
+        low: Vec::new(),
+        high: Vec::new(),
+    };
+    for xi in x {
+        if let Some((m, lo, hi)) = percentiles(per_point(xi)) {
+            b.x.push(xi);
+            b.median.push(m);
+            b.low.push(lo);
+            b.high.push(hi);
+        }
+    }
+    if b.x.is_empty() {
+        return Err("the model has no finite value for these inputs".to_string());
+    }
+    Ok(b)
+}
+
+const BAND_WORDS: &str = "band: 16th–84th percentiles of Monte Carlo draws of the inputs, drawn independently (correlations between them ignored); curve: their median";
+
+/// The star's radial velocity (m/s) over one orbit, against time from mid-transit
+/// (inferior conjunction) in days, from −P/2 to +P/2.
+pub fn rv_curve(a: &Analysis, sys: usize, body: usize) -> Result<ModelCurve, String> {
+    let mut inp = Inputs::new(a, sys, body)?;
+    let n = DRAWS_RV;
+    let k = inp.draws(Qty::RvAmplitude, n, 11)?;
+    // The period only scales the time axis: its nominal value is used.
+    let period = inp
+        .draws(Qty::Period, 1, 12)
+        .map(|_| inp.nominal(Qty::Period))?
+        / DAY;
+    let e = inp.draws(Qty::Eccentricity, n, 13)?;
+    let w = inp.draws(Qty::ArgPeriastron, n, 14)?;
+    let orbits: Vec<(Orbit, f64)> = (0..n)
+        .filter_map(|i| {
+            Some((
+                Orbit {
+                    period,
+                    eccentricity: *e.get(i)?,
+                    omega: *w.get(i)?,
+                    t_conjunction: 0.0,
+                },
+                *k.get(i)?,
+            ))
+        })
+        .collect();
+    let xs: Vec<f64> = (0..=240)
+        .map(|i| period * (f64::from(i) / 240.0 - 0.5))
+        .collect();
+    let band = band(xs, |t| {
+        orbits
+            .iter()
+            .filter_map(|(o, k)| o.radial_velocity(t, *k))
+            .collect()
+    })?;
+    let mut assumptions = inp.assumptions;
+    assumptions.push(
+        "Keplerian orbit, Kepler's equation solved for each time; systemic velocity 0".to_string(),
+    );
+    assumptions.push(BAND_WORDS.to_string());
+    Ok(ModelCurve {
+        label: inp.label,
+        band,
+        inputs: inp.shown,
+        assumptions,
+    })
+}
+
+/// The star's relative flux around one transit against time from mid-transit in hours,
+/// with quadratic limb darkening (given, or [`LimbDarkening::ASSUMED`]).
+pub fn transit_curve(
+    a: &Analysis,
+    sys: usize,
+    body: usize,
+    limb: Option<LimbDarkening>,
+) -> Result<(ModelCurve, LimbDarkening), String> {
+    let ld = limb.unwrap_or(LimbDarkening::ASSUMED);
+    if !ld.is_physical() {
+        return Err(format!(
+            "limb darkening u1 = {}, u2 = {} is unphysical (it needs u1 >= 0, u1 + u2 <= 1, u1 + 2 u2 >= 0)",
+            ld.u1, ld.u2
+        ));
+    }
+    let mut inp = Inputs::new(a, sys, body)?;
+    let n = DRAWS_TRANSIT;
+    let k = inp.draws(Qty::RadiusRatio, n, 21)?;
+    let ars = inp.draws(Qty::ScaledAxis, n, 22)?;
+    let b = inp.draws(Qty::Impact, n, 23)?;
+    let e = inp.draws(Qty::Eccentricity, n, 24)?;
+    let w = inp.draws(Qty::ArgPeriastron, n, 25)?;
+    let period = inp
+        .draws(Qty::Period, 1, 26)
+        .map(|_| inp.nominal(Qty::Period))?
+        / DAY;
+    struct Draw {
+        orbit: Orbit,
+        k: f64,
+        ars: f64,
+        inc: f64,
+    }
+    let draws: Vec<Draw> = (0..n)
+        .filter_map(|i| {
+            let (e, w, ars, b) = (*e.get(i)?, *w.get(i)?, *ars.get(i)?, *b.get(i)?);
+            // Winn 2010 eq. 7.
+            let cos_i = b * (1.0 + e * w.sin()) / (ars * (1.0 - e * e));
+            (cos_i.abs() <= 1.0).then(|| Draw {
+                orbit: Orbit {
+                    period,
+                    eccentricity: e,
+                    omega: w,
+                    t_conjunction: 0.0,
+                },
+                k: k.get(i).copied().unwrap_or(f64::NAN),
+                ars,
+                inc: cos_i.acos(),
+            })
+        })
+        .collect();
+    // Window: 0.75 total durations either side, from the reported duration if any.
+    let half = inp
+        .result(Qty::TransitDuration)
+        .map(|d| 0.75 * d.value / DAY)
+        .filter(|h| h.is_finite() && *h > 0.0)
+        .unwrap_or(0.05 * period);
+    let xs: Vec<f64> = (0..=200)
+        .map(|i| half * (2.0 * f64::from(i) / 200.0 - 1.0))
+        .collect();
+    let band = band(xs, |t| {
+        draws
+            .iter()
+            .filter_map(|d| {
+                let (z, front) = d.orbit.sky_separation(t, d.ars, d.inc)?;
+                Some(if front {
+                    lightcurve::relative_flux(d.k, z, ld)
+                } else {
+                    1.0
+                })
+            })
+            .collect()
+    })?;
+    let band = Band {
+        x: band.x.iter().map(|x| x * 24.0).collect(),
+        ..band
+    };
+    let mut assumptions = inp.assumptions;
+    assumptions.push(match limb {
+        Some(l) => format!(
+            "quadratic limb darkening u1 = {}, u2 = {} (given)",
+            l.u1, l.u2
+        ),
+        None => LimbDarkening::ASSUMED_BASIS.to_string(),
+    });
+    assumptions.push(
+        "dark planet; no ellipsoidal, reflected or thermal light; no exposure-time smearing"
+            .to_string(),
+    );
+    assumptions.push(BAND_WORDS.to_string());
+    Ok((
+        ModelCurve {
+            label: inp.label,
+            band,
+            inputs: inp.shown,
+            assumptions,
+        },
+        ld,
+    ))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::source::{MemoryDb, SourceDb};
+
+    fn analysis(src: &str) -> Analysis {
+        let mut db = MemoryDb::new();
+        let f = db.add("t.syz", src);
+        crate::analyze(f, db.text(f), &crate::Options::default())
+    }
+
+    const SRC: &str = "system \"Ostrel\" {\n  star s { mass = 1 Msun; radius = 1 Rsun; teff = 5800 K }\n  planet b orbits s {\n    period = 4 ± 0.001 d\n    rv_amplitude = 60 ± 3 m/s\n    radius_ratio = 0.1 ± 0.002\n    impact = 0.3 ± 0.05\n  }\n}\n";
+
+    #[test]
+    fn rv_curve_spans_one_orbit_with_amplitude_k() {
+        let a = analysis(SRC);
+        let c = rv_curve(&a, 0, 1).unwrap();
+        let first = c.band.x.first().copied().unwrap();
+        let last = c.band.x.last().copied().unwrap();
+        assert!((last - first - 4.0).abs() < 1e-9);
+        let max = c.band.median.iter().copied().fold(f64::MIN, f64::max);
+        assert!((max - 60.0).abs() < 1.0, "{max}");
+        assert!(c.band.low.iter().zip(&c.band.high).all(|(l, h)| l <= h));
+        // Circular: the star recedes before mid-transit (v > 0 at t = -P/4).
+        let quarter = c
+            .band
+            .x
+            .iter()
+            .position(|x| (*x + 1.0).abs() < 1e-9)
+            .unwrap();
+        assert!(c.band.median[quarter] > 55.0);
+    }
+
+    #[test]
+    fn transit_curve_depth_and_limb_darkening_are_shown() {
+        let a = analysis(SRC);
+        let (c, ld) = transit_curve(&a, 0, 1, None).unwrap();
+        assert_eq!(ld, LimbDarkening::ASSUMED);
+        let min = c.band.median.iter().copied().fold(f64::MAX, f64::min);
+        // Deeper than k^2 = 0.01 with limb darkening near the centre, and not by much.
+        assert!(1.0 - min > 0.0100 && 1.0 - min < 0.0135, "{min}");
+        assert!(c.assumptions.iter().any(|s| s.contains("u1 = 0.40")));
+        let (u, _) = transit_curve(&a, 0, 1, Some(LimbDarkening::NONE)).unwrap();
+        let umin = u.band.median.iter().copied().fold(f64::MAX, f64::min);
+        assert!((1.0 - umin - 0.01).abs() < 0.0005, "{umin}");
+        assert!(transit_curve(&a, 0, 1, Some(LimbDarkening { u1: 2.0, u2: 0.0 })).is_err());
+        assert!(transit_curve(&a, 0, 0, None).is_err());
+    }
+}

@@ -1,0 +1,230 @@
+//! End-to-end tests of `syz plot` and `syz ephemeris` on the demo examples.
+
+#![allow(clippy::unwrap_used, clippy::indexing_slicing)]
+
+use syzygy_e2e::{run, scratch, stderr, stdout};
+
+fn texts(svg: &str) -> Vec<String> {
+    let doc = roxmltree::Document::parse(svg).expect("the SVG parses as XML");
+    assert_eq!(doc.root_element().tag_name().name(), "svg");
+    doc.descendants()
+        .filter(|n| n.has_tag_name("text"))
+        .map(|n| n.text().unwrap_or("").trim().to_string())
+        .collect()
+}
+
+#[test]
+fn mass_radius_diagram_is_valid_svg_with_labels_and_legend() {
+    let dir = scratch("mass-radius");
+    let out = dir.join("mr.svg");
+    let o = run(&[
+        "plot",
+        "mass-radius",
+        "examples/",
+        "-o",
+        out.to_str().unwrap(),
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    // Only the file -o names is written.
+    let written: Vec<_> = std::fs::read_dir(&dir).unwrap().collect();
+    assert_eq!(written.len(), 1);
+    let svg = std::fs::read_to_string(&out).unwrap();
+    let t = texts(&svg);
+    let has = |s: &str| t.iter().any(|x| x.contains(s));
+    for want in [
+        "planet mass [Earth masses, M⊕]",
+        "planet radius [Earth radii, R⊕]",
+        "100% iron (Fe, ε phase) — Seager et al. 2007",
+        "Earth-like rock (32.5% iron core) — Zeng et al. 2016",
+        "100% water ice — Seager et al. 2007",
+        "Solar System planets (NASA GSFC fact sheet, from memory)",
+        "planets in the files (1σ error bars)",
+        "water ice",
+        "Jupiter",
+        "Earth",
+        "Corvane b",
+        "Veyra b",
+    ] {
+        assert!(has(want), "missing text '{want}' in {t:?}");
+    }
+    // Planets without a radius are named on stderr, not drawn.
+    assert!(stderr(&o).contains("Veyra c: no radius"), "{}", stderr(&o));
+}
+
+#[test]
+fn rv_and_transit_plots_show_their_inputs_and_limb_darkening() {
+    let dir = scratch("models");
+    let rv = dir.join("rv.svg");
+    let o = run(&[
+        "plot",
+        "rv",
+        "examples/veyra.syz",
+        "b",
+        "-o",
+        rv.to_str().unwrap(),
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let t = texts(&std::fs::read_to_string(&rv).unwrap());
+    assert!(
+        t.iter()
+            .any(|x| x.contains("stellar radial velocity [m/s]")),
+        "{t:?}"
+    );
+    assert!(
+        t.iter()
+            .any(|x| x.contains("rv_amplitude = 56.0 ± 2.0 m/s")),
+        "{t:?}"
+    );
+
+    let tr = dir.join("tr.svg");
+    let o = run(&[
+        "plot",
+        "transit",
+        "examples/veyra.syz",
+        "b",
+        "-o",
+        tr.to_str().unwrap(),
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let t = texts(&std::fs::read_to_string(&tr).unwrap());
+    assert!(t.iter().any(|x| x.contains("relative flux")));
+    assert!(
+        t.iter().any(|x| x.contains("u1 = 0.40, u2 = 0.25 assumed")),
+        "{t:?}"
+    );
+
+    let o = run(&[
+        "plot",
+        "transit",
+        "examples/veyra.syz",
+        "b",
+        "-o",
+        tr.to_str().unwrap(),
+        "--limb-darkening",
+        "0.5,0.1",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let t = texts(&std::fs::read_to_string(&tr).unwrap());
+    assert!(
+        t.iter().any(|x| x.contains("u1 = 0.5, u2 = 0.1 (given)")),
+        "{t:?}"
+    );
+}
+
+#[test]
+fn plot_errors_are_clear() {
+    let dir = scratch("plot-errors");
+    let o = run(&[
+        "plot",
+        "rv",
+        "examples/veyra.syz",
+        "zz",
+        "-o",
+        dir.join("a.svg").to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(1));
+    assert!(stderr(&o).contains("no body 'zz'"));
+    let o = run(&[
+        "plot",
+        "rv",
+        "examples/veyra.syz",
+        "b",
+        "-o",
+        dir.join("a.png").to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stderr(&o).contains("only SVG"));
+    let o = run(&[
+        "plot",
+        "transit",
+        "examples/veyra.syz",
+        "b",
+        "-o",
+        dir.join("a.svg").to_str().unwrap(),
+        "--limb-darkening",
+        "0.5",
+    ]);
+    assert_eq!(o.status.code(), Some(1));
+    assert!(stderr(&o).contains("two numbers"), "{}", stderr(&o));
+    // Veyra c has no radius ratio: no transit model, and nothing written.
+    let o = run(&[
+        "plot",
+        "transit",
+        "examples/veyra.syz",
+        "c",
+        "-o",
+        dir.join("c.svg").to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(1));
+    assert!(!dir.join("c.svg").exists());
+}
+
+#[test]
+fn ephemeris_lists_transits_with_growing_uncertainty() {
+    let o = run(&[
+        "ephemeris",
+        "examples/veyra.syz",
+        "b",
+        "--from",
+        "2027-01-01",
+        "--count",
+        "3",
+        "--format",
+        "json",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    let ts = v["transits"].as_array().unwrap();
+    assert_eq!(ts.len(), 3);
+    // Veyra b: T0 = 2460123.4567 ± 0.0004 BJD_TDB, P = 3.52474 ± 0.00002 d (the example).
+    for t in ts {
+        let n = t["n"].as_f64().unwrap();
+        let jd = t["jd"].as_f64().unwrap();
+        assert!((jd - (2_460_123.456_7 + n * 3.52474)).abs() < 1e-6);
+        let sigma = (0.0004f64.powi(2) + (n * 0.00002).powi(2)).sqrt();
+        assert!((t["sigma_days"].as_f64().unwrap() - sigma).abs() < 1e-12);
+        // UTC = TDB − 69.184 s − (TDB − TT), within 2 ms.
+        let dt = (jd - t["jd_utc"].as_f64().unwrap()) * 86_400.0;
+        assert!((dt - 69.184).abs() < 0.002, "{dt}");
+        assert!(t["utc"].as_str().unwrap().starts_with("2027-01-"));
+    }
+    let first = ts[0]["jd_utc"].as_f64().unwrap();
+    assert!((2_461_406.5..2_461_406.5 + 3.53).contains(&first));
+    let assumed = v["assumptions"].as_array().unwrap();
+    assert!(assumed
+        .iter()
+        .any(|a| a.as_str().unwrap().contains("±8.3 min")));
+
+    let o = run(&["ephemeris", "examples/veyra.syz", "b", "--count", "2"]);
+    assert!(o.status.success());
+    assert!(stdout(&o).contains("mid-transit (UTC)"), "{}", stdout(&o));
+
+    let o = run(&["ephemeris", "examples/veyra.syz", "c"]);
+    assert_eq!(o.status.code(), Some(1));
+    assert!(stderr(&o).contains("declares no transit_epoch"));
+    let o = run(&["ephemeris", "examples/veyra.syz", "b", "--from", "soon"]);
+    assert_eq!(o.status.code(), Some(2));
+}
+
+#[test]
+fn spectral_type_estimates_show_in_eval_json() {
+    let o = run(&["eval", "--format", "json", "examples/corvane.syz"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    let star = &v["systems"][0]["bodies"][0]["quantities"];
+    for q in ["mass", "radius", "teff"] {
+        assert_eq!(star[q]["origin"], "estimated", "{q}");
+        let words = star[q]["assumptions"][0].as_str().unwrap();
+        assert!(words.contains("Pecaut & Mamajek 2013"), "{words}");
+    }
+    // M3.5V: halfway between the table's M3V (3430 K) and M4V (3210 K) rows.
+    let teff = star["teff"]["value"].as_f64().unwrap();
+    assert!((teff - 3320.0).abs() < 40.0, "{teff}");
+    // The estimate's assumption follows into what is derived from it.
+    let planet = &v["systems"][0]["bodies"][1]["quantities"]["radius"];
+    assert!(planet["assumptions"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .any(|a| a.as_str().unwrap().contains("estimated from spectral type")));
+}
