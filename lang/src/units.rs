@@ -593,7 +593,7 @@ pub fn suggest(symbol: &str) -> Option<&'static str> {
             } else {
                 crate::text::edit_distance(&lower, &cand.to_lowercase())
             };
-            if d <= 2 && best.map_or(true, |(bd, _)| d < bd) {
+            if d <= 2 && best.is_none_or(|(bd, _)| d < bd) {
                 best = Some((d, def.symbol));
             }
         }
