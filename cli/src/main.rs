@@ -3,6 +3,7 @@
 
 mod ephemeris_cmd;
 mod files;
+mod fmt_cmd;
 mod plot_cmd;
 mod render;
 
@@ -146,6 +147,26 @@ enum Command {
         #[command(flatten)]
         engine: EngineArgs,
     },
+    /// Lay files out canonically (aligned `=`, units and citations; comments kept).
+    #[command(
+        after_help = "Prints the formatted text unless --write or --check is given.\nExample:\n  syz fmt --check examples/\n  syz fmt --write examples/veyra.syz"
+    )]
+    Fmt {
+        #[arg(required = true)]
+        paths: Vec<PathBuf>,
+        /// Rewrite the files in place.
+        #[arg(long, conflicts_with = "check")]
+        write: bool,
+        /// List the files that would change and exit with status 1 if there are any.
+        #[arg(long)]
+        check: bool,
+    },
+    /// Run the language server on stdin and stdout (for editors; see docs/editors.md).
+    Lsp {
+        /// Accepted for editors that pass it; stdio is the only transport.
+        #[arg(long)]
+        stdio: bool,
+    },
     /// Draw a diagram as SVG: mass-radius, rv or transit.
     Plot {
         #[command(subcommand)]
@@ -188,6 +209,19 @@ fn main() -> ExitCode {
             system,
             engine,
         } => explain(&file, &target, system.as_deref(), &engine.options()),
+        Command::Fmt {
+            paths,
+            write,
+            check,
+        } => fmt_cmd::run(
+            &paths,
+            match (write, check) {
+                (true, _) => fmt_cmd::Mode::Write,
+                (_, true) => fmt_cmd::Mode::Check,
+                _ => fmt_cmd::Mode::Print,
+            },
+        ),
+        Command::Lsp { stdio: _ } => syzygy_lsp::run_stdio(),
         Command::Plot { plot, engine } => plot_cmd::run(&plot, &engine.options()),
         Command::Ephemeris { args, engine } => ephemeris_cmd::run(&args, &engine.options()),
     };

@@ -1,11 +1,13 @@
 //! Syzygy's language core.
 //!
 //! Pipeline: [`lexer`] → [`parser`] → [`model`] (name resolution, units, measurements) →
-//! derivations → physics checks → [`diagnostic`]s. The core does no I/O: front ends give it
-//! text through [`source::SourceDb`].
+//! derivations → physics checks → silencing comments ([`allow`]) → [`diagnostic`]s. The core
+//! does no I/O: front ends give it text through [`source::SourceDb`]. Editor queries over an
+//! [`Analysis`] live in [`ide`]; the canonical layout (`syz fmt`) in [`layout`].
 
 #![cfg_attr(test, allow(clippy::unwrap_used, clippy::indexing_slicing))]
 
+pub mod allow;
 pub mod ast;
 pub mod checks;
 pub mod composition;
@@ -16,6 +18,8 @@ pub mod diagnostic;
 pub mod ephemeris;
 pub mod format;
 pub mod formulas;
+pub mod ide;
+pub mod layout;
 pub mod lexer;
 pub mod lightcurve;
 pub mod model;
@@ -75,6 +79,7 @@ pub fn analyze(file: source::FileId, src: &str, options: &Options) -> Analysis {
         }
         results.push(d.summarize());
     }
+    let mut diagnostics = allow::apply(src, &parsed.file.comments, diagnostics);
     diagnostic::sort_diagnostics(&mut diagnostics);
     Analysis {
         file,
