@@ -3,6 +3,7 @@
 
 use std::collections::BTreeSet;
 use std::path::{Path, PathBuf};
+use syzygy::diagnostic::{apply_overrides, SeverityOverride};
 use syzygy::source::{MemoryDb, SourceDb};
 use syzygy::{analyze, Analysis, Options};
 
@@ -99,9 +100,17 @@ fn io_words(e: &std::io::Error) -> String {
 }
 
 /// Analyse every loaded file.
-pub fn analyze_all(db: &MemoryDb, options: &Options) -> Vec<Analysis> {
+pub fn analyze_all(
+    db: &MemoryDb,
+    options: &Options,
+    overrides: &[SeverityOverride],
+) -> Vec<Analysis> {
     db.files()
-        .map(|f| analyze(f, db.text(f), options))
+        .map(|f| {
+            let mut a = analyze(f, db.text(f), options);
+            apply_overrides(&mut a.diagnostics, overrides);
+            a
+        })
         .collect()
 }
 

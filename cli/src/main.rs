@@ -8,7 +8,7 @@ use clap::{Parser, Subcommand, ValueEnum};
 use std::io::Write;
 use std::path::PathBuf;
 use std::process::ExitCode;
-use syzygy::diagnostic::Severity;
+use syzygy::diagnostic::{Rule, Severity, SeverityOverride};
 use syzygy::{Options, Propagation};
 
 #[derive(Parser)]
@@ -54,6 +54,22 @@ struct EngineArgs {
     /// Declared and derived values further apart than this many combined sigma are reported.
     #[arg(long, default_value_t = 3.0)]
     sigma: f64,
+    /// Report this rule as an error (repeatable; see docs/rules.md for the ids).
+    #[arg(long, value_name = "RULE", value_parser = parse_rule)]
+    deny: Vec<Rule>,
+    /// Report this rule as a warning (repeatable).
+    #[arg(long, value_name = "RULE", value_parser = parse_rule)]
+    warn: Vec<Rule>,
+    /// Do not report this rule (repeatable).
+    #[arg(long, value_name = "RULE", value_parser = parse_rule)]
+    allow: Vec<Rule>,
+}
+
+fn parse_rule(s: &str) -> Result<Rule, String> {
+    Rule::from_id(s).ok_or_else(|| {
+        let ids: Vec<&str> = Rule::ALL.iter().map(|r| r.id()).collect();
+        format!("unknown rule '{s}'; the rules are: {}", ids.join(", "))
+    })
 }
 
 impl EngineArgs {
@@ -67,6 +83,14 @@ impl EngineArgs {
             seed: self.seed,
             consistency_sigma: self.sigma,
         }
+    }
+
+    fn overrides(&self) -> Vec<SeverityOverride> {
+        let mut o = Vec::new();
+        o.extend(self.warn.iter().map(|r| (*r, Some(Severity::Warning))));
+        o.extend(self.deny.iter().map(|r| (*r, Some(Severity::Error))));
+        o.extend(self.allow.iter().map(|r| (*r, None)));
+        o
     }
 }
 
@@ -121,12 +145,18 @@ fn main() -> ExitCode {
             format,
             deny_warnings,
             engine,
-        } => check(&paths, format, deny_warnings, &engine.options()),
+        } => check(
+            &paths,
+            format,
+            deny_warnings,
+            &engine.options(),
+            &engine.overrides(),
+        ),
         Command::Eval {
             paths,
             format,
             engine,
-        } => eval(&paths, format, &engine.options()),
+        } => eval(&paths, format, &engine.options(), &engine.overrides()),
         Command::Explain {
             file,
             target,
@@ -137,9 +167,15 @@ fn main() -> ExitCode {
     ExitCode::from(code)
 }
 
-fn check(paths: &[PathBuf], format: Format, deny_warnings: bool, options: &Options) -> u8 {
+fn check(
+    paths: &[PathBuf],
+    format: Format,
+    deny_warnings: bool,
+    options: &Options,
+    overrides: &[SeverityOverride],
+) -> u8 {
     let loaded = files::load(paths);
-    let analyses = files::analyze_all(&loaded.db, options);
+    let analyses = files::analyze_all(&loaded.db, options, overrides);
     let mut counts = [0usize; 3];
     for a in &analyses {
         for d in &a.diagnostics {
@@ -207,9 +243,14 @@ fn plural(n: usize) -> &'static str {
     }
 }
 
-fn eval(paths: &[PathBuf], format: Format, options: &Options) -> u8 {
+fn eval(
+    paths: &[PathBuf],
+    format: Format,
+    options: &Options,
+    overrides: &[SeverityOverride],
+) -> u8 {
     let loaded = files::load(paths);
-    let analyses = files::analyze_all(&loaded.db, options);
+    let analyses = files::analyze_all(&loaded.db, options, overrides);
     let stdout = std::io::stdout();
     let mut out = stdout.lock();
     let errors = analyses.iter().any(|a| a.has_errors());
@@ -278,7 +319,7 @@ fn explain(file: &std::path::Path, target: &str, system: Option<&str>, options: 
         files::report_io_errors(&loaded.errors);
         return 2;
     }
-    let analyses = files::analyze_all(&loaded.db, options);
+    let analyses = files::analyze_all(&loaded.db, options, &[]);
     let Some(a) = analyses.first() else { return 2 };
     let Some((si, bi)) = syzygy::report::find_body(a, system, body) else {
         eprintln!("syz: no body '{body}' in {}", file.display());

@@ -173,6 +173,30 @@ impl Diagnostic {
     }
 }
 
+/// A per-rule severity chosen by the user: `None` silences the rule.
+pub type SeverityOverride = (Rule, Option<Severity>);
+
+/// Apply severity overrides in order (a later one for the same rule wins). Syntax and I/O
+/// problems keep their severity: the file could not be read as written.
+pub fn apply_overrides(diags: &mut Vec<Diagnostic>, overrides: &[SeverityOverride]) {
+    if overrides.is_empty() {
+        return;
+    }
+    diags.retain_mut(|d| {
+        if matches!(d.rule, Rule::Syntax | Rule::Io) {
+            return true;
+        }
+        match overrides.iter().rev().find(|(r, _)| *r == d.rule) {
+            Some((_, Some(sev))) => {
+                d.severity = *sev;
+                true
+            }
+            Some((_, None)) => false,
+            None => true,
+        }
+    });
+}
+
 /// Sort diagnostics into a stable, reading order: by file, position, then rule.
 pub fn sort_diagnostics(diags: &mut [Diagnostic]) {
     diags.sort_by(|a, b| {
@@ -189,6 +213,27 @@ pub fn sort_diagnostics(diags: &mut [Diagnostic]) {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn overrides_change_or_drop_severity_but_not_syntax() {
+        let span = Span::default();
+        let mut d = vec![
+            Diagnostic::new(Rule::Inconsistent, span, "a"),
+            Diagnostic::new(Rule::OutOfRange, span, "b"),
+            Diagnostic::new(Rule::Syntax, span, "c"),
+        ];
+        apply_overrides(
+            &mut d,
+            &[
+                (Rule::Inconsistent, Some(Severity::Error)),
+                (Rule::OutOfRange, None),
+                (Rule::Syntax, None),
+            ],
+        );
+        assert_eq!(d.len(), 2);
+        assert_eq!(d[0].severity, Severity::Error);
+        assert_eq!(d[1].rule, Rule::Syntax);
+    }
 
     #[test]
     fn rule_ids_are_unique_and_round_trip() {

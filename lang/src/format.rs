@@ -19,6 +19,19 @@ pub fn number(v: f64) -> String {
     trim_zeros(&format!("{v:.digits$}"))
 }
 
+/// A number to `n` significant figures (for messages).
+pub fn sig(v: f64, n: usize) -> String {
+    if !v.is_finite() || v == 0.0 {
+        return number(v);
+    }
+    let a = v.abs();
+    if !(1e-3..1e6).contains(&a) {
+        return trim_exponent(&format!("{v:.*e}", n.saturating_sub(1)));
+    }
+    let digits = (n as i32 - 1 - a.log10().floor() as i32).clamp(0, 12) as usize;
+    format!("{v:.digits$}")
+}
+
 fn trim_zeros(s: &str) -> String {
     if s.contains('.') {
         s.trim_end_matches('0').trim_end_matches('.').to_string()
@@ -83,6 +96,9 @@ mod tests {
         assert_eq!(number(1.0e30), "1e30");
         assert_eq!(number(12345.678), "12345.7");
         assert_eq!(number(0.0), "0");
+        assert_eq!(sig(49.5419, 3), "49.5");
+        assert_eq!(sig(0.0123456, 2), "0.012");
+        assert_eq!(sig(1.23e8, 3), "1.23e8");
     }
 
     #[test]

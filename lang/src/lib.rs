@@ -7,6 +7,7 @@
 #![cfg_attr(test, allow(clippy::unwrap_used, clippy::indexing_slicing))]
 
 pub mod ast;
+pub mod checks;
 pub mod composition;
 pub mod constants;
 pub mod derive;
@@ -54,11 +55,17 @@ pub fn analyze(file: source::FileId, src: &str, options: &Options) -> Analysis {
     let mut diagnostics = parsed.diagnostics;
     let model = model::lower(file, &parsed.file, &mut diagnostics);
     let mut results = Vec::with_capacity(model.systems.len());
-    let composition = HashMap::new();
-    let composition_text = HashMap::new();
-    for sys in &model.systems {
+    let mut composition = HashMap::new();
+    let mut composition_text = HashMap::new();
+    for (si, sys) in model.systems.iter().enumerate() {
         let d = derive::Derivation::run(sys, options);
         diagnostics.extend(d.diagnostics.iter().cloned());
+        for note in checks::run(&d, &mut diagnostics) {
+            if let Some(b) = sys.bodies.get(note.body) {
+                composition.insert((si, b.id.clone()), note.json);
+                composition_text.insert((si, b.id.clone()), note.text);
+            }
+        }
         results.push(d.summarize());
     }
     diagnostic::sort_diagnostics(&mut diagnostics);

@@ -526,13 +526,17 @@ fn lower_value(
             _ => "value",
         };
         let range = def.range_text();
+        let written = crate::format::number(sign * lit.value);
+        let written = if unit.text.is_empty() {
+            written
+        } else {
+            format!("{written} {}", unit.text)
+        };
         let mut d = Diagnostic::new(
             Rule::OutOfRange,
             expr.span,
             format!(
-                "{} of {what} {} lies outside the valid range of '{}': {range}",
-                crate::format::number(sign * lit.value),
-                unit_word(&unit),
+                "the {what} {written} lies outside the valid range of '{}': {range}",
                 def.name
             ),
         );
@@ -552,14 +556,6 @@ fn lower_value(
         }),
         written,
     ))
-}
-
-fn unit_word(u: &units::Unit) -> String {
-    if u.text.is_empty() {
-        String::new()
-    } else {
-        u.text.clone()
-    }
 }
 
 pub(crate) fn unknown_unit(span: Span, e: &units::UnknownUnit) -> Diagnostic {

@@ -14,7 +14,11 @@ fn every_demo_example_checks_clean() {
             n += 1;
             let o = run(&["check", p.to_str().unwrap()]);
             assert!(o.status.success(), "{}: {}", p.display(), stdout(&o));
-            assert!(stdout(&o).contains("0 errors, 0 warnings"), "{}", stdout(&o));
+            assert!(
+                stdout(&o).contains("0 errors, 0 warnings"),
+                "{}",
+                stdout(&o)
+            );
         }
     }
     assert!(n >= 1);
@@ -53,7 +57,16 @@ fn unit_error_is_reported_with_rule_and_exit_1() {
     assert_eq!(diags[0]["line"], 4);
     assert_eq!(diags[0]["column"], 14);
     assert_eq!(diags[1]["line"], 5);
-    for k in ["rule", "severity", "message", "file", "line", "column", "end_line", "end_column"] {
+    for k in [
+        "rule",
+        "severity",
+        "message",
+        "file",
+        "line",
+        "column",
+        "end_line",
+        "end_column",
+    ] {
         assert!(diags[0].get(k).is_some(), "missing {k}");
     }
     // syz never writes to what it reads.
@@ -70,14 +83,23 @@ fn eval_json_follows_the_contract_and_is_reproducible() {
     assert_eq!(v["version"], 1);
     let sys = &v["systems"][0];
     assert_eq!(sys["name"], "Veyra");
-    let planet = sys["bodies"].as_array().unwrap().iter().find(|b| b["id"] == "b").unwrap();
+    let planet = sys["bodies"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|b| b["id"] == "b")
+        .unwrap();
     assert_eq!(planet["kind"], "planet");
     assert_eq!(planet["orbits"], "veyra");
     let d = &planet["quantities"]["density"];
     assert_eq!(d["origin"], "derived");
     assert_eq!(d["rule"], "bulk-density");
     assert_eq!(d["si"]["unit"], "kg/m^3");
-    assert!(d["inputs"].as_array().unwrap().iter().any(|i| i == "b.mass"));
+    assert!(d["inputs"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .any(|i| i == "b.mass"));
     let si = d["si"]["value"].as_f64().unwrap();
     let shown = d["value"].as_f64().unwrap();
     assert!((si / 1000.0 - shown).abs() < 1e-9 * si, "g/cm^3 vs kg/m^3");
@@ -94,14 +116,29 @@ fn eval_text_shows_derived_values_and_assumptions() {
     let o = run(&["eval", "examples/veyra.syz"]);
     assert!(o.status.success());
     let s = stdout(&o);
-    for needle in ["semi_major_axis", "density", "teq", "insolation", "transit_duration", "derived by kepler", "assumed:", "limb darkening"] {
+    for needle in [
+        "semi_major_axis",
+        "density",
+        "teq",
+        "insolation",
+        "transit_duration",
+        "derived by kepler",
+        "assumed:",
+        "limb darkening",
+    ] {
         assert!(s.contains(needle), "missing {needle} in\n{s}");
     }
 }
 
 #[test]
 fn explain_prints_tree_and_budget() {
-    let o = run(&["explain", "examples/veyra.syz", "b.density", "--propagation", "linear"]);
+    let o = run(&[
+        "explain",
+        "examples/veyra.syz",
+        "b.density",
+        "--propagation",
+        "linear",
+    ]);
     assert!(o.status.success(), "{}", stderr(&o));
     let s = stdout(&o);
     assert!(s.contains("b.density"));

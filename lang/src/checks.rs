@@ -1,0 +1,456 @@
+//! The physics checker: what no real system allows, and what a planet can be made of.
+//!
+//! Runs on a finished [`Derivation`], reading full values (Monte Carlo samples where the
+//! engine drew them; in linear mode, samples drawn here from each value's first-order
+//! spread, seeded like everything else). Each check is one function; each rule is
+//! documented with its physics and source in `docs/rules.md`.
+
+use crate::ast::BodyKind;
+use crate::composition::{self, CompositionClass};
+use crate::constants::{M_JUPITER, M_SUN, R_EARTH};
+use crate::derive::{display_factor, display_unit, value, Derivation, Key};
+use crate::diagnostic::{Diagnostic, Rule};
+use crate::formulas;
+use crate::quantities::Qty;
+use crate::source::Span;
+use std::sync::Arc;
+use uom::si::f64::{Length, Mass, MassDensity};
+use uom::si::length::meter;
+use uom::si::mass::kilogram;
+use uom::si::mass_density::kilogram_per_cubic_meter;
+
+/// Probability above which a planet is called denser than iron (3 sigma, one-sided).
+pub const IRON_PROBABILITY: f64 = 0.997;
+/// Deuterium-burning limit, about 13 Jupiter masses (Spiegel, Burrows & Milsom 2011; common practice).
+pub const DEUTERIUM_LIMIT: f64 = 13.0 * M_JUPITER;
+/// Hydrogen-burning limit, about 0.075 solar masses (common practice; Chabrier & Baraffe 2000).
+pub const HYDROGEN_LIMIT: f64 = 0.075 * M_SUN;
+/// Samples drawn for composition in linear mode.
+const LINEAR_SAMPLES: usize = 4000;
+
+/// What the checker found about one planet's composition.
+pub struct CompositionNote {
+    pub body: usize,
+    pub json: serde_json::Value,
+    pub text: String,
+}
+
+/// Run every check on one system.
+pub fn run(d: &Derivation, diags: &mut Vec<Diagnostic>) -> Vec<CompositionNote> {
+    let mut notes = Vec::new();
+    for (bi, body) in d.sys.bodies.iter().enumerate() {
+        match body.kind {
+            BodyKind::Planet => {
+                if let Some(n) = composition_check(d, bi, diags) {
+                    notes.push(n);
+                }
+                object_class(d, bi, diags);
+                size_and_orbit(d, bi, diags);
+                transit_geometry(d, bi, diags);
+            }
+            BodyKind::Star => plausible_star(d, bi, diags),
+        }
+    }
+    orbit_spacing(d, diags);
+    notes
+}
+
+fn nominal(d: &Derivation, k: Key) -> Option<f64> {
+    d.value(k).map(|v| v.nominal).filter(|v| v.is_finite())
+}
+
+/// Where to point a diagnostic about a body: the first of `qtys` it declares, else its name.
+fn anchor(d: &Derivation, bi: usize, qtys: &[Qty]) -> Span {
+    let Some(body) = d.sys.bodies.get(bi) else {
+        return Span::default();
+    };
+    qtys.iter()
+        .find_map(|q| body.get(*q).map(|decl| decl.span))
+        .unwrap_or(body.name_span)
+}
+
+fn shown(q: Qty, si: f64) -> String {
+    let unit = display_unit(q, si);
+    format!(
+        "{} {unit}",
+        crate::format::sig(si / display_factor(unit), 3)
+    )
+}
+
+/// Samples of a value: the engine's, or drawn from its linear spread.
+fn samples_of(d: &Derivation, k: Key) -> Option<Arc<[f64]>> {
+    let v = d.value(k)?;
+    if let Some(s) = &v.samples {
+        return Some(s.clone());
+    }
+    let (lo, hi) = v.linear_spread(&d.inputs);
+    let m = crate::model::Measurement {
+        value: v.nominal,
+        below: lo,
+        above: hi,
+        form: if lo == 0.0 && hi == 0.0 {
+            crate::model::Form::Exact
+        } else {
+            crate::model::Form::Asymmetric
+        },
+    };
+    let seed = value::stable_hash(
+        &[&d.sys.name, &d.key_name(k), "composition"],
+        d.options.seed,
+    );
+    Some(Arc::from(value::draw(
+        &m,
+        0.0,
+        f64::INFINITY,
+        LINEAR_SAMPLES,
+        seed,
+    )))
+}
+
+fn composition_check(
+    d: &Derivation,
+    bi: usize,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<CompositionNote> {
+    let m = samples_of(d, (bi, Qty::Mass))?;
+    let r = samples_of(d, (bi, Qty::Radius))?;
+    let summary = composition::classify(&m, &r);
+    let mass = nominal(d, (bi, Qty::Mass))?;
+    let radius = nominal(d, (bi, Qty::Radius))?;
+    let p_iron = composition::probability_below_iron(&m, &r);
+    if p_iron.is_finite() && p_iron >= IRON_PROBABILITY {
+        let density = nominal(d, (bi, Qty::Density)).unwrap_or(f64::NAN);
+        let iron = composition::density_of_pure_iron_body(mass).unwrap_or(f64::NAN);
+        let iron_r = composition::iron_radius(mass).map_or(f64::NAN, |r| r / R_EARTH);
+        diags.push(
+            Diagnostic::new(
+                Rule::DenserThanIron,
+                anchor(d, bi, &[Qty::Radius, Qty::TransitDepth, Qty::RadiusRatio, Qty::Mass]),
+                format!(
+                    "{} is denser than pure iron: {} at {}, where a pure-iron body would have {} and a radius of {:.2} Rearth (probability {:.1}%)",
+                    d.sys.bodies.get(bi).map_or("?", |b| b.id.as_str()),
+                    shown(Qty::Density, density),
+                    shown(Qty::Mass, mass),
+                    shown(Qty::Density, iron),
+                    iron_r,
+                    p_iron * 100.0
+                ),
+            )
+            .with_note("no composition is denser than pure iron at a given mass (Seager et al. 2007); the radius is likely too small or the mass too large")
+            .with_help("check the transit depth and the stellar radius (a radius ratio from the wrong band or star), and the mass's unit"),
+        );
+    }
+    let probs = summary.probabilities();
+    if probs.is_empty() {
+        return None;
+    }
+    let mut json = serde_json::Map::new();
+    for (class, p) in &probs {
+        json.insert(class.name().to_string(), serde_json::json!(p));
+    }
+    let best = summary.most_probable();
+    let mut parts: Vec<(CompositionClass, f64)> =
+        probs.into_iter().filter(|(_, p)| *p >= 0.005).collect();
+    parts.sort_by(|a, b| b.1.total_cmp(&a.1));
+    let text = parts
+        .iter()
+        .map(|(c, p)| format!("{} {:.0}%", c.name(), p * 100.0))
+        .collect::<Vec<_>>()
+        .join(", ");
+    let extrapolated = summary.fraction_extrapolated().unwrap_or(0.0);
+    let text = if extrapolated > 0.5 {
+        format!("{text} (curves extrapolated beyond their fitted masses)")
+    } else {
+        text
+    };
+    let _ = radius;
+    Some(CompositionNote {
+        body: bi,
+        json: serde_json::json!({
+            "most_probable": best.map(|c| c.name()),
+            "probabilities": json,
+            "extrapolated_fraction": extrapolated,
+            "boundaries": "Seager et al. 2007 pure iron; Zeng et al. 2016 rocky (CMF 0) and CMF 0.5 mix; giant above 0.1 Mjup, inflated above 1.2 Rjup",
+        }),
+        text,
+    })
+}
+
+fn object_class(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
+    let (mass, which) = match nominal(d, (bi, Qty::Mass)) {
+        Some(m) => (m, "mass"),
+        None => match nominal(d, (bi, Qty::MinMass)) {
+            Some(m) => (m, "minimum mass"),
+            None => return,
+        },
+    };
+    let name = d.sys.bodies.get(bi).map_or("?", |b| b.id.as_str());
+    let at = anchor(d, bi, &[Qty::Mass, Qty::MinMass, Qty::RvAmplitude]);
+    if mass > HYDROGEN_LIMIT {
+        diags.push(
+            Diagnostic::new(
+                Rule::StellarMassCompanion,
+                at,
+                format!("{name}'s {which} of {:.3} Msun is above the hydrogen-burning limit (about 0.075 Msun): a star, not a planet", mass / M_SUN),
+            )
+            .with_help("declare it as a star, or check the radial-velocity amplitude and its unit"),
+        );
+    } else if mass > DEUTERIUM_LIMIT {
+        diags.push(
+            Diagnostic::new(
+                Rule::AboveDeuteriumLimit,
+                at,
+                format!("{name}'s {which} of {:.1} Mjup is above the deuterium-burning limit (about 13 Mjup): a brown dwarf rather than a planet", mass / M_JUPITER),
+            )
+            .with_note("the boundary is a convention of the trade (IAU working definition); objects near it are often listed in both classes"),
+        );
+    }
+}
+
+fn size_and_orbit(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
+    let Some(host) = d.sys.bodies.get(bi).and_then(|b| b.orbits) else {
+        return;
+    };
+    let name = d.sys.bodies.get(bi).map_or("?", |b| b.id.as_str());
+    let star = d.sys.bodies.get(host).map_or("?", |b| b.id.as_str());
+    let rs = nominal(d, (host, Qty::StarRadius));
+    let rp = nominal(d, (bi, Qty::Radius));
+    if let (Some(rs), Some(rp)) = (rs, rp) {
+        if rp >= rs {
+            diags.push(
+                Diagnostic::new(
+                    Rule::LargerThanStar,
+                    anchor(d, bi, &[Qty::Radius, Qty::RadiusRatio, Qty::TransitDepth]),
+                    format!("{name}'s radius ({}) is at least the radius of {star} ({})", shown(Qty::Radius, rp), shown(Qty::StarRadius, rs)),
+                )
+                .with_help("a transit depth above 100% or a radius in the wrong unit (Rsun for Rjup?) gives this"),
+            );
+        }
+    }
+    let (Some(a), Some(rs)) = (nominal(d, (bi, Qty::SemiMajorAxis)), rs) else {
+        return;
+    };
+    let e = nominal(d, (bi, Qty::Eccentricity)).unwrap_or(0.0);
+    let q = a * (1.0 - e);
+    if q <= rs + rp.unwrap_or(0.0) {
+        diags.push(
+            Diagnostic::new(
+                Rule::PeriastronInsideStar,
+                anchor(d, bi, &[Qty::Eccentricity, Qty::SemiMajorAxis, Qty::Period]),
+                format!(
+                    "{name}'s closest approach a(1 - e) = {:.4} au lies inside {star} (R* + Rp = {:.4} au)",
+                    q / crate::constants::AU,
+                    (rs + rp.unwrap_or(0.0)) / crate::constants::AU
+                ),
+            )
+            .with_help("check the eccentricity and the period's unit"),
+        );
+        return;
+    }
+    let (Some(ms), Some(rho)) = (
+        nominal(d, (host, Qty::StarMass)),
+        nominal(d, (bi, Qty::Density)),
+    ) else {
+        return;
+    };
+    let Some(roche) = formulas::roche_limit_fluid(
+        Mass::new::<kilogram>(ms),
+        MassDensity::new::<kilogram_per_cubic_meter>(rho),
+    )
+    .map(|l: Length| l.get::<meter>()) else {
+        return;
+    };
+    if q < roche {
+        diags.push(
+            Diagnostic::new(
+                Rule::InsideRocheLimit,
+                anchor(d, bi, &[Qty::Period, Qty::SemiMajorAxis]),
+                format!(
+                    "{name}'s periastron ({:.4} au) lies inside the fluid-body Roche limit for its density ({:.4} au): tides would tear it apart",
+                    q / crate::constants::AU,
+                    roche / crate::constants::AU
+                ),
+            )
+            .with_note("fluid Roche limit d = 2.44 R* (rho*/rho_p)^(1/3) (Roche; common practice)"),
+        );
+    }
+}
+
+fn transit_geometry(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
+    let Some(body) = d.sys.bodies.get(bi) else {
+        return;
+    };
+    if body.get(Qty::TransitDepth).is_none() && body.get(Qty::RadiusRatio).is_none() {
+        return;
+    }
+    let (Some(b), Some(k)) = (
+        nominal(d, (bi, Qty::Impact)),
+        nominal(d, (bi, Qty::RadiusRatio)),
+    ) else {
+        // An inclination that gives no impact parameter at all (|cos i| too large) is
+        // also no transit, but it shows up as a missing impact; report it when declared.
+        if let (Some(_), None) = (body.get(Qty::Inclination), nominal(d, (bi, Qty::Impact))) {
+            if nominal(d, (bi, Qty::ScaledAxis)).is_some() {
+                diags.push(Diagnostic::new(
+                    Rule::TransitGeometry,
+                    anchor(d, bi, &[Qty::Inclination]),
+                    format!(
+                        "{}: a transit is declared, but this inclination gives no transit geometry",
+                        body.id
+                    ),
+                ));
+            }
+        }
+        return;
+    };
+    if b > 1.0 + k {
+        diags.push(
+            Diagnostic::new(
+                Rule::TransitGeometry,
+                anchor(d, bi, &[Qty::Impact, Qty::Inclination]),
+                format!(
+                    "{} has a transit depth but its impact parameter b = {:.3} exceeds 1 + k = {:.3}: the planet never crosses the stellar disc",
+                    body.id,
+                    b,
+                    1.0 + k
+                ),
+            )
+            .with_note("a transit needs b < 1 + Rp/R* (Winn 2010)")
+            .with_help("check the inclination (90 deg is edge-on) or the impact parameter"),
+        );
+    }
+}
+
+fn orbit_spacing(d: &Derivation, diags: &mut Vec<Diagnostic>) {
+    let sys = d.sys;
+    for (host, star) in sys.bodies.iter().enumerate() {
+        if star.kind != BodyKind::Star {
+            continue;
+        }
+        let Some(ms) = nominal(d, (host, Qty::StarMass)) else {
+            continue;
+        };
+        let mut planets: Vec<(usize, f64)> = sys
+            .bodies
+            .iter()
+            .enumerate()
+            .filter(|(_, b)| b.orbits == Some(host))
+            .filter_map(|(i, _)| nominal(d, (i, Qty::SemiMajorAxis)).map(|a| (i, a)))
+            .collect();
+        planets.sort_by(|a, b| a.1.total_cmp(&b.1));
+        let many = planets.len() >= 3;
+        for pair in planets.windows(2) {
+            let [(i1, a1), (i2, a2)] = pair else { continue };
+            let e1 = nominal(d, (*i1, Qty::Eccentricity)).unwrap_or(0.0);
+            let e2 = nominal(d, (*i2, Qty::Eccentricity)).unwrap_or(0.0);
+            let n1 = sys.bodies.get(*i1).map_or("?", |b| b.id.as_str());
+            let n2 = sys.bodies.get(*i2).map_or("?", |b| b.id.as_str());
+            if a1 * (1.0 + e1) >= a2 * (1.0 - e2) {
+                diags.push(
+                    Diagnostic::new(
+                        Rule::CrossingOrbits,
+                        anchor(d, *i2, &[Qty::Eccentricity, Qty::Period, Qty::SemiMajorAxis]),
+                        format!(
+                            "the orbits of {n1} and {n2} cross: {n1}'s apastron ({:.4} au) lies beyond {n2}'s periastron ({:.4} au)",
+                            a1 * (1.0 + e1) / crate::constants::AU,
+                            a2 * (1.0 - e2) / crate::constants::AU
+                        ),
+                    )
+                    .with_label(anchor(d, *i1, &[Qty::Eccentricity, Qty::Period, Qty::SemiMajorAxis]), format!("{n1}'s orbit"))
+                    .with_note("crossing orbits are unstable on orbital time scales unless protected by a resonance"),
+                );
+                continue;
+            }
+            let mass =
+                |i: usize| nominal(d, (i, Qty::Mass)).or_else(|| nominal(d, (i, Qty::MinMass)));
+            let (Some(m1), Some(m2)) = (mass(*i1), mass(*i2)) else {
+                continue;
+            };
+            let Some(delta) = formulas::spacing_in_mutual_hill_radii(
+                Length::new::<meter>(*a1),
+                Length::new::<meter>(*a2),
+                Mass::new::<kilogram>(m1),
+                Mass::new::<kilogram>(m2),
+                Mass::new::<kilogram>(ms),
+            ) else {
+                continue;
+            };
+            if delta < formulas::HILL_STABLE_SPACING {
+                let mut diag = Diagnostic::new(
+                    Rule::UnstableSpacing,
+                    anchor(d, *i2, &[Qty::Period, Qty::SemiMajorAxis]),
+                    format!("{n1} and {n2} are {delta:.2} mutual Hill radii apart, closer than the 2 sqrt(3) = 3.46 that guarantees stability of two planets (Gladman 1993)"),
+                )
+                .with_label(anchor(d, *i1, &[Qty::Period, Qty::SemiMajorAxis]), format!("{n1}'s orbit"));
+                if many {
+                    diag = diag.with_note("systems of three or more planets usually need about 10 mutual Hill radii between neighbours to survive for billions of years (Chambers et al. 1996; common practice)");
+                }
+                diags.push(diag);
+            }
+        }
+    }
+}
+
+/// Bounds that no main-sequence or evolved (non-degenerate) star crosses, from memory of
+/// the ranges spanned by stellar atlases and dwarf tables (common practice): documented in
+/// docs/rules.md.
+pub const STAR_TEFF: (f64, f64) = (2_000.0, 60_000.0);
+pub const STAR_MASS: (f64, f64) = (0.07 * M_SUN, 300.0 * M_SUN);
+pub const STAR_LOG_G: (f64, f64) = (-1.0, 5.8);
+
+fn plausible_star(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
+    let name = d.sys.bodies.get(bi).map_or("?", |b| b.id.as_str());
+    let mut problems = Vec::new();
+    if let Some(t) = nominal(d, (bi, Qty::Teff)) {
+        if t < STAR_TEFF.0 || t > STAR_TEFF.1 {
+            problems.push((
+                Qty::Teff,
+                format!(
+                    "Teff {t:.0} K lies outside {:.0}–{:.0} K",
+                    STAR_TEFF.0, STAR_TEFF.1
+                ),
+            ));
+        }
+    }
+    if let Some(m) = nominal(d, (bi, Qty::StarMass)) {
+        if m < STAR_MASS.0 || m > STAR_MASS.1 {
+            problems.push((
+                Qty::StarMass,
+                format!("mass {:.3} Msun lies outside 0.07–300 Msun", m / M_SUN),
+            ));
+        }
+    }
+    if let Some(g) = nominal(d, (bi, Qty::LogG)) {
+        if g < STAR_LOG_G.0 || g > STAR_LOG_G.1 {
+            problems.push((
+                Qty::LogG,
+                format!(
+                    "log g {g:.2} lies outside {:.1}–{:.1}: {}",
+                    STAR_LOG_G.0,
+                    STAR_LOG_G.1,
+                    if g > STAR_LOG_G.1 {
+                        "too dense for a non-degenerate star (a white dwarf has log g near 8)"
+                    } else {
+                        "less dense than the largest supergiants"
+                    }
+                ),
+            ));
+        }
+    }
+    if problems.is_empty() {
+        return;
+    }
+    let first = problems.first().map(|p| p.0).unwrap_or(Qty::StarMass);
+    let msg = problems
+        .iter()
+        .map(|p| p.1.clone())
+        .collect::<Vec<_>>()
+        .join("; ");
+    diags.push(
+        Diagnostic::new(Rule::ImplausibleStar, anchor(d, bi, &[first, Qty::StarMass, Qty::StarRadius]), format!("{name} is not a plausible star: {msg}"))
+            .with_help("check the units: a radius in Rjup or au instead of Rsun, or a mass in Mjup, gives this"),
+    );
+}
+
+#[cfg(test)]
+mod tests;

@@ -1,0 +1,226 @@
+use crate::derive::Options;
+use crate::diagnostic::{Rule, Severity};
+use crate::solar_system::PLANETS;
+use crate::source::FileId;
+use crate::{analyze, Analysis};
+
+fn run(src: &str) -> Analysis {
+    analyze(FileId(0), src, &Options::default())
+}
+
+fn rules(a: &Analysis) -> Vec<Rule> {
+    a.diagnostics.iter().map(|d| d.rule).collect()
+}
+
+/// The eight planets with masses, mean radii and semi-major axes from the NASA planetary
+/// fact sheets (`solar_system.rs`, values from memory there), 1% errors on mass and radius,
+/// around the IAU 2015 B3 nominal Sun.
+fn solar_system() -> String {
+    let mut s = String::from(
+        "system \"Sun\" {\n  star sun { mass = 1 Msun; radius = 1 Rsun; teff = 5772 K }\n",
+    );
+    for p in PLANETS {
+        let Some(orbit) = &p.orbit else { continue };
+        s.push_str(&format!(
+            "  planet {} orbits sun {{ mass = {:e} ± {:e} kg; radius = {:e} ± {:e} m; semi_major_axis = {:e} m }}\n",
+            p.name.to_lowercase(),
+            p.mass_kg,
+            p.mass_kg * 0.01,
+            p.mean_radius_m,
+            p.mean_radius_m * 0.01,
+            orbit.semi_major_axis_m
+        ));
+    }
+    s.push_str("}\n");
+    s
+}
+
+#[test]
+fn solar_system_classifies_as_the_trade_knows_it_and_raises_nothing() {
+    let a = run(&solar_system());
+    assert!(
+        a.diagnostics.iter().all(|d| d.severity < Severity::Warning),
+        "{:#?}",
+        a.diagnostics
+    );
+    let expect = [
+        ("mercury", "iron-rich"),
+        ("venus", "rocky"),
+        ("earth", "rocky"),
+        ("mars", "rocky"),
+        ("jupiter", "gas-giant"),
+        ("saturn", "gas-giant"),
+        ("uranus", "volatile-rich"),
+        ("neptune", "volatile-rich"),
+    ];
+    for (name, class) in expect {
+        let c = a
+            .composition
+            .get(&(0, name.to_string()))
+            .unwrap_or_else(|| panic!("no composition for {name}"));
+        let best = c["most_probable"].as_str().unwrap_or("");
+        assert_eq!(best, class, "{name}: {c}");
+    }
+}
+
+const STAR: &str =
+    "star s { mass = 1.0 ± 0.02 Msun; radius = 1.0 ± 0.02 Rsun; teff = 5800 ± 50 K }";
+
+fn one_planet(body: &str) -> String {
+    format!("system \"Orveth\" {{\n  {STAR}\n  planet b orbits s {{ {body} }}\n}}\n")
+}
+
+#[test]
+fn denser_than_iron_fires_and_a_rocky_planet_does_not() {
+    // 10 Earth masses in 1.0 Earth radius: far below the pure-iron curve (Seager et al. 2007
+    // give about 1.6-1.7 Rearth for 10 Mearth of iron, from memory).
+    let bad = run(&one_planet(
+        "period = 5 d; mass = 10 ± 0.5 Mearth; radius = 1.0 ± 0.02 Rearth",
+    ));
+    assert!(
+        rules(&bad).contains(&Rule::DenserThanIron),
+        "{:#?}",
+        bad.diagnostics
+    );
+    let msg = &bad
+        .diagnostics
+        .iter()
+        .find(|d| d.rule == Rule::DenserThanIron)
+        .unwrap()
+        .message;
+    assert!(
+        msg.contains("g/cm^3") && msg.contains("probability"),
+        "{msg}"
+    );
+    let ok = run(&one_planet(
+        "period = 5 d; mass = 1 ± 0.05 Mearth; radius = 1.0 ± 0.02 Rearth",
+    ));
+    assert!(
+        !rules(&ok).contains(&Rule::DenserThanIron),
+        "{:#?}",
+        ok.diagnostics
+    );
+}
+
+#[test]
+fn brown_dwarf_and_star_companions() {
+    let bd = run(&one_planet("period = 5 d; mass = 20 ± 1 Mjup"));
+    assert!(rules(&bd).contains(&Rule::AboveDeuteriumLimit));
+    let st = run(&one_planet("period = 5 d; mass = 0.2 ± 0.01 Msun"));
+    assert!(rules(&st).contains(&Rule::StellarMassCompanion));
+    let ok = run(&one_planet("period = 5 d; mass = 5 ± 1 Mjup"));
+    assert!(!rules(&ok)
+        .iter()
+        .any(|r| matches!(r, Rule::AboveDeuteriumLimit | Rule::StellarMassCompanion)));
+}
+
+#[test]
+fn larger_than_star_and_periastron_inside_star() {
+    let big = run(&one_planet("period = 50 d; radius = 1.2 ± 0.1 Rsun"));
+    assert!(
+        rules(&big).contains(&Rule::LargerThanStar),
+        "{:#?}",
+        big.diagnostics
+    );
+    let plunge = run(&one_planet("period = 2 d; eccentricity = 0.97 ± 0.01"));
+    assert!(
+        rules(&plunge).contains(&Rule::PeriastronInsideStar),
+        "{:#?}",
+        plunge.diagnostics
+    );
+    let ok = run(&one_planet(
+        "period = 2 d; eccentricity = 0.1 ± 0.01; radius = 1 ± 0.1 Rjup",
+    ));
+    assert!(
+        !rules(&ok)
+            .iter()
+            .any(|r| matches!(r, Rule::LargerThanStar | Rule::PeriastronInsideStar)),
+        "{:#?}",
+        ok.diagnostics
+    );
+}
+
+#[test]
+fn roche_limit_for_a_fluffy_planet_on_a_tight_orbit() {
+    // Density 0.1 g/cm^3 around a Sun: fluid Roche limit 2.44 R_sun (1.41/0.1)^(1/3) = 5.9 R_sun
+    // = 0.027 au (common practice); a 0.3 d orbit sits at about 0.0072 au.
+    let bad = run(&one_planet(
+        "period = 1.2 d; mass = 0.2 ± 0.02 Mjup; radius = 1.9 ± 0.05 Rjup",
+    ));
+    assert!(
+        rules(&bad).contains(&Rule::InsideRocheLimit),
+        "{:#?}",
+        bad.diagnostics
+    );
+    let ok = run(&one_planet(
+        "period = 4 d; mass = 1 ± 0.05 Mjup; radius = 1.1 ± 0.05 Rjup",
+    ));
+    assert!(
+        !rules(&ok).contains(&Rule::InsideRocheLimit),
+        "{:#?}",
+        ok.diagnostics
+    );
+}
+
+#[test]
+fn impossible_transit_geometry() {
+    let bad = run(&one_planet(
+        "period = 10 d; transit_depth = 0.5 ± 0.02 %; inclination = 80 ± 0.5 deg",
+    ));
+    assert!(
+        rules(&bad).contains(&Rule::TransitGeometry),
+        "{:#?}",
+        bad.diagnostics
+    );
+    let ok = run(&one_planet(
+        "period = 10 d; transit_depth = 0.5 ± 0.02 %; inclination = 89.5 ± 0.2 deg",
+    ));
+    assert!(
+        !rules(&ok).contains(&Rule::TransitGeometry),
+        "{:#?}",
+        ok.diagnostics
+    );
+}
+
+#[test]
+fn crossing_and_tightly_packed_orbits() {
+    let crossing = format!(
+        "system \"Orveth\" {{\n  {STAR}\n  planet b orbits s {{ period = 10 d; eccentricity = 0.6 ± 0.02 }}\n  planet c orbits s {{ period = 14 d }}\n}}\n"
+    );
+    assert!(rules(&run(&crossing)).contains(&Rule::CrossingOrbits));
+    let packed = format!(
+        "system \"Orveth\" {{\n  {STAR}\n  planet b orbits s {{ period = 10 d; mass = 3 ± 0.1 Mjup }}\n  planet c orbits s {{ period = 10.6 d; mass = 3 ± 0.1 Mjup }}\n  planet d orbits s {{ period = 30 d; mass = 1 ± 0.1 Mjup }}\n}}\n"
+    );
+    let a = run(&packed);
+    let d = a
+        .diagnostics
+        .iter()
+        .find(|d| d.rule == Rule::UnstableSpacing)
+        .unwrap_or_else(|| panic!("{:#?}", a.diagnostics));
+    assert!(d.notes.iter().any(|n| n.contains("three or more")));
+    let wide = format!(
+        "system \"Orveth\" {{\n  {STAR}\n  planet b orbits s {{ period = 10 d; mass = 10 ± 1 Mearth }}\n  planet c orbits s {{ period = 25 d; mass = 10 ± 1 Mearth }}\n}}\n"
+    );
+    let a = run(&wide);
+    assert!(
+        !rules(&a)
+            .iter()
+            .any(|r| matches!(r, Rule::CrossingOrbits | Rule::UnstableSpacing)),
+        "{:#?}",
+        a.diagnostics
+    );
+}
+
+#[test]
+fn implausible_star() {
+    // 1 Msun in 0.01 Rsun (log g ~ 8.4): a white dwarf, not a main-sequence or evolved star.
+    let bad =
+        run("system \"Orveth\" { star s { mass = 1 ± 0.05 Msun; radius = 0.01 ± 0.001 Rsun } }");
+    assert!(
+        rules(&bad).contains(&Rule::ImplausibleStar),
+        "{:#?}",
+        bad.diagnostics
+    );
+    let ok = run(&format!("system \"Orveth\" {{ {STAR} }}"));
+    assert!(ok.diagnostics.is_empty(), "{:#?}", ok.diagnostics);
+}
