@@ -2,6 +2,7 @@
 //! renders what comes back. No language or physics logic lives here.
 
 mod files;
+mod fmt_cmd;
 mod render;
 
 use clap::{Parser, Subcommand, ValueEnum};
@@ -135,6 +136,26 @@ enum Command {
         #[command(flatten)]
         engine: EngineArgs,
     },
+    /// Lay files out canonically (aligned `=`, units and citations; comments kept).
+    #[command(
+        after_help = "Prints the formatted text unless --write or --check is given.\nExample:\n  syz fmt --check examples/\n  syz fmt --write examples/veyra.syz"
+    )]
+    Fmt {
+        #[arg(required = true)]
+        paths: Vec<PathBuf>,
+        /// Rewrite the files in place.
+        #[arg(long, conflicts_with = "check")]
+        write: bool,
+        /// List the files that would change and exit with status 1 if there are any.
+        #[arg(long)]
+        check: bool,
+    },
+    /// Run the language server on stdin and stdout (for editors; see docs/editors.md).
+    Lsp {
+        /// Accepted for editors that pass it; stdio is the only transport.
+        #[arg(long)]
+        stdio: bool,
+    },
 }
 
 fn main() -> ExitCode {
@@ -163,6 +184,19 @@ fn main() -> ExitCode {
             system,
             engine,
         } => explain(&file, &target, system.as_deref(), &engine.options()),
+        Command::Fmt {
+            paths,
+            write,
+            check,
+        } => fmt_cmd::run(
+            &paths,
+            match (write, check) {
+                (true, _) => fmt_cmd::Mode::Write,
+                (_, true) => fmt_cmd::Mode::Check,
+                _ => fmt_cmd::Mode::Print,
+            },
+        ),
+        Command::Lsp { stdio: _ } => syzygy_lsp::run_stdio(),
     };
     ExitCode::from(code)
 }

@@ -85,9 +85,55 @@ pub fn with_uncertainty(value: f64, below: f64, above: f64) -> String {
     }
 }
 
+/// A value with its uncertainty as the language writes a literal (`0.04425 ± 0.00063`,
+/// `0.880 +0.030/-0.020`, `1.40e6 ± 0.13e6`): rounded like [`with_uncertainty`], but always
+/// something the parser reads back. Exact values keep up to 6 significant figures.
+pub fn literal_text(value: f64, below: f64, above: f64) -> String {
+    let u = below.min(above);
+    let u = if u > 0.0 { u } else { below.max(above) };
+    if !value.is_finite() || u <= 0.0 || !u.is_finite() {
+        return number(value);
+    }
+    let scale = value.abs().max(u);
+    if !(1e-3..1e6).contains(&scale) {
+        let exp = scale.log10().floor() as i32;
+        let f = 10f64.powi(exp);
+        let places = places_for(u / f).clamp(0, 12) as usize;
+        let m = |v: f64| format!("{:.places$}e{exp}", v / f);
+        return if ((above - below).abs() / above.max(below)) < 0.05 {
+            format!("{} ± {}", m(value), m((above + below) / 2.0))
+        } else {
+            format!("{} +{}/-{}", m(value), m(above), m(below))
+        };
+    }
+    with_uncertainty(value, below, above)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn literal_text_reads_back() {
+        assert_eq!(
+            literal_text(0.044251, 0.00063, 0.00063),
+            "0.04425 ± 0.00063"
+        );
+        assert_eq!(literal_text(1.4e6, 1.3e5, 1.3e5), "1.40e6 ± 0.13e6");
+        assert_eq!(
+            literal_text(2.0e-5, 1.0e-6, 3.0e-6),
+            "2.00e-5 +0.30e-5/-0.10e-5"
+        );
+        assert_eq!(literal_text(5.0, 0.0, 0.0), "5");
+        for text in [
+            literal_text(1.4e6, 1.3e5, 1.3e5),
+            literal_text(2.0e-5, 1.0e-6, 3.0e-6),
+        ] {
+            let src = format!("system \"S\" {{ star s {{ mass = {text} Msun }} }}");
+            let p = crate::parser::parse(crate::source::FileId(0), &src);
+            assert!(p.diagnostics.is_empty(), "{text}: {:?}", p.diagnostics);
+        }
+    }
 
     #[test]
     fn plain_numbers() {

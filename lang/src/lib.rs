@@ -6,6 +6,7 @@
 
 #![cfg_attr(test, allow(clippy::unwrap_used, clippy::indexing_slicing))]
 
+pub mod allow;
 pub mod ast;
 pub mod checks;
 pub mod composition;
@@ -14,6 +15,8 @@ pub mod derive;
 pub mod diagnostic;
 pub mod format;
 pub mod formulas;
+pub mod ide;
+pub mod layout;
 pub mod lexer;
 pub mod model;
 pub mod parser;
@@ -68,6 +71,7 @@ pub fn analyze(file: source::FileId, src: &str, options: &Options) -> Analysis {
         }
         results.push(d.summarize());
     }
+    let mut diagnostics = allow::apply(src, &parsed.file.comments, diagnostics);
     diagnostic::sort_diagnostics(&mut diagnostics);
     Analysis {
         file,

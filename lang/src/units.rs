@@ -542,6 +542,39 @@ pub fn all_units() -> &'static [UnitDef] {
     registry()
 }
 
+/// Unit spellings of one dimension, for completion and conversion: every registered unit of
+/// that dimension and a few common prefixed and compound spellings, with a name each.
+pub fn units_for(dim: Dimension) -> Vec<(String, String)> {
+    const COMMON: &[(&str, &str)] = &[
+        ("km", "kilometre"),
+        ("cm", "centimetre"),
+        ("kg", "kilogram"),
+        ("Myr", "million Julian years"),
+        ("Gyr", "billion Julian years"),
+        ("kpc", "kiloparsec"),
+        ("m/s", "metre per second"),
+        ("km/s", "kilometre per second"),
+        ("m/s^2", "metre per second squared"),
+        ("cm/s^2", "centimetre per second squared"),
+        ("g/cm^3", "gram per cubic centimetre"),
+        ("kg/m^3", "kilogram per cubic metre"),
+        ("W/m^2", "watt per square metre"),
+    ];
+    let mut out: Vec<(String, String)> = Vec::new();
+    for def in registry() {
+        if def.dim == dim {
+            out.push((def.symbol.to_string(), def.name.to_string()));
+        }
+    }
+    for (text, name) in COMMON {
+        if parse_unit_text(text).is_some_and(|u| u.dim == dim) && !out.iter().any(|o| o.0 == *text)
+        {
+            out.push(((*text).to_string(), (*name).to_string()));
+        }
+    }
+    out
+}
+
 /// The nearest known symbol, for a did-you-mean hint.
 pub fn suggest(symbol: &str) -> Option<&'static str> {
     let lower = symbol.to_lowercase();

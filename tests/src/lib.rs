@@ -58,3 +58,5 @@ pub fn scratch(name: &str) -> PathBuf {
     std::fs::create_dir_all(&dir).unwrap();
     dir
 }
+
+pub mod lsp;

@@ -126,6 +126,27 @@ impl BodyResult {
 #[derive(Debug, Clone, PartialEq)]
 pub struct SystemResult {
     pub bodies: Vec<BodyResult>,
+    /// For declared quantities that rules can also derive from other measurements: the best
+    /// such route (front ends show it beside the declared value).
+    pub alternatives: Vec<Alternative>,
+}
+
+impl SystemResult {
+    pub fn alternative(&self, key: Key) -> Option<&Alternative> {
+        self.alternatives.iter().find(|a| a.key == key)
+    }
+}
+
+/// A value derived for a quantity that was also declared.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Alternative {
+    pub key: Key,
+    /// SI value and uncertainty below and above.
+    pub value: f64,
+    pub below: f64,
+    pub above: f64,
+    pub rule: &'static str,
+    pub inputs: Vec<Key>,
 }
 
 #[derive(Debug, Clone)]
@@ -612,7 +633,22 @@ impl<'m> Derivation<'m> {
                 }
                 let id = u32::try_from(self.inputs.len()).unwrap_or(u32::MAX);
                 self.literal_inputs.insert(l.value_span, id);
-                let label = format!("literal at byte {}", l.value_span.start);
+                // Named by order of first use, not by position, so that re-laying out the
+                // file (which moves bytes) never changes a seed or a budget label.
+                let spread = match l.uncertainty {
+                    Uncertainty::None => String::new(),
+                    Uncertainty::Symmetric(s, _) => format!(" ± {}", crate::format::number(s)),
+                    Uncertainty::Asymmetric { plus, minus, .. } => format!(
+                        " +{}/-{}",
+                        crate::format::number(plus),
+                        crate::format::number(minus)
+                    ),
+                };
+                let label = format!(
+                    "literal #{} ({}{spread})",
+                    self.literal_inputs.len(),
+                    crate::format::number(l.value)
+                );
                 Ok(self.new_input(label, &m, f64::NEG_INFINITY, f64::INFINITY))
             }
             ExprKind::Name(id) => {
@@ -930,7 +966,51 @@ impl<'m> Derivation<'m> {
             }
             bodies.push(BodyResult { quantities });
         }
-        SystemResult { bodies }
+        SystemResult {
+            bodies,
+            alternatives: self.alternatives(),
+        }
+    }
+
+    /// The best derived route for every declared quantity that has one.
+    fn alternatives(&self) -> Vec<Alternative> {
+        let mut out = Vec::new();
+        for (key, cands) in &self.candidates {
+            let Some(entry) = self.entries.get(key) else {
+                continue;
+            };
+            if entry.rule.is_some() || entry.origin == Origin::Default {
+                continue;
+            }
+            let best = cands.iter().min_by(|a, b| {
+                let ta = RULES.get(a.rule).map_or(9, |r| r.tier);
+                let tb = RULES.get(b.rule).map_or(9, |r| r.tier);
+                ta.cmp(&tb).then(
+                    relative_spread(&a.value, &self.inputs)
+                        .total_cmp(&relative_spread(&b.value, &self.inputs)),
+                )
+            });
+            let Some(c) = best else { continue };
+            let (lo, hi) = c.value.linear_spread(&self.inputs);
+            let (value, below, above) = match (self.options.propagation, c.value.sample_summary()) {
+                (Propagation::MonteCarlo, Some((med, p16, p84, _))) => {
+                    (med, (med - p16).max(0.0), (p84 - med).max(0.0))
+                }
+                _ => (c.value.nominal, lo, hi),
+            };
+            if !value.is_finite() {
+                continue;
+            }
+            out.push(Alternative {
+                key: *key,
+                value,
+                below,
+                above,
+                rule: RULES.get(c.rule).map_or("?", |r| r.id),
+                inputs: c.inputs.clone(),
+            });
+        }
+        out
     }
 
     fn result_for(

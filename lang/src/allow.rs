@@ -1,0 +1,220 @@
+//! Silencing comments: `# allow(rule-id): reason`.
+//!
+//! A comment of that form silences diagnostics of the named rules (several may be listed,
+//! separated by commas). At the end of a line it covers that line; on a line of its own it
+//! covers the next line that is not itself only a comment. A diagnostic is covered when its
+//! primary span starts on a covered line. An allow comment that silences nothing, or that
+//! names a rule that does not exist, is reported as `unused-allow` (which cannot itself be
+//! silenced).
+
+use crate::ast::Comment;
+use crate::diagnostic::{Diagnostic, Rule};
+use crate::source::{LineIndex, Span};
+
+/// One parsed silencing comment.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Allow {
+    /// Each rule id as written, with its span.
+    pub rules: Vec<(String, Span)>,
+    pub reason: String,
+    pub span: Span,
+    /// The 0-based line it covers, if any.
+    pub covers: Option<usize>,
+}
+
+/// Parse the text of one comment (`# allow(a, b): why`) into rule ids with byte ranges
+/// relative to the comment's start, and the reason.
+pub fn parse_comment(text: &str) -> Option<(Vec<(String, std::ops::Range<usize>)>, String)> {
+    let rest = text.strip_prefix('#')?;
+    let lead = rest.len() - rest.trim_start().len();
+    let rest = rest.trim_start().strip_prefix("allow(")?;
+    let open = 1 + lead + "allow(".len();
+    let close = rest.find(')')?;
+    let inside = rest.get(..close)?;
+    let mut ids = Vec::new();
+    let mut pos = open;
+    for part in inside.split(',') {
+        let trimmed = part.trim();
+        let lead = part.len() - part.trim_start().len();
+        if !trimmed.is_empty() {
+            ids.push((trimmed.to_string(), pos + lead..pos + lead + trimmed.len()));
+        }
+        pos += part.len() + 1;
+    }
+    if ids.is_empty() {
+        return None;
+    }
+    let after = rest.get(close + 1..).unwrap_or("").trim_start();
+    let reason = after.strip_prefix(':').unwrap_or(after).trim().to_string();
+    Some((ids, reason))
+}
+
+/// Every silencing comment of a file, with the line each covers.
+pub fn collect(src: &str, comments: &[Comment]) -> Vec<Allow> {
+    let index = LineIndex::new(src);
+    let lines: Vec<&str> = src.split('\n').collect();
+    let mut out = Vec::new();
+    for c in comments {
+        let Some((ids, reason)) = parse_comment(&c.text) else {
+            continue;
+        };
+        let start = c.span.start as usize;
+        let line = index.utf8_position(start).0 as usize;
+        let covers = if c.trailing {
+            Some(line)
+        } else {
+            (line + 1..lines.len()).find(|l| {
+                !lines
+                    .get(*l)
+                    .is_some_and(|t| t.trim_start().starts_with('#'))
+            })
+        }
+        .filter(|l| lines.get(*l).is_some_and(|t| !t.trim().is_empty()));
+        out.push(Allow {
+            rules: ids
+                .into_iter()
+                .map(|(id, r)| (id, Span::new(c.span.file, start + r.start, start + r.end)))
+                .collect(),
+            reason,
+            span: c.span,
+            covers,
+        });
+    }
+    out
+}
+
+/// Drop the diagnostics that silencing comments cover and report the comments that cover
+/// nothing. The result still needs sorting.
+pub fn apply(src: &str, comments: &[Comment], diags: Vec<Diagnostic>) -> Vec<Diagnostic> {
+    let allows = collect(src, comments);
+    if allows.is_empty() {
+        return diags;
+    }
+    let index = LineIndex::new(src);
+    let mut used = vec![false; allows.iter().map(|a| a.rules.len()).sum()];
+    let mut out = Vec::with_capacity(diags.len());
+    for d in diags {
+        let line = index.utf8_position(d.span.start as usize).0 as usize;
+        let mut slot = 0;
+        let mut silenced = false;
+        for a in &allows {
+            for (id, _) in &a.rules {
+                if d.rule != Rule::UnusedAllow && a.covers == Some(line) && id == d.rule.id() {
+                    silenced = true;
+                    if let Some(u) = used.get_mut(slot) {
+                        *u = true;
+                    }
+                }
+                slot += 1;
+            }
+        }
+        if !silenced {
+            out.push(d);
+        }
+    }
+    let mut slot = 0;
+    for a in &allows {
+        for (id, span) in &a.rules {
+            let was_used = used.get(slot).copied().unwrap_or(false);
+            slot += 1;
+            if was_used {
+                continue;
+            }
+            if Rule::from_id(id).is_none() {
+                let mut d = Diagnostic::new(
+                    Rule::UnusedAllow,
+                    *span,
+                    format!("'{id}' is not a rule, so this comment silences nothing"),
+                );
+                let ids = Rule::ALL.iter().map(|r| r.id());
+                d = match crate::text::closest(id, ids) {
+                    Some(s) => d.with_help(format!("did you mean '{s}'?")),
+                    None => d.with_help("the rules are listed in docs/language.md"),
+                };
+                out.push(d);
+            } else {
+                let what = match a.covers {
+                    Some(l) => format!("line {}", l + 1),
+                    None => "the line it covers".to_string(),
+                };
+                out.push(
+                    Diagnostic::new(
+                        Rule::UnusedAllow,
+                        *span,
+                        format!("nothing on {what} is reported as '{id}', so this comment silences nothing"),
+                    )
+                    .with_help("remove the comment, or move it to the line it is meant for"),
+                );
+            }
+        }
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::source::FileId;
+
+    fn analyze(src: &str) -> Vec<(String, u32)> {
+        let a = crate::analyze(FileId(0), src, &crate::Options::linear());
+        let idx = LineIndex::new(src);
+        a.diagnostics
+            .iter()
+            .map(|d| {
+                (
+                    d.rule.id().to_string(),
+                    idx.utf8_position(d.span.start as usize).0 + 1,
+                )
+            })
+            .collect()
+    }
+
+    #[test]
+    fn parses_ids_and_reason() {
+        let (ids, reason) = parse_comment("# allow(unit-mismatch, inconsistent): known").unwrap();
+        assert_eq!(ids.len(), 2);
+        assert_eq!(ids[0].0, "unit-mismatch");
+        assert_eq!(
+            &"# allow(unit-mismatch, inconsistent): known"[ids[1].1.clone()],
+            "inconsistent"
+        );
+        assert_eq!(reason, "known");
+        assert!(parse_comment("# allowed to fail").is_none());
+        assert!(parse_comment("# allow(oops").is_none());
+        assert!(parse_comment("# allow(): x").is_none());
+    }
+
+    const BAD: &str = "system \"Tessaly\" {\n  star t { mass = 1.1 Msun }\n  planet b orbits t {\n    period = 12 m/s\n  }\n}\n";
+
+    #[test]
+    fn trailing_comment_silences_its_line() {
+        assert_eq!(analyze(BAD), [("unit-mismatch".to_string(), 4)]);
+        let src = BAD.replace("12 m/s", "12 m/s # allow(unit-mismatch): testing");
+        assert_eq!(analyze(&src), []);
+    }
+
+    #[test]
+    fn comment_above_silences_the_next_code_line() {
+        let src = BAD.replace(
+            "    period",
+            "    # allow(unit-mismatch): testing\n    # another comment\n    period",
+        );
+        assert_eq!(analyze(&src), []);
+    }
+
+    #[test]
+    fn unused_and_unknown_allows_are_reported() {
+        let src = BAD.replace("star t {", "star t { # allow(inconsistent): nothing here\n");
+        let got = analyze(&src);
+        assert!(got.contains(&("unused-allow".to_string(), 2)), "{got:?}");
+        assert!(got.contains(&("unit-mismatch".to_string(), 5)), "{got:?}");
+        let src = BAD.replace("12 m/s", "12 m/s # allow(unit-mismatc): typo");
+        let a = crate::analyze(FileId(0), &src, &crate::Options::linear());
+        let rules: Vec<&str> = a.diagnostics.iter().map(|d| d.rule.id()).collect();
+        assert_eq!(rules, ["unit-mismatch", "unused-allow"]);
+        let d = &a.diagnostics[1];
+        assert_eq!(d.help.as_deref(), Some("did you mean 'unit-mismatch'?"));
+        assert_eq!(&src[d.span.range()], "unit-mismatc");
+    }
+}

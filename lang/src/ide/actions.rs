@@ -1,0 +1,332 @@
+//! Code actions: fixes from diagnostics (did-you-mean, a silencing comment) and rewrites of
+//! the source (declare a derived value, convert a value to another unit).
+
+use super::line_bounds;
+use crate::ast::{self, ExprKind};
+use crate::derive::{display_factor, display_unit, Origin};
+use crate::diagnostic::{Diagnostic, Rule};
+use crate::model::{Content, Form};
+use crate::quantities;
+use crate::source::Span;
+use crate::Analysis;
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum ActionKind {
+    QuickFix,
+    Rewrite,
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct Action {
+    pub title: String,
+    pub kind: ActionKind,
+    pub edits: Vec<(Span, String)>,
+    pub preferred: bool,
+    /// The index in `Analysis::diagnostics` of the diagnostic this fixes.
+    pub fixes: Option<usize>,
+}
+
+fn overlaps(span: Span, range: &std::ops::Range<usize>) -> bool {
+    (span.start as usize) <= range.end && range.start <= (span.end as usize)
+}
+
+/// The suggestion of a "did you mean 'X'?" help.
+pub fn did_you_mean(d: &Diagnostic) -> Option<&str> {
+    let h = d.help.as_deref()?;
+    let rest = h.strip_prefix("did you mean '")?;
+    rest.strip_suffix("'?")
+}
+
+/// Every action for the byte range (a cursor is an empty range).
+pub fn actions(a: &Analysis, src: &str, range: std::ops::Range<usize>) -> Vec<Action> {
+    let mut out = Vec::new();
+    for (i, d) in a.diagnostics.iter().enumerate() {
+        if !overlaps(d.span, &range) {
+            continue;
+        }
+        if let Some(s) = did_you_mean(d) {
+            out.push(Action {
+                title: format!("Replace with '{s}'"),
+                kind: ActionKind::QuickFix,
+                edits: vec![(d.span, s.to_string())],
+                preferred: true,
+                fixes: Some(i),
+            });
+        }
+        if d.rule != Rule::UnusedAllow {
+            out.push(silence(a, src, d, i));
+        }
+    }
+    out.extend(declare_derived(a, src, range.start));
+    out.extend(convert_units(a, src, range.start));
+    out
+}
+
+fn silence(a: &Analysis, src: &str, d: &Diagnostic, i: usize) -> Action {
+    let (start, end) = line_bounds(src, d.span.start as usize);
+    let has_comment = a
+        .ast
+        .comments
+        .iter()
+        .any(|c| (c.span.start as usize) >= start && (c.span.start as usize) <= end);
+    let comment = format!("# allow({}): reason", d.rule.id());
+    let edit = if has_comment {
+        let line = src.get(start..end).unwrap_or("");
+        let indent: String = line.chars().take_while(|c| c.is_whitespace()).collect();
+        (
+            Span::new(a.file, start, start),
+            format!("{indent}{comment}\n"),
+        )
+    } else {
+        (Span::new(a.file, end, end), format!("  {comment}"))
+    };
+    Action {
+        title: format!("Silence '{}' on this line", d.rule.id()),
+        kind: ActionKind::QuickFix,
+        edits: vec![edit],
+        preferred: false,
+        fixes: Some(i),
+    }
+}
+
+/// The body (system and body index) whose declaration contains `offset`.
+fn body_at(a: &Analysis, offset: usize) -> Option<(usize, usize)> {
+    a.model.systems.iter().enumerate().find_map(|(si, s)| {
+        s.bodies
+            .iter()
+            .position(|b| b.span.contains(offset))
+            .map(|bi| (si, bi))
+    })
+}
+
+/// Declare a derived value of the body at `offset` (for catalogue authors who want the
+/// number in the file).
+fn declare_derived(a: &Analysis, src: &str, offset: usize) -> Vec<Action> {
+    let Some((si, bi)) = body_at(a, offset) else {
+        return Vec::new();
+    };
+    let Some(body) = a.model.systems.get(si).and_then(|s| s.bodies.get(bi)) else {
+        return Vec::new();
+    };
+    let end = body.span.end as usize;
+    // The closing brace must be there (an unclosed body has nowhere to insert).
+    if end == 0 || src.get(end - 1..end) != Some("}") {
+        return Vec::new();
+    }
+    let close = end - 1;
+    let (line_start, _) = line_bounds(src, close);
+    let before_close = src.get(line_start..close).unwrap_or("");
+    let one_line = !before_close.trim().is_empty();
+    let header_line = line_bounds(src, body.name_span.start as usize).0;
+    let base_indent: String = src
+        .get(header_line..)
+        .unwrap_or("")
+        .chars()
+        .take_while(|c| *c == ' ' || *c == '\t')
+        .collect();
+    let Some(res) = a.results.get(si).and_then(|r| r.bodies.get(bi)) else {
+        return Vec::new();
+    };
+    let mut out = Vec::new();
+    for q in &res.quantities {
+        if q.origin != Origin::Derived || !q.value.is_finite() {
+            continue;
+        }
+        let def = quantities::def(q.qty);
+        let unit = display_unit(q.qty, q.value);
+        let f = display_factor(unit);
+        let lit = crate::format::literal_text(q.value / f, q.below / f, q.above / f);
+        let value = if unit == "1" {
+            lit
+        } else {
+            format!("{lit} {unit}")
+        };
+        let stmt = format!("{} = {value}", def.name);
+        let edit = if one_line {
+            (Span::new(a.file, close, close), format!("; {stmt} "))
+        } else {
+            (
+                Span::new(a.file, line_start, line_start),
+                format!("{base_indent}  {stmt}\n"),
+            )
+        };
+        out.push(Action {
+            title: format!("Declare {}.{} = {value} (derived)", body.id, def.name),
+            kind: ActionKind::Rewrite,
+            edits: vec![edit],
+            preferred: false,
+            fixes: None,
+        });
+    }
+    out
+}
+
+/// The literal value of the property at `offset`, with its unit.
+fn literal_prop_at<'a>(
+    a: &'a Analysis,
+    offset: usize,
+) -> Option<(&'a ast::BodyDecl, &'a ast::Prop, Span)> {
+    for sys in &a.ast.systems {
+        for b in &sys.bodies {
+            for p in &b.props {
+                if !p.span.contains(offset) {
+                    continue;
+                }
+                let ast::PropValue::Expr(e) = &p.value else {
+                    return None;
+                };
+                let lit = match &e.kind {
+                    ExprKind::Literal(l) => l,
+                    ExprKind::Neg(x) => match &x.kind {
+                        ExprKind::Literal(l) => l,
+                        _ => return None,
+                    },
+                    _ => return None,
+                };
+                lit.unit.as_ref()?;
+                return Some((b, p, e.span));
+            }
+        }
+    }
+    None
+}
+
+/// Convert a declared value to another unit of its dimension.
+fn convert_units(a: &Analysis, _src: &str, offset: usize) -> Vec<Action> {
+    let Some((b, p, span)) = literal_prop_at(a, offset) else {
+        return Vec::new();
+    };
+    let Some(def) = quantities::find(b.kind, &p.name.name) else {
+        return Vec::new();
+    };
+    let Some(m) = a.model.systems.iter().find_map(|s| {
+        let body = s.bodies.iter().find(|x| x.name_span == b.name.span)?;
+        let d = body.get(def.qty)?;
+        match &d.content {
+            Content::Measured(m) if d.name_span == p.name.span => {
+                Some((*m, d.written_unit.clone()))
+            }
+            _ => None,
+        }
+    }) else {
+        return Vec::new();
+    };
+    let (m, written) = m;
+    let mut out = Vec::new();
+    for (sym, name) in crate::units::units_for(def.dim) {
+        if Some(&sym) == written.as_ref()
+            || name.starts_with("Julian date") != (def.qty == quantities::Qty::TransitEpoch)
+        {
+            continue;
+        }
+        let f = display_factor(&sym);
+        if !(f.is_finite() && f > 0.0) {
+            continue;
+        }
+        let lit = match m.form {
+            Form::Exact | Form::UpperLimit | Form::LowerLimit => crate::format::number(m.value / f),
+            _ => crate::format::literal_text(m.value / f, m.below / f, m.above / f),
+        };
+        out.push(Action {
+            title: format!("Convert to {sym} ({name})"),
+            kind: ActionKind::Rewrite,
+            edits: vec![(span, format!("{lit} {sym}"))],
+            preferred: false,
+            fixes: None,
+        });
+    }
+    out
+}
+
+/// Apply edits (non-overlapping byte spans) to a text.
+pub fn apply_edits(src: &str, edits: &[(Span, String)]) -> String {
+    let mut sorted: Vec<&(Span, String)> = edits.iter().collect();
+    sorted.sort_by_key(|(s, _)| std::cmp::Reverse((s.start, s.end)));
+    let mut out = src.to_string();
+    for (s, t) in sorted {
+        let (a, b) = (s.start as usize, s.end as usize);
+        if a <= b && b <= out.len() && out.is_char_boundary(a) && out.is_char_boundary(b) {
+            out.replace_range(a..b, t);
+        }
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::ide::result;
+    use crate::source::FileId;
+
+    fn run(src: &str, at: &str) -> (crate::Analysis, Vec<Action>) {
+        let a = crate::analyze(FileId(0), src, &crate::Options::linear());
+        let off = src.find(at).unwrap();
+        let acts = actions(&a, src, off..off);
+        (a, acts)
+    }
+
+    const SRC: &str = "system \"S\" {\n  star s {\n    mass = 1.0 ± 0.05 Msun\n    radius = 1.0 ± 0.02 Rsun\n  }\n  planet b orbits s {\n    perod = 3 d\n    rv_amplitude = 30 ± 2 m/s\n  }\n}\n";
+
+    #[test]
+    fn did_you_mean_fix_makes_the_error_go_away() {
+        let (_, acts) = run(SRC, "perod");
+        let fix = acts
+            .iter()
+            .find(|x| x.title == "Replace with 'period'")
+            .unwrap();
+        let fixed = apply_edits(SRC, &fix.edits);
+        let a = crate::analyze(FileId(0), &fixed, &crate::Options::linear());
+        assert!(!a.has_errors(), "{:?}", a.diagnostics);
+    }
+
+    #[test]
+    fn silencing_comment_silences() {
+        let (_, acts) = run(SRC, "perod");
+        let s = acts
+            .iter()
+            .find(|x| x.title.starts_with("Silence 'unknown-quantity'"))
+            .unwrap();
+        let fixed = apply_edits(SRC, &s.edits);
+        assert!(
+            fixed.contains("perod = 3 d  # allow(unknown-quantity): reason"),
+            "{fixed}"
+        );
+        let a = crate::analyze(FileId(0), &fixed, &crate::Options::linear());
+        assert!(a
+            .diagnostics
+            .iter()
+            .all(|d| d.rule != Rule::UnknownQuantity));
+    }
+
+    #[test]
+    fn declare_a_derived_value() {
+        let fixed_src = SRC.replace("perod", "period");
+        let (_, acts) = run(&fixed_src, "rv_amplitude");
+        let d = acts
+            .iter()
+            .find(|x| x.title.starts_with("Declare b.semi_major_axis = "))
+            .unwrap();
+        let out = apply_edits(&fixed_src, &d.edits);
+        assert!(out.contains("    semi_major_axis = 0.04"), "{out}");
+        let a = crate::analyze(FileId(0), &out, &crate::Options::linear());
+        assert!(!a.has_errors(), "{:?}", a.diagnostics);
+        let q = result(&a, 0, 1, quantities::Qty::SemiMajorAxis).unwrap();
+        assert_eq!(q.origin, Origin::Declared);
+    }
+
+    #[test]
+    fn convert_keeps_the_value() {
+        let (a0, acts) = run(SRC, "30 ± 2");
+        let c = acts
+            .iter()
+            .find(|x| x.title.starts_with("Convert to km/s"))
+            .unwrap();
+        let out = apply_edits(SRC, &c.edits);
+        assert!(out.contains("rv_amplitude = 0.0300 ± 0.0020 km/s"), "{out}");
+        let a = crate::analyze(FileId(0), &out, &crate::Options::linear());
+        let before = result(&a0, 0, 1, quantities::Qty::RvAmplitude).unwrap();
+        let after = result(&a, 0, 1, quantities::Qty::RvAmplitude).unwrap();
+        assert!((before.value - after.value).abs() < 1e-9 * before.value);
+        assert!(!acts.iter().any(|x| x.title.starts_with("Convert to m/s ")));
+    }
+}

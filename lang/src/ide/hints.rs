@@ -1,0 +1,136 @@
+//! Inlay hints: the key derived values of each body after its opening brace, and beside a
+//! declared value the value the engine derives for it from other measurements.
+
+use super::{open_brace_after, result, shown};
+use crate::derive::Origin;
+use crate::model::Form;
+use crate::quantities::Qty;
+use crate::Analysis;
+
+/// One hint: where it goes (a byte offset) and its text.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Hint {
+    pub offset: usize,
+    pub label: String,
+    /// Tooltip text.
+    pub detail: String,
+}
+
+const PLANET_KEYS: &[(Qty, &str)] = &[
+    (Qty::SemiMajorAxis, "a"),
+    (Qty::Mass, "M"),
+    (Qty::MinMass, "M sin i"),
+    (Qty::Radius, "R"),
+    (Qty::Density, "ρ"),
+    (Qty::Teq, "Teq"),
+];
+
+const STAR_KEYS: &[(Qty, &str)] = &[
+    (Qty::Luminosity, "L"),
+    (Qty::LogG, "log g"),
+    (Qty::StarDensity, "ρ"),
+];
+
+/// All hints whose offset lies in `range` (byte offsets).
+pub fn hints(a: &Analysis, src: &str, range: std::ops::Range<usize>) -> Vec<Hint> {
+    let mut out = Vec::new();
+    for (si, sys) in a.model.systems.iter().enumerate() {
+        if (sys.span.end as usize) < range.start || (sys.span.start as usize) > range.end {
+            continue;
+        }
+        for (bi, b) in sys.bodies.iter().enumerate() {
+            let keys = match b.kind {
+                crate::ast::BodyKind::Planet => PLANET_KEYS,
+                crate::ast::BodyKind::Star => STAR_KEYS,
+            };
+            let mut parts = Vec::new();
+            for (qty, label) in keys {
+                // A true mass makes the minimum mass redundant.
+                if *qty == Qty::MinMass && result(a, si, bi, Qty::Mass).is_some() {
+                    continue;
+                }
+                if let Some(q) = result(a, si, bi, *qty) {
+                    if q.origin == Origin::Derived && q.value.is_finite() {
+                        parts.push(format!(
+                            "{label} = {}",
+                            shown(*qty, q.value, q.below, q.above, q.form)
+                        ));
+                    }
+                }
+            }
+            if !parts.is_empty() {
+                if let Some(brace) = open_brace_after(src, b.name_span.end as usize) {
+                    let offset = brace + 1;
+                    if range.contains(&offset) || offset == range.end {
+                        out.push(Hint {
+                            offset,
+                            label: parts.join(" · "),
+                            detail: format!(
+                                "derived for {} (hover a name for the full table)",
+                                b.id
+                            ),
+                        });
+                    }
+                }
+            }
+            for d in &b.declared {
+                let offset = d.span.end as usize;
+                if !(range.contains(&offset) || offset == range.end) {
+                    continue;
+                }
+                let Some(alt) = a.results.get(si).and_then(|r| r.alternative((bi, d.qty))) else {
+                    continue;
+                };
+                out.push(Hint {
+                    offset,
+                    label: format!(
+                        "derived {}",
+                        shown(d.qty, alt.value, alt.below, alt.above, Form::Asymmetric)
+                    ),
+                    detail: format!("by {} from other measurements of the system", alt.rule),
+                });
+            }
+        }
+    }
+    out.sort_by_key(|h| h.offset);
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::source::FileId;
+
+    #[test]
+    fn body_hints_show_derived_values() {
+        let src = include_str!("../../../examples/veyra.syz");
+        let a = crate::analyze(FileId(0), src, &crate::Options::linear());
+        let h = hints(&a, src, 0..src.len());
+        let b = src.find("planet b orbits veyra {").unwrap() + "planet b orbits veyra {".len();
+        let hb = h.iter().find(|x| x.offset == b).unwrap();
+        assert!(hb.label.starts_with("a = 0.04"), "{}", hb.label);
+        assert!(
+            hb.label.contains("ρ = ") && hb.label.contains("g/cm^3"),
+            "{}",
+            hb.label
+        );
+        let star = src.find("star veyra {").unwrap() + "star veyra {".len();
+        assert!(h
+            .iter()
+            .any(|x| x.offset == star && x.label.contains("log g = ")));
+        assert!(hints(&a, src, 0..10).is_empty());
+    }
+
+    #[test]
+    fn declared_value_that_can_be_derived_gets_a_hint() {
+        let src = "system \"S\" {\n  star s { mass = 1.0 ± 0.05 Msun; radius = 1.0 ± 0.02 Rsun\n    log_g = 4.44 ± 0.05 }\n}\n";
+        let a = crate::analyze(FileId(0), src, &crate::Options::linear());
+        let h = hints(&a, src, 0..src.len());
+        let end = src.find("4.44 ± 0.05").unwrap() + "4.44 ± 0.05".len();
+        let x = h
+            .iter()
+            .find(|x| x.offset == end)
+            .expect("hint after log_g");
+        assert!(x.label.starts_with("derived 4.4"), "{}", x.label);
+    }
+}

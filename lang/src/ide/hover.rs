@@ -1,0 +1,270 @@
+//! Hover text (Markdown) for what is at an offset: a quantity, a body, a unit, a reference or
+//! a binding.
+
+use super::symbols::{self, Occurrence, Symbol};
+use super::{result, shown, shown_in};
+use crate::derive::{display_unit, Origin, QuantityResult};
+use crate::model::Form;
+use crate::quantities::{self, Qty};
+use crate::source::Span;
+use crate::Analysis;
+
+/// Hover text and the span it describes.
+pub fn hover(a: &Analysis, occ: &[Occurrence], offset: usize) -> Option<(String, Span)> {
+    let o = symbols::at(occ, offset)?;
+    let text = match &o.symbol {
+        Symbol::Quantity { system, body, qty } => quantity(a, *system, body, *qty)?,
+        Symbol::Body { system, name } => body_table(a, *system, name)?,
+        Symbol::Unit(sym) => unit(sym)?,
+        Symbol::Ref(id) => match a.model.refs.iter().find(|r| &r.id == id) {
+            Some(r) => format!("**reference `{id}`**\n\n{}", r.text),
+            None => format!("**reference `{id}`** is not declared in this file"),
+        },
+        Symbol::Let { system, body, name } => binding(a, *system, body.as_deref(), name)?,
+        Symbol::Builtin(name) => builtin(name),
+    };
+    Some((text, o.span))
+}
+
+fn builtin(name: &str) -> String {
+    match crate::model::constant(name) {
+        Some((v, dim, what)) => format!(
+            "**constant `{name}`** — {what}\n\n`{}` {}",
+            crate::format::number(v),
+            dim.si_unit()
+        ),
+        None => format!("**function `{name}`** (one argument)"),
+    }
+}
+
+fn binding(a: &Analysis, si: usize, body: Option<&str>, name: &str) -> Option<String> {
+    let sys = a.model.systems.get(si)?;
+    let lets = match body {
+        Some(b) => &sys.bodies.get(sys.body(b)?)?.lets,
+        None => &sys.lets,
+    };
+    let l = lets.iter().find(|l| l.name == name)?;
+    let dim = l.dim.map_or_else(
+        || "unknown (see the diagnostics)".to_string(),
+        |d| d.describe(),
+    );
+    let scope = body.map_or_else(
+        || format!("system \"{}\"", sys.name),
+        |b| format!("body `{b}`"),
+    );
+    Some(format!("**`let {name}`** in {scope}\n\ndimension: {dim}"))
+}
+
+fn key_name(a: &Analysis, si: usize, k: crate::derive::Key) -> String {
+    let b = a
+        .model
+        .systems
+        .get(si)
+        .and_then(|s| s.bodies.get(k.0))
+        .map_or("?", |b| b.id.as_str());
+    format!("{b}.{}", quantities::def(k.1).name)
+}
+
+/// The value in other common units of its dimension.
+fn other_units(q: &QuantityResult) -> Vec<String> {
+    let def = quantities::def(q.qty);
+    let main = display_unit(q.qty, q.value);
+    let mut out = Vec::new();
+    for (sym, name) in crate::units::units_for(def.dim) {
+        if sym == main || name.starts_with("Julian date") || sym == "dex" {
+            continue;
+        }
+        let shown_value = (q.value / crate::derive::display_factor(&sym)).abs();
+        if !(1e-3..1e6).contains(&shown_value) {
+            continue;
+        }
+        out.push(shown_in(q.value, q.below, q.above, q.form, &sym));
+        if out.len() == 5 {
+            break;
+        }
+    }
+    if !def.dim.is_none()
+        && main != def.dim.si_unit()
+        && !out
+            .iter()
+            .any(|s| s.ends_with(&format!(" {}", def.dim.si_unit())))
+    {
+        out.push(shown_in(
+            q.value,
+            q.below,
+            q.above,
+            q.form,
+            &def.dim.si_unit(),
+        ));
+    }
+    out
+}
+
+/// The hover of one quantity of one body.
+pub fn quantity(a: &Analysis, si: usize, body: &str, qty: Qty) -> Option<String> {
+    let sys = a.model.systems.get(si)?;
+    let bi = sys.body(body)?;
+    let def = quantities::def(qty);
+    let mut out = format!("**{body}.{}** — {}\n\n", def.name, def.doc);
+    let Some(q) = result(a, si, bi, qty) else {
+        out.push_str(&format!(
+            "dimension: {}\n\nnot declared, and not derivable from what the file declares",
+            def.dim.describe()
+        ));
+        return Some(out);
+    };
+    out.push_str(&format!(
+        "`{}` ({})\n\n",
+        crate::report::value_text(q),
+        q.origin.as_str()
+    ));
+    out.push_str(&format!("- dimension: {}\n", def.dim.describe()));
+    if q.text.is_none() && q.value.is_finite() {
+        let others = other_units(q);
+        if !others.is_empty() {
+            out.push_str(&format!("- also: {}\n", others.join(" · ")));
+        }
+    }
+    out.push_str(&format!(
+        "- origin: {}\n",
+        crate::report::provenance_text(a, si, q)
+    ));
+    if let Some(f) = q.formula {
+        out.push_str(&format!("- formula: `{f}`\n"));
+    }
+    if let Some(alt) = a.results.get(si).and_then(|r| r.alternative((bi, qty))) {
+        let inputs: Vec<String> = alt.inputs.iter().map(|k| key_name(a, si, *k)).collect();
+        out.push_str(&format!(
+            "- derived from other measurements: `{}` by {} from {}\n",
+            shown(qty, alt.value, alt.below, alt.above, Form::Asymmetric),
+            alt.rule,
+            inputs.join(", ")
+        ));
+    }
+    for c in &q.citations {
+        if let Some(r) = a.model.refs.iter().find(|r| &r.id == c) {
+            out.push_str(&format!("- [{c}] {}\n", r.text));
+        }
+    }
+    if q.origin == Origin::Derived && !q.budget.is_empty() {
+        out.push_str("\nerror budget (share of the variance):\n");
+        for (input, share) in &q.budget {
+            out.push_str(&format!("- {input}: {:.1} %\n", share * 100.0));
+        }
+    }
+    if !q.assumptions.is_empty() {
+        out.push_str("\nassumed:\n");
+        for s in &q.assumptions {
+            out.push_str(&format!("- {s}\n"));
+        }
+    }
+    for n in &q.notes {
+        out.push_str(&format!("\nnote: {n}\n"));
+    }
+    Some(out)
+}
+
+/// The hover of a body: all its quantities in a table.
+pub fn body_table(a: &Analysis, si: usize, name: &str) -> Option<String> {
+    let sys = a.model.systems.get(si)?;
+    let Some(bi) = sys.body(name) else {
+        return Some(format!("no body `{name}` in system \"{}\"", sys.name));
+    };
+    let b = sys.bodies.get(bi)?;
+    let host = b
+        .orbits
+        .and_then(|h| sys.bodies.get(h))
+        .map(|h| format!(" orbiting `{}`", h.id))
+        .unwrap_or_default();
+    let mut out = format!(
+        "**{} `{}`**{host} in system \"{}\"\n\n| quantity | value | origin |\n|---|---|---|\n",
+        b.kind.as_str(),
+        b.id,
+        sys.name
+    );
+    if let Some(r) = a.results.get(si).and_then(|r| r.bodies.get(bi)) {
+        for q in &r.quantities {
+            out.push_str(&format!(
+                "| {} | {} | {} |\n",
+                quantities::def(q.qty).name,
+                crate::report::value_text(q).replace('|', "\\|"),
+                q.origin.as_str()
+            ));
+        }
+    }
+    if let Some(c) = a.composition_text.get(&(si, b.id.clone())) {
+        out.push_str(&format!("\ncomposition: {c}\n"));
+    } else if let Some(c) = a.composition.get(&(si, b.id.clone())) {
+        out.push_str(&format!("\ncomposition: `{c}`\n"));
+    }
+    Some(out)
+}
+
+/// The hover of a unit symbol: its name, value in SI and source.
+pub fn unit(sym: &str) -> Option<String> {
+    let Some((factor, def)) = crate::units::lookup(sym) else {
+        return Some(format!(
+            "unknown unit `{sym}`{}",
+            crate::units::suggest(sym)
+                .map_or_else(String::new, |s| format!(" (did you mean `{s}`?)"))
+        ));
+    };
+    let prefixed = if def.symbol == sym || def.aliases.contains(&sym) {
+        String::new()
+    } else {
+        format!(" (an SI prefix on `{}`)", def.symbol)
+    };
+    Some(format!(
+        "**`{sym}`** — {}{prefixed}\n\n`1 {sym} = {} {}` ({})\n\nsource: {}",
+        def.name,
+        crate::format::number(factor),
+        def.dim.si_unit(),
+        def.dim.describe(),
+        def.source
+    ))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::source::FileId;
+
+    const VEYRA: &str = include_str!("../../../examples/veyra.syz");
+
+    fn hover_at(needle: &str, nth: usize) -> String {
+        let a = crate::analyze(FileId(0), VEYRA, &crate::Options::linear());
+        let occ = symbols::occurrences(&a.ast);
+        let off = VEYRA
+            .match_indices(needle)
+            .nth(nth)
+            .map(|(i, _)| i)
+            .unwrap();
+        hover(&a, &occ, off).map(|h| h.0).unwrap_or_default()
+    }
+
+    #[test]
+    fn quantity_hover_has_meaning_value_and_provenance() {
+        let h = hover_at("period", 0);
+        assert!(h.contains("**b.period** — Orbital period."), "{h}");
+        assert!(h.contains("3.524740 ± 0.000020 d"), "{h}");
+        assert!(h.contains("a time (s)"), "{h}");
+        assert!(h.contains("84.59376 ± 0.00048 h"), "other units: {h}");
+        assert!(!h.contains("Myr"), "unreadably small: {h}");
+        assert!(h.contains("[ph1] Demo photometry"), "{h}");
+    }
+
+    #[test]
+    fn body_hover_lists_derived_quantities() {
+        let h = hover_at("b orbits", 0);
+        assert!(h.contains("| semi_major_axis |"), "{h}");
+        assert!(h.contains("| derived |"), "{h}");
+    }
+
+    #[test]
+    fn unit_hover_names_its_source() {
+        let h = hover_at("Msun", 0);
+        assert!(h.contains("nominal solar mass"), "{h}");
+        assert!(h.contains("IAU 2015"), "{h}");
+        assert!(unit("km").unwrap().contains("1 km = 1000 m"));
+    }
+}

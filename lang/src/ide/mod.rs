@@ -1,0 +1,65 @@
+//! Editor queries over one analysed file: what is at an offset, hover text, inlay hints,
+//! completion candidates, code actions, outline, folding and token classes. Everything here
+//! takes and returns byte offsets and plain data; the language server only converts them to
+//! protocol types and positions.
+
+pub mod actions;
+pub mod complete;
+pub mod hints;
+pub mod hover;
+pub mod outline;
+pub mod symbols;
+
+use crate::derive::{display_factor, display_unit, QuantityResult};
+use crate::model::Form;
+use crate::quantities::Qty;
+use crate::Analysis;
+
+/// The result of a quantity of a body, if the engine has one.
+pub fn result(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<&QuantityResult> {
+    a.results.get(si)?.bodies.get(bi)?.get(qty)
+}
+
+/// `0.0443 ± 0.0006 au` for a value in SI, shown in a given unit.
+pub fn shown_in(value: f64, below: f64, above: f64, form: Form, unit: &str) -> String {
+    let f = display_factor(unit);
+    let v = match form {
+        Form::UpperLimit => format!("< {}", crate::format::number(value / f)),
+        Form::LowerLimit => format!("> {}", crate::format::number(value / f)),
+        Form::Exact => crate::format::number(value / f),
+        _ => crate::format::with_uncertainty(value / f, below / f, above / f),
+    };
+    if unit == "1" || unit.is_empty() {
+        v
+    } else {
+        format!("{v} {unit}")
+    }
+}
+
+/// A value in its display unit.
+pub fn shown(qty: Qty, value: f64, below: f64, above: f64, form: Form) -> String {
+    shown_in(value, below, above, form, display_unit(qty, value))
+}
+
+/// The byte offset of the first `{` at or after `from`, outside strings and comments.
+pub(crate) fn open_brace_after(src: &str, from: usize) -> Option<usize> {
+    let rest = src.get(from..)?;
+    crate::lexer::lex(rest)
+        .into_iter()
+        .find(|t| t.kind == crate::lexer::Tok::LBrace)
+        .map(|t| from + t.start)
+}
+
+/// Start and end (exclusive, before the newline) of the line holding `offset`.
+pub(crate) fn line_bounds(src: &str, offset: usize) -> (usize, usize) {
+    let offset = offset.min(src.len());
+    let start = src
+        .get(..offset)
+        .and_then(|s| s.rfind('\n'))
+        .map_or(0, |i| i + 1);
+    let end = src
+        .get(offset..)
+        .and_then(|s| s.find('\n'))
+        .map_or(src.len(), |i| offset + i);
+    (start, end)
+}

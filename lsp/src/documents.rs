@@ -1,0 +1,237 @@
+//! Open documents. Each change makes a new immutable [`Snapshot`] (text, line index,
+//! generation); its analysis is computed at most once, on first use, off the request thread.
+
+use std::collections::HashMap;
+use std::sync::atomic::{AtomicU64, Ordering};
+use std::sync::{Arc, Mutex, OnceLock};
+use syzygy::ide::symbols::{self, Occurrence};
+use syzygy::source::{FileId, LineIndex, Span};
+use syzygy::{Analysis, Options};
+use tower_lsp::lsp_types::{Position, Range, TextDocumentContentChangeEvent, Url};
+
+/// How the client counts columns.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Encoding {
+    Utf16,
+    Utf8,
+}
+
+pub struct Snapshot {
+    pub text: Arc<str>,
+    pub index: LineIndex,
+    pub version: i32,
+    /// Increases with every change of any document; a result computed for an older
+    /// generation is stale.
+    pub generation: u64,
+    analysis: OnceLock<Arc<Analysis>>,
+    occurrences: OnceLock<Vec<Occurrence>>,
+}
+
+impl Snapshot {
+    pub fn new(text: String, version: i32, generation: u64) -> Snapshot {
+        let index = LineIndex::new(&text);
+        Snapshot {
+            text: Arc::from(text),
+            index,
+            version,
+            generation,
+            analysis: OnceLock::new(),
+            occurrences: OnceLock::new(),
+        }
+    }
+
+    /// The analysis, computed on first use. The editor view uses linear propagation so that
+    /// typing stays smooth; `syz eval` defaults to Monte Carlo.
+    pub fn analysis(&self) -> Arc<Analysis> {
+        self.analysis
+            .get_or_init(|| Arc::new(syzygy::analyze(FileId(0), &self.text, &Options::linear())))
+            .clone()
+    }
+
+    pub fn analysis_ready(&self) -> Option<Arc<Analysis>> {
+        self.analysis.get().cloned()
+    }
+
+    pub fn occurrences(&self) -> &[Occurrence] {
+        self.occurrences
+            .get_or_init(|| symbols::occurrences(&self.analysis().ast))
+    }
+
+    pub fn offset(&self, pos: Position, enc: Encoding) -> usize {
+        match enc {
+            Encoding::Utf16 => self
+                .index
+                .offset_of_utf16(&self.text, pos.line, pos.character),
+            Encoding::Utf8 => self
+                .index
+                .offset_of_utf8(&self.text, pos.line, pos.character),
+        }
+    }
+
+    pub fn position(&self, offset: usize, enc: Encoding) -> Position {
+        let (line, character) = match enc {
+            Encoding::Utf16 => self.index.utf16_position(&self.text, offset),
+            Encoding::Utf8 => {
+                let mut o = offset.min(self.text.len());
+                while o > 0 && !self.text.is_char_boundary(o) {
+                    o -= 1;
+                }
+                self.index.utf8_position(o)
+            }
+        };
+        Position { line, character }
+    }
+
+    pub fn range(&self, span: Span, enc: Encoding) -> Range {
+        Range {
+            start: self.position(span.start as usize, enc),
+            end: self.position(span.end as usize, enc),
+        }
+    }
+
+    pub fn span(&self, range: Range, enc: Encoding) -> Span {
+        let a = self.offset(range.start, enc);
+        let b = self.offset(range.end, enc);
+        Span::new(FileId(0), a.min(b), a.max(b))
+    }
+}
+
+/// Apply content changes in order (each range refers to the text after the previous one).
+pub fn apply_changes(
+    text: &str,
+    changes: Vec<TextDocumentContentChangeEvent>,
+    enc: Encoding,
+) -> String {
+    let mut text = text.to_string();
+    for c in changes {
+        match c.range {
+            None => text = c.text,
+            Some(r) => {
+                let snap = Snapshot::new(std::mem::take(&mut text), 0, 0);
+                let span = snap.span(r, enc);
+                let mut t = snap.text.to_string();
+                t.replace_range(span.range(), &c.text);
+                text = t;
+            }
+        }
+    }
+    text
+}
+
+#[derive(Default)]
+pub struct Documents {
+    docs: Mutex<HashMap<Url, Arc<Snapshot>>>,
+    generation: AtomicU64,
+}
+
+impl Documents {
+    fn lock(&self) -> std::sync::MutexGuard<'_, HashMap<Url, Arc<Snapshot>>> {
+        // A panic while the lock was held leaves plain data behind; go on with it.
+        self.docs.lock().unwrap_or_else(|e| e.into_inner())
+    }
+
+    pub fn open(&self, uri: Url, text: String, version: i32) -> Arc<Snapshot> {
+        let g = self.generation.fetch_add(1, Ordering::SeqCst) + 1;
+        let snap = Arc::new(Snapshot::new(text, version, g));
+        self.lock().insert(uri, snap.clone());
+        snap
+    }
+
+    /// Apply a change under the lock, so concurrent changes never interleave.
+    pub fn change(
+        &self,
+        uri: &Url,
+        version: i32,
+        changes: Vec<TextDocumentContentChangeEvent>,
+        enc: Encoding,
+    ) -> Option<Arc<Snapshot>> {
+        let mut docs = self.lock();
+        let old = docs.get(uri)?;
+        let text = apply_changes(&old.text, changes, enc);
+        let g = self.generation.fetch_add(1, Ordering::SeqCst) + 1;
+        let snap = Arc::new(Snapshot::new(text, version, g));
+        docs.insert(uri.clone(), snap.clone());
+        Some(snap)
+    }
+
+    pub fn close(&self, uri: &Url) {
+        self.lock().remove(uri);
+    }
+
+    pub fn get(&self, uri: &Url) -> Option<Arc<Snapshot>> {
+        self.lock().get(uri).cloned()
+    }
+
+    pub fn is_current(&self, uri: &Url, generation: u64) -> bool {
+        self.lock()
+            .get(uri)
+            .is_some_and(|s| s.generation == generation)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    #![allow(clippy::unwrap_used)]
+    use super::*;
+
+    fn change(line: u32, a: u32, b: u32, text: &str) -> TextDocumentContentChangeEvent {
+        TextDocumentContentChangeEvent {
+            range: Some(Range {
+                start: Position { line, character: a },
+                end: Position { line, character: b },
+            }),
+            range_length: None,
+            text: text.to_string(),
+        }
+    }
+
+    #[test]
+    fn incremental_changes_apply_in_order_in_utf16() {
+        // '☉' is one UTF-16 unit and three UTF-8 bytes; '𝑀' is two UTF-16 units.
+        let text = "m = 1 M☉ 𝑀x\nnext";
+        let out = apply_changes(
+            text,
+            vec![
+                change(0, 11, 12, "y"),
+                change(0, 0, 1, "mass"),
+                change(5, 0, 0, "!"),
+            ],
+            Encoding::Utf16,
+        );
+        assert_eq!(out, "mass = 1 M☉ 𝑀y\nnext!");
+        let out8 = apply_changes(text, vec![change(0, 6, 10, "Msun")], Encoding::Utf8);
+        assert_eq!(out8, "m = 1 Msun 𝑀x\nnext");
+    }
+
+    #[test]
+    fn positions_past_the_end_are_clamped() {
+        let s = Snapshot::new("ab\ncd".to_string(), 1, 1);
+        assert_eq!(
+            s.offset(
+                Position {
+                    line: 0,
+                    character: 99
+                },
+                Encoding::Utf16
+            ),
+            2
+        );
+        assert_eq!(
+            s.offset(
+                Position {
+                    line: 99,
+                    character: 0
+                },
+                Encoding::Utf16
+            ),
+            5
+        );
+        assert_eq!(
+            s.position(999, Encoding::Utf8),
+            Position {
+                line: 1,
+                character: 2
+            }
+        );
+    }
+}

@@ -1,0 +1,531 @@
+//! The `LanguageServer` implementation: protocol types in, calls into `syzygy::ide`, protocol
+//! types out. Document text is updated synchronously at the top of each notification (before
+//! any `.await`), because tower-lsp runs handlers concurrently.
+
+use crate::convert;
+use crate::documents::{Documents, Encoding, Snapshot};
+use std::collections::HashMap;
+use std::sync::{Arc, Mutex, OnceLock};
+use std::time::Duration;
+use syzygy::ide;
+use tower_lsp::jsonrpc::{Error, Result};
+use tower_lsp::lsp_types::*;
+use tower_lsp::{Client, LanguageServer};
+
+/// How long diagnostics wait for more typing before they are computed.
+pub const DEBOUNCE: Duration = Duration::from_millis(20);
+
+pub struct Backend {
+    client: Client,
+    state: Arc<State>,
+}
+
+#[derive(Default)]
+struct State {
+    docs: Documents,
+    encoding: OnceLock<Encoding>,
+    folders: Mutex<Vec<WorkspaceFolder>>,
+}
+
+impl State {
+    fn enc(&self) -> Encoding {
+        self.encoding.get().copied().unwrap_or(Encoding::Utf16)
+    }
+}
+
+impl Backend {
+    pub fn new(client: Client) -> Backend {
+        Backend {
+            client,
+            state: Arc::new(State::default()),
+        }
+    }
+
+    fn enc(&self) -> Encoding {
+        self.state.enc()
+    }
+
+    /// Compute and publish diagnostics for one generation after the debounce delay; a
+    /// generation overtaken by a newer change is dropped before and after analysis.
+    fn schedule_diagnostics(&self, uri: Url, snap: Arc<Snapshot>) {
+        let state = self.state.clone();
+        let client = self.client.clone();
+        tokio::spawn(async move {
+            tokio::time::sleep(DEBOUNCE).await;
+            if !state.docs.is_current(&uri, snap.generation) {
+                return;
+            }
+            let Some(analysis) = analysis_of(&snap).await else {
+                return;
+            };
+            if !state.docs.is_current(&uri, snap.generation) {
+                return;
+            }
+            let enc = state.enc();
+            let diags = analysis
+                .diagnostics
+                .iter()
+                .map(|d| convert::diagnostic(d, &snap, &uri, enc))
+                .collect();
+            client
+                .publish_diagnostics(uri, diags, Some(snap.version))
+                .await;
+        });
+    }
+
+    fn snapshot(&self, uri: &Url) -> Result<Arc<Snapshot>> {
+        self.state.docs.get(uri).ok_or_else(|| {
+            let mut e = Error::invalid_params(format!("{uri} is not open"));
+            e.data = None;
+            e
+        })
+    }
+}
+
+/// The snapshot's analysis, computed on a blocking thread if it is not there yet.
+async fn analysis_of(snap: &Arc<Snapshot>) -> Option<Arc<syzygy::Analysis>> {
+    if let Some(a) = snap.analysis_ready() {
+        return Some(a);
+    }
+    let s = snap.clone();
+    tokio::task::spawn_blocking(move || {
+        let a = s.analysis();
+        let _ = s.occurrences();
+        a
+    })
+    .await
+    .ok()
+}
+
+async fn ready(snap: &Arc<Snapshot>) -> Result<Arc<syzygy::Analysis>> {
+    analysis_of(snap)
+        .await
+        .ok_or_else(|| Error::internal_error())
+}
+
+fn edit(uri: &Url, edits: Vec<TextEdit>) -> WorkspaceEdit {
+    WorkspaceEdit {
+        changes: Some(HashMap::from([(uri.clone(), edits)])),
+        document_changes: None,
+        change_annotations: None,
+    }
+}
+
+#[tower_lsp::async_trait]
+impl LanguageServer for Backend {
+    async fn initialize(&self, params: InitializeParams) -> Result<InitializeResult> {
+        let utf8 = params
+            .capabilities
+            .general
+            .as_ref()
+            .and_then(|g| g.position_encodings.as_ref())
+            .is_some_and(|e| e.contains(&PositionEncodingKind::UTF8));
+        let enc = if utf8 {
+            Encoding::Utf8
+        } else {
+            Encoding::Utf16
+        };
+        let _ = self.state.encoding.set(enc);
+        if let Some(f) = params.workspace_folders {
+            *self.state.folders.lock().unwrap_or_else(|e| e.into_inner()) = f;
+        }
+        let legend = SemanticTokensLegend {
+            token_types: convert::TOKEN_TYPES.to_vec(),
+            token_modifiers: Vec::new(),
+        };
+        Ok(InitializeResult {
+            server_info: Some(ServerInfo {
+                name: "syzygy".to_string(),
+                version: Some(env!("CARGO_PKG_VERSION").to_string()),
+            }),
+            capabilities: ServerCapabilities {
+                position_encoding: Some(match enc {
+                    Encoding::Utf8 => PositionEncodingKind::UTF8,
+                    Encoding::Utf16 => PositionEncodingKind::UTF16,
+                }),
+                text_document_sync: Some(TextDocumentSyncCapability::Options(
+                    TextDocumentSyncOptions {
+                        open_close: Some(true),
+                        change: Some(TextDocumentSyncKind::INCREMENTAL),
+                        ..TextDocumentSyncOptions::default()
+                    },
+                )),
+                hover_provider: Some(HoverProviderCapability::Simple(true)),
+                completion_provider: Some(CompletionOptions {
+                    trigger_characters: Some(vec![".".to_string(), "[".to_string()]),
+                    ..CompletionOptions::default()
+                }),
+                definition_provider: Some(OneOf::Left(true)),
+                references_provider: Some(OneOf::Left(true)),
+                rename_provider: Some(OneOf::Right(RenameOptions {
+                    prepare_provider: Some(true),
+                    work_done_progress_options: WorkDoneProgressOptions::default(),
+                })),
+                document_symbol_provider: Some(OneOf::Left(true)),
+                folding_range_provider: Some(FoldingRangeProviderCapability::Simple(true)),
+                document_formatting_provider: Some(OneOf::Left(true)),
+                code_action_provider: Some(CodeActionProviderCapability::Options(
+                    CodeActionOptions {
+                        code_action_kinds: Some(vec![
+                            CodeActionKind::QUICKFIX,
+                            CodeActionKind::REFACTOR_REWRITE,
+                        ]),
+                        ..CodeActionOptions::default()
+                    },
+                )),
+                inlay_hint_provider: Some(OneOf::Left(true)),
+                semantic_tokens_provider: Some(
+                    SemanticTokensServerCapabilities::SemanticTokensOptions(
+                        SemanticTokensOptions {
+                            legend,
+                            full: Some(SemanticTokensFullOptions::Bool(true)),
+                            range: None,
+                            work_done_progress_options: WorkDoneProgressOptions::default(),
+                        },
+                    ),
+                ),
+                workspace: Some(WorkspaceServerCapabilities {
+                    workspace_folders: Some(WorkspaceFoldersServerCapabilities {
+                        supported: Some(true),
+                        change_notifications: Some(OneOf::Left(true)),
+                    }),
+                    file_operations: None,
+                }),
+                ..ServerCapabilities::default()
+            },
+        })
+    }
+
+    async fn initialized(&self, _: InitializedParams) {
+        self.client
+            .log_message(MessageType::INFO, "syzygy language server ready")
+            .await;
+    }
+
+    async fn shutdown(&self) -> Result<()> {
+        Ok(())
+    }
+
+    async fn did_open(&self, params: DidOpenTextDocumentParams) {
+        let doc = params.text_document;
+        let snap = self.state.docs.open(doc.uri.clone(), doc.text, doc.version);
+        self.schedule_diagnostics(doc.uri, snap);
+    }
+
+    async fn did_change(&self, params: DidChangeTextDocumentParams) {
+        let uri = params.text_document.uri;
+        let snap = self.state.docs.change(
+            &uri,
+            params.text_document.version,
+            params.content_changes,
+            self.enc(),
+        );
+        match snap {
+            Some(snap) => self.schedule_diagnostics(uri, snap),
+            None => {
+                self.client
+                    .log_message(
+                        MessageType::WARNING,
+                        format!("change to {uri}, which is not open"),
+                    )
+                    .await
+            }
+        }
+    }
+
+    async fn did_close(&self, params: DidCloseTextDocumentParams) {
+        let uri = params.text_document.uri;
+        self.state.docs.close(&uri);
+        self.client.publish_diagnostics(uri, Vec::new(), None).await;
+    }
+
+    async fn did_change_workspace_folders(&self, params: DidChangeWorkspaceFoldersParams) {
+        let mut folders = self.state.folders.lock().unwrap_or_else(|e| e.into_inner());
+        folders.retain(|f| !params.event.removed.iter().any(|r| r.uri == f.uri));
+        folders.extend(params.event.added);
+    }
+
+    async fn did_change_watched_files(&self, params: DidChangeWatchedFilesParams) {
+        // Open documents are served from the editor's buffer, so a file deleted or changed
+        // on disk changes nothing here until the editor says so.
+        for c in params.changes {
+            if c.typ == FileChangeType::DELETED && self.state.docs.get(&c.uri).is_some() {
+                self.client
+                    .log_message(
+                        MessageType::INFO,
+                        format!(
+                            "{} was deleted on disk; still serving the open buffer",
+                            c.uri
+                        ),
+                    )
+                    .await;
+            }
+        }
+    }
+
+    async fn hover(&self, params: HoverParams) -> Result<Option<Hover>> {
+        let p = params.text_document_position_params;
+        let snap = self.snapshot(&p.text_document.uri)?;
+        let a = ready(&snap).await?;
+        let off = snap.offset(p.position, self.enc());
+        Ok(
+            ide::hover::hover(&a, snap.occurrences(), off).map(|(text, span)| Hover {
+                contents: HoverContents::Markup(MarkupContent {
+                    kind: MarkupKind::Markdown,
+                    value: text,
+                }),
+                range: Some(snap.range(span, self.enc())),
+            }),
+        )
+    }
+
+    async fn inlay_hint(&self, params: InlayHintParams) -> Result<Option<Vec<InlayHint>>> {
+        let snap = self.snapshot(&params.text_document.uri)?;
+        let a = ready(&snap).await?;
+        let enc = self.enc();
+        let span = snap.span(params.range, enc);
+        let hints = ide::hints::hints(&a, &snap.text, span.range())
+            .into_iter()
+            .map(|h| InlayHint {
+                position: snap.position(h.offset, enc),
+                label: InlayHintLabel::String(h.label),
+                kind: None,
+                text_edits: None,
+                tooltip: Some(InlayHintTooltip::String(h.detail)),
+                padding_left: Some(true),
+                padding_right: None,
+                data: None,
+            })
+            .collect();
+        Ok(Some(hints))
+    }
+
+    async fn completion(&self, params: CompletionParams) -> Result<Option<CompletionResponse>> {
+        let p = params.text_document_position;
+        let snap = self.snapshot(&p.text_document.uri)?;
+        let a = ready(&snap).await?;
+        let enc = self.enc();
+        let off = snap.offset(p.position, enc);
+        let items: Vec<CompletionItem> = ide::complete::complete(&a, &snap.text, off)
+            .into_iter()
+            .enumerate()
+            .map(|(i, c)| CompletionItem {
+                label: c.label.clone(),
+                kind: Some(convert::completion_kind(c.kind)),
+                detail: (!c.detail.is_empty()).then_some(c.detail),
+                documentation: (!c.doc.is_empty()).then(|| {
+                    Documentation::MarkupContent(MarkupContent {
+                        kind: MarkupKind::Markdown,
+                        value: c.doc,
+                    })
+                }),
+                sort_text: Some(format!("{i:04}")),
+                text_edit: Some(CompletionTextEdit::Edit(TextEdit {
+                    range: snap.range(c.replace, enc),
+                    new_text: c.label,
+                })),
+                ..CompletionItem::default()
+            })
+            .collect();
+        Ok(Some(CompletionResponse::Array(items)))
+    }
+
+    async fn goto_definition(
+        &self,
+        params: GotoDefinitionParams,
+    ) -> Result<Option<GotoDefinitionResponse>> {
+        let p = params.text_document_position_params;
+        let uri = p.text_document.uri;
+        let snap = self.snapshot(&uri)?;
+        let a = ready(&snap).await?;
+        let enc = self.enc();
+        let off = snap.offset(p.position, enc);
+        let occ = snap.occurrences();
+        let target = ide::symbols::related(occ, off)
+            .into_iter()
+            .find(|o| o.def)
+            .map(|o| o.span)
+            .or_else(|| match ide::symbols::at(occ, off).map(|o| &o.symbol) {
+                // A derived quantity has no declaration: go to its body.
+                Some(ide::symbols::Symbol::Quantity { system, body, .. }) => a
+                    .model
+                    .systems
+                    .get(*system)
+                    .and_then(|s| s.bodies.get(s.body(body)?))
+                    .map(|b| b.name_span),
+                _ => None,
+            });
+        Ok(target.map(|span| {
+            GotoDefinitionResponse::Scalar(Location {
+                uri: uri.clone(),
+                range: snap.range(span, enc),
+            })
+        }))
+    }
+
+    async fn references(&self, params: ReferenceParams) -> Result<Option<Vec<Location>>> {
+        let p = params.text_document_position;
+        let uri = p.text_document.uri;
+        let snap = self.snapshot(&uri)?;
+        ready(&snap).await?;
+        let enc = self.enc();
+        let off = snap.offset(p.position, enc);
+        let with_decl = params.context.include_declaration;
+        Ok(Some(
+            ide::symbols::related(snap.occurrences(), off)
+                .into_iter()
+                .filter(|o| with_decl || !o.def)
+                .map(|o| Location {
+                    uri: uri.clone(),
+                    range: snap.range(o.span, enc),
+                })
+                .collect(),
+        ))
+    }
+
+    async fn prepare_rename(
+        &self,
+        params: TextDocumentPositionParams,
+    ) -> Result<Option<PrepareRenameResponse>> {
+        let snap = self.snapshot(&params.text_document.uri)?;
+        ready(&snap).await?;
+        let enc = self.enc();
+        let off = snap.offset(params.position, enc);
+        match ide::symbols::at(snap.occurrences(), off) {
+            Some(o) if o.symbol.renamable() => {
+                Ok(Some(PrepareRenameResponse::Range(snap.range(o.span, enc))))
+            }
+            Some(_) => Err(Error::invalid_params(
+                "quantity names, units and built-ins cannot be renamed",
+            )),
+            None => Ok(None),
+        }
+    }
+
+    async fn rename(&self, params: RenameParams) -> Result<Option<WorkspaceEdit>> {
+        let p = params.text_document_position;
+        let uri = p.text_document.uri;
+        let snap = self.snapshot(&uri)?;
+        ready(&snap).await?;
+        let enc = self.enc();
+        let off = snap.offset(p.position, enc);
+        let edits = ide::symbols::rename(snap.occurrences(), off, &params.new_name)
+            .map_err(Error::invalid_params)?;
+        let edits = edits
+            .into_iter()
+            .map(|(span, new_text)| TextEdit {
+                range: snap.range(span, enc),
+                new_text,
+            })
+            .collect();
+        Ok(Some(edit(&uri, edits)))
+    }
+
+    async fn document_symbol(
+        &self,
+        params: DocumentSymbolParams,
+    ) -> Result<Option<DocumentSymbolResponse>> {
+        let snap = self.snapshot(&params.text_document.uri)?;
+        let a = ready(&snap).await?;
+        let enc = self.enc();
+        Ok(Some(DocumentSymbolResponse::Nested(
+            ide::outline::outline(&a.ast)
+                .iter()
+                .map(|n| convert::document_symbol(n, &snap, enc))
+                .collect(),
+        )))
+    }
+
+    async fn folding_range(&self, params: FoldingRangeParams) -> Result<Option<Vec<FoldingRange>>> {
+        let snap = self.snapshot(&params.text_document.uri)?;
+        let a = ready(&snap).await?;
+        let enc = self.enc();
+        Ok(Some(
+            ide::outline::folding(&a.ast, &snap.text)
+                .into_iter()
+                .filter_map(|s| {
+                    let r = snap.range(s, enc);
+                    (r.end.line > r.start.line).then(|| FoldingRange {
+                        start_line: r.start.line,
+                        start_character: None,
+                        end_line: r.end.line,
+                        end_character: None,
+                        kind: None,
+                        collapsed_text: None,
+                    })
+                })
+                .collect(),
+        ))
+    }
+
+    async fn semantic_tokens_full(
+        &self,
+        params: SemanticTokensParams,
+    ) -> Result<Option<SemanticTokensResult>> {
+        let snap = self.snapshot(&params.text_document.uri)?;
+        ready(&snap).await?;
+        let classes = ide::outline::token_classes(&snap.text, snap.occurrences());
+        Ok(Some(SemanticTokensResult::Tokens(SemanticTokens {
+            result_id: None,
+            data: convert::semantic_tokens(&classes, &snap, self.enc()),
+        })))
+    }
+
+    async fn formatting(&self, params: DocumentFormattingParams) -> Result<Option<Vec<TextEdit>>> {
+        let snap = self.snapshot(&params.text_document.uri)?;
+        match syzygy::layout::format_source(&snap.text) {
+            Ok(out) if out == *snap.text => Ok(Some(Vec::new())),
+            Ok(out) => Ok(Some(vec![TextEdit {
+                range: Range {
+                    start: Position::new(0, 0),
+                    end: snap.position(snap.text.len(), self.enc()),
+                },
+                new_text: out,
+            }])),
+            Err(e) => {
+                self.client
+                    .log_message(MessageType::WARNING, format!("not formatted: {e}"))
+                    .await;
+                Ok(None)
+            }
+        }
+    }
+
+    async fn code_action(&self, params: CodeActionParams) -> Result<Option<CodeActionResponse>> {
+        let uri = params.text_document.uri;
+        let snap = self.snapshot(&uri)?;
+        let a = ready(&snap).await?;
+        let enc = self.enc();
+        let span = snap.span(params.range, enc);
+        let actions = ide::actions::actions(&a, &snap.text, span.range())
+            .into_iter()
+            .map(|act| {
+                let edits = act
+                    .edits
+                    .into_iter()
+                    .map(|(s, new_text)| TextEdit {
+                        range: snap.range(s, enc),
+                        new_text,
+                    })
+                    .collect();
+                CodeActionOrCommand::CodeAction(CodeAction {
+                    title: act.title,
+                    kind: Some(match act.kind {
+                        ide::actions::ActionKind::QuickFix => CodeActionKind::QUICKFIX,
+                        ide::actions::ActionKind::Rewrite => CodeActionKind::REFACTOR_REWRITE,
+                    }),
+                    diagnostics: act
+                        .fixes
+                        .and_then(|i| a.diagnostics.get(i))
+                        .map(|d| vec![convert::diagnostic(d, &snap, &uri, enc)]),
+                    edit: Some(edit(&uri, edits)),
+                    command: None,
+                    is_preferred: act.preferred.then_some(true),
+                    disabled: None,
+                    data: None,
+                })
+            })
+            .collect();
+        Ok(Some(actions))
+    }
+}

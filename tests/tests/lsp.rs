@@ -1,0 +1,530 @@
+//! End-to-end tests of `syz lsp`: the real binary over stdio, positions found by needle.
+
+#![allow(clippy::unwrap_used, clippy::indexing_slicing)]
+
+use serde_json::{json, Value};
+use std::time::Duration;
+use syzygy_e2e::lsp::{apply_edits, file_uri, position_in, position_of, range_of, LspClient};
+use syzygy_e2e::{root, run, scratch, stdout};
+
+fn veyra() -> (String, String) {
+    let path = root().join("examples/veyra.syz");
+    (file_uri(&path), std::fs::read_to_string(path).unwrap())
+}
+
+fn doc(uri: &str, pos: Value) -> Value {
+    json!({"textDocument": {"uri": uri}, "position": pos})
+}
+
+fn hover_text(c: &mut LspClient, uri: &str, pos: Value) -> String {
+    let r = c.result("textDocument/hover", doc(uri, pos));
+    r["contents"]["value"].as_str().unwrap_or("").to_string()
+}
+
+fn labels(items: &Value) -> Vec<String> {
+    items
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|i| i["label"].as_str().unwrap().to_string())
+        .collect()
+}
+
+#[test]
+fn a_whole_editing_session_on_the_demo_file() {
+    let (uri, text) = veyra();
+    let mut c = LspClient::start();
+    let init = c.initialize(json!({}));
+    let caps = &init["capabilities"];
+    assert_eq!(
+        caps["positionEncoding"], "utf-16",
+        "UTF-16 unless the client offers UTF-8"
+    );
+    assert_eq!(caps["textDocumentSync"]["change"], 2, "incremental sync");
+    for cap in [
+        "hoverProvider",
+        "inlayHintProvider",
+        "completionProvider",
+        "definitionProvider",
+        "referencesProvider",
+        "renameProvider",
+        "documentSymbolProvider",
+        "semanticTokensProvider",
+        "foldingRangeProvider",
+        "documentFormattingProvider",
+        "codeActionProvider",
+    ] {
+        assert!(!caps[cap].is_null(), "missing {cap}");
+    }
+
+    c.open(&uri, &text);
+    let d = c.diagnostics(&uri, Some(1));
+    assert_eq!(d["diagnostics"], json!([]), "the demo file is clean");
+
+    // Inlay hints: derived values after the planet's and the star's opening brace.
+    let hints = c.result(
+        "textDocument/inlayHint",
+        json!({"textDocument": {"uri": uri},
+               "range": {"start": {"line": 0, "character": 0}, "end": {"line": 99, "character": 0}}}),
+    );
+    let hints = hints.as_array().unwrap();
+    let after_b = position_in(&text, "planet b orbits veyra {", 0, 23, false);
+    let hb = hints
+        .iter()
+        .find(|h| h["position"] == after_b)
+        .expect("hint for b");
+    let label = hb["label"].as_str().unwrap();
+    assert!(
+        label.contains("a = 0.04") && label.contains(" au"),
+        "{label}"
+    );
+    assert!(
+        label.contains("ρ = ") && label.contains("g/cm^3"),
+        "{label}"
+    );
+    assert!(label.contains("Teq = ") && label.contains(" K"), "{label}");
+    assert!(
+        hints
+            .iter()
+            .any(|h| h["label"].as_str().unwrap().contains("log g = ")),
+        "a star hint"
+    );
+
+    // Hover: a quantity, a body, a unit.
+    let h = hover_text(&mut c, &uri, position_of(&text, "period", 0));
+    assert!(
+        h.contains("Orbital period") && h.contains("a time (s)"),
+        "{h}"
+    );
+    assert!(h.contains("Demo photometry"), "{h}");
+    let h = hover_text(&mut c, &uri, position_of(&text, "b orbits", 0));
+    assert!(
+        h.contains("| density |") && h.contains("| derived |"),
+        "{h}"
+    );
+    let h = hover_text(&mut c, &uri, position_of(&text, "Msun", 0));
+    assert!(
+        h.contains("nominal solar mass") && h.contains("IAU 2015"),
+        "{h}"
+    );
+
+    // Completion: quantities at the start of a property, units after a number.
+    let items = c.result(
+        "textDocument/completion",
+        doc(&uri, position_of(&text, "rv_amplitude = 4.1", 0)),
+    );
+    let l = labels(&items);
+    assert!(
+        l.contains(&"mass".to_string()) && !l.contains(&"teff".to_string()),
+        "{l:?}"
+    );
+    let items = c.result(
+        "textDocument/completion",
+        doc(&uri, position_in(&text, "4.1 ± 0.6 m/s", 0, 10, false)),
+    );
+    let l = labels(&items);
+    assert!(
+        l.contains(&"km/s".to_string()) && !l.contains(&"au".to_string()),
+        "{l:?}"
+    );
+
+    // Definition and references.
+    let def = c.result(
+        "textDocument/definition",
+        doc(&uri, position_of(&text, "veyra {", 1)),
+    );
+    assert_eq!(
+        def["range"],
+        range_of(&text, "veyra", 0),
+        "the star's declaration"
+    );
+    let refs = c.result(
+        "textDocument/references",
+        json!({"textDocument": {"uri": uri}, "position": position_of(&text, "rv1", 2),
+               "context": {"includeDeclaration": true}}),
+    );
+    assert_eq!(refs.as_array().unwrap().len(), 5, "{refs}");
+
+    // Formatting agrees with `syz fmt`.
+    let edits = c.result(
+        "textDocument/formatting",
+        json!({"textDocument": {"uri": uri}, "options": {"tabSize": 2, "insertSpaces": true}}),
+    );
+    let formatted = apply_edits(&text, edits.as_array().unwrap());
+    let cli = run(&["fmt", "examples/veyra.syz"]);
+    assert_eq!(formatted, stdout(&cli));
+    assert_ne!(
+        formatted, text,
+        "the demo file is not in canonical layout yet"
+    );
+
+    // A unit error typed in is reported with rule, source and position.
+    c.notify(
+        "textDocument/didChange",
+        json!({"textDocument": {"uri": uri, "version": 2},
+               "contentChanges": [{"range": range_of(&text, "56 ± 2 m/s", 0), "text": "56 ± 2 m"}]}),
+    );
+    let d = c.diagnostics(&uri, Some(2));
+    let diags = d["diagnostics"].as_array().unwrap();
+    assert_eq!(diags.len(), 1, "{d}");
+    let diag = &diags[0];
+    assert_eq!(diag["code"], "unit-mismatch");
+    assert_eq!(diag["source"], "syzygy");
+    assert_eq!(diag["severity"], 1);
+    assert_eq!(diag["range"]["start"], position_of(&text, "56 ± 2 m/s", 0));
+    assert!(
+        diag["message"].as_str().unwrap().contains("help: "),
+        "{diag}"
+    );
+    let new_text = text.replace("56 ± 2 m/s", "56 ± 2 m");
+
+    // Code actions on it: a silencing comment, which really silences it.
+    let actions = c.result(
+        "textDocument/codeAction",
+        json!({"textDocument": {"uri": uri}, "range": diag["range"], "context": {"diagnostics": [diag]}}),
+    );
+    let silence = actions
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|a| a["title"] == "Silence 'unit-mismatch' on this line")
+        .expect("silencing action");
+    let edits = silence["edit"]["changes"][&uri].as_array().unwrap().clone();
+    let silenced = apply_edits(&new_text, &edits);
+    assert!(
+        silenced.contains("# allow(unit-mismatch): reason"),
+        "{silenced}"
+    );
+    c.notify(
+        "textDocument/didChange",
+        json!({"textDocument": {"uri": uri, "version": 3}, "contentChanges": [{"text": silenced}]}),
+    );
+    let d = c.diagnostics(&uri, Some(3));
+    assert_eq!(d["diagnostics"], json!([]), "{d}");
+
+    // A did-you-mean fix from a diagnostic's help.
+    let typo = text.replace("0.88 +0.03/-0.02 Rsun", "0.88 +0.03/-0.02 Rsum");
+    c.notify(
+        "textDocument/didChange",
+        json!({"textDocument": {"uri": uri, "version": 4}, "contentChanges": [{"text": typo}]}),
+    );
+    let d = c.diagnostics(&uri, Some(4));
+    assert_eq!(d["diagnostics"][0]["code"], "unknown-unit", "{d}");
+    let actions = c.result(
+        "textDocument/codeAction",
+        json!({"textDocument": {"uri": uri}, "range": range_of(&typo, "Rsum", 0), "context": {"diagnostics": []}}),
+    );
+    let fix = actions
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|a| a["title"] == "Replace with 'Rsun'")
+        .expect("did-you-mean action");
+    assert_eq!(fix["kind"], "quickfix");
+    assert_eq!(fix["isPreferred"], true);
+    let fixed = apply_edits(&typo, fix["edit"]["changes"][&uri].as_array().unwrap());
+    assert_eq!(fixed, text);
+
+    let status = c
+        .shutdown_and_exit()
+        .expect("the server exits after `exit`");
+    assert_eq!(status.code(), Some(0));
+}
+
+#[test]
+fn navigation_rename_symbols_tokens_and_folding() {
+    let (uri, text) = veyra();
+    let mut c = LspClient::start();
+    c.initialize(json!({}));
+    c.open(&uri, &text);
+    c.diagnostics(&uri, Some(1));
+
+    let prep = c.result(
+        "textDocument/prepareRename",
+        doc(&uri, position_of(&text, "veyra {", 0)),
+    );
+    assert_eq!(prep, range_of(&text, "veyra", 0));
+    let r = c.request(
+        "textDocument/rename",
+        json!({"textDocument": {"uri": uri}, "position": position_of(&text, "veyra {", 0), "newName": "hollin"}),
+    );
+    let edits = r["result"]["changes"][&uri].as_array().unwrap().clone();
+    assert_eq!(edits.len(), 3, "the star and two 'orbits'");
+    let renamed = apply_edits(&text, &edits);
+    assert!(renamed.contains("star hollin {") && renamed.contains("planet c orbits hollin"));
+    let bad = c.request(
+        "textDocument/rename",
+        json!({"textDocument": {"uri": uri}, "position": position_of(&text, "veyra {", 0), "newName": "2bad"}),
+    );
+    assert!(bad.get("error").is_some(), "{bad}");
+    let q = c.request(
+        "textDocument/rename",
+        json!({"textDocument": {"uri": uri}, "position": position_of(&text, "period", 0), "newName": "p"}),
+    );
+    assert!(q.get("error").is_some(), "quantity names are fixed: {q}");
+
+    let syms = c.result(
+        "textDocument/documentSymbol",
+        json!({"textDocument": {"uri": uri}}),
+    );
+    let sys = syms
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|s| s["name"] == "Veyra")
+        .unwrap();
+    let bodies: Vec<&str> = sys["children"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|b| b["name"].as_str().unwrap())
+        .collect();
+    assert_eq!(bodies, ["veyra", "b", "c"]);
+    assert_eq!(sys["children"][1]["children"][0]["name"], "period");
+
+    let toks = c.result(
+        "textDocument/semanticTokens/full",
+        json!({"textDocument": {"uri": uri}}),
+    );
+    let data = toks["data"].as_array().unwrap();
+    assert_eq!(data.len() % 5, 0);
+    // The first token is the comment on line 0 (type 1 in the legend).
+    assert_eq!(
+        &data[..5],
+        &[
+            json!(0),
+            json!(0),
+            json!(text.lines().next().unwrap().chars().count()),
+            json!(1),
+            json!(0)
+        ]
+    );
+
+    let folds = c.result(
+        "textDocument/foldingRange",
+        json!({"textDocument": {"uri": uri}}),
+    );
+    let starts: Vec<u64> = folds
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|f| f["startLine"].as_u64().unwrap())
+        .collect();
+    assert!(starts.contains(&(position_of(&text, "system", 0)["line"].as_u64().unwrap())));
+    assert!(starts.contains(&(position_of(&text, "planet b", 0)["line"].as_u64().unwrap())));
+
+    // A declared value can become another unit; a derived one can be declared.
+    let actions = c.result(
+        "textDocument/codeAction",
+        json!({"textDocument": {"uri": uri}, "range": range_of(&text, "41.2", 0), "context": {"diagnostics": []}}),
+    );
+    let titles: Vec<&str> = actions
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|a| a["title"].as_str().unwrap())
+        .collect();
+    assert!(
+        titles.iter().any(|t| t.starts_with("Convert to ly")),
+        "{titles:?}"
+    );
+    let actions = c.result(
+        "textDocument/codeAction",
+        json!({"textDocument": {"uri": uri}, "range": range_of(&text, "impact", 0), "context": {"diagnostics": []}}),
+    );
+    let declare = actions
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|a| {
+            a["title"]
+                .as_str()
+                .unwrap()
+                .starts_with("Declare b.density = ")
+        })
+        .expect("declare a derived value");
+    let out = apply_edits(&text, declare["edit"]["changes"][&uri].as_array().unwrap());
+    assert!(out.contains("    density = 0."), "{out}");
+    assert_eq!(c.shutdown_and_exit().unwrap().code(), Some(0));
+}
+
+const ASTRAL: &str = "# 𝑀 and 𝑅 are written here only to move columns\nsystem \"Cassiel\" {\n  star k { mass = 1.02 ± 0.03 M☉; radius = 0.97 ± 0.02 R☉; teff = 5700 ± 90 K } # 𝑀𝑀\n  planet d orbits k { period = 9.1 ± 0.1 d; rv_amplitude = 3.0 ± 0.4 m/s }\n}\n";
+
+#[test]
+fn utf8_positions_when_offered_utf16_otherwise() {
+    let uri = "file:///tmp/cassiel.syz";
+    for (caps, utf8) in [
+        (
+            json!({"general": {"positionEncodings": ["utf-8", "utf-16"]}}),
+            true,
+        ),
+        // Neovim 0.7 offers no list at all.
+        (json!({}), false),
+    ] {
+        let mut c = LspClient::start();
+        let init = c.initialize(caps);
+        assert_eq!(
+            init["capabilities"]["positionEncoding"],
+            if utf8 { "utf-8" } else { "utf-16" }
+        );
+        c.open(uri, ASTRAL);
+        c.diagnostics(uri, Some(1));
+        let pos = position_in(ASTRAL, "R☉", 0, 0, utf8);
+        let r = c.result("textDocument/hover", doc(uri, pos.clone()));
+        let h = r["contents"]["value"].as_str().unwrap();
+        assert!(h.contains("nominal solar radius"), "{h}");
+        assert_eq!(r["range"]["start"], pos);
+        assert_eq!(r["range"]["end"], position_in(ASTRAL, "R☉", 0, 2, utf8));
+        // A typed error after astral characters lands at the right column.
+        let at = position_in(ASTRAL, "5700", 0, 0, utf8);
+        let end = position_in(ASTRAL, "5700 ± 90 K", 0, 11, utf8);
+        c.notify(
+            "textDocument/didChange",
+            json!({"textDocument": {"uri": uri, "version": 2},
+                   "contentChanges": [{"range": {"start": at, "end": end}, "text": "5700 ± 90 m"}]}),
+        );
+        let d = c.diagnostics(uri, Some(2));
+        assert_eq!(d["diagnostics"][0]["code"], "unit-mismatch", "{d}");
+        assert_eq!(d["diagnostics"][0]["range"]["start"], at);
+        assert_eq!(c.shutdown_and_exit().unwrap().code(), Some(0));
+    }
+}
+
+#[test]
+fn malformed_input_and_odd_requests_never_stop_the_server() {
+    let (uri, text) = veyra();
+    let mut c = LspClient::start();
+    c.initialize(json!({}));
+    c.open(&uri, &text);
+    c.diagnostics(&uri, Some(1));
+    // Not JSON, not JSON-RPC, a batch, invalid UTF-8.
+    c.send_raw(b"Content-Length: 9\r\n\r\n{not json");
+    c.send_raw(b"Content-Length: 4\r\n\r\n\xff\xfe\x00\x81");
+    c.send(&json!([1, 2, 3]));
+    c.send(&json!({"jsonrpc": "2.0", "id": 900, "method": 17}));
+    let bad = c.response(900);
+    assert!(bad.get("error").is_some(), "{bad}");
+    // Unknown documents, positions far past the end, missing params.
+    let r = c.request(
+        "textDocument/hover",
+        doc("file:///nowhere.syz", json!({"line": 0, "character": 0})),
+    );
+    assert!(r.get("error").is_some(), "{r}");
+    let r = c.request(
+        "textDocument/hover",
+        doc(&uri, json!({"line": 99999, "character": 99999})),
+    );
+    assert!(r.get("error").is_none() && r["result"].is_null(), "{r}");
+    let r = c.request(
+        "textDocument/completion",
+        doc(&uri, json!({"line": 5, "character": 4000})),
+    );
+    assert!(r.get("error").is_none(), "{r}");
+    let r = c.request("textDocument/hover", json!({}));
+    assert!(r.get("error").is_some(), "{r}");
+    let r = c.request("no/such/method", json!({}));
+    assert_eq!(r["error"]["code"], -32601, "{r}");
+    // Still answering.
+    let h = hover_text(&mut c, &uri, position_of(&text, "teff", 0));
+    assert!(h.contains("Effective temperature"), "{h}");
+    // Eglot sends `"params": null` with shutdown.
+    c.send(&json!({"jsonrpc": "2.0", "id": 901, "method": "shutdown", "params": null}));
+    let r = c.response(901);
+    assert!(r.get("error").is_none(), "{r}");
+    c.notify("exit", Value::Null);
+    let status = c
+        .wait_exit(Duration::from_secs(10))
+        .expect("exit ends the process");
+    assert_eq!(status.code(), Some(0));
+}
+
+#[test]
+fn exit_without_shutdown_ends_with_status_1() {
+    let mut c = LspClient::start();
+    c.initialize(json!({}));
+    c.notify("exit", Value::Null);
+    let status = c
+        .wait_exit(Duration::from_secs(10))
+        .expect("exit ends the process");
+    assert_eq!(status.code(), Some(1));
+}
+
+#[test]
+fn fast_edits_apply_in_order_and_only_the_last_is_reported() {
+    let uri = "file:///tmp/typing.syz";
+    let base =
+        "system \"Orrin\" {\n  star o { mass = 0.8 Msun }\n  planet e orbits o {\n    \n  }\n}\n";
+    let mut c = LspClient::start();
+    c.initialize(json!({}));
+    c.open(uri, base);
+    c.diagnostics(uri, Some(1));
+    let line = position_of(base, "    \n", 0)["line"].as_u64().unwrap();
+    let typed = "mass_typo = 1 Mjup";
+    for (i, ch) in typed.chars().enumerate() {
+        let col = 4 + i as u64;
+        c.notify(
+            "textDocument/didChange",
+            json!({"textDocument": {"uri": uri, "version": 2 + i},
+                   "contentChanges": [{"range": {"start": {"line": line, "character": col},
+                                                  "end": {"line": line, "character": col}},
+                                       "text": ch.to_string()}]}),
+        );
+    }
+    let last = 1 + typed.chars().count() as i64;
+    let d = c.diagnostics(uri, Some(last));
+    let diags = d["diagnostics"].as_array().unwrap();
+    assert_eq!(diags.len(), 1, "{d}");
+    assert!(
+        diags[0]["message"]
+            .as_str()
+            .unwrap()
+            .starts_with("'mass_typo' is not a quantity of a planet"),
+        "{d}"
+    );
+    // Nothing older arrives after the newest.
+    let later = c.drain(Duration::from_millis(300));
+    for m in later {
+        if m["method"] == "textDocument/publishDiagnostics" {
+            assert_eq!(
+                m["params"]["version"], last,
+                "stale diagnostics after the newest: {m}"
+            );
+        }
+    }
+    assert_eq!(c.shutdown_and_exit().unwrap().code(), Some(0));
+}
+
+#[test]
+fn a_file_deleted_while_open_is_still_served_from_the_buffer() {
+    let dir = scratch("lsp-deleted");
+    let path = dir.join("gone.syz");
+    let (_, text) = veyra();
+    std::fs::write(&path, &text).unwrap();
+    let uri = file_uri(&path);
+    let mut c = LspClient::start();
+    c.initialize(json!({}));
+    c.open(&uri, &text);
+    c.diagnostics(&uri, Some(1));
+    std::fs::remove_file(&path).unwrap();
+    c.notify(
+        "workspace/didChangeWatchedFiles",
+        json!({"changes": [{"uri": uri, "type": 3}]}),
+    );
+    let h = hover_text(&mut c, &uri, position_of(&text, "teff", 0));
+    assert!(h.contains("Effective temperature"), "{h}");
+    c.notify(
+        "textDocument/didClose",
+        json!({"textDocument": {"uri": uri}}),
+    );
+    let d = c.diagnostics(&uri, None);
+    assert_eq!(d["diagnostics"], json!([]));
+    let r = c.request(
+        "textDocument/hover",
+        doc(&uri, position_of(&text, "teff", 0)),
+    );
+    assert!(
+        r.get("error").is_some(),
+        "closed documents are not served: {r}"
+    );
+    assert_eq!(c.shutdown_and_exit().unwrap().code(), Some(0));
+}
