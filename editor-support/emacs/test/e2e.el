@@ -134,12 +134,26 @@
                       (user-error (error-message-string err)))))
       (syzygy-test--check "a missing server is reported with how to install it"
                           (and message
-                               (string-match-p "syz-not-installed-here' was not found" message)
+                               (string-match-p "syz-not-installed-here.? was not found" message)
                                (string-match-p "cargo install" message))
                           message))
-    (eglot-shutdown server)
-    (syzygy-test--check "the server stops on shutdown"
-                        (syzygy-test--wait (lambda () (not (jsonrpc-running-p server)))))))
+    ;; Eglot sends `shutdown' with "params": null, then `exit'; keep its log to read.
+    (eglot-shutdown server nil nil t)
+    (syzygy-test--check "the connection is closed after shutdown"
+                        (syzygy-test--wait (lambda () (not (jsonrpc-running-p server)))))
+    (with-current-buffer (jsonrpc-events-buffer server)
+      (let* ((log (buffer-string))
+             (id (and (string-match ":id \\([0-9]+\\) :method \"shutdown\"" log)
+                      (match-string 1 log))))
+        (syzygy-test--check "the server answered shutdown without an error"
+                            (and id (string-match-p
+                                     (concat "\\[server-reply\\] (id:" id ")[^\n]*\n"
+                                             "(:jsonrpc \"2.0\" :result nil :id " id ")")
+                                     log))
+                            (and id (substring log (string-match (concat "(id:" id ")") log))))
+        (syzygy-test--check "no request of the session got an error reply"
+                            (not (string-match-p ":error" log))
+                            log)))))
 
 (condition-case err
     (syzygy-test--run)
