@@ -53,7 +53,7 @@ struct EngineArgs {
     #[arg(long, default_value_t = 0x5359_5a59)]
     seed: u64,
     /// Declared and derived values further apart than this many combined sigma are reported.
-    #[arg(long, default_value_t = 3.0)]
+    #[arg(long, default_value_t = 3.0, value_parser = parse_sigma)]
     sigma: f64,
     /// Report this rule as an error (repeatable; see docs/rules.md for the ids).
     #[arg(long, value_name = "RULE", value_parser = parse_rule)]
@@ -64,6 +64,15 @@ struct EngineArgs {
     /// Do not report this rule (repeatable).
     #[arg(long, value_name = "RULE", value_parser = parse_rule)]
     allow: Vec<Rule>,
+}
+
+fn parse_sigma(s: &str) -> Result<f64, String> {
+    match s.parse::<f64>() {
+        Ok(v) if v.is_finite() && v > 0.0 => Ok(v),
+        _ => Err(format!(
+            "expected a positive number of standard deviations, found '{s}'"
+        )),
+    }
 }
 
 fn parse_rule(s: &str) -> Result<Rule, String> {
@@ -213,7 +222,9 @@ fn check(
     let mut counts = [0usize; 3];
     for a in &analyses {
         for d in &a.diagnostics {
-            counts[d.severity as usize] += 1;
+            if let Some(c) = counts.get_mut(d.severity as usize) {
+                *c += 1;
+            }
         }
     }
     let (notes, warnings, errors) = (counts[0], counts[1], counts[2]);

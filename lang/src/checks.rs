@@ -26,7 +26,7 @@ pub const DEUTERIUM_LIMIT: f64 = 13.0 * M_JUPITER;
 /// Hydrogen-burning limit, about 0.075 solar masses (common practice; Chabrier & Baraffe 2000).
 pub const HYDROGEN_LIMIT: f64 = 0.075 * M_SUN;
 /// Samples drawn for composition in linear mode.
-const LINEAR_SAMPLES: usize = 4000;
+const LINEAR_SAMPLES: usize = 500;
 
 /// What the checker found about one planet's composition.
 pub struct CompositionNote {
@@ -158,11 +158,14 @@ fn composition_check(
         .collect::<Vec<_>>()
         .join(", ");
     let extrapolated = summary.fraction_extrapolated().unwrap_or(0.0);
-    let text = if extrapolated > 0.5 {
-        format!("{text} (curves extrapolated beyond their fitted masses)")
-    } else {
-        text
-    };
+    // Giants are classed by mass and radius thresholds, not by the solid-planet curves, so
+    // extrapolation is only worth saying for small planets.
+    let text =
+        if extrapolated > 0.5 && mass < composition::ClassBoundaries::default().giant_min_mass_kg {
+            format!("{text} (curves extrapolated beyond their fitted masses)")
+        } else {
+            text
+        };
     let _ = radius;
     Some(CompositionNote {
         body: bi,

@@ -1003,9 +1003,9 @@ mod tests {
         assert!(transit_duration_total(p, 1.5, 0.9, 0.0, 0.0, deg(0.0)).is_none());
         // e very close to 1: finite or None, never NaN.
         let t = transit_duration_total(p, 10.0, 0.1, 0.0, 1.0 - 1e-12, deg(90.0));
-        assert!(t.map_or(true, |t| t.value.is_finite() && t.value >= 0.0));
+        assert!(t.is_none_or(|t| t.value.is_finite() && t.value >= 0.0));
         let t = transit_duration_total(p, 10.0, 0.1, 0.0, 1.0 - 1e-12, deg(-90.0));
-        assert!(t.map_or(true, |t| t.value.is_finite() && t.value >= 0.0));
+        assert!(t.is_none_or(|t| t.value.is_finite() && t.value >= 0.0));
     }
 
     #[test]

@@ -75,7 +75,7 @@ pub enum Tok {
     Str,
     #[regex(r#""([^"\\\n]|\\[^\n])*"#, priority = 0)]
     UnterminatedStr,
-    #[regex(r"[A-Za-z_\u{2609}\u{2295}\u{00B0}][A-Za-z0-9_\u{2609}\u{2295}]*")]
+    #[regex(r"[A-Za-z_\u{2609}\u{2295}\u{00B0}\u{00B5}\u{03BC}\u{03C9}][A-Za-z0-9_\u{2609}\u{2295}\u{00B5}\u{03BC}\u{03C9}]*")]
     #[token("%")]
     Ident,
     /// Anything the lexer does not recognise.
@@ -121,8 +121,7 @@ impl Tok {
         }
     }
 
-    /// Keywords may also serve as names where a name is expected (a quantity called `star`
-    /// is not a thing, but a body called `planet` would be surprising to reject).
+    /// Whether the token is a keyword (the editor's token classes use it).
     pub fn is_keyword(self) -> bool {
         matches!(
             self,

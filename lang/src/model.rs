@@ -184,20 +184,21 @@ pub fn lower(file: FileId, ast: &ast::File, diags: &mut Vec<Diagnostic>) -> Mode
             id_span: r.id.span,
         });
     }
+    let mut seen: HashMap<&str, Span> = HashMap::new();
     for s in &ast.systems {
-        if let Some(prev) = model
-            .systems
-            .iter()
-            .find(|p| p.name == s.name && !s.name.is_empty())
-        {
-            diags.push(
-                Diagnostic::new(
-                    Rule::Duplicate,
-                    s.name_span,
-                    format!("system \"{}\" is declared twice in this file", s.name),
-                )
-                .with_label(prev.name_span, "first declared here"),
-            );
+        if !s.name.is_empty() {
+            if let Some(prev) = seen.get(s.name.as_str()) {
+                diags.push(
+                    Diagnostic::new(
+                        Rule::Duplicate,
+                        s.name_span,
+                        format!("system \"{}\" is declared twice in this file", s.name),
+                    )
+                    .with_label(*prev, "first declared here"),
+                );
+            } else {
+                seen.insert(&s.name, s.name_span);
+            }
         }
         let sys = lower_system(s, &model.refs, diags);
         model.systems.push(sys);
@@ -374,6 +375,15 @@ fn lower_props(b: &ast::BodyDecl, refs: &[RefInfo], diags: &mut Vec<Diagnostic>)
     out
 }
 
+/// The display unit as written after a number: nothing for plain numbers.
+fn unit_suffix(def: &QuantityDef) -> &'static str {
+    if def.display == "1" {
+        ""
+    } else {
+        def.display
+    }
+}
+
 fn unknown_quantity(kind: BodyKind, name: &ast::Ident) -> Diagnostic {
     let mut d = Diagnostic::new(
         Rule::UnknownQuantity,
@@ -426,7 +436,8 @@ fn lower_value(
                 )
                 .with_help(format!(
                     "write a number with a unit, e.g. `{} = 1.0 {}`",
-                    def.name, def.display
+                    def.name,
+                    unit_suffix(def)
                 )),
             );
             return None;
@@ -452,7 +463,11 @@ fn lower_value(
                     expr.span,
                     "a limit takes a single number with a unit",
                 )
-                .with_help(format!("write `{} < 0.1 {}`", def.name, def.display)),
+                .with_help(format!(
+                    "write `{} < 0.1 {}`",
+                    def.name,
+                    unit_suffix(def)
+                )),
             );
             return None;
         }
@@ -494,7 +509,8 @@ fn lower_value(
                 )
                 .with_help(format!(
                     "write `{} < VALUE {}`, or give the value with its uncertainty after '='",
-                    def.name, def.display
+                    def.name,
+                    unit_suffix(def)
                 )),
             );
             return None;
@@ -596,7 +612,8 @@ fn mismatch_for(
     if lit.unit.is_none() {
         d = d.with_help(format!(
             "add a unit: `{} = {value} {}`",
-            def.name, def.display
+            def.name,
+            unit_suffix(def)
         ));
         if def.dim == Dimension::ANGLE {
             d = d.with_note("angles and plain numbers are different types: write `deg` or `rad`");
@@ -623,38 +640,54 @@ struct Scope<'a> {
 }
 
 fn check_expressions(sys: &mut System, diags: &mut Vec<Diagnostic>) {
-    let snapshot = sys.clone();
-    // System lets.
-    let mut sys_dims = Vec::new();
-    for l in &snapshot.lets {
-        let scope = Scope {
-            sys: &snapshot,
-            body: None,
-        };
-        let mut visiting = vec![l.name.clone()];
-        sys_dims.push(infer(&l.expr, &scope, &mut visiting, diags));
+    let any = !sys.lets.is_empty()
+        || sys.bodies.iter().any(|b| {
+            !b.lets.is_empty()
+                || b.declared
+                    .iter()
+                    .any(|d| matches!(d.content, Content::Expr(_)))
+        });
+    if !any {
+        return;
     }
-    for (l, d) in sys.lets.iter_mut().zip(sys_dims) {
-        l.dim = d;
-    }
-    for (bi, body) in snapshot.bodies.iter().enumerate() {
+    // Infer with the system read-only, then write the results back.
+    let view: &System = sys;
+    let sys_dims: Vec<Option<Dimension>> = view
+        .lets
+        .iter()
+        .map(|l| {
+            let scope = Scope {
+                sys: view,
+                body: None,
+            };
+            infer(&l.expr, &scope, &mut vec![l.name.clone()], diags)
+        })
+        .collect();
+    let mut updates = Vec::new();
+    for (bi, body) in view.bodies.iter().enumerate() {
         let scope = Scope {
-            sys: &snapshot,
+            sys: view,
             body: Some(bi),
         };
-        let mut let_dims = Vec::new();
-        for l in &body.lets {
-            let mut visiting = vec![format!("{}.{}", body.id, l.name)];
-            let_dims.push(infer(&l.expr, &scope, &mut visiting, diags));
-        }
+        let let_dims: Vec<Option<Dimension>> = body
+            .lets
+            .iter()
+            .map(|l| {
+                infer(
+                    &l.expr,
+                    &scope,
+                    &mut vec![format!("{}.{}", body.id, l.name)],
+                    diags,
+                )
+            })
+            .collect();
         let mut drop = Vec::new();
         for (di, decl) in body.declared.iter().enumerate() {
             let Content::Expr(e) = &decl.content else {
                 continue;
             };
             let def = quantities::def(decl.qty);
-            let mut visiting = Vec::new();
-            match infer(e, &scope, &mut visiting, diags) {
+            match infer(e, &scope, &mut Vec::new(), diags) {
                 Some(d) if d == def.dim => {}
                 Some(d) => {
                     diags.push(
@@ -675,23 +708,27 @@ fn check_expressions(sys: &mut System, diags: &mut Vec<Diagnostic>) {
                 None => drop.push(di),
             }
         }
-        if let Some(b) = sys.bodies.get_mut(bi) {
-            for (l, d) in b.lets.iter_mut().zip(let_dims) {
-                l.dim = d;
-            }
-            let mut i = 0;
-            b.declared.retain(|_| {
-                let keep = !drop.contains(&i);
-                i += 1;
-                keep
-            });
+        updates.push((let_dims, drop));
+    }
+    for (l, d) in sys.lets.iter_mut().zip(sys_dims) {
+        l.dim = d;
+    }
+    for (b, (let_dims, drop)) in sys.bodies.iter_mut().zip(updates) {
+        for (l, d) in b.lets.iter_mut().zip(let_dims) {
+            l.dim = d;
         }
+        let mut i = 0;
+        b.declared.retain(|_| {
+            let keep = !drop.contains(&i);
+            i += 1;
+            keep
+        });
     }
 }
 
 /// Suggest the factor that would fix a dimension mismatch.
 fn dimension_fix(expected: Dimension, found: Dimension) -> String {
-    let missing = expected.div(found);
+    let missing = expected.per(found);
     format!(
         "multiply by a factor of {} to get {}",
         missing.describe(),
@@ -823,8 +860,8 @@ fn infer(
             let db = infer(b, scope, visiting, diags);
             let (da, db) = (da?, db?);
             match op {
-                BinOp::Mul => Some(da.mul(db)),
-                BinOp::Div => Some(da.div(db)),
+                BinOp::Mul => Some(da.times(db)),
+                BinOp::Div => Some(da.per(db)),
                 BinOp::Add | BinOp::Sub => {
                     if da == db {
                         Some(da)
@@ -844,7 +881,7 @@ fn infer(
                             .with_label(b.span, format!("this is {}", db.describe()))
                             .with_help(format!(
                                 "multiply the right-hand side by a factor of {}",
-                                da.div(db).describe()
+                                da.per(db).describe()
                             )),
                         );
                         None

@@ -163,10 +163,7 @@ pub fn find(kind: BodyKind, name: &str) -> Option<&'static QuantityDef> {
 
 pub fn def(qty: Qty) -> &'static QuantityDef {
     // The table holds every variant; the fallback only keeps this total.
-    table()
-        .iter()
-        .find(|q| q.qty == qty)
-        .unwrap_or_else(|| &FALLBACK)
+    table().iter().find(|q| q.qty == qty).unwrap_or(&FALLBACK)
 }
 
 static FALLBACK: QuantityDef = QuantityDef {

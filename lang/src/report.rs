@@ -194,15 +194,19 @@ pub fn provenance_text(a: &Analysis, sys: usize, q: &QuantityResult) -> String {
         Origin::Default => "default".to_string(),
         _ => {
             let inputs: Vec<String> = q.inputs.iter().map(|k| key_label(a, sys, *k)).collect();
+            let from = if inputs.is_empty() {
+                String::new()
+            } else {
+                format!(" from {}", inputs.join(", "))
+            };
             format!(
-                "{} by {} from {}{cites}",
+                "{} by {}{from}{cites}",
                 if q.origin == Origin::Derived {
                     "derived"
                 } else {
                     q.origin.as_str()
                 },
                 q.rule.unwrap_or("?"),
-                inputs.join(", ")
             )
         }
     }

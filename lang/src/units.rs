@@ -95,6 +95,8 @@ impl Dimension {
     pub const TEMPERATURE: Dimension = Dimension::base(3);
     pub const ANGLE: Dimension = Dimension::base(4);
 
+    // Only called with constant indexes below 5 (the constants above).
+    #[allow(clippy::indexing_slicing)]
     const fn base(i: usize) -> Dimension {
         let mut e = [Rat::ZERO; 5];
         e[i] = Rat::ONE;
@@ -112,7 +114,7 @@ impl Dimension {
         ])
     }
 
-    pub fn mul(self, o: Dimension) -> Dimension {
+    pub fn times(self, o: Dimension) -> Dimension {
         let mut e = self.0;
         for (a, b) in e.iter_mut().zip(o.0) {
             *a = a.add(b);
@@ -120,8 +122,8 @@ impl Dimension {
         Dimension(e)
     }
 
-    pub fn div(self, o: Dimension) -> Dimension {
-        self.mul(o.pow(Rat::int(-1)))
+    pub fn per(self, o: Dimension) -> Dimension {
+        self.times(o.pow(Rat::int(-1)))
     }
 
     pub fn pow(self, p: Rat) -> Dimension {
@@ -603,7 +605,7 @@ pub fn resolve(expr: &UnitExpr) -> Result<Unit, Vec<(crate::source::Span, Unknow
         match lookup(&f.symbol.name) {
             Some((scale, def)) => {
                 factor *= scale.powi(f.exponent);
-                dim = dim.mul(def.dim.pow(Rat::int(f.exponent)));
+                dim = dim.times(def.dim.pow(Rat::int(f.exponent)));
             }
             None => errors.push((
                 f.symbol.span,
@@ -676,7 +678,7 @@ pub fn parse_unit_text(text: &str) -> Option<Unit> {
             let exp = if i > 0 { -exp } else { exp };
             let (scale, def) = lookup(sym)?;
             factor *= scale.powi(exp);
-            dim = dim.mul(def.dim.pow(Rat::int(exp)));
+            dim = dim.times(def.dim.pow(Rat::int(exp)));
         }
     }
     Some(Unit {

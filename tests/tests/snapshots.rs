@@ -18,14 +18,12 @@ fn check_snapshot(path: &std::path::Path) {
 
 #[test]
 fn fixtures() {
-    insta::glob!("../fixtures/check", "*.syz", |path| check_snapshot(path));
+    insta::glob!("../fixtures/check", "*.syz", check_snapshot);
 }
 
 #[test]
 fn broken_demos() {
-    insta::glob!("../../examples/broken", "*.syz", |path| check_snapshot(
-        path
-    ));
+    insta::glob!("../../examples/broken", "*.syz", check_snapshot);
 }
 
 /// Every rule has a demo or fixture that triggers it (the rules that need special

@@ -476,6 +476,16 @@ impl<'m> Derivation<'m> {
                     if deps.contains(&out) {
                         continue; // would confirm a value with itself
                     }
+                    if let Some(existing) = self.entries.get(&out) {
+                        // A second route only matters if it can disagree on the data
+                        // (see `check_consistency`); skip the work otherwise.
+                        let mine = self.declared_deps(&existing.deps);
+                        let mut theirs = self.declared_deps(&deps);
+                        theirs.remove(&out);
+                        if mine.is_subset(&theirs) || theirs.is_subset(&mine) {
+                            continue;
+                        }
+                    }
                     let Some(value) = value::apply(&rule.eval, &args, &self.inputs) else {
                         continue;
                     };

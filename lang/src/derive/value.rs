@@ -107,21 +107,21 @@ impl Value {
             return None;
         }
         let frac = v.len() as f64 / s.len() as f64;
-        v.sort_unstable_by(f64::total_cmp);
-        let q = |p: f64| {
+        // Linear interpolation between order statistics; each one is found by selection
+        // (O(n)) rather than a full sort.
+        let mut q = |p: f64| {
             let pos = p * (v.len() - 1) as f64;
             let i = pos.floor() as usize;
             let f = pos - i as f64;
-            let a = v.get(i).copied().unwrap_or(f64::NAN);
-            let b = v.get(i + 1).copied().unwrap_or(a);
+            let (_, a, rest) = v.select_nth_unstable_by(i, f64::total_cmp);
+            let a = *a;
+            let b = rest.iter().copied().min_by(f64::total_cmp).unwrap_or(a);
             a + f * (b - a)
         };
-        Some((
-            q(0.5),
-            q(0.158_655_253_931_457),
-            q(0.841_344_746_068_543),
-            frac,
-        ))
+        let median = q(0.5);
+        let low = q(0.158_655_253_931_457);
+        let high = q(0.841_344_746_068_543);
+        Some((median, low, high, frac))
     }
 }
 
@@ -196,14 +196,17 @@ fn sample_through(f: &dyn Fn(&[f64]) -> Option<f64>, args: &[&Value]) -> Option<
         return None;
     }
     let mut buf = vec![0.0; args.len()];
-    let mut out = Vec::with_capacity(n);
-    for i in 0..n {
-        for (b, c) in buf.iter_mut().zip(&cols) {
-            *b = c.get(i).copied().unwrap_or(f64::NAN);
-        }
-        out.push(f(&buf).unwrap_or(f64::NAN));
-    }
-    Some(Arc::from(out))
+    // Collected straight into the shared array: one allocation, no copy.
+    Some(
+        (0..n)
+            .map(|i| {
+                for (b, c) in buf.iter_mut().zip(&cols) {
+                    *b = c.get(i).copied().unwrap_or(f64::NAN);
+                }
+                f(&buf).unwrap_or(f64::NAN)
+            })
+            .collect(),
+    )
 }
 
 /// A stable 64-bit hash (FNV-1a), so seeds do not depend on the platform or the run.

@@ -50,7 +50,7 @@ fn published_definitions() {
     assert_eq!(si("Gyr").0, 31_557_600.0e9);
     // 1 pc = 648000/pi au (IAU 2015 Resolution B2) = 3.0856775814913673e16 m.
     assert!(close(si("pc").0, 3.085_677_581_491_367e16, 1e-15));
-    assert!(close(si("kpc").0, 3.085_677_581_491_367_3e19, 1e-15));
+    assert!(close(si("kpc").0, 3.085_677_581_491_367e19, 1e-15));
     // 1 mas = pi/648e6 rad (SI Brochure definition of the arcsecond).
     assert!(close(si("mas").0, 4.848_136_811_095_36e-9, 1e-12));
 }
