@@ -37,6 +37,15 @@ def language_names():
     return {"keywords": keywords, "quantities": quantities, "functions": functions, "constants": constants}
 
 
+def name_characters():
+    """The non-ASCII characters the lexer accepts in a name."""
+    lexer = read(ROOT, "lang", "src", "lexer.rs")
+    m = re.search(r'#\[regex\(r"(\[[^"]*)"\)\]\s*(?:#\[token\("%"\)\]\s*)?Ident,', lexer)
+    if not m:
+        return set()
+    return {chr(int(h, 16)) for h in re.findall(r"\\u\{([0-9A-Fa-f]+)\}", m.group(1))}
+
+
 def alternatives(pattern):
     """Words of the alternations `(?:a|b|c)` or `\\%(a\\|b\\)` in a regex."""
     return set(w for w in re.split(r"\\?\|", pattern) if re.fullmatch(r"[\w\u03c9]+", w))
@@ -111,6 +120,21 @@ def main():
                 print(f"  FAIL {editor} {kind}: missing {missing}, not in the language {extra}")
             else:
                 print(f"  ok   {editor} {kind} ({len(names)})")
+    chars = name_characters()
+    if not chars:
+        print("  FAIL could not read the name characters from lang/src/lexer.rs")
+        failures += 1
+    grammar = read(SUPPORT, "vscode", "syntaxes", "syzygy.tmLanguage.json")
+    for editor, text in (("vscode grammar", grammar.replace("\\x{", "\\u{")),
+                         ("vim syntax", read(SUPPORT, "neovim", "syntax", "syzygy.vim")),
+                         ("emacs mode", read(SUPPORT, "emacs", "syzygy-mode.el"))):
+        absent = sorted(c for c in chars
+                        if c not in text and ("\\u{%04X}" % ord(c)) not in text.upper().replace("\\U{", "\\u{"))
+        if absent:
+            failures += 1
+            print(f"  FAIL {editor} name characters: missing {absent}")
+        else:
+            print(f"  ok   {editor} name characters ({len(chars)})")
     print(f"names: {failures} lists out of step")
     return 1 if failures else 0
 

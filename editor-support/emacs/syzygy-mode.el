@@ -79,7 +79,7 @@ The first element is looked up on `exec-path' unless it is a full path."
 (defconst syzygy-constants '("pi" "G" "c" "sigma_sb")
   "Named constants available in expressions.")
 
-(defconst syzygy--ident-re "[A-Za-z_☉⊕°][A-Za-z0-9_☉⊕]*"
+(defconst syzygy--ident-re "[A-Za-z_☉⊕°µμω][A-Za-z0-9_☉⊕µμω]*"
   "An identifier as the lexer reads one.")
 
 (defconst syzygy--number-re
@@ -104,6 +104,9 @@ The first element is looked up on `exec-path' unless it is a full path."
     (modify-syntax-entry ?_ "_" st)
     (modify-syntax-entry ?☉ "w" st)
     (modify-syntax-entry ?⊕ "w" st)
+    (modify-syntax-entry ?µ "w" st)
+    (modify-syntax-entry ?μ "w" st)
+    (modify-syntax-entry ?ω "w" st)
     (modify-syntax-entry ?. "." st)
     (modify-syntax-entry ?± "." st)
     (modify-syntax-entry ?% "." st)
@@ -132,7 +135,7 @@ A unit follows the whole measurement (`0.93 ± 0.04 Msun'); it may be a product
       (let ((num-start (match-beginning 0)))
         (when (and (syzygy--in-code-p num-start)
                    (not (and (> num-start (point-min))
-                             (string-match-p "[A-Za-z0-9_.☉⊕]"
+                             (string-match-p "[A-Za-z0-9_.☉⊕µμω]"
                                              (string (char-before num-start))))))
           (when (looking-at syzygy--uncertainty-re)
             (goto-char (match-end 0)))
@@ -178,7 +181,7 @@ A unit follows the whole measurement (`0.93 ± 0.04 Msun'); it may be a product
       (,(concat (regexp-opt syzygy-functions 'symbols) "[ \t]*(") 1 'font-lock-builtin-face)
       (,(concat (regexp-opt syzygy-constants 'symbols) "\\(?:[^.]\\|$\\)") 1 'font-lock-constant-face)
       ("\\[\\([^]\n]*\\)\\]" (1 'syzygy-citation-face))
-      (,(concat "\\(?:^\\|[^A-Za-z0-9_.☉⊕]\\)\\(" syzygy--number-re "\\)") 1 'syzygy-number-face)
+      (,(concat "\\(?:^\\|[^A-Za-z0-9_.☉⊕µμω]\\)\\(" syzygy--number-re "\\)") 1 'syzygy-number-face)
       ("±\\|\\+-" . 'syzygy-uncertainty-face)
       (,(concat "[0-9.][ \t]*\\(\\+\\)[ \t]*" syzygy--number-re "[ \t]*\\(/\\)[ \t]*\\([-−]\\)")
        (1 'syzygy-uncertainty-face) (2 'syzygy-uncertainty-face) (3 'syzygy-uncertainty-face))

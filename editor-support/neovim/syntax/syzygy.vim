@@ -14,8 +14,8 @@ set cpo&vim
 
 syn case match
 
-" An identifier as the lexer reads one (the solar and Earth symbols count as letters).
-let s:ident = '[A-Za-z_☉⊕°][A-Za-z0-9_☉⊕]*'
+" An identifier as the lexer reads one (the solar and Earth symbols, µ, μ and ω count as letters).
+let s:ident = '[A-Za-z_☉⊕°µμω][A-Za-z0-9_☉⊕µμω]*'
 let s:num = '\%(\d\+\%(\.\d*\)\=\|\.\d\+\)\%([eE][-+]\=\d\+\)\='
 " Quantity names and their trade-symbol aliases, longest first.
 let s:qty = '\%('
@@ -57,7 +57,7 @@ syn match syzygyFunction /\<\%(sqrt\|cbrt\|exp\|ln\|log10\|sin\|cos\|tan\|abs\)\
 syn match syzygyConstant /\<\%(pi\|G\|c\|sigma_sb\)\>\%(\s*\.\)\@!/
 
 " Numbers, uncertainties and limits.
-exe 'syn match syzygyNumber /\%([A-Za-z0-9_.☉⊕]\)\@<!' . s:num . '/'
+exe 'syn match syzygyNumber /\%([A-Za-z0-9_.☉⊕µμω]\)\@<!' . s:num . '/'
 syn match syzygyUncertainty /±\|+-/
 exe 'syn match syzygyUncertainty /\%(\d\s*\)\@<=+\ze\s*' . s:num . '\s*\/\s*[-−]/'
 exe 'syn match syzygyUncertainty /\%(\%(\d\s*\)\@<=+\s*' . s:num . '\s*\)\@<=\/\s*[-−]/'
