@@ -22,9 +22,12 @@ pub struct Allow {
     pub covers: Option<usize>,
 }
 
+/// A rule id as written and its byte range within the comment.
+pub type RuleId = (String, std::ops::Range<usize>);
+
 /// Parse the text of one comment (`# allow(a, b): why`) into rule ids with byte ranges
 /// relative to the comment's start, and the reason.
-pub fn parse_comment(text: &str) -> Option<(Vec<(String, std::ops::Range<usize>)>, String)> {
+pub fn parse_comment(text: &str) -> Option<(Vec<RuleId>, String)> {
     let rest = text.strip_prefix('#')?;
     let lead = rest.len() - rest.trim_start().len();
     let rest = rest.trim_start().strip_prefix("allow(")?;

@@ -452,7 +452,7 @@ fn width(s: &str) -> usize {
 
 fn pad(s: &str, w: usize) -> String {
     let mut out = s.to_string();
-    out.extend(std::iter::repeat_n(' ', w.saturating_sub(width(s))));
+    out.push_str(&" ".repeat(w.saturating_sub(width(s))));
     out
 }
 

@@ -1,8 +1,9 @@
 //! Syzygy's language core.
 //!
 //! Pipeline: [`lexer`] → [`parser`] → [`model`] (name resolution, units, measurements) →
-//! derivations → physics checks → [`diagnostic`]s. The core does no I/O: front ends give it
-//! text through [`source::SourceDb`].
+//! derivations → physics checks → silencing comments ([`allow`]) → [`diagnostic`]s. The core
+//! does no I/O: front ends give it text through [`source::SourceDb`]. Editor queries over an
+//! [`Analysis`] live in [`ide`]; the canonical layout (`syz fmt`) in [`layout`].
 
 #![cfg_attr(test, allow(clippy::unwrap_used, clippy::indexing_slicing))]
 

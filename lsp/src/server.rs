@@ -98,9 +98,7 @@ async fn analysis_of(snap: &Arc<Snapshot>) -> Option<Arc<syzygy::Analysis>> {
 }
 
 async fn ready(snap: &Arc<Snapshot>) -> Result<Arc<syzygy::Analysis>> {
-    analysis_of(snap)
-        .await
-        .ok_or_else(|| Error::internal_error())
+    analysis_of(snap).await.ok_or_else(Error::internal_error)
 }
 
 fn edit(uri: &Url, edits: Vec<TextEdit>) -> WorkspaceEdit {
@@ -313,12 +311,12 @@ impl LanguageServer for Backend {
                 label: c.label.clone(),
                 kind: Some(convert::completion_kind(c.kind)),
                 detail: (!c.detail.is_empty()).then_some(c.detail),
-                documentation: (!c.doc.is_empty()).then(|| {
-                    Documentation::MarkupContent(MarkupContent {
+                documentation: (!c.doc.is_empty()).then_some(Documentation::MarkupContent(
+                    MarkupContent {
                         kind: MarkupKind::Markdown,
                         value: c.doc,
-                    })
-                }),
+                    },
+                )),
                 sort_text: Some(format!("{i:04}")),
                 text_edit: Some(CompletionTextEdit::Edit(TextEdit {
                     range: snap.range(c.replace, enc),
@@ -445,7 +443,7 @@ impl LanguageServer for Backend {
                 .into_iter()
                 .filter_map(|s| {
                     let r = snap.range(s, enc);
-                    (r.end.line > r.start.line).then(|| FoldingRange {
+                    (r.end.line > r.start.line).then_some(FoldingRange {
                         start_line: r.start.line,
                         start_character: None,
                         end_line: r.end.line,

@@ -74,7 +74,8 @@ fn language_server_on_1000_planets() {
         let version = 2 + r as i64;
         let pos = position_of(&text, "period        = ", 500);
         let at = json!({"line": pos["line"], "character": pos["character"].as_u64().unwrap() + 16});
-        let end = json!({"line": pos["line"], "character": pos["character"].as_u64().unwrap() + 17});
+        let end =
+            json!({"line": pos["line"], "character": pos["character"].as_u64().unwrap() + 17});
         let digit = if r % 2 == 0 { "3" } else { "2" };
         let t = Instant::now();
         c.notify(
@@ -95,7 +96,10 @@ fn language_server_on_1000_planets() {
             json!({"textDocument": {"uri": uri}, "position": pos}),
         );
         hover_times.push(t.elapsed());
-        assert!(r["contents"]["value"].as_str().unwrap().contains("Orbital period"));
+        assert!(r["contents"]["value"]
+            .as_str()
+            .unwrap()
+            .contains("Orbital period"));
     }
     let rss = rss_mib(c.pid(), "VmRSS:");
     let peak = rss_mib(c.pid(), "VmHWM:");

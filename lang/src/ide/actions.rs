@@ -162,10 +162,7 @@ fn declare_derived(a: &Analysis, src: &str, offset: usize) -> Vec<Action> {
 }
 
 /// The literal value of the property at `offset`, with its unit.
-fn literal_prop_at<'a>(
-    a: &'a Analysis,
-    offset: usize,
-) -> Option<(&'a ast::BodyDecl, &'a ast::Prop, Span)> {
+fn literal_prop_at(a: &Analysis, offset: usize) -> Option<(&ast::BodyDecl, &ast::Prop, Span)> {
     for sys in &a.ast.systems {
         for b in &sys.bodies {
             for p in &b.props {
