@@ -28,7 +28,7 @@ pub fn closest<'a>(word: &str, candidates: impl IntoIterator<Item = &'a str>) ->
     for c in candidates {
         let d = edit_distance(&word.to_lowercase(), &c.to_lowercase());
         let limit = (word.chars().count() / 3).clamp(1, 3);
-        if d <= limit && best.map_or(true, |(bd, _)| d < bd) {
+        if d <= limit && best.is_none_or(|(bd, _)| d < bd) {
             best = Some((d, c));
         }
     }
