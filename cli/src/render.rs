@@ -7,7 +7,7 @@ use syzygy::diagnostic::{Diagnostic, Severity};
 use syzygy::source::SourceDb;
 
 pub fn use_color() -> bool {
-    std::env::var_os("NO_COLOR").map_or(true, |v| v.is_empty()) && std::io::stdout().is_terminal()
+    std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty()) && std::io::stdout().is_terminal()
 }
 
 pub fn stderr_color() -> bool {

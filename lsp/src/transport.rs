@@ -118,7 +118,7 @@ fn rewrite(body: &[u8], seen: &Seen) -> Option<(Vec<u8>, bool)> {
     let method = obj.get("method").map(|m| m.as_str());
     let params_ok = obj
         .get("params")
-        .map_or(true, |p| p.is_object() || p.is_array());
+        .is_none_or(|p| p.is_object() || p.is_array());
     let response = obj.contains_key("id")
         && method.is_none()
         && (obj.contains_key("result") || obj.contains_key("error"));

@@ -160,7 +160,7 @@ impl LspClient {
         self.wait_for(TIMEOUT, |m| {
             m["method"] == "textDocument/publishDiagnostics"
                 && m["params"]["uri"] == uri
-                && version.map_or(true, |v| m["params"]["version"] == v)
+                && version.is_none_or(|v| m["params"]["version"] == v)
         })
         .unwrap_or_else(|| panic!("no diagnostics for {uri} (version {version:?})"))["params"]
             .clone()
