@@ -1,0 +1,2 @@
+" Syzygy system descriptions
+autocmd BufRead,BufNewFile *.syz setfiletype syzygy

@@ -1,0 +1,101 @@
+" Vim syntax file
+" Language:  Syzygy (.syz): stars, planets and their measurements
+" Keep the names in step with lang/src/quantities.rs, lexer.rs and units.rs;
+" editor-support/check-names.py checks that they are.
+
+if exists("b:current_syntax")
+  finish
+endif
+
+scriptencoding utf-8
+
+let s:cpo_save = &cpo
+set cpo&vim
+
+syn case match
+
+" An identifier as the lexer reads one (the solar and Earth symbols, µ, μ and ω count as letters).
+let s:ident = '[A-Za-z_☉⊕°µμω][A-Za-z0-9_☉⊕µμω]*'
+let s:num = '\%(\d\+\%(\.\d*\)\=\|\.\d\+\)\%([eE][-+]\=\d\+\)\='
+" Quantity names and their trade-symbol aliases, longest first.
+let s:qty = '\%('
+      \ . 'scaled_semi_major_axis\|transit_duration_full\|impact_parameter\|transit_duration\|escape_velocity\|semi_major_axis\|surface_gravity\|arg_periastron\|redistribution\|orbital_speed\|'
+      \ . 'spectral_type\|transit_depth\|transit_epoch\|eccentricity\|radius_ratio\|rv_amplitude\|bond_albedo\|hill_radius\|inclination\|metallicity\|'
+      \ . 'insolation\|luminosity\|distance\|duration\|min_mass\|parallax\|density\|m_sin_i\|albedo\|impact\|'
+      \ . 'period\|r_hill\|radius\|sptype\|Msini\|Rp_Rs\|T_eff\|delta\|depth\|epoch\|'
+      \ . 'log_g\|msini\|omega\|rp_rs\|v_esc\|v_orb\|K_rv\|T_eq\|Teff\|a_Rs\|'
+      \ . 'a_rs\|dist\|flux\|logg\|mass\|teff\|FeH\|SpT\|T14\|T23\|'
+      \ . 'Teq\|age\|ecc\|feh\|inc\|plx\|rho\|sma\|teq\|Mp\|'
+      \ . 'Rp\|T0\|A\|K\|L\|M\|P\|R\|S\|a\|'
+      \ . 'b\|e\|f\|g\|i\|k\|w\|ω'
+      \ . '\)'
+
+" Comments, with the silencing form `# allow(rule-id): reason`.
+syn match syzygyComment /#.*$/ contains=syzygyAllow,@Spell
+syn match syzygyAllow /\%(#\s*\)\@<=allow\s*(\s*[A-Za-z0-9_-]\+\s*)/ contained
+
+syn region syzygyString start=/"/ skip=/\\./ end=/"\|$/ oneline contains=syzygyEscape
+syn match syzygyEscape /\\./ contained
+
+syn keyword syzygyKeyword system star planet orbits ref let assumed
+
+" Names declared after a keyword.
+exe 'syn match syzygyStarName /\%(\<star\s\+\)\@<=' . s:ident . '/'
+exe 'syn match syzygyPlanetName /\%(\<planet\s\+\)\@<=' . s:ident . '/'
+exe 'syn match syzygyBodyRef /\%(\<orbits\s\+\)\@<=' . s:ident . '/'
+exe 'syn match syzygyRefId /\%(\<ref\s\+\)\@<=' . s:ident . '/'
+exe 'syn match syzygyLetName /\%(\<let\s\+\)\@<=' . s:ident . '/'
+
+" A property: a quantity name at the start of a line or after `{` or `;`.
+exe 'syn match syzygyProperty /\%(\%(^\|[{;]\)\s*\)\@<=' . s:ident . '\ze\s*[=<>]/'
+exe 'syn match syzygyQuantity /\%(\%(^\|[{;]\)\s*\)\@<=\<' . s:qty . '\>\ze\s*[=<>]/'
+" A reference to another body's quantity: `b.period`, `veyra.mass`.
+exe 'syn match syzygyBodyRef /' . s:ident . '\ze\s*\.\s*[A-Za-z_]/'
+exe 'syn match syzygyQuantity /\%(\.\s*\)\@<=\<' . s:qty . '\>/'
+
+syn match syzygyFunction /\<\%(sqrt\|cbrt\|exp\|ln\|log10\|sin\|cos\|tan\|abs\)\ze\s*(/
+syn match syzygyConstant /\<\%(pi\|G\|c\|sigma_sb\)\>\%(\s*\.\)\@!/
+
+" Numbers, uncertainties and limits.
+exe 'syn match syzygyNumber /\%([A-Za-z0-9_.☉⊕µμω]\)\@<!' . s:num . '/'
+syn match syzygyUncertainty /±\|+-/
+exe 'syn match syzygyUncertainty /\%(\d\s*\)\@<=+\ze\s*' . s:num . '\s*\/\s*[-−]/'
+exe 'syn match syzygyUncertainty /\%(\%(\d\s*\)\@<=+\s*' . s:num . '\s*\)\@<=\/\s*[-−]/'
+syn match syzygyLimit /[<>]/
+
+" A unit follows a number (or its uncertainty): `Msun`, `m/s`, `km s^-1`, `g/cm^3`, `%`.
+let s:factor = '\%(\%(\<\%(assumed\|system\|star\|planet\|orbits\|ref\|let\)\>\)\@!' . s:ident . '\|%\)\%(\s*\^\s*[-−]\=\s*\d\+\)\='
+exe 'syn match syzygyUnit /\%(\d\s*\)\@<=' . s:factor . '\%(\s*\/\s*' . s:factor . '\|\s\+' . s:factor . '\)*/ contains=syzygyUnitOperator'
+syn match syzygyUnitOperator /[\/^]\|[-−]\=\d\+/ contained
+
+" Citations: `[rv1]`, `[rv1, ph1]`.
+exe 'syn region syzygyCitation matchgroup=syzygyCitationBracket start=/\[/ end=/\]\|$/ oneline contains=syzygyCitationId'
+exe 'syn match syzygyCitationId /' . s:ident . '/ contained'
+
+hi def link syzygyComment         Comment
+hi def link syzygyAllow           PreProc
+hi def link syzygyString          String
+hi def link syzygyEscape          SpecialChar
+hi def link syzygyKeyword         Keyword
+hi def link syzygyStarName        Type
+hi def link syzygyPlanetName      Type
+hi def link syzygyBodyRef         Type
+hi def link syzygyRefId           Label
+hi def link syzygyLetName         Identifier
+hi def link syzygyProperty        Normal
+hi def link syzygyQuantity        Identifier
+hi def link syzygyFunction        Function
+hi def link syzygyConstant        Constant
+hi def link syzygyNumber          Number
+hi def link syzygyUncertainty     Operator
+hi def link syzygyLimit           Operator
+hi def link syzygyUnit            Special
+hi def link syzygyUnitOperator    Special
+hi def link syzygyCitation        Label
+hi def link syzygyCitationBracket Delimiter
+hi def link syzygyCitationId      Label
+
+let b:current_syntax = "syzygy"
+
+let &cpo = s:cpo_save
+unlet s:cpo_save
