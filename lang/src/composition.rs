@@ -468,10 +468,30 @@ fn classify_point_flagged(
     if !is_positive_finite(radius_m) {
         return None;
     }
-    let b = boundary_radii(mass_kg, boundaries)?;
+    if !boundaries.is_valid() {
+        return None;
+    }
+    // As `boundary_radii`, but the iron-rich limit is compared as a cube (its definition)
+    // so that no cube root is taken per sample.
+    let floor = radius_of_extrapolated(Curve::PureIron, mass_kg)?;
+    let ceiling = radius_of_extrapolated(
+        Curve::Rocky {
+            core_mass_fraction: 0.0,
+        },
+        mass_kg,
+    )?;
+    let ceiling_m = ceiling.radius_m.max(floor.radius_m);
+    let x = boundaries.iron_rich_core_fraction;
+    let limit_cubed = x * floor.radius_m.powi(3) + (1.0 - x) * ceiling_m.powi(3);
+    let b = BoundaryRadii {
+        iron_floor_m: floor.radius_m,
+        iron_rich_limit_m: f64::NAN,
+        rock_ceiling_m: ceiling_m,
+        extrapolated: floor.extrapolated || ceiling.extrapolated,
+    };
     let class = if radius_m < b.iron_floor_m {
         CompositionClass::DenserThanIron
-    } else if radius_m < b.iron_rich_limit_m {
+    } else if radius_m.powi(3) < limit_cubed {
         CompositionClass::IronRich
     } else if radius_m <= b.rock_ceiling_m {
         CompositionClass::Rocky

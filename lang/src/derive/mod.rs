@@ -22,6 +22,7 @@ use crate::quantities::{self, Qty};
 use crate::source::Span;
 use rules::{RuleDef, Slot, RULES};
 use std::collections::{BTreeMap, BTreeSet, HashMap};
+use std::sync::Arc;
 pub use value::{InputInfo, Value};
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -172,7 +173,7 @@ struct Entry {
     rule: Option<usize>,
     inputs: Vec<Key>,
     deps: BTreeSet<Key>,
-    assumptions: BTreeSet<String>,
+    assumptions: BTreeSet<Arc<str>>,
 }
 
 #[derive(Debug, Clone)]
@@ -181,7 +182,7 @@ struct Candidate {
     value: Value,
     inputs: Vec<Key>,
     deps: BTreeSet<Key>,
-    assumptions: BTreeSet<String>,
+    assumptions: BTreeSet<Arc<str>>,
 }
 
 /// A system's derivation with its full values (samples included). Physics checks read it;
@@ -339,26 +340,26 @@ impl<'m> Derivation<'m> {
                 } else {
                     Origin::Declared
                 };
-                let mut assumptions = BTreeSet::new();
+                let mut assumptions: BTreeSet<Arc<str>> = BTreeSet::new();
                 if decl.assumed {
-                    assumptions.insert(format!(
+                    assumptions.insert(Arc::from(format!(
                         "{}.{} = {} (assumed)",
                         body.id,
                         def.name,
                         crate::format::number(m.value)
-                    ));
+                    )));
                 }
                 if decl.qty == Qty::TransitEpoch {
-                    assumptions.extend(epoch_assumptions(decl));
+                    assumptions.extend(epoch_assumptions(decl).into_iter().map(Arc::from));
                 }
                 if m.form.is_limit() {
-                    assumptions.insert(format!(
+                    assumptions.insert(Arc::from(format!(
                         "{}.{} {} {} sampled uniformly within its physical range",
                         body.id,
                         def.name,
                         if m.form == Form::UpperLimit { "<" } else { ">" },
                         crate::format::number(m.value)
-                    ));
+                    )));
                 }
                 self.entries.insert(
                     (bi, decl.qty),
@@ -408,7 +409,7 @@ impl<'m> Derivation<'m> {
                                 inputs: Vec::new(),
                                 deps: BTreeSet::from([(bi, q)]),
                                 assumptions: BTreeSet::from([
-                                    "argument of periastron unknown: spread uniformly over 0-360 deg (default)".to_string(),
+                                    Arc::from("argument of periastron unknown: spread uniformly over 0-360 deg (default)"),
                                 ]),
                             },
                         );
@@ -423,7 +424,7 @@ impl<'m> Derivation<'m> {
                                 rule: None,
                                 inputs: Vec::new(),
                                 deps: BTreeSet::from([(bi, q)]),
-                                assumptions: BTreeSet::from([words.to_string()]),
+                                assumptions: BTreeSet::from([Arc::from(words)]),
                             },
                         );
                     }
@@ -513,7 +514,7 @@ impl<'m> Derivation<'m> {
                     rule: None,
                     inputs: Vec::new(),
                     deps: BTreeSet::from([(bi, q)]),
-                    assumptions: BTreeSet::from([words]),
+                    assumptions: BTreeSet::from([Arc::from(words)]),
                 },
             );
         }
@@ -628,7 +629,7 @@ impl<'m> Derivation<'m> {
                         continue;
                     };
                     if let Some(a) = rule_assumption(rule.id) {
-                        assumptions.insert(a.to_string());
+                        assumptions.insert(Arc::from(a));
                     }
                     deps.insert(out);
                     if !self.entries.contains_key(&out) {
@@ -1247,7 +1248,7 @@ impl<'m> Derivation<'m> {
                 .unwrap_or_default(),
             span: decl.map(|d| d.span),
             budget,
-            assumptions: entry.assumptions.iter().cloned().collect(),
+            assumptions: entry.assumptions.iter().map(|a| a.to_string()).collect(),
             notes,
             unit: (key.1 == Qty::TransitEpoch)
                 .then(|| {
