@@ -19,8 +19,15 @@ pub fn syz() -> &'static Path {
     static BIN: OnceLock<PathBuf> = OnceLock::new();
     BIN.get_or_init(|| {
         let cargo = std::env::var("CARGO").unwrap_or_else(|_| "cargo".into());
+        // The binary is built in the profile of the tests themselves, so a benchmark run
+        // with `cargo test --release` measures a release binary.
+        let release = !cfg!(debug_assertions);
+        let mut args = vec!["build", "--quiet", "-p", "syzygy-cli", "--bin", "syz"];
+        if release {
+            args.push("--release");
+        }
         let status = Command::new(cargo)
-            .args(["build", "--quiet", "-p", "syzygy-cli", "--bin", "syz"])
+            .args(&args)
             .current_dir(root())
             .status()
             .expect("cargo could not be started");
@@ -28,7 +35,9 @@ pub fn syz() -> &'static Path {
         let target = std::env::var_os("CARGO_TARGET_DIR")
             .map(PathBuf::from)
             .unwrap_or_else(|| root().join("target"));
-        target.join("debug").join("syz")
+        target
+            .join(if release { "release" } else { "debug" })
+            .join("syz")
     })
 }
 

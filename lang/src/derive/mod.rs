@@ -547,7 +547,15 @@ impl<'m> Derivation<'m> {
     }
 
     fn fixed_point(&mut self) {
-        let mut fired: BTreeSet<(usize, usize)> = BTreeSet::new();
+        // Every (rule, body) pair that applies, bound once; a pair is taken out when it fires.
+        let mut todo: Vec<Option<(usize, Key, Vec<Key>)>> = Vec::new();
+        for (ri, rule) in RULES.iter().enumerate() {
+            for bi in 0..self.sys.bodies.len() {
+                if let Some((out, ins)) = self.bind(rule, bi) {
+                    todo.push(Some((ri, out, ins)));
+                }
+            }
+        }
         let mut pending_exprs: Vec<Key> = Vec::new();
         for (bi, body) in self.sys.bodies.iter().enumerate() {
             for decl in &body.declared {
@@ -561,14 +569,14 @@ impl<'m> Derivation<'m> {
         // minimum mass before the planet's mass is neglected).
         let max_tier = RULES.iter().map(|r| r.tier).max().unwrap_or(0);
         for tier in 0..=max_tier {
-            self.rounds(tier, &mut fired, &mut pending_exprs);
+            self.rounds(tier, &mut todo, &mut pending_exprs);
         }
     }
 
     fn rounds(
         &mut self,
         tier: u8,
-        fired: &mut BTreeSet<(usize, usize)>,
+        todo: &mut [Option<(usize, Key, Vec<Key>)>],
         pending_exprs: &mut Vec<Key>,
     ) {
         for _round in 0..32 {
@@ -585,22 +593,20 @@ impl<'m> Derivation<'m> {
             *pending_exprs = still;
             // Rules.
             let mut fresh: Vec<Key> = Vec::new();
-            for (ri, rule) in RULES.iter().enumerate() {
-                if rule.tier > tier {
-                    continue;
-                }
-                for bi in 0..self.sys.bodies.len() {
-                    if fired.contains(&(ri, bi)) {
-                        continue;
-                    }
-                    let Some((out, ins)) = self.bind(rule, bi) else {
-                        fired.insert((ri, bi));
+            for slot in todo.iter_mut() {
+                {
+                    let Some((ri, _, ins)) = slot.as_ref() else {
                         continue;
                     };
-                    if !ins.iter().all(|k| self.entries.contains_key(k)) {
+                    let tier_ok = RULES.get(*ri).is_some_and(|r| r.tier <= tier);
+                    if !tier_ok || !ins.iter().all(|k| self.entries.contains_key(k)) {
                         continue;
                     }
-                    fired.insert((ri, bi));
+                    let Some((ri, out, ins)) = slot.take() else {
+                        continue;
+                    };
+                    let Some(rule) = RULES.get(ri) else { continue };
+                    let out: Key = out;
                     progress = true;
                     let mut deps = BTreeSet::new();
                     let mut assumptions = BTreeSet::new();
