@@ -428,6 +428,16 @@ pub struct BoundaryRadii {
 /// needed (flagged). `None` if the mass is not positive and finite or the boundaries
 /// are invalid.
 pub fn boundary_radii(mass_kg: f64, boundaries: &ClassBoundaries) -> Option<BoundaryRadii> {
+    let (b, limit_cubed) = boundary_parts(mass_kg, boundaries)?;
+    Some(BoundaryRadii {
+        iron_rich_limit_m: limit_cubed.cbrt(),
+        ..b
+    })
+}
+
+/// The boundaries at one mass, with the iron-rich limit left as its cube (how it is defined),
+/// so that classifying a sample needs no cube root.
+fn boundary_parts(mass_kg: f64, boundaries: &ClassBoundaries) -> Option<(BoundaryRadii, f64)> {
     if !boundaries.is_valid() {
         return None;
     }
@@ -441,13 +451,16 @@ pub fn boundary_radii(mass_kg: f64, boundaries: &ClassBoundaries) -> Option<Boun
     // Guard: keep the ceiling at or above the floor at any extrapolated mass.
     let ceiling_m = ceiling.radius_m.max(floor.radius_m);
     let x = boundaries.iron_rich_core_fraction;
-    let limit_m = (x * floor.radius_m.powi(3) + (1.0 - x) * ceiling_m.powi(3)).cbrt();
-    Some(BoundaryRadii {
-        iron_floor_m: floor.radius_m,
-        iron_rich_limit_m: limit_m,
-        rock_ceiling_m: ceiling_m,
-        extrapolated: floor.extrapolated || ceiling.extrapolated,
-    })
+    let limit_cubed = x * floor.radius_m.powi(3) + (1.0 - x) * ceiling_m.powi(3);
+    Some((
+        BoundaryRadii {
+            iron_floor_m: floor.radius_m,
+            iron_rich_limit_m: f64::NAN,
+            rock_ceiling_m: ceiling_m,
+            extrapolated: floor.extrapolated || ceiling.extrapolated,
+        },
+        limit_cubed,
+    ))
 }
 
 /// Class of a single (mass, radius) point, or `None` if either value is not positive
@@ -468,27 +481,7 @@ fn classify_point_flagged(
     if !is_positive_finite(radius_m) {
         return None;
     }
-    if !boundaries.is_valid() {
-        return None;
-    }
-    // As `boundary_radii`, but the iron-rich limit is compared as a cube (its definition)
-    // so that no cube root is taken per sample.
-    let floor = radius_of_extrapolated(Curve::PureIron, mass_kg)?;
-    let ceiling = radius_of_extrapolated(
-        Curve::Rocky {
-            core_mass_fraction: 0.0,
-        },
-        mass_kg,
-    )?;
-    let ceiling_m = ceiling.radius_m.max(floor.radius_m);
-    let x = boundaries.iron_rich_core_fraction;
-    let limit_cubed = x * floor.radius_m.powi(3) + (1.0 - x) * ceiling_m.powi(3);
-    let b = BoundaryRadii {
-        iron_floor_m: floor.radius_m,
-        iron_rich_limit_m: f64::NAN,
-        rock_ceiling_m: ceiling_m,
-        extrapolated: floor.extrapolated || ceiling.extrapolated,
-    };
+    let (b, limit_cubed) = boundary_parts(mass_kg, boundaries)?;
     let class = if radius_m < b.iron_floor_m {
         CompositionClass::DenserThanIron
     } else if radius_m.powi(3) < limit_cubed {
