@@ -246,6 +246,19 @@ fn check(
         }
     }
     let (notes, warnings, errors) = (counts[0], counts[1], counts[2]);
+    // Counts per rule id, in the catalogue's order (the order of docs/rules.md).
+    let mut per_rule: Vec<(&'static str, usize)> = Rule::ALL
+        .iter()
+        .map(|r| {
+            let n = analyses
+                .iter()
+                .flat_map(|a| &a.diagnostics)
+                .filter(|d| d.rule == *r)
+                .count();
+            (r.id(), n)
+        })
+        .collect();
+    per_rule.retain(|(_, n)| *n > 0);
     let stdout = std::io::stdout();
     let mut out = stdout.lock();
     match format {
@@ -259,7 +272,12 @@ fn check(
                 "files": analyses.len(),
                 "diagnostics": diags,
                 "io_errors": loaded.errors,
-                "summary": {"errors": errors, "warnings": warnings, "notes": notes},
+                "summary": {
+                    "errors": errors,
+                    "warnings": warnings,
+                    "notes": notes,
+                    "rules": per_rule.iter().map(|(id, n)| (id.to_string(), serde_json::json!(n))).collect::<serde_json::Map<_, _>>(),
+                },
             });
             let _ = writeln!(
                 out,
@@ -286,6 +304,13 @@ fn check(
                 notes,
                 plural(notes)
             );
+            if !per_rule.is_empty() {
+                let words: Vec<String> = per_rule
+                    .iter()
+                    .map(|(id, n)| format!("{id}: {n}"))
+                    .collect();
+                let _ = writeln!(out, "by rule: {}", words.join(", "));
+            }
         }
     }
     files::report_io_errors(&loaded.errors);
