@@ -108,12 +108,21 @@ pub fn analyze_all(
     options: &Options,
     overrides: &[SeverityOverride],
 ) -> Vec<Analysis> {
+    let settings: Vec<_> = db
+        .files()
+        .map(|_| (options.clone(), overrides.to_vec()))
+        .collect();
+    analyze_each(db, &settings)
+}
+
+/// Analyse every loaded file with its own settings (one entry per file, in file order).
+pub fn analyze_each(db: &MemoryDb, settings: &[crate::config_file::FileSettings]) -> Vec<Analysis> {
     use rayon::prelude::*;
-    let ids: Vec<_> = db.files().collect();
+    let ids: Vec<_> = db.files().zip(settings).collect();
     let progress = progress_bar(ids.len());
     let out = ids
         .par_iter()
-        .map(|&f| {
+        .map(|&(f, (options, overrides))| {
             let mut a = analyze(f, db.text(f), options);
             apply_overrides(&mut a.diagnostics, overrides);
             if let Some(p) = &progress {

@@ -1,6 +1,7 @@
 //! `syz`: the command line over the Syzygy core. Reads files, hands their text to the core,
 //! renders what comes back. No language or physics logic lives here.
 
+mod config_file;
 mod ephemeris_cmd;
 mod files;
 mod fmt_cmd;
@@ -45,18 +46,18 @@ enum PropagationArg {
 
 #[derive(clap::Args)]
 struct EngineArgs {
-    /// How uncertainties are propagated.
-    #[arg(long, value_enum, default_value = "monte-carlo")]
-    propagation: PropagationArg,
-    /// Monte Carlo sample count.
-    #[arg(long, default_value_t = 10_000, value_parser = clap::value_parser!(u32).range(1..=10_000_000))]
-    samples: u32,
-    /// Seed of the Monte Carlo generator (the same seed gives the same numbers).
-    #[arg(long, default_value_t = 0x5359_5a59)]
-    seed: u64,
-    /// Declared and derived values further apart than this many combined sigma are reported.
-    #[arg(long, default_value_t = 3.0, value_parser = parse_sigma)]
-    sigma: f64,
+    /// How uncertainties are propagated [default: monte-carlo, or as syzygy.toml says].
+    #[arg(long, value_enum)]
+    propagation: Option<PropagationArg>,
+    /// Monte Carlo sample count [default: 10000, or as syzygy.toml says].
+    #[arg(long, value_parser = clap::value_parser!(u32).range(1..=10_000_000))]
+    samples: Option<u32>,
+    /// Seed of the Monte Carlo generator (the same seed gives the same numbers) [default: 1398364761].
+    #[arg(long)]
+    seed: Option<u64>,
+    /// Declared and derived values further apart than this many combined sigma are reported [default: 3].
+    #[arg(long, value_parser = parse_sigma)]
+    sigma: Option<f64>,
     /// Report this rule as an error (repeatable; see docs/rules.md for the ids).
     #[arg(long, value_name = "RULE", value_parser = parse_rule)]
     deny: Vec<Rule>,
@@ -86,14 +87,20 @@ fn parse_rule(s: &str) -> Result<Rule, String> {
 
 impl EngineArgs {
     fn options(&self) -> Options {
-        Options {
-            propagation: match self.propagation {
+        self.flags().over(Options::default())
+    }
+
+    /// The settings given explicitly, to lay over a project file.
+    fn flags(&self) -> config_file::Flags {
+        config_file::Flags {
+            propagation: self.propagation.map(|p| match p {
                 PropagationArg::MonteCarlo => Propagation::MonteCarlo,
                 PropagationArg::Linear => Propagation::Linear,
-            },
-            samples: self.samples as usize,
+            }),
+            samples: self.samples.map(|n| n as usize),
             seed: self.seed,
-            consistency_sigma: self.sigma,
+            sigma: self.sigma,
+            overrides: self.overrides(),
         }
     }
 
@@ -191,18 +198,12 @@ fn main() -> ExitCode {
             format,
             deny_warnings,
             engine,
-        } => check(
-            &paths,
-            format,
-            deny_warnings,
-            &engine.options(),
-            &engine.overrides(),
-        ),
+        } => check(&paths, format, deny_warnings, &engine.flags()),
         Command::Eval {
             paths,
             format,
             engine,
-        } => eval(&paths, format, &engine.options(), &engine.overrides()),
+        } => eval(&paths, format, &engine.flags()),
         Command::Explain {
             file,
             target,
@@ -228,15 +229,11 @@ fn main() -> ExitCode {
     ExitCode::from(code)
 }
 
-fn check(
-    paths: &[PathBuf],
-    format: Format,
-    deny_warnings: bool,
-    options: &Options,
-    overrides: &[SeverityOverride],
-) -> u8 {
+fn check(paths: &[PathBuf], format: Format, deny_warnings: bool, flags: &config_file::Flags) -> u8 {
     let loaded = files::load(paths);
-    let analyses = files::analyze_all(&loaded.db, options, overrides);
+    let Some((analyses, _)) = analyze_with_project_files(&loaded, flags) else {
+        return 2;
+    };
     let mut counts = [0usize; 3];
     for a in &analyses {
         for d in &a.diagnostics {
@@ -331,14 +328,33 @@ fn plural(n: usize) -> &'static str {
     }
 }
 
-fn eval(
-    paths: &[PathBuf],
-    format: Format,
-    options: &Options,
-    overrides: &[SeverityOverride],
-) -> u8 {
+/// Analyse with each file's project settings; `None` (after saying why) on a bad project file.
+/// Also returns the options of the first file, or of the flags alone when there is none.
+fn analyze_with_project_files(
+    loaded: &files::Loaded,
+    flags: &config_file::Flags,
+) -> Option<(Vec<syzygy::Analysis>, Options)> {
+    match config_file::resolve(&loaded.db, flags) {
+        Ok(settings) => {
+            let first = settings
+                .first()
+                .map_or_else(|| flags.over(Options::default()), |s| s.0.clone());
+            Some((files::analyze_each(&loaded.db, &settings), first))
+        }
+        Err(e) => {
+            files::report_io_errors(&loaded.errors);
+            eprintln!("syz: error: {e}");
+            None
+        }
+    }
+}
+
+fn eval(paths: &[PathBuf], format: Format, flags: &config_file::Flags) -> u8 {
     let loaded = files::load(paths);
-    let analyses = files::analyze_all(&loaded.db, options, overrides);
+    let Some((analyses, first_options)) = analyze_with_project_files(&loaded, flags) else {
+        return 2;
+    };
+    let options = &first_options;
     let stdout = std::io::stdout();
     let mut out = stdout.lock();
     let errors = analyses.iter().any(|a| a.has_errors());
