@@ -7,6 +7,7 @@ mod files;
 mod fmt_cmd;
 mod plot_cmd;
 mod render;
+mod sarif;
 
 use clap::{Parser, Subcommand, ValueEnum};
 use std::io::Write;
@@ -34,6 +35,14 @@ struct Cli {
 pub(crate) enum Format {
     Human,
     Json,
+}
+
+#[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub(crate) enum CheckFormat {
+    Human,
+    Json,
+    /// SARIF 2.1.0, for code-review and CI tools.
+    Sarif,
 }
 
 #[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
@@ -117,13 +126,13 @@ impl EngineArgs {
 enum Command {
     /// Check files or folders (recursing into *.syz) and report problems.
     #[command(
-        after_help = "Example:\n  syz check examples/\n  syz check --format json catalogue/ > report.json"
+        after_help = "Example:\n  syz check examples/\n  syz check --format json catalogue/ > report.json\n  syz check --format sarif catalogue/ > syzygy.sarif"
     )]
     Check {
         #[arg(required = true)]
         paths: Vec<PathBuf>,
         #[arg(long, value_enum, default_value = "human")]
-        format: Format,
+        format: CheckFormat,
         /// Exit with status 1 on warnings too.
         #[arg(long)]
         deny_warnings: bool,
@@ -229,7 +238,12 @@ fn main() -> ExitCode {
     ExitCode::from(code)
 }
 
-fn check(paths: &[PathBuf], format: Format, deny_warnings: bool, flags: &config_file::Flags) -> u8 {
+fn check(
+    paths: &[PathBuf],
+    format: CheckFormat,
+    deny_warnings: bool,
+    flags: &config_file::Flags,
+) -> u8 {
     let loaded = files::load(paths);
     let Some((analyses, _)) = analyze_with_project_files(&loaded, flags) else {
         return 2;
@@ -259,7 +273,19 @@ fn check(paths: &[PathBuf], format: Format, deny_warnings: bool, flags: &config_
     let stdout = std::io::stdout();
     let mut out = stdout.lock();
     match format {
-        Format::Json => {
+        CheckFormat::Sarif => {
+            let diags: Vec<serde_json::Value> = analyses
+                .iter()
+                .flat_map(|a| syzygy::report::diagnostics_json(a, &loaded.db))
+                .collect();
+            let doc = sarif::log(&diags, &loaded.errors);
+            let _ = writeln!(
+                out,
+                "{}",
+                serde_json::to_string_pretty(&doc).unwrap_or_default()
+            );
+        }
+        CheckFormat::Json => {
             let diags: Vec<serde_json::Value> = analyses
                 .iter()
                 .flat_map(|a| syzygy::report::diagnostics_json(a, &loaded.db))
@@ -282,7 +308,7 @@ fn check(paths: &[PathBuf], format: Format, deny_warnings: bool, flags: &config_
                 serde_json::to_string_pretty(&doc).unwrap_or_default()
             );
         }
-        Format::Human => {
+        CheckFormat::Human => {
             let color = render::use_color();
             for a in &analyses {
                 for d in &a.diagnostics {
