@@ -2,6 +2,7 @@
 //! renders what comes back. No language or physics logic lives here.
 
 mod config_file;
+mod csv_out;
 mod ephemeris_cmd;
 mod files;
 mod fmt_cmd;
@@ -35,6 +36,14 @@ struct Cli {
 pub(crate) enum Format {
     Human,
     Json,
+}
+
+#[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub(crate) enum EvalFormat {
+    Human,
+    Json,
+    /// A table, one row per body (see docs/csv-output.md).
+    Csv,
 }
 
 #[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
@@ -141,13 +150,13 @@ enum Command {
     },
     /// Print every system and body with its declared and derived quantities.
     #[command(
-        after_help = "Example:\n  syz eval examples/veyra.syz\n  syz eval --format json --propagation linear examples/"
+        after_help = "Example:\n  syz eval examples/veyra.syz\n  syz eval --format json --propagation linear examples/\n  syz eval --format csv --propagation linear catalogue/ > table.csv"
     )]
     Eval {
         #[arg(required = true)]
         paths: Vec<PathBuf>,
         #[arg(long, value_enum, default_value = "human")]
-        format: Format,
+        format: EvalFormat,
         #[command(flatten)]
         engine: EngineArgs,
     },
@@ -375,7 +384,7 @@ fn analyze_with_project_files(
     }
 }
 
-fn eval(paths: &[PathBuf], format: Format, flags: &config_file::Flags) -> u8 {
+fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8 {
     let loaded = files::load(paths);
     let Some((analyses, first_options)) = analyze_with_project_files(&loaded, flags) else {
         return 2;
@@ -385,7 +394,7 @@ fn eval(paths: &[PathBuf], format: Format, flags: &config_file::Flags) -> u8 {
     let mut out = stdout.lock();
     let errors = analyses.iter().any(|a| a.has_errors());
     match format {
-        Format::Json => {
+        EvalFormat::Json => {
             let systems: Vec<serde_json::Value> = analyses
                 .iter()
                 .flat_map(|a| syzygy::report::systems_json(a, &loaded.db))
@@ -412,7 +421,13 @@ fn eval(paths: &[PathBuf], format: Format, flags: &config_file::Flags) -> u8 {
                 serde_json::to_string_pretty(&doc).unwrap_or_default()
             );
         }
-        Format::Human => {
+        EvalFormat::Csv => {
+            if let Err(e) = csv_out::write(&analyses, &loaded.db, &mut out) {
+                eprintln!("syz: error: writing the table failed: {e}");
+                return 2;
+            }
+        }
+        EvalFormat::Human => {
             let color = render::use_color();
             for a in &analyses {
                 let _ = out.write_all(syzygy::report::eval_text(a, &loaded.db).as_bytes());
