@@ -187,18 +187,27 @@ enum Command {
         check: bool,
     },
     /// Run the language server on stdin and stdout (for editors; see docs/editors.md).
+    #[command(after_help = "Example (an editor runs this for you):\n  syz lsp --stdio")]
     Lsp {
         /// Accepted for editors that pass it; stdio is the only transport.
         #[arg(long)]
         stdio: bool,
     },
     /// Draw a diagram as SVG: mass-radius, rv or transit.
+    #[command(
+        after_help = "Example:\n  syz plot mass-radius examples/ -o mass-radius.svg\n  syz plot transit examples/veyra.syz b -o transit.svg"
+    )]
     Plot {
         #[command(subcommand)]
         plot: plot_cmd::Plot,
         #[command(flatten)]
         engine: EngineArgs,
     },
+    /// Print a shell completion script (bash, zsh, fish, elvish or powershell).
+    #[command(
+        after_help = "Example:\n  syz completions bash > ~/.local/share/bash-completion/completions/syz\n  syz completions fish > ~/.config/fish/completions/syz.fish"
+    )]
+    Completions { shell: clap_complete::Shell },
     /// List a planet's upcoming mid-transit times with their uncertainty.
     Ephemeris {
         #[command(flatten)]
@@ -241,6 +250,12 @@ fn main() -> ExitCode {
             },
         ),
         Command::Lsp { stdio: _ } => syzygy_lsp::run_stdio(),
+        Command::Completions { shell } => {
+            use clap::CommandFactory;
+            let mut cmd = Cli::command();
+            clap_complete::generate(shell, &mut cmd, "syz", &mut std::io::stdout());
+            0
+        }
         Command::Plot { plot, engine } => plot_cmd::run(&plot, &engine.options()),
         Command::Ephemeris { args, engine } => ephemeris_cmd::run(&args, &engine.options()),
     };
