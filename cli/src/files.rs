@@ -99,19 +99,57 @@ fn io_words(e: &std::io::Error) -> String {
     }
 }
 
-/// Analyse every loaded file.
+/// Above this many files, `check` shows a progress bar (on a terminal only).
+const PROGRESS_THRESHOLD: usize = 200;
+
+/// Analyse every loaded file, in parallel; the result keeps the files' (sorted) order.
 pub fn analyze_all(
     db: &MemoryDb,
     options: &Options,
     overrides: &[SeverityOverride],
 ) -> Vec<Analysis> {
-    db.files()
-        .map(|f| {
+    let settings: Vec<_> = db
+        .files()
+        .map(|_| (options.clone(), overrides.to_vec()))
+        .collect();
+    analyze_each(db, &settings)
+}
+
+/// Analyse every loaded file with its own settings (one entry per file, in file order).
+pub fn analyze_each(db: &MemoryDb, settings: &[crate::config_file::FileSettings]) -> Vec<Analysis> {
+    use rayon::prelude::*;
+    let ids: Vec<_> = db.files().zip(settings).collect();
+    let progress = progress_bar(ids.len());
+    let out = ids
+        .par_iter()
+        .map(|&(f, (options, overrides))| {
             let mut a = analyze(f, db.text(f), options);
             apply_overrides(&mut a.diagnostics, overrides);
+            if let Some(p) = &progress {
+                p.inc(1);
+            }
             a
         })
-        .collect()
+        .collect();
+    if let Some(p) = progress {
+        p.finish_and_clear();
+    }
+    out
+}
+
+/// A bar on stderr, only when stderr is a terminal and there are many files.
+fn progress_bar(n: usize) -> Option<indicatif::ProgressBar> {
+    use std::io::IsTerminal;
+    if n < PROGRESS_THRESHOLD || !std::io::stderr().is_terminal() {
+        return None;
+    }
+    let bar = indicatif::ProgressBar::new(n as u64);
+    if let Ok(style) =
+        indicatif::ProgressStyle::with_template("checking {bar:40} {pos}/{len} files ({eta})")
+    {
+        bar.set_style(style);
+    }
+    Some(bar)
 }
 
 pub fn report_io_errors(errors: &[String]) {

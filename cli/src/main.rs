@@ -1,11 +1,14 @@
 //! `syz`: the command line over the Syzygy core. Reads files, hands their text to the core,
 //! renders what comes back. No language or physics logic lives here.
 
+mod config_file;
+mod csv_out;
 mod ephemeris_cmd;
 mod files;
 mod fmt_cmd;
 mod plot_cmd;
 mod render;
+mod sarif;
 
 use clap::{Parser, Subcommand, ValueEnum};
 use std::io::Write;
@@ -36,6 +39,22 @@ pub(crate) enum Format {
 }
 
 #[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub(crate) enum EvalFormat {
+    Human,
+    Json,
+    /// A table, one row per body (see docs/csv-output.md).
+    Csv,
+}
+
+#[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub(crate) enum CheckFormat {
+    Human,
+    Json,
+    /// SARIF 2.1.0, for code-review and CI tools.
+    Sarif,
+}
+
+#[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
 enum PropagationArg {
     /// Monte Carlo sampling (default): handles asymmetric errors, limits and non-linearity.
     MonteCarlo,
@@ -45,18 +64,18 @@ enum PropagationArg {
 
 #[derive(clap::Args)]
 struct EngineArgs {
-    /// How uncertainties are propagated.
-    #[arg(long, value_enum, default_value = "monte-carlo")]
-    propagation: PropagationArg,
-    /// Monte Carlo sample count.
-    #[arg(long, default_value_t = 10_000, value_parser = clap::value_parser!(u32).range(1..=10_000_000))]
-    samples: u32,
-    /// Seed of the Monte Carlo generator (the same seed gives the same numbers).
-    #[arg(long, default_value_t = 0x5359_5a59)]
-    seed: u64,
-    /// Declared and derived values further apart than this many combined sigma are reported.
-    #[arg(long, default_value_t = 3.0, value_parser = parse_sigma)]
-    sigma: f64,
+    /// How uncertainties are propagated [default: monte-carlo, or as syzygy.toml says].
+    #[arg(long, value_enum)]
+    propagation: Option<PropagationArg>,
+    /// Monte Carlo sample count [default: 10000, or as syzygy.toml says].
+    #[arg(long, value_parser = clap::value_parser!(u32).range(1..=10_000_000))]
+    samples: Option<u32>,
+    /// Seed of the Monte Carlo generator (the same seed gives the same numbers) [default: 1398364761].
+    #[arg(long)]
+    seed: Option<u64>,
+    /// Declared and derived values further apart than this many combined sigma are reported [default: 3].
+    #[arg(long, value_parser = parse_sigma)]
+    sigma: Option<f64>,
     /// Report this rule as an error (repeatable; see docs/rules.md for the ids).
     #[arg(long, value_name = "RULE", value_parser = parse_rule)]
     deny: Vec<Rule>,
@@ -86,14 +105,20 @@ fn parse_rule(s: &str) -> Result<Rule, String> {
 
 impl EngineArgs {
     fn options(&self) -> Options {
-        Options {
-            propagation: match self.propagation {
+        self.flags().over(Options::default())
+    }
+
+    /// The settings given explicitly, to lay over a project file.
+    fn flags(&self) -> config_file::Flags {
+        config_file::Flags {
+            propagation: self.propagation.map(|p| match p {
                 PropagationArg::MonteCarlo => Propagation::MonteCarlo,
                 PropagationArg::Linear => Propagation::Linear,
-            },
-            samples: self.samples as usize,
+            }),
+            samples: self.samples.map(|n| n as usize),
             seed: self.seed,
-            consistency_sigma: self.sigma,
+            sigma: self.sigma,
+            overrides: self.overrides(),
         }
     }
 
@@ -110,13 +135,13 @@ impl EngineArgs {
 enum Command {
     /// Check files or folders (recursing into *.syz) and report problems.
     #[command(
-        after_help = "Example:\n  syz check examples/\n  syz check --format json catalogue/ > report.json"
+        after_help = "Example:\n  syz check examples/\n  syz check --format json catalogue/ > report.json\n  syz check --format sarif catalogue/ > syzygy.sarif"
     )]
     Check {
         #[arg(required = true)]
         paths: Vec<PathBuf>,
         #[arg(long, value_enum, default_value = "human")]
-        format: Format,
+        format: CheckFormat,
         /// Exit with status 1 on warnings too.
         #[arg(long)]
         deny_warnings: bool,
@@ -125,13 +150,13 @@ enum Command {
     },
     /// Print every system and body with its declared and derived quantities.
     #[command(
-        after_help = "Example:\n  syz eval examples/veyra.syz\n  syz eval --format json --propagation linear examples/"
+        after_help = "Example:\n  syz eval examples/veyra.syz\n  syz eval --format json --propagation linear examples/\n  syz eval --format csv --propagation linear catalogue/ > table.csv"
     )]
     Eval {
         #[arg(required = true)]
         paths: Vec<PathBuf>,
         #[arg(long, value_enum, default_value = "human")]
-        format: Format,
+        format: EvalFormat,
         #[command(flatten)]
         engine: EngineArgs,
     },
@@ -162,18 +187,27 @@ enum Command {
         check: bool,
     },
     /// Run the language server on stdin and stdout (for editors; see docs/editors.md).
+    #[command(after_help = "Example (an editor runs this for you):\n  syz lsp --stdio")]
     Lsp {
         /// Accepted for editors that pass it; stdio is the only transport.
         #[arg(long)]
         stdio: bool,
     },
     /// Draw a diagram as SVG: mass-radius, rv or transit.
+    #[command(
+        after_help = "Example:\n  syz plot mass-radius examples/ -o mass-radius.svg\n  syz plot transit examples/veyra.syz b -o transit.svg"
+    )]
     Plot {
         #[command(subcommand)]
         plot: plot_cmd::Plot,
         #[command(flatten)]
         engine: EngineArgs,
     },
+    /// Print a shell completion script (bash, zsh, fish, elvish or powershell).
+    #[command(
+        after_help = "Example:\n  syz completions bash > ~/.local/share/bash-completion/completions/syz\n  syz completions fish > ~/.config/fish/completions/syz.fish"
+    )]
+    Completions { shell: clap_complete::Shell },
     /// List a planet's upcoming mid-transit times with their uncertainty.
     Ephemeris {
         #[command(flatten)]
@@ -191,18 +225,12 @@ fn main() -> ExitCode {
             format,
             deny_warnings,
             engine,
-        } => check(
-            &paths,
-            format,
-            deny_warnings,
-            &engine.options(),
-            &engine.overrides(),
-        ),
+        } => check(&paths, format, deny_warnings, &engine.flags()),
         Command::Eval {
             paths,
             format,
             engine,
-        } => eval(&paths, format, &engine.options(), &engine.overrides()),
+        } => eval(&paths, format, &engine.flags()),
         Command::Explain {
             file,
             target,
@@ -222,6 +250,12 @@ fn main() -> ExitCode {
             },
         ),
         Command::Lsp { stdio: _ } => syzygy_lsp::run_stdio(),
+        Command::Completions { shell } => {
+            use clap::CommandFactory;
+            let mut cmd = Cli::command();
+            clap_complete::generate(shell, &mut cmd, "syz", &mut std::io::stdout());
+            0
+        }
         Command::Plot { plot, engine } => plot_cmd::run(&plot, &engine.options()),
         Command::Ephemeris { args, engine } => ephemeris_cmd::run(&args, &engine.options()),
     };
@@ -230,13 +264,14 @@ fn main() -> ExitCode {
 
 fn check(
     paths: &[PathBuf],
-    format: Format,
+    format: CheckFormat,
     deny_warnings: bool,
-    options: &Options,
-    overrides: &[SeverityOverride],
+    flags: &config_file::Flags,
 ) -> u8 {
     let loaded = files::load(paths);
-    let analyses = files::analyze_all(&loaded.db, options, overrides);
+    let Some((analyses, _)) = analyze_with_project_files(&loaded, flags) else {
+        return 2;
+    };
     let mut counts = [0usize; 3];
     for a in &analyses {
         for d in &a.diagnostics {
@@ -246,10 +281,35 @@ fn check(
         }
     }
     let (notes, warnings, errors) = (counts[0], counts[1], counts[2]);
+    // Counts per rule id, in the catalogue's order (the order of docs/rules.md).
+    let mut per_rule: Vec<(&'static str, usize)> = Rule::ALL
+        .iter()
+        .map(|r| {
+            let n = analyses
+                .iter()
+                .flat_map(|a| &a.diagnostics)
+                .filter(|d| d.rule == *r)
+                .count();
+            (r.id(), n)
+        })
+        .collect();
+    per_rule.retain(|(_, n)| *n > 0);
     let stdout = std::io::stdout();
     let mut out = stdout.lock();
     match format {
-        Format::Json => {
+        CheckFormat::Sarif => {
+            let diags: Vec<serde_json::Value> = analyses
+                .iter()
+                .flat_map(|a| syzygy::report::diagnostics_json(a, &loaded.db))
+                .collect();
+            let doc = sarif::log(&diags, &loaded.errors);
+            let _ = writeln!(
+                out,
+                "{}",
+                serde_json::to_string_pretty(&doc).unwrap_or_default()
+            );
+        }
+        CheckFormat::Json => {
             let diags: Vec<serde_json::Value> = analyses
                 .iter()
                 .flat_map(|a| syzygy::report::diagnostics_json(a, &loaded.db))
@@ -259,7 +319,12 @@ fn check(
                 "files": analyses.len(),
                 "diagnostics": diags,
                 "io_errors": loaded.errors,
-                "summary": {"errors": errors, "warnings": warnings, "notes": notes},
+                "summary": {
+                    "errors": errors,
+                    "warnings": warnings,
+                    "notes": notes,
+                    "rules": per_rule.iter().map(|(id, n)| (id.to_string(), serde_json::json!(n))).collect::<serde_json::Map<_, _>>(),
+                },
             });
             let _ = writeln!(
                 out,
@@ -267,7 +332,7 @@ fn check(
                 serde_json::to_string_pretty(&doc).unwrap_or_default()
             );
         }
-        Format::Human => {
+        CheckFormat::Human => {
             let color = render::use_color();
             for a in &analyses {
                 for d in &a.diagnostics {
@@ -286,6 +351,13 @@ fn check(
                 notes,
                 plural(notes)
             );
+            if !per_rule.is_empty() {
+                let words: Vec<String> = per_rule
+                    .iter()
+                    .map(|(id, n)| format!("{id}: {n}"))
+                    .collect();
+                let _ = writeln!(out, "by rule: {}", words.join(", "));
+            }
         }
     }
     files::report_io_errors(&loaded.errors);
@@ -306,19 +378,38 @@ fn plural(n: usize) -> &'static str {
     }
 }
 
-fn eval(
-    paths: &[PathBuf],
-    format: Format,
-    options: &Options,
-    overrides: &[SeverityOverride],
-) -> u8 {
+/// Analyse with each file's project settings; `None` (after saying why) on a bad project file.
+/// Also returns the options of the first file, or of the flags alone when there is none.
+fn analyze_with_project_files(
+    loaded: &files::Loaded,
+    flags: &config_file::Flags,
+) -> Option<(Vec<syzygy::Analysis>, Options)> {
+    match config_file::resolve(&loaded.db, flags) {
+        Ok(settings) => {
+            let first = settings
+                .first()
+                .map_or_else(|| flags.over(Options::default()), |s| s.0.clone());
+            Some((files::analyze_each(&loaded.db, &settings), first))
+        }
+        Err(e) => {
+            files::report_io_errors(&loaded.errors);
+            eprintln!("syz: error: {e}");
+            None
+        }
+    }
+}
+
+fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8 {
     let loaded = files::load(paths);
-    let analyses = files::analyze_all(&loaded.db, options, overrides);
+    let Some((analyses, first_options)) = analyze_with_project_files(&loaded, flags) else {
+        return 2;
+    };
+    let options = &first_options;
     let stdout = std::io::stdout();
     let mut out = stdout.lock();
     let errors = analyses.iter().any(|a| a.has_errors());
     match format {
-        Format::Json => {
+        EvalFormat::Json => {
             let systems: Vec<serde_json::Value> = analyses
                 .iter()
                 .flat_map(|a| syzygy::report::systems_json(a, &loaded.db))
@@ -345,7 +436,13 @@ fn eval(
                 serde_json::to_string_pretty(&doc).unwrap_or_default()
             );
         }
-        Format::Human => {
+        EvalFormat::Csv => {
+            if let Err(e) = csv_out::write(&analyses, &loaded.db, &mut out) {
+                eprintln!("syz: error: writing the table failed: {e}");
+                return 2;
+            }
+        }
+        EvalFormat::Human => {
             let color = render::use_color();
             for a in &analyses {
                 let _ = out.write_all(syzygy::report::eval_text(a, &loaded.db).as_bytes());

@@ -28,6 +28,7 @@ pub mod parser;
 pub mod plots;
 pub mod quantities;
 pub mod report;
+pub mod rule_docs;
 pub mod solar_system;
 pub mod source;
 pub mod spectral;

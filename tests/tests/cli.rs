@@ -148,3 +148,43 @@ fn explain_prints_tree_and_budget() {
     let o = run(&["explain", "examples/veyra.syz", "zz.mass"]);
     assert_eq!(o.status.code(), Some(2));
 }
+
+#[test]
+fn check_counts_diagnostics_per_rule() {
+    let o = run(&[
+        "check",
+        "--format",
+        "json",
+        "--propagation",
+        "linear",
+        "examples/broken",
+    ]);
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    let diags = v["diagnostics"].as_array().unwrap();
+    let rules = v["summary"]["rules"].as_object().unwrap();
+    let total: u64 = rules.values().map(|n| n.as_u64().unwrap()).sum();
+    assert_eq!(total as usize, diags.len(), "{v:#}");
+    for (id, n) in rules {
+        let seen = diags.iter().filter(|d| d["rule"] == id.as_str()).count();
+        assert_eq!(seen as u64, n.as_u64().unwrap(), "rule {id}");
+    }
+    assert_eq!(rules["unit-mismatch"], 2);
+    let human = stdout(&run(&[
+        "check",
+        "--propagation",
+        "linear",
+        "examples/broken",
+    ]));
+    assert!(
+        human.contains("by rule: syntax: 1, unit-mismatch: 2,"),
+        "{human}"
+    );
+}
+
+#[test]
+fn clean_check_has_empty_rule_counts() {
+    let o = run(&["check", "--format", "json", "examples/veyra.syz"]);
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["summary"]["rules"], serde_json::json!({}));
+    assert!(!stdout(&run(&["check", "examples/veyra.syz"])).contains("by rule"));
+}
