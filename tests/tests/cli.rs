@@ -188,3 +188,25 @@ fn clean_check_has_empty_rule_counts() {
     assert_eq!(v["summary"]["rules"], serde_json::json!({}));
     assert!(!stdout(&run(&["check", "examples/veyra.syz"])).contains("by rule"));
 }
+
+#[test]
+fn the_demo_catalogue_checks_clean_with_its_project_file() {
+    let o = run(&["check", "--format", "json", "examples/catalogue"]);
+    assert!(o.status.success(), "{}", stdout(&o));
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    assert_eq!(v["files"], 12);
+    assert_eq!(v["summary"]["errors"], 0);
+    assert_eq!(v["summary"]["warnings"], 0);
+    // The catalogue's syzygy.toml makes inconsistencies errors: a copy with one bad entry fails.
+    let dir = scratch("catalogue");
+    for e in std::fs::read_dir(syzygy_e2e::root().join("examples/catalogue")).unwrap() {
+        let p = e.unwrap().path();
+        std::fs::copy(&p, dir.join(p.file_name().unwrap())).unwrap();
+    }
+    let bad = dir.join("aubrel.syz");
+    let text = std::fs::read_to_string(&bad).unwrap().replace("rv_amplitude  = 88", "semi_major_axis = 0.2 ± 0.001 au\n    rv_amplitude  = 88");
+    std::fs::write(&bad, text).unwrap();
+    let o = run(&["check", "--format", "json", dir.to_str().unwrap()]);
+    assert_eq!(o.status.code(), Some(1), "{}", stdout(&o));
+    assert!(stdout(&o).contains("\"inconsistent\""));
+}
