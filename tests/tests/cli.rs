@@ -204,7 +204,10 @@ fn the_demo_catalogue_checks_clean_with_its_project_file() {
         std::fs::copy(&p, dir.join(p.file_name().unwrap())).unwrap();
     }
     let bad = dir.join("aubrel.syz");
-    let text = std::fs::read_to_string(&bad).unwrap().replace("rv_amplitude  = 88", "semi_major_axis = 0.2 ± 0.001 au\n    rv_amplitude  = 88");
+    let text = std::fs::read_to_string(&bad).unwrap().replace(
+        "rv_amplitude  = 88",
+        "semi_major_axis = 0.2 ± 0.001 au\n    rv_amplitude  = 88",
+    );
     std::fs::write(&bad, text).unwrap();
     let o = run(&["check", "--format", "json", dir.to_str().unwrap()]);
     assert_eq!(o.status.code(), Some(1), "{}", stdout(&o));

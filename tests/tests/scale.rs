@@ -16,7 +16,14 @@ fn a_file_of_100000_bodies_checks() {
         ));
     }
     std::fs::write(&f, text).unwrap();
-    let o = run(&["check", "--format", "json", "--propagation", "linear", f.to_str().unwrap()]);
+    let o = run(&[
+        "check",
+        "--format",
+        "json",
+        "--propagation",
+        "linear",
+        f.to_str().unwrap(),
+    ]);
     assert!(o.status.success(), "{}", stderr(&o));
     let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
     assert_eq!(v["summary"]["errors"], 0);
@@ -42,7 +49,14 @@ fn a_tree_of_20000_files_checks_and_bad_paths_do_not_stop_it() {
         std::os::unix::fs::symlink(&dir, dir.join("000").join("loop")).unwrap();
         std::os::unix::fs::symlink(dir.join("missing.syz"), dir.join("dangling.syz")).unwrap();
     }
-    let o = run(&["check", "--format", "json", "--propagation", "linear", dir.to_str().unwrap()]);
+    let o = run(&[
+        "check",
+        "--format",
+        "json",
+        "--propagation",
+        "linear",
+        dir.to_str().unwrap(),
+    ]);
     let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
     assert_eq!(v["files"], 20_000, "{}", stderr(&o));
     assert_eq!(v["summary"]["errors"], 0);

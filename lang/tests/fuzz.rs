@@ -1,0 +1,190 @@
+//! A structured, time-boxed fuzzer on stable Rust (cargo-fuzz needs a nightly toolchain).
+//!
+//! It mutates the demo and fixture files — deleting, duplicating and swapping byte ranges and
+//! lines, inserting fragments of the language — and runs every stage on each mutant: lexer,
+//! parser, checker (both propagation modes) and formatter. It asserts that nothing panics,
+//! that diagnostics point inside the text, and that formatting is idempotent whenever it
+//! succeeds. Run it with
+//!
+//! ```sh
+//! FUZZ_SECONDS=20 cargo test -p syzygy --test fuzz -- --ignored --nocapture     # CI
+//! FUZZ_SECONDS=1800 cargo test --release -p syzygy --test fuzz -- --ignored    # longer
+//! ```
+//!
+//! A crash prints the seed and the mutant; add the mutant to `tests/fixtures/check/` as a
+//! regression test.
+
+#![allow(clippy::unwrap_used, clippy::indexing_slicing)]
+
+use std::time::{Duration, Instant};
+use syzygy::source::FileId;
+use syzygy::{analyze, Options};
+
+const FRAGMENTS: &[&str] = &[
+    "{",
+    "}",
+    "(",
+    ")",
+    "[",
+    "]",
+    "±",
+    "+-",
+    "+0.1/-0.2",
+    "<",
+    ">",
+    "=",
+    ";",
+    "\n",
+    "#",
+    "\"",
+    "e999",
+    "-",
+    "^",
+    "/",
+    "*",
+    "system",
+    "star",
+    "planet",
+    "orbits",
+    "let",
+    "ref",
+    "assumed",
+    "Msun",
+    "km s^-1",
+    "b.mass",
+    "sqrt(",
+    "0",
+    "1e-320",
+    "M☉",
+    "µas",
+    "# allow(inconsistent): x\n",
+    "\u{0}",
+    "\u{feff}",
+];
+
+struct Rng(u64);
+impl Rng {
+    fn next(&mut self) -> u64 {
+        self.0 ^= self.0 << 13;
+        self.0 ^= self.0 >> 7;
+        self.0 ^= self.0 << 17;
+        self.0
+    }
+    fn below(&mut self, n: usize) -> usize {
+        if n == 0 {
+            0
+        } else {
+            (self.next() % n as u64) as usize
+        }
+    }
+}
+
+fn corpus() -> Vec<String> {
+    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("..");
+    let mut out = Vec::new();
+    for dir in [
+        "examples",
+        "examples/broken",
+        "examples/catalogue",
+        "tests/fixtures/check",
+    ] {
+        if let Ok(rd) = std::fs::read_dir(root.join(dir)) {
+            for e in rd.flatten() {
+                if e.path().extension().is_some_and(|x| x == "syz") {
+                    if let Ok(t) = std::fs::read_to_string(e.path()) {
+                        out.push(t);
+                    }
+                }
+            }
+        }
+    }
+    out
+}
+
+fn mutate(src: &str, rng: &mut Rng) -> String {
+    let mut b = src.as_bytes().to_vec();
+    for _ in 0..=rng.below(4) {
+        let len = b.len();
+        match rng.below(5) {
+            0 if len > 0 => {
+                let s = rng.below(len);
+                let e = (s + rng.below(20)).min(len);
+                b.drain(s..e);
+            }
+            1 if len > 0 => {
+                let s = rng.below(len);
+                let e = (s + rng.below(40)).min(len);
+                let piece = b[s..e].to_vec();
+                let at = rng.below(b.len());
+                b.splice(at..at, piece);
+            }
+            2 => {
+                let f = FRAGMENTS[rng.below(FRAGMENTS.len())].as_bytes();
+                let at = rng.below(len + 1);
+                b.splice(at..at, f.iter().copied());
+            }
+            3 if len > 1 => {
+                let (i, j) = (rng.below(len), rng.below(len));
+                b.swap(i, j);
+            }
+            _ => {
+                let at = rng.below(len + 1);
+                b.insert(at.min(b.len()), (rng.next() & 0xff) as u8);
+            }
+        }
+    }
+    String::from_utf8_lossy(&b).into_owned()
+}
+
+fn one(src: &str) {
+    let _ = syzygy::lexer::lex(src);
+    for options in [
+        Options::linear(),
+        Options {
+            samples: 32,
+            ..Options::default()
+        },
+    ] {
+        let a = analyze(FileId(0), src, &options);
+        for d in &a.diagnostics {
+            assert!(
+                d.span.start <= d.span.end && d.span.end as usize <= src.len(),
+                "span outside the text: {d:?}"
+            );
+        }
+    }
+    if let Ok(once) = syzygy::layout::format_source(src) {
+        let twice = syzygy::layout::format_source(&once).expect("formatted text must format again");
+        assert_eq!(once, twice, "formatting is not idempotent");
+    }
+}
+
+#[test]
+#[ignore = "time-boxed fuzzing; run with --ignored (see the module doc)"]
+fn fuzz_every_stage() {
+    let seconds: u64 = std::env::var("FUZZ_SECONDS")
+        .ok()
+        .and_then(|s| s.parse().ok())
+        .unwrap_or(20);
+    let seed: u64 = std::env::var("FUZZ_SEED")
+        .ok()
+        .and_then(|s| s.parse().ok())
+        .unwrap_or(0x5eed_5eed);
+    let corpus = corpus();
+    assert!(!corpus.is_empty(), "no corpus found");
+    let mut rng = Rng(seed | 1);
+    let start = Instant::now();
+    let mut runs = 0u64;
+    while start.elapsed() < Duration::from_secs(seconds) {
+        let base = &corpus[rng.below(corpus.len())];
+        let mutant = mutate(base, &mut rng);
+        let result = std::panic::catch_unwind(|| one(&mutant));
+        if let Err(e) = result {
+            eprintln!("crash after {runs} runs (FUZZ_SEED={seed}); mutant:\n{mutant:?}");
+            std::panic::resume_unwind(e);
+        }
+        runs += 1;
+    }
+    eprintln!("fuzz: {runs} mutants in {seconds} s, no crash");
+    assert!(runs > 0);
+}
