@@ -438,8 +438,12 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8
         }
         EvalFormat::Csv => {
             if let Err(e) = csv_out::write(&analyses, &loaded.db, &mut out) {
-                eprintln!("syz: error: writing the table failed: {e}");
-                return 2;
+                // A reader that stops early (`| head`) is not an error of ours.
+                let closed = e.to_string().contains("Broken pipe");
+                if !closed {
+                    eprintln!("syz: error: writing the table failed: {e}");
+                    return 2;
+                }
             }
         }
         EvalFormat::Human => {
