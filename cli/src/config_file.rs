@@ -21,20 +21,16 @@ pub struct Flags {
 
 impl Flags {
     /// These flags over `base`.
-    pub fn over(&self, mut base: Options) -> Options {
-        if let Some(p) = self.propagation {
-            base.propagation = p;
+    pub fn over(&self, base: Options) -> Options {
+        // The same layering as a project file's: reuse it rather than repeat it.
+        syzygy::config::ProjectConfig {
+            overrides: Vec::new(),
+            propagation: self.propagation,
+            samples: self.samples,
+            seed: self.seed,
+            consistency_sigma: self.sigma,
         }
-        if let Some(n) = self.samples {
-            base.samples = n;
-        }
-        if let Some(s) = self.seed {
-            base.seed = s;
-        }
-        if let Some(s) = self.sigma {
-            base.consistency_sigma = s;
-        }
-        base
+        .apply(base)
     }
 }
 
