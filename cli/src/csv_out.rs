@@ -28,95 +28,93 @@ pub fn column_name(def: &QuantityDef) -> String {
     }
 }
 
-fn number(v: f64) -> String {
+/// Write a number's cell into `buf` (empty when not finite): Rust's shortest round-trip form.
+fn number(buf: &mut String, v: f64) -> &str {
+    use std::fmt::Write;
+    buf.clear();
     if v.is_finite() {
-        format!("{v}")
-    } else {
-        String::new()
+        let _ = write!(buf, "{v}");
     }
+    buf
 }
 
-fn cells(def: &QuantityDef, q: Option<&QuantityResult>) -> Vec<String> {
-    let Some(q) = q else {
-        return if def.text {
-            vec![String::new(), String::new()]
-        } else {
-            vec![String::new(); 4]
-        };
-    };
-    let mut origin = q.origin.as_str().to_string();
-    match q.form {
-        Form::UpperLimit => origin.push_str(";upper-limit"),
-        Form::LowerLimit => origin.push_str(";lower-limit"),
-        _ => {}
-    }
-    if def.text {
-        return vec![q.text.clone().unwrap_or_default(), origin];
-    }
-    let f = display_factor(column_unit(def));
-    vec![
-        number(q.value / f),
-        number(q.below / f),
-        number(q.above / f),
-        origin,
-    ]
-}
-
-/// Write the table of every analysed file.
-pub fn write(
-    analyses: &[Analysis],
-    db: &dyn SourceDb,
-    out: impl std::io::Write,
+/// The cells of one quantity: value, below, above and origin (text and origin for text).
+fn write_cells<W: std::io::Write>(
+    w: &mut csv::Writer<W>,
+    buf: &mut String,
+    def: &QuantityDef,
+    q: Option<&QuantityResult>,
 ) -> Result<(), csv::Error> {
-    let defs = quantities::table();
-    let mut w = csv::Writer::from_writer(out);
-    let mut header = vec![
-        "file".to_string(),
-        "system".into(),
-        "body".into(),
-        "kind".into(),
-        "orbits".into(),
-    ];
-    for def in defs {
-        let n = column_name(def);
-        if def.text {
-            header.extend([n.clone(), format!("{n}_origin")]);
-        } else {
-            header.extend([
-                n.clone(),
-                format!("{n}_below"),
-                format!("{n}_above"),
-                format!("{n}_origin"),
-            ]);
+    let Some(q) = q else {
+        let n = if def.text { 2 } else { 4 };
+        for _ in 0..n {
+            w.write_field("")?;
         }
+        return Ok(());
+    };
+    let limit = match q.form {
+        Form::UpperLimit => ";upper-limit",
+        Form::LowerLimit => ";lower-limit",
+        _ => "",
+    };
+    if def.text {
+        w.write_field(q.text.as_deref().unwrap_or_default())?;
+    } else {
+        let f = display_factor(column_unit(def));
+        w.write_field(number(buf, q.value / f))?;
+        w.write_field(number(buf, q.below / f))?;
+        w.write_field(number(buf, q.above / f))?;
     }
-    w.write_record(&header)?;
-    for a in analyses {
-        for (sys, res) in a.model.systems.iter().zip(&a.results) {
-            for (b, r) in sys.bodies.iter().zip(&res.bodies) {
-                let orbits = b
-                    .orbits
-                    .and_then(|h| sys.bodies.get(h))
-                    .map_or(String::new(), |h| h.id.clone());
-                let mut row = vec![
-                    db.name(a.file).to_string(),
-                    sys.name.clone(),
-                    b.id.clone(),
-                    b.kind.as_str().to_string(),
-                    orbits,
-                ];
-                for def in defs {
-                    let q = if def.kind == b.kind {
-                        r.quantities.iter().find(|q| q.qty == def.qty)
-                    } else {
-                        None
-                    };
-                    row.extend(cells(def, q));
-                }
-                w.write_record(&row)?;
-            }
-        }
-    }
-    w.flush()?;
+    buf.clear();
+    buf.push_str(q.origin.as_str());
+    buf.push_str(limit);
+    w.write_field(buf.as_str())?;
     Ok(())
+}
+
+/// The header line.
+pub fn header() -> Result<Vec<u8>, csv::Error> {
+    let mut w = csv::Writer::from_writer(Vec::new());
+    for h in ["file", "system", "body", "kind", "orbits"] {
+        w.write_field(h)?;
+    }
+    for def in quantities::table() {
+        let n = column_name(def);
+        w.write_field(&n)?;
+        if !def.text {
+            w.write_field(format!("{n}_below"))?;
+            w.write_field(format!("{n}_above"))?;
+        }
+        w.write_field(format!("{n}_origin"))?;
+    }
+    w.write_record(None::<&[u8]>)?;
+    w.into_inner().map_err(|e| csv::Error::from(e.into_error()))
+}
+
+/// The rows of one analysed file, one per body.
+pub fn rows(a: &Analysis, db: &dyn SourceDb) -> Result<Vec<u8>, csv::Error> {
+    let defs = quantities::table();
+    let mut w = csv::Writer::from_writer(Vec::new());
+    let mut buf = String::new();
+    for (sys, res) in a.model.systems.iter().zip(&a.results) {
+        for (b, r) in sys.bodies.iter().zip(&res.bodies) {
+            let orbits = b
+                .orbits
+                .and_then(|h| sys.bodies.get(h))
+                .map_or("", |h| h.id.as_str());
+            for field in [db.name(a.file), &sys.name, &b.id, b.kind.as_str(), orbits] {
+                w.write_field(field)?;
+            }
+            for def in defs {
+                let q = if def.kind == b.kind {
+                    r.quantities.iter().find(|q| q.qty == def.qty)
+                } else {
+                    None
+                };
+                write_cells(&mut w, &mut buf, def, q)?;
+            }
+            w.write_record(None::<&[u8]>)?;
+        }
+    }
+    w.into_inner().map_err(|e| csv::Error::from(e.into_error()))
 }

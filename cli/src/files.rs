@@ -117,24 +117,45 @@ pub fn analyze_all(
 
 /// Analyse every loaded file with its own settings (one entry per file, in file order).
 pub fn analyze_each(db: &MemoryDb, settings: &[crate::config_file::FileSettings]) -> Vec<Analysis> {
+    let mut out = Vec::with_capacity(settings.len());
+    for_each_analysed(db, settings, |a| a, |a| out.push(a));
+    out
+}
+
+/// Files analysed per batch by [`for_each_analysed`]: enough to keep both cores busy, few
+/// enough that a batch's results stay small.
+const BATCH: usize = 128;
+
+/// Analyse every loaded file with its own settings, turn each analysis into a `T` on the
+/// worker that made it, and hand the `T`s to `sink` in file order. Files are analysed in
+/// parallel batches and each analysis is dropped once mapped, so memory stays flat however
+/// many files there are (what `eval` streams).
+pub fn for_each_analysed<T: Send>(
+    db: &MemoryDb,
+    settings: &[crate::config_file::FileSettings],
+    map: impl Fn(Analysis) -> T + Sync,
+    mut sink: impl FnMut(T),
+) {
     use rayon::prelude::*;
     let ids: Vec<_> = db.files().zip(settings).collect();
     let progress = progress_bar(ids.len());
-    let out = ids
-        .par_iter()
-        .map(|&(f, (options, overrides))| {
-            let mut a = analyze(f, db.text(f), options);
-            apply_overrides(&mut a.diagnostics, overrides);
-            if let Some(p) = &progress {
-                p.inc(1);
-            }
-            a
-        })
-        .collect();
+    for batch in ids.chunks(BATCH) {
+        let mapped: Vec<T> = batch
+            .par_iter()
+            .map(|&(f, (options, overrides))| {
+                let mut a = analyze(f, db.text(f), options);
+                apply_overrides(&mut a.diagnostics, overrides);
+                if let Some(p) = &progress {
+                    p.inc(1);
+                }
+                map(a)
+            })
+            .collect();
+        mapped.into_iter().for_each(&mut sink);
+    }
     if let Some(p) = progress {
         p.finish_and_clear();
     }
-    out
 }
 
 /// A bar on stderr, only when stderr is a terminal and there are many files.

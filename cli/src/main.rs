@@ -401,23 +401,44 @@ fn analyze_with_project_files(
 
 fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8 {
     let loaded = files::load(paths);
-    let Some((analyses, first_options)) = analyze_with_project_files(&loaded, flags) else {
-        return 2;
+    let settings = match config_file::resolve(&loaded.db, flags) {
+        Ok(s) => s,
+        Err(e) => {
+            files::report_io_errors(&loaded.errors);
+            eprintln!("syz: error: {e}");
+            return 2;
+        }
     };
-    let options = &first_options;
+    let options = settings
+        .first()
+        .map_or_else(|| flags.over(Options::default()), |s| s.0.clone());
+    let db = &loaded.db;
     let stdout = std::io::stdout();
     let mut out = stdout.lock();
-    let errors = analyses.iter().any(|a| a.has_errors());
+    let mut errors = false;
+    // Every format is streamed: files are analysed in parallel batches, each analysis is
+    // turned into its output on the worker and dropped, and the outputs are written in file
+    // order, so memory does not grow with the number of files.
     match format {
         EvalFormat::Json => {
-            let systems: Vec<serde_json::Value> = analyses
-                .iter()
-                .flat_map(|a| syzygy::report::systems_json(a, &loaded.db))
-                .collect();
-            let diags: Vec<serde_json::Value> = analyses
-                .iter()
-                .flat_map(|a| syzygy::report::diagnostics_json(a, &loaded.db))
-                .collect();
+            let mut systems = Vec::new();
+            let mut diags = Vec::new();
+            files::for_each_analysed(
+                db,
+                &settings,
+                |a| {
+                    (
+                        a.has_errors(),
+                        syzygy::report::systems_json(&a, db),
+                        syzygy::report::diagnostics_json(&a, db),
+                    )
+                },
+                |(bad, s, d)| {
+                    errors |= bad;
+                    systems.extend(s);
+                    diags.extend(d);
+                },
+            );
             let doc = serde_json::json!({
                 "version": syzygy::report::JSON_VERSION,
                 "options": {
@@ -437,7 +458,28 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8
             );
         }
         EvalFormat::Csv => {
-            if let Err(e) = csv_out::write(&analyses, &loaded.db, &mut out) {
+            let mut failure = match csv_out::header() {
+                Ok(h) => out.write_all(&h).err().map(csv::Error::from),
+                Err(e) => Some(e),
+            };
+            files::for_each_analysed(
+                db,
+                &settings,
+                |a| (a.has_errors(), csv_out::rows(&a, db)),
+                |(bad, rows)| {
+                    errors |= bad;
+                    if failure.is_none() {
+                        failure = match rows {
+                            Ok(r) => out.write_all(&r).err().map(csv::Error::from),
+                            Err(e) => Some(e),
+                        };
+                    }
+                },
+            );
+            if failure.is_none() {
+                failure = out.flush().err().map(csv::Error::from);
+            }
+            if let Some(e) = failure {
                 // A reader that stops early (`| head`) is not an error of ours.
                 let closed = e.to_string().contains("Broken pipe");
                 if !closed {
@@ -447,20 +489,26 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8
             }
         }
         EvalFormat::Human => {
-            let color = render::use_color();
-            for a in &analyses {
-                let _ = out.write_all(syzygy::report::eval_text(a, &loaded.db).as_bytes());
-            }
-            let err = std::io::stderr();
-            let mut err = err.lock();
-            for a in &analyses {
-                for d in &a.diagnostics {
-                    let _ = err.write_all(
-                        render::diagnostic(&loaded.db, d, render::stderr_color() && color)
-                            .as_bytes(),
-                    );
-                }
-            }
+            let color = render::use_color() && render::stderr_color();
+            let mut rendered = String::new();
+            files::for_each_analysed(
+                db,
+                &settings,
+                |a| {
+                    let diags: String = a
+                        .diagnostics
+                        .iter()
+                        .map(|d| render::diagnostic(db, d, color))
+                        .collect();
+                    (a.has_errors(), syzygy::report::eval_text(&a, db), diags)
+                },
+                |(bad, text, diags)| {
+                    errors |= bad;
+                    let _ = out.write_all(text.as_bytes());
+                    rendered.push_str(&diags);
+                },
+            );
+            let _ = std::io::stderr().lock().write_all(rendered.as_bytes());
         }
     }
     files::report_io_errors(&loaded.errors);

@@ -123,7 +123,9 @@ fn composition_check(
     let summary = composition::classify(m, r);
     let mass = nominal(d, (bi, Qty::Mass))?;
     let radius = nominal(d, (bi, Qty::Radius))?;
-    let p_iron = composition::probability_below_iron(m, r);
+    let p_iron = summary
+        .probability(composition::CompositionClass::DenserThanIron)
+        .unwrap_or(f64::NAN);
     if p_iron.is_finite() && p_iron >= IRON_PROBABILITY {
         let density = nominal(d, (bi, Qty::Density)).unwrap_or(f64::NAN);
         let iron = composition::density_of_pure_iron_body(mass).unwrap_or(f64::NAN);

@@ -31,6 +31,7 @@
 //! the one place where that kind is restored; the dimension is still checked by the compiler there.
 
 use crate::constants;
+use crate::fastmath;
 use std::f64::consts::PI;
 use uom::si::acceleration::centimeter_per_second_squared;
 use uom::si::f64::{
@@ -137,6 +138,21 @@ fn value_of(r: Ratio) -> f64 {
     r.get::<ratio>()
 }
 
+/// A quantity of the type `shape` returns, holding `si_value`. `shape` is never called: it is
+/// the typed expression (such as uom's own cube root) whose dimension the compiler checks,
+/// while the value comes from a faster routine ([`crate::fastmath`]).
+fn typed<D, F>(_shape: F, si_value: f64) -> uom::si::Quantity<D, uom::si::SI<f64>, f64>
+where
+    D: uom::si::Dimension + ?Sized,
+    F: FnOnce() -> uom::si::Quantity<D, uom::si::SI<f64>, f64>,
+{
+    uom::si::Quantity {
+        dimension: std::marker::PhantomData,
+        units: std::marker::PhantomData,
+        value: si_value,
+    }
+}
+
 // ---------------------------------------------------------------------------------------------
 // Kepler's third law
 // ---------------------------------------------------------------------------------------------
@@ -153,7 +169,7 @@ pub fn semi_major_axis(period: Time, m_star: Mass, m_planet: Mass) -> Option<Len
     }
     let a_cubed =
         gravitational_constant() * (m_star + m_planet) * period * period / (4.0 * PI * PI);
-    finite(a_cubed.cbrt())
+    finite(typed(|| a_cubed.cbrt(), fastmath::cbrt(a_cubed.value)))
 }
 
 /// Orbital period from Kepler's third law with the full mass,
@@ -223,7 +239,7 @@ pub fn rv_semi_amplitude(
     let ecc = (1.0 - e * e).powf(1.5);
     let k_cubed = 2.0 * PI * gravitational_constant() * projected * projected * projected
         / (period * m_total * m_total * ecc);
-    finite(k_cubed.cbrt())
+    finite(typed(|| k_cubed.cbrt(), fastmath::cbrt(k_cubed.value)))
 }
 
 /// Planet mass from the radial-velocity semi-amplitude, the exact inverse of
@@ -275,8 +291,8 @@ pub fn planet_mass_from_rv(
     // unusual (a flat slope, no convergence) falls through to the log-space iteration below,
     // which converges from any start.
     {
-        let c = phi.cbrt();
-        let mut u = c * ((1.0 + c) * (1.0 + c)).cbrt();
+        let c = fastmath::cbrt(phi);
+        let mut u = c * fastmath::cbrt((1.0 + c) * (1.0 + c));
         for _ in 0..60 {
             let g = u * u * u - phi * (1.0 + u) * (1.0 + u);
             let slope = 3.0 * u * u - 2.0 * phi * (1.0 + u);
@@ -311,7 +327,7 @@ pub fn planet_mass_from_rv(
         }
     };
     // Start from the small-planet solution u = phi^(1/3) (1 + phi^(1/3))^(2/3).
-    let c = phi.cbrt();
+    let c = fastmath::cbrt(phi);
     let mut y = c.ln() + (2.0 / 3.0) * c.ln_1p();
     let newton_step = |y: f64| {
         let h = 3.0 * y - 2.0 * softplus(y) - ln_phi;
@@ -551,7 +567,7 @@ pub fn hill_radius(a: Length, e: f64, m_planet: Mass, m_star: Mass) -> Option<Le
         return None;
     }
     let mass_ratio = value_of(m_planet / (3.0 * m_star));
-    finite(a * (1.0 - e) * mass_ratio.cbrt())
+    finite(a * (1.0 - e) * fastmath::cbrt(mass_ratio))
 }
 
 /// Mutual Hill radius of two planets,
@@ -573,7 +589,7 @@ pub fn mutual_hill_radius(
         return None;
     }
     let mass_ratio = value_of((m1 + m2) / (3.0 * m_star));
-    finite(mass_ratio.cbrt() * (a1 + a2) / 2.0)
+    finite(fastmath::cbrt(mass_ratio) * (a1 + a2) / 2.0)
 }
 
 /// Orbital separation `|a2 - a1|` in units of the mutual Hill radius ([`mutual_hill_radius`]).

@@ -16,6 +16,7 @@ pub mod constants;
 pub mod derive;
 pub mod diagnostic;
 pub mod ephemeris;
+pub mod fastmath;
 pub mod format;
 pub mod formulas;
 pub mod ide;

@@ -259,12 +259,17 @@ pub fn draw(m: &Measurement, lo: f64, hi: f64, n: usize, seed: u64) -> Vec<f64> 
         Form::Symmetric | Form::Asymmetric => {
             let total = m.below + m.above;
             let p_below = if total > 0.0 { m.below / total } else { 0.5 };
+            let symmetric = m.below == m.above;
             let one = |rng: &mut ChaCha8Rng| {
-                let z: f64 = rng.sample::<f64, _>(StandardNormal).abs();
+                let z: f64 = rng.sample::<f64, _>(StandardNormal);
+                if symmetric {
+                    // The split normal with equal sides is the normal: one draw, no side.
+                    return m.value + z * m.above;
+                }
                 if rng.gen::<f64>() < p_below {
-                    m.value - z * m.below
+                    m.value - z.abs() * m.below
                 } else {
-                    m.value + z * m.above
+                    m.value + z.abs() * m.above
                 }
             };
             (0..n)
