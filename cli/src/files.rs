@@ -25,20 +25,28 @@ pub fn load(paths: &[PathBuf]) -> Loaded {
             Err(e) => errors.push(format!("{}: {}", p.display(), io_words(&e))),
         }
     }
-    let mut db = MemoryDb::new();
-    for f in files {
-        match std::fs::read(&f) {
-            Ok(bytes) => match String::from_utf8(bytes) {
-                Ok(text) => {
-                    db.add(f.display().to_string(), text);
-                }
-                Err(e) => errors.push(format!(
+    // Read in parallel (a catalogue is thousands of small files), kept in sorted order.
+    let read: Vec<Result<String, String>> = {
+        use rayon::prelude::*;
+        files
+            .par_iter()
+            .map(|f| match std::fs::read(f) {
+                Ok(bytes) => String::from_utf8(bytes).map_err(|e| format!(
                     "{}: not valid UTF-8 (first bad byte at offset {}); Syzygy files are UTF-8 text",
                     f.display(),
                     e.utf8_error().valid_up_to()
                 )),
-            },
-            Err(e) => errors.push(format!("{}: {}", f.display(), io_words(&e))),
+                Err(e) => Err(format!("{}: {}", f.display(), io_words(&e))),
+            })
+            .collect()
+    };
+    let mut db = MemoryDb::new();
+    for (f, r) in files.iter().zip(read) {
+        match r {
+            Ok(text) => {
+                db.add(f.display().to_string(), text);
+            }
+            Err(e) => errors.push(e),
         }
     }
     Loaded { db, errors }
@@ -73,9 +81,26 @@ fn walk(
             return;
         }
     };
-    let mut paths: Vec<PathBuf> = entries.filter_map(|e| e.ok().map(|e| e.path())).collect();
-    paths.sort();
-    for p in paths {
+    // The entry's own type (from the folder listing) answers for plain files and folders
+    // without a further system call per file; symbolic links are followed with `metadata`.
+    let mut paths: Vec<(PathBuf, Option<std::fs::FileType>)> = entries
+        .filter_map(|e| e.ok().map(|e| (e.path(), e.file_type().ok())))
+        .collect();
+    paths.sort_by(|a, b| a.0.cmp(&b.0));
+    for (p, kind) in paths {
+        match kind {
+            Some(k) if k.is_file() => {
+                if p.extension().is_some_and(|e| e == "syz") {
+                    files.push(p);
+                }
+                continue;
+            }
+            Some(k) if k.is_dir() => {
+                walk(&p, files, errors, visited);
+                continue;
+            }
+            _ => {}
+        }
         match std::fs::metadata(&p) {
             Ok(m) if m.is_dir() => walk(&p, files, errors, visited),
             Ok(_) if p.extension().is_some_and(|e| e == "syz") => files.push(p),

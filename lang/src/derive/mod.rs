@@ -13,6 +13,7 @@
 //! albedo, full heat redistribution); a default that a result used is listed with it.
 
 pub mod rules;
+mod set;
 pub mod value;
 
 use crate::ast::{self, BinOp, BodyKind, ExprKind, Uncertainty};
@@ -21,7 +22,8 @@ use crate::model::{self, Content, Form, Measurement, System};
 use crate::quantities::{self, Qty};
 use crate::source::Span;
 use rules::{RuleDef, Slot, RULES};
-use std::collections::{BTreeMap, BTreeSet, HashMap};
+use set::SortedSet;
+use std::collections::{BTreeMap, HashMap, HashSet};
 use std::sync::Arc;
 pub use value::{InputInfo, Value};
 
@@ -172,8 +174,8 @@ struct Entry {
     origin: Origin,
     rule: Option<usize>,
     inputs: Vec<Key>,
-    deps: BTreeSet<Key>,
-    assumptions: BTreeSet<Arc<str>>,
+    deps: SortedSet<Key>,
+    assumptions: SortedSet<Arc<str>>,
 }
 
 #[derive(Debug, Clone)]
@@ -181,8 +183,8 @@ struct Candidate {
     rule: usize,
     value: Value,
     inputs: Vec<Key>,
-    deps: BTreeSet<Key>,
-    assumptions: BTreeSet<Arc<str>>,
+    deps: SortedSet<Key>,
+    assumptions: SortedSet<Arc<str>>,
 }
 
 /// A system's derivation with its full values (samples included). Physics checks read it;
@@ -190,11 +192,11 @@ struct Candidate {
 pub struct Derivation<'m> {
     pub sys: &'m System,
     pub options: Options,
-    entries: BTreeMap<Key, Entry>,
+    entries: HashMap<Key, Entry>,
     candidates: BTreeMap<Key, Vec<Candidate>>,
     pub inputs: Vec<InputInfo>,
     literal_inputs: HashMap<Span, u32>,
-    used: BTreeSet<Key>,
+    used: HashSet<Key>,
     pub diagnostics: Vec<Diagnostic>,
 }
 
@@ -255,11 +257,11 @@ impl<'m> Derivation<'m> {
         let mut d = Derivation {
             sys,
             options: options.clone(),
-            entries: BTreeMap::new(),
+            entries: HashMap::new(),
             candidates: BTreeMap::new(),
             inputs: Vec::new(),
             literal_inputs: HashMap::new(),
-            used: BTreeSet::new(),
+            used: HashSet::new(),
             diagnostics: Vec::new(),
         };
         d.declare_measurements();
@@ -340,7 +342,7 @@ impl<'m> Derivation<'m> {
                 } else {
                     Origin::Declared
                 };
-                let mut assumptions: BTreeSet<Arc<str>> = BTreeSet::new();
+                let mut assumptions: SortedSet<Arc<str>> = SortedSet::new();
                 if decl.assumed {
                     assumptions.insert(Arc::from(format!(
                         "{}.{} = {} (assumed)",
@@ -350,7 +352,9 @@ impl<'m> Derivation<'m> {
                     )));
                 }
                 if decl.qty == Qty::TransitEpoch {
-                    assumptions.extend(epoch_assumptions(decl).into_iter().map(Arc::from));
+                    for a in epoch_assumptions(decl) {
+                        assumptions.insert(Arc::from(a));
+                    }
                 }
                 if m.form.is_limit() {
                     assumptions.insert(Arc::from(format!(
@@ -368,7 +372,7 @@ impl<'m> Derivation<'m> {
                         origin,
                         rule: None,
                         inputs: Vec::new(),
-                        deps: BTreeSet::from([(bi, decl.qty)]),
+                        deps: SortedSet::one((bi, decl.qty)),
                         assumptions,
                     },
                 );
@@ -407,10 +411,10 @@ impl<'m> Derivation<'m> {
                                 origin: Origin::Default,
                                 rule: None,
                                 inputs: Vec::new(),
-                                deps: BTreeSet::from([(bi, q)]),
-                                assumptions: BTreeSet::from([
-                                    Arc::from("argument of periastron unknown: spread uniformly over 0-360 deg (default)"),
-                                ]),
+                                deps: SortedSet::one((bi, q)),
+                                assumptions: SortedSet::one(Arc::from(
+                                    "argument of periastron unknown: spread uniformly over 0-360 deg (default)",
+                                )),
                             },
                         );
                         continue;
@@ -423,8 +427,8 @@ impl<'m> Derivation<'m> {
                                 origin: Origin::Default,
                                 rule: None,
                                 inputs: Vec::new(),
-                                deps: BTreeSet::from([(bi, q)]),
-                                assumptions: BTreeSet::from([Arc::from(words)]),
+                                deps: SortedSet::one((bi, q)),
+                                assumptions: SortedSet::one(Arc::from(words)),
                             },
                         );
                     }
@@ -513,8 +517,8 @@ impl<'m> Derivation<'m> {
                     origin: Origin::Estimated,
                     rule: None,
                     inputs: Vec::new(),
-                    deps: BTreeSet::from([(bi, q)]),
-                    assumptions: BTreeSet::from([Arc::from(words)]),
+                    deps: SortedSet::one((bi, q)),
+                    assumptions: SortedSet::one(Arc::from(words)),
                 },
             );
         }
@@ -608,13 +612,13 @@ impl<'m> Derivation<'m> {
                     let Some(rule) = RULES.get(ri) else { continue };
                     let out: Key = out;
                     progress = true;
-                    let mut deps = BTreeSet::new();
-                    let mut assumptions = BTreeSet::new();
+                    let mut deps = SortedSet::new();
+                    let mut assumptions = SortedSet::new();
                     let mut args = Vec::with_capacity(ins.len());
                     for k in &ins {
                         if let Some(e) = self.entries.get(k) {
-                            deps.extend(e.deps.iter().copied());
-                            assumptions.extend(e.assumptions.iter().cloned());
+                            deps.merge(&e.deps);
+                            assumptions.merge(&e.assumptions);
                             args.push(&e.value);
                         }
                     }
@@ -714,12 +718,12 @@ impl<'m> Derivation<'m> {
             ));
             return Err(Pending::Failed);
         }
-        let mut deps = BTreeSet::from([key]);
-        let mut assumptions = BTreeSet::new();
+        let mut deps = SortedSet::one(key);
+        let mut assumptions = SortedSet::new();
         for r in &refs {
             if let Some(e) = self.entries.get(r) {
-                deps.extend(e.deps.iter().copied());
-                assumptions.extend(e.assumptions.iter().cloned());
+                deps.merge(&e.deps);
+                assumptions.merge(&e.assumptions);
             }
             self.used.insert(*r);
         }
@@ -935,7 +939,7 @@ impl<'m> Derivation<'m> {
 
     fn check_consistency(&mut self) {
         let threshold = self.options.consistency_sigma;
-        let mut reported: BTreeSet<BTreeSet<Key>> = BTreeSet::new();
+        let mut reported: HashSet<SortedSet<Key>> = HashSet::new();
         let keys: Vec<Key> = self.candidates.keys().copied().collect();
         for key in keys {
             let (Some(entry), Some(cands)) = (self.entries.get(&key), self.candidates.get(&key))
@@ -962,7 +966,7 @@ impl<'m> Derivation<'m> {
                 if z <= threshold || diff <= floor {
                     continue;
                 }
-                let mut involved: BTreeSet<Key> = entry.deps.union(&c.deps).copied().collect();
+                let mut involved: SortedSet<Key> = entry.deps.union(&c.deps);
                 involved.retain(|k| self.entries.get(k).is_some_and(|e| e.rule.is_none()));
                 if !reported.insert(involved.clone()) {
                     continue;
@@ -979,7 +983,7 @@ impl<'m> Derivation<'m> {
         entry: &Entry,
         c: &Candidate,
         z: f64,
-        involved: &BTreeSet<Key>,
+        involved: &SortedSet<Key>,
     ) -> Diagnostic {
         let def = quantities::def(key.1);
         let body = self.sys.bodies.get(key.0);
@@ -1052,7 +1056,7 @@ impl<'m> Derivation<'m> {
     }
 
     /// The declared measurements among `deps` (defaults and derived values left out).
-    fn declared_deps(&self, deps: &BTreeSet<Key>) -> BTreeSet<Key> {
+    fn declared_deps(&self, deps: &SortedSet<Key>) -> SortedSet<Key> {
         deps.iter()
             .copied()
             .filter(|k| {
@@ -1308,7 +1312,22 @@ pub fn display_unit(qty: Qty, si: f64) -> &'static str {
 
 /// SI value of one display unit.
 pub fn display_factor(unit: &str) -> f64 {
-    crate::units::parse_unit_text(unit).map_or(1.0, |u| u.factor)
+    // Reports ask for the same few units many times per body: parse each once per thread.
+    thread_local! {
+        static FACTORS: std::cell::RefCell<HashMap<String, f64>> = std::cell::RefCell::new(HashMap::new());
+    }
+    let parse = || crate::units::parse_unit_text(unit).map_or(1.0, |u| u.factor);
+    FACTORS.with(|cache| {
+        let Ok(mut cache) = cache.try_borrow_mut() else {
+            return parse();
+        };
+        if let Some(f) = cache.get(unit) {
+            return *f;
+        }
+        let f = parse();
+        cache.insert(unit.to_string(), f);
+        f
+    })
 }
 
 #[cfg(test)]
