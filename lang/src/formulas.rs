@@ -134,6 +134,13 @@ fn is_scaled_axis(a_over_rstar: f64) -> bool {
     a_over_rstar.is_finite() && a_over_rstar > 1.0
 }
 
+/// `(1 - e^2)^(3/2)`, as `x sqrt(x)`: the same number without a general power, which the
+/// radial-velocity rules evaluate for every Monte Carlo sample.
+fn one_minus_e2_to_three_halves(e: f64) -> f64 {
+    let x = 1.0 - e * e;
+    x * x.sqrt()
+}
+
 fn value_of(r: Ratio) -> f64 {
     r.get::<ratio>()
 }
@@ -236,7 +243,7 @@ pub fn rv_semi_amplitude(
     }
     let m_total = m_star + m_planet;
     let projected = m_planet * sin_i;
-    let ecc = (1.0 - e * e).powf(1.5);
+    let ecc = one_minus_e2_to_three_halves(e);
     let k_cubed = 2.0 * PI * gravitational_constant() * projected * projected * projected
         / (period * m_total * m_total * ecc);
     finite(typed(|| k_cubed.cbrt(), fastmath::cbrt(k_cubed.value)))
@@ -278,8 +285,8 @@ pub fn planet_mass_from_rv(
         return None;
     }
     // Mass function f = P K^3 (1 - e^2)^(3/2) / (2 pi G), a mass.
-    let mass_function: Mass =
-        period * k * k * k * (1.0 - e * e).powf(1.5) / (2.0 * PI * gravitational_constant());
+    let mass_function: Mass = period * k * k * k * one_minus_e2_to_three_halves(e)
+        / (2.0 * PI * gravitational_constant());
     let phi = value_of(mass_function / (m_star * sin_i.powi(3)));
     if !(phi.is_finite() && phi > 0.0) {
         return None;
@@ -685,7 +692,7 @@ pub fn equilibrium_temperature(
         return None;
     }
     let dilution = value_of(r_star / (2.0 * a)).sqrt();
-    let absorbed = (redistribution * (1.0 - albedo)).powf(0.25);
+    let absorbed = (redistribution * (1.0 - albedo)).sqrt().sqrt();
     finite(teff * (dilution * absorbed))
 }
 

@@ -22,8 +22,9 @@ use crate::model::{self, Content, Form, Measurement, System};
 use crate::quantities::{self, Qty};
 use crate::source::Span;
 use rules::{RuleDef, Slot, RULES};
+use rustc_hash::{FxHashMap, FxHashSet};
 use set::SortedSet;
-use std::collections::{BTreeMap, HashMap, HashSet};
+use std::collections::BTreeMap;
 use std::sync::Arc;
 pub use value::{InputInfo, Value};
 
@@ -192,11 +193,11 @@ struct Candidate {
 pub struct Derivation<'m> {
     pub sys: &'m System,
     pub options: Options,
-    entries: HashMap<Key, Entry>,
+    entries: FxHashMap<Key, Entry>,
     candidates: BTreeMap<Key, Vec<Candidate>>,
     pub inputs: Vec<InputInfo>,
-    literal_inputs: HashMap<Span, u32>,
-    used: HashSet<Key>,
+    literal_inputs: FxHashMap<Span, u32>,
+    used: FxHashSet<Key>,
     pub diagnostics: Vec<Diagnostic>,
 }
 
@@ -257,11 +258,11 @@ impl<'m> Derivation<'m> {
         let mut d = Derivation {
             sys,
             options: options.clone(),
-            entries: HashMap::new(),
+            entries: FxHashMap::default(),
             candidates: BTreeMap::new(),
             inputs: Vec::new(),
-            literal_inputs: HashMap::new(),
-            used: HashSet::new(),
+            literal_inputs: FxHashMap::default(),
+            used: FxHashSet::default(),
             diagnostics: Vec::new(),
         };
         d.declare_measurements();
@@ -939,7 +940,7 @@ impl<'m> Derivation<'m> {
 
     fn check_consistency(&mut self) {
         let threshold = self.options.consistency_sigma;
-        let mut reported: HashSet<SortedSet<Key>> = HashSet::new();
+        let mut reported: FxHashSet<SortedSet<Key>> = FxHashSet::default();
         let keys: Vec<Key> = self.candidates.keys().copied().collect();
         for key in keys {
             let (Some(entry), Some(cands)) = (self.entries.get(&key), self.candidates.get(&key))
@@ -1314,7 +1315,7 @@ pub fn display_unit(qty: Qty, si: f64) -> &'static str {
 pub fn display_factor(unit: &str) -> f64 {
     // Reports ask for the same few units many times per body: parse each once per thread.
     thread_local! {
-        static FACTORS: std::cell::RefCell<HashMap<String, f64>> = std::cell::RefCell::new(HashMap::new());
+        static FACTORS: std::cell::RefCell<FxHashMap<String, f64>> = std::cell::RefCell::new(FxHashMap::default());
     }
     let parse = || crate::units::parse_unit_text(unit).map_or(1.0, |u| u.factor);
     FACTORS.with(|cache| {
