@@ -151,10 +151,15 @@ const ZENG_CMF_RANGE: (f64, f64) = (0.0, 0.4);
 impl SeagerFit {
     /// Radius in Earth radii for a mass in Earth masses (no range check).
     fn radius_earth(&self, mass_earth: f64) -> f64 {
-        // log10 Rs = k1 + (1/3) log10 Ms - k2 Ms^k3, Ms = M/m1, R = r1 Rs; written with one
-        // natural log and two exponentials (the same function; the classifier calls it for
+        self.radius_earth_from_ln(mass_earth.ln())
+    }
+
+    /// The same, from the natural log of the mass in Earth masses.
+    fn radius_earth_from_ln(&self, ln_mass_earth: f64) -> f64 {
+        // log10 Rs = k1 + (1/3) log10 Ms - k2 Ms^k3, Ms = M/m1, R = r1 Rs; written with
+        // exponentials of one natural log (the same function; the classifier calls it for
         // every sample, and `powf` and `log10` cost about twice as much).
-        let ln_ms = (mass_earth / self.m1).ln();
+        let ln_ms = ln_mass_earth - self.m1.ln();
         let ln10 = std::f64::consts::LN_10;
         let ln_rs = ln10 * self.k1 + ln_ms / 3.0 - ln10 * self.k2 * (self.k3 * ln_ms).exp();
         self.r1 * ln_rs.exp()
@@ -164,7 +169,11 @@ impl SeagerFit {
 /// Zeng et al. (2016) rocky relation, R = (1.07 - 0.21 CMF) M^(1/3.7), Earth units (no range
 /// check).
 fn zeng_radius_earth(mass_earth: f64, cmf: f64) -> f64 {
-    (1.07 - 0.21 * cmf) * (mass_earth.ln() / 3.7).exp()
+    zeng_radius_earth_from_ln(mass_earth.ln(), cmf)
+}
+
+fn zeng_radius_earth_from_ln(ln_mass_earth: f64, cmf: f64) -> f64 {
+    (1.07 - 0.21 * cmf) * (ln_mass_earth / 3.7).exp()
 }
 
 fn in_range(value: f64, range: (f64, f64)) -> bool {
@@ -446,23 +455,39 @@ fn boundary_parts(mass_kg: f64, boundaries: &ClassBoundaries) -> Option<(Boundar
     if !boundaries.is_valid() {
         return None;
     }
-    let floor = radius_of_extrapolated(Curve::PureIron, mass_kg)?;
-    let ceiling = radius_of_extrapolated(
-        Curve::Rocky {
-            core_mass_fraction: 0.0,
-        },
-        mass_kg,
-    )?;
+    boundary_parts_unchecked(mass_kg, boundaries.iron_rich_core_fraction)
+}
+
+/// [`boundary_parts`] for boundaries already known to be valid: the pure-iron floor and the
+/// CMF 0 rocky ceiling from one logarithm of the mass, as [`radius_of_extrapolated`] gives
+/// them (a test checks the two agree). Called once per sample by the classifier.
+fn boundary_parts_unchecked(
+    mass_kg: f64,
+    iron_rich_core_fraction: f64,
+) -> Option<(BoundaryRadii, f64)> {
+    let mass_earth = mass_kg / M_EARTH;
+    if !is_positive_finite(mass_earth) {
+        return None;
+    }
+    let ln_m = mass_earth.ln();
+    let floor_m = SEAGER_IRON.radius_earth_from_ln(ln_m) * R_EARTH;
+    let rock_m = zeng_radius_earth_from_ln(ln_m, 0.0) * R_EARTH;
+    if !(is_positive_finite(floor_m) && is_positive_finite(rock_m)) {
+        return None;
+    }
+    // The CMF 0 curve's parameters are inside Zeng's fitted range, so only the mass decides.
+    let extrapolated = !in_range(mass_earth, SEAGER_MASS_RANGE_EARTH)
+        || !in_range(mass_earth, ZENG_MASS_RANGE_EARTH);
     // Guard: keep the ceiling at or above the floor at any extrapolated mass.
-    let ceiling_m = ceiling.radius_m.max(floor.radius_m);
-    let x = boundaries.iron_rich_core_fraction;
-    let limit_cubed = x * floor.radius_m.powi(3) + (1.0 - x) * ceiling_m.powi(3);
+    let ceiling_m = rock_m.max(floor_m);
+    let x = iron_rich_core_fraction;
+    let limit_cubed = x * floor_m.powi(3) + (1.0 - x) * ceiling_m.powi(3);
     Some((
         BoundaryRadii {
-            iron_floor_m: floor.radius_m,
+            iron_floor_m: floor_m,
             iron_rich_limit_m: f64::NAN,
             rock_ceiling_m: ceiling_m,
-            extrapolated: floor.extrapolated || ceiling.extrapolated,
+            extrapolated,
         },
         limit_cubed,
     ))
@@ -483,10 +508,22 @@ fn classify_point_flagged(
     radius_m: f64,
     boundaries: &ClassBoundaries,
 ) -> Option<(CompositionClass, bool)> {
+    if !(is_positive_finite(radius_m) && boundaries.is_valid()) {
+        return None;
+    }
+    classify_valid_point(mass_kg, radius_m, boundaries)
+}
+
+/// [`classify_point_flagged`] for boundaries already known to be valid.
+fn classify_valid_point(
+    mass_kg: f64,
+    radius_m: f64,
+    boundaries: &ClassBoundaries,
+) -> Option<(CompositionClass, bool)> {
     if !is_positive_finite(radius_m) {
         return None;
     }
-    let (b, limit_cubed) = boundary_parts(mass_kg, boundaries)?;
+    let (b, limit_cubed) = boundary_parts_unchecked(mass_kg, boundaries.iron_rich_core_fraction)?;
     let class = if radius_m < b.iron_floor_m {
         CompositionClass::DenserThanIron
     } else if radius_m.powi(3) < limit_cubed {
@@ -668,7 +705,7 @@ pub fn classify_with(
     let mut summary = CompositionSummary::empty(None, *boundaries);
     for (&m, &r) in mass_samples_kg.iter().zip(radius_samples_m) {
         summary.n_pairs += 1;
-        match classify_point_flagged(m, r, boundaries) {
+        match classify_valid_point(m, r, boundaries) {
             Some((class, extrapolated)) => {
                 summary.n_valid += 1;
                 summary.counts.add(class);
@@ -764,6 +801,34 @@ pub fn describe_position(mass_kg: f64, radius_m: f64) -> String {
 mod tests {
     use super::*;
     use crate::solar_system::{by_name, PLANETS};
+
+    #[test]
+    fn per_sample_boundaries_match_the_curves() {
+        // The classifier's one-logarithm path must give the curves' own radii and flags.
+        let mut m = 1e-4;
+        while m < 1e4 {
+            let kg = m * M_EARTH;
+            let (b, _) = boundary_parts_unchecked(kg, 0.5).unwrap();
+            let iron = radius_of_extrapolated(Curve::PureIron, kg).unwrap();
+            let rock = radius_of_extrapolated(
+                Curve::Rocky {
+                    core_mass_fraction: 0.0,
+                },
+                kg,
+            )
+            .unwrap();
+            assert!((b.iron_floor_m / iron.radius_m - 1.0).abs() < 1e-13, "{m}");
+            assert!((b.rock_ceiling_m / rock.radius_m.max(iron.radius_m) - 1.0).abs() < 1e-13);
+            assert_eq!(
+                b.extrapolated,
+                iron.extrapolated || rock.extrapolated,
+                "{m}"
+            );
+            m *= 1.37;
+        }
+        assert!(boundary_parts_unchecked(0.0, 0.5).is_none());
+        assert!(boundary_parts_unchecked(f64::NAN, 0.5).is_none());
+    }
 
     #[test]
     fn positions_in_words() {
