@@ -3,7 +3,6 @@
 use crate::files;
 use syzygy::ephemeris::Ephemeris;
 use syzygy::time;
-use syzygy::Options;
 
 #[derive(clap::Args)]
 #[command(
@@ -49,7 +48,7 @@ fn now_jd() -> f64 {
     time::jd_from_unix(secs)
 }
 
-pub fn run(args: &Args, options: &Options) -> u8 {
+pub fn run(args: &Args, flags: &crate::config_file::Flags) -> u8 {
     let from = match args.from.as_deref().map(parse_from) {
         Some(Ok(jd)) => jd,
         Some(Err(e)) => {
@@ -63,7 +62,13 @@ pub fn run(args: &Args, options: &Options) -> u8 {
         files::report_io_errors(&loaded.errors);
         return 2;
     }
-    let analyses = files::analyze_all(&loaded.db, options, &[]);
+    let analyses = match files::analyze_all(&loaded.db, flags) {
+        Ok(a) => a,
+        Err(e) => {
+            eprintln!("syz: error: {e}");
+            return 2;
+        }
+    };
     let Some(a) = analyses.first() else { return 2 };
     let Some((si, bi)) = syzygy::report::find_body(a, args.system.as_deref(), &args.body) else {
         eprintln!("syz: no body '{}' in {}", args.body, args.file.display());

@@ -3,9 +3,9 @@
 
 use std::collections::BTreeSet;
 use std::path::{Path, PathBuf};
-use syzygy::diagnostic::{apply_overrides, SeverityOverride};
+use syzygy::diagnostic::apply_overrides;
 use syzygy::source::{MemoryDb, SourceDb};
-use syzygy::{analyze, Analysis, Options};
+use syzygy::{analyze, Analysis};
 
 pub struct Loaded {
     pub db: MemoryDb,
@@ -127,17 +127,15 @@ fn io_words(e: &std::io::Error) -> String {
 /// Above this many files, `check` shows a progress bar (on a terminal only).
 const PROGRESS_THRESHOLD: usize = 200;
 
-/// Analyse every loaded file, in parallel; the result keeps the files' (sorted) order.
+/// Analyse every loaded file, in parallel, each with the settings of its nearest project
+/// file (`syzygy.toml`) under the explicit flags; the result keeps the files' (sorted) order.
+/// An unreadable or invalid project file is an error naming it.
 pub fn analyze_all(
     db: &MemoryDb,
-    options: &Options,
-    overrides: &[SeverityOverride],
-) -> Vec<Analysis> {
-    let settings: Vec<_> = db
-        .files()
-        .map(|_| (options.clone(), overrides.to_vec()))
-        .collect();
-    analyze_each(db, &settings)
+    flags: &crate::config_file::Flags,
+) -> Result<Vec<Analysis>, String> {
+    let settings = crate::config_file::resolve(db, flags)?;
+    Ok(analyze_each(db, &settings))
 }
 
 /// Analyse every loaded file with its own settings (one entry per file, in file order).

@@ -109,10 +109,6 @@ fn parse_rule(s: &str) -> Result<Rule, String> {
 }
 
 impl EngineArgs {
-    fn options(&self) -> Options {
-        self.flags().over(Options::default())
-    }
-
     /// The settings given explicitly, to lay over a project file.
     fn flags(&self) -> config_file::Flags {
         config_file::Flags {
@@ -241,7 +237,7 @@ fn main() -> ExitCode {
             target,
             system,
             engine,
-        } => explain(&file, &target, system.as_deref(), &engine.options()),
+        } => explain(&file, &target, system.as_deref(), &engine.flags()),
         Command::Fmt {
             paths,
             write,
@@ -261,8 +257,8 @@ fn main() -> ExitCode {
             clap_complete::generate(shell, &mut cmd, "syz", &mut std::io::stdout());
             0
         }
-        Command::Plot { plot, engine } => plot_cmd::run(&plot, &engine.options()),
-        Command::Ephemeris { args, engine } => ephemeris_cmd::run(&args, &engine.options()),
+        Command::Plot { plot, engine } => plot_cmd::run(&plot, &engine.flags()),
+        Command::Ephemeris { args, engine } => ephemeris_cmd::run(&args, &engine.flags()),
     };
     ExitCode::from(code)
 }
@@ -274,8 +270,13 @@ fn check(
     flags: &config_file::Flags,
 ) -> u8 {
     let loaded = files::load(paths);
-    let Some((analyses, _)) = analyze_with_project_files(&loaded, flags) else {
-        return 2;
+    let analyses = match files::analyze_all(&loaded.db, flags) {
+        Ok(a) => a,
+        Err(e) => {
+            files::report_io_errors(&loaded.errors);
+            eprintln!("syz: error: {e}");
+            return 2;
+        }
     };
     let mut counts = [0usize; 3];
     for a in &analyses {
@@ -375,32 +376,24 @@ fn check(
     }
 }
 
+/// How the uncertainties shown were propagated, in words.
+fn propagation_words(options: &Options) -> String {
+    match options.propagation {
+        Propagation::MonteCarlo => format!(
+            "Monte Carlo, {} samples (seed {}); derived values are sample medians with 16th-84th percentile ranges",
+            options.samples, options.seed
+        ),
+        Propagation::Linear => {
+            "first order (linear) from the measurements' standard uncertainties".to_string()
+        }
+    }
+}
+
 fn plural(n: usize) -> &'static str {
     if n == 1 {
         ""
     } else {
         "s"
-    }
-}
-
-/// Analyse with each file's project settings; `None` (after saying why) on a bad project file.
-/// Also returns the options of the first file, or of the flags alone when there is none.
-fn analyze_with_project_files(
-    loaded: &files::Loaded,
-    flags: &config_file::Flags,
-) -> Option<(Vec<syzygy::Analysis>, Options)> {
-    match config_file::resolve(&loaded.db, flags) {
-        Ok(settings) => {
-            let first = settings
-                .first()
-                .map_or_else(|| flags.over(Options::default()), |s| s.0.clone());
-            Some((files::analyze_each(&loaded.db, &settings), first))
-        }
-        Err(e) => {
-            files::report_io_errors(&loaded.errors);
-            eprintln!("syz: error: {e}");
-            None
-        }
     }
 }
 
@@ -526,7 +519,12 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8
     }
 }
 
-fn explain(file: &std::path::Path, target: &str, system: Option<&str>, options: &Options) -> u8 {
+fn explain(
+    file: &std::path::Path,
+    target: &str,
+    system: Option<&str>,
+    flags: &config_file::Flags,
+) -> u8 {
     let Some((body, qty)) = target.split_once('.') else {
         eprintln!("syz: expected BODY.QUANTITY, such as b.density, found '{target}'");
         return 2;
@@ -536,8 +534,17 @@ fn explain(file: &std::path::Path, target: &str, system: Option<&str>, options: 
         files::report_io_errors(&loaded.errors);
         return 2;
     }
-    let analyses = files::analyze_all(&loaded.db, options, &[]);
-    let Some(a) = analyses.first() else { return 2 };
+    let settings = match config_file::resolve(&loaded.db, flags) {
+        Ok(s) => s,
+        Err(e) => {
+            eprintln!("syz: error: {e}");
+            return 2;
+        }
+    };
+    let analyses = files::analyze_each(&loaded.db, &settings);
+    let (Some(a), Some((options, _))) = (analyses.first(), settings.first()) else {
+        return 2;
+    };
     let Some((si, bi)) = syzygy::report::find_body(a, system, body) else {
         eprintln!("syz: no body '{body}' in {}", file.display());
         return 2;
@@ -555,6 +562,7 @@ fn explain(file: &std::path::Path, target: &str, system: Option<&str>, options: 
     match syzygy::report::explain_text(a, si, (bi, def.qty)) {
         Some(text) => {
             print!("{text}");
+            println!("\nuncertainties: {}", propagation_words(options));
             let bad = a
                 .diagnostics
                 .iter()

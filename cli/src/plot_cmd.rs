@@ -1,6 +1,7 @@
 //! `syz plot`: SVG diagrams drawn from what the core computes ([`syzygy::plots`]). The only
 //! file written is the one `-o` names.
 
+use crate::config_file::Flags;
 use crate::files;
 use plotters::coord::Shift;
 use plotters::prelude::*;
@@ -11,7 +12,6 @@ use syzygy::constants::{M_EARTH, R_EARTH};
 use syzygy::lightcurve::LimbDarkening;
 use syzygy::plots::{self, ModelCurve};
 use syzygy::solar_system;
-use syzygy::Options;
 
 #[derive(clap::Subcommand)]
 pub enum Plot {
@@ -57,7 +57,7 @@ fn err<E: std::fmt::Display>(e: E) -> String {
     e.to_string()
 }
 
-pub fn run(plot: &Plot, options: &Options) -> u8 {
+pub fn run(plot: &Plot, flags: &Flags) -> u8 {
     let out = match plot {
         Plot::MassRadius { output, .. }
         | Plot::Rv { output, .. }
@@ -74,18 +74,18 @@ pub fn run(plot: &Plot, options: &Options) -> u8 {
         return 2;
     }
     let result = match plot {
-        Plot::MassRadius { paths, .. } => mass_radius(paths, options),
+        Plot::MassRadius { paths, .. } => mass_radius(paths, flags),
         Plot::Rv {
             file, body, system, ..
-        } => one_planet(file, body, system.as_deref(), options).and_then(|(a, si, bi)| {
+        } => one_planet(file, body, system.as_deref(), flags).and_then(|(a, si, bi)| {
             let c = plots::rv_curve(&a, si, bi)?;
-            model_svg(
+            Ok(model_svg(
                 &c,
                 &format!("Radial velocity of {}'s star", c.label),
                 "time from mid-transit (inferior conjunction) [days]",
                 "stellar radial velocity [m/s]",
                 None,
-            )
+            )?)
         }),
         Plot::Transit {
             file,
@@ -93,17 +93,19 @@ pub fn run(plot: &Plot, options: &Options) -> u8 {
             system,
             limb_darkening,
             ..
-        } => parse_ld(limb_darkening.as_deref()).and_then(|ld| {
-            let (a, si, bi) = one_planet(file, body, system.as_deref(), options)?;
-            let (c, used) = plots::transit_curve(&a, si, bi, ld)?;
-            model_svg(
-                &c,
-                &format!("Transit of {}", c.label),
-                "time from mid-transit [hours]",
-                "relative flux",
-                Some(used),
-            )
-        }),
+        } => parse_ld(limb_darkening.as_deref())
+            .map_err(Stop::from)
+            .and_then(|ld| {
+                let (a, si, bi) = one_planet(file, body, system.as_deref(), flags)?;
+                let (c, used) = plots::transit_curve(&a, si, bi, ld)?;
+                Ok(model_svg(
+                    &c,
+                    &format!("Transit of {}", c.label),
+                    "time from mid-transit [hours]",
+                    "relative flux",
+                    Some(used),
+                )?)
+            }),
     };
     match result {
         Ok(svg) => match std::fs::write(out, svg) {
@@ -116,10 +118,38 @@ pub fn run(plot: &Plot, options: &Options) -> u8 {
                 2
             }
         },
-        Err(e) => {
-            eprintln!("syz: {e}");
-            1
+        Err(stop) => {
+            eprintln!("syz: {}", stop.message);
+            stop.code
         }
+    }
+}
+
+/// Why no plot was drawn, with the exit status: 2 for settings that stop every command (a
+/// bad project file), 1 for a plot that cannot be drawn from what the file declares.
+struct Stop {
+    code: u8,
+    message: String,
+}
+
+impl Stop {
+    fn settings(message: String) -> Stop {
+        Stop {
+            code: 2,
+            message: format!("error: {message}"),
+        }
+    }
+}
+
+impl From<String> for Stop {
+    fn from(message: String) -> Stop {
+        Stop { code: 1, message }
+    }
+}
+
+impl From<&str> for Stop {
+    fn from(message: &str) -> Stop {
+        Stop::from(message.to_string())
     }
 }
 
@@ -145,13 +175,13 @@ fn one_planet(
     file: &Path,
     body: &str,
     system: Option<&str>,
-    options: &Options,
-) -> Result<(syzygy::Analysis, usize, usize), String> {
+    flags: &Flags,
+) -> Result<(syzygy::Analysis, usize, usize), Stop> {
     let loaded = files::load(&[file.to_path_buf()]);
     if let Some(e) = loaded.errors.first() {
-        return Err(e.clone());
+        return Err(Stop::from(e.clone()));
     }
-    let mut analyses = files::analyze_all(&loaded.db, options, &[]);
+    let mut analyses = files::analyze_all(&loaded.db, flags).map_err(Stop::settings)?;
     let a = analyses.pop().ok_or("nothing to read")?;
     let (si, bi) = syzygy::report::find_body(&a, system, body)
         .ok_or_else(|| format!("no body '{body}' in {}", file.display()))?;
@@ -196,16 +226,18 @@ fn notes(area: &DrawingArea<SVGBackend, Shift>, lines: &[String]) -> Result<(), 
     Ok(())
 }
 
-fn mass_radius(paths: &[PathBuf], options: &Options) -> Result<String, String> {
+fn mass_radius(paths: &[PathBuf], flags: &Flags) -> Result<String, Stop> {
     let loaded = files::load(paths);
     files::report_io_errors(&loaded.errors);
-    let analyses = files::analyze_all(&loaded.db, options, &[]);
+    let analyses = files::analyze_all(&loaded.db, flags).map_err(Stop::settings)?;
     let (points, left_out) = plots::mass_radius_points(&analyses);
     for l in &left_out {
         eprintln!("note: not plotted: {l}");
     }
     if points.is_empty() {
-        return Err("no planet with both a mass and a radius to plot".to_string());
+        return Err(Stop::from(
+            "no planet with both a mass and a radius to plot",
+        ));
     }
     let mut x_max: f64 = 1000.0;
     let mut y_max: f64 = 25.0;

@@ -104,3 +104,57 @@ fn bad_project_file_is_a_clear_error() {
     assert!(e.contains("syzygy.toml"), "{e}");
     assert!(e.contains("did you mean 'inconsistent'"), "{e}");
 }
+
+#[test]
+fn explain_plot_and_ephemeris_read_the_project_file() {
+    let dir = scratch("project-file-other-commands");
+    let file = dir.join("veyra.syz");
+    std::fs::copy(root().join("examples/veyra.syz"), &file).unwrap();
+    std::fs::write(
+        dir.join("syzygy.toml"),
+        "[derivation]\npropagation = \"linear\"\n",
+    )
+    .unwrap();
+    let f = file.to_str().unwrap();
+
+    // explain says which propagation it used, and it is the project file's.
+    let o = run(&["explain", f, "b.density"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let s = syzygy_e2e::stdout(&o);
+    assert!(s.contains("uncertainties: first order (linear)"), "{s}");
+    let linear_flag = run(&["explain", f, "b.density", "--propagation", "linear"]);
+    assert_eq!(s, syzygy_e2e::stdout(&linear_flag));
+    // A flag still beats it.
+    let o = run(&["explain", f, "b.density", "--propagation", "monte-carlo"]);
+    let mc = syzygy_e2e::stdout(&o);
+    assert!(
+        mc.contains("uncertainties: Monte Carlo, 10000 samples"),
+        "{mc}"
+    );
+    assert_ne!(
+        s.lines().next(),
+        mc.lines().next(),
+        "linear and Monte Carlo agree to the digit?"
+    );
+
+    // A broken project file stops explain, ephemeris and plot with status 2 and its name.
+    std::fs::write(dir.join("syzygy.toml"), "[derivation]\nsamples = 0\n").unwrap();
+    let svg = dir.join("mr.svg");
+    for args in [
+        vec!["explain", f, "b.density"],
+        vec!["ephemeris", f, "b", "--from", "2027-01-01", "--count", "2"],
+        vec!["plot", "mass-radius", f, "-o", svg.to_str().unwrap()],
+    ] {
+        let o = run(&args);
+        assert_eq!(o.status.code(), Some(2), "{args:?}: {}", stderr(&o));
+        assert!(
+            stderr(&o).contains("syzygy.toml"),
+            "{args:?}: {}",
+            stderr(&o)
+        );
+    }
+    assert!(
+        !svg.exists(),
+        "no plot is written when the settings are bad"
+    );
+}
