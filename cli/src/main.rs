@@ -376,6 +376,18 @@ fn check(
     }
 }
 
+/// Every diagnostic of one file, rendered for people.
+fn rendered_diagnostics(
+    a: &syzygy::Analysis,
+    db: &syzygy::source::MemoryDb,
+    color: bool,
+) -> String {
+    a.diagnostics
+        .iter()
+        .map(|d| render::diagnostic(db, d, color))
+        .collect()
+}
+
 /// How the uncertainties shown were propagated, in words.
 fn propagation_words(options: &Options) -> String {
     match options.propagation {
@@ -460,12 +472,21 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8
                 Ok(h) => out.write_all(&h).err().map(csv::Error::from),
                 Err(e) => Some(e),
             };
+            let color = render::stderr_color();
+            let mut rendered = String::new();
             files::for_each_analysed(
                 db,
                 &settings,
-                |a| (a.has_errors(), csv_out::rows(&a, db)),
-                |(bad, rows)| {
+                |a| {
+                    (
+                        a.has_errors(),
+                        csv_out::rows(&a, db),
+                        rendered_diagnostics(&a, db, color),
+                    )
+                },
+                |(bad, rows, diags)| {
                     errors |= bad;
+                    rendered.push_str(&diags);
                     if failure.is_none() {
                         failure = match rows {
                             Ok(r) => out.write_all(&r).err().map(csv::Error::from),
@@ -477,6 +498,8 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8
             if failure.is_none() {
                 failure = out.flush().err().map(csv::Error::from);
             }
+            // The table is on standard output; what is wrong with the files goes beside it.
+            let _ = std::io::stderr().lock().write_all(rendered.as_bytes());
             if let Some(e) = failure {
                 // A reader that stops early (`| head`) is not an error of ours.
                 let closed = e.to_string().contains("Broken pipe");
@@ -493,12 +516,11 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8
                 db,
                 &settings,
                 |a| {
-                    let diags: String = a
-                        .diagnostics
-                        .iter()
-                        .map(|d| render::diagnostic(db, d, color))
-                        .collect();
-                    (a.has_errors(), syzygy::report::eval_text(&a, db), diags)
+                    (
+                        a.has_errors(),
+                        syzygy::report::eval_text(&a, db),
+                        rendered_diagnostics(&a, db, color),
+                    )
                 },
                 |(bad, text, diags)| {
                     errors |= bad;

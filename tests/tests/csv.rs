@@ -72,3 +72,29 @@ fn csv_has_a_row_per_body_in_fixed_units() {
     assert_eq!(rows.len() - 1, bodies);
     assert!(bodies > 5);
 }
+
+#[test]
+fn csv_keeps_the_table_on_stdout_and_the_problems_on_stderr() {
+    // docs/csv-output.md: diagnostics go to standard error as with the human format.
+    let o = run(&[
+        "eval",
+        "--format",
+        "csv",
+        "--propagation",
+        "linear",
+        "examples/broken/language-errors.syz",
+    ]);
+    assert_eq!(o.status.code(), Some(1), "errors make the exit status 1");
+    let err = syzygy_e2e::stderr(&o);
+    assert!(err.contains("Error"), "no diagnostics on stderr:\n{err}");
+    let rows = parse(&stdout(&o));
+    assert!(
+        rows[0].first().is_some_and(|h| h == "file"),
+        "{:?}",
+        rows[0]
+    );
+    assert!(
+        !stdout(&o).contains("Error"),
+        "diagnostics leaked into the table"
+    );
+}
