@@ -87,6 +87,7 @@ pub fn header() -> Result<Vec<u8>, csv::Error> {
         }
         w.write_field(format!("{n}_origin"))?;
     }
+    w.write_field("assumptions")?;
     w.write_record(None::<&[u8]>)?;
     w.into_inner().map_err(|e| csv::Error::from(e.into_error()))
 }
@@ -113,6 +114,21 @@ pub fn rows(a: &Analysis, db: &dyn SourceDb) -> Result<Vec<u8>, csv::Error> {
                 };
                 write_cells(&mut w, &mut buf, def, q)?;
             }
+            // What the body's values assumed, in words, so the table never hides a default
+            // or an approximation (the JSON output has them per quantity).
+            let assumed: std::collections::BTreeSet<&str> = r
+                .quantities
+                .iter()
+                .flat_map(|q| q.assumptions.iter().map(String::as_str))
+                .collect();
+            buf.clear();
+            for (i, a) in assumed.iter().enumerate() {
+                if i > 0 {
+                    buf.push_str(" | ");
+                }
+                buf.push_str(a);
+            }
+            w.write_field(buf.as_str())?;
             w.write_record(None::<&[u8]>)?;
         }
     }

@@ -98,3 +98,26 @@ fn csv_keeps_the_table_on_stdout_and_the_problems_on_stderr() {
         "diagnostics leaked into the table"
     );
 }
+
+#[test]
+fn csv_says_what_each_body_assumed() {
+    let o = run(&[
+        "eval",
+        "--format",
+        "csv",
+        "--propagation",
+        "linear",
+        "examples/veyra.syz",
+    ]);
+    let rows = parse(&stdout(&o));
+    let last = rows[0].len() - 1;
+    assert_eq!(rows[0][last], "assumptions");
+    let planet_c = rows.iter().find(|r| r[2] == "c").unwrap();
+    // veyra.syz declares no albedo for c: the default must be visible in the table.
+    assert!(
+        planet_c[last].contains("Bond albedo = 0 (default)"),
+        "{planet_c:?}"
+    );
+    let star = rows.iter().find(|r| r[3] == "star").unwrap();
+    assert!(!star[last].contains("albedo"), "{star:?}");
+}
