@@ -29,6 +29,7 @@ pub mod parser;
 pub mod plots;
 pub mod quantities;
 pub mod report;
+pub mod reuse;
 pub mod rule_docs;
 pub mod solar_system;
 pub mod source;
@@ -40,6 +41,7 @@ pub mod units;
 use std::collections::HashMap;
 
 pub use derive::{Options, Propagation};
+pub use reuse::{analyze_reusing, Reusable};
 
 /// Everything the core knows about one file.
 pub struct Analysis {
@@ -63,29 +65,82 @@ impl Analysis {
 }
 
 /// Run the whole pipeline on one source text: parse, lower, derive, check.
+///
+/// [`analyze_reusing`] gives the same analysis while reusing the work of an earlier one.
 pub fn analyze(file: source::FileId, src: &str, options: &Options) -> Analysis {
+    let (ast, model, diagnostics) = parse_and_lower(file, src);
+    let outputs = model
+        .systems
+        .iter()
+        .map(|sys| derive_system(sys, options))
+        .collect();
+    assemble(file, src, ast, model, diagnostics, outputs)
+}
+
+/// What deriving and checking one system gives, before silencing comments apply. A function
+/// of the lowered system and the options alone, which is what makes it reusable.
+#[derive(Debug, Clone, PartialEq)]
+pub(crate) struct SystemOutput {
+    /// The engine's diagnostics, then the physics checker's.
+    pub(crate) diagnostics: Vec<diagnostic::Diagnostic>,
+    pub(crate) result: derive::SystemResult,
+    /// Composition notes in the checker's order: (planet id, JSON, line of text).
+    pub(crate) composition: Vec<(String, serde_json::Value, String)>,
+}
+
+fn parse_and_lower(
+    file: source::FileId,
+    src: &str,
+) -> (ast::File, model::Model, Vec<diagnostic::Diagnostic>) {
     let parsed = parser::parse(file, src);
     let mut diagnostics = parsed.diagnostics;
     let model = model::lower(file, &parsed.file, &mut diagnostics);
-    let mut results = Vec::with_capacity(model.systems.len());
+    (parsed.file, model, diagnostics)
+}
+
+pub(crate) fn derive_system(sys: &model::System, options: &Options) -> SystemOutput {
+    let d = derive::Derivation::run(sys, options);
+    let mut diagnostics = d.diagnostics.clone();
+    let composition = checks::run(&d, &mut diagnostics)
+        .into_iter()
+        .filter_map(|note| {
+            let b = sys.bodies.get(note.body)?;
+            Some((b.id.clone(), note.json, note.text))
+        })
+        .collect();
+    SystemOutput {
+        diagnostics,
+        result: d.summarize(),
+        composition,
+    }
+}
+
+/// Put the per-system outputs (in the order of `model.systems`) together, then apply the
+/// silencing comments and sort the diagnostics.
+fn assemble(
+    file: source::FileId,
+    src: &str,
+    ast: ast::File,
+    model: model::Model,
+    mut diagnostics: Vec<diagnostic::Diagnostic>,
+    outputs: Vec<SystemOutput>,
+) -> Analysis {
+    let mut results = Vec::with_capacity(outputs.len());
     let mut composition = HashMap::new();
     let mut composition_text = HashMap::new();
-    for (si, sys) in model.systems.iter().enumerate() {
-        let d = derive::Derivation::run(sys, options);
-        diagnostics.extend(d.diagnostics.iter().cloned());
-        for note in checks::run(&d, &mut diagnostics) {
-            if let Some(b) = sys.bodies.get(note.body) {
-                composition.insert((si, b.id.clone()), note.json);
-                composition_text.insert((si, b.id.clone()), note.text);
-            }
+    for (si, out) in outputs.into_iter().enumerate() {
+        diagnostics.extend(out.diagnostics);
+        for (id, json, text) in out.composition {
+            composition.insert((si, id.clone()), json);
+            composition_text.insert((si, id), text);
         }
-        results.push(d.summarize());
+        results.push(out.result);
     }
-    let mut diagnostics = allow::apply(src, &parsed.file.comments, diagnostics);
+    let mut diagnostics = allow::apply(src, &ast.comments, diagnostics);
     diagnostic::sort_diagnostics(&mut diagnostics);
     Analysis {
         file,
-        ast: parsed.file,
+        ast,
         model,
         results,
         composition,
