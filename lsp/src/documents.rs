@@ -1,12 +1,13 @@
 //! Open documents. Each change makes a new immutable [`Snapshot`] (text, line index,
-//! generation); its analysis is computed at most once, on first use, off the request thread.
+//! generation); its analysis is computed at most once, on first use, off the request thread,
+//! reusing the per-system work of the latest analysed snapshot before it.
 
 use std::collections::HashMap;
 use std::sync::atomic::{AtomicU64, Ordering};
 use std::sync::{Arc, Mutex, OnceLock};
 use syzygy::ide::symbols::{self, Occurrence};
 use syzygy::source::{FileId, LineIndex, Span};
-use syzygy::{Analysis, Options};
+use syzygy::{Analysis, Options, Reusable};
 use tower_lsp::lsp_types::{Position, Range, TextDocumentContentChangeEvent, Url};
 
 /// How the client counts columns.
@@ -24,6 +25,9 @@ pub struct Snapshot {
     /// generation is stale.
     pub generation: u64,
     analysis: OnceLock<Arc<Analysis>>,
+    /// Per-system work to reuse: until this snapshot is analysed, that of the latest
+    /// analysed snapshot before it; then its own.
+    reusable: Mutex<Option<Arc<Reusable>>>,
     occurrences: OnceLock<Vec<Occurrence>>,
 }
 
@@ -36,16 +40,47 @@ impl Snapshot {
             version,
             generation,
             analysis: OnceLock::new(),
+            reusable: Mutex::new(None),
             occurrences: OnceLock::new(),
         }
     }
 
-    /// The analysis, computed on first use. The editor view uses linear propagation so that
-    /// typing stays smooth; `syz eval` defaults to Monte Carlo.
+    /// A snapshot of the text that follows `previous`, reusing its work where it can.
+    pub fn following(previous: &Snapshot, text: String, version: i32, generation: u64) -> Snapshot {
+        let snap = Snapshot::new(text, version, generation);
+        *snap.reusable_slot() = previous.reusable_slot().clone();
+        snap
+    }
+
+    fn reusable_slot(&self) -> std::sync::MutexGuard<'_, Option<Arc<Reusable>>> {
+        // A panic while the lock was held leaves plain data behind; go on with it.
+        self.reusable.lock().unwrap_or_else(|e| e.into_inner())
+    }
+
+    /// The analysis, computed on first use, deriving again only the systems that changed
+    /// since the work it reuses. The editor view uses linear propagation so that typing stays
+    /// smooth; `syz eval` defaults to Monte Carlo.
     pub fn analysis(&self) -> Arc<Analysis> {
         self.analysis
-            .get_or_init(|| Arc::new(syzygy::analyze(FileId(0), &self.text, &Options::linear())))
+            .get_or_init(|| {
+                let previous = self.reusable_slot().clone();
+                let (analysis, reusable) = syzygy::analyze_reusing(
+                    FileId(0),
+                    &self.text,
+                    &Options::linear(),
+                    previous.as_deref(),
+                );
+                *self.reusable_slot() = Some(Arc::new(reusable));
+                Arc::new(analysis)
+            })
             .clone()
+    }
+
+    /// How many systems the analysis took from an earlier one, once it is computed.
+    #[cfg(test)]
+    fn reused_systems(&self) -> Option<usize> {
+        self.analysis.get()?;
+        self.reusable_slot().as_ref().map(|r| r.reused())
     }
 
     pub fn analysis_ready(&self) -> Option<Arc<Analysis>> {
@@ -149,7 +184,7 @@ impl Documents {
         let old = docs.get(uri)?;
         let text = apply_changes(&old.text, changes, enc);
         let g = self.generation.fetch_add(1, Ordering::SeqCst) + 1;
-        let snap = Arc::new(Snapshot::new(text, version, g));
+        let snap = Arc::new(Snapshot::following(old, text, version, g));
         docs.insert(uri.clone(), snap.clone());
         Some(snap)
     }
@@ -233,5 +268,42 @@ mod tests {
                 character: 2
             }
         );
+    }
+
+    fn system(name: &str, mass: &str) -> String {
+        format!(
+            "system \"{name}\" {{\n  star s {{ mass = 1.0 ± 0.02 Msun }}\n  planet b orbits s {{ period = 365.25 ± 0.01 d; semi_major_axis = {mass} ± 0.01 au }}\n}}\n"
+        )
+    }
+
+    #[test]
+    fn a_change_reuses_the_systems_it_did_not_touch() {
+        let one = format!(
+            "{}{}{}",
+            system("Ambrel", "1.3"),
+            system("Bostrin", "1.4"),
+            system("Cindle", "1.5")
+        );
+        let s1 = Snapshot::new(one.clone(), 1, 1);
+        assert_eq!(s1.reused_systems(), None, "not analysed yet");
+        s1.analysis();
+        assert_eq!(s1.reused_systems(), Some(0));
+        // A longer first system moves the other two.
+        let two = one.replacen("1.3", "1.30", 1);
+        let s2 = Snapshot::following(&s1, two.clone(), 2, 2);
+        let a2 = s2.analysis();
+        assert_eq!(s2.reused_systems(), Some(2));
+        let fresh = syzygy::analyze(FileId(0), &two, &Options::linear());
+        assert_eq!(a2.diagnostics, fresh.diagnostics);
+        assert_eq!(a2.diagnostics.len(), 3);
+        // Snapshots never analysed (overtaken while typing) pass on the older work.
+        let three = two.replacen("1.4", "1.45", 1);
+        let s3 = Snapshot::following(&s2, three.clone(), 3, 3);
+        let four = three.replacen("1.5", "1.55", 1);
+        let s4 = Snapshot::following(&s3, four.clone(), 4, 4);
+        let a4 = s4.analysis();
+        assert_eq!(s4.reused_systems(), Some(1));
+        let fresh = syzygy::analyze(FileId(0), &four, &Options::linear());
+        assert_eq!(a4.diagnostics, fresh.diagnostics);
     }
 }

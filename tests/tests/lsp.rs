@@ -528,3 +528,52 @@ fn a_file_deleted_while_open_is_still_served_from_the_buffer() {
     );
     assert_eq!(c.shutdown_and_exit().unwrap().code(), Some(0));
 }
+
+#[test]
+fn diagnostics_after_edits_are_those_of_the_text_opened_afresh() {
+    // Edits in one system move the others; the server reuses their work and must publish
+    // exactly what it publishes for the same text opened as a new document.
+    let text = "ref lab \"Invented laboratory numbers\"\n\
+        system \"Pellam\" {\n  star p { mass = 0.9 ± 0.04 Msun; radius = 0.9 ± 0.02 Rsun }\n  planet b orbits p { period = 5 ± 0.01 d; rv_amplitude = 30 ± 2 m/s }\n}\n\
+        system \"Quorl\" {\n  star q { mass = 1.0 ± 0.02 Msun }\n  planet b orbits q { period = 365.25 ± 0.01 d; semi_major_axis = 1.3 ± 0.01 au [lab] }\n}\n\
+        system \"Tarrow\" {\n  star t { mass = 1.0 ± 0.04 Msun }\n  planet b orbits t { period = 10 ± 0.01 d; eccentricity = 0.6 ± 0.02 }\n  planet c orbits t { period = 14 ± 0.01 d }\n}\n";
+    let uri = "file:///tmp/moving.syz";
+    let mut c = LspClient::start();
+    c.initialize(json!({}));
+    c.open(uri, text);
+    let first = c.diagnostics(uri, Some(1));
+    assert_eq!(first["diagnostics"].as_array().unwrap().len(), 2, "{first}");
+
+    let at = position_of(text, "  planet b orbits p", 0);
+    let inserted = "  let spare = 2 ± 0.1\n  # a note\n";
+    c.notify(
+        "textDocument/didChange",
+        json!({"textDocument": {"uri": uri, "version": 2},
+               "contentChanges": [{"range": {"start": at, "end": at}, "text": inserted}]}),
+    );
+    let edited = text.replacen(
+        "  planet b orbits p",
+        &format!("{inserted}  planet b orbits p"),
+        1,
+    );
+    let moved = c.diagnostics(uri, Some(2));
+    let diags = moved["diagnostics"].as_array().unwrap();
+    assert_eq!(diags.len(), 2, "{moved}");
+    let inconsistent = diags.iter().find(|d| d["code"] == "inconsistent").unwrap();
+    assert_eq!(
+        inconsistent["range"],
+        range_of(&edited, "1.0 ± 0.02 Msun", 0),
+        "{moved}"
+    );
+    assert_eq!(
+        inconsistent["relatedInformation"][1]["location"]["range"],
+        range_of(&edited, "1.3 ± 0.01 au", 0)
+    );
+
+    let fresh_uri = "file:///tmp/moving-afresh.syz";
+    c.open(fresh_uri, &edited);
+    let fresh = c.diagnostics(fresh_uri, Some(1));
+    let same_uri = fresh["diagnostics"].to_string().replace(fresh_uri, uri);
+    assert_eq!(moved["diagnostics"].to_string(), same_uri);
+    assert_eq!(c.shutdown_and_exit().unwrap().code(), Some(0));
+}
