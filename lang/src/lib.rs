@@ -39,6 +39,7 @@ pub mod time;
 pub mod units;
 
 use std::collections::HashMap;
+use std::sync::Arc;
 
 pub use derive::{Options, Propagation};
 pub use reuse::{analyze_reusing, Reusable};
@@ -48,8 +49,9 @@ pub struct Analysis {
     pub file: source::FileId,
     pub ast: ast::File,
     pub model: model::Model,
-    /// One result per system, in the order of `model.systems`.
-    pub results: Vec<derive::SystemResult>,
+    /// One result per system, in the order of `model.systems` (shared with the analyses
+    /// that reuse it, see [`reuse`]).
+    pub results: Vec<Arc<derive::SystemResult>>,
     /// Composition summaries per (system index, planet id), as JSON and as a line of text.
     pub composition: HashMap<(usize, String), serde_json::Value>,
     pub composition_text: HashMap<(usize, String), String>,
@@ -83,7 +85,7 @@ pub fn analyze(file: source::FileId, src: &str, options: &Options) -> Analysis {
 pub(crate) struct SystemOutput {
     /// The engine's diagnostics, then the physics checker's.
     pub(crate) diagnostics: Vec<diagnostic::Diagnostic>,
-    pub(crate) result: derive::SystemResult,
+    pub(crate) result: Arc<derive::SystemResult>,
     /// Composition notes in the checker's order: (planet id, JSON, line of text).
     pub(crate) composition: Vec<(String, serde_json::Value, String)>,
 }
@@ -110,7 +112,7 @@ pub(crate) fn derive_system(sys: &model::System, options: &Options) -> SystemOut
         .collect();
     SystemOutput {
         diagnostics,
-        result: d.summarize(),
+        result: Arc::new(d.summarize()),
         composition,
     }
 }

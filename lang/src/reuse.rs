@@ -182,6 +182,13 @@ impl<T: Spans> Spans for Vec<T> {
     }
 }
 
+/// A shared value is copied before its spans move, unless nothing else holds it.
+impl<T: Spans + Clone> Spans for Arc<T> {
+    fn each_span(&mut self, f: &mut dyn FnMut(&mut Span)) {
+        Arc::make_mut(self).each_span(f);
+    }
+}
+
 impl<T: Spans> Spans for Box<T> {
     fn each_span(&mut self, f: &mut dyn FnMut(&mut Span)) {
         T::each_span(self, f);

@@ -121,13 +121,16 @@ fn the_generated_systems_say_something() {
 #[test]
 fn an_edit_in_one_system_derives_only_that_system() {
     let mut doc = Doc::new(&[0, 1, 2, 3, 4, 5, 0, 2]);
-    let (_, keep) = step(&doc.text(), &linear(), None);
+    let (before, keep) = step(&doc.text(), &linear(), None);
     assert_eq!(keep.reused(), 0);
     assert_eq!(keep.systems(), 8);
     // Longer text in system 2: every system after it moves.
     doc.systems[2] = doc.systems[2].replace("365.25", "365.2500");
     let (a, keep) = step(&doc.text(), &linear(), Some(&keep));
     assert_eq!(keep.reused(), 7);
+    // Systems that did not move share their results with the previous analysis.
+    assert!(Arc::ptr_eq(&before.results[1], &a.results[1]));
+    assert!(!Arc::ptr_eq(&before.results[3], &a.results[3]));
     // A moved system's diagnostic points at its own text.
     let src = doc.text();
     let labels =
@@ -247,10 +250,10 @@ fn outputs_with_spans_outside_their_system_are_not_kept() {
     let out = |span: Span| SystemOutput {
         diagnostics: vec![Diagnostic::new(Rule::Inconsistent, span, "x")
             .with_label(Span::new(FileId(0), 12, 13), "y")],
-        result: SystemResult {
+        result: Arc::new(SystemResult {
             bodies: Vec::new(),
             alternatives: Vec::new(),
-        },
+        }),
         composition: Vec::new(),
     };
     assert!(inside(&mut out(Span::new(FileId(0), 10, 20)), sys));
