@@ -172,21 +172,23 @@ impl Documents {
         snap
     }
 
-    /// Apply a change under the lock, so concurrent changes never interleave.
+    /// Apply a change under the lock, so concurrent changes never interleave. Gives the new
+    /// snapshot and the one it replaced, for the caller to free off the way to the new
+    /// diagnostics (freeing the analysis of a large file takes milliseconds).
     pub fn change(
         &self,
         uri: &Url,
         version: i32,
         changes: Vec<TextDocumentContentChangeEvent>,
         enc: Encoding,
-    ) -> Option<Arc<Snapshot>> {
+    ) -> Option<(Arc<Snapshot>, Arc<Snapshot>)> {
         let mut docs = self.lock();
-        let old = docs.get(uri)?;
+        let old = docs.get_mut(uri)?;
         let text = apply_changes(&old.text, changes, enc);
         let g = self.generation.fetch_add(1, Ordering::SeqCst) + 1;
         let snap = Arc::new(Snapshot::following(old, text, version, g));
-        docs.insert(uri.clone(), snap.clone());
-        Some(snap)
+        let replaced = std::mem::replace(old, snap.clone());
+        Some((snap, replaced))
     }
 
     pub fn close(&self, uri: &Url) {

@@ -219,7 +219,10 @@ impl LanguageServer for Backend {
             self.enc(),
         );
         match snap {
-            Some(snap) => self.schedule_diagnostics(uri, snap),
+            Some((snap, replaced)) => {
+                self.schedule_diagnostics(uri, snap);
+                tokio::task::spawn_blocking(move || drop(replaced));
+            }
             None => {
                 self.client
                     .log_message(
