@@ -49,6 +49,12 @@ pub fn load(paths: &[PathBuf]) -> Loaded {
             Err(e) => errors.push(e),
         }
     }
+    if files.is_empty() && errors.is_empty() {
+        // Not an error (an empty catalogue is valid), but a misspelt folder or extension
+        // should not pass a CI job unnoticed.
+        let names: Vec<String> = paths.iter().map(|p| p.display().to_string()).collect();
+        eprintln!("syz: warning: no .syz file found in {}", names.join(", "));
+    }
     Loaded { db, errors }
 }
 

@@ -32,6 +32,25 @@ fn missing_file_is_an_io_error_with_exit_2() {
 }
 
 #[test]
+fn a_folder_without_syz_files_is_said_not_passed_silently() {
+    let dir = scratch("no-syz-files");
+    std::fs::write(dir.join("notes.txt"), "not a system").unwrap();
+    for cmd in ["check", "eval"] {
+        let o = run(&[cmd, dir.to_str().unwrap()]);
+        assert_eq!(
+            o.status.code(),
+            Some(0),
+            "{cmd}: an empty catalogue is valid"
+        );
+        assert!(
+            stderr(&o).contains("no .syz file found"),
+            "{cmd}: {}",
+            stderr(&o)
+        );
+    }
+}
+
+#[test]
 fn binary_file_is_reported_not_panicked() {
     let dir = scratch("binary");
     let f = dir.join("garbage.syz");
