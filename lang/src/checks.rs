@@ -13,7 +13,6 @@ use crate::diagnostic::{Diagnostic, Rule};
 use crate::formulas;
 use crate::quantities::Qty;
 use crate::source::Span;
-use std::sync::Arc;
 use uom::si::f64::{Length, Mass, MassDensity};
 use uom::si::length::meter;
 use uom::si::mass::kilogram;
@@ -27,8 +26,6 @@ pub const DEUTERIUM_LIMIT: f64 = 13.0 * M_JUPITER;
 pub const HYDROGEN_LIMIT: f64 = 0.075 * M_SUN;
 /// Most samples used for composition classes.
 const COMPOSITION_SAMPLES: usize = 2000;
-/// Samples drawn for composition in linear mode.
-const LINEAR_SAMPLES: usize = 500;
 
 /// What the checker found about one planet's composition.
 pub struct CompositionNote {
@@ -80,33 +77,36 @@ fn shown(q: Qty, si: f64) -> String {
 }
 
 /// Samples of a value: the engine's, or drawn from its linear spread.
-fn samples_of(d: &Derivation, k: Key) -> Option<Arc<[f64]>> {
-    let v = d.value(k)?;
-    if let Some(s) = &v.samples {
-        return Some(s.clone());
+/// Class probabilities of a planet: from its aligned Monte Carlo samples when there are
+/// some, else (linear propagation) by quadrature over its mass and radius, each taken as the
+/// split normal of its first-order uncertainties.
+fn class_probabilities(
+    d: &Derivation,
+    bi: usize,
+) -> Option<(composition::ClassProbabilities, &'static str)> {
+    let (m, r) = (d.value((bi, Qty::Mass))?, d.value((bi, Qty::Radius))?);
+    if let (Some(ms), Some(rs)) = (&m.samples, &r.samples) {
+        // Classes are fractions of samples; the first COMPOSITION_SAMPLES aligned pairs
+        // resolve them to 0.05%, enough for the 99.7% threshold, at a fraction of the cost.
+        let n = ms.len().min(rs.len()).min(COMPOSITION_SAMPLES);
+        let (ms, rs) = (ms.get(..n).unwrap_or(&[]), rs.get(..n).unwrap_or(&[]));
+        return composition::ClassProbabilities::from_samples(&composition::classify(ms, rs))
+            .map(|p| (p, "samples"));
     }
-    let (lo, hi) = v.linear_spread(&d.inputs);
-    let m = crate::model::Measurement {
-        value: v.nominal,
-        below: lo,
-        above: hi,
-        form: if lo == 0.0 && hi == 0.0 {
-            crate::model::Form::Exact
-        } else {
-            crate::model::Form::Asymmetric
-        },
+    let split = |v: &value::Value| {
+        let (below, above) = v.linear_spread(&d.inputs);
+        composition::SplitNormal {
+            value: v.nominal,
+            below,
+            above,
+        }
     };
-    let seed = value::stable_hash(
-        &[&d.sys.name, &d.key_name(k), "composition"],
-        d.options.seed,
-    );
-    Some(Arc::from(value::draw(
-        &m,
-        0.0,
-        f64::INFINITY,
-        LINEAR_SAMPLES,
-        seed,
-    )))
+    composition::classify_distributions(
+        split(m),
+        split(r),
+        &composition::ClassBoundaries::default(),
+    )
+    .map(|p| (p, "quadrature"))
 }
 
 fn composition_check(
@@ -114,18 +114,10 @@ fn composition_check(
     bi: usize,
     diags: &mut Vec<Diagnostic>,
 ) -> Option<CompositionNote> {
-    let m = samples_of(d, (bi, Qty::Mass))?;
-    let r = samples_of(d, (bi, Qty::Radius))?;
-    // Classes are fractions of samples; the first COMPOSITION_SAMPLES aligned pairs resolve
-    // them to 0.05%, enough for the 99.7% threshold, at a fraction of the cost.
-    let n = m.len().min(r.len()).min(COMPOSITION_SAMPLES);
-    let (m, r) = (m.get(..n).unwrap_or(&[]), r.get(..n).unwrap_or(&[]));
-    let summary = composition::classify(m, r);
+    let (summary, method) = class_probabilities(d, bi)?;
     let mass = nominal(d, (bi, Qty::Mass))?;
     let radius = nominal(d, (bi, Qty::Radius))?;
-    let p_iron = summary
-        .probability(composition::CompositionClass::DenserThanIron)
-        .unwrap_or(f64::NAN);
+    let p_iron = summary.probability(composition::CompositionClass::DenserThanIron);
     if p_iron.is_finite() && p_iron >= IRON_PROBABILITY {
         let density = nominal(d, (bi, Qty::Density)).unwrap_or(f64::NAN);
         let iron = composition::density_of_pure_iron_body(mass).unwrap_or(f64::NAN);
@@ -148,10 +140,7 @@ fn composition_check(
             .with_help("check the transit depth and the stellar radius (a radius ratio from the wrong band or star), and the mass's unit"),
         );
     }
-    let probs = summary.probabilities();
-    if probs.is_empty() {
-        return None;
-    }
+    let probs = summary.probabilities.clone();
     let mut json = serde_json::Map::new();
     for (class, p) in &probs {
         json.insert(class.name().to_string(), serde_json::json!(p));
@@ -165,7 +154,7 @@ fn composition_check(
         .map(|(c, p)| format!("{} {:.0}%", c.name(), p * 100.0))
         .collect::<Vec<_>>()
         .join(", ");
-    let extrapolated = summary.fraction_extrapolated().unwrap_or(0.0);
+    let extrapolated = summary.extrapolated;
     // Giants are classed by mass and radius thresholds, not by the solid-planet curves, so
     // extrapolation is only worth saying for small planets.
     let text =
@@ -180,6 +169,7 @@ fn composition_check(
         json: serde_json::json!({
             "most_probable": best.map(|c| c.name()),
             "probabilities": json,
+            "method": method,
             "extrapolated_fraction": extrapolated,
             "boundaries": "Seager et al. 2007 pure iron; Zeng et al. 2016 rocky (CMF 0) and CMF 0.5 mix; giant above 0.1 Mjup, inflated above 1.2 Rjup",
         }),
