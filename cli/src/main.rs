@@ -6,6 +6,7 @@ mod csv_out;
 mod ephemeris_cmd;
 mod files;
 mod fmt_cmd;
+mod json_out;
 mod plot_cmd;
 mod render;
 mod sarif;
@@ -376,6 +377,11 @@ fn check(
     }
 }
 
+/// The error that stands for "the output already failed" once a write has.
+fn closed_output() -> std::io::Error {
+    std::io::Error::new(std::io::ErrorKind::BrokenPipe, "output closed")
+}
+
 /// Every diagnostic of one file, rendered for people.
 fn rendered_diagnostics(
     a: &syzygy::Analysis,
@@ -431,41 +437,52 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8
     // order, so memory does not grow with the number of files.
     match format {
         EvalFormat::Json => {
-            let mut systems = Vec::new();
+            let options_json = serde_json::json!({
+                "propagation": match options.propagation { Propagation::MonteCarlo => "monte-carlo", Propagation::Linear => "linear" },
+                "samples": if options.propagation == Propagation::MonteCarlo { serde_json::json!(options.samples) } else { serde_json::Value::Null },
+                "seed": options.seed,
+                "consistency_sigma": options.consistency_sigma,
+            });
+            let head = [
+                ("version", serde_json::json!(syzygy::report::JSON_VERSION)),
+                ("options", options_json),
+            ];
+            let mut doc = json_out::Document::start(&mut out, &head);
             let mut diags = Vec::new();
             files::for_each_analysed(
                 db,
                 &settings,
                 |a| {
+                    let systems: Vec<String> = syzygy::report::systems_json(&a, db)
+                        .iter()
+                        .map(json_out::system_text)
+                        .collect();
                     (
                         a.has_errors(),
-                        syzygy::report::systems_json(&a, db),
+                        systems,
                         syzygy::report::diagnostics_json(&a, db),
                     )
                 },
-                |(bad, s, d)| {
+                |(bad, systems, d)| {
                     errors |= bad;
-                    systems.extend(s);
                     diags.extend(d);
+                    for s in &systems {
+                        doc = std::mem::replace(&mut doc, Err(closed_output()))
+                            .and_then(|mut w| w.system(s).map(|()| w));
+                    }
                 },
             );
-            let doc = serde_json::json!({
-                "version": syzygy::report::JSON_VERSION,
-                "options": {
-                    "propagation": match options.propagation { Propagation::MonteCarlo => "monte-carlo", Propagation::Linear => "linear" },
-                    "samples": if options.propagation == Propagation::MonteCarlo { serde_json::json!(options.samples) } else { serde_json::Value::Null },
-                    "seed": options.seed,
-                    "consistency_sigma": options.consistency_sigma,
-                },
-                "systems": systems,
-                "diagnostics": diags,
-                "io_errors": loaded.errors,
-            });
-            let _ = writeln!(
-                out,
-                "{}",
-                serde_json::to_string_pretty(&doc).unwrap_or_default()
-            );
+            let tail = [
+                ("diagnostics", serde_json::Value::Array(diags)),
+                ("io_errors", serde_json::json!(loaded.errors)),
+            ];
+            if let Err(e) = doc.and_then(|w| w.finish(&tail)) {
+                // A reader that stops early (`| head`) is not an error of ours.
+                if e.kind() != std::io::ErrorKind::BrokenPipe {
+                    eprintln!("syz: error: writing the output failed: {e}");
+                    return 2;
+                }
+            }
         }
         EvalFormat::Csv => {
             let mut failure = match csv_out::header() {
