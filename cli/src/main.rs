@@ -271,45 +271,73 @@ fn check(
     flags: &config_file::Flags,
 ) -> u8 {
     let loaded = files::load(paths);
-    let analyses = match files::analyze_all(&loaded.db, flags) {
-        Ok(a) => a,
+    let settings = match config_file::resolve(&loaded.db, flags) {
+        Ok(s) => s,
         Err(e) => {
             files::report_io_errors(&loaded.errors);
             eprintln!("syz: error: {e}");
             return 2;
         }
     };
-    let mut counts = [0usize; 3];
-    for a in &analyses {
-        for d in &a.diagnostics {
-            if let Some(c) = counts.get_mut(d.severity as usize) {
-                *c += 1;
-            }
-        }
-    }
-    let (notes, warnings, errors) = (counts[0], counts[1], counts[2]);
-    // Counts per rule id, in the catalogue's order (the order of docs/rules.md).
-    let mut per_rule: Vec<(&'static str, usize)> = Rule::ALL
-        .iter()
-        .map(|r| {
-            let n = analyses
-                .iter()
-                .flat_map(|a| &a.diagnostics)
-                .filter(|d| d.rule == *r)
-                .count();
-            (r.id(), n)
-        })
-        .collect();
-    per_rule.retain(|(_, n)| *n > 0);
+    let db = &loaded.db;
     let stdout = std::io::stdout();
     let mut out = stdout.lock();
+    // Streamed like `eval`: each file's diagnostics are rendered (for people) or turned into
+    // JSON on the worker that analysed it, and the analysis is dropped.
+    let human = matches!(format, CheckFormat::Human);
+    let color = render::use_color();
+    let mut counts = [0usize; 3];
+    let mut rule_counts = vec![0usize; Rule::ALL.len()];
+    let mut all_diags: Vec<serde_json::Value> = Vec::new();
+    let mut checked = 0usize;
+    files::for_each_analysed(
+        db,
+        &settings,
+        |a| {
+            let kinds: Vec<(usize, Rule)> = a
+                .diagnostics
+                .iter()
+                .map(|d| (d.severity as usize, d.rule))
+                .collect();
+            if human {
+                (kinds, rendered_diagnostics(&a, db, color), Vec::new())
+            } else {
+                (
+                    kinds,
+                    String::new(),
+                    syzygy::report::diagnostics_json(&a, db),
+                )
+            }
+        },
+        |(kinds, text, json)| {
+            checked += 1;
+            for (severity, rule) in kinds {
+                if let Some(c) = counts.get_mut(severity) {
+                    *c += 1;
+                }
+                if let Some(c) = Rule::ALL
+                    .iter()
+                    .position(|r| *r == rule)
+                    .and_then(|i| rule_counts.get_mut(i))
+                {
+                    *c += 1;
+                }
+            }
+            let _ = out.write_all(text.as_bytes());
+            all_diags.extend(json);
+        },
+    );
+    let (notes, warnings, errors) = (counts[0], counts[1], counts[2]);
+    // Counts per rule id, in the catalogue's order (the order of docs/rules.md).
+    let per_rule: Vec<(&'static str, usize)> = Rule::ALL
+        .iter()
+        .zip(&rule_counts)
+        .filter(|(_, n)| **n > 0)
+        .map(|(r, n)| (r.id(), *n))
+        .collect();
     match format {
         CheckFormat::Sarif => {
-            let diags: Vec<serde_json::Value> = analyses
-                .iter()
-                .flat_map(|a| syzygy::report::diagnostics_json(a, &loaded.db))
-                .collect();
-            let doc = sarif::log(&diags, &loaded.errors);
+            let doc = sarif::log(&all_diags, &loaded.errors);
             let _ = writeln!(
                 out,
                 "{}",
@@ -317,14 +345,10 @@ fn check(
             );
         }
         CheckFormat::Json => {
-            let diags: Vec<serde_json::Value> = analyses
-                .iter()
-                .flat_map(|a| syzygy::report::diagnostics_json(a, &loaded.db))
-                .collect();
             let doc = serde_json::json!({
                 "version": syzygy::report::JSON_VERSION,
-                "files": analyses.len(),
-                "diagnostics": diags,
+                "files": checked,
+                "diagnostics": all_diags,
                 "io_errors": loaded.errors,
                 "summary": {
                     "errors": errors,
@@ -340,17 +364,11 @@ fn check(
             );
         }
         CheckFormat::Human => {
-            let color = render::use_color();
-            for a in &analyses {
-                for d in &a.diagnostics {
-                    let _ = out.write_all(render::diagnostic(&loaded.db, d, color).as_bytes());
-                }
-            }
             let _ = writeln!(
                 out,
                 "checked {} file{}: {} error{}, {} warning{}, {} note{}",
-                analyses.len(),
-                plural(analyses.len()),
+                checked,
+                plural(checked),
                 errors,
                 plural(errors),
                 warnings,
