@@ -10,13 +10,25 @@
 /// Cube root, within a few units in the last place of `f64::cbrt`.
 #[inline]
 pub fn cbrt(x: f64) -> f64 {
+    cbrt_refined(x, 3)
+}
+
+/// Cube root to about 1e-13 relative (two refinement steps instead of three), for starting
+/// guesses that an iteration refines anyway.
+#[inline]
+pub fn cbrt_guess(x: f64) -> f64 {
+    cbrt_refined(x, 2)
+}
+
+#[inline]
+fn cbrt_refined(x: f64, steps: usize) -> f64 {
     if !(x.is_normal() && x > 0.0) {
         return x.cbrt();
     }
     // Dividing the bit pattern by three thirds the exponent; the constant re-biases it
     // (the classic integer cube-root guess, accurate to a few percent; common practice).
     let mut y = f64::from_bits(x.to_bits() / 3 + 0x2a9f_7893_782d_a1ce);
-    for _ in 0..3 {
+    for _ in 0..steps {
         let y3 = y * y * y;
         y *= (y3 + 2.0 * x) / (2.0 * y3 + x);
     }
@@ -44,6 +56,16 @@ mod tests {
         // Exact cubes come back exactly or within one unit in the last place.
         for k in [1.0_f64, 2.0, 3.0, 10.0, 1e5] {
             assert!((cbrt(k * k * k) - k).abs() <= k * f64::EPSILON, "{k}");
+        }
+    }
+
+    #[test]
+    fn guesses_are_close() {
+        let mut x = 1e-300_f64;
+        while x < 1e300 {
+            let rel = ((cbrt_guess(x * 1.7) - (x * 1.7).cbrt()) / (x * 1.7).cbrt()).abs();
+            assert!(rel < 1e-12, "{x:e}: {rel:e}");
+            x *= 10.0;
         }
     }
 

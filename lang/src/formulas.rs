@@ -298,8 +298,8 @@ pub fn planet_mass_from_rv(
     // unusual (a flat slope, no convergence) falls through to the log-space iteration below,
     // which converges from any start.
     {
-        let c = fastmath::cbrt(phi);
-        let mut u = c * fastmath::cbrt((1.0 + c) * (1.0 + c));
+        let c = fastmath::cbrt_guess(phi);
+        let mut u = c * fastmath::cbrt_guess((1.0 + c) * (1.0 + c));
         for _ in 0..60 {
             let g = u * u * u - phi * (1.0 + u) * (1.0 + u);
             let slope = 3.0 * u * u - 2.0 * phi * (1.0 + u);
