@@ -15,56 +15,68 @@ fn pretty(v: &serde_json::Value) -> String {
     serde_json::to_string_pretty(v).unwrap_or_default()
 }
 
+/// `"key": value`, pretty-printed as a member of the top-level object.
+fn member(key: &str, value: &serde_json::Value) -> String {
+    format!(
+        "{}: {}",
+        pretty(&serde_json::json!(key)),
+        nested(&pretty(value), 1)
+    )
+}
+
 /// The document `{"version", "options", "systems": [...], "diagnostics", "io_errors"}`,
-/// with the systems written one at a time.
+/// with the systems written one at a time. The first write error is kept and later writes
+/// are skipped (a reader that closes the pipe early costs one error, not one per system);
+/// [`Document::finish`] returns it.
 pub struct Document<W: Write> {
     out: W,
     systems: usize,
+    failed: Option<std::io::Error>,
 }
 
 impl<W: Write> Document<W> {
     /// Starts the document: the members before `systems`, and the array's opening bracket.
-    pub fn start(mut out: W, head: &[(&str, serde_json::Value)]) -> std::io::Result<Self> {
-        out.write_all(b"{")?;
+    pub fn start(out: W, head: &[(&str, serde_json::Value)]) -> Self {
+        let mut doc = Document {
+            out,
+            systems: 0,
+            failed: None,
+        };
+        doc.put("{");
         for (key, value) in head {
-            write!(
-                out,
-                "\n  {}: {},",
-                pretty(&serde_json::json!(key)),
-                nested(&pretty(value), 1)
-            )?;
+            doc.put(&format!("\n  {},", member(key, value)));
         }
-        out.write_all(b"\n  \"systems\": [")?;
-        Ok(Document { out, systems: 0 })
+        doc.put("\n  \"systems\": [");
+        doc
+    }
+
+    fn put(&mut self, text: &str) {
+        if self.failed.is_none() {
+            self.failed = self.out.write_all(text.as_bytes()).err();
+        }
     }
 
     /// One element of `systems`, already pretty-printed on its own.
-    pub fn system(&mut self, pretty_system: &str) -> std::io::Result<()> {
-        let sep = if self.systems == 0 {
-            "\n    "
-        } else {
-            ",\n    "
-        };
+    pub fn system(&mut self, pretty_system: &str) {
+        let sep = if self.systems == 0 { "" } else { "," };
         self.systems += 1;
-        write!(self.out, "{sep}{}", nested(pretty_system, 2))
+        self.put(&format!("{sep}\n    {}", nested(pretty_system, 2)));
     }
 
-    /// Closes `systems` and writes the members after it.
+    /// Closes `systems`, writes the members after it, and says whether every write worked.
     pub fn finish(mut self, tail: &[(&str, serde_json::Value)]) -> std::io::Result<()> {
         if self.systems > 0 {
-            self.out.write_all(b"\n  ")?;
+            self.put("\n  ");
         }
-        self.out.write_all(b"]")?;
+        self.put("]");
         for (key, value) in tail {
-            write!(
-                self.out,
-                ",\n  {}: {}",
-                pretty(&serde_json::json!(key)),
-                nested(&pretty(value), 1)
-            )?;
+            self.put(&format!(",\n  {}", member(key, value)));
         }
-        self.out.write_all(b"\n}\n")?;
-        self.out.flush()
+        self.put("\n}\n");
+        match self.failed {
+            Some(e) => Err(e),
+            None => self.out.flush(),
+        }
     }
 }
 
@@ -100,9 +112,9 @@ mod tests {
         ];
         for n in 0..=systems.len() {
             let mut buf = Vec::new();
-            let mut doc = Document::start(&mut buf, &head).unwrap();
+            let mut doc = Document::start(&mut buf, &head);
             for s in systems.iter().take(n) {
-                doc.system(&system_text(s)).unwrap();
+                doc.system(&system_text(s));
             }
             doc.finish(&tail).unwrap();
             let mut whole = serde_json::Map::new();

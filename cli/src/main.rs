@@ -270,14 +270,8 @@ fn check(
     deny_warnings: bool,
     flags: &config_file::Flags,
 ) -> u8 {
-    let loaded = files::load(paths);
-    let settings = match config_file::resolve(&loaded.db, flags) {
-        Ok(s) => s,
-        Err(e) => {
-            files::report_io_errors(&loaded.errors);
-            eprintln!("syz: error: {e}");
-            return 2;
-        }
+    let Some((loaded, settings)) = load_with_settings(paths, flags) else {
+        return 2;
     };
     let db = &loaded.db;
     let stdout = std::io::stdout();
@@ -395,9 +389,60 @@ fn check(
     }
 }
 
-/// The error that stands for "the output already failed" once a write has.
-fn closed_output() -> std::io::Error {
-    std::io::Error::new(std::io::ErrorKind::BrokenPipe, "output closed")
+/// Read the files named and find each one's settings (its `syzygy.toml` under the flags);
+/// `None`, after saying why, when a project file is bad.
+fn load_with_settings(
+    paths: &[PathBuf],
+    flags: &config_file::Flags,
+) -> Option<(files::Loaded, Vec<config_file::FileSettings>)> {
+    let loaded = files::load(paths);
+    match config_file::resolve(&loaded.db, flags) {
+        Ok(settings) => Some((loaded, settings)),
+        Err(e) => {
+            files::report_io_errors(&loaded.errors);
+            eprintln!("syz: error: {e}");
+            None
+        }
+    }
+}
+
+/// Analyse every file and write `body` of each to `out` in file order, as it comes; the
+/// files' diagnostics, rendered for people, go to standard error after all of it. Returns
+/// whether any file has errors, and the first failure to make or write a body (later bodies
+/// are not written after one).
+fn stream_per_file(
+    db: &syzygy::source::MemoryDb,
+    settings: &[config_file::FileSettings],
+    out: &mut impl Write,
+    color: bool,
+    body: impl Fn(&syzygy::Analysis) -> std::io::Result<Vec<u8>> + Sync,
+) -> (bool, Option<std::io::Error>) {
+    let mut errors = false;
+    let mut failure = None;
+    let mut rendered = String::new();
+    files::for_each_analysed(
+        db,
+        settings,
+        |a| {
+            (
+                a.has_errors(),
+                body(&a),
+                rendered_diagnostics(&a, db, color),
+            )
+        },
+        |(bad, bytes, diags)| {
+            errors |= bad;
+            rendered.push_str(&diags);
+            if failure.is_none() {
+                failure = bytes.and_then(|b| out.write_all(&b)).err();
+            }
+        },
+    );
+    if failure.is_none() {
+        failure = out.flush().err();
+    }
+    let _ = std::io::stderr().lock().write_all(rendered.as_bytes());
+    (errors, failure)
 }
 
 /// Every diagnostic of one file, rendered for people.
@@ -434,14 +479,8 @@ fn plural(n: usize) -> &'static str {
 }
 
 fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8 {
-    let loaded = files::load(paths);
-    let settings = match config_file::resolve(&loaded.db, flags) {
-        Ok(s) => s,
-        Err(e) => {
-            files::report_io_errors(&loaded.errors);
-            eprintln!("syz: error: {e}");
-            return 2;
-        }
+    let Some((loaded, settings)) = load_with_settings(paths, flags) else {
+        return 2;
     };
     let options = settings
         .first()
@@ -485,8 +524,7 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8
                     errors |= bad;
                     diags.extend(d);
                     for s in &systems {
-                        doc = std::mem::replace(&mut doc, Err(closed_output()))
-                            .and_then(|mut w| w.system(s).map(|()| w));
+                        doc.system(s);
                     }
                 },
             );
@@ -494,7 +532,7 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8
                 ("diagnostics", serde_json::Value::Array(diags)),
                 ("io_errors", serde_json::json!(loaded.errors)),
             ];
-            if let Err(e) = doc.and_then(|w| w.finish(&tail)) {
+            if let Err(e) = doc.finish(&tail) {
                 // A reader that stops early (`| head`) is not an error of ours.
                 if e.kind() != std::io::ErrorKind::BrokenPipe {
                     eprintln!("syz: error: writing the output failed: {e}");
@@ -503,67 +541,28 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8
             }
         }
         EvalFormat::Csv => {
-            let mut failure = match csv_out::header() {
-                Ok(h) => out.write_all(&h).err().map(csv::Error::from),
-                Err(e) => Some(e),
-            };
-            let color = render::stderr_color();
-            let mut rendered = String::new();
-            files::for_each_analysed(
-                db,
-                &settings,
-                |a| {
-                    (
-                        a.has_errors(),
-                        csv_out::rows(&a, db),
-                        rendered_diagnostics(&a, db, color),
-                    )
-                },
-                |(bad, rows, diags)| {
-                    errors |= bad;
-                    rendered.push_str(&diags);
-                    if failure.is_none() {
-                        failure = match rows {
-                            Ok(r) => out.write_all(&r).err().map(csv::Error::from),
-                            Err(e) => Some(e),
-                        };
-                    }
-                },
-            );
-            if failure.is_none() {
-                failure = out.flush().err().map(csv::Error::from);
-            }
-            // The table is on standard output; what is wrong with the files goes beside it.
-            let _ = std::io::stderr().lock().write_all(rendered.as_bytes());
-            if let Some(e) = failure {
-                // A reader that stops early (`| head`) is not an error of ours.
-                let closed = e.to_string().contains("Broken pipe");
-                if !closed {
-                    eprintln!("syz: error: writing the table failed: {e}");
-                    return 2;
-                }
+            let header = csv_out::header()
+                .map_err(std::io::Error::other)
+                .and_then(|h| out.write_all(&h))
+                .err();
+            let (bad, failure) =
+                stream_per_file(db, &settings, &mut out, render::stderr_color(), |a| {
+                    csv_out::rows(a, db).map_err(std::io::Error::other)
+                });
+            errors |= bad;
+            // A reader that stops early (`| head`) is not an error of ours.
+            let failure = header.or(failure);
+            if let Some(e) = failure.filter(|e| e.kind() != std::io::ErrorKind::BrokenPipe) {
+                eprintln!("syz: error: writing the table failed: {e}");
+                return 2;
             }
         }
         EvalFormat::Human => {
             let color = render::use_color() && render::stderr_color();
-            let mut rendered = String::new();
-            files::for_each_analysed(
-                db,
-                &settings,
-                |a| {
-                    (
-                        a.has_errors(),
-                        syzygy::report::eval_text(&a, db),
-                        rendered_diagnostics(&a, db, color),
-                    )
-                },
-                |(bad, text, diags)| {
-                    errors |= bad;
-                    let _ = out.write_all(text.as_bytes());
-                    rendered.push_str(&diags);
-                },
-            );
-            let _ = std::io::stderr().lock().write_all(rendered.as_bytes());
+            let (bad, _) = stream_per_file(db, &settings, &mut out, color, |a| {
+                Ok(syzygy::report::eval_text(a, db).into_bytes())
+            });
+            errors |= bad;
         }
     }
     files::report_io_errors(&loaded.errors);

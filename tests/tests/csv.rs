@@ -73,17 +73,15 @@ fn csv_has_a_row_per_body_in_fixed_units() {
     assert!(bodies > 5);
 }
 
+/// `syz eval --format csv --propagation linear PATH`.
+fn linear_csv(path: &str) -> std::process::Output {
+    run(&["eval", "--format", "csv", "--propagation", "linear", path])
+}
+
 #[test]
 fn csv_keeps_the_table_on_stdout_and_the_problems_on_stderr() {
     // docs/csv-output.md: diagnostics go to standard error as with the human format.
-    let o = run(&[
-        "eval",
-        "--format",
-        "csv",
-        "--propagation",
-        "linear",
-        "examples/broken/language-errors.syz",
-    ]);
+    let o = linear_csv("examples/broken/language-errors.syz");
     assert_eq!(o.status.code(), Some(1), "errors make the exit status 1");
     let err = syzygy_e2e::stderr(&o);
     assert!(err.contains("Error"), "no diagnostics on stderr:\n{err}");
@@ -101,14 +99,7 @@ fn csv_keeps_the_table_on_stdout_and_the_problems_on_stderr() {
 
 #[test]
 fn csv_says_what_each_body_assumed() {
-    let o = run(&[
-        "eval",
-        "--format",
-        "csv",
-        "--propagation",
-        "linear",
-        "examples/veyra.syz",
-    ]);
+    let o = linear_csv("examples/veyra.syz");
     let rows = parse(&stdout(&o));
     let last = rows[0].len() - 1;
     assert_eq!(rows[0][last], "assumptions");

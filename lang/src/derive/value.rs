@@ -138,13 +138,16 @@ impl Value {
 /// An integer whose order is the `f64::total_cmp` order of `x` (flip the magnitude bits of
 /// negative numbers; the same transform the standard library's `total_cmp` applies).
 fn order_key(x: f64) -> i64 {
-    let bits = x.to_bits() as i64;
-    bits ^ ((((bits >> 63) as u64) >> 1) as i64)
+    flip_magnitude_if_negative(x.to_bits() as i64)
 }
 
 /// The inverse of [`order_key`] (the transform is its own inverse).
 fn from_order_key(k: i64) -> f64 {
-    f64::from_bits((k ^ ((((k >> 63) as u64) >> 1) as i64)) as u64)
+    f64::from_bits(flip_magnitude_if_negative(k) as u64)
+}
+
+fn flip_magnitude_if_negative(bits: i64) -> i64 {
+    bits ^ ((((bits >> 63) as u64) >> 1) as i64)
 }
 
 fn merge(mut g: Vec<(u32, f64)>) -> Vec<(u32, f64)> {
