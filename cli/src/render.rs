@@ -7,11 +7,17 @@ use syzygy::diagnostic::{Diagnostic, Severity};
 use syzygy::source::SourceDb;
 
 pub fn use_color() -> bool {
-    std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty()) && std::io::stdout().is_terminal()
+    color_allowed() && std::io::stdout().is_terminal()
 }
 
+/// Colour for what goes to standard error (NO_COLOR is honoured there too).
 pub fn stderr_color() -> bool {
-    std::io::stderr().is_terminal()
+    color_allowed() && std::io::stderr().is_terminal()
+}
+
+/// The NO_COLOR convention (no-color.org): set and not empty means no colour.
+fn color_allowed() -> bool {
+    std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty())
 }
 
 /// One diagnostic with its source lines and labels.
