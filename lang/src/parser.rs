@@ -25,7 +25,8 @@
 //! because the language is line-oriented and recovery at line and brace boundaries is then
 //! exact: a bad property costs that one line, a missing `}` is reported where the next body
 //! starts. Each property's value is parsed with a `chumsky` grammar, which recovers inside
-//! parentheses. Nesting deeper than [`MAX_DEPTH`] is refused before it can exhaust the stack.
+//! parentheses. Nesting deeper than [`MAX_DEPTH`], and values longer than
+//! [`MAX_VALUE_TOKENS`], are refused before they can exhaust the stack of any later stage.
 
 use crate::ast::*;
 use crate::diagnostic::{Diagnostic, Rule};
@@ -36,6 +37,11 @@ use chumsky::Stream;
 
 /// Deepest nesting of parentheses (and brackets) accepted in one value.
 pub const MAX_DEPTH: usize = 64;
+
+/// Most tokens accepted in one value. Every later stage walks a value's tree recursively,
+/// and a tree is never deeper than its token count, so this bounds their stack use; real
+/// values are a few dozen tokens long.
+pub const MAX_VALUE_TOKENS: usize = 256;
 
 type Range = std::ops::Range<usize>;
 type ValueParser<'a> = chumsky::BoxedParser<'a, Tok, ValueParts, ParseError>;
@@ -705,12 +711,26 @@ impl<'a> Cursor<'a> {
             slice.first().map_or(here, |t| t.start),
             slice.last().map_or(here, |t| t.end),
         );
-        if max_depth > MAX_DEPTH {
-            self.diags.push(Diagnostic::new(
-                Rule::Syntax,
-                whole,
-                format!("parentheses nested more than {MAX_DEPTH} deep"),
-            ));
+        let too_long = slice.len() > MAX_VALUE_TOKENS;
+        if max_depth > MAX_DEPTH || too_long {
+            let d = if max_depth > MAX_DEPTH {
+                Diagnostic::new(
+                    Rule::Syntax,
+                    whole,
+                    format!("parentheses nested more than {MAX_DEPTH} deep"),
+                )
+            } else {
+                Diagnostic::new(
+                    Rule::Syntax,
+                    whole,
+                    format!(
+                        "this value is {} tokens long; the limit is {MAX_VALUE_TOKENS}",
+                        slice.len()
+                    ),
+                )
+                .with_help("split it into 'let' bindings")
+            };
+            self.diags.push(d);
             return Some(ValueParts {
                 value: PropValue::Expr(Expr {
                     kind: ExprKind::Error,

@@ -19,7 +19,7 @@
 use crate::ast::{self, ExprKind, Uncertainty};
 use crate::derive::{BodyResult, QuantityResult, SystemResult};
 use crate::diagnostic::{Diagnostic, Label};
-use crate::model::{Body, Content, Declared, LetInfo, System};
+use crate::model::{Body, Content, Declared, LetInfo, Node, Resolved, System};
 use crate::source::{FileId, Span};
 use crate::{Analysis, Options, SystemOutput};
 use std::collections::HashMap;
@@ -281,6 +281,7 @@ impl Spans for System {
             span,
             bodies,
             lets,
+            let_order: _,
         } = self;
         f(name_span);
         f(span);
@@ -339,13 +340,29 @@ impl Spans for LetInfo {
         let LetInfo {
             name: _,
             name_span,
-            expr,
+            value,
             dim: _,
             span,
         } = self;
         f(name_span);
-        expr.each_span(f);
+        value.each_span(f);
         f(span);
+    }
+}
+
+impl Spans for Resolved {
+    fn each_span(&mut self, f: &mut dyn FnMut(&mut Span)) {
+        let Resolved { node, span } = self;
+        f(span);
+        match node {
+            Node::Uncertain(lit) => f(&mut lit.value_span),
+            Node::Neg(x) | Node::Call(_, x) => x.each_span(f),
+            Node::Binary(_, a, b) | Node::Pow(a, b) => {
+                a.each_span(f);
+                b.each_span(f);
+            }
+            Node::Exact(_) | Node::Binding(_) | Node::Quantity(..) => {}
+        }
     }
 }
 

@@ -12,11 +12,12 @@
 //! [`value`]. A few quantities have defaults when not declared (circular orbit, zero Bond
 //! albedo, full heat redistribution); a default that a result used is listed with it.
 
+mod expr;
 pub mod rules;
 mod set;
 pub mod value;
 
-use crate::ast::{self, BinOp, BodyKind, ExprKind, Uncertainty};
+use crate::ast::BodyKind;
 use crate::diagnostic::{Diagnostic, Rule};
 use crate::model::{self, Content, Form, Measurement, System};
 use crate::quantities::{self, Qty};
@@ -197,6 +198,10 @@ pub struct Derivation<'m> {
     candidates: BTreeMap<Key, Vec<Candidate>>,
     pub inputs: Vec<InputInfo>,
     literal_inputs: FxHashMap<Span, u32>,
+    /// The value of each `let` binding evaluated so far.
+    bindings: FxHashMap<crate::model::LetId, expr::Binding>,
+    /// How many unfinished expressions use each binding (see [`expr::binding_uses`]).
+    binding_uses: FxHashMap<crate::model::LetId, usize>,
     used: FxHashSet<Key>,
     pub diagnostics: Vec<Diagnostic>,
 }
@@ -241,18 +246,6 @@ fn default_for(q: Qty) -> Option<(f64, &'static str)> {
     })
 }
 
-fn is_pending<T>(r: &Result<T, Pending>) -> bool {
-    matches!(r, Err(Pending::Waiting))
-}
-
-#[derive(Debug)]
-enum Pending {
-    /// A referenced quantity is not known yet.
-    Waiting,
-    /// The expression cannot be evaluated (reported).
-    Failed,
-}
-
 impl<'m> Derivation<'m> {
     pub fn run(sys: &'m System, options: &Options) -> Derivation<'m> {
         let mut d = Derivation {
@@ -262,6 +255,8 @@ impl<'m> Derivation<'m> {
             candidates: BTreeMap::new(),
             inputs: Vec::new(),
             literal_inputs: FxHashMap::default(),
+            bindings: FxHashMap::default(),
+            binding_uses: expr::binding_uses(sys),
             used: FxHashSet::default(),
             diagnostics: Vec::new(),
         };
@@ -572,10 +567,12 @@ impl<'m> Derivation<'m> {
         // Rules are admitted tier by tier: the best physics first, approximations only
         // where nothing better became reachable (a planet's semi-major axis waits for its
         // minimum mass before the planet's mass is neglected).
+        let mut pending_lets = self.sys.let_order.clone();
         let max_tier = RULES.iter().map(|r| r.tier).max().unwrap_or(0);
         for tier in 0..=max_tier {
-            self.rounds(tier, &mut todo, &mut pending_exprs);
+            self.rounds(tier, &mut todo, &mut pending_exprs, &mut pending_lets);
         }
+        self.report_unevaluated(&pending_exprs, &pending_lets);
     }
 
     fn rounds(
@@ -583,16 +580,27 @@ impl<'m> Derivation<'m> {
         tier: u8,
         todo: &mut [Option<(usize, Key, Vec<Key>)>],
         pending_exprs: &mut Vec<Key>,
+        pending_lets: &mut Vec<crate::model::LetId>,
     ) {
         for _round in 0..32 {
             let mut progress = false;
+            // Bindings, each after those it uses, so one pass takes a whole chain.
+            let mut still = Vec::new();
+            for id in std::mem::take(pending_lets) {
+                match self.eval_binding(id) {
+                    Ok(()) => progress = true,
+                    Err(expr::Pending::Waiting) => still.push(id),
+                    Err(expr::Pending::Failed) => {}
+                }
+            }
+            *pending_lets = still;
             // Declared expressions whose references are all known now.
             let mut still = Vec::new();
             for key in std::mem::take(pending_exprs) {
                 match self.eval_declared_expr(key) {
                     Ok(()) => progress = true,
-                    Err(Pending::Waiting) => still.push(key),
-                    Err(Pending::Failed) => {}
+                    Err(expr::Pending::Waiting) => still.push(key),
+                    Err(expr::Pending::Failed) => {}
                 }
             }
             *pending_exprs = still;
@@ -691,249 +699,6 @@ impl<'m> Derivation<'m> {
             }
             if !progress {
                 break;
-            }
-        }
-    }
-
-    fn eval_declared_expr(&mut self, key: Key) -> Result<(), Pending> {
-        let sys = self.sys;
-        let body = sys.bodies.get(key.0).ok_or(Pending::Failed)?;
-        let decl = body.get(key.1).ok_or(Pending::Failed)?;
-        let Content::Expr(e) = &decl.content else {
-            return Err(Pending::Failed);
-        };
-        let mut refs = Vec::new();
-        let v = self.eval(e, Some(key.0), &mut refs, 0)?;
-        let def = quantities::def(key.1);
-        if !def.in_range(v.nominal) {
-            self.diagnostics.push(Diagnostic::new(
-                Rule::OutOfRange,
-                e.span,
-                format!(
-                    "this expression evaluates to {} {}, outside the valid range of '{}': {}",
-                    crate::format::number(v.nominal / display_factor(def.display)),
-                    def.display,
-                    def.name,
-                    def.range_text()
-                ),
-            ));
-            return Err(Pending::Failed);
-        }
-        let mut deps = SortedSet::one(key);
-        let mut assumptions = SortedSet::new();
-        for r in &refs {
-            if let Some(e) = self.entries.get(r) {
-                deps.merge(&e.deps);
-                assumptions.merge(&e.assumptions);
-            }
-            self.used.insert(*r);
-        }
-        self.entries.insert(
-            key,
-            Entry {
-                value: v,
-                origin: if decl.assumed {
-                    Origin::Assumed
-                } else {
-                    Origin::Declared
-                },
-                rule: None,
-                inputs: refs,
-                deps,
-                assumptions,
-            },
-        );
-        Ok(())
-    }
-
-    fn eval(
-        &mut self,
-        e: &ast::Expr,
-        body: Option<usize>,
-        refs: &mut Vec<Key>,
-        depth: usize,
-    ) -> Result<Value, Pending> {
-        if depth > 200 {
-            return Err(Pending::Failed);
-        }
-        let n = self.n();
-        match &e.kind {
-            ExprKind::Error => Err(Pending::Failed),
-            ExprKind::Literal(l) => {
-                let factor = match &l.unit {
-                    Some(u) => {
-                        crate::units::resolve(u)
-                            .map_err(|_| Pending::Failed)?
-                            .factor
-                    }
-                    None => 1.0,
-                };
-                let (below, above, form) = match l.uncertainty {
-                    Uncertainty::None => (0.0, 0.0, Form::Exact),
-                    Uncertainty::Symmetric(s, _) => (s, s, Form::Symmetric),
-                    Uncertainty::Asymmetric { plus, minus, .. } => (minus, plus, Form::Asymmetric),
-                };
-                let m = Measurement {
-                    value: l.value * factor,
-                    below: below * factor,
-                    above: above * factor,
-                    form,
-                };
-                if form == Form::Exact {
-                    return Ok(Value::exact(m.value, n));
-                }
-                if let Some(&id) = self.literal_inputs.get(&l.value_span) {
-                    // Re-evaluation in a later round: the same input, the same samples.
-                    let samples = self.literal_samples(&m, id);
-                    return Ok(Value {
-                        nominal: m.value,
-                        grad: vec![(id, 1.0)],
-                        samples,
-                    });
-                }
-                let id = u32::try_from(self.inputs.len()).unwrap_or(u32::MAX);
-                self.literal_inputs.insert(l.value_span, id);
-                // Named by order of first use, not by position, so that re-laying out the
-                // file (which moves bytes) never changes a seed or a budget label.
-                let spread = match l.uncertainty {
-                    Uncertainty::None => String::new(),
-                    Uncertainty::Symmetric(s, _) => format!(" ± {}", crate::format::number(s)),
-                    Uncertainty::Asymmetric { plus, minus, .. } => format!(
-                        " +{}/-{}",
-                        crate::format::number(plus),
-                        crate::format::number(minus)
-                    ),
-                };
-                let label = format!(
-                    "literal #{} ({}{spread})",
-                    self.literal_inputs.len(),
-                    crate::format::number(l.value)
-                );
-                Ok(self.new_input(label, &m, f64::NEG_INFINITY, f64::INFINITY))
-            }
-            ExprKind::Name(id) => {
-                let sys = self.sys;
-                let let_expr = body
-                    .and_then(|b| sys.bodies.get(b))
-                    .and_then(|b| b.lets.iter().find(|l| l.name == id.name))
-                    .map(|l| (&l.expr, body))
-                    .or_else(|| {
-                        sys.lets
-                            .iter()
-                            .find(|l| l.name == id.name)
-                            .map(|l| (&l.expr, None))
-                    });
-                if let Some((expr, scope)) = let_expr {
-                    return self.eval(expr, scope, refs, depth + 1);
-                }
-                match model::constant(&id.name) {
-                    Some((v, _, _)) => Ok(Value::exact(v, n)),
-                    None => Err(Pending::Failed),
-                }
-            }
-            ExprKind::Ref(b, q) => {
-                let bi = self.sys.body(&b.name).ok_or(Pending::Failed)?;
-                let kind = self
-                    .sys
-                    .bodies
-                    .get(bi)
-                    .map(|b| b.kind)
-                    .ok_or(Pending::Failed)?;
-                let def = quantities::find(kind, &q.name).ok_or(Pending::Failed)?;
-                let key = (bi, def.qty);
-                match self.entries.get(&key) {
-                    Some(entry) => {
-                        refs.push(key);
-                        Ok(entry.value.clone())
-                    }
-                    None => Err(Pending::Waiting),
-                }
-            }
-            ExprKind::Neg(x) => {
-                let v = self.eval(x, body, refs, depth + 1)?;
-                value::apply(&|a| a.first().map(|v| -v), &[&v], &self.inputs).ok_or(Pending::Failed)
-            }
-            ExprKind::Binary(op, a, b) => {
-                let va = self.eval(a, body, refs, depth + 1);
-                let vb = self.eval(b, body, refs, depth + 1);
-                if is_pending(&va) || is_pending(&vb) {
-                    return Err(Pending::Waiting);
-                }
-                let (va, vb) = (va?, vb?);
-                let f: fn(&[f64]) -> Option<f64> = match op {
-                    BinOp::Add => |x| Some(x.first()? + x.get(1)?),
-                    BinOp::Sub => |x| Some(x.first()? - x.get(1)?),
-                    BinOp::Mul => |x| Some(x.first()? * x.get(1)?),
-                    BinOp::Div => |x| {
-                        let d = *x.get(1)?;
-                        (d != 0.0).then(|| x.first().map(|n| n / d)).flatten()
-                    },
-                };
-                self.finish(value::apply(&f, &[&va, &vb], &self.inputs), e.span)
-            }
-            ExprKind::Pow(a, b) => {
-                let va = self.eval(a, body, refs, depth + 1);
-                let vb = self.eval(b, body, refs, depth + 1);
-                if is_pending(&va) || is_pending(&vb) {
-                    return Err(Pending::Waiting);
-                }
-                let (va, vb) = (va?, vb?);
-                self.finish(
-                    value::apply(
-                        &|x| Some(x.first()?.powf(*x.get(1)?)),
-                        &[&va, &vb],
-                        &self.inputs,
-                    ),
-                    e.span,
-                )
-            }
-            ExprKind::Call(fname, args) => {
-                let arg = args.first().ok_or(Pending::Failed)?;
-                let v = self.eval(arg, body, refs, depth + 1)?;
-                let f: fn(&[f64]) -> Option<f64> = match fname.name.as_str() {
-                    "sqrt" => |x| x.first().filter(|v| **v >= 0.0).map(|v| v.sqrt()),
-                    "cbrt" => |x| x.first().map(|v| v.cbrt()),
-                    "exp" => |x| x.first().map(|v| v.exp()),
-                    "ln" => |x| x.first().filter(|v| **v > 0.0).map(|v| v.ln()),
-                    "log10" => |x| x.first().filter(|v| **v > 0.0).map(|v| v.log10()),
-                    "sin" => |x| x.first().map(|v| v.sin()),
-                    "cos" => |x| x.first().map(|v| v.cos()),
-                    "tan" => |x| x.first().map(|v| v.tan()),
-                    "abs" => |x| x.first().map(|v| v.abs()),
-                    _ => return Err(Pending::Failed),
-                };
-                self.finish(value::apply(&f, &[&v], &self.inputs), e.span)
-            }
-        }
-    }
-
-    fn literal_samples(&self, m: &Measurement, id: u32) -> Option<std::sync::Arc<[f64]>> {
-        let n = self.n();
-        (n > 0).then(|| {
-            let label = self
-                .inputs
-                .get(id as usize)
-                .map_or("", |i| i.label.as_str());
-            let seed = value::stable_hash(&[&self.sys.name, label], self.options.seed);
-            std::sync::Arc::from(value::draw(m, f64::NEG_INFINITY, f64::INFINITY, n, seed))
-        })
-    }
-
-    fn finish(&mut self, v: Option<Value>, span: Span) -> Result<Value, Pending> {
-        match v {
-            Some(v) => Ok(v),
-            None => {
-                if !self
-                    .diagnostics
-                    .iter()
-                    .any(|d| d.span == span && d.rule == Rule::InvalidValue)
-                {
-                    self.diagnostics.push(
-                        Diagnostic::new(Rule::InvalidValue, span, "this expression has no finite value")
-                            .with_note("division by zero, a root of a negative number or a logarithm of zero or less"),
-                    );
-                }
-                Err(Pending::Failed)
             }
         }
     }

@@ -194,3 +194,91 @@ fn defaults_are_reported_only_when_used() {
     );
     assert!(get(&a, "b", Qty::RvAmplitude).is_none());
 }
+
+fn messages(a: &Analysis) -> Vec<&str> {
+    a.diagnostics.iter().map(|d| d.message.as_str()).collect()
+}
+
+#[test]
+fn a_thirty_binding_chain_evaluates_once_per_binding() {
+    // x30 = 2^30 x0: substitution would evaluate x0 2^30 times.
+    let mut src = String::from("system \"S\" {\n let x0 = 1 Msun\n");
+    for i in 1..=30 {
+        src.push_str(&format!(" let x{i} = x{} + x{}\n", i - 1, i - 1));
+    }
+    src.push_str(" star s { mass = x30 / 1073741824\n radius = 1 Rsun }\n}\n");
+    for options in [Options::linear(), Options::default()] {
+        let a = run(&src, &options);
+        assert!(a.diagnostics.is_empty(), "{:?}", a.diagnostics);
+        let m = get(&a, "s", Qty::StarMass).unwrap();
+        // 1 Msun nominal mass (IAU 2015 Resolution B3: GM / G with CODATA 2018 G).
+        assert!((m.value / crate::constants::M_SUN - 1.0).abs() < 1e-12);
+        assert_eq!(m.origin, Origin::Declared);
+    }
+}
+
+#[test]
+fn a_value_defined_by_itself_is_reported_not_dropped_silently() {
+    let a = run(
+        "system \"S\" {\n star s { mass = s.mass * 2\n radius = 1 Rsun }\n}",
+        &Options::linear(),
+    );
+    assert_eq!(messages(&a), vec!["s.mass is defined in terms of itself"]);
+    assert!(a.has_errors());
+}
+
+#[test]
+fn a_value_whose_input_cannot_be_had_says_which() {
+    let a = run(
+        "system \"S\" {\n star s { mass = 1 Msun\n radius = 1 Rsun }\n planet b orbits s { period = 3 d }\n planet c orbits s { period = 5 d\n impact = b.impact }\n}",
+        &Options::linear(),
+    );
+    assert_eq!(
+        messages(&a),
+        vec!["this value cannot be evaluated: it needs b.impact, which is neither declared nor derivable from what is declared"]
+    );
+    assert!(get(&a, "c", Qty::Impact).is_none());
+}
+
+#[test]
+fn two_declared_expressions_waiting_on_each_other_are_both_reported() {
+    let a = run(
+        "system \"S\" {\n star s { mass = 1 Msun\n radius = t.radius }\n star t { radius = s.radius * 2 }\n}",
+        &Options::linear(),
+    );
+    let mut got = messages(&a);
+    got.sort_unstable();
+    assert_eq!(
+        got,
+        vec![
+            "this value cannot be evaluated: it needs s.radius, an expression that cannot be evaluated either",
+            "this value cannot be evaluated: it needs t.radius, an expression that cannot be evaluated either",
+        ]
+    );
+}
+
+#[test]
+fn an_unused_binding_that_cannot_be_evaluated_is_reported() {
+    let a = run(
+        "system \"S\" {\n let spare = b.impact * 2\n star s { mass = 1 Msun }\n planet b orbits s { period = 3 d }\n}",
+        &Options::linear(),
+    );
+    assert_eq!(
+        messages(&a),
+        vec!["this binding cannot be evaluated: it needs b.impact, which is neither declared nor derivable from what is declared"]
+    );
+}
+
+#[test]
+fn a_binding_used_twice_is_one_input_with_one_set_of_samples() {
+    // r - r must be exactly zero in every sample: both uses share the literal's draws.
+    let a = run(
+        "system \"S\" {\n let r = 1.0 ± 0.1 Rsun\n star s { mass = 1 Msun\n radius = r + (r - r) }\n}",
+        &Options::default(),
+    );
+    assert!(a.diagnostics.is_empty(), "{:?}", a.diagnostics);
+    let r = get(&a, "s", Qty::StarRadius).unwrap();
+    assert!((r.value / crate::constants::R_SUN - 1.0).abs() < 0.01);
+    let sigma = (r.below + r.above) / 2.0 / crate::constants::R_SUN;
+    assert!((sigma - 0.1).abs() < 0.005, "{sigma}");
+}

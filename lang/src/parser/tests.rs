@@ -148,6 +148,41 @@ fn missing_brace_is_reported_at_the_next_body() {
 }
 
 #[test]
+fn values_longer_than_the_token_limit_are_refused_whole() {
+    // Each of these once overflowed the stack of a later stage (a tree as deep as the value
+    // is long); now the value becomes one error node and the rest of the file goes on.
+    for value in [
+        "-".repeat(3000) + "1 Msun",
+        "1".to_string() + &" * 1".repeat(1000) + " Msun",
+        "1 Msun".to_string() + &"^1".repeat(1000),
+        "1".to_string() + &" + 1".repeat(1000),
+    ] {
+        let src = format!("system \"S\" {{ star s {{ mass = {value}\n radius = 1 Rsun }} }}");
+        let p = parse(FileId(0), &src);
+        let long: Vec<&str> = p
+            .diagnostics
+            .iter()
+            .map(|d| d.message.as_str())
+            .filter(|m| m.contains("tokens long; the limit is 256"))
+            .collect();
+        assert_eq!(long.len(), 1, "{:?}", p.diagnostics);
+        let props = &p.file.systems[0].bodies[0].props;
+        assert_eq!(props.len(), 2, "the next property still parses");
+        assert!(matches!(
+            &props[0].value,
+            PropValue::Expr(Expr {
+                kind: ExprKind::Error,
+                ..
+            })
+        ));
+    }
+    // At the limit a value still parses.
+    let value = "1".to_string() + &" + 1".repeat(127);
+    let src = format!("system \"S\" {{ star s {{ mass = {value} }} }}");
+    assert!(parse(FileId(0), &src).diagnostics.is_empty());
+}
+
+#[test]
 fn hostile_inputs_never_panic() {
     let deep = format!(
         "system \"S\" {{ let x = {}1{} }}",

@@ -1,0 +1,440 @@
+//! The semantic model: the syntax tree resolved into systems, bodies and typed quantities.
+//!
+//! Lowering resolves names (bodies per system, refs per file, `let` bindings per body and
+//! system), converts every literal measurement to SI, checks each value's dimension against
+//! its quantity and its range, and infers the dimension of every expression. Problems become
+//! diagnostics; the offending value is dropped and lowering goes on, so one mistake never
+//! hides the rest.
+
+mod resolve;
+mod value;
+
+use crate::ast::{self, BodyKind};
+use crate::diagnostic::{Diagnostic, Rule};
+use crate::quantities::{self, Qty};
+use crate::source::{FileId, Span};
+use crate::units::Dimension;
+pub use resolve::{Func, LetId, Node, Resolved, UncertainLiteral};
+use rustc_hash::FxHashMap;
+use std::collections::HashMap;
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Form {
+    Exact,
+    Symmetric,
+    Asymmetric,
+    /// `name < value`
+    UpperLimit,
+    /// `name > value`
+    LowerLimit,
+}
+
+impl Form {
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Form::Exact => "exact",
+            Form::Symmetric => "symmetric",
+            Form::Asymmetric => "asymmetric",
+            Form::UpperLimit => "upper-limit",
+            Form::LowerLimit => "lower-limit",
+        }
+    }
+
+    pub fn is_limit(self) -> bool {
+        matches!(self, Form::UpperLimit | Form::LowerLimit)
+    }
+}
+
+/// A measured value in SI: the value and its uncertainty below and above.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Measurement {
+    pub value: f64,
+    pub below: f64,
+    pub above: f64,
+    pub form: Form,
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub enum Content {
+    Measured(Measurement),
+    /// An expression, resolved (see [`resolve`]).
+    Expr(Resolved),
+    Text(String),
+}
+
+/// A quantity as the user declared it.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Declared {
+    pub qty: Qty,
+    pub name_span: Span,
+    pub span: Span,
+    pub value_span: Span,
+    pub content: Content,
+    pub assumed: bool,
+    pub citations: Vec<(String, Span)>,
+    /// The unit as written, when the value is a literal with a unit (`JD_UTC` for a
+    /// transit epoch written as an ISO 8601 timestamp).
+    pub written_unit: Option<String>,
+    /// The timestamp as written, for a time given as ISO 8601 text.
+    pub timestamp: Option<String>,
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct LetInfo {
+    pub name: String,
+    pub name_span: Span,
+    /// The resolved value; `None` when it could not be resolved (reported).
+    pub value: Option<Resolved>,
+    pub dim: Option<Dimension>,
+    pub span: Span,
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct Body {
+    pub id: String,
+    pub kind: BodyKind,
+    pub name_span: Span,
+    pub span: Span,
+    /// Index of the host star in the system's bodies.
+    pub orbits: Option<usize>,
+    pub orbits_span: Option<Span>,
+    pub declared: Vec<Declared>,
+    pub lets: Vec<LetInfo>,
+}
+
+impl Body {
+    pub fn get(&self, qty: Qty) -> Option<&Declared> {
+        self.declared.iter().find(|d| d.qty == qty)
+    }
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct System {
+    pub name: String,
+    pub name_span: Span,
+    pub span: Span,
+    pub bodies: Vec<Body>,
+    pub lets: Vec<LetInfo>,
+    /// The bindings that resolved, each after those it uses: the order to evaluate them in.
+    pub let_order: Vec<LetId>,
+}
+
+impl System {
+    pub fn body(&self, id: &str) -> Option<usize> {
+        self.bodies.iter().position(|b| b.id == id)
+    }
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct RefInfo {
+    pub id: String,
+    pub text: String,
+    pub span: Span,
+    pub id_span: Span,
+}
+
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct Model {
+    pub file: FileId,
+    pub refs: Vec<RefInfo>,
+    pub systems: Vec<System>,
+    pub comments: Vec<ast::Comment>,
+}
+
+/// Constants available by name inside expressions.
+pub fn constant(name: &str) -> Option<(f64, Dimension, &'static str)> {
+    use crate::constants as k;
+    Some(match name {
+        "pi" => (std::f64::consts::PI, Dimension::NONE, "pi"),
+        "G" => (
+            k::G,
+            Dimension::of(3, -1, -2, 0, 0),
+            "Newtonian constant of gravitation (CODATA 2018)",
+        ),
+        "c" => (
+            k::C,
+            Dimension::of(1, 0, -1, 0, 0),
+            "speed of light (SI 2019, exact)",
+        ),
+        "sigma_sb" => (
+            k::SIGMA_SB,
+            Dimension::of(0, 1, -3, -4, 0),
+            "Stefan–Boltzmann constant (SI 2019)",
+        ),
+        _ => return None,
+    })
+}
+
+/// Functions available inside expressions.
+pub const FUNCTIONS: &[&str] = &[
+    "sqrt", "cbrt", "exp", "ln", "log10", "sin", "cos", "tan", "abs",
+];
+
+/// Lower a parsed file into the model, appending diagnostics.
+pub fn lower(file: FileId, ast: &ast::File, diags: &mut Vec<Diagnostic>) -> Model {
+    let mut model = Model {
+        file,
+        comments: ast.comments.clone(),
+        ..Model::default()
+    };
+    for r in &ast.refs {
+        if let Some(prev) = model.refs.iter().find(|p| p.id == r.id.name) {
+            diags.push(
+                Diagnostic::new(
+                    Rule::Duplicate,
+                    r.id.span,
+                    format!("reference '{}' is declared twice", r.id.name),
+                )
+                .with_label(prev.id_span, "first declared here"),
+            );
+            continue;
+        }
+        model.refs.push(RefInfo {
+            id: r.id.name.clone(),
+            text: r.text.clone(),
+            span: r.span,
+            id_span: r.id.span,
+        });
+    }
+    let mut seen: HashMap<&str, Span> = HashMap::new();
+    for s in &ast.systems {
+        if !s.name.is_empty() {
+            if let Some(prev) = seen.get(s.name.as_str()) {
+                diags.push(
+                    Diagnostic::new(
+                        Rule::Duplicate,
+                        s.name_span,
+                        format!("system \"{}\" is declared twice in this file", s.name),
+                    )
+                    .with_label(*prev, "first declared here"),
+                );
+            } else {
+                seen.insert(&s.name, s.name_span);
+            }
+        }
+        let sys = lower_system(s, &model.refs, diags);
+        model.systems.push(sys);
+    }
+    model
+}
+
+fn lower_system(s: &ast::SystemDecl, refs: &[RefInfo], diags: &mut Vec<Diagnostic>) -> System {
+    let (lets, mut let_syntax) = lower_lets(&s.lets, diags);
+    let mut sys = System {
+        name: s.name.clone(),
+        name_span: s.name_span,
+        span: s.span,
+        bodies: Vec::new(),
+        lets,
+        let_order: Vec::new(),
+    };
+    // First pass: bodies and their identifiers, so that references can be resolved in any order.
+    let mut seen: FxHashMap<&str, usize> = FxHashMap::default();
+    let mut body_syntax: Vec<&ast::BodyDecl> = Vec::new();
+    let mut body_let_syntax: Vec<Vec<&ast::Expr>> = Vec::new();
+    for b in &s.bodies {
+        if let Some(prev) = seen
+            .get(b.name.name.as_str())
+            .and_then(|&i| sys.bodies.get(i))
+        {
+            diags.push(
+                Diagnostic::new(
+                    Rule::Duplicate,
+                    b.name.span,
+                    format!(
+                        "body '{}' is declared twice in system \"{}\"",
+                        b.name.name, s.name
+                    ),
+                )
+                .with_label(prev.name_span, "first declared here")
+                .with_help("body identifiers must be unique within a system"),
+            );
+            continue;
+        }
+        seen.insert(&b.name.name, sys.bodies.len());
+        let (lets, syntax) = lower_lets(&b.lets, diags);
+        body_syntax.push(b);
+        body_let_syntax.push(syntax);
+        sys.bodies.push(Body {
+            id: b.name.name.clone(),
+            kind: b.kind,
+            name_span: b.name.span,
+            span: b.span,
+            orbits: None,
+            orbits_span: b.orbits.as_ref().map(|o| o.span),
+            declared: Vec::new(),
+            lets,
+        });
+    }
+    // Bindings, in dependency order, then every body's properties.
+    let mut resolver = resolve::Resolver::new(&sys);
+    let syntax = |id: LetId| match id.body {
+        None => let_syntax.get(id.index).copied(),
+        Some(b) => body_let_syntax.get(b)?.get(id.index).copied(),
+    };
+    let bindings = resolver.bindings(&syntax, diags);
+    let lowered: Vec<(Option<usize>, Vec<Declared>)> = body_syntax
+        .iter()
+        .enumerate()
+        .map(|(bi, b)| {
+            let orbits = b.orbits.as_ref().and_then(|o| resolve_host(&sys, o, diags));
+            (orbits, lower_props(b, bi, refs, &resolver, diags))
+        })
+        .collect();
+    drop(resolver);
+    let_syntax.clear();
+    for (body, (orbits, declared)) in sys.bodies.iter_mut().zip(lowered) {
+        body.orbits = orbits;
+        body.declared = declared;
+    }
+    for (id, value, dim) in bindings.resolved {
+        let slot = match id.body {
+            None => sys.lets.get_mut(id.index),
+            Some(b) => sys.bodies.get_mut(b).and_then(|b| b.lets.get_mut(id.index)),
+        };
+        if let Some(l) = slot {
+            l.value = value;
+            l.dim = dim;
+        }
+    }
+    sys.let_order = bindings.order;
+    sys
+}
+
+fn resolve_host(sys: &System, o: &ast::Ident, diags: &mut Vec<Diagnostic>) -> Option<usize> {
+    match sys.body(&o.name) {
+        Some(i) if sys.bodies.get(i).map(|b| b.kind) == Some(BodyKind::Star) => Some(i),
+        Some(_) => {
+            diags.push(
+                Diagnostic::new(
+                    Rule::UnknownBody,
+                    o.span,
+                    format!("'{}' is a planet; a planet orbits a star", o.name),
+                )
+                .with_help("name a star declared in this system after 'orbits'"),
+            );
+            None
+        }
+        None => {
+            let stars = sys
+                .bodies
+                .iter()
+                .filter(|b| b.kind == BodyKind::Star)
+                .map(|b| b.id.as_str());
+            let mut d = Diagnostic::new(
+                Rule::UnknownBody,
+                o.span,
+                format!("no star '{}' in system \"{}\"", o.name, sys.name),
+            );
+            if let Some(s) = crate::text::closest(&o.name, stars) {
+                d = d.with_help(format!("did you mean '{s}'?"));
+            }
+            diags.push(d);
+            None
+        }
+    }
+}
+
+/// The bindings of one scope, and each one's expression (a name bound twice keeps the first).
+fn lower_lets<'a>(
+    lets: &'a [ast::LetDecl],
+    diags: &mut Vec<Diagnostic>,
+) -> (Vec<LetInfo>, Vec<&'a ast::Expr>) {
+    let mut out: Vec<LetInfo> = Vec::new();
+    let mut syntax = Vec::new();
+    let mut seen: FxHashMap<&str, Span> = FxHashMap::default();
+    for l in lets {
+        if let Some(prev) = seen.get(l.name.name.as_str()) {
+            diags.push(
+                Diagnostic::new(
+                    Rule::Duplicate,
+                    l.name.span,
+                    format!("'{}' is bound twice in this scope", l.name.name),
+                )
+                .with_label(*prev, "first bound here"),
+            );
+            continue;
+        }
+        seen.insert(&l.name.name, l.name.span);
+        out.push(LetInfo {
+            name: l.name.name.clone(),
+            name_span: l.name.span,
+            value: None,
+            dim: None,
+            span: l.span,
+        });
+        syntax.push(&l.value);
+    }
+    (out, syntax)
+}
+
+fn lower_props(
+    b: &ast::BodyDecl,
+    bi: usize,
+    refs: &[RefInfo],
+    resolver: &resolve::Resolver,
+    diags: &mut Vec<Diagnostic>,
+) -> Vec<Declared> {
+    let mut out: Vec<Declared> = Vec::new();
+    for p in &b.props {
+        let Some(def) = quantities::find(b.kind, &p.name.name) else {
+            diags.push(value::unknown_quantity(b.kind, &p.name));
+            continue;
+        };
+        if let Some(prev) = out.iter().find(|d| d.qty == def.qty) {
+            diags.push(
+                Diagnostic::new(
+                    Rule::Duplicate,
+                    p.name.span,
+                    format!("'{}' of '{}' is declared twice", def.name, b.name.name),
+                )
+                .with_label(prev.name_span, "first declared here"),
+            );
+            continue;
+        }
+        let mut citations = Vec::new();
+        for c in &p.citations {
+            if refs.iter().any(|r| r.id == c.name) {
+                citations.push((c.name.clone(), c.span));
+            } else {
+                let mut d = Diagnostic::new(
+                    Rule::UnknownRef,
+                    c.span,
+                    format!("no reference '{}' is declared in this file", c.name),
+                );
+                d = match crate::text::closest(&c.name, refs.iter().map(|r| r.id.as_str())) {
+                    Some(s) => d.with_help(format!("did you mean '{s}'?")),
+                    None => d.with_help(format!(
+                        "declare it at the top of the file: ref {} \"...\"",
+                        c.name
+                    )),
+                };
+                diags.push(d);
+            }
+        }
+        let resolve =
+            |e: &ast::Expr, diags: &mut Vec<Diagnostic>| resolver.declared(e, bi, def, diags);
+        let Some((content, written_unit)) = value::lower_value(def, p, &resolve, diags) else {
+            continue;
+        };
+        let timestamp = match (&p.value, &content) {
+            (ast::PropValue::Text(t, _), Content::Measured(_)) => Some(t.clone()),
+            _ => None,
+        };
+        out.push(Declared {
+            qty: def.qty,
+            name_span: p.name.span,
+            span: p.span,
+            value_span: p.value.span(),
+            content,
+            assumed: p.assumed.is_some(),
+            citations,
+            written_unit,
+            timestamp,
+        });
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests;

@@ -1,0 +1,178 @@
+use super::*;
+use crate::diagnostic::Diagnostic;
+use crate::parser::parse;
+
+fn lower_text(src: &str) -> (Model, Vec<Diagnostic>) {
+    let parsed = parse(FileId(0), src);
+    let mut diags = parsed.diagnostics;
+    let model = lower(FileId(0), &parsed.file, &mut diags);
+    (model, diags)
+}
+
+fn messages(diags: &[Diagnostic]) -> Vec<&str> {
+    diags.iter().map(|d| d.message.as_str()).collect()
+}
+
+#[test]
+fn measurements_are_lowered_to_si() {
+    // 1 au = 149 597 870 700 m exactly (IAU 2012 Resolution B2).
+    let (m, diags) = lower_text(
+        "system \"S\" {\n star s { mass = 1 Msun }\n planet b orbits s { semi_major_axis = 2 ± 0.1 au } }",
+    );
+    assert!(diags.is_empty(), "{diags:?}");
+    let b = &m.systems[0].bodies[1];
+    let Content::Measured(a) = &b.get(Qty::SemiMajorAxis).unwrap().content else {
+        panic!("a measurement");
+    };
+    assert_eq!(a.value, 2.0 * 149_597_870_700.0);
+    assert_eq!(a.below, 0.1 * 149_597_870_700.0);
+    assert_eq!(a.form, Form::Symmetric);
+    assert_eq!(b.orbits, Some(0));
+}
+
+#[test]
+fn a_long_chain_of_bindings_resolves_once_each_in_order() {
+    // Each binding uses the one before it twice; resolving by substitution would cost
+    // 2^30 steps, resolving each binding once costs 31.
+    let mut src = String::from("system \"S\" {\n let x0 = 1 Msun\n");
+    for i in 1..=30 {
+        src.push_str(&format!(" let x{i} = x{} + x{}\n", i - 1, i - 1));
+    }
+    src.push_str(" star s { mass = x30 / 1e9 }\n}\n");
+    let (m, diags) = lower_text(&src);
+    assert!(diags.is_empty(), "{diags:?}");
+    let sys = &m.systems[0];
+    let order: Vec<usize> = sys.let_order.iter().map(|id| id.index).collect();
+    assert_eq!(order, (0..=30).collect::<Vec<_>>());
+    assert!(sys.lets.iter().all(|l| l.dim == Some(Dimension::MASS)));
+    let Content::Expr(e) = &sys.bodies[0].get(Qty::StarMass).unwrap().content else {
+        panic!("an expression");
+    };
+    let mut bindings = Vec::new();
+    e.walk(|n| {
+        if let Node::Binding(id) = n.node {
+            bindings.push(id);
+        }
+    });
+    assert_eq!(
+        bindings,
+        vec![LetId {
+            body: None,
+            index: 30
+        }]
+    );
+}
+
+#[test]
+fn bindings_may_be_used_before_they_are_written() {
+    let (m, diags) =
+        lower_text("system \"S\" {\n let a = b * 2\n let b = 1 Rsun\n star s { radius = a }\n}");
+    assert!(diags.is_empty(), "{diags:?}");
+    let order: Vec<usize> = m.systems[0].let_order.iter().map(|id| id.index).collect();
+    assert_eq!(order, vec![1, 0]);
+}
+
+#[test]
+fn a_cycle_of_bindings_is_reported_once_with_its_path() {
+    let (m, diags) = lower_text(
+        "system \"S\" {\n let x = y * 2\n let y = z\n let z = x + 1 Msun\n let w = y\n star s { mass = w }\n}",
+    );
+    let cycles: Vec<&str> = messages(&diags)
+        .into_iter()
+        .filter(|m| m.contains("defined in terms of itself"))
+        .collect();
+    assert_eq!(
+        cycles,
+        vec!["'x' is defined in terms of itself: x → y → z → x"]
+    );
+    assert_eq!(
+        diags.len(),
+        1,
+        "nothing downstream of the cycle is reported again: {diags:?}"
+    );
+    let sys = &m.systems[0];
+    assert!(sys.let_order.is_empty());
+    assert!(sys.lets.iter().all(|l| l.value.is_none()));
+    // The declared value that used the cycle is dropped, and the cycle says why.
+    assert!(sys.bodies[0].get(Qty::StarMass).is_none());
+}
+
+#[test]
+fn a_binding_that_uses_itself_is_reported() {
+    let (_, diags) = lower_text("system \"S\" {\n star s { let k = k + 1\n mass = 1 Msun }\n}");
+    assert_eq!(messages(&diags), vec!["'k' is defined in terms of itself"]);
+    assert_eq!(diags[0].labels.len(), 1, "the binding is labelled");
+}
+
+#[test]
+fn a_body_binding_shadows_the_system_binding() {
+    let (m, diags) = lower_text(
+        "system \"S\" {\n let r = 1 Rsun\n star s { let r = 2 Msun\n mass = r }\n star t { radius = r }\n}",
+    );
+    assert!(diags.is_empty(), "{diags:?}");
+    let sys = &m.systems[0];
+    let used = |bi: usize, q: Qty| {
+        let Content::Expr(e) = &sys.bodies[bi].get(q).unwrap().content else {
+            panic!("an expression");
+        };
+        match e.node {
+            Node::Binding(id) => id,
+            _ => panic!("a binding"),
+        }
+    };
+    assert_eq!(
+        used(0, Qty::StarMass),
+        LetId {
+            body: Some(0),
+            index: 0
+        }
+    );
+    assert_eq!(
+        used(1, Qty::StarRadius),
+        LetId {
+            body: None,
+            index: 0
+        }
+    );
+}
+
+#[test]
+fn a_system_binding_cannot_see_a_body_binding() {
+    let (_, diags) = lower_text(
+        "system \"S\" {\n let total = k * 2\n star s { let k = 1 Msun\n mass = total }\n}",
+    );
+    assert_eq!(
+        messages(&diags),
+        vec!["'k' is neither a 'let' binding nor a constant"]
+    );
+}
+
+#[test]
+fn expression_dimensions_are_checked_against_the_quantity() {
+    let (m, diags) = lower_text("system \"S\" {\n star s { mass = 2 Rsun * 3 }\n}");
+    assert_eq!(
+        messages(&diags),
+        vec!["'mass' is a mass (kg), but this expression is a length (m)"]
+    );
+    assert!(m.systems[0].bodies[0].get(Qty::StarMass).is_none());
+}
+
+#[test]
+fn literals_inside_expressions_are_converted_and_keep_their_uncertainty() {
+    // 1 Rjup = 7.1492e7 m (IAU 2015 Resolution B3, equatorial).
+    let (m, diags) = lower_text("system \"S\" {\n star s { mass = 1 Msun }\n planet b orbits s { radius = (1.0 ± 0.1 Rjup) * 2 }\n}");
+    assert!(diags.is_empty(), "{diags:?}");
+    let Content::Expr(e) = &m.systems[0].bodies[1].get(Qty::Radius).unwrap().content else {
+        panic!("an expression");
+    };
+    let mut literal = None;
+    e.walk(|n| {
+        if let Node::Uncertain(l) = &n.node {
+            literal = Some(l.clone());
+        }
+    });
+    let l = literal.unwrap();
+    assert_eq!(l.measurement.value, 7.1492e7);
+    assert!((l.measurement.below - 7.1492e6).abs() < 1e-6);
+    assert_eq!(l.written, "1 ± 0.1");
+}

@@ -1,0 +1,291 @@
+//! Lowering one property's value: a literal measurement to SI with its dimension and range
+//! checked, text, a timestamp, or an expression handed to the resolver.
+
+use super::{Content, Form, Measurement, Resolved};
+use crate::ast::{self, BodyKind, ExprKind, Relation, Uncertainty};
+use crate::diagnostic::{Diagnostic, Rule};
+use crate::quantities::{self, Qty, QuantityDef};
+use crate::source::Span;
+use crate::units::{self, Dimension};
+
+/// The display unit as written after a number: nothing for plain numbers.
+fn unit_suffix(def: &QuantityDef) -> &'static str {
+    if def.display == "1" {
+        ""
+    } else {
+        def.display
+    }
+}
+
+pub(super) fn unknown_quantity(kind: BodyKind, name: &ast::Ident) -> Diagnostic {
+    let mut d = Diagnostic::new(
+        Rule::UnknownQuantity,
+        name.span,
+        format!("'{}' is not a quantity of a {}", name.name, kind.as_str()),
+    );
+    let other = match kind {
+        BodyKind::Star => BodyKind::Planet,
+        BodyKind::Planet => BodyKind::Star,
+    };
+    if let Some(s) = crate::text::closest(&name.name, quantities::names_for(kind)) {
+        d = d.with_help(format!("did you mean '{s}'?"));
+    } else if quantities::find(other, &name.name).is_some() {
+        d = d.with_help(format!(
+            "'{}' is a quantity of a {}; declare it there",
+            name.name,
+            other.as_str()
+        ));
+    }
+    d
+}
+
+/// A literal measurement: value, uncertainty and unit in one.
+fn literal_of(e: &ast::Expr) -> Option<(f64, &ast::Literal)> {
+    match &e.kind {
+        ExprKind::Literal(l) => Some((1.0, l)),
+        ExprKind::Neg(inner) => match &inner.kind {
+            ExprKind::Literal(l) => Some((-1.0, l)),
+            _ => None,
+        },
+        _ => None,
+    }
+}
+
+pub(super) fn lower_value(
+    def: &QuantityDef,
+    p: &ast::Prop,
+    resolve: &dyn Fn(&ast::Expr, &mut Vec<Diagnostic>) -> Option<Resolved>,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<(Content, Option<String>)> {
+    let expr = match &p.value {
+        ast::PropValue::Text(t, span) => {
+            if def.text {
+                return Some((Content::Text(t.clone()), None));
+            }
+            if def.qty == Qty::TransitEpoch {
+                return match crate::time::parse_iso(t) {
+                    Ok(jd) => Some((
+                        Content::Measured(Measurement {
+                            value: jd * crate::constants::DAY,
+                            below: 0.0,
+                            above: 0.0,
+                            form: Form::Exact,
+                        }),
+                        Some("JD_UTC".to_string()),
+                    )),
+                    Err(e) => {
+                        diags.push(
+                            Diagnostic::new(Rule::InvalidValue, *span, e.to_string()).with_help(
+                                "a transit epoch is a Julian date with its time scale \
+                                 (`2460123.4567 ± 0.0004 BJD_TDB`) or a UTC timestamp \
+                                 (`\"2026-03-14T05:12:00Z\"`)",
+                            ),
+                        );
+                        None
+                    }
+                };
+            }
+            diags.push(
+                Diagnostic::new(
+                    Rule::UnitMismatch,
+                    *span,
+                    format!("'{}' takes {}, not text", def.name, def.dim.describe()),
+                )
+                .with_help(format!(
+                    "write a number with a unit, e.g. `{} = 1.0 {}`",
+                    def.name,
+                    unit_suffix(def)
+                )),
+            );
+            return None;
+        }
+        ast::PropValue::Expr(e) => e,
+    };
+    if def.text {
+        diags.push(
+            Diagnostic::new(
+                Rule::UnitMismatch,
+                expr.span,
+                format!("'{}' takes text in quotes", def.name),
+            )
+            .with_help(format!("write `{} = \"K0V\"`", def.name)),
+        );
+        return None;
+    }
+    let Some((sign, lit)) = literal_of(expr) else {
+        if p.relation != Relation::Equal {
+            diags.push(
+                Diagnostic::new(
+                    Rule::InvalidValue,
+                    expr.span,
+                    "a limit takes a single number with a unit",
+                )
+                .with_help(format!(
+                    "write `{} < 0.1 {}`",
+                    def.name,
+                    unit_suffix(def)
+                )),
+            );
+            return None;
+        }
+        return Some((Content::Expr(resolve(expr, diags)?), None));
+    };
+    let unit = match &lit.unit {
+        None => units::Unit::one(),
+        Some(u) => match units::resolve(u) {
+            Ok(u) => u,
+            Err(errs) => {
+                for (span, e) in errs {
+                    diags.push(unknown_unit(span, &e));
+                }
+                return None;
+            }
+        },
+    };
+    if unit.dim != def.dim {
+        diags.push(mismatch_for(def, &unit, lit, expr.span));
+        return None;
+    }
+    let value = sign * lit.value * unit.factor;
+    let (below, above, form) = match (&lit.uncertainty, p.relation) {
+        (Uncertainty::None, Relation::Equal) => (0.0, 0.0, Form::Exact),
+        (Uncertainty::None, Relation::Below) => (0.0, 0.0, Form::UpperLimit),
+        (Uncertainty::None, Relation::Above) => (0.0, 0.0, Form::LowerLimit),
+        (Uncertainty::Symmetric(s, _), Relation::Equal) => {
+            (s * unit.factor, s * unit.factor, Form::Symmetric)
+        }
+        (Uncertainty::Asymmetric { plus, minus, .. }, Relation::Equal) => {
+            (minus * unit.factor, plus * unit.factor, Form::Asymmetric)
+        }
+        (_, _) => {
+            diags.push(
+                Diagnostic::new(
+                    Rule::InvalidValue,
+                    expr.span,
+                    "a limit takes a single value, without an uncertainty",
+                )
+                .with_help(format!(
+                    "write `{} < VALUE {}`, or give the value with its uncertainty after '='",
+                    def.name,
+                    unit_suffix(def)
+                )),
+            );
+            return None;
+        }
+    };
+    if !value.is_finite() || !below.is_finite() || !above.is_finite() {
+        diags.push(
+            Diagnostic::new(
+                Rule::InvalidValue,
+                expr.span,
+                "this number is too large to represent",
+            )
+            .with_note("values must be finite 64-bit floating-point numbers"),
+        );
+        return None;
+    }
+    if unit.factor != 0.0 && value != 0.0 && value.abs() < f64::MIN_POSITIVE {
+        diags.push(Diagnostic::new(
+            Rule::InvalidValue,
+            expr.span,
+            "this number is too small to represent",
+        ));
+        return None;
+    }
+    if !def.in_range(value) {
+        let what = match form {
+            Form::UpperLimit => "upper limit",
+            Form::LowerLimit => "lower limit",
+            _ => "value",
+        };
+        let range = def.range_text();
+        let written = crate::format::number(sign * lit.value);
+        let written = if unit.text.is_empty() {
+            written
+        } else {
+            format!("{written} {}", unit.text)
+        };
+        let mut d = Diagnostic::new(
+            Rule::OutOfRange,
+            expr.span,
+            format!(
+                "the {what} {written} lies outside the valid range of '{}': {range}",
+                def.name
+            ),
+        );
+        if def.qty == Qty::Eccentricity && value >= 1.0 {
+            d = d.with_note("an eccentricity of 1 or more describes an unbound orbit");
+        }
+        diags.push(d);
+        return None;
+    }
+    let written = lit.unit.as_ref().map(units::unit_text);
+    Some((
+        Content::Measured(Measurement {
+            value,
+            below,
+            above,
+            form,
+        }),
+        written,
+    ))
+}
+
+pub(crate) fn unknown_unit(span: Span, e: &units::UnknownUnit) -> Diagnostic {
+    let d = Diagnostic::new(
+        Rule::UnknownUnit,
+        span,
+        format!("unknown unit '{}'", e.symbol),
+    );
+    match e.suggestion {
+        Some(s) => d.with_help(format!("did you mean '{s}'?")),
+        None => {
+            d.with_help("see the unit table in docs/language.md; to multiply by a value, write '*'")
+        }
+    }
+}
+
+fn mismatch_for(
+    def: &QuantityDef,
+    unit: &units::Unit,
+    lit: &ast::Literal,
+    span: Span,
+) -> Diagnostic {
+    let found = if lit.unit.is_none() {
+        "a number without a unit".to_string()
+    } else {
+        format!("'{}', {}", unit.text, unit.dim.describe())
+    };
+    let mut d = Diagnostic::new(
+        Rule::UnitMismatch,
+        span,
+        format!(
+            "'{}' is {}, but the value is {found}",
+            def.name,
+            def.dim.describe()
+        ),
+    );
+    let value = crate::format::number(lit.value);
+    if lit.unit.is_none() {
+        d = d.with_help(format!(
+            "add a unit: `{} = {value} {}`",
+            def.name,
+            unit_suffix(def)
+        ));
+        if def.dim == Dimension::ANGLE {
+            d = d.with_note("angles and plain numbers are different types: write `deg` or `rad`");
+        }
+    } else if def.dim == Dimension::NONE {
+        d = d.with_help(format!(
+            "'{}' is a plain number; drop the unit or use % or ppm",
+            def.name
+        ));
+    } else {
+        d = d.with_help(format!(
+            "use a unit of {}, such as {}",
+            def.dim.describe(),
+            def.display
+        ));
+    }
+    d
+}
