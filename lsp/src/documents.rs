@@ -7,7 +7,7 @@ use std::sync::atomic::{AtomicU64, Ordering};
 use std::sync::{Arc, Mutex, OnceLock};
 use syzygy::ide::symbols::{self, Occurrence};
 use syzygy::source::{FileId, LineIndex, Span};
-use syzygy::{Analysis, Options, Reusable};
+use syzygy::{Analysis, Reusable, Settings};
 use tower_lsp::lsp_types::{Position, Range, TextDocumentContentChangeEvent, Url};
 
 /// How the client counts columns.
@@ -67,7 +67,7 @@ impl Snapshot {
                 let (analysis, reusable) = syzygy::analyze_reusing(
                     FileId(0),
                     &self.text,
-                    &Options::linear(),
+                    &Settings::linear(),
                     previous.as_deref(),
                 );
                 *self.reusable_slot() = Some(Arc::new(reusable));
@@ -281,7 +281,7 @@ mod tests {
     /// Analyse a snapshot; its diagnostics must be those of a fresh analysis. Gives how many
     /// systems it reused.
     fn reused_when_analysed(snap: &Snapshot) -> Option<usize> {
-        let fresh = syzygy::analyze(FileId(0), &snap.text, &Options::linear());
+        let fresh = syzygy::analyze(FileId(0), &snap.text, &Settings::linear());
         assert_eq!(snap.analysis().diagnostics, fresh.diagnostics);
         assert_eq!(fresh.diagnostics.len(), 3, "one inconsistency per system");
         snap.reused_systems()

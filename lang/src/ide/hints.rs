@@ -104,7 +104,7 @@ mod tests {
     #[test]
     fn body_hints_show_derived_values() {
         let src = include_str!("../../../examples/veyra.syz");
-        let a = crate::analyze(FileId(0), src, &crate::Options::linear());
+        let a = crate::analyze(FileId(0), src, &crate::Settings::linear());
         let h = hints(&a, src, 0..src.len());
         let b = src.find("planet b orbits veyra {").unwrap() + "planet b orbits veyra {".len();
         let hb = h.iter().find(|x| x.offset == b).unwrap();
@@ -124,7 +124,7 @@ mod tests {
     #[test]
     fn declared_value_that_can_be_derived_gets_a_hint() {
         let src = "system \"S\" {\n  star s { mass = 1.0 ± 0.05 Msun; radius = 1.0 ± 0.02 Rsun\n    log_g = 4.44 ± 0.05 }\n}\n";
-        let a = crate::analyze(FileId(0), src, &crate::Options::linear());
+        let a = crate::analyze(FileId(0), src, &crate::Settings::linear());
         let h = hints(&a, src, 0..src.len());
         let end = src.find("4.44 ± 0.05").unwrap() + "4.44 ± 0.05".len();
         let x = h

@@ -232,7 +232,7 @@ mod tests {
     const VEYRA: &str = include_str!("../../../examples/veyra.syz");
 
     fn hover_at(needle: &str, nth: usize) -> String {
-        let a = crate::analyze(FileId(0), VEYRA, &crate::Options::linear());
+        let a = crate::analyze(FileId(0), VEYRA, &crate::Settings::linear());
         let occ = symbols::occurrences(&a.ast);
         let off = VEYRA
             .match_indices(needle)
