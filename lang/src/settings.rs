@@ -2,11 +2,12 @@
 //! file `syzygy.toml` that holds them for a catalogue.
 //!
 //! One [`Settings`] value (derivation [`Options`] and rule severity overrides) is built by
-//! layering: the engine's defaults, then the project file, then the command line. Each
-//! source gives a [`Layer`]: what it sets explicitly. [`crate::analyze`] and
-//! [`crate::analyze_reusing`] take the result and apply its overrides themselves, so no front
-//! end applies them after the fact. Front ends find and read the project file (the core does
-//! no I/O) and pass its text to [`Layer::from_project_file`].
+//! layering: the engine's defaults, then the project file, then the command line (or, in the
+//! language server, the editor's own choice of propagation). Each source gives a [`Layer`]:
+//! what it sets explicitly. [`crate::analyze`] and [`crate::analyze_reusing`] take the result
+//! and apply its overrides themselves, so `syz check` and the editor cannot disagree on
+//! severities. Front ends find and read the project file (the core does no I/O) and pass its
+//! text to [`Layer::from_project_file`].
 //!
 //! ```toml
 //! [rules]
@@ -22,6 +23,7 @@
 
 use crate::derive::{Options, Propagation};
 use crate::diagnostic::{Diagnostic, Rule, Severity, SeverityOverride};
+use crate::source::{FileId, Span};
 use serde::Deserialize;
 use std::collections::BTreeMap;
 
@@ -193,7 +195,7 @@ impl Settings {
 
 /// A project file that cannot be used: it cannot be read, is not TOML, or says something
 /// the engine does not accept. Shown as `path: reason`, the sentence `syz` prints after
-/// `syz: error: `.
+/// `syz: error: ` and the language server shows on the documents it applies to.
 #[derive(Debug, Clone, PartialEq)]
 pub struct ProjectFileError {
     pub path: String,
@@ -213,6 +215,81 @@ impl ProjectFileError {
             path: path.to_string(),
             reason: format!("cannot be read: {why}"),
         }
+    }
+
+    /// The error as a diagnostic on the first line of a file `src` it applies to (rule `io`:
+    /// like an unreadable file, it cannot be silenced or downgraded).
+    pub fn diagnostic(&self, file: FileId, src: &str) -> Diagnostic {
+        let end = src.find(['\n', '\r']).unwrap_or(src.len());
+        Diagnostic::new(Rule::Io, Span::new(file, 0, end), self.to_string())
+            .with_note("`syz check` stops with this error (exit status 2); until the project file is fixed, this file is checked with the default settings")
+            .with_help(format!("fix {FILE_NAME} (see docs/project-file.md)"))
+    }
+}
+
+/// What the language server analyses a document with, and how that compares with `syz eval`.
+///
+/// The editor keeps everything the project file says (severities, silencing by `off`, the
+/// consistency threshold), so its diagnostics are those of `syz check`, except the
+/// propagation of uncertainties: always first order, which is fast enough to re-derive on
+/// every keystroke. Monte Carlo, when the project asks for it or by default, is left to the
+/// command line, and hover and inlay hints say so.
+#[derive(Debug, Clone, PartialEq)]
+pub struct EditorSettings {
+    pub settings: Settings,
+    /// What `syz eval` uses for the same file when given no flags.
+    pub eval_propagation: Propagation,
+    /// Whether `eval_propagation` is the project file's choice (else the default).
+    pub eval_from_project_file: bool,
+}
+
+impl EditorSettings {
+    /// The editor's settings under a project file's layer (`None`: no usable project file).
+    pub fn new(project_file: Option<&Layer>) -> EditorSettings {
+        let editor = Layer {
+            propagation: Some(Propagation::Linear),
+            ..Layer::default()
+        };
+        let eval = Settings::resolve(project_file, &Layer::default());
+        EditorSettings {
+            settings: eval.clone().then(&editor),
+            eval_propagation: eval.options.propagation,
+            eval_from_project_file: project_file.is_some_and(|p| p.propagation.is_some()),
+        }
+    }
+
+    /// How the numbers shown were propagated, for hover and inlay hints.
+    pub fn method(&self) -> crate::ide::Method {
+        let used = self.settings.options.propagation;
+        let why = if self.eval_from_project_file {
+            format!("per {FILE_NAME}")
+        } else {
+            "by default".to_string()
+        };
+        if used == self.eval_propagation {
+            return crate::ide::Method {
+                line: format!(
+                    "{} propagation, as `syz eval` uses {why}",
+                    propagation_words(used)
+                ),
+                tag: None,
+            };
+        }
+        crate::ide::Method {
+            line: format!(
+                "{} propagation (the editor's choice for speed; `syz eval` uses {} {why}, so the last digits may differ)",
+                propagation_words(used),
+                propagation_words(self.eval_propagation)
+            ),
+            tag: Some(propagation_words(used).to_string()),
+        }
+    }
+}
+
+fn propagation_words(p: Propagation) -> &'static str {
+    match p {
+        Propagation::Linear => "first-order",
+        Propagation::MonteCarlo => "Monte Carlo",
     }
 }
 
@@ -258,8 +335,7 @@ mod tests {
         assert_eq!(s.options.propagation, defaults.propagation);
         assert_eq!(s.options.samples, defaults.samples);
         assert_eq!((s.options.seed, s.options.consistency_sigma), (9, 2.0));
-        let span = crate::source::Span::default();
-        let mut d = vec![Diagnostic::new(Rule::Inconsistent, span, "x")];
+        let mut d = vec![Diagnostic::new(Rule::Inconsistent, Span::default(), "x")];
         s.apply_overrides(&mut d);
         assert_eq!(
             d[0].severity,
@@ -291,5 +367,45 @@ mod tests {
             ProjectFileError::unreadable("a/syzygy.toml", "permission denied").to_string(),
             "a/syzygy.toml: cannot be read: permission denied"
         );
+    }
+
+    #[test]
+    fn a_bad_project_file_is_an_io_error_on_the_first_line() {
+        let e = layer("[derivation]\nsamples = 0\n").unwrap_err();
+        let d = e.diagnostic(FileId(3), "system \"A\" {\r\n}\n");
+        assert_eq!((d.rule, d.severity), (Rule::Io, Severity::Error));
+        assert_eq!(d.span, Span::new(FileId(3), 0, 12));
+        assert_eq!(d.message, e.to_string());
+        assert_eq!(e.diagnostic(FileId(0), "").span, Span::default());
+    }
+
+    #[test]
+    fn the_editor_keeps_the_project_but_propagates_to_first_order() {
+        let project = layer(
+            "[rules]\nunstable-spacing = \"off\"\n[derivation]\npropagation = \"monte-carlo\"\nconsistency_sigma = 4.0\n",
+        )
+        .unwrap();
+        let e = EditorSettings::new(Some(&project));
+        let cli = Settings::resolve(Some(&project), &Layer::default());
+        assert_eq!(e.settings.overrides, cli.overrides);
+        assert_eq!(e.settings.options.consistency_sigma, 4.0);
+        assert_eq!(e.settings.options.propagation, Propagation::Linear);
+        let m = e.method();
+        assert_eq!(
+            m.line,
+            "first-order propagation (the editor's choice for speed; `syz eval` uses Monte Carlo per syzygy.toml, so the last digits may differ)"
+        );
+        assert_eq!(m.tag.as_deref(), Some("first-order"));
+        assert!(EditorSettings::new(None)
+            .method()
+            .line
+            .contains("`syz eval` uses Monte Carlo by default"));
+        let linear = layer("[derivation]\npropagation = \"linear\"\n").unwrap();
+        let m = EditorSettings::new(Some(&linear)).method();
+        assert_eq!(
+            m.line,
+            "first-order propagation, as `syz eval` uses per syzygy.toml"
+        );
+        assert_eq!(m.tag, None);
     }
 }
