@@ -1,70 +1,46 @@
 //! Finding `syzygy.toml` for each checked file (the nearest one walking up from the file's
-//! folder wins) and merging it with the command line: an explicit flag beats the project
-//! file, which beats the engine's defaults.
+//! folder wins) and reading it. Parsing it and laying the command-line flags over it is the
+//! core's (`syzygy::settings`), shared with the language server.
 
 use std::collections::HashMap;
 use std::path::{Path, PathBuf};
-use syzygy::config::{ProjectConfig, FILE_NAME};
-use syzygy::diagnostic::SeverityOverride;
+use syzygy::settings::{Layer, ProjectFileError, FILE_NAME};
 use syzygy::source::{MemoryDb, SourceDb};
-use syzygy::{Options, Propagation};
+use syzygy::Settings;
 
-/// The engine settings given explicitly on the command line (`None`: not given).
-#[derive(Default)]
-pub struct Flags {
-    pub propagation: Option<Propagation>,
-    pub samples: Option<usize>,
-    pub seed: Option<u64>,
-    pub sigma: Option<f64>,
-    pub overrides: Vec<SeverityOverride>,
-}
-
-impl Flags {
-    /// These flags over `base`.
-    pub fn over(&self, base: Options) -> Options {
-        // The same layering as a project file's: reuse it rather than repeat it.
-        syzygy::config::ProjectConfig {
-            overrides: Vec::new(),
-            propagation: self.propagation,
-            samples: self.samples,
-            seed: self.seed,
-            consistency_sigma: self.sigma,
-        }
-        .apply(base)
-    }
-}
-
-/// The settings of one file: derivation options and severity overrides, in order of
-/// increasing precedence (project file first, then flags).
-pub type FileSettings = (Options, Vec<SeverityOverride>);
-
-/// Settings for every file of `db`, in file order. A project file that cannot be read or
-/// parsed is an error naming it.
-pub fn resolve(db: &MemoryDb, flags: &Flags) -> Result<Vec<FileSettings>, String> {
+/// Settings for every file of `db`, in file order: the defaults, the file's nearest project
+/// file, then `flags`. A project file that cannot be read or parsed is an error naming it.
+pub fn resolve(db: &MemoryDb, flags: &Layer) -> Result<Vec<Settings>, String> {
     let mut found: HashMap<PathBuf, Option<PathBuf>> = HashMap::new();
-    let mut parsed: HashMap<PathBuf, ProjectConfig> = HashMap::new();
+    // Per project file (None: none found), resolved once however many files it covers.
+    let mut resolved: HashMap<Option<PathBuf>, Settings> = HashMap::new();
     let mut out = Vec::new();
     for f in db.files() {
         let dir = folder_of(Path::new(db.name(f)));
-        let config = match nearest(&dir, &mut found) {
-            Some(path) => {
-                if !parsed.contains_key(&path) {
-                    let text = std::fs::read_to_string(&path)
-                        .map_err(|e| format!("{}: cannot be read: {e}", path.display()))?;
-                    let c = ProjectConfig::parse(&text)
-                        .map_err(|e| format!("{}: {e}", path.display()))?;
-                    parsed.insert(path.clone(), c);
-                }
-                parsed.get(&path).cloned().unwrap_or_default()
+        let path = nearest(&dir, &mut found);
+        let settings = match resolved.get(&path) {
+            Some(s) => s.clone(),
+            None => {
+                let layer = path
+                    .as_deref()
+                    .map(read)
+                    .transpose()
+                    .map_err(|e| e.to_string())?;
+                let s = Settings::resolve(layer.as_ref(), flags);
+                resolved.insert(path, s.clone());
+                s
             }
-            None => ProjectConfig::default(),
         };
-        let options = flags.over(config.apply(Options::default()));
-        let mut overrides = config.overrides.clone();
-        overrides.extend(flags.overrides.iter().copied());
-        out.push((options, overrides));
+        out.push(settings);
     }
     Ok(out)
+}
+
+/// The settings layer of one project file.
+fn read(path: &Path) -> Result<Layer, ProjectFileError> {
+    let name = path.display().to_string();
+    let text = std::fs::read_to_string(path).map_err(|e| ProjectFileError::unreadable(&name, e))?;
+    Layer::from_project_file(&name, &text)
 }
 
 fn folder_of(file: &Path) -> PathBuf {

@@ -48,7 +48,7 @@ fn now_jd() -> f64 {
     time::jd_from_unix(secs)
 }
 
-pub fn run(args: &Args, flags: &crate::config_file::Flags) -> u8 {
+pub fn run(args: &Args, flags: &syzygy::settings::Layer) -> u8 {
     let from = match args.from.as_deref().map(parse_from) {
         Some(Ok(jd)) => jd,
         Some(Err(e)) => {

@@ -3,9 +3,8 @@
 
 use std::collections::BTreeSet;
 use std::path::{Path, PathBuf};
-use syzygy::diagnostic::apply_overrides;
 use syzygy::source::{MemoryDb, SourceDb};
-use syzygy::{analyze, Analysis};
+use syzygy::{analyze, Analysis, Settings};
 
 pub struct Loaded {
     pub db: MemoryDb,
@@ -138,14 +137,14 @@ const PROGRESS_THRESHOLD: usize = 200;
 /// An unreadable or invalid project file is an error naming it.
 pub fn analyze_all(
     db: &MemoryDb,
-    flags: &crate::config_file::Flags,
+    flags: &syzygy::settings::Layer,
 ) -> Result<Vec<Analysis>, String> {
     let settings = crate::config_file::resolve(db, flags)?;
     Ok(analyze_each(db, &settings))
 }
 
 /// Analyse every loaded file with its own settings (one entry per file, in file order).
-pub fn analyze_each(db: &MemoryDb, settings: &[crate::config_file::FileSettings]) -> Vec<Analysis> {
+pub fn analyze_each(db: &MemoryDb, settings: &[Settings]) -> Vec<Analysis> {
     let mut out = Vec::with_capacity(settings.len());
     for_each_analysed(db, settings, |a| a, |a| out.push(a));
     out
@@ -161,7 +160,7 @@ const BATCH: usize = 128;
 /// many files there are (what `eval` streams).
 pub fn for_each_analysed<T: Send>(
     db: &MemoryDb,
-    settings: &[crate::config_file::FileSettings],
+    settings: &[Settings],
     map: impl Fn(Analysis) -> T + Sync,
     mut sink: impl FnMut(T),
 ) {
@@ -171,9 +170,8 @@ pub fn for_each_analysed<T: Send>(
     for batch in ids.chunks(BATCH) {
         let mapped: Vec<T> = batch
             .par_iter()
-            .map(|&(f, (options, overrides))| {
-                let mut a = analyze(f, db.text(f), options);
-                apply_overrides(&mut a.diagnostics, overrides);
+            .map(|&(f, settings)| {
+                let a = analyze(f, db.text(f), settings);
                 if let Some(p) = &progress {
                     p.inc(1);
                 }

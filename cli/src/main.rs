@@ -16,7 +16,8 @@ use std::io::Write;
 use std::path::PathBuf;
 use std::process::ExitCode;
 use syzygy::diagnostic::{Rule, Severity, SeverityOverride};
-use syzygy::{Options, Propagation};
+use syzygy::settings::Layer;
+use syzygy::{Options, Propagation, Settings};
 
 // The derivation engine makes many small allocations per system; mimalloc serves them
 // faster than the system allocator across threads (docs/performance.md).
@@ -111,15 +112,15 @@ fn parse_rule(s: &str) -> Result<Rule, String> {
 
 impl EngineArgs {
     /// The settings given explicitly, to lay over a project file.
-    fn flags(&self) -> config_file::Flags {
-        config_file::Flags {
+    fn flags(&self) -> Layer {
+        Layer {
             propagation: self.propagation.map(|p| match p {
                 PropagationArg::MonteCarlo => Propagation::MonteCarlo,
                 PropagationArg::Linear => Propagation::Linear,
             }),
             samples: self.samples.map(|n| n as usize),
             seed: self.seed,
-            sigma: self.sigma,
+            consistency_sigma: self.sigma,
             overrides: self.overrides(),
         }
     }
@@ -264,12 +265,7 @@ fn main() -> ExitCode {
     ExitCode::from(code)
 }
 
-fn check(
-    paths: &[PathBuf],
-    format: CheckFormat,
-    deny_warnings: bool,
-    flags: &config_file::Flags,
-) -> u8 {
+fn check(paths: &[PathBuf], format: CheckFormat, deny_warnings: bool, flags: &Layer) -> u8 {
     let Some((loaded, settings)) = load_with_settings(paths, flags) else {
         return 2;
     };
@@ -391,10 +387,7 @@ fn check(
 
 /// Read the files named and find each one's settings (its `syzygy.toml` under the flags);
 /// `None`, after saying why, when a project file is bad.
-fn load_with_settings(
-    paths: &[PathBuf],
-    flags: &config_file::Flags,
-) -> Option<(files::Loaded, Vec<config_file::FileSettings>)> {
+fn load_with_settings(paths: &[PathBuf], flags: &Layer) -> Option<(files::Loaded, Vec<Settings>)> {
     let loaded = files::load(paths);
     match config_file::resolve(&loaded.db, flags) {
         Ok(settings) => Some((loaded, settings)),
@@ -412,7 +405,7 @@ fn load_with_settings(
 /// are not written after one).
 fn stream_per_file(
     db: &syzygy::source::MemoryDb,
-    settings: &[config_file::FileSettings],
+    settings: &[Settings],
     out: &mut impl Write,
     color: bool,
     body: impl Fn(&syzygy::Analysis) -> std::io::Result<Vec<u8>> + Sync,
@@ -478,13 +471,14 @@ fn plural(n: usize) -> &'static str {
     }
 }
 
-fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8 {
+fn eval(paths: &[PathBuf], format: EvalFormat, flags: &Layer) -> u8 {
     let Some((loaded, settings)) = load_with_settings(paths, flags) else {
         return 2;
     };
-    let options = settings
-        .first()
-        .map_or_else(|| flags.over(Options::default()), |s| s.0.clone());
+    let options = settings.first().map_or_else(
+        || Settings::resolve(None, flags).options,
+        |s| s.options.clone(),
+    );
     let db = &loaded.db;
     let stdout = std::io::stdout();
     let mut out = stdout.lock();
@@ -575,12 +569,7 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8
     }
 }
 
-fn explain(
-    file: &std::path::Path,
-    target: &str,
-    system: Option<&str>,
-    flags: &config_file::Flags,
-) -> u8 {
+fn explain(file: &std::path::Path, target: &str, system: Option<&str>, flags: &Layer) -> u8 {
     let Some((body, qty)) = target.split_once('.') else {
         eprintln!("syz: expected BODY.QUANTITY, such as b.density, found '{target}'");
         return 2;
@@ -598,7 +587,7 @@ fn explain(
         }
     };
     let analyses = files::analyze_each(&loaded.db, &settings);
-    let (Some(a), Some((options, _))) = (analyses.first(), settings.first()) else {
+    let (Some(a), Some(Settings { options, .. })) = (analyses.first(), settings.first()) else {
         return 2;
     };
     let Some((si, bi)) = syzygy::report::find_body(a, system, body) else {

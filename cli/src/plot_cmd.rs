@@ -1,7 +1,6 @@
 //! `syz plot`: SVG diagrams drawn from what the core computes ([`syzygy::plots`]). The only
 //! file written is the one `-o` names.
 
-use crate::config_file::Flags;
 use crate::files;
 use plotters::coord::Shift;
 use plotters::prelude::*;
@@ -11,6 +10,7 @@ use syzygy::composition::{self, Curve, PLOTTED_CURVES};
 use syzygy::constants::{M_EARTH, R_EARTH};
 use syzygy::lightcurve::LimbDarkening;
 use syzygy::plots::{self, ModelCurve};
+use syzygy::settings::Layer;
 use syzygy::solar_system;
 
 #[derive(clap::Subcommand)]
@@ -57,7 +57,7 @@ fn err<E: std::fmt::Display>(e: E) -> String {
     e.to_string()
 }
 
-pub fn run(plot: &Plot, flags: &Flags) -> u8 {
+pub fn run(plot: &Plot, flags: &Layer) -> u8 {
     let out = match plot {
         Plot::MassRadius { output, .. }
         | Plot::Rv { output, .. }
@@ -175,7 +175,7 @@ fn one_planet(
     file: &Path,
     body: &str,
     system: Option<&str>,
-    flags: &Flags,
+    flags: &Layer,
 ) -> Result<(syzygy::Analysis, usize, usize), Stop> {
     let loaded = files::load(&[file.to_path_buf()]);
     if let Some(e) = loaded.errors.first() {
@@ -226,7 +226,7 @@ fn notes(area: &DrawingArea<SVGBackend, Shift>, lines: &[String]) -> Result<(), 
     Ok(())
 }
 
-fn mass_radius(paths: &[PathBuf], flags: &Flags) -> Result<String, Stop> {
+fn mass_radius(paths: &[PathBuf], flags: &Layer) -> Result<String, Stop> {
     let loaded = files::load(paths);
     files::report_io_errors(&loaded.errors);
     let analyses = files::analyze_all(&loaded.db, flags).map_err(Stop::settings)?;

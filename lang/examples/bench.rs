@@ -6,7 +6,7 @@
 use std::fmt::Write;
 use std::time::Instant;
 use syzygy::source::FileId;
-use syzygy::{analyze, Options};
+use syzygy::{analyze, Settings};
 
 /// A small deterministic generator so runs are comparable.
 struct Lcg(u64);
@@ -90,7 +90,7 @@ fn main() {
             .len()
     });
     let lin = time("full check, linear propagation", bytes, 1, || {
-        analyze(FileId(0), &src, &Options::linear())
+        analyze(FileId(0), &src, &Settings::linear())
             .diagnostics
             .len()
     });
@@ -103,15 +103,15 @@ fn main() {
     let one = system(0, &mut Lcg(7));
     let planets = 2.0;
     let mc = time("one system, Monte Carlo, 10^4 samples", 0, 20, || {
-        analyze(FileId(0), &one, &Options::default()).results.len()
+        analyze(FileId(0), &one, &Settings::default()).results.len()
     });
     println!("  = {:.2} ms per planet", mc / planets * 1e3);
     let lin1 = time("one system, linear", 0, 200, || {
-        analyze(FileId(0), &one, &Options::linear()).results.len()
+        analyze(FileId(0), &one, &Settings::linear()).results.len()
     });
     println!("  = {:.1} us per planet", lin1 / planets * 1e6);
     // Rules fired for that system: every derived quantity is one rule evaluation per sample.
-    let a = analyze(FileId(0), &one, &Options::default());
+    let a = analyze(FileId(0), &one, &Settings::default());
     let derived = a
         .results
         .iter()

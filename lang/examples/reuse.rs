@@ -8,7 +8,7 @@
 use std::fmt::Write;
 use std::time::{Duration, Instant};
 use syzygy::source::FileId;
-use syzygy::{analyze, analyze_reusing, Options};
+use syzygy::{analyze, analyze_reusing, Settings};
 
 fn generated() -> String {
     let mut s = String::from("ref bench \"Benchmark data (invented)\"\n");
@@ -40,7 +40,7 @@ fn median(mut v: Vec<Duration>) -> Duration {
 
 fn main() {
     let text = generated();
-    let opts = Options::linear();
+    let opts = Settings::linear();
     let runs = 21;
     let fresh = median(
         (0..runs)

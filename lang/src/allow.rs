@@ -160,7 +160,7 @@ mod tests {
     use crate::source::FileId;
 
     fn analyze(src: &str) -> Vec<(String, u32)> {
-        let a = crate::analyze(FileId(0), src, &crate::Options::linear());
+        let a = crate::analyze(FileId(0), src, &crate::Settings::linear());
         let idx = LineIndex::new(src);
         a.diagnostics
             .iter()
@@ -213,7 +213,7 @@ mod tests {
         assert!(got.contains(&("unused-allow".to_string(), 2)), "{got:?}");
         assert!(got.contains(&("unit-mismatch".to_string(), 5)), "{got:?}");
         let src = BAD.replace("12 m/s", "12 m/s # allow(unit-mismatc): typo");
-        let a = crate::analyze(FileId(0), &src, &crate::Options::linear());
+        let a = crate::analyze(FileId(0), &src, &crate::Settings::linear());
         let rules: Vec<&str> = a.diagnostics.iter().map(|d| d.rule.id()).collect();
         assert_eq!(rules, ["unit-mismatch", "unused-allow"]);
         let d = &a.diagnostics[1];

@@ -168,7 +168,7 @@ mod tests {
     fn analysis(src: &str) -> Analysis {
         let mut db = MemoryDb::new();
         let f = db.add("t.syz", src);
-        crate::analyze(f, db.text(f), &crate::Options::linear())
+        crate::analyze(f, db.text(f), &crate::Settings::linear())
     }
 
     const SRC: &str = "system \"Ostrel\" {\n  star s { mass = 1 Msun; radius = 1 Rsun }\n  planet b orbits s {\n    period = 2.5 ± 0.0001 d\n    transit_epoch = 2460000.0 ± 0.0005 BJD_TDB\n  }\n}\n";

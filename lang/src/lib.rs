@@ -11,7 +11,6 @@ pub mod allow;
 pub mod ast;
 pub mod checks;
 pub mod composition;
-pub mod config;
 pub mod constants;
 pub mod derive;
 pub mod diagnostic;
@@ -31,6 +30,7 @@ pub mod quantities;
 pub mod report;
 pub mod reuse;
 pub mod rule_docs;
+pub mod settings;
 pub mod solar_system;
 pub mod source;
 pub mod spectral;
@@ -43,6 +43,7 @@ use std::sync::Arc;
 
 pub use derive::{Options, Propagation};
 pub use reuse::{analyze_reusing, Reusable};
+pub use settings::Settings;
 
 /// Everything the core knows about one file.
 pub struct Analysis {
@@ -66,17 +67,18 @@ impl Analysis {
     }
 }
 
-/// Run the whole pipeline on one source text: parse, lower, derive, check.
+/// Run the whole pipeline on one source text: parse, lower, derive, check, then apply the
+/// silencing comments and the settings' severity overrides.
 ///
 /// [`analyze_reusing`] gives the same analysis while reusing the work of an earlier one.
-pub fn analyze(file: source::FileId, src: &str, options: &Options) -> Analysis {
+pub fn analyze(file: source::FileId, src: &str, settings: &Settings) -> Analysis {
     let (ast, model, diagnostics) = parse_and_lower(file, src);
     let outputs = model
         .systems
         .iter()
-        .map(|sys| derive_system(sys, options))
+        .map(|sys| derive_system(sys, &settings.options))
         .collect();
-    assemble(file, src, ast, model, diagnostics, outputs)
+    assemble(file, src, ast, model, diagnostics, outputs, settings)
 }
 
 /// What deriving and checking one system gives, before silencing comments apply. A function
@@ -118,7 +120,7 @@ pub(crate) fn derive_system(sys: &model::System, options: &Options) -> SystemOut
 }
 
 /// Put the per-system outputs (in the order of `model.systems`) together, then apply the
-/// silencing comments and sort the diagnostics.
+/// silencing comments and the severity overrides, and sort the diagnostics.
 fn assemble(
     file: source::FileId,
     src: &str,
@@ -126,6 +128,7 @@ fn assemble(
     model: model::Model,
     mut diagnostics: Vec<diagnostic::Diagnostic>,
     outputs: Vec<SystemOutput>,
+    settings: &Settings,
 ) -> Analysis {
     let mut results = Vec::with_capacity(outputs.len());
     let mut composition = HashMap::new();
@@ -138,7 +141,9 @@ fn assemble(
         }
         results.push(out.result);
     }
+    // Comments first: a comment that silences a rule the settings turn off is still used.
     let mut diagnostics = allow::apply(src, &ast.comments, diagnostics);
+    settings.apply_overrides(&mut diagnostics);
     diagnostic::sort_diagnostics(&mut diagnostics);
     Analysis {
         file,

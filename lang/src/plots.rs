@@ -378,7 +378,7 @@ mod tests {
     fn analysis(src: &str) -> Analysis {
         let mut db = MemoryDb::new();
         let f = db.add("t.syz", src);
-        crate::analyze(f, db.text(f), &crate::Options::default())
+        crate::analyze(f, db.text(f), &crate::Settings::default())
     }
 
     const SRC: &str = "system \"Ostrel\" {\n  star s { mass = 1 Msun; radius = 1 Rsun; teff = 5800 K }\n  planet b orbits s {\n    period = 4 ± 0.001 d\n    rv_amplitude = 60 ± 3 m/s\n    radius_ratio = 0.1 ± 0.002\n    impact = 0.3 ± 0.05\n  }\n}\n";

@@ -21,7 +21,7 @@ use crate::derive::{BodyResult, QuantityResult, SystemResult};
 use crate::diagnostic::{Diagnostic, Label};
 use crate::model::{Body, Content, Declared, LetInfo, Node, Resolved, System};
 use crate::source::{FileId, Span};
-use crate::{Analysis, Options, SystemOutput};
+use crate::{Analysis, Options, Settings, SystemOutput};
 use std::collections::HashMap;
 use std::sync::Arc;
 
@@ -74,13 +74,15 @@ impl Kept {
 }
 
 /// [`crate::analyze`], reusing the systems of `previous` that did not change (see the module
-/// documentation), and what the next call can reuse. Reuse needs the same file id and options.
+/// documentation), and what the next call can reuse. Reuse needs the same file id and
+/// derivation options (severity overrides apply afresh, so they may differ).
 pub fn analyze_reusing(
     file: FileId,
     src: &str,
-    options: &Options,
+    settings: &Settings,
     previous: Option<&Reusable>,
 ) -> (Analysis, Reusable) {
+    let options = &settings.options;
     let (ast, model, diagnostics) = crate::parse_and_lower(file, src);
     let mut candidates: HashMap<&str, Vec<&Kept>> = HashMap::new();
     if let Some(p) = previous.filter(|p| p.file == file && p.options.as_ref() == Some(options)) {
@@ -118,7 +120,7 @@ pub fn analyze_reusing(
             output: keep,
         });
     }
-    let analysis = crate::assemble(file, src, ast, model, diagnostics, outputs);
+    let analysis = crate::assemble(file, src, ast, model, diagnostics, outputs, settings);
     let reusable = Reusable {
         file,
         options: Some(options.clone()),

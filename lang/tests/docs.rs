@@ -181,7 +181,7 @@ fn json_doc_mentions_every_field_of_the_real_eval_output() {
         samples: 1000,
         ..syzygy::Options::default()
     };
-    let analysis = syzygy::analyze(file, &text, &options);
+    let analysis = syzygy::analyze(file, &text, &options.into());
     let systems = syzygy::report::systems_json(&analysis, &db);
     assert!(!systems.is_empty(), "veyra.syz has no system");
 

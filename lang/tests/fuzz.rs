@@ -145,7 +145,7 @@ fn one(src: &str) {
             ..Options::default()
         },
     ] {
-        let a = analyze(FileId(0), src, &options);
+        let a = analyze(FileId(0), src, &options.into());
         for d in &a.diagnostics {
             assert!(
                 d.span.start <= d.span.end && d.span.end as usize <= src.len(),

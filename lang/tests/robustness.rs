@@ -80,13 +80,13 @@ proptest! {
 
     #[test]
     fn arbitrary_text_never_panics(s in "\\PC{0,300}") {
-        let _ = analyze(FileId(0), &s, &fast());
+        let _ = analyze(FileId(0), &s, &fast().into());
     }
 
     #[test]
     fn token_soup_never_panics(parts in prop::collection::vec(fragment(), 0..80)) {
         let src = parts.join(" ");
-        let a = analyze(FileId(0), &src, &fast());
+        let a = analyze(FileId(0), &src, &fast().into());
         // Every diagnostic points inside the text.
         for d in &a.diagnostics {
             prop_assert!(d.span.end as usize <= src.len());
@@ -105,7 +105,7 @@ proptest! {
             ms * err, rs * err, teff * err, p * err * 0.01, k * err, depth * err, 0.05, e * err + 0.001
         );
         for options in [Options::linear(), fast()] {
-            let a = analyze(FileId(0), &src, &options);
+            let a = analyze(FileId(0), &src, &options.into());
             let mut db = MemoryDb::new();
             db.add("p.syz", src.clone());
             let json = serde_json::to_string(&syzygy::report::systems_json(&a, &db)).unwrap();
@@ -131,7 +131,7 @@ fn a_ten_megabyte_file_is_handled() {
     let n = 10_000_000 / block.len() + 1;
     let src = block.repeat(n);
     assert!(src.len() >= 10_000_000);
-    let a = analyze(FileId(0), &src, &Options::linear());
+    let a = analyze(FileId(0), &src, &syzygy::Settings::linear());
     assert_eq!(a.model.systems.len(), n);
     // The same system name repeated is reported, once per repeat, and nothing else.
     assert!(a

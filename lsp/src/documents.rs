@@ -1,13 +1,16 @@
 //! Open documents. Each change makes a new immutable [`Snapshot`] (text, line index,
-//! generation); its analysis is computed at most once, on first use, off the request thread,
-//! reusing the per-system work of the latest analysed snapshot before it.
+//! generation, the project settings it is analysed with); its analysis is computed at most
+//! once, on first use, off the request thread, reusing the per-system work of the latest
+//! analysed snapshot before it. A change of a project file makes new snapshots of the same
+//! texts under the new settings.
 
+use crate::project::{Project, Projects};
 use std::collections::HashMap;
 use std::sync::atomic::{AtomicU64, Ordering};
 use std::sync::{Arc, Mutex, OnceLock};
 use syzygy::ide::symbols::{self, Occurrence};
 use syzygy::source::{FileId, LineIndex, Span};
-use syzygy::{Analysis, Options, Reusable};
+use syzygy::{Analysis, Reusable};
 use tower_lsp::lsp_types::{Position, Range, TextDocumentContentChangeEvent, Url};
 
 /// How the client counts columns.
@@ -24,6 +27,8 @@ pub struct Snapshot {
     /// Increases with every change of any document; a result computed for an older
     /// generation is stale.
     pub generation: u64,
+    /// The settings it is analysed with.
+    pub project: Arc<Project>,
     analysis: OnceLock<Arc<Analysis>>,
     /// Per-system work to reuse: until this snapshot is analysed, that of the latest
     /// analysed snapshot before it; then its own.
@@ -32,13 +37,20 @@ pub struct Snapshot {
 }
 
 impl Snapshot {
+    /// A snapshot analysed without a project file.
     pub fn new(text: String, version: i32, generation: u64) -> Snapshot {
+        Snapshot::under(Project::none(), text, version, generation)
+    }
+
+    /// A snapshot analysed with `project`'s settings.
+    pub fn under(project: Arc<Project>, text: String, version: i32, generation: u64) -> Snapshot {
         let index = LineIndex::new(&text);
         Snapshot {
             text: Arc::from(text),
             index,
             version,
             generation,
+            project,
             analysis: OnceLock::new(),
             reusable: Mutex::new(None),
             occurrences: OnceLock::new(),
@@ -46,8 +58,14 @@ impl Snapshot {
     }
 
     /// A snapshot of the text that follows `previous`, reusing its work where it can.
-    pub fn following(previous: &Snapshot, text: String, version: i32, generation: u64) -> Snapshot {
-        let snap = Snapshot::new(text, version, generation);
+    pub fn following(
+        previous: &Snapshot,
+        project: Arc<Project>,
+        text: String,
+        version: i32,
+        generation: u64,
+    ) -> Snapshot {
+        let snap = Snapshot::under(project, text, version, generation);
         *snap.reusable_slot() = previous.reusable_slot().clone();
         snap
     }
@@ -58,18 +76,25 @@ impl Snapshot {
     }
 
     /// The analysis, computed on first use, deriving again only the systems that changed
-    /// since the work it reuses. The editor view uses linear propagation so that typing stays
-    /// smooth; `syz eval` defaults to Monte Carlo.
+    /// since the work it reuses. It uses the project's settings, except that propagation is
+    /// first order so that typing stays smooth (see `syzygy::settings::EditorSettings`). A
+    /// project file that cannot be used is reported on the first line.
     pub fn analysis(&self) -> Arc<Analysis> {
         self.analysis
             .get_or_init(|| {
                 let previous = self.reusable_slot().clone();
-                let (analysis, reusable) = syzygy::analyze_reusing(
+                let (mut analysis, reusable) = syzygy::analyze_reusing(
                     FileId(0),
                     &self.text,
-                    &Options::linear(),
+                    &self.project.editor.settings,
                     previous.as_deref(),
                 );
+                if let Some(e) = &self.project.error {
+                    analysis
+                        .diagnostics
+                        .push(e.diagnostic(FileId(0), &self.text));
+                    syzygy::diagnostic::sort_diagnostics(&mut analysis.diagnostics);
+                }
                 *self.reusable_slot() = Some(Arc::new(reusable));
                 Arc::new(analysis)
             })
@@ -165,14 +190,19 @@ impl Documents {
         self.docs.lock().unwrap_or_else(|e| e.into_inner())
     }
 
-    pub fn open(&self, uri: Url, text: String, version: i32) -> Arc<Snapshot> {
+    /// Open a document under its project (looked up under the lock, like every change, so
+    /// that a project file read later never loses to one read earlier).
+    pub fn open(&self, uri: Url, text: String, version: i32, projects: &Projects) -> Arc<Snapshot> {
+        let mut docs = self.lock();
+        let project = projects.for_document(&uri);
         let g = self.generation.fetch_add(1, Ordering::SeqCst) + 1;
-        let snap = Arc::new(Snapshot::new(text, version, g));
-        self.lock().insert(uri, snap.clone());
+        let snap = Arc::new(Snapshot::under(project, text, version, g));
+        docs.insert(uri, snap.clone());
         snap
     }
 
-    /// Apply a change under the lock, so concurrent changes never interleave. Gives the new
+    /// Apply a change under the lock, so concurrent changes never interleave; the project is
+    /// looked up again (a project file changed on disk is noticed here). Gives the new
     /// snapshot and the one it replaced, for the caller to free off the way to the new
     /// diagnostics (freeing the analysis of a large file takes milliseconds).
     pub fn change(
@@ -181,14 +211,36 @@ impl Documents {
         version: i32,
         changes: Vec<TextDocumentContentChangeEvent>,
         enc: Encoding,
+        projects: &Projects,
     ) -> Option<(Arc<Snapshot>, Arc<Snapshot>)> {
         let mut docs = self.lock();
         let old = docs.get_mut(uri)?;
         let text = apply_changes(&old.text, changes, enc);
+        let project = projects.for_document(uri);
         let g = self.generation.fetch_add(1, Ordering::SeqCst) + 1;
-        let snap = Arc::new(Snapshot::following(old, text, version, g));
+        let snap = Arc::new(Snapshot::following(old, project, text, version, g));
         let replaced = std::mem::replace(old, snap.clone());
         Some((snap, replaced))
+    }
+
+    /// Look up every document's project again; a document whose project changed gets a new
+    /// snapshot of the same text and version. Gives each such document with its new snapshot
+    /// and the one replaced.
+    pub fn refresh(&self, projects: &Projects) -> Vec<(Url, Arc<Snapshot>, Arc<Snapshot>)> {
+        let mut docs = self.lock();
+        let mut out = Vec::new();
+        for (uri, old) in docs.iter_mut() {
+            let project = projects.for_document(uri);
+            if Arc::ptr_eq(&project, &old.project) {
+                continue;
+            }
+            let g = self.generation.fetch_add(1, Ordering::SeqCst) + 1;
+            let text = old.text.to_string();
+            let snap = Arc::new(Snapshot::following(old, project, text, old.version, g));
+            let replaced = std::mem::replace(old, snap.clone());
+            out.push((uri.clone(), snap, replaced));
+        }
+        out
     }
 
     pub fn close(&self, uri: &Url) {
@@ -281,7 +333,7 @@ mod tests {
     /// Analyse a snapshot; its diagnostics must be those of a fresh analysis. Gives how many
     /// systems it reused.
     fn reused_when_analysed(snap: &Snapshot) -> Option<usize> {
-        let fresh = syzygy::analyze(FileId(0), &snap.text, &Options::linear());
+        let fresh = syzygy::analyze(FileId(0), &snap.text, &syzygy::Settings::linear());
         assert_eq!(snap.analysis().diagnostics, fresh.diagnostics);
         assert_eq!(fresh.diagnostics.len(), 3, "one inconsistency per system");
         snap.reused_systems()
@@ -300,12 +352,12 @@ mod tests {
         assert_eq!(reused_when_analysed(&s1), Some(0));
         // A longer first system moves the other two.
         let two = one.replacen("1.3", "1.30", 1);
-        let s2 = Snapshot::following(&s1, two.clone(), 2, 2);
+        let s2 = Snapshot::following(&s1, Project::none(), two.clone(), 2, 2);
         assert_eq!(reused_when_analysed(&s2), Some(2));
         // Snapshots never analysed (overtaken while typing) pass on the older work.
         let three = two.replacen("1.4", "1.45", 1);
-        let s3 = Snapshot::following(&s2, three.clone(), 3, 3);
-        let s4 = Snapshot::following(&s3, three.replacen("1.5", "1.55", 1), 4, 4);
+        let s3 = Snapshot::following(&s2, Project::none(), three.clone(), 3, 3);
+        let s4 = Snapshot::following(&s3, Project::none(), three.replacen("1.5", "1.55", 1), 4, 4);
         assert_eq!(reused_when_analysed(&s4), Some(1));
     }
 }

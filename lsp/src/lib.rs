@@ -1,6 +1,7 @@
 //! The Syzygy language server, started as `syz lsp` (stdio).
 //!
 //! A thin front end over the core: [`documents`] keeps open buffers as immutable snapshots,
+//! [`project`] finds and reads the `syzygy.toml` of each (the core parses and layers it),
 //! [`server`] converts protocol requests into calls of `syzygy::ide` and back, [`convert`]
 //! maps core data to protocol types, and [`transport`] filters stdin for the quirks of
 //! tower-lsp 0.20. No language or physics logic lives here.
@@ -9,6 +10,7 @@
 
 pub mod convert;
 pub mod documents;
+pub mod project;
 pub mod server;
 pub mod transport;
 

@@ -4,8 +4,9 @@
 
 use crate::convert;
 use crate::documents::{Documents, Encoding, Snapshot};
+use crate::project::{project_file_path, Projects};
 use std::collections::HashMap;
-use std::sync::{Arc, Mutex, OnceLock};
+use std::sync::{Arc, OnceLock};
 use std::time::Duration;
 use syzygy::ide;
 use tower_lsp::jsonrpc::{Error, Result};
@@ -24,7 +25,10 @@ pub struct Backend {
 struct State {
     docs: Documents,
     encoding: OnceLock<Encoding>,
-    folders: Mutex<Vec<WorkspaceFolder>>,
+    /// The project files of the documents, and the workspace folders that bound the search.
+    projects: Projects,
+    /// Whether the client lets the server register for changes of project files.
+    can_watch: OnceLock<bool>,
 }
 
 impl State {
@@ -70,6 +74,42 @@ impl Backend {
             client
                 .publish_diagnostics(uri, diags, Some(snap.version))
                 .await;
+        });
+    }
+
+    /// Analyse again, and publish anew, every open document whose project changed (a project
+    /// file was changed, created, deleted, or opened or closed in the editor).
+    fn refresh_projects(&self) {
+        for (uri, snap, replaced) in self.state.docs.refresh(&self.state.projects) {
+            self.schedule_diagnostics(uri, snap);
+            tokio::task::spawn_blocking(move || drop(replaced));
+        }
+    }
+
+    /// Ask the client to report changes of project files (`**/syzygy.toml`).
+    fn watch_project_files(&self) {
+        let options = DidChangeWatchedFilesRegistrationOptions {
+            watchers: vec![FileSystemWatcher {
+                glob_pattern: GlobPattern::String(format!("**/{}", syzygy::settings::FILE_NAME)),
+                kind: None,
+            }],
+        };
+        let registration = Registration {
+            id: "syzygy-project-files".to_string(),
+            method: "workspace/didChangeWatchedFiles".to_string(),
+            register_options: serde_json::to_value(options).ok(),
+        };
+        let client = self.client.clone();
+        // Not awaited here: the answer may take a while, and nothing waits for it.
+        tokio::spawn(async move {
+            if let Err(e) = client.register_capability(vec![registration]).await {
+                client
+                    .log_message(
+                        MessageType::WARNING,
+                        format!("project files are not watched ({e}); a change is noticed at the next edit"),
+                    )
+                    .await;
+            }
         });
     }
 
@@ -124,9 +164,23 @@ impl LanguageServer for Backend {
             Encoding::Utf16
         };
         let _ = self.state.encoding.set(enc);
-        if let Some(f) = params.workspace_folders {
-            *self.state.folders.lock().unwrap_or_else(|e| e.into_inner()) = f;
+        match (params.workspace_folders, params.root_uri) {
+            (Some(folders), _) => {
+                for f in folders {
+                    self.state.projects.add_root(&f.uri);
+                }
+            }
+            (None, Some(root)) => self.state.projects.add_root(&root),
+            (None, None) => {}
         }
+        let can_watch = params
+            .capabilities
+            .workspace
+            .as_ref()
+            .and_then(|w| w.did_change_watched_files.as_ref())
+            .and_then(|d| d.dynamic_registration)
+            .unwrap_or(false);
+        let _ = self.state.can_watch.set(can_watch);
         let legend = SemanticTokensLegend {
             token_types: convert::TOKEN_TYPES.to_vec(),
             token_modifiers: Vec::new(),
@@ -195,6 +249,9 @@ impl LanguageServer for Backend {
     }
 
     async fn initialized(&self, _: InitializedParams) {
+        if self.state.can_watch.get() == Some(&true) {
+            self.watch_project_files();
+        }
         self.client
             .log_message(MessageType::INFO, "syzygy language server ready")
             .await;
@@ -206,22 +263,50 @@ impl LanguageServer for Backend {
 
     async fn did_open(&self, params: DidOpenTextDocumentParams) {
         let doc = params.text_document;
-        let snap = self.state.docs.open(doc.uri.clone(), doc.text, doc.version);
+        if let Some(path) = project_file_path(&doc.uri) {
+            // The editor's buffer of a project file stands for the file while it is open.
+            self.state.projects.set_buffer(path, doc.text, doc.version);
+            self.refresh_projects();
+            return;
+        }
+        let snap =
+            self.state
+                .docs
+                .open(doc.uri.clone(), doc.text, doc.version, &self.state.projects);
         self.schedule_diagnostics(doc.uri, snap);
+        // Its project file may have changed unnoticed since the other documents were analysed.
+        self.refresh_projects();
     }
 
     async fn did_change(&self, params: DidChangeTextDocumentParams) {
         let uri = params.text_document.uri;
+        let version = params.text_document.version;
+        if let Some(path) = project_file_path(&uri) {
+            if let Some(text) = self.state.projects.buffer_text(&path) {
+                let text =
+                    crate::documents::apply_changes(&text, params.content_changes, self.enc());
+                self.state.projects.set_buffer(path, text, version);
+                self.refresh_projects();
+            }
+            return;
+        }
         let snap = self.state.docs.change(
             &uri,
-            params.text_document.version,
+            version,
             params.content_changes,
             self.enc(),
+            &self.state.projects,
         );
         match snap {
             Some((snap, replaced)) => {
+                let project_changed = !Arc::ptr_eq(&snap.project, &replaced.project);
                 self.schedule_diagnostics(uri, snap);
                 tokio::task::spawn_blocking(move || drop(replaced));
+                if project_changed {
+                    // Noticed here (say, edited outside the editor): the other documents
+                    // under the same file follow.
+                    self.refresh_projects();
+                }
             }
             None => {
                 self.client
@@ -236,17 +321,39 @@ impl LanguageServer for Backend {
 
     async fn did_close(&self, params: DidCloseTextDocumentParams) {
         let uri = params.text_document.uri;
+        if let Some(path) = project_file_path(&uri) {
+            self.state.projects.close_buffer(&path);
+            self.refresh_projects();
+            return;
+        }
         self.state.docs.close(&uri);
         self.client.publish_diagnostics(uri, Vec::new(), None).await;
     }
 
     async fn did_change_workspace_folders(&self, params: DidChangeWorkspaceFoldersParams) {
-        let mut folders = self.state.folders.lock().unwrap_or_else(|e| e.into_inner());
-        folders.retain(|f| !params.event.removed.iter().any(|r| r.uri == f.uri));
-        folders.extend(params.event.added);
+        for f in &params.event.removed {
+            self.state.projects.remove_root(&f.uri);
+        }
+        for f in &params.event.added {
+            self.state.projects.add_root(&f.uri);
+        }
+        // The folders bound the search for project files.
+        self.refresh_projects();
     }
 
     async fn did_change_watched_files(&self, params: DidChangeWatchedFilesParams) {
+        // A project file changed, was created or was deleted: read it again and analyse the
+        // documents it applies to.
+        let mut projects = false;
+        for c in &params.changes {
+            if let Some(path) = project_file_path(&c.uri) {
+                self.state.projects.forget(&path);
+                projects = true;
+            }
+        }
+        if projects {
+            self.refresh_projects();
+        }
         // Open documents are served from the editor's buffer, so a file deleted or changed
         // on disk changes nothing here until the editor says so.
         for c in params.changes {
@@ -270,13 +377,15 @@ impl LanguageServer for Backend {
         let a = ready(&snap).await?;
         let off = snap.offset(p.position, self.enc());
         Ok(
-            ide::hover::hover(&a, snap.occurrences(), off).map(|(text, span)| Hover {
-                contents: HoverContents::Markup(MarkupContent {
-                    kind: MarkupKind::Markdown,
-                    value: text,
-                }),
-                range: Some(snap.range(span, self.enc())),
-            }),
+            ide::hover::hover(&a, snap.occurrences(), off, &snap.project.method).map(
+                |(text, span)| Hover {
+                    contents: HoverContents::Markup(MarkupContent {
+                        kind: MarkupKind::Markdown,
+                        value: text,
+                    }),
+                    range: Some(snap.range(span, self.enc())),
+                },
+            ),
         )
     }
 
@@ -285,7 +394,7 @@ impl LanguageServer for Backend {
         let a = ready(&snap).await?;
         let enc = self.enc();
         let span = snap.span(params.range, enc);
-        let hints = ide::hints::hints(&a, &snap.text, span.range())
+        let hints = ide::hints::hints(&a, &snap.text, span.range(), &snap.project.method)
             .into_iter()
             .map(|h| InlayHint {
                 position: snap.position(h.offset, enc),

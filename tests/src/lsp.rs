@@ -166,15 +166,26 @@ impl LspClient {
             .clone()
     }
 
-    /// `initialize` and `initialized`, with the given client capabilities.
+    /// `initialize` and `initialized`, with the given client capabilities, the workspace
+    /// root as the one workspace folder.
     pub fn initialize(&mut self, capabilities: Value) -> Value {
+        self.initialize_in(&crate::root(), capabilities)
+    }
+
+    /// `initialize` and `initialized` with `folder` as the one workspace folder.
+    pub fn initialize_in(&mut self, folder: &std::path::Path, capabilities: Value) -> Value {
         let r = self.result(
             "initialize",
             json!({"processId": null, "rootUri": null, "capabilities": capabilities,
-                   "workspaceFolders": [{"uri": file_uri(&crate::root()), "name": "syzygy"}]}),
+                   "workspaceFolders": [{"uri": file_uri(folder), "name": "syzygy"}]}),
         );
         self.notify("initialized", json!({}));
         r
+    }
+
+    /// Answer a request the server sent (such as `client/registerCapability`).
+    pub fn respond(&mut self, request: &Value, result: Value) {
+        self.send(&json!({"jsonrpc": "2.0", "id": request["id"], "result": result}));
     }
 
     pub fn open(&mut self, uri: &str, text: &str) {

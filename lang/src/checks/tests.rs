@@ -5,7 +5,7 @@ use crate::source::FileId;
 use crate::{analyze, Analysis};
 
 fn run(src: &str) -> Analysis {
-    analyze(FileId(0), src, &Options::default())
+    analyze(FileId(0), src, &Options::default().into())
 }
 
 fn rules(a: &Analysis) -> Vec<Rule> {

@@ -4,7 +4,7 @@ use crate::source::FileId;
 use crate::{analyze, Analysis};
 
 fn run(src: &str, options: &Options) -> Analysis {
-    analyze(FileId(0), src, options)
+    analyze(FileId(0), src, &options.clone().into())
 }
 
 fn get(a: &Analysis, body: &str, qty: Qty) -> Option<crate::derive::QuantityResult> {

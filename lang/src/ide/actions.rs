@@ -256,7 +256,7 @@ mod tests {
     use crate::source::FileId;
 
     fn run(src: &str, at: &str) -> (crate::Analysis, Vec<Action>) {
-        let a = crate::analyze(FileId(0), src, &crate::Options::linear());
+        let a = crate::analyze(FileId(0), src, &crate::Settings::linear());
         let off = src.find(at).unwrap();
         let acts = actions(&a, src, off..off);
         (a, acts)
@@ -272,7 +272,7 @@ mod tests {
             .find(|x| x.title == "Replace with 'period'")
             .unwrap();
         let fixed = apply_edits(SRC, &fix.edits);
-        let a = crate::analyze(FileId(0), &fixed, &crate::Options::linear());
+        let a = crate::analyze(FileId(0), &fixed, &crate::Settings::linear());
         assert!(!a.has_errors(), "{:?}", a.diagnostics);
     }
 
@@ -288,7 +288,7 @@ mod tests {
             fixed.contains("perod = 3 d  # allow(unknown-quantity): reason"),
             "{fixed}"
         );
-        let a = crate::analyze(FileId(0), &fixed, &crate::Options::linear());
+        let a = crate::analyze(FileId(0), &fixed, &crate::Settings::linear());
         assert!(a
             .diagnostics
             .iter()
@@ -305,7 +305,7 @@ mod tests {
             .unwrap();
         let out = apply_edits(&fixed_src, &d.edits);
         assert!(out.contains("    semi_major_axis = 0.04"), "{out}");
-        let a = crate::analyze(FileId(0), &out, &crate::Options::linear());
+        let a = crate::analyze(FileId(0), &out, &crate::Settings::linear());
         assert!(!a.has_errors(), "{:?}", a.diagnostics);
         let q = result(&a, 0, 1, quantities::Qty::SemiMajorAxis).unwrap();
         assert_eq!(q.origin, Origin::Declared);
@@ -320,7 +320,7 @@ mod tests {
             .unwrap();
         let out = apply_edits(SRC, &c.edits);
         assert!(out.contains("rv_amplitude = 0.0300 ± 0.0020 km/s"), "{out}");
-        let a = crate::analyze(FileId(0), &out, &crate::Options::linear());
+        let a = crate::analyze(FileId(0), &out, &crate::Settings::linear());
         let before = result(&a0, 0, 1, quantities::Qty::RvAmplitude).unwrap();
         let after = result(&a, 0, 1, quantities::Qty::RvAmplitude).unwrap();
         assert!((before.value - after.value).abs() < 1e-9 * before.value);

@@ -367,7 +367,7 @@ mod tests {
 
     fn labels(src: &str, cursor: &str) -> Vec<String> {
         let off = src.find(cursor).unwrap() + cursor.len();
-        let a = crate::analyze(FileId(0), src, &crate::Options::linear());
+        let a = crate::analyze(FileId(0), src, &crate::Settings::linear());
         complete(&a, src, off)
             .into_iter()
             .map(|c| c.label)

@@ -1,7 +1,7 @@
 //! Inlay hints: the key derived values of each body after its opening brace, and beside a
 //! declared value the value the engine derives for it from other measurements.
 
-use super::{open_brace_after, result, shown};
+use super::{open_brace_after, result, shown, Method};
 use crate::derive::Origin;
 use crate::model::Form;
 use crate::quantities::Qty;
@@ -31,8 +31,16 @@ const STAR_KEYS: &[(Qty, &str)] = &[
     (Qty::StarDensity, "ρ"),
 ];
 
-/// All hints whose offset lies in `range` (byte offsets).
-pub fn hints(a: &Analysis, src: &str, range: std::ops::Range<usize>) -> Vec<Hint> {
+/// All hints whose offset lies in `range` (byte offsets). Every tooltip ends with `method`'s
+/// line, and each body's label with its tag when there is one.
+pub fn hints(a: &Analysis, src: &str, range: std::ops::Range<usize>, method: &Method) -> Vec<Hint> {
+    let tooltip = |words: String| {
+        if method.line.is_empty() {
+            words
+        } else {
+            format!("{words}\nuncertainties: {}", method.line)
+        }
+    };
     let mut out = Vec::new();
     for (si, sys) in a.model.systems.iter().enumerate() {
         if (sys.span.end as usize) < range.start || (sys.span.start as usize) > range.end {
@@ -62,13 +70,17 @@ pub fn hints(a: &Analysis, src: &str, range: std::ops::Range<usize>) -> Vec<Hint
                 if let Some(brace) = open_brace_after(src, b.name_span.end as usize) {
                     let offset = brace + 1;
                     if range.contains(&offset) || offset == range.end {
+                        let mut label = parts.join(" · ");
+                        if let Some(tag) = &method.tag {
+                            label.push_str(&format!(" ({tag})"));
+                        }
                         out.push(Hint {
                             offset,
-                            label: parts.join(" · "),
-                            detail: format!(
+                            label,
+                            detail: tooltip(format!(
                                 "derived for {} (hover a name for the full table)",
                                 b.id
-                            ),
+                            )),
                         });
                     }
                 }
@@ -87,7 +99,10 @@ pub fn hints(a: &Analysis, src: &str, range: std::ops::Range<usize>) -> Vec<Hint
                         "derived {}",
                         shown(d.qty, alt.value, alt.below, alt.above, Form::Asymmetric)
                     ),
-                    detail: format!("by {} from other measurements of the system", alt.rule),
+                    detail: tooltip(format!(
+                        "by {} from other measurements of the system",
+                        alt.rule
+                    )),
                 });
             }
         }
@@ -104,8 +119,8 @@ mod tests {
     #[test]
     fn body_hints_show_derived_values() {
         let src = include_str!("../../../examples/veyra.syz");
-        let a = crate::analyze(FileId(0), src, &crate::Options::linear());
-        let h = hints(&a, src, 0..src.len());
+        let a = crate::analyze(FileId(0), src, &crate::Settings::linear());
+        let h = hints(&a, src, 0..src.len(), &Method::default());
         let b = src.find("planet b orbits veyra {").unwrap() + "planet b orbits veyra {".len();
         let hb = h.iter().find(|x| x.offset == b).unwrap();
         assert!(hb.label.starts_with("a = 0.04"), "{}", hb.label);
@@ -118,14 +133,21 @@ mod tests {
         assert!(h
             .iter()
             .any(|x| x.offset == star && x.label.contains("log g = ")));
-        assert!(hints(&a, src, 0..10).is_empty());
+        assert!(hints(&a, src, 0..10, &Method::default()).is_empty());
+        // The method of propagation is in every tooltip, and its tag in the body labels.
+        let m = crate::settings::EditorSettings::new(None).method();
+        let tagged = hints(&a, src, 0..src.len(), &m);
+        assert_eq!(tagged.len(), h.len());
+        assert!(tagged.iter().all(|x| x.detail.ends_with(&m.line)));
+        let tb = tagged.iter().find(|x| x.offset == b).unwrap();
+        assert_eq!(tb.label, format!("{} (first-order)", hb.label));
     }
 
     #[test]
     fn declared_value_that_can_be_derived_gets_a_hint() {
         let src = "system \"S\" {\n  star s { mass = 1.0 ± 0.05 Msun; radius = 1.0 ± 0.02 Rsun\n    log_g = 4.44 ± 0.05 }\n}\n";
-        let a = crate::analyze(FileId(0), src, &crate::Options::linear());
-        let h = hints(&a, src, 0..src.len());
+        let a = crate::analyze(FileId(0), src, &crate::Settings::linear());
+        let h = hints(&a, src, 0..src.len(), &Method::default());
         let end = src.find("4.44 ± 0.05").unwrap() + "4.44 ± 0.05".len();
         let x = h
             .iter()

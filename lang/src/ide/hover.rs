@@ -2,19 +2,31 @@
 //! a binding.
 
 use super::symbols::{self, Occurrence, Symbol};
-use super::{result, shown, shown_in};
+use super::{result, shown, shown_in, Method};
 use crate::derive::{display_unit, Origin, QuantityResult};
 use crate::model::Form;
 use crate::quantities::{self, Qty};
 use crate::source::Span;
 use crate::Analysis;
 
-/// Hover text and the span it describes.
-pub fn hover(a: &Analysis, occ: &[Occurrence], offset: usize) -> Option<(String, Span)> {
+/// Hover text and the span it describes. Hovers that show derived numbers end with
+/// `method`'s line.
+pub fn hover(
+    a: &Analysis,
+    occ: &[Occurrence],
+    offset: usize,
+    method: &Method,
+) -> Option<(String, Span)> {
     let o = symbols::at(occ, offset)?;
+    let with_method = |mut text: String| {
+        if !method.line.is_empty() {
+            text.push_str(&format!("\n\n---\nuncertainties: {}\n", method.line));
+        }
+        text
+    };
     let text = match &o.symbol {
-        Symbol::Quantity { system, body, qty } => quantity(a, *system, body, *qty)?,
-        Symbol::Body { system, name } => body_table(a, *system, name)?,
+        Symbol::Quantity { system, body, qty } => with_method(quantity(a, *system, body, *qty)?),
+        Symbol::Body { system, name } => with_method(body_table(a, *system, name)?),
         Symbol::Unit(sym) => unit(sym)?,
         Symbol::Ref(id) => match a.model.refs.iter().find(|r| &r.id == id) {
             Some(r) => format!("**reference `{id}`**\n\n{}", r.text),
@@ -232,14 +244,38 @@ mod tests {
     const VEYRA: &str = include_str!("../../../examples/veyra.syz");
 
     fn hover_at(needle: &str, nth: usize) -> String {
-        let a = crate::analyze(FileId(0), VEYRA, &crate::Options::linear());
+        hover_with(needle, nth, &Method::default())
+    }
+
+    fn hover_with(needle: &str, nth: usize, method: &Method) -> String {
+        let a = crate::analyze(FileId(0), VEYRA, &crate::Settings::linear());
         let occ = symbols::occurrences(&a.ast);
         let off = VEYRA
             .match_indices(needle)
             .nth(nth)
             .map(|(i, _)| i)
             .unwrap();
-        hover(&a, &occ, off).map(|h| h.0).unwrap_or_default()
+        hover(&a, &occ, off, method)
+            .map(|h| h.0)
+            .unwrap_or_default()
+    }
+
+    #[test]
+    fn hovers_with_numbers_say_how_they_were_propagated() {
+        let m = crate::settings::EditorSettings::new(None).method();
+        for needle in ["period", "b orbits"] {
+            let h = hover_with(needle, 0, &m);
+            assert!(
+                h.ends_with(&format!("uncertainties: {}\n", m.line)),
+                "{needle}: {h}"
+            );
+        }
+        let h = hover_with("Msun", 0, &m);
+        assert!(
+            !h.contains("uncertainties"),
+            "a unit has no uncertainty: {h}"
+        );
+        assert!(!hover_at("period", 0).contains("uncertainties"));
     }
 
     #[test]

@@ -15,6 +15,16 @@ use crate::model::Form;
 use crate::quantities::Qty;
 use crate::Analysis;
 
+/// How the numbers an editor shows were propagated (see
+/// [`crate::settings::EditorSettings::method`]); hover and inlay hints say it.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct Method {
+    /// One line for hover and tooltips; empty to say nothing.
+    pub line: String,
+    /// A word or two for inlay hint labels, when `syz eval` would propagate otherwise.
+    pub tag: Option<String>,
+}
+
 /// The result of a quantity of a body, if the engine has one.
 pub fn result(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<&QuantityResult> {
     a.results.get(si)?.bodies.get(bi)?.get(qty)

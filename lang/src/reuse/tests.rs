@@ -64,8 +64,8 @@ impl Doc {
     }
 }
 
-fn linear() -> Options {
-    Options::linear()
+fn linear() -> Settings {
+    Settings::linear()
 }
 
 /// The reused analysis must be the fresh one in every part.
@@ -81,9 +81,9 @@ fn assert_same(got: &Analysis, want: &Analysis) {
 }
 
 /// Analyse `src` reusing `previous`, check it against a fresh analysis, and return it.
-fn step(src: &str, options: &Options, previous: Option<&Reusable>) -> (Analysis, Reusable) {
-    let (got, keep) = analyze_reusing(FileId(0), src, options, previous);
-    let want = crate::analyze(FileId(0), src, options);
+fn step(src: &str, settings: &Settings, previous: Option<&Reusable>) -> (Analysis, Reusable) {
+    let (got, keep) = analyze_reusing(FileId(0), src, settings, previous);
+    let want = crate::analyze(FileId(0), src, settings);
     assert_same(&got, &want);
     (got, keep)
 }
@@ -219,10 +219,10 @@ fn other_options_or_another_file_reuse_nothing() {
     let doc = Doc::new(&[0, 2, 4]);
     let src = doc.text();
     let (_, keep) = step(&src, &linear(), None);
-    let tighter = Options {
+    let tighter = Settings::from(Options {
         consistency_sigma: 1.0,
-        ..linear()
-    };
+        ..Options::linear()
+    });
     let (_, other) = step(&src, &tighter, Some(&keep));
     assert_eq!(other.reused(), 0);
     let (_, other) = analyze_reusing(FileId(1), &src, &linear(), Some(&keep));
@@ -232,11 +232,28 @@ fn other_options_or_another_file_reuse_nothing() {
 }
 
 #[test]
+fn other_severities_reuse_everything_and_apply_afresh() {
+    let doc = Doc::new(&[0, 2, 4]);
+    let src = doc.text();
+    let (plain, keep) = step(&src, &linear(), None);
+    let rule = plain.diagnostics.first().map(|d| d.rule).unwrap();
+    assert_ne!(rule, Rule::Syntax, "{:?}", plain.diagnostics);
+    let silenced = linear().then(&crate::settings::Layer {
+        overrides: vec![(rule, None)],
+        ..crate::settings::Layer::default()
+    });
+    let (a, other) = step(&src, &silenced, Some(&keep));
+    assert_eq!(other.reused(), 3);
+    assert!(a.diagnostics.iter().all(|d| d.rule != rule));
+    assert!(a.diagnostics.len() < plain.diagnostics.len());
+}
+
+#[test]
 fn monte_carlo_results_are_reused_exactly() {
-    let mc = Options {
+    let mc = Settings::from(Options {
         samples: 200,
         ..Options::default()
-    };
+    });
     let mut doc = Doc::new(&[0, 1, 4, 2]);
     let (_, keep) = step(&doc.text(), &mc, None);
     doc.systems.insert(0, system(3, 9));

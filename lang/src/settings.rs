@@ -1,0 +1,411 @@
+//! Settings: what the derivation engine and the diagnostics are run with, and the project
+//! file `syzygy.toml` that holds them for a catalogue.
+//!
+//! One [`Settings`] value (derivation [`Options`] and rule severity overrides) is built by
+//! layering: the engine's defaults, then the project file, then the command line (or, in the
+//! language server, the editor's own choice of propagation). Each source gives a [`Layer`]:
+//! what it sets explicitly. [`crate::analyze`] and [`crate::analyze_reusing`] take the result
+//! and apply its overrides themselves, so `syz check` and the editor cannot disagree on
+//! severities. Front ends find and read the project file (the core does no I/O) and pass its
+//! text to [`Layer::from_project_file`].
+//!
+//! ```toml
+//! [rules]
+//! inconsistent = "error"        # error | warning | note | off
+//! unstable-spacing = "off"
+//!
+//! [derivation]
+//! propagation = "linear"        # monte-carlo | linear
+//! samples = 5000
+//! seed = 7
+//! consistency_sigma = 3.0
+//! ```
+
+use crate::derive::{Options, Propagation};
+use crate::diagnostic::{Diagnostic, Rule, Severity, SeverityOverride};
+use crate::source::{FileId, Span};
+use serde::Deserialize;
+use std::collections::BTreeMap;
+
+/// The name front ends look for.
+pub const FILE_NAME: &str = "syzygy.toml";
+
+#[derive(Debug, Clone, Default, PartialEq, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct Raw {
+    #[serde(default)]
+    rules: BTreeMap<String, String>,
+    #[serde(default)]
+    derivation: RawDerivation,
+}
+
+#[derive(Debug, Clone, Default, PartialEq, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawDerivation {
+    propagation: Option<String>,
+    samples: Option<u64>,
+    seed: Option<u64>,
+    consistency_sigma: Option<f64>,
+}
+
+/// The settings one source gives explicitly (`None`: not given, the layer below decides):
+/// a project file, the command line's flags, the editor.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct Layer {
+    /// Severity overrides in order (a later one for the same rule wins).
+    pub overrides: Vec<SeverityOverride>,
+    pub propagation: Option<Propagation>,
+    pub samples: Option<usize>,
+    pub seed: Option<u64>,
+    pub consistency_sigma: Option<f64>,
+}
+
+impl Layer {
+    /// Parse the text of a project file; `path` names it in the error, which is the sentence
+    /// `syz` prints after `syz: error: `.
+    pub fn from_project_file(path: &str, text: &str) -> Result<Layer, ProjectFileError> {
+        parse(text).map_err(|reason| ProjectFileError {
+            path: path.to_string(),
+            reason,
+        })
+    }
+}
+
+/// Parse the text of a `syzygy.toml`. Errors are sentences fit to show as they are.
+fn parse(text: &str) -> Result<Layer, String> {
+    let raw: Raw = toml::from_str(text).map_err(|e| e.message().to_string())?;
+    let mut overrides = Vec::new();
+    for (id, level) in &raw.rules {
+        let rule = Rule::from_id(id).ok_or_else(|| {
+            let near = crate::text::closest(id, Rule::ALL.iter().map(|r| r.id()));
+            match near {
+                Some(n) => format!("[rules]: unknown rule '{id}' (did you mean '{n}'?)"),
+                None => format!("[rules]: unknown rule '{id}'"),
+            }
+        })?;
+        let severity = match level.as_str() {
+            "error" => Some(Severity::Error),
+            "warning" => Some(Severity::Warning),
+            "note" => Some(Severity::Note),
+            "off" | "allow" => None,
+            other => {
+                return Err(format!(
+                    "[rules]: '{id}' = \"{other}\": expected \"error\", \"warning\", \"note\" or \"off\""
+                ))
+            }
+        };
+        overrides.push((rule, severity));
+    }
+    let d = raw.derivation;
+    let propagation = match d.propagation.as_deref() {
+        None => None,
+        Some("monte-carlo") => Some(Propagation::MonteCarlo),
+        Some("linear") => Some(Propagation::Linear),
+        Some(other) => {
+            return Err(format!(
+                "[derivation]: propagation = \"{other}\": expected \"monte-carlo\" or \"linear\""
+            ))
+        }
+    };
+    let samples = match d.samples {
+        None => None,
+        Some(n) if (1..=10_000_000).contains(&n) => Some(n as usize),
+        Some(n) => {
+            return Err(format!(
+                "[derivation]: samples = {n}: expected 1 to 10000000"
+            ))
+        }
+    };
+    if let Some(s) = d.consistency_sigma {
+        if !(s.is_finite() && s > 0.0) {
+            return Err(format!(
+                "[derivation]: consistency_sigma = {s}: expected a positive number"
+            ));
+        }
+    }
+    Ok(Layer {
+        overrides,
+        propagation,
+        samples,
+        seed: d.seed,
+        consistency_sigma: d.consistency_sigma,
+    })
+}
+
+/// Everything an analysis is run with: the derivation options and the severity overrides.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct Settings {
+    pub options: Options,
+    /// Severity overrides in order of increasing precedence (project file first, then flags).
+    pub overrides: Vec<SeverityOverride>,
+}
+
+impl From<Options> for Settings {
+    fn from(options: Options) -> Settings {
+        Settings {
+            options,
+            overrides: Vec::new(),
+        }
+    }
+}
+
+impl Settings {
+    /// The defaults with first-order propagation and no overrides.
+    pub fn linear() -> Settings {
+        Options::linear().into()
+    }
+
+    /// The engine's defaults, then the project file's layer (if there is one), then the
+    /// explicit flags: a flag beats the project file, which beats the defaults.
+    pub fn resolve(project_file: Option<&Layer>, flags: &Layer) -> Settings {
+        let base = Settings::default();
+        let base = match project_file {
+            Some(p) => base.then(p),
+            None => base,
+        };
+        base.then(flags)
+    }
+
+    /// `layer` laid over these settings: what it gives replaces what is here, and its
+    /// overrides come after (so win over) the ones here.
+    pub fn then(mut self, layer: &Layer) -> Settings {
+        let o = &mut self.options;
+        if let Some(p) = layer.propagation {
+            o.propagation = p;
+        }
+        if let Some(n) = layer.samples {
+            o.samples = n;
+        }
+        if let Some(s) = layer.seed {
+            o.seed = s;
+        }
+        if let Some(s) = layer.consistency_sigma {
+            o.consistency_sigma = s;
+        }
+        self.overrides.extend(layer.overrides.iter().copied());
+        self
+    }
+
+    /// Change or drop diagnostics as the overrides say (syntax and I/O problems keep their
+    /// severity).
+    pub fn apply_overrides(&self, diags: &mut Vec<Diagnostic>) {
+        crate::diagnostic::apply_overrides(diags, &self.overrides);
+    }
+}
+
+/// A project file that cannot be used: it cannot be read, is not TOML, or says something
+/// the engine does not accept. Shown as `path: reason`, the sentence `syz` prints after
+/// `syz: error: ` and the language server shows on the documents it applies to.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ProjectFileError {
+    pub path: String,
+    pub reason: String,
+}
+
+impl std::fmt::Display for ProjectFileError {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(f, "{}: {}", self.path, self.reason)
+    }
+}
+
+impl ProjectFileError {
+    /// A project file the front end found but could not read (`why` in words).
+    pub fn unreadable(path: &str, why: impl std::fmt::Display) -> ProjectFileError {
+        ProjectFileError {
+            path: path.to_string(),
+            reason: format!("cannot be read: {why}"),
+        }
+    }
+
+    /// The error as a diagnostic on the first line of a file `src` it applies to (rule `io`:
+    /// like an unreadable file, it cannot be silenced or downgraded).
+    pub fn diagnostic(&self, file: FileId, src: &str) -> Diagnostic {
+        let end = src.find(['\n', '\r']).unwrap_or(src.len());
+        Diagnostic::new(Rule::Io, Span::new(file, 0, end), self.to_string())
+            .with_note("`syz check` stops with this error (exit status 2); until the project file is fixed, this file is checked with the default settings")
+            .with_help(format!("fix {FILE_NAME} (see docs/project-file.md)"))
+    }
+}
+
+/// What the language server analyses a document with, and how that compares with `syz eval`.
+///
+/// The editor keeps everything the project file says (severities, silencing by `off`, the
+/// consistency threshold), so its diagnostics are those of `syz check`, except the
+/// propagation of uncertainties: always first order, which is fast enough to re-derive on
+/// every keystroke. Monte Carlo, when the project asks for it or by default, is left to the
+/// command line, and hover and inlay hints say so.
+#[derive(Debug, Clone, PartialEq)]
+pub struct EditorSettings {
+    pub settings: Settings,
+    /// What `syz eval` uses for the same file when given no flags.
+    pub eval_propagation: Propagation,
+    /// Whether `eval_propagation` is the project file's choice (else the default).
+    pub eval_from_project_file: bool,
+}
+
+impl EditorSettings {
+    /// The editor's settings under a project file's layer (`None`: no usable project file).
+    pub fn new(project_file: Option<&Layer>) -> EditorSettings {
+        let editor = Layer {
+            propagation: Some(Propagation::Linear),
+            ..Layer::default()
+        };
+        let eval = Settings::resolve(project_file, &Layer::default());
+        EditorSettings {
+            settings: eval.clone().then(&editor),
+            eval_propagation: eval.options.propagation,
+            eval_from_project_file: project_file.is_some_and(|p| p.propagation.is_some()),
+        }
+    }
+
+    /// How the numbers shown were propagated, for hover and inlay hints.
+    pub fn method(&self) -> crate::ide::Method {
+        let used = self.settings.options.propagation;
+        let why = if self.eval_from_project_file {
+            format!("per {FILE_NAME}")
+        } else {
+            "by default".to_string()
+        };
+        if used == self.eval_propagation {
+            return crate::ide::Method {
+                line: format!(
+                    "{} propagation, as `syz eval` uses {why}",
+                    propagation_words(used)
+                ),
+                tag: None,
+            };
+        }
+        crate::ide::Method {
+            line: format!(
+                "{} propagation (the editor's choice for speed; `syz eval` uses {} {why}, so the last digits may differ)",
+                propagation_words(used),
+                propagation_words(self.eval_propagation)
+            ),
+            tag: Some(propagation_words(used).to_string()),
+        }
+    }
+}
+
+fn propagation_words(p: Propagation) -> &'static str {
+    match p {
+        Propagation::Linear => "first-order",
+        Propagation::MonteCarlo => "Monte Carlo",
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn layer(text: &str) -> Result<Layer, ProjectFileError> {
+        Layer::from_project_file("cat/syzygy.toml", text)
+    }
+
+    #[test]
+    fn full_file() {
+        let c = layer(
+            "[rules]\ninconsistent = \"error\"\nunstable-spacing = \"off\"\n[derivation]\npropagation = \"linear\"\nsamples = 500\nseed = 9\nconsistency_sigma = 5.0\n",
+        )
+        .unwrap();
+        assert_eq!(
+            c.overrides,
+            vec![
+                (Rule::Inconsistent, Some(Severity::Error)),
+                (Rule::UnstableSpacing, None)
+            ]
+        );
+        let o = Settings::resolve(Some(&c), &Layer::default()).options;
+        assert_eq!(o.propagation, Propagation::Linear);
+        assert_eq!((o.samples, o.seed, o.consistency_sigma), (500, 9, 5.0));
+    }
+
+    #[test]
+    fn flags_beat_the_project_file_which_beats_the_defaults() {
+        let project = layer(
+            "[rules]\ninconsistent = \"error\"\n[derivation]\nseed = 9\nconsistency_sigma = 5.0\n",
+        )
+        .unwrap();
+        let flags = Layer {
+            overrides: vec![(Rule::Inconsistent, Some(Severity::Note))],
+            consistency_sigma: Some(2.0),
+            ..Layer::default()
+        };
+        let s = Settings::resolve(Some(&project), &flags);
+        let defaults = Options::default();
+        assert_eq!(s.options.propagation, defaults.propagation);
+        assert_eq!(s.options.samples, defaults.samples);
+        assert_eq!((s.options.seed, s.options.consistency_sigma), (9, 2.0));
+        let mut d = vec![Diagnostic::new(Rule::Inconsistent, Span::default(), "x")];
+        s.apply_overrides(&mut d);
+        assert_eq!(
+            d[0].severity,
+            Severity::Note,
+            "the flag comes last and wins"
+        );
+        assert_eq!(
+            Settings::resolve(None, &Layer::default()),
+            Settings::default()
+        );
+    }
+
+    #[test]
+    fn mistakes_are_explained() {
+        let e = layer("[rules]\ninconsistant = \"error\"\n").unwrap_err();
+        assert_eq!(
+            e.to_string(),
+            "cat/syzygy.toml: [rules]: unknown rule 'inconsistant' (did you mean 'inconsistent'?)"
+        );
+        assert!(layer("[rules]\ninconsistent = \"loud\"\n")
+            .unwrap_err()
+            .reason
+            .contains("expected"));
+        assert!(layer("[derivation]\nsamples = 0\n").is_err());
+        assert!(layer("[derivaton]\n").is_err());
+        assert!(layer("not toml [").is_err());
+        assert_eq!(layer("").unwrap(), Layer::default());
+        assert_eq!(
+            ProjectFileError::unreadable("a/syzygy.toml", "permission denied").to_string(),
+            "a/syzygy.toml: cannot be read: permission denied"
+        );
+    }
+
+    #[test]
+    fn a_bad_project_file_is_an_io_error_on_the_first_line() {
+        let e = layer("[derivation]\nsamples = 0\n").unwrap_err();
+        let d = e.diagnostic(FileId(3), "system \"A\" {\r\n}\n");
+        assert_eq!((d.rule, d.severity), (Rule::Io, Severity::Error));
+        assert_eq!(d.span, Span::new(FileId(3), 0, 12));
+        assert_eq!(d.message, e.to_string());
+        assert_eq!(e.diagnostic(FileId(0), "").span, Span::default());
+    }
+
+    #[test]
+    fn the_editor_keeps_the_project_but_propagates_to_first_order() {
+        let project = layer(
+            "[rules]\nunstable-spacing = \"off\"\n[derivation]\npropagation = \"monte-carlo\"\nconsistency_sigma = 4.0\n",
+        )
+        .unwrap();
+        let e = EditorSettings::new(Some(&project));
+        let cli = Settings::resolve(Some(&project), &Layer::default());
+        assert_eq!(e.settings.overrides, cli.overrides);
+        assert_eq!(e.settings.options.consistency_sigma, 4.0);
+        assert_eq!(e.settings.options.propagation, Propagation::Linear);
+        let m = e.method();
+        assert_eq!(
+            m.line,
+            "first-order propagation (the editor's choice for speed; `syz eval` uses Monte Carlo per syzygy.toml, so the last digits may differ)"
+        );
+        assert_eq!(m.tag.as_deref(), Some("first-order"));
+        assert!(EditorSettings::new(None)
+            .method()
+            .line
+            .contains("`syz eval` uses Monte Carlo by default"));
+        let linear = layer("[derivation]\npropagation = \"linear\"\n").unwrap();
+        let m = EditorSettings::new(Some(&linear)).method();
+        assert_eq!(
+            m.line,
+            "first-order propagation, as `syz eval` uses per syzygy.toml"
+        );
+        assert_eq!(m.tag, None);
+    }
+}
