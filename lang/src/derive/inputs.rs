@@ -1,0 +1,293 @@
+//! Declared measurements, defaults and spectral-type estimates become the inputs of the
+//! engine: values with their uncertainty, samples (Monte Carlo) and labels.
+
+use super::*;
+
+/// Defaults for planet quantities that rules need, with the words shown when used.
+pub(super) fn default_for(q: Qty) -> Option<(f64, &'static str)> {
+    Some(match q {
+        Qty::Eccentricity => (0.0, "eccentricity = 0 (default: circular orbit)"),
+        Qty::ArgPeriastron => (
+            std::f64::consts::FRAC_PI_2,
+            "argument of periastron = 90 deg (default; no effect on a circular orbit)",
+        ),
+        Qty::Albedo => (0.0, "Bond albedo = 0 (default)"),
+        Qty::Redistribution => (
+            1.0,
+            "heat redistribution f = 1 (default: full redistribution)",
+        ),
+        _ => return None,
+    })
+}
+
+impl<'m> Derivation<'m> {
+    pub(super) fn new_input(&mut self, label: String, m: &Measurement, lo: f64, hi: f64) -> Value {
+        let id = u32::try_from(self.inputs.len()).unwrap_or(u32::MAX);
+        let (below, above) = match m.form {
+            Form::UpperLimit | Form::LowerLimit => {
+                let width = if m.form == Form::UpperLimit {
+                    m.value - lo
+                } else {
+                    hi - m.value
+                };
+                let s = width / 12f64.sqrt();
+                (s, s)
+            }
+            _ => (m.below, m.above),
+        };
+        let nominal = match m.form {
+            Form::UpperLimit => (lo + m.value) / 2.0,
+            Form::LowerLimit => (m.value + hi) / 2.0,
+            _ => m.value,
+        };
+        let n = self.n();
+        let samples = (n > 0).then(|| {
+            let seed = value::stable_hash(&[&self.sys.name, &label], self.options.seed);
+            std::sync::Arc::from(value::draw(m, lo, hi, n, seed))
+        });
+        self.inputs.push(InputInfo {
+            label,
+            below,
+            above,
+        });
+        let exact = below == 0.0 && above == 0.0;
+        Value {
+            nominal,
+            grad: if exact { Vec::new() } else { vec![(id, 1.0)] },
+            samples,
+        }
+    }
+
+    pub(super) fn declare_measurements(&mut self) {
+        let sys = self.sys;
+        for (bi, body) in sys.bodies.iter().enumerate() {
+            for decl in &body.declared {
+                let Content::Measured(m) = &decl.content else {
+                    continue;
+                };
+                let def = quantities::def(decl.qty);
+                let (lo, hi) = def.limits();
+                let usable = match m.form {
+                    Form::UpperLimit => lo.is_finite(),
+                    Form::LowerLimit => hi.is_finite(),
+                    _ => true,
+                };
+                if !usable {
+                    self.diagnostics.push(
+                        Diagnostic::new(Rule::NotDerivable, decl.span, format!("the lower limit on '{}' is not used in derivations", def.name))
+                            .with_note("a lower limit without an upper physical bound has no distribution to sample; derived values that need it are not computed"),
+                    );
+                    continue;
+                }
+                let label = format!("{}.{}", body.id, def.name);
+                let v = self.new_input(label, m, lo, hi);
+                let origin = if decl.assumed {
+                    Origin::Assumed
+                } else {
+                    Origin::Declared
+                };
+                let mut assumptions: SortedSet<Arc<str>> = SortedSet::new();
+                if decl.assumed {
+                    assumptions.insert(Arc::from(format!(
+                        "{}.{} = {} (assumed)",
+                        body.id,
+                        def.name,
+                        crate::format::number(m.value)
+                    )));
+                }
+                if decl.qty == Qty::TransitEpoch {
+                    for a in epoch_assumptions(decl) {
+                        assumptions.insert(Arc::from(a));
+                    }
+                }
+                if m.form.is_limit() {
+                    assumptions.insert(Arc::from(format!(
+                        "{}.{} {} {} sampled uniformly within its physical range",
+                        body.id,
+                        def.name,
+                        if m.form == Form::UpperLimit { "<" } else { ">" },
+                        crate::format::number(m.value)
+                    )));
+                }
+                self.entries.insert(
+                    (bi, decl.qty),
+                    Entry {
+                        value: v,
+                        origin,
+                        rule: None,
+                        inputs: Vec::new(),
+                        deps: SortedSet::one((bi, decl.qty)),
+                        assumptions,
+                    },
+                );
+            }
+            if body.kind == BodyKind::Star {
+                self.estimate_from_spectral_type(bi);
+            }
+            if body.kind == BodyKind::Planet {
+                for q in [
+                    Qty::Eccentricity,
+                    Qty::ArgPeriastron,
+                    Qty::Albedo,
+                    Qty::Redistribution,
+                ] {
+                    if body.get(q).is_some() {
+                        continue;
+                    }
+                    if q == Qty::ArgPeriastron && body.get(Qty::Eccentricity).is_some() {
+                        // An eccentric orbit of unknown orientation: every orientation is
+                        // equally likely, so the argument of periastron is spread uniformly
+                        // over a full turn (nominal 180 deg, where sin omega = 0) rather
+                        // than fixed at a value that would bias durations and inclinations.
+                        let turn = 2.0 * std::f64::consts::PI;
+                        let m = Measurement {
+                            value: turn,
+                            below: 0.0,
+                            above: 0.0,
+                            form: Form::UpperLimit,
+                        };
+                        let value =
+                            self.new_input(format!("{}.arg_periastron", body.id), &m, 0.0, turn);
+                        self.entries.insert(
+                            (bi, q),
+                            Entry {
+                                value,
+                                origin: Origin::Default,
+                                rule: None,
+                                inputs: Vec::new(),
+                                deps: SortedSet::one((bi, q)),
+                                assumptions: SortedSet::one(Arc::from(
+                                    "argument of periastron unknown: spread uniformly over 0-360 deg (default)",
+                                )),
+                            },
+                        );
+                        continue;
+                    }
+                    if let Some((v, words)) = default_for(q) {
+                        self.entries.insert(
+                            (bi, q),
+                            Entry {
+                                value: Value::exact(v, self.n()),
+                                origin: Origin::Default,
+                                rule: None,
+                                inputs: Vec::new(),
+                                deps: SortedSet::one((bi, q)),
+                                assumptions: SortedSet::one(Arc::from(words)),
+                            },
+                        );
+                    }
+                }
+            }
+        }
+    }
+
+    /// Teff, radius and mass of a dwarf star from its spectral type, for each of them the
+    /// star neither declares nor can derive from its own declarations ([`crate::spectral`]).
+    pub(super) fn estimate_from_spectral_type(&mut self, bi: usize) {
+        let sys = self.sys;
+        let Some(body) = sys.bodies.get(bi) else {
+            return;
+        };
+        let Some(decl) = body.get(Qty::SpectralType) else {
+            return;
+        };
+        let Content::Text(text) = &decl.content else {
+            return;
+        };
+        let declared = |q: Qty| body.get(q).is_some();
+        let derivable = |q: Qty| {
+            RULES.iter().any(|r| {
+                r.output == Slot::Star(q)
+                    && r.inputs
+                        .iter()
+                        .all(|s| matches!(s, Slot::Star(x) if declared(*x)))
+            })
+        };
+        let wanted: Vec<Qty> = [Qty::Teff, Qty::StarRadius, Qty::StarMass]
+            .into_iter()
+            .filter(|q| !declared(*q) && !derivable(*q))
+            .collect();
+        if wanted.is_empty() {
+            return;
+        }
+        let (_, est) = match crate::spectral::estimate(text) {
+            Ok(e) => e,
+            Err(why) => {
+                let names: Vec<&str> = wanted.iter().map(|q| quantities::def(*q).name).collect();
+                self.diagnostics.push(
+                    Diagnostic::new(
+                        Rule::NotDerivable,
+                        decl.value_span,
+                        format!(
+                            "{} of '{}' not estimated from spectral type \"{text}\": {why}",
+                            names.join(", "),
+                            body.id
+                        ),
+                    )
+                    .with_help("declare them from a measurement or a catalogue"),
+                );
+                return;
+            }
+        };
+        for q in wanted {
+            let (e, unit) = match q {
+                Qty::Teff => (est.teff, "K"),
+                Qty::StarRadius => (est.radius, "Rsun"),
+                _ => (est.mass, "Msun"),
+            };
+            let def = quantities::def(q);
+            let m = Measurement {
+                value: e.value,
+                below: e.sigma,
+                above: e.sigma,
+                form: Form::Symmetric,
+            };
+            let (lo, hi) = def.limits();
+            let label = format!("{}.{}", body.id, def.name);
+            let v = self.new_input(label, &m, lo, hi);
+            let f = display_factor(unit);
+            let words = format!(
+                "{}.{} = {} {unit} estimated from spectral type {text} ({}; {})",
+                body.id,
+                def.name,
+                crate::format::with_uncertainty(e.value / f, e.sigma / f, e.sigma / f),
+                crate::spectral::TABLE_SOURCE,
+                crate::spectral::UNCERTAINTY_WORDS
+            );
+            self.entries.insert(
+                (bi, q),
+                Entry {
+                    value: v,
+                    origin: Origin::Estimated,
+                    rule: None,
+                    inputs: Vec::new(),
+                    deps: SortedSet::one((bi, q)),
+                    assumptions: SortedSet::one(Arc::from(words)),
+                },
+            );
+        }
+    }
+}
+
+/// What reading a transit epoch took for granted: a time scale left unsaid, a timestamp.
+pub(super) fn epoch_assumptions(decl: &model::Declared) -> Vec<String> {
+    let mut out = Vec::new();
+    if let Some(ts) = &decl.timestamp {
+        out.push(format!(
+            "transit_epoch given as the UTC timestamp {ts}, read as a JD_UTC Julian date"
+        ));
+    }
+    match decl
+        .written_unit
+        .as_deref()
+        .and_then(crate::time::system_of_unit)
+    {
+        Some((_, Some(words))) => out.push(words.to_string()),
+        Some((_, None)) => {}
+        None => out.push(
+            "transit_epoch has no Julian-date time scale (such as BJD_TDB); read as JD_UTC"
+                .to_string(),
+        ),
+    }
+    out
+}

@@ -1,0 +1,211 @@
+//! The fixed point: rules fire in rounds, tier by tier, until nothing new is reachable.
+
+use super::*;
+
+/// What a rule or assumption stands for in words.
+pub(super) fn rule_assumption(id: &str) -> Option<&'static str> {
+    Some(match id {
+        "depth-radius-ratio" | "radius-ratio-depth" => {
+            "transit depth = (Rp/R*)^2: limb darkening neglected"
+        }
+        "kepler-third-law-min-mass" | "hill-radius-min-mass" => {
+            "the minimum mass stands in for the true mass"
+        }
+        "kepler-third-law-light-planet"
+        | "kepler-period-light-planet"
+        | "kepler-stellar-mass-light-planet" => {
+            "the planet's mass is neglected in Kepler's third law"
+        }
+        "stellar-density-from-transit" => "the planet's mass is neglected against the star's",
+        "equilibrium-temperature" => {
+            "the star radiates as a blackbody; the planet sits at distance a"
+        }
+        "insolation" => "flux at the semi-major axis (not orbit-averaged)",
+        _ => return None,
+    })
+}
+
+impl<'m> Derivation<'m> {
+    /// The (output, inputs) keys of a rule bound to a body, if it applies to it.
+    pub(super) fn bind(&self, rule: &RuleDef, bi: usize) -> Option<(Key, Vec<Key>)> {
+        let body = self.sys.bodies.get(bi)?;
+        let is_star_rule = matches!(rule.output, Slot::Star(_));
+        let host = if is_star_rule {
+            if body.kind != BodyKind::Star {
+                return None;
+            }
+            bi
+        } else {
+            if body.kind != BodyKind::Planet {
+                return None;
+            }
+            body.orbits?
+        };
+        let key = |s: Slot| match s {
+            Slot::Planet(q) => (bi, q),
+            Slot::Host(q) => (host, q),
+            Slot::Star(q) => (bi, q),
+        };
+        Some((
+            key(rule.output),
+            rule.inputs.iter().map(|s| key(*s)).collect(),
+        ))
+    }
+
+    pub(super) fn fixed_point(&mut self) {
+        // Every (rule, body) pair that applies, bound once; a pair is taken out when it fires.
+        let mut todo: Vec<Option<(usize, Key, Vec<Key>)>> = Vec::new();
+        for (ri, rule) in RULES.iter().enumerate() {
+            for bi in 0..self.sys.bodies.len() {
+                if let Some((out, ins)) = self.bind(rule, bi) {
+                    todo.push(Some((ri, out, ins)));
+                }
+            }
+        }
+        let mut pending_exprs: Vec<Key> = Vec::new();
+        for (bi, body) in self.sys.bodies.iter().enumerate() {
+            for decl in &body.declared {
+                if matches!(decl.content, Content::Expr(_)) {
+                    pending_exprs.push((bi, decl.qty));
+                }
+            }
+        }
+        // Rules are admitted tier by tier: the best physics first, approximations only
+        // where nothing better became reachable (a planet's semi-major axis waits for its
+        // minimum mass before the planet's mass is neglected).
+        let mut pending_lets = self.sys.let_order.clone();
+        let max_tier = RULES.iter().map(|r| r.tier).max().unwrap_or(0);
+        for tier in 0..=max_tier {
+            self.rounds(tier, &mut todo, &mut pending_exprs, &mut pending_lets);
+        }
+        self.report_unevaluated(&pending_exprs, &pending_lets);
+    }
+
+    pub(super) fn rounds(
+        &mut self,
+        tier: u8,
+        todo: &mut [Option<(usize, Key, Vec<Key>)>],
+        pending_exprs: &mut Vec<Key>,
+        pending_lets: &mut Vec<crate::model::LetId>,
+    ) {
+        for _round in 0..32 {
+            let mut progress = false;
+            // Bindings, each after those it uses, so one pass takes a whole chain.
+            let mut still = Vec::new();
+            for id in std::mem::take(pending_lets) {
+                match self.eval_binding(id) {
+                    Ok(()) => progress = true,
+                    Err(expr::Pending::Waiting) => still.push(id),
+                    Err(expr::Pending::Failed) => {}
+                }
+            }
+            *pending_lets = still;
+            // Declared expressions whose references are all known now.
+            let mut still = Vec::new();
+            for key in std::mem::take(pending_exprs) {
+                match self.eval_declared_expr(key) {
+                    Ok(()) => progress = true,
+                    Err(expr::Pending::Waiting) => still.push(key),
+                    Err(expr::Pending::Failed) => {}
+                }
+            }
+            *pending_exprs = still;
+            // Rules.
+            let mut fresh: Vec<Key> = Vec::new();
+            for slot in todo.iter_mut() {
+                {
+                    let Some((ri, _, ins)) = slot.as_ref() else {
+                        continue;
+                    };
+                    let tier_ok = RULES.get(*ri).is_some_and(|r| r.tier <= tier);
+                    if !tier_ok || !ins.iter().all(|k| self.entries.contains_key(k)) {
+                        continue;
+                    }
+                    let Some((ri, out, ins)) = slot.take() else {
+                        continue;
+                    };
+                    let Some(rule) = RULES.get(ri) else { continue };
+                    let out: Key = out;
+                    progress = true;
+                    let mut deps = SortedSet::new();
+                    let mut assumptions = SortedSet::new();
+                    let mut args = Vec::with_capacity(ins.len());
+                    for k in &ins {
+                        if let Some(e) = self.entries.get(k) {
+                            deps.merge(&e.deps);
+                            assumptions.merge(&e.assumptions);
+                            args.push(&e.value);
+                        }
+                    }
+                    if deps.contains(&out) {
+                        continue; // would confirm a value with itself
+                    }
+                    if let Some(existing) = self.entries.get(&out) {
+                        // A second route only matters if it can disagree on the data
+                        // (see `check_consistency`); skip the work otherwise.
+                        let mine = self.declared_deps(&existing.deps);
+                        let mut theirs = self.declared_deps(&deps);
+                        theirs.remove(&out);
+                        if mine.is_subset(&theirs) || theirs.is_subset(&mine) {
+                            continue;
+                        }
+                    }
+                    let Some(value) = value::apply(&rule.eval, &args, &self.inputs) else {
+                        continue;
+                    };
+                    if let Some(a) = rule_assumption(rule.id) {
+                        assumptions.insert(Arc::from(a));
+                    }
+                    deps.insert(out);
+                    if !self.entries.contains_key(&out) {
+                        fresh.push(out);
+                    }
+                    self.candidates.entry(out).or_default().push(Candidate {
+                        rule: ri,
+                        value,
+                        inputs: ins,
+                        deps,
+                        assumptions,
+                    });
+                }
+            }
+            fresh.sort();
+            fresh.dedup();
+            for key in fresh {
+                let Some(cands) = self.candidates.get(&key) else {
+                    continue;
+                };
+                let best = cands
+                    .iter()
+                    .min_by(|a, b| {
+                        let ta = RULES.get(a.rule).map_or(9, |r| r.tier);
+                        let tb = RULES.get(b.rule).map_or(9, |r| r.tier);
+                        ta.cmp(&tb).then(
+                            relative_spread(&a.value, &self.inputs)
+                                .total_cmp(&relative_spread(&b.value, &self.inputs)),
+                        )
+                    })
+                    .cloned();
+                if let Some(c) = best {
+                    for k in &c.inputs {
+                        self.used.insert(*k);
+                    }
+                    self.entries.insert(
+                        key,
+                        Entry {
+                            value: c.value,
+                            origin: Origin::Derived,
+                            rule: Some(c.rule),
+                            inputs: c.inputs,
+                            deps: c.deps,
+                            assumptions: c.assumptions,
+                        },
+                    );
+                }
+            }
+            if !progress {
+                break;
+            }
+        }
+    }
+}

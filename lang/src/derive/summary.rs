@@ -1,0 +1,299 @@
+//! What is reported of a derivation: each quantity's value, spread, provenance and
+//! assumptions, the alternatives, and the unit each is shown in.
+
+use super::*;
+
+/// One quantity of one body as reported.
+#[derive(Debug, Clone, PartialEq)]
+pub struct QuantityResult {
+    pub qty: Qty,
+    pub origin: Origin,
+    /// SI value and uncertainty below and above (zero for exact values and limits).
+    pub value: f64,
+    pub below: f64,
+    pub above: f64,
+    pub form: Form,
+    pub text: Option<String>,
+    pub rule: Option<&'static str>,
+    pub formula: Option<&'static str>,
+    pub inputs: Vec<Key>,
+    pub citations: Vec<String>,
+    /// Where it was declared.
+    pub span: Option<Span>,
+    /// Share of the variance per independent input (label, fraction), largest first.
+    pub budget: Vec<(String, f64)>,
+    /// What was assumed on the way (defaults, approximations), in words.
+    pub assumptions: Vec<String>,
+    pub notes: Vec<String>,
+    /// The unit the value is shown in when it is not the quantity's usual one: a transit
+    /// epoch keeps the Julian-date time system it was declared in.
+    pub unit: Option<String>,
+}
+
+impl QuantityResult {
+    /// The unit to show the value in.
+    pub fn shown_unit(&self) -> &str {
+        self.unit
+            .as_deref()
+            .unwrap_or_else(|| display_unit(self.qty, self.value))
+    }
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct BodyResult {
+    pub quantities: Vec<QuantityResult>,
+}
+
+impl BodyResult {
+    pub fn get(&self, qty: Qty) -> Option<&QuantityResult> {
+        self.quantities.iter().find(|q| q.qty == qty)
+    }
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct SystemResult {
+    pub bodies: Vec<BodyResult>,
+    /// For declared quantities that rules can also derive from other measurements: the best
+    /// such route (front ends show it beside the declared value).
+    pub alternatives: Vec<Alternative>,
+}
+
+impl SystemResult {
+    pub fn alternative(&self, key: Key) -> Option<&Alternative> {
+        self.alternatives.iter().find(|a| a.key == key)
+    }
+}
+
+/// A value derived for a quantity that was also declared.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Alternative {
+    pub key: Key,
+    /// SI value and uncertainty below and above.
+    pub value: f64,
+    pub below: f64,
+    pub above: f64,
+    pub rule: &'static str,
+    pub inputs: Vec<Key>,
+}
+
+impl<'m> Derivation<'m> {
+    /// Reduce to what is reported: summaries, provenance, budgets.
+    pub fn summarize(&self) -> SystemResult {
+        let mut bodies = Vec::new();
+        for (bi, body) in self.sys.bodies.iter().enumerate() {
+            let mut quantities = Vec::new();
+            for def in quantities::table().iter().filter(|d| d.kind == body.kind) {
+                let key = (bi, def.qty);
+                let decl = body.get(def.qty);
+                if let Some(d) = decl {
+                    if let Content::Text(t) = &d.content {
+                        quantities.push(QuantityResult {
+                            qty: def.qty,
+                            origin: if d.assumed {
+                                Origin::Assumed
+                            } else {
+                                Origin::Declared
+                            },
+                            value: f64::NAN,
+                            below: 0.0,
+                            above: 0.0,
+                            form: Form::Exact,
+                            text: Some(t.clone()),
+                            rule: None,
+                            formula: None,
+                            inputs: Vec::new(),
+                            citations: d.citations.iter().map(|c| c.0.clone()).collect(),
+                            span: Some(d.span),
+                            budget: Vec::new(),
+                            assumptions: Vec::new(),
+                            notes: Vec::new(),
+                            unit: None,
+                        });
+                        continue;
+                    }
+                }
+                let Some(entry) = self.entries.get(&key) else {
+                    continue;
+                };
+                // A default that a result used is shown, except a spread of orientations,
+                // which has no value to show: the assumption lines of the results say it.
+                let spread = entry.origin == Origin::Default && !entry.value.grad.is_empty();
+                if spread || (entry.origin == Origin::Default && !self.used.contains(&key)) {
+                    continue;
+                }
+                quantities.push(self.result_for(key, entry, decl));
+            }
+            bodies.push(BodyResult { quantities });
+        }
+        SystemResult {
+            bodies,
+            alternatives: self.alternatives(),
+        }
+    }
+
+    /// The best derived route for every declared quantity that has one.
+    pub(super) fn alternatives(&self) -> Vec<Alternative> {
+        let mut out = Vec::new();
+        for (key, cands) in &self.candidates {
+            let Some(entry) = self.entries.get(key) else {
+                continue;
+            };
+            if entry.rule.is_some() || entry.origin == Origin::Default {
+                continue;
+            }
+            let best = cands.iter().min_by(|a, b| {
+                let ta = RULES.get(a.rule).map_or(9, |r| r.tier);
+                let tb = RULES.get(b.rule).map_or(9, |r| r.tier);
+                ta.cmp(&tb).then(
+                    relative_spread(&a.value, &self.inputs)
+                        .total_cmp(&relative_spread(&b.value, &self.inputs)),
+                )
+            });
+            let Some(c) = best else { continue };
+            let (lo, hi) = c.value.linear_spread(&self.inputs);
+            let (value, below, above) = match (self.options.propagation, c.value.sample_summary()) {
+                (Propagation::MonteCarlo, Some((med, p16, p84, _))) => {
+                    (med, (med - p16).max(0.0), (p84 - med).max(0.0))
+                }
+                _ => (c.value.nominal, lo, hi),
+            };
+            if !value.is_finite() {
+                continue;
+            }
+            out.push(Alternative {
+                key: *key,
+                value,
+                below,
+                above,
+                rule: RULES.get(c.rule).map_or("?", |r| r.id),
+                inputs: c.inputs.clone(),
+            });
+        }
+        out
+    }
+
+    pub(super) fn result_for(
+        &self,
+        key: Key,
+        entry: &Entry,
+        decl: Option<&model::Declared>,
+    ) -> QuantityResult {
+        let rule = entry.rule.and_then(|r| RULES.get(r));
+        let mut notes = Vec::new();
+        let (value, below, above, form) = match decl.map(|d| &d.content) {
+            Some(Content::Measured(m)) => (m.value, m.below, m.above, m.form),
+            _ => {
+                let (lo, hi) = entry.value.linear_spread(&self.inputs);
+                match (self.options.propagation, entry.value.sample_summary()) {
+                    (Propagation::MonteCarlo, Some((med, p16, p84, frac))) => {
+                        if frac < 0.999 {
+                            notes.push(format!(
+                                "{:.1}% of the Monte Carlo samples gave no value (outside the formula's domain) and were left out",
+                                (1.0 - frac) * 100.0
+                            ));
+                        }
+                        if !entry.value.grad.is_empty() || entry.origin == Origin::Derived {
+                            (
+                                med,
+                                (med - p16).max(0.0),
+                                (p84 - med).max(0.0),
+                                Form::Asymmetric,
+                            )
+                        } else {
+                            (entry.value.nominal, 0.0, 0.0, Form::Exact)
+                        }
+                    }
+                    _ => {
+                        let form = if lo == 0.0 && hi == 0.0 {
+                            Form::Exact
+                        } else {
+                            Form::Asymmetric
+                        };
+                        (entry.value.nominal, lo, hi, form)
+                    }
+                }
+            }
+        };
+        let form = if form == Form::Asymmetric && ((above - below).abs() <= 1e-3 * above.max(below))
+        {
+            Form::Symmetric
+        } else {
+            form
+        };
+        let budget = entry
+            .value
+            .budget(&self.inputs)
+            .into_iter()
+            .filter(|(_, share)| *share >= 0.001)
+            .map(|(id, share)| {
+                (
+                    self.inputs
+                        .get(id as usize)
+                        .map_or_else(String::new, |i| i.label.clone()),
+                    share,
+                )
+            })
+            .collect();
+        QuantityResult {
+            qty: key.1,
+            origin: entry.origin,
+            value,
+            below,
+            above,
+            form,
+            text: None,
+            rule: rule.map(|r| r.id).or_else(|| {
+                (entry.origin != Origin::Default
+                    && decl.is_some_and(|d| matches!(d.content, Content::Expr(_))))
+                .then_some("expression")
+            }),
+            formula: rule.map(|r| r.formula),
+            inputs: entry.inputs.clone(),
+            citations: decl
+                .map(|d| d.citations.iter().map(|c| c.0.clone()).collect())
+                .unwrap_or_default(),
+            span: decl.map(|d| d.span),
+            budget,
+            assumptions: entry.assumptions.iter().map(|a| a.to_string()).collect(),
+            notes,
+            unit: (key.1 == Qty::TransitEpoch)
+                .then(|| {
+                    decl.and_then(|d| d.written_unit.clone())
+                        .filter(|u| crate::time::system_of_unit(u).is_some())
+                })
+                .flatten(),
+        }
+    }
+}
+
+/// The unit a quantity is shown in, chosen by size for planet masses, radii and depths.
+pub fn display_unit(qty: Qty, si: f64) -> &'static str {
+    let def = quantities::def(qty);
+    match qty {
+        Qty::Mass | Qty::MinMass if si.abs() < 0.1 * crate::constants::M_JUPITER => "Mearth",
+        Qty::Radius if si.abs() < 0.5 * crate::constants::R_JUPITER => "Rearth",
+        Qty::TransitDepth if si.abs() < 1e-3 => "ppm",
+        Qty::HillRadius if si.abs() < 1e-3 * crate::constants::AU => "km",
+        _ => def.display,
+    }
+}
+
+/// SI value of one display unit.
+pub fn display_factor(unit: &str) -> f64 {
+    // Reports ask for the same few units many times per body: parse each once per thread.
+    thread_local! {
+        static FACTORS: std::cell::RefCell<FxHashMap<String, f64>> = std::cell::RefCell::new(FxHashMap::default());
+    }
+    let parse = || crate::units::parse_unit_text(unit).map_or(1.0, |u| u.factor);
+    FACTORS.with(|cache| {
+        let Ok(mut cache) = cache.try_borrow_mut() else {
+            return parse();
+        };
+        if let Some(f) = cache.get(unit) {
+            return *f;
+        }
+        let f = parse();
+        cache.insert(unit.to_string(), f);
+        f
+    })
+}
