@@ -132,11 +132,6 @@ impl Diagnostic {
         self
     }
 
-    pub fn with_severity(mut self, severity: Severity) -> Diagnostic {
-        self.severity = severity;
-        self
-    }
-
     /// The machine-readable form documented in `docs/json-output.md`.
     pub fn to_json(&self, db: &dyn SourceDb, index: &LineIndex) -> serde_json::Value {
         let text = db.text(self.span.file);

@@ -185,10 +185,6 @@ impl LineIndex {
             .map_or(text.len(), |&e| e.saturating_sub(1));
         floor_char_boundary(text, (start + col as usize).min(end))
     }
-
-    pub fn line_count(&self) -> usize {
-        self.starts.len()
-    }
 }
 
 fn floor_char_boundary(text: &str, mut offset: usize) -> usize {
