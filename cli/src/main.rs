@@ -282,7 +282,7 @@ fn check(
     let color = render::use_color();
     let mut counts = [0usize; 3];
     let mut rule_counts = vec![0usize; Rule::ALL.len()];
-    let mut all_diags: Vec<serde_json::Value> = Vec::new();
+    let mut all_diags: Vec<syzygy::report::json::Diagnostic> = Vec::new();
     let mut checked = 0usize;
     files::for_each_analysed(
         db,
@@ -331,7 +331,11 @@ fn check(
         .collect();
     match format {
         CheckFormat::Sarif => {
-            let doc = sarif::log(&all_diags, &loaded.errors);
+            let json: Vec<serde_json::Value> = all_diags
+                .iter()
+                .filter_map(|d| serde_json::to_value(d).ok())
+                .collect();
+            let doc = sarif::log(&json, &loaded.errors);
             let _ = writeln!(
                 out,
                 "{}",
@@ -339,23 +343,19 @@ fn check(
             );
         }
         CheckFormat::Json => {
-            let doc = serde_json::json!({
-                "version": syzygy::report::JSON_VERSION,
-                "files": checked,
-                "diagnostics": all_diags,
-                "io_errors": loaded.errors,
-                "summary": {
-                    "errors": errors,
-                    "warnings": warnings,
-                    "notes": notes,
-                    "rules": per_rule.iter().map(|(id, n)| (id.to_string(), serde_json::json!(n))).collect::<serde_json::Map<_, _>>(),
+            let doc = syzygy::report::json::CheckDocument {
+                version: syzygy::report::JSON_VERSION,
+                files: checked,
+                diagnostics: &all_diags,
+                io_errors: &loaded.errors,
+                summary: syzygy::report::json::Summary {
+                    errors,
+                    warnings,
+                    notes,
+                    rules: syzygy::report::json::Pairs(per_rule.clone()),
                 },
-            });
-            let _ = writeln!(
-                out,
-                "{}",
-                serde_json::to_string_pretty(&doc).unwrap_or_default()
-            );
+            };
+            let _ = writeln!(out, "{}", json_out::pretty(&doc));
         }
         CheckFormat::Human => {
             let _ = writeln!(
@@ -494,16 +494,10 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8
     // order, so memory does not grow with the number of files.
     match format {
         EvalFormat::Json => {
-            let options_json = serde_json::json!({
-                "propagation": match options.propagation { Propagation::MonteCarlo => "monte-carlo", Propagation::Linear => "linear" },
-                "samples": if options.propagation == Propagation::MonteCarlo { serde_json::json!(options.samples) } else { serde_json::Value::Null },
-                "seed": options.seed,
-                "consistency_sigma": options.consistency_sigma,
-            });
-            let head = [
-                ("version", serde_json::json!(syzygy::report::JSON_VERSION)),
-                ("options", options_json),
-            ];
+            let head = syzygy::report::json::EvalHead {
+                version: syzygy::report::JSON_VERSION,
+                options: syzygy::report::json::Options::new(&options),
+            };
             let mut doc = json_out::Document::start(&mut out, &head);
             let mut diags = Vec::new();
             files::for_each_analysed(
@@ -512,7 +506,7 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8
                 |a| {
                     let systems: Vec<String> = syzygy::report::systems_json(&a, db)
                         .iter()
-                        .map(json_out::system_text)
+                        .map(json_out::pretty)
                         .collect();
                     (
                         a.has_errors(),
@@ -528,10 +522,10 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8
                     }
                 },
             );
-            let tail = [
-                ("diagnostics", serde_json::Value::Array(diags)),
-                ("io_errors", serde_json::json!(loaded.errors)),
-            ];
+            let tail = syzygy::report::json::EvalTail {
+                diagnostics: &diags,
+                io_errors: &loaded.errors,
+            };
             if let Err(e) = doc.finish(&tail) {
                 // A reader that stops early (`| head`) is not an error of ours.
                 if e.kind() != std::io::ErrorKind::BrokenPipe {

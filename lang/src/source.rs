@@ -187,6 +187,42 @@ impl LineIndex {
     }
 }
 
+/// Turns spans into the file's name and the 1-based line and column (in characters) of
+/// their start and end: the one conversion the machine-readable emitters (JSON, SARIF)
+/// share. Holds the line index of one file and makes another only for a span elsewhere.
+pub struct Places<'a> {
+    db: &'a dyn SourceDb,
+    file: FileId,
+    index: LineIndex,
+}
+
+impl<'a> Places<'a> {
+    pub fn new(db: &'a dyn SourceDb, file: FileId) -> Places<'a> {
+        Places {
+            db,
+            file,
+            index: LineIndex::new(db.text(file)),
+        }
+    }
+
+    /// The file's name, and the start and end (exclusive) of the span.
+    pub fn of(&self, span: Span) -> (&'a str, LineCol, LineCol) {
+        let text = self.db.text(span.file);
+        let other;
+        let index = if span.file == self.file {
+            &self.index
+        } else {
+            other = LineIndex::new(text);
+            &other
+        };
+        (
+            self.db.name(span.file),
+            index.line_col(text, span.start as usize),
+            index.line_col(text, span.end as usize),
+        )
+    }
+}
+
 fn floor_char_boundary(text: &str, mut offset: usize) -> usize {
     while offset > 0 && !text.is_char_boundary(offset) {
         offset -= 1;

@@ -192,10 +192,8 @@ pub fn body_table(a: &Analysis, si: usize, name: &str) -> Option<String> {
             ));
         }
     }
-    if let Some(c) = a.composition_text.get(&(si, b.id.clone())) {
-        out.push_str(&format!("\ncomposition: {c}\n"));
-    } else if let Some(c) = a.composition.get(&(si, b.id.clone())) {
-        out.push_str(&format!("\ncomposition: `{c}`\n"));
+    if let Some(c) = a.composition.get(&(si, b.id.clone())) {
+        out.push_str(&format!("\ncomposition: {}\n", c.text));
     }
     Some(out)
 }
