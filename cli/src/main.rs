@@ -277,12 +277,12 @@ fn check(
     let stdout = std::io::stdout();
     let mut out = stdout.lock();
     // Streamed like `eval`: each file's diagnostics are rendered (for people) or turned into
-    // JSON on the worker that analysed it, and the analysis is dropped.
-    let human = matches!(format, CheckFormat::Human);
+    // JSON or SARIF results on the worker that analysed it, and the analysis is dropped.
     let color = render::use_color();
     let mut counts = [0usize; 3];
     let mut rule_counts = vec![0usize; Rule::ALL.len()];
-    let mut all_diags: Vec<syzygy::report::json::Diagnostic> = Vec::new();
+    let mut json_diags = Vec::new();
+    let mut sarif_results = Vec::new();
     let mut checked = 0usize;
     files::for_each_analysed(
         db,
@@ -293,17 +293,23 @@ fn check(
                 .iter()
                 .map(|d| (d.severity as usize, d.rule))
                 .collect();
-            if human {
-                (kinds, rendered_diagnostics(&a, db, color), Vec::new())
-            } else {
-                (
-                    kinds,
-                    String::new(),
-                    syzygy::report::diagnostics_json(&a, db),
-                )
+            let mut text = String::new();
+            let (mut json, mut sarif) = (Vec::new(), Vec::new());
+            match format {
+                CheckFormat::Human => text = rendered_diagnostics(&a, db, color),
+                CheckFormat::Json => json = syzygy::report::diagnostics_json(&a, db),
+                CheckFormat::Sarif => {
+                    let places = syzygy::source::Places::new(db, a.file);
+                    sarif = a
+                        .diagnostics
+                        .iter()
+                        .map(|d| sarif::result(d, &places))
+                        .collect();
+                }
             }
+            (kinds, text, json, sarif)
         },
-        |(kinds, text, json)| {
+        |(kinds, text, json, sarif)| {
             checked += 1;
             for (severity, rule) in kinds {
                 if let Some(c) = counts.get_mut(severity) {
@@ -318,7 +324,8 @@ fn check(
                 }
             }
             let _ = out.write_all(text.as_bytes());
-            all_diags.extend(json);
+            json_diags.extend(json);
+            sarif_results.extend(sarif);
         },
     );
     let (notes, warnings, errors) = (counts[0], counts[1], counts[2]);
@@ -331,22 +338,14 @@ fn check(
         .collect();
     match format {
         CheckFormat::Sarif => {
-            let json: Vec<serde_json::Value> = all_diags
-                .iter()
-                .filter_map(|d| serde_json::to_value(d).ok())
-                .collect();
-            let doc = sarif::log(&json, &loaded.errors);
-            let _ = writeln!(
-                out,
-                "{}",
-                serde_json::to_string_pretty(&doc).unwrap_or_default()
-            );
+            let doc = sarif::log(&sarif_results, &loaded.errors);
+            let _ = writeln!(out, "{}", json_out::pretty(&doc));
         }
         CheckFormat::Json => {
             let doc = syzygy::report::json::CheckDocument {
                 version: syzygy::report::JSON_VERSION,
                 files: checked,
-                diagnostics: &all_diags,
+                diagnostics: &json_diags,
                 io_errors: &loaded.errors,
                 summary: syzygy::report::json::Summary {
                     errors,
