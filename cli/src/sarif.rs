@@ -333,7 +333,7 @@ pub fn log<'a>(results: &'a [SarifResult], io_errors: &[String]) -> Log<'a> {
 }
 
 #[cfg(test)]
-#[allow(clippy::unwrap_used)]
+#[allow(clippy::unwrap_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
     use syzygy::source::{FileId, MemoryDb};

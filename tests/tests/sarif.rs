@@ -144,7 +144,9 @@ fn the_schema_check_rejects_broken_logs() {
     let v = validator();
     let (_, log) = sarif(&["examples/broken"]);
     assert!(violations(&v, &log).is_empty());
-    let breaks: [(&str, fn(&mut Value)); 6] = [
+    // Where a log is broken (a JSON pointer), and how.
+    type Break = (&'static str, fn(&mut Value));
+    let breaks: [Break; 6] = [
         ("", |l| {
             l.as_object_mut().unwrap().remove("version");
         }),

@@ -15,7 +15,7 @@ pub fn hover(a: &Analysis, occ: &[Occurrence], offset: usize) -> Option<(String,
     let text = match &o.symbol {
         Symbol::Quantity { system, body, qty } => quantity(a, *system, body, *qty)?,
         Symbol::Body { system, name } => body_table(a, *system, name)?,
-        Symbol::Unit(sym) => unit(sym)?,
+        Symbol::Unit(sym) => unit(sym),
         Symbol::Ref(id) => match a.model.refs.iter().find(|r| &r.id == id) {
             Some(r) => format!("**reference `{id}`**\n\n{}", r.text),
             None => format!("**reference `{id}`** is not declared in this file"),
@@ -199,27 +199,27 @@ pub fn body_table(a: &Analysis, si: usize, name: &str) -> Option<String> {
 }
 
 /// The hover of a unit symbol: its name, value in SI and source.
-pub fn unit(sym: &str) -> Option<String> {
+pub fn unit(sym: &str) -> String {
     let Some((factor, def)) = crate::units::lookup(sym) else {
-        return Some(format!(
+        return format!(
             "unknown unit `{sym}`{}",
             crate::units::suggest(sym)
                 .map_or_else(String::new, |s| format!(" (did you mean `{s}`?)"))
-        ));
+        );
     };
     let prefixed = if def.symbol == sym || def.aliases.contains(&sym) {
         String::new()
     } else {
         format!(" (an SI prefix on `{}`)", def.symbol)
     };
-    Some(format!(
+    format!(
         "**`{sym}`** — {}{prefixed}\n\n`1 {sym} = {} {}` ({})\n\nsource: {}",
         def.name,
         crate::format::number(factor),
         def.dim.si_unit(),
         def.dim.describe(),
         def.source
-    ))
+    )
 }
 
 #[cfg(test)]
@@ -263,6 +263,6 @@ mod tests {
         let h = hover_at("Msun", 0);
         assert!(h.contains("nominal solar mass"), "{h}");
         assert!(h.contains("IAU 2015"), "{h}");
-        assert!(unit("km").unwrap().contains("1 km = 1000 m"));
+        assert!(unit("km").contains("1 km = 1000 m"));
     }
 }
