@@ -3,6 +3,7 @@
 //! catalogue of thousands of systems the document is hundreds of megabytes of text and,
 //! as a `serde_json::Value`, several times that in memory.
 
+use serde::Serialize;
 use std::io::Write;
 
 /// Indent every line after the first of a pretty-printed value by `depth` levels, so it can
@@ -11,23 +12,27 @@ fn nested(pretty: &str, depth: usize) -> String {
     pretty.replace('\n', &format!("\n{}", "  ".repeat(depth)))
 }
 
-fn pretty(v: &serde_json::Value) -> String {
+/// A value pretty-printed on its own.
+pub fn pretty(v: &impl Serialize) -> String {
     serde_json::to_string_pretty(v).unwrap_or_default()
 }
 
-/// `"key": value`, pretty-printed as a member of the top-level object.
-fn member(key: &str, value: &serde_json::Value) -> String {
-    format!(
-        "{}: {}",
-        pretty(&serde_json::json!(key)),
-        nested(&pretty(value), 1)
-    )
+/// The members of an object pretty-printed at the top level, without its braces: each on
+/// its own line, indented one level, separated by commas. Empty for an empty object.
+fn members(object: &impl Serialize) -> String {
+    let text = pretty(object);
+    debug_assert!(text.starts_with('{'), "not an object: {text}");
+    text.strip_prefix("{\n")
+        .and_then(|t| t.strip_suffix("\n}"))
+        .unwrap_or_default()
+        .to_string()
 }
 
-/// The document `{"version", "options", "systems": [...], "diagnostics", "io_errors"}`,
-/// with the systems written one at a time. The first write error is kept and later writes
-/// are skipped (a reader that closes the pipe early costs one error, not one per system);
-/// [`Document::finish`] returns it.
+/// The document `{ head's members, "systems": [...], tail's members }`, with the systems
+/// written one at a time. `head` and `tail` are objects (the contract's
+/// `syzygy::report::json::EvalHead` and `EvalTail`). The first write error is kept and
+/// later writes are skipped (a reader that closes the pipe early costs one error, not one
+/// per system); [`Document::finish`] returns it.
 pub struct Document<W: Write> {
     out: W,
     systems: usize,
@@ -36,15 +41,16 @@ pub struct Document<W: Write> {
 
 impl<W: Write> Document<W> {
     /// Starts the document: the members before `systems`, and the array's opening bracket.
-    pub fn start(out: W, head: &[(&str, serde_json::Value)]) -> Self {
+    pub fn start(out: W, head: &impl Serialize) -> Self {
         let mut doc = Document {
             out,
             systems: 0,
             failed: None,
         };
         doc.put("{");
-        for (key, value) in head {
-            doc.put(&format!("\n  {},", member(key, value)));
+        let head = members(head);
+        if !head.is_empty() {
+            doc.put(&format!("\n{head},"));
         }
         doc.put("\n  \"systems\": [");
         doc
@@ -56,7 +62,7 @@ impl<W: Write> Document<W> {
         }
     }
 
-    /// One element of `systems`, already pretty-printed on its own.
+    /// One element of `systems`, already pretty-printed on its own ([`pretty`]).
     pub fn system(&mut self, pretty_system: &str) {
         let sep = if self.systems == 0 { "" } else { "," };
         self.systems += 1;
@@ -64,13 +70,14 @@ impl<W: Write> Document<W> {
     }
 
     /// Closes `systems`, writes the members after it, and says whether every write worked.
-    pub fn finish(mut self, tail: &[(&str, serde_json::Value)]) -> std::io::Result<()> {
+    pub fn finish(mut self, tail: &impl Serialize) -> std::io::Result<()> {
         if self.systems > 0 {
             self.put("\n  ");
         }
         self.put("]");
-        for (key, value) in tail {
-            self.put(&format!(",\n  {}", member(key, value)));
+        let tail = members(tail);
+        if !tail.is_empty() {
+            self.put(&format!(",\n{tail}"));
         }
         self.put("\n}\n");
         match self.failed {
@@ -80,11 +87,6 @@ impl<W: Write> Document<W> {
     }
 }
 
-/// Pretty-prints one system for [`Document::system`] (on the worker that analysed it).
-pub fn system_text(v: &serde_json::Value) -> String {
-    pretty(v)
-}
-
 #[cfg(test)]
 #[allow(clippy::unwrap_used)]
 mod tests {
@@ -92,47 +94,44 @@ mod tests {
 
     #[test]
     fn streamed_document_equals_pretty_printing_it_whole() {
-        let head = [
-            ("version", serde_json::json!(1)),
-            (
-                "options",
-                serde_json::json!({"propagation": "linear", "samples": null}),
-            ),
-        ];
+        let head = serde_json::json!({
+            "version": 1,
+            "options": {"propagation": "linear", "samples": null},
+        });
         let systems = [
             serde_json::json!({"name": "A", "bodies": [{"id": "b", "q": [1.5, {"x": []}]}]}),
             serde_json::json!({"name": "B \"quoted\"\nline", "bodies": []}),
         ];
-        let tail = [
-            (
-                "diagnostics",
-                serde_json::json!([{"rule": "r", "labels": []}]),
-            ),
-            ("io_errors", serde_json::json!([])),
-        ];
-        for n in 0..=systems.len() {
+        let tail = serde_json::json!({
+            "diagnostics": [{"rule": "r", "labels": []}],
+            "io_errors": [],
+        });
+        let empty = serde_json::json!({});
+        for (head, tail, n) in (0..=systems.len())
+            .map(|n| (&head, &tail, n))
+            .chain([(&empty, &empty, 0), (&empty, &empty, 2)])
+        {
             let mut buf = Vec::new();
             let mut doc = Document::start(&mut buf, &head);
             for s in systems.iter().take(n) {
-                doc.system(&system_text(s));
+                doc.system(&pretty(s));
             }
             doc.finish(&tail).unwrap();
-            let mut whole = serde_json::Map::new();
-            for (k, v) in &head {
-                whole.insert(k.to_string(), v.clone());
-            }
+            let mut whole = head.as_object().unwrap().clone();
             whole.insert(
                 "systems".into(),
                 serde_json::Value::Array(systems.iter().take(n).cloned().collect()),
             );
-            for (k, v) in &tail {
-                whole.insert(k.to_string(), v.clone());
-            }
+            whole.extend(tail.as_object().unwrap().clone());
             let expected = format!(
                 "{}\n",
                 serde_json::to_string_pretty(&serde_json::Value::Object(whole)).unwrap()
             );
-            assert_eq!(String::from_utf8(buf).unwrap(), expected, "{n} systems");
+            assert_eq!(
+                String::from_utf8(buf).unwrap(),
+                expected,
+                "{n} systems, head {head}"
+            );
         }
     }
 }

@@ -273,12 +273,12 @@ fn check(paths: &[PathBuf], format: CheckFormat, deny_warnings: bool, flags: &La
     let stdout = std::io::stdout();
     let mut out = stdout.lock();
     // Streamed like `eval`: each file's diagnostics are rendered (for people) or turned into
-    // JSON on the worker that analysed it, and the analysis is dropped.
-    let human = matches!(format, CheckFormat::Human);
+    // JSON or SARIF results on the worker that analysed it, and the analysis is dropped.
     let color = render::use_color();
     let mut counts = [0usize; 3];
     let mut rule_counts = vec![0usize; Rule::ALL.len()];
-    let mut all_diags: Vec<serde_json::Value> = Vec::new();
+    let mut json_diags = Vec::new();
+    let mut sarif_results = Vec::new();
     let mut checked = 0usize;
     files::for_each_analysed(
         db,
@@ -289,17 +289,23 @@ fn check(paths: &[PathBuf], format: CheckFormat, deny_warnings: bool, flags: &La
                 .iter()
                 .map(|d| (d.severity as usize, d.rule))
                 .collect();
-            if human {
-                (kinds, rendered_diagnostics(&a, db, color), Vec::new())
-            } else {
-                (
-                    kinds,
-                    String::new(),
-                    syzygy::report::diagnostics_json(&a, db),
-                )
+            let mut text = String::new();
+            let (mut json, mut sarif) = (Vec::new(), Vec::new());
+            match format {
+                CheckFormat::Human => text = rendered_diagnostics(&a, db, color),
+                CheckFormat::Json => json = syzygy::report::diagnostics_json(&a, db),
+                CheckFormat::Sarif => {
+                    let places = syzygy::source::Places::new(db, a.file);
+                    sarif = a
+                        .diagnostics
+                        .iter()
+                        .map(|d| sarif::result(d, &places))
+                        .collect();
+                }
             }
+            (kinds, text, json, sarif)
         },
-        |(kinds, text, json)| {
+        |(kinds, text, json, sarif)| {
             checked += 1;
             for (severity, rule) in kinds {
                 if let Some(c) = counts.get_mut(severity) {
@@ -314,7 +320,8 @@ fn check(paths: &[PathBuf], format: CheckFormat, deny_warnings: bool, flags: &La
                 }
             }
             let _ = out.write_all(text.as_bytes());
-            all_diags.extend(json);
+            json_diags.extend(json);
+            sarif_results.extend(sarif);
         },
     );
     let (notes, warnings, errors) = (counts[0], counts[1], counts[2]);
@@ -327,31 +334,23 @@ fn check(paths: &[PathBuf], format: CheckFormat, deny_warnings: bool, flags: &La
         .collect();
     match format {
         CheckFormat::Sarif => {
-            let doc = sarif::log(&all_diags, &loaded.errors);
-            let _ = writeln!(
-                out,
-                "{}",
-                serde_json::to_string_pretty(&doc).unwrap_or_default()
-            );
+            let doc = sarif::log(&sarif_results, &loaded.errors);
+            let _ = writeln!(out, "{}", json_out::pretty(&doc));
         }
         CheckFormat::Json => {
-            let doc = serde_json::json!({
-                "version": syzygy::report::JSON_VERSION,
-                "files": checked,
-                "diagnostics": all_diags,
-                "io_errors": loaded.errors,
-                "summary": {
-                    "errors": errors,
-                    "warnings": warnings,
-                    "notes": notes,
-                    "rules": per_rule.iter().map(|(id, n)| (id.to_string(), serde_json::json!(n))).collect::<serde_json::Map<_, _>>(),
+            let doc = syzygy::report::json::CheckDocument {
+                version: syzygy::report::JSON_VERSION,
+                files: checked,
+                diagnostics: &json_diags,
+                io_errors: &loaded.errors,
+                summary: syzygy::report::json::Summary {
+                    errors,
+                    warnings,
+                    notes,
+                    rules: syzygy::report::json::Pairs(per_rule.clone()),
                 },
-            });
-            let _ = writeln!(
-                out,
-                "{}",
-                serde_json::to_string_pretty(&doc).unwrap_or_default()
-            );
+            };
+            let _ = writeln!(out, "{}", json_out::pretty(&doc));
         }
         CheckFormat::Human => {
             let _ = writeln!(
@@ -488,16 +487,10 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &Layer) -> u8 {
     // order, so memory does not grow with the number of files.
     match format {
         EvalFormat::Json => {
-            let options_json = serde_json::json!({
-                "propagation": match options.propagation { Propagation::MonteCarlo => "monte-carlo", Propagation::Linear => "linear" },
-                "samples": if options.propagation == Propagation::MonteCarlo { serde_json::json!(options.samples) } else { serde_json::Value::Null },
-                "seed": options.seed,
-                "consistency_sigma": options.consistency_sigma,
-            });
-            let head = [
-                ("version", serde_json::json!(syzygy::report::JSON_VERSION)),
-                ("options", options_json),
-            ];
+            let head = syzygy::report::json::EvalHead {
+                version: syzygy::report::JSON_VERSION,
+                options: syzygy::report::json::Options::new(&options),
+            };
             let mut doc = json_out::Document::start(&mut out, &head);
             let mut diags = Vec::new();
             files::for_each_analysed(
@@ -506,7 +499,7 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &Layer) -> u8 {
                 |a| {
                     let systems: Vec<String> = syzygy::report::systems_json(&a, db)
                         .iter()
-                        .map(json_out::system_text)
+                        .map(json_out::pretty)
                         .collect();
                     (
                         a.has_errors(),
@@ -522,10 +515,10 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &Layer) -> u8 {
                     }
                 },
             );
-            let tail = [
-                ("diagnostics", serde_json::Value::Array(diags)),
-                ("io_errors", serde_json::json!(loaded.errors)),
-            ];
+            let tail = syzygy::report::json::EvalTail {
+                diagnostics: &diags,
+                io_errors: &loaded.errors,
+            };
             if let Err(e) = doc.finish(&tail) {
                 // A reader that stops early (`| head`) is not an error of ours.
                 if e.kind() != std::io::ErrorKind::BrokenPipe {

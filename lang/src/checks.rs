@@ -27,10 +27,12 @@ pub const HYDROGEN_LIMIT: f64 = 0.075 * M_SUN;
 /// Most samples used for composition classes.
 const COMPOSITION_SAMPLES: usize = 2000;
 
-/// What the checker found about one planet's composition.
+/// What the checker found about one planet's composition: the `composition` object of the
+/// JSON output, and a line of text for people.
+#[derive(Debug, Clone, PartialEq)]
 pub struct CompositionNote {
     pub body: usize,
-    pub json: serde_json::Value,
+    pub json: crate::report::json::Composition,
     pub text: String,
 }
 
@@ -140,14 +142,10 @@ fn composition_check(
             .with_help("check the transit depth and the stellar radius (a radius ratio from the wrong band or star), and the mass's unit"),
         );
     }
-    let probs = summary.probabilities.clone();
-    let mut json = serde_json::Map::new();
-    for (class, p) in &probs {
-        json.insert(class.name().to_string(), serde_json::json!(p));
-    }
+    let probs = &summary.probabilities;
     let best = summary.most_probable();
     let mut parts: Vec<(CompositionClass, f64)> =
-        probs.into_iter().filter(|(_, p)| *p >= 0.005).collect();
+        probs.iter().copied().filter(|(_, p)| *p >= 0.005).collect();
     parts.sort_by(|a, b| b.1.total_cmp(&a.1));
     let text = parts
         .iter()
@@ -166,13 +164,15 @@ fn composition_check(
     let _ = radius;
     Some(CompositionNote {
         body: bi,
-        json: serde_json::json!({
-            "most_probable": best.map(|c| c.name()),
-            "probabilities": json,
-            "method": method,
-            "extrapolated_fraction": extrapolated,
-            "boundaries": "Seager et al. 2007 pure iron; Zeng et al. 2016 rocky (CMF 0) and CMF 0.5 mix; giant above 0.1 Mjup, inflated above 1.2 Rjup",
-        }),
+        json: crate::report::json::Composition {
+            most_probable: best.map(|c| c.name()),
+            probabilities: crate::report::json::Pairs(
+                probs.iter().map(|(class, p)| (class.name(), *p)).collect(),
+            ),
+            method,
+            extrapolated_fraction: extrapolated,
+            boundaries: "Seager et al. 2007 pure iron; Zeng et al. 2016 rocky (CMF 0) and CMF 0.5 mix; giant above 0.1 Mjup, inflated above 1.2 Rjup",
+        },
         text,
     })
 }

@@ -949,15 +949,6 @@ pub fn classify_distributions(
     })
 }
 
-/// Fraction of valid sample pairs lying below the pure-iron curve (denser than iron).
-/// Returns NaN when no pair is usable (empty input, all pairs invalid, or mismatched
-/// lengths); use [`classify`] for the reason.
-pub fn probability_below_iron(mass_samples_kg: &[f64], radius_samples_m: &[f64]) -> f64 {
-    classify(mass_samples_kg, radius_samples_m)
-        .probability(CompositionClass::DenserThanIron)
-        .unwrap_or(f64::NAN)
-}
-
 /// The curves a mass–radius diagram shows, densest first.
 pub const PLOTTED_CURVES: [Curve; 4] = [
     Curve::PureIron,
@@ -1388,10 +1379,7 @@ mod tests {
                 planet.name,
                 s.probabilities()
             );
-            assert_eq!(
-                probability_below_iron(&[planet.mass_kg], &[planet.mean_radius_m]),
-                0.0
-            );
+            assert_eq!(s.probability(CompositionClass::DenserThanIron), Some(0.0));
         }
     }
 
@@ -1408,7 +1396,7 @@ mod tests {
                 .probability(expected_class(planet.name))
                 .expect("samples present");
             assert!(p > 0.95, "{}: {:?}", planet.name, s.probabilities());
-            assert_eq!(probability_below_iron(&masses, &radii), 0.0);
+            assert_eq!(s.probability(CompositionClass::DenserThanIron), Some(0.0));
             let total: f64 = s.probabilities().iter().map(|(_, p)| p).sum();
             assert!((total - 1.0).abs() < 1e-12);
         }
@@ -1439,7 +1427,9 @@ mod tests {
         );
         let masses = [me(5.0), me(5.0), me(5.0), me(5.0)];
         let radii = [re(1.0), re(1.1), re(1.5), re(3.0)];
-        let p = probability_below_iron(&masses, &radii);
+        let p = classify(&masses, &radii)
+            .probability(CompositionClass::DenserThanIron)
+            .expect("valid pairs");
         assert!((p - 0.5).abs() < 1e-12, "{p}");
         // 1 M_J at 1.6 R_J: inflated; at 1.0 R_J: gas giant.
         let b = ClassBoundaries::default();
@@ -1494,7 +1484,7 @@ mod tests {
         assert!(s.probabilities().is_empty());
         assert_eq!(s.most_probable(), None);
         assert_eq!(s.fraction_extrapolated(), None);
-        assert!(probability_below_iron(&[], &[]).is_nan());
+        assert_eq!(s.probability(CompositionClass::DenserThanIron), None);
     }
 
     #[test]
@@ -1509,7 +1499,10 @@ mod tests {
         let all_nan = classify(&[f64::NAN], &[f64::NAN]);
         assert_eq!(all_nan.n_rejected, 1);
         assert_eq!(all_nan.probability(CompositionClass::Rocky), None);
-        assert!(probability_below_iron(&[f64::NAN], &[R_EARTH]).is_nan());
+        assert_eq!(
+            classify(&[f64::NAN], &[R_EARTH]).probability(CompositionClass::DenserThanIron),
+            None
+        );
     }
 
     #[test]
@@ -1524,7 +1517,10 @@ mod tests {
         );
         assert_eq!(s.n_valid, 0);
         assert!(s.probabilities().is_empty());
-        assert!(probability_below_iron(&[M_EARTH], &[]).is_nan());
+        assert_eq!(
+            classify(&[M_EARTH], &[]).probability(CompositionClass::DenserThanIron),
+            None
+        );
         assert!(s
             .problem
             .is_some_and(|p| p.to_string().contains("must pair up")));

@@ -4,8 +4,8 @@
 //! render them (ariadne in the CLI, LSP diagnostics in the server, JSON and SARIF for machines)
 //! but never invent their own.
 
-use crate::source::{LineIndex, SourceDb, Span};
-use serde::Serialize;
+use crate::source::Span;
+use serde::{Serialize, Serializer};
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize)]
 #[serde(rename_all = "lowercase")]
@@ -53,6 +53,13 @@ macro_rules! rules {
             }
         }
     };
+}
+
+/// A rule is written as its id in machine-readable output.
+impl Serialize for Rule {
+    fn serialize<S: Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
+        serializer.serialize_str(self.id())
+    }
 }
 
 rules! {
@@ -130,46 +137,6 @@ impl Diagnostic {
     pub fn with_help(mut self, help: impl Into<String>) -> Diagnostic {
         self.help = Some(help.into());
         self
-    }
-
-    pub fn with_severity(mut self, severity: Severity) -> Diagnostic {
-        self.severity = severity;
-        self
-    }
-
-    /// The machine-readable form documented in `docs/json-output.md`.
-    pub fn to_json(&self, db: &dyn SourceDb, index: &LineIndex) -> serde_json::Value {
-        let text = db.text(self.span.file);
-        let start = index.line_col(text, self.span.start as usize);
-        let end = index.line_col(text, self.span.end as usize);
-        let labels: Vec<serde_json::Value> = self
-            .labels
-            .iter()
-            .map(|l| {
-                let lt = db.text(l.span.file);
-                let li = LineIndex::new(lt);
-                let s = li.line_col(lt, l.span.start as usize);
-                serde_json::json!({
-                    "file": db.name(l.span.file),
-                    "line": s.line,
-                    "column": s.column,
-                    "message": l.message,
-                })
-            })
-            .collect();
-        serde_json::json!({
-            "rule": self.rule.id(),
-            "severity": self.severity.as_str(),
-            "message": self.message,
-            "file": db.name(self.span.file),
-            "line": start.line,
-            "column": start.column,
-            "end_line": end.line,
-            "end_column": end.column,
-            "labels": labels,
-            "notes": self.notes,
-            "help": self.help,
-        })
     }
 }
 

@@ -120,20 +120,6 @@ impl Tok {
             Tok::Error => "an unexpected character",
         }
     }
-
-    /// Whether the token is a keyword (the editor's token classes use it).
-    pub fn is_keyword(self) -> bool {
-        matches!(
-            self,
-            Tok::System
-                | Tok::StarKw
-                | Tok::Planet
-                | Tok::Orbits
-                | Tok::Ref
-                | Tok::Let
-                | Tok::Assumed
-        )
-    }
 }
 
 /// A token with its byte range.

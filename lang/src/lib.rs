@@ -53,9 +53,9 @@ pub struct Analysis {
     /// One result per system, in the order of `model.systems` (shared with the analyses
     /// that reuse it, see [`reuse`]).
     pub results: Vec<Arc<derive::SystemResult>>,
-    /// Composition summaries per (system index, planet id), as JSON and as a line of text.
-    pub composition: HashMap<(usize, String), serde_json::Value>,
-    pub composition_text: HashMap<(usize, String), String>,
+    /// Composition summaries per (system index, planet id), for the JSON output and as a
+    /// line of text.
+    pub composition: HashMap<(usize, String), checks::CompositionNote>,
     pub diagnostics: Vec<diagnostic::Diagnostic>,
 }
 
@@ -88,8 +88,8 @@ pub(crate) struct SystemOutput {
     /// The engine's diagnostics, then the physics checker's.
     pub(crate) diagnostics: Vec<diagnostic::Diagnostic>,
     pub(crate) result: Arc<derive::SystemResult>,
-    /// Composition notes in the checker's order: (planet id, JSON, line of text).
-    pub(crate) composition: Vec<(String, serde_json::Value, String)>,
+    /// Composition notes in the checker's order, with their planet's id.
+    pub(crate) composition: Vec<(String, checks::CompositionNote)>,
 }
 
 fn parse_and_lower(
@@ -109,7 +109,7 @@ pub(crate) fn derive_system(sys: &model::System, options: &Options) -> SystemOut
         .into_iter()
         .filter_map(|note| {
             let b = sys.bodies.get(note.body)?;
-            Some((b.id.clone(), note.json, note.text))
+            Some((b.id.clone(), note))
         })
         .collect();
     SystemOutput {
@@ -132,12 +132,10 @@ fn assemble(
 ) -> Analysis {
     let mut results = Vec::with_capacity(outputs.len());
     let mut composition = HashMap::new();
-    let mut composition_text = HashMap::new();
     for (si, out) in outputs.into_iter().enumerate() {
         diagnostics.extend(out.diagnostics);
-        for (id, json, text) in out.composition {
-            composition.insert((si, id.clone()), json);
-            composition_text.insert((si, id), text);
+        for (id, note) in out.composition {
+            composition.insert((si, id), note);
         }
         results.push(out.result);
     }
@@ -151,7 +149,6 @@ fn assemble(
         model,
         results,
         composition,
-        composition_text,
         diagnostics,
     }
 }

@@ -1,23 +1,17 @@
 //! What `eval` reports: the machine-readable form (documented in `docs/json-output.md`) and
 //! the text form for people. Pure functions from an [`Analysis`] to data or text.
 
+use crate::ast::BodyKind;
 use crate::derive::{display_factor, Origin, QuantityResult};
 use crate::model::Form;
 use crate::quantities::{self, Qty};
-use crate::source::{LineIndex, SourceDb};
+use crate::source::{Places, SourceDb};
 use crate::Analysis;
-use serde_json::{json, Map, Value as Json};
+
+pub mod json;
 
 /// Version of the JSON contract; bump on any incompatible change.
 pub const JSON_VERSION: u32 = 1;
-
-fn finite(v: f64) -> Json {
-    if v.is_finite() {
-        json!(v)
-    } else {
-        Json::Null
-    }
-}
 
 fn key_label(a: &Analysis, sys: usize, k: crate::derive::Key) -> String {
     let b = a
@@ -29,125 +23,96 @@ fn key_label(a: &Analysis, sys: usize, k: crate::derive::Key) -> String {
     format!("{b}.{}", quantities::def(k.1).name)
 }
 
-fn quantity_json(a: &Analysis, sys: usize, q: &QuantityResult) -> Json {
-    let def = quantities::def(q.qty);
-    let mut m = Map::new();
-    if let Some(t) = &q.text {
-        m.insert("text".into(), json!(t));
-    } else {
+fn quantity_json<'a>(a: &Analysis, sys: usize, q: &'a QuantityResult) -> json::Quantity<'a> {
+    let measured = q.text.is_none().then(|| {
         let unit = q.shown_unit();
         let f = display_factor(unit);
-        m.insert("value".into(), finite(q.value / f));
-        m.insert("unit".into(), json!(unit));
-        m.insert("below".into(), finite(q.below / f));
-        m.insert("above".into(), finite(q.above / f));
-        m.insert(
-            "si".into(),
-            json!({
-                "value": finite(q.value),
-                "below": finite(q.below),
-                "above": finite(q.above),
-                "unit": def.dim.si_unit(),
-            }),
-        );
-    }
-    m.insert("form".into(), json!(q.form.as_str()));
-    m.insert(
-        "limit".into(),
-        match q.form {
-            Form::UpperLimit => json!("upper"),
-            Form::LowerLimit => json!("lower"),
-            _ => Json::Null,
+        json::Measured {
+            value: q.value / f,
+            unit,
+            below: q.below / f,
+            above: q.above / f,
+            si: json::Si {
+                value: q.value,
+                below: q.below,
+                above: q.above,
+                unit: quantities::def(q.qty).dim.si_unit(),
+            },
+        }
+    });
+    let budget = if q.origin == Origin::Derived {
+        q.budget
+            .iter()
+            .map(|(input, share)| json::Share {
+                input,
+                share: *share,
+            })
+            .collect()
+    } else {
+        Vec::new()
+    };
+    json::Quantity {
+        text: q.text.as_deref(),
+        measured,
+        form: q.form.as_str(),
+        limit: match q.form {
+            Form::UpperLimit => Some("upper"),
+            Form::LowerLimit => Some("lower"),
+            _ => None,
         },
-    );
-    m.insert("origin".into(), json!(q.origin.as_str()));
-    if let Some(r) = q.rule {
-        m.insert("rule".into(), json!(r));
+        origin: q.origin.as_str(),
+        rule: q.rule,
+        formula: q.formula,
+        inputs: q.inputs.iter().map(|k| key_label(a, sys, *k)).collect(),
+        citations: &q.citations,
+        assumptions: &q.assumptions,
+        budget,
+        notes: &q.notes,
     }
-    if let Some(f) = q.formula {
-        m.insert("formula".into(), json!(f));
-    }
-    if !q.inputs.is_empty() {
-        m.insert(
-            "inputs".into(),
-            json!(q
-                .inputs
-                .iter()
-                .map(|k| key_label(a, sys, *k))
-                .collect::<Vec<_>>()),
-        );
-    }
-    if !q.citations.is_empty() {
-        m.insert("citations".into(), json!(q.citations));
-    }
-    if !q.assumptions.is_empty() {
-        m.insert("assumptions".into(), json!(q.assumptions));
-    }
-    if q.origin == Origin::Derived && !q.budget.is_empty() {
-        m.insert(
-            "budget".into(),
-            json!(q
-                .budget
-                .iter()
-                .map(|(input, share)| json!({"input": input, "share": share}))
-                .collect::<Vec<_>>()),
-        );
-    }
-    if !q.notes.is_empty() {
-        m.insert("notes".into(), json!(q.notes));
-    }
-    Json::Object(m)
 }
 
 /// The systems of one analysed file, in the `eval --format json` shape.
-pub fn systems_json(a: &Analysis, db: &dyn SourceDb) -> Vec<Json> {
-    let mut out = Vec::new();
-    for (si, (sys, res)) in a.model.systems.iter().zip(&a.results).enumerate() {
-        let bodies: Vec<Json> = sys
-            .bodies
-            .iter()
-            .zip(&res.bodies)
-            .map(|(b, r)| {
-                let mut qs = Map::new();
-                for q in &r.quantities {
-                    qs.insert(
-                        quantities::def(q.qty).name.to_string(),
-                        quantity_json(a, si, q),
-                    );
-                }
-                let mut body = Map::new();
-                body.insert("id".into(), json!(b.id));
-                body.insert("kind".into(), json!(b.kind.as_str()));
-                if b.kind == crate::ast::BodyKind::Planet {
-                    body.insert(
-                        "orbits".into(),
+pub fn systems_json<'a>(a: &'a Analysis, db: &'a dyn SourceDb) -> Vec<json::System<'a>> {
+    let file = db.name(a.file);
+    a.model
+        .systems
+        .iter()
+        .zip(&a.results)
+        .enumerate()
+        .map(|(si, (sys, res))| json::System {
+            file,
+            name: &sys.name,
+            bodies: sys
+                .bodies
+                .iter()
+                .zip(&res.bodies)
+                .map(|(b, r)| json::Body {
+                    id: &b.id,
+                    kind: b.kind.as_str(),
+                    orbits: (b.kind == BodyKind::Planet).then(|| {
                         b.orbits
                             .and_then(|h| sys.bodies.get(h))
-                            .map_or(Json::Null, |h| json!(h.id)),
-                    );
-                }
-                body.insert("quantities".into(), Json::Object(qs));
-                if let Some(c) = a.composition.get(&(si, b.id.clone())) {
-                    body.insert("composition".into(), c.clone());
-                }
-                Json::Object(body)
-            })
-            .collect();
-        out.push(json!({
-            "file": db.name(a.file),
-            "name": sys.name,
-            "bodies": bodies,
-        }));
-    }
-    out
+                            .map(|h| h.id.as_str())
+                    }),
+                    quantities: json::Pairs(
+                        r.quantities
+                            .iter()
+                            .map(|q| (quantities::def(q.qty).name, quantity_json(a, si, q)))
+                            .collect(),
+                    ),
+                    composition: a.composition.get(&(si, b.id.clone())).map(|c| &c.json),
+                })
+                .collect(),
+        })
+        .collect()
 }
 
 /// Diagnostics of one analysed file, in the documented shape.
-pub fn diagnostics_json(a: &Analysis, db: &dyn SourceDb) -> Vec<Json> {
-    let index = LineIndex::new(db.text(a.file));
+pub fn diagnostics_json(a: &Analysis, db: &dyn SourceDb) -> Vec<json::Diagnostic> {
+    let places = Places::new(db, a.file);
     a.diagnostics
         .iter()
-        .map(|d| d.to_json(db, &index))
+        .map(|d| json::Diagnostic::new(d, &places))
         .collect()
 }
 
@@ -256,8 +221,8 @@ pub fn eval_text(a: &Analysis, db: &dyn SourceDb) -> String {
                     " ".repeat(pad)
                 ));
             }
-            if let Some(c) = a.composition_text.get(&(si, b.id.clone())) {
-                out.push_str(&format!("    composition: {c}\n"));
+            if let Some(c) = a.composition.get(&(si, b.id.clone())) {
+                out.push_str(&format!("    composition: {}\n", c.text));
             }
             let mut assumed: Vec<&String> = r
                 .quantities

@@ -185,9 +185,41 @@ impl LineIndex {
             .map_or(text.len(), |&e| e.saturating_sub(1));
         floor_char_boundary(text, (start + col as usize).min(end))
     }
+}
 
-    pub fn line_count(&self) -> usize {
-        self.starts.len()
+/// Turns spans into the file's name and the 1-based line and column (in characters) of
+/// their start and end: the one conversion the machine-readable emitters (JSON, SARIF)
+/// share. Holds the line index of one file and makes another only for a span elsewhere.
+pub struct Places<'a> {
+    db: &'a dyn SourceDb,
+    file: FileId,
+    index: LineIndex,
+}
+
+impl<'a> Places<'a> {
+    pub fn new(db: &'a dyn SourceDb, file: FileId) -> Places<'a> {
+        Places {
+            db,
+            file,
+            index: LineIndex::new(db.text(file)),
+        }
+    }
+
+    /// The file's name, and the start and end (exclusive) of the span.
+    pub fn of(&self, span: Span) -> (&'a str, LineCol, LineCol) {
+        let text = self.db.text(span.file);
+        let other;
+        let index = if span.file == self.file {
+            &self.index
+        } else {
+            other = LineIndex::new(text);
+            &other
+        };
+        (
+            self.db.name(span.file),
+            index.line_col(text, span.start as usize),
+            index.line_col(text, span.end as usize),
+        )
     }
 }
 

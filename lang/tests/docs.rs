@@ -181,14 +181,15 @@ fn json_doc_mentions_every_field_of_the_real_eval_output() {
         samples: 1000,
         ..syzygy::Options::default()
     };
-    let analysis = syzygy::analyze(file, &text, &options.into());
-    let systems = syzygy::report::systems_json(&analysis, &db);
-    assert!(!systems.is_empty(), "veyra.syz has no system");
+    let analysis = syzygy::analyze(file, &text, &options.clone().into());
+    let systems = serde_json::to_value(syzygy::report::systems_json(&analysis, &db)).unwrap();
+    assert!(
+        systems.as_array().is_some_and(|s| !s.is_empty()),
+        "veyra.syz has no system"
+    );
 
     let mut found = BTreeSet::new();
-    for s in &systems {
-        keys(s, &mut found);
-    }
+    keys(&systems, &mut found);
     // The walk must reach inside quantity objects, or this test would prove little.
     for must in [
         "value",
@@ -214,20 +215,39 @@ fn json_doc_mentions_every_field_of_the_real_eval_output() {
         missing.is_empty(),
         "docs/json-output.md does not mention these eval JSON fields: {missing:?}"
     );
-    // The top-level fields the CLI adds around the systems, and the diagnostic fields.
-    for k in [
-        "version",
-        "options",
-        "systems",
-        "diagnostics",
-        "io_errors",
-        "summary",
-        "files",
-        "propagation",
-        "samples",
-        "seed",
-        "consistency_sigma",
+    // The members around the systems (`systems` itself is written by the CLI's streaming
+    // writer), of `check`'s document, and the diagnostic fields.
+    use syzygy::report::json;
+    let head = json::EvalHead {
+        version: syzygy::report::JSON_VERSION,
+        options: json::Options::new(&options),
+    };
+    let tail = json::EvalTail {
+        diagnostics: &[],
+        io_errors: &[],
+    };
+    let check = json::CheckDocument {
+        version: syzygy::report::JSON_VERSION,
+        files: 1,
+        diagnostics: &[],
+        io_errors: &[],
+        summary: json::Summary {
+            errors: 0,
+            warnings: 0,
+            notes: 0,
+            rules: json::Pairs(Vec::new()),
+        },
+    };
+    let mut around = BTreeSet::from(["systems".to_string()]);
+    for v in [
+        serde_json::to_value(&head).unwrap(),
+        serde_json::to_value(&tail).unwrap(),
+        serde_json::to_value(&check).unwrap(),
     ] {
+        keys(&v, &mut around);
+    }
+    assert!(around.contains("consistency_sigma") && around.contains("summary"));
+    for k in &around {
         assert!(
             json_doc.contains(&format!("`{k}`")),
             "docs/json-output.md lacks `{k}`"
@@ -239,8 +259,9 @@ fn json_doc_mentions_every_field_of_the_real_eval_output() {
         .with_label(span, "y")
         .with_note("z")
         .with_help("w");
-    let index = syzygy::source::LineIndex::new(&text);
-    keys(&d.to_json(&db, &index), &mut diag_keys);
+    let places = syzygy::source::Places::new(&db, file);
+    let d = syzygy::report::json::Diagnostic::new(&d, &places);
+    keys(&serde_json::to_value(d).unwrap(), &mut diag_keys);
     for k in &diag_keys {
         assert!(
             section(&json_doc, "## Diagnostic").contains(&format!("`{k}`")),

@@ -289,7 +289,7 @@ pub fn complete(a: &Analysis, src: &str, offset: usize) -> Vec<Completion> {
                 .collect(),
         };
         for (sym, name) in candidates {
-            let doc = super::hover::unit(&sym).unwrap_or_default();
+            let doc = super::hover::unit(&sym);
             out.push(Completion {
                 label: sym,
                 kind: CompletionKind::Unit,

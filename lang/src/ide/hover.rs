@@ -27,7 +27,7 @@ pub fn hover(
     let text = match &o.symbol {
         Symbol::Quantity { system, body, qty } => with_method(quantity(a, *system, body, *qty)?),
         Symbol::Body { system, name } => with_method(body_table(a, *system, name)?),
-        Symbol::Unit(sym) => unit(sym)?,
+        Symbol::Unit(sym) => unit(sym),
         Symbol::Ref(id) => match a.model.refs.iter().find(|r| &r.id == id) {
             Some(r) => format!("**reference `{id}`**\n\n{}", r.text),
             None => format!("**reference `{id}`** is not declared in this file"),
@@ -204,36 +204,34 @@ pub fn body_table(a: &Analysis, si: usize, name: &str) -> Option<String> {
             ));
         }
     }
-    if let Some(c) = a.composition_text.get(&(si, b.id.clone())) {
-        out.push_str(&format!("\ncomposition: {c}\n"));
-    } else if let Some(c) = a.composition.get(&(si, b.id.clone())) {
-        out.push_str(&format!("\ncomposition: `{c}`\n"));
+    if let Some(c) = a.composition.get(&(si, b.id.clone())) {
+        out.push_str(&format!("\ncomposition: {}\n", c.text));
     }
     Some(out)
 }
 
 /// The hover of a unit symbol: its name, value in SI and source.
-pub fn unit(sym: &str) -> Option<String> {
+pub fn unit(sym: &str) -> String {
     let Some((factor, def)) = crate::units::lookup(sym) else {
-        return Some(format!(
+        return format!(
             "unknown unit `{sym}`{}",
             crate::units::suggest(sym)
                 .map_or_else(String::new, |s| format!(" (did you mean `{s}`?)"))
-        ));
+        );
     };
     let prefixed = if def.symbol == sym || def.aliases.contains(&sym) {
         String::new()
     } else {
         format!(" (an SI prefix on `{}`)", def.symbol)
     };
-    Some(format!(
+    format!(
         "**`{sym}`** — {}{prefixed}\n\n`1 {sym} = {} {}` ({})\n\nsource: {}",
         def.name,
         crate::format::number(factor),
         def.dim.si_unit(),
         def.dim.describe(),
         def.source
-    ))
+    )
 }
 
 #[cfg(test)]
@@ -301,6 +299,6 @@ mod tests {
         let h = hover_at("Msun", 0);
         assert!(h.contains("nominal solar mass"), "{h}");
         assert!(h.contains("IAU 2015"), "{h}");
-        assert!(unit("km").unwrap().contains("1 km = 1000 m"));
+        assert!(unit("km").contains("1 km = 1000 m"));
     }
 }

@@ -1,0 +1,249 @@
+//! The JSON contract of `syz check --format json` and `syz eval --format json`
+//! (`docs/json-output.md`) as types. Every object of that page is one struct here, with the
+//! page's field names and in the order they are written, so a field cannot be spelt one way
+//! in one place and another way elsewhere. serde_json writes a number that is not finite as
+//! `null`, which is what the contract says of such numbers.
+//!
+//! Objects whose keys are data (quantity names, composition classes, rule ids) are
+//! [`Pairs`]: written in the order given.
+
+use crate::diagnostic::{self, Rule, Severity};
+use crate::source::Places;
+use serde::{Serialize, Serializer};
+
+/// A JSON object written from pairs, in their order.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Pairs<V>(pub Vec<(&'static str, V)>);
+
+impl<V: Serialize> Serialize for Pairs<V> {
+    fn serialize<S: Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
+        serializer.collect_map(self.0.iter().map(|(k, v)| (k, v)))
+    }
+}
+
+/// The whole of `syz check --format json`.
+#[derive(Debug, Serialize)]
+pub struct CheckDocument<'a> {
+    pub version: u32,
+    pub files: usize,
+    pub diagnostics: &'a [Diagnostic],
+    pub io_errors: &'a [String],
+    pub summary: Summary,
+}
+
+/// Counts of a check's diagnostics, after severity overrides.
+#[derive(Debug, Serialize)]
+pub struct Summary {
+    pub errors: usize,
+    pub warnings: usize,
+    pub notes: usize,
+    /// Rule id to count, only for rules that occur, in the catalogue's order.
+    pub rules: Pairs<usize>,
+}
+
+/// The members of `syz eval --format json` before `systems` (the systems are streamed
+/// between this and [`EvalTail`]).
+#[derive(Debug, Serialize)]
+pub struct EvalHead {
+    pub version: u32,
+    pub options: Options,
+}
+
+/// The members of `syz eval --format json` after `systems`.
+#[derive(Debug, Serialize)]
+pub struct EvalTail<'a> {
+    pub diagnostics: &'a [Diagnostic],
+    pub io_errors: &'a [String],
+}
+
+/// The engine settings that produced the numbers.
+#[derive(Debug, Serialize)]
+pub struct Options {
+    pub propagation: &'static str,
+    /// Only with Monte Carlo propagation.
+    pub samples: Option<usize>,
+    pub seed: u64,
+    pub consistency_sigma: f64,
+}
+
+impl Options {
+    pub fn new(o: &crate::Options) -> Options {
+        let monte_carlo = o.propagation == crate::Propagation::MonteCarlo;
+        Options {
+            propagation: if monte_carlo { "monte-carlo" } else { "linear" },
+            samples: monte_carlo.then_some(o.samples),
+            seed: o.seed,
+            consistency_sigma: o.consistency_sigma,
+        }
+    }
+}
+
+/// One diagnostic. Owned, so it outlives the analysis it came from.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Diagnostic {
+    pub rule: Rule,
+    pub severity: Severity,
+    pub message: String,
+    pub file: String,
+    pub line: u32,
+    pub column: u32,
+    pub end_line: u32,
+    pub end_column: u32,
+    pub labels: Vec<Label>,
+    pub notes: Vec<String>,
+    /// Always written, `null` when there is no suggested fix.
+    pub help: Option<String>,
+}
+
+/// A secondary location of a diagnostic: its start only.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Label {
+    pub file: String,
+    pub line: u32,
+    pub column: u32,
+    pub message: String,
+}
+
+impl Diagnostic {
+    pub fn new(d: &diagnostic::Diagnostic, places: &Places) -> Diagnostic {
+        let (file, start, end) = places.of(d.span);
+        Diagnostic {
+            rule: d.rule,
+            severity: d.severity,
+            message: d.message.clone(),
+            file: file.to_string(),
+            line: start.line,
+            column: start.column,
+            end_line: end.line,
+            end_column: end.column,
+            labels: d
+                .labels
+                .iter()
+                .map(|l| {
+                    let (file, start, _) = places.of(l.span);
+                    Label {
+                        file: file.to_string(),
+                        line: start.line,
+                        column: start.column,
+                        message: l.message.clone(),
+                    }
+                })
+                .collect(),
+            notes: d.notes.clone(),
+            help: d.help.clone(),
+        }
+    }
+}
+
+/// One system of `eval`, borrowing from the analysis.
+#[derive(Debug, Serialize)]
+pub struct System<'a> {
+    pub file: &'a str,
+    pub name: &'a str,
+    pub bodies: Vec<Body<'a>>,
+}
+
+#[derive(Debug, Serialize)]
+pub struct Body<'a> {
+    pub id: &'a str,
+    pub kind: &'static str,
+    /// Planets only: the host's id, `null` when it could not be resolved.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub orbits: Option<Option<&'a str>>,
+    /// Canonical quantity name to quantity.
+    pub quantities: Pairs<Quantity<'a>>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub composition: Option<&'a Composition>,
+}
+
+/// A quantity: a text (`text`) or a number (the members of [`Measured`]), then what it is
+/// and where it came from. Lists are left out when empty.
+#[derive(Debug, Serialize)]
+pub struct Quantity<'a> {
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub text: Option<&'a str>,
+    #[serde(flatten)]
+    pub measured: Option<Measured<'a>>,
+    pub form: &'static str,
+    /// Always written: `upper`, `lower` or `null`.
+    pub limit: Option<&'static str>,
+    pub origin: &'static str,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub rule: Option<&'static str>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub formula: Option<&'static str>,
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub inputs: Vec<String>,
+    #[serde(skip_serializing_if = "<[_]>::is_empty")]
+    pub citations: &'a [String],
+    #[serde(skip_serializing_if = "<[_]>::is_empty")]
+    pub assumptions: &'a [String],
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub budget: Vec<Share<'a>>,
+    #[serde(skip_serializing_if = "<[_]>::is_empty")]
+    pub notes: &'a [String],
+}
+
+/// A number with its uncertainties, in the display unit and in SI.
+#[derive(Debug, Serialize)]
+pub struct Measured<'a> {
+    pub value: f64,
+    pub unit: &'a str,
+    pub below: f64,
+    pub above: f64,
+    pub si: Si,
+}
+
+#[derive(Debug, Serialize)]
+pub struct Si {
+    pub value: f64,
+    pub below: f64,
+    pub above: f64,
+    pub unit: String,
+}
+
+/// One line of an error budget.
+#[derive(Debug, Serialize)]
+pub struct Share<'a> {
+    pub input: &'a str,
+    pub share: f64,
+}
+
+/// A planet's composition classes (made by the physics checker).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Composition {
+    pub most_probable: Option<&'static str>,
+    /// Class name to probability.
+    pub probabilities: Pairs<f64>,
+    pub method: &'static str,
+    pub extrapolated_fraction: f64,
+    pub boundaries: &'static str,
+}
+
+#[cfg(test)]
+#[allow(clippy::unwrap_used)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn numbers_that_are_not_finite_are_null_and_pairs_keep_their_order() {
+        let m = Measured {
+            value: f64::NAN,
+            unit: "au",
+            below: f64::INFINITY,
+            above: 0.5,
+            si: Si {
+                value: 1.0,
+                below: f64::NEG_INFINITY,
+                above: 0.0,
+                unit: "m".into(),
+            },
+        };
+        assert_eq!(
+            serde_json::to_string(&m).unwrap(),
+            r#"{"value":null,"unit":"au","below":null,"above":0.5,"si":{"value":1.0,"below":null,"above":0.0,"unit":"m"}}"#
+        );
+        let p = Pairs(vec![("z", 1), ("a", 2)]);
+        assert_eq!(serde_json::to_string(&p).unwrap(), r#"{"z":1,"a":2}"#);
+    }
+}
