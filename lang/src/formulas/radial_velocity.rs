@@ -1,0 +1,162 @@
+//! Radial velocity: the star's semi-amplitude `K` from the planet's mass, and its exact
+//! inverse, the planet's mass (true for a given `sin i`, or the minimum mass) from `K`, solved
+//! without assuming the planet is light.
+
+use super::domain::{finite, is_eccentricity, is_non_negative, is_positive, is_sin_inclination};
+use super::typed::{gravitational_constant, typed, value_of};
+use crate::fastmath;
+use std::f64::consts::PI;
+use uom::si::f64::{Mass, Time, Velocity};
+
+/// `(1 - e^2)^(3/2)`, as `x sqrt(x)`: the same number without a general power, which the
+/// radial-velocity rules evaluate for every Monte Carlo sample.
+fn one_minus_e2_to_three_halves(e: f64) -> f64 {
+    let x = 1.0 - e * e;
+    x * x.sqrt()
+}
+
+/// Radial-velocity semi-amplitude of the star,
+/// `K = (2 pi G / P)^(1/3) Mp sin i / (M* + Mp)^(2/3) / sqrt(1 - e^2)`
+/// (the standard two-body result, e.g. Lovis & Fischer 2010, "Radial Velocity Techniques for
+/// Exoplanets" — from memory).
+///
+/// Computed as the cube root of `2 pi G Mp^3 sin^3 i / (P (M* + Mp)^2 (1 - e^2)^(3/2))`, which
+/// the compiler checks to be a velocity cubed. `m_planet` may be zero (giving `K = 0`).
+/// `None` for a non-positive period or stellar mass, a negative planet mass, `e` outside
+/// `[0, 1)` or `sin_i` outside `(0, 1]`.
+pub fn rv_semi_amplitude(
+    m_planet: Mass,
+    period: Time,
+    m_star: Mass,
+    e: f64,
+    sin_i: f64,
+) -> Option<Velocity> {
+    if !(is_non_negative(&m_planet)
+        && is_positive(&period)
+        && is_positive(&m_star)
+        && is_eccentricity(e)
+        && is_sin_inclination(sin_i))
+    {
+        return None;
+    }
+    let m_total = m_star + m_planet;
+    let projected = m_planet * sin_i;
+    let ecc = one_minus_e2_to_three_halves(e);
+    let k_cubed = 2.0 * PI * gravitational_constant() * projected * projected * projected
+        / (period * m_total * m_total * ecc);
+    finite(typed(|| k_cubed.cbrt(), fastmath::cbrt(k_cubed.value)))
+}
+
+/// Planet mass from the radial-velocity semi-amplitude, the exact inverse of
+/// [`rv_semi_amplitude`]: solves the mass-function relation
+/// `(Mp sin i)^3 / (M* + Mp)^2 = P K^3 (1 - e^2)^(3/2) / (2 pi G)`
+/// (the spectroscopic mass function, the same two-body relation rearranged)
+/// for `Mp`, without assuming `Mp << M*`.
+///
+/// What it returns: the true planet mass `Mp` for the given `sin i`. With `sin_i = 1` it returns
+/// the mass that satisfies the relation with `sin i = 1`, which is the trade's minimum mass (the
+/// smallest mass consistent with `K`). Because `M* + Mp` depends on the true mass, that minimum
+/// mass differs slightly from `Mp_true * sin i` when the planet is not negligible against the
+/// star; see [`minimum_mass_from_rv`].
+///
+/// Method: with `u = Mp / M*` and `phi = f / (M* sin^3 i)`, the relation reads
+/// `u^3 = phi (1 + u)^2`, which has exactly one positive root. Newton's method on
+/// `h(y) = 3 y - 2 ln(1 + e^y) - ln phi`, `y = ln u`, converges from any start because `h` is
+/// increasing (`1 < h' <= 3`) and concave; once a step falls below 1e-10 one more step is
+/// taken, which leaves the mass accurate to rounding level (about 1e-15 relative).
+///
+/// `None` for a non-positive `k`, period or stellar mass, `e` outside `[0, 1)`, `sin_i` outside
+/// `(0, 1]`, or if the iteration does not converge (not observed for finite inputs).
+pub fn planet_mass_from_rv(
+    k: Velocity,
+    period: Time,
+    m_star: Mass,
+    e: f64,
+    sin_i: f64,
+) -> Option<Mass> {
+    if !(is_positive(&k)
+        && is_positive(&period)
+        && is_positive(&m_star)
+        && is_eccentricity(e)
+        && is_sin_inclination(sin_i))
+    {
+        return None;
+    }
+    // Mass function f = P K^3 (1 - e^2)^(3/2) / (2 pi G), a mass.
+    let mass_function: Mass = period * k * k * k * one_minus_e2_to_three_halves(e)
+        / (2.0 * PI * gravitational_constant());
+    let phi = value_of(mass_function / (m_star * sin_i.powi(3)));
+    if !(phi.is_finite() && phi > 0.0) {
+        return None;
+    }
+    // Fast path: Newton on the cubic g(u) = u^3 - phi (1 + u)^2 itself (arithmetic only),
+    // from the small-planet guess u0 = c (1 + c)^(2/3), c = phi^(1/3). g is convex where
+    // the root lies (g'' = 6u - 2 phi > 0 for u > phi/3, and the root exceeds phi^(1/3)), so
+    // after the first step the iterates decrease monotonically onto the root. Anything
+    // unusual (a flat slope, no convergence) falls through to the log-space iteration below,
+    // which converges from any start.
+    {
+        let c = fastmath::cbrt_guess(phi);
+        let mut u = c * fastmath::cbrt_guess((1.0 + c) * (1.0 + c));
+        for _ in 0..60 {
+            let g = u * u * u - phi * (1.0 + u) * (1.0 + u);
+            let slope = 3.0 * u * u - 2.0 * phi * (1.0 + u);
+            if !(slope > 0.0 && g.is_finite()) {
+                break;
+            }
+            let step = g / slope;
+            u -= step;
+            if !(u.is_finite() && u > 0.0) {
+                break;
+            }
+            if step.abs() <= 1e-9 * u {
+                let g = u * u * u - phi * (1.0 + u) * (1.0 + u);
+                let slope = 3.0 * u * u - 2.0 * phi * (1.0 + u);
+                if slope > 0.0 {
+                    u -= g / slope;
+                }
+                if u.is_finite() && u > 0.0 {
+                    return finite(m_star * u);
+                }
+                break;
+            }
+        }
+    }
+    let ln_phi = phi.ln();
+    // ln(1 + e^y) without overflow.
+    let softplus = |y: f64| {
+        if y > 0.0 {
+            y + (-y).exp().ln_1p()
+        } else {
+            y.exp().ln_1p()
+        }
+    };
+    // Start from the small-planet solution u = phi^(1/3) (1 + phi^(1/3))^(2/3).
+    let c = fastmath::cbrt(phi);
+    let mut y = c.ln() + (2.0 / 3.0) * c.ln_1p();
+    let newton_step = |y: f64| {
+        let h = 3.0 * y - 2.0 * softplus(y) - ln_phi;
+        // d/dy ln(1 + e^y) = 1 / (1 + e^-y)
+        let slope = 3.0 - 2.0 / (1.0 + (-y).exp());
+        h / slope
+    };
+    for _ in 0..100 {
+        let step = newton_step(y);
+        y -= step;
+        if !y.is_finite() {
+            return None;
+        }
+        if step.abs() <= 1e-10 * y.abs().max(1.0) {
+            // Quadratic convergence: one more step brings the error to rounding level.
+            y -= newton_step(y);
+            return finite(m_star * y.exp());
+        }
+    }
+    None
+}
+
+/// Minimum planet mass from the radial-velocity semi-amplitude: [`planet_mass_from_rv`] with
+/// `sin i = 1` (the mass that gives `K` for an edge-on orbit), solved exactly.
+pub fn minimum_mass_from_rv(k: Velocity, period: Time, m_star: Mass, e: f64) -> Option<Mass> {
+    planet_mass_from_rv(k, period, m_star, e, 1.0)
+}

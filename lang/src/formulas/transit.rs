@@ -1,0 +1,170 @@
+//! Transit geometry after Winn (2010), "Transits and Occultations": depth and radius ratio
+//! (no limb darkening), impact parameter and inclination (eq. 7), total and full durations
+//! (eqs. 14–16), and the stellar mean density from the transit's `a/R*` and period
+//! (Seager & Mallén-Ornelas 2003).
+
+use super::domain::{finite, finite_f64, is_eccentricity, is_positive, is_scaled_axis};
+use super::typed::gravitational_constant;
+use std::f64::consts::PI;
+use uom::si::f64::{Angle, MassDensity, Ratio, Time};
+use uom::si::ratio::ratio;
+
+/// Transit depth from the radius ratio, `depth = k^2` (the occulted fraction of a uniform stellar
+/// disc, no limb darkening; Winn 2010 sec. 2). `None` for a non-positive or non-finite `k`.
+pub fn depth_from_radius_ratio(radius_ratio: f64) -> Option<f64> {
+    if !(radius_ratio.is_finite() && radius_ratio > 0.0) {
+        return None;
+    }
+    finite_f64(radius_ratio * radius_ratio)
+}
+
+/// Radius ratio from the transit depth, `k = Rp / R* = sqrt(depth)` (Winn 2010 sec. 2). This is
+/// the no-limb-darkening approximation: a limb-darkened star makes a central transit deeper than
+/// `k^2`, so this `k` is an estimate. `depth` is a fraction (84 ppm = 8.4e-5). `None` for a
+/// depth outside `(0, 1]`.
+pub fn radius_ratio_from_depth(depth: f64) -> Option<f64> {
+    if !(depth.is_finite() && depth > 0.0 && depth <= 1.0) {
+        return None;
+    }
+    finite_f64(depth.sqrt())
+}
+
+/// Star–planet distance at mid-transit in stellar radii,
+/// `r / R* = (a / R*) (1 - e^2) / (1 + e sin omega)` (the eccentric factor of Winn 2010 eq. 7).
+/// `None` for bad inputs or when `r / R* <= 1` (the planet would be inside the star at
+/// conjunction).
+fn conjunction_distance(a_over_rstar: f64, e: f64, omega: Angle) -> Option<f64> {
+    if !(omega.value.is_finite() && is_scaled_axis(a_over_rstar) && is_eccentricity(e)) {
+        return None;
+    }
+    let r = a_over_rstar * (1.0 - e * e) / (1.0 + e * omega.sin().get::<ratio>());
+    (r.is_finite() && r > 1.0).then_some(r)
+}
+
+/// Impact parameter from the inclination,
+/// `b = (a / R*) cos i (1 - e^2) / (1 + e sin omega)` (Winn 2010 eq. 7).
+///
+/// The impact parameter is non-negative by convention, so `|cos i|` is used: `i` and
+/// `180 deg - i` give the same `b`. `None` for a non-finite angle, `a/R* <= 1`, `e` outside
+/// `[0, 1)`, or when the star–planet distance at conjunction is at most one stellar radius.
+pub fn impact_from_inclination(
+    inclination: Angle,
+    a_over_rstar: f64,
+    e: f64,
+    omega: Angle,
+) -> Option<f64> {
+    if !inclination.value.is_finite() {
+        return None;
+    }
+    let r = conjunction_distance(a_over_rstar, e, omega)?;
+    finite_f64(r * inclination.cos().get::<ratio>().abs())
+}
+
+/// Inclination from the impact parameter, inverting Winn 2010 eq. 7:
+/// `cos i = b (1 + e sin omega) / ((a / R*) (1 - e^2))`, returned in `[0, 90 deg]`.
+///
+/// `None` for a negative `b`, `a/R* <= 1`, `e` outside `[0, 1)`, a star–planet distance at
+/// conjunction of at most one stellar radius, or when no inclination gives this `b`
+/// (`cos i > 1`: `b` exceeds that distance).
+pub fn inclination_from_impact(
+    impact: f64,
+    a_over_rstar: f64,
+    e: f64,
+    omega: Angle,
+) -> Option<Angle> {
+    cos_inclination(impact, a_over_rstar, e, omega).map(|c| Ratio::new::<ratio>(c).acos())
+}
+
+fn cos_inclination(impact: f64, a_over_rstar: f64, e: f64, omega: Angle) -> Option<f64> {
+    if !(impact.is_finite() && impact >= 0.0) {
+        return None;
+    }
+    let cos_i = impact / conjunction_distance(a_over_rstar, e, omega)?;
+    (cos_i.is_finite() && cos_i <= 1.0).then_some(cos_i)
+}
+
+/// Shared body of Winn 2010 eqs. 14–16: `T = P/pi asin[(R*/a) sqrt(chord^2 - b^2) / sin i]`
+/// times `sqrt(1 - e^2) / (1 + e sin omega)`, with `chord = 1 + k` or `1 - k`.
+fn transit_duration(
+    period: Time,
+    a_over_rstar: f64,
+    chord: f64,
+    impact: f64,
+    e: f64,
+    omega: Angle,
+) -> Option<Time> {
+    if !is_positive(&period) {
+        return None;
+    }
+    let cos_i = cos_inclination(impact, a_over_rstar, e, omega)?;
+    let sin_i = (1.0 - cos_i * cos_i).sqrt();
+    let half_chord_sq = chord * chord - impact * impact;
+    if !(half_chord_sq > 0.0 && sin_i > 0.0) {
+        return None;
+    }
+    let arg = half_chord_sq.sqrt() / (a_over_rstar * sin_i);
+    // arg > 1 means the planet would overlap the star for more than half an orbit: the
+    // formula's geometry does not apply.
+    if !(arg.is_finite() && arg <= 1.0) {
+        return None;
+    }
+    let eccentric = (1.0 - e * e).sqrt() / (1.0 + e * omega.sin().get::<ratio>());
+    finite(period / PI * arg.asin() * eccentric)
+}
+
+/// Total transit duration T14 (first to fourth contact),
+/// `T14 = P/pi asin[(R*/a) sqrt((1 + k)^2 - b^2) / sin i]` (Winn 2010 eq. 14), times the
+/// eccentric factor `sqrt(1 - e^2) / (1 + e sin omega)` (Winn 2010 eq. 16, which treats the
+/// star–planet distance as constant during the transit). `sin i` is obtained from `b` with
+/// Winn 2010 eq. 7.
+///
+/// `None` when there is no transit (`b >= 1 + k`), for a non-positive period or `k`,
+/// `a/R* <= 1`, `e` outside `[0, 1)`, a `b` no inclination can give, or when the asin argument
+/// exceeds 1 (the planet would overlap the star for over half an orbit).
+pub fn transit_duration_total(
+    period: Time,
+    a_over_rstar: f64,
+    radius_ratio: f64,
+    impact: f64,
+    e: f64,
+    omega: Angle,
+) -> Option<Time> {
+    if !(radius_ratio.is_finite() && radius_ratio > 0.0) {
+        return None;
+    }
+    transit_duration(period, a_over_rstar, 1.0 + radius_ratio, impact, e, omega)
+}
+
+/// Full transit duration T23 (second to third contact, planet wholly inside the disc),
+/// `T23 = P/pi asin[(R*/a) sqrt((1 - k)^2 - b^2) / sin i]` (Winn 2010 eq. 15), times the
+/// eccentric factor of Winn 2010 eq. 16 (see [`transit_duration_total`]).
+///
+/// `None` when there is no full transit (a grazing transit, `b >= 1 - k`, or `k >= 1`), and for
+/// the same bad inputs as [`transit_duration_total`].
+pub fn transit_duration_full(
+    period: Time,
+    a_over_rstar: f64,
+    radius_ratio: f64,
+    impact: f64,
+    e: f64,
+    omega: Angle,
+) -> Option<Time> {
+    if !(radius_ratio.is_finite() && radius_ratio > 0.0 && radius_ratio < 1.0) {
+        return None;
+    }
+    transit_duration(period, a_over_rstar, 1.0 - radius_ratio, impact, e, omega)
+}
+
+/// Stellar mean density from the transit's scaled semi-major axis and the period,
+/// `rho* = 3 pi (a / R*)^3 / (G P^2)` (Seager & Mallén-Ornelas 2003 eq. 9 with `a/R*` in place
+/// of its expression in the transit shape; Winn 2010 eq. 30 without the `k^3 rho_p` term).
+/// Neglects the planet's mass: the result is an estimate biased high by the factor
+/// `1 + Mp/M*`.
+///
+/// `None` for `a/R* <= 1` or a non-positive period.
+pub fn stellar_density_from_transit(a_over_rstar: f64, period: Time) -> Option<MassDensity> {
+    if !(is_scaled_axis(a_over_rstar) && is_positive(&period)) {
+        return None;
+    }
+    finite(3.0 * PI * a_over_rstar.powi(3) / (gravitational_constant() * period * period))
+}
