@@ -3,7 +3,7 @@
 //! without looking at units row by row.
 
 use syzygy::ast::BodyKind;
-use syzygy::derive::{display_factor, QuantityResult};
+use syzygy::derive::{DisplayUnit, QuantityResult};
 use syzygy::model::Form;
 use syzygy::quantities::{self, Qty, QuantityDef};
 use syzygy::source::SourceDb;
@@ -60,7 +60,7 @@ fn write_cells<W: std::io::Write>(
     if def.text {
         w.write_field(q.text.as_deref().unwrap_or_default())?;
     } else {
-        let f = display_factor(column_unit(def));
+        let f = DisplayUnit::parse(column_unit(def)).map_or(f64::NAN, |u| u.factor);
         w.write_field(number(buf, q.value / f))?;
         w.write_field(number(buf, q.below / f))?;
         w.write_field(number(buf, q.above / f))?;

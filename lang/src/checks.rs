@@ -8,7 +8,7 @@
 use crate::ast::BodyKind;
 use crate::composition::{self, CompositionClass};
 use crate::constants::{M_JUPITER, M_SUN, R_EARTH};
-use crate::derive::{display_factor, display_unit, value, Derivation, Key};
+use crate::derive::{display_unit, value, Derivation, Key};
 use crate::diagnostic::{Diagnostic, Rule};
 use crate::formulas;
 use crate::quantities::Qty;
@@ -72,10 +72,7 @@ fn anchor(d: &Derivation, bi: usize, qtys: &[Qty]) -> Span {
 
 fn shown(q: Qty, si: f64) -> String {
     let unit = display_unit(q, si);
-    format!(
-        "{} {unit}",
-        crate::format::sig(si / display_factor(unit), 3)
-    )
+    format!("{} {unit}", crate::format::sig(unit.of(si), 3))
 }
 
 /// Samples of a value: the engine's, or drawn from its linear spread.

@@ -2,7 +2,7 @@
 //! the text form for people. Pure functions from an [`Analysis`] to data or text.
 
 use crate::ast::BodyKind;
-use crate::derive::{display_factor, Origin, QuantityResult};
+use crate::derive::{DisplayUnit, Origin, QuantityResult};
 use crate::model::Form;
 use crate::quantities::{self, Qty};
 use crate::source::{Places, SourceDb};
@@ -26,12 +26,11 @@ fn key_label(a: &Analysis, sys: usize, k: crate::derive::Key) -> String {
 fn quantity_json<'a>(a: &Analysis, sys: usize, q: &'a QuantityResult) -> json::Quantity<'a> {
     let measured = q.text.is_none().then(|| {
         let unit = q.shown_unit();
-        let f = display_factor(unit);
         json::Measured {
-            value: q.value / f,
-            unit,
-            below: q.below / f,
-            above: q.above / f,
+            value: unit.of(q.value),
+            unit: unit.symbol,
+            below: unit.of(q.below),
+            above: unit.of(q.above),
             si: json::Si {
                 value: q.value,
                 below: q.below,
@@ -116,30 +115,34 @@ pub fn diagnostics_json(a: &Analysis, db: &dyn SourceDb) -> Vec<json::Diagnostic
         .collect()
 }
 
+/// A value in SI as people read it in `unit`: `0.0443 ± 0.0006 au`, `< 0.08`. The one
+/// formatter of measured values: text reports, hover and inlay hints all use it.
+pub fn shown_in(value: f64, below: f64, above: f64, form: Form, unit: DisplayUnit) -> String {
+    let (v, lo, hi) = (unit.of(value), unit.of(below), unit.of(above));
+    let number = match form {
+        Form::UpperLimit => format!("< {}", crate::format::number(v)),
+        Form::LowerLimit => format!("> {}", crate::format::number(v)),
+        Form::Exact => crate::format::number(v),
+        _ => crate::format::with_uncertainty(v, lo, hi),
+    };
+    match unit.suffix() {
+        "" => number,
+        u => format!("{number} {u}"),
+    }
+}
+
 /// A value as people read it: `0.0443 ± 0.0006 au`, `< 0.08`, `"K0V"`.
 pub fn value_text(q: &QuantityResult) -> String {
     if let Some(t) = &q.text {
         return format!("\"{t}\"");
     }
     let unit = q.shown_unit();
-    let f = display_factor(unit);
     if q.qty == Qty::TransitEpoch {
         return format!(
             "{} {unit}",
-            crate::format::julian_date(q.value / f, q.below / f, q.above / f)
+            crate::format::julian_date(unit.of(q.value), unit.of(q.below), unit.of(q.above))
         );
     }
-    let u = if unit == "1" {
-        String::new()
-    } else {
-        format!(" {unit}")
-    };
-    let v = match q.form {
-        Form::UpperLimit => format!("< {}", crate::format::number(q.value / f)),
-        Form::LowerLimit => format!("> {}", crate::format::number(q.value / f)),
-        Form::Exact => crate::format::number(q.value / f),
-        _ => crate::format::with_uncertainty(q.value / f, q.below / f, q.above / f),
-    };
     let extra = if q.qty == Qty::Insolation {
         format!(
             " ({} W/m^2)",
@@ -148,7 +151,10 @@ pub fn value_text(q: &QuantityResult) -> String {
     } else {
         String::new()
     };
-    format!("{v}{u}{extra}")
+    format!(
+        "{}{extra}",
+        shown_in(q.value, q.below, q.above, q.form, unit)
+    )
 }
 
 /// Where a value came from, in a few words.

@@ -57,10 +57,9 @@ impl<'m> Derivation<'m> {
         let shown = |v: &Value| {
             let (lo, hi) = v.linear_spread(&self.inputs);
             let unit = display_unit(key.1, v.nominal);
-            let f = display_factor(unit);
             format!(
                 "{} {unit}",
-                crate::format::with_uncertainty(v.nominal / f, lo / f, hi / f)
+                crate::format::with_uncertainty(unit.of(v.nominal), unit.of(lo), unit.of(hi))
             )
         };
         let rule = RULES.get(c.rule);

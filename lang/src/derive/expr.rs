@@ -6,7 +6,7 @@
 //! round of the engine. Whatever still waits when the engine has nothing more to derive gets
 //! a diagnostic that names what it needs, so no declared value disappears without a word.
 
-use super::{display_factor, value, Derivation, Entry, Key, Origin, Value};
+use super::{value, Derivation, Entry, Key, Origin, Value};
 use crate::ast::BinOp;
 use crate::diagnostic::{Diagnostic, Rule};
 use crate::model::{Content, LetId, Node, Resolved};
@@ -157,8 +157,8 @@ impl<'m> Derivation<'m> {
                 e.span,
                 format!(
                     "this expression evaluates to {} {}, outside the valid range of '{}': {}",
-                    crate::format::number(v.nominal / display_factor(def.display)),
-                    def.display,
+                    crate::format::number(super::display_unit(key.1, v.nominal).of(v.nominal)),
+                    super::display_unit(key.1, v.nominal),
                     def.name,
                     def.range_text()
                 ),

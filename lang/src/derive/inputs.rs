@@ -230,11 +230,12 @@ impl<'m> Derivation<'m> {
             }
         };
         for q in wanted {
-            let (e, unit) = match q {
-                Qty::Teff => (est.teff, "K"),
-                Qty::StarRadius => (est.radius, "Rsun"),
-                _ => (est.mass, "Msun"),
+            let e = match q {
+                Qty::Teff => est.teff,
+                Qty::StarRadius => est.radius,
+                _ => est.mass,
             };
+            let unit = display_unit(q, e.value);
             let def = quantities::def(q);
             let m = Measurement {
                 value: e.value,
@@ -245,7 +246,7 @@ impl<'m> Derivation<'m> {
             let (lo, hi) = def.limits();
             let label = format!("{}.{}", body.id, def.name);
             let v = self.new_input(label, &m, lo, hi);
-            let f = display_factor(unit);
+            let f = unit.factor;
             let words = format!(
                 "{}.{} = {} {unit} estimated from spectral type {text} ({}; {})",
                 body.id,

@@ -32,7 +32,7 @@ use set::SortedSet;
 use std::collections::BTreeMap;
 use std::sync::Arc;
 pub use summary::{
-    display_factor, display_unit, Alternative, BodyResult, QuantityResult, SystemResult,
+    display_unit, Alternative, BodyResult, DisplayUnit, QuantityResult, SystemResult,
 };
 pub use value::{InputInfo, Value};
 

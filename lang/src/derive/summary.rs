@@ -32,9 +32,11 @@ pub struct QuantityResult {
 
 impl QuantityResult {
     /// The unit to show the value in.
-    pub fn shown_unit(&self) -> &str {
+    /// The unit the value is shown in: the one written in the file, else the usual one.
+    pub fn shown_unit(&self) -> DisplayUnit<'_> {
         self.unit
             .as_deref()
+            .and_then(DisplayUnit::parse)
             .unwrap_or_else(|| display_unit(self.qty, self.value))
     }
 }
@@ -266,34 +268,77 @@ impl<'m> Derivation<'m> {
     }
 }
 
+/// A unit values are shown in: its symbol and its SI factor, resolved together so that no
+/// output can show a number in one unit and label it with another.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct DisplayUnit<'a> {
+    pub symbol: &'a str,
+    /// The SI value of one of this unit.
+    pub factor: f64,
+}
+
+impl<'a> DisplayUnit<'a> {
+    /// The unit written as `symbol` (registry syntax, `g/cm^3`); `None` when the registry
+    /// does not know it.
+    pub fn parse(symbol: &'a str) -> Option<DisplayUnit<'a>> {
+        // Reports ask for the same few units many times per body: parse each once per thread.
+        thread_local! {
+            static FACTORS: std::cell::RefCell<FxHashMap<String, Option<f64>>> =
+                std::cell::RefCell::new(FxHashMap::default());
+        }
+        let parse = || crate::units::parse_unit_text(symbol).map(|u| u.factor);
+        let factor = FACTORS.with(|cache| {
+            let Ok(mut cache) = cache.try_borrow_mut() else {
+                return parse();
+            };
+            if let Some(f) = cache.get(symbol) {
+                return *f;
+            }
+            let f = parse();
+            cache.insert(symbol.to_string(), f);
+            f
+        })?;
+        Some(DisplayUnit { symbol, factor })
+    }
+
+    /// A unit of the quantity table. Every one parses (`every_display_unit_parses`); were
+    /// one not to, its values would show as NaN rather than in a wrong unit.
+    fn known(symbol: &'static str) -> DisplayUnit<'static> {
+        DisplayUnit::parse(symbol).unwrap_or(DisplayUnit {
+            symbol,
+            factor: f64::NAN,
+        })
+    }
+
+    /// The unit's symbol as written after a number: nothing for plain numbers.
+    pub fn suffix(self) -> &'a str {
+        if self.symbol == "1" {
+            ""
+        } else {
+            self.symbol
+        }
+    }
+
+    /// `value` (in SI) in this unit.
+    pub fn of(self, si: f64) -> f64 {
+        si / self.factor
+    }
+}
+
+impl std::fmt::Display for DisplayUnit<'_> {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(self.symbol)
+    }
+}
+
 /// The unit a quantity is shown in, chosen by size for planet masses, radii and depths.
-pub fn display_unit(qty: Qty, si: f64) -> &'static str {
+pub fn display_unit(qty: Qty, si: f64) -> DisplayUnit<'static> {
     let def = quantities::def(qty);
-    match qty {
+    DisplayUnit::known(match qty {
         Qty::Mass | Qty::MinMass if si.abs() < 0.1 * crate::constants::M_JUPITER => "Mearth",
         Qty::Radius if si.abs() < 0.5 * crate::constants::R_JUPITER => "Rearth",
         Qty::TransitDepth if si.abs() < 1e-3 => "ppm",
         Qty::HillRadius if si.abs() < 1e-3 * crate::constants::AU => "km",
         _ => def.display,
-    }
-}
-
-/// SI value of one display unit.
-pub fn display_factor(unit: &str) -> f64 {
-    // Reports ask for the same few units many times per body: parse each once per thread.
-    thread_local! {
-        static FACTORS: std::cell::RefCell<FxHashMap<String, f64>> = std::cell::RefCell::new(FxHashMap::default());
-    }
-    let parse = || crate::units::parse_unit_text(unit).map_or(1.0, |u| u.factor);
-    FACTORS.with(|cache| {
-        let Ok(mut cache) = cache.try_borrow_mut() else {
-            return parse();
-        };
-        if let Some(f) = cache.get(unit) {
-            return *f;
-        }
-        let f = parse();
-        cache.insert(unit.to_string(), f);
-        f
     })
 }

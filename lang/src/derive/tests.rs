@@ -282,3 +282,22 @@ fn a_binding_used_twice_is_one_input_with_one_set_of_samples() {
     let sigma = (r.below + r.above) / 2.0 / crate::constants::R_SUN;
     assert!((sigma - 0.1).abs() < 0.005, "{sigma}");
 }
+
+#[test]
+fn every_display_unit_parses_with_its_quantitys_dimension() {
+    // A display unit that did not parse would once have been shown with a factor of 1.
+    use crate::derive::display_unit;
+    for def in crate::quantities::table() {
+        if def.text {
+            continue;
+        }
+        // Small and large values, to reach the size-dependent choices (Mearth, ppm, km...).
+        for si in [1e-12, 1e-3, 1.0, 1e6, 1e12, 1e25, 1e30] {
+            let unit = display_unit(def.qty, si);
+            let parsed = crate::units::parse_unit_text(unit.symbol)
+                .unwrap_or_else(|| panic!("{}: '{}' does not parse", def.name, unit.symbol));
+            assert_eq!(parsed.dim, def.dim, "{}: '{}'", def.name, unit.symbol);
+            assert_eq!(parsed.factor, unit.factor);
+        }
+    }
+}

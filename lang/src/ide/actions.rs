@@ -3,7 +3,7 @@
 
 use super::line_bounds;
 use crate::ast::{self, ExprKind};
-use crate::derive::{display_factor, display_unit, Origin};
+use crate::derive::{display_unit, Origin};
 use crate::diagnostic::{Diagnostic, Rule};
 use crate::model::{Content, Form};
 use crate::quantities;
@@ -134,12 +134,10 @@ fn declare_derived(a: &Analysis, src: &str, offset: usize) -> Vec<Action> {
         }
         let def = quantities::def(q.qty);
         let unit = display_unit(q.qty, q.value);
-        let f = display_factor(unit);
-        let lit = crate::format::literal_text(q.value / f, q.below / f, q.above / f);
-        let value = if unit == "1" {
-            lit
-        } else {
-            format!("{lit} {unit}")
+        let lit = crate::format::literal_text(unit.of(q.value), unit.of(q.below), unit.of(q.above));
+        let value = match unit.suffix() {
+            "" => lit,
+            u => format!("{lit} {u}"),
         };
         let stmt = format!("{} = {value}", def.name);
         let edit = if one_line {
@@ -216,10 +214,12 @@ fn convert_units(a: &Analysis, _src: &str, offset: usize) -> Vec<Action> {
         {
             continue;
         }
-        let f = display_factor(&sym);
-        if !(f.is_finite() && f > 0.0) {
+        let Some(f) = crate::derive::DisplayUnit::parse(&sym)
+            .map(|u| u.factor)
+            .filter(|f| f.is_finite() && *f > 0.0)
+        else {
             continue;
-        }
+        };
         let lit = match m.form {
             Form::Exact | Form::UpperLimit | Form::LowerLimit => crate::format::number(m.value / f),
             _ => crate::format::literal_text(m.value / f, m.below / f, m.above / f),

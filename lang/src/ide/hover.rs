@@ -83,31 +83,32 @@ fn other_units(q: &QuantityResult) -> Vec<String> {
     let main = display_unit(q.qty, q.value);
     let mut out = Vec::new();
     for (sym, name) in crate::units::units_for(def.dim) {
-        if sym == main || name.starts_with("Julian date") || sym == "dex" {
+        if sym == main.symbol || name.starts_with("Julian date") || sym == "dex" {
             continue;
         }
-        let shown_value = (q.value / crate::derive::display_factor(&sym)).abs();
-        if !(1e-3..1e6).contains(&shown_value) {
+        let Some(unit) = crate::derive::DisplayUnit::parse(&sym) else {
+            continue;
+        };
+        if !(1e-3..1e6).contains(&unit.of(q.value).abs()) {
             continue;
         }
-        out.push(shown_in(q.value, q.below, q.above, q.form, &sym));
+        out.push(shown_in(q.value, q.below, q.above, q.form, unit));
         if out.len() == 5 {
             break;
         }
     }
     if !def.dim.is_none()
-        && main != def.dim.si_unit()
+        && main.symbol != def.dim.si_unit()
         && !out
             .iter()
             .any(|s| s.ends_with(&format!(" {}", def.dim.si_unit())))
     {
-        out.push(shown_in(
-            q.value,
-            q.below,
-            q.above,
-            q.form,
-            &def.dim.si_unit(),
-        ));
+        let si = def.dim.si_unit();
+        let unit = crate::derive::DisplayUnit {
+            symbol: &si,
+            factor: 1.0,
+        };
+        out.push(shown_in(q.value, q.below, q.above, q.form, unit));
     }
     out
 }

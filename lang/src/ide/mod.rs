@@ -10,7 +10,7 @@ pub mod hover;
 pub mod outline;
 pub mod symbols;
 
-use crate::derive::{display_factor, display_unit, QuantityResult};
+use crate::derive::{display_unit, QuantityResult};
 use crate::model::Form;
 use crate::quantities::Qty;
 use crate::Analysis;
@@ -30,21 +30,7 @@ pub fn result(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<&QuantityR
     a.results.get(si)?.bodies.get(bi)?.get(qty)
 }
 
-/// `0.0443 ± 0.0006 au` for a value in SI, shown in a given unit.
-pub fn shown_in(value: f64, below: f64, above: f64, form: Form, unit: &str) -> String {
-    let f = display_factor(unit);
-    let v = match form {
-        Form::UpperLimit => format!("< {}", crate::format::number(value / f)),
-        Form::LowerLimit => format!("> {}", crate::format::number(value / f)),
-        Form::Exact => crate::format::number(value / f),
-        _ => crate::format::with_uncertainty(value / f, below / f, above / f),
-    };
-    if unit == "1" || unit.is_empty() {
-        v
-    } else {
-        format!("{v} {unit}")
-    }
-}
+pub use crate::report::shown_in;
 
 /// A value in its display unit.
 pub fn shown(qty: Qty, value: f64, below: f64, above: f64, form: Form) -> String {
