@@ -138,13 +138,46 @@ pub struct Derivation<'m> {
     binding_uses: FxHashMap<crate::model::LetId, usize>,
     used: FxHashSet<Key>,
     pub diagnostics: Vec<Diagnostic>,
+    /// Set when the system is so large that Monte Carlo drew fewer samples than asked, to
+    /// bound memory: the sentence every value of the system then carries.
+    fewer_samples: Option<Arc<str>>,
+}
+
+/// Monte Carlo sample arrays one system may hold at once (in bytes), and about how many
+/// arrays a body holds: past this, the system is sampled more thinly and says so.
+const SAMPLE_BUDGET: usize = 512 << 20;
+const ARRAYS_PER_BODY: usize = 24;
+/// The fewest samples drawn however large the system.
+const MIN_SAMPLES: usize = 100;
+
+/// The sample count for a system of `bodies` bodies when `asked` were asked for, and the
+/// sentence that says so when it is fewer.
+fn samples_for(bodies: usize, asked: usize) -> (usize, Option<Arc<str>>) {
+    let most = SAMPLE_BUDGET / (bodies.max(1) * ARRAYS_PER_BODY * std::mem::size_of::<f64>());
+    let most = most.max(MIN_SAMPLES);
+    if asked <= most {
+        return (asked, None);
+    }
+    let words = format!(
+        "Monte Carlo with {most} samples, not the {asked} asked for: this system has {bodies} bodies, \
+         and fewer samples per value keep its memory bounded; interval ends are less precise \
+         (first-order propagation, --propagation linear, has no such limit)"
+    );
+    (most, Some(Arc::from(words)))
 }
 
 impl<'m> Derivation<'m> {
     pub fn run(sys: &'m System, options: &Options) -> Derivation<'m> {
+        let mut options = options.clone();
+        let mut fewer_samples = None;
+        if options.propagation == Propagation::MonteCarlo {
+            let (n, words) = samples_for(sys.bodies.len(), options.samples);
+            options.samples = n;
+            fewer_samples = words;
+        }
         let mut d = Derivation {
             sys,
-            options: options.clone(),
+            options,
             entries: FxHashMap::default(),
             candidates: BTreeMap::new(),
             inputs: Vec::new(),
@@ -153,6 +186,7 @@ impl<'m> Derivation<'m> {
             binding_uses: expr::binding_uses(sys),
             used: FxHashSet::default(),
             diagnostics: Vec::new(),
+            fewer_samples,
         };
         d.declare_measurements();
         d.fixed_point();

@@ -256,7 +256,16 @@ impl<'m> Derivation<'m> {
                 .unwrap_or_default(),
             span: decl.map(|d| d.span),
             budget,
-            assumptions: entry.assumptions.iter().map(|a| a.to_string()).collect(),
+            assumptions: entry
+                .assumptions
+                .iter()
+                .chain(
+                    self.fewer_samples
+                        .as_ref()
+                        .filter(|_| entry.origin == Origin::Derived),
+                )
+                .map(|a| a.to_string())
+                .collect(),
             notes,
             unit: (key.1 == Qty::TransitEpoch)
                 .then(|| {

@@ -301,3 +301,37 @@ fn every_display_unit_parses_with_its_quantitys_dimension() {
         }
     }
 }
+
+#[test]
+fn a_huge_system_is_sampled_more_thinly_and_says_so() {
+    // 400 planets at 10,000 samples would hold about 400 × 24 × 80 kB = 770 MB of samples.
+    let mut src = String::from(
+        "system \"Crowd\" {\n star s { mass = 1.0 ± 0.05 Msun\n radius = 1 ± 0.02 Rsun }\n",
+    );
+    for i in 0..400 {
+        src.push_str(&format!(
+            " planet p{i} orbits s {{ period = {} ± 0.01 d }}\n",
+            10.0 + f64::from(i) * 7.0
+        ));
+    }
+    src.push_str("}\n");
+    let a = run(&src, &Options::default());
+    let q = get(&a, "p0", Qty::SemiMajorAxis).unwrap();
+    let said: Vec<&String> = q
+        .assumptions
+        .iter()
+        .filter(|s| s.starts_with("Monte Carlo with"))
+        .collect();
+    assert_eq!(said.len(), 1, "{:?}", q.assumptions);
+    assert!(said[0].contains("not the 10000 asked for"), "{}", said[0]);
+    // A small system keeps every sample and says nothing.
+    let small = run(
+        "system \"Few\" {\n star s { mass = 1.0 ± 0.05 Msun }\n planet b orbits s { period = 10 ± 0.01 d }\n}",
+        &Options::default(),
+    );
+    let q = get(&small, "b", Qty::SemiMajorAxis).unwrap();
+    assert!(q
+        .assumptions
+        .iter()
+        .all(|s| !s.starts_with("Monte Carlo with")));
+}
