@@ -885,6 +885,8 @@ impl<'a> Cursor<'a> {
                 _ => return None,
             }
         }
+        #[cfg(test)]
+        tests::count_plain_measurement();
         Some(parts)
     }
 

@@ -68,4 +68,17 @@ pub fn scratch(name: &str) -> PathBuf {
     dir
 }
 
+/// The byte offset of the `nth` (from 0) occurrence of `needle` in `text`, so that tests
+/// name places by what stands there rather than by counted columns. A `|` in the needle marks
+/// the place inside it (`"kestrine.|radius"` is where `radius` starts) and is not searched for.
+pub fn offset_of(text: &str, needle: &str, nth: usize) -> usize {
+    let (before, after) = needle.split_once('|').unwrap_or(("", needle));
+    let whole = format!("{before}{after}");
+    let (start, _) = text
+        .match_indices(&whole)
+        .nth(nth)
+        .unwrap_or_else(|| panic!("'{whole}' occurs fewer than {} times", nth + 1));
+    start + before.len()
+}
+
 pub mod lsp;

@@ -238,10 +238,7 @@ pub fn position_of(text: &str, needle: &str, nth: usize) -> Value {
 
 /// As [`position_of`], `shift` characters further; columns in UTF-8 bytes if `utf8`.
 pub fn position_in(text: &str, needle: &str, nth: usize, shift: usize, utf8: bool) -> Value {
-    let (start, _) = text
-        .match_indices(needle)
-        .nth(nth)
-        .unwrap_or_else(|| panic!("'{needle}' occurs fewer than {} times", nth + 1));
+    let start = crate::offset_of(text, needle, nth);
     let offset = text[start..]
         .char_indices()
         .nth(shift)

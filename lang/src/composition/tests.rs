@@ -22,28 +22,12 @@ fn re(x: f64) -> f64 {
     x * R_EARTH
 }
 
-/// Deterministic pseudo-random numbers in (0, 1) (64-bit LCG, Knuth's MMIX constants).
-struct Lcg(u64);
-impl Lcg {
-    fn next_unit(&mut self) -> f64 {
-        self.0 = self
-            .0
-            .wrapping_mul(6_364_136_223_846_793_005)
-            .wrapping_add(1_442_695_040_888_963_407);
-        ((self.0 >> 11) as f64 + 0.5) / (1u64 << 53) as f64
-    }
-    /// Standard normal deviate (Box–Muller).
-    fn normal(&mut self) -> f64 {
-        let u1 = self.next_unit();
-        let u2 = self.next_unit();
-        (-2.0 * u1.ln()).sqrt() * (2.0 * std::f64::consts::PI * u2).cos()
-    }
-}
-
+/// Normal scatter around `mean`, from a seeded ChaCha8 generator (the engine's own).
 fn gaussian_samples(seed: u64, n: usize, mean: f64, rel_sigma: f64) -> Vec<f64> {
-    let mut rng = Lcg(seed);
+    use rand::{Rng, SeedableRng};
+    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(seed);
     (0..n)
-        .map(|_| mean * (1.0 + rel_sigma * rng.normal()))
+        .map(|_| mean * (1.0 + rel_sigma * rng.sample::<f64, _>(rand_distr::StandardNormal)))
         .collect()
 }
 

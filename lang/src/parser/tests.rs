@@ -1,4 +1,22 @@
 use super::*;
+use std::cell::Cell;
+
+thread_local! {
+    /// How many values `plain_measurement` has read on this thread (each test has its own).
+    static PLAIN_MEASUREMENTS: Cell<usize> = const { Cell::new(0) };
+}
+
+/// Called by `plain_measurement` each time it reads a value itself (test builds only).
+pub(super) fn count_plain_measurement() {
+    PLAIN_MEASUREMENTS.with(|n| n.set(n.get() + 1));
+}
+
+/// How many values of `src` the fast path read, rather than the chumsky grammar.
+fn read_directly(src: &str) -> usize {
+    let before = PLAIN_MEASUREMENTS.with(Cell::get);
+    let _ = parse(FileId(0), src);
+    PLAIN_MEASUREMENTS.with(Cell::get) - before
+}
 
 fn parse_ok(src: &str) -> File {
     let p = parse(FileId(0), src);
@@ -229,6 +247,7 @@ fn direct_reading_of_plain_measurements_matches_the_grammar() {
         "6.2e-3 %",
     ] {
         let src = format!("system \"S\" {{ star s {{ x = {value} }} }}");
+        assert_eq!(read_directly(&src), 1, "{value}: the fast path declined it");
         let fast = parse(FileId(0), &src);
         assert!(
             fast.diagnostics.is_empty(),
@@ -257,5 +276,24 @@ fn direct_reading_of_plain_measurements_matches_the_grammar() {
         assert_eq!(prop.value, out.value, "{value}");
         assert_eq!(prop.assumed, out.assumed, "{value}");
         assert_eq!(prop.citations, out.citations, "{value}");
+    }
+}
+
+#[test]
+fn the_fast_path_leaves_expressions_and_malformed_values_to_the_grammar() {
+    for value in [
+        "2 * 3 Msun",
+        "s.mass",
+        "(1.0) Msun",
+        "-1 Msun",
+        "sqrt(4) Rsun",
+        "1 ±",
+        "1 Msun^x",
+        "1 Msun [",
+        "1 Msun []",
+        "\"K0V\" + 1",
+    ] {
+        let src = format!("system \"S\" {{ star s {{ x = {value} }} }}");
+        assert_eq!(read_directly(&src), 0, "{value}: the fast path read it");
     }
 }
