@@ -1,12 +1,27 @@
 //! `syz`: the command line over the Syzygy core. Reads files, hands their text to the core,
 //! renders what comes back. No language or physics logic lives here.
 
+// Every module prints through `output`, so that a reader closing the pipe early never
+// makes a command panic (see output.rs). These shadow the standard macros of that name.
+macro_rules! print {
+    ($($arg:tt)*) => { $crate::output::text(format_args!($($arg)*)) };
+}
+macro_rules! println {
+    () => { $crate::output::line(format_args!("")) };
+    ($($arg:tt)*) => { $crate::output::line(format_args!($($arg)*)) };
+}
+macro_rules! eprintln {
+    () => { $crate::output::error_line(format_args!("")) };
+    ($($arg:tt)*) => { $crate::output::error_line(format_args!($($arg)*)) };
+}
+
 mod config_file;
 mod csv_out;
 mod ephemeris_cmd;
 mod files;
 mod fmt_cmd;
 mod json_out;
+mod output;
 mod plot_cmd;
 mod render;
 mod sarif;
@@ -149,6 +164,8 @@ enum Command {
         deny_warnings: bool,
         #[command(flatten)]
         engine: EngineArgs,
+        #[command(flatten)]
+        read: files::ReadArgs,
     },
     /// Print every system and body with its declared and derived quantities.
     #[command(
@@ -161,6 +178,8 @@ enum Command {
         format: EvalFormat,
         #[command(flatten)]
         engine: EngineArgs,
+        #[command(flatten)]
+        read: files::ReadArgs,
     },
     /// Show how one quantity was derived, down to the measurements, with its error budget.
     #[command(after_help = "Example:\n  syz explain examples/veyra.syz b.density")]
@@ -173,6 +192,8 @@ enum Command {
         system: Option<String>,
         #[command(flatten)]
         engine: EngineArgs,
+        #[command(flatten)]
+        read: files::ReadArgs,
     },
     /// Lay files out canonically (aligned `=`, units and citations; comments kept).
     #[command(
@@ -187,6 +208,8 @@ enum Command {
         /// List the files that would change and exit with status 1 if there are any.
         #[arg(long)]
         check: bool,
+        #[command(flatten)]
+        read: files::ReadArgs,
     },
     /// Run the language server on stdin and stdout (for editors; see docs/editors.md).
     #[command(after_help = "Example (an editor runs this for you):\n  syz lsp --stdio")]
@@ -204,6 +227,8 @@ enum Command {
         plot: plot_cmd::Plot,
         #[command(flatten)]
         engine: EngineArgs,
+        #[command(flatten)]
+        read: files::ReadArgs,
     },
     /// Print a shell completion script (bash, zsh, fish, elvish or powershell).
     #[command(
@@ -216,6 +241,8 @@ enum Command {
         args: ephemeris_cmd::Args,
         #[command(flatten)]
         engine: EngineArgs,
+        #[command(flatten)]
+        read: files::ReadArgs,
     },
 }
 
@@ -227,24 +254,29 @@ fn main() -> ExitCode {
             format,
             deny_warnings,
             engine,
-        } => check(&paths, format, deny_warnings, &engine.flags()),
+            read,
+        } => check(&paths, format, deny_warnings, &engine.flags(), read),
         Command::Eval {
             paths,
             format,
             engine,
-        } => eval(&paths, format, &engine.flags()),
+            read,
+        } => eval(&paths, format, &engine.flags(), read),
         Command::Explain {
             file,
             target,
             system,
             engine,
-        } => explain(&file, &target, system.as_deref(), &engine.flags()),
+            read,
+        } => explain(&file, &target, system.as_deref(), &engine.flags(), read),
         Command::Fmt {
             paths,
             write,
             check,
+            read,
         } => fmt_cmd::run(
             &paths,
+            read,
             match (write, check) {
                 (true, _) => fmt_cmd::Mode::Write,
                 (_, true) => fmt_cmd::Mode::Check,
@@ -255,12 +287,16 @@ fn main() -> ExitCode {
         Command::Completions { shell } => {
             use clap::CommandFactory;
             let mut cmd = Cli::command();
-            clap_complete::generate(shell, &mut cmd, "syz", &mut std::io::stdout());
+            clap_complete::generate(shell, &mut cmd, "syz", &mut output::stdout());
             0
         }
-        Command::Plot { plot, engine } => plot_cmd::run(&plot, &engine.flags()),
-        Command::Ephemeris { args, engine } => ephemeris_cmd::run(&args, &engine.flags()),
+        Command::Plot { plot, engine, read } => plot_cmd::run(&plot, &engine.flags(), read),
+        Command::Ephemeris { args, engine, read } => {
+            ephemeris_cmd::run(&args, &engine.flags(), read)
+        }
     };
+    // Buffered output is written now, so a failure to write it is reported.
+    let _ = output::stdout().flush();
     ExitCode::from(code)
 }
 
@@ -269,13 +305,13 @@ fn check(
     format: CheckFormat,
     deny_warnings: bool,
     flags: &config_file::Flags,
+    read: files::ReadArgs,
 ) -> u8 {
-    let Some((loaded, settings)) = load_with_settings(paths, flags) else {
+    let Some((loaded, settings)) = load_with_settings(paths, flags, read) else {
         return 2;
     };
     let db = &loaded.db;
-    let stdout = std::io::stdout();
-    let mut out = stdout.lock();
+    let mut out = output::stdout();
     // Streamed like `eval`: each file's diagnostics are rendered (for people) or turned into
     // JSON on the worker that analysed it, and the analysis is dropped.
     let human = matches!(format, CheckFormat::Human);
@@ -394,8 +430,9 @@ fn check(
 fn load_with_settings(
     paths: &[PathBuf],
     flags: &config_file::Flags,
+    read: files::ReadArgs,
 ) -> Option<(files::Loaded, Vec<config_file::FileSettings>)> {
-    let loaded = files::load(paths);
+    let loaded = files::load(paths, read);
     match config_file::resolve(&loaded.db, flags) {
         Ok(settings) => Some((loaded, settings)),
         Err(e) => {
@@ -478,16 +515,20 @@ fn plural(n: usize) -> &'static str {
     }
 }
 
-fn eval(paths: &[PathBuf], format: EvalFormat, flags: &config_file::Flags) -> u8 {
-    let Some((loaded, settings)) = load_with_settings(paths, flags) else {
+fn eval(
+    paths: &[PathBuf],
+    format: EvalFormat,
+    flags: &config_file::Flags,
+    read: files::ReadArgs,
+) -> u8 {
+    let Some((loaded, settings)) = load_with_settings(paths, flags, read) else {
         return 2;
     };
     let options = settings
         .first()
         .map_or_else(|| flags.over(Options::default()), |s| s.0.clone());
     let db = &loaded.db;
-    let stdout = std::io::stdout();
-    let mut out = stdout.lock();
+    let mut out = output::stdout();
     let mut errors = false;
     // Every format is streamed: files are analysed in parallel batches, each analysis is
     // turned into its output on the worker and dropped, and the outputs are written in file
@@ -580,12 +621,13 @@ fn explain(
     target: &str,
     system: Option<&str>,
     flags: &config_file::Flags,
+    read: files::ReadArgs,
 ) -> u8 {
     let Some((body, qty)) = target.split_once('.') else {
         eprintln!("syz: expected BODY.QUANTITY, such as b.density, found '{target}'");
         return 2;
     };
-    let loaded = files::load(&[file.to_path_buf()]);
+    let loaded = files::load(&[file.to_path_buf()], read);
     if !loaded.errors.is_empty() {
         files::report_io_errors(&loaded.errors);
         return 2;

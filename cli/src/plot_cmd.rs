@@ -57,7 +57,7 @@ fn err<E: std::fmt::Display>(e: E) -> String {
     e.to_string()
 }
 
-pub fn run(plot: &Plot, flags: &Flags) -> u8 {
+pub fn run(plot: &Plot, flags: &Flags, read: files::ReadArgs) -> u8 {
     let out = match plot {
         Plot::MassRadius { output, .. }
         | Plot::Rv { output, .. }
@@ -74,10 +74,10 @@ pub fn run(plot: &Plot, flags: &Flags) -> u8 {
         return 2;
     }
     let result = match plot {
-        Plot::MassRadius { paths, .. } => mass_radius(paths, flags),
+        Plot::MassRadius { paths, .. } => mass_radius(paths, flags, read),
         Plot::Rv {
             file, body, system, ..
-        } => one_planet(file, body, system.as_deref(), flags).and_then(|(a, si, bi)| {
+        } => one_planet(file, body, system.as_deref(), flags, read).and_then(|(a, si, bi)| {
             let c = plots::rv_curve(&a, si, bi)?;
             Ok(model_svg(
                 &c,
@@ -96,7 +96,7 @@ pub fn run(plot: &Plot, flags: &Flags) -> u8 {
         } => parse_ld(limb_darkening.as_deref())
             .map_err(Stop::from)
             .and_then(|ld| {
-                let (a, si, bi) = one_planet(file, body, system.as_deref(), flags)?;
+                let (a, si, bi) = one_planet(file, body, system.as_deref(), flags, read)?;
                 let (c, used) = plots::transit_curve(&a, si, bi, ld)?;
                 Ok(model_svg(
                     &c,
@@ -176,8 +176,9 @@ fn one_planet(
     body: &str,
     system: Option<&str>,
     flags: &Flags,
+    read: files::ReadArgs,
 ) -> Result<(syzygy::Analysis, usize, usize), Stop> {
-    let loaded = files::load(&[file.to_path_buf()]);
+    let loaded = files::load(&[file.to_path_buf()], read);
     if let Some(e) = loaded.errors.first() {
         return Err(Stop::from(e.clone()));
     }
@@ -226,8 +227,8 @@ fn notes(area: &DrawingArea<SVGBackend, Shift>, lines: &[String]) -> Result<(), 
     Ok(())
 }
 
-fn mass_radius(paths: &[PathBuf], flags: &Flags) -> Result<String, Stop> {
-    let loaded = files::load(paths);
+fn mass_radius(paths: &[PathBuf], flags: &Flags, read: files::ReadArgs) -> Result<String, Stop> {
+    let loaded = files::load(paths, read);
     files::report_io_errors(&loaded.errors);
     let analyses = files::analyze_all(&loaded.db, flags).map_err(Stop::settings)?;
     let (points, left_out) = plots::mass_radius_points(&analyses);

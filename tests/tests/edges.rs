@@ -1,0 +1,204 @@
+//! The edges of the tool: inputs that are not regular files, sizes past the limit, a reader
+//! that closes the pipe early, thousands of errors in one file, old line ends, degenerate
+//! values in plots. Each must end promptly with a clear word, never hang, panic or flood.
+
+#![allow(clippy::unwrap_used, clippy::indexing_slicing)]
+
+use std::io::{BufRead, BufReader, Read};
+use std::path::Path;
+use std::process::Command;
+use std::time::Duration;
+use syzygy_e2e::{root, run, run_bounded, scratch, start, stderr, stdout, syz};
+
+/// Far longer than any of these commands takes; only a hang reaches it.
+const HANG: Duration = Duration::from_secs(60);
+
+const GOOD: &str = "system \"Quillon\" {\n  star q { mass = 1.0 ± 0.05 Msun; radius = 1.0 ± 0.02 Rsun }\n  planet b orbits q { period = 3.0 ± 0.001 d; rv_amplitude = 40 ± 2 m/s }\n}\n";
+
+fn path(p: &Path) -> &str {
+    p.to_str().unwrap()
+}
+
+#[cfg(unix)]
+fn mkfifo(p: &Path) {
+    let ok = Command::new("mkfifo").arg(p).status().unwrap().success();
+    assert!(ok, "mkfifo {}", p.display());
+}
+
+#[cfg(unix)]
+#[test]
+fn a_named_pipe_is_skipped_without_being_opened() {
+    let dir = scratch("fifo");
+    let fifo = dir.join("x.syz");
+    mkfifo(&fifo);
+    for cmd in [
+        vec!["check", path(&fifo)],
+        vec!["eval", path(&fifo)],
+        vec!["fmt", path(&fifo)],
+        vec!["explain", path(&fifo), "b.mass"],
+        vec!["ephemeris", path(&fifo), "b"],
+    ] {
+        let o = run_bounded(&cmd, HANG);
+        assert_eq!(o.status.code(), Some(2), "{cmd:?}");
+        assert!(
+            stderr(&o).contains("x.syz: a named pipe (FIFO), not a regular file; skipped"),
+            "{cmd:?}: {}",
+            stderr(&o)
+        );
+    }
+    // Met in a folder walk: skipped with the same word, the other files still checked.
+    std::fs::write(dir.join("good.syz"), GOOD).unwrap();
+    let o = run_bounded(&["check", path(&dir)], HANG);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        stdout(&o).contains("checked 1 file: 0 errors"),
+        "{}",
+        stdout(&o)
+    );
+    assert!(stderr(&o).contains("named pipe"), "{}", stderr(&o));
+    let o = run_bounded(&["check", "--format", "json", path(&dir)], HANG);
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert!(v["io_errors"][0].as_str().unwrap().contains("named pipe"));
+}
+
+#[cfg(unix)]
+#[test]
+fn a_device_is_not_read() {
+    let o = run_bounded(&["check", "/dev/zero"], HANG);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        stderr(&o).contains("/dev/zero: a character device, not a regular file; skipped"),
+        "{}",
+        stderr(&o)
+    );
+}
+
+#[test]
+fn files_over_the_size_limit_are_skipped_with_a_word() {
+    let dir = scratch("size-limit");
+    let f = dir.join("big.syz");
+    std::fs::write(&f, format!("{GOOD}{}", "# padding\n".repeat(200))).unwrap();
+    let size = std::fs::metadata(&f).unwrap().len();
+    for cmd in [
+        vec!["check", "--max-file-size", "1KiB", path(&f)],
+        vec!["eval", "--max-file-size", "1000", path(&f)],
+        vec!["fmt", "--max-file-size", "1kb", path(&f)],
+        vec![
+            "plot",
+            "rv",
+            path(&f),
+            "b",
+            "-o",
+            "x.svg",
+            "--max-file-size",
+            "1k",
+        ],
+    ] {
+        let o = run(&cmd);
+        assert_ne!(o.status.code(), Some(0), "{cmd:?}");
+        assert!(
+            stderr(&o).contains(&format!("{size} bytes is larger than the limit of")),
+            "{cmd:?}: {}",
+            stderr(&o)
+        );
+    }
+    // Under the limit (and by default) the file is read.
+    let o = run(&["check", "--max-file-size", "1MiB", path(&f)]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert_eq!(run(&["check", path(&f)]).status.code(), Some(0));
+    let o = run(&["check", "--max-file-size", "lots", path(&f)]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stderr(&o).contains("expected a size"), "{}", stderr(&o));
+}
+
+/// Start `syz` with `args`, read `lines` lines of its output, close the pipe, and return
+/// the exit status and standard error.
+fn close_after(args: &[&str], lines: usize) -> (Option<i32>, String) {
+    let mut child = start(args);
+    let mut err_pipe = child.stderr.take().unwrap();
+    let err = std::thread::spawn(move || {
+        let mut s = String::new();
+        let _ = err_pipe.read_to_string(&mut s);
+        s
+    });
+    {
+        let mut out = BufReader::new(child.stdout.take().unwrap());
+        for _ in 0..lines {
+            let mut line = String::new();
+            out.read_line(&mut line).unwrap();
+        }
+    } // the read end is closed here, with most of the output unread
+    let status = child.wait().unwrap();
+    (status.code(), err.join().unwrap())
+}
+
+#[test]
+fn a_reader_that_stops_early_ends_the_command_quietly() {
+    // Each output is far larger than a pipe's buffer, so the command is still writing when
+    // the reader goes away.
+    let dir = scratch("closed-stdout");
+    for i in 0..4 {
+        let broken = "system \"Y\" {\n  star y { mass = = 1 Msun }\n}\n".repeat(150);
+        std::fs::write(dir.join(format!("many-{i}.syz")), broken).unwrap();
+    }
+    for args in [
+        vec![
+            "ephemeris",
+            "examples/veyra.syz",
+            "b",
+            "--count",
+            "10000",
+            "--from",
+            "2027-01-01",
+        ],
+        vec![
+            "ephemeris",
+            "examples/veyra.syz",
+            "b",
+            "--count",
+            "10000",
+            "--from",
+            "2027-01-01",
+            "--format",
+            "json",
+        ],
+        vec!["check", path(&dir)],
+        vec!["check", "--format", "json", path(&dir)],
+        vec![
+            "eval",
+            "--format",
+            "json",
+            "--propagation",
+            "linear",
+            "examples/catalogue",
+        ],
+    ] {
+        let (code, err) = close_after(&args, 3);
+        assert_eq!(code, Some(0), "{args:?}: {err}");
+        assert!(
+            !err.contains("panicked") && !err.contains("Broken pipe"),
+            "{args:?}: {err}"
+        );
+    }
+}
+
+#[cfg(target_os = "linux")]
+#[test]
+fn a_full_disk_is_an_error_not_a_panic() {
+    let full = std::fs::OpenOptions::new()
+        .write(true)
+        .open("/dev/full")
+        .unwrap();
+    let o = Command::new(syz())
+        .args(["eval", "examples/veyra.syz"])
+        .current_dir(root())
+        .stdout(full)
+        .output()
+        .unwrap();
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        stderr(&o).contains("writing the output failed"),
+        "{}",
+        stderr(&o)
+    );
+}
