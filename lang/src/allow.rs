@@ -55,7 +55,14 @@ pub fn parse_comment(text: &str) -> Option<(Vec<RuleId>, String)> {
 /// Every silencing comment of a file, with the line each covers.
 pub fn collect(src: &str, comments: &[Comment]) -> Vec<Allow> {
     let index = LineIndex::new(src);
-    let lines: Vec<&str> = src.split('\n').collect();
+    let lines: Vec<&str> = (0..index.line_count())
+        .map(|l| {
+            index
+                .line_span(src, l)
+                .and_then(|r| src.get(r))
+                .unwrap_or("")
+        })
+        .collect();
     let mut out = Vec::new();
     for c in comments {
         let Some((ids, reason)) = parse_comment(&c.text) else {

@@ -29,7 +29,7 @@
 
 use crate::ast::*;
 use crate::diagnostic::{Diagnostic, Rule};
-use crate::lexer::{lex, Tok, Token};
+use crate::lexer::{tokens, Tok, Token};
 use crate::source::{FileId, Span};
 use chumsky::prelude::*;
 use chumsky::Stream;
@@ -185,11 +185,10 @@ pub struct Parsed {
 
 /// Parse one source text.
 pub fn parse(file: FileId, src: &str) -> Parsed {
-    let all = lex(src);
     let mut comments = Vec::new();
-    let mut toks = Vec::with_capacity(all.len());
+    let mut toks: Vec<Token> = Vec::with_capacity(src.len() / 8);
     let mut line_has_code = false;
-    for t in &all {
+    for t in tokens(src) {
         match t.kind {
             Tok::Comment => comments.push(Comment {
                 text: src.get(t.start..t.end).unwrap_or("").to_string(),
@@ -198,11 +197,15 @@ pub fn parse(file: FileId, src: &str) -> Parsed {
             }),
             Tok::Newline => {
                 line_has_code = false;
-                toks.push(*t);
+                // A run of line ends (blank lines, comment lines) separates like one: only
+                // its first is kept, so blank lines cost no memory.
+                if toks.last().map(|p| p.kind) != Some(Tok::Newline) {
+                    toks.push(t);
+                }
             }
             _ => {
                 line_has_code = true;
-                toks.push(*t);
+                toks.push(t);
             }
         }
     }

@@ -202,3 +202,38 @@ fn a_full_disk_is_an_error_not_a_panic() {
         stderr(&o)
     );
 }
+
+#[test]
+fn old_mac_line_ends_read_like_unix_ones() {
+    // A file with lone carriage returns once read as one long comment line and checked clean.
+    let lf = std::fs::read_to_string(root().join("examples/broken/every-rule.syz")).unwrap();
+    let dir = scratch("line-ends");
+    let positions = |nl: &str| {
+        let f = dir.join(format!("every-rule-{}.syz", nl.len() + nl.matches('\r').count()));
+        std::fs::write(&f, lf.replace('\n', nl)).unwrap();
+        let o = run(&["check", "--propagation", "linear", "--format", "json", path(&f)]);
+        let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+        let found: Vec<String> = v["diagnostics"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .map(|d| {
+                format!(
+                    "{} {}:{}-{}:{} {}",
+                    d["rule"], d["line"], d["column"], d["end_line"], d["end_column"], d["message"]
+                )
+            })
+            .collect();
+        (found, f)
+    };
+    let (unix, unix_file) = positions("\n");
+    assert!(unix.len() > 10, "{unix:?}");
+    for nl in ["\r", "\r\n"] {
+        let (found, file) = positions(nl);
+        assert_eq!(found, unix, "{nl:?}");
+        // The formatter lays it out the same, keeping the file's line ends.
+        let laid_out = stdout(&run(&["fmt", path(&file)]));
+        let want = stdout(&run(&["fmt", path(&unix_file)])).replace('\n', nl);
+        assert_eq!(laid_out, want, "{nl:?}");
+    }
+}

@@ -1,4 +1,5 @@
 use super::*;
+use crate::lexer::lex;
 
 fn parse_ok(src: &str) -> File {
     let p = parse(FileId(0), src);
@@ -223,4 +224,16 @@ fn direct_reading_of_plain_measurements_matches_the_grammar() {
         assert_eq!(prop.assumed, out.assumed, "{value}");
         assert_eq!(prop.citations, out.citations, "{value}");
     }
+}
+
+#[test]
+fn old_mac_line_ends_separate_properties() {
+    // Lone carriage returns end lines: two properties and a comment, not one comment line.
+    let src =
+        "# invented\rsystem \"S\" {\r  star s {\r    mass = 1 Msun\r    radius = 1 Rsun\r  }\r}\r";
+    let f = parse_ok(src);
+    assert_eq!(f.comments.len(), 1);
+    assert_eq!(f.systems[0].bodies[0].props.len(), 2);
+    let bad = "system \"S\" {\r  star s {\r    mass = = 1 Msun\r  }\r}\r";
+    assert_eq!(messages(bad).len(), 1, "{:?}", messages(bad));
 }
