@@ -227,6 +227,24 @@ fn direct_reading_of_plain_measurements_matches_the_grammar() {
 }
 
 #[test]
+fn a_run_of_one_error_on_a_line_is_reported_once() {
+    let src = format!("{}{}\n}}\n", "{".repeat(1000), "}".repeat(1000));
+    let p = parse(FileId(0), &src);
+    let msgs: Vec<&str> = p.diagnostics.iter().map(|d| d.message.as_str()).collect();
+    assert_eq!(
+        msgs,
+        [
+            "expected 'system' or 'ref', found '{'",
+            "unmatched '}' (999 times in a row on this line)",
+            "unmatched '}'",
+        ]
+    );
+    // The merged error spans the whole run of braces.
+    let run = &p.diagnostics[1].span;
+    assert_eq!((run.start, run.end), (1001, 2000));
+}
+
+#[test]
 fn old_mac_line_ends_separate_properties() {
     // Lone carriage returns end lines: two properties and a comment, not one comment line.
     let src =
