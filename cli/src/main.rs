@@ -319,6 +319,7 @@ fn check(
     let mut counts = [0usize; 3];
     let mut rule_counts = vec![0usize; Rule::ALL.len()];
     let mut all_diags: Vec<serde_json::Value> = Vec::new();
+    let mut not_shown = NotShown::default();
     let mut checked = 0usize;
     files::for_each_analysed(
         db,
@@ -330,17 +331,20 @@ fn check(
                 .map(|d| (d.severity as usize, d.rule))
                 .collect();
             if human {
-                (kinds, rendered_diagnostics(&a, db, color), Vec::new())
-            } else {
                 (
                     kinds,
-                    String::new(),
-                    syzygy::report::diagnostics_json(&a, db),
+                    rendered_diagnostics(&a, db, color),
+                    (Vec::new(), 0),
+                    a.file,
                 )
+            } else {
+                let json = syzygy::report::diagnostics_json(&a, db);
+                (kinds, String::new(), json, a.file)
             }
         },
-        |(kinds, text, json)| {
+        |(kinds, text, (json, left_out), file)| {
             checked += 1;
+            not_shown.add(db, file, left_out);
             for (severity, rule) in kinds {
                 if let Some(c) = counts.get_mut(severity) {
                     *c += 1;
@@ -367,7 +371,8 @@ fn check(
         .collect();
     match format {
         CheckFormat::Sarif => {
-            let doc = sarif::log(&all_diags, &loaded.errors);
+            let mut doc = sarif::log(&all_diags, &loaded.errors);
+            sarif::add_notes(&mut doc, &not_shown.lines());
             let _ = writeln!(
                 out,
                 "{}",
@@ -379,6 +384,7 @@ fn check(
                 "version": syzygy::report::JSON_VERSION,
                 "files": checked,
                 "diagnostics": all_diags,
+                "diagnostics_not_shown": not_shown.json(),
                 "io_errors": loaded.errors,
                 "summary": {
                     "errors": errors,
@@ -482,16 +488,56 @@ fn stream_per_file(
     (errors, failure)
 }
 
-/// Every diagnostic of one file, rendered for people.
+/// The diagnostics shown of one file (`syzygy::shown`), rendered for people, then a line
+/// counting the rest.
 fn rendered_diagnostics(
     a: &syzygy::Analysis,
     db: &syzygy::source::MemoryDb,
     color: bool,
 ) -> String {
-    a.diagnostics
+    use syzygy::source::SourceDb;
+    let (shown, left_out) = syzygy::shown::split(&a.diagnostics);
+    let index = syzygy::source::LineIndex::new(db.text(a.file));
+    let mut out: String = shown
         .iter()
-        .map(|d| render::diagnostic(db, d, color))
-        .collect()
+        .map(|d| render::diagnostic(db, &index, d, color))
+        .collect();
+    if left_out > 0 {
+        out.push_str(&format!(
+            "note: {}: {}\n",
+            db.name(a.file),
+            syzygy::shown::rest_words(left_out)
+        ));
+    }
+    out
+}
+
+/// The files whose diagnostics were not all shown, with how many were left out.
+#[derive(Default)]
+struct NotShown(Vec<(String, usize)>);
+
+impl NotShown {
+    fn add(&mut self, db: &syzygy::source::MemoryDb, file: syzygy::source::FileId, n: usize) {
+        use syzygy::source::SourceDb;
+        if n > 0 {
+            self.0.push((db.name(file).to_string(), n));
+        }
+    }
+
+    /// The documented `diagnostics_not_shown` field.
+    fn json(&self) -> serde_json::Value {
+        self.0
+            .iter()
+            .map(|(file, count)| serde_json::json!({ "file": file, "count": count }))
+            .collect()
+    }
+
+    fn lines(&self) -> Vec<String> {
+        self.0
+            .iter()
+            .map(|(file, n)| format!("{file}: {}", syzygy::shown::rest_words(*n)))
+            .collect()
+    }
 }
 
 /// How the uncertainties shown were propagated, in words.
@@ -547,6 +593,7 @@ fn eval(
             ];
             let mut doc = json_out::Document::start(&mut out, &head);
             let mut diags = Vec::new();
+            let mut not_shown = NotShown::default();
             files::for_each_analysed(
                 db,
                 &settings,
@@ -555,15 +602,13 @@ fn eval(
                         .iter()
                         .map(json_out::system_text)
                         .collect();
-                    (
-                        a.has_errors(),
-                        systems,
-                        syzygy::report::diagnostics_json(&a, db),
-                    )
+                    let diagnostics = syzygy::report::diagnostics_json(&a, db);
+                    (a.has_errors(), systems, diagnostics, a.file)
                 },
-                |(bad, systems, d)| {
+                |(bad, systems, (d, left_out), file)| {
                     errors |= bad;
                     diags.extend(d);
+                    not_shown.add(db, file, left_out);
                     for s in &systems {
                         doc.system(s);
                     }
@@ -571,6 +616,7 @@ fn eval(
             );
             let tail = [
                 ("diagnostics", serde_json::Value::Array(diags)),
+                ("diagnostics_not_shown", not_shown.json()),
                 ("io_errors", serde_json::json!(loaded.errors)),
             ];
             if let Err(e) = doc.finish(&tail) {

@@ -145,6 +145,22 @@ pub fn log(diagnostics: &[Value], io_errors: &[String]) -> Value {
     })
 }
 
+/// Add one tool execution notification at level `note` per line (a file whose diagnostics
+/// were not all reported, `syzygy::shown`).
+pub fn add_notes(log: &mut Value, lines: &[String]) {
+    let Some(list) = log
+        .pointer_mut("/runs/0/invocations/0/toolExecutionNotifications")
+        .and_then(Value::as_array_mut)
+    else {
+        return;
+    };
+    list.extend(
+        lines
+            .iter()
+            .map(|l| json!({ "level": "note", "message": { "text": l } })),
+    );
+}
+
 #[cfg(test)]
 mod tests {
     use super::uri;

@@ -147,7 +147,15 @@ impl Diagnostic {
             .iter()
             .map(|l| {
                 let lt = db.text(l.span.file);
-                let li = LineIndex::new(lt);
+                // The file's own index when the label is in it: indexing the file again for
+                // every label made thousands of diagnostics quadratic.
+                let other;
+                let li = if l.span.file == self.span.file {
+                    index
+                } else {
+                    other = LineIndex::new(lt);
+                    &other
+                };
                 let s = li.line_col(lt, l.span.start as usize);
                 serde_json::json!({
                     "file": db.name(l.span.file),

@@ -142,13 +142,15 @@ pub fn systems_json(a: &Analysis, db: &dyn SourceDb) -> Vec<Json> {
     out
 }
 
-/// Diagnostics of one analysed file, in the documented shape.
-pub fn diagnostics_json(a: &Analysis, db: &dyn SourceDb) -> Vec<Json> {
+/// The diagnostics shown of one analysed file (the first [`crate::shown::PER_FILE`]), in
+/// the documented shape, and how many more it has.
+pub fn diagnostics_json(a: &Analysis, db: &dyn SourceDb) -> (Vec<Json>, usize) {
+    let (shown, left_out) = crate::shown::split(&a.diagnostics);
     let index = LineIndex::new(db.text(a.file));
-    a.diagnostics
-        .iter()
-        .map(|d| d.to_json(db, &index))
-        .collect()
+    (
+        shown.iter().map(|d| d.to_json(db, &index)).collect(),
+        left_out,
+    )
 }
 
 /// A value as people read it: `0.0443 ± 0.0006 au`, `< 0.08`, `"K0V"`.

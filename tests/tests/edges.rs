@@ -209,9 +209,19 @@ fn old_mac_line_ends_read_like_unix_ones() {
     let lf = std::fs::read_to_string(root().join("examples/broken/every-rule.syz")).unwrap();
     let dir = scratch("line-ends");
     let positions = |nl: &str| {
-        let f = dir.join(format!("every-rule-{}.syz", nl.len() + nl.matches('\r').count()));
+        let f = dir.join(format!(
+            "every-rule-{}.syz",
+            nl.len() + nl.matches('\r').count()
+        ));
         std::fs::write(&f, lf.replace('\n', nl)).unwrap();
-        let o = run(&["check", "--propagation", "linear", "--format", "json", path(&f)]);
+        let o = run(&[
+            "check",
+            "--propagation",
+            "linear",
+            "--format",
+            "json",
+            path(&f),
+        ]);
         let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
         let found: Vec<String> = v["diagnostics"]
             .as_array()
@@ -236,4 +246,102 @@ fn old_mac_line_ends_read_like_unix_ones() {
         let want = stdout(&run(&["fmt", path(&unix_file)])).replace('\n', nl);
         assert_eq!(laid_out, want, "{nl:?}");
     }
+}
+
+/// A file of `n` lines, each with one syntax error of its own (no two alike).
+fn many_errors(n: usize) -> String {
+    let mut s = String::from("system \"Errant\" {\n  star e {\n");
+    for i in 0..n {
+        s.push_str(&format!("    = {i} Msun\n"));
+    }
+    s.push_str("  }\n}\n");
+    s
+}
+
+#[test]
+fn a_file_shows_its_first_200_diagnostics_and_counts_the_rest() {
+    let dir = scratch("many-errors");
+    let f = dir.join("errant.syz");
+    std::fs::write(&f, many_errors(300)).unwrap();
+    let file = path(&f);
+    let o = run_bounded(&["check", file], HANG);
+    let text = stdout(&o);
+    assert_eq!(text.matches("[syntax] Error").count(), 200, "{text}");
+    assert!(
+        text.contains(&format!(
+            "note: {file}: 100 more diagnostics in this file not shown (only the first 200 of a file are)"
+        )),
+        "{text}"
+    );
+    // Every diagnostic is counted, shown or not.
+    assert!(text.contains("checked 1 file: 300 errors"), "{text}");
+    assert_eq!(o.status.code(), Some(1));
+
+    let o = run_bounded(&["check", "--format", "json", file], HANG);
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["diagnostics"].as_array().unwrap().len(), 200);
+    assert_eq!(
+        v["diagnostics_not_shown"],
+        serde_json::json!([{ "file": file, "count": 100 }])
+    );
+    assert_eq!(v["summary"]["errors"], 300);
+
+    let o = run_bounded(
+        &["eval", "--format", "json", "--propagation", "linear", file],
+        HANG,
+    );
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["diagnostics"].as_array().unwrap().len(), 200);
+    assert_eq!(v["diagnostics_not_shown"][0]["count"], 100);
+
+    let o = run_bounded(&["check", "--format", "sarif", file], HANG);
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["runs"][0]["results"].as_array().unwrap().len(), 200);
+    let notes = &v["runs"][0]["invocations"][0]["toolExecutionNotifications"];
+    assert_eq!(notes[0]["level"], "note");
+    assert!(
+        notes[0]["message"]["text"]
+            .as_str()
+            .unwrap()
+            .contains("100 more diagnostics"),
+        "{notes}"
+    );
+    // A file under the limit has no such line or entry.
+    std::fs::write(&f, many_errors(3)).unwrap();
+    let o = run(&["check", "--format", "json", file]);
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["diagnostics_not_shown"], serde_json::json!([]));
+}
+
+#[test]
+fn thousands_of_errors_and_very_long_lines_print_in_bounded_size() {
+    let dir = scratch("floods");
+    // 100,000 braces of each kind on one line: two errors, each shown as a window.
+    let braces = dir.join("braces.syz");
+    std::fs::write(
+        &braces,
+        format!("{}{}\n", "{".repeat(100_000), "}".repeat(100_000)),
+    )
+    .unwrap();
+    let o = run_bounded(&["check", path(&braces)], HANG);
+    let text = stdout(&o);
+    assert!(text.len() < 4_000, "{} bytes", text.len());
+    assert!(
+        text.contains("unmatched '}' (99999 times in a row on this line)"),
+        "{text}"
+    );
+    assert!(text.contains("checked 1 file: 2 errors"), "{text}");
+    // About 10 MB with 81,000 syntax errors (and as many duplicate properties).
+    let big = dir.join("big.syz");
+    let mut src = String::from("system \"Aster\" {\n  star s {\n");
+    for _ in 0..81_000 {
+        src.push_str(&format!("    mass = = 1 Msun  # {}\n", "x".repeat(100)));
+    }
+    src.push_str("  }\n}\n");
+    std::fs::write(&big, src).unwrap();
+    let o = run_bounded(&["check", path(&big)], HANG);
+    let text = stdout(&o);
+    assert!(text.len() < 200_000, "{} bytes", text.len());
+    assert!(text.contains("161799 more diagnostics"), "{text}");
+    assert!(text.contains("161999 errors"), "{text}");
 }

@@ -439,6 +439,33 @@ fn malformed_input_and_odd_requests_never_stop_the_server() {
 }
 
 #[test]
+fn a_file_with_thousands_of_errors_publishes_the_first_200_and_a_count() {
+    let uri = "file:///tmp/errant.syz";
+    let mut text = String::from("system \"Errant\" {\n  star e {\n");
+    for i in 0..3000 {
+        text.push_str(&format!("    = {i} Msun\n"));
+    }
+    text.push_str("  }\n}\n");
+    let mut c = LspClient::start();
+    c.initialize(json!({}));
+    c.open(uri, &text);
+    let d = c.diagnostics(uri, Some(1));
+    let list = d["diagnostics"].as_array().unwrap();
+    assert_eq!(list.len(), 201);
+    let last = &list[200];
+    assert_eq!(last["severity"], 3, "{last}");
+    assert!(
+        last["message"]
+            .as_str()
+            .unwrap()
+            .starts_with("2800 more diagnostics in this file not shown"),
+        "{last}"
+    );
+    // It sits where the first diagnostic left out is.
+    assert_eq!(last["range"]["start"]["line"], 202, "{last}");
+}
+
+#[test]
 fn exit_without_shutdown_ends_with_status_1() {
     let mut c = LspClient::start();
     c.initialize(json!({}));
