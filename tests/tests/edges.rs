@@ -345,3 +345,78 @@ fn thousands_of_errors_and_very_long_lines_print_in_bounded_size() {
     assert!(text.contains("161799 more diagnostics"), "{text}");
     assert!(text.contains("161999 errors"), "{text}");
 }
+
+/// The numbers of an SVG's drawing attributes, which must all be finite.
+fn svg_numbers_are_finite(svg: &Path) {
+    let text = std::fs::read_to_string(svg).unwrap();
+    let doc = roxmltree::Document::parse(&text).unwrap();
+    for node in doc.descendants().filter(|n| n.is_element()) {
+        for a in node.attributes() {
+            if [
+                "x", "y", "x1", "y1", "x2", "y2", "cx", "cy", "r", "points", "d", "width", "height",
+            ]
+            .contains(&a.name())
+            {
+                let v = a.value().to_ascii_lowercase();
+                assert!(!v.contains("nan") && !v.contains("inf"), "{}={v}", a.name());
+            }
+        }
+    }
+}
+
+#[test]
+fn plots_of_absurd_uncertainties_end_and_say_what_was_left_out() {
+    // `check` passes this file; the plots once looped for ever on their axes.
+    let dir = scratch("absurd-plots");
+    let veyra = std::fs::read_to_string(root().join("examples/veyra.syz")).unwrap();
+    let absurd = veyra.replace("56 ± 2 m/s", "12.5 ± 1e308 m/s");
+    assert_ne!(absurd, veyra);
+    let f = dir.join("absurd.syz");
+    std::fs::write(&f, absurd).unwrap();
+    let svg = dir.join("out.svg");
+    let (file, out) = (path(&f), path(&svg));
+    let o = run_bounded(&["plot", "rv", file, "b", "-o", out], HANG);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(
+        stderr(&o).contains("are not finite numbers and are left out"),
+        "{}",
+        stderr(&o)
+    );
+    assert!(
+        stderr(&o).contains("drawn at the edge of the axis"),
+        "{}",
+        stderr(&o)
+    );
+    svg_numbers_are_finite(&svg);
+    let o = run_bounded(&["plot", "mass-radius", file, "-o", out], HANG);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(
+        stderr(&o).contains("Veyra b: the mass error bar reaches beyond the axis"),
+        "{}",
+        stderr(&o)
+    );
+    assert!(std::fs::read_to_string(&svg)
+        .unwrap()
+        .contains("cut at its edge"));
+    svg_numbers_are_finite(&svg);
+    let o = run_bounded(&["plot", "transit", file, "b", "-o", out], HANG);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    svg_numbers_are_finite(&svg);
+    // A planet far outside any planet's range is listed, on the figure too, not drawn.
+    let huge = dir.join("huge.syz");
+    std::fs::write(
+        &huge,
+        "system \"Gargant\" {\n  star g { mass = 1 Msun; radius = 1 Rsun }\n  planet b orbits g { period = 10 d; mass = 1e9 Mearth; radius = 2 Rjup }\n  planet c orbits g { period = 30 d; mass = 1 Mjup; radius = 1 Rjup }\n}\n",
+    )
+    .unwrap();
+    let o = run_bounded(&["plot", "mass-radius", path(&huge), "-o", out], HANG);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(
+        stderr(&o).contains("Gargant b: 1e9 Earth masses"),
+        "{}",
+        stderr(&o)
+    );
+    assert!(std::fs::read_to_string(&svg)
+        .unwrap()
+        .contains("beyond the diagram"));
+}
