@@ -497,6 +497,9 @@ fn rendered_diagnostics(
 ) -> String {
     use syzygy::source::SourceDb;
     let (shown, left_out) = syzygy::shown::split(&a.diagnostics);
+    if shown.is_empty() {
+        return String::new();
+    }
     let index = syzygy::source::LineIndex::new(db.text(a.file));
     let mut out: String = shown
         .iter()

@@ -146,6 +146,9 @@ pub fn systems_json(a: &Analysis, db: &dyn SourceDb) -> Vec<Json> {
 /// the documented shape, and how many more it has.
 pub fn diagnostics_json(a: &Analysis, db: &dyn SourceDb) -> (Vec<Json>, usize) {
     let (shown, left_out) = crate::shown::split(&a.diagnostics);
+    if shown.is_empty() {
+        return (Vec::new(), left_out);
+    }
     let index = LineIndex::new(db.text(a.file));
     (
         shown.iter().map(|d| d.to_json(db, &index)).collect(),
