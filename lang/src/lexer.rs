@@ -156,17 +156,25 @@ pub fn lex(src: &str) -> Vec<Token> {
 
 /// The tokens of a source text one at a time, for passes that need not hold them all
 /// (a file of 10 MB of newlines is 10 million tokens).
-pub fn tokens(src: &str) -> impl Iterator<Item = Token> + '_ {
-    let mut lexer = Tok::lexer(src);
-    std::iter::from_fn(move || {
-        let kind = lexer.next()?.unwrap_or(Tok::Error);
-        let span = lexer.span();
+pub fn tokens(src: &str) -> Tokens<'_> {
+    Tokens(Tok::lexer(src))
+}
+
+/// The iterator of [`tokens`].
+pub struct Tokens<'a>(logos::Lexer<'a, Tok>);
+
+impl Iterator for Tokens<'_> {
+    type Item = Token;
+
+    fn next(&mut self) -> Option<Token> {
+        let kind = self.0.next()?.unwrap_or(Tok::Error);
+        let span = self.0.span();
         Some(Token {
             kind,
             start: span.start,
             end: span.end,
         })
-    })
+    }
 }
 
 #[cfg(test)]

@@ -100,10 +100,11 @@ pub struct LineCol {
     pub column: u32,
 }
 
-/// Byte offsets of line starts, for turning spans into positions and back.
+/// Byte offsets of line starts, for turning spans into positions and back. Offsets are
+/// `u32`, as in spans: half the memory for a file of many short lines.
 #[derive(Debug, Clone)]
 pub struct LineIndex {
-    starts: Vec<usize>,
+    starts: Vec<u32>,
     len: usize,
 }
 
@@ -119,7 +120,7 @@ impl LineIndex {
                 _ => false,
             };
             if ends {
-                starts.push(i + 1);
+                starts.push(clamp_u32(i + 1));
             }
         }
         LineIndex {
@@ -135,9 +136,9 @@ impl LineIndex {
 
     /// The byte range of 0-based `line` without its line break; `None` past the last line.
     pub fn line_span(&self, text: &str, line: usize) -> Option<std::ops::Range<usize>> {
-        let start = *self.starts.get(line)?;
-        let end = match self.starts.get(line + 1) {
-            Some(&next) => next - line_break_before(text, next),
+        let start = *self.starts.get(line)? as usize;
+        let end = match self.starts.get(line + 1).map(|&n| n as usize) {
+            Some(next) => next - line_break_before(text, next),
             None => text.len(),
         };
         Some(start..end.max(start))
@@ -146,11 +147,11 @@ impl LineIndex {
     /// The 0-based line holding `offset` and that line's start offset.
     fn line_of(&self, offset: usize) -> (usize, usize) {
         let offset = offset.min(self.len);
-        let line = match self.starts.binary_search(&offset) {
+        let line = match self.starts.binary_search(&clamp_u32(offset)) {
             Ok(l) => l,
             Err(l) => l.saturating_sub(1),
         };
-        (line, self.starts.get(line).copied().unwrap_or(0))
+        (line, self.starts.get(line).map_or(0, |&s| s as usize))
     }
 
     /// 1-based line and character column of a byte offset.

@@ -255,3 +255,37 @@ fn old_mac_line_ends_separate_properties() {
     let bad = "system \"S\" {\r  star s {\r    mass = = 1 Msun\r  }\r}\r";
     assert_eq!(messages(bad).len(), 1, "{:?}", messages(bad));
 }
+
+#[test]
+fn parsing_stops_after_too_many_syntax_errors() {
+    for src in [
+        "a\n".repeat(5000),
+        format!(
+            "system \"S\" {{\n  star s {{\n{}",
+            "    = 1 Msun\n".repeat(5000)
+        ),
+    ] {
+        let p = parse(FileId(0), &src);
+        assert_eq!(p.diagnostics.len(), MAX_SYNTAX_ERRORS + 1, "{src:.40}");
+        let last = p.diagnostics.last().unwrap();
+        assert!(
+            last.message.contains("not read past this point"),
+            "{}",
+            last.message
+        );
+        // It stopped on the line after the last error counted.
+        let line = |offset: u32| src[..offset as usize].matches('\n').count();
+        let counted = &p.diagnostics[MAX_SYNTAX_ERRORS - 1];
+        assert_eq!(line(last.span.start), line(counted.span.start) + 1);
+        assert!(!p
+            .diagnostics
+            .iter()
+            .any(|d| d.message.contains("never closed")));
+    }
+    // Runs of ';' cost one token, and a run of '}' is one error, however long.
+    let p = parse(
+        FileId(0),
+        &format!("{}\n{}\n", ";".repeat(100_000), "}".repeat(5000)),
+    );
+    assert_eq!(p.diagnostics.len(), 1);
+}
