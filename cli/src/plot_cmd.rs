@@ -292,32 +292,17 @@ fn mass_radius(paths: &[PathBuf], flags: &Flags, read: files::ReadArgs) -> Resul
     // Planets with a mass and a radius that are not drawn are said on the figure too.
     lines.extend(beyond.iter().map(|l| format!("not plotted: {l}")));
     // Error bars: both ends inside the axes; a bar cut at an edge is said.
-    let bar = |v: f64, below: f64, above: f64, axis: std::ops::Range<f64>| {
-        let lo = v - below;
-        let hi = v + above;
-        let low = if lo.is_finite() {
-            lo.max(axis.start)
-        } else {
-            axis.start
-        };
-        let high = if hi.is_finite() {
-            hi.min(axis.end)
-        } else {
-            axis.end
-        };
-        (low, high, !(hi.is_finite() && hi <= axis.end))
-    };
-    let bars: Vec<((f64, f64, bool), (f64, f64, bool))> = points
+    let bars: Vec<(Bar, Bar)> = points
         .iter()
         .map(|p| {
             (
-                bar(p.mass, p.mass_below, p.mass_above, x_min..x_max),
-                bar(p.radius, p.radius_below, p.radius_above, y_min..y_max),
+                Bar::new(p.mass, p.mass_below, p.mass_above, x_min..x_max),
+                Bar::new(p.radius, p.radius_below, p.radius_above, y_min..y_max),
             )
         })
         .collect();
     for (p, (m, r)) in points.iter().zip(&bars) {
-        for (cut, what) in [(m.2, "mass"), (r.2, "radius")] {
+        for (cut, what) in [(m.cut, "mass"), (r.cut, "radius")] {
             if cut {
                 let l = format!(
                     "{}: the {what} error bar reaches beyond the axis and is cut at its edge",
@@ -441,8 +426,8 @@ fn mass_radius(paths: &[PathBuf], flags: &Flags, read: files::ReadArgs) -> Resul
         // The planets from the files, with 1-sigma error bars.
         for (p, (m, r)) in points.iter().zip(&bars) {
             let bars = [
-                vec![(m.0, p.radius), (m.1, p.radius)],
-                vec![(p.mass, r.0), (p.mass, r.1)],
+                vec![(m.low, p.radius), (m.high, p.radius)],
+                vec![(p.mass, r.low), (p.mass, r.high)],
             ];
             chart
                 .draw_series(
@@ -479,6 +464,33 @@ fn mass_radius(paths: &[PathBuf], flags: &Flags, read: files::ReadArgs) -> Resul
         root.present().map_err(err)?;
     }
     Ok(svg)
+}
+
+/// A 1-sigma error bar on one axis: its ends within the axis, and whether the upper end had
+/// to be cut at the axis's edge.
+struct Bar {
+    low: f64,
+    high: f64,
+    cut: bool,
+}
+
+impl Bar {
+    fn new(value: f64, below: f64, above: f64, axis: std::ops::Range<f64>) -> Bar {
+        let (lo, hi) = (value - below, value + above);
+        Bar {
+            low: if lo.is_finite() {
+                lo.max(axis.start)
+            } else {
+                axis.start
+            },
+            high: if hi.is_finite() {
+                hi.min(axis.end)
+            } else {
+                axis.end
+            },
+            cut: !(hi.is_finite() && hi <= axis.end),
+        }
+    }
 }
 
 /// The widest mass axis of the diagram, in Earth masses (about 3 solar masses at the top:

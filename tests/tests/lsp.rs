@@ -439,10 +439,10 @@ fn malformed_input_and_odd_requests_never_stop_the_server() {
 }
 
 #[test]
-fn a_file_with_thousands_of_errors_publishes_the_first_200_and_a_count() {
+fn a_file_with_hundreds_of_errors_publishes_the_first_200_and_a_count() {
     let uri = "file:///tmp/errant.syz";
     let mut text = String::from("system \"Errant\" {\n  star e {\n");
-    for i in 0..3000 {
+    for i in 0..600 {
         text.push_str(&format!("    = {i} Msun\n"));
     }
     text.push_str("  }\n}\n");
@@ -458,7 +458,7 @@ fn a_file_with_thousands_of_errors_publishes_the_first_200_and_a_count() {
         last["message"]
             .as_str()
             .unwrap()
-            .starts_with("2800 more diagnostics in this file not shown"),
+            .starts_with("400 more diagnostics in this file not shown"),
         "{last}"
     );
     // It sits where the first diagnostic left out is.
