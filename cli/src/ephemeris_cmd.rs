@@ -48,7 +48,7 @@ fn now_jd() -> f64 {
     time::jd_from_unix(secs)
 }
 
-pub fn run(args: &Args, flags: &syzygy::settings::Layer) -> u8 {
+pub fn run(args: &Args, flags: &syzygy::settings::Layer, read: files::ReadArgs) -> u8 {
     let from = match args.from.as_deref().map(parse_from) {
         Some(Ok(jd)) => jd,
         Some(Err(e)) => {
@@ -57,7 +57,7 @@ pub fn run(args: &Args, flags: &syzygy::settings::Layer) -> u8 {
         }
         None => now_jd(),
     };
-    let loaded = files::load(std::slice::from_ref(&args.file));
+    let loaded = files::load(std::slice::from_ref(&args.file), read);
     if !loaded.errors.is_empty() {
         files::report_io_errors(&loaded.errors);
         return 2;

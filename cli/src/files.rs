@@ -1,10 +1,74 @@
-//! Finding and reading input files. The only place the CLI touches the file system; files
-//! are only ever read.
+//! Finding and reading input files. The only place the CLI reads the file system; files
+//! are only ever read, and only regular files: a named pipe, a device or a socket, named or
+//! met in a folder, is skipped with an error without being opened (opening a named pipe
+//! waits for a writer), and a file larger than the size limit is skipped too. Every command
+//! that reads `.syz` files reads them here.
 
 use std::collections::BTreeSet;
+use std::io::Read;
 use std::path::{Path, PathBuf};
 use syzygy::source::{MemoryDb, SourceDb};
 use syzygy::{analyze, Analysis, Settings};
+
+/// The largest file read unless `--max-file-size` says otherwise.
+pub const DEFAULT_MAX_FILE_SIZE: &str = "256MiB";
+
+/// How files are read: the options every command that reads `.syz` files takes.
+#[derive(clap::Args, Clone, Copy, Debug)]
+pub struct ReadArgs {
+    /// Largest file read, in bytes or with a unit (KB, MB, GB; KiB, MiB, GiB); larger files
+    /// are skipped with an error.
+    #[arg(
+        long,
+        value_name = "SIZE",
+        default_value = DEFAULT_MAX_FILE_SIZE,
+        value_parser = parse_size,
+        global = true
+    )]
+    pub max_file_size: u64,
+}
+
+/// A size: a whole number of bytes, or a number with a decimal (KB, MB, GB) or binary
+/// (KiB, MiB, GiB) unit; case does not matter, `K`, `M`, `G` alone are decimal.
+pub fn parse_size(text: &str) -> Result<u64, String> {
+    let t = text.trim();
+    let split = t
+        .find(|c: char| !(c.is_ascii_digit() || c == '.'))
+        .unwrap_or(t.len());
+    let (number, unit) = t.split_at(split);
+    let factor: u64 = match unit.trim().to_ascii_lowercase().as_str() {
+        "" | "b" => 1,
+        "k" | "kb" => 1_000,
+        "m" | "mb" => 1_000_000,
+        "g" | "gb" => 1_000_000_000,
+        "kib" => 1 << 10,
+        "mib" => 1 << 20,
+        "gib" => 1 << 30,
+        _ => {
+            return Err(format!(
+                "'{text}': expected a size such as 1048576, 500KB or 256MiB"
+            ))
+        }
+    };
+    let n: f64 = number
+        .parse()
+        .map_err(|_| format!("'{text}': expected a size such as 1048576, 500KB or 256MiB"))?;
+    let bytes = n * factor as f64;
+    if !(bytes.is_finite() && bytes >= 1.0 && bytes < u64::MAX as f64) {
+        return Err(format!("'{text}': the size must be at least one byte"));
+    }
+    Ok(bytes as u64)
+}
+
+/// A size for people: exact binary multiples as such, else bytes.
+fn size_words(n: u64) -> String {
+    for (unit, size) in [("GiB", 1u64 << 30), ("MiB", 1 << 20), ("KiB", 1 << 10)] {
+        if n >= size && n.is_multiple_of(size) {
+            return format!("{} {unit}", n / size);
+        }
+    }
+    format!("{n} bytes")
+}
 
 pub struct Loaded {
     pub db: MemoryDb,
@@ -13,7 +77,7 @@ pub struct Loaded {
 }
 
 /// Collect the files named (folders recursively, `*.syz` only, in sorted order) and read them.
-pub fn load(paths: &[PathBuf]) -> Loaded {
+pub fn load(paths: &[PathBuf], read: ReadArgs) -> Loaded {
     let mut files = Vec::new();
     let mut errors = Vec::new();
     let mut visited = BTreeSet::new();
@@ -29,14 +93,7 @@ pub fn load(paths: &[PathBuf]) -> Loaded {
         use rayon::prelude::*;
         files
             .par_iter()
-            .map(|f| match std::fs::read(f) {
-                Ok(bytes) => String::from_utf8(bytes).map_err(|e| format!(
-                    "{}: not valid UTF-8 (first bad byte at offset {}); Syzygy files are UTF-8 text",
-                    f.display(),
-                    e.utf8_error().valid_up_to()
-                )),
-                Err(e) => Err(format!("{}: {}", f.display(), io_words(&e))),
-            })
+            .map(|f| read_text(f, read.max_file_size))
             .collect()
     };
     let mut db = MemoryDb::new();
@@ -121,6 +178,96 @@ fn walk(
     }
 }
 
+/// The text of one file, read only if it is a regular file of at most `limit` bytes; at most
+/// `limit + 1` bytes are read, so a file growing meanwhile cannot exceed the limit.
+pub fn read_text(path: &Path, limit: u64) -> Result<String, String> {
+    let shown = path.display();
+    let meta = std::fs::metadata(path).map_err(|e| format!("{shown}: {}", io_words(&e)))?;
+    regular(&meta).map_err(|e| format!("{shown}: {e}"))?;
+    if meta.len() > limit {
+        return Err(format!(
+            "{shown}: {} is larger than the limit of {}; skipped (--max-file-size sets the limit)",
+            size_words(meta.len()),
+            size_words(limit)
+        ));
+    }
+    let file = open_without_waiting(path).map_err(|e| format!("{shown}: {}", io_words(&e)))?;
+    // What was opened may not be what was looked at: look again, at the open file.
+    let meta = file
+        .metadata()
+        .map_err(|e| format!("{shown}: {}", io_words(&e)))?;
+    regular(&meta).map_err(|e| format!("{shown}: {e}"))?;
+    let mut bytes = Vec::with_capacity(usize::try_from(meta.len().min(limit)).unwrap_or(0));
+    file.take(limit.saturating_add(1))
+        .read_to_end(&mut bytes)
+        .map_err(|e| format!("{shown}: {}", io_words(&e)))?;
+    if bytes.len() as u64 > limit {
+        return Err(format!(
+            "{shown}: grew past the limit of {} while being read; skipped (--max-file-size sets the limit)",
+            size_words(limit)
+        ));
+    }
+    String::from_utf8(bytes).map_err(|e| {
+        format!(
+            "{shown}: not valid UTF-8 (first bad byte at offset {}); Syzygy files are UTF-8 text",
+            e.utf8_error().valid_up_to()
+        )
+    })
+}
+
+/// `Ok` for a regular file, else what it is, in words.
+fn regular(meta: &std::fs::Metadata) -> Result<(), String> {
+    let kind = meta.file_type();
+    if kind.is_file() {
+        return Ok(());
+    }
+    let what = if kind.is_dir() {
+        "a folder"
+    } else {
+        special_kind(&kind)
+    };
+    Err(format!(
+        "{what}, not a regular file; skipped (only regular files are read)"
+    ))
+}
+
+#[cfg(unix)]
+fn special_kind(kind: &std::fs::FileType) -> &'static str {
+    use std::os::unix::fs::FileTypeExt;
+    if kind.is_fifo() {
+        "a named pipe (FIFO)"
+    } else if kind.is_char_device() {
+        "a character device"
+    } else if kind.is_block_device() {
+        "a block device"
+    } else if kind.is_socket() {
+        "a socket"
+    } else {
+        "a special file"
+    }
+}
+
+#[cfg(not(unix))]
+fn special_kind(_: &std::fs::FileType) -> &'static str {
+    "a special file"
+}
+
+/// Open for reading without blocking: should the path have become a named pipe since it
+/// was looked at, opening it returns at once instead of waiting for a writer.
+#[cfg(unix)]
+fn open_without_waiting(path: &Path) -> std::io::Result<std::fs::File> {
+    use std::os::unix::fs::OpenOptionsExt;
+    std::fs::OpenOptions::new()
+        .read(true)
+        .custom_flags(libc::O_NONBLOCK)
+        .open(path)
+}
+
+#[cfg(not(unix))]
+fn open_without_waiting(path: &Path) -> std::io::Result<std::fs::File> {
+    std::fs::File::open(path)
+}
+
 fn io_words(e: &std::io::Error) -> String {
     match e.kind() {
         std::io::ErrorKind::NotFound => "no such file or folder".to_string(),
@@ -203,5 +350,36 @@ fn progress_bar(n: usize) -> Option<indicatif::ProgressBar> {
 pub fn report_io_errors(errors: &[String]) {
     for e in errors {
         eprintln!("syz: error: {e}");
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn sizes_take_decimal_and_binary_units() {
+        assert_eq!(parse_size("1000"), Ok(1000));
+        assert_eq!(parse_size("2KB"), Ok(2000));
+        assert_eq!(parse_size("1.5 MiB"), Ok(1_572_864));
+        assert_eq!(parse_size("256mib"), Ok(256 << 20));
+        assert_eq!(parse_size("1G"), Ok(1_000_000_000));
+        assert!(parse_size("0").is_err());
+        assert!(parse_size("ten").is_err());
+        assert!(parse_size("5 parsecs").is_err());
+        assert_eq!(size_words(256 << 20), "256 MiB");
+        assert_eq!(size_words(1000), "1000 bytes");
+    }
+
+    /// A file whose size the file system does not know beforehand (as one still growing):
+    /// the limit holds while reading, not only from the size looked up first.
+    #[cfg(target_os = "linux")]
+    #[test]
+    fn the_limit_holds_while_reading() {
+        let path = Path::new("/proc/self/status");
+        assert_eq!(std::fs::metadata(path).map(|m| m.len()).ok(), Some(0));
+        let err = read_text(path, 16).err().unwrap_or_default();
+        assert!(err.contains("grew past the limit of 16 bytes"), "{err}");
+        assert!(read_text(path, 1 << 20).is_ok_and(|t| t.contains("Name:")));
     }
 }

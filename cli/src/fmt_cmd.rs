@@ -15,13 +15,12 @@ pub enum Mode {
 
 /// Exit code: 0 done (or nothing to change), 1 `--check` found files to change, 2 a file
 /// could not be read, written or laid out.
-pub fn run(paths: &[PathBuf], mode: Mode) -> u8 {
-    let loaded = crate::files::load(paths);
+pub fn run(paths: &[PathBuf], read: crate::files::ReadArgs, mode: Mode) -> u8 {
+    let loaded = crate::files::load(paths, read);
     crate::files::report_io_errors(&loaded.errors);
     let mut failed = !loaded.errors.is_empty();
     let mut would_change = Vec::new();
-    let stdout = std::io::stdout();
-    let mut out = stdout.lock();
+    let mut out = crate::output::stdout();
     for f in loaded.db.files() {
         let name = loaded.db.name(f).to_string();
         let text = loaded.db.text(f);

@@ -1,12 +1,27 @@
 //! `syz`: the command line over the Syzygy core. Reads files, hands their text to the core,
 //! renders what comes back. No language or physics logic lives here.
 
+// Every module prints through `output`, so that a reader closing the pipe early never
+// makes a command panic (see output.rs). These shadow the standard macros of that name.
+macro_rules! print {
+    ($($arg:tt)*) => { $crate::output::text(format_args!($($arg)*)) };
+}
+macro_rules! println {
+    () => { $crate::output::line(format_args!("")) };
+    ($($arg:tt)*) => { $crate::output::line(format_args!($($arg)*)) };
+}
+macro_rules! eprintln {
+    () => { $crate::output::error_line(format_args!("")) };
+    ($($arg:tt)*) => { $crate::output::error_line(format_args!($($arg)*)) };
+}
+
 mod config_file;
 mod csv_out;
 mod ephemeris_cmd;
 mod files;
 mod fmt_cmd;
 mod json_out;
+mod output;
 mod plot_cmd;
 mod render;
 mod sarif;
@@ -150,6 +165,8 @@ enum Command {
         deny_warnings: bool,
         #[command(flatten)]
         engine: EngineArgs,
+        #[command(flatten)]
+        read: files::ReadArgs,
     },
     /// Print every system and body with its declared and derived quantities.
     #[command(
@@ -162,6 +179,8 @@ enum Command {
         format: EvalFormat,
         #[command(flatten)]
         engine: EngineArgs,
+        #[command(flatten)]
+        read: files::ReadArgs,
     },
     /// Show how one quantity was derived, down to the measurements, with its error budget.
     #[command(after_help = "Example:\n  syz explain examples/veyra.syz b.density")]
@@ -174,6 +193,8 @@ enum Command {
         system: Option<String>,
         #[command(flatten)]
         engine: EngineArgs,
+        #[command(flatten)]
+        read: files::ReadArgs,
     },
     /// Lay files out canonically (aligned `=`, units and citations; comments kept).
     #[command(
@@ -188,6 +209,8 @@ enum Command {
         /// List the files that would change and exit with status 1 if there are any.
         #[arg(long)]
         check: bool,
+        #[command(flatten)]
+        read: files::ReadArgs,
     },
     /// Run the language server on stdin and stdout (for editors; see docs/editors.md).
     #[command(after_help = "Example (an editor runs this for you):\n  syz lsp --stdio")]
@@ -205,6 +228,8 @@ enum Command {
         plot: plot_cmd::Plot,
         #[command(flatten)]
         engine: EngineArgs,
+        #[command(flatten)]
+        read: files::ReadArgs,
     },
     /// Print a shell completion script (bash, zsh, fish, elvish or powershell).
     #[command(
@@ -217,6 +242,8 @@ enum Command {
         args: ephemeris_cmd::Args,
         #[command(flatten)]
         engine: EngineArgs,
+        #[command(flatten)]
+        read: files::ReadArgs,
     },
 }
 
@@ -228,24 +255,29 @@ fn main() -> ExitCode {
             format,
             deny_warnings,
             engine,
-        } => check(&paths, format, deny_warnings, &engine.flags()),
+            read,
+        } => check(&paths, format, deny_warnings, &engine.flags(), read),
         Command::Eval {
             paths,
             format,
             engine,
-        } => eval(&paths, format, &engine.flags()),
+            read,
+        } => eval(&paths, format, &engine.flags(), read),
         Command::Explain {
             file,
             target,
             system,
             engine,
-        } => explain(&file, &target, system.as_deref(), &engine.flags()),
+            read,
+        } => explain(&file, &target, system.as_deref(), &engine.flags(), read),
         Command::Fmt {
             paths,
             write,
             check,
+            read,
         } => fmt_cmd::run(
             &paths,
+            read,
             match (write, check) {
                 (true, _) => fmt_cmd::Mode::Write,
                 (_, true) => fmt_cmd::Mode::Check,
@@ -256,22 +288,31 @@ fn main() -> ExitCode {
         Command::Completions { shell } => {
             use clap::CommandFactory;
             let mut cmd = Cli::command();
-            clap_complete::generate(shell, &mut cmd, "syz", &mut std::io::stdout());
+            clap_complete::generate(shell, &mut cmd, "syz", &mut output::stdout());
             0
         }
-        Command::Plot { plot, engine } => plot_cmd::run(&plot, &engine.flags()),
-        Command::Ephemeris { args, engine } => ephemeris_cmd::run(&args, &engine.flags()),
+        Command::Plot { plot, engine, read } => plot_cmd::run(&plot, &engine.flags(), read),
+        Command::Ephemeris { args, engine, read } => {
+            ephemeris_cmd::run(&args, &engine.flags(), read)
+        }
     };
+    // Buffered output is written now, so a failure to write it is reported.
+    let _ = output::stdout().flush();
     ExitCode::from(code)
 }
 
-fn check(paths: &[PathBuf], format: CheckFormat, deny_warnings: bool, flags: &Layer) -> u8 {
-    let Some((loaded, settings)) = load_with_settings(paths, flags) else {
+fn check(
+    paths: &[PathBuf],
+    format: CheckFormat,
+    deny_warnings: bool,
+    flags: &Layer,
+    read: files::ReadArgs,
+) -> u8 {
+    let Some((loaded, settings)) = load_with_settings(paths, flags, read) else {
         return 2;
     };
     let db = &loaded.db;
-    let stdout = std::io::stdout();
-    let mut out = stdout.lock();
+    let mut out = output::stdout();
     // Streamed like `eval`: each file's diagnostics are rendered (for people) or turned into
     // JSON or SARIF results on the worker that analysed it, and the analysis is dropped.
     let color = render::use_color();
@@ -279,6 +320,7 @@ fn check(paths: &[PathBuf], format: CheckFormat, deny_warnings: bool, flags: &La
     let mut rule_counts = vec![0usize; Rule::ALL.len()];
     let mut json_diags = Vec::new();
     let mut sarif_results = Vec::new();
+    let mut not_shown = NotShown::default();
     let mut checked = 0usize;
     files::for_each_analysed(
         db,
@@ -291,22 +333,20 @@ fn check(paths: &[PathBuf], format: CheckFormat, deny_warnings: bool, flags: &La
                 .collect();
             let mut text = String::new();
             let (mut json, mut sarif) = (Vec::new(), Vec::new());
+            let (shown, left_out) = syzygy::shown::split(&a.diagnostics);
             match format {
                 CheckFormat::Human => text = rendered_diagnostics(&a, db, color),
-                CheckFormat::Json => json = syzygy::report::diagnostics_json(&a, db),
+                CheckFormat::Json => json = syzygy::report::diagnostics_json(&a, db).0,
                 CheckFormat::Sarif => {
                     let places = syzygy::source::Places::new(db, a.file);
-                    sarif = a
-                        .diagnostics
-                        .iter()
-                        .map(|d| sarif::result(d, &places))
-                        .collect();
+                    sarif = shown.iter().map(|d| sarif::result(d, &places)).collect();
                 }
             }
-            (kinds, text, json, sarif)
+            (kinds, text, json, sarif, (a.file, left_out))
         },
-        |(kinds, text, json, sarif)| {
+        |(kinds, text, json, sarif, (file, left_out))| {
             checked += 1;
+            not_shown.add(db, file, left_out);
             for (severity, rule) in kinds {
                 if let Some(c) = counts.get_mut(severity) {
                     *c += 1;
@@ -334,7 +374,7 @@ fn check(paths: &[PathBuf], format: CheckFormat, deny_warnings: bool, flags: &La
         .collect();
     match format {
         CheckFormat::Sarif => {
-            let doc = sarif::log(&sarif_results, &loaded.errors);
+            let doc = sarif::log(&sarif_results, &loaded.errors, &not_shown.lines());
             let _ = writeln!(out, "{}", json_out::pretty(&doc));
         }
         CheckFormat::Json => {
@@ -342,6 +382,7 @@ fn check(paths: &[PathBuf], format: CheckFormat, deny_warnings: bool, flags: &La
                 version: syzygy::report::JSON_VERSION,
                 files: checked,
                 diagnostics: &json_diags,
+                diagnostics_not_shown: &not_shown.0,
                 io_errors: &loaded.errors,
                 summary: syzygy::report::json::Summary {
                     errors,
@@ -386,8 +427,12 @@ fn check(paths: &[PathBuf], format: CheckFormat, deny_warnings: bool, flags: &La
 
 /// Read the files named and find each one's settings (its `syzygy.toml` under the flags);
 /// `None`, after saying why, when a project file is bad.
-fn load_with_settings(paths: &[PathBuf], flags: &Layer) -> Option<(files::Loaded, Vec<Settings>)> {
-    let loaded = files::load(paths);
+fn load_with_settings(
+    paths: &[PathBuf],
+    flags: &Layer,
+    read: files::ReadArgs,
+) -> Option<(files::Loaded, Vec<Settings>)> {
+    let loaded = files::load(paths, read);
     match config_file::resolve(&loaded.db, flags) {
         Ok(settings) => Some((loaded, settings)),
         Err(e) => {
@@ -437,16 +482,54 @@ fn stream_per_file(
     (errors, failure)
 }
 
-/// Every diagnostic of one file, rendered for people.
+/// The diagnostics shown of one file (`syzygy::shown`), rendered for people, then a line
+/// counting the rest.
 fn rendered_diagnostics(
     a: &syzygy::Analysis,
     db: &syzygy::source::MemoryDb,
     color: bool,
 ) -> String {
-    a.diagnostics
+    use syzygy::source::SourceDb;
+    let (shown, left_out) = syzygy::shown::split(&a.diagnostics);
+    if shown.is_empty() {
+        return String::new();
+    }
+    let index = syzygy::source::LineIndex::new(db.text(a.file));
+    let mut out: String = shown
         .iter()
-        .map(|d| render::diagnostic(db, d, color))
-        .collect()
+        .map(|d| render::diagnostic(db, &index, d, color))
+        .collect();
+    if left_out > 0 {
+        out.push_str(&format!(
+            "note: {}: {}\n",
+            db.name(a.file),
+            syzygy::shown::rest_words(left_out)
+        ));
+    }
+    out
+}
+
+/// The files whose diagnostics were not all shown, with how many were left out.
+#[derive(Default)]
+struct NotShown(Vec<syzygy::report::json::NotShown>);
+
+impl NotShown {
+    fn add(&mut self, db: &syzygy::source::MemoryDb, file: syzygy::source::FileId, count: usize) {
+        use syzygy::source::SourceDb;
+        if count > 0 {
+            self.0.push(syzygy::report::json::NotShown {
+                file: db.name(file).to_string(),
+                count,
+            });
+        }
+    }
+
+    fn lines(&self) -> Vec<String> {
+        self.0
+            .iter()
+            .map(|n| format!("{}: {}", n.file, syzygy::shown::rest_words(n.count)))
+            .collect()
+    }
 }
 
 /// How the uncertainties shown were propagated, in words.
@@ -470,8 +553,8 @@ fn plural(n: usize) -> &'static str {
     }
 }
 
-fn eval(paths: &[PathBuf], format: EvalFormat, flags: &Layer) -> u8 {
-    let Some((loaded, settings)) = load_with_settings(paths, flags) else {
+fn eval(paths: &[PathBuf], format: EvalFormat, flags: &Layer, read: files::ReadArgs) -> u8 {
+    let Some((loaded, settings)) = load_with_settings(paths, flags, read) else {
         return 2;
     };
     let options = settings.first().map_or_else(
@@ -479,8 +562,7 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &Layer) -> u8 {
         |s| s.options.clone(),
     );
     let db = &loaded.db;
-    let stdout = std::io::stdout();
-    let mut out = stdout.lock();
+    let mut out = output::stdout();
     let mut errors = false;
     // Every format is streamed: files are analysed in parallel batches, each analysis is
     // turned into its output on the worker and dropped, and the outputs are written in file
@@ -493,6 +575,7 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &Layer) -> u8 {
             };
             let mut doc = json_out::Document::start(&mut out, &head);
             let mut diags = Vec::new();
+            let mut not_shown = NotShown::default();
             files::for_each_analysed(
                 db,
                 &settings,
@@ -501,15 +584,13 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &Layer) -> u8 {
                         .iter()
                         .map(json_out::pretty)
                         .collect();
-                    (
-                        a.has_errors(),
-                        systems,
-                        syzygy::report::diagnostics_json(&a, db),
-                    )
+                    let diagnostics = syzygy::report::diagnostics_json(&a, db);
+                    (a.has_errors(), systems, diagnostics, a.file)
                 },
-                |(bad, systems, d)| {
+                |(bad, systems, (d, left_out), file)| {
                     errors |= bad;
                     diags.extend(d);
+                    not_shown.add(db, file, left_out);
                     for s in &systems {
                         doc.system(s);
                     }
@@ -517,6 +598,7 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &Layer) -> u8 {
             );
             let tail = syzygy::report::json::EvalTail {
                 diagnostics: &diags,
+                diagnostics_not_shown: &not_shown.0,
                 io_errors: &loaded.errors,
             };
             if let Err(e) = doc.finish(&tail) {
@@ -562,12 +644,18 @@ fn eval(paths: &[PathBuf], format: EvalFormat, flags: &Layer) -> u8 {
     }
 }
 
-fn explain(file: &std::path::Path, target: &str, system: Option<&str>, flags: &Layer) -> u8 {
+fn explain(
+    file: &std::path::Path,
+    target: &str,
+    system: Option<&str>,
+    flags: &Layer,
+    read: files::ReadArgs,
+) -> u8 {
     let Some((body, qty)) = target.split_once('.') else {
         eprintln!("syz: expected BODY.QUANTITY, such as b.density, found '{target}'");
         return 2;
     };
-    let loaded = files::load(&[file.to_path_buf()]);
+    let loaded = files::load(&[file.to_path_buf()], read);
     if !loaded.errors.is_empty() {
         files::report_io_errors(&loaded.errors);
         return 2;

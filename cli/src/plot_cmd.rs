@@ -57,7 +57,7 @@ fn err<E: std::fmt::Display>(e: E) -> String {
     e.to_string()
 }
 
-pub fn run(plot: &Plot, flags: &Layer) -> u8 {
+pub fn run(plot: &Plot, flags: &Layer, read: files::ReadArgs) -> u8 {
     let out = match plot {
         Plot::MassRadius { output, .. }
         | Plot::Rv { output, .. }
@@ -74,10 +74,10 @@ pub fn run(plot: &Plot, flags: &Layer) -> u8 {
         return 2;
     }
     let result = match plot {
-        Plot::MassRadius { paths, .. } => mass_radius(paths, flags),
+        Plot::MassRadius { paths, .. } => mass_radius(paths, flags, read),
         Plot::Rv {
             file, body, system, ..
-        } => one_planet(file, body, system.as_deref(), flags).and_then(|(a, si, bi)| {
+        } => one_planet(file, body, system.as_deref(), flags, read).and_then(|(a, si, bi)| {
             let c = plots::rv_curve(&a, si, bi)?;
             Ok(model_svg(
                 &c,
@@ -96,7 +96,7 @@ pub fn run(plot: &Plot, flags: &Layer) -> u8 {
         } => parse_ld(limb_darkening.as_deref())
             .map_err(Stop::from)
             .and_then(|ld| {
-                let (a, si, bi) = one_planet(file, body, system.as_deref(), flags)?;
+                let (a, si, bi) = one_planet(file, body, system.as_deref(), flags, read)?;
                 let (c, used) = plots::transit_curve(&a, si, bi, ld)?;
                 Ok(model_svg(
                     &c,
@@ -176,8 +176,9 @@ fn one_planet(
     body: &str,
     system: Option<&str>,
     flags: &Layer,
+    read: files::ReadArgs,
 ) -> Result<(syzygy::Analysis, usize, usize), Stop> {
-    let loaded = files::load(&[file.to_path_buf()]);
+    let loaded = files::load(&[file.to_path_buf()], read);
     if let Some(e) = loaded.errors.first() {
         return Err(Stop::from(e.clone()));
     }
@@ -226,11 +227,34 @@ fn notes(area: &DrawingArea<SVGBackend, Shift>, lines: &[String]) -> Result<(), 
     Ok(())
 }
 
-fn mass_radius(paths: &[PathBuf], flags: &Layer) -> Result<String, Stop> {
-    let loaded = files::load(paths);
+fn mass_radius(paths: &[PathBuf], flags: &Layer, read: files::ReadArgs) -> Result<String, Stop> {
+    let loaded = files::load(paths, read);
     files::report_io_errors(&loaded.errors);
     let analyses = files::analyze_all(&loaded.db, flags).map_err(Stop::settings)?;
-    let (points, left_out) = plots::mass_radius_points(&analyses);
+    let (points, mut left_out) = plots::mass_radius_points(&analyses);
+    // Only what fits the diagram's widest axes is drawn; the rest is said.
+    let (points, beyond): (Vec<_>, Vec<_>) = points
+        .into_iter()
+        .partition(|p| MASS_AXIS.contains(&p.mass) && RADIUS_AXIS.contains(&p.radius));
+    let num = |v: f64| syzygy::format::number(v);
+    let spans = format!(
+        "it spans {}-{} Earth masses and {}-{} Earth radii",
+        num(MASS_AXIS.start),
+        num(MASS_AXIS.end),
+        num(RADIUS_AXIS.start),
+        num(RADIUS_AXIS.end)
+    );
+    let beyond: Vec<String> = beyond
+        .iter()
+        .map(|p| {
+            let (m, r) = (num(p.mass), num(p.radius));
+            format!(
+                "{}: {m} Earth masses, {r} Earth radii: beyond the diagram ({spans})",
+                p.label
+            )
+        })
+        .collect();
+    left_out.extend(beyond.iter().cloned());
     for l in &left_out {
         eprintln!("note: not plotted: {l}");
     }
@@ -239,13 +263,24 @@ fn mass_radius(paths: &[PathBuf], flags: &Layer) -> Result<String, Stop> {
             "no planet with both a mass and a radius to plot",
         ));
     }
+    // The axes cover every point and error bar, within the widest axes (log scales, so the
+    // bounds must stay positive and finite).
+    let finite_max = |v: f64, at_least: f64, axis: &std::ops::Range<f64>| {
+        if v.is_finite() {
+            at_least.max(v).min(axis.end)
+        } else {
+            axis.end
+        }
+    };
     let mut x_max: f64 = 1000.0;
     let mut y_max: f64 = 25.0;
+    let (mut x_min, mut y_min) = (0.03f64, 0.3f64);
     for p in &points {
-        x_max = x_max.max(2.0 * (p.mass + p.mass_above));
-        y_max = y_max.max(1.5 * (p.radius + p.radius_above));
+        x_max = finite_max(2.0 * (p.mass + p.mass_above), x_max, &MASS_AXIS);
+        y_max = finite_max(1.5 * (p.radius + p.radius_above), y_max, &RADIUS_AXIS);
+        x_min = x_min.min(0.5 * p.mass).max(MASS_AXIS.start);
+        y_min = y_min.min(0.5 * p.radius).max(RADIUS_AXIS.start);
     }
-    let (x_min, y_min) = (0.03f64, 0.3f64);
     let mut lines = vec![
         "Curves: Seager, Kuchner, Hier-Majumder & Militzer 2007, ApJ 669, 1279 (fit coefficients from memory); Zeng, Sasselov & Jacobsen 2016, ApJ 819, 127. Faint: extrapolated beyond the fitted mass range.".to_string(),
     ];
@@ -254,6 +289,30 @@ fn mass_radius(paths: &[PathBuf], flags: &Layer) -> Result<String, Stop> {
             .iter()
             .map(|p| format!("{}: {}", p.label, p.position)),
     );
+    // Planets with a mass and a radius that are not drawn are said on the figure too.
+    lines.extend(beyond.iter().map(|l| format!("not plotted: {l}")));
+    // Error bars: both ends inside the axes; a bar cut at an edge is said.
+    let bars: Vec<(Bar, Bar)> = points
+        .iter()
+        .map(|p| {
+            (
+                Bar::new(p.mass, p.mass_below, p.mass_above, x_min..x_max),
+                Bar::new(p.radius, p.radius_below, p.radius_above, y_min..y_max),
+            )
+        })
+        .collect();
+    for (p, (m, r)) in points.iter().zip(&bars) {
+        for (cut, what) in [(m.cut, "mass"), (r.cut, "radius")] {
+            if cut {
+                let l = format!(
+                    "{}: the {what} error bar reaches beyond the axis and is cut at its edge",
+                    p.label
+                );
+                eprintln!("note: {l}");
+                lines.push(l);
+            }
+        }
+    }
     let note_h = 10 + 15 * lines.iter().map(|l| wrap(l, 150).len()).sum::<usize>() as u32;
     let mut svg = String::new();
     {
@@ -365,12 +424,10 @@ fn mass_radius(paths: &[PathBuf], flags: &Layer) -> Result<String, Stop> {
             }))
             .map_err(err)?;
         // The planets from the files, with 1-sigma error bars.
-        for p in &points {
-            let xl = (p.mass - p.mass_below).max(x_min);
-            let yl = (p.radius - p.radius_below).max(y_min);
+        for (p, (m, r)) in points.iter().zip(&bars) {
             let bars = [
-                vec![(xl, p.radius), (p.mass + p.mass_above, p.radius)],
-                vec![(p.mass, yl), (p.mass, p.radius + p.radius_above)],
+                vec![(m.low, p.radius), (m.high, p.radius)],
+                vec![(p.mass, r.low), (p.mass, r.high)],
             ];
             chart
                 .draw_series(
@@ -409,6 +466,62 @@ fn mass_radius(paths: &[PathBuf], flags: &Layer) -> Result<String, Stop> {
     Ok(svg)
 }
 
+/// A 1-sigma error bar on one axis: its ends within the axis, and whether the upper end had
+/// to be cut at the axis's edge.
+struct Bar {
+    low: f64,
+    high: f64,
+    cut: bool,
+}
+
+impl Bar {
+    fn new(value: f64, below: f64, above: f64, axis: std::ops::Range<f64>) -> Bar {
+        let (lo, hi) = (value - below, value + above);
+        Bar {
+            low: if lo.is_finite() {
+                lo.max(axis.start)
+            } else {
+                axis.start
+            },
+            high: if hi.is_finite() {
+                hi.min(axis.end)
+            } else {
+                axis.end
+            },
+            cut: !(hi.is_finite() && hi <= axis.end),
+        }
+    }
+}
+
+/// The widest mass axis of the diagram, in Earth masses (about 3 solar masses at the top:
+/// no planet is near).
+const MASS_AXIS: std::ops::Range<f64> = 1e-6..1e6;
+/// The widest radius axis, in Earth radii (about 90 solar radii at the top).
+const RADIUS_AXIS: std::ops::Range<f64> = 1e-3..1e4;
+
+/// The largest magnitude a linear axis reaches; values beyond are drawn at its edge. Past it,
+/// the differences of plotted values could overflow, and plotters' tick generation never
+/// ends on an infinite range.
+const AXIS_LIMIT: f64 = 1e300;
+
+/// A linear axis range covering the finite `values` (each clamped to ±[`AXIS_LIMIT`]) with
+/// 12% margins, and whether any value was clamped; `None` when none is finite.
+fn linear_range(values: impl Iterator<Item = f64>) -> Option<(std::ops::Range<f64>, bool)> {
+    let (mut lo, mut hi, mut clamped) = (f64::INFINITY, f64::NEG_INFINITY, false);
+    for v in values.filter(|v| v.is_finite()) {
+        let c = v.clamp(-AXIS_LIMIT, AXIS_LIMIT);
+        clamped |= c != v;
+        lo = lo.min(c);
+        hi = hi.max(c);
+    }
+    if lo > hi {
+        return None;
+    }
+    // At least a millionth of the values' size, so the margins survive rounding.
+    let pad = ((hi - lo) * 0.12).max(1e-6 * hi.abs().max(lo.abs()).max(1.0));
+    Some(((lo - pad)..(hi + pad), clamped))
+}
+
 fn short_source(c: &Curve) -> &'static str {
     match c {
         Curve::Rocky { .. } => "Zeng et al. 2016",
@@ -426,9 +539,14 @@ fn model_svg(
     let b = &c.band;
     let x0 = b.x.first().copied().unwrap_or(0.0);
     let x1 = b.x.last().copied().unwrap_or(1.0);
-    let lo = b.low.iter().copied().fold(f64::INFINITY, f64::min);
-    let hi = b.high.iter().copied().fold(f64::NEG_INFINITY, f64::max);
-    let pad = ((hi - lo) * 0.12).max(1e-6);
+    if !(x0.is_finite() && x1.is_finite() && x0 < x1 && (x1 - x0).is_finite()) {
+        return Err(format!(
+            "the time axis would run from {x0} to {x1}; check the period"
+        ));
+    }
+    let values = b.low.iter().chain(&b.median).chain(&b.high).copied();
+    let (y, clamped) = linear_range(values).ok_or("the model has no finite value to plot")?;
+    let on_axis = |v: f64| v.clamp(y.start, y.end);
     let mut lines: Vec<String> = Vec::new();
     lines.push(format!("inputs: {}", c.inputs.join("; ")));
     if let Some(l) = ld {
@@ -438,6 +556,16 @@ fn model_svg(
         ));
     }
     lines.extend(c.assumptions.iter().map(|a| format!("assumed: {a}")));
+    let mut left_out: Vec<String> = c.left_out.clone();
+    if clamped {
+        left_out.push(format!(
+            "model values beyond ±{AXIS_LIMIT:e} are drawn at the edge of the axis"
+        ));
+    }
+    for l in &left_out {
+        eprintln!("note: {l}");
+    }
+    lines.extend(left_out.iter().map(|l| format!("left out: {l}")));
     let note_rows: usize = lines.iter().map(|l| wrap(l, 150).len()).sum();
     let note_h = 10 + 15 * note_rows as u32;
     let mut svg = String::new();
@@ -450,7 +578,7 @@ fn model_svg(
             .margin(18)
             .x_label_area_size(55)
             .y_label_area_size(85)
-            .build_cartesian_2d(x0..x1, (lo - pad)..(hi + pad))
+            .build_cartesian_2d(x0..x1, y.clone())
             .map_err(err)?;
         chart
             .configure_mesh()
@@ -460,11 +588,21 @@ fn model_svg(
             .label_style((FONT, 14))
             .light_line_style(RGBColor(235, 235, 235))
             .bold_line_style(RGBColor(215, 215, 215))
+            .y_label_formatter(&|v| syzygy::format::number(*v))
             .draw()
             .map_err(err)?;
         let blue = RGBColor(40, 110, 190);
-        let mut poly: Vec<(f64, f64)> = b.x.iter().copied().zip(b.high.iter().copied()).collect();
-        poly.extend(b.x.iter().copied().zip(b.low.iter().copied()).rev());
+        let mut poly: Vec<(f64, f64)> =
+            b.x.iter()
+                .copied()
+                .zip(b.high.iter().copied().map(on_axis))
+                .collect();
+        poly.extend(
+            b.x.iter()
+                .copied()
+                .zip(b.low.iter().copied().map(on_axis))
+                .rev(),
+        );
         chart
             .draw_series(std::iter::once(Polygon::new(poly, blue.mix(0.22).filled())))
             .map_err(err)?
@@ -474,7 +612,9 @@ fn model_svg(
             });
         chart
             .draw_series(LineSeries::new(
-                b.x.iter().copied().zip(b.median.iter().copied()),
+                b.x.iter()
+                    .copied()
+                    .zip(b.median.iter().copied().map(on_axis)),
                 blue.stroke_width(2),
             ))
             .map_err(err)?

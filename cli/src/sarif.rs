@@ -303,8 +303,10 @@ fn rules() -> Vec<ReportingDescriptor> {
 }
 
 /// The whole log: one run, every rule in `tool.driver.rules`, one result per diagnostic;
-/// unreadable paths become tool execution notifications.
-pub fn log<'a>(results: &'a [SarifResult], io_errors: &[String]) -> Log<'a> {
+/// unreadable paths become tool execution notifications at level `error`, and each line of
+/// `not_shown` (a file whose diagnostics were not all reported, `syzygy::shown`) one at level
+/// `note`.
+pub fn log<'a>(results: &'a [SarifResult], io_errors: &[String], not_shown: &[String]) -> Log<'a> {
     Log {
         schema: SCHEMA,
         version: "2.1.0",
@@ -325,6 +327,10 @@ pub fn log<'a>(results: &'a [SarifResult], io_errors: &[String]) -> Log<'a> {
                         level: "error",
                         message: Message::plain(e.clone()),
                     })
+                    .chain(not_shown.iter().map(|l| Notification {
+                        level: "note",
+                        message: Message::plain(l.clone()),
+                    }))
                     .collect(),
             }],
             results,

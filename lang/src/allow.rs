@@ -54,25 +54,27 @@ pub fn parse_comment(text: &str) -> Option<(Vec<RuleId>, String)> {
 
 /// Every silencing comment of a file, with the line each covers.
 pub fn collect(src: &str, comments: &[Comment]) -> Vec<Allow> {
+    let parsed: Vec<(&Comment, _)> = comments
+        .iter()
+        .filter_map(|c| parse_comment(&c.text).map(|p| (c, p)))
+        .collect();
+    if parsed.is_empty() {
+        // Nothing to place: no line index (a file of 10 million lines need not pay for one).
+        return Vec::new();
+    }
     let index = LineIndex::new(src);
-    let lines: Vec<&str> = src.split('\n').collect();
+    let line_text = |l: usize| index.line_span(src, l).and_then(|r| src.get(r));
     let mut out = Vec::new();
-    for c in comments {
-        let Some((ids, reason)) = parse_comment(&c.text) else {
-            continue;
-        };
+    for (c, (ids, reason)) in parsed {
         let start = c.span.start as usize;
-        let line = index.utf8_position(start).0 as usize;
+        let line = index.line_at(start);
         let covers = if c.trailing {
             Some(line)
         } else {
-            (line + 1..lines.len()).find(|l| {
-                !lines
-                    .get(*l)
-                    .is_some_and(|t| t.trim_start().starts_with('#'))
-            })
+            (line + 1..index.line_count())
+                .find(|l| !line_text(*l).is_some_and(|t| t.trim_start().starts_with('#')))
         }
-        .filter(|l| lines.get(*l).is_some_and(|t| !t.trim().is_empty()));
+        .filter(|l| line_text(*l).is_some_and(|t| !t.trim().is_empty()));
         out.push(Allow {
             rules: ids
                 .into_iter()

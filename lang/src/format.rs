@@ -61,6 +61,11 @@ pub fn with_uncertainty(value: f64, below: f64, above: f64) -> String {
     if !value.is_finite() {
         return format!("{value}");
     }
+    if !(below.is_finite() && above.is_finite()) {
+        // An uncertainty that overflowed (an input's ± near the largest float) is said, not
+        // dropped: the bare number would read as exact.
+        return format!("{} (uncertainty not finite)", number(value));
+    }
     let u = below.min(above);
     let u = if u > 0.0 { u } else { below.max(above) };
     if u <= 0.0 || !u.is_finite() {
@@ -135,6 +140,19 @@ pub fn julian_date(jd: f64, below: f64, above: f64) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn an_uncertainty_that_is_not_finite_is_said() {
+        assert_eq!(
+            with_uncertainty(28.3, f64::INFINITY, f64::INFINITY),
+            "28.3 (uncertainty not finite)"
+        );
+        assert_eq!(
+            with_uncertainty(2.0, 0.1, f64::NAN),
+            "2 (uncertainty not finite)"
+        );
+        assert_eq!(with_uncertainty(2.0, 0.0, 0.0), "2");
+    }
 
     #[test]
     fn literal_text_reads_back() {

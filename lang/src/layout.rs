@@ -11,10 +11,15 @@
 //!   row, none at the start or end of a block or of the file; one final newline.
 //!
 //! A file with syntax errors is not laid out (its structure is uncertain). The result is
-//! checked token by token against the input before it is returned.
+//! checked token by token against the input before it is returned. Lines end as the input's
+//! first line break does (`\n`, `\r\n` or `\r`).
+//!
+//! Memory stays a small multiple of the text: tokens are streamed from the lexer, a run of
+//! blank lines becomes one item, and the token check compares two token streams without
+//! collecting them.
 
-use crate::lexer::{lex, Tok, Token};
-use crate::source::FileId;
+use crate::lexer::{tokens, Tok, Token};
+use crate::source::{line_break_of, FileId};
 
 /// Why a text was not laid out.
 #[derive(Debug, Clone, PartialEq, Eq)]
@@ -93,9 +98,14 @@ pub fn format_source(src: &str) -> Result<String, LayoutError> {
     if errors > 0 {
         return Err(LayoutError::Syntax(errors));
     }
-    let toks = lex(src);
-    let items = tidy_blanks(items_of(src, &toks));
-    let out = render(src, &items);
+    let items = tidy_blanks(items_of(src, tokens(src)));
+    let mut out = render(src, &items);
+    drop(items);
+    let line_break = line_break_of(src);
+    if line_break != "\n" {
+        // Comments and strings hold no line break, so every '\n' rendered ends a line.
+        out = out.replace('\n', line_break);
+    }
     if same_tokens(src, &out) {
         Ok(out)
     } else {
@@ -107,7 +117,7 @@ fn text<'a>(src: &'a str, t: &Token) -> &'a str {
     src.get(t.start..t.end).unwrap_or("")
 }
 
-fn items_of(src: &str, toks: &[Token]) -> Vec<Item> {
+fn items_of(src: &str, toks: impl Iterator<Item = Token>) -> Vec<Item> {
     let mut items: Vec<Item> = Vec::new();
     let mut cur: Vec<Token> = Vec::new();
     let mut depth = 0usize;
@@ -128,6 +138,7 @@ fn items_of(src: &str, toks: &[Token]) -> Vec<Item> {
         }
     };
     for t in toks {
+        let t = &t;
         match t.kind {
             Tok::Newline => {
                 if in_header(&cur) {
@@ -135,7 +146,8 @@ fn items_of(src: &str, toks: &[Token]) -> Vec<Item> {
                     continue;
                 }
                 flush(&mut cur, &mut items, depth);
-                if line_empty {
+                // Blank lines in a row are laid out as one: keep one item for the run.
+                if line_empty && !matches!(items.last(), Some(Item::Blank)) {
                     items.push(Item::Blank);
                 }
                 line_empty = true;
@@ -580,37 +592,53 @@ fn render_run(src: &str, run: &[Item], depth: usize) -> String {
 /// Whether two texts hold the same tokens, up to insignificant separators and the
 /// whitespace inside comments' ends.
 pub fn same_tokens(a: &str, b: &str) -> bool {
-    normalized(a) == normalized(b)
+    code_tokens(a).eq(code_tokens(b)) && comments(a).eq(comments(b))
 }
 
-fn normalized(src: &str) -> (Vec<(Tok, String)>, Vec<String>) {
-    let mut code: Vec<(Tok, String)> = Vec::new();
-    let mut comments = Vec::new();
-    const SEP: Tok = Tok::Newline;
-    for t in lex(src) {
-        match t.kind {
-            Tok::Comment => comments.push(text(src, &t).trim_end().to_string()),
-            Tok::Newline | Tok::Semi => {
-                if !matches!(
-                    code.last(),
-                    None | Some((SEP | Tok::LBrace | Tok::RBrace, _))
-                ) {
-                    code.push((SEP, String::new()));
-                }
-            }
-            Tok::LBrace | Tok::RBrace => {
-                if matches!(code.last(), Some((SEP, _))) {
-                    code.pop();
-                }
-                code.push((t.kind, text(src, &t).to_string()));
-            }
-            k => code.push((k, text(src, &t).to_string())),
+fn comments(src: &str) -> impl Iterator<Item = &str> + '_ {
+    tokens(src)
+        .filter(|t| t.kind == Tok::Comment)
+        .map(|t| text(src, &t).trim_end())
+}
+
+/// The code tokens of a text with separators normalised: runs of newlines and `;` become
+/// one separator, none next to a brace, at the start or at the end.
+fn code_tokens(src: &str) -> impl Iterator<Item = (Tok, &str)> + '_ {
+    const SEP: (Tok, &str) = (Tok::Newline, "");
+    let mut toks = tokens(src);
+    let mut last: Option<Tok> = None;
+    let mut pending = false;
+    let mut held: Option<(Tok, &str)> = None;
+    std::iter::from_fn(move || {
+        if let Some(h) = held.take() {
+            return Some(h);
         }
-    }
-    if matches!(code.last(), Some((SEP, _))) {
-        code.pop();
-    }
-    (code, comments)
+        loop {
+            let t = toks.next()?;
+            match t.kind {
+                Tok::Comment => {}
+                Tok::Newline | Tok::Semi => {
+                    if !matches!(last, None | Some(Tok::LBrace | Tok::RBrace)) {
+                        pending = true;
+                    }
+                }
+                Tok::LBrace | Tok::RBrace => {
+                    pending = false;
+                    last = Some(t.kind);
+                    return Some((t.kind, text(src, &t)));
+                }
+                k => {
+                    last = Some(k);
+                    let tok = (k, text(src, &t));
+                    if std::mem::take(&mut pending) {
+                        held = Some(tok);
+                        return Some(SEP);
+                    }
+                    return Some(tok);
+                }
+            }
+        }
+    })
 }
 
 #[cfg(test)]
@@ -650,6 +678,27 @@ mod tests {
         assert!(!same_tokens("a = 1 b = 2", "a = 1\nb = 2"));
         assert!(!same_tokens("x = 1 # c", "x = 1"));
         assert!(!same_tokens("x = -1", "x = - - 1"));
+    }
+
+    #[test]
+    fn line_ends_of_the_file_are_kept() {
+        // Windows and old Mac line ends: the same layout, in the file's own convention.
+        let want = format_source(MESSY).unwrap();
+        for nl in ["\r\n", "\r"] {
+            let src = MESSY.replace('\n', nl);
+            let out = format_source(&src).unwrap();
+            assert_eq!(out, want.replace('\n', nl), "{nl:?}");
+            assert_eq!(format_source(&out).unwrap(), out);
+        }
+    }
+
+    #[test]
+    fn a_run_of_blank_lines_is_one_item() {
+        let src = format!("ref a \"x\"{}ref b \"y\"\n", "\n".repeat(10_000));
+        let items = items_of(&src, tokens(&src));
+        assert_eq!(items.len(), 3, "{items:?}");
+        assert_eq!(format_source(&src).unwrap(), "ref a \"x\"\n\nref b \"y\"\n");
+        assert_eq!(format_source(&"\n".repeat(10_000)).unwrap(), "");
     }
 
     #[test]

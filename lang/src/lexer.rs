@@ -2,17 +2,20 @@
 //!
 //! Tokens carry no payload: the parser slices the source text by span when it needs a
 //! number, a name or a string. Newlines are tokens because a property ends at the end of
-//! its line. Comments are kept as tokens too (silencing comments and the formatter need
+//! its line; a line ends at `\n`, `\r\n` or a lone `\r` (old Mac files), as in
+//! [`crate::source::LineIndex`]. Comments are kept as tokens too (silencing comments and the formatter need
 //! them); the parser skips them.
 
 use logos::Logos;
 
 #[derive(Logos, Debug, Clone, Copy, PartialEq, Eq, Hash)]
-#[logos(skip r"[ \t\r\f\u{FEFF}]+")]
+#[logos(skip r"[ \t\f\u{FEFF}]+")]
 pub enum Tok {
-    #[regex(r"#[^\n]*")]
+    #[regex(r"#[^\r\n]*")]
     Comment,
     #[token("\n")]
+    #[token("\r\n")]
+    #[token("\r")]
     Newline,
     #[token(";")]
     Semi,
@@ -71,9 +74,9 @@ pub enum Tok {
     #[regex(r"[0-9]+(\.[0-9]*)?([eE][+-]?[0-9]+)?")]
     #[regex(r"\.[0-9]+([eE][+-]?[0-9]+)?")]
     Number,
-    #[regex(r#""([^"\\\n]|\\[^\n])*""#)]
+    #[regex(r#""([^"\\\r\n]|\\[^\r\n])*""#)]
     Str,
-    #[regex(r#""([^"\\\n]|\\[^\n])*"#, priority = 0)]
+    #[regex(r#""([^"\\\r\n]|\\[^\r\n])*"#, priority = 0)]
     UnterminatedStr,
     #[regex(r"[A-Za-z_\u{2609}\u{2295}\u{00B0}\u{00B5}\u{03BC}\u{03C9}][A-Za-z0-9_\u{2609}\u{2295}\u{00B5}\u{03BC}\u{03C9}]*")]
     #[token("%")]
@@ -133,17 +136,31 @@ pub struct Token {
 /// Lex a whole source text. Never fails: unknown characters become [`Tok::Error`] tokens.
 pub fn lex(src: &str) -> Vec<Token> {
     let mut out = Vec::with_capacity(src.len() / 4);
-    let mut lexer = Tok::lexer(src);
-    while let Some(result) = lexer.next() {
-        let span = lexer.span();
-        let kind = result.unwrap_or(Tok::Error);
-        out.push(Token {
+    out.extend(tokens(src));
+    out
+}
+
+/// The tokens of a source text one at a time, for passes that need not hold them all
+/// (a file of 10 MB of newlines is 10 million tokens).
+pub fn tokens(src: &str) -> Tokens<'_> {
+    Tokens(Tok::lexer(src))
+}
+
+/// The iterator of [`tokens`].
+pub struct Tokens<'a>(logos::Lexer<'a, Tok>);
+
+impl Iterator for Tokens<'_> {
+    type Item = Token;
+
+    fn next(&mut self) -> Option<Token> {
+        let kind = self.0.next()?.unwrap_or(Tok::Error);
+        let span = self.0.span();
+        Some(Token {
             kind,
             start: span.start,
             end: span.end,
-        });
+        })
     }
-    out
 }
 
 #[cfg(test)]
@@ -195,5 +212,31 @@ mod tests {
         );
         assert_eq!(kinds("\"open"), vec![Tok::UnterminatedStr]);
         assert!(kinds("\u{0}\u{1}@$").iter().all(|k| *k == Tok::Error));
+    }
+
+    #[test]
+    fn every_line_break_convention_ends_a_line() {
+        // Unix, Windows and old Mac line ends; a comment or a string stops at any of them.
+        for nl in ["\n", "\r\n", "\r"] {
+            let src = format!("# note{nl}ref a \"x{nl}b = 1{nl}");
+            assert_eq!(
+                kinds(&src),
+                vec![
+                    Tok::Comment,
+                    Tok::Newline,
+                    Tok::Ref,
+                    Tok::Ident,
+                    Tok::UnterminatedStr,
+                    Tok::Newline,
+                    Tok::Ident,
+                    Tok::Eq,
+                    Tok::Number,
+                    Tok::Newline
+                ],
+                "{src:?}"
+            );
+            let comment = lex(&src)[0];
+            assert_eq!(&src[comment.start..comment.end], "# note");
+        }
     }
 }

@@ -31,6 +31,7 @@ pub mod report;
 pub mod reuse;
 pub mod rule_docs;
 pub mod settings;
+pub mod shown;
 pub mod solar_system;
 pub mod source;
 pub mod spectral;

@@ -26,11 +26,13 @@
 //! exact: a bad property costs that one line, a missing `}` is reported where the next body
 //! starts. Each property's value is parsed with a `chumsky` grammar, which recovers inside
 //! parentheses. Nesting deeper than [`MAX_DEPTH`], and values longer than
-//! [`MAX_VALUE_TOKENS`], are refused before they can exhaust the stack of any later stage.
+//! [`MAX_VALUE_TOKENS`], are refused before they can exhaust the stack of any later stage;
+//! after [`MAX_SYNTAX_ERRORS`] syntax errors the parser stops reading the file (as compilers
+//! do), so garbage costs neither gigabytes of diagnostics nor their time.
 
 use crate::ast::*;
 use crate::diagnostic::{Diagnostic, Rule};
-use crate::lexer::{lex, Tok, Token};
+use crate::lexer::{tokens, Tok, Token, Tokens};
 use crate::source::{FileId, Span};
 use chumsky::prelude::*;
 use chumsky::Stream;
@@ -42,6 +44,10 @@ pub const MAX_DEPTH: usize = 64;
 /// and a tree is never deeper than its token count, so this bounds their stack use; real
 /// values are a few dozen tokens long.
 pub const MAX_VALUE_TOKENS: usize = 256;
+/// Syntax errors after which the parser stops reading a file: a file with more is not a
+/// description with mistakes but something else (ten megabytes of stray names once made
+/// five million errors and took two gigabytes).
+pub const MAX_SYNTAX_ERRORS: usize = 1000;
 
 type Range = std::ops::Range<usize>;
 type ValueParser<'a> = chumsky::BoxedParser<'a, Tok, ValueParts, ParseError>;
@@ -191,63 +197,145 @@ pub struct Parsed {
 
 /// Parse one source text.
 pub fn parse(file: FileId, src: &str) -> Parsed {
-    let all = lex(src);
-    let mut comments = Vec::new();
-    let mut toks = Vec::with_capacity(all.len());
-    let mut line_has_code = false;
-    for t in &all {
-        match t.kind {
-            Tok::Comment => comments.push(Comment {
-                text: src.get(t.start..t.end).unwrap_or("").to_string(),
-                span: Span::new(file, t.start, t.end),
-                trailing: line_has_code,
-            }),
-            Tok::Newline => {
-                line_has_code = false;
-                toks.push(*t);
-            }
-            _ => {
-                line_has_code = true;
-                toks.push(*t);
-            }
-        }
-    }
     let mut p = Cursor {
         src,
         file,
-        toks,
+        toks: Vec::new(),
+        feed: Feed {
+            src,
+            file,
+            lexer: Some(tokens(src)),
+            comments: Vec::new(),
+            line_has_code: false,
+        },
         pos: 0,
         diags: Vec::new(),
+        stopped: false,
         value: value_parser(src, file),
     };
     let mut out = p.parse_file();
-    out.comments = comments;
+    out.comments = p.feed.comments;
     Parsed {
         file: out,
-        diagnostics: p.diags,
+        diagnostics: merge_repeats(src, p.diags),
+    }
+}
+
+/// The tokens the parser reads, lexed as it asks for them (so a parser that stops early
+/// never lexes the rest): comments are set aside, and a run of line ends (blank lines,
+/// comment lines) or of `;` is kept as its first, as it separates like one.
+struct Feed<'a> {
+    src: &'a str,
+    file: FileId,
+    lexer: Option<Tokens<'a>>,
+    comments: Vec<Comment>,
+    line_has_code: bool,
+}
+
+impl Feed<'_> {
+    /// The next token to keep, given the last one kept.
+    fn next(&mut self, last: Option<Tok>) -> Option<Token> {
+        loop {
+            let t = self.lexer.as_mut()?.next()?;
+            match t.kind {
+                Tok::Comment => self.comments.push(Comment {
+                    text: self.src.get(t.start..t.end).unwrap_or("").to_string(),
+                    span: Span::new(self.file, t.start, t.end),
+                    trailing: self.line_has_code,
+                }),
+                Tok::Newline | Tok::Semi => {
+                    self.line_has_code = t.kind == Tok::Semi;
+                    if last != Some(t.kind) {
+                        return Some(t);
+                    }
+                }
+                _ => {
+                    self.line_has_code = true;
+                    return Some(t);
+                }
+            }
+        }
+    }
+}
+
+/// One diagnostic for a run of identical ones on one line (a line of 10,000 stray `}` is one
+/// error, not 10,000), with the count in its message and a span over the whole run.
+fn merge_repeats(src: &str, diags: Vec<Diagnostic>) -> Vec<Diagnostic> {
+    let mut out: Vec<(Diagnostic, usize)> = Vec::with_capacity(diags.len());
+    for d in diags {
+        if let Some((last, n)) = out.last_mut() {
+            let same_line = last.span.end <= d.span.start
+                && src
+                    .get(last.span.end as usize..d.span.start as usize)
+                    .is_some_and(|between| !between.contains(['\n', '\r']));
+            if same_line
+                && last.rule == d.rule
+                && last.message == d.message
+                && last.help == d.help
+                && last.notes == d.notes
+                && last.labels.is_empty()
+                && d.labels.is_empty()
+            {
+                last.span = last.span.join(d.span);
+                *n += 1;
+                continue;
+            }
+        }
+        out.push((d, 1));
+    }
+    out.into_iter()
+        .map(|(mut d, n)| {
+            if n > 1 {
+                d.message = repeated(&d.message, n);
+            }
+            d
+        })
+        .collect()
+}
+
+/// A message for `n` errors in a row on one line.
+fn repeated(message: &str, n: usize) -> String {
+    if n > 1 {
+        format!("{message} ({n} times in a row on this line)")
+    } else {
+        message.to_string()
     }
 }
 
 struct Cursor<'a> {
     src: &'a str,
     file: FileId,
+    /// The tokens read so far; `pos` indexes them.
     toks: Vec<Token>,
+    feed: Feed<'a>,
     pos: usize,
     diags: Vec<Diagnostic>,
+    /// Set when the parser stopped reading after too many syntax errors.
+    stopped: bool,
     value: ValueParser<'a>,
 }
 
 impl<'a> Cursor<'a> {
-    fn peek(&self) -> Option<Tok> {
-        self.toks.get(self.pos).map(|t| t.kind)
-    }
-
-    fn peek_token(&self) -> Option<Token> {
+    /// The token at `pos`, lexed now if it has not been.
+    fn current(&mut self) -> Option<Token> {
+        if self.pos >= self.toks.len() {
+            let last = self.toks.last().map(|t| t.kind);
+            let t = self.feed.next(last)?;
+            self.toks.push(t);
+        }
         self.toks.get(self.pos).copied()
     }
 
-    fn span_here(&self) -> Span {
-        match self.toks.get(self.pos) {
+    fn peek(&mut self) -> Option<Tok> {
+        self.current().map(|t| t.kind)
+    }
+
+    fn peek_token(&mut self) -> Option<Token> {
+        self.current()
+    }
+
+    fn span_here(&mut self) -> Span {
+        match self.current() {
             Some(t) => Span::new(self.file, t.start, t.end),
             None => Span::new(self.file, self.src.len(), self.src.len()),
         }
@@ -265,7 +353,7 @@ impl<'a> Cursor<'a> {
     }
 
     fn bump(&mut self) -> Option<Token> {
-        let t = self.toks.get(self.pos).copied();
+        let t = self.current();
         if t.is_some() {
             self.pos += 1;
         }
@@ -284,6 +372,25 @@ impl<'a> Cursor<'a> {
         while matches!(self.peek(), Some(Tok::Newline | Tok::Semi)) {
             self.pos += 1;
         }
+        if !self.stopped && self.diags.len() >= MAX_SYNTAX_ERRORS && self.peek().is_some() {
+            self.stop();
+        }
+    }
+
+    /// Stop reading: one last error where the parser stopped, then the end of the input.
+    fn stop(&mut self) {
+        let span = self.span_here();
+        self.diags.push(
+            Diagnostic::new(
+                Rule::Syntax,
+                span,
+                format!("{MAX_SYNTAX_ERRORS} syntax errors: the file is not read past this point"),
+            )
+            .with_help("fix the errors above (or check that this is a Syzygy file) and run again"),
+        );
+        self.stopped = true;
+        self.feed.lexer = None;
+        self.pos = self.toks.len();
     }
 
     fn error(&mut self, span: Span, message: impl Into<String>) {
@@ -291,7 +398,7 @@ impl<'a> Cursor<'a> {
             .push(Diagnostic::new(Rule::Syntax, span, message.into()));
     }
 
-    fn found(&self) -> String {
+    fn found(&mut self) -> String {
         match self.peek_token() {
             None => "end of file".to_string(),
             Some(t) => match t.kind {
@@ -374,9 +481,14 @@ impl<'a> Cursor<'a> {
                     }
                 }
                 Some(Tok::RBrace) => {
-                    let span = self.span_here();
-                    self.error(span, "unmatched '}'");
-                    self.pos += 1;
+                    // A run of them is one error (see `merge_repeats`).
+                    let first = self.span_here();
+                    let mut n = 0usize;
+                    while self.eat(Tok::RBrace).is_some() {
+                        n += 1;
+                    }
+                    let span = first.join(Span::new(self.file, self.prev_end(), self.prev_end()));
+                    self.error(span, repeated("unmatched '}'", n));
                 }
                 Some(Tok::StarKw | Tok::Planet) => {
                     let span = self.span_here();
@@ -454,6 +566,7 @@ impl<'a> Cursor<'a> {
         loop {
             self.skip_separators();
             match self.peek() {
+                None if self.stopped => break,
                 None => {
                     let span = Span::new(self.file, start, self.src.len());
                     self.diags.push(
@@ -560,6 +673,7 @@ impl<'a> Cursor<'a> {
         loop {
             self.skip_separators();
             match self.peek() {
+                None if self.stopped => break,
                 None => {
                     self.diags.push(
                         Diagnostic::new(Rule::Syntax, body.name.span, "this body is never closed")

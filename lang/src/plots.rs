@@ -55,6 +55,12 @@ pub fn mass_radius_points(analyses: &[Analysis]) -> (Vec<PlanetPoint>, Vec<Strin
                     left_out.push(format!("{label}: a limit, not a value"));
                     continue;
                 }
+                if !(m.value.is_finite() && rad.value.is_finite()) {
+                    left_out.push(format!(
+                        "{label}: the mass or the radius is not a finite number"
+                    ));
+                    continue;
+                }
                 points.push(PlanetPoint {
                     label,
                     mass: m.value / M_EARTH,
@@ -89,6 +95,8 @@ pub struct ModelCurve {
     /// The inputs used, as `name = value` lines for the plot.
     pub inputs: Vec<String>,
     pub assumptions: Vec<String>,
+    /// What the curve leaves out and why (model values that are not finite numbers).
+    pub left_out: Vec<String>,
 }
 
 const DRAWS_RV: usize = 1000;
@@ -199,25 +207,55 @@ fn percentiles(mut v: Vec<f64>) -> Option<(f64, f64, f64)> {
     Some((q(0.5), q(0.158_655), q(0.841_345)))
 }
 
-fn band(x: Vec<f64>, per_point: impl Fn(f64) -> Vec<f64>) -> Result<Band, String> {
+/// The band over `x` of the values `per_point` gives from `draws` draws, and what it left
+/// out (values that are not finite numbers, and draws the model had no value for).
+fn band(
+    x: Vec<f64>,
+    draws: usize,
+    per_point: impl Fn(f64) -> Vec<f64>,
+) -> Result<(Band, Vec<String>), String> {
     let mut b = Band {
         x: Vec::with_capacity(x.len()),
         median: Vec::new(),
         low: Vec::new(),
         high: Vec::new(),
     };
+    let (mut computed, mut no_value, mut not_finite, mut empty) = (0usize, 0, 0, 0);
     for xi in x {
-        if let Some((m, lo, hi)) = percentiles(per_point(xi)) {
-            b.x.push(xi);
-            b.median.push(m);
-            b.low.push(lo);
-            b.high.push(hi);
+        let values = per_point(xi);
+        computed += draws;
+        no_value += draws.saturating_sub(values.len());
+        not_finite += values.iter().filter(|v| !v.is_finite()).count();
+        match percentiles(values) {
+            Some((m, lo, hi)) => {
+                b.x.push(xi);
+                b.median.push(m);
+                b.low.push(lo);
+                b.high.push(hi);
+            }
+            None => empty += 1,
         }
     }
     if b.x.is_empty() {
         return Err("the model has no finite value for these inputs".to_string());
     }
-    Ok(b)
+    let mut left_out = Vec::new();
+    if not_finite > 0 {
+        left_out.push(format!(
+            "{not_finite} of {computed} model values (draws × times) are not finite numbers and are left out of the band"
+        ));
+    }
+    if no_value > 0 {
+        left_out.push(format!(
+            "for {no_value} of {computed} draws × times the model has no value; they are left out of the band"
+        ));
+    }
+    if empty > 0 {
+        left_out.push(format!(
+            "{empty} times with no finite model value are left out of the curve"
+        ));
+    }
+    Ok((b, left_out))
 }
 
 const BAND_WORDS: &str = "band: 16th–84th percentiles of Monte Carlo draws of the inputs, drawn independently (correlations between them ignored); curve: their median";
@@ -251,7 +289,7 @@ pub fn rv_curve(a: &Analysis, sys: usize, body: usize) -> Result<ModelCurve, Str
     let xs: Vec<f64> = (0..=240)
         .map(|i| period * (f64::from(i) / 240.0 - 0.5))
         .collect();
-    let band = band(xs, |t| {
+    let (band, left_out) = band(xs, n, |t| {
         orbits
             .iter()
             .filter_map(|(o, k)| o.radial_velocity(t, *k))
@@ -267,6 +305,7 @@ pub fn rv_curve(a: &Analysis, sys: usize, body: usize) -> Result<ModelCurve, Str
         band,
         inputs: inp.shown,
         assumptions,
+        left_out,
     })
 }
 
@@ -329,7 +368,7 @@ pub fn transit_curve(
     let xs: Vec<f64> = (0..=200)
         .map(|i| half * (2.0 * f64::from(i) / 200.0 - 1.0))
         .collect();
-    let band = band(xs, |t| {
+    let (band, left_out) = band(xs, draws.len(), |t| {
         draws
             .iter()
             .filter_map(|d| {
@@ -365,6 +404,7 @@ pub fn transit_curve(
             band,
             inputs: inp.shown,
             assumptions,
+            left_out,
         },
         ld,
     ))
@@ -401,6 +441,32 @@ mod tests {
             .position(|x| (*x + 1.0).abs() < 1e-9)
             .unwrap();
         assert!(c.band.median[quarter] > 55.0);
+    }
+
+    #[test]
+    fn model_values_that_are_not_finite_are_left_out_and_said() {
+        // An uncertainty near the largest float: with an eccentric orbit some velocities
+        // overflow.
+        let src = SRC.replace("60 ± 3 m/s", "12.5 ± 1e308 m/s\n    eccentricity < 0.3");
+        let a = analysis(&src);
+        let c = rv_curve(&a, 0, 1).unwrap();
+        let b = &c.band;
+        assert!(b
+            .low
+            .iter()
+            .chain(&b.median)
+            .chain(&b.high)
+            .all(|v| v.is_finite()));
+        assert!(
+            c.left_out.iter().any(|l| l.contains("not finite numbers")),
+            "{:?}",
+            c.left_out
+        );
+        // An ordinary curve leaves nothing out.
+        assert_eq!(
+            rv_curve(&analysis(SRC), 0, 1).unwrap().left_out,
+            Vec::<String>::new()
+        );
     }
 
     #[test]

@@ -106,13 +106,18 @@ pub fn systems_json<'a>(a: &'a Analysis, db: &'a dyn SourceDb) -> Vec<json::Syst
         .collect()
 }
 
-/// Diagnostics of one analysed file, in the documented shape.
-pub fn diagnostics_json(a: &Analysis, db: &dyn SourceDb) -> Vec<json::Diagnostic> {
+/// The diagnostics shown of one analysed file (the first [`crate::shown::PER_FILE`]), in
+/// the documented shape, and how many more it has.
+pub fn diagnostics_json(a: &Analysis, db: &dyn SourceDb) -> (Vec<json::Diagnostic>, usize) {
+    let (shown, left_out) = crate::shown::split(&a.diagnostics);
     let places = Places::new(db, a.file);
-    a.diagnostics
-        .iter()
-        .map(|d| json::Diagnostic::new(d, &places))
-        .collect()
+    (
+        shown
+            .iter()
+            .map(|d| json::Diagnostic::new(d, &places))
+            .collect(),
+        left_out,
+    )
 }
 
 /// A value in SI as people read it in `unit`: `0.0443 ± 0.0006 au`, `< 0.08`. The one

@@ -100,31 +100,63 @@ pub struct LineCol {
     pub column: u32,
 }
 
-/// Byte offsets of line starts, for turning spans into positions and back.
+/// Byte offsets of line starts, for turning spans into positions and back. Offsets are
+/// `u32`, as in spans: half the memory for a file of many short lines.
 #[derive(Debug, Clone)]
 pub struct LineIndex {
-    starts: Vec<usize>,
+    starts: Vec<u32>,
     len: usize,
 }
 
 impl LineIndex {
+    /// How many lines the text has (an empty text has one).
+    pub fn line_count(&self) -> usize {
+        self.starts.len()
+    }
+
+    /// A line ends at `\n`, `\r\n` or a lone `\r` (old Mac files), as in the lexer.
     pub fn new(text: &str) -> LineIndex {
         let mut starts = vec![0];
-        starts.extend(text.match_indices('\n').map(|(i, _)| i + 1));
+        let bytes = text.as_bytes();
+        for (i, b) in bytes.iter().enumerate() {
+            let ends = match b {
+                b'\n' => true,
+                b'\r' => bytes.get(i + 1) != Some(&b'\n'),
+                _ => false,
+            };
+            if ends {
+                starts.push(clamp_u32(i + 1));
+            }
+        }
         LineIndex {
             starts,
             len: text.len(),
         }
     }
 
+    /// The 0-based line holding `offset` (clamped to the text).
+    pub fn line_at(&self, offset: usize) -> usize {
+        self.line_of(offset).0
+    }
+
+    /// The byte range of 0-based `line` without its line break; `None` past the last line.
+    pub fn line_span(&self, text: &str, line: usize) -> Option<std::ops::Range<usize>> {
+        let start = *self.starts.get(line)? as usize;
+        let end = match self.starts.get(line + 1).map(|&n| n as usize) {
+            Some(next) => next - line_break_before(text, next),
+            None => text.len(),
+        };
+        Some(start..end.max(start))
+    }
+
     /// The 0-based line holding `offset` and that line's start offset.
     fn line_of(&self, offset: usize) -> (usize, usize) {
         let offset = offset.min(self.len);
-        let line = match self.starts.binary_search(&offset) {
+        let line = match self.starts.binary_search(&clamp_u32(offset)) {
             Ok(l) => l,
             Err(l) => l.saturating_sub(1),
         };
-        (line, self.starts.get(line).copied().unwrap_or(0))
+        (line, self.starts.get(line).map_or(0, |&s| s as usize))
     }
 
     /// 1-based line and character column of a byte offset.
@@ -157,13 +189,9 @@ impl LineIndex {
     /// The byte offset of a 0-based line and UTF-16 column; positions past the end of a line
     /// or of the file are clamped, as the protocol asks.
     pub fn offset_of_utf16(&self, text: &str, line: u32, col: u32) -> usize {
-        let Some(&start) = self.starts.get(line as usize) else {
+        let Some(std::ops::Range { start, end }) = self.line_span(text, line as usize) else {
             return text.len();
         };
-        let end = self
-            .starts
-            .get(line as usize + 1)
-            .map_or(text.len(), |&e| e.saturating_sub(1));
         let mut units = 0usize;
         for (i, ch) in text.get(start..end).unwrap_or("").char_indices() {
             if units >= col as usize {
@@ -176,13 +204,9 @@ impl LineIndex {
 
     /// The byte offset of a 0-based line and UTF-8 column, clamped like the UTF-16 form.
     pub fn offset_of_utf8(&self, text: &str, line: u32, col: u32) -> usize {
-        let Some(&start) = self.starts.get(line as usize) else {
+        let Some(std::ops::Range { start, end }) = self.line_span(text, line as usize) else {
             return text.len();
         };
-        let end = self
-            .starts
-            .get(line as usize + 1)
-            .map_or(text.len(), |&e| e.saturating_sub(1));
         floor_char_boundary(text, (start + col as usize).min(end))
     }
 }
@@ -223,6 +247,41 @@ impl<'a> Places<'a> {
     }
 }
 
+/// The length of the line break (`\n`, `\r\n` or `\r`) that ends just before `offset`.
+fn line_break_before(text: &str, offset: usize) -> usize {
+    let b = text.as_bytes();
+    match (
+        offset.checked_sub(2).and_then(|i| b.get(i)),
+        offset.checked_sub(1).and_then(|i| b.get(i)),
+    ) {
+        (Some(b'\r'), Some(b'\n')) => 2,
+        (_, Some(b'\n' | b'\r')) => 1,
+        _ => 0,
+    }
+}
+
+/// The line break a text uses (its first one), `\n` when it has none; edits that add lines
+/// use it so a file keeps one convention.
+pub fn line_break_of(text: &str) -> &'static str {
+    match text
+        .find(['\n', '\r'])
+        .and_then(|i| text.as_bytes().get(i..))
+    {
+        Some([b'\r', b'\n', ..]) => "\r\n",
+        Some([b'\r', ..]) => "\r",
+        _ => "\n",
+    }
+}
+
+/// How many line breaks `text` holds (`\r\n` counts once, a lone `\r` counts).
+pub fn count_line_breaks(text: &str) -> usize {
+    let b = text.as_bytes();
+    b.iter()
+        .enumerate()
+        .filter(|(i, c)| **c == b'\n' || (**c == b'\r' && b.get(i + 1) != Some(&b'\n')))
+        .count()
+}
+
 fn floor_char_boundary(text: &str, mut offset: usize) -> usize {
     while offset > 0 && !text.is_char_boundary(offset) {
         offset -= 1;
@@ -242,6 +301,29 @@ mod tests {
         assert_eq!(idx.line_col(text, b), LineCol { line: 1, column: 5 });
         let s = text.find("second").unwrap_or(0);
         assert_eq!(idx.line_col(text, s), LineCol { line: 2, column: 1 });
+    }
+
+    #[test]
+    fn every_line_break_convention_starts_a_line() {
+        // "\r\n" is one break; a lone "\r" (old Mac files) is one too.
+        let text = "a\nb\r\nc\rd";
+        let idx = LineIndex::new(text);
+        assert_eq!(idx.line_count(), 4);
+        let d = text.find('d').unwrap_or(0);
+        assert_eq!(idx.line_col(text, d), LineCol { line: 4, column: 1 });
+        let spans: Vec<&str> = (0..4)
+            .filter_map(|l| idx.line_span(text, l).and_then(|r| text.get(r)))
+            .collect();
+        assert_eq!(spans, ["a", "b", "c", "d"]);
+        // A position past the end of a line is clamped before its line break.
+        assert_eq!(
+            idx.offset_of_utf16(text, 1, 99),
+            text.find("\r\n").unwrap_or(0)
+        );
+        assert_eq!(count_line_breaks(text), 3);
+        assert_eq!(line_break_of(text), "\n");
+        assert_eq!(line_break_of("x\r\ny\n"), "\r\n");
+        assert_eq!(line_break_of("x\ry"), "\r");
     }
 
     #[test]

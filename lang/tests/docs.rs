@@ -222,14 +222,20 @@ fn json_doc_mentions_every_field_of_the_real_eval_output() {
         version: syzygy::report::JSON_VERSION,
         options: json::Options::new(&options),
     };
+    let not_shown = [json::NotShown {
+        file: "a.syz".to_string(),
+        count: 1,
+    }];
     let tail = json::EvalTail {
         diagnostics: &[],
+        diagnostics_not_shown: &not_shown,
         io_errors: &[],
     };
     let check = json::CheckDocument {
         version: syzygy::report::JSON_VERSION,
         files: 1,
         diagnostics: &[],
+        diagnostics_not_shown: &not_shown,
         io_errors: &[],
         summary: json::Summary {
             errors: 0,

@@ -8,6 +8,31 @@ use syzygy::ide::outline::{Node, NodeKind, TokenClass};
 use tower_lsp::lsp_types as lsp;
 use tower_lsp::lsp_types::Url;
 
+/// The diagnostics published for a file: the first `syzygy::shown::PER_FILE`, then one
+/// of severity information, where the first one left out is, counting the rest.
+pub fn diagnostics(
+    all: &[Diagnostic],
+    snap: &Snapshot,
+    uri: &Url,
+    enc: Encoding,
+) -> Vec<lsp::Diagnostic> {
+    let (shown, left_out) = syzygy::shown::split(all);
+    let mut out: Vec<lsp::Diagnostic> = shown
+        .iter()
+        .map(|d| diagnostic(d, snap, uri, enc))
+        .collect();
+    if let Some(first) = all.get(shown.len()) {
+        out.push(lsp::Diagnostic {
+            range: snap.range(first.span, enc),
+            severity: Some(lsp::DiagnosticSeverity::INFORMATION),
+            source: Some("syzygy".to_string()),
+            message: syzygy::shown::rest_words(left_out),
+            ..lsp::Diagnostic::default()
+        });
+    }
+    out
+}
+
 pub fn diagnostic(d: &Diagnostic, snap: &Snapshot, uri: &Url, enc: Encoding) -> lsp::Diagnostic {
     let mut message = d.message.clone();
     for n in &d.notes {

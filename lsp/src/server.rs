@@ -66,11 +66,7 @@ impl Backend {
                 return;
             }
             let enc = state.enc();
-            let diags = analysis
-                .diagnostics
-                .iter()
-                .map(|d| convert::diagnostic(d, &snap, &uri, enc))
-                .collect();
+            let diags = convert::diagnostics(&analysis.diagnostics, &snap, &uri, enc);
             client
                 .publish_diagnostics(uri, diags, Some(snap.version))
                 .await;

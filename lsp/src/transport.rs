@@ -7,7 +7,12 @@
 //! - one message that is not JSON, or not JSON-RPC, ends its input stream for good, so the
 //!   filter never forwards one: a malformed request with an id becomes a request for a method
 //!   that does not exist (answered with an error for that id), anything else is dropped with
-//!   a line on stderr.
+//!   a line on stderr;
+//! - it leaves requests whose method starts with `$/` unanswered when it has no handler for
+//!   them (the protocol asks for a MethodNotFound error, -32601, for a request; only such
+//!   notifications may be ignored), so the filter renames every `$/` request (tower-lsp
+//!   handles none: the protocol's `$/` methods are notifications) to a method that does not
+//!   exist, which tower-lsp answers with MethodNotFound.
 
 use serde_json::Value;
 use std::sync::atomic::{AtomicBool, Ordering};
@@ -26,6 +31,10 @@ pub struct Seen {
 
 /// The method name the filter forwards in place of a malformed request.
 pub const INVALID_METHOD: &str = "syzygy/invalidRequest";
+
+/// Put before the method of a `$/` request, so tower-lsp answers it with MethodNotFound
+/// (whose `data` then names the method) instead of leaving it unanswered.
+pub const UNHANDLED_PREFIX: &str = "syzygy/unhandled:";
 
 /// Copy framed messages from `input` to `output`, rewriting as described in the module
 /// doc. Returns at end of input or right after forwarding `exit`; dropping `output` then
@@ -137,9 +146,15 @@ fn rewrite(body: &[u8], seen: &Seen) -> Option<(Vec<u8>, bool)> {
         let replaced = serde_json::json!({"jsonrpc": "2.0", "id": id, "method": INVALID_METHOD});
         return Some((replaced.to_string().into_bytes(), false));
     }
-    let method = method.flatten().unwrap_or("");
+    let method = method.flatten().unwrap_or("").to_string();
     if method == "shutdown" {
         seen.shutdown.store(true, Ordering::SeqCst);
+    }
+    if method.starts_with("$/") && obj.contains_key("id") {
+        obj.insert(
+            "method".into(),
+            Value::String(format!("{UNHANDLED_PREFIX}{method}")),
+        );
     }
     let is_exit = method == "exit";
     Some((Value::Object(obj).to_string().into_bytes(), is_exit))
@@ -177,6 +192,21 @@ mod tests {
         assert!(out.contains(r#""method":"exit""#));
         assert!(!out.contains("never/read"), "input after exit is not read");
         assert!(seen.shutdown.load(Ordering::SeqCst) && seen.exit.load(Ordering::SeqCst));
+    }
+
+    #[tokio::test]
+    async fn dollar_requests_are_renamed_and_dollar_notifications_left_alone() {
+        let input = [
+            frame(r#"{"jsonrpc":"2.0","id":3,"method":"$/syzygy/unknown","params":{}}"#),
+            frame(r#"{"jsonrpc":"2.0","method":"$/cancelRequest","params":{"id":1}}"#),
+        ]
+        .concat();
+        let (out, _) = run(input).await;
+        assert!(
+            out.contains(r#""method":"syzygy/unhandled:$/syzygy/unknown""#),
+            "{out}"
+        );
+        assert!(out.contains(r#""method":"$/cancelRequest""#), "{out}");
     }
 
     #[tokio::test]

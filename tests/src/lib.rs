@@ -52,6 +52,53 @@ pub fn run(args: &[&str]) -> Output {
         .expect("syz could not be started")
 }
 
+/// Start `syz` like [`run`], with standard output and error piped to the test.
+pub fn start(args: &[&str]) -> std::process::Child {
+    Command::new(syz())
+        .args(args)
+        .current_dir(root())
+        .env("NO_COLOR", "1")
+        .stdin(Stdio::null())
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .expect("syz could not be started")
+}
+
+/// Run `syz` like [`run`], but fail the test (after killing it) if it has not ended within
+/// `limit`: for inputs that once made it wait for ever.
+pub fn run_bounded(args: &[&str], limit: std::time::Duration) -> Output {
+    let mut child = start(args);
+    let drain = |r: Option<Box<dyn std::io::Read + Send>>| {
+        std::thread::spawn(move || {
+            let mut buf = Vec::new();
+            if let Some(mut r) = r {
+                let _ = r.read_to_end(&mut buf);
+            }
+            buf
+        })
+    };
+    let out = drain(child.stdout.take().map(|s| Box::new(s) as _));
+    let err = drain(child.stderr.take().map(|s| Box::new(s) as _));
+    let deadline = std::time::Instant::now() + limit;
+    let status = loop {
+        if let Some(status) = child.try_wait().unwrap() {
+            break status;
+        }
+        if std::time::Instant::now() > deadline {
+            let _ = child.kill();
+            let _ = child.wait();
+            panic!("syz {args:?} did not end within {limit:?}");
+        }
+        std::thread::sleep(std::time::Duration::from_millis(20));
+    };
+    Output {
+        status,
+        stdout: out.join().unwrap(),
+        stderr: err.join().unwrap(),
+    }
+}
+
 pub fn stdout(o: &Output) -> String {
     String::from_utf8_lossy(&o.stdout).into_owned()
 }

@@ -439,6 +439,55 @@ fn malformed_input_and_odd_requests_never_stop_the_server() {
 }
 
 #[test]
+fn a_file_with_hundreds_of_errors_publishes_the_first_200_and_a_count() {
+    let uri = "file:///tmp/errant.syz";
+    let mut text = String::from("system \"Errant\" {\n  star e {\n");
+    for i in 0..600 {
+        text.push_str(&format!("    = {i} Msun\n"));
+    }
+    text.push_str("  }\n}\n");
+    let mut c = LspClient::start();
+    c.initialize(json!({}));
+    c.open(uri, &text);
+    let d = c.diagnostics(uri, Some(1));
+    let list = d["diagnostics"].as_array().unwrap();
+    assert_eq!(list.len(), 201);
+    let last = &list[200];
+    assert_eq!(last["severity"], 3, "{last}");
+    assert!(
+        last["message"]
+            .as_str()
+            .unwrap()
+            .starts_with("400 more diagnostics in this file not shown"),
+        "{last}"
+    );
+    // It sits where the first diagnostic left out is.
+    assert_eq!(last["range"]["start"]["line"], 202, "{last}");
+}
+
+#[test]
+fn unhandled_dollar_requests_get_method_not_found() {
+    let (uri, text) = veyra();
+    let mut c = LspClient::start();
+    c.initialize(json!({}));
+    c.open(&uri, &text);
+    c.diagnostics(&uri, Some(1));
+    // A request (with an id) the server does not handle must be answered, `$/` or not.
+    for method in ["$/syzygy/unknown", "$/progress", "$/cancelRequest"] {
+        let r = c.request(method, json!({"id": 1}));
+        assert_eq!(r["error"]["code"], -32601, "{method}: {r}");
+        let data = r["error"]["data"].as_str().unwrap_or("");
+        assert!(data.ends_with(method), "{method}: {r}");
+    }
+    // `$/` notifications are ignored quietly, and the server goes on answering.
+    c.notify("$/syzygy/somethingNew", json!({}));
+    c.notify("$/cancelRequest", json!({"id": 9999}));
+    let h = hover_text(&mut c, &uri, position_of(&text, "teff", 0));
+    assert!(h.contains("Effective temperature"), "{h}");
+    assert_eq!(c.shutdown_and_exit().and_then(|s| s.code()), Some(0));
+}
+
+#[test]
 fn exit_without_shutdown_ends_with_status_1() {
     let mut c = LspClient::start();
     c.initialize(json!({}));

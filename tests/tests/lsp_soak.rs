@@ -67,7 +67,7 @@ const REQUESTS: &[&str] = &[
     "textDocument/codeAction",
     "textDocument/inlayHint",
     "textDocument/semanticTokens/full",
-    // "$/syzygy/unknown",
+    "$/syzygy/unknown",
     "syzygy/unknown",
 ];
 

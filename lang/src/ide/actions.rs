@@ -7,7 +7,7 @@ use crate::derive::{display_unit, Origin};
 use crate::diagnostic::{Diagnostic, Rule};
 use crate::model::{Content, Form};
 use crate::quantities;
-use crate::source::Span;
+use crate::source::{line_break_of, Span};
 use crate::Analysis;
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -75,7 +75,7 @@ fn silence(a: &Analysis, src: &str, d: &Diagnostic, i: usize) -> Action {
         let indent: String = line.chars().take_while(|c| c.is_whitespace()).collect();
         (
             Span::new(a.file, start, start),
-            format!("{indent}{comment}\n"),
+            format!("{indent}{comment}{}", line_break_of(src)),
         )
     } else {
         (Span::new(a.file, end, end), format!("  {comment}"))
@@ -145,7 +145,7 @@ fn declare_derived(a: &Analysis, src: &str, offset: usize) -> Vec<Action> {
         } else {
             (
                 Span::new(a.file, line_start, line_start),
-                format!("{base_indent}  {stmt}\n"),
+                format!("{base_indent}  {stmt}{}", line_break_of(src)),
             )
         };
         out.push(Action {

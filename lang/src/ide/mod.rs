@@ -51,11 +51,11 @@ pub(crate) fn line_bounds(src: &str, offset: usize) -> (usize, usize) {
     let offset = offset.min(src.len());
     let start = src
         .get(..offset)
-        .and_then(|s| s.rfind('\n'))
+        .and_then(|s| s.rfind(['\n', '\r']))
         .map_or(0, |i| i + 1);
     let end = src
         .get(offset..)
-        .and_then(|s| s.find('\n'))
+        .and_then(|s| s.find(['\n', '\r']))
         .map_or(src.len(), |i| offset + i);
     (start, end)
 }

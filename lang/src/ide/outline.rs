@@ -101,7 +101,7 @@ pub fn folding(file: &ast::File, src: &str) -> Vec<Span> {
     let mut out = Vec::new();
     let multiline = |s: Span| {
         src.get(s.range())
-            .is_some_and(|t| t.trim_end().contains('\n'))
+            .is_some_and(|t| t.trim_end().contains(['\n', '\r']))
     };
     for s in &file.systems {
         if multiline(s.span) {
@@ -127,9 +127,7 @@ pub fn folding(file: &ast::File, src: &str) -> Vec<Span> {
                 let between = src
                     .get(last.end as usize..c.span.start as usize)
                     .unwrap_or("");
-                if between.chars().filter(|ch| *ch == '\n').count() == 1
-                    && between.trim().is_empty()
-                {
+                if crate::source::count_line_breaks(between) == 1 && between.trim().is_empty() {
                     run = Some((first, c.span));
                 } else {
                     push_run(&mut run, &mut out);

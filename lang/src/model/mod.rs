@@ -376,22 +376,26 @@ fn lower_props(
     diags: &mut Vec<Diagnostic>,
 ) -> Vec<Declared> {
     let mut out: Vec<Declared> = Vec::new();
+    // Every quantity written, even one whose value was refused: a second declaration is a
+    // duplicate whether or not the first could be read.
+    let mut seen: FxHashMap<Qty, Span> = FxHashMap::default();
     for p in &b.props {
         let Some(def) = quantities::find(b.kind, &p.name.name) else {
             diags.push(value::unknown_quantity(b.kind, &p.name));
             continue;
         };
-        if let Some(prev) = out.iter().find(|d| d.qty == def.qty) {
+        if let Some(prev) = seen.get(&def.qty) {
             diags.push(
                 Diagnostic::new(
                     Rule::Duplicate,
                     p.name.span,
                     format!("'{}' of '{}' is declared twice", def.name, b.name.name),
                 )
-                .with_label(prev.name_span, "first declared here"),
+                .with_label(*prev, "first declared here"),
             );
             continue;
         }
+        seen.insert(def.qty, p.name.span);
         let mut citations = Vec::new();
         for c in &p.citations {
             if refs.iter().any(|r| r.id == c.name) {

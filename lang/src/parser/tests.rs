@@ -17,6 +17,7 @@ fn read_directly(src: &str) -> usize {
     let _ = parse(FileId(0), src);
     PLAIN_MEASUREMENTS.with(Cell::get) - before
 }
+use crate::lexer::lex;
 
 fn parse_ok(src: &str) -> File {
     let p = parse(FileId(0), src);
@@ -296,4 +297,68 @@ fn the_fast_path_leaves_expressions_and_malformed_values_to_the_grammar() {
         let src = format!("system \"S\" {{ star s {{ x = {value} }} }}");
         assert_eq!(read_directly(&src), 0, "{value}: the fast path read it");
     }
+}
+
+#[test]
+fn a_run_of_one_error_on_a_line_is_reported_once() {
+    let src = format!("{}{}\n}}\n", "{".repeat(1000), "}".repeat(1000));
+    let p = parse(FileId(0), &src);
+    let msgs: Vec<&str> = p.diagnostics.iter().map(|d| d.message.as_str()).collect();
+    assert_eq!(
+        msgs,
+        [
+            "expected 'system' or 'ref', found '{'",
+            "unmatched '}' (999 times in a row on this line)",
+            "unmatched '}'",
+        ]
+    );
+    // The merged error spans the whole run of braces.
+    let run = &p.diagnostics[1].span;
+    assert_eq!((run.start, run.end), (1001, 2000));
+}
+
+#[test]
+fn old_mac_line_ends_separate_properties() {
+    // Lone carriage returns end lines: two properties and a comment, not one comment line.
+    let src =
+        "# invented\rsystem \"S\" {\r  star s {\r    mass = 1 Msun\r    radius = 1 Rsun\r  }\r}\r";
+    let f = parse_ok(src);
+    assert_eq!(f.comments.len(), 1);
+    assert_eq!(f.systems[0].bodies[0].props.len(), 2);
+    let bad = "system \"S\" {\r  star s {\r    mass = = 1 Msun\r  }\r}\r";
+    assert_eq!(messages(bad).len(), 1, "{:?}", messages(bad));
+}
+
+#[test]
+fn parsing_stops_after_too_many_syntax_errors() {
+    for src in [
+        "a\n".repeat(5000),
+        format!(
+            "system \"S\" {{\n  star s {{\n{}",
+            "    = 1 Msun\n".repeat(5000)
+        ),
+    ] {
+        let p = parse(FileId(0), &src);
+        assert_eq!(p.diagnostics.len(), MAX_SYNTAX_ERRORS + 1, "{src:.40}");
+        let last = p.diagnostics.last().unwrap();
+        assert!(
+            last.message.contains("not read past this point"),
+            "{}",
+            last.message
+        );
+        // It stopped on the line after the last error counted.
+        let line = |offset: u32| src[..offset as usize].matches('\n').count();
+        let counted = &p.diagnostics[MAX_SYNTAX_ERRORS - 1];
+        assert_eq!(line(last.span.start), line(counted.span.start) + 1);
+        assert!(!p
+            .diagnostics
+            .iter()
+            .any(|d| d.message.contains("never closed")));
+    }
+    // Runs of ';' cost one token, and a run of '}' is one error, however long.
+    let p = parse(
+        FileId(0),
+        &format!("{}\n{}\n", ";".repeat(100_000), "}".repeat(5000)),
+    );
+    assert_eq!(p.diagnostics.len(), 1);
 }

@@ -27,6 +27,7 @@ pub struct CheckDocument<'a> {
     pub version: u32,
     pub files: usize,
     pub diagnostics: &'a [Diagnostic],
+    pub diagnostics_not_shown: &'a [NotShown],
     pub io_errors: &'a [String],
     pub summary: Summary,
 }
@@ -53,7 +54,16 @@ pub struct EvalHead {
 #[derive(Debug, Serialize)]
 pub struct EvalTail<'a> {
     pub diagnostics: &'a [Diagnostic],
+    pub diagnostics_not_shown: &'a [NotShown],
     pub io_errors: &'a [String],
+}
+
+/// A file whose diagnostics were not all listed (only the first
+/// [`crate::shown::PER_FILE`] are), and how many were left out.
+#[derive(Debug, Serialize)]
+pub struct NotShown {
+    pub file: String,
+    pub count: usize,
 }
 
 /// The engine settings that produced the numbers.
