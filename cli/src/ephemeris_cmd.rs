@@ -57,23 +57,14 @@ pub fn run(args: &Args, flags: &syzygy::settings::Layer, read: files::ReadArgs) 
         }
         None => now_jd(),
     };
-    let loaded = files::load(std::slice::from_ref(&args.file), read);
-    if !loaded.errors.is_empty() {
-        files::report_io_errors(&loaded.errors);
-        return 2;
-    }
-    let analyses = match files::analyze_all(&loaded.db, flags) {
-        Ok(a) => a,
-        Err(e) => {
-            eprintln!("syz: error: {e}");
+    let one = match files::one_body(&args.file, args.system.as_deref(), &args.body, flags, read) {
+        Ok(one) => one,
+        Err((_, e)) => {
+            eprintln!("syz: {e}");
             return 2;
         }
     };
-    let Some(a) = analyses.first() else { return 2 };
-    let Some((si, bi)) = syzygy::report::find_body(a, args.system.as_deref(), &args.body) else {
-        eprintln!("syz: no body '{}' in {}", args.body, args.file.display());
-        return 2;
-    };
+    let (a, si, bi) = (&one.analysis, one.system, one.body);
     let eph = match Ephemeris::of(a, si, bi) {
         Ok(e) => e,
         Err(e) => {

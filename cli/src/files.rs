@@ -353,6 +353,70 @@ pub fn report_io_errors(errors: &[String]) {
     }
 }
 
+/// Read the files named and find each one's settings (its `syzygy.toml` under the flags);
+/// `None`, after saying why, when a project file is bad.
+pub fn load_with_settings(
+    paths: &[PathBuf],
+    flags: &syzygy::settings::Layer,
+    read: ReadArgs,
+) -> Option<(Loaded, Vec<syzygy::Settings>)> {
+    let loaded = load(paths, read);
+    match crate::config_file::resolve(&loaded.db, flags) {
+        Ok(settings) => Some((loaded, settings)),
+        Err(e) => {
+            report_io_errors(&loaded.errors);
+            eprintln!("syz: error: {e}");
+            None
+        }
+    }
+}
+
+/// One file analysed under its settings, and the body a command is about.
+pub struct OneBody {
+    pub analysis: Analysis,
+    pub settings: Settings,
+    /// Indices of the system and of the body in it.
+    pub system: usize,
+    pub body: usize,
+}
+
+/// Read one file, analyse it under its project file and the flags, and find `body` (in
+/// `system`, if named): what `explain`, `plot rv|transit` and `ephemeris` start from. The
+/// error is a sentence for `syz: ...`, with the exit status it calls for (2: the file could
+/// not be read or its settings are bad; 1: no such body).
+pub fn one_body(
+    file: &Path,
+    system: Option<&str>,
+    body: &str,
+    flags: &syzygy::settings::Layer,
+    read: ReadArgs,
+) -> Result<OneBody, (u8, String)> {
+    let loaded = load(&[file.to_path_buf()], read);
+    if !loaded.errors.is_empty() {
+        let lines: Vec<String> = loaded
+            .errors
+            .iter()
+            .map(|e| format!("error: {e}"))
+            .collect();
+        return Err((2, lines.join("\nsyz: ")));
+    }
+    let settings =
+        crate::config_file::resolve(&loaded.db, flags).map_err(|e| (2, format!("error: {e}")))?;
+    let mut analyses = analyze_each(&loaded.db, &settings);
+    let (Some(analysis), Some(settings)) = (analyses.pop(), settings.into_iter().next()) else {
+        return Err((2, format!("{}: nothing to read", file.display())));
+    };
+    let Some((system, body_index)) = syzygy::report::find_body(&analysis, system, body) else {
+        return Err((1, format!("no body '{body}' in {}", file.display())));
+    };
+    Ok(OneBody {
+        analysis,
+        settings,
+        system,
+        body: body_index,
+    })
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -178,15 +178,11 @@ fn one_planet(
     flags: &Layer,
     read: files::ReadArgs,
 ) -> Result<(syzygy::Analysis, usize, usize), Stop> {
-    let loaded = files::load(&[file.to_path_buf()], read);
-    if let Some(e) = loaded.errors.first() {
-        return Err(Stop::from(e.clone()));
-    }
-    let mut analyses = files::analyze_all(&loaded.db, flags).map_err(Stop::settings)?;
-    let a = analyses.pop().ok_or("nothing to read")?;
-    let (si, bi) = syzygy::report::find_body(&a, system, body)
-        .ok_or_else(|| format!("no body '{body}' in {}", file.display()))?;
-    Ok((a, si, bi))
+    let one = files::one_body(file, system, body, flags, read).map_err(|(code, message)| Stop {
+        code: code.max(1),
+        message,
+    })?;
+    Ok((one.analysis, one.system, one.body))
 }
 
 const PALETTE: [RGBColor; 4] = [

@@ -376,6 +376,33 @@ fn escapes(s: &str) -> usize {
     n
 }
 
+/// The diagnostics shown of one file (`syzygy::shown`), rendered for people, then a line
+/// counting the rest.
+pub fn rendered_diagnostics(
+    a: &syzygy::Analysis,
+    db: &syzygy::source::MemoryDb,
+    color: bool,
+) -> String {
+    use syzygy::source::SourceDb;
+    let (shown, left_out) = syzygy::shown::split(&a.diagnostics);
+    if shown.is_empty() {
+        return String::new();
+    }
+    let index = syzygy::source::LineIndex::new(db.text(a.file));
+    let mut out: String = shown
+        .iter()
+        .map(|d| diagnostic(db, &index, d, color))
+        .collect();
+    if left_out > 0 {
+        out.push_str(&format!(
+            "note: {}: {}\n",
+            db.name(a.file),
+            syzygy::shown::rest_words(left_out)
+        ));
+    }
+    out
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

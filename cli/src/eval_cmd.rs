@@ -1,0 +1,154 @@
+//! `syz eval`: every declared and derived quantity, as text, JSON or CSV, streamed file by
+//! file with the files' diagnostics on standard error.
+
+use crate::check_cmd::NotShown;
+use crate::files::{self, load_with_settings};
+use crate::render::rendered_diagnostics;
+use crate::{csv_out, json_out, output, render, EvalFormat};
+use std::io::Write;
+use std::path::PathBuf;
+use syzygy::settings::Layer;
+use syzygy::{Options, Propagation, Settings};
+
+pub fn run(paths: &[PathBuf], format: EvalFormat, flags: &Layer, read: files::ReadArgs) -> u8 {
+    let Some((loaded, settings)) = load_with_settings(paths, flags, read) else {
+        return 2;
+    };
+    let options = settings.first().map_or_else(
+        || Settings::resolve(None, flags).options,
+        |s| s.options.clone(),
+    );
+    let db = &loaded.db;
+    let mut out = output::stdout();
+    let mut errors = false;
+    // Every format is streamed: files are analysed in parallel batches, each analysis is
+    // turned into its output on the worker and dropped, and the outputs are written in file
+    // order, so memory does not grow with the number of files.
+    match format {
+        EvalFormat::Json => {
+            let head = syzygy::report::json::EvalHead {
+                version: syzygy::report::JSON_VERSION,
+                options: syzygy::report::json::Options::new(&options),
+            };
+            let mut doc = json_out::Document::start(&mut out, &head);
+            let mut diags = Vec::new();
+            let mut not_shown = NotShown::default();
+            files::for_each_analysed(
+                db,
+                &settings,
+                |a| {
+                    let systems: Vec<String> = syzygy::report::systems_json(&a, db)
+                        .iter()
+                        .map(json_out::pretty)
+                        .collect();
+                    let diagnostics = syzygy::report::diagnostics_json(&a, db);
+                    (a.has_errors(), systems, diagnostics, a.file)
+                },
+                |(bad, systems, (d, left_out), file)| {
+                    errors |= bad;
+                    diags.extend(d);
+                    not_shown.add(db, file, left_out);
+                    for s in &systems {
+                        doc.system(s);
+                    }
+                },
+            );
+            let tail = syzygy::report::json::EvalTail {
+                diagnostics: &diags,
+                diagnostics_not_shown: &not_shown.0,
+                io_errors: &loaded.errors,
+            };
+            if let Err(e) = doc.finish(&tail) {
+                // A reader that stops early (`| head`) is not an error of ours.
+                if e.kind() != std::io::ErrorKind::BrokenPipe {
+                    eprintln!("syz: error: writing the output failed: {e}");
+                    return 2;
+                }
+            }
+        }
+        EvalFormat::Csv => {
+            let header = csv_out::header()
+                .map_err(std::io::Error::other)
+                .and_then(|h| out.write_all(&h))
+                .err();
+            let (bad, failure) =
+                stream_per_file(db, &settings, &mut out, render::stderr_color(), |a| {
+                    csv_out::rows(a, db).map_err(std::io::Error::other)
+                });
+            errors |= bad;
+            // A reader that stops early (`| head`) is not an error of ours.
+            let failure = header.or(failure);
+            if let Some(e) = failure.filter(|e| e.kind() != std::io::ErrorKind::BrokenPipe) {
+                eprintln!("syz: error: writing the table failed: {e}");
+                return 2;
+            }
+        }
+        EvalFormat::Human => {
+            let color = render::use_color() && render::stderr_color();
+            let (bad, _) = stream_per_file(db, &settings, &mut out, color, |a| {
+                Ok(syzygy::report::eval_text(a, db).into_bytes())
+            });
+            errors |= bad;
+        }
+    }
+    files::report_io_errors(&loaded.errors);
+    if !loaded.errors.is_empty() {
+        2
+    } else if errors {
+        1
+    } else {
+        0
+    }
+}
+
+/// Analyse every file and write `body` of each to `out` in file order, as it comes; the
+/// files' diagnostics, rendered for people, go to standard error after all of it. Returns
+/// whether any file has errors, and the first failure to make or write a body (later bodies
+/// are not written after one).
+fn stream_per_file(
+    db: &syzygy::source::MemoryDb,
+    settings: &[Settings],
+    out: &mut impl Write,
+    color: bool,
+    body: impl Fn(&syzygy::Analysis) -> std::io::Result<Vec<u8>> + Sync,
+) -> (bool, Option<std::io::Error>) {
+    let mut errors = false;
+    let mut failure = None;
+    let mut rendered = String::new();
+    files::for_each_analysed(
+        db,
+        settings,
+        |a| {
+            (
+                a.has_errors(),
+                body(&a),
+                rendered_diagnostics(&a, db, color),
+            )
+        },
+        |(bad, bytes, diags)| {
+            errors |= bad;
+            rendered.push_str(&diags);
+            if failure.is_none() {
+                failure = bytes.and_then(|b| out.write_all(&b)).err();
+            }
+        },
+    );
+    if failure.is_none() {
+        failure = out.flush().err();
+    }
+    let _ = std::io::stderr().lock().write_all(rendered.as_bytes());
+    (errors, failure)
+}
+
+/// How the uncertainties shown were propagated, in words.
+pub fn propagation_words(options: &Options) -> String {
+    match options.propagation {
+        Propagation::MonteCarlo => format!(
+            "Monte Carlo, {} samples (seed {}); derived values are sample medians with 16th-84th percentile ranges",
+            options.samples, options.seed
+        ),
+        Propagation::Linear => {
+            "first order (linear) from the measurements' standard uncertainties".to_string()
+        }
+    }
+}

@@ -1,0 +1,59 @@
+//! `syz explain FILE BODY.QUANTITY`: the derivation tree and error budget of one value.
+
+use crate::eval_cmd::propagation_words;
+use crate::files;
+use syzygy::diagnostic::Severity;
+use syzygy::settings::Layer;
+
+pub fn run(
+    file: &std::path::Path,
+    target: &str,
+    system: Option<&str>,
+    flags: &Layer,
+    read: files::ReadArgs,
+) -> u8 {
+    let Some((body, qty)) = target.split_once('.') else {
+        eprintln!("syz: expected BODY.QUANTITY, such as b.density, found '{target}'");
+        return 2;
+    };
+    let one = match files::one_body(file, system, body, flags, read) {
+        Ok(one) => one,
+        Err((code, e)) => {
+            eprintln!("syz: {e}");
+            return code.max(2);
+        }
+    };
+    let (a, options, si, bi) = (&one.analysis, &one.settings.options, one.system, one.body);
+    let kind = a
+        .model
+        .systems
+        .get(si)
+        .and_then(|s| s.bodies.get(bi))
+        .map(|b| b.kind);
+    let Some(def) = kind.and_then(|k| syzygy::quantities::find(k, qty)) else {
+        eprintln!("syz: '{qty}' is not a quantity of '{body}'");
+        return 2;
+    };
+    match syzygy::report::explain_text(a, si, (bi, def.qty)) {
+        Some(text) => {
+            print!("{text}");
+            println!("\nuncertainties: {}", propagation_words(options));
+            let bad = a
+                .diagnostics
+                .iter()
+                .filter(|d| d.severity == Severity::Error)
+                .count();
+            if bad > 0 {
+                eprintln!("note: the file has {bad} error(s); run `syz check` on it");
+            }
+            0
+        }
+        None => {
+            eprintln!(
+                "syz: {body}.{} is neither declared nor derivable from what the file declares",
+                def.name
+            );
+            1
+        }
+    }
+}
