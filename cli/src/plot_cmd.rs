@@ -6,7 +6,6 @@ use plotters::coord::Shift;
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 use std::path::{Path, PathBuf};
-use syzygy::composition::{self, Curve, PLOTTED_CURVES};
 use syzygy::constants::{M_EARTH, R_EARTH};
 use syzygy::lightcurve::LimbDarkening;
 use syzygy::plots::{self, ModelCurve};
@@ -335,54 +334,35 @@ fn mass_radius(paths: &[PathBuf], flags: &Layer, read: files::ReadArgs) -> Resul
             .draw()
             .map_err(err)?;
         // Composition curves: strong inside the fitted mass range, faint outside.
-        for (curve, color) in PLOTTED_CURVES.iter().zip(PALETTE) {
-            let (lo, hi) = curve.mass_range_earth();
-            let n = 200;
-            let upto = 60f64.min(x_max);
-            let pts: Vec<(f64, f64, bool)> = (0..=n)
-                .filter_map(|i| {
-                    let m = x_min * (upto / x_min).powf(f64::from(i) / f64::from(n));
-                    let r = composition::radius_of_extrapolated(*curve, m * M_EARTH)?;
-                    Some((m, r.radius_m / R_EARTH, m >= lo && m <= hi))
-                })
-                .collect();
+        let upto = 60f64.min(x_max);
+        for (trace, color) in syzygy::plots::composition_curves(x_min, upto, 200)
+            .into_iter()
+            .zip(PALETTE)
+        {
+            let pts = &trace.points;
             let fitted: Vec<(f64, f64)> = pts.iter().filter(|p| p.2).map(|p| (p.0, p.1)).collect();
-            for side in [
-                pts.iter()
-                    .filter(|p| p.0 < lo)
-                    .map(|p| (p.0, p.1))
-                    .collect::<Vec<_>>(),
-                pts.iter()
-                    .filter(|p| p.0 > hi)
-                    .map(|p| (p.0, p.1))
-                    .collect::<Vec<_>>(),
-            ] {
+            let (lo, _) = trace.curve.mass_range_earth();
+            let (before, after): (Vec<_>, Vec<_>) = pts
+                .iter()
+                .filter(|p| !p.2)
+                .map(|p| (p.0, p.1))
+                .partition(|p| p.0 < lo);
+            for side in [before, after] {
                 chart
                     .draw_series(LineSeries::new(side, color.mix(0.35).stroke_width(1)))
                     .map_err(err)?;
             }
-            let label = match curve {
-                Curve::Rocky { .. } => "Earth-like rock (32.5% iron core)".to_string(),
-                c => c.label(),
-            };
-            let legend = format!("{label} — {}", short_source(curve));
             chart
                 .draw_series(LineSeries::new(fitted.clone(), color.stroke_width(2)))
                 .map_err(err)?
-                .label(legend)
+                .label(trace.legend)
                 .legend(move |(x, y)| {
                     PathElement::new(vec![(x, y), (x + 22, y)], color.stroke_width(2))
                 });
             if let Some(&(m, r)) = fitted.last() {
-                let short = match curve {
-                    Curve::PureIron => "iron",
-                    Curve::PureSilicate => "silicate",
-                    Curve::PureWaterIce => "water ice",
-                    Curve::Rocky { .. } => "Earth-like",
-                };
                 chart
                     .draw_series(std::iter::once(Text::new(
-                        short,
+                        trace.short,
                         (m * 1.08, r),
                         (FONT, 13).into_font().color(&color),
                     )))
@@ -516,13 +496,6 @@ fn linear_range(values: impl Iterator<Item = f64>) -> Option<(std::ops::Range<f6
     // At least a millionth of the values' size, so the margins survive rounding.
     let pad = ((hi - lo) * 0.12).max(1e-6 * hi.abs().max(lo.abs()).max(1.0));
     Some(((lo - pad)..(hi + pad), clamped))
-}
-
-fn short_source(c: &Curve) -> &'static str {
-    match c {
-        Curve::Rocky { .. } => "Zeng et al. 2016",
-        _ => "Seager et al. 2007",
-    }
 }
 
 fn model_svg(

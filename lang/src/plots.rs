@@ -77,6 +77,54 @@ pub fn mass_radius_points(analyses: &[Analysis]) -> (Vec<PlanetPoint>, Vec<Strin
     (points, left_out)
 }
 
+/// One composition curve of the mass–radius diagram, sampled for drawing.
+#[derive(Debug, Clone)]
+pub struct CurveTrace {
+    pub curve: crate::composition::Curve,
+    /// The legend entry: what the curve is, and its published source.
+    pub legend: String,
+    /// A word or two to write at the curve's end.
+    pub short: &'static str,
+    /// (mass in Earth masses, radius in Earth radii, inside the fit's mass range).
+    pub points: Vec<(f64, f64, bool)>,
+}
+
+/// The diagram's composition curves ([`crate::composition::PLOTTED_CURVES`]) from `m_min` to
+/// `m_max` Earth masses, `n` + 1 points each, evenly spaced in log mass. Points outside a
+/// fit's mass range are kept, marked, so a plot can draw them faint.
+pub fn composition_curves(m_min: f64, m_max: f64, n: u32) -> Vec<CurveTrace> {
+    use crate::composition::{radius_of_extrapolated, Curve, PLOTTED_CURVES};
+    PLOTTED_CURVES
+        .iter()
+        .map(|curve| {
+            let (lo, hi) = curve.mass_range_earth();
+            let points = (0..=n)
+                .filter_map(|i| {
+                    let m = m_min * (m_max / m_min).powf(f64::from(i) / f64::from(n));
+                    let r = radius_of_extrapolated(*curve, m * M_EARTH)?;
+                    Some((m, r.radius_m / R_EARTH, m >= lo && m <= hi))
+                })
+                .collect();
+            let (label, source, short) = match curve {
+                Curve::Rocky { .. } => (
+                    "Earth-like rock (32.5% iron core)".to_string(),
+                    "Zeng et al. 2016",
+                    "Earth-like",
+                ),
+                Curve::PureIron => (curve.label(), "Seager et al. 2007", "iron"),
+                Curve::PureSilicate => (curve.label(), "Seager et al. 2007", "silicate"),
+                Curve::PureWaterIce => (curve.label(), "Seager et al. 2007", "water ice"),
+            };
+            CurveTrace {
+                curve: *curve,
+                legend: format!("{label} — {source}"),
+                short,
+                points,
+            }
+        })
+        .collect()
+}
+
 /// A model curve with its band: `x`, median, 16th and 84th percentiles.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Band {
