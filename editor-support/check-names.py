@@ -1,6 +1,6 @@
 """The editor set-ups spell out the language's keywords, quantity names, functions and
 constants for highlighting. This check reads them from the language's own sources
-(lang/src/lexer.rs, quantities.rs, model.rs) and fails when an editor file misses one or
+(lang/src/syntax/lexer.rs, quantities.rs, model/mod.rs) and fails when an editor file misses one or
 lists one the language no longer has.
 
 Run: python3 editor-support/check-names.py
@@ -21,7 +21,7 @@ def read(*parts):
 
 
 def language_names():
-    lexer = read(ROOT, "lang", "src", "lexer.rs")
+    lexer = read(ROOT, "lang", "src", "syntax", "lexer.rs")
     keywords = set(re.findall(r'#\[token\("([a-z]+)"\)\]', lexer))
     quantities = set()
     for name, aliases in re.findall(
@@ -29,7 +29,7 @@ def language_names():
     ):
         quantities.add(name)
         quantities.update(re.findall(r'"([^"]+)"', aliases))
-    model = read(ROOT, "lang", "src", "model.rs")
+    model = read(ROOT, "lang", "src", "model", "mod.rs")
     block = re.search(r"pub const FUNCTIONS: &\[&str\] = &\[(.*?)\];", model, re.S)
     functions = set(re.findall(r'"([^"]+)"', block.group(1))) if block else set()
     body = re.search(r"pub fn constant\(.*?\n}\n", model, re.S)
@@ -39,7 +39,7 @@ def language_names():
 
 def name_characters():
     """The non-ASCII characters the lexer accepts in a name."""
-    lexer = read(ROOT, "lang", "src", "lexer.rs")
+    lexer = read(ROOT, "lang", "src", "syntax", "lexer.rs")
     m = re.search(r'#\[regex\(r"(\[[^"]*)"\)\]\s*(?:#\[token\("%"\)\]\s*)?Ident,', lexer)
     if not m:
         return set()
@@ -122,7 +122,7 @@ def main():
                 print(f"  ok   {editor} {kind} ({len(names)})")
     chars = name_characters()
     if not chars:
-        print("  FAIL could not read the name characters from lang/src/lexer.rs")
+        print("  FAIL could not read the name characters from lang/src/syntax/lexer.rs")
         failures += 1
     grammar = read(SUPPORT, "vscode", "syntaxes", "syzygy.tmLanguage.json")
     for editor, text in (("vscode grammar", grammar.replace("\\x{", "\\u{")),

@@ -1,43 +1,41 @@
 //! Syzygy's language core.
 //!
-//! Pipeline: [`lexer`] → [`parser`] → [`model`] (name resolution, units, measurements) →
-//! derivations → physics checks → silencing comments ([`allow`]) → [`diagnostic`]s. The core
+//! Pipeline: [`syntax`] (lexer, parser) → [`model`] (name resolution, units, measurements)
+//! → [`derive`] → [`checks`] → silencing comments ([`allow`]) → [`diagnostic`]s, rendered by
+//! [`output`]; [`physics`] is the library of formulas the stages use. The core
 //! does no I/O: front ends give it text through [`source::SourceDb`]. Editor queries over an
 //! [`Analysis`] live in [`ide`]; the canonical layout (`syz fmt`) in [`layout`].
 
 #![cfg_attr(test, allow(clippy::unwrap_used, clippy::indexing_slicing))]
 
+// The stages of the pipeline, each in its folder: text to tree, tree to model, model to
+// derived values, checks, output, editor features, incremental analysis.
 pub mod allow;
-pub mod ast;
 pub mod checks;
-pub mod composition;
-pub mod constants;
 pub mod derive;
-pub mod diagnostic;
-pub mod ephemeris;
-pub mod fastmath;
-pub mod format;
-pub mod formulas;
 pub mod ide;
-pub mod layout;
-pub mod lexer;
-pub mod lightcurve;
 pub mod model;
-pub mod orbit;
-pub mod parser;
-pub mod plots;
-pub mod quantities;
-pub mod report;
+pub mod output;
 pub mod reuse;
-pub mod rule_docs;
+pub mod syntax;
+// The physics library: formulas, composition curves, orbits, light curves, time scales.
+// It imports nothing from the stages above.
+pub mod physics;
+// Shared foundations.
+pub mod diagnostic;
+pub mod format;
+pub mod quantities;
 pub mod settings;
-pub mod shown;
-pub mod solar_system;
 pub mod source;
-pub mod spectral;
 pub mod text;
-pub mod time;
 pub mod units;
+
+// Short paths kept for every module that moved into a folder.
+pub use output::{ephemeris, plots, report, rule_docs, shown};
+pub use physics::{
+    composition, constants, fastmath, formulas, lightcurve, orbit, solar_system, spectral, time,
+};
+pub use syntax::{ast, layout, lexer, parser};
 
 use std::collections::HashMap;
 use std::sync::Arc;

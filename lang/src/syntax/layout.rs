@@ -659,7 +659,7 @@ mod tests {
         let once = format_source(MESSY).unwrap();
         assert_eq!(format_source(&once).unwrap(), once);
         assert!(same_tokens(MESSY, &once));
-        let veyra = include_str!("../../examples/veyra.syz");
+        let veyra = include_str!("../../../examples/veyra.syz");
         let f = format_source(veyra).unwrap();
         assert_eq!(format_source(&f).unwrap(), f);
     }

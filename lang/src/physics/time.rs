@@ -613,7 +613,7 @@ mod reference {
     #[test]
     fn matches_astropy_time() {
         let json: serde_json::Value =
-            serde_json::from_str(include_str!("../../tests/reference/beyond.json")).unwrap();
+            serde_json::from_str(include_str!("../../../tests/reference/beyond.json")).unwrap();
         let cases = json["timescales"].as_array().unwrap();
         assert!(cases.len() >= 5);
         for c in cases {

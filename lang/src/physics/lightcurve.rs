@@ -257,7 +257,7 @@ mod reference {
     #[test]
     fn matches_numpy_grid_integration() {
         let json: serde_json::Value =
-            serde_json::from_str(include_str!("../../tests/reference/beyond.json")).unwrap();
+            serde_json::from_str(include_str!("../../../tests/reference/beyond.json")).unwrap();
         let cases = json["light_curve"].as_array().unwrap();
         assert!(cases.len() >= 5);
         for c in cases {

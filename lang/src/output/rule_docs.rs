@@ -4,7 +4,7 @@
 
 use crate::diagnostic::Rule;
 
-const RULES_MD: &str = include_str!("../../docs/rules.md");
+const RULES_MD: &str = include_str!("../../../docs/rules.md");
 
 /// The section of docs/rules.md about `rule`, without its `## id` heading and the
 /// "Default severity" line, trimmed. `None` if the page has no such section.
