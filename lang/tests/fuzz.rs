@@ -1,7 +1,9 @@
 //! A structured, time-boxed fuzzer on stable Rust (cargo-fuzz needs a nightly toolchain).
 //!
 //! It mutates the demo and fixture files — deleting, duplicating and swapping byte ranges and
-//! lines, inserting fragments of the language — and runs every stage on each mutant: lexer,
+//! lines, inserting fragments of the language — and, one run in eight, generated inputs of
+//! shapes mutation rarely reaches (chains of up to 300 bindings, some cyclic; values nested
+//! or chained hundreds deep; up to four systems of up to 60 planets), and runs every stage on each mutant: lexer,
 //! parser, checker (both propagation modes) and formatter. It asserts that nothing panics,
 //! that diagnostics point inside the text, and that formatting is idempotent whenever it
 //! succeeds. Run it with
@@ -134,6 +136,65 @@ fn mutate(src: &str, rng: &mut Rng) -> String {
     String::from_utf8_lossy(&b).into_owned()
 }
 
+/// A structured input of a shape mutation rarely reaches: long or cyclic chains of bindings,
+/// deep nesting and long operator runs in one value, many systems, many planets per system.
+fn generate(rng: &mut Rng) -> String {
+    let mut out = String::new();
+    let systems = 1 + below(rng, 4);
+    for si in 0..systems {
+        out.push_str(&format!("system \"G{si}\" {{\n"));
+        match below(rng, 4) {
+            // A chain of bindings, each using earlier (or, sometimes, later) ones.
+            0 => {
+                let n = 1 + below(rng, 300);
+                out.push_str("  let x0 = 1.0 ± 0.1 Msun\n");
+                for i in 1..n {
+                    let a = below(rng, i);
+                    let b = if below(rng, 20) == 0 {
+                        below(rng, n)
+                    } else {
+                        below(rng, i)
+                    };
+                    let op = ["+", "-", "*", "/"][below(rng, 4)];
+                    let rhs = if op == "+" || op == "-" {
+                        format!("x{a} {op} x{b}")
+                    } else {
+                        format!("x{a} {op} (x{b} / x{b})")
+                    };
+                    out.push_str(&format!("  let x{i} = {rhs}\n"));
+                }
+                out.push_str(&format!("  star s {{\n    mass = x{}\n  }}\n", n - 1));
+            }
+            // One deeply nested or very long value.
+            1 => {
+                let depth = below(rng, 120);
+                let value = match below(rng, 4) {
+                    0 => format!("{}1{} Msun", "(".repeat(depth), ")".repeat(depth)),
+                    1 => format!("{}1 Msun", "-".repeat(below(rng, 600))),
+                    2 => format!("1 Msun{}", "^1".repeat(below(rng, 600))),
+                    _ => format!("1{} Msun", " * 1".repeat(below(rng, 600))),
+                };
+                out.push_str(&format!("  star s {{\n    mass = {value}\n  }}\n"));
+            }
+            // Many planets around one star.
+            _ => {
+                out.push_str(
+                    "  star s {\n    mass = 1 ± 0.05 Msun\n    radius = 1 ± 0.02 Rsun\n  }\n",
+                );
+                for p in 0..below(rng, 60) {
+                    out.push_str(&format!(
+                        "  planet p{p} orbits s {{\n    period = {} ± 0.01 d\n    rv_amplitude = {} ± 1 m/s\n  }}\n",
+                        3 + p * 5,
+                        1 + below(rng, 100)
+                    ));
+                }
+            }
+        }
+        out.push_str("}\n");
+    }
+    out
+}
+
 fn one(src: &str) {
     let _ = syzygy::lexer::lex(src);
     for options in [
@@ -173,16 +234,28 @@ fn fuzz_every_stage() {
     let mut rng = Rng::seed_from_u64(seed);
     let start = Instant::now();
     let mut runs = 0u64;
+    let mut slowest = Duration::ZERO;
     while start.elapsed() < Duration::from_secs(seconds) {
-        let base = &corpus[below(&mut rng, corpus.len())];
-        let mutant = mutate(base, &mut rng);
+        // One run in eight starts from a generated input instead of the corpus.
+        let mutant = if below(&mut rng, 8) == 0 {
+            let generated = generate(&mut rng);
+            if below(&mut rng, 2) == 0 {
+                generated
+            } else {
+                mutate(&generated, &mut rng)
+            }
+        } else {
+            mutate(&corpus[below(&mut rng, corpus.len())], &mut rng)
+        };
+        let began = Instant::now();
         let result = std::panic::catch_unwind(|| one(&mutant));
+        slowest = slowest.max(began.elapsed());
         if let Err(e) = result {
             eprintln!("crash after {runs} runs (FUZZ_SEED={seed}); mutant:\n{mutant:?}");
             std::panic::resume_unwind(e);
         }
         runs += 1;
     }
-    eprintln!("fuzz: {runs} mutants in {seconds} s, no crash");
+    eprintln!("fuzz: {runs} mutants in {seconds} s, no crash; slowest {slowest:?}");
     assert!(runs > 0);
 }
