@@ -18,9 +18,9 @@ pub fn run(
     };
     let one = match files::one_body(file, system, body, flags, read) {
         Ok(one) => one,
-        Err((code, e)) => {
+        Err((_, e)) => {
             eprintln!("syz: {e}");
-            return code.max(2);
+            return 2;
         }
     };
     let (a, options, si, bi) = (&one.analysis, &one.settings.options, one.system, one.body);

@@ -59,6 +59,17 @@ pub struct Analysis {
 }
 
 impl Analysis {
+    /// `body.quantity` for a quantity of system `si`, as every output names it.
+    pub fn key_name(&self, si: usize, k: derive::Key) -> String {
+        let b = self
+            .model
+            .systems
+            .get(si)
+            .and_then(|s| s.bodies.get(k.0))
+            .map_or("?", |b| b.id.as_str());
+        format!("{b}.{}", quantities::def(k.1).name)
+    }
+
     pub fn has_errors(&self) -> bool {
         self.diagnostics
             .iter()

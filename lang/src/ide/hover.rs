@@ -67,16 +67,6 @@ fn binding(a: &Analysis, si: usize, body: Option<&str>, name: &str) -> Option<St
     Some(format!("**`let {name}`** in {scope}\n\ndimension: {dim}"))
 }
 
-fn key_name(a: &Analysis, si: usize, k: crate::derive::Key) -> String {
-    let b = a
-        .model
-        .systems
-        .get(si)
-        .and_then(|s| s.bodies.get(k.0))
-        .map_or("?", |b| b.id.as_str());
-    format!("{b}.{}", quantities::def(k.1).name)
-}
-
 /// The value in other common units of its dimension.
 fn other_units(q: &QuantityResult) -> Vec<String> {
     let def = quantities::def(q.qty);
@@ -146,7 +136,7 @@ pub fn quantity(a: &Analysis, si: usize, body: &str, qty: Qty) -> Option<String>
         out.push_str(&format!("- formula: `{f}`\n"));
     }
     if let Some(alt) = a.results.get(si).and_then(|r| r.alternative((bi, qty))) {
-        let inputs: Vec<String> = alt.inputs.iter().map(|k| key_name(a, si, *k)).collect();
+        let inputs: Vec<String> = alt.inputs.iter().map(|k| a.key_name(si, *k)).collect();
         out.push_str(&format!(
             "- derived from other measurements: `{}` by {} from {}\n",
             shown(qty, alt.value, alt.below, alt.above, Form::Asymmetric),

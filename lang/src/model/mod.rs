@@ -219,7 +219,7 @@ pub fn lower(file: FileId, ast: &ast::File, diags: &mut Vec<Diagnostic>) -> Mode
 }
 
 fn lower_system(s: &ast::SystemDecl, refs: &[RefInfo], diags: &mut Vec<Diagnostic>) -> System {
-    let (lets, mut let_syntax) = lower_lets(&s.lets, diags);
+    let (lets, let_syntax) = lower_lets(&s.lets, diags);
     let mut sys = System {
         name: s.name.clone(),
         name_span: s.name_span,
@@ -282,7 +282,6 @@ fn lower_system(s: &ast::SystemDecl, refs: &[RefInfo], diags: &mut Vec<Diagnosti
         })
         .collect();
     drop(resolver);
-    let_syntax.clear();
     for (body, (orbits, declared)) in sys.bodies.iter_mut().zip(lowered) {
         body.orbits = orbits;
         body.declared = declared;

@@ -13,16 +13,6 @@ pub mod json;
 /// Version of the JSON contract; bump on any incompatible change.
 pub const JSON_VERSION: u32 = 1;
 
-fn key_label(a: &Analysis, sys: usize, k: crate::derive::Key) -> String {
-    let b = a
-        .model
-        .systems
-        .get(sys)
-        .and_then(|s| s.bodies.get(k.0))
-        .map_or("?", |b| b.id.as_str());
-    format!("{b}.{}", quantities::def(k.1).name)
-}
-
 fn quantity_json<'a>(a: &Analysis, sys: usize, q: &'a QuantityResult) -> json::Quantity<'a> {
     let measured = q.text.is_none().then(|| {
         let unit = q.shown_unit();
@@ -62,7 +52,7 @@ fn quantity_json<'a>(a: &Analysis, sys: usize, q: &'a QuantityResult) -> json::Q
         origin: q.origin.as_str(),
         rule: q.rule,
         formula: q.formula,
-        inputs: q.inputs.iter().map(|k| key_label(a, sys, *k)).collect(),
+        inputs: q.inputs.iter().map(|k| a.key_name(sys, *k)).collect(),
         citations: &q.citations,
         assumptions: &q.assumptions,
         budget,
@@ -176,7 +166,7 @@ pub fn provenance_text(a: &Analysis, sys: usize, q: &QuantityResult) -> String {
         Origin::Default => "default".to_string(),
         Origin::Estimated => format!("estimated from the spectral type{cites}"),
         _ => {
-            let inputs: Vec<String> = q.inputs.iter().map(|k| key_label(a, sys, *k)).collect();
+            let inputs: Vec<String> = q.inputs.iter().map(|k| a.key_name(sys, *k)).collect();
             let from = if inputs.is_empty() {
                 String::new()
             } else {
@@ -315,7 +305,7 @@ fn explain_node(
     out: &mut String,
     seen: &mut Vec<crate::derive::Key>,
 ) {
-    let label = key_label(a, si, key);
+    let label = a.key_name(si, key);
     let Some(q) = a
         .results
         .get(si)
