@@ -29,7 +29,7 @@ pub fn run(
     let mut rule_counts = vec![0usize; Rule::ALL.len()];
     let mut json_diags = Vec::new();
     let mut sarif_results = Vec::new();
-    let mut not_shown = NotShown::default();
+    let mut shown_so_far = Shown::default();
     let mut checked = 0usize;
     files::for_each_analysed(
         db,
@@ -40,12 +40,11 @@ pub fn run(
                 .iter()
                 .map(|d| (d.severity as usize, d.rule))
                 .collect();
-            let mut text = String::new();
-            let (mut json, mut sarif) = (Vec::new(), Vec::new());
-            let (shown, left_out) = syzygy::shown::split(&a.diagnostics);
+            let (mut text, mut json, mut sarif) = (Vec::new(), Vec::new(), Vec::new());
+            let (shown, mut left_out) = syzygy::shown::split(&a.diagnostics);
             match format {
-                CheckFormat::Human => text = rendered_diagnostics(&a, db, color),
-                CheckFormat::Json => json = syzygy::report::diagnostics_json(&a, db).0,
+                CheckFormat::Human => (text, left_out) = rendered_diagnostics(&a, db, color),
+                CheckFormat::Json => (json, left_out) = syzygy::report::diagnostics_json(&a, db),
                 CheckFormat::Sarif => {
                     let places = syzygy::source::Places::new(db, a.file);
                     sarif = shown.iter().map(|d| sarif::result(d, &places)).collect();
@@ -53,9 +52,7 @@ pub fn run(
             }
             (kinds, text, json, sarif, (a.file, left_out))
         },
-        |(kinds, text, json, sarif, (file, left_out))| {
-            checked += 1;
-            not_shown.add(db, file, left_out);
+        |(kinds, text, json, sarif, (file, left_out)), last_of_file| {
             for (severity, rule) in kinds {
                 if let Some(c) = counts.get_mut(severity) {
                     *c += 1;
@@ -68,9 +65,20 @@ pub fn run(
                     *c += 1;
                 }
             }
-            let _ = out.write_all(text.as_bytes());
-            json_diags.extend(json);
-            sarif_results.extend(sarif);
+            // One of the three is filled, by the format; each is cut to the file's quota.
+            for t in shown_so_far.admit(text, left_out) {
+                let _ = out.write_all(t.as_bytes());
+            }
+            json_diags.extend(shown_so_far.admit(json, 0));
+            sarif_results.extend(shown_so_far.admit(sarif, 0));
+            if last_of_file {
+                checked += 1;
+                if let Some(note) = shown_so_far.end_file(db, file) {
+                    if format == CheckFormat::Human {
+                        let _ = out.write_all(note.as_bytes());
+                    }
+                }
+            }
         },
     );
     let (notes, warnings, errors) = (counts[0], counts[1], counts[2]);
@@ -83,7 +91,7 @@ pub fn run(
         .collect();
     match format {
         CheckFormat::Sarif => {
-            let doc = sarif::log(&sarif_results, &loaded.errors, &not_shown.lines());
+            let doc = sarif::log(&sarif_results, &loaded.errors, &shown_so_far.lines());
             let _ = writeln!(out, "{}", json_out::pretty(&doc));
         }
         CheckFormat::Json => {
@@ -91,7 +99,7 @@ pub fn run(
                 version: syzygy::report::JSON_VERSION,
                 files: checked,
                 diagnostics: &json_diags,
-                diagnostics_not_shown: &not_shown.0,
+                diagnostics_not_shown: &shown_so_far.not_shown,
                 io_errors: &loaded.errors,
                 summary: syzygy::report::json::Summary {
                     errors,
@@ -134,28 +142,52 @@ pub fn run(
     }
 }
 
-/// The files whose diagnostics were not all shown, with how many were left out.
+/// The diagnostics shown per file across the parts of a large file (the first
+/// `syzygy::shown::PER_FILE`), and the files whose diagnostics were not all shown, with how
+/// many were left out.
 #[derive(Default)]
-pub struct NotShown(pub Vec<syzygy::report::json::NotShown>);
+pub struct Shown {
+    pub not_shown: Vec<syzygy::report::json::NotShown>,
+    in_file: usize,
+    left_in_file: usize,
+}
 
-impl NotShown {
-    pub fn add(
+impl Shown {
+    /// Of the diagnostics one part of a file would show (and the `left_out` it would not),
+    /// the ones still to show for the file.
+    pub fn admit<X>(&mut self, mut shown: Vec<X>, left_out: usize) -> Vec<X> {
+        let room = syzygy::shown::PER_FILE.saturating_sub(self.in_file);
+        let over = shown.len().saturating_sub(room);
+        shown.truncate(room);
+        self.in_file += shown.len();
+        self.left_in_file += left_out + over;
+        shown
+    }
+
+    /// The last part of `file` is done: the line counting what was not shown of it, if any.
+    pub fn end_file(
         &mut self,
         db: &syzygy::source::MemoryDb,
         file: syzygy::source::FileId,
-        count: usize,
-    ) {
+    ) -> Option<String> {
         use syzygy::source::SourceDb;
-        if count > 0 {
-            self.0.push(syzygy::report::json::NotShown {
+        let count = std::mem::take(&mut self.left_in_file);
+        self.in_file = 0;
+        (count > 0).then(|| {
+            self.not_shown.push(syzygy::report::json::NotShown {
                 file: db.name(file).to_string(),
                 count,
             });
-        }
+            format!(
+                "note: {}: {}\n",
+                db.name(file),
+                syzygy::shown::rest_words(count)
+            )
+        })
     }
 
     pub fn lines(&self) -> Vec<String> {
-        self.0
+        self.not_shown
             .iter()
             .map(|n| format!("{}: {}", n.file, syzygy::shown::rest_words(n.count)))
             .collect()

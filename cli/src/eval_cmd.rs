@@ -1,7 +1,7 @@
 //! `syz eval`: every declared and derived quantity, as text, JSON or CSV, streamed file by
 //! file with the files' diagnostics on standard error.
 
-use crate::check_cmd::NotShown;
+use crate::check_cmd::Shown;
 use crate::files::{self, load_with_settings};
 use crate::render::rendered_diagnostics;
 use crate::{csv_out, json_out, output, render, EvalFormat};
@@ -32,7 +32,7 @@ pub fn run(paths: &[PathBuf], format: EvalFormat, flags: &Layer, read: files::Re
             };
             let mut doc = json_out::Document::start(&mut out, &head);
             let mut diags = Vec::new();
-            let mut not_shown = NotShown::default();
+            let mut shown = Shown::default();
             files::for_each_analysed(
                 db,
                 &settings,
@@ -44,10 +44,12 @@ pub fn run(paths: &[PathBuf], format: EvalFormat, flags: &Layer, read: files::Re
                     let diagnostics = syzygy::report::diagnostics_json(&a, db);
                     (a.has_errors(), systems, diagnostics, a.file)
                 },
-                |(bad, systems, (d, left_out), file)| {
+                |(bad, systems, (d, left_out), file), last_of_file| {
                     errors |= bad;
-                    diags.extend(d);
-                    not_shown.add(db, file, left_out);
+                    diags.extend(shown.admit(d, left_out));
+                    if last_of_file {
+                        let _ = shown.end_file(db, file);
+                    }
                     for s in &systems {
                         doc.system(s);
                     }
@@ -55,7 +57,7 @@ pub fn run(paths: &[PathBuf], format: EvalFormat, flags: &Layer, read: files::Re
             );
             let tail = syzygy::report::json::EvalTail {
                 diagnostics: &diags,
-                diagnostics_not_shown: &not_shown.0,
+                diagnostics_not_shown: &shown.not_shown,
                 io_errors: &loaded.errors,
             };
             if let Err(e) = doc.finish(&tail) {
@@ -115,6 +117,7 @@ fn stream_per_file(
     let mut errors = false;
     let mut failure = None;
     let mut rendered = String::new();
+    let mut shown = Shown::default();
     files::for_each_analysed(
         db,
         settings,
@@ -123,11 +126,15 @@ fn stream_per_file(
                 a.has_errors(),
                 body(&a),
                 rendered_diagnostics(&a, db, color),
+                a.file,
             )
         },
-        |(bad, bytes, diags)| {
+        |(bad, bytes, (diags, left_out), file), last_of_file| {
             errors |= bad;
-            rendered.push_str(&diags);
+            rendered.extend(shown.admit(diags, left_out));
+            if last_of_file {
+                rendered.extend(shown.end_file(db, file));
+            }
             if failure.is_none() {
                 failure = bytes.and_then(|b| out.write_all(&b)).err();
             }

@@ -7,7 +7,7 @@
 use std::collections::BTreeSet;
 use std::io::Read;
 use std::path::{Path, PathBuf};
-use syzygy::source::{MemoryDb, SourceDb};
+use syzygy::source::{FileId, MemoryDb, SourceDb};
 use syzygy::{analyze, Analysis, Settings};
 
 /// The largest file read unless `--max-file-size` says otherwise.
@@ -293,40 +293,90 @@ pub fn analyze_all(
 /// Analyse every loaded file with its own settings (one entry per file, in file order).
 pub fn analyze_each(db: &MemoryDb, settings: &[Settings]) -> Vec<Analysis> {
     let mut out = Vec::with_capacity(settings.len());
-    for_each_analysed(db, settings, |a| a, |a| out.push(a));
+    for_each_unit(db, settings, usize::MAX, |a| a, |a, _| out.push(a));
     out
 }
 
-/// Files analysed per batch by [`for_each_analysed`]: enough to keep both cores busy, few
+/// Files (or parts of files) analysed per batch: enough to keep both cores busy, few
 /// enough that a batch's results stay small.
 const BATCH: usize = 128;
+/// Source bytes analysed per batch, at most (and at least one file or part): a batch's
+/// analyses and outputs take tens of bytes per byte of source.
+const BATCH_BYTES: usize = 1 << 20;
 
 /// Analyse every loaded file with its own settings, turn each analysis into a `T` on the
-/// worker that made it, and hand the `T`s to `sink` in file order. Files are analysed in
-/// parallel batches and each analysis is dropped once mapped, so memory stays flat however
-/// many files there are (what `eval` streams).
+/// worker that made it, and hand the `T`s to `sink` in file order, with whether it is the
+/// last of its file. A file larger than [`syzygy::parts::PART_BYTES`] is analysed in parts
+/// of whole systems, one `T` per part, so memory follows the part, not the file. Files and
+/// parts are analysed in parallel batches and each analysis is dropped once mapped, so
+/// memory stays flat however many files there are and however large (what `check` and
+/// `eval` stream).
 pub fn for_each_analysed<T: Send>(
     db: &MemoryDb,
     settings: &[Settings],
     map: impl Fn(Analysis) -> T + Sync,
-    mut sink: impl FnMut(T),
+    sink: impl FnMut(T, bool),
+) {
+    for_each_unit(db, settings, syzygy::parts::PART_BYTES, map, sink);
+}
+
+/// What one worker analyses: a whole file, or a part of one already read.
+enum Unit<'a> {
+    Whole(FileId, &'a Settings),
+    Part(syzygy::parts::Part, &'a Settings, bool),
+}
+
+fn for_each_unit<T: Send>(
+    db: &MemoryDb,
+    settings: &[Settings],
+    part_bytes: usize,
+    map: impl Fn(Analysis) -> T + Sync,
+    mut sink: impl FnMut(T, bool),
 ) {
     use rayon::prelude::*;
-    let ids: Vec<_> = db.files().zip(settings).collect();
-    let progress = progress_bar(ids.len());
-    for batch in ids.chunks(BATCH) {
-        let mapped: Vec<T> = batch
-            .par_iter()
-            .map(|&(f, settings)| {
-                let a = analyze(f, db.text(f), settings);
-                if let Some(p) = &progress {
+    let progress = progress_bar(settings.len());
+    let run = |units: &mut Vec<Unit>, bytes: &mut usize, sink: &mut dyn FnMut(T, bool)| {
+        let mapped: Vec<(T, bool)> = std::mem::take(units)
+            .into_par_iter()
+            .map(|unit| {
+                let (a, last) = match unit {
+                    Unit::Whole(f, settings) => (analyze(f, db.text(f), settings), true),
+                    Unit::Part(part, settings, last) => {
+                        let f = part.model.file;
+                        (syzygy::analyze_part(db.text(f), part, settings), last)
+                    }
+                };
+                if let Some(p) = progress.as_ref().filter(|_| last) {
                     p.inc(1);
                 }
-                map(a)
+                (map(a), last)
             })
             .collect();
-        mapped.into_iter().for_each(&mut sink);
+        *bytes = 0;
+        mapped.into_iter().for_each(|(t, last)| sink(t, last));
+    };
+    let mut units = Vec::new();
+    let mut bytes = 0usize;
+    for (f, settings) in db.files().zip(settings) {
+        let text = db.text(f);
+        if text.len() <= part_bytes {
+            units.push(Unit::Whole(f, settings));
+            bytes += text.len();
+            if units.len() >= BATCH || bytes >= BATCH_BYTES {
+                run(&mut units, &mut bytes, &mut sink);
+            }
+            continue;
+        }
+        let mut parts = syzygy::parts::Parts::new(f, text, part_bytes).peekable();
+        while let Some(part) = parts.next() {
+            bytes += part.region.end - part.region.start;
+            units.push(Unit::Part(part, settings, parts.peek().is_none()));
+            if units.len() >= BATCH || bytes >= BATCH_BYTES {
+                run(&mut units, &mut bytes, &mut sink);
+            }
+        }
     }
+    run(&mut units, &mut bytes, &mut sink);
     if let Some(p) = progress {
         p.finish_and_clear();
     }

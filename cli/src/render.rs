@@ -376,31 +376,25 @@ fn escapes(s: &str) -> usize {
     n
 }
 
-/// The diagnostics shown of one file (`syzygy::shown`), rendered for people, then a line
-/// counting the rest.
+/// The diagnostics of an analysis that may be shown (the first `syzygy::shown::PER_FILE`),
+/// each rendered for people, and how many more there are. [`crate::check_cmd::Shown`] keeps
+/// the count per file across the parts of a large file.
 pub fn rendered_diagnostics(
     a: &syzygy::Analysis,
     db: &syzygy::source::MemoryDb,
     color: bool,
-) -> String {
+) -> (Vec<String>, usize) {
     use syzygy::source::SourceDb;
     let (shown, left_out) = syzygy::shown::split(&a.diagnostics);
     if shown.is_empty() {
-        return String::new();
+        return (Vec::new(), left_out);
     }
-    let index = syzygy::source::LineIndex::new(db.text(a.file));
-    let mut out: String = shown
+    let index = db.line_index(a.file);
+    let out = shown
         .iter()
         .map(|d| diagnostic(db, &index, d, color))
         .collect();
-    if left_out > 0 {
-        out.push_str(&format!(
-            "note: {}: {}\n",
-            db.name(a.file),
-            syzygy::shown::rest_words(left_out)
-        ));
-    }
-    out
+    (out, left_out)
 }
 
 #[cfg(test)]

@@ -9,7 +9,7 @@
 
 use crate::ast::Comment;
 use crate::diagnostic::{Diagnostic, Rule};
-use crate::source::{LineIndex, Span};
+use crate::source::{LineIndex, Region, Span};
 
 /// One parsed silencing comment.
 #[derive(Debug, Clone, PartialEq)]
@@ -54,6 +54,13 @@ pub fn parse_comment(text: &str) -> Option<(Vec<RuleId>, String)> {
 
 /// Every silencing comment of a file, with the line each covers.
 pub fn collect(src: &str, comments: &[Comment]) -> Vec<Allow> {
+    collect_in(src, &Region::whole(src), comments)
+}
+
+/// The silencing comments of one region of a file (a part of it read on its own, or all
+/// of it). Lines are counted from the region's start, so that a part of a large file pays
+/// only for its own lines; `covers` is relative to the region.
+fn collect_in(src: &str, region: &Region, comments: &[Comment]) -> Vec<Allow> {
     let parsed: Vec<(&Comment, _)> = comments
         .iter()
         .filter_map(|c| parse_comment(&c.text).map(|p| (c, p)))
@@ -62,12 +69,13 @@ pub fn collect(src: &str, comments: &[Comment]) -> Vec<Allow> {
         // Nothing to place: no line index (a file of 10 million lines need not pay for one).
         return Vec::new();
     }
-    let index = LineIndex::new(src);
-    let line_text = |l: usize| index.line_span(src, l).and_then(|r| src.get(r));
+    let text = src.get(region.start..region.end).unwrap_or_default();
+    let index = LineIndex::new(text);
+    let line_text = |l: usize| index.line_span(text, l).and_then(|r| text.get(r));
     let mut out = Vec::new();
     for (c, (ids, reason)) in parsed {
         let start = c.span.start as usize;
-        let line = index.line_at(start);
+        let line = index.line_at(start.saturating_sub(region.start));
         let covers = if c.trailing {
             Some(line)
         } else {
@@ -91,15 +99,27 @@ pub fn collect(src: &str, comments: &[Comment]) -> Vec<Allow> {
 /// Drop the diagnostics that silencing comments cover and report the comments that cover
 /// nothing. The result still needs sorting.
 pub fn apply(src: &str, comments: &[Comment], diags: Vec<Diagnostic>) -> Vec<Diagnostic> {
-    let allows = collect(src, comments);
+    apply_in(src, &Region::whole(src), comments, diags)
+}
+
+/// [`apply`] to the comments and diagnostics of one region of a file.
+pub fn apply_in(
+    src: &str,
+    region: &Region,
+    comments: &[Comment],
+    diags: Vec<Diagnostic>,
+) -> Vec<Diagnostic> {
+    let allows = collect_in(src, region, comments);
     if allows.is_empty() {
         return diags;
     }
-    let index = LineIndex::new(src);
+    let index = LineIndex::new(src.get(region.start..region.end).unwrap_or_default());
     let mut used = vec![false; allows.iter().map(|a| a.rules.len()).sum()];
     let mut out = Vec::with_capacity(diags.len());
     for d in diags {
-        let line = index.utf8_position(d.span.start as usize).0 as usize;
+        let line = index
+            .utf8_position((d.span.start as usize).saturating_sub(region.start))
+            .0 as usize;
         let mut slot = 0;
         let mut silenced = false;
         for a in &allows {
@@ -139,7 +159,7 @@ pub fn apply(src: &str, comments: &[Comment], diags: Vec<Diagnostic>) -> Vec<Dia
                 out.push(d);
             } else {
                 let what = match a.covers {
-                    Some(l) => format!("line {}", l + 1),
+                    Some(l) => format!("line {}", region.first_line + l + 1),
                     None => "the line it covers".to_string(),
                 };
                 out.push(

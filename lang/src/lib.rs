@@ -16,6 +16,7 @@ pub mod derive;
 pub mod ide;
 pub mod model;
 pub mod output;
+pub mod parts;
 pub mod reuse;
 pub mod syntax;
 // The physics library: formulas, composition curves, orbits, light curves, time scales.
@@ -82,13 +83,20 @@ impl Analysis {
 ///
 /// [`analyze_reusing`] gives the same analysis while reusing the work of an earlier one.
 pub fn analyze(file: source::FileId, src: &str, settings: &Settings) -> Analysis {
-    let (ast, model, diagnostics) = parse_and_lower(file, src);
-    let outputs = model
+    analyze_part(src, parse_and_lower(file, src), settings)
+}
+
+/// [`analyze`] for one part of a file read in parts ([`parts::Parts`]): what a file too
+/// large to hold whole is analysed with, one part after another. The analysis holds the
+/// part's systems, and the diagnostics whose place is in the part.
+pub fn analyze_part(src: &str, part: parts::Part, settings: &Settings) -> Analysis {
+    let outputs = part
+        .model
         .systems
         .iter()
         .map(|sys| derive_system(sys, &settings.options))
         .collect();
-    assemble(file, src, ast, model, diagnostics, outputs, settings)
+    assemble(src, part, outputs, settings)
 }
 
 /// What deriving and checking one system gives, before silencing comments apply. A function
@@ -102,14 +110,17 @@ pub(crate) struct SystemOutput {
     pub(crate) composition: Vec<(String, checks::CompositionNote)>,
 }
 
-fn parse_and_lower(
-    file: source::FileId,
-    src: &str,
-) -> (ast::File, model::Model, Vec<diagnostic::Diagnostic>) {
+/// The whole file as one part: parsed and lowered.
+fn parse_and_lower(file: source::FileId, src: &str) -> parts::Part {
     let parsed = parser::parse(file, src);
     let mut diagnostics = parsed.diagnostics;
     let model = model::lower(file, &parsed.file, &mut diagnostics);
-    (parsed.file, model, diagnostics)
+    parts::Part {
+        region: source::Region::whole(src),
+        ast: parsed.file,
+        model,
+        diagnostics,
+    }
 }
 
 pub(crate) fn derive_system(sys: &model::System, options: &Options) -> SystemOutput {
@@ -132,14 +143,17 @@ pub(crate) fn derive_system(sys: &model::System, options: &Options) -> SystemOut
 /// Put the per-system outputs (in the order of `model.systems`) together, then apply the
 /// silencing comments and the severity overrides, and sort the diagnostics.
 fn assemble(
-    file: source::FileId,
     src: &str,
-    ast: ast::File,
-    model: model::Model,
-    mut diagnostics: Vec<diagnostic::Diagnostic>,
+    part: parts::Part,
     outputs: Vec<SystemOutput>,
     settings: &Settings,
 ) -> Analysis {
+    let parts::Part {
+        region,
+        ast,
+        model,
+        mut diagnostics,
+    } = part;
     let mut results = Vec::with_capacity(outputs.len());
     let mut composition = HashMap::new();
     for (si, out) in outputs.into_iter().enumerate() {
@@ -150,11 +164,11 @@ fn assemble(
         results.push(out.result);
     }
     // Comments first: a comment that silences a rule the settings turn off is still used.
-    let mut diagnostics = allow::apply(src, &ast.comments, diagnostics);
+    let mut diagnostics = allow::apply_in(src, &region, &ast.comments, diagnostics);
     settings.apply_overrides(&mut diagnostics);
     diagnostic::sort_diagnostics(&mut diagnostics);
     Analysis {
-        file,
+        file: model.file,
         ast,
         model,
         results,

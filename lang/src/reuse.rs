@@ -83,7 +83,8 @@ pub fn analyze_reusing(
     previous: Option<&Reusable>,
 ) -> (Analysis, Reusable) {
     let options = &settings.options;
-    let (ast, model, diagnostics) = crate::parse_and_lower(file, src);
+    let part = crate::parse_and_lower(file, src);
+    let model = &part.model;
     let mut candidates: HashMap<&str, Vec<&Kept>> = HashMap::new();
     if let Some(p) = previous.filter(|p| p.file == file && p.options.as_ref() == Some(options)) {
         for k in &p.systems {
@@ -120,7 +121,7 @@ pub fn analyze_reusing(
             output: keep,
         });
     }
-    let analysis = crate::assemble(file, src, ast, model, diagnostics, outputs, settings);
+    let analysis = crate::assemble(src, part, outputs, settings);
     let reusable = Reusable {
         file,
         options: Some(options.clone()),

@@ -55,12 +55,19 @@ fn clamp_u32(v: usize) -> u32 {
 pub trait SourceDb {
     fn name(&self, file: FileId) -> &str;
     fn text(&self, file: FileId) -> &str;
+    /// The file's line index; a store that keeps them builds each once.
+    fn line_index(&self, file: FileId) -> std::borrow::Cow<'_, LineIndex> {
+        std::borrow::Cow::Owned(LineIndex::new(self.text(file)))
+    }
 }
 
 /// The simplest [`SourceDb`]: named texts in memory.
 #[derive(Debug, Default, Clone)]
 pub struct MemoryDb {
-    files: Vec<(String, String)>,
+    /// Name, text, and the line index once one is asked for (a file read in parts asks
+    /// once per part with diagnostics: building it each time would cost the whole file
+    /// each time).
+    files: Vec<(String, String, std::sync::OnceLock<LineIndex>)>,
 }
 
 impl MemoryDb {
@@ -69,7 +76,8 @@ impl MemoryDb {
     }
 
     pub fn add(&mut self, name: impl Into<String>, text: impl Into<String>) -> FileId {
-        self.files.push((name.into(), text.into()));
+        self.files
+            .push((name.into(), text.into(), std::sync::OnceLock::new()));
         FileId(clamp_u32(self.files.len() - 1))
     }
 
@@ -91,6 +99,14 @@ impl SourceDb for MemoryDb {
             .map(|f| f.1.as_str())
             .unwrap_or("")
     }
+    fn line_index(&self, file: FileId) -> std::borrow::Cow<'_, LineIndex> {
+        match self.files.get(file.0 as usize) {
+            Some((_, text, index)) => {
+                std::borrow::Cow::Borrowed(index.get_or_init(|| LineIndex::new(text)))
+            }
+            None => std::borrow::Cow::Owned(LineIndex::new("")),
+        }
+    }
 }
 
 /// A 1-based line and column; the column counts characters (Unicode scalar values).
@@ -98,6 +114,27 @@ impl SourceDb for MemoryDb {
 pub struct LineCol {
     pub line: u32,
     pub column: u32,
+}
+
+/// A stretch of whole lines of a file: all of it, or one part of a file read in parts.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Region {
+    /// Byte offset of the first line's start.
+    pub start: usize,
+    /// Byte offset just past the region (a line start, or the end of the text).
+    pub end: usize,
+    /// The 0-based number of the region's first line in the file.
+    pub first_line: usize,
+}
+
+impl Region {
+    pub fn whole(text: &str) -> Region {
+        Region {
+            start: 0,
+            end: text.len(),
+            first_line: 0,
+        }
+    }
 }
 
 /// Byte offsets of line starts, for turning spans into positions and back. Offsets are
@@ -217,7 +254,7 @@ impl LineIndex {
 pub struct Places<'a> {
     db: &'a dyn SourceDb,
     file: FileId,
-    index: LineIndex,
+    index: std::borrow::Cow<'a, LineIndex>,
 }
 
 impl<'a> Places<'a> {
@@ -225,7 +262,7 @@ impl<'a> Places<'a> {
         Places {
             db,
             file,
-            index: LineIndex::new(db.text(file)),
+            index: db.line_index(file),
         }
     }
 

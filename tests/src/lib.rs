@@ -107,12 +107,36 @@ pub fn stderr(o: &Output) -> String {
     String::from_utf8_lossy(&o.stderr).into_owned()
 }
 
-/// A scratch folder for one test, emptied first.
-pub fn scratch(name: &str) -> PathBuf {
+/// A scratch folder for one test, emptied first and removed when the test is done (it
+/// derefs to its path).
+pub fn scratch(name: &str) -> Scratch {
     let dir = std::env::temp_dir().join(format!("syzygy-e2e-{}-{name}", std::process::id()));
     let _ = std::fs::remove_dir_all(&dir);
     std::fs::create_dir_all(&dir).unwrap();
-    dir
+    Scratch(dir)
+}
+
+/// A folder removed with everything in it when dropped.
+#[derive(Debug)]
+pub struct Scratch(PathBuf);
+
+impl std::ops::Deref for Scratch {
+    type Target = PathBuf;
+    fn deref(&self) -> &PathBuf {
+        &self.0
+    }
+}
+
+impl AsRef<std::path::Path> for Scratch {
+    fn as_ref(&self) -> &std::path::Path {
+        &self.0
+    }
+}
+
+impl Drop for Scratch {
+    fn drop(&mut self) {
+        let _ = std::fs::remove_dir_all(&self.0);
+    }
 }
 
 /// The byte offset of the `nth` (from 0) occurrence of `needle` in `text`, so that tests

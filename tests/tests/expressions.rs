@@ -4,12 +4,14 @@
 #![allow(clippy::unwrap_used, clippy::indexing_slicing)]
 
 use std::path::{Path, PathBuf};
-use syzygy_e2e::{run, scratch, stdout};
+use syzygy_e2e::{run, scratch, stdout, Scratch};
 
-fn file(dir: &str, name: &str, text: &str) -> PathBuf {
-    let p = scratch(dir).join(name);
+/// A file in a scratch folder (removed when the first of the pair is dropped).
+fn file(dir: &str, name: &str, text: &str) -> (Scratch, PathBuf) {
+    let d = scratch(dir);
+    let p = d.join(name);
     std::fs::write(&p, text).unwrap();
-    p
+    (d, p)
 }
 
 /// `check`, `eval` and `fmt --check` end normally (no abort, no panic) with the given check
@@ -40,7 +42,7 @@ fn a_chain_of_doubling_bindings_is_evaluated_once_per_binding() {
         src.push_str(&format!("  let x{i} = x{} + x{}\n", i - 1, i - 1));
     }
     src.push_str("  star s {\n    mass = x30 / 1073741824\n  }\n}\n");
-    let p = file("expr-chain", "chain.syz", &src);
+    let (_dir, p) = file("expr-chain", "chain.syz", &src);
     ends_normally(&p, 0, "0 errors");
     let o = run(&["eval", "--propagation", "linear", p.to_str().unwrap()]);
     assert!(stdout(&o).contains("mass  1 Msun"), "{}", stdout(&o));
@@ -63,7 +65,7 @@ fn values_that_overflowed_the_stack_are_refused_with_a_message() {
     ];
     for (name, value) in cases {
         let src = format!("system \"A\" {{ star s {{ mass = {value} }} }}\n");
-        let p = file("expr-deep", &format!("{name}.syz"), &src);
+        let (_dir, p) = file("expr-deep", &format!("{name}.syz"), &src);
         ends_normally(&p, 1, "tokens long; the limit is 256");
     }
 }
@@ -88,7 +90,7 @@ fn declared_expressions_that_cannot_be_evaluated_are_reported() {
         ),
     ];
     for (name, src, expect) in cases {
-        let p = file("expr-unevaluated", &format!("{name}.syz"), src);
+        let (_dir, p) = file("expr-unevaluated", &format!("{name}.syz"), src);
         ends_normally(&p, 1, expect);
     }
 }

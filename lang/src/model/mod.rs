@@ -172,50 +172,90 @@ pub const FUNCTIONS: &[&str] = &[
 
 /// Lower a parsed file into the model, appending diagnostics.
 pub fn lower(file: FileId, ast: &ast::File, diags: &mut Vec<Diagnostic>) -> Model {
-    let mut model = Model {
-        file,
-        comments: ast.comments.clone(),
-        ..Model::default()
-    };
-    for r in &ast.refs {
-        if let Some(prev) = model.refs.iter().find(|p| p.id == r.id.name) {
-            diags.push(
-                Diagnostic::new(
-                    Rule::Duplicate,
-                    r.id.span,
-                    format!("reference '{}' is declared twice", r.id.name),
-                )
-                .with_label(prev.id_span, "first declared here"),
-            );
-            continue;
-        }
-        model.refs.push(RefInfo {
-            id: r.id.name.clone(),
-            text: r.text.clone(),
-            span: r.span,
-            id_span: r.id.span,
-        });
-    }
-    let mut seen: HashMap<&str, Span> = HashMap::new();
-    for s in &ast.systems {
-        if !s.name.is_empty() {
-            if let Some(prev) = seen.get(s.name.as_str()) {
+    Lowering::default().lower(file, ast, None, diags)
+}
+
+/// What lowering remembers from one part of a file to the next when a file is read in
+/// parts (`crate::parts`): the systems and references declared so far, so that a name
+/// declared twice is reported however far apart the two are.
+#[derive(Debug, Default)]
+pub struct Lowering {
+    systems: HashMap<String, Span>,
+    refs: HashMap<String, Span>,
+}
+
+impl Lowering {
+    /// Lower the declarations of `ast`. `all_refs` are the file's references when `ast` is
+    /// only a part of it (read ahead, so a citation may name a reference declared later in
+    /// the file); `None` when `ast` is the whole file.
+    pub fn lower(
+        &mut self,
+        file: FileId,
+        ast: &ast::File,
+        all_refs: Option<&[RefInfo]>,
+        diags: &mut Vec<Diagnostic>,
+    ) -> Model {
+        let mut model = Model {
+            file,
+            comments: ast.comments.clone(),
+            ..Model::default()
+        };
+        for r in &ast.refs {
+            if let Some(prev) = self.refs.get(&r.id.name) {
                 diags.push(
                     Diagnostic::new(
                         Rule::Duplicate,
-                        s.name_span,
-                        format!("system \"{}\" is declared twice in this file", s.name),
+                        r.id.span,
+                        format!("reference '{}' is declared twice", r.id.name),
                     )
                     .with_label(*prev, "first declared here"),
                 );
-            } else {
-                seen.insert(&s.name, s.name_span);
+                continue;
             }
+            self.refs.insert(r.id.name.clone(), r.id.span);
+            model.refs.push(ref_info(r));
         }
-        let sys = lower_system(s, &model.refs, diags);
-        model.systems.push(sys);
+        if let Some(all) = all_refs {
+            model.refs = all.to_vec();
+        }
+        for s in &ast.systems {
+            if !s.name.is_empty() {
+                if let Some(prev) = self.systems.get(s.name.as_str()) {
+                    diags.push(
+                        Diagnostic::new(
+                            Rule::Duplicate,
+                            s.name_span,
+                            format!("system \"{}\" is declared twice in this file", s.name),
+                        )
+                        .with_label(*prev, "first declared here"),
+                    );
+                } else {
+                    self.systems.insert(s.name.clone(), s.name_span);
+                }
+            }
+            let sys = lower_system(s, &model.refs, diags);
+            model.systems.push(sys);
+        }
+        model
     }
-    model
+}
+
+/// The references of a file, as lowering keeps them: the first declaration of each id.
+pub fn first_refs<'a>(refs: impl IntoIterator<Item = &'a ast::RefDecl>) -> Vec<RefInfo> {
+    let mut seen = std::collections::HashSet::new();
+    refs.into_iter()
+        .filter(|r| seen.insert(r.id.name.as_str()))
+        .map(ref_info)
+        .collect()
+}
+
+fn ref_info(r: &ast::RefDecl) -> RefInfo {
+    RefInfo {
+        id: r.id.name.clone(),
+        text: r.text.clone(),
+        span: r.span,
+        id_span: r.id.span,
+    }
 }
 
 fn lower_system(s: &ast::SystemDecl, refs: &[RefInfo], diags: &mut Vec<Diagnostic>) -> System {

@@ -69,27 +69,90 @@ pub struct Parsed {
 
 /// Parse one source text.
 pub fn parse(file: FileId, src: &str) -> Parsed {
-    let mut p = Cursor {
-        src,
-        file,
-        toks: Vec::new(),
-        feed: Feed {
-            src,
-            file,
-            lexer: Some(tokens(src)),
-            comments: Vec::new(),
-            line_has_code: false,
-        },
-        pos: 0,
-        diags: Vec::new(),
-        stopped: false,
-        value: value_parser(src, file),
-    };
-    let mut out = p.parse_file();
-    out.comments = p.feed.comments;
+    let mut items = Items::new(file, src);
+    let mut out = File::default();
+    while let Some(item) = items.next_item() {
+        match item {
+            Item::Ref(r) => out.refs.push(r),
+            Item::System(s) => out.systems.push(s),
+        }
+    }
+    out.comments = items.take_comments();
     Parsed {
         file: out,
-        diagnostics: merge_repeats(src, p.diags),
+        diagnostics: items.take_diagnostics(),
+    }
+}
+
+/// One top-level declaration.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Item {
+    Ref(RefDecl),
+    System(SystemDecl),
+}
+
+impl Item {
+    pub fn span(&self) -> Span {
+        match self {
+            Item::Ref(r) => r.span,
+            Item::System(s) => s.span,
+        }
+    }
+}
+
+/// A source text read one top-level declaration at a time, with the same grammar and
+/// recovery as [`parse`] (which is built on it): what a file too large to hold as one tree
+/// is read with. Tokens already parsed are let go between declarations, and the comments
+/// and diagnostics met so far are taken out when wanted, so memory follows the largest
+/// declaration, not the file.
+pub struct Items<'a> {
+    p: Cursor<'a>,
+}
+
+impl<'a> Items<'a> {
+    pub fn new(file: FileId, src: &'a str) -> Items<'a> {
+        Items {
+            p: Cursor {
+                src,
+                file,
+                toks: Vec::new(),
+                feed: Feed {
+                    src,
+                    file,
+                    lexer: Some(tokens(src)),
+                    comments: Vec::new(),
+                    line_has_code: false,
+                },
+                pos: 0,
+                diags: Vec::new(),
+                taken: 0,
+                stopped: false,
+                value: value_parser(src, file),
+            },
+        }
+    }
+
+    /// The next declaration; `None` at the end of the text (or where the parser stopped
+    /// after too many errors). Lines that declare nothing only add diagnostics.
+    pub fn next_item(&mut self) -> Option<Item> {
+        // Keep the last token read (separators are merged against it) and any read ahead.
+        if let Some(done) = self.p.pos.checked_sub(1).filter(|&d| d > 0) {
+            self.p.toks.drain(..done);
+            self.p.pos -= done;
+        }
+        self.p.next_item()
+    }
+
+    /// The comments read so far (and not yet taken), in source order.
+    pub fn take_comments(&mut self) -> Vec<Comment> {
+        std::mem::take(&mut self.p.feed.comments)
+    }
+
+    /// The diagnostics so far (and not yet taken), runs on one line merged.
+    pub fn take_diagnostics(&mut self) -> Vec<Diagnostic> {
+        let diags = std::mem::take(&mut self.p.diags);
+        self.p.taken += diags.len();
+        merge_repeats(self.p.src, diags)
     }
 }
 
@@ -182,6 +245,8 @@ struct Cursor<'a> {
     feed: Feed<'a>,
     pos: usize,
     diags: Vec<Diagnostic>,
+    /// Diagnostics already taken out of `diags` (they still count towards the limit).
+    taken: usize,
     /// Set when the parser stopped reading after too many syntax errors.
     stopped: bool,
     value: ValueParser<'a>,
@@ -244,7 +309,10 @@ impl<'a> Cursor<'a> {
         while matches!(self.peek(), Some(Tok::Newline | Tok::Semi)) {
             self.pos += 1;
         }
-        if !self.stopped && self.diags.len() >= MAX_SYNTAX_ERRORS && self.peek().is_some() {
+        if !self.stopped
+            && self.taken + self.diags.len() >= MAX_SYNTAX_ERRORS
+            && self.peek().is_some()
+        {
             self.stop();
         }
     }
@@ -336,20 +404,19 @@ impl<'a> Cursor<'a> {
         }
     }
 
-    fn parse_file(&mut self) -> File {
-        let mut file = File::default();
+    fn next_item(&mut self) -> Option<Item> {
         loop {
             self.skip_separators();
             match self.peek() {
-                None => break,
+                None => return None,
                 Some(Tok::Ref) => {
                     if let Some(r) = self.parse_ref() {
-                        file.refs.push(r);
+                        return Some(Item::Ref(r));
                     }
                 }
                 Some(Tok::System) => {
                     if let Some(s) = self.parse_system() {
-                        file.systems.push(s);
+                        return Some(Item::System(s));
                     }
                 }
                 Some(Tok::RBrace) => {
@@ -384,7 +451,6 @@ impl<'a> Cursor<'a> {
                 }
             }
         }
-        file
     }
 
     fn parse_ref(&mut self) -> Option<RefDecl> {

@@ -1,0 +1,183 @@
+//! A file read in parts: whole top-level declarations (systems, references) grouped into
+//! parts of about a set size, each parsed and lowered on its own, so that a catalogue of
+//! a hundred megabytes is analysed and written part after part in memory that follows the
+//! part, not the file.
+//!
+//! The parts of a file give the analysis a whole-file reading gives, split by place:
+//! - the same parser reads the declarations ([`crate::parser::Items`]), so syntax errors
+//!   and their recovery are the same;
+//! - references are read ahead in a first pass when the file has more than one part (a
+//!   citation may name a reference declared further down), and a system or reference
+//!   declared twice is reported wherever the two are ([`crate::model::Lowering`]);
+//! - a part ends at the end of a line, after its last declaration; each comment and each
+//!   diagnostic belongs to the part its place is in, so a silencing comment above a system
+//!   travels with that system.
+//!
+//! A file no larger than the part size is one part, equal to what [`crate::analyze`] reads.
+
+use crate::ast;
+use crate::diagnostic::Diagnostic;
+use crate::model::{self, Lowering, Model};
+use crate::parser::{Item, Items};
+use crate::source::{FileId, Region};
+
+/// About how many bytes of source one part holds: large enough that a part is many
+/// systems (a few hundred of a typical catalogue), small enough that one part's analysis
+/// and output stay in tens of megabytes.
+pub const PART_BYTES: usize = 256 * 1024;
+
+/// One part, parsed and lowered, ready for [`crate::analyze_part`].
+#[derive(Debug)]
+pub struct Part {
+    pub region: Region,
+    pub ast: ast::File,
+    pub model: Model,
+    /// Syntax and lowering diagnostics of the part.
+    pub diagnostics: Vec<Diagnostic>,
+}
+
+/// The parts of one file, in order. There is always at least one (an empty file is one
+/// empty part).
+pub struct Parts<'a> {
+    file: FileId,
+    src: &'a str,
+    items: Items<'a>,
+    part_bytes: usize,
+    /// The file's references, read ahead, when it has more than one part.
+    refs: Option<Vec<model::RefInfo>>,
+    lowering: Lowering,
+    /// The declaration that starts the next part, read while ending this one.
+    carried: Option<Item>,
+    /// Comments and diagnostics read but placed after the part just returned.
+    comments: Vec<ast::Comment>,
+    diagnostics: Vec<Diagnostic>,
+    /// Where the next part starts, and its first line's number.
+    next_start: usize,
+    next_line: usize,
+    done: bool,
+}
+
+impl<'a> Parts<'a> {
+    /// Parts of about `part_bytes` bytes (`usize::MAX`: the whole file as one part).
+    pub fn new(file: FileId, src: &'a str, part_bytes: usize) -> Parts<'a> {
+        let refs = (src.len() > part_bytes).then(|| {
+            let mut items = Items::new(file, src);
+            let mut refs = Vec::new();
+            while let Some(item) = items.next_item() {
+                if let Item::Ref(r) = item {
+                    refs.push(r);
+                }
+                // Comments are not needed here; let them go as they come.
+                drop(items.take_comments());
+            }
+            model::first_refs(&refs)
+        });
+        Parts {
+            file,
+            src,
+            items: Items::new(file, src),
+            part_bytes,
+            refs,
+            lowering: Lowering::default(),
+            carried: None,
+            comments: Vec::new(),
+            diagnostics: Vec::new(),
+            next_start: 0,
+            next_line: 0,
+            done: false,
+        }
+    }
+
+    /// The byte offset just past the line on which `offset` stands (past its line break).
+    fn line_end_after(&self, offset: usize) -> usize {
+        let rest = self.src.get(offset..).unwrap_or_default();
+        match rest.find(['\n', '\r']) {
+            None => self.src.len(),
+            Some(i) => {
+                let at = offset + i;
+                let crlf = self.src.get(at..at + 2) == Some("\r\n");
+                at + if crlf { 2 } else { 1 }
+            }
+        }
+    }
+}
+
+impl Iterator for Parts<'_> {
+    type Item = Part;
+
+    fn next(&mut self) -> Option<Part> {
+        if self.done {
+            return None;
+        }
+        let mut items: Vec<Item> = self.carried.take().into_iter().collect();
+        // Where this part ends: after the line of its last declaration when another
+        // declaration starts on a later line and the part is big enough; else at the end.
+        let mut end = self.src.len();
+        loop {
+            let Some(item) = self.items.next_item() else {
+                self.done = true;
+                break;
+            };
+            if let (Some(first), Some(last)) = (items.first(), items.last()) {
+                let size = (last.span().end as usize).saturating_sub(first.span().start as usize);
+                let line_end = self.line_end_after(last.span().end as usize);
+                if size >= self.part_bytes && (item.span().start as usize) >= line_end {
+                    end = line_end;
+                    self.carried = Some(item);
+                    break;
+                }
+            }
+            items.push(item);
+        }
+        // Comments and diagnostics read so far belong here when their place is before the end.
+        self.comments.extend(self.items.take_comments());
+        self.diagnostics.extend(self.items.take_diagnostics());
+        let comments = take_before(&mut self.comments, end, |c| c.span.start as usize);
+        let mut diagnostics = take_before(&mut self.diagnostics, end, |d| d.span.start as usize);
+        let region = Region {
+            start: self.next_start,
+            end,
+            first_line: self.next_line,
+        };
+        self.next_line += line_breaks(self.src.get(region.start..end).unwrap_or_default());
+        self.next_start = end;
+        let mut ast = ast::File {
+            comments,
+            ..ast::File::default()
+        };
+        for item in items {
+            match item {
+                Item::Ref(r) => ast.refs.push(r),
+                Item::System(s) => ast.systems.push(s),
+            }
+        }
+        let model = self
+            .lowering
+            .lower(self.file, &ast, self.refs.as_deref(), &mut diagnostics);
+        Some(Part {
+            region,
+            ast,
+            model,
+            diagnostics,
+        })
+    }
+}
+
+/// Take out of `from` the entries placed before `end`, keeping the order of both halves.
+fn take_before<T>(from: &mut Vec<T>, end: usize, at: impl Fn(&T) -> usize) -> Vec<T> {
+    let (before, after) = std::mem::take(from).into_iter().partition(|x| at(x) < end);
+    *from = after;
+    before
+}
+
+/// Line breaks in `text`, counted as the line index counts them (`\n`, `\r\n`, lone `\r`).
+fn line_breaks(text: &str) -> usize {
+    let b = text.as_bytes();
+    b.iter()
+        .enumerate()
+        .filter(|&(i, &c)| c == b'\n' || (c == b'\r' && b.get(i + 1) != Some(&b'\n')))
+        .count()
+}
+
+#[cfg(test)]
+mod tests;

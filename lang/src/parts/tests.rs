@@ -1,0 +1,171 @@
+#![allow(clippy::unwrap_used, clippy::indexing_slicing)]
+
+use super::*;
+use crate::derive::SystemResult;
+use crate::diagnostic::Diagnostic;
+use crate::Settings;
+use std::sync::Arc;
+
+/// What a reader of the output sees of an analysis: the diagnostics in order, and each
+/// system's name with its results.
+type Seen = (Vec<Diagnostic>, Vec<(String, Arc<SystemResult>)>);
+
+fn whole(src: &str) -> Seen {
+    let a = crate::analyze(FileId(0), src, &Settings::linear());
+    let systems = a.model.systems.iter().map(|s| s.name.clone());
+    (a.diagnostics, systems.zip(a.results).collect())
+}
+
+fn in_parts(src: &str, part_bytes: usize) -> (Seen, usize) {
+    let settings = Settings::linear();
+    let (mut diags, mut systems, mut n) = (Vec::new(), Vec::new(), 0);
+    let mut next_start = 0;
+    for part in Parts::new(FileId(0), src, part_bytes) {
+        // Parts tile the file: each starts where the one before ended.
+        assert_eq!(part.region.start, next_start);
+        next_start = part.region.end;
+        n += 1;
+        let a = crate::analyze_part(src, part, &settings);
+        diags.extend(a.diagnostics);
+        let names = a.model.systems.iter().map(|s| s.name.clone());
+        systems.extend(names.zip(a.results));
+    }
+    assert_eq!(next_start, src.len());
+    ((diags, systems), n)
+}
+
+/// Fail on the first element that differs, showing only it.
+fn first_difference<T: std::fmt::Debug>(got: &[T], want: &[T], what: &str) {
+    // Compared as printed: a value that is not a number (a spectral type's) is not equal
+    // to itself.
+    for (i, (g, w)) in got.iter().zip(want).enumerate() {
+        assert_eq!(
+            format!("{g:?}"),
+            format!("{w:?}"),
+            "{what}: element {i} differs"
+        );
+    }
+    assert_eq!(got.len(), want.len(), "{what}: lengths differ");
+}
+
+/// Every part size gives exactly what the whole-file reading gives, and a small part size
+/// really splits the file.
+fn same_in_parts(src: &str) {
+    let want = whole(src);
+    for bytes in [1, 40, 300, 5_000, usize::MAX] {
+        let (got, n) = in_parts(src, bytes);
+        first_difference(
+            &got.0,
+            &want.0,
+            &format!("diagnostics, parts of {bytes} bytes"),
+        );
+        assert_eq!(got.1.len(), want.1.len());
+        for ((gn, g), (wn, w)) in got.1.iter().zip(&want.1) {
+            assert_eq!(gn, wn);
+            for (gb, wb) in g.bodies.iter().zip(&w.bodies) {
+                first_difference(
+                    &gb.quantities,
+                    &wb.quantities,
+                    &format!("{gn}, {bytes} bytes"),
+                );
+            }
+            assert_eq!(format!("{g:?}"), format!("{w:?}"), "{gn}, {bytes} bytes");
+        }
+        if bytes == usize::MAX {
+            assert_eq!(n, 1);
+        }
+    }
+}
+
+#[test]
+fn the_demo_files_read_the_same_in_parts() {
+    same_in_parts(include_str!("../../../examples/veyra.syz"));
+    same_in_parts(include_str!("../../../examples/corvane.syz"));
+}
+
+#[test]
+fn files_with_mistakes_read_the_same_in_parts() {
+    same_in_parts(include_str!("../../../examples/broken/every-rule.syz"));
+    same_in_parts(include_str!("../../../examples/broken/language-errors.syz"));
+}
+
+const TWO: &str = r#"system "Anvel" {
+  star a { mass = 1.0 ± 0.05 Msun; radius = 1.0 ± 0.03 Rsun }
+  planet b orbits a { period = 3 ± 0.01 d [late] }
+}
+# allow(inconsistent): a comment above the second system travels with it
+system "Borrin" {
+  star s { mass = 0.8 ± 0.04 Msun }
+  planet c orbits s { period = 5 ± 0.01 d; rv_amplitude = 12 ± 2 m/s [late] }
+}
+system "Anvel" { star x { mass = 1 Msun } }
+ref late "A reference declared after the systems that cite it"
+ref late "The same id again"
+"#;
+
+#[test]
+fn references_and_names_declared_twice_are_found_across_parts() {
+    same_in_parts(TWO);
+    let (seen, n) = in_parts(TWO, 1);
+    assert_eq!(n, 5);
+    let messages: Vec<&str> = seen.0.iter().map(|d| d.message.as_str()).collect();
+    assert!(
+        messages
+            .iter()
+            .any(|m| m.contains("\"Anvel\" is declared twice")),
+        "{messages:?}"
+    );
+    assert!(
+        messages
+            .iter()
+            .any(|m| m.contains("'late' is declared twice")),
+        "{messages:?}"
+    );
+    // The citation of a reference declared further down is not unknown.
+    assert!(
+        !messages.iter().any(|m| m.contains("unknown reference")),
+        "{messages:?}"
+    );
+}
+
+#[test]
+fn silencing_comments_stay_with_the_line_they_cover() {
+    let src = "system \"Anvel\" {\n  star a { mass = 1.1 Msun }\n  planet b orbits a {\n    period = 12 m/s\n  }\n}\n# allow(unit-mismatch): known\nsystem \"Borrin\" {\n  star a { mass = 1.1 Msun }\n  planet b orbits a { period = 12 m/s }\n}\n# allow(unit-mismatch): covers nothing\n\nsystem \"Cyre\" { star a { mass = 1 Msun } } # allow(unit-mismatch): nor this\n";
+    same_in_parts(src);
+    let (seen, _) = in_parts(src, 1);
+    let rules: Vec<&str> = seen.0.iter().map(|d| d.rule.id()).collect();
+    assert_eq!(
+        rules.iter().filter(|r| **r == "unit-mismatch").count(),
+        2,
+        "{rules:?}"
+    );
+    // Line numbers in messages are the file's, not the part's.
+    let unused: Vec<&str> = seen
+        .0
+        .iter()
+        .filter(|d| d.rule.id() == "unused-allow")
+        .map(|d| d.message.as_str())
+        .collect();
+    assert!(unused.iter().any(|m| m.contains("line 14")), "{unused:?}");
+    assert_eq!(unused.len(), 3, "{unused:?}");
+}
+
+#[test]
+fn broken_structure_reads_the_same_in_parts() {
+    for src in [
+        "system \"A\" { star s { mass = 1 Msun } } system \"B\" { star t { mass = 2 Msun } }\n",
+        "system \"A\" {\n star s { mass = 1 Msun }\n}\n}}}\nstar z { mass = 1 Msun }\nsystem \"B\" {\n star t { mass = 1 Msun\n",
+        "system \"A\" {\r\n star s { mass = 1 Msun }\r\n}\r\nsystem \"B\" {\r star t { mass = 1 Msun }\r}\r",
+        "ref a \"x\"\nref\nsystem \"A\" { star s { mass = 1 Msun [a, b] } }\nsystem { }\nsystem \"C\" {\n",
+        "",
+        "# only a comment\n",
+    ] {
+        same_in_parts(src);
+    }
+    // Two systems on one line are never split apart (a comment at the end of the line
+    // covers both).
+    let one_line =
+        "system \"A\" { star s { mass = 1 Msun } } system \"B\" { star t { mass = 2 Msun } }\n";
+    assert_eq!(in_parts(one_line, 1).1, 1);
+    assert_eq!(in_parts(TWO, 1).1, 5);
+}
