@@ -31,7 +31,11 @@ pub fn run(
         .and_then(|s| s.bodies.get(bi))
         .map(|b| b.kind);
     let Some(def) = kind.and_then(|k| syzygy::quantities::find(k, qty)) else {
-        eprintln!("syz: '{qty}' is not a quantity of '{body}'");
+        let meant = kind.and_then(|k| syzygy::quantities::suggest(k, qty));
+        eprintln!(
+            "syz: '{qty}' is not a quantity of '{body}'{}",
+            meant.map_or_else(String::new, |m| format!("; did you mean '{m}'?"))
+        );
         return 2;
     };
     match syzygy::report::explain_text(a, si, (bi, def.qty)) {
@@ -50,8 +54,9 @@ pub fn run(
         }
         None => {
             eprintln!(
-                "syz: {body}.{} is neither declared nor derivable from what the file declares",
-                def.name
+                "syz: {body}.{} has no value: {}",
+                def.name,
+                syzygy::report::missing_text(a, si, bi, def.qty)
             );
             1
         }

@@ -37,6 +37,8 @@ const CONTEXT: usize = 60;
 const WINDOW: usize = 300;
 /// Marks text left out at either end of a window.
 const CUT: &str = "…";
+/// What the primary span's underline says; the diagnostic's message says the rest.
+const PRIMARY_LABEL: &str = "here";
 /// The name ariadne is given for the excerpt; replaced by the file's name and position.
 const PLACEHOLDER: &str = "\u{1}excerpt\u{1}";
 
@@ -60,10 +62,23 @@ pub fn diagnostic(db: &dyn SourceDb, index: &LineIndex, d: &Diagnostic, color: b
     let _ = report(d, PLACEHOLDER, excerpt.range(&primary), &labels, color)
         .write((PLACEHOLDER, Source::from(excerpt.text.as_str())), &mut buf);
     let at = index.line_col(text, primary.start);
-    excerpt.with_file_positions(
-        &String::from_utf8_lossy(&buf),
-        &format!("{name}:{}:{}", at.line, at.column),
+    note_header(
+        d,
+        excerpt.with_file_positions(
+            &String::from_utf8_lossy(&buf),
+            &format!("{name}:{}:{}", at.line, at.column),
+        ),
     )
+}
+
+/// A note is called a note, as in every other output and in the docs: ariadne's header for
+/// its kind says "Advice".
+fn note_header(d: &Diagnostic, rendered: String) -> String {
+    if d.severity != Severity::Note {
+        return rendered;
+    }
+    let header = format!("[{}] Advice:", d.rule.id());
+    rendered.replacen(&header, &format!("[{}] Note:", d.rule.id()), 1)
 }
 
 /// ariadne's report of `d` in the source named `id`, the primary range and the labels
@@ -78,6 +93,8 @@ fn report<'a>(
     let (kind, c) = match d.severity {
         Severity::Error => (ReportKind::Error, Color::Red),
         Severity::Warning => (ReportKind::Warning, Color::Yellow),
+        // Renamed "Note" afterwards by `note_header` (a custom kind would be coloured even
+        // without colour).
         Severity::Note => (ReportKind::Advice, Color::Cyan),
     };
     let mut report = Report::build(kind, id, primary.start)
@@ -88,7 +105,13 @@ fn report<'a>(
         )
         .with_code(d.rule.id())
         .with_message(&d.message)
-        .with_label(Label::new((id, primary)).with_color(c));
+        // ariadne underlines only a label with a message; without colour an unlabelled
+        // primary span would not be marked at all.
+        .with_label(
+            Label::new((id, primary))
+                .with_message(PRIMARY_LABEL)
+                .with_color(c),
+        );
     for (r, message) in labels {
         report = report.with_label(
             Label::new((id, r.clone()))
@@ -424,6 +447,38 @@ mod tests {
         assert!(coloured.contains("12345 │"), "{coloured}");
     }
 
+    #[test]
+    #[allow(clippy::unwrap_used, clippy::indexing_slicing)]
+    fn without_colour_the_primary_span_is_underlined() {
+        let text = "x = = 1\n";
+        let out = render(text, 4..5, false);
+        let lines: Vec<&str> = out.lines().collect();
+        let at = lines
+            .iter()
+            .position(|l| l.ends_with("x = = 1"))
+            .unwrap_or_else(|| panic!("{out}"));
+        let source_line = lines[at];
+        let mark = lines[at + 1];
+        let column = source_line.find("= 1").unwrap();
+        // The mark sits under the second '=' (one column: '┬' where the arrow leaves).
+        assert_eq!(mark.get(column..column + 3), Some("┬"), "{out}");
+        assert!(lines[at + 2].ends_with(PRIMARY_LABEL), "{out}");
+    }
+
+    #[test]
+    fn a_note_is_called_a_note() {
+        let mut db = MemoryDb::new();
+        let text = "x = 1\n";
+        let f = db.add("t.syz", text);
+        let d = Diagnostic::new(Rule::NotDerivable, Span::new(f, 0, 1), "unused");
+        let out = diagnostic(&db, &LineIndex::new(text), &d, false);
+        assert!(out.starts_with("[not-derivable] Note: unused"), "{out}");
+        assert!(!out.contains("Advice"), "{out}");
+        let coloured = diagnostic(&db, &LineIndex::new(text), &d, true);
+        assert!(coloured.contains("Note:"), "{coloured}");
+        assert!(!coloured.contains("Advice"), "{coloured}");
+    }
+
     /// ariadne given the whole file: what the excerpts must reproduce on ordinary files.
     fn whole_file(db: &MemoryDb, d: &Diagnostic, color: bool) -> String {
         let name = db.name(d.span.file);
@@ -437,7 +492,7 @@ mod tests {
         let mut buf = Vec::new();
         let _ =
             report(d, name, primary, &labels, color).write((name, Source::from(text)), &mut buf);
-        String::from_utf8_lossy(&buf).into_owned()
+        note_header(d, String::from_utf8_lossy(&buf).into_owned())
     }
 
     #[test]

@@ -76,6 +76,7 @@ rules! {
     InvalidValue = "invalid-value", Error, "A number that is not finite, or an expression that cannot be evaluated.";
     Inconsistent = "inconsistent", Warning, "A declared value disagrees with the value derived from other measurements.";
     NotDerivable = "not-derivable", Note, "A quantity could not be derived because an input is missing or unusable.";
+    CombinedUncertainty = "combined-uncertainty", Note, "Several uncertainties given for one value are combined in quadrature.";
     DenserThanIron = "denser-than-iron", Error, "The planet is denser than a pure-iron body of its mass.";
     AboveDeuteriumLimit = "above-deuterium-limit", Warning, "The companion is more massive than about 13 Jupiter masses: a brown dwarf, not a planet.";
     StellarMassCompanion = "stellar-mass-companion", Error, "The companion is more massive than about 0.075 solar masses: a star.";

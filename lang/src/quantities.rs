@@ -126,10 +126,10 @@ fn build() -> Vec<QuantityDef> {
         },
         q!(Period, Planet, "period", ["P"], time, Exclusive(0.0), None, "d", "Orbital period."),
         q!(SemiMajorAxis, Planet, "semi_major_axis", ["a", "sma"], len, Exclusive(0.0), None, "au", "Semi-major axis of the relative orbit."),
-        q!(Eccentricity, Planet, "eccentricity", ["e", "ecc"], none, Inclusive(0.0), Exclusive(1.0), "1", "Orbital eccentricity."),
-        q!(Inclination, Planet, "inclination", ["i", "inc"], angle, Inclusive(0.0), Inclusive(PI), "deg", "Inclination of the orbit to the sky plane (90 deg is edge-on)."),
+        q!(Eccentricity, Planet, "eccentricity", ["e"], none, Inclusive(0.0), Exclusive(1.0), "1", "Orbital eccentricity."),
+        q!(Inclination, Planet, "inclination", ["i"], angle, Inclusive(0.0), Inclusive(PI), "deg", "Inclination of the orbit to the sky plane (90 deg is edge-on)."),
         q!(Impact, Planet, "impact", ["b", "impact_parameter"], none, Inclusive(0.0), None, "1", "Transit impact parameter, in stellar radii."),
-        q!(ArgPeriastron, Planet, "arg_periastron", ["omega", "ω", "w"], angle, Inclusive(-2.0 * PI), Inclusive(2.0 * PI), "deg", "Argument of periastron of the planet's orbit."),
+        q!(ArgPeriastron, Planet, "arg_periastron", ["omega", "ω"], angle, Inclusive(-2.0 * PI), Inclusive(2.0 * PI), "deg", "Argument of periastron of the planet's orbit."),
         q!(RvAmplitude, Planet, "rv_amplitude", ["K", "K_rv"], speed, Inclusive(0.0), None, "m/s", "Semi-amplitude of the star's radial-velocity signal."),
         q!(MinMass, Planet, "min_mass", ["msini", "Msini", "m_sin_i"], mass, Exclusive(0.0), None, "Mjup", "Minimum mass Mp sin i, from radial velocities alone."),
         q!(Mass, Planet, "mass", ["M", "Mp"], mass, Exclusive(0.0), None, "Mjup", "True planet mass."),
@@ -185,6 +185,23 @@ pub fn names_for(kind: BodyKind) -> impl Iterator<Item = &'static str> {
         .iter()
         .filter(move |q| q.kind == kind)
         .flat_map(|q| std::iter::once(q.name).chain(q.aliases.iter().copied()))
+}
+
+/// Short names the language does not take, each with the quantity meant: the trade writes
+/// `i`, `e` and `omega` (or `ω`), and these abbreviations would be one more spelling to read.
+const NOT_NAMES: &[(BodyKind, &str, &str)] = &[
+    (BodyKind::Planet, "inc", "inclination"),
+    (BodyKind::Planet, "ecc", "eccentricity"),
+    (BodyKind::Planet, "w", "arg_periastron"),
+];
+
+/// The name meant by an unknown quantity name of a kind of body, for a did-you-mean.
+pub fn suggest(kind: BodyKind, name: &str) -> Option<&'static str> {
+    NOT_NAMES
+        .iter()
+        .find(|(k, n, _)| *k == kind && *n == name)
+        .map(|(_, _, meant)| *meant)
+        .or_else(|| crate::text::closest(name, names_for(kind)))
 }
 
 impl QuantityDef {

@@ -412,7 +412,9 @@ impl Spans for ast::Literal {
         f(value_span);
         match uncertainty {
             Uncertainty::None => {}
-            Uncertainty::Symmetric(_, s) | Uncertainty::Asymmetric { span: s, .. } => f(s),
+            Uncertainty::Symmetric(_, s)
+            | Uncertainty::Quadrature(_, s)
+            | Uncertainty::Asymmetric { span: s, .. } => f(s),
         }
         unit.each_span(f);
     }

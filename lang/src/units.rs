@@ -582,9 +582,68 @@ pub fn units_for(dim: Dimension) -> Vec<(String, String)> {
     out
 }
 
-/// The nearest known symbol, for a did-you-mean hint.
+/// A temperature scale with an offset from kelvin. The registry holds none on purpose: a
+/// reading and a difference would convert differently (20 °C is 293.15 K, a change of 20 °C
+/// is 20 K), and every value here is a scale factor times a number.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct OffsetScale {
+    /// The symbol people write, for messages.
+    pub symbol: &'static str,
+    pub name: &'static str,
+    /// Kelvin per degree of the scale.
+    pub per_degree: f64,
+    /// The reading that is 0 K.
+    pub zero: f64,
+}
+
+impl OffsetScale {
+    /// A reading on this scale in kelvin.
+    pub fn kelvin(&self, reading: f64) -> f64 {
+        (reading - self.zero) * self.per_degree
+    }
+
+    /// How to convert, in words.
+    pub fn rule(&self) -> &'static str {
+        if self.symbol == "°C" {
+            "K = °C + 273.15"
+        } else {
+            "K = (°F + 459.67) × 5/9"
+        }
+    }
+}
+
+/// The scale an unknown symbol names, if it is a temperature scale with an offset: `C`,
+/// `°C`, `degC`, `celsius`, and the same for Fahrenheit.
+pub fn offset_scale(symbol: &str) -> Option<OffsetScale> {
+    // Definitions of the scales (SI Brochure for Celsius; common practice for Fahrenheit).
+    const CELSIUS: OffsetScale = OffsetScale {
+        symbol: "°C",
+        name: "degrees Celsius",
+        per_degree: 1.0,
+        zero: -273.15,
+    };
+    const FAHRENHEIT: OffsetScale = OffsetScale {
+        symbol: "°F",
+        name: "degrees Fahrenheit",
+        per_degree: 5.0 / 9.0,
+        zero: -459.67,
+    };
+    match symbol {
+        "C" | "°C" | "degC" | "deg_C" | "celsius" | "Celsius" => Some(CELSIUS),
+        "F" | "°F" | "degF" | "deg_F" | "fahrenheit" | "Fahrenheit" => Some(FAHRENHEIT),
+        _ => None,
+    }
+}
+
+/// The nearest known symbol, for a did-you-mean hint. A symbol of one or two characters
+/// is nearly as close to every short symbol as to the one meant (`C` is one edit from
+/// `m`, `g`, `s` and `K`), so a suggestion must be fewer edits away than it has characters.
 pub fn suggest(symbol: &str) -> Option<&'static str> {
+    if offset_scale(symbol).is_some() {
+        return None;
+    }
     let lower = symbol.to_lowercase();
+    let length = symbol.chars().count();
     let mut best: Option<(usize, &'static str)> = None;
     for def in registry() {
         for cand in std::iter::once(&def.symbol).chain(def.aliases.iter()) {
@@ -593,7 +652,7 @@ pub fn suggest(symbol: &str) -> Option<&'static str> {
             } else {
                 crate::text::edit_distance(&lower, &cand.to_lowercase())
             };
-            if d <= 2 && best.is_none_or(|(bd, _)| d < bd) {
+            if d <= 2 && d < length && best.is_none_or(|(bd, _)| d < bd) {
                 best = Some((d, def.symbol));
             }
         }

@@ -25,9 +25,9 @@ let s:qty = '\%('
       \ . 'period\|r_hill\|radius\|sptype\|Msini\|Rp_Rs\|T_eff\|delta\|depth\|epoch\|'
       \ . 'log_g\|msini\|omega\|rp_rs\|v_esc\|v_orb\|K_rv\|T_eq\|Teff\|a_Rs\|'
       \ . 'a_rs\|dist\|flux\|logg\|mass\|teff\|FeH\|SpT\|T14\|T23\|'
-      \ . 'Teq\|age\|ecc\|feh\|inc\|plx\|rho\|sma\|teq\|Mp\|'
+      \ . 'Teq\|age\|feh\|plx\|rho\|sma\|teq\|Mp\|'
       \ . 'Rp\|T0\|A\|K\|L\|M\|P\|R\|S\|a\|'
-      \ . 'b\|e\|f\|g\|i\|k\|w\|ω'
+      \ . 'b\|e\|f\|g\|i\|k\|ω'
       \ . '\)'
 
 " Comments, with the silencing form `# allow(rule-id): reason`.

@@ -18,15 +18,26 @@ pub fn hover(
     method: &Method,
 ) -> Option<(String, Span)> {
     let o = symbols::at(occ, offset)?;
-    let with_method = |mut text: String| {
-        if !method.line.is_empty() {
+    // Only a hover that shows numbers says how they were propagated.
+    let with_method = |mut text: String, numbers: bool| {
+        if numbers && !method.line.is_empty() {
             text.push_str(&format!("\n\n---\nuncertainties: {}\n", method.line));
         }
         text
     };
+    let body_of = |si: usize, name: &str| {
+        let bi = a.model.systems.get(si)?.body(name)?;
+        a.results.get(si)?.bodies.get(bi)
+    };
     let text = match &o.symbol {
-        Symbol::Quantity { system, body, qty } => with_method(quantity(a, *system, body, *qty)?),
-        Symbol::Body { system, name } => with_method(body_table(a, *system, name)?),
+        Symbol::Quantity { system, body, qty } => with_method(
+            quantity(a, *system, body, *qty)?,
+            body_of(*system, body).is_some_and(|r| r.get(*qty).is_some_and(has_number)),
+        ),
+        Symbol::Body { system, name } => with_method(
+            body_table(a, *system, name)?,
+            body_of(*system, name).is_some_and(|r| r.quantities.iter().any(has_number)),
+        ),
         Symbol::Unit(sym) => unit(sym),
         Symbol::Ref(id) => match a.model.refs.iter().find(|r| &r.id == id) {
             Some(r) => format!("**reference `{id}`**\n\n{}", r.text),
@@ -36,6 +47,11 @@ pub fn hover(
         Symbol::Builtin(name) => builtin(name),
     };
     Some((text, o.span))
+}
+
+/// Whether a result is a number (not a text such as a spectral type).
+fn has_number(q: &QuantityResult) -> bool {
+    q.text.is_none()
 }
 
 fn builtin(name: &str) -> String {
@@ -72,6 +88,11 @@ fn other_units(q: &QuantityResult) -> Vec<String> {
     let def = quantities::def(q.qty);
     let main = display_unit(q.qty, q.value);
     let mut out = Vec::new();
+    // A plain number (an eccentricity, an impact parameter) is not a fraction: only a
+    // quantity shown in %, ppt or ppm is offered in the others.
+    if def.dim.is_none() && main.symbol == "1" {
+        return out;
+    }
     for (sym, name) in crate::units::units_for(def.dim) {
         if sym == main.symbol || name.starts_with("Julian date") || sym == "dex" {
             continue;
@@ -111,8 +132,9 @@ pub fn quantity(a: &Analysis, si: usize, body: &str, qty: Qty) -> Option<String>
     let mut out = format!("**{body}.{}** — {}\n\n", def.name, def.doc);
     let Some(q) = result(a, si, bi, qty) else {
         out.push_str(&format!(
-            "dimension: {}\n\nnot declared, and not derivable from what the file declares",
-            def.dim.describe()
+            "dimension: {}\n\n{}",
+            def.dim.describe(),
+            crate::report::missing_text(a, si, bi, qty)
         ));
         return Some(out);
     };
@@ -215,13 +237,22 @@ pub fn unit(sym: &str) -> String {
     } else {
         format!(" (an SI prefix on `{}`)", def.symbol)
     };
+    let value = crate::format::number(factor);
+    // A dimensionless unit's SI unit is the number 1: `1 ppm = 1e-6 1` would read oddly.
+    let definition = if def.symbol == "dex" {
+        format!("`{sym}` counts powers of ten (a decimal logarithm of a ratio)")
+    } else if def.dim.is_none() {
+        format!("`1 {sym} = {value}` (a dimensionless ratio)")
+    } else {
+        format!(
+            "`1 {sym} = {value} {}` ({})",
+            def.dim.si_unit(),
+            def.dim.describe()
+        )
+    };
     format!(
-        "**`{sym}`** — {}{prefixed}\n\n`1 {sym} = {} {}` ({})\n\nsource: {}",
-        def.name,
-        crate::format::number(factor),
-        def.dim.si_unit(),
-        def.dim.describe(),
-        def.source
+        "**`{sym}`** — {}{prefixed}\n\n{definition}\n\nsource: {}",
+        def.name, def.source
     )
 }
 
@@ -291,5 +322,52 @@ mod tests {
         assert!(h.contains("nominal solar mass"), "{h}");
         assert!(h.contains("IAU 2015"), "{h}");
         assert!(unit("km").contains("1 km = 1000 m"));
+    }
+
+    #[test]
+    fn a_dimensionless_unit_reads_as_a_ratio() {
+        let h = unit("ppm");
+        assert!(h.contains("`1 ppm = 1e-6` (a dimensionless ratio)"), "{h}");
+        assert!(!h.contains("1e-6 1"), "{h}");
+        assert!(unit("%").contains("`1 % = 0.01` (a dimensionless ratio)"));
+        assert!(unit("dex").contains("powers of ten"), "{}", unit("dex"));
+    }
+
+    /// The hover at the `nth` match of `needle` in `src`, with the editor's method line.
+    fn hover_in(src: &str, needle: &str) -> String {
+        let a = crate::analyze(FileId(0), src, &crate::Settings::linear());
+        let occ = symbols::occurrences(&a.ast);
+        let off = src.find(needle).unwrap();
+        let m = crate::settings::EditorSettings::new(None).method();
+        hover(&a, &occ, off, &m).map(|h| h.0).unwrap_or_default()
+    }
+
+    const LIMITS: &str = "system \"S\" {\n star s { mass = 1 ± 0.1 Msun; radius = 1 ± 0.1 Rsun }\n planet b orbits s {\n  period = 3 ± 0.1 d\n  eccentricity = 0.2 ± 0.05\n  impact = 0.3 ± 0.1\n  mass > 0.5 Mjup\n  radius = sqrt(b.transit_depth) * s.radius\n }\n}\n";
+
+    #[test]
+    fn a_value_without_a_result_says_why_and_shows_no_method() {
+        let h = hover_in(LIMITS, "mass > 0.5");
+        assert!(h.contains("a lower limit (`> 0.5 Mjup`)"), "{h}");
+        assert!(h.contains("not used for derivation"), "{h}");
+        assert!(!h.contains("not declared"), "{h}");
+        assert!(!h.contains("uncertainties:"), "no numbers, no method: {h}");
+        let h = hover_in(LIMITS, "radius = sqrt");
+        assert!(h.contains("expression that could not be evaluated"), "{h}");
+        assert!(h.contains("it needs b.transit_depth"), "{h}");
+        assert!(!h.contains("uncertainties:"), "{h}");
+        let h = hover_in(LIMITS, "transit_depth)");
+        assert!(h.contains("not declared, and not derivable"), "{h}");
+    }
+
+    #[test]
+    fn plain_numbers_are_not_offered_in_ppm() {
+        for needle in ["eccentricity", "impact"] {
+            let h = hover_in(LIMITS, needle);
+            assert!(h.contains("- origin: declared"), "{needle}: {h}");
+            assert!(!h.contains("ppm") && !h.contains(" %"), "{needle}: {h}");
+        }
+        // A depth is a fraction: its other units stay.
+        let h = hover_at("transit_depth", 0);
+        assert!(h.contains("ppm"), "{h}");
     }
 }

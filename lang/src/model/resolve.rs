@@ -515,6 +515,12 @@ fn literal(l: &ast::Literal, diags: &mut Vec<Diagnostic>) -> Option<(Node, Dimen
     let (below, above, form, spread) = match l.uncertainty {
         Uncertainty::None => return Some((Node::Exact(l.value * k), unit.dim)),
         Uncertainty::Symmetric(s, _) => (s, s, Form::Symmetric, format!(" ± {}", num(s))),
+        Uncertainty::Quadrature(ref parts, span) => {
+            diags.push(super::value::combined_note(span, parts, &unit.text));
+            let s = super::value::quadrature(parts);
+            let written: String = parts.iter().map(|p| format!(" ± {}", num(*p))).collect();
+            (s, s, Form::Symmetric, written)
+        }
         Uncertainty::Asymmetric { plus, minus, .. } => (
             minus,
             plus,

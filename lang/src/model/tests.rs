@@ -176,3 +176,85 @@ fn literals_inside_expressions_are_converted_and_keep_their_uncertainty() {
     assert!((l.measurement.below - 7.1492e6).abs() < 1e-6);
     assert_eq!(l.written, "1 ± 0.1");
 }
+
+/// The one diagnostic of a planet property `prop` (a star `s` is its host).
+fn only_diagnostic(prop: &str) -> Diagnostic {
+    let src =
+        format!("system \"S\" {{\n star s {{ mass = 1 Msun }}\n planet b orbits s {{ {prop} }} }}");
+    let (_, diags) = lower_text(&src);
+    assert_eq!(diags.len(), 1, "{prop}: {diags:?}");
+    diags.into_iter().next().unwrap()
+}
+
+#[test]
+fn several_uncertainties_are_combined_in_quadrature_with_a_note() {
+    let (m, diags) = lower_text(
+        "system \"S\" {\n star s { mass = 1 Msun }\n planet b orbits s { mass = 0.4 ± 0.03 ± 0.04 Mjup } }",
+    );
+    assert_eq!(diags.len(), 1, "{diags:?}");
+    assert_eq!(diags[0].rule, Rule::CombinedUncertainty);
+    assert_eq!(diags[0].severity, crate::diagnostic::Severity::Note);
+    assert!(diags[0].message.contains("± 0.05 Mjup"), "{:?}", diags[0]);
+    let Content::Measured(v) = &m.systems[0].bodies[1].get(Qty::Mass).unwrap().content else {
+        panic!("a measurement");
+    };
+    // sqrt(0.03^2 + 0.04^2) = 0.05 exactly (a 3-4-5 triangle).
+    let mjup = crate::constants::M_JUPITER;
+    assert!((v.below / mjup - 0.05).abs() < 1e-12, "{}", v.below / mjup);
+    assert_eq!(v.below, v.above);
+    assert_eq!(v.form, Form::Symmetric);
+    // In an expression too.
+    let d = only_diagnostic("let k = 0.1 ± 0.03 ± 0.04\n radius_ratio = k");
+    assert_eq!(d.rule, Rule::CombinedUncertainty);
+}
+
+#[test]
+fn celsius_gets_the_value_in_kelvin() {
+    let d = only_diagnostic("teq = 1500 ± 30 C");
+    assert_eq!(d.rule, Rule::UnknownUnit);
+    let help = d.help.unwrap();
+    assert!(help.contains("`teq = 1773.15 ± 30 K`"), "{help}");
+    assert!(!help.contains("'m'"), "{help}");
+    // Fahrenheit: 212 °F = 373.15 K, and a spread of 9 °F is 5 K.
+    let help = only_diagnostic("teq = 212 ± 9 degF").help.unwrap();
+    assert!(help.contains("`teq = 373.15 ± 5 K`"), "{help}");
+    // Not a temperature: no conversion, but no nonsense guess either.
+    let d = only_diagnostic("period = 3 C");
+    assert!(d.help.unwrap().contains("kelvin"));
+}
+
+#[test]
+fn out_of_range_suggests_a_commonly_confused_unit() {
+    let help = only_diagnostic("transit_depth = 1850 ± 100 %")
+        .help
+        .unwrap();
+    assert!(help.contains("`transit_depth = 1850 ± 100 ppm`"), "{help}");
+    let help = only_diagnostic("transit_depth = 1850").help.unwrap();
+    assert!(help.contains("ppm"), "{help}");
+    let help = only_diagnostic("inclination = 88 rad").help.unwrap();
+    assert!(help.contains("`inclination = 88 deg`"), "{help}");
+    // An eccentricity is no percentage, and nothing puts 1e9 % in range.
+    assert_eq!(only_diagnostic("eccentricity = 1.3").help, None);
+    assert_eq!(only_diagnostic("transit_depth = 1e12 %").help, None);
+}
+
+#[test]
+fn abbreviations_that_are_not_names_point_to_the_quantity() {
+    for (written, meant) in [
+        ("inc = 88 deg", "inclination"),
+        ("ecc = 0.1", "eccentricity"),
+        ("w = 90 deg", "arg_periastron"),
+    ] {
+        let d = only_diagnostic(written);
+        assert_eq!(d.rule, Rule::UnknownQuantity, "{written}");
+        assert_eq!(
+            d.help.as_deref(),
+            Some(&*format!("did you mean '{meant}'?"))
+        );
+    }
+    // The trade's symbols stay.
+    let (_, diags) = lower_text(
+        "system \"S\" {\n star s { mass = 1 Msun }\n planet b orbits s { i = 88 deg; e = 0.1; omega = 90 deg } }",
+    );
+    assert!(diags.is_empty(), "{diags:?}");
+}

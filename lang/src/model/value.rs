@@ -27,7 +27,7 @@ pub(super) fn unknown_quantity(kind: BodyKind, name: &ast::Ident) -> Diagnostic 
         BodyKind::Star => BodyKind::Planet,
         BodyKind::Planet => BodyKind::Star,
     };
-    if let Some(s) = crate::text::closest(&name.name, quantities::names_for(kind)) {
+    if let Some(s) = quantities::suggest(kind, &name.name) {
         d = d.with_help(format!("did you mean '{s}'?"));
     } else if quantities::find(other, &name.name).is_some() {
         d = d.with_help(format!(
@@ -136,7 +136,13 @@ pub(super) fn lower_value(
             Ok(u) => u,
             Err(errs) => {
                 for (span, e) in errs {
-                    diags.push(unknown_unit(span, &e));
+                    let d = unknown_unit(span, &e);
+                    diags.push(match units::offset_scale(&e.symbol) {
+                        Some(scale) if def.dim == Dimension::TEMPERATURE => {
+                            in_kelvin(d, def, sign, lit, scale)
+                        }
+                        _ => d,
+                    });
                 }
                 return None;
             }
@@ -156,6 +162,11 @@ pub(super) fn lower_value(
         }
         (Uncertainty::Asymmetric { plus, minus, .. }, Relation::Equal) => {
             (minus * unit.factor, plus * unit.factor, Form::Asymmetric)
+        }
+        (Uncertainty::Quadrature(parts, span), Relation::Equal) => {
+            let s = quadrature(parts);
+            diags.push(combined_note(*span, parts, &unit.text));
+            (s * unit.factor, s * unit.factor, Form::Symmetric)
         }
         (_, _) => {
             diags.push(
@@ -216,6 +227,9 @@ pub(super) fn lower_value(
         if def.qty == Qty::Eccentricity && value >= 1.0 {
             d = d.with_note("an eccentricity of 1 or more describes an unbound orbit");
         }
+        if let Some(help) = other_unit_in_range(def, sign, lit, &unit) {
+            d = d.with_help(help);
+        }
         diags.push(d);
         return None;
     }
@@ -231,12 +245,137 @@ pub(super) fn lower_value(
     ))
 }
 
+/// Independent uncertainties of one value combined: the square root of their squares' sum.
+pub(super) fn quadrature(parts: &[f64]) -> f64 {
+    parts.iter().map(|p| p * p).sum::<f64>().sqrt()
+}
+
+/// The note that says several uncertainties were combined, and into what.
+pub(super) fn combined_note(span: Span, parts: &[f64], unit: &str) -> Diagnostic {
+    let written: Vec<String> = parts
+        .iter()
+        .map(|p| format!("± {}", crate::format::number(*p)))
+        .collect();
+    let squares: Vec<String> = parts
+        .iter()
+        .map(|p| format!("{}^2", crate::format::number(*p)))
+        .collect();
+    let q = quadrature(parts);
+    // Three significant digits, without trailing zeros.
+    let combined = crate::format::number(crate::format::sig(q, 3).parse().unwrap_or(q));
+    let unit = if unit.is_empty() {
+        String::new()
+    } else {
+        format!(" {unit}")
+    };
+    Diagnostic::new(
+        Rule::CombinedUncertainty,
+        span,
+        format!(
+            "the uncertainties {} are combined in quadrature: ± {combined}{unit}",
+            written.join(" ")
+        ),
+    )
+    .with_note(format!(
+        "taken as independent (a statistical and a systematic uncertainty, say): \
+         sqrt({}) = {combined}; if they are correlated, write the combined uncertainty \
+         as one `± s`",
+        squares.join(" + ")
+    ))
+}
+
+/// Units people mix up, by the unit written (`""`: none): tried in order when a value is out
+/// of range. Fractions only for quantities quoted as fractions (a depth, not an
+/// eccentricity, for which `1.3` is no misplaced percentage).
+const CONFUSED: &[(&str, &[&str])] = &[
+    ("%", &["ppm"]),
+    ("ppt", &["ppm"]),
+    ("", &["%", "ppm"]),
+    ("rad", &["deg"]),
+];
+
+/// "Did you mean ppm?" for a value out of range that a commonly confused unit puts in range.
+fn other_unit_in_range(
+    def: &QuantityDef,
+    sign: f64,
+    lit: &ast::Literal,
+    written: &units::Unit,
+) -> Option<String> {
+    if def.dim.is_none() && !["%", "ppm", "ppt"].contains(&def.display) {
+        return None;
+    }
+    let (_, others) = CONFUSED.iter().find(|(w, _)| *w == written.text)?;
+    let other = others.iter().find_map(|sym| {
+        let u = units::parse_unit_text(sym)?;
+        (u.dim == def.dim && def.in_range(sign * lit.value * u.factor)).then_some(*sym)
+    })?;
+    let value = crate::format::number(sign * lit.value);
+    Some(format!(
+        "did you mean {other}? `{} = {value}{} {other}` lies in the range",
+        def.name,
+        spread_text(&lit.uncertainty, 1.0)
+    ))
+}
+
+/// The uncertainty as written after a value, each part times `scale`.
+fn spread_text(u: &Uncertainty, scale: f64) -> String {
+    let k = |x: f64| crate::format::number(x * scale);
+    match u {
+        Uncertainty::None => String::new(),
+        Uncertainty::Symmetric(s, _) => format!(" ± {}", k(*s)),
+        Uncertainty::Quadrature(parts, _) => {
+            parts.iter().map(|p| format!(" ± {}", k(*p))).collect()
+        }
+        Uncertainty::Asymmetric { plus, minus, .. } => format!(" +{}/-{}", k(*plus), k(*minus)),
+    }
+}
+
+/// A temperature written on an offset scale, given back in kelvin when the value is one
+/// number with that one unit.
+fn in_kelvin(
+    d: Diagnostic,
+    def: &QuantityDef,
+    sign: f64,
+    lit: &ast::Literal,
+    scale: units::OffsetScale,
+) -> Diagnostic {
+    let single = lit
+        .unit
+        .as_ref()
+        .is_some_and(|u| matches!(u.factors.as_slice(), [f] if f.exponent == 1));
+    if !single {
+        return d;
+    }
+    let n = crate::format::number;
+    let spread = spread_text(&lit.uncertainty, scale.per_degree);
+    let kelvin = n(scale.kelvin(sign * lit.value));
+    d.with_help(format!(
+        "write kelvin: `{} = {kelvin}{spread} K` ({} {} is {kelvin} K)",
+        def.name,
+        n(sign * lit.value),
+        scale.symbol
+    ))
+}
+
 pub(crate) fn unknown_unit(span: Span, e: &units::UnknownUnit) -> Diagnostic {
     let d = Diagnostic::new(
         Rule::UnknownUnit,
         span,
         format!("unknown unit '{}'", e.symbol),
     );
+    if let Some(scale) = units::offset_scale(&e.symbol) {
+        return d
+            .with_help(format!(
+                "if '{}' means {}, write the temperature in kelvin: {}",
+                e.symbol,
+                scale.name,
+                scale.rule()
+            ))
+            .with_note(
+                "temperatures are taken in kelvin only: a scale with an offset would convert \
+                 a temperature and a difference of temperatures differently",
+            );
+    }
     match e.suggestion {
         Some(s) => d.with_help(format!("did you mean '{s}'?")),
         None => {

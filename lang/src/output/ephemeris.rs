@@ -59,8 +59,12 @@ impl Ephemeris {
             .ok_or("no results for this body")?;
         let epoch = res.get(Qty::TransitEpoch).ok_or_else(|| {
             format!(
-                "'{}' declares no transit_epoch; add e.g. `transit_epoch = 2460123.4567 ± 0.0004 BJD_TDB`",
-                b.id
+                "'{id}' declares no transit_epoch, and an ephemeris counts periods from one \
+                 observed mid-transit time of the planet itself. Declare the time of one of \
+                 {id}'s transits in `planet {id}`, as a Julian date with its time scale \
+                 (`transit_epoch = JD ± UNCERTAINTY BJD_TDB`; see docs/timescales.md for the \
+                 others) or as a UTC timestamp (`transit_epoch = \"YYYY-MM-DDThh:mm:ssZ\"`)",
+                id = b.id
             )
         })?;
         let period = res
@@ -213,6 +217,9 @@ mod tests {
         let a = analysis(src);
         let err = Ephemeris::of(&a, 0, 1).unwrap_err();
         assert!(err.contains("transit_epoch"), "{err}");
+        assert!(err.contains("planet b"), "says where to declare it: {err}");
+        // No number to paste: another planet's epoch would give a wrong ephemeris.
+        assert!(!err.chars().any(|c| c.is_ascii_digit()), "{err}");
         assert!(Ephemeris::of(&a, 0, 0).is_err());
     }
 

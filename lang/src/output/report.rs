@@ -267,6 +267,82 @@ pub fn find_body(a: &Analysis, system: Option<&str>, body: &str) -> Option<(usiz
     })
 }
 
+/// The property of body `bi` of system `si` that declares `qty`, as written.
+fn declaration(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<&crate::ast::Prop> {
+    let sys = a.model.systems.get(si)?;
+    let body = sys.bodies.get(bi)?;
+    a.ast
+        .systems
+        .iter()
+        .filter(|s| s.name_span == sys.name_span)
+        .flat_map(|s| &s.bodies)
+        .find(|b| b.span == body.span)?
+        .props
+        .iter()
+        .find(|p| quantities::find(body.kind, &p.name.name).is_some_and(|d| d.qty == qty))
+}
+
+/// Why a quantity has no value, in a sentence: not declared and not derivable, or declared
+/// in a way that could not be used, with what the diagnostics on the declaration say.
+pub fn missing_text(a: &Analysis, si: usize, bi: usize, qty: Qty) -> String {
+    use crate::ast::{ExprKind, PropValue, Relation};
+    let Some(p) = declaration(a, si, bi, qty) else {
+        return "not declared, and not derivable from what the file declares".to_string();
+    };
+    let why: Vec<String> = a
+        .diagnostics
+        .iter()
+        .filter(|d| {
+            d.span.file == p.span.file && d.span.start >= p.span.start && d.span.end <= p.span.end
+        })
+        .map(|d| match d.notes.first() {
+            Some(n) => format!("{}: {n}", d.message),
+            None => d.message.clone(),
+        })
+        .collect();
+    let limit = match p.relation {
+        Relation::Below => Some(("an upper limit", "<")),
+        Relation::Above => Some(("a lower limit", ">")),
+        Relation::Equal => None,
+    };
+    let what = match (&p.value, limit) {
+        (PropValue::Expr(e), Some((kind, sign))) => match &e.kind {
+            ExprKind::Literal(l) => {
+                let unit = l.unit.as_ref().map(crate::units::unit_text);
+                format!(
+                    "declared as {kind} (`{sign} {}{}`), a limit not used for derivation",
+                    crate::format::number(l.value),
+                    unit.map_or_else(String::new, |u| format!(" {u}"))
+                )
+            }
+            _ => format!("declared as {kind}, a limit not used for derivation"),
+        },
+        (PropValue::Expr(e), None) if !matches!(e.kind, ExprKind::Literal(_)) => {
+            "declared by an expression that could not be evaluated".to_string()
+        }
+        _ => "declared, but the value could not be used".to_string(),
+    };
+    if why.is_empty() {
+        what
+    } else {
+        format!("{what} ({})", why.join("; "))
+    }
+}
+
+/// The advice line under an error budget: the input to improve first. A value's own
+/// measurement is never named as what drives it: a declared value gets its own sentence.
+fn improve_line(a: &Analysis, si: usize, key: crate::derive::Key, q: &QuantityResult) -> String {
+    let me = a.key_name(si, key);
+    match q.budget.iter().find(|(input, _)| *input != me) {
+        Some((top, _)) => format!("  to improve this value, improve {top} first\n"),
+        None if q.origin == Origin::Derived => String::new(),
+        None => format!(
+            "  {me} is declared: its uncertainty is its own measurement's, and only a better \
+             measurement of it improves it\n"
+        ),
+    }
+}
+
 /// The derivation tree of one quantity down to the declared measurements, then its error
 /// budget: each independent input's share of the variance (first order).
 pub fn explain_text(a: &Analysis, si: usize, key: crate::derive::Key) -> Option<String> {
@@ -281,9 +357,7 @@ pub fn explain_text(a: &Analysis, si: usize, key: crate::derive::Key) -> Option<
         for (input, share) in &q.budget {
             out.push_str(&format!("  {input:<width$}  {:>5.1} %\n", share * 100.0));
         }
-        if let Some((top, _)) = q.budget.first() {
-            out.push_str(&format!("  to improve this value, improve {top} first\n"));
-        }
+        out.push_str(&improve_line(a, si, key, q));
     }
     let mut assumed = q.assumptions.clone();
     assumed.dedup();
@@ -349,6 +423,32 @@ fn explain_node(
             &format!("{child_lead}{c}"),
             out,
             seen,
+        );
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::source::FileId;
+
+    const SRC: &str = "system \"S\" {\n star s { mass = 1 ± 0.05 Msun; radius = 1 ± 0.02 Rsun }\n planet b orbits s {\n  period = 3 ± 0.001 d\n  transit_depth = 1 ± 0.04 %\n }\n}\n";
+
+    fn explain(qty: Qty) -> String {
+        let a = crate::analyze(FileId(0), SRC, &crate::Settings::linear());
+        explain_text(&a, 0, (1, qty)).unwrap()
+    }
+
+    #[test]
+    fn a_declared_value_is_never_its_own_driver() {
+        let e = explain(Qty::TransitDepth);
+        assert!(!e.contains("improve b.transit_depth"), "{e}");
+        assert!(e.contains("b.transit_depth is declared"), "{e}");
+        // A derived value still names its largest input.
+        let e = explain(Qty::RadiusRatio);
+        assert!(
+            e.contains("to improve this value, improve b.transit_depth first"),
+            "{e}"
         );
     }
 }

@@ -85,6 +85,26 @@ fn suggestions() {
     assert_eq!(suggest("msun"), Some("Msun"));
     assert_eq!(suggest("Rjupp"), Some("Rjup"));
     assert_eq!(suggest("qqqqqq"), None);
+    // One character is one edit from every other one-character symbol: no guess.
+    assert_eq!(suggest("C"), None);
+    assert_eq!(suggest("q"), None);
+    assert_eq!(suggest("k"), Some("K"));
+}
+
+#[test]
+fn offset_temperature_scales_are_recognised_not_registered() {
+    for sym in ["C", "°C", "degC", "celsius", "F", "°F", "degF"] {
+        assert!(offset_scale(sym).is_some(), "{sym}");
+        assert!(lookup(sym).is_none(), "{sym} must stay out of the registry");
+    }
+    let c = offset_scale("°C").unwrap();
+    let f = offset_scale("degF").unwrap();
+    // Definitions: 0 °C = 273.15 K (SI Brochure); 32 °F = 0 °C, 212 °F = 100 °C (common practice).
+    assert!(close(c.kelvin(0.0), 273.15, 1e-12));
+    assert!(close(c.kelvin(1500.0), 1773.15, 1e-12));
+    assert!(close(f.kelvin(32.0), 273.15, 1e-12));
+    assert!(close(f.kelvin(212.0), 373.15, 1e-12));
+    assert!(offset_scale("K").is_none());
 }
 
 #[test]

@@ -246,6 +246,8 @@ fn direct_reading_of_plain_measurements_matches_the_grammar() {
         "5310 +- 80 K assumed [p]",
         "7",
         "6.2e-3 %",
+        "0.40 ± 0.05 ± 0.02 Mjup [a]",
+        "1 ± 0.1 ± 0.2 ± 0.3",
     ] {
         let src = format!("system \"S\" {{ star s {{ x = {value} }} }}");
         assert_eq!(read_directly(&src), 1, "{value}: the fast path declined it");
@@ -361,4 +363,44 @@ fn parsing_stops_after_too_many_syntax_errors() {
         &format!("{}\n{}\n", ";".repeat(100_000), "}".repeat(5000)),
     );
     assert_eq!(p.diagnostics.len(), 1);
+}
+
+#[test]
+fn several_symmetric_uncertainties_are_kept_as_written() {
+    let f = parse_ok("system \"S\" { star s { mass = 0.40 ± 0.05 ± 0.02 Msun } }");
+    let PropValue::Expr(e) = &f.systems[0].bodies[0].props[0].value else {
+        panic!("not an expression");
+    };
+    let ExprKind::Literal(l) = &e.kind else {
+        panic!("not a literal: {e:?}");
+    };
+    assert!(matches!(&l.uncertainty, Uncertainty::Quadrature(p, _) if p == &[0.05, 0.02]));
+}
+
+fn help_of(value: &str) -> Option<String> {
+    let src = format!("system \"S\" {{ star s {{ x = {value} }} }}");
+    let p = parse(FileId(0), &src);
+    assert_eq!(p.diagnostics.len(), 1, "{value}: {:?}", p.diagnostics);
+    p.diagnostics.into_iter().next().and_then(|d| d.help)
+}
+
+#[test]
+fn swapped_asymmetric_uncertainty_gets_the_right_order_in_its_help() {
+    let h = help_of("1.1 -0.03/+0.05 Rjup").unwrap();
+    assert!(h.contains("`+0.05/-0.03`"), "{h}");
+    assert!(h.contains("+above/-below"), "{h}");
+}
+
+#[test]
+fn a_unit_before_the_uncertainty_gets_the_value_rewritten() {
+    let h = help_of("1.2 Mjup ± 0.1").unwrap();
+    assert!(h.contains("`1.2 ± 0.1 Mjup`"), "{h}");
+    let h = help_of("1.2 km/s ± 0.1").unwrap();
+    assert!(h.contains("`1.2 ± 0.1 km/s`"), "{h}");
+    // A unit after each part: both parts before the one unit.
+    let h = help_of("0.4 ± 0.05 Mjup ± 0.02 Mjup").unwrap();
+    assert!(h.contains("`0.4 ± 0.05 ± 0.02 Mjup`"), "{h}");
+    assert!(h.contains("quadrature"), "{h}");
+    // A '±' elsewhere gets no such help.
+    assert!(!help_of("± 0.1").unwrap_or_default().contains("goes after"));
 }

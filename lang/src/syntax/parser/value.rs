@@ -239,9 +239,20 @@ impl Cursor<'_> {
                 let (value, value_span) = num(0)?;
                 i = 1;
                 let uncertainty = if kind(1) == Some(Tok::PlusMinus) {
-                    let (s, end) = num(2)?;
+                    let (s, mut end) = num(2)?;
                     i = 3;
-                    Uncertainty::Symmetric(s, sp(slice.get(1)?).join(end))
+                    let mut parts = vec![s];
+                    while kind(i) == Some(Tok::PlusMinus) {
+                        let (more, at) = num(i + 1)?;
+                        parts.push(more);
+                        end = at;
+                        i += 2;
+                    }
+                    let span = sp(slice.get(1)?).join(end);
+                    match parts.as_slice() {
+                        [one] => Uncertainty::Symmetric(*one, span),
+                        _ => Uncertainty::Quadrature(parts, span),
+                    }
                 } else if kind(1) == Some(Tok::Plus)
                     && kind(3) == Some(Tok::Slash)
                     && kind(4) == Some(Tok::Minus)
@@ -376,12 +387,74 @@ impl Cursor<'_> {
             format!("expected {}, found {found}", join_or(&expected))
         };
         let mut d = Diagnostic::new(Rule::Syntax, span, msg);
-        if matches!(e.found, Some(Tok::Ident | Tok::Number)) {
+        if let Some(help) = self.misplaced_uncertainty(r.start, e.found) {
+            d = d.with_help(help);
+        } else if matches!(e.found, Some(Tok::Ident | Tok::Number)) {
             d = d.with_help(
                 "a unit follows the whole measurement: `1.2 ± 0.1 Rjup`; to multiply, write `*`",
             );
         }
         d
+    }
+}
+
+impl Cursor<'_> {
+    /// Help for an uncertainty written in a form the grammar does not take, found at
+    /// `at`: `-below/+above` (the parts swapped), or a unit before the uncertainty.
+    fn misplaced_uncertainty(&self, at: usize, found: Option<Tok>) -> Option<String> {
+        let i = self.toks.partition_point(|t| t.start < at);
+        let back = |n: usize| i.checked_sub(n).and_then(|j| self.toks.get(j));
+        let kind = |n: usize| back(n).map(|t| t.kind);
+        let ahead = |n: usize| self.toks.get(i + n);
+        let text = |t: Option<&Token>| t.map_or("", |t| self.text(*t));
+        match found? {
+            // `1.1 -0.03/+0.05 Rjup`: found '+' after `- NUMBER /`.
+            Tok::Plus
+                if kind(1) == Some(Tok::Slash)
+                    && kind(2) == Some(Tok::Number)
+                    && kind(3) == Some(Tok::Minus) =>
+            {
+                let below = text(back(2));
+                let above = ahead(1)
+                    .filter(|t| t.kind == Tok::Number)
+                    .map_or("ABOVE", |t| self.text(*t));
+                Some(format!(
+                    "an asymmetric uncertainty is written `+above/-below`, the part above the \
+                     value first: `+{above}/-{below}`"
+                ))
+            }
+            // `1.2 Mjup ± 0.1`: found '±' after a unit that follows a number.
+            Tok::PlusMinus if kind(1) == Some(Tok::Ident) => {
+                let mut j = 1;
+                while matches!(kind(j), Some(Tok::Ident | Tok::Caret | Tok::Slash))
+                    || (kind(j) == Some(Tok::Number) && kind(j + 1) == Some(Tok::Caret))
+                    || (kind(j) == Some(Tok::Minus) && kind(j + 1) == Some(Tok::Caret))
+                {
+                    j += 1;
+                }
+                let value_end = back(j).filter(|t| t.kind == Tok::Number)?.end;
+                // The measurement before the unit: a number, perhaps with `± s` already.
+                let mut k = j;
+                while kind(k + 1) == Some(Tok::PlusMinus) && kind(k + 2) == Some(Tok::Number) {
+                    k += 2;
+                }
+                let value = self.src.get(back(k)?.start..value_end)?;
+                let unit = self.src.get(back(j - 1)?.start..back(1)?.end)?;
+                let spread = ahead(1)
+                    .filter(|t| t.kind == Tok::Number)
+                    .map_or("SPREAD", |t| self.text(*t));
+                let combined = if k > j {
+                    " (the uncertainties are then combined in quadrature)"
+                } else {
+                    ""
+                };
+                Some(format!(
+                    "the unit goes after the uncertainty, once for the whole measurement: \
+                     `{value} ± {spread} {unit}`{combined}"
+                ))
+            }
+            _ => None,
+        }
     }
 }
 
@@ -457,7 +530,12 @@ pub(super) fn value_parser<'a>(src: &'a str, file: FileId) -> ValueParser<'a> {
     let uncertainty = choice((
         tok(Tok::PlusMinus)
             .ignore_then(number.clone())
-            .map_with_span(move |(s, _), r: Range| Uncertainty::Symmetric(s, sp(r))),
+            .repeated()
+            .at_least(1)
+            .map_with_span(move |parts, r: Range| match parts.as_slice() {
+                [(s, _)] => Uncertainty::Symmetric(*s, sp(r)),
+                _ => Uncertainty::Quadrature(parts.iter().map(|p| p.0).collect(), sp(r)),
+            }),
         tok(Tok::Plus)
             .ignore_then(number.clone())
             .then_ignore(tok(Tok::Slash))
