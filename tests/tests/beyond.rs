@@ -37,7 +37,7 @@ fn mass_radius_diagram_is_valid_svg_with_labels_and_legend() {
         "100% iron (Fe, ε phase) — Seager et al. 2007",
         "Earth-like rock (32.5% iron core) — Zeng et al. 2016",
         "100% water ice — Seager et al. 2007",
-        "Solar System planets (NASA GSFC fact sheet, from memory)",
+        "Solar System planets (NASA GSFC planetary fact sheets)",
         "planets in the files (1σ error bars)",
         "water ice",
         "Jupiter",
