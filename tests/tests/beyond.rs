@@ -217,9 +217,10 @@ fn spectral_type_estimates_show_in_eval_json() {
         let words = star[q]["assumptions"][0].as_str().unwrap();
         assert!(words.contains("Pecaut & Mamajek 2013"), "{words}");
     }
-    // M3.5V: the table's own row, 3270 K (Mamajek's mean dwarf table, version 2024.05.15).
+    // M3.5V: the table's own row, 3270 K (Mamajek's mean dwarf table, version 2024.05.15);
+    // the value shown is a Monte Carlo median.
     let teff = star["teff"]["value"].as_f64().unwrap();
-    assert!((teff - 3270.0).abs() < 5.0, "{teff}"); // Monte Carlo median
+    assert!((teff - 3270.0).abs() < 5.0, "{teff}");
     // The estimate's assumption follows into what is derived from it.
     let planet = &v["systems"][0]["bodies"][1]["quantities"]["radius"];
     assert!(planet["assumptions"]

@@ -293,7 +293,10 @@ mod tests {
             let body = by_name(name).expect("in the table");
             let dm = rel_diff(body.mass_kg, mass_e24 * E24_KG);
             let dr = rel_diff(body.mean_radius_m, radius_km * KM);
-            assert!(dm < 2e-4 && dr < 2e-4, "{name}: mass {dm:.2e}, radius {dr:.2e}");
+            assert!(
+                dm < 2e-4 && dr < 2e-4,
+                "{name}: mass {dm:.2e}, radius {dr:.2e}"
+            );
         }
     }
 
