@@ -67,6 +67,13 @@ pub(super) const SEAGER_WATER: SeagerFit = SeagerFit {
 /// Fitted mass range of the Seager et al. (2007) relations, Earth masses (upper end: the
 /// paper's abstract, verified; lower end: the model grid's, from memory).
 pub(super) const SEAGER_MASS_RANGE_EARTH: (f64, f64) = (0.01, 20.0);
+/// Mass range, Earth masses, inside which the solid-planet classes (iron-rich, rocky,
+/// volatile-rich) are given; outside it a sample is "outside the models' range". Upper end:
+/// the Seager et al. (2007) fits' stated limit (abstract). Lower end: about Mercury's mass
+/// (0.055 M⊕), the lightest body the classes are checked on; below it the rock ceiling,
+/// Zeng's power law extrapolated far under its fitted 1 M⊕, is less dense than real rock
+/// and would call a Moon-like body iron-rich.
+pub(super) const CLASSIFIED_MASS_RANGE_EARTH: (f64, f64) = (0.05, 20.0);
 /// Applicable mass range of the Zeng et al. (2016) relation, Earth masses (abstract).
 pub(super) const ZENG_MASS_RANGE_EARTH: (f64, f64) = (1.0, 8.0);
 /// Applicable core-mass-fraction range of the Zeng et al. (2016) relation (abstract).
