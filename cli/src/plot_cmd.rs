@@ -277,7 +277,7 @@ fn mass_radius(paths: &[PathBuf], flags: &Layer, read: files::ReadArgs) -> Resul
         y_min = y_min.min(0.5 * p.radius).max(RADIUS_AXIS.start);
     }
     let mut lines = vec![
-        "Curves: Seager, Kuchner, Hier-Majumder & Militzer 2007, ApJ 669, 1279 (fit coefficients from memory); Zeng, Sasselov & Jacobsen 2016, ApJ 819, 127. Faint: extrapolated beyond the fitted mass range.".to_string(),
+        "Curves: Seager, Kuchner, Hier-Majumder & Militzer 2007, ApJ 669, 1279; Zeng, Sasselov & Jacobsen 2016, ApJ 819, 127. Faint: extrapolated beyond the fitted mass range.".to_string(),
     ];
     lines.extend(
         points
@@ -380,7 +380,7 @@ fn mass_radius(paths: &[PathBuf], flags: &Layer, read: files::ReadArgs) -> Resul
                 )
             }))
             .map_err(err)?
-            .label("Solar System planets (NASA GSFC fact sheet, from memory)")
+            .label("Solar System planets (NASA GSFC planetary fact sheets)")
             .legend(move |(x, y)| Circle::new((x + 11, y), 5, grey.stroke_width(2)));
         chart
             .draw_series(solar_system::PLANETS.iter().map(|p| {

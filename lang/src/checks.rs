@@ -119,14 +119,29 @@ fn composition_check(
     let p_iron = summary.probability(composition::CompositionClass::DenserThanIron);
     if p_iron.is_finite() && p_iron >= IRON_PROBABILITY {
         let density = nominal(d, (bi, Qty::Density)).unwrap_or(f64::NAN);
-        let iron = composition::density_of_pure_iron_body(mass).unwrap_or(f64::NAN);
-        let iron_r = composition::iron_radius(mass).map_or(f64::NAN, |r| r / R_EARTH);
+        // The same curve the classes were decided on: the iron fit, extrapolated where the
+        // mass is outside its fitted range, and said so.
+        let iron_curve = composition::radius_of_extrapolated(composition::Curve::PureIron, mass);
+        let iron = iron_curve.map_or(f64::NAN, |p| {
+            mass / (4.0 / 3.0 * std::f64::consts::PI * p.radius_m.powi(3))
+        });
+        let iron_r = iron_curve.map_or(f64::NAN, |p| p.radius_m / R_EARTH);
+        let (fit_lo, fit_hi) = composition::Curve::PureIron.mass_range_earth();
+        let extrapolated = if iron_curve.is_some_and(|p| p.extrapolated) {
+            format!(
+                " (the iron curve extrapolated beyond its fitted {}-{} Mearth)",
+                crate::format::number(fit_lo),
+                crate::format::number(fit_hi)
+            )
+        } else {
+            String::new()
+        };
         diags.push(
             Diagnostic::new(
                 Rule::DenserThanIron,
                 anchor(d, bi, &[Qty::Radius, Qty::TransitDepth, Qty::RadiusRatio, Qty::Mass]),
                 format!(
-                    "{} is denser than pure iron: {} at {}, where a pure-iron body would have {} and a radius of {:.2} Rearth (probability {:.1}%)",
+                    "{} is denser than pure iron: {} at {}, where a pure-iron body would have {} and a radius of {:.2} Rearth{extrapolated} (probability {:.1}%)",
                     d.sys.bodies.get(bi).map_or("?", |b| b.id.as_str()),
                     shown(Qty::Density, density),
                     shown(Qty::Mass, mass),
@@ -151,13 +166,16 @@ fn composition_check(
         .join(", ");
     let extrapolated = summary.extrapolated;
     // Giants are classed by mass and radius thresholds, not by the solid-planet curves, so
-    // extrapolation is only worth saying for small planets.
-    let text =
-        if extrapolated > 0.5 && mass < composition::ClassBoundaries::default().giant_min_mass_kg {
-            format!("{text} (curves extrapolated beyond their fitted masses)")
-        } else {
-            text
-        };
+    // extrapolation is only worth saying for small planets; and not at all where no solid
+    // class was given.
+    let text = if best == Some(CompositionClass::OutsideModels) {
+        format!("{text} ({})", CompositionClass::OutsideModels.description())
+    } else if extrapolated > 0.5 && mass < composition::ClassBoundaries::default().giant_min_mass_kg
+    {
+        format!("{text} (curves extrapolated beyond their fitted masses)")
+    } else {
+        text
+    };
     let _ = radius;
     Some(CompositionNote {
         body: bi,

@@ -101,6 +101,78 @@ fn denser_than_iron_fires_and_a_rocky_planet_does_not() {
     );
 }
 
+/// Both ways the checker finds class probabilities: Monte Carlo samples and first-order
+/// quadrature.
+fn both_propagations(src: &str) -> [Analysis; 2] {
+    [run(src), analyze(FileId(0), src, &Options::linear().into())]
+}
+
+#[test]
+fn denser_than_iron_above_the_fitted_masses_names_the_curve_it_used() {
+    // 40 Earth masses in 1.2 Earth radii: decided on the Seager et al. (2007) iron curve
+    // extrapolated beyond its fitted 20 Mearth (the paper's abstract); the message must give
+    // that curve's numbers, not the range-limited curve's NaN, and say it was extrapolated.
+    let src = one_planet("period = 5 d; mass = 40 ± 2 Mearth; radius = 1.2 ± 0.02 Rearth");
+    let iron = crate::composition::radius_of_extrapolated(
+        crate::composition::Curve::PureIron,
+        40.0 * crate::constants::M_EARTH,
+    )
+    .unwrap();
+    assert!(iron.extrapolated);
+    let radius = format!(
+        "a radius of {:.2} Rearth",
+        iron.radius_m / crate::constants::R_EARTH
+    );
+    for a in both_propagations(&src) {
+        let msg = &a
+            .diagnostics
+            .iter()
+            .find(|d| d.rule == Rule::DenserThanIron)
+            .unwrap_or_else(|| panic!("{:#?}", a.diagnostics))
+            .message;
+        assert!(!msg.contains("NaN"), "{msg}");
+        assert!(msg.contains(&radius), "{msg}");
+        assert!(
+            msg.contains("the iron curve extrapolated beyond its fitted 0.01-20 Mearth"),
+            "{msg}"
+        );
+    }
+    // Inside the fitted range nothing is said about extrapolation.
+    let inside = run(&one_planet(
+        "period = 5 d; mass = 10 ± 0.5 Mearth; radius = 1.0 ± 0.02 Rearth",
+    ));
+    let msg = &inside
+        .diagnostics
+        .iter()
+        .find(|d| d.rule == Rule::DenserThanIron)
+        .unwrap()
+        .message;
+    assert!(!msg.contains("extrapolated"), "{msg}");
+}
+
+#[test]
+fn a_moon_like_body_is_outside_the_models_range_not_iron_rich() {
+    // Mass and mean radius of the Moon (NASA GSFC lunar fact sheet, from memory: 0.07346e24 kg,
+    // 1737.4 km), about 0.0123 Mearth: far below the masses the classes are given for.
+    let src = one_planet("period = 30 d; mass = 0.0123 ± 0.0002 Mearth; radius = 1737 ± 10 km");
+    for a in both_propagations(&src) {
+        let c = a
+            .composition
+            .get(&(0, "b".to_string()))
+            .unwrap_or_else(|| panic!("no composition: {:#?}", a.diagnostics));
+        assert_eq!(c.json.most_probable, Some("outside-models-range"), "{c:?}");
+        assert!(c.text.contains("outside the models' range"), "{}", c.text);
+        assert!(!c.text.contains("iron-rich"), "{}", c.text);
+        assert!(!rules(&a).contains(&Rule::DenserThanIron));
+    }
+    // Mercury's mass (0.0553 Mearth, fact sheet, from memory) is still inside, and classed.
+    let mercury = one_planet("period = 88 d; mass = 0.0553 ± 0.0005 Mearth; radius = 2440 ± 10 km");
+    for a in both_propagations(&mercury) {
+        let c = a.composition.get(&(0, "b".to_string())).unwrap();
+        assert_eq!(c.json.most_probable, Some("iron-rich"), "{c:?}");
+    }
+}
+
 #[test]
 fn brown_dwarf_and_star_companions() {
     let bd = run(&one_planet("period = 5 d; mass = 20 ± 1 Mjup"));

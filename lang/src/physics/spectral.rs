@@ -6,10 +6,16 @@
 //!
 //! # The table
 //!
-//! Effective temperature, radius and mass of mean dwarfs from A0V to M9V, after the dwarf
-//! sequence of Pecaut & Mamajek (2013, ApJS 208, 9, Table 5, in its later online
-//! revisions). Every number below was recalled, not read from the table while writing:
-//! all are "from memory", good to a few percent at best.
+//! Effective temperature, radius and mass of mean dwarfs from A0V to M9V, every row as
+//! published in E. Mamajek's online table "A Modern Mean Dwarf Stellar Color and Effective
+//! Temperature Sequence" (`EEM_dwarf_UBVIJHK_colors_Teff.txt`), whose header reads
+//! "Version 2024.05.15" (its change log runs to 2024.09.23, when the A–L masses were
+//! updated). Much of the table appeared as Table 5 of Pecaut & Mamajek (2013, ApJS 208, 9),
+//! which the file asks to be cited. The copy read is the one the author keeps in the public
+//! repository `emamajek/SpectralType` (commit 049272b, 2024-09-28); columns `Teff`,
+//! `R_Rsun` and `Msun`, half-subtypes included (F9.5V, M0.5V, ...). The file calls the
+//! adopted masses "tentative", and its radii come from Teff and log L (rounded to three
+//! significant figures).
 //!
 //! # Uncertainties
 //!
@@ -146,41 +152,72 @@ const fn row(index: f64, teff_k: f64, radius_rsun: f64, mass_msun: f64) -> Dwarf
 }
 
 /// The source of [`DWARF_SEQUENCE`], shown with every estimate.
-pub const TABLE_SOURCE: &str =
-    "mean main-sequence dwarf table after Pecaut & Mamajek 2013, ApJS 208, 9 (values from memory)";
+pub const TABLE_SOURCE: &str = "mean main-sequence dwarf table of Pecaut & Mamajek 2013 (ApJS 208, 9), online version 2024.05.15 by E. Mamajek";
 
-/// Mean dwarfs, A0V to M9V (Pecaut & Mamajek 2013 dwarf sequence; every value from memory).
+/// Mean dwarfs, A0V to M9V: every row of E. Mamajek's "A Modern Mean Dwarf Stellar Color and
+/// Effective Temperature Sequence", version 2024.05.15 (columns Teff, R_Rsun, Msun), as read
+/// from the file (see the module docs for where).
 pub const DWARF_SEQUENCE: &[DwarfRow] = &[
-    row(20.0, 9700.0, 2.193, 2.18),  // A0V
-    row(22.0, 8840.0, 2.136, 2.05),  // A2V
-    row(25.0, 8080.0, 1.861, 1.86),  // A5V
-    row(27.0, 7770.0, 1.794, 1.74),  // A7V
-    row(30.0, 7220.0, 1.728, 1.61),  // F0V
-    row(32.0, 6810.0, 1.473, 1.46),  // F2V
-    row(35.0, 6510.0, 1.359, 1.33),  // F5V
-    row(38.0, 6170.0, 1.217, 1.18),  // F8V
-    row(40.0, 5920.0, 1.100, 1.06),  // G0V
-    row(42.0, 5770.0, 1.012, 1.02),  // G2V
+    row(20.0, 9700.0, 2.193, 2.33),  // A0V
+    row(21.0, 9300.0, 2.136, 2.17),  // A1V
+    row(22.0, 8840.0, 2.117, 2.06),  // A2V
+    row(23.0, 8600.0, 1.861, 1.92),  // A3V
+    row(24.0, 8250.0, 1.794, 1.88),  // A4V
+    row(25.0, 8100.0, 1.785, 1.86),  // A5V
+    row(26.0, 7910.0, 1.775, 1.83),  // A6V
+    row(27.0, 7760.0, 1.750, 1.76),  // A7V
+    row(28.0, 7590.0, 1.747, 1.67),  // A8V
+    row(29.0, 7400.0, 1.747, 1.63),  // A9V
+    row(30.0, 7220.0, 1.728, 1.60),  // F0V
+    row(31.0, 7020.0, 1.679, 1.50),  // F1V
+    row(32.0, 6820.0, 1.622, 1.43),  // F2V
+    row(33.0, 6750.0, 1.578, 1.41),  // F3V
+    row(34.0, 6670.0, 1.533, 1.38),  // F4V
+    row(35.0, 6550.0, 1.473, 1.32),  // F5V
+    row(36.0, 6350.0, 1.359, 1.25),  // F6V
+    row(37.0, 6280.0, 1.324, 1.21),  // F7V
+    row(38.0, 6180.0, 1.221, 1.16),  // F8V
+    row(39.0, 6050.0, 1.167, 1.12),  // F9V
+    row(39.5, 5990.0, 1.142, 1.09),  // F9.5V
+    row(40.0, 5930.0, 1.100, 1.07),  // G0V
+    row(41.0, 5860.0, 1.060, 1.04),  // G1V
+    row(42.0, 5770.0, 1.012, 1.00),  // G2V
+    row(43.0, 5720.0, 1.002, 0.99),  // G3V
+    row(44.0, 5680.0, 0.991, 0.985), // G4V
     row(45.0, 5660.0, 0.977, 0.98),  // G5V
-    row(48.0, 5490.0, 0.927, 0.94),  // G8V
-    row(50.0, 5280.0, 0.880, 0.88),  // K0V
-    row(51.0, 5170.0, 0.845, 0.86),  // K1V
-    row(52.0, 5040.0, 0.800, 0.82),  // K2V
-    row(53.0, 4830.0, 0.750, 0.78),  // K3V
-    row(54.0, 4600.0, 0.730, 0.73),  // K4V
+    row(46.0, 5600.0, 0.949, 0.965), // G6V
+    row(47.0, 5550.0, 0.927, 0.945), // G7V
+    row(48.0, 5480.0, 0.914, 0.93),  // G8V
+    row(49.0, 5380.0, 0.853, 0.89),  // G9V
+    row(50.0, 5290.0, 0.813, 0.86),  // K0V
+    row(51.0, 5170.0, 0.797, 0.85),  // K1V
+    row(52.0, 5100.0, 0.783, 0.82),  // K2V
+    row(53.0, 4870.0, 0.755, 0.76),  // K3V
+    row(54.0, 4600.0, 0.710, 0.72),  // K4V
     row(55.0, 4440.0, 0.701, 0.70),  // K5V
-    row(56.0, 4300.0, 0.665, 0.69),  // K6V
-    row(57.0, 4050.0, 0.630, 0.64),  // K7V
-    row(60.0, 3850.0, 0.588, 0.57),  // M0V
-    row(61.0, 3660.0, 0.501, 0.50),  // M1V
-    row(62.0, 3560.0, 0.446, 0.44),  // M2V
-    row(63.0, 3430.0, 0.361, 0.37),  // M3V
-    row(64.0, 3210.0, 0.274, 0.23),  // M4V
-    row(65.0, 3060.0, 0.196, 0.162), // M5V
-    row(66.0, 2810.0, 0.137, 0.102), // M6V
+    row(56.0, 4300.0, 0.669, 0.67),  // K6V
+    row(57.0, 4090.0, 0.630, 0.64),  // K7V
+    row(58.0, 3990.0, 0.615, 0.61),  // K8V
+    row(59.0, 3930.0, 0.608, 0.60),  // K9V
+    row(60.0, 3850.0, 0.588, 0.585), // M0V
+    row(60.5, 3770.0, 0.544, 0.56),  // M0.5V
+    row(61.0, 3660.0, 0.501, 0.51),  // M1V
+    row(61.5, 3620.0, 0.482, 0.485), // M1.5V
+    row(62.0, 3560.0, 0.446, 0.45),  // M2V
+    row(62.5, 3470.0, 0.421, 0.42),  // M2.5V
+    row(63.0, 3430.0, 0.361, 0.36),  // M3V
+    row(63.5, 3270.0, 0.300, 0.29),  // M3.5V
+    row(64.0, 3210.0, 0.274, 0.24),  // M4V
+    row(64.5, 3110.0, 0.217, 0.18),  // M4.5V
+    row(65.0, 3060.0, 0.196, 0.155), // M5V
+    row(65.5, 2930.0, 0.156, 0.122), // M5.5V
+    row(66.0, 2810.0, 0.137, 0.105), // M6V
+    row(66.5, 2740.0, 0.126, 0.096), // M6.5V
     row(67.0, 2680.0, 0.120, 0.090), // M7V
-    row(68.0, 2570.0, 0.114, 0.085), // M8V
-    row(69.0, 2380.0, 0.104, 0.079), // M9V
+    row(67.5, 2630.0, 0.116, 0.088), // M7.5V
+    row(68.0, 2570.0, 0.114, 0.086), // M8V
+    row(68.5, 2420.0, 0.104, 0.080), // M8.5V
+    row(69.0, 2380.0, 0.102, 0.079), // M9V
 ];
 
 /// Mean dwarf properties at a spectral-type index, interpolated linearly between the
@@ -331,23 +368,47 @@ mod tests {
         }
     }
 
+    /// Rows of E. Mamajek, "A Modern Mean Dwarf Stellar Color and Effective Temperature
+    /// Sequence", version 2024.05.15 (the basis of Pecaut & Mamajek 2013, ApJS 208, 9,
+    /// Table 5): spectral type, Teff (K), R_Rsun, Msun and logL, copied from the file.
+    const PUBLISHED_2024_05_15: [(&str, f64, f64, f64, f64); 8] = [
+        ("A0V", 9700.0, 2.193, 2.33, 1.584),
+        ("F5V", 6550.0, 1.473, 1.32, 0.556),
+        ("G2V", 5770.0, 1.012, 1.00, 0.010),
+        ("K0V", 5290.0, 0.813, 0.86, -0.324),
+        ("M0V", 3850.0, 0.588, 0.585, -1.164),
+        ("M0.5V", 3770.0, 0.544, 0.56, -1.268),
+        ("M5V", 3060.0, 0.196, 0.155, -2.520),
+        ("M8V", 2570.0, 0.114, 0.086, -3.292),
+    ];
+
     #[test]
-    fn estimates_reproduce_the_table_rows() {
-        // Rows of the dwarf table (Pecaut & Mamajek 2013 dwarf sequence; from memory).
-        for (text, teff, r, m) in [
-            ("G2V", 5770.0, 1.012, 1.02),
-            ("K0V", 5280.0, 0.880, 0.88),
-            ("M0V", 3850.0, 0.588, 0.57),
-            ("F5V", 6510.0, 1.359, 1.33),
-        ] {
+    fn estimates_reproduce_the_published_rows() {
+        for (text, teff, r, m, _) in PUBLISHED_2024_05_15 {
             let (_, e) = estimate(text).unwrap();
             assert_eq!(e.teff.value, teff, "{text}");
             assert!((e.radius.value / R_SUN - r).abs() < 1e-12, "{text}");
             assert!((e.mass.value / M_SUN - m).abs() < 1e-12, "{text}");
         }
-        // Halfway between M3V (3430 K) and M4V (3210 K).
-        let (_, e) = estimate("M3.5V").unwrap();
-        assert!((e.teff.value - 3320.0).abs() < 1e-9);
+        // Halfway between M3V (3430 K) and M3.5V (3270 K) of the same version.
+        let (_, e) = estimate("M3.25V").unwrap();
+        assert!((e.teff.value - 3350.0).abs() < 1e-9);
+    }
+
+    #[test]
+    fn luminosity_from_radius_and_teff_matches_the_published_log_l() {
+        // L = R^2 (Teff / 5772 K)^4 (IAU 2015 B3 nominal solar Teff) against the file's
+        // logL column (version 2024.05.15): the file derives its radii from Teff and logL and
+        // rounds them to three figures, so they agree to a few percent.
+        for (text, _, _, _, log_l) in PUBLISHED_2024_05_15 {
+            let (_, e) = estimate(text).unwrap();
+            let l = (e.radius.value / R_SUN).powi(2) * (e.teff.value / TEFF_SUN).powi(4);
+            let published = 10f64.powf(log_l);
+            assert!(
+                (l / published - 1.0).abs() < 0.04,
+                "{text}: {l:.4} vs {published:.4}"
+            );
+        }
     }
 
     #[test]
@@ -362,10 +423,11 @@ mod tests {
     #[test]
     fn uncertainties_are_widened_as_documented() {
         let (_, e) = estimate("K0V").unwrap();
-        // Teff: ±1 subtype spans G9V..K1V: (5170 - G9V)/2 in quadrature with 2%.
+        // Teff: ±1 subtype spans G9V..K1V: (G9V - K1V)/2 in quadrature with 2% of K0V.
         let g9 = dwarf_at(49.0).unwrap().teff_k;
-        let step = (g9 - 5170.0) / 2.0;
-        let expect = (step * step + (0.02f64 * 5280.0).powi(2)).sqrt();
+        let k1 = dwarf_at(51.0).unwrap().teff_k;
+        let step = (g9 - k1) / 2.0;
+        let expect = (step * step + (0.02f64 * dwarf_at(50.0).unwrap().teff_k).powi(2)).sqrt();
         assert!((e.teff.sigma - expect).abs() < 1e-9);
         assert!(e.radius.sigma / e.radius.value >= 0.10);
         assert!(e.mass.sigma / e.mass.value >= 0.10);
@@ -376,7 +438,8 @@ mod tests {
         for w in DWARF_SEQUENCE.windows(2) {
             assert!(w[0].index < w[1].index);
             assert!(w[0].teff_k > w[1].teff_k);
-            assert!(w[0].radius_rsun > w[1].radius_rsun);
+            // A8V and A9V share 1.747 Rsun in the published table.
+            assert!(w[0].radius_rsun >= w[1].radius_rsun);
             assert!(w[0].mass_msun > w[1].mass_msun);
         }
     }

@@ -174,8 +174,11 @@ impl fmt::Display for TimeError {
     }
 }
 
-/// (Julian date at 0h UTC of the day from which it holds, TAI − UTC in seconds), from the
-/// IERS leap-second list (Bulletin C; from memory).
+/// (Julian date at 0h UTC of the day from which it holds, TAI − UTC in seconds): the IERS
+/// leap-second list (Bulletin C). Checked entry by entry against the IERS `leap-seconds.list`
+/// "updated through IERS Bulletin C", file expiring 28 June 2026 (a test holds its values),
+/// and against the IERS `Leap_Second.dat` updated through Bulletin C 56: no leap second
+/// after 2017-01-01 was announced up to that expiry.
 pub const LEAP_SECONDS: &[(f64, f64)] = &[
     (2_441_317.5, 10.0), // 1972-01-01
     (2_441_499.5, 11.0), // 1972-07-01
@@ -453,6 +456,48 @@ mod tests {
 
     fn close(a: f64, b: f64, tol_s: f64) -> bool {
         ((a - b) * DAY).abs() <= tol_s
+    }
+
+    #[test]
+    fn leap_seconds_match_the_iers_list() {
+        // IERS leap-seconds.list ("updated through IERS Bulletin C", expires 28 June 2026):
+        // seconds since 1900-01-01 0h (NTP origin, JD 2415020.5) and TAI - UTC, every entry.
+        const IERS: [(u64, f64); 28] = [
+            (2_272_060_800, 10.0),
+            (2_287_785_600, 11.0),
+            (2_303_683_200, 12.0),
+            (2_335_219_200, 13.0),
+            (2_366_755_200, 14.0),
+            (2_398_291_200, 15.0),
+            (2_429_913_600, 16.0),
+            (2_461_449_600, 17.0),
+            (2_492_985_600, 18.0),
+            (2_524_521_600, 19.0),
+            (2_571_782_400, 20.0),
+            (2_603_318_400, 21.0),
+            (2_634_854_400, 22.0),
+            (2_698_012_800, 23.0),
+            (2_776_982_400, 24.0),
+            (2_840_140_800, 25.0),
+            (2_871_676_800, 26.0),
+            (2_918_937_600, 27.0),
+            (2_950_473_600, 28.0),
+            (2_982_009_600, 29.0),
+            (3_029_443_200, 30.0),
+            (3_076_704_000, 31.0),
+            (3_124_137_600, 32.0),
+            (3_345_062_400, 33.0),
+            (3_439_756_800, 34.0),
+            (3_550_089_600, 35.0),
+            (3_644_697_600, 36.0),
+            (3_692_217_600, 37.0),
+        ];
+        assert_eq!(LEAP_SECONDS.len(), IERS.len());
+        for ((jd, step), (ntp, iers_step)) in LEAP_SECONDS.iter().zip(IERS) {
+            assert_eq!(*jd, 2_415_020.5 + (ntp / 86_400) as f64, "{ntp}");
+            assert_eq!(ntp % 86_400, 0);
+            assert_eq!(*step, iers_step, "{ntp}");
+        }
     }
 
     #[test]

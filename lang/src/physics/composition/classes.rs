@@ -45,20 +45,30 @@
 //! iron-rich limit, are fields of [`ClassBoundaries`] and are reported with every
 //! summary.
 //!
-//! # Extrapolation
+//! # Extrapolation and the models' range
 //!
-//! The classifier always uses [`radius_of_extrapolated`](super::radius_of_extrapolated):
-//! the Seager iron curve is extrapolated outside 0.01–20 M⊕ and the Zeng ceiling outside
-//! 1–8 M⊕, as power laws of the published form. A sample is counted as *extrapolated* when
-//! its mass lies outside 1–8 M⊕ (where both curves are inside their fitted ranges); the
-//! summary reports that fraction. Known limit: below roughly 0.05 M⊕ the extrapolated ceiling
-//! grows too large (its density falls below that of real rock), so the iron-rich limit
-//! rises with it; a Moon-like body there is wrongly called iron-rich. Giants are
-//! classified by the mass and radius thresholds, so the solid curves only decide that
-//! they lie above the rock ceiling.
+//! The classifier evaluates the curves with [`radius_of_extrapolated`](super::radius_of_extrapolated):
+//! the Seager iron curve outside 0.01–20 M⊕ and the Zeng ceiling outside 1–8 M⊕ are
+//! power laws of the published form. A sample is counted as *extrapolated* when its mass lies
+//! outside 1–8 M⊕ (where both curves are inside their fitted ranges); the summary reports
+//! that fraction.
+//!
+//! The solid-planet classes (`IronRich`, `Rocky`, `VolatileRich`) are given only for masses
+//! of 0.05–20 M⊕ (`CLASSIFIED_MASS_RANGE_EARTH`): above 20 M⊕ the Seager fits are not
+//! claimed, and below about Mercury's mass the extrapolated ceiling grows too large (its
+//! density falls below that of real rock), so the iron-rich limit rises with it and a
+//! Moon-like body would be called iron-rich. A sample outside that range that would have
+//! fallen in one of those classes is `OutsideModels` instead. Two classes are still given
+//! there: `DenserThanIron`, a plausibility bound (the iron fit tends to iron's zero-pressure
+//! density at small mass, and its extrapolation above 20 M⊕ gives smaller radii than the
+//! fit's trend, so it errs towards not calling a planet denser than iron; the check says
+//! when the curve was extrapolated), and the giant classes, which are decided by the mass
+//! and radius thresholds: the solid curves only decide that a giant lies above the rock
+//! ceiling.
 
 use super::fits::{
-    zeng_radius_earth_from_ln, SEAGER_IRON, SEAGER_MASS_RANGE_EARTH, ZENG_MASS_RANGE_EARTH,
+    zeng_radius_earth_from_ln, CLASSIFIED_MASS_RANGE_EARTH, SEAGER_IRON, SEAGER_MASS_RANGE_EARTH,
+    ZENG_MASS_RANGE_EARTH,
 };
 use super::{in_range, is_positive_finite, CompositionSummary};
 use crate::constants::{M_EARTH, M_JUPITER, R_EARTH, R_JUPITER};
@@ -78,17 +88,22 @@ pub enum CompositionClass {
     GasGiant,
     /// At or above the giant mass threshold, radius above the inflation threshold.
     InflatedGiant,
+    /// A mass outside the range where the solid-planet curves are used (0.05–20 M⊕), and
+    /// neither denser than iron nor a giant: no class is given.
+    OutsideModels,
 }
 
 impl CompositionClass {
     /// All classes, from densest to least dense.
-    pub const ALL: [CompositionClass; 6] = [
+    /// All classes, from densest to least dense, then [`CompositionClass::OutsideModels`].
+    pub const ALL: [CompositionClass; 7] = [
         CompositionClass::DenserThanIron,
         CompositionClass::IronRich,
         CompositionClass::Rocky,
         CompositionClass::VolatileRich,
         CompositionClass::GasGiant,
         CompositionClass::InflatedGiant,
+        CompositionClass::OutsideModels,
     ];
 
     /// Short machine-friendly name, e.g. `"iron-rich"`.
@@ -100,6 +115,7 @@ impl CompositionClass {
             CompositionClass::VolatileRich => "volatile-rich",
             CompositionClass::GasGiant => "gas-giant",
             CompositionClass::InflatedGiant => "inflated-giant",
+            CompositionClass::OutsideModels => "outside-models-range",
         }
     }
 
@@ -116,6 +132,9 @@ impl CompositionClass {
             }
             CompositionClass::GasGiant => "gas giant",
             CompositionClass::InflatedGiant => "inflated gas giant (radius above cold models)",
+            CompositionClass::OutsideModels => {
+                "outside the models' range: no composition class below 0.05 or above 20 Earth masses (short of a giant)"
+            }
         }
     }
 }
@@ -266,7 +285,20 @@ pub(super) fn classify_valid_point(
     } else {
         CompositionClass::InflatedGiant
     };
+    let class = match class {
+        CompositionClass::IronRich | CompositionClass::Rocky | CompositionClass::VolatileRich
+            if !solid_classes_apply(mass_kg) =>
+        {
+            CompositionClass::OutsideModels
+        }
+        other => other,
+    };
     Some((class, b.extrapolated))
+}
+
+/// Whether the solid-planet classes are given at this mass (see the module docs).
+pub(super) fn solid_classes_apply(mass_kg: f64) -> bool {
+    in_range(mass_kg / M_EARTH, CLASSIFIED_MASS_RANGE_EARTH)
 }
 
 /// Class probabilities of a planet, however they were found (counted samples, or

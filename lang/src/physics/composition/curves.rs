@@ -61,8 +61,7 @@ impl Curve {
     pub fn source(&self) -> &'static str {
         match self {
             Curve::PureIron | Curve::PureSilicate | Curve::PureWaterIce => {
-                "Seager, Kuchner, Hier-Majumder & Militzer 2007, ApJ 669, 1279 \
-                 (fitted relation; coefficients from memory)"
+                "Seager, Kuchner, Hier-Majumder & Militzer 2007, ApJ 669, 1279 (fitted relation)"
             }
             Curve::Rocky { .. } => "Zeng, Sasselov & Jacobsen 2016, ApJ 819, 127",
         }

@@ -2,11 +2,14 @@
 //! they were fitted over. Every curve and class boundary in the folder is built from these.
 //!
 //! * **Seager, Kuchner, Hier-Majumder & Militzer (2007, ApJ 669, 1279)**, their fitted
-//!   relation (their eq. 23, from memory)
-//!   `log10 R_s = k1 + (1/3) log10 M_s − k2 M_s^k3`, `M_s = M / m1`, `R_s = R / r1`,
-//!   with one parameter set per material from the paper's table of fit parameters
-//!   (Table 4, from memory — both the table number and the coefficients are recalled,
-//!   not read):
+//!   relation `log10 R_s = k1 + (1/3) log10 M_s − k2 M_s^k3`, `M_s = M / m1`, `R_s = R / r1`
+//!   (verified: the paper's abstract, arXiv:0707.2895, gives this form and says it holds
+//!   "for up to M_p ≈ 20 M⊕"; the equation number, eq. 23, is from memory), with one
+//!   parameter set per material from the paper's table of fit parameters. The coefficients
+//!   below are from memory: the table itself (Table 4, number also from memory) was not
+//!   found in a stored copy. They agree digit for digit with independent public
+//!   implementations of the fit (three for iron, two each for silicate and water; not the
+//!   paper, so not a verification):
 //!
 //!   | material                 | m1 (M⊕) | r1 (R⊕) | k1        | k2     | k3    |
 //!   |--------------------------|---------|---------|-----------|--------|-------|
@@ -14,16 +17,16 @@
 //!   | MgSiO3 (perovskite)      | 10.55   | 3.90    | −0.20959  | 0.0799 | 0.413 |
 //!   | H2O (ice)                | 5.52    | 4.43    | −0.20940  | 0.0807 | 0.375 |
 //!
-//!   The paper quotes the fit as good to a few percent up to about 20 M⊕ (from memory).
-//!   Fitted range used here: 0.01–20 M⊕ (lower end: the low end of the paper's model
-//!   grid, from memory). At small mass the correction term vanishes and the fit tends to
-//!   the material's zero-pressure density, so its small-mass behaviour is sound; a test
+//!   Fitted range used here: 0.01–20 M⊕ (upper end: the abstract, verified; lower end:
+//!   the low end of the paper's model grid, from memory). At small mass the correction
+//!   term vanishes and the fit tends to the material's zero-pressure density, so its small-mass behaviour is sound; a test
 //!   checks this limit against the paper's zero-pressure densities.
 //!
 //! * **Zeng, Sasselov & Jacobsen (2016, ApJ 819, 127)**, semi-empirical two-layer
 //!   rocky relation scaled from Earth's seismic model:
 //!   `R / R⊕ = (1.07 − 0.21 CMF) (M / M⊕)^(1/3.7)`, CMF = core (iron) mass fraction.
-//!   The abstract states it is applicable to 1–8 M⊕ and CMF 0.0–0.4.
+//!   The abstract (verified, arXiv:1512.08827) gives this formula and states it is applicable
+//!   to 1–8 M⊕ and CMF 0.0–0.4.
 
 /// Parameters of one Seager et al. (2007) fit.
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -38,7 +41,7 @@ pub(super) struct SeagerFit {
 }
 
 // Seager, Kuchner, Hier-Majumder & Militzer 2007, ApJ 669, 1279, table of fit
-// parameters (Table 4, from memory).
+// parameters (Table 4; coefficients from memory, not read from the paper: see above).
 pub(super) const SEAGER_IRON: SeagerFit = SeagerFit {
     m1: 5.80,
     r1: 2.52,
@@ -61,9 +64,16 @@ pub(super) const SEAGER_WATER: SeagerFit = SeagerFit {
     k3: 0.375,
 };
 
-/// Fitted mass range of the Seager et al. (2007) relations, Earth masses
-/// (upper end quoted in the paper, lower end the model grid's; both from memory).
+/// Fitted mass range of the Seager et al. (2007) relations, Earth masses (upper end: the
+/// paper's abstract, verified; lower end: the model grid's, from memory).
 pub(super) const SEAGER_MASS_RANGE_EARTH: (f64, f64) = (0.01, 20.0);
+/// Mass range, Earth masses, inside which the solid-planet classes (iron-rich, rocky,
+/// volatile-rich) are given; outside it a sample is "outside the models' range". Upper end:
+/// the Seager et al. (2007) fits' stated limit (abstract). Lower end: about Mercury's mass
+/// (0.055 M⊕), the lightest body the classes are checked on; below it the rock ceiling,
+/// Zeng's power law extrapolated far under its fitted 1 M⊕, is less dense than real rock
+/// and would call a Moon-like body iron-rich.
+pub(super) const CLASSIFIED_MASS_RANGE_EARTH: (f64, f64) = (0.05, 20.0);
 /// Applicable mass range of the Zeng et al. (2016) relation, Earth masses (abstract).
 pub(super) const ZENG_MASS_RANGE_EARTH: (f64, f64) = (1.0, 8.0);
 /// Applicable core-mass-fraction range of the Zeng et al. (2016) relation (abstract).

@@ -3,8 +3,8 @@
 //! quadrature over the mass with the radius's distribution function at each class boundary
 //! ([`classify_distributions`]). Deterministic; linear propagation uses it.
 
-use super::classes::boundary_parts_unchecked;
-use super::fits::{SEAGER_MASS_RANGE_EARTH, ZENG_MASS_RANGE_EARTH};
+use super::classes::{boundary_parts_unchecked, solid_classes_apply};
+use super::fits::{CLASSIFIED_MASS_RANGE_EARTH, SEAGER_MASS_RANGE_EARTH, ZENG_MASS_RANGE_EARTH};
 use super::{ClassBoundaries, ClassProbabilities, CompositionClass};
 use crate::constants::M_EARTH;
 
@@ -144,6 +144,8 @@ pub fn classify_distributions(
         SEAGER_MASS_RANGE_EARTH.1 * M_EARTH,
         ZENG_MASS_RANGE_EARTH.0 * M_EARTH,
         ZENG_MASS_RANGE_EARTH.1 * M_EARTH,
+        CLASSIFIED_MASS_RANGE_EARTH.0 * M_EARTH,
+        CLASSIFIED_MASS_RANGE_EARTH.1 * M_EARTH,
         boundaries.giant_min_mass_kg,
     ];
     let radius_cdf = radius_m.positive_cdf()?;
@@ -166,12 +168,28 @@ pub fn classify_distributions(
         if b.extrapolated {
             extrapolated += w;
         }
+        // As the sampled path: outside the models' range the solid classes become
+        // OutsideModels; denser-than-iron and the giants are kept.
+        let solid = solid_classes_apply(m);
+        let solid_or_outside = |class| {
+            if solid {
+                class
+            } else {
+                CompositionClass::OutsideModels
+            }
+        };
         add(CompositionClass::DenserThanIron, w * floor);
-        add(CompositionClass::IronRich, w * (limit - floor).max(0.0));
-        add(CompositionClass::Rocky, w * (ceiling - limit).max(0.0));
+        add(
+            solid_or_outside(CompositionClass::IronRich),
+            w * (limit - floor).max(0.0),
+        );
+        add(
+            solid_or_outside(CompositionClass::Rocky),
+            w * (ceiling - limit).max(0.0),
+        );
         let beyond = (1.0 - ceiling).max(0.0);
         if m < boundaries.giant_min_mass_kg {
-            add(CompositionClass::VolatileRich, w * beyond);
+            add(solid_or_outside(CompositionClass::VolatileRich), w * beyond);
         } else {
             let inflated_from = f(boundaries.inflated_min_radius_m.max(b.rock_ceiling_m));
             add(

@@ -49,6 +49,7 @@ struct ClassCounts {
     volatile_rich: usize,
     gas_giant: usize,
     inflated_giant: usize,
+    outside_models: usize,
 }
 
 impl ClassCounts {
@@ -60,6 +61,7 @@ impl ClassCounts {
             CompositionClass::VolatileRich => self.volatile_rich,
             CompositionClass::GasGiant => self.gas_giant,
             CompositionClass::InflatedGiant => self.inflated_giant,
+            CompositionClass::OutsideModels => self.outside_models,
         }
     }
 
@@ -71,6 +73,7 @@ impl ClassCounts {
             CompositionClass::VolatileRich => &mut self.volatile_rich,
             CompositionClass::GasGiant => &mut self.gas_giant,
             CompositionClass::InflatedGiant => &mut self.inflated_giant,
+            CompositionClass::OutsideModels => &mut self.outside_models,
         };
         *slot += 1;
     }

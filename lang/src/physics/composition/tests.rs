@@ -280,6 +280,81 @@ mod classes {
     }
 }
 
+mod models_range {
+    use super::*;
+
+    #[test]
+    fn outside_the_models_range_no_solid_class_is_given() {
+        let b = ClassBoundaries::default();
+        // The Moon (NASA GSFC lunar fact sheet, from memory): before the range was enforced,
+        // the extrapolated ceiling called it iron-rich.
+        let moon = by_name("Moon").unwrap();
+        assert_eq!(
+            classify_point(moon.mass_kg, moon.mean_radius_m, &b),
+            Some(CompositionClass::OutsideModels)
+        );
+        // 25 Mearth at 5 Rearth and 100 Mearth at 3 Rearth: beyond the Seager fits' 20 Mearth
+        // and short of a giant above the rock ceiling.
+        assert_eq!(
+            classify_point(me(25.0), re(5.0), &b),
+            Some(CompositionClass::OutsideModels)
+        );
+        assert_eq!(
+            classify_point(me(100.0), re(3.0), &b),
+            Some(CompositionClass::OutsideModels)
+        );
+        // Still given outside: denser than iron, and giants above the ceiling.
+        assert_eq!(
+            classify_point(me(40.0), re(1.2), &b),
+            Some(CompositionClass::DenserThanIron)
+        );
+        assert_eq!(
+            classify_point(me(100.0), re(9.0), &b),
+            Some(CompositionClass::GasGiant)
+        );
+        // Inside, at both ends: Mercury's mass (0.055 Mearth) and 20 Mearth.
+        assert_eq!(
+            classify_point(me(0.0553), re(0.383), &b),
+            Some(CompositionClass::IronRich)
+        );
+        assert_eq!(
+            classify_point(me(20.0), re(4.0), &b),
+            Some(CompositionClass::VolatileRich)
+        );
+    }
+
+    #[test]
+    fn quadrature_agrees_with_samples_outside_the_range() {
+        let b = ClassBoundaries::default();
+        let moon = by_name("Moon").unwrap();
+        let split = |v: f64, rel: f64| SplitNormal {
+            value: v,
+            below: v * rel,
+            above: v * rel,
+        };
+        let quad = classify_distributions(
+            split(moon.mass_kg, 0.02),
+            split(moon.mean_radius_m, 0.01),
+            &b,
+        )
+        .unwrap();
+        assert!(
+            (quad.probability(CompositionClass::OutsideModels) - 1.0).abs() < 1e-9,
+            "{quad:?}"
+        );
+        // A mass spread across the lower end: quadrature and samples give the same share.
+        let (m, r) = (me(0.05), re(0.45));
+        let quad = classify_distributions(split(m, 0.2), split(r, 0.02), &b).unwrap();
+        let masses = gaussian_samples(7, 40_000, m, 0.2);
+        let radii = gaussian_samples(8, 40_000, r, 0.02);
+        let s = classify(&masses, &radii);
+        let p_samples = s.probability(CompositionClass::OutsideModels).unwrap();
+        let p_quad = quad.probability(CompositionClass::OutsideModels);
+        assert!(p_quad > 0.3 && p_quad < 0.7, "{p_quad}");
+        assert!((p_samples - p_quad).abs() < 0.01, "{p_samples} vs {p_quad}");
+    }
+}
+
 mod samples {
     use super::*;
 

@@ -10,7 +10,8 @@ use std::f64::consts::PI;
 use uom::si::f64::{Length, Mass, MassDensity, Volume};
 
 /// Classical coefficient of the fluid-body Roche limit, `d = 2.44 R_M (rho_M / rho_m)^(1/3)`
-/// (Roche 1849; the textbook value, from memory; refined equilibrium-figure treatments give
+/// (Roche 1849; the textbook value, from memory: no primary source was found in a stored copy,
+/// and secondary pages quote 2.44, 2.45 and 2.455; refined equilibrium-figure treatments give
 /// about 2.455).
 pub const ROCHE_FLUID_COEFFICIENT: f64 = 2.44;
 
