@@ -1,9 +1,9 @@
 //! Where the text labels of a diagram go: a greedy placement that never lets two labels
 //! overlap, nor a label cover a marker or cross the plot's frame.
 //!
-//! Each label is tried at up to [`CANDIDATES`] positions around its anchor (eight
-//! directions, at four distances; the farther ones get a leader line back to the marker) and
-//! takes the first free one. Labels are placed in order of crowding (the label with the most
+//! Each label is tried at up to [`CANDIDATES`] positions around its anchor (eight directions
+//! beside it, then sixteen at each of six farther distances, with a leader line back to the
+//! marker that crosses no other label, marker or leader) and takes the first free one. Labels are placed in order of crowding (the label with the most
 //! markers near it first, where it still has a choice), ties by their index, so the result
 //! depends only on the input. A label with no free position is not placed: the caller says
 //! so in its text output. Collisions are looked up in a grid of buckets, so the cost grows
@@ -112,38 +112,36 @@ pub struct Placed {
     pub rect: Rect,
     /// From the marker's edge to the label's nearest point, when the label sits away from
     /// its marker.
-    pub leader: Option<((f64, f64), (f64, f64))>,
+    pub leader: Option<Segment>,
 }
 
 /// Gaps between a marker's edge and its label, in pixels: the first is "beside it", the
 /// others need a leader line.
-const RINGS: [f64; 4] = [3.0, 16.0, 34.0, 56.0];
-/// Directions tried at each distance, in order of preference: right, upper right, lower
-/// right, left, upper left, lower left, above, below.
-const DIRECTIONS: [(f64, f64); 8] = [
-    (1.0, 0.0),
-    (1.0, -1.0),
-    (1.0, 1.0),
-    (-1.0, 0.0),
-    (-1.0, -1.0),
-    (-1.0, 1.0),
-    (0.0, -1.0),
-    (0.0, 1.0),
+const RINGS: [f64; 7] = [3.0, 14.0, 28.0, 46.0, 70.0, 100.0, 140.0];
+/// Directions tried at each distance, as angles in degrees (0 is right, negative is up), in
+/// order of preference: right, then up and down from it, then left, then straight above and
+/// below. Beside the marker only the eight main directions are tried.
+const DIRECTIONS: [f64; 16] = [
+    0.0, -22.5, 22.5, -45.0, 45.0, 180.0, -157.5, 157.5, -135.0, 135.0, -67.5, 67.5, -112.5, 112.5,
+    -90.0, 90.0,
 ];
 /// How many positions a label is tried at.
-pub const CANDIDATES: usize = RINGS.len() * DIRECTIONS.len();
+pub const CANDIDATES: usize = 8 + (RINGS.len() - 1) * DIRECTIONS.len();
 /// Space kept free around every label, in pixels.
 const PAD: f64 = 1.5;
 /// The side of a bucket of the collision grid, in pixels.
 const CELL: f64 = 48.0;
 
-/// A grid of buckets over the frame: each box is listed in every bucket it touches.
+type Segment = ((f64, f64), (f64, f64));
+
+/// A grid of buckets over the frame: each box (with the leader line it bounds, if it is
+/// one) is listed in every bucket it touches.
 struct Grid {
     frame: Rect,
     cols: usize,
     rows: usize,
     cells: Vec<Vec<usize>>,
-    boxes: Vec<Rect>,
+    boxes: Vec<(Rect, Option<Segment>)>,
 }
 
 impl Grid {
@@ -169,9 +167,9 @@ impl Grid {
         (col(r.x0), col(r.x1), row(r.y0), row(r.y1))
     }
 
-    fn insert(&mut self, r: Rect) {
+    fn insert(&mut self, r: Rect, segment: Option<Segment>) {
         let id = self.boxes.len();
-        self.boxes.push(r);
+        self.boxes.push((r, segment));
         let (c0, c1, r0, r1) = self.span(&r);
         for row in r0..=r1 {
             for col in c0..=c1 {
@@ -183,7 +181,7 @@ impl Grid {
     }
 
     /// The boxes listed in the buckets `r` touches (a box may come more than once).
-    fn near(&self, r: &Rect) -> impl Iterator<Item = &Rect> {
+    fn near(&self, r: &Rect) -> impl Iterator<Item = &(Rect, Option<Segment>)> {
         let (c0, c1, r0, r1) = self.span(r);
         (r0..=r1)
             .flat_map(move |row| (c0..=c1).map(move |col| row * self.cols + col))
@@ -193,37 +191,43 @@ impl Grid {
     }
 
     fn hits(&self, r: &Rect) -> bool {
-        self.near(r).any(|b| b.overlaps(r))
-    }
-
-    fn crossed(&self, a: (f64, f64), b: (f64, f64)) -> bool {
-        let r = Rect::new(a.0, a.1, b.0, b.1);
-        self.near(&r).any(|x| x.crossed_by(a, b))
+        self.near(r).any(|(b, _)| b.overlaps(r))
     }
 }
 
-/// The box of a label of size `w` × `h` at distance `gap` from a marker of radius `r` at
-/// `(x, y)`, in direction `(dx, dy)`.
-fn candidate(req: &Request, gap: f64, (dx, dy): (f64, f64)) -> Rect {
+/// The box of a label at distance `gap` from the marker's edge in direction `degrees`:
+/// the side of the box facing the marker is that far away.
+fn candidate(req: &Request, gap: f64, degrees: f64) -> Rect {
     let (w, h) = (req.width, req.height);
+    let (uy, ux) = degrees.to_radians().sin_cos();
     let d = req.radius + gap;
-    // Diagonals sit at the corner of the marker's box, so the label clears it.
-    let (d_x, d_y) = if dx != 0.0 && dy != 0.0 {
-        (d * 0.8, d * 0.8)
+    let (px, py) = (req.x + d * ux, req.y + d * uy);
+    // Beyond about 17 deg from an axis, the box is put on that side of the point.
+    let x0 = if ux > 0.3 {
+        px
+    } else if ux < -0.3 {
+        px - w
     } else {
-        (d, d)
+        px - w / 2.0
     };
-    let x0 = match dx {
-        v if v > 0.0 => req.x + d_x,
-        v if v < 0.0 => req.x - d_x - w,
-        _ => req.x - w / 2.0,
-    };
-    let y0 = match dy {
-        v if v > 0.0 => req.y + d_y,
-        v if v < 0.0 => req.y - d_y - h,
-        _ => req.y - h / 2.0,
+    let y0 = if uy > 0.3 {
+        py
+    } else if uy < -0.3 {
+        py - h
+    } else {
+        py - h / 2.0
     };
     Rect::new(x0, y0, x0 + w, y0 + h)
+}
+
+/// Whether two segments cross (touching ends do not count).
+fn segments_cross(a: (f64, f64), b: (f64, f64), c: (f64, f64), d: (f64, f64)) -> bool {
+    let side = |p: (f64, f64), q: (f64, f64), r: (f64, f64)| {
+        (q.0 - p.0) * (r.1 - p.1) - (q.1 - p.1) * (r.0 - p.0)
+    };
+    let (d1, d2) = (side(c, d, a), side(c, d, b));
+    let (d3, d4) = (side(a, b, c), side(a, b, d));
+    d1 * d2 < 0.0 && d3 * d4 < 0.0
 }
 
 /// Place `labels` inside `frame`, clear of `obstacles` (markers, other drawn boxes) and of
@@ -237,49 +241,67 @@ pub fn place(
 ) -> Vec<Option<Placed>> {
     let mut grid = Grid::new(frame);
     for o in obstacles {
-        grid.insert(*o);
+        grid.insert(*o, None);
     }
     // Crowding: how many obstacles lie within a few label heights of the anchor.
     let crowding: Vec<usize> = labels
         .iter()
         .map(|l| {
             let near = Rect::around(l.x, l.y, 40.0);
-            grid.near(&near).filter(|b| b.overlaps(&near)).count()
+            grid.near(&near).filter(|(b, _)| b.overlaps(&near)).count()
         })
         .collect();
     let mut order: Vec<usize> = (fixed.min(labels.len())..labels.len()).collect();
     order.sort_by_key(|&i| (std::cmp::Reverse(crowding.get(i).copied().unwrap_or(0)), i));
     let order = (0..fixed.min(labels.len())).chain(order);
     let mut out = vec![None; labels.len()];
-    // Labels already placed, for checking leader lines against.
-    let mut placed = Grid::new(frame);
+    // Leader lines drawn so far.
+    let mut leaders = Grid::new(frame);
     for i in order {
         let Some(req) = labels.get(i) else { continue };
-        let spot = RINGS.iter().enumerate().find_map(|(ring, &gap)| {
-            DIRECTIONS.iter().find_map(|&dir| {
-                let r = candidate(req, gap, dir);
-                let padded = r.grown(PAD);
-                if !padded.inside(&frame) || grid.hits(&padded) {
-                    return None;
-                }
-                let leader = (ring > 0).then(|| {
-                    let end = r.nearest(req.x, req.y);
-                    let len = ((end.0 - req.x).powi(2) + (end.1 - req.y).powi(2)).sqrt();
-                    let f = if len > 0.0 { req.radius / len } else { 0.0 };
-                    let start = (req.x + (end.0 - req.x) * f, req.y + (end.1 - req.y) * f);
-                    (start, end)
+        let tries = RINGS.iter().enumerate().flat_map(|(ring, &gap)| {
+            let dirs: &[f64] = if ring == 0 {
+                &[0.0, -45.0, 45.0, 180.0, -135.0, 135.0, -90.0, 90.0]
+            } else {
+                &DIRECTIONS
+            };
+            dirs.iter().map(move |&dir| (ring, gap, dir))
+        });
+        let spot = tries.take(CANDIDATES).find_map(|(ring, gap, dir)| {
+            let r = candidate(req, gap, dir);
+            let padded = r.grown(PAD);
+            if !padded.inside(&frame) || grid.hits(&padded) {
+                return None;
+            }
+            if ring == 0 {
+                return Some(Placed {
+                    rect: r,
+                    leader: None,
                 });
-                if let Some((a, b)) = leader {
-                    if placed.crossed(a, b) {
-                        return None;
-                    }
-                }
-                Some(Placed { rect: r, leader })
+            }
+            let end = r.nearest(req.x, req.y);
+            let len = ((end.0 - req.x).powi(2) + (end.1 - req.y).powi(2)).sqrt();
+            let f = if len > 0.0 { req.radius / len } else { 0.0 };
+            let start = (req.x + (end.0 - req.x) * f, req.y + (end.1 - req.y) * f);
+            // A leader passes no other label or marker and crosses no other leader.
+            let own = |b: &Rect| b.x0 <= req.x && req.x <= b.x1 && b.y0 <= req.y && req.y <= b.y1;
+            let span = Rect::new(start.0, start.1, end.0, end.1);
+            let blocked = grid
+                .near(&span)
+                .any(|(b, _)| !own(b) && b.crossed_by(start, end))
+                || leaders
+                    .near(&span)
+                    .any(|(_, seg)| seg.is_some_and(|(c, d)| segments_cross(start, end, c, d)));
+            (!blocked).then_some(Placed {
+                rect: r,
+                leader: Some((start, end)),
             })
         });
         if let Some(p) = spot {
-            grid.insert(p.rect.grown(PAD));
-            placed.insert(p.rect.grown(PAD));
+            grid.insert(p.rect.grown(PAD), None);
+            if let Some((a, b)) = p.leader {
+                leaders.insert(Rect::new(a.0, a.1, b.0, b.1), Some((a, b)));
+            }
             if let Some(slot) = out.get_mut(i) {
                 *slot = Some(p);
             }
