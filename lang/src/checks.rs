@@ -78,7 +78,7 @@ fn shown(q: Qty, si: f64) -> String {
 /// Samples of a value: the engine's, or drawn from its linear spread.
 /// Class probabilities of a planet: from its aligned Monte Carlo samples when there are
 /// some, else (linear propagation) by quadrature over its mass and radius, each taken as the
-/// split normal of its first-order uncertainties.
+/// two-sided normal (median and 16th/84th percentiles) of its first-order uncertainties.
 fn class_probabilities(
     d: &Derivation,
     bi: usize,
@@ -94,7 +94,7 @@ fn class_probabilities(
     }
     let split = |v: &value::Value| {
         let (below, above) = v.linear_spread(&d.inputs);
-        composition::SplitNormal {
+        composition::TwoSidedNormal {
             value: v.nominal,
             below,
             above,

@@ -13,7 +13,7 @@
 //!   ([`ClassBoundaries`], [`boundary_radii`]), the class of one point, and
 //!   [`ClassProbabilities`];
 //! * `samples.rs` — classifying paired Monte Carlo samples ([`classify`]);
-//! * `quadrature.rs` — the same class probabilities by quadrature over split-normal
+//! * `quadrature.rs` — the same class probabilities by quadrature over two-sided normal
 //!   distributions ([`classify_distributions`]), as linear propagation uses;
 //! * `diagram.rs` — what a mass–radius diagram draws ([`PLOTTED_CURVES`]) and a planet's
 //!   position among the curves in words ([`describe_position`]).
@@ -42,7 +42,7 @@ pub use curves::{
     density_of_pure_iron_body, iron_radius, radius_of, radius_of_extrapolated, Curve, CurveRadius,
 };
 pub use diagram::{describe_position, PLOTTED_CURVES};
-pub use quadrature::{classify_distributions, SplitNormal};
+pub use quadrature::{classify_distributions, TwoSidedNormal};
 pub use samples::{classify, classify_with, CompositionSummary, SampleProblem};
 
 /// Whether `value` lies in the closed interval `range` (a fitted range).

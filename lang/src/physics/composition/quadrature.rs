@@ -1,5 +1,5 @@
-//! Class probabilities without sampling: the mass and the radius read as independent split
-//! normals kept positive ([`SplitNormal`], as the engine samples a measurement), integrated by
+//! Class probabilities without sampling: the mass and the radius read as independent
+//! two-sided normals kept positive ([`TwoSidedNormal`], as the engine samples a measurement), integrated by
 //! quadrature over the mass with the radius's distribution function at each class boundary
 //! ([`classify_distributions`]). Deterministic; linear propagation uses it.
 
@@ -9,27 +9,21 @@ use super::{ClassBoundaries, ClassProbabilities, CompositionClass};
 use crate::constants::M_EARTH;
 
 /// A measured value with a standard uncertainty below and above (SI), read as the engine
-/// samples it: a split normal (two half-Gaussians joined at the value), kept positive.
+/// samples it: the value is the median and value - below, value + above the 16th and 84th
+/// percentiles (two half-Gaussians joined at the value, each holding half the probability;
+/// see `derive::value::draw`), kept positive.
 #[derive(Clone, Copy, Debug, PartialEq)]
-pub struct SplitNormal {
+pub struct TwoSidedNormal {
     pub value: f64,
     pub below: f64,
     pub above: f64,
 }
 
-impl SplitNormal {
-    fn p_below(&self) -> f64 {
-        let total = self.below + self.above;
-        if total > 0.0 {
-            self.below / total
-        } else {
-            0.5
-        }
-    }
-
-    /// P(X <= x) of the untruncated split normal.
+impl TwoSidedNormal {
+    /// P(X <= x) without the positivity cut.
     fn cdf_untruncated(&self, x: f64) -> f64 {
-        let p = self.p_below();
+        // Half the probability on each side of the median.
+        let p = 0.5;
         // Standard normal CDF from the complementary error function.
         let phi = |z: f64| 0.5 * libm::erfc(-z / std::f64::consts::SQRT_2);
         if x <= self.value {
@@ -74,11 +68,14 @@ impl SplitNormal {
                 Vec::new()
             };
         }
-        let p = self.p_below();
         let phi = |z: f64| 0.5 * libm::erfc(-z / std::f64::consts::SQRT_2);
         let mut out = Vec::with_capacity(2 * per_side + 2 * breakpoints.len() + 2);
-        for (sign, sigma, share) in [(-1.0, self.below, p), (1.0, self.above, 1.0 - p)] {
+        // Half the probability on each side of the median; a side without width is a point.
+        for (sign, sigma, share) in [(-1.0, self.below, 0.5), (1.0, self.above, 0.5)] {
             if sigma.is_nan() || sigma <= 0.0 {
+                if self.value > 0.0 && self.value.is_finite() {
+                    out.push((self.value, share));
+                }
                 continue;
             }
             let mut edges: Vec<f64> = (0..=per_side)
@@ -111,15 +108,15 @@ impl SplitNormal {
     }
 }
 
-/// Class probabilities for a planet whose mass and radius are independent split normals, by
+/// Class probabilities for a planet whose mass and radius are independent two-sided normals, by
 /// quadrature over the mass (about 80 nodes, cut at every mass where a class or the
 /// extrapolation flag changes) with the radius's distribution function at each
 /// mass's class boundaries: deterministic, and the same classes as sampling would find (a
 /// test compares with 4 x 10^5 samples). `None` when either distribution has nothing
 /// positive or the boundaries are invalid.
 pub fn classify_distributions(
-    mass_kg: SplitNormal,
-    radius_m: SplitNormal,
+    mass_kg: TwoSidedNormal,
+    radius_m: TwoSidedNormal,
     boundaries: &ClassBoundaries,
 ) -> Option<ClassProbabilities> {
     if !boundaries.is_valid() {

@@ -327,7 +327,7 @@ mod models_range {
     fn quadrature_agrees_with_samples_outside_the_range() {
         let b = ClassBoundaries::default();
         let moon = by_name("Moon").unwrap();
-        let split = |v: f64, rel: f64| SplitNormal {
+        let split = |v: f64, rel: f64| TwoSidedNormal {
             value: v,
             below: v * rel,
             above: v * rel,
@@ -479,7 +479,7 @@ mod quadrature {
     #[test]
     fn quadrature_handles_exact_and_impossible_inputs() {
         let b = ClassBoundaries::default();
-        let exact = |v| SplitNormal {
+        let exact = |v| TwoSidedNormal {
             value: v,
             below: 0.0,
             above: 0.0,
