@@ -5,14 +5,14 @@
 
 #![allow(clippy::unwrap_used, clippy::indexing_slicing)]
 
-use syzygy::composition::{classify_distributions, classify_with, ClassBoundaries, SplitNormal};
+use syzygy::composition::{classify_distributions, classify_with, ClassBoundaries, TwoSidedNormal};
 use syzygy::constants::{M_EARTH, R_EARTH, R_JUPITER};
 use syzygy::derive::value::draw;
 use syzygy::model::{Form, Measurement};
 
 #[test]
 fn quadrature_classes_match_many_samples() {
-    // Reference: the sample classifier over 4 x 10^5 draws of the same split normals,
+    // Reference: the sample classifier over 4 x 10^5 draws of the same two-sided normals,
     // drawn as the engine draws them (derive::value::draw, kept positive).
     let me = |x: f64| x * M_EARTH;
     let re = |x: f64| x * R_EARTH;
@@ -45,12 +45,12 @@ fn quadrature_classes_match_many_samples() {
         let rs = draw(&split(r, rl, rh), 0.0, f64::INFINITY, n, 97 + i as u64);
         let sampled = classify_with(&ms, &rs, &b);
         let quad = classify_distributions(
-            SplitNormal {
+            TwoSidedNormal {
                 value: m,
                 below: ml,
                 above: mh,
             },
-            SplitNormal {
+            TwoSidedNormal {
                 value: r,
                 below: rl,
                 above: rh,

@@ -45,10 +45,18 @@ impl<'m> Derivation<'m> {
             let seed = value::stable_hash(&[&self.sys.name, &label], self.options.seed);
             std::sync::Arc::from(value::draw(m, lo, hi, n, seed))
         });
+        let shape = if m.form.is_limit() {
+            value::Shape::Uniform
+        } else if below.max(above) >= 1.5 * below.min(above) {
+            value::Shape::Skewed
+        } else {
+            value::Shape::Normal
+        };
         self.inputs.push(InputInfo {
             label,
             below,
             above,
+            shape,
         });
         let exact = below == 0.0 && above == 0.0;
         Value {

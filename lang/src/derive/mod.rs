@@ -19,6 +19,7 @@ mod rounds;
 pub mod rules;
 mod set;
 mod summary;
+pub mod validity;
 pub mod value;
 
 use crate::ast::BodyKind;
@@ -141,6 +142,9 @@ pub struct Derivation<'m> {
     /// Set when the system is so large that Monte Carlo drew fewer samples than asked, to
     /// bound memory: the sentence every value of the system then carries.
     fewer_samples: Option<Arc<str>>,
+    /// In first-order mode, Monte Carlo results for the values first order cannot
+    /// describe (see [`validity`]).
+    sampled: Option<validity::Sampled<'m>>,
 }
 
 /// Monte Carlo sample arrays one system may hold at once (in bytes), and about how many
@@ -187,10 +191,12 @@ impl<'m> Derivation<'m> {
             used: FxHashSet::default(),
             diagnostics: Vec::new(),
             fewer_samples,
+            sampled: None,
         };
         d.declare_measurements();
         d.fixed_point();
         d.check_consistency();
+        d.sample_where_doubtful();
         d
     }
 

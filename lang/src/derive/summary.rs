@@ -182,6 +182,7 @@ impl<'m> Derivation<'m> {
     ) -> QuantityResult {
         let rule = entry.rule.and_then(|r| RULES.get(r));
         let mut notes = Vec::new();
+        let mut sampled = None;
         let (value, below, above, form) = match decl.map(|d| &d.content) {
             Some(Content::Measured(m)) => (m.value, m.below, m.above, m.form),
             _ => {
@@ -205,14 +206,25 @@ impl<'m> Derivation<'m> {
                             (entry.value.nominal, 0.0, 0.0, Form::Exact)
                         }
                     }
-                    _ => {
-                        let form = if lo == 0.0 && hi == 0.0 {
-                            Form::Exact
-                        } else {
-                            Form::Asymmetric
-                        };
-                        (entry.value.nominal, lo, hi, form)
-                    }
+                    _ => match self.sampled_instead(key) {
+                        Some(((median, p16, p84), words)) => {
+                            sampled = Some(words);
+                            (
+                                median,
+                                (median - p16).max(0.0),
+                                (p84 - median).max(0.0),
+                                Form::Asymmetric,
+                            )
+                        }
+                        None => {
+                            let form = if lo == 0.0 && hi == 0.0 {
+                                Form::Exact
+                            } else {
+                                Form::Asymmetric
+                            };
+                            (entry.value.nominal, lo, hi, form)
+                        }
+                    },
                 }
             }
         };
@@ -265,6 +277,7 @@ impl<'m> Derivation<'m> {
                         .filter(|_| entry.origin == Origin::Derived),
                 )
                 .map(|a| a.to_string())
+                .chain(sampled)
                 .collect(),
             notes,
             unit: (key.1 == Qty::TransitEpoch)

@@ -23,6 +23,20 @@ pub struct InputInfo {
     /// standard deviation on both sides.
     pub below: f64,
     pub above: f64,
+    /// What its distribution is, as far as first-order propagation is concerned.
+    pub shape: Shape,
+}
+
+/// An input's distribution, as far as first-order propagation is concerned: only a normal
+/// (or nearly normal) input is described well by its standard uncertainty.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Shape {
+    /// Normal, or asymmetric by less than a factor of 1.5.
+    Normal,
+    /// Spread uniformly over a range: a limit, or an angle over a full turn.
+    Uniform,
+    /// Asymmetric by a factor of 1.5 or more.
+    Skewed,
 }
 
 impl InputInfo {
@@ -307,6 +321,7 @@ mod tests {
             label: label.into(),
             below: s,
             above: s,
+            shape: Shape::Normal,
         }
     }
 

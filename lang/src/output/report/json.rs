@@ -70,8 +70,9 @@ pub struct NotShown {
 #[derive(Debug, Serialize)]
 pub struct Options {
     pub propagation: &'static str,
-    /// Only with Monte Carlo propagation.
-    pub samples: Option<usize>,
+    /// Monte Carlo draws; with linear propagation, the draws used for the values first
+    /// order cannot describe (`derive::validity`).
+    pub samples: usize,
     pub seed: u64,
     pub consistency_sigma: f64,
 }
@@ -81,7 +82,11 @@ impl Options {
         let monte_carlo = o.propagation == crate::Propagation::MonteCarlo;
         Options {
             propagation: if monte_carlo { "monte-carlo" } else { "linear" },
-            samples: monte_carlo.then_some(o.samples),
+            samples: if monte_carlo {
+                o.samples
+            } else {
+                o.samples.min(crate::derive::validity::MOST_SAMPLES)
+            },
             seed: o.seed,
             consistency_sigma: o.consistency_sigma,
         }
