@@ -132,8 +132,10 @@ impl Iterator for Parts<'_> {
         // Comments and diagnostics read so far belong here when their place is before the end.
         self.comments.extend(self.items.take_comments());
         self.diagnostics.extend(self.items.take_diagnostics());
-        let comments = take_before(&mut self.comments, end, |c| c.span.start as usize);
-        let mut diagnostics = take_before(&mut self.diagnostics, end, |d| d.span.start as usize);
+        // The last part takes everything left, including what is placed at the very end.
+        let cut = if self.done { usize::MAX } else { end };
+        let comments = take_before(&mut self.comments, cut, |c| c.span.start as usize);
+        let mut diagnostics = take_before(&mut self.diagnostics, cut, |d| d.span.start as usize);
         let region = Region {
             start: self.next_start,
             end,

@@ -197,25 +197,56 @@ fn generate(rng: &mut Rng) -> String {
 
 fn one(src: &str) {
     let _ = syzygy::lexer::lex(src);
+    // Few samples: the paths are the same, and many more inputs get through.
     for options in [
-        Options::linear(),
+        Options {
+            samples: 32,
+            ..Options::linear()
+        },
         Options {
             samples: 32,
             ..Options::default()
         },
     ] {
-        let a = analyze(FileId(0), src, &options.into());
+        let settings: syzygy::Settings = options.into();
+        let a = analyze(FileId(0), src, &settings);
         for d in &a.diagnostics {
             assert!(
                 d.span.start <= d.span.end && d.span.end as usize <= src.len(),
                 "span outside the text: {d:?}"
             );
         }
+        // Read in parts of a few lines each, the file says the same (every fourth input,
+        // first order only: a large file is read this way).
+        if settings.options.propagation == syzygy::Propagation::Linear && src.len() % 4 == 0 {
+            in_parts_says_the_same(src, &settings, &a);
+        }
     }
     if let Ok(once) = syzygy::layout::format_source(src) {
         let twice = syzygy::layout::format_source(&once).expect("formatted text must format again");
         assert_eq!(once, twice, "formatting is not idempotent");
     }
+}
+
+fn in_parts_says_the_same(src: &str, settings: &syzygy::Settings, whole: &syzygy::Analysis) {
+    let mut diagnostics = Vec::new();
+    let mut systems = 0;
+    for part in syzygy::parts::Parts::new(FileId(0), src, 64) {
+        let a = syzygy::analyze_part(src, part, settings);
+        systems += a.model.systems.len();
+        diagnostics.extend(a.diagnostics);
+    }
+    assert_eq!(
+        systems,
+        whole.model.systems.len(),
+        "systems differ when read in parts"
+    );
+    // Compared as printed (a value that is not a number is not equal to itself).
+    assert_eq!(
+        format!("{diagnostics:?}"),
+        format!("{:?}", whole.diagnostics),
+        "diagnostics differ when read in parts"
+    );
 }
 
 #[test]

@@ -159,6 +159,8 @@ fn broken_structure_reads_the_same_in_parts() {
         "ref a \"x\"\nref\nsystem \"A\" { star s { mass = 1 Msun [a, b] } }\nsystem { }\nsystem \"C\" {\n",
         "",
         "# only a comment\n",
+        // A diagnostic placed at the very end of the text.
+        "system \"A\" { star s { mass = 1 Msun } }\nstar",
     ] {
         same_in_parts(src);
     }
