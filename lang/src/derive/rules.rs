@@ -164,6 +164,18 @@ pub static RULES: &[RuleDef] = &[
         },
     },
     RuleDef {
+        id: "kepler-third-law-transiting",
+        formula: "a^3 = G (M* + Mp) P^2 / (4 pi^2) with the true mass Mp from K and sin i, sin i from b and a/R* (Winn 2010 eq. 7): solved together by iteration",
+        output: P(SemiMajorAxis),
+        inputs: &[P(Period), H(StarMass), P(RvAmplitude), P(Eccentricity), P(Impact), P(ArgPeriastron), H(StarRadius)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [p, ms, k, e, b, w, rs]);
+            f::semi_major_axis_transiting(t(p), m(ms), vel(k), e, b, ang(w), l(rs))
+                .map(|v| v.get::<meter>())
+        },
+    },
+    RuleDef {
         id: "kepler-third-law-min-mass",
         formula: "a^3 = G (M* + Mp sin i) P^2 / (4 pi^2), with the minimum mass standing in for Mp",
         output: P(SemiMajorAxis),

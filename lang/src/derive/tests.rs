@@ -2,6 +2,7 @@ use crate::derive::{Options, Origin};
 use crate::quantities::{self, Qty};
 use crate::source::FileId;
 use crate::{analyze, Analysis};
+use std::f64::consts::PI;
 
 fn run(src: &str, options: &Options) -> Analysis {
     analyze(FileId(0), src, &options.clone().into())
@@ -334,4 +335,87 @@ fn a_huge_system_is_sampled_more_thinly_and_says_so() {
         .assumptions
         .iter()
         .all(|s| !s.starts_with("Monte Carlo with")));
+}
+
+/// A massive transiting planet known through `K` and the impact parameter: its semi-major
+/// axis comes from Kepler's third law with the true mass, and the minimum mass is nowhere
+/// said to stand in for it.
+#[test]
+fn transiting_planet_axis_and_hill_radius_use_the_true_mass() {
+    // Invented system: a 9 Mjup companion with a high impact parameter, so sin i is far
+    // enough from 1 for Mp and Mp sin i to differ.
+    let src = "system \"Orrin\" {
+  star orrin { mass = 1.10 Msun\n radius = 1.30 Rsun }
+  planet b orbits orrin {
+    period = 2.6 d\n    rv_amplitude = 1300 m/s\n    impact = 0.85\n    transit_depth = 0.6 %
+  }
+}";
+    let a = run(src, &Options::linear());
+    // An independent computation in plain f64 from CODATA 2018 G = 6.67430e-11 m^3 kg^-1 s^-2
+    // and the IAU 2015 B3 nominal GM_sun = 1.3271244e20 m^3 s^-2 and R_sun = 6.957e8 m.
+    let g = 6.674_30e-11;
+    let m_star = 1.10 * 1.327_124_4e20 / g;
+    let r_star = 1.30 * 6.957e8;
+    let (p, k, b) = (2.6 * 86_400.0, 1300.0, 0.85);
+    // Kepler's third law (Newton's form): a^3 = G (M* + Mp) P^2 / (4 pi^2).
+    let kepler = |mp: f64| (g * (m_star + mp) * p * p / (4.0 * PI * PI)).cbrt();
+    // K = (2 pi G / P)^(1/3) Mp sin i / (M* + Mp)^(2/3) for a circular orbit, solved for Mp
+    // by bisection.
+    let mass_from_k = |sin_i: f64| {
+        let k_of = |mp: f64| (2.0 * PI * g / p).cbrt() * mp * sin_i / (m_star + mp).powf(2.0 / 3.0);
+        let (mut lo, mut hi) = (0.0, m_star);
+        for _ in 0..200 {
+            let mid = 0.5 * (lo + hi);
+            if k_of(mid) < k {
+                lo = mid;
+            } else {
+                hi = mid;
+            }
+        }
+        0.5 * (lo + hi)
+    };
+    let min_mass = mass_from_k(1.0);
+    let mut axis = kepler(min_mass);
+    let mut mp = min_mass;
+    for _ in 0..100 {
+        // cos i = b R* / a for a circular orbit (Winn 2010 eq. 7).
+        let cos_i = b * r_star / axis;
+        mp = mass_from_k((1.0 - cos_i * cos_i).sqrt());
+        axis = kepler(mp);
+    }
+    let got = get(&a, "b", Qty::SemiMajorAxis).unwrap();
+    assert_eq!(got.rule, Some("kepler-third-law-transiting"));
+    assert!(
+        (got.value / axis - 1.0).abs() < 1e-9,
+        "a = {} m, expected {axis} m",
+        got.value
+    );
+    // The true mass matters at this level: the minimum-mass axis is measurably different.
+    assert!((kepler(min_mass) / axis - 1.0).abs() > 1e-5);
+    let hill = get(&a, "b", Qty::HillRadius).unwrap();
+    assert_eq!(hill.rule, Some("hill-radius"));
+    // r_H = a (Mp / (3 M*))^(1/3) for a circular orbit.
+    let want_hill = axis * (mp / (3.0 * m_star)).cbrt();
+    assert!((hill.value / want_hill - 1.0).abs() < 1e-8, "{} vs {want_hill}", hill.value);
+    let stands_in = "the minimum mass stands in for the true mass";
+    for q in [Qty::SemiMajorAxis, Qty::HillRadius, Qty::Mass] {
+        let r = get(&a, "b", q).unwrap();
+        assert!(!r.assumptions.iter().any(|s| s == stands_in), "{q:?}: {:?}", r.assumptions);
+    }
+}
+
+/// Without an inclination the minimum mass does stand in, and says so.
+#[test]
+fn minimum_mass_stands_in_only_without_an_inclination() {
+    let src = "system \"Orrin\" {
+  star orrin { mass = 1.10 Msun\n radius = 1.30 Rsun }
+  planet b orbits orrin { period = 2.6 d\n rv_amplitude = 1300 m/s }
+}";
+    let a = run(src, &Options::linear());
+    let got = get(&a, "b", Qty::SemiMajorAxis).unwrap();
+    assert_eq!(got.rule, Some("kepler-third-law-min-mass"));
+    assert!(got
+        .assumptions
+        .iter()
+        .any(|s| s == "the minimum mass stands in for the true mass"));
 }

@@ -559,3 +559,25 @@ mod stellar {
         assert!(radius_from_log_g(4.4, kg(0.0)).is_none());
     }
 }
+
+mod transiting_axis {
+    use super::*;
+
+    #[test]
+    fn transiting_axis_is_a_fixed_point_of_kepler_and_the_rv_mass() {
+        // Invented planet: K = 1300 m/s, P = 2.6 d, b = 0.85 around 1.1 Msun, 1.3 Rsun.
+        let (p, ms, rs) = (days(2.6), kg(1.1 * M_SUN), m(1.3 * R_SUN));
+        let k = Velocity::new::<meter_per_second>(1300.0);
+        let a = semi_major_axis_transiting(p, ms, k, 0.0, 0.85, deg(90.0), rs).expect("axis");
+        // The fixed point: the inclination from this axis (Winn 2010 eq. 7) gives the true
+        // mass, and Kepler's third law with that mass gives this axis back.
+        let i = inclination_from_impact(0.85, value_of(a / rs), 0.0, deg(90.0)).expect("i");
+        let mp = planet_mass_from_rv(k, p, ms, 0.0, i.sin().value).expect("mass");
+        let again = semi_major_axis(p, ms, mp).expect("again");
+        assert!(close(again.value, a.value, 1e-12));
+        let min = minimum_mass_from_rv(k, p, ms, 0.0).expect("min");
+        assert!(mp.value > min.value * 1.001, "sin i well below 1 here");
+        // An impact parameter beyond a/R* gives no inclination, so no axis.
+        assert!(semi_major_axis_transiting(p, ms, k, 0.0, 50.0, deg(90.0), rs).is_none());
+    }
+}
