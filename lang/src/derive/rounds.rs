@@ -114,12 +114,16 @@ impl<'m> Derivation<'m> {
             let mut fresh: Vec<Key> = Vec::new();
             for slot in todo.iter_mut() {
                 {
-                    let Some((ri, _, ins)) = slot.as_ref() else {
+                    let Some((ri, out, ins)) = slot.as_ref() else {
                         continue;
                     };
                     let tier_ok = RULES.get(*ri).is_some_and(|r| r.tier <= tier);
                     if !tier_ok || !ins.iter().all(|k| self.entries.contains_key(k)) {
                         continue;
+                    }
+                    let stands_in = RULES.get(*ri).and_then(|r| rules::stands_in_for(r.id));
+                    if stands_in.is_some_and(|q| self.entries.contains_key(&(out.0, q))) {
+                        continue; // the quantity it stands in for is known
                     }
                     let Some((ri, out, ins)) = slot.take() else {
                         continue;

@@ -72,6 +72,17 @@ macro_rules! args {
     };
 }
 
+/// The quantity a rule's approximation stands in for: the rule is not used once that
+/// quantity is known (the minimum mass stands in for a planet's mass only while the mass is
+/// unknown; compared with a route through the true mass, it would report the difference
+/// between the two masses, which is no disagreement, as one).
+pub fn stands_in_for(id: &str) -> Option<Qty> {
+    match id {
+        "kepler-third-law-min-mass" | "hill-radius-min-mass" => Some(Mass),
+        _ => None,
+    }
+}
+
 pub static RULES: &[RuleDef] = &[
     // ---- stars ----
     RuleDef {

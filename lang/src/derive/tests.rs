@@ -396,11 +396,19 @@ fn transiting_planet_axis_and_hill_radius_use_the_true_mass() {
     assert_eq!(hill.rule, Some("hill-radius"));
     // r_H = a (Mp / (3 M*))^(1/3) for a circular orbit.
     let want_hill = axis * (mp / (3.0 * m_star)).cbrt();
-    assert!((hill.value / want_hill - 1.0).abs() < 1e-8, "{} vs {want_hill}", hill.value);
+    assert!(
+        (hill.value / want_hill - 1.0).abs() < 1e-8,
+        "{} vs {want_hill}",
+        hill.value
+    );
     let stands_in = "the minimum mass stands in for the true mass";
     for q in [Qty::SemiMajorAxis, Qty::HillRadius, Qty::Mass] {
         let r = get(&a, "b", q).unwrap();
-        assert!(!r.assumptions.iter().any(|s| s == stands_in), "{q:?}: {:?}", r.assumptions);
+        assert!(
+            !r.assumptions.iter().any(|s| s == stands_in),
+            "{q:?}: {:?}",
+            r.assumptions
+        );
     }
 }
 
@@ -418,4 +426,70 @@ fn minimum_mass_stands_in_only_without_an_inclination() {
         .assumptions
         .iter()
         .any(|s| s == "the minimum mass stands in for the true mass"));
+}
+
+fn inconsistent(a: &Analysis) -> Vec<&crate::diagnostic::Diagnostic> {
+    a.diagnostics
+        .iter()
+        .filter(|d| d.rule == crate::diagnostic::Rule::Inconsistent)
+        .collect()
+}
+
+/// A planet radius typed in Rearth where Rjup was meant, 21 sigma from the transit's radius:
+/// an error; the same file with the error threshold set past it: a warning.
+#[test]
+fn inconsistency_is_an_error_past_the_second_threshold() {
+    use crate::diagnostic::Severity;
+    let src = "system \"Pell\" {
+  star pell { mass = 0.90 ± 0.04 Msun\n radius = 0.85 ± 0.03 Rsun }
+  planet b orbits pell { period = 3.1 d\n transit_depth = 1.10 ± 0.05 %\n radius = 1.05 ± 0.05 Rearth }
+}";
+    let a = run(src, &Options::linear());
+    let found = inconsistent(&a);
+    assert_eq!(found.len(), 1, "{found:#?}");
+    assert_eq!(found[0].severity, Severity::Error, "{:?}", found[0]);
+    assert!(
+        found[0].message.contains("21.1 sigma"),
+        "{}",
+        found[0].message
+    );
+    let lenient = Options {
+        consistency_error_sigma: 25.0,
+        ..Options::linear()
+    };
+    let a = run(src, &lenient);
+    let found = inconsistent(&a);
+    assert_eq!(found.len(), 1, "{found:#?}");
+    assert_eq!(found[0].severity, Severity::Warning, "{:?}", found[0]);
+}
+
+/// A declared true mass below the minimum mass that K implies.
+#[test]
+fn a_mass_below_the_minimum_mass_is_inconsistent() {
+    let system = |mass: &str| {
+        format!(
+            "system \"Quill\" {{
+  star quill {{ mass = 1.0 ± 0.03 Msun }}
+  planet b orbits quill {{ period = 10 d\n rv_amplitude = 100 ± 3 m/s\n mass = {mass} }}
+}}"
+        )
+    };
+    // K = 100 m/s at 10 d around 1 Msun is Mp sin i of about 1.1 Mjup (common practice: 1 Mjup
+    // at 10 d gives about 90 m/s).
+    let a = run(&system("0.6 ± 0.05 Mjup"), &Options::linear());
+    let found = inconsistent(&a);
+    assert_eq!(found.len(), 1, "{:#?}", a.diagnostics);
+    assert!(
+        found[0].message.starts_with("b.min_mass = ")
+            && found[0].message.contains("exceeds declared b.mass")
+            && found[0].message.contains("never below the minimum mass"),
+        "{}",
+        found[0].message
+    );
+    // A true mass above the minimum mass is what an inclined orbit gives: nothing to say.
+    let a = run(&system("1.6 ± 0.05 Mjup"), &Options::linear());
+    assert!(inconsistent(&a).is_empty(), "{:#?}", a.diagnostics);
+    // Within the uncertainties: nothing either.
+    let a = run(&system("1.0 ± 0.2 Mjup"), &Options::linear());
+    assert!(inconsistent(&a).is_empty(), "{:#?}", a.diagnostics);
 }

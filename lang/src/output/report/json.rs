@@ -74,6 +74,7 @@ pub struct Options {
     pub samples: Option<usize>,
     pub seed: u64,
     pub consistency_sigma: f64,
+    pub consistency_error_sigma: f64,
 }
 
 impl Options {
@@ -84,6 +85,7 @@ impl Options {
             samples: monte_carlo.then_some(o.samples),
             seed: o.seed,
             consistency_sigma: o.consistency_sigma,
+            consistency_error_sigma: o.consistency_error_sigma,
         }
     }
 }
