@@ -16,7 +16,9 @@ pub(super) fn rule_assumption(id: &str) -> Option<&'static str> {
         | "kepler-stellar-mass-light-planet" => {
             "the planet's mass is neglected in Kepler's third law"
         }
-        "stellar-density-from-transit" => "the planet's mass is neglected against the star's",
+        "stellar-density-from-transit" | "stellar-density-from-duration" => {
+            "the planet's mass is neglected against the star's"
+        }
         "equilibrium-temperature" => {
             "the star radiates as a blackbody; the planet sits at distance a"
         }

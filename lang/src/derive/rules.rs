@@ -400,6 +400,40 @@ pub static RULES: &[RuleDef] = &[
         },
     },
     RuleDef {
+        id: "impact-from-durations",
+        formula: "b^2 = [(1 - k)^2 - r (1 + k)^2] / (1 - r), r = sin^2(pi T23'/P) / sin^2(pi T14'/P) (Seager & Mallén-Ornelas 2003 eq. 7; T' = T (1 + e sin omega) / sqrt(1 - e^2), Winn 2010 eq. 16)",
+        output: P(Impact),
+        inputs: &[P(Period), P(TransitDuration), P(TransitDurationFull), P(RadiusRatio), P(Eccentricity), P(ArgPeriastron)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [p, t14, t23, k, e, w]);
+            f::impact_from_durations(t(p), t(t14), t(t23), k, e, ang(w))
+        },
+    },
+    RuleDef {
+        id: "scaled-axis-from-duration",
+        formula: "(a/R*)^2 = [(1 + k)^2 - b^2] / sin^2(pi T14'/P) + b^2 (1 + e sin omega)^2 / (1 - e^2)^2 (Seager & Mallén-Ornelas 2003 eq. 8 when e = 0; T' as in Winn 2010 eq. 16)",
+        output: P(ScaledAxis),
+        inputs: &[P(Period), P(TransitDuration), P(RadiusRatio), P(Impact), P(Eccentricity), P(ArgPeriastron)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [p, t14, k, b, e, w]);
+            f::scaled_axis_from_duration(t(p), t(t14), k, b, e, ang(w))
+        },
+    },
+    RuleDef {
+        id: "stellar-density-from-duration",
+        formula: "rho* = 3 pi (a/R*)^3 / (G P^2) with a/R* from T14, k and b (Seager & Mallén-Ornelas 2003 eqs. 8-9)",
+        output: H(StarDensity),
+        inputs: &[P(Period), P(TransitDuration), P(RadiusRatio), P(Impact), P(Eccentricity), P(ArgPeriastron)],
+        tier: 1,
+        eval: |x| {
+            args!(x, [p, t14, k, b, e, w]);
+            f::stellar_density_from_duration(t(p), t(t14), k, b, e, ang(w))
+                .map(|v| v.get::<kilogram_per_cubic_meter>())
+        },
+    },
+    RuleDef {
         id: "stellar-density-from-transit",
         formula: "rho* = 3 pi (a/R*)^3 / (G P^2) (Seager & Mallén-Ornelas 2003)",
         output: H(StarDensity),

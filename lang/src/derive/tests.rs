@@ -493,3 +493,109 @@ fn a_mass_below_the_minimum_mass_is_inconsistent() {
     let a = run(&system("1.0 ± 0.2 Mjup"), &Options::linear());
     assert!(inconsistent(&a).is_empty(), "{:#?}", a.diagnostics);
 }
+
+const WEND: &str = "system \"Wend\" {
+  star wend { mass = 1.00 ± 0.03 Msun; radius = 1.00 ± 0.02 Rsun }
+  planet b orbits wend {
+    period = 3.0 d
+    transit_depth = 1.00 ± 0.02 %
+    transit_duration = 2.692 ± 0.01 h
+    transit_duration_full = 2.116 ± 0.01 h
+  }
+}";
+
+/// T14, T23, the depth and the period give the impact parameter and a/R* (Seager &
+/// Mallén-Ornelas 2003 eqs. 7–8), and through them the stellar density (their eq. 9), which
+/// agrees here with the density from the star's mass and radius.
+#[test]
+fn durations_give_the_transit_geometry_and_a_density_to_compare() {
+    let a = run(WEND, &Options::linear());
+    let b = get(&a, "b", Qty::Impact).unwrap();
+    assert_eq!(b.rule, Some("impact-from-durations"));
+    let ars = get(&a, "b", Qty::ScaledAxis).unwrap();
+    assert_eq!(ars.rule, Some("scaled-axis-from-duration"));
+    // The paper's eqs. 7 and 8 with k = sqrt(depth) = 0.1.
+    let (p, k) = (3.0 * 86_400.0, 0.1);
+    let s14 = (PI * 2.692 * 3600.0 / p).sin().powi(2);
+    let s23 = (PI * 2.116 * 3600.0 / p).sin().powi(2);
+    let r = s23 / s14;
+    let b_paper = (((1.0 - k) * (1.0 - k) - r * (1.0 + k) * (1.0 + k)) / (1.0 - r)).sqrt();
+    let a_paper = (((1.0 + k) * (1.0 + k) - b_paper * b_paper * (1.0 - s14)) / s14).sqrt();
+    assert!(
+        (b.value / b_paper - 1.0).abs() < 1e-9,
+        "{} vs {b_paper}",
+        b.value
+    );
+    assert!(
+        (ars.value / a_paper - 1.0).abs() < 1e-9,
+        "{} vs {a_paper}",
+        ars.value
+    );
+    assert!(inconsistent(&a).is_empty(), "{:#?}", a.diagnostics);
+
+    // Durations 15% shorter: the transit asks for a denser star than M* and R* give.
+    let short = WEND.replace("2.692", "2.30").replace("2.116", "1.75");
+    let a = run(&short, &Options::linear());
+    let found = inconsistent(&a);
+    assert_eq!(found.len(), 1, "{found:#?}");
+    let m = &found[0].message;
+    assert!(
+        m.starts_with("wend.density = ") && m.contains("(stellar-density-from-duration)"),
+        "{m}"
+    );
+}
+
+/// A full transit longer than the total transit, both declared: nothing else compares them,
+/// so only the order says they contradict each other.
+#[test]
+fn a_full_duration_longer_than_the_total_one_is_inconsistent() {
+    let src = "system \"Wend\" {
+  star wend { mass = 1.00 ± 0.03 Msun; radius = 1.00 ± 0.02 Rsun }
+  planet b orbits wend { period = 3.0 d\n transit_duration = 1.12 ± 0.02 h\n transit_duration_full = 1.30 ± 0.02 h }
+}";
+    let a = run(src, &Options::linear());
+    let found = inconsistent(&a);
+    assert_eq!(found.len(), 1, "{:#?}", a.diagnostics);
+    let m = &found[0].message;
+    assert!(
+        m.starts_with("declared b.transit_duration_full = 1.300 ± 0.020 h exceeds declared b.transit_duration = 1.120 ± 0.020 h by 6.4 sigma"),
+        "{m}"
+    );
+    // Durations in the right order: nothing to say.
+    let a = run(
+        &src.replace("1.30 ± 0.02 h", "0.90 ± 0.02 h"),
+        &Options::linear(),
+    );
+    assert!(inconsistent(&a).is_empty(), "{:#?}", a.diagnostics);
+}
+
+/// A declared T14 of 1.12 h against an orbit (P, M*, R*, b, depth) whose full transit
+/// alone lasts 1.30 h: the durations contradict the orbit, and that is said.
+#[test]
+fn a_derived_full_duration_longer_than_the_declared_total_one_is_reported() {
+    // b = 0.752 makes T23 = 1.30 h and T14 = 2.11 h on this orbit (Winn 2010 eqs. 14-15,
+    // computed for this test with a/R* = 8.754 from Kepler's third law).
+    let src = "system \"Wend\" {
+  star wend { mass = 1.00 ± 0.03 Msun; radius = 1.00 ± 0.02 Rsun }
+  planet b orbits wend { period = 3.0 d\n transit_depth = 1.00 ± 0.02 %\n impact = 0.752 ± 0.01\n transit_duration = 1.12 ± 0.02 h }
+}";
+    let without = run(
+        &src.replace("\n transit_duration = 1.12 ± 0.02 h", ""),
+        &Options::linear(),
+    );
+    let t23 = get(&without, "b", Qty::TransitDurationFull).unwrap();
+    assert!(
+        (t23.value / 3600.0 - 1.30).abs() < 0.01,
+        "{}",
+        t23.value / 3600.0
+    );
+    let a = run(src, &Options::linear());
+    let found = inconsistent(&a);
+    assert!(!found.is_empty(), "{:#?}", a.diagnostics);
+    assert!(
+        found
+            .iter()
+            .all(|d| d.severity == crate::diagnostic::Severity::Error),
+        "{found:#?}"
+    );
+}

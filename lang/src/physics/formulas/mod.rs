@@ -8,7 +8,8 @@
 //! * `radial_velocity.rs`: the radial-velocity semi-amplitude and its exact inverse, the planet
 //!   mass (and minimum mass) from `K`;
 //! * `transit.rs`: transit depth and radius ratio, impact parameter and inclination, transit
-//!   durations, the stellar density from a transit;
+//!   durations and their inverse (impact parameter, `a/R*` and stellar density from T14 and
+//!   T23), the stellar density from a transit;
 //! * `bulk.rs`: a body's mean density, surface gravity and escape velocity;
 //! * `stability.rs`: Hill radii, the two-planet Hill-stability test and the fluid Roche limit,
 //!   with their two published coefficients;
@@ -64,8 +65,9 @@ pub use stellar::{
     teff_from_luminosity,
 };
 pub use transit::{
-    depth_from_radius_ratio, impact_from_inclination, inclination_from_impact,
-    radius_ratio_from_depth, stellar_density_from_transit, transit_duration_full,
+    depth_from_radius_ratio, impact_from_durations, impact_from_inclination,
+    inclination_from_impact, radius_ratio_from_depth, scaled_axis_from_duration,
+    stellar_density_from_duration, stellar_density_from_transit, transit_duration_full,
     transit_duration_total,
 };
 
