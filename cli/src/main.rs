@@ -101,6 +101,9 @@ struct EngineArgs {
     /// Declared and derived values further apart than this many combined sigma are reported [default: 3].
     #[arg(long, value_parser = parse_sigma)]
     sigma: Option<f64>,
+    /// An inconsistency of more than this many combined sigma is an error, not a warning [default: 5].
+    #[arg(long, value_parser = parse_sigma)]
+    error_sigma: Option<f64>,
     /// Report this rule as an error (repeatable; see docs/rules.md for the ids).
     #[arg(long, value_name = "RULE", value_parser = parse_rule)]
     deny: Vec<Rule>,
@@ -139,6 +142,7 @@ impl EngineArgs {
             samples: self.samples.map(|n| n as usize),
             seed: self.seed,
             consistency_sigma: self.sigma,
+            consistency_error_sigma: self.error_sigma,
             overrides: self.overrides(),
         }
     }

@@ -368,6 +368,10 @@ fn margin(line: &str, extra: usize, number_of: impl Fn(usize) -> usize) -> Strin
         // The closing line.
         return format!("{colour}{}{rest}", "─".repeat(extra));
     }
+    if s1 == 0 && s2 == 0 && number.is_empty() && !rest.starts_with('│') {
+        // Not a margin: the second and later lines of a note, which ariadne writes as they are.
+        return line.to_string();
+    }
     if !number.is_empty() && rest.starts_with(" │") {
         let shown = number_of(number.parse().unwrap_or(0)).to_string();
         let pad = (s2 + extra + number.len()).saturating_sub(shown.len());

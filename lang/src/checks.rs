@@ -18,8 +18,12 @@ use uom::si::length::meter;
 use uom::si::mass::kilogram;
 use uom::si::mass_density::kilogram_per_cubic_meter;
 
-/// Probability above which a planet is called denser than iron (3 sigma, one-sided).
+/// Probability from which a planet denser than iron is an error (the two-sided 3-sigma
+/// fraction, 99.73 %, rounded; common practice).
 pub const IRON_PROBABILITY: f64 = 0.997;
+/// Probability from which a planet denser than iron is a warning: more likely than not by
+/// far, though not yet established.
+pub const IRON_WARNING_PROBABILITY: f64 = 0.90;
 /// Deuterium-burning limit, about 13 Jupiter masses (Spiegel, Burrows & Milsom 2011; common practice).
 pub const DEUTERIUM_LIMIT: f64 = 13.0 * M_JUPITER;
 /// Hydrogen-burning limit, about 0.075 solar masses (common practice; Chabrier & Baraffe 2000).
@@ -117,7 +121,8 @@ fn composition_check(
     let mass = nominal(d, (bi, Qty::Mass))?;
     let radius = nominal(d, (bi, Qty::Radius))?;
     let p_iron = summary.probability(composition::CompositionClass::DenserThanIron);
-    if p_iron.is_finite() && p_iron >= IRON_PROBABILITY {
+    if p_iron.is_finite() && p_iron >= IRON_WARNING_PROBABILITY {
+        let certain = p_iron >= IRON_PROBABILITY;
         let density = nominal(d, (bi, Qty::Density)).unwrap_or(f64::NAN);
         // The same curve the classes were decided on: the iron fit, extrapolated where the
         // mass is outside its fitted range, and said so.
@@ -136,13 +141,13 @@ fn composition_check(
         } else {
             String::new()
         };
-        diags.push(
-            Diagnostic::new(
+        let mut diag = Diagnostic::new(
                 Rule::DenserThanIron,
                 anchor(d, bi, &[Qty::Radius, Qty::TransitDepth, Qty::RadiusRatio, Qty::Mass]),
                 format!(
-                    "{} is denser than pure iron: {} at {}, where a pure-iron body would have {} and a radius of {:.2} Rearth{extrapolated} (probability {:.1}%)",
+                    "{} is {}denser than pure iron: {} at {}, where a pure-iron body would have {} and a radius of {:.2} Rearth{extrapolated} (probability {:.1}%)",
                     d.sys.bodies.get(bi).map_or("?", |b| b.id.as_str()),
+                    if certain { "" } else { "probably " },
                     shown(Qty::Density, density),
                     shown(Qty::Mass, mass),
                     shown(Qty::Density, iron),
@@ -151,8 +156,16 @@ fn composition_check(
                 ),
             )
             .with_note("no composition is denser than pure iron at a given mass (Seager et al. 2007); the radius is likely too small or the mass too large")
-            .with_help("check the transit depth and the stellar radius (a radius ratio from the wrong band or star), and the mass's unit"),
-        );
+            .with_help("check the transit depth and the stellar radius (a radius ratio from the wrong band or star), and the mass's unit");
+        if !certain {
+            diag.severity = crate::diagnostic::Severity::Warning;
+            diag = diag.with_note(format!(
+                "a warning from {:.0}% probability, an error from {:.1}%",
+                IRON_WARNING_PROBABILITY * 100.0,
+                IRON_PROBABILITY * 100.0
+            ));
+        }
+        diags.push(diag);
     }
     let probs = &summary.probabilities;
     let best = summary.most_probable();

@@ -19,6 +19,7 @@
 //! samples = 5000
 //! seed = 7
 //! consistency_sigma = 3.0
+//! consistency_error_sigma = 5.0  # inconsistent past this is an error
 //! ```
 
 use crate::derive::{Options, Propagation};
@@ -46,6 +47,7 @@ struct RawDerivation {
     samples: Option<u64>,
     seed: Option<u64>,
     consistency_sigma: Option<f64>,
+    consistency_error_sigma: Option<f64>,
 }
 
 /// The settings one source gives explicitly (`None`: not given, the layer below decides):
@@ -58,6 +60,7 @@ pub struct Layer {
     pub samples: Option<usize>,
     pub seed: Option<u64>,
     pub consistency_sigma: Option<f64>,
+    pub consistency_error_sigma: Option<f64>,
 }
 
 impl Layer {
@@ -116,11 +119,16 @@ fn parse(text: &str) -> Result<Layer, String> {
             ))
         }
     };
-    if let Some(s) = d.consistency_sigma {
-        if !(s.is_finite() && s > 0.0) {
-            return Err(format!(
-                "[derivation]: consistency_sigma = {s}: expected a positive number"
-            ));
+    for (name, value) in [
+        ("consistency_sigma", d.consistency_sigma),
+        ("consistency_error_sigma", d.consistency_error_sigma),
+    ] {
+        if let Some(s) = value {
+            if !(s.is_finite() && s > 0.0) {
+                return Err(format!(
+                    "[derivation]: {name} = {s}: expected a positive number"
+                ));
+            }
         }
     }
     Ok(Layer {
@@ -129,6 +137,7 @@ fn parse(text: &str) -> Result<Layer, String> {
         samples,
         seed: d.seed,
         consistency_sigma: d.consistency_sigma,
+        consistency_error_sigma: d.consistency_error_sigma,
     })
 }
 
@@ -181,6 +190,9 @@ impl Settings {
         }
         if let Some(s) = layer.consistency_sigma {
             o.consistency_sigma = s;
+        }
+        if let Some(s) = layer.consistency_error_sigma {
+            o.consistency_error_sigma = s;
         }
         self.overrides.extend(layer.overrides.iter().copied());
         self
@@ -304,7 +316,7 @@ mod tests {
     #[test]
     fn full_file() {
         let c = layer(
-            "[rules]\ninconsistent = \"error\"\nunstable-spacing = \"off\"\n[derivation]\npropagation = \"linear\"\nsamples = 500\nseed = 9\nconsistency_sigma = 5.0\n",
+            "[rules]\ninconsistent = \"error\"\nunstable-spacing = \"off\"\n[derivation]\npropagation = \"linear\"\nsamples = 500\nseed = 9\nconsistency_sigma = 5.0\nconsistency_error_sigma = 8.0\n",
         )
         .unwrap();
         assert_eq!(
@@ -317,6 +329,8 @@ mod tests {
         let o = Settings::resolve(Some(&c), &Layer::default()).options;
         assert_eq!(o.propagation, Propagation::Linear);
         assert_eq!((o.samples, o.seed, o.consistency_sigma), (500, 9, 5.0));
+        assert_eq!(o.consistency_error_sigma, 8.0);
+        assert_eq!(Settings::default().options.consistency_error_sigma, 5.0);
     }
 
     #[test]

@@ -286,6 +286,13 @@ fn fuzz_every_stage() {
             std::panic::resume_unwind(e);
         }
         runs += 1;
+        if runs % 100_000 == 0 {
+            // Progress for long runs, so that a stopped run still says how far it got.
+            eprintln!(
+                "fuzz: {runs} mutants in {:.0} s, no crash so far; slowest {slowest:?}",
+                start.elapsed().as_secs_f64()
+            );
+        }
     }
     eprintln!("fuzz: {runs} mutants in {seconds} s, no crash; slowest {slowest:?}");
     assert!(runs > 0);

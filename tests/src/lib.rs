@@ -107,6 +107,21 @@ pub fn stderr(o: &Output) -> String {
     String::from_utf8_lossy(&o.stderr).into_owned()
 }
 
+/// The (rule, severity) of every diagnostic of a `syz check --format json` document.
+pub fn rules_of(v: &serde_json::Value) -> Vec<(String, String)> {
+    v["diagnostics"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|d| {
+            (
+                d["rule"].as_str().unwrap().to_string(),
+                d["severity"].as_str().unwrap().to_string(),
+            )
+        })
+        .collect()
+}
+
 /// A scratch folder for one test, emptied first and removed when the test is done (it
 /// derefs to its path).
 pub fn scratch(name: &str) -> Scratch {

@@ -249,7 +249,8 @@ fn a_changed_project_file_changes_the_published_diagnostics() {
     c.open(&uri, &text);
     let defaults = from_server(&c.diagnostics(&uri, Some(1)));
     assert!(rules(&defaults).contains(&("unstable-spacing", "warning")));
-    assert!(rules(&defaults).contains(&("inconsistent", "warning")));
+    // The demo's 22-sigma inconsistency is past the default error threshold of 5 sigma.
+    assert!(rules(&defaults).contains(&("inconsistent", "error")));
 
     // Created on disk, announced by the client: the document is analysed again.
     std::fs::write(&toml, PROJECT).unwrap();

@@ -71,7 +71,8 @@ fn a_tree_of_20000_files_checks_and_bad_paths_do_not_stop_it() {
 
 /// A file larger than one part (`syzygy::parts::PART_BYTES`) is analysed part after part:
 /// what it says must be what a whole-file reading says. Each of 3,000 systems has two
-/// warnings (a declared semi-major axis that disagrees with Kepler's law, twice); a
+/// errors (a declared semi-major axis that disagrees with Kepler's law by 7 sigma, past the
+/// error threshold, twice); a
 /// silencing comment near the end covers its system's, a name declared twice is found across the
 /// file, and a citation names a reference declared at its very end.
 #[test]
@@ -116,7 +117,7 @@ fn a_file_read_in_parts_reports_as_one_file() {
     // Text: 200 rendered, one line for the rest, one summary.
     let o = run(&["check", "--propagation", "linear", path]);
     let out = stdout(&o);
-    assert_eq!(out.matches("[inconsistent] Warning:").count(), 200, "{out}");
+    assert_eq!(out.matches("[inconsistent] Error:").count(), 200, "{out}");
     assert_eq!(
         out.matches("5799 more diagnostics in this file not shown")
             .count(),

@@ -101,6 +101,38 @@ fn denser_than_iron_fires_and_a_rocky_planet_does_not() {
     );
 }
 
+#[test]
+fn denser_than_iron_is_a_warning_from_90_and_an_error_from_99_7_percent() {
+    let iron = |radius: &str| {
+        let src = one_planet(&format!(
+            "period = 5 d; mass = 10 ± 0.5 Mearth; radius = {radius} Rearth"
+        ));
+        both_propagations(&src).map(|a| {
+            a.diagnostics
+                .iter()
+                .find(|d| d.rule == Rule::DenserThanIron)
+                .map(|d| (d.severity, d.message.clone()))
+        })
+    };
+    // About 94% likely denser than iron (the iron curve gives about 1.48 Rearth at 10 Mearth):
+    // a warning, and it says "probably".
+    for found in iron("1.40 ± 0.05") {
+        let (severity, message) = found.expect("a warning from 90%");
+        assert_eq!(severity, Severity::Warning, "{message}");
+        assert!(message.contains("probably denser"), "{message}");
+    }
+    // Far below the curve: an error, as before.
+    for found in iron("1.0 ± 0.02") {
+        let (severity, message) = found.expect("an error from 99.7%");
+        assert_eq!(severity, Severity::Error, "{message}");
+        assert!(!message.contains("probably"), "{message}");
+    }
+    // About 73% likely: below the warning threshold, nothing is said.
+    for found in iron("1.45 ± 0.05") {
+        assert_eq!(found, None);
+    }
+}
+
 /// Both ways the checker finds class probabilities: Monte Carlo samples and first-order
 /// quadrature.
 fn both_propagations(src: &str) -> [Analysis; 2] {

@@ -1,6 +1,21 @@
-//! Second routes to a quantity compared with the first: the `inconsistent` rule.
+//! Second routes to a quantity compared with the first, and pairs of quantities whose order
+//! physics fixes: the `inconsistent` rule.
 
 use super::*;
+
+/// Pairs of one planet's quantities where the first can never exceed the second, and why.
+const ORDERED: &[(Qty, Qty, &str)] = &[
+    (
+        Qty::MinMass,
+        Qty::Mass,
+        "a true mass is never below the minimum mass Mp sin i",
+    ),
+    (
+        Qty::TransitDurationFull,
+        Qty::TransitDuration,
+        "the full transit (second to third contact) lies within the total transit (first to fourth contact)",
+    ),
+];
 
 impl<'m> Derivation<'m> {
     pub(super) fn check_consistency(&mut self) {
@@ -41,6 +56,99 @@ impl<'m> Derivation<'m> {
                 self.diagnostics.push(diag);
             }
         }
+        for bi in 0..self.sys.bodies.len() {
+            for (small, large, why) in ORDERED {
+                self.check_order((bi, *small), (bi, *large), why, threshold, &mut reported);
+            }
+        }
+    }
+
+    /// `small` may not exceed `large` (a minimum mass and the true mass, a full and a total
+    /// transit duration): when one of them rests on a measurement the other does not use and
+    /// `small` exceeds `large` by more than `threshold` combined sigma, it is `inconsistent`.
+    fn check_order(
+        &mut self,
+        small: Key,
+        large: Key,
+        why: &str,
+        threshold: f64,
+        reported: &mut FxHashSet<SortedSet<Key>>,
+    ) {
+        let (Some(s), Some(l)) = (self.entries.get(&small), self.entries.get(&large)) else {
+            return;
+        };
+        let (mine, theirs) = (self.declared_deps(&s.deps), self.declared_deps(&l.deps));
+        if mine.is_subset(&theirs) || theirs.is_subset(&mine) {
+            return; // one follows from the other's measurements, so the model orders them
+        }
+        let excess = s.value.nominal - l.value.nominal;
+        let floor = 1e-9 * s.value.nominal.abs().max(l.value.nominal.abs());
+        let sigma = s.value.sigma_of_difference(&l.value, &self.inputs);
+        let z = excess / sigma.max(floor);
+        if excess <= floor || z <= threshold {
+            return;
+        }
+        let mut involved: SortedSet<Key> = s.deps.union(&l.deps);
+        involved.retain(|k| self.entries.get(k).is_some_and(|e| e.rule.is_none()));
+        if !reported.insert(involved.clone()) {
+            return;
+        }
+        let message = format!(
+            "{} exceeds {} by {z:.1} sigma, but {why}",
+            self.described(small, s),
+            self.described(large, l),
+        );
+        // Point at the declared one of the two (the measurement to check first).
+        let span = [small, large]
+            .iter()
+            .find_map(|k| self.declared_span(*k))
+            .or_else(|| involved.iter().find_map(|k| self.declared_span(*k)))
+            .unwrap_or_default();
+        let mut d = Diagnostic::new(Rule::Inconsistent, span, message)
+            .with_help("check the units and the sources of these measurements; one of them may belong to another body or epoch");
+        self.grade(&mut d, z);
+        let d = self.label_involved(d, span, &involved);
+        self.diagnostics.push(d);
+    }
+
+    fn declared_span(&self, k: Key) -> Option<Span> {
+        self.sys
+            .bodies
+            .get(k.0)
+            .and_then(|b| b.get(k.1))
+            .map(|d| d.value_span)
+    }
+
+    /// A value with its uncertainty and unit, as diagnostics show it.
+    fn shown(&self, q: Qty, v: &Value) -> String {
+        let (lo, hi) = v.linear_spread(&self.inputs);
+        let unit = display_unit(q, v.nominal);
+        format!(
+            "{} {unit}",
+            crate::format::with_uncertainty(unit.of(v.nominal), unit.of(lo), unit.of(hi))
+        )
+    }
+
+    /// `declared b.mass = ...`, or `b.mass = ... from inputs (rule)`.
+    fn described(&self, key: Key, entry: &Entry) -> String {
+        let value = self.shown(key.1, &entry.value);
+        match entry.rule {
+            None => format!("declared {} = {value}", self.key_name(key)),
+            Some(r) => format!(
+                "{} = {value} from {} ({})",
+                self.key_name(key),
+                self.route(&entry.inputs),
+                RULES.get(r).map_or("?", |r| r.id)
+            ),
+        }
+    }
+
+    fn route(&self, inputs: &[Key]) -> String {
+        inputs
+            .iter()
+            .map(|k| self.key_name(*k))
+            .collect::<Vec<_>>()
+            .join(", ")
     }
 
     pub(super) fn inconsistency(
@@ -51,55 +159,19 @@ impl<'m> Derivation<'m> {
         z: f64,
         involved: &SortedSet<Key>,
     ) -> Diagnostic {
-        let def = quantities::def(key.1);
         let body = self.sys.bodies.get(key.0);
-        let bname = body.map_or("?", |b| b.id.as_str());
-        let shown = |v: &Value| {
-            let (lo, hi) = v.linear_spread(&self.inputs);
-            let unit = display_unit(key.1, v.nominal);
-            format!(
-                "{} {unit}",
-                crate::format::with_uncertainty(unit.of(v.nominal), unit.of(lo), unit.of(hi))
-            )
-        };
         let rule = RULES.get(c.rule);
-        let route = |inputs: &[Key]| {
-            inputs
-                .iter()
-                .map(|k| self.key_name(*k))
-                .collect::<Vec<_>>()
-                .join(", ")
-        };
-        let first = match entry.rule {
-            None => format!("declared {}.{} = {}", bname, def.name, shown(&entry.value)),
-            Some(r) => format!(
-                "{}.{} = {} from {} ({})",
-                bname,
-                def.name,
-                shown(&entry.value),
-                route(&entry.inputs),
-                RULES.get(r).map_or("?", |r| r.id)
-            ),
-        };
         let message = format!(
-            "{first} disagrees with {} from {} ({}) by {:.1} sigma",
-            shown(&c.value),
-            route(&c.inputs),
+            "{} disagrees with {} from {} ({}) by {:.1} sigma",
+            self.described(key, entry),
+            self.shown(key.1, &c.value),
+            self.route(&c.inputs),
             rule.map_or("?", |r| r.id),
             z
         );
-        let span = body
-            .and_then(|b| b.get(key.1))
-            .map(|d| d.value_span)
-            .or_else(|| {
-                involved.iter().find_map(|k| {
-                    self.sys
-                        .bodies
-                        .get(k.0)
-                        .and_then(|b| b.get(k.1))
-                        .map(|d| d.value_span)
-                })
-            })
+        let span = self
+            .declared_span(key)
+            .or_else(|| involved.iter().find_map(|k| self.declared_span(*k)))
             .or_else(|| body.map(|b| b.name_span))
             .unwrap_or_default();
         let mut d = Diagnostic::new(Rule::Inconsistent, span, message)
@@ -107,17 +179,44 @@ impl<'m> Derivation<'m> {
         if let Some(r) = rule {
             d = d.with_note(format!("{}: {}", r.id, r.formula));
         }
+        self.grade(&mut d, z);
+        self.label_involved(d, span, involved)
+    }
+
+    /// Labels every declared measurement among `involved` not at `span`.
+    fn label_involved(
+        &self,
+        mut d: Diagnostic,
+        span: Span,
+        involved: &SortedSet<Key>,
+    ) -> Diagnostic {
         for k in involved {
-            if let Some(decl) = self.sys.bodies.get(k.0).and_then(|b| b.get(k.1)) {
-                if decl.value_span != span {
-                    d = d.with_label(
-                        decl.value_span,
-                        format!("{} is used here", self.key_name(*k)),
-                    );
+            if let Some(at) = self.declared_span(*k) {
+                if at != span {
+                    d = d.with_label(at, format!("{} is used here", self.key_name(*k)));
                 }
             }
         }
         d
+    }
+
+    /// An `inconsistent` finding at `z` combined sigma is an error past the error threshold,
+    /// else a warning; the note says which threshold it crossed.
+    pub(super) fn grade(&self, d: &mut Diagnostic, z: f64) {
+        let (warn, error) = (
+            self.options.consistency_sigma,
+            self.options.consistency_error_sigma,
+        );
+        if z > error {
+            d.severity = crate::diagnostic::Severity::Error;
+            d.notes.push(format!(
+                "an error: past the error threshold of {error} sigma (--error-sigma)"
+            ));
+        } else {
+            d.notes.push(format!(
+                "a warning: between the thresholds of {warn} and {error} sigma (--sigma, --error-sigma)"
+            ));
+        }
     }
 
     /// The declared measurements among `deps` (defaults and derived values left out).

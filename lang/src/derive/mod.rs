@@ -6,7 +6,8 @@
 //! reachable in a round, the best route of that round becomes its value — routes are ranked
 //! by how complete their physics is, then by precision. Routes found later, and routes to
 //! quantities the user declared, are kept as alternatives and compared: a difference over the
-//! consistency threshold (3 combined sigma by default) is an `inconsistent` warning.
+//! consistency threshold (3 combined sigma by default) is an `inconsistent` warning, an error
+//! past the second threshold (5 sigma by default).
 //!
 //! Uncertainties are propagated by Monte Carlo (default) or to first order; see
 //! [`value`]. A few quantities have defaults when not declared (circular orbit, zero Bond
@@ -52,6 +53,8 @@ pub struct Options {
     /// Declared and derived values further apart than this many combined standard
     /// deviations are reported as `inconsistent`.
     pub consistency_sigma: f64,
+    /// Past this many combined standard deviations an `inconsistent` finding is an error.
+    pub consistency_error_sigma: f64,
 }
 
 impl Default for Options {
@@ -61,6 +64,7 @@ impl Default for Options {
             samples: 10_000,
             seed: 0x5359_5a59,
             consistency_sigma: 3.0,
+            consistency_error_sigma: 5.0,
         }
     }
 }

@@ -16,7 +16,9 @@ pub(super) fn rule_assumption(id: &str) -> Option<&'static str> {
         | "kepler-stellar-mass-light-planet" => {
             "the planet's mass is neglected in Kepler's third law"
         }
-        "stellar-density-from-transit" => "the planet's mass is neglected against the star's",
+        "stellar-density-from-transit" | "stellar-density-from-duration" => {
+            "the planet's mass is neglected against the star's"
+        }
         "equilibrium-temperature" => {
             "the star radiates as a blackbody; the planet sits at distance a"
         }
@@ -114,12 +116,16 @@ impl<'m> Derivation<'m> {
             let mut fresh: Vec<Key> = Vec::new();
             for slot in todo.iter_mut() {
                 {
-                    let Some((ri, _, ins)) = slot.as_ref() else {
+                    let Some((ri, out, ins)) = slot.as_ref() else {
                         continue;
                     };
                     let tier_ok = RULES.get(*ri).is_some_and(|r| r.tier <= tier);
                     if !tier_ok || !ins.iter().all(|k| self.entries.contains_key(k)) {
                         continue;
+                    }
+                    let stands_in = RULES.get(*ri).and_then(|r| rules::stands_in_for(r.id));
+                    if stands_in.is_some_and(|q| self.entries.contains_key(&(out.0, q))) {
+                        continue; // the quantity it stands in for is known
                     }
                     let Some((ri, out, ins)) = slot.take() else {
                         continue;

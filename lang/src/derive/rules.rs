@@ -72,6 +72,17 @@ macro_rules! args {
     };
 }
 
+/// The quantity a rule's approximation stands in for: the rule is not used once that
+/// quantity is known (the minimum mass stands in for a planet's mass only while the mass is
+/// unknown; compared with a route through the true mass, it would report the difference
+/// between the two masses, which is no disagreement, as one).
+pub fn stands_in_for(id: &str) -> Option<Qty> {
+    match id {
+        "kepler-third-law-min-mass" | "hill-radius-min-mass" => Some(Mass),
+        _ => None,
+    }
+}
+
 pub static RULES: &[RuleDef] = &[
     // ---- stars ----
     RuleDef {
@@ -161,6 +172,18 @@ pub static RULES: &[RuleDef] = &[
         eval: |x| {
             args!(x, [p, ms, mp]);
             f::semi_major_axis(t(p), m(ms), m(mp)).map(|v| v.get::<meter>())
+        },
+    },
+    RuleDef {
+        id: "kepler-third-law-transiting",
+        formula: "a^3 = G (M* + Mp) P^2 / (4 pi^2) with the true mass Mp from K and sin i, sin i from b and a/R* (Winn 2010 eq. 7): solved together by iteration",
+        output: P(SemiMajorAxis),
+        inputs: &[P(Period), H(StarMass), P(RvAmplitude), P(Eccentricity), P(Impact), P(ArgPeriastron), H(StarRadius)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [p, ms, k, e, b, w, rs]);
+            f::semi_major_axis_transiting(t(p), m(ms), vel(k), e, b, ang(w), l(rs))
+                .map(|v| v.get::<meter>())
         },
     },
     RuleDef {
@@ -374,6 +397,40 @@ pub static RULES: &[RuleDef] = &[
         eval: |x| {
             args!(x, [p, ars, k, b, e, w]);
             f::transit_duration_full(t(p), ars, k, b, e, ang(w)).map(|v| v.get::<second>())
+        },
+    },
+    RuleDef {
+        id: "impact-from-durations",
+        formula: "b^2 = [(1 - k)^2 - r (1 + k)^2] / (1 - r), r = sin^2(pi T23'/P) / sin^2(pi T14'/P) (Seager & Mallén-Ornelas 2003 eq. 7; T' = T (1 + e sin omega) / sqrt(1 - e^2), Winn 2010 eq. 16)",
+        output: P(Impact),
+        inputs: &[P(Period), P(TransitDuration), P(TransitDurationFull), P(RadiusRatio), P(Eccentricity), P(ArgPeriastron)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [p, t14, t23, k, e, w]);
+            f::impact_from_durations(t(p), t(t14), t(t23), k, e, ang(w))
+        },
+    },
+    RuleDef {
+        id: "scaled-axis-from-duration",
+        formula: "(a/R*)^2 = [(1 + k)^2 - b^2] / sin^2(pi T14'/P) + b^2 (1 + e sin omega)^2 / (1 - e^2)^2 (Seager & Mallén-Ornelas 2003 eq. 8 when e = 0; T' as in Winn 2010 eq. 16)",
+        output: P(ScaledAxis),
+        inputs: &[P(Period), P(TransitDuration), P(RadiusRatio), P(Impact), P(Eccentricity), P(ArgPeriastron)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [p, t14, k, b, e, w]);
+            f::scaled_axis_from_duration(t(p), t(t14), k, b, e, ang(w))
+        },
+    },
+    RuleDef {
+        id: "stellar-density-from-duration",
+        formula: "rho* = 3 pi (a/R*)^3 / (G P^2) with a/R* from T14, k and b (Seager & Mallén-Ornelas 2003 eqs. 8-9)",
+        output: H(StarDensity),
+        inputs: &[P(Period), P(TransitDuration), P(RadiusRatio), P(Impact), P(Eccentricity), P(ArgPeriastron)],
+        tier: 1,
+        eval: |x| {
+            args!(x, [p, t14, k, b, e, w]);
+            f::stellar_density_from_duration(t(p), t(t14), k, b, e, ang(w))
+                .map(|v| v.get::<kilogram_per_cubic_meter>())
         },
     },
     RuleDef {

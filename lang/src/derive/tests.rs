@@ -2,6 +2,7 @@ use crate::derive::{Options, Origin};
 use crate::quantities::{self, Qty};
 use crate::source::FileId;
 use crate::{analyze, Analysis};
+use std::f64::consts::PI;
 
 fn run(src: &str, options: &Options) -> Analysis {
     analyze(FileId(0), src, &options.clone().into())
@@ -408,4 +409,267 @@ fn an_unknown_orientation_is_sampled_even_to_first_order() {
     ] {
         assert!((l / m - 1.0).abs() < 0.05, "{l} vs {m}");
     }
+}
+
+/// A massive transiting planet known through `K` and the impact parameter: its semi-major
+/// axis comes from Kepler's third law with the true mass, and the minimum mass is nowhere
+/// said to stand in for it.
+#[test]
+fn transiting_planet_axis_and_hill_radius_use_the_true_mass() {
+    // Invented system: a 9 Mjup companion with a high impact parameter, so sin i is far
+    // enough from 1 for Mp and Mp sin i to differ.
+    let src = "system \"Orrin\" {
+  star orrin { mass = 1.10 Msun\n radius = 1.30 Rsun }
+  planet b orbits orrin {
+    period = 2.6 d\n    rv_amplitude = 1300 m/s\n    impact = 0.85\n    transit_depth = 0.6 %
+  }
+}";
+    let a = run(src, &Options::linear());
+    // An independent computation in plain f64 from CODATA 2018 G = 6.67430e-11 m^3 kg^-1 s^-2
+    // and the IAU 2015 B3 nominal GM_sun = 1.3271244e20 m^3 s^-2 and R_sun = 6.957e8 m.
+    let g = 6.674_30e-11;
+    let m_star = 1.10 * 1.327_124_4e20 / g;
+    let r_star = 1.30 * 6.957e8;
+    let (p, k, b) = (2.6 * 86_400.0, 1300.0, 0.85);
+    // Kepler's third law (Newton's form): a^3 = G (M* + Mp) P^2 / (4 pi^2).
+    let kepler = |mp: f64| (g * (m_star + mp) * p * p / (4.0 * PI * PI)).cbrt();
+    // K = (2 pi G / P)^(1/3) Mp sin i / (M* + Mp)^(2/3) for a circular orbit, solved for Mp
+    // by bisection.
+    let mass_from_k = |sin_i: f64| {
+        let k_of = |mp: f64| (2.0 * PI * g / p).cbrt() * mp * sin_i / (m_star + mp).powf(2.0 / 3.0);
+        let (mut lo, mut hi) = (0.0, m_star);
+        for _ in 0..200 {
+            let mid = 0.5 * (lo + hi);
+            if k_of(mid) < k {
+                lo = mid;
+            } else {
+                hi = mid;
+            }
+        }
+        0.5 * (lo + hi)
+    };
+    let min_mass = mass_from_k(1.0);
+    let mut axis = kepler(min_mass);
+    let mut mp = min_mass;
+    for _ in 0..100 {
+        // cos i = b R* / a for a circular orbit (Winn 2010 eq. 7).
+        let cos_i = b * r_star / axis;
+        mp = mass_from_k((1.0 - cos_i * cos_i).sqrt());
+        axis = kepler(mp);
+    }
+    let got = get(&a, "b", Qty::SemiMajorAxis).unwrap();
+    assert_eq!(got.rule, Some("kepler-third-law-transiting"));
+    assert!(
+        (got.value / axis - 1.0).abs() < 1e-9,
+        "a = {} m, expected {axis} m",
+        got.value
+    );
+    // The true mass matters at this level: the minimum-mass axis is measurably different.
+    assert!((kepler(min_mass) / axis - 1.0).abs() > 1e-5);
+    let hill = get(&a, "b", Qty::HillRadius).unwrap();
+    assert_eq!(hill.rule, Some("hill-radius"));
+    // r_H = a (Mp / (3 M*))^(1/3) for a circular orbit.
+    let want_hill = axis * (mp / (3.0 * m_star)).cbrt();
+    assert!(
+        (hill.value / want_hill - 1.0).abs() < 1e-8,
+        "{} vs {want_hill}",
+        hill.value
+    );
+    let stands_in = "the minimum mass stands in for the true mass";
+    for q in [Qty::SemiMajorAxis, Qty::HillRadius, Qty::Mass] {
+        let r = get(&a, "b", q).unwrap();
+        assert!(
+            !r.assumptions.iter().any(|s| s == stands_in),
+            "{q:?}: {:?}",
+            r.assumptions
+        );
+    }
+}
+
+/// Without an inclination the minimum mass does stand in, and says so.
+#[test]
+fn minimum_mass_stands_in_only_without_an_inclination() {
+    let src = "system \"Orrin\" {
+  star orrin { mass = 1.10 Msun\n radius = 1.30 Rsun }
+  planet b orbits orrin { period = 2.6 d\n rv_amplitude = 1300 m/s }
+}";
+    let a = run(src, &Options::linear());
+    let got = get(&a, "b", Qty::SemiMajorAxis).unwrap();
+    assert_eq!(got.rule, Some("kepler-third-law-min-mass"));
+    assert!(got
+        .assumptions
+        .iter()
+        .any(|s| s == "the minimum mass stands in for the true mass"));
+}
+
+fn inconsistent(a: &Analysis) -> Vec<&crate::diagnostic::Diagnostic> {
+    a.diagnostics
+        .iter()
+        .filter(|d| d.rule == crate::diagnostic::Rule::Inconsistent)
+        .collect()
+}
+
+/// A planet radius typed in Rearth where Rjup was meant, 21 sigma from the transit's radius:
+/// an error; the same file with the error threshold set past it: a warning.
+#[test]
+fn inconsistency_is_an_error_past_the_second_threshold() {
+    use crate::diagnostic::Severity;
+    let src = "system \"Pell\" {
+  star pell { mass = 0.90 ± 0.04 Msun\n radius = 0.85 ± 0.03 Rsun }
+  planet b orbits pell { period = 3.1 d\n transit_depth = 1.10 ± 0.05 %\n radius = 1.05 ± 0.05 Rearth }
+}";
+    let a = run(src, &Options::linear());
+    let found = inconsistent(&a);
+    assert_eq!(found.len(), 1, "{found:#?}");
+    assert_eq!(found[0].severity, Severity::Error, "{:?}", found[0]);
+    assert!(
+        found[0].message.contains("21.1 sigma"),
+        "{}",
+        found[0].message
+    );
+    let lenient = Options {
+        consistency_error_sigma: 25.0,
+        ..Options::linear()
+    };
+    let a = run(src, &lenient);
+    let found = inconsistent(&a);
+    assert_eq!(found.len(), 1, "{found:#?}");
+    assert_eq!(found[0].severity, Severity::Warning, "{:?}", found[0]);
+}
+
+/// A declared true mass below the minimum mass that K implies.
+#[test]
+fn a_mass_below_the_minimum_mass_is_inconsistent() {
+    let system = |mass: &str| {
+        format!(
+            "system \"Quill\" {{
+  star quill {{ mass = 1.0 ± 0.03 Msun }}
+  planet b orbits quill {{ period = 10 d\n rv_amplitude = 100 ± 3 m/s\n mass = {mass} }}
+}}"
+        )
+    };
+    // K = 100 m/s at 10 d around 1 Msun is Mp sin i of about 1.1 Mjup (common practice: 1 Mjup
+    // at 10 d gives about 90 m/s).
+    let a = run(&system("0.6 ± 0.05 Mjup"), &Options::linear());
+    let found = inconsistent(&a);
+    assert_eq!(found.len(), 1, "{:#?}", a.diagnostics);
+    assert!(
+        found[0].message.starts_with("b.min_mass = ")
+            && found[0].message.contains("exceeds declared b.mass")
+            && found[0].message.contains("never below the minimum mass"),
+        "{}",
+        found[0].message
+    );
+    // A true mass above the minimum mass is what an inclined orbit gives: nothing to say.
+    let a = run(&system("1.6 ± 0.05 Mjup"), &Options::linear());
+    assert!(inconsistent(&a).is_empty(), "{:#?}", a.diagnostics);
+    // Within the uncertainties: nothing either.
+    let a = run(&system("1.0 ± 0.2 Mjup"), &Options::linear());
+    assert!(inconsistent(&a).is_empty(), "{:#?}", a.diagnostics);
+}
+
+const WEND: &str = "system \"Wend\" {
+  star wend { mass = 1.00 ± 0.03 Msun; radius = 1.00 ± 0.02 Rsun }
+  planet b orbits wend {
+    period = 3.0 d
+    transit_depth = 1.00 ± 0.02 %
+    transit_duration = 2.692 ± 0.01 h
+    transit_duration_full = 2.116 ± 0.01 h
+  }
+}";
+
+/// T14, T23, the depth and the period give the impact parameter and a/R* (Seager &
+/// Mallén-Ornelas 2003 eqs. 7–8), and through them the stellar density (their eq. 9), which
+/// agrees here with the density from the star's mass and radius.
+#[test]
+fn durations_give_the_transit_geometry_and_a_density_to_compare() {
+    let a = run(WEND, &Options::linear());
+    let b = get(&a, "b", Qty::Impact).unwrap();
+    assert_eq!(b.rule, Some("impact-from-durations"));
+    let ars = get(&a, "b", Qty::ScaledAxis).unwrap();
+    assert_eq!(ars.rule, Some("scaled-axis-from-duration"));
+    // The paper's eqs. 7 and 8 with k = sqrt(depth) = 0.1.
+    let (p, k) = (3.0 * 86_400.0, 0.1);
+    let s14 = (PI * 2.692 * 3600.0 / p).sin().powi(2);
+    let s23 = (PI * 2.116 * 3600.0 / p).sin().powi(2);
+    let r = s23 / s14;
+    let b_paper = (((1.0 - k) * (1.0 - k) - r * (1.0 + k) * (1.0 + k)) / (1.0 - r)).sqrt();
+    let a_paper = (((1.0 + k) * (1.0 + k) - b_paper * b_paper * (1.0 - s14)) / s14).sqrt();
+    assert!(
+        (b.value / b_paper - 1.0).abs() < 1e-9,
+        "{} vs {b_paper}",
+        b.value
+    );
+    assert!(
+        (ars.value / a_paper - 1.0).abs() < 1e-9,
+        "{} vs {a_paper}",
+        ars.value
+    );
+    assert!(inconsistent(&a).is_empty(), "{:#?}", a.diagnostics);
+
+    // Durations 15% shorter: the transit asks for a denser star than M* and R* give.
+    let short = WEND.replace("2.692", "2.30").replace("2.116", "1.75");
+    let a = run(&short, &Options::linear());
+    let found = inconsistent(&a);
+    assert_eq!(found.len(), 1, "{found:#?}");
+    let m = &found[0].message;
+    assert!(
+        m.starts_with("wend.density = ") && m.contains("(stellar-density-from-duration)"),
+        "{m}"
+    );
+}
+
+/// A full transit longer than the total transit, both declared: nothing else compares them,
+/// so only the order says they contradict each other.
+#[test]
+fn a_full_duration_longer_than_the_total_one_is_inconsistent() {
+    let src = "system \"Wend\" {
+  star wend { mass = 1.00 ± 0.03 Msun; radius = 1.00 ± 0.02 Rsun }
+  planet b orbits wend { period = 3.0 d\n transit_duration = 1.12 ± 0.02 h\n transit_duration_full = 1.30 ± 0.02 h }
+}";
+    let a = run(src, &Options::linear());
+    let found = inconsistent(&a);
+    assert_eq!(found.len(), 1, "{:#?}", a.diagnostics);
+    let m = &found[0].message;
+    assert!(
+        m.starts_with("declared b.transit_duration_full = 1.300 ± 0.020 h exceeds declared b.transit_duration = 1.120 ± 0.020 h by 6.4 sigma"),
+        "{m}"
+    );
+    // Durations in the right order: nothing to say.
+    let a = run(
+        &src.replace("1.30 ± 0.02 h", "0.90 ± 0.02 h"),
+        &Options::linear(),
+    );
+    assert!(inconsistent(&a).is_empty(), "{:#?}", a.diagnostics);
+}
+
+/// A declared T14 of 1.12 h against an orbit (P, M*, R*, b, depth) whose full transit
+/// alone lasts 1.30 h: the durations contradict the orbit, and that is said.
+#[test]
+fn a_derived_full_duration_longer_than_the_declared_total_one_is_reported() {
+    // b = 0.752 makes T23 = 1.30 h and T14 = 2.11 h on this orbit (Winn 2010 eqs. 14-15,
+    // computed for this test with a/R* = 8.754 from Kepler's third law).
+    let src = "system \"Wend\" {
+  star wend { mass = 1.00 ± 0.03 Msun; radius = 1.00 ± 0.02 Rsun }
+  planet b orbits wend { period = 3.0 d\n transit_depth = 1.00 ± 0.02 %\n impact = 0.752 ± 0.01\n transit_duration = 1.12 ± 0.02 h }
+}";
+    let without = run(
+        &src.replace("\n transit_duration = 1.12 ± 0.02 h", ""),
+        &Options::linear(),
+    );
+    let t23 = get(&without, "b", Qty::TransitDurationFull).unwrap();
+    assert!(
+        (t23.value / 3600.0 - 1.30).abs() < 0.01,
+        "{}",
+        t23.value / 3600.0
+    );
+    let a = run(src, &Options::linear());
+    let found = inconsistent(&a);
+    assert!(!found.is_empty(), "{:#?}", a.diagnostics);
+    assert!(
+        found
+            .iter()
+            .all(|d| d.severity == crate::diagnostic::Severity::Error),
+        "{found:#?}"
+    );
 }

@@ -416,9 +416,32 @@ pub fn transit_curve(
     }
     let mut inp = Inputs::new(a, sys, body)?;
     let n = DRAWS_TRANSIT;
-    let k = inp.draws(Qty::RadiusRatio, n, 21)?;
+    // A radius ratio the engine read from the depth as k = sqrt(depth) (no limb darkening)
+    // would make this limb-darkened curve deeper than the depth; it is solved again from the
+    // depth with the law drawn here instead, so the dip is the depth.
+    let from_depth = inp
+        .result(Qty::RadiusRatio)
+        .is_some_and(|r| r.rule == Some("depth-radius-ratio"));
+    let k_or_depth = if from_depth {
+        inp.draws(Qty::TransitDepth, n, 21)?
+    } else {
+        inp.draws(Qty::RadiusRatio, n, 21)?
+    };
     let ars = inp.draws(Qty::ScaledAxis, n, 22)?;
     let b = inp.draws(Qty::Impact, n, 23)?;
+    let k: Vec<f64> = if from_depth {
+        inp.assumptions.push(format!(
+            "radius ratio solved from the transit depth at mid-transit (separation b) with this limb darkening, by inverting the model numerically; sqrt(depth) = {} assumes none",
+            crate::format::sig(inp.nominal(Qty::RadiusRatio), 4)
+        ));
+        k_or_depth
+            .iter()
+            .zip(&b)
+            .map(|(d, b)| lightcurve::radius_ratio_for_depth(*d, *b, ld).unwrap_or(f64::NAN))
+            .collect()
+    } else {
+        k_or_depth
+    };
     let e = inp.draws(Qty::Eccentricity, n, 24)?;
     let w = inp.draws(Qty::ArgPeriastron, n, 25)?;
     let period = inp
@@ -434,6 +457,7 @@ pub fn transit_curve(
     let draws: Vec<Draw> = (0..n)
         .filter_map(|i| {
             let (e, w, ars, b) = (*e.get(i)?, *w.get(i)?, *ars.get(i)?, *b.get(i)?);
+            let k = k.get(i).copied().filter(|k| k.is_finite())?;
             // Winn 2010 eq. 7.
             let cos_i = b * (1.0 + e * w.sin()) / (ars * (1.0 - e * e));
             (cos_i.abs() <= 1.0).then(|| Draw {
@@ -443,7 +467,7 @@ pub fn transit_curve(
                     omega: w,
                     t_conjunction: 0.0,
                 },
-                k: k.get(i).copied().unwrap_or(f64::NAN),
+                k,
                 ars,
                 inc: cos_i.acos(),
             })
@@ -596,6 +620,51 @@ mod tests {
             rv_curve(&analysis(SRC), 0, 1).unwrap().left_out,
             Vec::<String>::new()
         );
+    }
+
+    /// With the depth declared, the curve dips by the depth whatever the limb darkening:
+    /// `k` is solved from the depth with the law the curve is drawn with (before, with
+    /// `k = sqrt(depth)`, the assumed law made the dip about 20 % deeper).
+    #[test]
+    fn transit_curve_from_a_depth_dips_by_that_depth() {
+        let src = SRC.replace(
+            "radius_ratio = 0.1 ± 0.002",
+            "transit_depth = 1.00 ± 0.02 %",
+        );
+        let a = analysis(&src);
+        for ld in [
+            None,
+            Some(LimbDarkening::NONE),
+            Some(LimbDarkening { u1: 0.6, u2: 0.1 }),
+        ] {
+            let (c, used) = transit_curve(&a, 0, 1, ld).unwrap();
+            let min = c.band.median.iter().copied().fold(f64::MAX, f64::min);
+            // The median of 200 draws of a 1.00 ± 0.02 % depth, sampled near mid-transit.
+            assert!(
+                (1.0 - min - 0.0100).abs() < 0.0002,
+                "{used:?}: {}",
+                1.0 - min
+            );
+            assert!(
+                c.assumptions
+                    .iter()
+                    .any(|s| s.starts_with("radius ratio solved from the transit depth")),
+                "{:?}",
+                c.assumptions
+            );
+            assert!(
+                !c.assumptions
+                    .iter()
+                    .any(|s| s.contains("limb darkening neglected")),
+                "{:?}",
+                c.assumptions
+            );
+            assert!(
+                c.inputs.iter().any(|s| s.starts_with("transit_depth = ")),
+                "{:?}",
+                c.inputs
+            );
+        }
     }
 
     #[test]

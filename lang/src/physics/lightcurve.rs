@@ -161,9 +161,115 @@ pub fn relative_flux(p: f64, z: f64, ld: LimbDarkening) -> f64 {
     1.0 - blocked(p, z, ld)
 }
 
+/// Most steps of [`radius_ratio_for_depth`].
+const INVERSION_STEPS: usize = 200;
+
+/// The radius ratio whose transit is `depth` deep at separation `z` (the mid-transit
+/// separation, `z = b`) for this limb darkening: the inverse of [`blocked`] in `p`, solved
+/// numerically, so a model drawn with this `k` and law dips by exactly `depth`.
+///
+/// Start: the small-planet approximation of Mandel & Agol (2002, section 5),
+/// `depth = k^2 I(mu) / (1 - u1/3 - u2/6)` with `mu = sqrt(1 - z^2)` (the intensity under the
+/// planet over the disk's mean; for the quadratic law their `4 Omega` is `1 - u1/3 - u2/6`).
+/// Then a bracketed secant (regula falsi, Illinois variant; common practice) on
+/// `blocked(p, z) - depth`, which increases with `p` (a larger disk at the same centre hides a
+/// superset of the star), until the depth matches to 1e-12 (relative) or after
+/// [`INVERSION_STEPS`] steps. `None` for a depth outside `(0, 1]`, a bad `z`, an unphysical
+/// law, or no solution (a depth that no planet at this `z` reaches).
+pub fn radius_ratio_for_depth(depth: f64, z: f64, ld: LimbDarkening) -> Option<f64> {
+    if !(depth.is_finite() && depth > 0.0 && depth <= 1.0 && z.is_finite() && ld.is_physical()) {
+        return None;
+    }
+    let z = z.abs();
+    let f = |p: f64| blocked(p, z, ld) - depth;
+    let mu = (1.0 - z * z).max(0.0).sqrt();
+    let under = ld.intensity(mu);
+    let start = if under > 0.0 {
+        (depth * ld.disk_flux() / under).sqrt()
+    } else {
+        depth.sqrt()
+    };
+    // Bracket the root: f(lo) < 0 <= f(hi). A planet of radius 1 + z hides the whole star.
+    let most = 1.0 + z + 1e-9;
+    let (mut lo, mut hi) = (0.0_f64, start.min(most));
+    let (mut f_lo, mut f_hi) = (-depth, f(hi));
+    let mut grow = 0;
+    while f_hi < 0.0 {
+        if hi >= most || grow > 64 {
+            return None;
+        }
+        (lo, f_lo) = (hi, f_hi);
+        hi = (hi * 1.5).min(most);
+        f_hi = f(hi);
+        grow += 1;
+    }
+    let tolerance = 1e-12 * depth;
+    let mut side = 0i8;
+    for _ in 0..INVERSION_STEPS {
+        let p = (lo * f_hi - hi * f_lo) / (f_hi - f_lo);
+        let p = if p.is_finite() && p > lo && p < hi {
+            p
+        } else {
+            0.5 * (lo + hi)
+        };
+        let fp = f(p);
+        if fp.abs() <= tolerance || hi - lo <= 1e-15 * hi {
+            return Some(p);
+        }
+        if fp < 0.0 {
+            (lo, f_lo) = (p, fp);
+            if side == -1 {
+                f_hi *= 0.5;
+            }
+            side = -1;
+        } else {
+            (hi, f_hi) = (p, fp);
+            if side == 1 {
+                f_lo *= 0.5;
+            }
+            side = 1;
+        }
+    }
+    None
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn radius_ratio_for_depth_inverts_the_model() {
+        for ld in [
+            LimbDarkening::NONE,
+            LimbDarkening::ASSUMED,
+            LimbDarkening { u1: 0.6, u2: 0.1 },
+        ] {
+            for depth in [1e-4, 0.005, 0.01, 0.05] {
+                for z in [0.0, 0.4, 0.8, 0.95] {
+                    let k = radius_ratio_for_depth(depth, z, ld).expect("k");
+                    let back = blocked(k, z, ld);
+                    assert!(
+                        (back / depth - 1.0).abs() < 1e-9,
+                        "{ld:?} {depth} {z}: {back}"
+                    );
+                }
+            }
+        }
+        // Without limb darkening a planet wholly inside the disk has k = sqrt(depth).
+        let k = radius_ratio_for_depth(0.01, 0.3, LimbDarkening::NONE).expect("k");
+        assert!((k - 0.1).abs() < 1e-12, "{k}");
+        // With the assumed law a central transit 1% deep needs a smaller planet: the
+        // small-planet approximation (Mandel & Agol 2002 sec. 5) gives
+        // k = sqrt(0.01 (1 - 0.40/3 - 0.25/6)) = 0.0908, the finite planet a little less.
+        let k = radius_ratio_for_depth(0.01, 0.0, LimbDarkening::ASSUMED).expect("k");
+        assert!((k / 0.090_83 - 1.0).abs() < 5e-3, "{k}");
+        // At z = 3 only a body over twice the star's size reaches the limb at all; a depth of
+        // zero is no transit; an unphysical law has no answer.
+        let k = radius_ratio_for_depth(0.01, 3.0, LimbDarkening::ASSUMED).expect("k");
+        assert!(k > 2.0 && (blocked(k, 3.0, LimbDarkening::ASSUMED) / 0.01 - 1.0).abs() < 1e-9);
+        assert!(radius_ratio_for_depth(0.0, 0.0, LimbDarkening::NONE).is_none());
+        assert!(radius_ratio_for_depth(0.01, 0.0, LimbDarkening { u1: 2.0, u2: 0.0 }).is_none());
+    }
 
     #[test]
     fn uniform_disk_limits() {

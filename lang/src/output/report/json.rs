@@ -75,6 +75,7 @@ pub struct Options {
     pub samples: usize,
     pub seed: u64,
     pub consistency_sigma: f64,
+    pub consistency_error_sigma: f64,
 }
 
 impl Options {
@@ -89,6 +90,7 @@ impl Options {
             },
             seed: o.seed,
             consistency_sigma: o.consistency_sigma,
+            consistency_error_sigma: o.consistency_error_sigma,
         }
     }
 }

@@ -3,10 +3,13 @@
 //! speed.
 
 use super::domain::{finite, is_non_negative, is_positive};
+use super::radial_velocity::{minimum_mass_from_rv, planet_mass_from_rv};
+use super::transit::inclination_from_impact;
 use super::typed::{gravitational_constant, typed};
 use crate::fastmath;
 use std::f64::consts::PI;
-use uom::si::f64::{Length, Mass, Time, Velocity};
+use uom::si::f64::{Angle, Length, Mass, Time, Velocity};
+use uom::si::ratio::ratio;
 
 /// Semi-major axis of the relative orbit from Kepler's third law with the full mass,
 /// `a^3 = G (M* + Mp) P^2 / (4 pi^2)` (Newton's form of Kepler's third law for the two-body
@@ -55,4 +58,47 @@ pub fn mean_orbital_speed(a: Length, period: Time) -> Option<Velocity> {
         return None;
     }
     finite(2.0 * PI * a / period)
+}
+
+/// Most rounds of [`semi_major_axis_transiting`]'s iteration.
+const TRANSITING_AXIS_ROUNDS: usize = 60;
+
+/// Semi-major axis of a transiting planet whose mass is known only through the
+/// radial-velocity amplitude `K`, with its **true** mass in Kepler's third law.
+///
+/// The true mass needs `sin i`, which the transit gives through the impact parameter and
+/// `a/R*` (Winn 2010 eq. 7), and `a` needs the true mass (`a^3 = G (M* + Mp) P^2 / (4 pi^2)`):
+/// the two are solved together by fixed-point iteration, starting from the minimum mass. Each
+/// round changes `a` by a factor `(M* + Mp)^(1/3)`, and `Mp` depends on `a` only through
+/// `sin i`, so the map contracts by about `Mp / (3 M*) cot^2 i` per round (far below 1 for
+/// any planet) and a few rounds reach rounding level. `None` when any step has no answer (the
+/// impact parameter exceeds `a/R*` at some round, bad inputs) or after
+/// [`TRANSITING_AXIS_ROUNDS`] rounds without converging to 1e-13 relative.
+#[allow(clippy::too_many_arguments)]
+pub fn semi_major_axis_transiting(
+    period: Time,
+    m_star: Mass,
+    k: Velocity,
+    e: f64,
+    impact: f64,
+    omega: Angle,
+    r_star: Length,
+) -> Option<Length> {
+    if !is_positive(&r_star) {
+        return None;
+    }
+    let mut a = semi_major_axis(period, m_star, minimum_mass_from_rv(k, period, m_star, e)?)?;
+    for _ in 0..TRANSITING_AXIS_ROUNDS {
+        let a_over_rstar = (a / r_star).get::<ratio>();
+        let inclination = inclination_from_impact(impact, a_over_rstar, e, omega)?;
+        let sin_i = inclination.sin().get::<ratio>().abs();
+        let m_planet = planet_mass_from_rv(k, period, m_star, e, sin_i)?;
+        let next = semi_major_axis(period, m_star, m_planet)?;
+        let change = ((next - a) / a).get::<ratio>().abs();
+        a = next;
+        if change <= 1e-13 {
+            return finite(a);
+        }
+    }
+    None
 }

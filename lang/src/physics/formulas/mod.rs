@@ -3,11 +3,13 @@
 //! This folder owns the closed-form relations the derivation engine and the physics checker use,
 //! one module per subject:
 //!
-//! * `kepler.rs`: Kepler's third law (with the planet's mass) and the mean orbital speed;
+//! * `kepler.rs`: Kepler's third law (with the planet's mass, solved with the true mass of a
+//!   transiting planet known through `K`) and the mean orbital speed;
 //! * `radial_velocity.rs`: the radial-velocity semi-amplitude and its exact inverse, the planet
 //!   mass (and minimum mass) from `K`;
 //! * `transit.rs`: transit depth and radius ratio, impact parameter and inclination, transit
-//!   durations, the stellar density from a transit;
+//!   durations and their inverse (impact parameter, `a/R*` and stellar density from T14 and
+//!   T23), the stellar density from a transit;
 //! * `bulk.rs`: a body's mean density, surface gravity and escape velocity;
 //! * `stability.rs`: Hill radii, the two-planet Hill-stability test and the fluid Roche limit,
 //!   with their two published coefficients;
@@ -49,7 +51,10 @@ mod typed;
 
 pub use bulk::{bulk_density, escape_velocity, mean_density, surface_gravity};
 pub use irradiation::{equilibrium_temperature, insolation, insolation_earth_units};
-pub use kepler::{mean_orbital_speed, period_from_axis, semi_major_axis, total_mass_from_orbit};
+pub use kepler::{
+    mean_orbital_speed, period_from_axis, semi_major_axis, semi_major_axis_transiting,
+    total_mass_from_orbit,
+};
 pub use radial_velocity::{minimum_mass_from_rv, planet_mass_from_rv, rv_semi_amplitude};
 pub use stability::{
     hill_radius, is_hill_stable_circular, mutual_hill_radius, roche_limit_fluid,
@@ -60,8 +65,9 @@ pub use stellar::{
     teff_from_luminosity,
 };
 pub use transit::{
-    depth_from_radius_ratio, impact_from_inclination, inclination_from_impact,
-    radius_ratio_from_depth, stellar_density_from_transit, transit_duration_full,
+    depth_from_radius_ratio, impact_from_durations, impact_from_inclination,
+    inclination_from_impact, radius_ratio_from_depth, scaled_axis_from_duration,
+    stellar_density_from_duration, stellar_density_from_transit, transit_duration_full,
     transit_duration_total,
 };
 

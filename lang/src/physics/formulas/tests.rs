@@ -559,3 +559,101 @@ mod stellar {
         assert!(radius_from_log_g(4.4, kg(0.0)).is_none());
     }
 }
+
+mod transiting_axis {
+    use super::*;
+
+    #[test]
+    fn transiting_axis_is_a_fixed_point_of_kepler_and_the_rv_mass() {
+        // Invented planet: K = 1300 m/s, P = 2.6 d, b = 0.85 around 1.1 Msun, 1.3 Rsun.
+        let (p, ms, rs) = (days(2.6), kg(1.1 * M_SUN), m(1.3 * R_SUN));
+        let k = Velocity::new::<meter_per_second>(1300.0);
+        let a = semi_major_axis_transiting(p, ms, k, 0.0, 0.85, deg(90.0), rs).expect("axis");
+        // The fixed point: the inclination from this axis (Winn 2010 eq. 7) gives the true
+        // mass, and Kepler's third law with that mass gives this axis back.
+        let i = inclination_from_impact(0.85, value_of(a / rs), 0.0, deg(90.0)).expect("i");
+        let mp = planet_mass_from_rv(k, p, ms, 0.0, i.sin().value).expect("mass");
+        let again = semi_major_axis(p, ms, mp).expect("again");
+        assert!(close(again.value, a.value, 1e-12));
+        let min = minimum_mass_from_rv(k, p, ms, 0.0).expect("min");
+        assert!(mp.value > min.value * 1.001, "sin i well below 1 here");
+        // An impact parameter beyond a/R* gives no inclination, so no axis.
+        assert!(semi_major_axis_transiting(p, ms, k, 0.0, 50.0, deg(90.0), rs).is_none());
+    }
+}
+
+mod transit_inverse {
+    use super::*;
+
+    fn hours(x: f64) -> Time {
+        Time::new::<second>(x * 3600.0)
+    }
+
+    /// A worked example: P = 3 d, k = 0.1, T14 = 2.692 h, T23 = 2.116 h (an invented
+    /// planet). The expected numbers are Seager & Mallén-Ornelas (2003) eqs. 7–9 written out
+    /// here in plain f64, with their depth Delta F = k^2 (so sqrt(Delta F) = k).
+    #[test]
+    fn durations_give_impact_axis_and_density_as_seager_and_mallen_ornelas() {
+        let (p_s, k, t14_s, t23_s) = (3.0 * DAY, 0.1, 2.692 * 3600.0, 2.116 * 3600.0);
+        let s14 = (PI * t14_s / p_s).sin().powi(2);
+        let s23 = (PI * t23_s / p_s).sin().powi(2);
+        // Eq. 7: b = {[(1 - sqrt dF)^2 - (s23/s14)(1 + sqrt dF)^2] / (1 - s23/s14)}^(1/2).
+        let b_paper = (((1.0 - k) * (1.0 - k) - s23 / s14 * (1.0 + k) * (1.0 + k))
+            / (1.0 - s23 / s14))
+            .sqrt();
+        // Eq. 8: a/R* = {[(1 + sqrt dF)^2 - b^2 (1 - s14)] / s14}^(1/2).
+        let a_paper = (((1.0 + k) * (1.0 + k) - b_paper * b_paper * (1.0 - s14)) / s14).sqrt();
+        // Eq. 9: M*/R*^3 = 4 pi^2 / (P^2 G) (a/R*)^3; the mean density is 3/(4 pi) of it.
+        // G is CODATA 2018.
+        let rho_paper =
+            4.0 * PI * PI / (p_s * p_s * 6.674_30e-11) * a_paper.powi(3) * 3.0 / (4.0 * PI);
+
+        let (p, t14, t23) = (days(3.0), hours(2.692), hours(2.116));
+        let b = impact_from_durations(p, t14, t23, k, 0.0, deg(90.0)).expect("b");
+        assert!(close(b, b_paper, 1e-12), "{b} vs {b_paper}");
+        let a = scaled_axis_from_duration(p, t14, k, b, 0.0, deg(90.0)).expect("a/R*");
+        assert!(close(a, a_paper, 1e-12), "{a} vs {a_paper}");
+        let rho = stellar_density_from_duration(p, t14, k, b, 0.0, deg(90.0)).expect("rho");
+        assert!(close(
+            rho.get::<kilogram_per_cubic_meter>(),
+            rho_paper,
+            1e-12
+        ));
+        // These durations were made for b = 0.4 around a 1 Msun, 1 Rsun star (IAU 2015 B3
+        // nominal), whose mean density is 1.410 g/cm^3: the transit gives it back to the
+        // rounding of the durations to 1 s.
+        assert!((b - 0.4).abs() < 2e-3, "{b}");
+        assert!(
+            close(rho.get::<kilogram_per_cubic_meter>(), 1409.78, 2e-3),
+            "{rho:?}"
+        );
+    }
+
+    #[test]
+    fn the_inverse_undoes_the_forward_durations_circular_and_eccentric() {
+        for &(e, w) in &[(0.0, 90.0), (0.3, 40.0), (0.5, -100.0)] {
+            for &b in &[0.0, 0.3, 0.7] {
+                let (p, a, k) = (days(4.5), 11.0, 0.08);
+                let t14 = transit_duration_total(p, a, k, b, e, deg(w)).expect("T14");
+                let t23 = transit_duration_full(p, a, k, b, e, deg(w)).expect("T23");
+                let back = impact_from_durations(p, t14, t23, k, e, deg(w)).expect("b");
+                assert!((back - b).abs() < 1e-7, "e {e} w {w} b {b}: {back}");
+                let a_back = scaled_axis_from_duration(p, t14, k, b, e, deg(w)).expect("a");
+                assert!(close(a_back, a, 1e-10), "e {e} w {w} b {b}: {a_back}");
+            }
+        }
+    }
+
+    #[test]
+    fn durations_in_the_wrong_order_or_out_of_range_give_nothing() {
+        let p = days(3.0);
+        // T23 longer than T14: no impact parameter.
+        assert!(impact_from_durations(p, hours(1.12), hours(1.30), 0.1, 0.0, deg(90.0)).is_none());
+        // Equal durations need k = 0.
+        assert!(impact_from_durations(p, hours(2.0), hours(2.0), 0.1, 0.0, deg(90.0)).is_none());
+        // A duration over half the period is beyond the formula's asin.
+        assert!(scaled_axis_from_duration(p, hours(40.0), 0.1, 0.2, 0.0, deg(90.0)).is_none());
+        // No transit at b >= 1 + k.
+        assert!(scaled_axis_from_duration(p, hours(2.0), 0.1, 1.2, 0.0, deg(90.0)).is_none());
+    }
+}

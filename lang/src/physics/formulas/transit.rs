@@ -1,7 +1,9 @@
 //! Transit geometry after Winn (2010), "Transits and Occultations": depth and radius ratio
 //! (no limb darkening), impact parameter and inclination (eq. 7), total and full durations
 //! (eqs. 14–16), and the stellar mean density from the transit's `a/R*` and period
-//! (Seager & Mallén-Ornelas 2003).
+//! (Seager & Mallén-Ornelas 2003); and the inverse of the durations: the impact parameter,
+//! `a/R*` and the stellar density from T14, T23, `k` and the period (Seager & Mallén-Ornelas
+//! 2003, eqs. 7–9, for circular orbits; an eccentric orbit through Winn 2010 eq. 16).
 
 use super::domain::{finite, finite_f64, is_eccentricity, is_positive, is_scaled_axis};
 use super::typed::gravitational_constant;
@@ -167,4 +169,101 @@ pub fn stellar_density_from_transit(a_over_rstar: f64, period: Time) -> Option<M
         return None;
     }
     finite(3.0 * PI * a_over_rstar.powi(3) / (gravitational_constant() * period * period))
+}
+
+/// `sin^2(pi T' / P)` of a transit duration `T` with the eccentric factor of Winn 2010 eq. 16
+/// taken out, `T' = T (1 + e sin omega) / sqrt(1 - e^2)`: the duration the same chord would
+/// take on a circular orbit, which is what Seager & Mallén-Ornelas (2003) write their
+/// equations for. `None` unless `0 < pi T' / P <= pi / 2` (the range of the forward formula's
+/// asin).
+fn circular_sin2(duration: Time, period: Time, e: f64, omega: Angle) -> Option<f64> {
+    if !(is_positive(&duration)
+        && is_positive(&period)
+        && is_eccentricity(e)
+        && omega.value.is_finite())
+    {
+        return None;
+    }
+    let factor = (1.0 + e * omega.sin().get::<ratio>()) / (1.0 - e * e).sqrt();
+    let x = PI * (duration / period).get::<ratio>() * factor;
+    (x.is_finite() && x > 0.0 && x <= PI / 2.0).then(|| x.sin().powi(2))
+}
+
+/// Impact parameter from the total and full transit durations and the radius ratio
+/// (Seager & Mallén-Ornelas 2003 eq. 7, with their depth `Delta F = k^2`):
+///
+/// `b^2 = [(1 - k)^2 - r (1 + k)^2] / (1 - r)`, `r = sin^2(pi T23 / P) / sin^2(pi T14 / P)`.
+///
+/// Both durations are first taken to their circular-orbit equivalents (see
+/// [`circular_sin2`]); the factor is the same for both, so `b` is what the engine's forward
+/// formulas ([`transit_duration_total`], [`transit_duration_full`]) need to give these
+/// durations. `None` unless `0 < k < 1` and `T23 < T14` (`r < 1`), or when `b^2 < 0` (the
+/// durations are too close for this `k`: no impact parameter gives them).
+pub fn impact_from_durations(
+    period: Time,
+    t14: Time,
+    t23: Time,
+    radius_ratio: f64,
+    e: f64,
+    omega: Angle,
+) -> Option<f64> {
+    if !(radius_ratio.is_finite() && radius_ratio > 0.0 && radius_ratio < 1.0) {
+        return None;
+    }
+    let r = circular_sin2(t23, period, e, omega)? / circular_sin2(t14, period, e, omega)?;
+    if !(r.is_finite() && r > 0.0 && r < 1.0) {
+        return None;
+    }
+    let b_sq = ((1.0 - radius_ratio).powi(2) - r * (1.0 + radius_ratio).powi(2)) / (1.0 - r);
+    (b_sq >= 0.0).then(|| b_sq.sqrt()).and_then(finite_f64)
+}
+
+/// Scaled semi-major axis from the total duration, the radius ratio and the impact parameter
+/// (Seager & Mallén-Ornelas 2003 eq. 8 for a circular orbit):
+///
+/// `(a/R*)^2 = [(1 + k)^2 - b^2 (1 - sin^2(pi T14 / P))] / sin^2(pi T14 / P)`.
+///
+/// For an eccentric orbit, with `T14` taken to its circular equivalent (see
+/// [`circular_sin2`]) and `rho_c = (1 - e^2) / (1 + e sin omega)` the star–planet distance at
+/// conjunction in units of `a`, inverting Winn 2010 eqs. 7, 14 and 16 exactly gives
+/// `(a/R*)^2 = [(1 + k)^2 - b^2] / sin^2(pi T14' / P) + b^2 / rho_c^2`, which is eq. 8 when
+/// `e = 0`. `None` for `b >= 1 + k` (no transit), bad inputs, or a result `a/R* <= 1`.
+pub fn scaled_axis_from_duration(
+    period: Time,
+    t14: Time,
+    radius_ratio: f64,
+    impact: f64,
+    e: f64,
+    omega: Angle,
+) -> Option<f64> {
+    if !(radius_ratio.is_finite() && radius_ratio > 0.0 && impact.is_finite() && impact >= 0.0) {
+        return None;
+    }
+    let s14 = circular_sin2(t14, period, e, omega)?;
+    let chord_sq = (1.0 + radius_ratio).powi(2) - impact * impact;
+    if chord_sq <= 0.0 {
+        return None;
+    }
+    let rho_c = (1.0 - e * e) / (1.0 + e * omega.sin().get::<ratio>());
+    let a_sq = chord_sq / s14 + (impact / rho_c).powi(2);
+    let a = a_sq.sqrt();
+    is_scaled_axis(a).then_some(a)
+}
+
+/// Stellar mean density from the total duration, the radius ratio, the impact parameter and
+/// the period: `a/R*` from [`scaled_axis_from_duration`] (Seager & Mallén-Ornelas 2003
+/// eq. 8), then `rho* = 3 pi (a/R*)^3 / (G P^2)` ([`stellar_density_from_transit`]). This is
+/// Seager & Mallén-Ornelas 2003 eq. 9, which gives `M*/R*^3 = 4 pi^2 (a/R*)^3 / (G P^2)`,
+/// times `3 / (4 pi)` for the mean density. Neglects the planet's mass (Kepler's third law
+/// with `M*` alone). `None` where [`scaled_axis_from_duration`] has no answer.
+pub fn stellar_density_from_duration(
+    period: Time,
+    t14: Time,
+    radius_ratio: f64,
+    impact: f64,
+    e: f64,
+    omega: Angle,
+) -> Option<MassDensity> {
+    let a = scaled_axis_from_duration(period, t14, radius_ratio, impact, e, omega)?;
+    stellar_density_from_transit(a, period)
 }

@@ -1,0 +1,115 @@
+//! End-to-end tests of how severe a finding is, through the real `syz check` exit status:
+//! an inconsistency past the error threshold (5 sigma by default, `--error-sigma`,
+//! `consistency_error_sigma` in `syzygy.toml`) is an error and fails the check.
+
+#![allow(clippy::unwrap_used, clippy::indexing_slicing)]
+
+use syzygy_e2e::{rules_of, run, scratch, stderr, stdout};
+
+/// A planet radius typed in Rearth where Rjup was meant: 21 sigma from the radius the transit
+/// depth and the star give (invented system).
+const WRONG_UNIT: &str = "system \"Pell\" {
+  star pell {
+    mass   = 0.90 ± 0.04 Msun
+    radius = 0.85 ± 0.03 Rsun
+  }
+  planet b orbits pell {
+    period        = 3.1 d
+    transit_depth = 1.10 ± 0.05 %
+    radius        = 1.05 ± 0.05 Rearth
+  }
+}
+";
+
+fn severities(out: &std::process::Output) -> Vec<(String, String)> {
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout)
+        .unwrap_or_else(|e| panic!("{e}: {}{}", stdout(out), stderr(out)));
+    rules_of(&v)
+}
+
+#[test]
+fn a_radius_in_the_wrong_unit_fails_the_check() {
+    let dir = scratch("severity-wrong-unit");
+    let file = dir.join("pell.syz");
+    std::fs::write(&file, WRONG_UNIT).unwrap();
+    let file = file.to_str().unwrap();
+
+    let out = run(&["check", file]);
+    assert_eq!(out.status.code(), Some(1), "{}", stdout(&out));
+    let text = stdout(&out);
+    assert!(text.contains("by 21.1 sigma"), "{text}");
+    assert!(
+        text.contains("past the error threshold of 5 sigma"),
+        "{text}"
+    );
+
+    let out = run(&["check", "--format", "json", file]);
+    assert_eq!(out.status.code(), Some(1));
+    assert_eq!(severities(&out), [("inconsistent".into(), "error".into())]);
+
+    // Past the flag's threshold it is a warning again, and the check passes.
+    let out = run(&["check", "--format", "json", "--error-sigma", "25", file]);
+    assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
+    assert_eq!(
+        severities(&out),
+        [("inconsistent".into(), "warning".into())]
+    );
+}
+
+#[test]
+fn the_project_file_sets_the_error_threshold_and_the_flag_beats_it() {
+    let dir = scratch("severity-project");
+    let file = dir.join("pell.syz");
+    std::fs::write(&file, WRONG_UNIT).unwrap();
+    std::fs::write(
+        dir.join("syzygy.toml"),
+        "[derivation]\nconsistency_error_sigma = 30.0\n",
+    )
+    .unwrap();
+    let file = file.to_str().unwrap();
+    let out = run(&["check", "--format", "json", file]);
+    assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
+    assert_eq!(
+        severities(&out),
+        [("inconsistent".into(), "warning".into())]
+    );
+    // `syz eval` reports the threshold it used among its options.
+    let out = run(&["eval", "--format", "json", "--propagation", "linear", file]);
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["options"]["consistency_error_sigma"], 30.0, "{v}");
+
+    let out = run(&["check", "--format", "json", "--error-sigma", "10", file]);
+    assert_eq!(out.status.code(), Some(1));
+    assert_eq!(severities(&out), [("inconsistent".into(), "error".into())]);
+
+    std::fs::write(
+        dir.join("syzygy.toml"),
+        "[derivation]\nconsistency_error_sigma = -1\n",
+    )
+    .unwrap();
+    let out = run(&["check", file]);
+    assert_eq!(out.status.code(), Some(2));
+    assert!(
+        stderr(&out).contains("consistency_error_sigma = -1: expected a positive number"),
+        "{}",
+        stderr(&out)
+    );
+}
+
+#[test]
+fn a_mild_inconsistency_stays_a_warning() {
+    let dir = scratch("severity-mild");
+    let file = dir.join("pell.syz");
+    // The same system with the radius in Rjup and 0.06 Rjup too large: about 3.5 sigma.
+    std::fs::write(
+        &file,
+        WRONG_UNIT.replace("1.05 ± 0.05 Rearth", "1.05 ± 0.02 Rjup"),
+    )
+    .unwrap();
+    let out = run(&["check", "--format", "json", file.to_str().unwrap()]);
+    assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
+    assert_eq!(
+        severities(&out),
+        [("inconsistent".into(), "warning".into())]
+    );
+}
