@@ -50,7 +50,17 @@ static ALLOCATOR: mimalloc::MiMalloc = mimalloc::MiMalloc;
     long_about = "Syzygy reads *.syz files that declare stars, planets and their measurements \
                   (with units, uncertainties and citations), derives what follows from them \
                   (semi-major axes, masses, radii, densities, temperatures, ...) and flags unit \
-                  and physics inconsistencies."
+                  and physics inconsistencies.",
+    after_help = "Examples (from the top of the source tree):\n  \
+                  syz check examples/veyra.syz        problems, with the offending line\n  \
+                  syz eval examples/veyra.syz         every declared and derived quantity\n  \
+                  syz explain examples/veyra.syz b.density\n\n\
+                  Exit status: 0 done, nothing wrong; 1 a problem in the input (an error found by \
+                  check or eval, a file fmt --check would change, a value the file does not let \
+                  explain, plot or ephemeris compute); 2 the command could not do its job (a file \
+                  that cannot be read, an invalid syzygy.toml, a wrong argument, output that cannot \
+                  be written).\n\n\
+                  The language: docs/language.md; `syz <command> --help` for each command."
 )]
 struct Cli {
     #[command(subcommand)]
@@ -65,7 +75,9 @@ pub(crate) enum Format {
 
 #[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
 pub(crate) enum EvalFormat {
+    /// Aligned text for people.
     Human,
+    /// The JSON contract, full precision (see docs/json-output.md).
     Json,
     /// A table, one row per body (see docs/csv-output.md).
     Csv,
@@ -73,7 +85,9 @@ pub(crate) enum EvalFormat {
 
 #[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
 pub(crate) enum CheckFormat {
+    /// Each problem with the lines it is on, for people.
     Human,
+    /// Diagnostics and a summary for programs (see docs/json-output.md).
     Json,
     /// SARIF 2.1.0, for code-review and CI tools.
     Sarif,
@@ -160,9 +174,10 @@ impl EngineArgs {
 enum Command {
     /// Check files or folders (recursing into *.syz) and report problems.
     #[command(
-        after_help = "Example:\n  syz check examples/\n  syz check --format json catalogue/ > report.json\n  syz check --format sarif catalogue/ > syzygy.sarif"
+        after_help = "Exit status: 0 no errors, 1 errors (or warnings, with --deny-warnings), 2 a file could not be read or syzygy.toml is invalid.\n\nExample:\n  syz check examples/veyra.syz examples/catalogue/\n  syz check examples/broken/      # wrong on purpose: every rule, exit 1\n  syz check --format json catalogue/ > report.json\n  syz check --format sarif catalogue/ > syzygy.sarif"
     )]
     Check {
+        /// Files, or folders searched for *.syz files.
         #[arg(required = true)]
         paths: Vec<PathBuf>,
         #[arg(long, value_enum, default_value = "human")]
@@ -177,9 +192,10 @@ enum Command {
     },
     /// Print every system and body with its declared and derived quantities.
     #[command(
-        after_help = "Example:\n  syz eval examples/veyra.syz\n  syz eval --format json --propagation linear examples/\n  syz eval --format csv --propagation linear catalogue/ > table.csv"
+        after_help = "Each value shows its uncertainty to two significant digits, its rule and inputs, and what was assumed; JSON and CSV keep full precision.\n\nExample:\n  syz eval examples/veyra.syz\n  syz eval --format json --propagation linear examples/\n  syz eval --format csv --propagation linear catalogue/ > table.csv"
     )]
     Eval {
+        /// Files, or folders searched for *.syz files.
         #[arg(required = true)]
         paths: Vec<PathBuf>,
         #[arg(long, value_enum, default_value = "human")]
@@ -192,6 +208,7 @@ enum Command {
     /// Show how one quantity was derived, down to the measurements, with its error budget.
     #[command(after_help = "Example:\n  syz explain examples/veyra.syz b.density")]
     Explain {
+        /// The *.syz file.
         file: PathBuf,
         /// BODY.QUANTITY, for example `b.density` or `veyra.luminosity`.
         target: String,
@@ -205,9 +222,10 @@ enum Command {
     },
     /// Lay files out canonically (aligned `=`, units and citations; comments kept).
     #[command(
-        after_help = "Prints the formatted text unless --write or --check is given.\nExample:\n  syz fmt --check examples/\n  syz fmt --write examples/veyra.syz"
+        after_help = "Prints the formatted text unless --write or --check is given; a file with a syntax error is left alone (exit 2).\n\nExample:\n  syz fmt --check examples/\n  syz fmt --write examples/veyra.syz"
     )]
     Fmt {
+        /// Files, or folders searched for *.syz files.
         #[arg(required = true)]
         paths: Vec<PathBuf>,
         /// Rewrite the files in place.

@@ -1,6 +1,21 @@
-//! Number formatting for people: a value with its uncertainty rounded the way the trade
-//! writes it (two significant figures of the uncertainty, common practice), and plain
-//! numbers with enough digits to read back.
+//! Number formatting for people: the one place that decides how many digits a shown
+//! number has. Every front end (text `eval`, `explain`, hover, inlay hints, the CSV display
+//! columns, plot captions) goes through [`with_uncertainty`] for a measured value and
+//! [`number`] for an exact one; the JSON output keeps full precision and does not.
+//!
+//! The rule for a value with an uncertainty (common practice; the Particle Data Group's
+//! rounding rule, Review of Particle Physics, Introduction §5.3, is a published variant that
+//! keeps one digit when the uncertainty's leading digits are 355 to 949 — we always keep two):
+//!
+//! 1. the uncertainty is rounded to two significant digits (the smaller side of an
+//!    asymmetric one; the larger side is given to the same decimal place);
+//! 2. the value is rounded to the same decimal place;
+//! 3. the numbers are written plainly (`0.04424 ± 0.00064`, `1044 ± 25`, `4870 ± 270`)
+//!    when the value lies in [1e-3, 1e6) and the last digit kept is at the tens place or
+//!    finer, so at most one zero stands in for a digit; otherwise in scientific notation
+//!    with one shared exponent, written the way the language reads a literal
+//!    (`3.92e5 ± 0.37e5`, `3.92e5 +0.37e5/-0.32e5`), so that a shown value can be pasted
+//!    back into a file.
 
 /// A plain number: up to 6 significant figures, scientific notation outside [1e-3, 1e6).
 pub fn number(v: f64) -> String {
@@ -55,8 +70,72 @@ fn places_for(u: f64) -> i32 {
     1 - u.log10().floor() as i32
 }
 
-/// `value ± u` or `value +above/-below`, rounded to the uncertainty. Falls back to
-/// scientific notation with a shared exponent for very large or small values.
+/// The power of ten of the last digit kept for an uncertainty `u` (> 0, finite): its second
+/// significant digit, after rounding (0.0996 rounds to 0.10, not 0.100).
+fn last_digit(u: f64) -> i32 {
+    let last = u.log10().floor() as i32 - 1;
+    if (u / 10f64.powi(last)).round() >= 100.0 {
+        last + 1
+    } else {
+        last
+    }
+}
+
+/// Whether an asymmetric uncertainty is shown as one `±`: its sides differ by less than 5%,
+/// or are the same once rounded.
+fn symmetric(below: f64, above: f64, below_text: &str, above_text: &str) -> bool {
+    ((above - below).abs() / above.max(below)) < 0.05 || below_text == above_text
+}
+
+/// A value with its uncertainty rounded by the rule in the module comment, or `None` when
+/// there is no usable uncertainty (the value is exact, or a side is not finite).
+fn rounded(value: f64, below: f64, above: f64) -> Option<String> {
+    if !(value.is_finite() && below.is_finite() && above.is_finite()) {
+        return None;
+    }
+    let u = below.min(above);
+    let u = if u > 0.0 { u } else { below.max(above) };
+    if u <= 0.0 {
+        return None;
+    }
+    let last = last_digit(u);
+    let step = 10f64.powi(last);
+    let value_r = (value / step).round() * step;
+    let scale = value_r.abs().max(u);
+    let plain = (-15..=1).contains(&last) && (1e-3..1e6).contains(&scale);
+    let (exp, places) = if plain {
+        (0, (-last).max(0) as usize)
+    } else {
+        // The exponent of the larger of value and uncertainty, after rounding (99960 ± 1500
+        // is 1.00e5 ± 0.02e5, not 10.00e4).
+        let exp = scale.log10().floor() as i32;
+        (exp, (exp - last).clamp(0, 17) as usize)
+    };
+    let f = 10f64.powi(exp);
+    let num = |x: f64| {
+        let m = if plain && last > 0 {
+            // Rounded to tens: Rust's formatting would keep the units digit.
+            format!("{:.0}", (x / step).round() * step)
+        } else {
+            format!("{:.places$}", x / f)
+        };
+        if plain {
+            m
+        } else {
+            format!("{m}e{exp}")
+        }
+    };
+    let (lo, hi) = (num(below), num(above));
+    Some(if symmetric(below, above, &lo, &hi) {
+        format!("{} ± {}", num(value), num((above + below) / 2.0))
+    } else {
+        format!("{} +{hi}/-{lo}", num(value))
+    })
+}
+
+/// `value ± u` or `value +above/-below`, rounded to the uncertainty (see the module comment):
+/// `0.04424 ± 0.00064`, `288 +27/-24`, `3.92e5 ± 0.37e5`. An exact value is a plain
+/// [`number`].
 pub fn with_uncertainty(value: f64, below: f64, above: f64) -> String {
     if !value.is_finite() {
         return format!("{value}");
@@ -66,52 +145,14 @@ pub fn with_uncertainty(value: f64, below: f64, above: f64) -> String {
         // dropped: the bare number would read as exact.
         return format!("{} (uncertainty not finite)", number(value));
     }
-    let u = below.min(above);
-    let u = if u > 0.0 { u } else { below.max(above) };
-    if u <= 0.0 || !u.is_finite() {
-        return number(value);
-    }
-    let scale = value.abs().max(u);
-    if !(1e-3..1e6).contains(&scale) {
-        let exp = scale.log10().floor() as i32;
-        let f = 10f64.powi(exp);
-        return format!(
-            "({})e{exp}",
-            with_uncertainty(value / f, below / f, above / f)
-        );
-    }
-    let places = places_for(u).clamp(0, 12) as usize;
-    let v = format!("{value:.places$}");
-    let sym = ((above - below).abs() / above.max(below)) < 0.05;
-    if sym {
-        format!("{v} ± {:.places$}", (above + below) / 2.0)
-    } else {
-        format!("{v} +{above:.places$}/-{below:.places$}")
-    }
+    rounded(value, below, above).unwrap_or_else(|| number(value))
 }
 
 /// A value with its uncertainty as the language writes a literal (`0.04425 ± 0.00063`,
-/// `0.880 +0.030/-0.020`, `1.40e6 ± 0.13e6`): rounded like [`with_uncertainty`], but always
-/// something the parser reads back. Exact values keep up to 6 significant figures.
+/// `0.880 +0.030/-0.020`, `1.40e6 ± 0.13e6`): the text of [`with_uncertainty`], which the
+/// parser reads back. Exact values keep up to 6 significant figures.
 pub fn literal_text(value: f64, below: f64, above: f64) -> String {
-    let u = below.min(above);
-    let u = if u > 0.0 { u } else { below.max(above) };
-    if !value.is_finite() || u <= 0.0 || !u.is_finite() {
-        return number(value);
-    }
-    let scale = value.abs().max(u);
-    if !(1e-3..1e6).contains(&scale) {
-        let exp = scale.log10().floor() as i32;
-        let f = 10f64.powi(exp);
-        let places = places_for(u / f).clamp(0, 12) as usize;
-        let m = |v: f64| format!("{:.places$}e{exp}", v / f);
-        return if ((above - below).abs() / above.max(below)) < 0.05 {
-            format!("{} ± {}", m(value), m((above + below) / 2.0))
-        } else {
-            format!("{} +{}/-{}", m(value), m(above), m(below))
-        };
-    }
-    with_uncertainty(value, below, above)
+    rounded(value, below, above).unwrap_or_else(|| number(value))
 }
 
 /// A Julian date with its uncertainty in days: fixed decimals (two significant figures of
@@ -190,14 +231,79 @@ mod tests {
 
     #[test]
     fn rounded_to_the_uncertainty() {
-        assert_eq!(
-            with_uncertainty(0.044251, 0.00063, 0.00063),
-            "0.04425 ± 0.00063"
-        );
-        assert_eq!(with_uncertainty(1044.3, 25.0, 25.0), "1044 ± 25");
-        assert_eq!(with_uncertainty(0.88, 0.02, 0.03), "0.880 +0.030/-0.020");
-        assert_eq!(with_uncertainty(1.4e6, 1.3e5, 1.3e5), "(1.40 ± 0.13)e6");
-        assert_eq!(with_uncertainty(5.0, 0.0, 0.0), "5");
+        // (value, below, above, shown)
+        let cases = [
+            (0.044251, 0.00063, 0.00063, "0.04425 ± 0.00063"),
+            (1044.3, 25.0, 25.0, "1044 ± 25"),
+            (0.88, 0.02, 0.03, "0.880 +0.030/-0.020"),
+            (1.4e6, 1.3e5, 1.3e5, "1.40e6 ± 0.13e6"),
+            (5.0, 0.0, 0.0, "5"),
+            (5310.0, 80.0, 80.0, "5310 ± 80"),
+            (288.4, 24.0, 27.0, "288 +27/-24"),
+            // An insolation in W/m^2 and a star's mass in Earth masses: six digits each
+            // before, of which only two or three meant anything.
+            (391_626.0, 32_495.0, 36_731.0, "3.92e5 +0.37e5/-0.32e5"),
+            (309_640.0, 13_318.0, 13_318.0, "3.10e5 ± 0.13e5"),
+            // Rounded to tens, one zero stands in for a digit; beyond that, an exponent.
+            (2087.0, 163.0, 163.0, "2090 ± 160"),
+            (4870.0, 268.3, 268.3, "4870 ± 270"),
+            (14_544.0, 1219.0, 1354.0, "1.45e4 +0.14e4/-0.12e4"),
+            (59_221.0, 7077.0, 5559.0, "5.92e4 +0.56e4/-0.71e4"),
+            // Rounding that carries into a new digit keeps two significant digits, and a
+            // value that rounds up to the next power of ten takes its exponent.
+            (1.2345, 0.0996, 0.0996, "1.23 ± 0.10"),
+            (99_960.0, 1500.0, 1500.0, "1.000e5 ± 0.015e5"),
+            // Small values; an uncertainty larger than the value.
+            (1.234e-4, 1.2e-5, 1.2e-5, "1.23e-4 ± 0.12e-4"),
+            (0.00651, 0.00034, 0.00031, "0.00651 +0.00031/-0.00034"),
+            (30.0, 18.0, 32.0, "30 +32/-18"),
+            // Sides that round to the same text are one ±.
+            (10.0, 1.04, 1.0, "10.0 ± 1.0"),
+        ];
+        for (value, below, above, shown) in cases {
+            assert_eq!(with_uncertainty(value, below, above), shown, "{value}");
+        }
+    }
+
+    #[test]
+    fn every_shown_digit_is_significant() {
+        // Over many magnitudes: the uncertainty shown has exactly two significant digits
+        // (and at most one zero after them standing in for a digit), and the value is given
+        // to the same decimal place.
+        for exp in -8..12 {
+            for m in [1.0, 1.234, 3.55, 9.5, 9.96] {
+                let u = m * 10f64.powi(exp);
+                let value = 7.77 * u * 10f64.powi(exp % 4);
+                let text = with_uncertainty(value, u, u);
+                let (v, e) = text.split_once(" ± ").unwrap();
+                let digits = |s: &str| -> String {
+                    let m = s.split('e').next().unwrap();
+                    m.chars().filter(char::is_ascii_digit).collect::<String>()
+                };
+                let ud = digits(e);
+                let ud = ud.trim_start_matches('0');
+                let kept = if !e.contains('.') && ud.len() == 3 {
+                    ud.strip_suffix('0').unwrap_or(ud)
+                } else {
+                    ud
+                };
+                assert_eq!(kept.len(), 2, "{text}");
+                let decimals = |s: &str| {
+                    s.split('e')
+                        .next()
+                        .unwrap()
+                        .split_once('.')
+                        .map_or(0, |x| x.1.len())
+                };
+                assert_eq!(decimals(v), decimals(e), "{text}");
+                assert_eq!(v.contains('e'), e.contains('e'), "{text}");
+                let back: f64 = v.parse().unwrap();
+                assert!(
+                    (back - value).abs() <= u * 0.051,
+                    "{text} for {value} ± {u}"
+                );
+            }
+        }
     }
 
     #[test]

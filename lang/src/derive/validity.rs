@@ -33,6 +33,14 @@ pub const SHARE_LIMIT: f64 = 0.05;
 /// enough for an editor.
 pub const MOST_SAMPLES: usize = 4_000;
 
+/// How the assumption that a value was sampled begins.
+const SAMPLED: &str = "sampled, not first-order";
+
+/// Whether a value of a first-order analysis was sampled instead (see the module doc).
+pub fn was_sampled(q: &QuantityResult) -> bool {
+    q.assumptions.iter().any(|a| a.starts_with(SAMPLED))
+}
+
 /// Monte Carlo results for the values first-order propagation cannot describe.
 pub(super) struct Sampled<'m> {
     pub derivation: Box<Derivation<'m>>,
@@ -107,7 +115,7 @@ impl<'m> Derivation<'m> {
         let why = s.doubts.get(&key)?;
         let (median, p16, p84, _) = s.derivation.value(key)?.sample_summary()?;
         let words = format!(
-            "sampled, not first-order: {why}, so this interval is the median and 16th-84th percentiles of {} Monte Carlo draws (seed {})",
+            "{SAMPLED}: {why}, so this interval is the median and 16th-84th percentiles of {} Monte Carlo draws (seed {})",
             s.derivation.options.samples, s.derivation.options.seed
         );
         Some(((median, p16, p84), words))

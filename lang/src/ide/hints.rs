@@ -35,11 +35,21 @@ const STAR_KEYS: &[(Qty, &str)] = &[
 /// line, and each body's label with its tag when there is one.
 pub fn hints(a: &Analysis, src: &str, range: std::ops::Range<usize>, method: &Method) -> Vec<Hint> {
     let tooltip = |words: String| {
+        let words = match method.estimate_note() {
+            Some(note) => format!("{words}\n{note}"),
+            None => words,
+        };
         if method.line.is_empty() {
             words
         } else {
             format!("{words}\nuncertainties: {}", method.line)
         }
+    };
+    let tagged = |mut label: String| {
+        if let Some(tag) = &method.tag {
+            label.push_str(&format!(" ({tag})"));
+        }
+        label
     };
     let mut out = Vec::new();
     for (si, sys) in a.model.systems.iter().enumerate() {
@@ -52,6 +62,7 @@ pub fn hints(a: &Analysis, src: &str, range: std::ops::Range<usize>, method: &Me
                 crate::ast::BodyKind::Star => STAR_KEYS,
             };
             let mut parts = Vec::new();
+            let mut first_order = false;
             for (qty, label) in keys {
                 // A true mass makes the minimum mass redundant.
                 if *qty == Qty::MinMass && result(a, si, bi, Qty::Mass).is_some() {
@@ -59,9 +70,14 @@ pub fn hints(a: &Analysis, src: &str, range: std::ops::Range<usize>, method: &Me
                 }
                 if let Some(q) = result(a, si, bi, *qty) {
                     if q.origin == Origin::Derived && q.value.is_finite() {
+                        // A value first order cannot describe was sampled as `syz eval`
+                        // samples; it says so itself.
+                        let sampled = crate::derive::validity::was_sampled(q);
+                        first_order |= !sampled;
                         parts.push(format!(
-                            "{label} = {}",
-                            shown(*qty, q.value, q.below, q.above, q.form)
+                            "{label} = {}{}",
+                            shown(*qty, q.value, q.below, q.above, q.form),
+                            if sampled { " (sampled)" } else { "" }
                         ));
                     }
                 }
@@ -70,13 +86,10 @@ pub fn hints(a: &Analysis, src: &str, range: std::ops::Range<usize>, method: &Me
                 if let Some(brace) = open_brace_after(src, b.name_span.end as usize) {
                     let offset = brace + 1;
                     if range.contains(&offset) || offset == range.end {
-                        let mut label = parts.join(" · ");
-                        if let Some(tag) = &method.tag {
-                            label.push_str(&format!(" ({tag})"));
-                        }
+                        let joined = parts.join(" · ");
                         out.push(Hint {
                             offset,
-                            label,
+                            label: if first_order { tagged(joined) } else { joined },
                             detail: tooltip(format!(
                                 "derived for {} (hover a name for the full table)",
                                 b.id
@@ -95,10 +108,10 @@ pub fn hints(a: &Analysis, src: &str, range: std::ops::Range<usize>, method: &Me
                 };
                 out.push(Hint {
                     offset,
-                    label: format!(
+                    label: tagged(format!(
                         "derived {}",
                         shown(d.qty, alt.value, alt.below, alt.above, Form::Asymmetric)
-                    ),
+                    )),
                     detail: tooltip(format!(
                         "by {} from other measurements of the system",
                         alt.rule

@@ -31,11 +31,11 @@ pub fn hover(
     };
     let text = match &o.symbol {
         Symbol::Quantity { system, body, qty } => with_method(
-            quantity(a, *system, body, *qty)?,
+            quantity(a, *system, body, *qty, method)?,
             body_of(*system, body).is_some_and(|r| r.get(*qty).is_some_and(has_number)),
         ),
         Symbol::Body { system, name } => with_method(
-            body_table(a, *system, name)?,
+            body_table(a, *system, name, method)?,
             body_of(*system, name).is_some_and(|r| r.quantities.iter().any(has_number)),
         ),
         Symbol::Unit(sym) => unit(sym),
@@ -47,6 +47,16 @@ pub fn hover(
         Symbol::Builtin(name) => builtin(name),
     };
     Some((text, o.span))
+}
+
+/// Whether a result's uncertainty was propagated from others (a derived value or a declared
+/// expression), so that it depends on the method of propagation.
+/// Whether a result's interval comes from first-order propagation (derived, and not one of
+/// the values first order cannot describe, which are sampled as `syz eval` would).
+fn propagated(q: &QuantityResult) -> bool {
+    has_number(q)
+        && (q.origin == Origin::Derived || q.rule.is_some())
+        && !crate::derive::validity::was_sampled(q)
 }
 
 /// Whether a result is a number (not a text such as a spectral type).
@@ -100,7 +110,9 @@ fn other_units(q: &QuantityResult) -> Vec<String> {
         let Some(unit) = crate::derive::DisplayUnit::parse(&sym) else {
             continue;
         };
-        if !(1e-3..1e6).contains(&unit.of(q.value).abs()) {
+        // Only units in which the value reads without an exponent: a star's mass in Earth
+        // masses (3.1e5) says nothing the main unit does not.
+        if !(1e-3..1e4).contains(&unit.of(q.value).abs()) {
             continue;
         }
         out.push(shown_in(q.value, q.below, q.above, q.form, unit));
@@ -124,8 +136,9 @@ fn other_units(q: &QuantityResult) -> Vec<String> {
     out
 }
 
-/// The hover of one quantity of one body.
-pub fn quantity(a: &Analysis, si: usize, body: &str, qty: Qty) -> Option<String> {
+/// The hover of one quantity of one body; its numbers say when `syz eval` would propagate
+/// otherwise than `method`.
+pub fn quantity(a: &Analysis, si: usize, body: &str, qty: Qty, method: &Method) -> Option<String> {
     let sys = a.model.systems.get(si)?;
     let bi = sys.body(body)?;
     let def = quantities::def(qty);
@@ -143,6 +156,12 @@ pub fn quantity(a: &Analysis, si: usize, body: &str, qty: Qty) -> Option<String>
         crate::report::value_text(q),
         q.origin.as_str()
     ));
+    let alternative = a.results.get(si).and_then(|r| r.alternative((bi, qty)));
+    if propagated(q) || alternative.is_some() {
+        if let Some(note) = method.estimate_note() {
+            out.push_str(&format!("*{note}*\n\n"));
+        }
+    }
     out.push_str(&format!("- dimension: {}\n", def.dim.describe()));
     if q.text.is_none() && q.value.is_finite() {
         let others = other_units(q);
@@ -157,7 +176,7 @@ pub fn quantity(a: &Analysis, si: usize, body: &str, qty: Qty) -> Option<String>
     if let Some(f) = q.formula {
         out.push_str(&format!("- formula: `{f}`\n"));
     }
-    if let Some(alt) = a.results.get(si).and_then(|r| r.alternative((bi, qty))) {
+    if let Some(alt) = alternative {
         let inputs: Vec<String> = alt.inputs.iter().map(|k| a.key_name(si, *k)).collect();
         out.push_str(&format!(
             "- derived from other measurements: `{}` by {} from {}\n",
@@ -189,8 +208,9 @@ pub fn quantity(a: &Analysis, si: usize, body: &str, qty: Qty) -> Option<String>
     Some(out)
 }
 
-/// The hover of a body: all its quantities in a table.
-pub fn body_table(a: &Analysis, si: usize, name: &str) -> Option<String> {
+/// The hover of a body: all its quantities in a table, under a line saying when `syz eval`
+/// would propagate otherwise than `method`.
+pub fn body_table(a: &Analysis, si: usize, name: &str, method: &Method) -> Option<String> {
     let sys = a.model.systems.get(si)?;
     let Some(bi) = sys.body(name) else {
         return Some(format!("no body `{name}` in system \"{}\"", sys.name));
@@ -208,6 +228,12 @@ pub fn body_table(a: &Analysis, si: usize, name: &str) -> Option<String> {
         sys.name
     );
     if let Some(r) = a.results.get(si).and_then(|r| r.bodies.get(bi)) {
+        if let Some(note) = method
+            .estimate_note()
+            .filter(|_| r.quantities.iter().any(propagated))
+        {
+            out = out.replacen("\n\n| quantity", &format!("\n\n*{note}*\n\n| quantity"), 1);
+        }
         for q in &r.quantities {
             out.push_str(&format!(
                 "| {} | {} | {} |\n",
@@ -299,6 +325,35 @@ mod tests {
     }
 
     #[test]
+    fn a_first_order_estimate_says_so_beside_its_numbers() {
+        // The editor propagates to first order; `syz eval` samples by default.
+        let m = crate::settings::EditorSettings::new(None).method();
+        let note = "*first-order estimate; `syz eval` samples (Monte Carlo): run it for the reported interval*";
+        let src = "system \"S\" {\n star s { mass = 1 ± 0.1 Msun; radius = 1 ± 0.1 Rsun }\n planet b orbits s {\n  period = 3 ± 0.1 d\n  transit_depth = 1 ± 0.1 %\n  radius = sqrt(b.transit_depth) * s.radius\n }\n}\n";
+        let a = crate::analyze(FileId(0), src, &crate::Settings::linear());
+        let occ = symbols::occurrences(&a.ast);
+        let at = |needle: &str, method: &Method| {
+            let off = src.find(needle).unwrap();
+            hover(&a, &occ, off, method).unwrap().0
+        };
+        // A declared expression is propagated from its inputs.
+        let h = at("radius = sqrt", &m);
+        let value = h.find("` (declared)").unwrap_or_else(|| panic!("{h}"));
+        let place = h.find(note).unwrap_or_else(|| panic!("{h}"));
+        assert!(place > value, "under the value: {h}");
+        assert!(at("b orbits", &m).contains(note));
+        // A declared measurement's uncertainty is its own: no note.
+        assert!(!at("period", &m).contains(note));
+        // When `syz eval` propagates as the editor does, nothing is added.
+        let same = Method {
+            line: "first-order propagation, as `syz eval` uses per syzygy.toml".to_string(),
+            tag: None,
+        };
+        assert!(!at("radius = sqrt", &same).contains("estimate;"));
+        assert!(!at("b orbits", &same).contains("estimate;"));
+    }
+
+    #[test]
     fn quantity_hover_has_meaning_value_and_provenance() {
         let h = hover_at("period", 0);
         assert!(h.contains("**b.period** — Orbital period."), "{h}");
@@ -366,8 +421,20 @@ mod tests {
             assert!(h.contains("- origin: declared"), "{needle}: {h}");
             assert!(!h.contains("ppm") && !h.contains(" %"), "{needle}: {h}");
         }
-        // A depth is a fraction: its other units stay.
+        // A depth is a fraction: its other units stay, those in which it reads without an
+        // exponent (1.12 % is 11.2 ppt; 11200 ppm is left out).
         let h = hover_at("transit_depth", 0);
-        assert!(h.contains("ppm"), "{h}");
+        assert!(h.contains("ppt") && !h.contains("ppm"), "{h}");
+    }
+
+    #[test]
+    fn other_units_need_no_exponent() {
+        // A star's mass is offered in Jupiter masses, not as 3.1e5 Earth masses.
+        let h = hover_at("mass", 0);
+        let also = h
+            .lines()
+            .find(|l| l.starts_with("- also: "))
+            .expect("also line");
+        assert!(also.contains("Mjup") && !also.contains("Mearth"), "{also}");
     }
 }

@@ -25,6 +25,25 @@ pub struct Method {
     pub tag: Option<String>,
 }
 
+impl Method {
+    /// When `syz eval` would propagate otherwise than the editor did, a short sentence that
+    /// says so beside the numbers (an uncertainty from first order can differ from the
+    /// sampled interval by much more than its last digits for a skewed result); `None`
+    /// when both agree.
+    pub fn estimate_note(&self) -> Option<String> {
+        let tag = self.tag.as_deref()?;
+        Some(if tag == "first-order" {
+            "first-order estimate; `syz eval` samples (Monte Carlo): run it for the reported \
+             interval"
+                .to_string()
+        } else {
+            format!(
+                "{tag} estimate; `syz eval` propagates otherwise: run it for the reported interval"
+            )
+        })
+    }
+}
+
 /// The result of a quantity of a body, if the engine has one.
 pub fn result(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<&QuantityResult> {
     a.results.get(si)?.bodies.get(bi)?.get(qty)

@@ -126,23 +126,26 @@ pub fn shown_in(value: f64, below: f64, above: f64, form: Form, unit: DisplayUni
     }
 }
 
-/// A value as people read it: `0.0443 ± 0.0006 au`, `< 0.08`, `"K0V"`.
+/// A value as people read it: `0.0443 ± 0.0006 au`, `< 0.08`, `"K0V"`, in its own display
+/// unit (the one written in the file, else the usual one for its size).
 pub fn value_text(q: &QuantityResult) -> String {
+    value_text_in(q, q.shown_unit(), flux_unit(q.value))
+}
+
+/// A value as people read it in `unit`; an insolation also in the SI flux unit `flux`.
+fn value_text_in(q: &QuantityResult, unit: DisplayUnit, flux: DisplayUnit) -> String {
     if let Some(t) = &q.text {
         return format!("\"{t}\"");
     }
-    let unit = q.shown_unit();
     if q.qty == Qty::TransitEpoch {
+        let unit = q.shown_unit();
         return format!(
             "{} {unit}",
             crate::format::julian_date(unit.of(q.value), unit.of(q.below), unit.of(q.above))
         );
     }
     let extra = if q.qty == Qty::Insolation {
-        format!(
-            " ({} W/m^2)",
-            crate::format::with_uncertainty(q.value, q.below, q.above)
-        )
+        format!(" ({})", shown_in(q.value, q.below, q.above, q.form, flux))
     } else {
         String::new()
     };
@@ -150,6 +153,71 @@ pub fn value_text(q: &QuantityResult) -> String {
         "{}{extra}",
         shown_in(q.value, q.below, q.above, q.form, unit)
     )
+}
+
+/// The flux unit (W/m^2 with an SI prefix) in which an insolation of `si` W/m^2 reads as a
+/// number below 1000, so the figure in brackets needs no exponent.
+fn flux_unit(si: f64) -> DisplayUnit<'static> {
+    let symbol = match si.abs() {
+        a if a >= 1e6 => "MW/m^2",
+        a if a >= 1e3 => "kW/m^2",
+        _ => "W/m^2",
+    };
+    DisplayUnit::parse(symbol).unwrap_or(DisplayUnit {
+        symbol: "W/m^2",
+        factor: 1.0,
+    })
+}
+
+/// The one display unit of each quantity in one table (a file's `syz eval` text), so that
+/// one column never mixes km and au: the usual unit for the median magnitude of the
+/// quantity's values in the file. Mass and minimum mass share theirs.
+struct TableUnits {
+    units: Vec<(Qty, DisplayUnit<'static>)>,
+    flux: DisplayUnit<'static>,
+}
+
+impl TableUnits {
+    /// Mass and minimum mass are read side by side: one unit for both.
+    fn group(qty: Qty) -> Qty {
+        match qty {
+            Qty::MinMass => Qty::Mass,
+            q => q,
+        }
+    }
+
+    fn of<'q>(results: impl Iterator<Item = &'q QuantityResult> + Clone) -> TableUnits {
+        let numbers = results.filter(|q| q.text.is_none() && q.qty != Qty::TransitEpoch);
+        let mut groups: Vec<Qty> = numbers.clone().map(|q| Self::group(q.qty)).collect();
+        groups.sort_by_key(|q| *q as usize);
+        groups.dedup();
+        let median = |qty: Qty| {
+            let mut v: Vec<f64> = numbers
+                .clone()
+                .filter(|q| Self::group(q.qty) == qty && q.value.is_finite())
+                .map(|q| q.value.abs())
+                .collect();
+            v.sort_by(f64::total_cmp);
+            v.get(v.len() / 2).copied().unwrap_or(f64::NAN)
+        };
+        let units = groups
+            .into_iter()
+            .map(|qty| (qty, crate::derive::display_unit(qty, median(qty))))
+            .collect();
+        TableUnits {
+            units,
+            flux: flux_unit(median(Qty::Insolation)),
+        }
+    }
+
+    fn text(&self, q: &QuantityResult) -> String {
+        let unit = self
+            .units
+            .iter()
+            .find(|(qty, _)| *qty == Self::group(q.qty))
+            .map_or_else(|| q.shown_unit(), |(_, u)| *u);
+        value_text_in(q, unit, self.flux)
+    }
 }
 
 /// Where a value came from, in a few words.
@@ -188,6 +256,12 @@ pub fn provenance_text(a: &Analysis, sys: usize, q: &QuantityResult) -> String {
 /// The people's form of `eval` for one file.
 pub fn eval_text(a: &Analysis, db: &dyn SourceDb) -> String {
     let mut out = String::new();
+    let units = TableUnits::of(
+        a.results
+            .iter()
+            .flat_map(|r| &r.bodies)
+            .flat_map(|b| &b.quantities),
+    );
     for (si, (sys, res)) in a.model.systems.iter().zip(&a.results).enumerate() {
         out.push_str(&format!("system \"{}\"  ({})\n", sys.name, db.name(a.file)));
         for (b, r) in sys.bodies.iter().zip(&res.bodies) {
@@ -209,7 +283,7 @@ pub fn eval_text(a: &Analysis, db: &dyn SourceDb) -> String {
                 .map(|q| {
                     (
                         quantities::def(q.qty).name.to_string(),
-                        value_text(q),
+                        units.text(q),
                         provenance_text(a, si, q),
                     )
                 })
@@ -450,5 +524,42 @@ mod tests {
             e.contains("to improve this value, improve b.transit_depth first"),
             "{e}"
         );
+    }
+
+    /// The unit of each `quantity` row of a text report.
+    fn units_of(text: &str, quantity: &str) -> Vec<String> {
+        text.lines()
+            .filter(|l| l.trim_start().starts_with(&format!("{quantity} ")))
+            .map(|l| {
+                let value = l
+                    .split("  ")
+                    .map(str::trim)
+                    .find(|p| !p.is_empty() && *p != quantity);
+                value.unwrap().rsplit(' ').next().unwrap().to_string()
+            })
+            .collect()
+    }
+
+    #[test]
+    fn one_unit_per_quantity_in_a_table() {
+        // An Earth-mass planet close in (Hill radius about 6e4 km, mass in Earth masses on
+        // its own) and a Jupiter far out (Hill radius 0.3 au, mass in Jupiter masses).
+        let src = "system \"S\" {\n star s { mass = 1 ± 0.05 Msun; radius = 1 ± 0.02 Rsun; teff = 5800 ± 50 K }\n planet b orbits s { period = 3 ± 0.001 d; mass = 3 ± 0.3 Mearth }\n planet c orbits s { period = 4000 ± 10 d; mass = 1 ± 0.1 Mjup }\n planet d orbits s { period = 400 ± 10 d; min_mass = 0.5 ± 0.1 Mjup }\n}\n";
+        let a = crate::analyze(FileId(0), src, &crate::Settings::linear());
+        // Each value alone would be shown in its own unit...
+        let alone: Vec<&str> = a.results[0]
+            .bodies
+            .iter()
+            .filter_map(|b| b.get(Qty::HillRadius))
+            .map(|q| q.shown_unit().symbol)
+            .collect();
+        assert_eq!(alone, ["km", "au", "au"]);
+        // ...but the table has one unit per quantity, mass and minimum mass together.
+        let mut db = crate::source::MemoryDb::new();
+        db.add("s.syz", src);
+        let text = eval_text(&a, &db);
+        assert_eq!(units_of(&text, "hill_radius"), ["au", "au", "au"], "{text}");
+        let masses = [units_of(&text, "mass"), units_of(&text, "min_mass")].concat();
+        assert_eq!(masses, ["Msun", "Mjup", "Mjup", "Mjup"], "{text}");
     }
 }
