@@ -218,7 +218,7 @@ fn one(src: &str) {
         }
         // Read in parts of a few lines each, the file says the same (every fourth input,
         // first order only: a large file is read this way).
-        if settings.options.propagation == syzygy::Propagation::Linear && src.len() % 4 == 0 {
+        if settings.options.propagation == syzygy::Propagation::Linear && src.len().is_multiple_of(4) {
             in_parts_says_the_same(src, &settings, &a);
         }
     }
@@ -286,7 +286,7 @@ fn fuzz_every_stage() {
             std::panic::resume_unwind(e);
         }
         runs += 1;
-        if runs % 100_000 == 0 {
+        if runs.is_multiple_of(100_000) {
             // Progress for long runs, so that a stopped run still says how far it got.
             eprintln!(
                 "fuzz: {runs} mutants in {:.0} s, no crash so far; slowest {slowest:?}",
