@@ -88,6 +88,26 @@ impl<'a> Parts<'a> {
         }
     }
 
+    /// Where the next part starts, given where its first declaration starts: at the first
+    /// of the blank and comment-only lines right above that declaration's line. A comment on
+    /// a line of its own covers the next line of code, so those comments belong with the
+    /// declaration below them (even when the declaration above, never closed, reaches
+    /// over them).
+    fn gap_start(&self, next: usize) -> usize {
+        let mut start = line_start(self.src, next);
+        while start > 0 {
+            // The line break that ends the line above: one byte, or the `\r\n` pair.
+            let crlf = start >= 2 && self.src.get(start - 2..start) == Some("\r\n");
+            let above = line_start(self.src, start - if crlf { 2 } else { 1 });
+            let text = self.src.get(above..start).unwrap_or_default().trim();
+            if !(text.is_empty() || text.starts_with('#')) {
+                break;
+            }
+            start = above;
+        }
+        start
+    }
+
     /// The byte offset just past the line on which `offset` stands (past its line break).
     fn line_end_after(&self, offset: usize) -> usize {
         let rest = self.src.get(offset..).unwrap_or_default();
@@ -122,7 +142,9 @@ impl Iterator for Parts<'_> {
                 let size = (last.span().end as usize).saturating_sub(first.span().start as usize);
                 let line_end = self.line_end_after(last.span().end as usize);
                 if size >= self.part_bytes && (item.span().start as usize) >= line_end {
-                    end = line_end;
+                    end = self
+                        .gap_start(item.span().start as usize)
+                        .max(self.next_start);
                     self.carried = Some(item);
                     break;
                 }
@@ -162,6 +184,16 @@ impl Iterator for Parts<'_> {
             model,
             diagnostics,
         })
+    }
+}
+
+/// The start of the line holding `offset` (lines end at `\n`, `\r\n` or a lone `\r`).
+fn line_start(src: &str, offset: usize) -> usize {
+    let before = src.as_bytes().get(..offset).unwrap_or_default();
+    match before.iter().rposition(|&b| b == b'\n' || b == b'\r') {
+        // A `\r\n` pair: `offset` is on the line after it either way.
+        Some(i) => i + 1,
+        None => 0,
     }
 }
 

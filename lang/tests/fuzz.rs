@@ -218,7 +218,9 @@ fn one(src: &str) {
         }
         // Read in parts of a few lines each, the file says the same (every fourth input,
         // first order only: a large file is read this way).
-        if settings.options.propagation == syzygy::Propagation::Linear && src.len().is_multiple_of(4) {
+        if settings.options.propagation == syzygy::Propagation::Linear
+            && src.len().is_multiple_of(4)
+        {
             in_parts_says_the_same(src, &settings, &a);
         }
     }

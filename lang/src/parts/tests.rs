@@ -171,3 +171,23 @@ fn broken_structure_reads_the_same_in_parts() {
     assert_eq!(in_parts(one_line, 1).1, 1);
     assert_eq!(in_parts(TWO, 1).1, 5);
 }
+
+/// A system never closed reaches over the comment lines below its last property; a
+/// silencing comment there covers the next system's first line, so it travels with that
+/// system (found by the fuzzer). CR LF and lone CR line ends too.
+#[test]
+fn comments_above_a_declaration_go_with_it_even_inside_an_unclosed_one() {
+    let src = "system \"Ferrow\" {\n  star f {\n    mass = 1 Msun\n  }\n  planet b orbits f {\n    period = 12 ± 0.1 d\n    # allow(inconsistent): nothing here\n# another\nsystem \"Ferrow\" {\n  star g { mass = 1 Msun }\n}\n";
+    same_in_parts(src);
+    same_in_parts(&src.replace('\n', "\r\n"));
+    same_in_parts(&src.replace('\n', "\r"));
+    let (seen, n) = in_parts(src, 1);
+    assert_eq!(n, 2);
+    assert!(
+        seen.0
+            .iter()
+            .any(|d| d.message.contains("nothing on line 9")),
+        "{:#?}",
+        seen.0
+    );
+}
