@@ -42,8 +42,8 @@ pub enum Plot {
         body: String,
         #[arg(short = 'o', long = "output", required = true)]
         output: PathBuf,
-        /// Quadratic limb-darkening coefficients `u1,u2`. Default: u1 = 0.40, u2 = 0.25,
-        /// typical of a Sun-like dwarf in a broad optical band (shown on the plot).
+        /// Quadratic limb-darkening coefficients `u1,u2` for your star and band. Default:
+        /// none (a uniform disc, as the engine assumes when it reads a depth as k^2).
         #[arg(long, value_name = "U1,U2")]
         limb_darkening: Option<String>,
         #[arg(long)]
@@ -92,13 +92,18 @@ pub fn run(plot: &Plot, flags: &Layer, read: files::ReadArgs) -> u8 {
             .and_then(|ld| {
                 let (a, si, bi) = one_planet(file, body, system.as_deref(), flags, read)?;
                 let (c, _) = plots::transit_curve(&a, si, bi, ld)?;
-                // The coefficients are among the assumptions, given or assumed.
+                // The coefficients are among the assumptions, given or none.
+                let model = if ld.is_some() {
+                    "quadratic limb darkening (Mandel & Agol 2002)"
+                } else {
+                    "a uniform stellar disc (Mandel & Agol 2002, without limb darkening)"
+                };
                 Ok(model::draw(
                     &c,
                     &format!("Transit of {}", c.label),
                     "time from mid-transit [hours]",
                     "relative flux",
-                    Some("quadratic limb darkening (Mandel & Agol 2002)"),
+                    Some(model),
                 )?)
             }),
     };

@@ -89,7 +89,8 @@ fn rv_and_transit_plots_show_their_inputs_and_limb_darkening() {
     let t = texts(&std::fs::read_to_string(&tr).unwrap());
     assert!(t.iter().any(|x| x.contains("relative flux")));
     assert!(
-        t.iter().any(|x| x.contains("u1 = 0.40, u2 = 0.25 assumed")),
+        t.iter()
+            .any(|x| x.contains("no limb darkening (a uniform stellar disc")),
         "{t:?}"
     );
 

@@ -233,8 +233,14 @@ fn model_plots_do_not_overlap_text_and_say_each_assumption_once() {
         assert_no_text_overlaps(&svg, kind);
         let texts: Vec<String> = text_boxes(&svg).into_iter().map(|(t, _)| t).collect();
         let all = texts.join(" ");
-        for once in ["0-360 deg", "u1 = "] {
-            if kind == "rv" && once == "u1 = " {
+        // The limb darkening is said once: given, or none.
+        let limb = if extra.is_some() {
+            "u1 = "
+        } else {
+            "no limb darkening"
+        };
+        for once in ["0-360 deg", limb] {
+            if kind == "rv" && once == limb {
                 continue;
             }
             assert_eq!(all.matches(once).count(), 1, "'{once}' in {all}");

@@ -400,14 +400,14 @@ pub fn rv_curve(a: &Analysis, sys: usize, body: usize) -> Result<ModelCurve, Str
 }
 
 /// The star's relative flux around one transit against time from mid-transit in hours,
-/// with quadratic limb darkening (given, or [`LimbDarkening::ASSUMED`]).
+/// with quadratic limb darkening when given (none otherwise, as the engine assumes).
 pub fn transit_curve(
     a: &Analysis,
     sys: usize,
     body: usize,
     limb: Option<LimbDarkening>,
 ) -> Result<(ModelCurve, LimbDarkening), String> {
-    let ld = limb.unwrap_or(LimbDarkening::ASSUMED);
+    let ld = limb.unwrap_or(LimbDarkening::NONE);
     if !ld.is_physical() {
         return Err(format!(
             "limb darkening u1 = {}, u2 = {} is unphysical (it needs u1 >= 0, u1 + u2 <= 1, u1 + 2 u2 >= 0)",
@@ -430,10 +430,14 @@ pub fn transit_curve(
     let ars = inp.draws(Qty::ScaledAxis, n, 22)?;
     let b = inp.draws(Qty::Impact, n, 23)?;
     let k: Vec<f64> = if from_depth {
-        inp.assumptions.push(format!(
+        // Without limb darkening the inverse is k = sqrt(depth), as the engine reads it:
+        // nothing more to say.
+        if ld != LimbDarkening::NONE {
+            inp.assumptions.push(format!(
             "radius ratio solved from the transit depth at mid-transit (separation b) with this limb darkening, by inverting the model numerically; sqrt(depth) = {} assumes none",
             crate::format::sig(inp.nominal(Qty::RadiusRatio), 4)
         ));
+        }
         k_or_depth
             .iter()
             .zip(&b)
@@ -505,7 +509,7 @@ pub fn transit_curve(
             "quadratic limb darkening u1 = {}, u2 = {} (given)",
             l.u1, l.u2
         ),
-        None => LimbDarkening::ASSUMED_BASIS.to_string(),
+        None => LimbDarkening::NONE_BASIS.to_string(),
     });
     assumptions.push(
         "dark planet; no ellipsoidal, reflected or thermal light; no exposure-time smearing"
@@ -645,10 +649,14 @@ mod tests {
                 "{used:?}: {}",
                 1.0 - min
             );
-            assert!(
+            // Without limb darkening k = sqrt(depth) is the model's own inverse; with it, k
+            // is solved again. Either way the plot says its own limb darkening once.
+            let limb_darkened = used != LimbDarkening::NONE;
+            assert_eq!(
                 c.assumptions
                     .iter()
                     .any(|s| s.starts_with("radius ratio solved from the transit depth")),
+                limb_darkened,
                 "{:?}",
                 c.assumptions
             );
@@ -670,15 +678,21 @@ mod tests {
     #[test]
     fn transit_curve_depth_and_limb_darkening_are_shown() {
         let a = analysis(SRC);
-        let (c, ld) = transit_curve(&a, 0, 1, None).unwrap();
-        assert_eq!(ld, LimbDarkening::ASSUMED);
-        let min = c.band.median.iter().copied().fold(f64::MAX, f64::min);
-        // Deeper than k^2 = 0.01 with limb darkening near the centre, and not by much.
-        assert!(1.0 - min > 0.0100 && 1.0 - min < 0.0135, "{min}");
-        assert!(c.assumptions.iter().any(|s| s.contains("u1 = 0.40")));
-        let (u, _) = transit_curve(&a, 0, 1, Some(LimbDarkening::NONE)).unwrap();
+        // None given: a uniform disc, as the engine reads a depth, and it says so.
+        let (u, ld) = transit_curve(&a, 0, 1, None).unwrap();
+        assert_eq!(ld, LimbDarkening::NONE);
+        assert!(u
+            .assumptions
+            .iter()
+            .any(|s| s.starts_with("no limb darkening")));
         let umin = u.band.median.iter().copied().fold(f64::MAX, f64::min);
         assert!((1.0 - umin - 0.01).abs() < 0.0005, "{umin}");
+        // A declared radius ratio drawn limb-darkened: deeper than k^2 = 0.01 near the
+        // centre, and not by much.
+        let (c, _) = transit_curve(&a, 0, 1, Some(LimbDarkening::ASSUMED)).unwrap();
+        let min = c.band.median.iter().copied().fold(f64::MAX, f64::min);
+        assert!(1.0 - min > 0.0100 && 1.0 - min < 0.0135, "{min}");
+        assert!(c.assumptions.iter().any(|s| s.contains("u1 = 0.4")));
         assert!(transit_curve(&a, 0, 1, Some(LimbDarkening { u1: 2.0, u2: 0.0 })).is_err());
         assert!(transit_curve(&a, 0, 0, None).is_err());
     }

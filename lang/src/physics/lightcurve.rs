@@ -27,9 +27,13 @@ pub struct LimbDarkening {
 impl LimbDarkening {
     pub const NONE: LimbDarkening = LimbDarkening { u1: 0.0, u2: 0.0 };
 
-    /// The coefficients assumed when none are given, with their basis in words.
+    /// A limb-darkened law of roughly a Sun-like dwarf in a broad optical band (from
+    /// memory; not fitted to any star or band): what the tests draw with. Nothing uses it
+    /// unless asked: without given coefficients the star's disc is uniform, as the engine
+    /// assumes when it reads a depth as k^2.
     pub const ASSUMED: LimbDarkening = LimbDarkening { u1: 0.40, u2: 0.25 };
-    pub const ASSUMED_BASIS: &'static str = "u1 = 0.40, u2 = 0.25 assumed: typical of a Sun-like dwarf in a broad optical band (from memory; not fitted to this star or band)";
+    /// The words for a plot drawn without given coefficients.
+    pub const NONE_BASIS: &'static str = "no limb darkening (a uniform stellar disc, as the engine assumes when it reads the depth as k^2): give --limb-darkening u1,u2 for your star and band";
 
     /// Intensity relative to the disk centre at `mu` (cosine of the emergent angle).
     pub fn intensity(&self, mu: f64) -> f64 {
