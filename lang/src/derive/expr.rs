@@ -74,6 +74,19 @@ impl<'m> Derivation<'m> {
         info?.value.as_ref()
     }
 
+    /// A binding's name as written (`x`, or `body.x` for one inside a body).
+    fn binding_name(&self, id: LetId) -> String {
+        let sys = self.sys;
+        match id.body {
+            None => sys.lets.get(id.index).map(|l| l.name.clone()),
+            Some(b) => sys.bodies.get(b).and_then(|body| {
+                let l = body.lets.get(id.index)?;
+                Some(format!("{}.{}", body.id, l.name))
+            }),
+        }
+        .unwrap_or_else(|| "?".to_string())
+    }
+
     /// The resolved expression declared for a quantity.
     fn declared_expr(&self, key: Key) -> Option<&'m Resolved> {
         let sys = self.sys;
@@ -86,6 +99,7 @@ impl<'m> Derivation<'m> {
     pub(super) fn eval_binding(&mut self, id: LetId) -> Result<(), Pending> {
         let e = self.binding_expr(id).ok_or(Pending::Failed)?;
         let mut refs = Vec::new();
+        self.naming = (self.binding_name(id), 0);
         let outcome = self.eval(e, &mut refs);
         let failed = matches!(outcome, Err(Pending::Failed));
         let state = match outcome {
@@ -141,6 +155,7 @@ impl<'m> Derivation<'m> {
             .and_then(|b| b.get(key.1))
             .is_some_and(|d| d.assumed);
         let mut refs = Vec::new();
+        self.naming = (self.key_name(key), 0);
         let v = match self.eval(e, &mut refs) {
             Err(Pending::Waiting) => return Err(Pending::Waiting),
             outcome => {
@@ -210,9 +225,14 @@ impl<'m> Derivation<'m> {
                 }
                 let id = u32::try_from(self.inputs.len()).unwrap_or(u32::MAX);
                 self.literal_inputs.insert(lit.value_span, id);
-                // Named by order of first use, not by position, so that re-laying out the
-                // file (which moves bytes) never changes a seed or a budget label.
-                let label = format!("literal #{} ({})", self.literal_inputs.len(), lit.written);
+                // Named by what it declares and by order within it, not by position, so
+                // that re-laying out the file (which moves bytes) never changes a seed or a
+                // budget label: `x: 1 ± 0.1 Msun`, then `x: 2 ± 0.2 Msun (literal 2)`.
+                self.naming.1 += 1;
+                let label = match self.naming.1 {
+                    1 => format!("{}: {}", self.naming.0, lit.written),
+                    k => format!("{}: {} (literal {k})", self.naming.0, lit.written),
+                };
                 Ok(self.new_input(label, m, f64::NEG_INFINITY, f64::INFINITY))
             }
             Node::Binding(id) => match self.bindings.get(id) {

@@ -109,12 +109,13 @@ impl<'m> Derivation<'m> {
                     }
                 }
                 if m.form.is_limit() {
+                    // In the unit people read the quantity in (`< 3 m/s`, `< 0.08`).
+                    let unit = summary::display_unit(decl.qty, m.value);
                     assumptions.insert(Arc::from(format!(
-                        "{}.{} {} {} sampled uniformly within its physical range",
+                        "{}.{} {} sampled uniformly within its physical range",
                         body.id,
                         def.name,
-                        if m.form == Form::UpperLimit { "<" } else { ">" },
-                        crate::format::number(m.value)
+                        crate::report::shown_in(m.value, 0.0, 0.0, m.form, unit),
                     )));
                 }
                 self.entries.insert(

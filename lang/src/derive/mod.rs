@@ -137,6 +137,9 @@ pub struct Derivation<'m> {
     candidates: BTreeMap<Key, Vec<Candidate>>,
     pub inputs: Vec<InputInfo>,
     literal_inputs: FxHashMap<Span, u32>,
+    /// What the expression being evaluated declares (a binding's name, `body.quantity`),
+    /// and how many uncertain literals of it were met: how its literals are labelled.
+    naming: (String, usize),
     /// The value of each `let` binding evaluated so far.
     bindings: FxHashMap<crate::model::LetId, expr::Binding>,
     /// How many unfinished expressions use each binding (see [`expr::binding_uses`]).
@@ -190,6 +193,7 @@ impl<'m> Derivation<'m> {
             candidates: BTreeMap::new(),
             inputs: Vec::new(),
             literal_inputs: FxHashMap::default(),
+            naming: (String::new(), 0),
             bindings: FxHashMap::default(),
             binding_uses: expr::binding_uses(sys),
             used: FxHashSet::default(),
