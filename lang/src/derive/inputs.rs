@@ -74,6 +74,14 @@ impl<'m> Derivation<'m> {
                     continue;
                 };
                 let def = quantities::def(decl.qty);
+                let chosen_m;
+                let (m, choice_words) = match self.choose_source(bi, decl) {
+                    Some((chosen, words)) => {
+                        chosen_m = chosen.measurement;
+                        (&chosen_m, Some(words))
+                    }
+                    None => (m, None),
+                };
                 let (lo, hi) = def.limits();
                 let usable = match m.form {
                     Form::UpperLimit => lo.is_finite(),
@@ -95,6 +103,9 @@ impl<'m> Derivation<'m> {
                     Origin::Declared
                 };
                 let mut assumptions: SortedSet<Arc<str>> = SortedSet::new();
+                if let Some(words) = choice_words {
+                    assumptions.insert(Arc::from(words));
+                }
                 if decl.assumed {
                     assumptions.insert(Arc::from(format!(
                         "{}.{} = {} (assumed)",
@@ -187,6 +198,37 @@ impl<'m> Derivation<'m> {
                 }
             }
         }
+    }
+
+    /// For a quantity declared several times: the value used (recorded in `chosen`) and the
+    /// sentence that says which and how. `None` for a quantity declared once.
+    fn choose_source(
+        &mut self,
+        bi: usize,
+        first: &model::Declared,
+    ) -> Option<(sources::Chosen, String)> {
+        let body = self.sys.bodies.get(bi)?;
+        let all = body.sources(first.qty);
+        if all.len() < 2 {
+            return None;
+        }
+        let measurements: Vec<Measurement> = all
+            .iter()
+            .filter_map(|d| match &d.content {
+                Content::Measured(m) => Some(*m),
+                _ => None,
+            })
+            .collect();
+        let marked = all.iter().position(|d| d.preferred);
+        let chosen = sources::choose(&measurements, marked, self.options.source_choice)?;
+        let cites: Vec<Vec<String>> = all
+            .iter()
+            .map(|d| d.citations.iter().map(|c| c.0.clone()).collect())
+            .collect();
+        let name = format!("{}.{}", body.id, quantities::def(first.qty).name);
+        let words = sources::words(&name, &cites, &chosen);
+        self.chosen.insert((bi, first.qty), chosen.clone());
+        Some((chosen, words))
     }
 
     /// Teff, radius and mass of a dwarf star from its spectral type, for each of them the

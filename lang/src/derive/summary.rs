@@ -28,6 +28,24 @@ pub struct QuantityResult {
     /// The unit the value is shown in when it is not the quantity's usual one: a transit
     /// epoch keeps the Julian-date time system it was declared in.
     pub unit: Option<String>,
+    /// For a quantity declared more than once: every declaration, in file order.
+    pub sources: Vec<SourceResult>,
+    /// For a quantity declared more than once: how the value used was reached.
+    pub choice: Option<Choice>,
+}
+
+/// One of several declarations of a quantity, as reported.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SourceResult {
+    /// SI value and uncertainty below and above.
+    pub value: f64,
+    pub below: f64,
+    pub above: f64,
+    pub form: Form,
+    pub citations: Vec<String>,
+    pub span: Span,
+    /// Whether this declaration is the value used (false for all when they were combined).
+    pub chosen: bool,
 }
 
 impl QuantityResult {
@@ -110,6 +128,8 @@ impl<'m> Derivation<'m> {
                             assumptions: Vec::new(),
                             notes: Vec::new(),
                             unit: None,
+                            sources: Vec::new(),
+                            choice: None,
                         });
                         continue;
                     }
@@ -183,8 +203,40 @@ impl<'m> Derivation<'m> {
         let rule = entry.rule.and_then(|r| RULES.get(r));
         let mut notes = Vec::new();
         let mut sampled = None;
-        let (value, below, above, form) = match decl.map(|d| &d.content) {
-            Some(Content::Measured(m)) => (m.value, m.below, m.above, m.form),
+        let chosen = self.chosen.get(&key);
+        let all = match (decl, chosen) {
+            (Some(d), Some(_)) => self.sys.bodies.get(key.0).map(|b| b.sources(d.qty)),
+            _ => None,
+        }
+        .unwrap_or_default();
+        // The declaration whose value is used: the chosen source, else the one declared.
+        let used = match chosen.map(|c| c.index) {
+            Some(Some(i)) => all.get(i).copied(),
+            Some(None) => None,
+            None => decl,
+        };
+        let sources: Vec<SourceResult> = all
+            .iter()
+            .enumerate()
+            .filter_map(|(i, d)| match &d.content {
+                Content::Measured(m) => Some(SourceResult {
+                    value: m.value,
+                    below: m.below,
+                    above: m.above,
+                    form: m.form,
+                    citations: d.citations.iter().map(|c| c.0.clone()).collect(),
+                    span: d.span,
+                    chosen: chosen.is_some_and(|c| c.index == Some(i)),
+                }),
+                _ => None,
+            })
+            .collect();
+        let (value, below, above, form) = match (chosen, decl.map(|d| &d.content)) {
+            (Some(c), _) => {
+                let m = c.measurement;
+                (m.value, m.below, m.above, m.form)
+            }
+            (None, Some(Content::Measured(m))) => (m.value, m.below, m.above, m.form),
             _ => {
                 let (lo, hi) = entry.value.linear_spread(&self.inputs);
                 match (self.options.propagation, entry.value.sample_summary()) {
@@ -263,10 +315,22 @@ impl<'m> Derivation<'m> {
             }),
             formula: rule.map(|r| r.formula),
             inputs: entry.inputs.clone(),
-            citations: decl
-                .map(|d| d.citations.iter().map(|c| c.0.clone()).collect())
-                .unwrap_or_default(),
-            span: decl.map(|d| d.span),
+            citations: match (used, chosen) {
+                (Some(d), _) => d.citations.iter().map(|c| c.0.clone()).collect(),
+                // A combination rests on every measurement combined.
+                (None, Some(_)) => {
+                    let mut all: Vec<String> = sources
+                        .iter()
+                        .filter(|s| !s.form.is_limit())
+                        .flat_map(|s| s.citations.iter().cloned())
+                        .collect();
+                    all.sort();
+                    all.dedup();
+                    all
+                }
+                (None, None) => Vec::new(),
+            },
+            span: used.or(decl).map(|d| d.span),
             budget,
             assumptions: entry
                 .assumptions
@@ -286,6 +350,8 @@ impl<'m> Derivation<'m> {
                         .filter(|u| crate::time::system_of_unit(u).is_some())
                 })
                 .flatten(),
+            choice: chosen.map(|c| c.choice),
+            sources,
         }
     }
 }

@@ -380,14 +380,14 @@ fn columns(src: &str, toks: &[Token]) -> Option<Columns> {
     }
     let rest = toks.get(rel_at + 1..)?;
     let r = roles(rest);
-    // Trailing parts: citations and `assumed`, at bracket depth 0.
+    // Trailing parts: citations, `assumed` and `preferred`, at bracket depth 0.
     let mut depth = 0i32;
     let mut trail = rest.len();
     for (i, t) in rest.iter().enumerate() {
         match t.kind {
             Tok::LParen => depth += 1,
             Tok::RParen => depth -= 1,
-            Tok::LBracket | Tok::Assumed if depth == 0 => {
+            Tok::LBracket | Tok::Assumed | Tok::Preferred if depth == 0 => {
                 trail = i;
                 break;
             }
@@ -407,7 +407,10 @@ fn columns(src: &str, toks: &[Token]) -> Option<Columns> {
     let mut assumed = Vec::new();
     let mut i = trail;
     while i < rest.len() {
-        if rest.get(i).map(|t| t.kind) == Some(Tok::Assumed) {
+        if matches!(
+            rest.get(i).map(|t| t.kind),
+            Some(Tok::Assumed | Tok::Preferred)
+        ) {
             assumed.push(join(src, rest, &r, i..i + 1));
             i += 1;
         } else {
