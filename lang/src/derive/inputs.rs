@@ -219,6 +219,7 @@ impl<'m> Derivation<'m> {
                 _ => None,
             })
             .collect();
+        self.sources_disagree(body, &all);
         let marked = all.iter().position(|d| d.preferred);
         let chosen = sources::choose(&measurements, marked, self.options.source_choice)?;
         let cites: Vec<Vec<String>> = all
@@ -229,6 +230,63 @@ impl<'m> Derivation<'m> {
         let words = sources::words(&name, &cites, &chosen);
         self.chosen.insert((bi, first.qty), chosen.clone());
         Some((chosen, words))
+    }
+
+    /// `sources-disagree` for every pair of declarations of one quantity further apart
+    /// than the consistency threshold.
+    fn sources_disagree(&mut self, body: &model::Body, all: &[&model::Declared]) {
+        let shown = |d: &model::Declared| {
+            let Content::Measured(m) = &d.content else {
+                return None;
+            };
+            let unit = display_unit(d.qty, m.value);
+            let f = unit.factor;
+            let value = match m.form {
+                Form::UpperLimit => format!("< {}", crate::format::number(m.value / f)),
+                Form::LowerLimit => format!("> {}", crate::format::number(m.value / f)),
+                _ => crate::format::with_uncertainty(m.value / f, m.below / f, m.above / f),
+            };
+            let cites: Vec<&str> = d.citations.iter().map(|c| c.0.as_str()).collect();
+            Some((
+                *m,
+                format!("{value} {} [{}]", unit.suffix(), cites.join(", ")),
+            ))
+        };
+        let k = self.options.consistency_sigma;
+        for (j, later) in all.iter().enumerate() {
+            for earlier in all.iter().take(j) {
+                let (Some((a, wa)), Some((b, wb))) = (shown(earlier), shown(later)) else {
+                    continue;
+                };
+                let Some(z) = sources::separation(&a, &b).filter(|z| *z > k) else {
+                    continue;
+                };
+                let name = format!("{}.{}", body.id, quantities::def(later.qty).name);
+                let apart = if z.is_finite() && (a.form.is_limit() || b.form.is_limit()) {
+                    format!(
+                        "disagree: the measurement lies {z:.1} standard deviations past the limit"
+                    )
+                } else if z.is_finite() {
+                    format!("differ by {z:.1} combined standard deviations")
+                } else if a.form.is_limit() && b.form.is_limit() {
+                    "exclude each other".to_string()
+                } else {
+                    "differ, and neither gives an uncertainty".to_string()
+                };
+                self.diagnostics.push(
+                    Diagnostic::new(
+                        Rule::SourcesDisagree,
+                        later.span,
+                        format!("two sources of {name}: {wa} and {wb} {apart}"),
+                    )
+                    .with_label(earlier.span, format!("{wa} declared here"))
+                    .with_note(format!(
+                        "the threshold is {k} combined standard deviations (consistency_sigma); a measurement is compared with a limit by how far it lies past the limit, in its own uncertainty"
+                    ))
+                    .with_help("check both papers: one may use another definition, epoch or unit; mark the value to use with `preferred`"),
+                );
+            }
+        }
     }
 
     /// Teff, radius and mass of a dwarf star from its spectral type, for each of them the

@@ -245,6 +245,40 @@ pub fn words(name: &str, cites: &[Vec<String>], chosen: &Chosen) -> String {
     format!("{name}: {n} sources; {how}")
 }
 
+/// How far apart two declarations of one quantity are, in combined standard deviations:
+/// two measurements by the sides that face each other, added in quadrature; a measurement
+/// and a limit by how far the measurement lies on the wrong side of the limit, in its own
+/// uncertainty on that side; two limits that exclude each other are infinitely apart.
+/// `None` when the pair cannot disagree (a measurement within a limit, compatible limits).
+pub fn separation(a: &Measurement, b: &Measurement) -> Option<f64> {
+    let apart = |gap: f64, sigma: f64| {
+        if gap <= 0.0 {
+            None
+        } else if sigma > 0.0 {
+            Some(gap / sigma)
+        } else {
+            Some(f64::INFINITY)
+        }
+    };
+    match (a.form, b.form) {
+        (Form::UpperLimit, Form::LowerLimit) => apart(b.value - a.value, 0.0),
+        (Form::LowerLimit, Form::UpperLimit) => apart(a.value - b.value, 0.0),
+        (x, y) if x.is_limit() && y.is_limit() => None,
+        (Form::UpperLimit, _) => apart(b.value - a.value, b.below),
+        (Form::LowerLimit, _) => apart(a.value - b.value, b.above),
+        (_, Form::UpperLimit | Form::LowerLimit) => separation(b, a),
+        _ => {
+            let (lo, hi) = if a.value <= b.value { (a, b) } else { (b, a) };
+            let sigma = (lo.above.powi(2) + hi.below.powi(2)).sqrt();
+            let gap = hi.value - lo.value;
+            if gap == 0.0 {
+                return None;
+            }
+            apart(gap, sigma)
+        }
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -324,6 +358,28 @@ mod tests {
         let l = choose(&only, None, SourceChoice::Last).unwrap();
         assert_eq!(l.index, Some(1));
         assert!(words("b.eccentricity", &[vec![], vec![]], &l).contains("most constraining"));
+    }
+
+    #[test]
+    fn separation_counts_the_facing_sides_and_limits() {
+        // 10.000 ± 0.001 against 10.0021 ± 0.0002: 0.0021 / sqrt(0.001^2 + 0.0002^2) = 2.06.
+        let z = separation(&m(10.0, 0.001), &m(10.0021, 0.0002)).unwrap();
+        assert!((z - 0.0021 / (0.001f64.powi(2) + 0.0002f64.powi(2)).sqrt()).abs() < 1e-9);
+        let upper = Measurement {
+            value: 0.1,
+            below: 0.0,
+            above: 0.0,
+            form: Form::UpperLimit,
+        };
+        assert_eq!(separation(&upper, &m(0.05, 0.01)), None);
+        let z = separation(&m(0.2, 0.02), &upper).unwrap();
+        assert!((z - 5.0).abs() < 1e-9, "{z}");
+        let lower = Measurement {
+            form: Form::LowerLimit,
+            value: 0.3,
+            ..upper
+        };
+        assert_eq!(separation(&upper, &lower), Some(f64::INFINITY));
     }
 
     #[test]

@@ -749,3 +749,40 @@ fn a_weighted_mean_is_used_as_a_combination_of_all_measurements() {
         p.assumptions
     );
 }
+
+#[test]
+fn sources_disagree_fires_on_inconsistent_declarations_and_not_on_consistent_ones() {
+    let rules = |periods: (&str, &str)| -> Vec<String> {
+        let src = TWO_PERIODS
+            .replace("period = 10.000 ± 0.001 d", periods.0)
+            .replace("period = 10.0021 ± 0.0002 d", periods.1);
+        run(&src, &Options::linear())
+            .diagnostics
+            .iter()
+            .filter(|d| d.rule == crate::diagnostic::Rule::SourcesDisagree)
+            .map(|d| d.message.clone())
+            .collect::<Vec<_>>()
+    };
+    // 0.0021 / sqrt(0.001^2 + 0.0002^2) = 2.06 combined sigma: under the threshold of 3.
+    let p = |s: &str| format!("period = {s}");
+    assert!(rules((&p("10.000 ± 0.001 d"), &p("10.0021 ± 0.0002 d"))).is_empty());
+    // 0.009 / sqrt(0.001^2 + 0.0004^2) = 8.4.
+    let found = rules((&p("10.000 ± 0.001 d"), &p("10.009 ± 0.0004 d")));
+    assert_eq!(found.len(), 1, "{found:?}");
+    assert!(
+        found[0].contains("[disc]") && found[0].contains("[followup]"),
+        "{found:?}"
+    );
+    assert!(
+        found[0].contains("8.4 combined standard deviations"),
+        "{found:?}"
+    );
+    // A measurement beyond another source's limit.
+    let found = rules((&p("10.000 ± 0.001 d"), "period < 9.99 d"));
+    assert_eq!(found.len(), 1, "{found:?}");
+    assert!(
+        found[0].contains("10.0 standard deviations past the limit"),
+        "{found:?}"
+    );
+    assert!(rules((&p("10.000 ± 0.001 d"), "period < 10.01 d")).is_empty());
+}
