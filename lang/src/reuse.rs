@@ -266,6 +266,7 @@ impl Spans for QuantityResult {
             formula: _,
             inputs: _,
             citations: _,
+            cited: _,
             span,
             budget: _,
             assumptions: _,

@@ -17,7 +17,12 @@ pub struct QuantityResult {
     pub rule: Option<&'static str>,
     pub formula: Option<&'static str>,
     pub inputs: Vec<Key>,
+    /// The references cited on the declaration whose value is used (all the measurements
+    /// combined, for a weighted mean).
     pub citations: Vec<String>,
+    /// Every reference behind the value, through any depth of derivation: the citations of
+    /// the declared values it rests on, sorted.
+    pub cited: Vec<String>,
     /// Where it was declared.
     pub span: Option<Span>,
     /// Share of the variance per independent input (label, fraction), largest first.
@@ -123,6 +128,7 @@ impl<'m> Derivation<'m> {
                             formula: None,
                             inputs: Vec::new(),
                             citations: d.citations.iter().map(|c| c.0.clone()).collect(),
+                            cited: sorted_ids(&d.citations),
                             span: Some(d.span),
                             budget: Vec::new(),
                             assumptions: Vec::new(),
@@ -300,7 +306,15 @@ impl<'m> Derivation<'m> {
                 )
             })
             .collect();
+        let mut cited: Vec<String> = entry
+            .deps
+            .iter()
+            .flat_map(|k| self.citations_of(*k))
+            .collect();
+        cited.sort();
+        cited.dedup();
         QuantityResult {
+            cited,
             qty: key.1,
             origin: entry.origin,
             value,
@@ -353,6 +367,38 @@ impl<'m> Derivation<'m> {
             choice: chosen.map(|c| c.choice),
             sources,
         }
+    }
+}
+
+/// The ids of `citations`, sorted and without repeats.
+fn sorted_ids(citations: &[(String, Span)]) -> Vec<String> {
+    let mut ids: Vec<String> = citations.iter().map(|c| c.0.clone()).collect();
+    ids.sort();
+    ids.dedup();
+    ids
+}
+
+impl Derivation<'_> {
+    /// The references behind a declared quantity's value: those of the source used, or of
+    /// every measurement combined.
+    fn citations_of(&self, key: Key) -> Vec<String> {
+        let Some(body) = self.sys.bodies.get(key.0) else {
+            return Vec::new();
+        };
+        let all = body.sources(key.1);
+        let used: Vec<&model::Declared> = match self.chosen.get(&key) {
+            Some(c) => match c.index {
+                Some(i) => all.get(i).copied().into_iter().collect(),
+                None => all
+                    .into_iter()
+                    .filter(|d| matches!(&d.content, Content::Measured(m) if !m.form.is_limit()))
+                    .collect(),
+            },
+            None => body.get(key.1).into_iter().collect(),
+        };
+        used.iter()
+            .flat_map(|d| d.citations.iter().map(|c| c.0.clone()))
+            .collect()
     }
 }
 
