@@ -1,6 +1,8 @@
 //! Several published values of one quantity, through the real `syz`: every declaration in
 //! the JSON `sources`, the value used and how (`choice`), under the project file's policy.
 
+#![allow(clippy::unwrap_used, clippy::indexing_slicing)]
+
 use syzygy_e2e::{root, run, scratch, stderr, stdout};
 
 fn eval_json(path: &str) -> serde_json::Value {

@@ -97,7 +97,7 @@ fn relative(m: &Measurement) -> f64 {
 /// The weighted mean of `(value, standard uncertainty)` pairs, each uncertainty positive;
 /// `None` for fewer than two.
 pub fn weighted_mean(points: &[(f64, f64)]) -> Option<WeightedMean> {
-    if points.len() < 2 || points.iter().any(|(_, s)| !(*s > 0.0)) {
+    if points.len() < 2 || points.iter().any(|(_, s)| s.is_nan() || *s <= 0.0) {
         return None;
     }
     let weights: Vec<f64> = points.iter().map(|(_, s)| 1.0 / (s * s)).collect();

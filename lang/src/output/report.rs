@@ -255,6 +255,24 @@ impl TableUnits {
     }
 }
 
+/// Every declaration of a quantity declared more than once, as people read it, marking the
+/// one used: `4.2170 ± 0.0008 d [aster]`, `4.21762 ± 0.00012 d [brenn] (used)`. Empty for a
+/// quantity declared once.
+pub fn sources_text(q: &QuantityResult) -> Vec<String> {
+    let unit = q.shown_unit();
+    q.sources
+        .iter()
+        .map(|s| {
+            format!(
+                "{} [{}]{}",
+                shown_in(s.value, s.below, s.above, s.form, unit),
+                s.citations.join(", "),
+                if s.chosen { " (used)" } else { "" }
+            )
+        })
+        .collect()
+}
+
 /// Where a value came from, in a few words.
 pub fn provenance_text(a: &Analysis, sys: usize, q: &QuantityResult) -> String {
     let cites = if q.citations.is_empty() {
@@ -330,6 +348,16 @@ pub fn eval_text(a: &Analysis, db: &dyn SourceDb) -> String {
                     "    {name:<width$}  {value}{}  {prov}\n",
                     " ".repeat(pad)
                 ));
+            }
+            for q in &r.quantities {
+                let sources = sources_text(q);
+                if !sources.is_empty() {
+                    out.push_str(&format!(
+                        "    {} sources: {}\n",
+                        quantities::def(q.qty).name,
+                        sources.join("; ")
+                    ));
+                }
             }
             if let Some(c) = a.composition.get(&(si, b.id.clone())) {
                 out.push_str(&format!("    composition: {}\n", c.text));
