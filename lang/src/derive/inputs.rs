@@ -75,9 +75,17 @@ impl<'m> Derivation<'m> {
                 };
                 let def = quantities::def(decl.qty);
                 let chosen_m;
+                // The declaration whose value is used (the first for a weighted mean).
+                let mut used = decl;
                 let (m, choice_words) = match self.choose_source(bi, decl) {
                     Some((chosen, words)) => {
                         chosen_m = chosen.measurement;
+                        if let Some(d) = chosen
+                            .index
+                            .and_then(|i| body.sources(decl.qty).get(i).copied())
+                        {
+                            used = d;
+                        }
                         (&chosen_m, Some(words))
                     }
                     None => (m, None),
@@ -97,7 +105,7 @@ impl<'m> Derivation<'m> {
                 }
                 let label = format!("{}.{}", body.id, def.name);
                 let v = self.new_input(label, m, lo, hi);
-                let origin = if decl.assumed {
+                let origin = if used.assumed {
                     Origin::Assumed
                 } else {
                     Origin::Declared
@@ -106,7 +114,7 @@ impl<'m> Derivation<'m> {
                 if let Some(words) = choice_words {
                     assumptions.insert(Arc::from(words));
                 }
-                if decl.assumed {
+                if used.assumed {
                     assumptions.insert(Arc::from(format!(
                         "{}.{} = {} (assumed)",
                         body.id,
@@ -115,7 +123,7 @@ impl<'m> Derivation<'m> {
                     )));
                 }
                 if decl.qty == Qty::TransitEpoch {
-                    for a in epoch_assumptions(decl) {
+                    for a in epoch_assumptions(used) {
                         assumptions.insert(Arc::from(a));
                     }
                 }

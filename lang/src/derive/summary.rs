@@ -360,7 +360,8 @@ impl<'m> Derivation<'m> {
             notes,
             unit: (key.1 == Qty::TransitEpoch)
                 .then(|| {
-                    decl.and_then(|d| d.written_unit.clone())
+                    used.or(decl)
+                        .and_then(|d| d.written_unit.clone())
                         .filter(|u| crate::time::system_of_unit(u).is_some())
                 })
                 .flatten(),

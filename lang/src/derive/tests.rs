@@ -786,3 +786,14 @@ fn sources_disagree_fires_on_inconsistent_declarations_and_not_on_consistent_one
     );
     assert!(rules((&p("10.000 ± 0.001 d"), "period < 10.01 d")).is_empty());
 }
+
+#[test]
+fn the_source_used_decides_whether_the_value_is_assumed() {
+    let src = TWO_PERIODS.replace("[followup]", "[followup] assumed preferred");
+    let p = get(&run(&src, &Options::linear()), "b", Qty::Period).unwrap();
+    assert_eq!(p.origin, Origin::Assumed);
+    let src = TWO_PERIODS.replace("[disc]", "[disc] assumed");
+    let p = get(&run(&src, &Options::linear()), "b", Qty::Period).unwrap();
+    // The most precise source is used, and it is measured.
+    assert_eq!(p.origin, Origin::Declared);
+}
