@@ -240,8 +240,8 @@ impl<'m> Derivation<'m> {
         Some((chosen, words))
     }
 
-    /// `sources-disagree` for every pair of declarations of one quantity further apart
-    /// than the consistency threshold.
+    /// `sources-disagree` for each declaration of one quantity further than the consistency
+    /// threshold from an earlier one (reported once, against the first such).
     fn sources_disagree(&mut self, body: &model::Body, all: &[&model::Declared]) {
         let shown = |d: &model::Declared| {
             let Content::Measured(m) = &d.content else {
@@ -293,6 +293,9 @@ impl<'m> Derivation<'m> {
                     ))
                     .with_help("check both papers: one may use another definition, epoch or unit; mark the value to use with `preferred`"),
                 );
+                // One finding per declaration (against the first earlier one it disagrees
+                // with), so that many sources cannot make a quadratic number of diagnostics.
+                break;
             }
         }
     }

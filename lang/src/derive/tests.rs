@@ -785,6 +785,20 @@ fn sources_disagree_fires_on_inconsistent_declarations_and_not_on_consistent_one
         "{found:?}"
     );
     assert!(rules((&p("10.000 ± 0.001 d"), "period < 10.01 d")).is_empty());
+    // A third source far from both is reported once, against the first.
+    let three = TWO_PERIODS
+        .replace("period = 10.0021 ± 0.0002 d", "period = 10.0005 ± 0.0002 d")
+        .replace(" }\n}", "  period = 10.5 ± 0.001 d [disc, followup]\n }\n}");
+    let d: Vec<_> = run(&three, &Options::linear())
+        .diagnostics
+        .into_iter()
+        .filter(|d| d.rule == crate::diagnostic::Rule::SourcesDisagree)
+        .collect();
+    assert_eq!(d.len(), 1, "{d:?}");
+    assert!(
+        d[0].labels[0].message.contains("[disc] declared here"),
+        "{d:?}"
+    );
 }
 
 #[test]
