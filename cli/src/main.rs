@@ -157,6 +157,7 @@ impl EngineArgs {
             seed: self.seed,
             consistency_sigma: self.sigma,
             consistency_error_sigma: self.error_sigma,
+            source_choice: None,
             overrides: self.overrides(),
         }
     }

@@ -53,7 +53,7 @@ The first element is looked up on `exec-path' unless it is a full path."
   "Face for citation and reference ids." :group 'syzygy)
 
 (defconst syzygy-keywords
-  '("system" "star" "planet" "orbits" "ref" "let" "assumed")
+  '("system" "star" "planet" "orbits" "ref" "let" "assumed" "preferred")
   "Keywords of the language.")
 
 (defconst syzygy-quantity-names

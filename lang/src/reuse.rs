@@ -266,13 +266,19 @@ impl Spans for QuantityResult {
             formula: _,
             inputs: _,
             citations: _,
+            cited: _,
             span,
             budget: _,
             assumptions: _,
             notes: _,
             unit: _,
+            sources,
+            choice: _,
         } = self;
         span.each_span(f);
+        for s in sources {
+            f(&mut s.span);
+        }
     }
 }
 
@@ -303,12 +309,14 @@ impl Spans for Body {
             orbits: _,
             orbits_span,
             declared,
+            further,
             lets,
         } = self;
         f(name_span);
         f(span);
         orbits_span.each_span(f);
         declared.each_span(f);
+        further.each_span(f);
         lets.each_span(f);
     }
 }
@@ -322,6 +330,7 @@ impl Spans for Declared {
             value_span,
             content,
             assumed: _,
+            preferred: _,
             citations,
             written_unit: _,
             timestamp: _,

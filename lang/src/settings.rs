@@ -20,9 +20,12 @@
 //! seed = 7
 //! consistency_sigma = 3.0
 //! consistency_error_sigma = 5.0  # inconsistent past this is an error
+//!
+//! [sources]
+//! choice = "most-precise"       # most-precise | last | weighted-mean
 //! ```
 
-use crate::derive::{Options, Propagation};
+use crate::derive::{Options, Propagation, SourceChoice};
 use crate::diagnostic::{Diagnostic, Rule, Severity, SeverityOverride};
 use crate::source::{FileId, Span};
 use serde::Deserialize;
@@ -38,6 +41,14 @@ struct Raw {
     rules: BTreeMap<String, String>,
     #[serde(default)]
     derivation: RawDerivation,
+    #[serde(default)]
+    sources: RawSources,
+}
+
+#[derive(Debug, Clone, Default, PartialEq, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawSources {
+    choice: Option<String>,
 }
 
 #[derive(Debug, Clone, Default, PartialEq, Deserialize)]
@@ -61,6 +72,8 @@ pub struct Layer {
     pub seed: Option<u64>,
     pub consistency_sigma: Option<f64>,
     pub consistency_error_sigma: Option<f64>,
+    /// Which of several declarations of one quantity derivations use (`[sources] choice`).
+    pub source_choice: Option<SourceChoice>,
 }
 
 impl Layer {
@@ -131,8 +144,17 @@ fn parse(text: &str) -> Result<Layer, String> {
             }
         }
     }
+    let source_choice = match raw.sources.choice.as_deref() {
+        None => None,
+        Some(name) => Some(SourceChoice::parse(name).ok_or_else(|| {
+            format!(
+                "[sources]: choice = \"{name}\": expected \"most-precise\", \"last\" or \"weighted-mean\""
+            )
+        })?),
+    };
     Ok(Layer {
         overrides,
+        source_choice,
         propagation,
         samples,
         seed: d.seed,
@@ -193,6 +215,9 @@ impl Settings {
         }
         if let Some(s) = layer.consistency_error_sigma {
             o.consistency_error_sigma = s;
+        }
+        if let Some(c) = layer.source_choice {
+            o.source_choice = c;
         }
         self.overrides.extend(layer.overrides.iter().copied());
         self

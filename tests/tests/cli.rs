@@ -99,7 +99,7 @@ fn eval_json_follows_the_contract_and_is_reproducible() {
     assert!(a.status.success(), "{}", stderr(&a));
     assert_eq!(a.stdout, b.stdout, "byte-identical JSON on two runs");
     let v: serde_json::Value = serde_json::from_str(&stdout(&a)).unwrap();
-    assert_eq!(v["version"], 1);
+    assert_eq!(v["version"], syzygy::report::JSON_VERSION);
     let sys = &v["systems"][0];
     assert_eq!(sys["name"], "Veyra");
     let planet = sys["bodies"]

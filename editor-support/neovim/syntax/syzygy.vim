@@ -37,7 +37,7 @@ syn match syzygyAllow /\%(#\s*\)\@<=allow\s*(\s*[A-Za-z0-9_-]\+\s*)/ contained
 syn region syzygyString start=/"/ skip=/\\./ end=/"\|$/ oneline contains=syzygyEscape
 syn match syzygyEscape /\\./ contained
 
-syn keyword syzygyKeyword system star planet orbits ref let assumed
+syn keyword syzygyKeyword system star planet orbits ref let assumed preferred
 
 " Names declared after a keyword.
 exe 'syn match syzygyStarName /\%(\<star\s\+\)\@<=' . s:ident . '/'
@@ -64,7 +64,7 @@ exe 'syn match syzygyUncertainty /\%(\%(\d\s*\)\@<=+\s*' . s:num . '\s*\)\@<=\/\
 syn match syzygyLimit /[<>]/
 
 " A unit follows a number (or its uncertainty): `Msun`, `m/s`, `km s^-1`, `g/cm^3`, `%`.
-let s:factor = '\%(\%(\<\%(assumed\|system\|star\|planet\|orbits\|ref\|let\)\>\)\@!' . s:ident . '\|%\)\%(\s*\^\s*[-−]\=\s*\d\+\)\='
+let s:factor = '\%(\%(\<\%(assumed\|preferred\|system\|star\|planet\|orbits\|ref\|let\)\>\)\@!' . s:ident . '\|%\)\%(\s*\^\s*[-−]\=\s*\d\+\)\='
 exe 'syn match syzygyUnit /\%(\d\s*\)\@<=' . s:factor . '\%(\s*\/\s*' . s:factor . '\|\s\+' . s:factor . '\)*/ contains=syzygyUnitOperator'
 syn match syzygyUnitOperator /[\/^]\|[-−]\=\d\+/ contained
 

@@ -74,6 +74,22 @@ impl<'m> Derivation<'m> {
                     continue;
                 };
                 let def = quantities::def(decl.qty);
+                let chosen_m;
+                // The declaration whose value is used (the first for a weighted mean).
+                let mut used = decl;
+                let (m, choice_words) = match self.choose_source(bi, decl) {
+                    Some((chosen, words)) => {
+                        chosen_m = chosen.measurement;
+                        if let Some(d) = chosen
+                            .index
+                            .and_then(|i| body.sources(decl.qty).get(i).copied())
+                        {
+                            used = d;
+                        }
+                        (&chosen_m, Some(words))
+                    }
+                    None => (m, None),
+                };
                 let (lo, hi) = def.limits();
                 let usable = match m.form {
                     Form::UpperLimit => lo.is_finite(),
@@ -89,13 +105,16 @@ impl<'m> Derivation<'m> {
                 }
                 let label = format!("{}.{}", body.id, def.name);
                 let v = self.new_input(label, m, lo, hi);
-                let origin = if decl.assumed {
+                let origin = if used.assumed {
                     Origin::Assumed
                 } else {
                     Origin::Declared
                 };
                 let mut assumptions: SortedSet<Arc<str>> = SortedSet::new();
-                if decl.assumed {
+                if let Some(words) = choice_words {
+                    assumptions.insert(Arc::from(words));
+                }
+                if used.assumed {
                     assumptions.insert(Arc::from(format!(
                         "{}.{} = {} (assumed)",
                         body.id,
@@ -104,7 +123,7 @@ impl<'m> Derivation<'m> {
                     )));
                 }
                 if decl.qty == Qty::TransitEpoch {
-                    for a in epoch_assumptions(decl) {
+                    for a in epoch_assumptions(used) {
                         assumptions.insert(Arc::from(a));
                     }
                 }
@@ -186,6 +205,98 @@ impl<'m> Derivation<'m> {
                         );
                     }
                 }
+            }
+        }
+    }
+
+    /// For a quantity declared several times: the value used (recorded in `chosen`) and the
+    /// sentence that says which and how. `None` for a quantity declared once.
+    fn choose_source(
+        &mut self,
+        bi: usize,
+        first: &model::Declared,
+    ) -> Option<(sources::Chosen, String)> {
+        let body = self.sys.bodies.get(bi)?;
+        let all = body.sources(first.qty);
+        if all.len() < 2 {
+            return None;
+        }
+        let measurements: Vec<Measurement> = all
+            .iter()
+            .filter_map(|d| match &d.content {
+                Content::Measured(m) => Some(*m),
+                _ => None,
+            })
+            .collect();
+        self.sources_disagree(body, &all);
+        let marked = all.iter().position(|d| d.preferred);
+        let chosen = sources::choose(&measurements, marked, self.options.source_choice)?;
+        let cites: Vec<Vec<String>> = all
+            .iter()
+            .map(|d| d.citations.iter().map(|c| c.0.clone()).collect())
+            .collect();
+        let name = format!("{}.{}", body.id, quantities::def(first.qty).name);
+        let words = sources::words(&name, &cites, &chosen);
+        self.chosen.insert((bi, first.qty), chosen.clone());
+        Some((chosen, words))
+    }
+
+    /// `sources-disagree` for each declaration of one quantity further than the consistency
+    /// threshold from an earlier one (reported once, against the first such).
+    fn sources_disagree(&mut self, body: &model::Body, all: &[&model::Declared]) {
+        let shown = |d: &model::Declared| {
+            let Content::Measured(m) = &d.content else {
+                return None;
+            };
+            let unit = display_unit(d.qty, m.value);
+            let f = unit.factor;
+            let value = match m.form {
+                Form::UpperLimit => format!("< {}", crate::format::number(m.value / f)),
+                Form::LowerLimit => format!("> {}", crate::format::number(m.value / f)),
+                _ => crate::format::with_uncertainty(m.value / f, m.below / f, m.above / f),
+            };
+            let cites: Vec<&str> = d.citations.iter().map(|c| c.0.as_str()).collect();
+            Some((
+                *m,
+                format!("{value} {} [{}]", unit.suffix(), cites.join(", ")),
+            ))
+        };
+        let k = self.options.consistency_sigma;
+        for (j, later) in all.iter().enumerate() {
+            for earlier in all.iter().take(j) {
+                let (Some((a, wa)), Some((b, wb))) = (shown(earlier), shown(later)) else {
+                    continue;
+                };
+                let Some(z) = sources::separation(&a, &b).filter(|z| *z > k) else {
+                    continue;
+                };
+                let name = format!("{}.{}", body.id, quantities::def(later.qty).name);
+                let apart = if z.is_finite() && (a.form.is_limit() || b.form.is_limit()) {
+                    format!(
+                        "disagree: the measurement lies {z:.1} standard deviations past the limit"
+                    )
+                } else if z.is_finite() {
+                    format!("differ by {z:.1} combined standard deviations")
+                } else if a.form.is_limit() && b.form.is_limit() {
+                    "exclude each other".to_string()
+                } else {
+                    "differ, and neither gives an uncertainty".to_string()
+                };
+                self.diagnostics.push(
+                    Diagnostic::new(
+                        Rule::SourcesDisagree,
+                        later.span,
+                        format!("two sources of {name}: {wa} and {wb} {apart}"),
+                    )
+                    .with_label(earlier.span, format!("{wa} declared here"))
+                    .with_note(format!(
+                        "the threshold is {k} combined standard deviations (consistency_sigma); a measurement is compared with a limit by how far it lies past the limit, in its own uncertainty"
+                    ))
+                    .with_help("check both papers: one may use another definition, epoch or unit; mark the value to use with `preferred`"),
+                );
+                // One finding per declaration (against the first earlier one it disagrees
+                // with), so that many sources cannot make a quadratic number of diagnostics.
+                break;
             }
         }
     }

@@ -19,6 +19,7 @@ mod inputs;
 mod rounds;
 pub mod rules;
 mod set;
+pub mod sources;
 mod summary;
 pub mod validity;
 pub mod value;
@@ -31,10 +32,11 @@ use crate::source::Span;
 use rules::{RuleDef, Slot, RULES};
 use rustc_hash::{FxHashMap, FxHashSet};
 use set::SortedSet;
+pub use sources::{Choice, SourceChoice};
 use std::collections::BTreeMap;
 use std::sync::Arc;
 pub use summary::{
-    display_unit, Alternative, BodyResult, DisplayUnit, QuantityResult, SystemResult,
+    display_unit, Alternative, BodyResult, DisplayUnit, QuantityResult, SourceResult, SystemResult,
 };
 pub use value::{InputInfo, Value};
 
@@ -55,6 +57,9 @@ pub struct Options {
     pub consistency_sigma: f64,
     /// Past this many combined standard deviations an `inconsistent` finding is an error.
     pub consistency_error_sigma: f64,
+    /// Which of several declarations of one quantity feeds the derivations when none is
+    /// marked `preferred`.
+    pub source_choice: SourceChoice,
 }
 
 impl Default for Options {
@@ -65,6 +70,7 @@ impl Default for Options {
             seed: 0x5359_5a59,
             consistency_sigma: 3.0,
             consistency_error_sigma: 5.0,
+            source_choice: SourceChoice::MostPrecise,
         }
     }
 }
@@ -145,6 +151,8 @@ pub struct Derivation<'m> {
     /// How many unfinished expressions use each binding (see [`expr::binding_uses`]).
     binding_uses: FxHashMap<crate::model::LetId, usize>,
     used: FxHashSet<Key>,
+    /// For each quantity declared several times: the value used and how it was reached.
+    chosen: FxHashMap<Key, sources::Chosen>,
     pub diagnostics: Vec<Diagnostic>,
     /// Set when the system is so large that Monte Carlo drew fewer samples than asked, to
     /// bound memory: the sentence every value of the system then carries.
@@ -197,6 +205,7 @@ impl<'m> Derivation<'m> {
             bindings: FxHashMap::default(),
             binding_uses: expr::binding_uses(sys),
             used: FxHashSet::default(),
+            chosen: FxHashMap::default(),
             diagnostics: Vec::new(),
             fewer_samples,
             sampled: None,

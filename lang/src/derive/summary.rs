@@ -17,7 +17,12 @@ pub struct QuantityResult {
     pub rule: Option<&'static str>,
     pub formula: Option<&'static str>,
     pub inputs: Vec<Key>,
+    /// The references cited on the declaration whose value is used (all the measurements
+    /// combined, for a weighted mean).
     pub citations: Vec<String>,
+    /// Every reference behind the value, through any depth of derivation: the citations of
+    /// the declared values it rests on, sorted.
+    pub cited: Vec<String>,
     /// Where it was declared.
     pub span: Option<Span>,
     /// Share of the variance per independent input (label, fraction), largest first.
@@ -28,6 +33,24 @@ pub struct QuantityResult {
     /// The unit the value is shown in when it is not the quantity's usual one: a transit
     /// epoch keeps the Julian-date time system it was declared in.
     pub unit: Option<String>,
+    /// For a quantity declared more than once: every declaration, in file order.
+    pub sources: Vec<SourceResult>,
+    /// For a quantity declared more than once: how the value used was reached.
+    pub choice: Option<Choice>,
+}
+
+/// One of several declarations of a quantity, as reported.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SourceResult {
+    /// SI value and uncertainty below and above.
+    pub value: f64,
+    pub below: f64,
+    pub above: f64,
+    pub form: Form,
+    pub citations: Vec<String>,
+    pub span: Span,
+    /// Whether this declaration is the value used (false for all when they were combined).
+    pub chosen: bool,
 }
 
 impl QuantityResult {
@@ -105,11 +128,14 @@ impl<'m> Derivation<'m> {
                             formula: None,
                             inputs: Vec::new(),
                             citations: d.citations.iter().map(|c| c.0.clone()).collect(),
+                            cited: sorted_ids(&d.citations),
                             span: Some(d.span),
                             budget: Vec::new(),
                             assumptions: Vec::new(),
                             notes: Vec::new(),
                             unit: None,
+                            sources: Vec::new(),
+                            choice: None,
                         });
                         continue;
                     }
@@ -183,8 +209,40 @@ impl<'m> Derivation<'m> {
         let rule = entry.rule.and_then(|r| RULES.get(r));
         let mut notes = Vec::new();
         let mut sampled = None;
-        let (value, below, above, form) = match decl.map(|d| &d.content) {
-            Some(Content::Measured(m)) => (m.value, m.below, m.above, m.form),
+        let chosen = self.chosen.get(&key);
+        let all = match (decl, chosen) {
+            (Some(d), Some(_)) => self.sys.bodies.get(key.0).map(|b| b.sources(d.qty)),
+            _ => None,
+        }
+        .unwrap_or_default();
+        // The declaration whose value is used: the chosen source, else the one declared.
+        let used = match chosen.map(|c| c.index) {
+            Some(Some(i)) => all.get(i).copied(),
+            Some(None) => None,
+            None => decl,
+        };
+        let sources: Vec<SourceResult> = all
+            .iter()
+            .enumerate()
+            .filter_map(|(i, d)| match &d.content {
+                Content::Measured(m) => Some(SourceResult {
+                    value: m.value,
+                    below: m.below,
+                    above: m.above,
+                    form: m.form,
+                    citations: d.citations.iter().map(|c| c.0.clone()).collect(),
+                    span: d.span,
+                    chosen: chosen.is_some_and(|c| c.index == Some(i)),
+                }),
+                _ => None,
+            })
+            .collect();
+        let (value, below, above, form) = match (chosen, decl.map(|d| &d.content)) {
+            (Some(c), _) => {
+                let m = c.measurement;
+                (m.value, m.below, m.above, m.form)
+            }
+            (None, Some(Content::Measured(m))) => (m.value, m.below, m.above, m.form),
             _ => {
                 let (lo, hi) = entry.value.linear_spread(&self.inputs);
                 match (self.options.propagation, entry.value.sample_summary()) {
@@ -248,7 +306,15 @@ impl<'m> Derivation<'m> {
                 )
             })
             .collect();
+        let mut cited: Vec<String> = entry
+            .deps
+            .iter()
+            .flat_map(|k| self.citations_of(*k))
+            .collect();
+        cited.sort();
+        cited.dedup();
         QuantityResult {
+            cited,
             qty: key.1,
             origin: entry.origin,
             value,
@@ -263,10 +329,22 @@ impl<'m> Derivation<'m> {
             }),
             formula: rule.map(|r| r.formula),
             inputs: entry.inputs.clone(),
-            citations: decl
-                .map(|d| d.citations.iter().map(|c| c.0.clone()).collect())
-                .unwrap_or_default(),
-            span: decl.map(|d| d.span),
+            citations: match (used, chosen) {
+                (Some(d), _) => d.citations.iter().map(|c| c.0.clone()).collect(),
+                // A combination rests on every measurement combined.
+                (None, Some(_)) => {
+                    let mut all: Vec<String> = sources
+                        .iter()
+                        .filter(|s| !s.form.is_limit())
+                        .flat_map(|s| s.citations.iter().cloned())
+                        .collect();
+                    all.sort();
+                    all.dedup();
+                    all
+                }
+                (None, None) => Vec::new(),
+            },
+            span: used.or(decl).map(|d| d.span),
             budget,
             assumptions: entry
                 .assumptions
@@ -282,11 +360,46 @@ impl<'m> Derivation<'m> {
             notes,
             unit: (key.1 == Qty::TransitEpoch)
                 .then(|| {
-                    decl.and_then(|d| d.written_unit.clone())
+                    used.or(decl)
+                        .and_then(|d| d.written_unit.clone())
                         .filter(|u| crate::time::system_of_unit(u).is_some())
                 })
                 .flatten(),
+            choice: chosen.map(|c| c.choice),
+            sources,
         }
+    }
+}
+
+/// The ids of `citations`, sorted and without repeats.
+fn sorted_ids(citations: &[(String, Span)]) -> Vec<String> {
+    let mut ids: Vec<String> = citations.iter().map(|c| c.0.clone()).collect();
+    ids.sort();
+    ids.dedup();
+    ids
+}
+
+impl Derivation<'_> {
+    /// The references behind a declared quantity's value: those of the source used, or of
+    /// every measurement combined.
+    fn citations_of(&self, key: Key) -> Vec<String> {
+        let Some(body) = self.sys.bodies.get(key.0) else {
+            return Vec::new();
+        };
+        let all = body.sources(key.1);
+        let used: Vec<&model::Declared> = match self.chosen.get(&key) {
+            Some(c) => match c.index {
+                Some(i) => all.get(i).copied().into_iter().collect(),
+                None => all
+                    .into_iter()
+                    .filter(|d| matches!(&d.content, Content::Measured(m) if !m.form.is_limit()))
+                    .collect(),
+            },
+            None => body.get(key.1).into_iter().collect(),
+        };
+        used.iter()
+            .flat_map(|d| d.citations.iter().map(|c| c.0.clone()))
+            .collect()
     }
 }
 

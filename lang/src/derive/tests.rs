@@ -673,3 +673,141 @@ fn a_derived_full_duration_longer_than_the_declared_total_one_is_reported() {
         "{found:#?}"
     );
 }
+
+const TWO_PERIODS: &str = "ref disc \"Invented A\"\nref followup \"Invented B\"\nsystem \"S\" {\n star s { mass = 1 ± 0.05 Msun }\n planet b orbits s {\n  period = 10.000 ± 0.001 d [disc]\n  period = 10.0021 ± 0.0002 d [followup]\n  mass = 5 ± 1 Mearth\n }\n}";
+
+#[test]
+fn the_chosen_source_feeds_the_derivations_and_says_so() {
+    let day = 86_400.0;
+    for (choice, want, sentence) in [
+        (
+            crate::derive::SourceChoice::MostPrecise,
+            10.0021,
+            "chosen: the most precise",
+        ),
+        (
+            crate::derive::SourceChoice::Last,
+            10.0021,
+            "chosen: the last measurement",
+        ),
+    ] {
+        let a = run(
+            TWO_PERIODS,
+            &Options {
+                source_choice: choice,
+                ..Options::linear()
+            },
+        );
+        let p = get(&a, "b", Qty::Period).unwrap();
+        assert!((p.value / day - want).abs() < 1e-9, "{choice:?}: {p:?}");
+        assert!(
+            p.assumptions.iter().any(|s| s.contains(sentence)),
+            "{:?}",
+            p.assumptions
+        );
+        assert_eq!(p.sources.len(), 2);
+        assert!(p.sources[1].chosen && !p.sources[0].chosen);
+        // The semi-major axis rests on the value used, and says so.
+        let a_ = get(&a, "b", Qty::SemiMajorAxis).unwrap();
+        assert!(
+            a_.assumptions.iter().any(|s| s.contains(sentence)),
+            "{:?}",
+            a_.assumptions
+        );
+    }
+    let marked = TWO_PERIODS.replace("[disc]", "[disc] preferred");
+    let a = run(&marked, &Options::linear());
+    let p = get(&a, "b", Qty::Period).unwrap();
+    assert!((p.value / day - 10.0).abs() < 1e-9, "{p:?}");
+    assert_eq!(p.choice, Some(crate::derive::Choice::Marked));
+    assert_eq!(p.citations, ["disc"]);
+}
+
+#[test]
+fn a_weighted_mean_is_used_as_a_combination_of_all_measurements() {
+    let a = run(
+        TWO_PERIODS,
+        &Options {
+            source_choice: crate::derive::SourceChoice::WeightedMean,
+            ..Options::linear()
+        },
+    );
+    let p = get(&a, "b", Qty::Period).unwrap();
+    // Weights 1e6 and 25e6 (per day^2): (10.000 + 25 * 10.0021) / 26 = 10.00201923 d;
+    // sigma = 1/sqrt(26e6) = 1.961e-4 d; chi2 = 4.2404, Birge ratio 2.0592 > 1.
+    let day = 86_400.0;
+    assert!((p.value / day - 10.002_019_23).abs() < 1e-8, "{p:?}");
+    let scaled = (1.0 / 26e6f64).sqrt() * (0.0021f64.powi(2) * 1e6 * 25.0 / 26.0).sqrt();
+    assert!((p.below / day - scaled).abs() < 1e-9, "{p:?}");
+    assert!(p.sources.iter().all(|s| !s.chosen));
+    assert_eq!(p.citations, ["disc", "followup"]);
+    assert!(
+        p.assumptions
+            .iter()
+            .any(|s| s.contains("Birge ratio 2.059")),
+        "{:?}",
+        p.assumptions
+    );
+}
+
+#[test]
+fn sources_disagree_fires_on_inconsistent_declarations_and_not_on_consistent_ones() {
+    let rules = |periods: (&str, &str)| -> Vec<String> {
+        let src = TWO_PERIODS
+            .replace("period = 10.000 ± 0.001 d", periods.0)
+            .replace("period = 10.0021 ± 0.0002 d", periods.1);
+        run(&src, &Options::linear())
+            .diagnostics
+            .iter()
+            .filter(|d| d.rule == crate::diagnostic::Rule::SourcesDisagree)
+            .map(|d| d.message.clone())
+            .collect::<Vec<_>>()
+    };
+    // 0.0021 / sqrt(0.001^2 + 0.0002^2) = 2.06 combined sigma: under the threshold of 3.
+    let p = |s: &str| format!("period = {s}");
+    assert!(rules((&p("10.000 ± 0.001 d"), &p("10.0021 ± 0.0002 d"))).is_empty());
+    // 0.009 / sqrt(0.001^2 + 0.0004^2) = 8.4.
+    let found = rules((&p("10.000 ± 0.001 d"), &p("10.009 ± 0.0004 d")));
+    assert_eq!(found.len(), 1, "{found:?}");
+    assert!(
+        found[0].contains("[disc]") && found[0].contains("[followup]"),
+        "{found:?}"
+    );
+    assert!(
+        found[0].contains("8.4 combined standard deviations"),
+        "{found:?}"
+    );
+    // A measurement beyond another source's limit.
+    let found = rules((&p("10.000 ± 0.001 d"), "period < 9.99 d"));
+    assert_eq!(found.len(), 1, "{found:?}");
+    assert!(
+        found[0].contains("10.0 standard deviations past the limit"),
+        "{found:?}"
+    );
+    assert!(rules((&p("10.000 ± 0.001 d"), "period < 10.01 d")).is_empty());
+    // A third source far from both is reported once, against the first.
+    let three = TWO_PERIODS
+        .replace("period = 10.0021 ± 0.0002 d", "period = 10.0005 ± 0.0002 d")
+        .replace(" }\n}", "  period = 10.5 ± 0.001 d [disc, followup]\n }\n}");
+    let d: Vec<_> = run(&three, &Options::linear())
+        .diagnostics
+        .into_iter()
+        .filter(|d| d.rule == crate::diagnostic::Rule::SourcesDisagree)
+        .collect();
+    assert_eq!(d.len(), 1, "{d:?}");
+    assert!(
+        d[0].labels[0].message.contains("[disc] declared here"),
+        "{d:?}"
+    );
+}
+
+#[test]
+fn the_source_used_decides_whether_the_value_is_assumed() {
+    let src = TWO_PERIODS.replace("[followup]", "[followup] assumed preferred");
+    let p = get(&run(&src, &Options::linear()), "b", Qty::Period).unwrap();
+    assert_eq!(p.origin, Origin::Assumed);
+    let src = TWO_PERIODS.replace("[disc]", "[disc] assumed");
+    let p = get(&run(&src, &Options::linear()), "b", Qty::Period).unwrap();
+    // The most precise source is used, and it is measured.
+    assert_eq!(p.origin, Origin::Declared);
+}

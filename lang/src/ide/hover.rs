@@ -176,6 +176,13 @@ pub fn quantity(a: &Analysis, si: usize, body: &str, qty: Qty, method: &Method) 
     if let Some(f) = q.formula {
         out.push_str(&format!("- formula: `{f}`\n"));
     }
+    let sources = crate::report::sources_text(q);
+    if !sources.is_empty() {
+        out.push_str(&format!("- {} sources:\n", sources.len()));
+        for s in sources {
+            out.push_str(&format!("  - `{s}`\n"));
+        }
+    }
     if let Some(alt) = alternative {
         let inputs: Vec<String> = alt.inputs.iter().map(|k| a.key_name(si, *k)).collect();
         out.push_str(&format!(
@@ -304,6 +311,20 @@ mod tests {
         hover(&a, &occ, off, method)
             .map(|h| h.0)
             .unwrap_or_default()
+    }
+
+    #[test]
+    fn hover_on_any_declaration_of_a_quantity_shows_every_source_and_the_one_used() {
+        let src = "ref disc \"Invented A\"\nref followup \"Invented B\"\nsystem \"S\" {\n star s { mass = 1 ± 0.05 Msun }\n planet b orbits s {\n  period = 10.000 ± 0.001 d [disc]\n  period = 10.0021 ± 0.0002 d [followup]\n }\n}";
+        let a = crate::analyze(FileId(0), src, &crate::Settings::linear());
+        let occ = symbols::occurrences(&a.ast);
+        for (off, _) in src.match_indices("period") {
+            let h = hover(&a, &occ, off, &Method::default()).unwrap().0;
+            assert!(h.contains("- 2 sources:"), "{h}");
+            assert!(h.contains("`10.0000 ± 0.0010 d [disc]`"), "{h}");
+            assert!(h.contains("[followup] (used)`"), "{h}");
+            assert!(h.contains("chosen: the most precise"), "{h}");
+        }
     }
 
     #[test]

@@ -173,7 +173,8 @@ pub fn token_classes(src: &str, occ: &[Occurrence]) -> Vec<(Span, TokenClass)> {
             | Tok::Orbits
             | Tok::Ref
             | Tok::Let
-            | Tok::Assumed => Some(TokenClass::Keyword),
+            | Tok::Assumed
+            | Tok::Preferred => Some(TokenClass::Keyword),
             Tok::Eq
             | Tok::Lt
             | Tok::Gt

@@ -71,6 +71,8 @@ pub struct Declared {
     pub value_span: Span,
     pub content: Content,
     pub assumed: bool,
+    /// Marked `preferred`: of several declarations of the quantity, the one derivations use.
+    pub preferred: bool,
     pub citations: Vec<(String, Span)>,
     /// The unit as written, when the value is a literal with a unit (`JD_UTC` for a
     /// transit epoch written as an ISO 8601 timestamp).
@@ -98,13 +100,29 @@ pub struct Body {
     /// Index of the host star in the system's bodies.
     pub orbits: Option<usize>,
     pub orbits_span: Option<Span>,
+    /// The first declaration of each quantity (the first one that could be read).
     pub declared: Vec<Declared>,
+    /// Further declarations of quantities in `declared`, each citing its own source
+    /// (several published values of one quantity), in file order.
+    pub further: Vec<Declared>,
     pub lets: Vec<LetInfo>,
 }
 
 impl Body {
     pub fn get(&self, qty: Qty) -> Option<&Declared> {
         self.declared.iter().find(|d| d.qty == qty)
+    }
+
+    /// Every declaration of `qty`, in file order: one, or several published values.
+    pub fn sources(&self, qty: Qty) -> Vec<&Declared> {
+        let mut all: Vec<&Declared> = self
+            .declared
+            .iter()
+            .chain(&self.further)
+            .filter(|d| d.qty == qty)
+            .collect();
+        all.sort_by_key(|d| d.span.start);
+        all
     }
 }
 
@@ -303,6 +321,7 @@ fn lower_system(s: &ast::SystemDecl, refs: &[RefInfo], diags: &mut Vec<Diagnosti
             orbits: None,
             orbits_span: b.orbits.as_ref().map(|o| o.span),
             declared: Vec::new(),
+            further: Vec::new(),
             lets,
         });
     }
@@ -313,7 +332,7 @@ fn lower_system(s: &ast::SystemDecl, refs: &[RefInfo], diags: &mut Vec<Diagnosti
         Some(b) => body_let_syntax.get(b)?.get(id.index).copied(),
     };
     let bindings = resolver.bindings(&syntax, diags);
-    let lowered: Vec<(Option<usize>, Vec<Declared>)> = body_syntax
+    let lowered: Vec<(Option<usize>, Props)> = body_syntax
         .iter()
         .enumerate()
         .map(|(bi, b)| {
@@ -322,9 +341,10 @@ fn lower_system(s: &ast::SystemDecl, refs: &[RefInfo], diags: &mut Vec<Diagnosti
         })
         .collect();
     drop(resolver);
-    for (body, (orbits, declared)) in sys.bodies.iter_mut().zip(lowered) {
+    for (body, (orbits, props)) in sys.bodies.iter_mut().zip(lowered) {
         body.orbits = orbits;
-        body.declared = declared;
+        body.declared = props.first;
+        body.further = props.further;
     }
     for (id, value, dim) in bindings.resolved {
         let slot = match id.body {
@@ -407,34 +427,66 @@ fn lower_lets<'a>(
     (out, syntax)
 }
 
+/// A body's declarations: the first of each quantity, and further sources of them.
+struct Props {
+    first: Vec<Declared>,
+    further: Vec<Declared>,
+}
+
+/// The citation ids written on a property, sorted: what tells two sources apart.
+fn cited(p: &ast::Prop) -> Vec<&str> {
+    let mut ids: Vec<&str> = p.citations.iter().map(|c| c.name.as_str()).collect();
+    ids.sort_unstable();
+    ids.dedup();
+    ids
+}
+
 fn lower_props(
     b: &ast::BodyDecl,
     bi: usize,
     refs: &[RefInfo],
     resolver: &resolve::Resolver,
     diags: &mut Vec<Diagnostic>,
-) -> Vec<Declared> {
+) -> Props {
     let mut out: Vec<Declared> = Vec::new();
-    // Every quantity written, even one whose value was refused: a second declaration is a
-    // duplicate whether or not the first could be read.
-    let mut seen: FxHashMap<Qty, Span> = FxHashMap::default();
+    let mut further: Vec<Declared> = Vec::new();
+    // Every quantity written, even one whose value was refused, with its citations: a
+    // repeat that cites nothing, or the same sources as an earlier one, is a duplicate
+    // whether or not the first could be read.
+    let mut seen: FxHashMap<Qty, Vec<(Span, Vec<&str>)>> = FxHashMap::default();
     for p in &b.props {
         let Some(def) = quantities::find(b.kind, &p.name.name) else {
             diags.push(value::unknown_quantity(b.kind, &p.name));
             continue;
         };
+        let cites = cited(p);
         if let Some(prev) = seen.get(&def.qty) {
-            diags.push(
-                Diagnostic::new(
-                    Rule::Duplicate,
-                    p.name.span,
-                    format!("'{}' of '{}' is declared twice", def.name, b.name.name),
-                )
-                .with_label(*prev, "first declared here"),
-            );
-            continue;
+            let same = prev.iter().find(|(_, c)| *c == cites);
+            if cites.is_empty() || same.is_some() {
+                let (at, words) = match same {
+                    Some((s, _)) if !cites.is_empty() => {
+                        (*s, "declared with the same citations here")
+                    }
+                    _ => (
+                        prev.first().map_or(p.name.span, |x| x.0),
+                        "first declared here",
+                    ),
+                };
+                diags.push(
+                    Diagnostic::new(
+                        Rule::Duplicate,
+                        p.name.span,
+                        format!("'{}' of '{}' is declared twice", def.name, b.name.name),
+                    )
+                    .with_label(at, words)
+                    .with_help(
+                        "to keep several published values of one quantity, cite each one's own source: `name = value [ref]`",
+                    ),
+                );
+                continue;
+            }
         }
-        seen.insert(def.qty, p.name.span);
+        seen.entry(def.qty).or_default().push((p.name.span, cites));
         let mut citations = Vec::new();
         for c in &p.citations {
             if refs.iter().any(|r| r.id == c.name) {
@@ -464,19 +516,65 @@ fn lower_props(
             (ast::PropValue::Text(t, _), Content::Measured(_)) => Some(t.clone()),
             _ => None,
         };
-        out.push(Declared {
+        let decl = Declared {
             qty: def.qty,
             name_span: p.name.span,
             span: p.span,
             value_span: p.value.span(),
             content,
             assumed: p.assumed.is_some(),
+            preferred: p.preferred.is_some(),
             citations,
             written_unit,
             timestamp,
-        });
+        };
+        let Some(first) = out.iter().find(|d| d.qty == def.qty) else {
+            out.push(decl);
+            continue;
+        };
+        let measured = |d: &Declared| matches!(d.content, Content::Measured(_));
+        if !(measured(first) && measured(&decl)) {
+            diags.push(
+                Diagnostic::new(
+                    Rule::Duplicate,
+                    p.name.span,
+                    format!("'{}' of '{}' is declared twice", def.name, b.name.name),
+                )
+                .with_label(first.name_span, "first declared here")
+                .with_note("several sources of one quantity must each be a measured value (a number, its uncertainty and unit, or a limit), not an expression or text"),
+            );
+            continue;
+        }
+        if decl.preferred {
+            if let Some(other) = out
+                .iter()
+                .chain(&further)
+                .find(|d| d.qty == def.qty && d.preferred)
+            {
+                diags.push(
+                    Diagnostic::new(
+                        Rule::Duplicate,
+                        p.preferred.unwrap_or(p.name.span),
+                        format!(
+                            "'{}' of '{}' is marked preferred twice; the first mark is used",
+                            def.name, b.name.name
+                        ),
+                    )
+                    .with_label(other.name_span, "marked preferred here"),
+                );
+                further.push(Declared {
+                    preferred: false,
+                    ..decl
+                });
+                continue;
+            }
+        }
+        further.push(decl);
     }
-    out
+    Props {
+        first: out,
+        further,
+    }
 }
 
 #[cfg(test)]

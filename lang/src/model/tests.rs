@@ -258,3 +258,52 @@ fn abbreviations_that_are_not_names_point_to_the_quantity() {
     );
     assert!(diags.is_empty(), "{diags:?}");
 }
+
+#[test]
+fn a_quantity_declared_by_several_cited_sources_keeps_every_declaration() {
+    let (m, diags) = lower_text(
+        "ref disc \"Invented A\"\nref followup \"Invented B\"\nsystem \"S\" {\n star s { mass = 1 Msun }\n planet b orbits s {\n  period = 10.000 ± 0.001 d [disc]\n  period = 10.0021 ± 0.0002 d [followup] preferred\n }\n}",
+    );
+    assert!(diags.is_empty(), "{diags:?}");
+    let b = &m.systems[0].bodies[1];
+    let all = b.sources(Qty::Period);
+    assert_eq!(all.len(), 2);
+    assert_eq!(all[0].citations[0].0, "disc");
+    assert!(!all[0].preferred && all[1].preferred);
+    // The first declaration stays the quantity's declaration.
+    assert_eq!(b.get(Qty::Period).unwrap().citations[0].0, "disc");
+}
+
+#[test]
+fn a_repeat_without_distinguishing_citations_is_still_a_duplicate() {
+    for (first, second) in [
+        ("period = 10 ± 1 d", "period = 11 ± 1 d"),
+        ("period = 10 ± 1 d [disc]", "period = 11 ± 1 d [disc]"),
+        ("period = 10 ± 1 d [disc]", "period = 11 ± 1 d"),
+        // Several sources must each be a measured value.
+        ("period = 10 ± 1 d [disc]", "period = 2 * 5 d [other]"),
+    ] {
+        let (m, diags) = lower_text(&format!(
+            "ref disc \"Invented A\"\nref other \"Invented B\"\nsystem \"S\" {{\n star s {{ mass = 1 Msun }}\n planet b orbits s {{\n  {first}\n  {second}\n }}\n}}"
+        ));
+        assert_eq!(
+            diags.iter().map(|d| d.rule).collect::<Vec<_>>(),
+            [Rule::Duplicate],
+            "{second}"
+        );
+        assert_eq!(m.systems[0].bodies[1].sources(Qty::Period).len(), 1);
+    }
+}
+
+#[test]
+fn a_second_preferred_mark_is_reported_and_the_first_kept() {
+    let (m, diags) = lower_text(
+        "ref a \"Invented A\"\nref c \"Invented C\"\nsystem \"S\" {\n star s { mass = 1 Msun }\n planet b orbits s {\n  period = 10 ± 1 d [a] preferred\n  period = 11 ± 1 d [c] preferred\n }\n}",
+    );
+    assert_eq!(
+        messages(&diags),
+        ["'period' of 'b' is marked preferred twice; the first mark is used"]
+    );
+    let all = m.systems[0].bodies[1].sources(Qty::Period);
+    assert!(all[0].preferred && !all[1].preferred);
+}

@@ -11,9 +11,31 @@ use crate::Analysis;
 pub mod json;
 
 /// Version of the JSON contract; bump on any incompatible change.
-pub const JSON_VERSION: u32 = 1;
+pub const JSON_VERSION: u32 = 2;
 
-fn quantity_json<'a>(a: &Analysis, sys: usize, q: &'a QuantityResult) -> json::Quantity<'a> {
+fn quantity_json<'a>(
+    a: &Analysis,
+    sys: usize,
+    q: &'a QuantityResult,
+    places: &Places,
+) -> json::Quantity<'a> {
+    let sources = q
+        .sources
+        .iter()
+        .map(|s| {
+            let unit = q.shown_unit();
+            json::Source {
+                value: unit.of(s.value),
+                below: unit.of(s.below),
+                above: unit.of(s.above),
+                unit: unit.symbol.to_string(),
+                limit: limit_word(s.form),
+                citations: &s.citations,
+                line: places.of(s.span).1.line,
+                chosen: s.chosen,
+            }
+        })
+        .collect();
     let measured = q.text.is_none().then(|| {
         let unit = q.shown_unit();
         json::Measured {
@@ -44,25 +66,33 @@ fn quantity_json<'a>(a: &Analysis, sys: usize, q: &'a QuantityResult) -> json::Q
         text: q.text.as_deref(),
         measured,
         form: q.form.as_str(),
-        limit: match q.form {
-            Form::UpperLimit => Some("upper"),
-            Form::LowerLimit => Some("lower"),
-            _ => None,
-        },
+        limit: limit_word(q.form),
         origin: q.origin.as_str(),
         rule: q.rule,
         formula: q.formula,
         inputs: q.inputs.iter().map(|k| a.key_name(sys, *k)).collect(),
-        citations: &q.citations,
+        citations: &q.cited,
         assumptions: &q.assumptions,
         budget,
         notes: &q.notes,
+        sources,
+        choice: q.choice.map(|c| c.as_str()),
+    }
+}
+
+/// The JSON `limit` of a form: `upper`, `lower` or none.
+fn limit_word(form: Form) -> Option<&'static str> {
+    match form {
+        Form::UpperLimit => Some("upper"),
+        Form::LowerLimit => Some("lower"),
+        _ => None,
     }
 }
 
 /// The systems of one analysed file, in the `eval --format json` shape.
 pub fn systems_json<'a>(a: &'a Analysis, db: &'a dyn SourceDb) -> Vec<json::System<'a>> {
     let file = db.name(a.file);
+    let places = Places::new(db, a.file);
     a.model
         .systems
         .iter()
@@ -86,7 +116,12 @@ pub fn systems_json<'a>(a: &'a Analysis, db: &'a dyn SourceDb) -> Vec<json::Syst
                     quantities: json::Pairs(
                         r.quantities
                             .iter()
-                            .map(|q| (quantities::def(q.qty).name, quantity_json(a, si, q)))
+                            .map(|q| {
+                                (
+                                    quantities::def(q.qty).name,
+                                    quantity_json(a, si, q, &places),
+                                )
+                            })
                             .collect(),
                     ),
                     composition: a.composition.get(&(si, b.id.clone())).map(|c| &c.json),
@@ -220,6 +255,24 @@ impl TableUnits {
     }
 }
 
+/// Every declaration of a quantity declared more than once, as people read it, marking the
+/// one used: `4.2170 ± 0.0008 d [aster]`, `4.21762 ± 0.00012 d [brenn] (used)`. Empty for a
+/// quantity declared once.
+pub fn sources_text(q: &QuantityResult) -> Vec<String> {
+    let unit = q.shown_unit();
+    q.sources
+        .iter()
+        .map(|s| {
+            format!(
+                "{} [{}]{}",
+                shown_in(s.value, s.below, s.above, s.form, unit),
+                s.citations.join(", "),
+                if s.chosen { " (used)" } else { "" }
+            )
+        })
+        .collect()
+}
+
 /// Where a value came from, in a few words.
 pub fn provenance_text(a: &Analysis, sys: usize, q: &QuantityResult) -> String {
     let cites = if q.citations.is_empty() {
@@ -295,6 +348,16 @@ pub fn eval_text(a: &Analysis, db: &dyn SourceDb) -> String {
                     "    {name:<width$}  {value}{}  {prov}\n",
                     " ".repeat(pad)
                 ));
+            }
+            for q in &r.quantities {
+                let sources = sources_text(q);
+                if !sources.is_empty() {
+                    out.push_str(&format!(
+                        "    {} sources: {}\n",
+                        quantities::def(q.qty).name,
+                        sources.join("; ")
+                    ));
+                }
             }
             if let Some(c) = a.composition.get(&(si, b.id.clone())) {
                 out.push_str(&format!("    composition: {}\n", c.text));

@@ -90,6 +90,8 @@ pub struct Prop {
     pub relation: Relation,
     pub value: PropValue,
     pub assumed: Option<Span>,
+    /// `preferred`: of several declarations of one quantity, the one derivations use.
+    pub preferred: Option<Span>,
     pub citations: Vec<Ident>,
     pub span: Span,
 }

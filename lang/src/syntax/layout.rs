@@ -380,14 +380,14 @@ fn columns(src: &str, toks: &[Token]) -> Option<Columns> {
     }
     let rest = toks.get(rel_at + 1..)?;
     let r = roles(rest);
-    // Trailing parts: citations and `assumed`, at bracket depth 0.
+    // Trailing parts: citations, `assumed` and `preferred`, at bracket depth 0.
     let mut depth = 0i32;
     let mut trail = rest.len();
     for (i, t) in rest.iter().enumerate() {
         match t.kind {
             Tok::LParen => depth += 1,
             Tok::RParen => depth -= 1,
-            Tok::LBracket | Tok::Assumed if depth == 0 => {
+            Tok::LBracket | Tok::Assumed | Tok::Preferred if depth == 0 => {
                 trail = i;
                 break;
             }
@@ -407,7 +407,10 @@ fn columns(src: &str, toks: &[Token]) -> Option<Columns> {
     let mut assumed = Vec::new();
     let mut i = trail;
     while i < rest.len() {
-        if rest.get(i).map(|t| t.kind) == Some(Tok::Assumed) {
+        if matches!(
+            rest.get(i).map(|t| t.kind),
+            Some(Tok::Assumed | Tok::Preferred)
+        ) {
             assumed.push(join(src, rest, &r, i..i + 1));
             i += 1;
         } else {
@@ -644,6 +647,30 @@ fn code_tokens(src: &str) -> impl Iterator<Item = (Tok, &str)> + '_ {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn several_declarations_of_one_quantity_stay_together_in_order() {
+        let src = "ref a \"A\"\nref b \"B\"\nsystem \"S\" {\n  star s { mass = 1 Msun }\n  planet p orbits s {\n    period=10.0 ± 0.1 d [a]\n    mass = 5 ± 1 Mearth\n    period = 10.02 ± 0.01 d [b]   preferred\n    period < 11 d [b, a]\n  }\n}\n";
+        let out = format_source(src).unwrap();
+        let lines: Vec<&str> = out.lines().filter(|l| l.contains("period")).collect();
+        assert_eq!(lines.len(), 3, "{out}");
+        assert!(
+            lines[0].contains("10.0 ± 0.1") && lines[0].ends_with("[a]"),
+            "{out}"
+        );
+        assert!(lines[1].ends_with("[b] preferred"), "{out}");
+        assert!(
+            lines[2].contains("< 11") && lines[2].ends_with("[b, a]"),
+            "{out}"
+        );
+        // In file order, around the line between them: nothing merged or moved.
+        let at = |n: &str| out.find(n).unwrap();
+        assert!(
+            at("[a]") < at("Mearth") && at("Mearth") < at("preferred"),
+            "{out}"
+        );
+        assert!(same_tokens(src, &out));
+    }
 
     const MESSY: &str = "# Lead comment\n\n\nref rv1 \"Demo RV (invented)\"\nref ph1   \"Demo photometry\"\nsystem \"Veyra\" {\n\n  let base=2.0 d\n  star veyra {\n    mass = 0.93±0.04 Msun [rv1]\n      radius=0.88 +0.03/-0.02 Rsun   [ph1]  # trailing\n    teff = 5310 +- 80 K\n    spectral_type = \"K0V\"\n\n\n    # about the distance\n    distance = 41.2 ± 0.3 pc\n  }\n  planet c orbits veyra { period = 2*base+ -1 d; min_mass = 12 ± 3 Mearth\n  rv_amplitude = 4.1 ± 0.6 km s^-1 [rv1,ph1] }\n  planet b orbits veyra {\n    radius = sqrt( c.min_mass/(5.5 g/cm^3) ) ^ (1/3)\n    albedo = 0.3 assumed\n    eccentricity<0.08\n  }\n\n}\n\n\n";
 

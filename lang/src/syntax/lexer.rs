@@ -71,6 +71,8 @@ pub enum Tok {
     Let,
     #[token("assumed")]
     Assumed,
+    #[token("preferred")]
+    Preferred,
     #[regex(r"[0-9]+(\.[0-9]*)?([eE][+-]?[0-9]+)?")]
     #[regex(r"\.[0-9]+([eE][+-]?[0-9]+)?")]
     Number,
@@ -116,6 +118,7 @@ impl Tok {
             Tok::Ref => "'ref'",
             Tok::Let => "'let'",
             Tok::Assumed => "'assumed'",
+            Tok::Preferred => "'preferred'",
             Tok::Number => "a number",
             Tok::Str => "a string",
             Tok::UnterminatedStr => "an unterminated string",

@@ -199,6 +199,27 @@ pub struct Quantity<'a> {
     pub budget: Vec<Share<'a>>,
     #[serde(skip_serializing_if = "<[_]>::is_empty")]
     pub notes: &'a [String],
+    /// A quantity declared more than once: every declaration, in file order.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub sources: Vec<Source<'a>>,
+    /// A quantity declared more than once: how the value used was reached.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub choice: Option<&'static str>,
+}
+
+/// One of several declarations of a quantity, in the quantity's display unit.
+#[derive(Debug, Serialize)]
+pub struct Source<'a> {
+    pub value: f64,
+    pub below: f64,
+    pub above: f64,
+    pub unit: String,
+    /// Always written: `upper`, `lower` or `null`.
+    pub limit: Option<&'static str>,
+    pub citations: &'a [String],
+    pub line: u32,
+    /// Whether this declaration is the value used (false for all when they were combined).
+    pub chosen: bool,
 }
 
 /// A number with its uncertainties, in the display unit and in SI.

@@ -9,7 +9,7 @@
 //! body      = ("star" NAME | "planet" NAME ("orbits" NAME)?) "{" (prop | let | SEP)* "}"
 //! let       = "let" NAME "=" expr
 //! prop      = NAME ("=" | "<" | ">") value
-//! value     = (STRING | expr) ("assumed" | citations)*
+//! value     = (STRING | expr) ("assumed" | "preferred" | citations)*
 //! citations = "[" NAME ("," NAME)* ","? "]"
 //! expr      = product (("+" | "-") product)*
 //! product   = unary (("*" | "/") unary)*
@@ -58,6 +58,7 @@ use value::{value_parser, ValueParser};
 struct ValueParts {
     value: PropValue,
     assumed: Option<Span>,
+    preferred: Option<Span>,
     citations: Vec<Ident>,
 }
 
@@ -686,6 +687,12 @@ impl<'a> Cursor<'a> {
         if let Some(s) = parts.assumed {
             self.error(s, "'assumed' belongs on a property, not on a 'let' binding");
         }
+        if let Some(s) = parts.preferred {
+            self.error(
+                s,
+                "'preferred' belongs on a property, not on a 'let' binding",
+            );
+        }
         if let Some(c) = parts.citations.first() {
             self.error(
                 c.span,
@@ -730,6 +737,7 @@ impl<'a> Cursor<'a> {
             relation,
             value: parts.value,
             assumed: parts.assumed,
+            preferred: parts.preferred,
             citations: parts.citations,
         })
     }

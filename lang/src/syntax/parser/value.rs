@@ -129,6 +129,7 @@ const ALL_TOKS: &[Tok] = &[
     Tok::Ref,
     Tok::Let,
     Tok::Assumed,
+    Tok::Preferred,
     Tok::Number,
     Tok::Str,
     Tok::UnterminatedStr,
@@ -192,6 +193,7 @@ impl Cursor<'_> {
                     span: whole,
                 }),
                 assumed: None,
+                preferred: None,
                 citations: Vec::new(),
             });
         }
@@ -211,6 +213,7 @@ impl Cursor<'_> {
                 span: whole,
             }),
             assumed: None,
+            preferred: None,
             citations: Vec::new(),
         }))
     }
@@ -319,12 +322,17 @@ impl Cursor<'_> {
         let mut parts = ValueParts {
             value,
             assumed: None,
+            preferred: None,
             citations: Vec::new(),
         };
         while let Some(t) = slice.get(i) {
             match t.kind {
                 Tok::Assumed => {
                     parts.assumed = Some(sp(t));
+                    i += 1;
+                }
+                Tok::Preferred => {
+                    parts.preferred = Some(sp(t));
                     i += 1;
                 }
                 Tok::LBracket => {
@@ -687,10 +695,12 @@ pub(super) fn value_parser<'a>(src: &'a str, file: FileId) -> ValueParser<'a> {
         .delimited_by(tok(Tok::LBracket), tok(Tok::RBracket));
     enum Trail {
         Assumed(Span),
+        Preferred(Span),
         Cites(Vec<Ident>),
     }
     let trail = choice((
         tok(Tok::Assumed).map_with_span(move |_, r: Range| Trail::Assumed(sp(r))),
+        tok(Tok::Preferred).map_with_span(move |_, r: Range| Trail::Preferred(sp(r))),
         citations.map(Trail::Cites),
     ));
     choice((text, expr.map(PropValue::Expr)))
@@ -700,11 +710,13 @@ pub(super) fn value_parser<'a>(src: &'a str, file: FileId) -> ValueParser<'a> {
             let mut parts = ValueParts {
                 value,
                 assumed: None,
+                preferred: None,
                 citations: Vec::new(),
             };
             for t in trails {
                 match t {
                     Trail::Assumed(s) => parts.assumed = Some(s),
+                    Trail::Preferred(s) => parts.preferred = Some(s),
                     Trail::Cites(c) => parts.citations.extend(c),
                 }
             }

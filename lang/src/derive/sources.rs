@@ -1,0 +1,397 @@
+//! Several published values of one quantity: which one feeds the derivations, and how.
+//!
+//! A body may declare a quantity more than once when each declaration cites its own
+//! source (lowering refuses a repeat without distinguishing citations as `duplicate`).
+//! Every declaration stays in the model and in the output; one value is used:
+//!
+//! - the declaration marked `preferred`, when there is one;
+//! - else the project file's `[sources] choice`: `most-precise` (the default: the smallest
+//!   relative standard uncertainty), `last` (the last measurement listed) or `weighted-mean`
+//!   (the inverse-variance weighted mean of the measurements, its uncertainty scaled up by
+//!   the Birge ratio sqrt(chi2 / (n - 1)) when that ratio exceeds 1: Birge 1932, Phys. Rev.
+//!   40, 207; the scale-factor procedure of the Particle Data Group's reviews, "Introduction:
+//!   averaging" section, here applied to all the measurements).
+//!
+//! An asymmetric uncertainty counts as its mean side, (below + above) / 2, for ranking and
+//! weights. A limit is never averaged nor chosen while a measurement exists; it only takes
+//! part in the disagreement check (`sources-disagree`). When only limits exist, the most
+//! constraining is used (the smallest upper limit, else the largest lower limit). A value
+//! without uncertainty cannot be weighted: `weighted-mean` then takes the most precise.
+
+use crate::model::{Form, Measurement};
+
+/// The project file's policy for a quantity with several sources and none marked.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum SourceChoice {
+    MostPrecise,
+    Last,
+    WeightedMean,
+}
+
+impl SourceChoice {
+    pub fn parse(name: &str) -> Option<SourceChoice> {
+        Some(match name {
+            "most-precise" => SourceChoice::MostPrecise,
+            "last" => SourceChoice::Last,
+            "weighted-mean" => SourceChoice::WeightedMean,
+            _ => return None,
+        })
+    }
+}
+
+/// How the value used was reached (the JSON field `choice`).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Choice {
+    Marked,
+    MostPrecise,
+    Last,
+    WeightedMean,
+}
+
+impl Choice {
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Choice::Marked => "marked",
+            Choice::MostPrecise => "most-precise",
+            Choice::Last => "last",
+            Choice::WeightedMean => "weighted-mean",
+        }
+    }
+}
+
+/// The value used for a quantity with several sources.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Chosen {
+    pub measurement: Measurement,
+    /// The source used (index in file order); `None` for a weighted mean.
+    pub index: Option<usize>,
+    pub choice: Choice,
+    /// For a weighted mean: what was combined and how.
+    pub mean: Option<WeightedMean>,
+}
+
+/// An inverse-variance weighted mean and its Birge ratio.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct WeightedMean {
+    pub mean: f64,
+    /// 1 / sqrt(sum of weights), before any scaling.
+    pub sigma: f64,
+    pub chi2: f64,
+    /// sqrt(chi2 / (n - 1)).
+    pub birge: f64,
+    /// The uncertainty reported: `sigma`, times `birge` when `birge` exceeds 1.
+    pub scaled_sigma: f64,
+    pub n: usize,
+}
+
+/// The standard uncertainty of a measurement: the mean of its two sides.
+pub fn standard(m: &Measurement) -> f64 {
+    (m.below + m.above) / 2.0
+}
+
+fn relative(m: &Measurement) -> f64 {
+    standard(m) / m.value.abs().max(f64::MIN_POSITIVE)
+}
+
+/// The weighted mean of `(value, standard uncertainty)` pairs, each uncertainty positive;
+/// `None` for fewer than two.
+pub fn weighted_mean(points: &[(f64, f64)]) -> Option<WeightedMean> {
+    if points.len() < 2 || points.iter().any(|(_, s)| s.is_nan() || *s <= 0.0) {
+        return None;
+    }
+    let weights: Vec<f64> = points.iter().map(|(_, s)| 1.0 / (s * s)).collect();
+    let total: f64 = weights.iter().sum();
+    let mean = points
+        .iter()
+        .zip(&weights)
+        .map(|((x, _), w)| w * x)
+        .sum::<f64>()
+        / total;
+    let chi2: f64 = points
+        .iter()
+        .zip(&weights)
+        .map(|((x, _), w)| w * (x - mean).powi(2))
+        .sum();
+    let n = points.len();
+    let sigma = 1.0 / total.sqrt();
+    let birge = (chi2 / (n as f64 - 1.0)).sqrt();
+    let scaled_sigma = if birge > 1.0 { sigma * birge } else { sigma };
+    Some(WeightedMean {
+        mean,
+        sigma,
+        chi2,
+        birge,
+        scaled_sigma,
+        n,
+    })
+}
+
+/// The value used among `sources` (file order), with `marked` the one marked `preferred`.
+pub fn choose(
+    sources: &[Measurement],
+    marked: Option<usize>,
+    policy: SourceChoice,
+) -> Option<Chosen> {
+    let pick = |i: usize, choice: Choice| {
+        sources.get(i).map(|m| Chosen {
+            measurement: *m,
+            index: Some(i),
+            choice,
+            mean: None,
+        })
+    };
+    if let Some(i) = marked {
+        return pick(i, Choice::Marked);
+    }
+    let measured: Vec<usize> = (0..sources.len())
+        .filter(|&i| sources.get(i).is_some_and(|m| !m.form.is_limit()))
+        .collect();
+    let most_precise = || {
+        measured
+            .iter()
+            .copied()
+            .min_by(|&a, &b| {
+                let r = |i: usize| sources.get(i).map_or(f64::INFINITY, relative);
+                r(a).total_cmp(&r(b))
+            })
+            .and_then(|i| pick(i, Choice::MostPrecise))
+    };
+    if measured.is_empty() {
+        return most_constraining(sources).and_then(|i| pick(i, Choice::MostPrecise));
+    }
+    match policy {
+        SourceChoice::MostPrecise => most_precise(),
+        SourceChoice::Last => measured.last().and_then(|&i| pick(i, Choice::Last)),
+        SourceChoice::WeightedMean => {
+            let points: Vec<(f64, f64)> = measured
+                .iter()
+                .filter_map(|&i| sources.get(i))
+                .map(|m| (m.value, standard(m)))
+                .collect();
+            match weighted_mean(&points) {
+                Some(w) => Some(Chosen {
+                    measurement: Measurement {
+                        value: w.mean,
+                        below: w.scaled_sigma,
+                        above: w.scaled_sigma,
+                        form: Form::Symmetric,
+                    },
+                    index: None,
+                    choice: Choice::WeightedMean,
+                    mean: Some(w),
+                }),
+                None => most_precise(),
+            }
+        }
+    }
+}
+
+/// The most constraining limit: the smallest upper limit, else the largest lower limit.
+fn most_constraining(sources: &[Measurement]) -> Option<usize> {
+    let of = |form: Form, better: fn(f64, f64) -> bool| {
+        let mut best: Option<(usize, f64)> = None;
+        for (i, m) in sources.iter().enumerate().filter(|(_, m)| m.form == form) {
+            if best.is_none_or(|(_, v)| better(m.value, v)) {
+                best = Some((i, m.value));
+            }
+        }
+        best.map(|(i, _)| i)
+    };
+    of(Form::UpperLimit, |a, b| a < b).or_else(|| of(Form::LowerLimit, |a, b| a > b))
+}
+
+/// The sentence every output shows with the value used, for `name` (`b.period`) with
+/// `cites[i]` the citations of source `i` (file order).
+pub fn words(name: &str, cites: &[Vec<String>], chosen: &Chosen) -> String {
+    let n = cites.len();
+    let source = |i: usize| {
+        let c = cites.get(i).map(|c| c.join(", ")).unwrap_or_default();
+        format!("[{c}], source {} of {n}", i + 1)
+    };
+    let how = match (chosen.choice, chosen.index, chosen.mean) {
+        (_, None, Some(w)) => {
+            let scale = if w.birge > 1.0 {
+                format!(
+                    "its uncertainty scaled up by the Birge ratio {:.3} (chi2 = {:.3} for {} degrees of freedom)",
+                    w.birge,
+                    w.chi2,
+                    w.n - 1
+                )
+            } else {
+                format!(
+                    "Birge ratio {:.3}, not above 1, so its uncertainty is not scaled",
+                    w.birge
+                )
+            };
+            format!(
+                "used: the inverse-variance weighted mean of {} measurements (asymmetric uncertainties weighted by their mean side; limits are not averaged), {scale}",
+                w.n
+            )
+        }
+        (Choice::Marked, Some(i), _) => format!("chosen: the one marked preferred ({})", source(i)),
+        (Choice::Last, Some(i), _) => {
+            format!("chosen: the last measurement listed ({})", source(i))
+        }
+        (_, Some(i), _) if chosen.measurement.form.is_limit() => {
+            format!("chosen: the most constraining limit ({})", source(i))
+        }
+        (_, Some(i), _) => format!(
+            "chosen: the most precise, by relative uncertainty ({})",
+            source(i)
+        ),
+        (_, None, None) => "chosen: none".to_string(),
+    };
+    format!("{name}: {n} sources; {how}")
+}
+
+/// How far apart two declarations of one quantity are, in combined standard deviations:
+/// two measurements by the sides that face each other, added in quadrature; a measurement
+/// and a limit by how far the measurement lies on the wrong side of the limit, in its own
+/// uncertainty on that side; two limits that exclude each other are infinitely apart.
+/// `None` when the pair cannot disagree (a measurement within a limit, compatible limits).
+pub fn separation(a: &Measurement, b: &Measurement) -> Option<f64> {
+    let apart = |gap: f64, sigma: f64| {
+        if gap <= 0.0 {
+            None
+        } else if sigma > 0.0 {
+            Some(gap / sigma)
+        } else {
+            Some(f64::INFINITY)
+        }
+    };
+    match (a.form, b.form) {
+        (Form::UpperLimit, Form::LowerLimit) => apart(b.value - a.value, 0.0),
+        (Form::LowerLimit, Form::UpperLimit) => apart(a.value - b.value, 0.0),
+        (x, y) if x.is_limit() && y.is_limit() => None,
+        (Form::UpperLimit, _) => apart(b.value - a.value, b.below),
+        (Form::LowerLimit, _) => apart(a.value - b.value, b.above),
+        (_, Form::UpperLimit | Form::LowerLimit) => separation(b, a),
+        _ => {
+            let (lo, hi) = if a.value <= b.value { (a, b) } else { (b, a) };
+            let sigma = (lo.above.powi(2) + hi.below.powi(2)).sqrt();
+            let gap = hi.value - lo.value;
+            if gap == 0.0 {
+                return None;
+            }
+            apart(gap, sigma)
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn m(value: f64, s: f64) -> Measurement {
+        Measurement {
+            value,
+            below: s,
+            above: s,
+            form: Form::Symmetric,
+        }
+    }
+
+    /// The worked example of `tests/reference/make_sources_reference.py`, whose expected
+    /// numbers numpy computed (recorded in `tests/reference/sources.json`).
+    #[test]
+    fn weighted_mean_and_birge_ratio_match_the_reference_script() {
+        let text = include_str!("../../../tests/reference/sources.json");
+        let r: serde_json::Value = serde_json::from_str(text).unwrap();
+        for case in r["cases"].as_array().unwrap() {
+            let points: Vec<(f64, f64)> = case["points"]
+                .as_array()
+                .unwrap()
+                .iter()
+                .map(|p| (p[0].as_f64().unwrap(), p[1].as_f64().unwrap()))
+                .collect();
+            let w = weighted_mean(&points).unwrap();
+            let close = |a: f64, b: f64| (a - b).abs() <= 1e-9 * b.abs().max(1e-300);
+            let name = case["name"].as_str().unwrap();
+            assert!(
+                close(w.mean, case["mean"].as_f64().unwrap()),
+                "{name}: {w:?}"
+            );
+            assert!(
+                close(w.sigma, case["sigma"].as_f64().unwrap()),
+                "{name}: {w:?}"
+            );
+            assert!(
+                close(w.chi2, case["chi2"].as_f64().unwrap()),
+                "{name}: {w:?}"
+            );
+            assert!(
+                close(w.birge, case["birge"].as_f64().unwrap()),
+                "{name}: {w:?}"
+            );
+            assert!(
+                close(w.scaled_sigma, case["scaled_sigma"].as_f64().unwrap()),
+                "{name}: {w:?}"
+            );
+        }
+    }
+
+    #[test]
+    fn each_policy_picks_its_source() {
+        let s = [m(10.0, 0.001), m(10.0021, 0.0002), m(10.003, 0.01)];
+        let c = |p| choose(&s, None, p).unwrap();
+        assert_eq!(c(SourceChoice::MostPrecise).index, Some(1));
+        assert_eq!(c(SourceChoice::Last).index, Some(2));
+        assert_eq!(c(SourceChoice::WeightedMean).index, None);
+        let marked = choose(&s, Some(0), SourceChoice::Last).unwrap();
+        assert_eq!((marked.index, marked.choice), (Some(0), Choice::Marked));
+    }
+
+    #[test]
+    fn limits_are_not_averaged_and_the_most_constraining_is_used_alone() {
+        let upper = |v: f64| Measurement {
+            value: v,
+            below: 0.0,
+            above: 0.0,
+            form: Form::UpperLimit,
+        };
+        let s = [upper(0.3), m(0.1, 0.02), upper(0.2)];
+        let w = choose(&s, None, SourceChoice::WeightedMean).unwrap();
+        // One measurement: nothing to average, it is used as it is.
+        assert_eq!(w.index, Some(1));
+        let only = [upper(0.3), upper(0.2)];
+        let l = choose(&only, None, SourceChoice::Last).unwrap();
+        assert_eq!(l.index, Some(1));
+        assert!(words("b.eccentricity", &[vec![], vec![]], &l).contains("most constraining"));
+    }
+
+    #[test]
+    fn separation_counts_the_facing_sides_and_limits() {
+        // 10.000 ± 0.001 against 10.0021 ± 0.0002: 0.0021 / sqrt(0.001^2 + 0.0002^2) = 2.06.
+        let z = separation(&m(10.0, 0.001), &m(10.0021, 0.0002)).unwrap();
+        assert!((z - 0.0021 / (0.001f64.powi(2) + 0.0002f64.powi(2)).sqrt()).abs() < 1e-9);
+        let upper = Measurement {
+            value: 0.1,
+            below: 0.0,
+            above: 0.0,
+            form: Form::UpperLimit,
+        };
+        assert_eq!(separation(&upper, &m(0.05, 0.01)), None);
+        let z = separation(&m(0.2, 0.02), &upper).unwrap();
+        assert!((z - 5.0).abs() < 1e-9, "{z}");
+        let lower = Measurement {
+            form: Form::LowerLimit,
+            value: 0.3,
+            ..upper
+        };
+        assert_eq!(separation(&upper, &lower), Some(f64::INFINITY));
+    }
+
+    #[test]
+    fn asymmetric_uncertainties_weigh_by_their_mean_side() {
+        let a = Measurement {
+            value: 1.0,
+            below: 0.1,
+            above: 0.3,
+            form: Form::Asymmetric,
+        };
+        let c = choose(&[a, m(2.0, 0.2)], None, SourceChoice::WeightedMean).unwrap();
+        // Equal standard uncertainties (0.2): the plain mean.
+        assert!((c.measurement.value - 1.5).abs() < 1e-12, "{c:?}");
+    }
+}
