@@ -482,15 +482,24 @@ impl<'a> Cursor<'a> {
         }
     }
 
-    fn parse_system(&mut self) -> Option<SystemDecl> {
-        let start = self.bump().map_or(0, |t| t.start);
-        let name = self.string("the system's name in quotes");
+    /// The `{` that opens `what` (line ends before it allowed); an error and the rest of the
+    /// line skipped when it is missing.
+    fn open_block(&mut self, what: &str) -> bool {
         while self.peek() == Some(Tok::Newline) {
             self.pos += 1;
         }
-        if self.eat(Tok::LBrace).is_none() {
-            self.expect_error("'{' to open the system");
-            self.skip_line();
+        if self.eat(Tok::LBrace).is_some() {
+            return true;
+        }
+        self.expect_error(&format!("'{{' to open {what}"));
+        self.skip_line();
+        false
+    }
+
+    fn parse_system(&mut self) -> Option<SystemDecl> {
+        let start = self.bump().map_or(0, |t| t.start);
+        let name = self.string("the system's name in quotes");
+        if !self.open_block("the system") {
             return None;
         }
         let (name, name_span) =
@@ -592,12 +601,7 @@ impl<'a> Cursor<'a> {
             self.pos += 1;
             let _ = self.ident("a name");
         }
-        while self.peek() == Some(Tok::Newline) {
-            self.pos += 1;
-        }
-        if self.eat(Tok::LBrace).is_none() {
-            self.expect_error("'{' to open the body");
-            self.skip_line();
+        if !self.open_block("the body") {
             return None;
         }
         let name = name?;
