@@ -4,7 +4,7 @@
 use crate::check_cmd::Shown;
 use crate::files::{self, load_with_settings};
 use crate::render::rendered_diagnostics;
-use crate::{csv_out, json_out, output, render, EvalFormat};
+use crate::{csv_out, json_out, output, render, votable_out, EvalFormat};
 use std::io::Write;
 use std::path::PathBuf;
 use syzygy::settings::Layer;
@@ -73,10 +73,14 @@ pub fn run(paths: &[PathBuf], format: EvalFormat, flags: &Layer, read: files::Re
                 .map_err(std::io::Error::other)
                 .and_then(|h| out.write_all(&h))
                 .err();
-            let (bad, failure) =
-                stream_per_file(db, &settings, &mut out, render::stderr_color(), |a| {
-                    csv_out::rows(a, db).map_err(std::io::Error::other)
-                });
+            let (bad, failure) = stream_per_file(
+                db,
+                &settings,
+                &mut out,
+                render::stderr_color(),
+                |a| (csv_out::rows(a, db).map_err(std::io::Error::other), ()),
+                |()| {},
+            );
             errors |= bad;
             // A reader that stops early (`| head`) is not an error of ours.
             let failure = header.or(failure);
@@ -85,11 +89,53 @@ pub fn run(paths: &[PathBuf], format: EvalFormat, flags: &Layer, read: files::Re
                 return 2;
             }
         }
+        EvalFormat::Votable => {
+            let mut refs: Vec<[String; 3]> = Vec::new();
+            let mut files_with_errors = 0usize;
+            let head = out
+                .write_all(votable_out::head(&propagation_words(&options)).as_bytes())
+                .err();
+            let (bad, failure) = stream_per_file(
+                db,
+                &settings,
+                &mut out,
+                render::stderr_color(),
+                |a| {
+                    let (rows, refs) = votable_out::rows(a, db);
+                    (Ok(rows.into_bytes()), (refs, a.has_errors()))
+                },
+                |(more, bad)| {
+                    files_with_errors += usize::from(bad);
+                    // A file read in parts names its references in every part.
+                    for r in more {
+                        if !refs.iter().any(|k| k[0] == r[0] && k[1] == r[1]) {
+                            refs.push(r);
+                        }
+                    }
+                },
+            );
+            errors |= bad;
+            let tail = votable_out::tail(&refs, loaded.errors.len(), files_with_errors);
+            let failure = head.or(failure).or_else(|| {
+                out.write_all(tail.as_bytes())
+                    .and_then(|()| out.flush())
+                    .err()
+            });
+            if let Some(e) = failure.filter(|e| e.kind() != std::io::ErrorKind::BrokenPipe) {
+                eprintln!("syz: error: writing the table failed: {e}");
+                return 2;
+            }
+        }
         EvalFormat::Human => {
             let color = render::use_color() && render::stderr_color();
-            let (bad, _) = stream_per_file(db, &settings, &mut out, color, |a| {
-                Ok(syzygy::report::eval_text(a, db).into_bytes())
-            });
+            let (bad, _) = stream_per_file(
+                db,
+                &settings,
+                &mut out,
+                color,
+                |a| (Ok(syzygy::report::eval_text(a, db).into_bytes()), ()),
+                |()| {},
+            );
             errors |= bad;
         }
     }
@@ -106,13 +152,15 @@ pub fn run(paths: &[PathBuf], format: EvalFormat, flags: &Layer, read: files::Re
 /// Analyse every file and write `body` of each to `out` in file order, as it comes; the
 /// files' diagnostics, rendered for people, go to standard error after all of it. Returns
 /// whether any file has errors, and the first failure to make or write a body (later bodies
-/// are not written after one).
-fn stream_per_file(
+/// are not written after one). `body` also returns something for `keep`, which sees it in
+/// file order.
+fn stream_per_file<X: Send>(
     db: &syzygy::source::MemoryDb,
     settings: &[Settings],
     out: &mut impl Write,
     color: bool,
-    body: impl Fn(&syzygy::Analysis) -> std::io::Result<Vec<u8>> + Sync,
+    body: impl Fn(&syzygy::Analysis) -> (std::io::Result<Vec<u8>>, X) + Sync,
+    mut keep: impl FnMut(X),
 ) -> (bool, Option<std::io::Error>) {
     let mut errors = false;
     let mut failure = None;
@@ -129,8 +177,9 @@ fn stream_per_file(
                 a.file,
             )
         },
-        |(bad, bytes, (diags, left_out), file), last_of_file| {
+        |(bad, (bytes, extra), (diags, left_out), file), last_of_file| {
             errors |= bad;
+            keep(extra);
             rendered.extend(shown.admit(diags, left_out));
             if last_of_file {
                 rendered.extend(shown.end_file(db, file));

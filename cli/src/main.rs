@@ -28,6 +28,7 @@ mod output;
 mod plot_cmd;
 mod render;
 mod sarif;
+mod votable_out;
 
 use clap::{Parser, Subcommand, ValueEnum};
 use std::io::Write;
@@ -79,8 +80,11 @@ pub(crate) enum EvalFormat {
     Human,
     /// The JSON contract, full precision (see docs/json-output.md).
     Json,
-    /// A table, one row per body (see docs/csv-output.md).
+    /// A table, one row per planet with its host star's values (see docs/table-output.md).
     Csv,
+    /// The same table as an IVOA VOTable 1.4 document, with units and UCDs (see
+    /// docs/table-output.md).
+    Votable,
 }
 
 #[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]

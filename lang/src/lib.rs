@@ -32,7 +32,7 @@ pub mod text;
 pub mod units;
 
 // Short paths kept for every module that moved into a folder.
-pub use output::{ephemeris, plots, report, rule_docs, shown};
+pub use output::{ephemeris, plots, report, rule_docs, shown, table};
 pub use physics::{
     composition, constants, fastmath, formulas, lightcurve, orbit, solar_system, spectral, time,
 };

@@ -1,32 +1,23 @@
-//! `syz eval --format csv`: the table parses, has one row per body, and its numbers agree
-//! with the JSON output converted to the documented fixed units.
+//! `syz eval --format csv`: the table parses, has one row per planet with its host joined (and
+//! one per star no planet orbits), and its numbers agree with the JSON output converted to the
+//! documented fixed units.
 
 #![allow(clippy::unwrap_used, clippy::indexing_slicing)]
 
 use syzygy_e2e::{run, stdout};
 
-/// A minimal CSV reader for the test (no quoting inside the fields we compare).
+/// The table's rows, header first, read by the `csv` crate (RFC 4180).
 fn parse(text: &str) -> Vec<Vec<String>> {
-    text.lines()
-        .map(|l| {
-            let mut fields = Vec::new();
-            let mut cur = String::new();
-            let mut quoted = false;
-            for c in l.chars() {
-                match c {
-                    '"' => quoted = !quoted,
-                    ',' if !quoted => fields.push(std::mem::take(&mut cur)),
-                    _ => cur.push(c),
-                }
-            }
-            fields.push(cur);
-            fields
-        })
+    csv::ReaderBuilder::new()
+        .has_headers(false)
+        .from_reader(text.as_bytes())
+        .records()
+        .map(|r| r.unwrap().iter().map(str::to_string).collect())
         .collect()
 }
 
 #[test]
-fn csv_has_a_row_per_body_in_fixed_units() {
+fn csv_has_a_row_per_planet_with_its_host_joined() {
     let args = ["--propagation", "linear", "examples/"];
     let o = run(&[&["eval", "--format", "csv"][..], &args].concat());
     let rows = parse(&stdout(&o));
@@ -37,21 +28,25 @@ fn csv_has_a_row_per_body_in_fixed_units() {
     }
     let j = run(&[&["eval", "--format", "json"][..], &args].concat());
     let v: serde_json::Value = serde_json::from_slice(&j.stdout).unwrap();
-    let mut bodies = 0;
+    let mut expected_rows = 0;
+    let mut planets = 0;
     let mjup_si = 1.898_13e27; // IAU 2015 Resolution B3 (GM_J^N / G), as the core uses; checked to 1e-4
     for sys in v["systems"].as_array().unwrap() {
-        for b in sys["bodies"].as_array().unwrap() {
-            bodies += 1;
-            let row = rows[1..]
-                .iter()
-                .find(|r| {
-                    r[col("file")] == sys["file"].as_str().unwrap()
-                        && r[col("system")] == sys["name"].as_str().unwrap()
-                        && r[col("body")] == b["id"].as_str().unwrap()
-                })
-                .unwrap();
-            assert_eq!(row[col("kind")], b["kind"].as_str().unwrap());
+        let bodies = sys["bodies"].as_array().unwrap();
+        let in_sys = |r: &&Vec<String>| {
+            r[col("file")] == sys["file"].as_str().unwrap()
+                && r[col("system")] == sys["name"].as_str().unwrap()
+        };
+        for b in bodies {
+            let id = b["id"].as_str().unwrap();
             if b["kind"] == "planet" {
+                planets += 1;
+                expected_rows += 1;
+                let row = rows[1..]
+                    .iter()
+                    .filter(in_sys)
+                    .find(|r| r[col("planet")] == id)
+                    .unwrap();
                 if let Some(m) = b["quantities"]["mass"]["si"]["value"].as_f64() {
                     let cell: f64 = row[col("mass")].parse().unwrap();
                     assert!(
@@ -59,18 +54,60 @@ fn csv_has_a_row_per_body_in_fixed_units() {
                         "{cell} Mjup vs {m} kg"
                     );
                     assert_eq!(
-                        row[col("mass_origin")].split(';').next().unwrap(),
+                        row[col("mass.origin")].split(';').next().unwrap(),
                         b["quantities"]["mass"]["origin"].as_str().unwrap()
                     );
                 }
-            } else if let Some(t) = b["quantities"]["teff"]["value"].as_f64() {
-                let cell: f64 = row[col("star_teff")].parse().unwrap();
-                assert!((cell - t).abs() < 1e-6 * t);
+                // The host's values are joined into the planet's row.
+                let host = bodies
+                    .iter()
+                    .find(|h| h["id"].as_str() == Some(row[col("host")].as_str()));
+                if let Some(t) = host.and_then(|h| h["quantities"]["teff"]["value"].as_f64()) {
+                    let cell: f64 = row[col("host.teff")].parse().unwrap();
+                    assert!((cell - t).abs() < 1e-6 * t, "{cell} vs {t}");
+                }
+            } else {
+                // A star no planet orbits still has its row, with the planet cell empty.
+                let orbited = bodies.iter().any(|p| p["orbits"].as_str() == Some(id));
+                if !orbited {
+                    expected_rows += 1;
+                    assert!(
+                        rows[1..]
+                            .iter()
+                            .filter(in_sys)
+                            .any(|r| r[col("planet")].is_empty() && r[col("host")] == id),
+                        "star {id} has no row"
+                    );
+                }
             }
         }
     }
-    assert_eq!(rows.len() - 1, bodies);
-    assert!(bodies > 5);
+    assert_eq!(rows.len() - 1, expected_rows);
+    assert!(planets > 5);
+}
+
+#[test]
+fn csv_writes_declared_values_as_declared_with_their_citations() {
+    // examples/veyra.syz: `period = 3.52474 ± 0.00002 d [ph1]`, `distance = 41.2 ± 0.3 pc`:
+    // the conversion to SI and back must not show in the table.
+    let o = linear_csv("examples/veyra.syz");
+    let rows = parse(&stdout(&o));
+    let col = |n: &str| rows[0].iter().position(|h| h == n).unwrap();
+    let b = rows.iter().find(|r| r[col("planet")] == "b").unwrap();
+    assert_eq!(b[col("period")], "3.52474");
+    assert_eq!(b[col("period.below")], "0.00002");
+    assert_eq!(b[col("period.refs")], "ph1");
+    assert_eq!(b[col("host.distance")], "41.2");
+    assert_eq!(b[col("host.radius.below")], "0.02");
+    assert_eq!(b[col("host.radius.above")], "0.03");
+    assert_eq!(b[col("eccentricity.origin")], "declared;upper-limit");
+    assert_eq!(b[col("transit_epoch.system")], "BJD_TDB");
+    // A derived value lists every citation it rests on; the row names them with their text.
+    assert_eq!(b[col("mass.refs")], "ph1; rv1");
+    assert!(
+        b[col("refs")].contains("rv1: Demo radial-velocity campaign"),
+        "{b:?}"
+    );
 }
 
 /// `syz eval --format csv --propagation linear PATH`.
@@ -80,7 +117,7 @@ fn linear_csv(path: &str) -> std::process::Output {
 
 #[test]
 fn csv_keeps_the_table_on_stdout_and_the_problems_on_stderr() {
-    // docs/csv-output.md: diagnostics go to standard error as with the human format.
+    // docs/table-output.md: diagnostics go to standard error as with the human format.
     let o = linear_csv("examples/broken/language-errors.syz");
     assert_eq!(o.status.code(), Some(1), "errors make the exit status 1");
     let err = syzygy_e2e::stderr(&o);
@@ -104,11 +141,10 @@ fn csv_says_what_each_body_assumed() {
     let last = rows[0].len() - 1;
     assert_eq!(rows[0][last], "assumptions");
     let planet_c = rows.iter().find(|r| r[2] == "c").unwrap();
+    assert_eq!(rows[0][2], "planet");
     // veyra.syz declares no albedo for c: the default must be visible in the table.
     assert!(
         planet_c[last].contains("Bond albedo = 0 (default)"),
         "{planet_c:?}"
     );
-    let star = rows.iter().find(|r| r[3] == "star").unwrap();
-    assert!(!star[last].contains("albedo"), "{star:?}");
 }

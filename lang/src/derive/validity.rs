@@ -34,7 +34,7 @@ pub const SHARE_LIMIT: f64 = 0.05;
 pub const MOST_SAMPLES: usize = 4_000;
 
 /// How the assumption that a value was sampled begins.
-const SAMPLED: &str = "sampled, not first-order";
+pub const SAMPLED: &str = "sampled, not first-order";
 
 /// Whether a value of a first-order analysis was sampled instead (see the module doc).
 pub fn was_sampled(q: &QuantityResult) -> bool {

@@ -6,3 +6,4 @@ pub mod plots;
 pub mod report;
 pub mod rule_docs;
 pub mod shown;
+pub mod table;

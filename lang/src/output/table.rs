@@ -1,0 +1,528 @@
+//! The planet-centred table behind `syz eval --format csv` and `--format votable`: one row per
+//! planet with its host star's values joined, and one row for each star that no planet orbits,
+//! so that every body appears. The layout (column names, units, UCDs) is described once here
+//! and written by both front ends; docs/table-output.md documents it.
+
+use crate::ast::BodyKind;
+use crate::derive::{BodyResult, DisplayUnit, QuantityResult};
+use crate::model::{Form, Model};
+use crate::quantities::{self, Qty, QuantityDef};
+use crate::Analysis;
+use std::collections::BTreeSet;
+
+/// The prefix of a host star's columns (`host.mass`, `host.teff`, ...).
+pub const HOST: &str = "host.";
+
+/// Which of a quantity's cells a column holds.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Part {
+    /// The value: the median with Monte Carlo, the limit for a limit.
+    Value,
+    /// Standard uncertainty below the value (0 for exact values and limits).
+    Below,
+    /// Standard uncertainty above the value.
+    Above,
+    /// `declared`, `assumed`, `derived`, `default` or `estimated`, with `;upper-limit` or
+    /// `;lower-limit` for a limit.
+    Origin,
+    /// The citation ids the value rests on, through any depth of derivation.
+    Refs,
+    /// A transit epoch's Julian-date time system (`BJD_TDB`, `HJD_UTC`, ...): epochs keep the
+    /// system they were declared in.
+    System,
+}
+
+impl Part {
+    /// The suffix after the quantity's name (`mass.below`); none for the value.
+    pub fn suffix(self) -> &'static str {
+        match self {
+            Part::Value => "",
+            Part::Below => ".below",
+            Part::Above => ".above",
+            Part::Origin => ".origin",
+            Part::Refs => ".refs",
+            Part::System => ".system",
+        }
+    }
+}
+
+/// What a column holds.
+#[derive(Debug, Clone, Copy)]
+pub enum Content {
+    File,
+    System,
+    Planet,
+    Host,
+    Quantity(&'static QuantityDef, Part),
+    /// Every citation of the row's values, `id: text`, separated by ` | `.
+    Refs,
+    /// Everything the row's values assumed, in words, separated by ` | `.
+    Assumptions,
+}
+
+/// One column of the table.
+#[derive(Debug, Clone)]
+pub struct Column {
+    pub name: String,
+    pub content: Content,
+    /// The unit numbers are written in (registry spelling, `g/cm^3`), for numeric columns of
+    /// dimensioned quantities; `None` for text and dimensionless columns.
+    pub unit: Option<&'static str>,
+}
+
+impl Column {
+    pub fn numeric(&self) -> bool {
+        matches!(
+            self.content,
+            Content::Quantity(def, Part::Value | Part::Below | Part::Above) if !def.text
+        )
+    }
+}
+
+/// Which front end a layout is for: the columns are the same, only some units differ (a
+/// VOTable's units must be expressible in VOUnit, so insolation is in W/m^2 there).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Flavor {
+    Csv,
+    VoTable,
+}
+
+/// The fixed unit of a quantity's numeric columns: the display unit, except planet mass,
+/// minimum mass and radius (whose display unit depends on size) and, in a VOTable, insolation.
+pub fn column_unit(def: &QuantityDef, flavor: Flavor) -> Option<&'static str> {
+    let unit = match def.qty {
+        Qty::Mass | Qty::MinMass => "Mjup",
+        Qty::Radius => "Rjup",
+        Qty::Insolation if flavor == Flavor::VoTable => "W/m^2",
+        _ => def.display,
+    };
+    // VOUnit has no scaled dimensionless units and no logarithmic ones: a VOTable gives
+    // fractions for percentages and leaves dex values without a unit (their description says
+    // what they are).
+    let unitless = unit == "1" || (flavor == Flavor::VoTable && (unit == "%" || unit == "dex"));
+    (!def.text && !unit.is_empty() && !unitless).then_some(unit)
+}
+
+/// The column name of a quantity's part: `period`, `period.below`, `host.mass.refs`.
+pub fn column_name(def: &QuantityDef, part: Part) -> String {
+    let prefix = if def.kind == BodyKind::Star { HOST } else { "" };
+    format!("{prefix}{}{}", def.name, part.suffix())
+}
+
+/// The parts a quantity has columns for: text quantities have no uncertainty.
+pub fn parts(def: &QuantityDef) -> &'static [Part] {
+    if def.text {
+        &[Part::Value, Part::Origin, Part::Refs]
+    } else if def.qty == Qty::TransitEpoch {
+        &[
+            Part::Value,
+            Part::Below,
+            Part::Above,
+            Part::System,
+            Part::Origin,
+            Part::Refs,
+        ]
+    } else {
+        &[
+            Part::Value,
+            Part::Below,
+            Part::Above,
+            Part::Origin,
+            Part::Refs,
+        ]
+    }
+}
+
+/// Every column, in order: `file`, `system`, `planet`, `host`, the planet's quantities, the
+/// host star's (`host.`), `refs`, `assumptions`.
+pub fn columns(flavor: Flavor) -> Vec<Column> {
+    let plain = |name: &str, content| Column {
+        name: name.to_string(),
+        content,
+        unit: None,
+    };
+    let mut v = vec![
+        plain("file", Content::File),
+        plain("system", Content::System),
+        plain("planet", Content::Planet),
+        plain("host", Content::Host),
+    ];
+    let defs = quantities::table();
+    let ordered = defs
+        .iter()
+        .filter(|d| d.kind == BodyKind::Planet)
+        .chain(defs.iter().filter(|d| d.kind == BodyKind::Star));
+    for def in ordered {
+        for &part in parts(def) {
+            let numeric = matches!(part, Part::Value | Part::Below | Part::Above);
+            v.push(Column {
+                name: column_name(def, part),
+                content: Content::Quantity(def, part),
+                unit: if numeric {
+                    column_unit(def, flavor)
+                } else {
+                    None
+                },
+            });
+        }
+    }
+    v.push(plain("refs", Content::Refs));
+    v.push(plain("assumptions", Content::Assumptions));
+    v
+}
+
+/// One cell.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Cell<'a> {
+    Empty,
+    Text(std::borrow::Cow<'a, str>),
+    Number(f64),
+}
+
+/// One row: the planet (if any) and its host star (if any), as indexes into the system's
+/// bodies.
+#[derive(Debug, Clone, Copy)]
+pub struct Row {
+    pub system: usize,
+    pub planet: Option<usize>,
+    pub host: Option<usize>,
+}
+
+/// The rows of an analysis, in declaration order: a row for every planet, and a row for
+/// every star at its own place when no planet orbits it. A body that is neither (a planet
+/// orbiting a planet) is still a row of its own, with its host's columns empty.
+pub fn rows(model: &Model) -> Vec<Row> {
+    let mut out = Vec::new();
+    for (s, sys) in model.systems.iter().enumerate() {
+        for (i, b) in sys.bodies.iter().enumerate() {
+            match b.kind {
+                BodyKind::Planet => {
+                    let host = b
+                        .orbits
+                        .filter(|&h| sys.bodies.get(h).is_some_and(|h| h.kind == BodyKind::Star));
+                    out.push(Row {
+                        system: s,
+                        planet: Some(i),
+                        host,
+                    });
+                }
+                BodyKind::Star => {
+                    let orbited = sys
+                        .bodies
+                        .iter()
+                        .any(|p| p.kind == BodyKind::Planet && p.orbits == Some(i));
+                    if !orbited {
+                        out.push(Row {
+                            system: s,
+                            planet: None,
+                            host: Some(i),
+                        });
+                    }
+                }
+            }
+        }
+    }
+    out
+}
+
+/// The results of the row's planet and host.
+fn results(a: &Analysis, row: Row) -> (Option<&BodyResult>, Option<&BodyResult>) {
+    let res = a.results.get(row.system);
+    let get = |i: Option<usize>| i.and_then(|i| res.and_then(|r| r.bodies.get(i)));
+    (get(row.planet), get(row.host))
+}
+
+/// Join with ` | `.
+fn joined<'a>(items: impl IntoIterator<Item = &'a str>) -> String {
+    let mut s = String::new();
+    for (i, item) in items.into_iter().enumerate() {
+        if i > 0 {
+            s.push_str(" | ");
+        }
+        s.push_str(item);
+    }
+    s
+}
+
+/// The cell of `column` in `row`. `file` is the file's name as shown.
+pub fn cell<'a>(a: &'a Analysis, file: &'a str, row: Row, column: &Column) -> Cell<'a> {
+    let sys = a.model.systems.get(row.system);
+    let body_id = |i: Option<usize>| {
+        i.and_then(|i| sys.and_then(|s| s.bodies.get(i)))
+            .map_or(Cell::Empty, |b| Cell::Text(b.id.as_str().into()))
+    };
+    let (planet, host) = results(a, row);
+    match column.content {
+        Content::File => Cell::Text(file.into()),
+        Content::System => sys.map_or(Cell::Empty, |s| Cell::Text(s.name.as_str().into())),
+        Content::Planet => body_id(row.planet),
+        Content::Host => body_id(row.host),
+        Content::Quantity(def, part) => {
+            let body = if def.kind == BodyKind::Star {
+                host
+            } else {
+                planet
+            };
+            match body.and_then(|b| b.get(def.qty)) {
+                Some(q) => quantity_cell(def, part, q, column.unit),
+                None => Cell::Empty,
+            }
+        }
+        Content::Refs => {
+            let ids: BTreeSet<&str> = [planet, host]
+                .into_iter()
+                .flatten()
+                .flat_map(|b| &b.quantities)
+                .flat_map(|q| q.cited.iter().map(String::as_str))
+                .collect();
+            let described: Vec<String> = ids
+                .iter()
+                .map(|id| match a.model.refs.iter().find(|r| r.id == *id) {
+                    Some(r) => format!("{id}: {}", r.text),
+                    None => (*id).to_string(),
+                })
+                .collect();
+            Cell::Text(joined(described.iter().map(String::as_str)).into())
+        }
+        Content::Assumptions => {
+            // What the row's values assumed, in words, so the table never hides a default or
+            // an approximation (the JSON output has them per quantity). A note that speaks of
+            // one value ("sampled, not first-order: ... of the value") names it.
+            let name = |i: Option<usize>| {
+                i.and_then(|i| sys.and_then(|s| s.bodies.get(i)))
+                    .map_or("", |b| b.id.as_str())
+            };
+            let mut assumed: BTreeSet<std::borrow::Cow<str>> = BTreeSet::new();
+            for (body, id) in [(planet, name(row.planet)), (host, name(row.host))] {
+                for q in body.iter().flat_map(|b| &b.quantities) {
+                    for a in &q.assumptions {
+                        if a.starts_with(crate::derive::validity::SAMPLED) {
+                            let qname = quantities::def(q.qty).name;
+                            assumed.insert(format!("{id}.{qname}: {a}").into());
+                        } else {
+                            assumed.insert(a.as_str().into());
+                        }
+                    }
+                }
+            }
+            Cell::Text(joined(assumed.iter().map(|a| a.as_ref())).into())
+        }
+    }
+}
+
+fn quantity_cell<'a>(
+    def: &QuantityDef,
+    part: Part,
+    q: &'a QuantityResult,
+    unit: Option<&str>,
+) -> Cell<'a> {
+    let factor = unit.and_then(DisplayUnit::parse).map_or(1.0, |u| u.factor);
+    let number = |v: f64| {
+        let v = tidy(v / factor);
+        if v.is_finite() {
+            Cell::Number(v)
+        } else {
+            Cell::Empty
+        }
+    };
+    match part {
+        Part::Value if def.text => q
+            .text
+            .as_deref()
+            .map_or(Cell::Empty, |t| Cell::Text(t.into())),
+        Part::Value => number(q.value),
+        Part::Below => number(q.below),
+        Part::Above => number(q.above),
+        Part::Origin => {
+            let limit = match q.form {
+                Form::UpperLimit => ";upper-limit",
+                Form::LowerLimit => ";lower-limit",
+                _ => "",
+            };
+            Cell::Text(format!("{}{limit}", q.origin.as_str()).into())
+        }
+        Part::Refs => Cell::Text(q.cited.join("; ").into()),
+        Part::System => Cell::Text(q.unit.as_deref().unwrap_or(def.display).into()),
+    }
+}
+
+/// `v` rounded to 15 significant digits, which every double holds exactly: a declared value
+/// converted to SI and back (3.52474 d, through seconds) is written as declared rather than
+/// with the last bit's noise (3.5247400000000004).
+pub fn tidy(v: f64) -> f64 {
+    if !v.is_finite() || v == 0.0 {
+        return v;
+    }
+    format!("{v:.14e}").parse().unwrap_or(v)
+}
+
+/// The IVOA UCD1+ descriptor of a quantity's value (UCD list EN-1.6, 2024-12-18; the words
+/// are checked against a copy of that list in tests/reference/ucd-list.txt); `None` where the
+/// vocabulary has no word for it.
+pub fn ucd(def: &QuantityDef) -> Option<&'static str> {
+    Some(match def.qty {
+        Qty::StarMass | Qty::Mass => "phys.mass",
+        Qty::MinMass => "phys.mass",
+        Qty::StarRadius | Qty::Radius => "phys.size.radius",
+        Qty::Teff => "phys.temperature.effective",
+        Qty::Luminosity => "phys.luminosity",
+        Qty::LogG => "phys.gravity",
+        Qty::StarDensity | Qty::Density => "phys.density",
+        Qty::Metallicity => "phys.abund.Z",
+        Qty::Age => "time.age",
+        Qty::Distance => "pos.distance",
+        Qty::Parallax => "pos.parallax.trig",
+        Qty::SpectralType => "src.spType",
+        Qty::Period => "time.period.revolution",
+        Qty::SemiMajorAxis => "phys.size.smajAxis",
+        Qty::Eccentricity => "src.orbital.eccentricity",
+        Qty::Inclination => "src.orbital.inclination",
+        Qty::ArgPeriastron => "src.orbital.periastron",
+        Qty::RvAmplitude => "spect.dopplerVeloc;src.var.amplitude",
+        Qty::RadiusRatio => "phys.size.radius;arith.ratio",
+        Qty::TransitDuration | Qty::TransitDurationFull => "time.duration",
+        Qty::TransitEpoch => "time.epoch",
+        Qty::Albedo => "phys.albedo",
+        Qty::SurfaceGravity => "phys.gravity",
+        Qty::EscapeVelocity => "phys.veloc.escape",
+        Qty::OrbitalSpeed => "phys.veloc.orbital",
+        Qty::Teq => "phys.temperature",
+        Qty::Insolation => "phot.flux.bol",
+        _ => return None,
+    })
+}
+
+/// The UCD of a column, where there is one: the quantity's for its value, `stat.error;` and
+/// the quantity's for its uncertainties, `meta.id` for names, `meta.ref` for citations.
+pub fn column_ucd(column: &Column) -> Option<String> {
+    match column.content {
+        Content::File => Some("meta.id;meta.file".into()),
+        Content::System => Some("meta.id".into()),
+        Content::Planet | Content::Host => Some("meta.id".into()),
+        Content::Quantity(def, part) => {
+            let base = ucd(def)?;
+            match part {
+                Part::Value => Some(base.into()),
+                Part::Below | Part::Above => Some(format!("stat.error;{base}")),
+                Part::Origin => Some("meta.code".into()),
+                Part::System => Some("time.scale".into()),
+                Part::Refs => Some("meta.ref".into()),
+            }
+        }
+        Content::Refs => Some("meta.bib".into()),
+        Content::Assumptions => Some("meta.note".into()),
+    }
+}
+
+/// A column unit in VOUnit syntax (IVOA VOUnits 1.0): `None` for a unit it cannot express.
+/// VOUnit has no Jupiter units: Jupiter's mass and radius are written as SI units with a scale
+/// factor (the core's IAU 2015 Resolution B3 values, `1.8981245973360505e27kg`), the form
+/// astropy's VOUnit writer uses and its reader understands; the FIELD's description names
+/// them in words.
+pub fn vo_unit(unit: &str) -> Option<std::borrow::Cow<'static, str>> {
+    let scaled = |si: &str| {
+        DisplayUnit::parse(unit).map(|u| std::borrow::Cow::Owned(format!("{:e}{si}", u.factor)))
+    };
+    Some(std::borrow::Cow::Borrowed(match unit {
+        "Mjup" => return scaled("kg"),
+        "Rjup" => return scaled("m"),
+        "Msun" => "solMass",
+        "Rsun" => "solRad",
+        "Lsun" => "solLum",
+        "K" => "K",
+        "g/cm^3" => "g.cm**-3",
+        "Gyr" => "Gyr",
+        "pc" => "pc",
+        "mas" => "mas",
+        "d" | "BJD_TDB" => "d",
+        "h" => "h",
+        "au" => "au",
+        "deg" => "deg",
+        "m/s" => "m.s**-1",
+        "km/s" => "km.s**-1",
+        "m/s^2" => "m.s**-2",
+        "W/m^2" => "W.m**-2",
+        _ => return None,
+    }))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn tidy_removes_conversion_noise_only() {
+        // 3.52474 d through seconds and back, and 41.2 pc through metres and back.
+        assert_eq!(tidy(3.52474 * 86_400.0 / 86_400.0), 3.52474);
+        assert_eq!(tidy(41.199999999999996), 41.2);
+        // Digits that are really there stay.
+        assert_eq!(tidy(0.123456789012345), 0.123456789012345);
+        assert_eq!(tidy(-2.5e-30), -2.5e-30);
+        assert!(tidy(f64::NAN).is_nan());
+    }
+
+    #[test]
+    fn every_column_name_is_unique_and_every_unit_is_known() {
+        for flavor in [Flavor::Csv, Flavor::VoTable] {
+            let cols = columns(flavor);
+            let names: BTreeSet<&str> = cols.iter().map(|c| c.name.as_str()).collect();
+            assert_eq!(names.len(), cols.len(), "{flavor:?}");
+            for c in &cols {
+                if let Some(u) = c.unit {
+                    assert!(DisplayUnit::parse(u).is_some(), "{u}");
+                    if flavor == Flavor::VoTable {
+                        assert!(vo_unit(u).is_some(), "no VOUnit for {u}");
+                    }
+                }
+            }
+        }
+    }
+
+    /// Every UCD written is made of words of the UCD1+ list (IVOA, EN-UCDlist-v1.6-2024-12-18,
+    /// copied unchanged from the `ivoa-std/UCDList` repository) in allowed places: the first
+    /// word may be primary (codes P, Q, E, C, V), later ones secondary (S, Q, E, C, V).
+    #[test]
+    fn every_ucd_uses_the_ivoa_vocabulary_in_order() {
+        let list = include_str!("../../../tests/reference/ucd-list.txt");
+        let words: std::collections::HashMap<&str, &str> = list
+            .lines()
+            .filter(|l| !l.starts_with('#'))
+            .filter_map(|l| {
+                let mut f = l.split('|').map(str::trim);
+                let code = f.next()?;
+                Some((f.next()?, code))
+            })
+            .collect();
+        assert!(words.len() > 400, "the list did not read");
+        let mut checked = 0;
+        for c in columns(Flavor::VoTable) {
+            let Some(ucd) = column_ucd(&c) else { continue };
+            for (i, w) in ucd.split(';').enumerate() {
+                let code = words
+                    .get(w)
+                    .unwrap_or_else(|| panic!("{}: {w} not in the list", c.name));
+                let allowed = if i == 0 { "PQECV" } else { "SQECV" };
+                assert!(
+                    allowed.contains(code),
+                    "{}: {w} ({code}) at place {i}",
+                    c.name
+                );
+            }
+            checked += 1;
+        }
+        assert!(checked > 100);
+    }
+
+    #[test]
+    fn no_column_uses_a_prefix_scheme_for_the_host() {
+        // Host columns are grouped under `host.`, never `star_` / `st_` prefixes.
+        for c in columns(Flavor::Csv) {
+            assert!(
+                !c.name.starts_with("star_") && !c.name.starts_with("st_"),
+                "{}",
+                c.name
+            );
+        }
+        assert!(columns(Flavor::Csv).iter().any(|c| c.name == "host.mass"));
+    }
+}
