@@ -4,13 +4,19 @@
 use crate::check_cmd::Shown;
 use crate::files::{self, load_with_settings};
 use crate::render::rendered_diagnostics;
-use crate::{csv_out, json_out, output, render, votable_out, EvalFormat};
+use crate::{csv_out, json_out, output, render, votable_out, EvalFormat, TableArg};
 use std::io::Write;
 use std::path::PathBuf;
 use syzygy::settings::Layer;
 use syzygy::{Options, Propagation, Settings};
 
-pub fn run(paths: &[PathBuf], format: EvalFormat, flags: &Layer, read: files::ReadArgs) -> u8 {
+pub fn run(
+    paths: &[PathBuf],
+    format: EvalFormat,
+    table: TableArg,
+    flags: &Layer,
+    read: files::ReadArgs,
+) -> u8 {
     let Some((loaded, settings)) = load_with_settings(paths, flags, read) else {
         return 2;
     };
@@ -69,7 +75,7 @@ pub fn run(paths: &[PathBuf], format: EvalFormat, flags: &Layer, read: files::Re
             }
         }
         EvalFormat::Csv => {
-            let header = csv_out::header()
+            let header = csv_out::header(table)
                 .map_err(std::io::Error::other)
                 .and_then(|h| out.write_all(&h))
                 .err();
@@ -78,7 +84,12 @@ pub fn run(paths: &[PathBuf], format: EvalFormat, flags: &Layer, read: files::Re
                 &settings,
                 &mut out,
                 render::stderr_color(),
-                |a| (csv_out::rows(a, db).map_err(std::io::Error::other), ()),
+                |a| {
+                    (
+                        csv_out::rows(a, db, table).map_err(std::io::Error::other),
+                        (),
+                    )
+                },
                 |()| {},
             );
             errors |= bad;
@@ -93,7 +104,7 @@ pub fn run(paths: &[PathBuf], format: EvalFormat, flags: &Layer, read: files::Re
             let mut refs: Vec<[String; 3]> = Vec::new();
             let mut files_with_errors = 0usize;
             let head = out
-                .write_all(votable_out::head(&propagation_words(&options)).as_bytes())
+                .write_all(votable_out::head(&propagation_words(&options), table).as_bytes())
                 .err();
             let (bad, failure) = stream_per_file(
                 db,
@@ -101,7 +112,7 @@ pub fn run(paths: &[PathBuf], format: EvalFormat, flags: &Layer, read: files::Re
                 &mut out,
                 render::stderr_color(),
                 |a| {
-                    let (rows, refs) = votable_out::rows(a, db);
+                    let (rows, refs) = votable_out::rows(a, db, table);
                     (Ok(rows.into_bytes()), (refs, a.has_errors()))
                 },
                 |(more, bad)| {

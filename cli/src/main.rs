@@ -88,6 +88,15 @@ pub(crate) enum EvalFormat {
 }
 
 #[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub(crate) enum TableArg {
+    /// One row per planet with its host star's values joined; every declared and derived value.
+    Planets,
+    /// One row per declared value, every source of a quantity declared several times included
+    /// (which one is used, and the line it is on).
+    Sources,
+}
+
+#[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
 pub(crate) enum CheckFormat {
     /// Each problem with the lines it is on, for people.
     Human,
@@ -197,7 +206,7 @@ enum Command {
     },
     /// Print every system and body with its declared and derived quantities.
     #[command(
-        after_help = "Each value shows its uncertainty to two significant digits, its rule and inputs, and what was assumed; JSON and CSV keep full precision.\n\nExample:\n  syz eval examples/veyra.syz\n  syz eval --format json --propagation linear examples/\n  syz eval --format csv --propagation linear catalogue/ > table.csv"
+        after_help = "Each value shows its uncertainty to two significant digits, its rule and inputs, and what was assumed; JSON and CSV keep full precision.\n\nExample:\n  syz eval examples/veyra.syz\n  syz eval --format json --propagation linear examples/\n  syz eval --format csv --propagation linear catalogue/ > table.csv\n  syz eval --format votable --table sources catalogue/ > declared.vot"
     )]
     Eval {
         /// Files, or folders searched for *.syz files.
@@ -205,6 +214,9 @@ enum Command {
         paths: Vec<PathBuf>,
         #[arg(long, value_enum, default_value = "human")]
         format: EvalFormat,
+        /// Which table `--format csv` and `--format votable` write.
+        #[arg(long, value_enum, default_value = "planets")]
+        table: TableArg,
         #[command(flatten)]
         engine: EngineArgs,
         #[command(flatten)]
@@ -290,9 +302,10 @@ fn main() -> ExitCode {
         Command::Eval {
             paths,
             format,
+            table,
             engine,
             read,
-        } => eval_cmd::run(&paths, format, &engine.flags(), read),
+        } => eval_cmd::run(&paths, format, table, &engine.flags(), read),
         Command::Explain {
             file,
             target,

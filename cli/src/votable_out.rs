@@ -3,6 +3,7 @@
 //! UCD1+ descriptor where the vocabulary has one, a description saying what the column holds)
 //! and a second table of the citations. docs/table-output.md documents it.
 
+use crate::TableArg;
 use std::fmt::Write as _;
 use syzygy::quantities::Qty;
 use syzygy::source::SourceDb;
@@ -86,7 +87,7 @@ fn description(column: &Column) -> String {
 
 /// Everything before the first row: the document, its resource, the notes that say what the
 /// numbers are, and the table's FIELDs.
-pub fn head(propagation: &str) -> String {
+pub fn head(propagation: &str, which: TableArg) -> String {
     let mut out = String::new();
     out.push_str("<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n");
     out.push_str("<VOTABLE version=\"1.4\"");
@@ -110,20 +111,30 @@ pub fn head(propagation: &str) -> String {
     out.push_str(
         "  <TIMESYS ID=\"bjd_tdb\" timeorigin=\"JD-origin\" timescale=\"TDB\" refposition=\"BARYCENTER\"/>\n",
     );
+    match which {
+        TableArg::Planets => planet_fields(&mut out),
+        TableArg::Sources => source_fields(&mut out),
+    }
+    out.push_str("   <DATA>\n    <TABLEDATA>\n");
+    out
+}
+
+/// The planet-centred table's start and FIELDs.
+fn planet_fields(out: &mut String) {
     out.push_str("  <TABLE name=\"planets\">\n");
     for column in table::columns(Flavor::VoTable) {
         out.push_str("   <FIELD");
-        attr(&mut out, "name", &column.name);
+        attr(out, "name", &column.name);
         if column.numeric() {
             out.push_str(" datatype=\"double\"");
         } else {
             out.push_str(" datatype=\"unicodeChar\" arraysize=\"*\"");
         }
         if let Some(unit) = column.unit.and_then(table::vo_unit) {
-            attr(&mut out, "unit", &unit);
+            attr(out, "unit", &unit);
         }
         if let Some(ucd) = table::column_ucd(&column) {
-            attr(&mut out, "ucd", &ucd);
+            attr(out, "ucd", &ucd);
         }
         if let Content::Quantity(def, Part::Value) = column.content {
             if def.qty == Qty::TransitEpoch {
@@ -131,32 +142,89 @@ pub fn head(propagation: &str) -> String {
             }
         }
         out.push_str(">\n    <DESCRIPTION>");
-        escape(&mut out, &description(&column));
+        escape(out, &description(&column));
         out.push_str("</DESCRIPTION>\n   </FIELD>\n");
     }
-    out.push_str("   <DATA>\n    <TABLEDATA>\n");
-    out
+}
+
+/// The columns of the table of declared values: name, numeric, UCD, description.
+const SOURCE_FIELDS: [(&str, &str, &str); 16] = [
+    ("file", "meta.id;meta.file", "The file the value is declared in"),
+    ("system", "meta.id", "System name"),
+    ("body", "meta.id", "Id of the star or planet"),
+    ("kind", "meta.code.class", "star or planet"),
+    ("host", "meta.id", "A planet's host star id"),
+    ("quantity", "", "The quantity's name in the language"),
+    ("value", "stat.value", "The value as declared, in the row's unit (the limit for a limit)"),
+    ("below", "stat.error", "Standard uncertainty below the value, in the row's unit"),
+    ("above", "stat.error", "Standard uncertainty above the value, in the row's unit"),
+    ("text", "", "The value of a text quantity (a spectral type)"),
+    ("unit", "meta.unit", "The unit of value, below and above (the language's spelling; an epoch's Julian-date time system)"),
+    ("limit", "meta.code.error", "upper or lower for a limit"),
+    ("origin", "meta.code", "declared or assumed"),
+    ("refs", "meta.ref", "The citation ids of the declaration, separated by '; '"),
+    ("line", "meta.record", "The line of the declaration in its file"),
+    ("used", "meta.code", "yes: the value used; no: another source is used; combined: the value used is a weighted mean of the sources"),
+];
+
+/// The table of declared values' start and FIELDs.
+fn source_fields(out: &mut String) {
+    out.push_str("  <TABLE name=\"sources\">\n");
+    for (i, (name, ucd, what)) in SOURCE_FIELDS.iter().enumerate() {
+        out.push_str("   <FIELD");
+        attr(out, "name", name);
+        if i == 0 || !table::SourceRow::numeric(i - 1) {
+            out.push_str(" datatype=\"unicodeChar\" arraysize=\"*\"");
+        } else {
+            out.push_str(" datatype=\"double\"");
+        }
+        if !ucd.is_empty() {
+            attr(out, "ucd", ucd);
+        }
+        out.push_str(">\n    <DESCRIPTION>");
+        escape(out, what);
+        out.push_str("</DESCRIPTION>\n   </FIELD>\n");
+    }
 }
 
 /// The rows of one analysed file, and its citations as `(file, id, text)`.
-pub fn rows(a: &Analysis, db: &dyn SourceDb) -> (String, Vec<[String; 3]>) {
-    let columns = table::columns(Flavor::VoTable);
+pub fn rows(a: &Analysis, db: &dyn SourceDb, which: TableArg) -> (String, Vec<[String; 3]>) {
     let file = db.name(a.file);
     let mut out = String::new();
-    for row in table::rows(&a.model) {
-        out.push_str("     <TR>");
-        for column in &columns {
-            out.push_str("<TD>");
-            match table::cell(a, file, row, column) {
-                Cell::Empty => {}
-                Cell::Text(t) => escape(&mut out, &t),
-                Cell::Number(v) => {
-                    let _ = write!(out, "{v}");
-                }
+    let td = |out: &mut String, cell: &Cell| {
+        out.push_str("<TD>");
+        match cell {
+            Cell::Empty => {}
+            Cell::Text(t) => escape(out, t),
+            Cell::Number(v) => {
+                let _ = write!(out, "{v}");
             }
-            out.push_str("</TD>");
         }
-        out.push_str("</TR>\n");
+        out.push_str("</TD>");
+    };
+    match which {
+        TableArg::Planets => {
+            let columns = table::columns(Flavor::VoTable);
+            for row in table::rows(&a.model) {
+                out.push_str("     <TR>");
+                for column in &columns {
+                    td(&mut out, &table::cell(a, file, row, column));
+                }
+                out.push_str("</TR>\n");
+            }
+        }
+        TableArg::Sources => {
+            let lines = db.line_index(a.file);
+            let line = |offset: u32| lines.line_at(offset as usize) + 1;
+            for row in table::source_rows(a, &line) {
+                out.push_str("     <TR>");
+                td(&mut out, &Cell::Text(file.into()));
+                for cell in row.cells() {
+                    td(&mut out, &cell);
+                }
+                out.push_str("</TR>\n");
+            }
+        }
     }
     let refs = a
         .model

@@ -148,3 +148,54 @@ fn csv_says_what_each_body_assumed() {
         "{planet_c:?}"
     );
 }
+
+#[test]
+fn the_sources_table_lists_every_declaration_with_the_one_used() {
+    // examples/halvard.syz declares the stellar mass, the period, the transit depth and the
+    // eccentricity twice each, from different papers.
+    let o = run(&[
+        "eval",
+        "--format",
+        "csv",
+        "--table",
+        "sources",
+        "--propagation",
+        "linear",
+        "examples/halvard.syz",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", syzygy_e2e::stderr(&o));
+    let rows = parse(&stdout(&o));
+    let col = |n: &str| rows[0].iter().position(|h| h == n).unwrap();
+    // Every line of the file that declares a value is a row, at its own line.
+    let text = std::fs::read_to_string(syzygy_e2e::root().join("examples/halvard.syz")).unwrap();
+    let declaring: Vec<usize> = text
+        .lines()
+        .enumerate()
+        .filter(|(_, l)| {
+            let l = l.trim_start();
+            let declares = l.contains(" = ") || l.contains(" < ") || l.contains(" > ");
+            !l.starts_with('#') && declares && !l.starts_with("let ")
+        })
+        .map(|(i, _)| i + 1)
+        .collect();
+    let lines: Vec<usize> = rows[1..]
+        .iter()
+        .map(|r| r[col("line")].parse().unwrap())
+        .collect();
+    assert_eq!(lines, declaring);
+    // Of the two periods, the more precise (brenn) is used.
+    let periods: Vec<_> = rows[1..]
+        .iter()
+        .filter(|r| r[col("quantity")] == "period")
+        .collect();
+    assert_eq!(periods.len(), 2);
+    assert_eq!(
+        periods
+            .iter()
+            .map(|r| (r[col("refs")].as_str(), r[col("used")].as_str()))
+            .collect::<Vec<_>>(),
+        [("aster", "no"), ("brenn", "yes")]
+    );
+    assert_eq!(periods[1][col("value")], "4.21762");
+    assert_eq!(periods[1][col("unit")], "d");
+}

@@ -446,6 +446,170 @@ pub fn vo_unit(unit: &str) -> Option<std::borrow::Cow<'static, str>> {
     }))
 }
 
+/// The columns of the table of declared values (`--table sources`): one row per declaration,
+/// every source of a quantity declared several times included.
+pub const SOURCE_COLUMNS: &[&str] = &[
+    "file", "system", "body", "kind", "host", "quantity", "value", "below", "above", "text",
+    "unit", "limit", "origin", "refs", "line", "used",
+];
+
+/// One declared value, for the table of declared values.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SourceRow<'a> {
+    pub system: &'a str,
+    pub body: &'a str,
+    pub kind: &'static str,
+    /// A planet's host star id (empty for stars).
+    pub host: &'a str,
+    pub quantity: &'static str,
+    /// The value in `unit`, uncertainties in the same unit (empty for a text quantity).
+    pub value: Cell<'a>,
+    pub below: Cell<'a>,
+    pub above: Cell<'a>,
+    /// The value of a text quantity (a spectral type).
+    pub text: &'a str,
+    /// The column unit of the quantity (registry spelling), or the epoch's time system; empty
+    /// for plain numbers and text.
+    pub unit: &'a str,
+    /// `upper`, `lower` or empty.
+    pub limit: &'static str,
+    /// `declared` or `assumed`.
+    pub origin: &'static str,
+    /// Citation ids, separated by `; `.
+    pub refs: String,
+    /// 1-based line of the declaration (0 when unknown).
+    pub line: usize,
+    /// `yes` (the value used), `no` (another source was used), `combined` (the value used is
+    /// a weighted mean of the sources).
+    pub used: &'static str,
+}
+
+/// Every declared value of an analysis, in file order of the bodies and table order of the
+/// quantities; `line` turns a byte offset into a 1-based line.
+pub fn source_rows<'a>(a: &'a Analysis, line: &dyn Fn(u32) -> usize) -> Vec<SourceRow<'a>> {
+    use crate::derive::Origin;
+    let mut out = Vec::new();
+    for (sys, res) in a.model.systems.iter().zip(&a.results) {
+        for (b, r) in sys.bodies.iter().zip(&res.bodies) {
+            let host = b
+                .orbits
+                .and_then(|h| sys.bodies.get(h))
+                .map_or("", |h| h.id.as_str());
+            let first = out.len();
+            for q in &r.quantities {
+                let origin = match q.origin {
+                    Origin::Declared => "declared",
+                    Origin::Assumed => "assumed",
+                    _ => continue,
+                };
+                let def = quantities::def(q.qty);
+                let unit = if q.qty == Qty::TransitEpoch {
+                    q.unit.as_deref().unwrap_or(def.display)
+                } else {
+                    column_unit(def, Flavor::Csv).unwrap_or("")
+                };
+                let factor = DisplayUnit::parse(unit).map_or(1.0, |u| u.factor);
+                let number = |v: f64| {
+                    let v = tidy(v / factor);
+                    if v.is_finite() {
+                        Cell::Number(v)
+                    } else {
+                        Cell::Empty
+                    }
+                };
+                let limit = |f: Form| match f {
+                    Form::UpperLimit => "upper",
+                    Form::LowerLimit => "lower",
+                    _ => "",
+                };
+                let mut row = SourceRow {
+                    system: &sys.name,
+                    body: &b.id,
+                    kind: b.kind.as_str(),
+                    host,
+                    quantity: def.name,
+                    value: number(q.value),
+                    below: number(q.below),
+                    above: number(q.above),
+                    text: "",
+                    unit,
+                    limit: limit(q.form),
+                    origin,
+                    refs: q.citations.join("; "),
+                    line: q.span.map_or(0, |s| line(s.start)),
+                    used: "yes",
+                };
+                if def.text {
+                    row.text = q.text.as_deref().unwrap_or("");
+                    row.value = Cell::Empty;
+                    row.below = Cell::Empty;
+                    row.above = Cell::Empty;
+                }
+                if q.sources.is_empty() {
+                    out.push(row);
+                    continue;
+                }
+                let combined = q.sources.iter().all(|s| !s.chosen);
+                for s in &q.sources {
+                    out.push(SourceRow {
+                        value: number(s.value),
+                        below: number(s.below),
+                        above: number(s.above),
+                        limit: limit(s.form),
+                        refs: s.citations.join("; "),
+                        line: line(s.span.start),
+                        used: if combined {
+                            "combined"
+                        } else if s.chosen {
+                            "yes"
+                        } else {
+                            "no"
+                        },
+                        ..row.clone()
+                    });
+                }
+            }
+            // In the order the body declares them.
+            if let Some(rows) = out.get_mut(first..) {
+                rows.sort_by_key(|r| r.line);
+            }
+        }
+    }
+    out
+}
+
+impl SourceRow<'_> {
+    /// Whether the column of [`SOURCE_COLUMNS`] at `i` holds numbers.
+    pub fn numeric(i: usize) -> bool {
+        matches!(
+            SOURCE_COLUMNS.get(i),
+            Some(&("value" | "below" | "above" | "line"))
+        )
+    }
+
+    /// The cells in the order of [`SOURCE_COLUMNS`], after the file's name.
+    pub fn cells(&self) -> [Cell<'_>; 15] {
+        let t = |s: &str| Cell::Text(std::borrow::Cow::Owned(s.to_string()));
+        [
+            t(self.system),
+            t(self.body),
+            t(self.kind),
+            t(self.host),
+            t(self.quantity),
+            self.value.clone(),
+            self.below.clone(),
+            self.above.clone(),
+            t(self.text),
+            t(self.unit),
+            t(self.limit),
+            t(self.origin),
+            t(&self.refs),
+            Cell::Number(self.line as f64),
+            t(self.used),
+        ]
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
