@@ -116,12 +116,18 @@ fn votable_is_well_formed_with_hostile_text_and_errors() {
     std::fs::write(
         &path,
         "ref w \"Smith & Jones <2020> \\\"quoted\\\"\"\n\
-         system \"A&B <x>\" {\n  star s { mass = 1 Msun [w] radius = 1 Rsun }\n  \
-         planet b orbits s { period = 3 d [w] mass = -1 Mjup }\n  star lone { teff = 5000 K }\n}\n",
+         system \"A&B <x>\" {\n  star s {\n    mass = 1 Msun [w]\n    radius = 1 Rsun\n  }\n  \
+         planet b orbits s {\n    period = 3 d [w]\n    mass = -1 Mjup\n  }\n  \
+         star lone {\n    teff = 5000 K\n  }\n}\n",
     )
     .unwrap();
     let o = run(&["eval", "--format", "votable", path.to_str().unwrap()]);
     assert_eq!(o.status.code(), Some(1), "a negative mass is an error");
+    assert!(
+        syzygy_e2e::stderr(&o).contains("mass") && !syzygy_e2e::stderr(&o).contains("[syntax]"),
+        "{}",
+        syzygy_e2e::stderr(&o)
+    );
     let text = stdout(&o);
     let doc = roxmltree::Document::parse(&text).unwrap_or_else(|e| panic!("{e}\n{text}"));
     let root_el = doc.root_element();
