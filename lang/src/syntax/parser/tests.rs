@@ -404,3 +404,16 @@ fn a_unit_before_the_uncertainty_gets_the_value_rewritten() {
     // A '±' elsewhere gets no such help.
     assert!(!help_of("± 0.1").unwrap_or_default().contains("goes after"));
 }
+
+#[test]
+fn two_properties_on_one_line_get_help_to_split_them() {
+    let h = help_of("1 Msun radius = 1 Rsun").unwrap();
+    assert!(
+        h.contains("one property per line") && h.contains("`radius`"),
+        "{h}"
+    );
+    // An '=' elsewhere gets no such help.
+    assert!(!help_of("1 Msun = 2")
+        .unwrap_or_default()
+        .contains("one property per line"));
+}

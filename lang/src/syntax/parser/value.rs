@@ -401,12 +401,32 @@ impl Cursor<'_> {
             d = d.with_help(
                 "a unit follows the whole measurement: `1.2 ± 0.1 Rjup`; to multiply, write `*`",
             );
+        } else if let Some(name) = self.second_property(r.start, e.found) {
+            d = d.with_help(format!(
+                "one property per line: start a new line before `{name}`"
+            ));
         }
         d
     }
 }
 
 impl Cursor<'_> {
+    /// The name of a second property written on the line of the first
+    /// (`mass = 1 Msun radius = 1 Rsun`): found '=', '<' or '>' just after a quantity's name.
+    fn second_property(&self, at: usize, found: Option<Tok>) -> Option<&str> {
+        if !matches!(found?, Tok::Eq | Tok::Lt | Tok::Gt) {
+            return None;
+        }
+        let i = self.toks.partition_point(|t| t.start < at);
+        let name = self.toks.get(i.checked_sub(1)?)?;
+        let text = self.text(*name);
+        // Only a quantity's name: `1 Msun = 2` is not two properties.
+        let quantity = [crate::ast::BodyKind::Star, crate::ast::BodyKind::Planet]
+            .into_iter()
+            .any(|k| crate::quantities::find(k, text).is_some());
+        (name.kind == Tok::Ident && quantity).then_some(text)
+    }
+
     /// Help for an uncertainty written in a form the grammar does not take, found at
     /// `at`: `-below/+above` (the parts swapped), or a unit before the uncertainty.
     fn misplaced_uncertainty(&self, at: usize, found: Option<Tok>) -> Option<String> {
