@@ -115,20 +115,14 @@ fn the_sentence_of_the_choice_names_the_line_of_the_value_used() {
             .unwrap()
             .to_string()
     };
-    assert!(
-        said("period").ends_with(&format!(
-            "([brenn], source 2 of 2, line {})",
-            line("period", "[brenn]")
-        )),
-        "{}",
-        said("period")
-    );
-    assert!(
-        said("transit_depth").contains(&format!(
-            "the one marked preferred ([brenn], source 2 of 2, line {})",
-            line("transit_depth", "[brenn]")
-        )),
-        "{}",
-        said("transit_depth")
-    );
+    for (name, how) in [
+        ("period", "the most precise, by relative uncertainty"),
+        ("transit_depth", "the one marked preferred"),
+    ] {
+        let want = format!(
+            "chosen: {how} ([brenn], source 2 of 2, line {})",
+            line(name, "[brenn]")
+        );
+        assert!(said(name).ends_with(&want), "{}", said(name));
+    }
 }
