@@ -682,6 +682,35 @@ fn a_code_action_switches_the_source_of_a_quantity_declared_twice() {
         )),
         "{h}"
     );
+    let hints = c.result(
+        "textDocument/inlayHint",
+        json!({"textDocument": {"uri": uri}, "range": {"start": {"line": 0, "character": 0}, "end": position_of(&edited, "impact", 0)}}),
+    );
+    let brenn = hints
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|h| {
+            h["label"]
+                .as_str()
+                .unwrap()
+                .starts_with("not used: [aster]")
+        })
+        .unwrap_or_else(|| panic!("{hints}"));
+    assert_eq!(
+        brenn["label"],
+        format!("not used: [aster] (line {line}) is marked preferred")
+    );
+    assert_eq!(
+        brenn["position"],
+        position_in(
+            &edited,
+            "0.00012 d   [brenn]",
+            0,
+            "0.00012 d   [brenn]".len(),
+            false
+        )
+    );
     // The edit is in canonical layout.
     let edits = c.result(
         "textDocument/formatting",
