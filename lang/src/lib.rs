@@ -90,11 +90,12 @@ pub fn analyze(file: source::FileId, src: &str, settings: &Settings) -> Analysis
 /// large to hold whole is analysed with, one part after another. The analysis holds the
 /// part's systems, and the diagnostics whose place is in the part.
 pub fn analyze_part(src: &str, part: parts::Part, settings: &Settings) -> Analysis {
+    let lines = derive::Lines::new(src, &part.region, &part.model.systems);
     let outputs = part
         .model
         .systems
         .iter()
-        .map(|sys| derive_system(sys, &settings.options))
+        .map(|sys| derive_system(sys, &settings.options, &lines))
         .collect();
     assemble(src, part, outputs, settings)
 }
@@ -123,8 +124,12 @@ fn parse_and_lower(file: source::FileId, src: &str) -> parts::Part {
     }
 }
 
-pub(crate) fn derive_system(sys: &model::System, options: &Options) -> SystemOutput {
-    let d = derive::Derivation::run(sys, options);
+pub(crate) fn derive_system(
+    sys: &model::System,
+    options: &Options,
+    lines: &derive::Lines,
+) -> SystemOutput {
+    let d = derive::Derivation::run(sys, options, lines);
     let mut diagnostics = d.diagnostics.clone();
     let composition = checks::run(&d, &mut diagnostics)
         .into_iter()

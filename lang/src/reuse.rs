@@ -12,6 +12,10 @@
 //! is done afresh: silencing comments, sorting, and the system index of composition notes.
 //! The result is the analysis [`crate::analyze`] gives for the same text.
 //!
+//! One thing a move can change besides offsets: the sentence that says which of several
+//! declarations of a quantity is used names that declaration's line. A system with such a
+//! quantity is reused only when it starts on the same line as before.
+//!
 //! Literal inputs are named by order of use, not by position, so seeds and error-budget
 //! labels survive the move. An output is kept for reuse only if every span in it lies inside
 //! its system (a span made up elsewhere, such as an empty placeholder, would not move).
@@ -52,14 +56,20 @@ struct Kept {
     /// The system's source text, by which candidates are found.
     text: String,
     system: System,
+    /// The 1-based line the system starts on, when the text was indexed by lines.
+    line: Option<usize>,
     /// None when something in the output would not move with the system.
     output: Option<Arc<SystemOutput>>,
 }
 
 impl Kept {
     /// This system's output for `sys`, moved to its position, if `sys` is this system moved.
-    fn output_for(&self, sys: &System) -> Option<Arc<SystemOutput>> {
+    fn output_for(&self, sys: &System, line: Option<usize>) -> Option<Arc<SystemOutput>> {
         let output = self.output.as_ref()?;
+        // Its sentences name lines (see the module documentation).
+        if line != self.line && sys.bodies.iter().any(|b| !b.further.is_empty()) {
+            return None;
+        }
         let by = i64::from(sys.span.start) - i64::from(self.system.span.start);
         if by == 0 {
             return (self.system == *sys).then(|| output.clone());
@@ -85,6 +95,7 @@ pub fn analyze_reusing(
     let options = &settings.options;
     let part = crate::parse_and_lower(file, src);
     let model = &part.model;
+    let lines = crate::derive::Lines::new(src, &part.region, &model.systems);
     let mut candidates: HashMap<&str, Vec<&Kept>> = HashMap::new();
     if let Some(p) = previous.filter(|p| p.file == file && p.options.as_ref() == Some(options)) {
         for k in &p.systems {
@@ -96,16 +107,17 @@ pub fn analyze_reusing(
     let mut reused = 0;
     for sys in &model.systems {
         let text = src.get(sys.span.range()).unwrap_or_default();
+        let line = lines.line(sys.span.start);
         let found = candidates
             .get(text)
-            .and_then(|ks| ks.iter().find_map(|k| k.output_for(sys)));
+            .and_then(|ks| ks.iter().find_map(|k| k.output_for(sys, line)));
         let (output, keep) = match found {
             Some(out) => {
                 reused += 1;
                 (SystemOutput::clone(&out), Some(out))
             }
             None => {
-                let mut out = crate::derive_system(sys, options);
+                let mut out = crate::derive_system(sys, options, &lines);
                 if inside(&mut out, sys.span) {
                     let out = Arc::new(out);
                     (SystemOutput::clone(&out), Some(out))
@@ -118,6 +130,7 @@ pub fn analyze_reusing(
         kept.push(Kept {
             text: text.to_string(),
             system: sys.clone(),
+            line,
             output: keep,
         });
     }

@@ -170,3 +170,61 @@ fn hints_of_a_range_are_those_of_the_whole_file_within_it() {
     assert!(!part.is_empty() && part.len() < all.len(), "{all:?}");
     assert_eq!(part, expected);
 }
+
+#[test]
+fn the_demo_with_several_sources_shows_which_is_used_and_why_the_others_are_not() {
+    let f = load(&syzygy_e2e::root().join("examples/halvard.syz"));
+    let line = |needle: &str| f.lines.line_col(&f.src, offset_of(&f.src, needle, 0)).line;
+    let end = |needle: &str| offset_of(&f.src, needle, 0) + needle.len();
+    let hints = hints::hints(&f.analysis, &f.src, 0..f.src.len(), &f.editor.method());
+    let unused: Vec<(usize, &str)> = hints
+        .iter()
+        .filter(|h| h.label.starts_with("not used"))
+        .map(|h| (h.offset, h.label.as_str()))
+        .collect();
+    let brenn_period = line("4.21762");
+    let cole_mass = line("0.99 ± 0.03");
+    assert_eq!(
+        unused,
+        [
+            (
+                end("0.97 ± 0.04 Msun [aster]"),
+                format!("not used: [cole] (line {cole_mass}) is more precise").as_str()
+            ),
+            (
+                end("0.0008   d   [aster]"),
+                format!("not used: [brenn] (line {brenn_period}) is more precise").as_str()
+            ),
+            (
+                end("90         ppm [aster]"),
+                format!(
+                    "not used: [brenn] (line {}) is marked preferred",
+                    line("1390")
+                )
+                .as_str()
+            ),
+            (
+                end("< 0.2                   [aster]"),
+                format!(
+                    "not used: [cole] (line {}) is a measurement, this a limit",
+                    line("0.05 ± 0.03")
+                )
+                .as_str()
+            ),
+        ]
+    );
+    // Hover on either declaration of the period: both sources, the one used, and why.
+    let occurrences = symbols::occurrences(&f.analysis.ast);
+    for nth in 0..2 {
+        let at = offset_of(&f.src, "|period ", nth);
+        let (h, _) = hover::hover(&f.analysis, &occurrences, at, &f.editor.method()).unwrap();
+        assert!(h.contains("- 2 sources:"), "{h}");
+        assert!(h.contains("[brenn] (used)`"), "{h}");
+        assert!(
+            h.contains(&format!(
+                "chosen: the most precise, by relative uncertainty ([brenn], source 2 of 2, line {brenn_period})"
+            )),
+            "{h}"
+        );
+    }
+}

@@ -636,3 +636,99 @@ fn diagnostics_after_edits_are_those_of_the_text_opened_afresh() {
     assert_eq!(moved["diagnostics"].to_string(), same_uri);
     assert_eq!(c.shutdown_and_exit().unwrap().code(), Some(0));
 }
+
+#[test]
+fn a_code_action_switches_the_source_of_a_quantity_declared_twice() {
+    let path = root().join("examples/halvard.syz");
+    let (uri, text) = (file_uri(&path), std::fs::read_to_string(&path).unwrap());
+    let mut c = LspClient::start();
+    c.initialize(json!({}));
+    c.open(&uri, &text);
+    c.diagnostics(&uri, Some(1));
+    let actions_at = |c: &mut LspClient, text: &str, needle: &str| -> Vec<Value> {
+        let r = c.result(
+            "textDocument/codeAction",
+            json!({"textDocument": {"uri": uri}, "range": range_of(text, needle, 0), "context": {"diagnostics": []}}),
+        );
+        r.as_array().unwrap().clone()
+    };
+    // The period of [aster] is not used (the one of [brenn] is more precise).
+    let actions = actions_at(&mut c, &text, "4.2170 ± 0.0008");
+    let act = actions
+        .iter()
+        .find(|a| a["title"] == "Use this source for b.period ([aster])")
+        .unwrap_or_else(|| panic!("{actions:?}"));
+    assert_eq!(act["kind"], "refactor.rewrite");
+    let edited = apply_edits(&text, act["edit"]["changes"][&uri].as_array().unwrap());
+    assert_eq!(
+        edited,
+        text.replace("0.0008   d   [aster]", "0.0008   d   [aster] preferred")
+    );
+    c.notify(
+        "textDocument/didChange",
+        json!({"textDocument": {"uri": uri, "version": 2}, "contentChanges": [{"text": edited}]}),
+    );
+    c.diagnostics(&uri, Some(2));
+    // What the editor now shows: the marked value used, on its line.
+    let line = text
+        .lines()
+        .position(|l| l.contains("[aster]") && l.contains("period"))
+        .unwrap()
+        + 1;
+    let h = hover_text(&mut c, &uri, position_of(&edited, "period", 1));
+    assert!(
+        h.contains(&format!(
+            "chosen: the one marked preferred ([aster], source 1 of 2, line {line})"
+        )),
+        "{h}"
+    );
+    let hints = c.result(
+        "textDocument/inlayHint",
+        json!({"textDocument": {"uri": uri}, "range": {"start": {"line": 0, "character": 0}, "end": position_of(&edited, "impact", 0)}}),
+    );
+    let brenn = hints
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|h| {
+            h["label"]
+                .as_str()
+                .unwrap()
+                .starts_with("not used: [aster]")
+        })
+        .unwrap_or_else(|| panic!("{hints}"));
+    assert_eq!(
+        brenn["label"],
+        format!("not used: [aster] (line {line}) is marked preferred")
+    );
+    assert_eq!(
+        brenn["position"],
+        position_in(
+            &edited,
+            "0.00012 d   [brenn]",
+            0,
+            "0.00012 d   [brenn]".len(),
+            false
+        )
+    );
+    // The edit is in canonical layout.
+    let edits = c.result(
+        "textDocument/formatting",
+        json!({"textDocument": {"uri": uri}, "options": {"tabSize": 2, "insertSpaces": true}}),
+    );
+    assert_eq!(apply_edits(&edited, edits.as_array().unwrap()), edited);
+    // On the marked one, the policy can choose again, which gives back the file.
+    let actions = actions_at(&mut c, &edited, "4.2170 ± 0.0008");
+    assert!(!actions
+        .iter()
+        .any(|a| a["title"].as_str().unwrap().starts_with("Use this source")));
+    let back = actions
+        .iter()
+        .find(|a| a["title"] == "Let the project policy choose for b.period")
+        .unwrap_or_else(|| panic!("{actions:?}"));
+    assert_eq!(
+        apply_edits(&edited, back["edit"]["changes"][&uri].as_array().unwrap()),
+        text
+    );
+    assert_eq!(c.shutdown_and_exit().unwrap().code(), Some(0));
+}

@@ -92,3 +92,37 @@ fn the_project_file_can_ask_for_a_weighted_mean() {
         stderr(&o)
     );
 }
+
+#[test]
+fn the_sentence_of_the_choice_names_the_line_of_the_value_used() {
+    let demo = root().join("examples/halvard.syz");
+    let text = std::fs::read_to_string(&demo).unwrap();
+    let line = |needle: &str, cite: &str| {
+        text.lines()
+            .position(|l| l.contains(needle) && l.contains(cite))
+            .unwrap()
+            + 1
+    };
+    let v = eval_json(demo.to_str().unwrap());
+    let q = planet_b(&v);
+    let said = |name: &str| -> String {
+        q[name]["assumptions"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .map(|a| a.as_str().unwrap())
+            .find(|a| a.starts_with(&format!("b.{name}: 2 sources")))
+            .unwrap()
+            .to_string()
+    };
+    for (name, how) in [
+        ("period", "the most precise, by relative uncertainty"),
+        ("transit_depth", "the one marked preferred"),
+    ] {
+        let want = format!(
+            "chosen: {how} ([brenn], source 2 of 2, line {})",
+            line(name, "[brenn]")
+        );
+        assert!(said(name).ends_with(&want), "{}", said(name));
+    }
+}

@@ -235,8 +235,9 @@ impl<'m> Derivation<'m> {
             .iter()
             .map(|d| d.citations.iter().map(|c| c.0.clone()).collect())
             .collect();
+        let lines: Vec<Option<usize>> = all.iter().map(|d| self.lines.line(d.span.start)).collect();
         let name = format!("{}.{}", body.id, quantities::def(first.qty).name);
-        let words = sources::words(&name, &cites, &chosen);
+        let words = sources::words(&name, &cites, &lines, &chosen);
         self.chosen.insert((bi, first.qty), chosen.clone());
         Some((chosen, words))
     }

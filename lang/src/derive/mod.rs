@@ -32,7 +32,7 @@ use crate::source::Span;
 use rules::{RuleDef, Slot, RULES};
 use rustc_hash::{FxHashMap, FxHashSet};
 use set::SortedSet;
-pub use sources::{Choice, SourceChoice};
+pub use sources::{Choice, Lines, SourceChoice};
 use std::collections::BTreeMap;
 use std::sync::Arc;
 pub use summary::{
@@ -139,6 +139,8 @@ struct Candidate {
 pub struct Derivation<'m> {
     pub sys: &'m System,
     pub options: Options,
+    /// The lines of the text, for sentences that name a declaration's line.
+    lines: &'m sources::Lines,
     entries: FxHashMap<Key, Entry>,
     candidates: BTreeMap<Key, Vec<Candidate>>,
     pub inputs: Vec<InputInfo>,
@@ -186,7 +188,7 @@ fn samples_for(bodies: usize, asked: usize) -> (usize, Option<Arc<str>>) {
 }
 
 impl<'m> Derivation<'m> {
-    pub fn run(sys: &'m System, options: &Options) -> Derivation<'m> {
+    pub fn run(sys: &'m System, options: &Options, lines: &'m sources::Lines) -> Derivation<'m> {
         let mut options = options.clone();
         let mut fewer_samples = None;
         if options.propagation == Propagation::MonteCarlo {
@@ -197,6 +199,7 @@ impl<'m> Derivation<'m> {
         let mut d = Derivation {
             sys,
             options,
+            lines,
             entries: FxHashMap::default(),
             candidates: BTreeMap::new(),
             inputs: Vec::new(),

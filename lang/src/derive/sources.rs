@@ -18,7 +18,8 @@
 //! constraining is used (the smallest upper limit, else the largest lower limit). A value
 //! without uncertainty cannot be weighted: `weighted-mean` then takes the most precise.
 
-use crate::model::{Form, Measurement};
+use crate::model::{Form, Measurement, System};
+use crate::source::{LineIndex, Region};
 
 /// The project file's policy for a quantity with several sources and none marked.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -201,13 +202,52 @@ fn most_constraining(sources: &[Measurement]) -> Option<usize> {
     of(Form::UpperLimit, |a, b| a < b).or_else(|| of(Form::LowerLimit, |a, b| a > b))
 }
 
+/// The 1-based line in the file of a declaration, which the sentence of the choice names.
+/// Holds a line index only for texts that declare some quantity more than once.
+#[derive(Debug, Default)]
+pub struct Lines {
+    index: Option<LineIndex>,
+    /// The byte offset and 0-based line in the file where the indexed text starts.
+    start: usize,
+    first_line: usize,
+}
+
+impl Lines {
+    /// The lines of `region` of `src` (the whole file, or the part of it read), indexed
+    /// only if one of `systems` has a quantity declared more than once.
+    pub fn new(src: &str, region: &Region, systems: &[System]) -> Lines {
+        let several = systems
+            .iter()
+            .any(|s| s.bodies.iter().any(|b| !b.further.is_empty()));
+        Lines {
+            index: several.then(|| LineIndex::new(src.get(region.start..region.end).unwrap_or(""))),
+            start: region.start,
+            first_line: region.first_line,
+        }
+    }
+
+    /// The 1-based line of `offset`; `None` when not indexed.
+    pub fn line(&self, offset: u32) -> Option<usize> {
+        let index = self.index.as_ref()?;
+        Some(self.first_line + index.line_at((offset as usize).saturating_sub(self.start)) + 1)
+    }
+}
+
 /// The sentence every output shows with the value used, for `name` (`b.period`) with
-/// `cites[i]` the citations of source `i` (file order).
-pub fn words(name: &str, cites: &[Vec<String>], chosen: &Chosen) -> String {
+/// `cites[i]` the citations of source `i` (file order) and `lines[i]` its line.
+pub fn words(
+    name: &str,
+    cites: &[Vec<String>],
+    lines: &[Option<usize>],
+    chosen: &Chosen,
+) -> String {
     let n = cites.len();
     let source = |i: usize| {
         let c = cites.get(i).map(|c| c.join(", ")).unwrap_or_default();
-        format!("[{c}], source {} of {n}", i + 1)
+        match lines.get(i).copied().flatten() {
+            Some(line) => format!("[{c}], source {} of {n}, line {line}", i + 1),
+            None => format!("[{c}], source {} of {n}", i + 1),
+        }
     };
     let how = match (chosen.choice, chosen.index, chosen.mean) {
         (_, None, Some(w)) => {
@@ -357,7 +397,7 @@ mod tests {
         let only = [upper(0.3), upper(0.2)];
         let l = choose(&only, None, SourceChoice::Last).unwrap();
         assert_eq!(l.index, Some(1));
-        assert!(words("b.eccentricity", &[vec![], vec![]], &l).contains("most constraining"));
+        assert!(words("b.eccentricity", &[vec![], vec![]], &[], &l).contains("most constraining"));
     }
 
     #[test]
@@ -393,5 +433,17 @@ mod tests {
         let c = choose(&[a, m(2.0, 0.2)], None, SourceChoice::WeightedMean).unwrap();
         // Equal standard uncertainties (0.2): the plain mean.
         assert!((c.measurement.value - 1.5).abs() < 1e-12, "{c:?}");
+    }
+
+    #[test]
+    fn the_sentence_names_the_line_of_the_source_used() {
+        let s = [m(10.0, 0.001), m(10.0021, 0.0002)];
+        let c = choose(&s, None, SourceChoice::MostPrecise).unwrap();
+        let cites = [vec!["disc".to_string()], vec!["followup".to_string()]];
+        assert_eq!(
+            words("b.period", &cites, &[Some(6), Some(14)], &c),
+            "b.period: 2 sources; chosen: the most precise, by relative uncertainty ([followup], source 2 of 2, line 14)"
+        );
+        assert!(words("b.period", &cites, &[], &c).ends_with("source 2 of 2)"));
     }
 }

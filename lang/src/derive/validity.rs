@@ -103,7 +103,7 @@ impl<'m> Derivation<'m> {
             ..self.options.clone()
         };
         self.sampled = Some(Sampled {
-            derivation: Box::new(Derivation::run(self.sys, &options)),
+            derivation: Box::new(Derivation::run(self.sys, &options, self.lines)),
             doubts,
         });
     }

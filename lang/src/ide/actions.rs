@@ -1,5 +1,6 @@
 //! Code actions: fixes from diagnostics (did-you-mean, a silencing comment) and rewrites of
-//! the source (declare a derived value, convert a value to another unit).
+//! the source (declare a derived value, convert a value to another unit, choose which of
+//! several published values of a quantity is used).
 
 use super::line_bounds;
 use crate::ast::{self, ExprKind};
@@ -59,6 +60,7 @@ pub fn actions(a: &Analysis, src: &str, range: std::ops::Range<usize>) -> Vec<Ac
     }
     out.extend(declare_derived(a, src, range.start));
     out.extend(convert_units(a, src, range.start));
+    out.extend(choose_source(a, src, range.start));
     out
 }
 
@@ -235,6 +237,84 @@ fn convert_units(a: &Analysis, _src: &str, offset: usize) -> Vec<Action> {
     out
 }
 
+/// On a declaration of a quantity declared more than once: use this one (mark it
+/// `preferred` and unmark the others), or, on the one used because it is marked, let the
+/// project file's policy choose (unmark it). The mark goes after the citations and any
+/// `assumed`, one space apart, which is where the formatter puts it.
+fn choose_source(a: &Analysis, src: &str, offset: usize) -> Vec<Action> {
+    let Some((b, p)) = a.ast.systems.iter().find_map(|sys| {
+        let b = sys.bodies.iter().find(|b| b.span.contains(offset))?;
+        let p = b.props.iter().find(|p| p.span.contains(offset))?;
+        Some((b, p))
+    }) else {
+        return Vec::new();
+    };
+    let Some(def) = quantities::find(b.kind, &p.name.name) else {
+        return Vec::new();
+    };
+    let Some((si, bi, body)) = a.model.systems.iter().enumerate().find_map(|(si, s)| {
+        let bi = s.bodies.iter().position(|x| x.name_span == b.name.span)?;
+        Some((si, bi, s.bodies.get(bi)?))
+    }) else {
+        return Vec::new();
+    };
+    let all = body.sources(def.qty);
+    if all.len() < 2 {
+        return Vec::new();
+    }
+    let Some(this) = all.iter().find(|d| d.name_span == p.name.span) else {
+        return Vec::new();
+    };
+    // The marks on the declarations of this quantity, as written.
+    let marks: Vec<(Span, Option<Span>)> = b
+        .props
+        .iter()
+        .filter(|x| all.iter().any(|d| d.name_span == x.name.span))
+        .map(|x| (x.name.span, x.preferred))
+        .collect();
+    let unmark = |mark: Span| {
+        let start = src
+            .get(..mark.start as usize)
+            .map_or(mark.start as usize, |s| {
+                s.trim_end_matches([' ', '\t']).len()
+            });
+        (Span::new(a.file, start, mark.end as usize), String::new())
+    };
+    let used = super::result(a, si, bi, def.qty)
+        .is_some_and(|q| q.sources.iter().any(|s| s.chosen && s.span == this.span));
+    let name = format!("{}.{}", body.id, def.name);
+    let marked_here = p.preferred.is_some();
+    if used && marked_here {
+        return vec![Action {
+            title: format!("Let the project policy choose for {name}"),
+            kind: ActionKind::Rewrite,
+            edits: marks.iter().filter_map(|(_, m)| m.map(unmark)).collect(),
+            preferred: false,
+            fixes: None,
+        }];
+    }
+    if used {
+        return Vec::new();
+    }
+    let mut edits: Vec<(Span, String)> = marks
+        .iter()
+        .filter(|(n, _)| *n != p.name.span)
+        .filter_map(|(_, m)| m.map(unmark))
+        .collect();
+    if !marked_here {
+        let end = p.span.end as usize;
+        edits.push((Span::new(a.file, end, end), " preferred".to_string()));
+    }
+    let cites: Vec<&str> = this.citations.iter().map(|c| c.0.as_str()).collect();
+    vec![Action {
+        title: format!("Use this source for {name} ([{}])", cites.join(", ")),
+        kind: ActionKind::Rewrite,
+        edits,
+        preferred: false,
+        fixes: None,
+    }]
+}
+
 /// Apply edits (non-overlapping byte spans) to a text.
 pub fn apply_edits(src: &str, edits: &[(Span, String)]) -> String {
     let mut sorted: Vec<&(Span, String)> = edits.iter().collect();
@@ -325,5 +405,95 @@ mod tests {
         let after = result(&a, 0, 1, quantities::Qty::RvAmplitude).unwrap();
         assert!((before.value - after.value).abs() < 1e-9 * before.value);
         assert!(!acts.iter().any(|x| x.title.starts_with("Convert to m/s ")));
+    }
+
+    const SOURCES: &str = "ref disc \"Invented A\"\nref followup \"Invented B\"\nref late \"Invented C\"\nsystem \"S\" {\n  star s { mass = 1 ± 0.05 Msun }\n  planet b orbits s {\n    period = 10.000 ± 0.001 d  [disc] preferred  # first\n    radius = 1 ± 0.1 Rjup\n    period = 10.0021 ± 0.0002 d [followup]\n    period = 10.003 ± 0.01 d    [late] assumed\n  }\n}\n";
+
+    fn titled<'x>(acts: &'x [Action], start: &str) -> Option<&'x Action> {
+        acts.iter().find(|x| x.title.starts_with(start))
+    }
+
+    #[test]
+    fn use_this_source_moves_the_mark_and_stays_in_canonical_layout() {
+        let (_, acts) = run(SOURCES, "10.0021");
+        let act = titled(&acts, "Use this source").expect("offered on an unused declaration");
+        assert_eq!(act.title, "Use this source for b.period ([followup])");
+        assert_eq!(act.kind, ActionKind::Rewrite);
+        let out = apply_edits(SOURCES, &act.edits);
+        assert_eq!(
+            out,
+            SOURCES
+                .replace("[disc] preferred  # first", "[disc]  # first")
+                .replace("[followup]\n", "[followup] preferred\n")
+        );
+        // The formatter leaves the marks where the edit put them.
+        let canonical = crate::layout::format_source(SOURCES).unwrap();
+        let edited = apply_edits(
+            &canonical,
+            &run(&canonical, "10.0021")
+                .1
+                .into_iter()
+                .find(|x| x.title.starts_with("Use this source"))
+                .unwrap()
+                .edits,
+        );
+        assert_eq!(crate::layout::format_source(&edited).unwrap(), edited);
+        // The value used is now the one marked.
+        let a = crate::analyze(FileId(0), &out, &crate::Settings::linear());
+        assert!(!a.has_errors(), "{:?}", a.diagnostics);
+        let q = result(&a, 0, 1, quantities::Qty::Period).unwrap();
+        assert!((q.value / 86400.0 - 10.0021).abs() < 1e-9, "{}", q.value);
+        assert_eq!(q.choice, Some(crate::derive::Choice::Marked));
+    }
+
+    #[test]
+    fn a_mark_after_assumed_and_on_a_one_line_body() {
+        let (_, acts) = run(SOURCES, "10.003");
+        let out = apply_edits(SOURCES, &titled(&acts, "Use this source").unwrap().edits);
+        assert!(out.contains("[late] assumed preferred\n"), "{out}");
+        assert!(!out.contains("[disc] preferred"), "{out}");
+        let one_line = "ref x \"X\"\nref y \"Y\"\nsystem \"S\" {\n  star s { teff = 5000 ± 100 K [x]; teff = 5100 ± 50 K [y] preferred }\n}\n";
+        let (_, acts) = run(one_line, "5000");
+        let out = apply_edits(one_line, &titled(&acts, "Use this source").unwrap().edits);
+        assert!(
+            out.contains("teff = 5000 ± 100 K [x] preferred; teff = 5100 ± 50 K [y] }"),
+            "{out}"
+        );
+    }
+
+    #[test]
+    fn on_the_marked_one_the_policy_can_choose_again() {
+        let (_, acts) = run(SOURCES, "10.000 ");
+        assert!(titled(&acts, "Use this source").is_none(), "{acts:?}");
+        let act = titled(&acts, "Let the project policy choose").unwrap();
+        assert_eq!(act.title, "Let the project policy choose for b.period");
+        let out = apply_edits(SOURCES, &act.edits);
+        assert_eq!(out, SOURCES.replace("[disc] preferred", "[disc]"));
+        let a = crate::analyze(FileId(0), &out, &crate::Settings::linear());
+        let q = result(&a, 0, 1, quantities::Qty::Period).unwrap();
+        assert_eq!(q.choice, Some(crate::derive::Choice::MostPrecise));
+        // The one the policy chose is used already: nothing to offer there.
+        let (_, acts) = run(&out, "10.0021");
+        assert!(titled(&acts, "Use this source").is_none(), "{acts:?}");
+        assert!(
+            titled(&acts, "Let the project policy").is_none(),
+            "{acts:?}"
+        );
+        assert!(titled(&run(&out, "10.000 ").1, "Use this source").is_some());
+    }
+
+    #[test]
+    fn not_offered_on_a_quantity_declared_once() {
+        let (_, acts) = run(SOURCES, "1 ± 0.1 Rjup");
+        assert!(titled(&acts, "Use this source").is_none(), "{acts:?}");
+        let once = SOURCES
+            .replace("    period = 10.0021 ± 0.0002 d [followup]\n", "")
+            .replace("    period = 10.003 ± 0.01 d    [late] assumed\n", "");
+        let (_, acts) = run(&once, "10.000 ");
+        assert!(
+            titled(&acts, "Let the project policy").is_none(),
+            "{acts:?}"
+        );
+        assert!(titled(&acts, "Use this source").is_none(), "{acts:?}");
     }
 }

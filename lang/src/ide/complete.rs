@@ -143,8 +143,26 @@ pub fn complete(a: &Analysis, src: &str, offset: usize) -> Vec<Completion> {
     // Inside citation brackets: reference ids.
     let open_bracket = kinds.iter().rposition(|k| *k == Tok::LBracket);
     let close_bracket = kinds.iter().rposition(|k| *k == Tok::RBracket);
-    if open_bracket.is_some() && open_bracket > close_bracket {
-        for r in &a.model.refs {
+    if let Some(open) = open_bracket.filter(|o| Some(*o) > close_bracket) {
+        // Not the ids this bracket cites already, before the cursor or after it.
+        let after = toks
+            .iter()
+            .skip_while(|t| t.start < offset)
+            .take_while(|t| !matches!(t.kind, Tok::RBracket | Tok::Newline | Tok::Semi));
+        let cited: Vec<&str> = stmt
+            .get(open..)
+            .unwrap_or_default()
+            .iter()
+            .chain(after)
+            .filter(|t| t.kind == Tok::Ident)
+            .map(text)
+            .collect();
+        for r in a
+            .model
+            .refs
+            .iter()
+            .filter(|r| !cited.contains(&r.id.as_str()))
+        {
             out.push(Completion {
                 label: r.id.clone(),
                 kind: CompletionKind::Ref,
@@ -429,5 +447,26 @@ mod tests {
         let l = labels(SRC, "  let base = 2 d\n  ");
         assert_eq!(l, ["star", "planet", "let"]);
         assert!(labels("# comment", "# com").is_empty());
+    }
+
+    const CITED: &str = "ref disc \"Invented discovery\"\nref followup \"Invented follow-up\"\nref late \"Invented late\"\nsystem \"S\" {\n  star s { mass = 1 Msun }\n  planet b orbits s {\n    period = 10.000 ± 0.001 d [disc]\n    period = 10.0021 ± 0.0002 d [disc, , late]\n  }\n}\n";
+
+    #[test]
+    fn citation_ids_with_their_titles_not_those_already_in_the_bracket() {
+        let off = CITED.find("[disc, ").unwrap() + "[disc, ".len();
+        let a = crate::analyze(FileId(0), CITED, &crate::Settings::linear());
+        let c = complete(&a, CITED, off);
+        let got: Vec<(&str, &str)> = c
+            .iter()
+            .map(|c| (c.label.as_str(), c.detail.as_str()))
+            .collect();
+        // `disc` is cited before the cursor and `late` after it.
+        assert_eq!(got, [("followup", "Invented follow-up")]);
+        assert!(c.iter().all(|c| c.kind == CompletionKind::Ref));
+        // The word being typed is not yet a citation; an empty bracket offers every id.
+        let l = labels(CITED, "10.000 ± 0.001 d [disc");
+        assert_eq!(l, ["disc", "followup", "late"]);
+        let empty = CITED.replace("mass = 1 Msun", "mass = 1 Msun []");
+        assert_eq!(labels(&empty, "Msun ["), ["disc", "followup", "late"]);
     }
 }

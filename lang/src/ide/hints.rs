@@ -1,10 +1,12 @@
-//! Inlay hints: the key derived values of each body after its opening brace, and beside a
-//! declared value the value the engine derives for it from other measurements.
+//! Inlay hints: the key derived values of each body after its opening brace, beside a
+//! declared value the value the engine derives for it from other measurements, and beside
+//! each declaration of a quantity declared several times that is not used, why not.
 
 use super::{open_brace_after, result, shown, Method};
-use crate::derive::Origin;
+use crate::derive::{Choice, Origin, QuantityResult, SourceResult};
 use crate::model::Form;
 use crate::quantities::Qty;
+use crate::source::LineIndex;
 use crate::Analysis;
 
 /// One hint: where it goes (a byte offset) and its text.
@@ -120,8 +122,83 @@ pub fn hints(a: &Analysis, src: &str, range: std::ops::Range<usize>, method: &Me
             }
         }
     }
+    out.extend(unused_sources(a, src, range));
     out.sort_by_key(|h| h.offset);
     out
+}
+
+/// "not used: ..." after each declaration of a quantity declared several times whose value
+/// is not the one used, with the sentence of the choice as tooltip.
+fn unused_sources(a: &Analysis, src: &str, range: std::ops::Range<usize>) -> Vec<Hint> {
+    let lines = std::cell::OnceCell::new();
+    let line = |offset: u32| {
+        lines
+            .get_or_init(|| LineIndex::new(src))
+            .line_at(offset as usize)
+            + 1
+    };
+    let mut out = Vec::new();
+    for (si, sys) in a.model.systems.iter().enumerate() {
+        if (sys.span.end as usize) < range.start || (sys.span.start as usize) > range.end {
+            continue;
+        }
+        let Some(r) = a.results.get(si) else {
+            continue;
+        };
+        for (bi, body) in r.bodies.iter().enumerate() {
+            for q in body.quantities.iter().filter(|q| q.sources.len() > 1) {
+                let used = q.sources.iter().find(|s| s.chosen);
+                for s in q.sources.iter().filter(|s| !s.chosen) {
+                    let offset = s.span.end as usize;
+                    if !(range.contains(&offset) || offset == range.end) {
+                        continue;
+                    }
+                    let Some(why) = why_not_used(q, s, used.map(|u| (u, line(u.span.start))))
+                    else {
+                        continue;
+                    };
+                    let name = a.key_name(si, (bi, q.qty));
+                    let sentence = q
+                        .assumptions
+                        .iter()
+                        .find(|x| x.starts_with(&format!("{name}: ")))
+                        .cloned()
+                        .unwrap_or_default();
+                    out.push(Hint {
+                        offset,
+                        label: format!("not used: {why}"),
+                        detail: format!(
+                            "{sentence}\nthe code action \"Use this source\" marks this one `preferred`"
+                        ),
+                    });
+                }
+            }
+        }
+    }
+    out
+}
+
+/// Why source `s` of `q` is not the value used, given the one used and its line; `None`
+/// when it is used (all measurements of a weighted mean are).
+fn why_not_used(
+    q: &QuantityResult,
+    s: &SourceResult,
+    used: Option<(&SourceResult, usize)>,
+) -> Option<String> {
+    let that =
+        |(u, line): (&SourceResult, usize)| format!("[{}] (line {line})", u.citations.join(", "));
+    let limit = s.form.is_limit();
+    Some(match (q.choice?, used) {
+        (Choice::WeightedMean, _) if limit => "limits are not averaged".to_string(),
+        (Choice::WeightedMean, _) | (_, None) => return None,
+        (Choice::Marked, Some(u)) => format!("{} is marked preferred", that(u)),
+        (_, Some(u)) if limit && !u.0.form.is_limit() => {
+            format!("{} is a measurement, this a limit", that(u))
+        }
+        (_, Some(u)) if limit => format!("{} is more constraining", that(u)),
+        (Choice::Last, Some(u)) => format!("{} is the last measurement listed", that(u)),
+        (Choice::MostPrecise, Some(u)) => format!("{} is more precise", that(u)),
+    })
 }
 
 #[cfg(test)]
@@ -167,5 +244,57 @@ mod tests {
             .find(|x| x.offset == end)
             .expect("hint after log_g");
         assert!(x.label.starts_with("derived 4.4"), "{}", x.label);
+    }
+
+    #[test]
+    fn each_unused_source_says_why_and_names_the_one_used() {
+        let src = "ref disc \"Invented A\"\nref followup \"Invented B\"\nsystem \"S\" {\n  star s { mass = 1 ± 0.05 Msun }\n  planet b orbits s {\n    period = 10.000 ± 0.001 d [disc]\n    period = 10.0021 ± 0.0002 d [followup]\n    period < 11 d [disc, followup]\n  }\n}\n";
+        let unused = |src: &str, settings: &crate::Settings| -> Vec<(usize, String)> {
+            let a = crate::analyze(FileId(0), src, settings);
+            hints(&a, src, 0..src.len(), &Method::default())
+                .into_iter()
+                .filter(|h| h.label.starts_with("not used"))
+                .map(|h| (h.offset, h.label))
+                .collect()
+        };
+        let end = |needle: &str| src.find(needle).unwrap() + needle.len();
+        assert_eq!(
+            unused(src, &crate::Settings::linear()),
+            [
+                (
+                    end("[disc]"),
+                    "not used: [followup] (line 7) is more precise".to_string()
+                ),
+                (
+                    end("[disc, followup]"),
+                    "not used: [followup] (line 7) is a measurement, this a limit".to_string()
+                )
+            ]
+        );
+        let marked = src.replace("[disc]\n", "[disc] preferred\n");
+        let h = unused(&marked, &crate::Settings::linear());
+        assert_eq!(h.len(), 2, "{h:?}");
+        assert_eq!(h[0].1, "not used: [disc] (line 6) is marked preferred");
+        // A weighted mean uses every measurement: only the limit is left out.
+        let mut mean = crate::Settings::linear();
+        mean.options.source_choice = crate::derive::SourceChoice::WeightedMean;
+        assert_eq!(
+            unused(src, &mean),
+            [(
+                end("[disc, followup]"),
+                "not used: limits are not averaged".to_string()
+            )]
+        );
+        // The tooltip is the sentence of the choice.
+        let a = crate::analyze(FileId(0), src, &crate::Settings::linear());
+        let h = hints(&a, src, 0..src.len(), &Method::default());
+        let first = h.iter().find(|h| h.offset == end("[disc]")).unwrap();
+        assert!(
+            first
+                .detail
+                .starts_with("b.period: 3 sources; chosen: the most precise"),
+            "{}",
+            first.detail
+        );
     }
 }

@@ -324,6 +324,19 @@ mod tests {
             assert!(h.contains("`10.0000 ± 0.0010 d [disc]`"), "{h}");
             assert!(h.contains("[followup] (used)`"), "{h}");
             assert!(h.contains("chosen: the most precise"), "{h}");
+            assert!(h.contains("([followup], source 2 of 2, line 7)"), "{h}");
+        }
+        // Marked: every declaration's hover says so, and names the marked one's line.
+        let marked = src.replace("[disc]", "[disc] preferred");
+        let a = crate::analyze(FileId(0), &marked, &crate::Settings::linear());
+        let occ = symbols::occurrences(&a.ast);
+        for (off, _) in marked.match_indices("period") {
+            let h = hover(&a, &occ, off, &Method::default()).unwrap().0;
+            assert!(h.contains("[disc] (used)`"), "{h}");
+            assert!(
+                h.contains("chosen: the one marked preferred ([disc], source 1 of 2, line 6)"),
+                "{h}"
+            );
         }
     }
 

@@ -84,6 +84,27 @@ fn the_demo_files_read_the_same_in_parts() {
 }
 
 #[test]
+fn the_line_of_a_chosen_source_is_the_same_in_parts() {
+    // The sentence of the choice names a line, which a part must count from the file's start.
+    let halvard = include_str!("../../../examples/halvard.syz");
+    let src = format!("{}\n{halvard}", include_str!("../../../examples/veyra.syz"));
+    same_in_parts(&src);
+    let line = src
+        .lines()
+        .position(|l| l.contains("period") && l.contains("[brenn]"))
+        .unwrap()
+        + 1;
+    let (_, systems) = whole(&src);
+    let said = systems
+        .iter()
+        .flat_map(|(_, r)| &r.bodies)
+        .flat_map(|b| &b.quantities)
+        .flat_map(|q| &q.assumptions)
+        .any(|a| a.starts_with("b.period: 2 sources") && a.ends_with(&format!("line {line})")));
+    assert!(said, "no sentence names line {line}");
+}
+
+#[test]
 fn files_with_mistakes_read_the_same_in_parts() {
     same_in_parts(include_str!("../../../examples/broken/every-rule.syz"));
     same_in_parts(include_str!("../../../examples/broken/language-errors.syz"));

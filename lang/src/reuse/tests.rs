@@ -144,6 +144,38 @@ fn an_edit_in_one_system_derives_only_that_system() {
 }
 
 #[test]
+fn a_system_whose_choice_of_source_names_a_line_is_reused_only_on_the_same_line() {
+    let two = "system \"Brisk\" {\n  star k { mass = 1 ± 0.05 Msun }\n  planet b orbits k {\n    period = 10.000 ± 0.001 d [lab]\n    period = 10.0021 ± 0.0002 d [other]\n  }\n}\n";
+    let header = format!("{HEADER}ref other \"Invented other numbers\"\n");
+    let mut doc = Doc::new(&[2]);
+    doc.header = header;
+    doc.systems.push(two.to_string());
+    let (a, keep) = step(&doc.text(), &linear(), None);
+    let line_of = |a: &Analysis| {
+        let q = crate::ide::result(a, 1, 1, crate::quantities::Qty::Period).unwrap();
+        q.assumptions
+            .iter()
+            .find(|x| x.starts_with("b.period: 2 sources"))
+            .cloned()
+            .unwrap()
+    };
+    assert!(
+        line_of(&a).ends_with("source 2 of 2, line 16)"),
+        "{}",
+        line_of(&a)
+    );
+    // Longer on the same line: reused.
+    doc.systems[0] = doc.systems[0].replace("365.25", "365.2500");
+    let (_, keep) = step(&doc.text(), &linear(), Some(&keep));
+    assert_eq!(keep.reused(), 1);
+    // A line more before it: derived afresh, with the new line (`step` compares).
+    doc.systems[0] = doc.systems[0].replace("365.2500 ± 0.01 d\n", "365.25 ± 0.01 d\n\n");
+    let (a, keep) = step(&doc.text(), &linear(), Some(&keep));
+    assert_eq!(keep.reused(), 0);
+    assert!(line_of(&a).ends_with("line 17)"), "{}", line_of(&a));
+}
+
+#[test]
 fn a_silenced_diagnostic_of_a_reused_system_stays_silenced() {
     let mut doc = Doc::new(&[1, 0]);
     let (_, keep) = step(&doc.text(), &linear(), None);
