@@ -23,6 +23,10 @@ pub(super) fn default_for(q: Qty) -> Option<(f64, &'static str)> {
 impl<'m> Derivation<'m> {
     pub(super) fn new_input(&mut self, label: String, m: &Measurement, lo: f64, hi: f64) -> Value {
         let id = u32::try_from(self.inputs.len()).unwrap_or(u32::MAX);
+        if m.form.is_limit() && self.pinned.contains(&label) {
+            // Evaluated at its limit (see `validity::bound_where_limited`).
+            return Value::exact(m.value, self.n());
+        }
         let (below, above) = match m.form {
             Form::UpperLimit | Form::LowerLimit => {
                 let width = if m.form == Form::UpperLimit {
@@ -57,6 +61,7 @@ impl<'m> Derivation<'m> {
             below,
             above,
             shape,
+            limit: None,
         });
         let exact = below == 0.0 && above == 0.0;
         Value {
@@ -104,7 +109,15 @@ impl<'m> Derivation<'m> {
                     continue;
                 }
                 let label = format!("{}.{}", body.id, def.name);
+                let before = self.inputs.len();
                 let v = self.new_input(label, m, lo, hi);
+                // A declared limit (an unknown angle spread over a turn is not one); a limit
+                // taken at its value (pinned) adds no input.
+                if m.form.is_limit() && self.inputs.len() > before {
+                    if let Some(input) = self.inputs.last_mut() {
+                        input.limit = Some((m.form, m.value));
+                    }
+                }
                 let origin = if used.assumed {
                     Origin::Assumed
                 } else {

@@ -162,6 +162,12 @@ pub struct Derivation<'m> {
     /// In first-order mode, Monte Carlo results for the values first order cannot
     /// describe (see [`validity`]).
     sampled: Option<validity::Sampled<'m>>,
+    /// Labels of declared limits taken at the limit itself rather than spread over their
+    /// range (for [`validity::bound_where_limited`]; empty in every ordinary run).
+    pinned: FxHashSet<String>,
+    /// Derived values that rest mostly on one limit, given as limits themselves: the value
+    /// at that limit, its form, and the sentence that says so.
+    bounded: FxHashMap<Key, (f64, Form, String)>,
 }
 
 /// Monte Carlo sample arrays one system may hold at once (in bytes), and about how many
@@ -189,6 +195,19 @@ fn samples_for(bodies: usize, asked: usize) -> (usize, Option<Arc<str>>) {
 
 impl<'m> Derivation<'m> {
     pub fn run(sys: &'m System, options: &Options, lines: &'m sources::Lines) -> Derivation<'m> {
+        let mut d = Derivation::run_pinned(sys, options, lines, FxHashSet::default());
+        d.sample_where_doubtful();
+        d.bound_where_limited();
+        d
+    }
+
+    /// The derivations alone, with the limits labelled in `pinned` taken at the limit.
+    fn run_pinned(
+        sys: &'m System,
+        options: &Options,
+        lines: &'m sources::Lines,
+        pinned: FxHashSet<String>,
+    ) -> Derivation<'m> {
         let mut options = options.clone();
         let mut fewer_samples = None;
         if options.propagation == Propagation::MonteCarlo {
@@ -212,11 +231,12 @@ impl<'m> Derivation<'m> {
             diagnostics: Vec::new(),
             fewer_samples,
             sampled: None,
+            pinned,
+            bounded: FxHashMap::default(),
         };
         d.declare_measurements();
         d.fixed_point();
         d.check_consistency();
-        d.sample_where_doubtful();
         d
     }
 

@@ -243,6 +243,15 @@ impl<'m> Derivation<'m> {
                 (m.value, m.below, m.above, m.form)
             }
             (None, Some(Content::Measured(m))) => (m.value, m.below, m.above, m.form),
+            _ if self.bounded.contains_key(&key) => {
+                let (v, form, words) = self.bounded.get(&key).cloned().unwrap_or((
+                    f64::NAN,
+                    Form::Exact,
+                    String::new(),
+                ));
+                sampled = Some(words);
+                (v, 0.0, 0.0, form)
+            }
             _ => {
                 let (lo, hi) = entry.value.linear_spread(&self.inputs);
                 match (self.options.propagation, entry.value.sample_summary()) {

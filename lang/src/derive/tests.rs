@@ -811,3 +811,61 @@ fn the_source_used_decides_whether_the_value_is_assumed() {
     // The most precise source is used, and it is measured.
     assert_eq!(p.origin, Origin::Declared);
 }
+
+/// A star and a transiting planet whose radial-velocity amplitude is only an upper limit.
+const RV_LIMIT: &str = "system \"L\" {\n  star s {\n    mass = 1.0 ± 0.05 Msun\n    radius = 1.0 ± 0.03 Rsun\n    teff = 5700 ± 80 K\n  }\n  planet b orbits s {\n    period = 12.3 ± 0.01 d\n    rv_amplitude < 5 m/s\n    transit_depth = 0.09 ± 0.005 %\n    impact = 0.2 ± 0.1\n    albedo > 0.5\n  }\n}\n";
+
+#[test]
+fn values_resting_on_a_limit_are_limits_in_both_modes() {
+    use crate::model::Form;
+    for options in [Options::linear(), Options::default()] {
+        let a = run(RV_LIMIT, &options);
+        assert!(!a.has_errors(), "{:#?}", a.diagnostics);
+        let q = |qty| get(&a, "b", qty).unwrap();
+        let m = q(Qty::MinMass);
+        assert_eq!(m.form, Form::UpperLimit, "{m:?}");
+        assert_eq!((m.below, m.above), (0.0, 0.0));
+        // At the limit: M sin i = K (P / (2 pi G))^(1/3) M*^(2/3) for a circular orbit and
+        // a planet much lighter than its star (common practice; the engine solves the mass
+        // function exactly, which differs by about Mp/M* = 5e-5 here). IAU 2015 B3 nominal
+        // solar mass parameter 1.3271244e20 m^3 s^-2 (G M_sun).
+        let (k, p, gm) = (5.0, 12.3 * 86_400.0, 1.327_124_4e20);
+        let g = 6.674_30e-11; // CODATA 2018
+        let expected = k * (p / (2.0 * PI * g)).cbrt() * (gm / g).powf(2.0 / 3.0);
+        assert!(
+            (m.value / expected - 1.0).abs() < 2e-4,
+            "{} vs {expected}",
+            m.value
+        );
+        assert!(m
+            .assumptions
+            .iter()
+            .any(|s| s.contains("a limit, not an interval")));
+        // The density follows the mass up: an upper limit too.
+        assert_eq!(q(Qty::Density).form, Form::UpperLimit);
+        // A higher albedo means a cooler planet: `albedo > 0.5` makes Teq an upper limit,
+        // taken at A = 0.5.
+        let teq = q(Qty::Teq);
+        assert_eq!(teq.form, Form::UpperLimit, "{teq:?}");
+        // Values the limit hardly touches keep their intervals.
+        let a_axis = q(Qty::SemiMajorAxis);
+        assert!(!a_axis.form.is_limit() && a_axis.below > 0.0, "{a_axis:?}");
+        assert!(!q(Qty::Radius).form.is_limit());
+    }
+}
+
+#[test]
+fn teq_at_an_albedo_limit_is_the_formula_at_that_albedo() {
+    // Teq = Teff sqrt(R* / (2a)) (f (1 - A))^(1/4) with f = 1 (common practice): the limit
+    // value must be the formula at A = 0.5 with the other values as derived.
+    let a = run(RV_LIMIT, &Options::linear());
+    let teq = get(&a, "b", Qty::Teq).unwrap();
+    let axis = get(&a, "b", Qty::SemiMajorAxis).unwrap().value;
+    let r = 6.957e8; // IAU 2015 B3 nominal solar radius
+    let expected = 5700.0 * (r / (2.0 * axis)).sqrt() * (1.0_f64 - 0.5).powf(0.25);
+    assert!(
+        (teq.value / expected - 1.0).abs() < 1e-9,
+        "{} vs {expected}",
+        teq.value
+    );
+}

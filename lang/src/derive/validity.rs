@@ -33,6 +33,13 @@ pub const SHARE_LIMIT: f64 = 0.05;
 /// enough for an editor.
 pub const MOST_SAMPLES: usize = 4_000;
 
+/// A derived value resting on a declared limit for at least this share of its first-order
+/// variance is given as a limit (see [`Derivation::bound_where_limited`]).
+pub const LIMIT_SHARE: f64 = 0.5;
+
+/// How the assumption that a value was given as a limit begins.
+pub const LIMITED: &str = "a limit, not an interval";
+
 /// How the assumption that a value was sampled begins.
 pub const SAMPLED: &str = "sampled, not first-order";
 
@@ -103,9 +110,96 @@ impl<'m> Derivation<'m> {
             ..self.options.clone()
         };
         self.sampled = Some(Sampled {
-            derivation: Box::new(Derivation::run(self.sys, &options, self.lines)),
+            derivation: Box::new(Derivation::run_pinned(
+                self.sys,
+                &options,
+                self.lines,
+                Default::default(),
+            )),
             doubts,
         });
+    }
+
+    /// Derived values that rest mostly (at least [`LIMIT_SHARE`] of their first-order
+    /// variance) on one declared limit are limits themselves: a mass from `rv_amplitude < 5
+    /// m/s` is `mass < X`, not a two-sided interval spread over the range the limit leaves
+    /// open. X is the value with that limit taken at the limit and the other inputs at their
+    /// values, the usual way to carry a limit through a formula (common practice); whether
+    /// it is an upper or a lower limit follows from the direction the value moves with the
+    /// input. Applies in both propagation modes.
+    pub(super) fn bound_where_limited(&mut self) {
+        let mut by_input: BTreeMap<u32, Vec<(Key, f64, f64)>> = BTreeMap::new();
+        for (key, entry) in &self.entries {
+            if entry.origin != Origin::Derived || entry.value.grad.is_empty() {
+                continue;
+            }
+            let Some(&(id, share)) = entry.value.budget(&self.inputs).first() else {
+                continue;
+            };
+            let limited = self
+                .inputs
+                .get(id as usize)
+                .is_some_and(|i| i.limit.is_some());
+            let slope = entry
+                .value
+                .grad
+                .iter()
+                .find(|g| g.0 == id)
+                .map_or(0.0, |g| g.1);
+            if limited && share >= LIMIT_SHARE && slope != 0.0 {
+                by_input.entry(id).or_default().push((*key, slope, share));
+            }
+        }
+        let options = Options {
+            propagation: Propagation::Linear,
+            ..self.options.clone()
+        };
+        for (id, keys) in by_input {
+            let Some(input) = self.inputs.get(id as usize) else {
+                continue;
+            };
+            let Some((form, limit)) = input.limit else {
+                continue;
+            };
+            let pinned = std::iter::once(input.label.clone()).collect();
+            let at_limit = Derivation::run_pinned(self.sys, &options, self.lines, pinned);
+            // The limit as people read it (`< 5 m/s`): its quantity from the label.
+            let qty = input.label.split_once('.').and_then(|(body, name)| {
+                let kind = self.sys.bodies.iter().find(|b| b.id == body)?.kind;
+                quantities::find(kind, name).map(|d| d.qty)
+            });
+            let limit_words = match qty {
+                Some(q) => {
+                    crate::report::shown_in(limit, 0.0, 0.0, form, summary::display_unit(q, limit))
+                }
+                None => format!(
+                    "{} {}",
+                    if form == Form::UpperLimit { "<" } else { ">" },
+                    crate::format::number(limit)
+                ),
+            };
+            for (key, slope, share) in keys {
+                let Some(v) = at_limit.value(key).map(|v| v.nominal) else {
+                    continue;
+                };
+                if !v.is_finite() {
+                    continue;
+                }
+                let upper = (form == Form::UpperLimit) == (slope > 0.0);
+                let result = if upper {
+                    Form::UpperLimit
+                } else {
+                    Form::LowerLimit
+                };
+                let words = format!(
+                    "{} is {LIMITED}: {:.0}% of its variance comes from {} {limit_words}, so it is given at that limit, with the other inputs at their values (common practice)",
+                    self.key_name(key),
+                    (share * 100.0).min(100.0),
+                    input.label,
+                );
+                self.bounded.insert(key, (v, result, words));
+            }
+        }
     }
 
     /// The Monte Carlo median and 16th and 84th percentiles standing in for a doubted

@@ -25,6 +25,8 @@ pub struct InputInfo {
     pub above: f64,
     /// What its distribution is, as far as first-order propagation is concerned.
     pub shape: Shape,
+    /// For a declared limit: its form and the limit itself (SI).
+    pub limit: Option<(crate::model::Form, f64)>,
 }
 
 /// An input's distribution, as far as first-order propagation is concerned: only a normal
@@ -322,6 +324,7 @@ mod tests {
             below: s,
             above: s,
             shape: Shape::Normal,
+            limit: None,
         }
     }
 

@@ -179,15 +179,24 @@ fn value_text_in(q: &QuantityResult, unit: DisplayUnit, flux: DisplayUnit) -> St
             crate::format::julian_date(unit.of(q.value), unit.of(q.below), unit.of(q.above))
         );
     }
+    // A derived limit has no uncertainty to set its digits: three significant ones.
+    let derived_limit = q.origin == Origin::Derived && q.form.is_limit();
+    let show = |unit: DisplayUnit| {
+        if derived_limit {
+            let v = format!("{:.2e}", unit.of(q.value))
+                .parse()
+                .unwrap_or(f64::NAN);
+            shown_in(v * unit.factor, 0.0, 0.0, q.form, unit)
+        } else {
+            shown_in(q.value, q.below, q.above, q.form, unit)
+        }
+    };
     let extra = if q.qty == Qty::Insolation {
-        format!(" ({})", shown_in(q.value, q.below, q.above, q.form, flux))
+        format!(" ({})", show(flux))
     } else {
         String::new()
     };
-    format!(
-        "{}{extra}",
-        shown_in(q.value, q.below, q.above, q.form, unit)
-    )
+    format!("{}{extra}", show(unit))
 }
 
 /// The flux unit (W/m^2 with an SI prefix) in which an insolation of `si` W/m^2 reads as a
