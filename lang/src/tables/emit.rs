@@ -44,7 +44,7 @@ pub(crate) fn system_text(
             out.push('\n');
         }
         first = false;
-        if body.id != body.table_name {
+        if !body.id.eq_ignore_ascii_case(&body.table_name) {
             let _ = writeln!(
                 out,
                 "  # {} in the table",
