@@ -524,7 +524,12 @@ impl Importer {
             self.summary.values += 1;
             return;
         }
-        let first = same.first().map(|e| (e.row, e.op, e.text.clone()));
+        // The declaration it clashes with: one citing the same sources, or none.
+        let first = same
+            .iter()
+            .find(|e| e.refs == d.refs || e.refs.is_empty() || d.refs.is_empty() || d.def.text)
+            .or(same.first())
+            .map(|e| (e.row, e.op, e.text.clone()));
         let id = body.id.clone();
         self.summary.skipped_cells += cells;
         if let Some((r, op, text)) = first {

@@ -41,7 +41,11 @@ impl<R: BufRead> BufRead for Counted<R> {
                 self.limit
             )));
         }
-        self.inner.fill_buf()
+        // Never hand out more than the rest of the allowance (plus one byte to go past it),
+        // however much the inner reader holds.
+        let room = self.limit.saturating_sub(self.since).saturating_add(1);
+        let buf = self.inner.fill_buf()?;
+        Ok(buf.get(..room).unwrap_or(buf))
     }
 
     fn consume(&mut self, amt: usize) {
