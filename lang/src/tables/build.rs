@@ -440,8 +440,8 @@ impl Importer {
                 row,
                 Some(q.value),
                 format!(
-                    "{what} = {value_text} {} is outside its valid range, {}; not imported",
-                    q.unit,
+                    "{what} = {} is outside its valid range, {}; not imported",
+                    format!("{value_text} {}", q.unit).trim_end(),
                     q.def.range_text()
                 ),
             );
@@ -467,7 +467,7 @@ impl Importer {
                     }
                 }
             };
-            let sym = err(self, q.error, "", false).ok()?;
+            let sym = err(self, q.error, "(symmetric)", false).ok()?;
             let above = err(self, q.above, "above", false).ok()?;
             let below = err(self, q.below, "below", true).ok()?;
             match (sym, above, below) {

@@ -31,7 +31,7 @@ pub fn syzygy_name(text: &str, fallback: &str) -> String {
     }
     let out = out.trim_end_matches('_').to_string();
     if out.is_empty() {
-        return fallback.to_string();
+        return format!("{fallback}_unnamed");
     }
     if out.starts_with(|c: char| c.is_ascii_digit()) || KEYWORDS.contains(&out.as_str()) {
         return format!("{fallback}_{out}");

@@ -418,7 +418,8 @@ fn names_from_tables_stay_names() {
     assert_eq!(syzygy_name("Orrin b", "planet"), "Orrin_b");
     assert_eq!(syzygy_name("3 Tarn", "planet"), "planet_3_Tarn");
     assert_eq!(syzygy_name("star", "star"), "star_star");
-    assert_eq!(syzygy_name("☼☼", "star"), "star");
+    assert_eq!(syzygy_name("☼☼", "star"), "star_unnamed");
+    assert_eq!(syzygy_name("..", "planet"), "planet_unnamed");
     assert!(syzygy_name(&"x".repeat(500), "s").len() <= 64);
     for hostile in ["../../etc/passwd", "/abs/path", "..", ".hidden", "a\\b", "C:\\x", "", "..."] {
         let s = file_stem(hostile);
