@@ -135,6 +135,17 @@ pub enum IssueKind {
 }
 
 impl IssueKind {
+    pub const ALL: [IssueKind; 8] = [
+        IssueKind::BadNumber,
+        IssueKind::OutOfRange,
+        IssueKind::MissingName,
+        IssueKind::MissingHost,
+        IssueKind::Conflict,
+        IssueKind::BadLimitCode,
+        IssueKind::ExtraCells,
+        IssueKind::Unused,
+    ];
+
     pub fn id(self) -> &'static str {
         match self {
             IssueKind::BadNumber => "bad-number",

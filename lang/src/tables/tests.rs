@@ -432,3 +432,11 @@ fn names_from_tables_stay_names() {
     assert_eq!(file_stem("Orrin & Co"), "orrin-co");
     assert!(file_stem(&"y".repeat(10_000)).len() <= 64);
 }
+
+#[test]
+fn every_issue_kind_is_documented() {
+    let doc = include_str!("../../../docs/import.md");
+    for k in IssueKind::ALL {
+        assert!(doc.contains(&format!("| `{}` |", k.id())), "docs/import.md lacks `{}`", k.id());
+    }
+}
