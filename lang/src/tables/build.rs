@@ -81,7 +81,8 @@ pub struct ImportResult {
 
 /// Rows in, systems out: `Importer::new`, then `add_row` for every row, then `finish`.
 pub struct Importer {
-    plan: Plan,
+    /// Shared so that each row can read it while the importer changes.
+    plan: std::sync::Arc<Plan>,
     columns: Vec<String>,
     table: String,
     systems: Vec<System>,
@@ -96,7 +97,7 @@ impl Importer {
     /// Resolve the mapping against the table's columns. `table` names the table in the
     /// files' header comment.
     pub fn new(mapping: &Mapping, columns: &[Column], table: &str) -> Result<Self, MappingError> {
-        let plan = Plan::new(mapping, columns)?;
+        let plan = std::sync::Arc::new(Plan::new(mapping, columns)?);
         Ok(Importer {
             plan,
             columns: columns.iter().map(|c| c.name.clone()).collect(),
@@ -166,7 +167,7 @@ impl Importer {
                 ),
             );
         }
-        let plan = self.plan.clone();
+        let plan = std::sync::Arc::clone(&self.plan);
         let system = cell(Some(plan.system)).to_string();
         if system.is_empty() {
             let lost = Self::filled(row, (0..self.columns.len()).filter(|i| plan.used.get(*i) == Some(&true) && *i != plan.system));
@@ -605,7 +606,7 @@ impl Importer {
         ImportResult {
             files,
             issues: self.issues,
-            unmapped: self.plan.unmapped,
+            unmapped: self.plan.unmapped.clone(),
             summary: self.summary,
         }
     }
@@ -657,7 +658,9 @@ pub(crate) fn string_literal(s: &str) -> String {
             '\\' => out.push_str("\\\\"),
             '\n' => out.push_str("\\n"),
             '\t' => out.push_str("\\t"),
-            '\r' => {}
+            // Other control characters cannot stand in a string literal; a space keeps the
+            // words apart.
+            c if c.is_control() => out.push(' '),
             c => out.push(c),
         }
     }
