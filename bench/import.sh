@@ -13,4 +13,4 @@ python3 "$here/bench/generate_table.py" "$rows" "$work"
 echo "table: $(wc -c < "$work/table.csv") bytes, $rows rows"
 /usr/bin/time -f "import: %e s wall, %M KiB peak resident" "$syz" import "$work/table.csv" --mapping "$work/table.toml" -o "$work/out"
 echo "files: $(ls "$work/out" | wc -l)"
-"$syz" check --propagation linear $(ls -d "$work"/out/* | head -200) | tail -1
+find "$work/out" -name "*.syz" | sort | head -200 | xargs "$syz" check --propagation linear | tail -1
