@@ -35,7 +35,10 @@ pub fn run(args: &Args) -> u8 {
         return 2;
     };
     if let Err(e) = std::fs::create_dir_all(&args.output) {
-        eprintln!("syz: error: {}: cannot make the folder: {e}", args.output.display());
+        eprintln!(
+            "syz: error: {}: cannot make the folder: {e}",
+            args.output.display()
+        );
         return 2;
     }
     let mut written = HashSet::new();
@@ -88,12 +91,7 @@ fn format_of(path: &Path, mapping: &Mapping) -> TableFormat {
     }
 }
 
-fn import_one(
-    path: &Path,
-    mapping: &Mapping,
-    args: &Args,
-    written: &mut HashSet<String>,
-) -> u8 {
+fn import_one(path: &Path, mapping: &Mapping, args: &Args, written: &mut HashSet<String>) -> u8 {
     let shown = path.display().to_string();
     let (file, size) = match crate::files::open_regular(path) {
         Ok(f) => f,
@@ -201,11 +199,7 @@ fn write_all(r: &ImportResult, args: &Args, written: &mut HashSet<String>) -> bo
         match write_new(&path, &f.text, args.force) {
             Ok(()) => count += 1,
             Err(e) => {
-                eprintln!(
-                    "syz: error: system {:?}: {}: {e}",
-                    f.system,
-                    path.display()
-                );
+                eprintln!("syz: error: system {:?}: {}: {e}", f.system, path.display());
                 failed = true;
             }
         }

@@ -44,8 +44,16 @@ fn import(dir: &Path, csv: &str, extra: &[&str]) -> std::process::Output {
 fn the_example_tables_import_into_files_that_check_clean() {
     let dir = scratch("import-examples");
     for (table, mapping, files) in [
-        ("survey.csv", "survey.toml", vec!["brannoc.syz", "quessa.syz", "tiverne.syz"]),
-        ("archive.vot", "archive.toml", vec!["caddow.syz", "ilsefell.syz"]),
+        (
+            "survey.csv",
+            "survey.toml",
+            vec!["brannoc.syz", "quessa.syz", "tiverne.syz"],
+        ),
+        (
+            "archive.vot",
+            "archive.toml",
+            vec!["caddow.syz", "ilsefell.syz"],
+        ),
     ] {
         let out = dir.join(table);
         let t = root().join("examples/tables").join(table);
@@ -59,21 +67,46 @@ fn the_example_tables_import_into_files_that_check_clean() {
     // The table's values are what the files declare: the negative lower error, the upper
     // limit, the empty cell, two papers' periods, a planet of the second star.
     let text = std::fs::read_to_string(dir.join("survey.csv/brannoc.syz")).unwrap();
-    assert!(text.contains("mass   = 0.52 +0.04/-0.03  Mjup [harrowgate2031]"), "{text}");
-    assert!(text.contains("mass   < 0.061      Mjup [harrowgate2031]"), "{text}");
-    assert!(text.contains("period = 4.61310 ± 0.00003 d    [osterby2033]"), "{text}");
+    assert!(
+        text.contains("mass   = 0.52 +0.04/-0.03  Mjup [harrowgate2031]"),
+        "{text}"
+    );
+    assert!(
+        text.contains("mass   < 0.061      Mjup [harrowgate2031]"),
+        "{text}"
+    );
+    assert!(
+        text.contains("period = 4.61310 ± 0.00003 d    [osterby2033]"),
+        "{text}"
+    );
     let text = std::fs::read_to_string(dir.join("survey.csv/tiverne.syz")).unwrap();
-    assert!(!text.contains("radius ") || !text.contains("Rjup"), "{text}");
+    assert!(
+        !text.contains("radius ") || !text.contains("Rjup"),
+        "{text}"
+    );
     let text = std::fs::read_to_string(dir.join("survey.csv/quessa.syz")).unwrap();
     assert!(text.contains("planet b orbits Quessa_B"), "{text}");
     // The VOTable's units are the fields' own.
     let text = std::fs::read_to_string(dir.join("archive.vot/caddow.syz")).unwrap();
-    assert!(text.contains("radius       = 13.9 ± 0.4      Rearth [pirrie2034]"), "{text}");
+    assert!(
+        text.contains("radius       = 13.9 ± 0.4      Rearth [pirrie2034]"),
+        "{text}"
+    );
     // Evaluating a file gives the table's value back.
-    let o = run(&["eval", "--format", "json", "--propagation", "linear", s(&dir.join("archive.vot/caddow.syz"))]);
+    let o = run(&[
+        "eval",
+        "--format",
+        "json",
+        "--propagation",
+        "linear",
+        s(&dir.join("archive.vot/caddow.syz")),
+    ]);
     let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
     let b = &v["systems"][0]["bodies"][1]["quantities"];
-    assert!((b["period"]["value"].as_f64().unwrap() - 3.0712).abs() < 1e-12, "{b}");
+    assert!(
+        (b["period"]["value"].as_f64().unwrap() - 3.0712).abs() < 1e-12,
+        "{b}"
+    );
     assert_eq!(b["rv_amplitude"]["value"].as_f64(), Some(112.0), "{b}");
     assert_eq!(b["rv_amplitude"]["above"].as_f64(), Some(5.0), "{b}");
 }
@@ -105,7 +138,11 @@ fn bad_rows_are_named_and_the_rest_imported() {
     let out = dir.join("out");
     assert_eq!(files_in(&out), vec!["orrin.syz", "tarn.syz"]);
     let text = std::fs::read_to_string(out.join("orrin.syz")).unwrap();
-    for kept in ["planet b orbits orrin", "planet c orbits orrin", "period = 7.5 d"] {
+    for kept in [
+        "planet b orbits orrin",
+        "planet c orbits orrin",
+        "period = 7.5 d",
+    ] {
         assert!(text.contains(kept), "{kept}:\n{text}");
     }
     check_clean(&out);
@@ -138,7 +175,10 @@ fn names_from_the_table_never_leave_the_output_folder() {
     let files = files_in(&out);
     assert_eq!(files.len(), hostile.len() + 1, "{files:?}");
     for f in &files {
-        assert!(f.ends_with(".syz") && !f.starts_with('.') && f.len() <= 72, "{f}");
+        assert!(
+            f.ends_with(".syz") && !f.starts_with('.') && f.len() <= 72,
+            "{f}"
+        );
         assert!(out.join(f).is_file(), "{f}");
     }
     for device in ["con.syz", "nul.syz"] {
@@ -163,20 +203,33 @@ fn existing_files_are_not_overwritten_unless_forced() {
     std::fs::write(&outside, "untouched\n").unwrap();
     #[cfg(unix)]
     std::os::unix::fs::symlink(&outside, out.join("tarn.syz")).unwrap();
-    let csv = "sys,pl,ms,ms_e,p,e,paper\nOrrin,b,1.0,,3.0,,\nTarn,b,1.0,,3.0,,\nVell,b,1.0,,3.0,,\n";
+    let csv =
+        "sys,pl,ms,ms_e,p,e,paper\nOrrin,b,1.0,,3.0,,\nTarn,b,1.0,,3.0,,\nVell,b,1.0,,3.0,,\n";
     let o = import(&dir, csv, &[]);
     assert_eq!(o.status.code(), Some(2), "{}{}", stdout(&o), stderr(&o));
-    assert!(stderr(&o).contains("orrin.syz: exists already; not overwritten (--force replaces it)"), "{}", stderr(&o));
-    assert_eq!(std::fs::read_to_string(out.join("orrin.syz")).unwrap(), "# mine\n");
+    assert!(
+        stderr(&o).contains("orrin.syz: exists already; not overwritten (--force replaces it)"),
+        "{}",
+        stderr(&o)
+    );
+    assert_eq!(
+        std::fs::read_to_string(out.join("orrin.syz")).unwrap(),
+        "# mine\n"
+    );
     assert_eq!(std::fs::read_to_string(&outside).unwrap(), "untouched\n");
     assert!(out.join("vell.syz").is_file());
     // Asked to, it replaces the files (the link itself, never what it points to).
     std::fs::remove_file(out.join("vell.syz")).unwrap();
     let o = import(&dir, csv, &["--force"]);
     assert_eq!(o.status.code(), Some(0), "{}{}", stdout(&o), stderr(&o));
-    assert!(std::fs::read_to_string(out.join("orrin.syz")).unwrap().contains("system \"Orrin\""));
+    assert!(std::fs::read_to_string(out.join("orrin.syz"))
+        .unwrap()
+        .contains("system \"Orrin\""));
     assert_eq!(std::fs::read_to_string(&outside).unwrap(), "untouched\n");
-    assert!(!std::fs::symlink_metadata(out.join("tarn.syz")).unwrap().file_type().is_symlink());
+    assert!(!std::fs::symlink_metadata(out.join("tarn.syz"))
+        .unwrap()
+        .file_type()
+        .is_symlink());
     check_clean(&out);
 }
 
@@ -186,7 +239,11 @@ fn import_vot(dir: &Path, text: &str) -> std::process::Output {
     let table = dir.join("t.vot");
     std::fs::write(&table, text).unwrap();
     let mapping = dir.join("m.toml");
-    std::fs::write(&mapping, "[bodies]\nsystem = \"sys\"\n[star.mass]\nvalue = \"ms\"\n").unwrap();
+    std::fs::write(
+        &mapping,
+        "[bodies]\nsystem = \"sys\"\n[star.mass]\nvalue = \"ms\"\n",
+    )
+    .unwrap();
     let out = dir.join("out");
     run_bounded(
         &["import", s(&table), "--mapping", s(&mapping), "-o", s(&out)],
@@ -218,10 +275,17 @@ fn votables_with_entities_are_refused_safely() {
         assert_eq!(o.status.code(), Some(2), "{}{}", stdout(&o), stderr(&o));
         let err = stderr(&o);
         assert!(err.contains(says), "{err}");
-        assert!(err.contains("nothing was written") || err.contains("DOCTYPE"), "{err}");
+        assert!(
+            err.contains("nothing was written") || err.contains("DOCTYPE"),
+            "{err}"
+        );
         assert!(!stdout(&o).contains("SECRET") && !err.contains("SECRET"));
         let out = dir.join("out");
-        assert!(!out.exists() || files_in(&out).is_empty(), "{:?}", files_in(&out));
+        assert!(
+            !out.exists() || files_in(&out).is_empty(),
+            "{:?}",
+            files_in(&out)
+        );
     }
     // The same table without the entity imports.
     let fine = format!("{VOT_HEAD}<TR><TD>Orrin &amp; Tarn</TD><TD>1</TD></TR></TABLEDATA></DATA></TABLE></RESOURCE></VOTABLE>\n");
@@ -235,23 +299,53 @@ fn votables_with_entities_are_refused_safely() {
 fn oversized_cells_and_column_counts_end_in_a_clear_error() {
     let dir = scratch("import-oversized");
     // A cell beyond the cell limit (64 KiB).
-    let o = import(&dir, &format!("sys,pl,ms,ms_e,p,e,paper\nOrrin,b,{},,,,\n", "9".repeat(100_000)), &[]);
+    let o = import(
+        &dir,
+        &format!(
+            "sys,pl,ms,ms_e,p,e,paper\nOrrin,b,{},,,,\n",
+            "9".repeat(100_000)
+        ),
+        &[],
+    );
     assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
-    assert!(stderr(&o).contains("line 2: cell 3 holds 100000 bytes, more than the limit of 65536"), "{}", stderr(&o));
+    assert!(
+        stderr(&o).contains("line 2: cell 3 holds 100000 bytes, more than the limit of 65536"),
+        "{}",
+        stderr(&o)
+    );
     // More columns than the limit (10,000).
     let header: Vec<String> = (0..10_001).map(|i| format!("c{i}")).collect();
     let o = import(&dir, &format!("{}\n", header.join(",")), &[]);
     assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
-    assert!(stderr(&o).contains("10001 columns, more than the limit of 10000"), "{}", stderr(&o));
+    assert!(
+        stderr(&o).contains("10001 columns, more than the limit of 10000"),
+        "{}",
+        stderr(&o)
+    );
     // A multi-megabyte cell is refused while it streams, not after it is all in memory.
-    let o = import(&dir, &format!("sys,pl,ms,ms_e,p,e,paper\nOrrin,b,1,,3,,\"{}\"\n", "p".repeat(6_000_000)), &[]);
+    let o = import(
+        &dir,
+        &format!(
+            "sys,pl,ms,ms_e,p,e,paper\nOrrin,b,1,,3,,\"{}\"\n",
+            "p".repeat(6_000_000)
+        ),
+        &[],
+    );
     assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
-    assert!(stderr(&o).contains("a row longer than 4194304 bytes"), "{}", stderr(&o));
+    assert!(
+        stderr(&o).contains("a row longer than 4194304 bytes"),
+        "{}",
+        stderr(&o)
+    );
     assert!(files_in(&dir.join("out")).is_empty());
     // The same in a VOTable.
     let o = import_vot(&dir, &format!("{VOT_HEAD}<TR><TD>{}</TD><TD>1</TD></TR></TABLEDATA></DATA></TABLE></RESOURCE></VOTABLE>\n", "q".repeat(6_000_000)));
     assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
-    assert!(stderr(&o).contains("a tag or text longer than"), "{}", stderr(&o));
+    assert!(
+        stderr(&o).contains("a tag or text longer than"),
+        "{}",
+        stderr(&o)
+    );
 }
 
 #[test]
@@ -264,8 +358,16 @@ fn a_mapping_that_cannot_be_used_is_exit_2() {
     assert_eq!(o.status.code(), Some(2));
     assert!(stderr(&o).contains("--mapping FILE"), "{}", stderr(&o));
     let mapping = dir.join("m.toml");
-    std::fs::write(&mapping, "[bodies]\nsystem = \"sys\"\n[star.mass]\nvalue = \"m\"\nunit = \"km\"\n").unwrap();
+    std::fs::write(
+        &mapping,
+        "[bodies]\nsystem = \"sys\"\n[star.mass]\nvalue = \"m\"\nunit = \"km\"\n",
+    )
+    .unwrap();
     let o = run(&["import", s(&table), "--mapping", s(&mapping), "-o", s(&out)]);
     assert_eq!(o.status.code(), Some(2));
-    assert!(stderr(&o).contains("the unit `km` (column `m`) is a length"), "{}", stderr(&o));
+    assert!(
+        stderr(&o).contains("the unit `km` (column `m`) is a length"),
+        "{}",
+        stderr(&o)
+    );
 }

@@ -117,7 +117,10 @@ impl Importer {
     }
 
     fn column(&self, i: usize) -> String {
-        self.columns.get(i).cloned().unwrap_or_else(|| format!("#{}", i + 1))
+        self.columns
+            .get(i)
+            .cloned()
+            .unwrap_or_else(|| format!("#{}", i + 1))
     }
 
     fn issue(&mut self, kind: IssueKind, row: &Row, col: Option<usize>, message: String) {
@@ -140,15 +143,16 @@ impl Importer {
 
     /// Columns a quantity reads besides its value.
     fn companions(q: &QuantityPlan) -> impl Iterator<Item = usize> {
-        [q.error, q.above, q.below, q.limit, q.refs].into_iter().flatten()
+        [q.error, q.above, q.below, q.limit, q.refs]
+            .into_iter()
+            .flatten()
     }
 
     /// Import one row.
     pub fn add_row(&mut self, row: &Row) {
         self.summary.rows += 1;
         let cell = |i: Option<usize>| -> &str {
-            i.and_then(|i| row.cells.get(i))
-                .map_or("", |s| s.as_str())
+            i.and_then(|i| row.cells.get(i)).map_or("", |s| s.as_str())
         };
         let extra: Vec<usize> = (self.columns.len()..row.cells.len())
             .filter(|i| row.cells.get(*i).is_some_and(|c| !c.is_empty()))
@@ -170,14 +174,21 @@ impl Importer {
         let plan = std::sync::Arc::clone(&self.plan);
         let system = cell(Some(plan.system)).to_string();
         if system.is_empty() {
-            let lost = Self::filled(row, (0..self.columns.len()).filter(|i| plan.used.get(*i) == Some(&true) && *i != plan.system));
+            let lost = Self::filled(
+                row,
+                (0..self.columns.len())
+                    .filter(|i| plan.used.get(*i) == Some(&true) && *i != plan.system),
+            );
             self.summary.skipped_cells += lost.len();
             if !lost.is_empty() {
                 self.issue(
                     IssueKind::MissingName,
                     row,
                     Some(plan.system),
-                    format!("no system name; the row's {} other cells are not imported", lost.len()),
+                    format!(
+                        "no system name; the row's {} other cells are not imported",
+                        lost.len()
+                    ),
                 );
             }
             return;
@@ -257,7 +268,10 @@ impl Importer {
                 continue;
             };
             if value.is_empty() {
-                let lost = Self::filled(row, [q.error, q.above, q.below, q.limit].into_iter().flatten());
+                let lost = Self::filled(
+                    row,
+                    [q.error, q.above, q.below, q.limit].into_iter().flatten(),
+                );
                 for c in lost {
                     self.summary.skipped_cells += 1;
                     self.issue(
@@ -276,12 +290,15 @@ impl Importer {
             }
             match self.decl(q, row, refs) {
                 Some(d) => {
-                    let used = Self::filled(row, std::iter::once(q.value).chain(Self::companions(q))).len();
+                    let used =
+                        Self::filled(row, std::iter::once(q.value).chain(Self::companions(q)))
+                            .len();
                     self.add_decl(si, b, d, row, q.value, used);
                 }
                 None => {
                     // `decl` named the cell; the value and its companions are not imported.
-                    let lost = Self::filled(row, std::iter::once(q.value).chain(Self::companions(q)));
+                    let lost =
+                        Self::filled(row, std::iter::once(q.value).chain(Self::companions(q)));
                     self.summary.skipped_cells += lost.len();
                 }
             }
@@ -391,7 +408,9 @@ impl Importer {
     /// The declaration a row gives one quantity, or `None` after naming the cell at fault.
     fn decl(&mut self, q: &QuantityPlan, row: &Row, refs: BTreeSet<String>) -> Option<Decl> {
         let cell = |i: Option<usize>| -> String {
-            i.and_then(|i| row.cells.get(i)).cloned().unwrap_or_default()
+            i.and_then(|i| row.cells.get(i))
+                .cloned()
+                .unwrap_or_default()
         };
         let raw = cell(Some(q.value));
         let what = q.def.name;
@@ -409,7 +428,10 @@ impl Importer {
                 IssueKind::BadNumber,
                 row,
                 Some(q.value),
-                format!("{what}: `{}` is not a number; the value is not imported", shorten(&raw)),
+                format!(
+                    "{what}: `{}` is not a number; the value is not imported",
+                    shorten(&raw)
+                ),
             );
             return None;
         };
@@ -450,7 +472,11 @@ impl Importer {
         }
         let mut text = value_text;
         if op == '=' {
-            let err = |s: &mut Self, col: Option<usize>, side: &str, signed_ok: bool| -> Result<Option<String>, ()> {
+            let err = |s: &mut Self,
+                       col: Option<usize>,
+                       side: &str,
+                       signed_ok: bool|
+             -> Result<Option<String>, ()> {
                 let raw = cell(col);
                 if raw.is_empty() {
                     return Ok(None);
@@ -475,7 +501,11 @@ impl Importer {
                 (Some(s), _, _) => text = format!("{text} ± {s}"),
                 (None, Some(a), Some(b)) => text = format!("{text} +{a}/-{b}"),
                 (None, Some(_), None) | (None, None, Some(_)) => {
-                    let (col, side) = if cell(q.above).is_empty() { (q.above, "above") } else { (q.below, "below") };
+                    let (col, side) = if cell(q.above).is_empty() {
+                        (q.above, "above")
+                    } else {
+                        (q.below, "below")
+                    };
                     self.issue(IssueKind::BadNumber, row, col, format!("{what}: the uncertainty {side} is empty but the other side is given; the value is not imported"));
                     return None;
                 }
@@ -511,8 +541,15 @@ impl Importer {
         let Some(body) = self.systems.get_mut(si).and_then(|s| s.bodies.get_mut(b)) else {
             return;
         };
-        let same: Vec<&Decl> = body.decls.iter().filter(|e| e.def.qty == d.def.qty).collect();
-        if same.iter().any(|e| e.op == d.op && e.text == d.text && e.refs == d.refs) {
+        let same: Vec<&Decl> = body
+            .decls
+            .iter()
+            .filter(|e| e.def.qty == d.def.qty)
+            .collect();
+        if same
+            .iter()
+            .any(|e| e.op == d.op && e.text == d.text && e.refs == d.refs)
+        {
             self.summary.merged += 1;
             return;
         }
@@ -667,7 +704,6 @@ pub(crate) fn string_literal(s: &str) -> String {
     out.push('"');
     out
 }
-
 
 /// A cell shown in a message: at most 40 characters.
 fn shorten(s: &str) -> String {

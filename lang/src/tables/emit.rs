@@ -45,11 +45,7 @@ pub(crate) fn system_text(
         }
         first = false;
         if !body.id.eq_ignore_ascii_case(&body.table_name) {
-            let _ = writeln!(
-                out,
-                "  # {} in the table",
-                string_literal(&body.table_name)
-            );
+            let _ = writeln!(out, "  # {} in the table", string_literal(&body.table_name));
         }
         match (body.kind, host) {
             (BodyKind::Planet, Some(h)) => {

@@ -356,7 +356,10 @@ fn unit_for(
     })?;
     if unit.dim != def.dim {
         let need = if text.is_empty() {
-            format!("{what} needs a unit of {}; give `unit` in the mapping", def.dim.describe())
+            format!(
+                "{what} needs a unit of {}; give `unit` in the mapping",
+                def.dim.describe()
+            )
         } else {
             format!(
                 "{what}: the unit `{text}` (column `{col_name}`) is {}, but {} is {}",
@@ -375,7 +378,11 @@ fn check_value_text(kind: BodyKind, def: &QuantityDef, text: &str) -> Result<(),
     let src = format!(
         "system \"x\" {{\n  star s {{\n  }}\n  {} {} {{\n    {} = {}\n  }}\n}}\n",
         kind.as_str(),
-        if kind == BodyKind::Star { "t" } else { "p orbits s" },
+        if kind == BodyKind::Star {
+            "t"
+        } else {
+            "p orbits s"
+        },
         def.name,
         text.trim()
     );

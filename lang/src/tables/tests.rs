@@ -79,7 +79,10 @@ fn a_row_becomes_a_star_a_planet_and_their_values() {
     assert!(t.contains("star Orrin {"), "{t}");
     assert!(t.contains("planet b orbits Orrin {"), "{t}");
     // The negative lower error is read by its size.
-    assert!(t.contains("mass         = 0.5 +0.04/-0.03 Mjup [pell2031]"), "{t}");
+    assert!(
+        t.contains("mass         = 0.5 +0.04/-0.03 Mjup [pell2031]"),
+        "{t}"
+    );
     assert!(t.contains("albedo       = 0.3 assumed"), "{t}");
     // Constants are not counted.
     assert_eq!(r.summary.values, 4);
@@ -117,12 +120,31 @@ fn bad_cells_are_named_and_the_rest_imported() {
         .iter()
         .map(|i| (i.kind, i.row, i.column.as_deref()))
         .collect();
-    assert!(kinds.contains(&(IssueKind::BadNumber, 1, Some("p"))), "{kinds:?}");
-    assert!(kinds.contains(&(IssueKind::OutOfRange, 1, Some("e"))), "{kinds:?}");
-    assert!(kinds.contains(&(IssueKind::BadLimitCode, 2, Some("mp_f"))), "{kinds:?}");
-    assert!(kinds.contains(&(IssueKind::MissingName, 3, Some("sys"))), "{kinds:?}");
-    assert!(kinds.contains(&(IssueKind::BadNumber, 4, Some("ms_e"))), "{kinds:?}");
-    let bad = r.issues.iter().find(|i| i.kind == IssueKind::BadNumber).unwrap();
+    assert!(
+        kinds.contains(&(IssueKind::BadNumber, 1, Some("p"))),
+        "{kinds:?}"
+    );
+    assert!(
+        kinds.contains(&(IssueKind::OutOfRange, 1, Some("e"))),
+        "{kinds:?}"
+    );
+    assert!(
+        kinds.contains(&(IssueKind::BadLimitCode, 2, Some("mp_f"))),
+        "{kinds:?}"
+    );
+    assert!(
+        kinds.contains(&(IssueKind::MissingName, 3, Some("sys"))),
+        "{kinds:?}"
+    );
+    assert!(
+        kinds.contains(&(IssueKind::BadNumber, 4, Some("ms_e"))),
+        "{kinds:?}"
+    );
+    let bad = r
+        .issues
+        .iter()
+        .find(|i| i.kind == IssueKind::BadNumber)
+        .unwrap();
     assert_eq!(bad.place(), "row 1 (line 2), column `p`");
     assert!(r.summary.skipped_cells >= 6, "{:?}", r.summary);
     // What was good is imported.
@@ -145,7 +167,10 @@ fn two_papers_give_two_sources_and_the_same_paper_a_conflict() {
     // row 3 repeats P2 2031 with another value: a conflict.
     assert_eq!(r.issues.len(), 1, "{:?}", r.issues);
     let i = &r.issues[0];
-    assert_eq!((i.kind, i.row, i.column.as_deref()), (IssueKind::Conflict, 3, Some("ms")));
+    assert_eq!(
+        (i.kind, i.row, i.column.as_deref()),
+        (IssueKind::Conflict, 3, Some("ms"))
+    );
     assert!(i.message.contains("row 2"), "{}", i.message);
     assert_eq!(r.summary.merged, 2);
     clean(&t);
@@ -153,11 +178,15 @@ fn two_papers_give_two_sources_and_the_same_paper_a_conflict() {
 
 #[test]
 fn a_planet_whose_host_is_missing_is_reported() {
-    let csv = format!("{HEADER}Orrin,,Orrin b,Orrin B,,,3.5,,,,,,,,\nOrrin,Orrin A,,,0.9,,,,,,,,,,\n");
+    let csv =
+        format!("{HEADER}Orrin,,Orrin b,Orrin B,,,3.5,,,,,,,,\nOrrin,Orrin A,,,0.9,,,,,,,,,,\n");
     let r = import_csv(&csv, MAPPING);
     assert_eq!(r.issues.len(), 1, "{:?}", r.issues);
     let i = &r.issues[0];
-    assert_eq!((i.kind, i.row, i.column.as_deref()), (IssueKind::MissingHost, 1, Some("host")));
+    assert_eq!(
+        (i.kind, i.row, i.column.as_deref()),
+        (IssueKind::MissingHost, 1, Some("host"))
+    );
     assert!(i.message.contains("`Orrin B`"), "{}", i.message);
     assert_eq!(r.summary.skipped_cells, 2);
     assert_eq!(r.summary.planets, 0);
@@ -189,7 +218,9 @@ fn extra_cells_and_unmapped_columns_are_reported() {
 fn separators_quotes_and_comments() {
     let m = "[bodies]\nsystem = \"s\"\n[star.mass]\nvalue = \"m\"\nunit = \"Msun\"\n";
     for sep in [";", "\t", ","] {
-        let csv = format!("# a comment\ns{sep}m\n# another\n\"Orrin{sep} the first\"{sep}0.9\nTarn{sep}\n");
+        let csv = format!(
+            "# a comment\ns{sep}m\n# another\n\"Orrin{sep} the first\"{sep}0.9\nTarn{sep}\n"
+        );
         let r = import_csv(&csv, m);
         assert!(r.issues.is_empty(), "{sep:?}: {:?}", r.issues);
         assert_eq!(r.summary.systems, 2, "{sep:?}");
@@ -204,7 +235,11 @@ fn separators_quotes_and_comments() {
 fn mapping_errors_say_what_is_wrong() {
     let cols: Vec<Column> = ["sys", "x"]
         .iter()
-        .map(|n| Column { name: n.to_string(), unit: None, null: None })
+        .map(|n| Column {
+            name: n.to_string(),
+            unit: None,
+            null: None,
+        })
         .collect();
     let err = |toml: &str| -> String {
         match Mapping::from_toml(toml) {
@@ -214,28 +249,45 @@ fn mapping_errors_say_what_is_wrong() {
     };
     assert!(err("[bodies]\nsystem = \"nope\"").contains("`nope` is not in the table's header"));
     assert!(err("[bodies]\nsystem = \"sys\"\nsurprise = 1").contains("unknown field"));
-    assert!(err("[bodies]\nsystem = \"sys\"\n[star.mas]\nvalue = \"x\"\nunit = \"Msun\"")
-        .contains("did you mean `mass`"));
-    assert!(err("[bodies]\nsystem = \"sys\"\n[star.mass]\nvalue = \"x\"\nunit = \"km\"")
-        .contains("is a length"));
+    assert!(
+        err("[bodies]\nsystem = \"sys\"\n[star.mas]\nvalue = \"x\"\nunit = \"Msun\"")
+            .contains("did you mean `mass`")
+    );
+    assert!(
+        err("[bodies]\nsystem = \"sys\"\n[star.mass]\nvalue = \"x\"\nunit = \"km\"")
+            .contains("is a length")
+    );
     assert!(err("[bodies]\nsystem = \"sys\"\n[star.mass]\nvalue = \"x\"").contains("needs a unit"));
-    assert!(err("[bodies]\nsystem = \"sys\"\n[star.mass]\nvalue = \"x\"\nunit = \"Mfoo\"")
-        .contains("not a Syzygy unit"));
-    assert!(err("[bodies]\nsystem = \"sys\"\n[constants.star]\nmass = \"1 Msun }\"")
-        .contains("not a value Syzygy reads"));
-    assert!(err("[bodies]\nsystem = \"sys\"\n[constants.star]\nmass = \"2 km\"")
-        .contains("not a value Syzygy reads"));
+    assert!(
+        err("[bodies]\nsystem = \"sys\"\n[star.mass]\nvalue = \"x\"\nunit = \"Mfoo\"")
+            .contains("not a Syzygy unit")
+    );
+    assert!(
+        err("[bodies]\nsystem = \"sys\"\n[constants.star]\nmass = \"1 Msun }\"")
+            .contains("not a value Syzygy reads")
+    );
+    assert!(
+        err("[bodies]\nsystem = \"sys\"\n[constants.star]\nmass = \"2 km\"")
+            .contains("not a value Syzygy reads")
+    );
 }
 
 #[test]
 fn a_mapping_can_be_built_in_code() {
     let mut m = Mapping {
-        bodies: BodyColumns { system: "s".into(), ..Default::default() },
+        bodies: BodyColumns {
+            system: "s".into(),
+            ..Default::default()
+        },
         ..Default::default()
     };
     m.star.insert(
         "teff".into(),
-        QuantityColumns { value: "t".into(), unit: Some("K".into()), ..Default::default() },
+        QuantityColumns {
+            value: "t".into(),
+            unit: Some("K".into()),
+            ..Default::default()
+        },
     );
     let mut t = CsvTable::new(&b"s,t\nOrrin,5000\n"[..], None, Limits::default()).unwrap();
     let mut imp = Importer::new(&m, t.columns(), "t").unwrap();
@@ -248,7 +300,11 @@ fn a_mapping_can_be_built_in_code() {
 
 #[test]
 fn csv_limits_end_in_a_clear_error() {
-    let small = Limits { max_cell_bytes: 16, max_columns: 4, max_row_bytes: 64 };
+    let small = Limits {
+        max_cell_bytes: 16,
+        max_columns: 4,
+        max_row_bytes: 64,
+    };
     let cell = CsvTable::new(&b"a,b\nx,01234567890123456789\n"[..], None, small)
         .unwrap()
         .next_row()
@@ -258,11 +314,20 @@ fn csv_limits_end_in_a_clear_error() {
     let Err(cols) = CsvTable::new(&b"a,b,c,d,e\n"[..], None, small) else {
         panic!("five columns accepted")
     };
-    assert!(cols.message.contains("5 columns, more than the limit of 4"), "{cols}");
+    assert!(
+        cols.message.contains("5 columns, more than the limit of 4"),
+        "{cols}"
+    );
     // A row far longer than the limit stops the reader before it is all read.
     let long = format!("a\n{}\n", "x".repeat(1_000_000));
-    let mut reader = Counting { inner: long.as_bytes(), read: 0 };
-    let row = CsvTable::new(&mut reader, None, small).unwrap().next_row().unwrap_err();
+    let mut reader = Counting {
+        inner: long.as_bytes(),
+        read: 0,
+    };
+    let row = CsvTable::new(&mut reader, None, small)
+        .unwrap()
+        .next_row()
+        .unwrap_err();
     assert!(row.message.contains("a row longer than 64 bytes"), "{row}");
     assert!(reader.read < 300_000, "{} bytes read", reader.read);
 }
@@ -309,7 +374,10 @@ fn votable_fields_units_nulls_and_entities() {
     assert_eq!(units, vec![None, Some("solMass"), Some("solRad"), None]);
     let rows = vot(VOT, Limits::default()).unwrap();
     assert_eq!(rows.len(), 2);
-    assert_eq!(rows[0].cells, vec!["Orrin & Co", "0.9", "0.8", "Pell <2031> ☼"]);
+    assert_eq!(
+        rows[0].cells,
+        vec!["Orrin & Co", "0.9", "0.8", "Pell <2031> ☼"]
+    );
     // The null value and an empty TD are no value.
     assert_eq!(rows[1].cells, vec!["Tarn", "", "", ""]);
     assert_eq!(rows[0].line, 8);
@@ -334,36 +402,69 @@ fn votable_refuses_doctypes_and_unknown_entities() {
     let doctype = "<?xml version=\"1.0\"?><!DOCTYPE VOTABLE [<!ENTITY a \"aaaaaaaaaa\"><!ENTITY b \"&a;&a;&a;&a;\">]><VOTABLE/>";
     let e = vot(doctype, Limits::default()).unwrap_err();
     assert!(e.message.contains("DOCTYPE"), "{e}");
-    let external = "<?xml version=\"1.0\"?>\n<!DOCTYPE x SYSTEM \"file:///etc/passwd\">\n<VOTABLE/>";
-    assert!(vot(external, Limits::default()).unwrap_err().message.contains("DOCTYPE"));
+    let external =
+        "<?xml version=\"1.0\"?>\n<!DOCTYPE x SYSTEM \"file:///etc/passwd\">\n<VOTABLE/>";
+    assert!(vot(external, Limits::default())
+        .unwrap_err()
+        .message
+        .contains("DOCTYPE"));
     let undeclared = VOT.replace("Orrin &amp; Co", "Orrin &xxe; Co");
     let e = vot(&undeclared, Limits::default()).unwrap_err();
     assert!(e.message.contains("predefined entities"), "{e}");
-    let binary = VOT.replace("<TABLEDATA>", "<BINARY>").replace("</TABLEDATA>", "</BINARY>");
-    assert!(vot(&binary, Limits::default()).unwrap_err().message.contains("only TABLEDATA"));
-    assert!(vot("<html/>", Limits::default()).unwrap_err().message.contains("no TABLE"));
+    let binary = VOT
+        .replace("<TABLEDATA>", "<BINARY>")
+        .replace("</TABLEDATA>", "</BINARY>");
+    assert!(vot(&binary, Limits::default())
+        .unwrap_err()
+        .message
+        .contains("only TABLEDATA"));
+    assert!(vot("<html/>", Limits::default())
+        .unwrap_err()
+        .message
+        .contains("no TABLE"));
     assert!(vot("<VOTABLE><TABLE></VOTABLE>", Limits::default()).is_err());
 }
 
 #[test]
 fn votable_limits_end_in_a_clear_error() {
-    let small = Limits { max_cell_bytes: 16, max_columns: 3, max_row_bytes: 64 };
+    let small = Limits {
+        max_cell_bytes: 16,
+        max_columns: 3,
+        max_row_bytes: 64,
+    };
     let e = vot(VOT, small).unwrap_err();
     assert!(e.message.contains("more than 3 FIELDs"), "{e}");
-    let small = Limits { max_cell_bytes: 8, max_columns: 8, max_row_bytes: 1 << 20 };
+    let small = Limits {
+        max_cell_bytes: 8,
+        max_columns: 8,
+        max_row_bytes: 1 << 20,
+    };
     let e = vot(VOT, small).unwrap_err();
-    assert!(e.message.contains("more than 8 bytes, the limit of a cell"), "{e}");
+    assert!(
+        e.message.contains("more than 8 bytes, the limit of a cell"),
+        "{e}"
+    );
     // One text run far beyond the limit stops the reader before it is all read.
     let huge = VOT.replace("0.9", &"9".repeat(2_000_000));
-    let small = Limits { max_cell_bytes: 1 << 20, max_columns: 8, max_row_bytes: 1024 };
-    let mut counting = Counting { inner: huge.as_bytes(), read: 0 };
+    let small = Limits {
+        max_cell_bytes: 1 << 20,
+        max_columns: 8,
+        max_row_bytes: 1024,
+    };
+    let mut counting = Counting {
+        inner: huge.as_bytes(),
+        read: 0,
+    };
     let e = VoTable::new(std::io::BufReader::new(&mut counting), small)
         .and_then(|mut t| t.next_row())
         .unwrap_err();
     assert!(e.message.contains("a tag or text longer than"), "{e}");
     assert!(counting.read < 300_000, "{} bytes read", counting.read);
     let deep = format!("<VOTABLE>{}", "<a>".repeat(100));
-    assert!(vot(&deep, Limits::default()).unwrap_err().message.contains("nested deeper"));
+    assert!(vot(&deep, Limits::default())
+        .unwrap_err()
+        .message
+        .contains("nested deeper"));
 }
 
 #[test]
@@ -401,14 +502,17 @@ fn vounits_in_syzygy_spelling() {
         assert!(crate::units::parse_unit_text(syz).is_some(), "{syz}");
     }
     assert!(vounit_to_syzygy("mag").is_err());
-    assert!(vounit_to_syzygy("furlong").unwrap_err().contains("`furlong`"));
+    assert!(vounit_to_syzygy("furlong")
+        .unwrap_err()
+        .contains("`furlong`"));
 }
 
 #[test]
 fn a_field_unit_without_equivalent_names_the_field() {
     let text = VOT.replace("unit=\"solRad\"", "unit=\"mag\"");
     let t = VoTable::new(text.as_bytes(), Limits::default()).unwrap();
-    let m = Mapping::from_toml("[bodies]\nsystem = \"sys\"\n[star.radius]\nvalue = \"r\"\n").unwrap();
+    let m =
+        Mapping::from_toml("[bodies]\nsystem = \"sys\"\n[star.radius]\nvalue = \"r\"\n").unwrap();
     let e = Importer::new(&m, t.columns(), "t").err().unwrap();
     assert!(e.0.contains("`mag` of field `r`"), "{e}");
 }
@@ -421,10 +525,26 @@ fn names_from_tables_stay_names() {
     assert_eq!(syzygy_name("☼☼", "star"), "star_unnamed");
     assert_eq!(syzygy_name("..", "planet"), "planet_unnamed");
     assert!(syzygy_name(&"x".repeat(500), "s").len() <= 64);
-    for hostile in ["../../etc/passwd", "/abs/path", "..", ".hidden", "a\\b", "C:\\x", "", "..."] {
+    for hostile in [
+        "../../etc/passwd",
+        "/abs/path",
+        "..",
+        ".hidden",
+        "a\\b",
+        "C:\\x",
+        "",
+        "...",
+    ] {
         let s = file_stem(hostile);
-        assert!(!s.is_empty() && !s.starts_with(['.', '-']), "{hostile:?} -> {s:?}");
-        assert!(s.bytes().all(|b| b.is_ascii_lowercase() || b.is_ascii_digit() || b == b'-'), "{s}");
+        assert!(
+            !s.is_empty() && !s.starts_with(['.', '-']),
+            "{hostile:?} -> {s:?}"
+        );
+        assert!(
+            s.bytes()
+                .all(|b| b.is_ascii_lowercase() || b.is_ascii_digit() || b == b'-'),
+            "{s}"
+        );
     }
     assert_eq!(file_stem("../../etc/passwd"), "etc-passwd");
     assert_eq!(file_stem("CON"), "con-system");
@@ -437,6 +557,10 @@ fn names_from_tables_stay_names() {
 fn every_issue_kind_is_documented() {
     let doc = include_str!("../../../docs/import.md");
     for k in IssueKind::ALL {
-        assert!(doc.contains(&format!("| `{}` |", k.id())), "docs/import.md lacks `{}`", k.id());
+        assert!(
+            doc.contains(&format!("| `{}` |", k.id())),
+            "docs/import.md lacks `{}`",
+            k.id()
+        );
     }
 }

@@ -152,7 +152,7 @@ impl<R: BufRead> VoTable<R> {
 
     /// The next event's kind, element name and attributes (for start and empty tags); text
     /// is returned as the name of a `Text` kind, unescaped.
-    fn event(&mut self) -> Result<(Kind, String, Vec<(String, String)>), TableError> {
+    fn event(&mut self) -> Result<(Kind, String, Attributes), TableError> {
         self.buf.clear();
         self.reader.get_mut().since = 0;
         let ev = match self.reader.read_event_into(&mut self.buf) {
@@ -167,50 +167,52 @@ impl<R: BufRead> VoTable<R> {
         };
         let line = self.reader.get_ref().line;
         let err = |m: String| TableError::new(Some(line), m);
-        let out = match ev {
-            Event::Start(s) => {
-                self.depth += 1;
-                if self.depth > MAX_DEPTH {
-                    return Err(err(format!("elements nested deeper than {MAX_DEPTH}")));
+        let out =
+            match ev {
+                Event::Start(s) => {
+                    self.depth += 1;
+                    if self.depth > MAX_DEPTH {
+                        return Err(err(format!("elements nested deeper than {MAX_DEPTH}")));
+                    }
+                    (Kind::Start, local(&s), attributes(&s).map_err(err)?)
                 }
-                (Kind::Start, local(&s), attributes(&s).map_err(err)?)
-            }
-            Event::Empty(s) => (Kind::Empty, local(&s), attributes(&s).map_err(err)?),
-            Event::End(e) => {
-                self.depth = self.depth.saturating_sub(1);
-                (
-                    Kind::End,
-                    String::from_utf8_lossy(e.local_name().as_ref()).into_owned(),
-                    Vec::new(),
-                )
-            }
-            Event::Text(t) => {
-                let text = t.unescape().map_err(|e| {
-                    err(format!(
+                Event::Empty(s) => (Kind::Empty, local(&s), attributes(&s).map_err(err)?),
+                Event::End(e) => {
+                    self.depth = self.depth.saturating_sub(1);
+                    (
+                        Kind::End,
+                        String::from_utf8_lossy(e.local_name().as_ref()).into_owned(),
+                        Vec::new(),
+                    )
+                }
+                Event::Text(t) => {
+                    let text = t.unescape().map_err(|e| {
+                        err(format!(
                         "{e}: only the XML predefined entities and character references are read"
                     ))
-                })?;
-                (Kind::Text, text.into_owned(), Vec::new())
-            }
-            Event::CData(c) => (
-                Kind::Text,
-                String::from_utf8_lossy(&c.into_inner()).into_owned(),
-                Vec::new(),
-            ),
-            Event::DocType(_) => {
-                return Err(err(
+                    })?;
+                    (Kind::Text, text.into_owned(), Vec::new())
+                }
+                Event::CData(c) => (
+                    Kind::Text,
+                    String::from_utf8_lossy(&c.into_inner()).into_owned(),
+                    Vec::new(),
+                ),
+                Event::DocType(_) => return Err(err(
                     "the VOTable has a DOCTYPE; it is refused, so that no DTD or entity is read"
                         .into(),
-                ))
-            }
-            Event::Eof => (Kind::Eof, String::new(), Vec::new()),
-            Event::Decl(_) | Event::PI(_) | Event::Comment(_) => {
-                (Kind::Other, String::new(), Vec::new())
-            }
-        };
+                )),
+                Event::Eof => (Kind::Eof, String::new(), Vec::new()),
+                Event::Decl(_) | Event::PI(_) | Event::Comment(_) => {
+                    (Kind::Other, String::new(), Vec::new())
+                }
+            };
         Ok(out)
     }
 }
+
+/// An element's attributes, by local name.
+type Attributes = Vec<(String, String)>;
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 enum Kind {
@@ -226,7 +228,7 @@ fn local(s: &BytesStart) -> String {
     String::from_utf8_lossy(s.local_name().as_ref()).into_owned()
 }
 
-fn attributes(s: &BytesStart) -> Result<Vec<(String, String)>, String> {
+fn attributes(s: &BytesStart) -> Result<Attributes, String> {
     let mut out = Vec::new();
     for a in s.attributes() {
         let a = a.map_err(|e| format!("not well-formed XML: {e}"))?;
