@@ -215,6 +215,18 @@ pub fn read_text(path: &Path, limit: u64) -> Result<String, String> {
     })
 }
 
+/// A regular file opened for streaming (a table for `syz import`), with its size; anything
+/// else is refused without waiting, as `read_text` does.
+pub fn open_regular(path: &Path) -> Result<(std::fs::File, u64), String> {
+    let shown = path.display();
+    let file = open_without_waiting(path).map_err(|e| format!("{shown}: {}", io_words(&e)))?;
+    let meta = file
+        .metadata()
+        .map_err(|e| format!("{shown}: {}", io_words(&e)))?;
+    regular(&meta).map_err(|e| format!("{shown}: {e}"))?;
+    Ok((file, meta.len()))
+}
+
 /// `Ok` for a regular file, else what it is, in words.
 fn regular(meta: &std::fs::Metadata) -> Result<(), String> {
     let kind = meta.file_type();

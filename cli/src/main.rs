@@ -23,6 +23,7 @@ mod eval_cmd;
 mod explain_cmd;
 mod files;
 mod fmt_cmd;
+mod import_cmd;
 mod json_out;
 mod output;
 mod plot_cmd;
@@ -278,6 +279,14 @@ enum Command {
         after_help = "Example:\n  syz completions bash > ~/.local/share/bash-completion/completions/syz\n  syz completions fish > ~/.config/fish/completions/syz.fish"
     )]
     Completions { shell: clap_complete::Shell },
+    /// Import tables (CSV, VOTable) into one .syz file per system, under a mapping file.
+    #[command(
+        after_help = "Exit status: 0 everything imported; 1 some cells were not imported (each is named); 2 a table, the mapping or the output folder could not be used.\n\nExample:\n  syz import examples/tables/survey.csv --mapping examples/tables/survey.toml -o imported/\n\nThe mapping file: docs/import.md."
+    )]
+    Import {
+        #[command(flatten)]
+        args: import_cmd::Args,
+    },
     /// List a planet's upcoming mid-transit times with their uncertainty.
     Ephemeris {
         #[command(flatten)]
@@ -335,6 +344,7 @@ fn main() -> ExitCode {
             0
         }
         Command::Plot { plot, engine, read } => plot_cmd::run(&plot, &engine.flags(), read),
+        Command::Import { args } => import_cmd::run(&args),
         Command::Ephemeris { args, engine, read } => {
             ephemeris_cmd::run(&args, &engine.flags(), read)
         }

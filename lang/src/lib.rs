@@ -19,6 +19,7 @@ pub mod output;
 pub mod parts;
 pub mod reuse;
 pub mod syntax;
+pub mod tables;
 // The physics library: formulas, composition curves, orbits, light curves, time scales.
 // It imports nothing from the stages above.
 pub mod physics;

@@ -13,6 +13,7 @@ const COMMANDS: &[&str] = &[
     "lsp",
     "plot",
     "ephemeris",
+    "import",
     "completions",
 ];
 

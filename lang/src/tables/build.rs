@@ -1,0 +1,738 @@
+//! Rows into systems of bodies and values, under a mapping. Every non-empty mapped cell is
+//! either kept in a declaration or named in an [`Issue`]; nothing is dropped quietly.
+
+use super::mapping::{Plan, QuantityPlan};
+use super::names::syzygy_name;
+use super::{Column, Issue, IssueKind, Mapping, MappingError, Row};
+use crate::ast::BodyKind;
+use crate::quantities::QuantityDef;
+use std::collections::{BTreeSet, HashMap};
+
+/// One declaration of a quantity, as it will be written.
+#[derive(Debug, Clone)]
+pub(crate) struct Decl {
+    pub def: &'static QuantityDef,
+    /// `=`, `<` or `>`.
+    pub op: char,
+    /// The value after the operator, with its uncertainty and unit.
+    pub text: String,
+    pub refs: BTreeSet<String>,
+    pub row: usize,
+}
+
+#[derive(Debug, Clone)]
+pub(crate) struct Body {
+    pub kind: BodyKind,
+    pub id: String,
+    /// The name as the table wrote it.
+    pub table_name: String,
+    /// A planet's host, as the table names it.
+    pub host: Option<String>,
+    pub decls: Vec<Decl>,
+    pub row: usize,
+    pub line: u64,
+    /// The column the host came from, for a missing-host issue.
+    pub host_column: Option<String>,
+    /// Non-empty mapped cells this body holds (its name included), counted if it is dropped.
+    pub cells: usize,
+}
+
+#[derive(Debug, Clone)]
+pub(crate) struct System {
+    pub name: String,
+    pub bodies: Vec<Body>,
+    /// (kind, name in the table) to index in `bodies`.
+    index: HashMap<(BodyKind, String), usize>,
+}
+
+/// What an import made of one table.
+#[derive(Debug, Clone, Default, PartialEq, Eq)]
+pub struct Summary {
+    pub rows: usize,
+    pub systems: usize,
+    pub stars: usize,
+    pub planets: usize,
+    /// Values written (declarations from cells; constants not counted).
+    pub values: usize,
+    /// Rows repeating a value already declared with the same sources (kept once).
+    pub merged: usize,
+    /// Non-empty mapped cells that are in no output file (each named in an issue).
+    pub skipped_cells: usize,
+}
+
+/// One system's file.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct SystemText {
+    pub system: String,
+    /// The file stem made from the system's name (see `names::file_stem`).
+    pub stem: String,
+    pub text: String,
+}
+
+/// Everything an import produced.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct ImportResult {
+    pub files: Vec<SystemText>,
+    pub issues: Vec<Issue>,
+    /// Columns nobody reads, in table order.
+    pub unmapped: Vec<String>,
+    pub summary: Summary,
+}
+
+/// Rows in, systems out: `Importer::new`, then `add_row` for every row, then `finish`.
+pub struct Importer {
+    /// Shared so that each row can read it while the importer changes.
+    plan: std::sync::Arc<Plan>,
+    columns: Vec<String>,
+    table: String,
+    systems: Vec<System>,
+    system_index: HashMap<String, usize>,
+    ref_ids: HashMap<String, String>,
+    ref_texts: HashMap<String, String>,
+    issues: Vec<Issue>,
+    summary: Summary,
+}
+
+impl Importer {
+    /// Resolve the mapping against the table's columns. `table` names the table in the
+    /// files' header comment.
+    pub fn new(mapping: &Mapping, columns: &[Column], table: &str) -> Result<Self, MappingError> {
+        let plan = std::sync::Arc::new(Plan::new(mapping, columns)?);
+        Ok(Importer {
+            plan,
+            columns: columns.iter().map(|c| c.name.clone()).collect(),
+            table: table.to_string(),
+            systems: Vec::new(),
+            system_index: HashMap::new(),
+            ref_ids: HashMap::new(),
+            ref_texts: HashMap::new(),
+            issues: Vec::new(),
+            summary: Summary::default(),
+        })
+    }
+
+    /// Columns nobody reads (not mapped, not ignored).
+    pub fn unmapped(&self) -> &[String] {
+        &self.plan.unmapped
+    }
+
+    fn column(&self, i: usize) -> String {
+        self.columns
+            .get(i)
+            .cloned()
+            .unwrap_or_else(|| format!("#{}", i + 1))
+    }
+
+    fn issue(&mut self, kind: IssueKind, row: &Row, col: Option<usize>, message: String) {
+        let column = col.map(|c| self.column(c));
+        self.issues.push(Issue {
+            kind,
+            row: row.number,
+            line: row.line,
+            column,
+            message,
+        });
+    }
+
+    /// Non-empty cells of the row among `cols`.
+    fn filled(row: &Row, cols: impl IntoIterator<Item = usize>) -> Vec<usize> {
+        cols.into_iter()
+            .filter(|c| row.cells.get(*c).is_some_and(|v| !v.is_empty()))
+            .collect()
+    }
+
+    /// Columns a quantity reads besides its value.
+    fn companions(q: &QuantityPlan) -> impl Iterator<Item = usize> {
+        [q.error, q.above, q.below, q.limit, q.refs]
+            .into_iter()
+            .flatten()
+    }
+
+    /// Import one row.
+    pub fn add_row(&mut self, row: &Row) {
+        self.summary.rows += 1;
+        let cell = |i: Option<usize>| -> &str {
+            i.and_then(|i| row.cells.get(i)).map_or("", |s| s.as_str())
+        };
+        let extra: Vec<usize> = (self.columns.len()..row.cells.len())
+            .filter(|i| row.cells.get(*i).is_some_and(|c| !c.is_empty()))
+            .collect();
+        if !extra.is_empty() {
+            self.summary.skipped_cells += extra.len();
+            self.issue(
+                IssueKind::ExtraCells,
+                row,
+                None,
+                format!(
+                    "{} cells, the header has {} columns; {} non-empty cells beyond the header are not imported",
+                    row.cells.len(),
+                    self.columns.len(),
+                    extra.len()
+                ),
+            );
+        }
+        let plan = std::sync::Arc::clone(&self.plan);
+        let system = cell(Some(plan.system)).to_string();
+        if system.is_empty() {
+            let lost = Self::filled(
+                row,
+                (0..self.columns.len())
+                    .filter(|i| plan.used.get(*i) == Some(&true) && *i != plan.system),
+            );
+            self.summary.skipped_cells += lost.len();
+            if !lost.is_empty() {
+                self.issue(
+                    IssueKind::MissingName,
+                    row,
+                    Some(plan.system),
+                    format!(
+                        "no system name; the row's {} other cells are not imported",
+                        lost.len()
+                    ),
+                );
+            }
+            return;
+        }
+        let star_name = match plan.star {
+            Some(c) => cell(Some(c)).to_string(),
+            None => system.clone(),
+        };
+        let planet_name = cell(plan.planet).to_string();
+        let si = self.system(&system);
+        // The row's references.
+        let mut row_refs = BTreeSet::new();
+        for &c in &plan.ref_text {
+            let text = cell(Some(c)).to_string();
+            if !text.is_empty() {
+                let key = cell(plan.ref_key).to_string();
+                row_refs.insert(self.ref_id(&text, &key));
+            }
+        }
+        let star = if star_name.is_empty() {
+            None
+        } else {
+            let from_system = plan.star.is_none();
+            Some(self.body(si, BodyKind::Star, &star_name, from_system, row, None))
+        };
+        let planet = if planet_name.is_empty() {
+            None
+        } else {
+            let host_cell = cell(plan.host).to_string();
+            let (host, host_col) = if !host_cell.is_empty() {
+                (Some(host_cell), plan.host)
+            } else if !star_name.is_empty() {
+                (Some(star_name.clone()), plan.star.or(Some(plan.system)))
+            } else {
+                (None, plan.star)
+            };
+            let host_col = host_col.map(|c| self.column(c));
+            let b = self.body(si, BodyKind::Planet, &planet_name, false, row, host.clone());
+            if let Some(body) = self.systems.get_mut(si).and_then(|s| s.bodies.get_mut(b)) {
+                if body.host.is_none() {
+                    body.host = host;
+                    body.host_column = host_col;
+                }
+            }
+            Some(b)
+        };
+        if let Some(b) = planet {
+            self.count_cells(si, b, 1);
+        }
+        for q in &plan.quantities {
+            let target = match q.def.kind {
+                BodyKind::Star => star,
+                BodyKind::Planet => planet,
+            };
+            let value = cell(Some(q.value));
+            let Some(b) = target else {
+                let lost = Self::filled(row, std::iter::once(q.value).chain(Self::companions(q)));
+                if !lost.is_empty() {
+                    self.summary.skipped_cells += lost.len();
+                    let (what, col) = match q.def.kind {
+                        BodyKind::Star => ("star", plan.star),
+                        BodyKind::Planet => ("planet", plan.planet),
+                    };
+                    self.issue(
+                        IssueKind::MissingName,
+                        row,
+                        Some(q.value),
+                        format!(
+                            "{} {}: the row names no {what}{}; not imported",
+                            what,
+                            q.def.name,
+                            col.map(|c| format!(" (column `{}` is empty)", self.column(c)))
+                                .unwrap_or_default()
+                        ),
+                    );
+                }
+                continue;
+            };
+            if value.is_empty() {
+                let lost = Self::filled(
+                    row,
+                    [q.error, q.above, q.below, q.limit].into_iter().flatten(),
+                );
+                for c in lost {
+                    self.summary.skipped_cells += 1;
+                    self.issue(
+                        IssueKind::Unused,
+                        row,
+                        Some(c),
+                        format!("{} has no value in this row (column `{}` is empty), so this cell is not imported", q.def.name, self.column(q.value)),
+                    );
+                }
+                continue;
+            }
+            let mut refs = row_refs.clone();
+            let own = cell(q.refs).to_string();
+            if !own.is_empty() {
+                refs.insert(self.ref_id(&own, ""));
+            }
+            match self.decl(q, row, refs) {
+                Some(d) => {
+                    let used =
+                        Self::filled(row, std::iter::once(q.value).chain(Self::companions(q)))
+                            .len();
+                    self.add_decl(si, b, d, row, q.value, used);
+                }
+                None => {
+                    // `decl` named the cell; the value and its companions are not imported.
+                    let lost =
+                        Self::filled(row, std::iter::once(q.value).chain(Self::companions(q)));
+                    self.summary.skipped_cells += lost.len();
+                }
+            }
+        }
+    }
+
+    fn count_cells(&mut self, si: usize, b: usize, n: usize) {
+        if let Some(body) = self.systems.get_mut(si).and_then(|s| s.bodies.get_mut(b)) {
+            body.cells += n;
+        }
+    }
+
+    fn system(&mut self, name: &str) -> usize {
+        if let Some(&i) = self.system_index.get(name) {
+            return i;
+        }
+        let i = self.systems.len();
+        self.systems.push(System {
+            name: name.to_string(),
+            bodies: Vec::new(),
+            index: HashMap::new(),
+        });
+        self.system_index.insert(name.to_string(), i);
+        i
+    }
+
+    /// The body of that kind and table name in system `si`, declared on first use.
+    fn body(
+        &mut self,
+        si: usize,
+        kind: BodyKind,
+        name: &str,
+        from_system: bool,
+        row: &Row,
+        host: Option<String>,
+    ) -> usize {
+        let Some(sys) = self.systems.get_mut(si) else {
+            return 0;
+        };
+        if let Some(&b) = sys.index.get(&(kind, name.to_string())) {
+            return b;
+        }
+        // A planet written with its star's or system's name in front ("Tarn-4 b") is `b`.
+        let mut short = name;
+        if kind == BodyKind::Planet {
+            for prefix in [host.as_deref().unwrap_or(""), sys.name.as_str()] {
+                if prefix.is_empty() {
+                    continue;
+                }
+                if let Some(rest) = name.strip_prefix(prefix) {
+                    let rest = rest.trim_start_matches([' ', '-', '_']);
+                    if !rest.is_empty() && rest.len() < name.len() {
+                        short = rest;
+                        break;
+                    }
+                }
+            }
+        }
+        let mut id = syzygy_name(short, kind.as_str());
+        if from_system {
+            id = id.to_ascii_lowercase();
+        }
+        let base = id.clone();
+        let mut n = 1;
+        while sys.bodies.iter().any(|b| b.id == id) {
+            n += 1;
+            id = format!("{base}_{n}");
+        }
+        let b = sys.bodies.len();
+        sys.bodies.push(Body {
+            kind,
+            id,
+            table_name: name.to_string(),
+            host: None,
+            decls: Vec::new(),
+            row: row.number,
+            line: row.line,
+            host_column: None,
+            cells: 0,
+        });
+        sys.index.insert((kind, name.to_string()), b);
+        b
+    }
+
+    /// The id of a reference text (the key column's cell made a name when given, else a name
+    /// made from the text); one text keeps one id for the whole import.
+    fn ref_id(&mut self, text: &str, key: &str) -> String {
+        if let Some(id) = self.ref_ids.get(text) {
+            return id.clone();
+        }
+        let base = if key.is_empty() {
+            ref_name(text)
+        } else {
+            syzygy_name(key, "ref")
+        };
+        let mut id = base.clone();
+        let mut n = 1;
+        while self.ref_texts.contains_key(&id) {
+            n += 1;
+            id = format!("{base}_{n}");
+        }
+        self.ref_ids.insert(text.to_string(), id.clone());
+        self.ref_texts.insert(id.clone(), text.to_string());
+        id
+    }
+
+    /// The declaration a row gives one quantity, or `None` after naming the cell at fault.
+    fn decl(&mut self, q: &QuantityPlan, row: &Row, refs: BTreeSet<String>) -> Option<Decl> {
+        let cell = |i: Option<usize>| -> String {
+            i.and_then(|i| row.cells.get(i))
+                .cloned()
+                .unwrap_or_default()
+        };
+        let raw = cell(Some(q.value));
+        let what = q.def.name;
+        if q.def.text {
+            return Some(Decl {
+                def: q.def,
+                op: '=',
+                text: string_literal(&raw),
+                refs,
+                row: row.number,
+            });
+        }
+        let Some((value, value_text)) = number(&raw) else {
+            self.issue(
+                IssueKind::BadNumber,
+                row,
+                Some(q.value),
+                format!(
+                    "{what}: `{}` is not a number; the value is not imported",
+                    shorten(&raw)
+                ),
+            );
+            return None;
+        };
+        let flag = cell(q.limit);
+        let op = if flag.is_empty() || self.plan.codes.measured.contains(&flag) {
+            '='
+        } else if self.plan.codes.upper.contains(&flag) {
+            '<'
+        } else if self.plan.codes.lower.contains(&flag) {
+            '>'
+        } else {
+            self.issue(
+                IssueKind::BadLimitCode,
+                row,
+                q.limit,
+                format!(
+                    "{what}: the limit flag `{}` is none of the mapping's codes (upper {:?}, lower {:?}, measured {:?} or empty); the value is not imported",
+                    shorten(&flag),
+                    self.plan.codes.upper,
+                    self.plan.codes.lower,
+                    self.plan.codes.measured
+                ),
+            );
+            return None;
+        };
+        if !q.def.in_range(value * q.factor) {
+            self.issue(
+                IssueKind::OutOfRange,
+                row,
+                Some(q.value),
+                format!(
+                    "{what} = {} is outside its valid range, {}; not imported",
+                    format!("{value_text} {}", q.unit).trim_end(),
+                    q.def.range_text()
+                ),
+            );
+            return None;
+        }
+        let mut text = value_text;
+        if op == '=' {
+            let err = |s: &mut Self,
+                       col: Option<usize>,
+                       side: &str,
+                       signed_ok: bool|
+             -> Result<Option<String>, ()> {
+                let raw = cell(col);
+                if raw.is_empty() {
+                    return Ok(None);
+                }
+                match number(&raw) {
+                    Some((v, t)) if v >= 0.0 => Ok(Some(t)),
+                    Some((_, t)) if signed_ok => Ok(Some(t.trim_start_matches('-').to_string())),
+                    Some(_) => {
+                        s.issue(IssueKind::BadNumber, row, col, format!("{what}: the uncertainty {side} `{}` is negative; the value is not imported", shorten(&raw)));
+                        Err(())
+                    }
+                    None => {
+                        s.issue(IssueKind::BadNumber, row, col, format!("{what}: the uncertainty {side} `{}` is not a number; the value is not imported", shorten(&raw)));
+                        Err(())
+                    }
+                }
+            };
+            let sym = err(self, q.error, "(symmetric)", false).ok()?;
+            let above = err(self, q.above, "above", false).ok()?;
+            let below = err(self, q.below, "below", true).ok()?;
+            match (sym, above, below) {
+                (Some(s), _, _) => text = format!("{text} ± {s}"),
+                (None, Some(a), Some(b)) => text = format!("{text} +{a}/-{b}"),
+                (None, Some(_), None) | (None, None, Some(_)) => {
+                    let (col, side) = if cell(q.above).is_empty() {
+                        (q.above, "above")
+                    } else {
+                        (q.below, "below")
+                    };
+                    self.issue(IssueKind::BadNumber, row, col, format!("{what}: the uncertainty {side} is empty but the other side is given; the value is not imported"));
+                    return None;
+                }
+                (None, None, None) => {}
+            }
+        } else {
+            for c in [q.error, q.above, q.below].into_iter().flatten() {
+                if !cell(Some(c)).is_empty() {
+                    self.summary.skipped_cells += 1;
+                    self.issue(
+                        IssueKind::Unused,
+                        row,
+                        Some(c),
+                        format!("{what} is a limit in this row; a limit takes no uncertainty, so this cell is not imported"),
+                    );
+                }
+            }
+        }
+        if !q.unit.is_empty() {
+            text = format!("{text} {}", q.unit);
+        }
+        Some(Decl {
+            def: q.def,
+            op,
+            text,
+            refs,
+            row: row.number,
+        })
+    }
+
+    /// Add a declaration, unless it repeats one (merged) or conflicts with one (an issue).
+    fn add_decl(&mut self, si: usize, b: usize, d: Decl, row: &Row, col: usize, cells: usize) {
+        let Some(body) = self.systems.get_mut(si).and_then(|s| s.bodies.get_mut(b)) else {
+            return;
+        };
+        let same: Vec<&Decl> = body
+            .decls
+            .iter()
+            .filter(|e| e.def.qty == d.def.qty)
+            .collect();
+        if same
+            .iter()
+            .any(|e| e.op == d.op && e.text == d.text && e.refs == d.refs)
+        {
+            self.summary.merged += 1;
+            return;
+        }
+        let separate = !d.def.text
+            && !d.refs.is_empty()
+            && same.iter().all(|e| !e.refs.is_empty() && e.refs != d.refs);
+        if same.is_empty() || separate {
+            body.decls.push(d);
+            body.cells += cells;
+            self.summary.values += 1;
+            return;
+        }
+        // The declaration it clashes with: one citing the same sources, or none.
+        let first = same
+            .iter()
+            .find(|e| e.refs == d.refs || e.refs.is_empty() || d.refs.is_empty() || d.def.text)
+            .or(same.first())
+            .map(|e| (e.row, e.op, e.text.clone()));
+        let id = body.id.clone();
+        self.summary.skipped_cells += cells;
+        if let Some((r, op, text)) = first {
+            self.issue(
+                IssueKind::Conflict,
+                row,
+                Some(col),
+                format!(
+                    "{id}.{} {} {} here, but {} {} in row {r}; the rows do not cite different sources, so only row {r}'s value is kept (add a reference column to keep both)",
+                    d.def.name, d.op, d.text, op, text
+                ),
+            );
+        }
+    }
+
+    /// Check hosts, count, and write one text per system.
+    pub fn finish(mut self) -> ImportResult {
+        let systems = std::mem::take(&mut self.systems);
+        let mut files = Vec::new();
+        for mut sys in systems {
+            // Planets whose host is no star of the system.
+            let stars: HashMap<String, String> = sys
+                .bodies
+                .iter()
+                .filter(|b| b.kind == BodyKind::Star)
+                .map(|b| (b.table_name.clone(), b.id.clone()))
+                .collect();
+            let mut kept = Vec::new();
+            for body in std::mem::take(&mut sys.bodies) {
+                if body.kind == BodyKind::Planet {
+                    let host = body.host.as_ref().and_then(|h| stars.get(h));
+                    if host.is_none() {
+                        self.summary.skipped_cells += body.cells;
+                        self.issues.push(Issue {
+                            kind: IssueKind::MissingHost,
+                            row: body.row,
+                            line: body.line,
+                            column: body.host_column.clone(),
+                            message: match &body.host {
+                                Some(h) => format!(
+                                    "planet `{}` of system `{}` orbits `{h}`, which no row declares as a star of that system; the planet and its {} cells are not imported",
+                                    body.table_name, sys.name, body.cells
+                                ),
+                                None => format!(
+                                    "planet `{}` of system `{}` has no host star (no host or star cell); the planet and its {} cells are not imported",
+                                    body.table_name, sys.name, body.cells
+                                ),
+                            },
+                        });
+                        self.summary.values -= body.decls.len().min(self.summary.values);
+                        continue;
+                    }
+                }
+                kept.push(body);
+            }
+            let hosts: Vec<Option<String>> = kept
+                .iter()
+                .map(|b| b.host.as_ref().and_then(|h| stars.get(h)).cloned())
+                .collect();
+            self.summary.systems += 1;
+            self.summary.stars += kept.iter().filter(|b| b.kind == BodyKind::Star).count();
+            self.summary.planets += kept.iter().filter(|b| b.kind == BodyKind::Planet).count();
+            files.push(super::emit::system_text(
+                &sys.name,
+                &kept,
+                &hosts,
+                &self.plan.constants,
+                &self.ref_texts,
+                &self.table,
+            ));
+        }
+        self.issues.sort_by_key(|i| (i.row, i.line));
+        ImportResult {
+            files,
+            issues: self.issues,
+            unmapped: self.plan.unmapped.clone(),
+            summary: self.summary,
+        }
+    }
+}
+
+/// A cell read as a number, with the text to write: the cell itself when the language reads
+/// it as written (so no digit is lost), else the shortest text that gives the same number.
+fn number(raw: &str) -> Option<(f64, String)> {
+    let t = raw.trim();
+    let t = t.strip_prefix('+').unwrap_or(t);
+    let v: f64 = t.parse().ok()?;
+    if !v.is_finite() {
+        return None;
+    }
+    let (neg, digits) = match t.strip_prefix('-') {
+        Some(rest) => (true, rest),
+        None => (false, t),
+    };
+    if syzygy_number(digits) {
+        let digits = digits.to_string();
+        return Some((v, if neg { format!("-{digits}") } else { digits }));
+    }
+    Some((v, format!("{v:e}")))
+}
+
+/// Whether text is a number as the lexer reads it: digits with an optional fraction and
+/// exponent (`42`, `0.93`, `1.`, `.5`, `6.2e-3`).
+fn syzygy_number(t: &str) -> bool {
+    let (mant, exp) = match t.find(['e', 'E']) {
+        Some(i) => (t.get(..i).unwrap_or(""), t.get(i + 1..)),
+        None => (t, None),
+    };
+    let (int, frac) = mant.split_once('.').unwrap_or((mant, ""));
+    let digits = |s: &str| s.bytes().all(|b| b.is_ascii_digit());
+    let mant_ok = digits(int) && digits(frac) && !(int.is_empty() && frac.is_empty());
+    let exp_ok = exp.is_none_or(|e| {
+        let e = e.strip_prefix(['+', '-']).unwrap_or(e);
+        !e.is_empty() && digits(e)
+    });
+    mant_ok && exp_ok
+}
+
+/// A string literal of the language.
+pub(crate) fn string_literal(s: &str) -> String {
+    let mut out = String::from("\"");
+    for ch in s.chars() {
+        match ch {
+            '"' => out.push_str("\\\""),
+            '\\' => out.push_str("\\\\"),
+            '\n' => out.push_str("\\n"),
+            '\t' => out.push_str("\\t"),
+            // Other control characters cannot stand in a string literal; a space keeps the
+            // words apart.
+            c if c.is_control() => out.push(' '),
+            c => out.push(c),
+        }
+    }
+    out.push('"');
+    out
+}
+
+/// A cell shown in a message: at most 40 characters.
+fn shorten(s: &str) -> String {
+    if s.chars().count() <= 40 {
+        s.to_string()
+    } else {
+        let head: String = s.chars().take(40).collect();
+        format!("{head}…")
+    }
+}
+
+/// An id made from a reference's text: its first word and first four-digit number, lower
+/// case (`Orlen et al. 2031, invented journal` is `orlen2031`).
+fn ref_name(text: &str) -> String {
+    let word: String = text
+        .split(|c: char| !c.is_ascii_alphabetic())
+        .find(|w| !w.is_empty())
+        .unwrap_or("")
+        .to_ascii_lowercase();
+    let year = text
+        .as_bytes()
+        .windows(4)
+        .enumerate()
+        .find(|(i, w)| {
+            w.iter().all(u8::is_ascii_digit)
+                && !text.as_bytes().get(i + 4).is_some_and(u8::is_ascii_digit)
+                && (*i == 0 || !text.as_bytes().get(i - 1).is_some_and(u8::is_ascii_digit))
+        })
+        .and_then(|(i, _)| text.get(i..i + 4))
+        .unwrap_or("");
+    syzygy_name(&format!("{word}{year}"), "ref")
+}

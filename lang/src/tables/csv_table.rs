@@ -1,0 +1,214 @@
+//! CSV tables: a header row, then data rows; `,`, tab or `;` separated (detected from the
+//! header line unless given); quoted fields; lines starting with `#` are comments. Read
+//! incrementally through the `csv` crate, with every row, cell and the column count bounded.
+
+use super::{Column, Limits, Row, RowSource, TableError};
+use std::io::Read;
+
+/// Bytes looked at to detect the separator.
+const SNIFF_BYTES: u64 = 64 * 1024;
+/// The `csv` reader's buffer: a row may have been read ahead by this much.
+const CSV_BUFFER: usize = 64 * 1024;
+
+/// A reader that fails once more than `limit` bytes were read since the last `reset`, so that
+/// no single row can make the `csv` reader grow its buffers without bound.
+struct Capped<R> {
+    inner: R,
+    since: usize,
+    limit: usize,
+}
+
+impl<R: Read> Read for Capped<R> {
+    fn read(&mut self, buf: &mut [u8]) -> std::io::Result<usize> {
+        if self.since > self.limit {
+            return Err(std::io::Error::other(RowTooLong));
+        }
+        let n = self.inner.read(buf)?;
+        self.since += n;
+        Ok(n)
+    }
+}
+
+#[derive(Debug)]
+struct RowTooLong;
+
+impl std::fmt::Display for RowTooLong {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str("row too long")
+    }
+}
+
+impl std::error::Error for RowTooLong {}
+
+type Source<R> = Capped<std::io::Chain<std::io::Cursor<Vec<u8>>, R>>;
+
+/// A CSV table being read.
+pub struct CsvTable<R: Read> {
+    reader: csv::Reader<Source<R>>,
+    columns: Vec<Column>,
+    limits: Limits,
+    record: csv::ByteRecord,
+    rows: usize,
+}
+
+impl<R: Read> CsvTable<R> {
+    /// Read the header; `delimiter` as the mapping gives it, else detected.
+    pub fn new(mut input: R, delimiter: Option<char>, limits: Limits) -> Result<Self, TableError> {
+        let mut prefix = Vec::new();
+        (&mut input)
+            .take(SNIFF_BYTES)
+            .read_to_end(&mut prefix)
+            .map_err(|e| TableError::new(None, format!("cannot read the table: {e}")))?;
+        if prefix.starts_with(b"\xEF\xBB\xBF") {
+            prefix.drain(..3);
+        }
+        let delimiter = match delimiter {
+            Some(c) if c == ',' || c == '\t' || c == ';' => c as u8,
+            Some(c) => {
+                return Err(TableError::new(
+                    None,
+                    format!("the separator {c:?} is not one of `,`, tab and `;`"),
+                ))
+            }
+            None => detect(&prefix),
+        };
+        let source = Capped {
+            inner: std::io::Cursor::new(prefix).chain(input),
+            since: 0,
+            limit: limits.max_row_bytes.saturating_add(CSV_BUFFER),
+        };
+        let reader = csv::ReaderBuilder::new()
+            .has_headers(false)
+            .flexible(true)
+            .comment(Some(b'#'))
+            .delimiter(delimiter)
+            .buffer_capacity(CSV_BUFFER)
+            .from_reader(source);
+        let mut table = CsvTable {
+            reader,
+            columns: Vec::new(),
+            limits,
+            record: csv::ByteRecord::new(),
+            rows: 0,
+        };
+        let header = table
+            .record()?
+            .ok_or_else(|| TableError::new(None, "the table is empty: no header row"))?;
+        table.columns = header
+            .into_iter()
+            .map(|name| Column {
+                name: name.trim().to_string(),
+                unit: None,
+                null: None,
+            })
+            .collect();
+        Ok(table)
+    }
+
+    /// The next record's cells and line, within the limits.
+    fn record(&mut self) -> Result<Option<Vec<String>>, TableError> {
+        self.reader.get_mut().since = 0;
+        let line = self.reader.position().line();
+        match self.reader.read_byte_record(&mut self.record) {
+            Ok(false) => return Ok(None),
+            Ok(true) => {}
+            Err(e) => {
+                let too_long = matches!(e.kind(), csv::ErrorKind::Io(io) if io.get_ref().is_some_and(|r| r.is::<RowTooLong>()));
+                return Err(if too_long {
+                    TableError::new(
+                        Some(line),
+                        format!(
+                            "a row longer than {} bytes (a cell may hold at most {} bytes); is this a table?",
+                            self.limits.max_row_bytes, self.limits.max_cell_bytes
+                        ),
+                    )
+                } else {
+                    TableError::new(Some(line), format!("cannot read the table: {e}"))
+                });
+            }
+        }
+        let line = self.record.position().map_or(line, |p| p.line());
+        if self.record.len() > self.limits.max_columns {
+            return Err(TableError::new(
+                Some(line),
+                format!(
+                    "{} columns, more than the limit of {}",
+                    self.record.len(),
+                    self.limits.max_columns
+                ),
+            ));
+        }
+        let mut cells = Vec::with_capacity(self.record.len());
+        for (i, cell) in self.record.iter().enumerate() {
+            if cell.len() > self.limits.max_cell_bytes {
+                return Err(TableError::new(
+                    Some(line),
+                    format!(
+                        "cell {} holds {} bytes, more than the limit of {}",
+                        i + 1,
+                        cell.len(),
+                        self.limits.max_cell_bytes
+                    ),
+                ));
+            }
+            cells.push(String::from_utf8_lossy(cell).trim().to_string());
+        }
+        Ok(Some(cells))
+    }
+}
+
+impl<R: Read> RowSource for CsvTable<R> {
+    fn columns(&self) -> &[Column] {
+        &self.columns
+    }
+
+    fn next_row(&mut self) -> Result<Option<Row>, TableError> {
+        loop {
+            let Some(cells) = self.record()? else {
+                return Ok(None);
+            };
+            let line = self.record.position().map_or(0, |p| p.line());
+            // A blank line is no row.
+            if cells.iter().all(|c| c.is_empty()) && cells.len() <= 1 {
+                continue;
+            }
+            self.rows += 1;
+            return Ok(Some(Row {
+                number: self.rows,
+                line,
+                cells,
+            }));
+        }
+    }
+}
+
+/// The separator of the first line that is not a comment: the most frequent of `,`, tab and
+/// `;` outside quotes (`,` when none occurs).
+fn detect(prefix: &[u8]) -> u8 {
+    let line = prefix
+        .split(|b| *b == b'\n')
+        .find(|l| {
+            let t = l.trim_ascii();
+            !t.is_empty() && !t.starts_with(b"#")
+        })
+        .unwrap_or(&[]);
+    let mut counts = [(b',', 0usize), (b'\t', 0), (b';', 0)];
+    let mut quoted = false;
+    for &b in line {
+        if b == b'"' {
+            quoted = !quoted;
+        } else if !quoted {
+            for (c, n) in counts.iter_mut() {
+                if *c == b {
+                    *n += 1;
+                }
+            }
+        }
+    }
+    counts
+        .iter()
+        .copied()
+        .filter(|(_, n)| *n > 0)
+        .max_by_key(|(_, n)| *n)
+        .map_or(b',', |(c, _)| c)
+}

@@ -1,0 +1,71 @@
+//! Table values made into Syzygy names and file names. Both are built from an allow-list of
+//! characters, so no table value can name a path outside the output folder or a keyword.
+
+const KEYWORDS: &[&str] = &[
+    "system",
+    "star",
+    "planet",
+    "orbits",
+    "ref",
+    "let",
+    "assumed",
+    "preferred",
+];
+
+/// Longest name or file stem made.
+const MAX_LEN: usize = 64;
+
+/// A valid Syzygy name for a table value: ASCII letters, digits and `_`, starting with a
+/// letter or `_`, never a keyword; `fallback` when nothing is left.
+pub fn syzygy_name(text: &str, fallback: &str) -> String {
+    let mut out = String::new();
+    for ch in text.trim().chars() {
+        if out.len() >= MAX_LEN {
+            break;
+        }
+        if ch.is_ascii_alphanumeric() {
+            out.push(ch);
+        } else if !out.ends_with('_') && !out.is_empty() {
+            out.push('_');
+        }
+    }
+    let out = out.trim_end_matches('_').to_string();
+    if out.is_empty() {
+        return format!("{fallback}_unnamed");
+    }
+    if out.starts_with(|c: char| c.is_ascii_digit()) || KEYWORDS.contains(&out.as_str()) {
+        return format!("{fallback}_{out}");
+    }
+    out
+}
+
+/// Device names Windows reserves whatever the extension (common practice).
+const DEVICES: &[&str] = &[
+    "con", "prn", "aux", "nul", "com1", "com2", "com3", "com4", "com5", "com6", "com7", "com8",
+    "com9", "lpt1", "lpt2", "lpt3", "lpt4", "lpt5", "lpt6", "lpt7", "lpt8", "lpt9",
+];
+
+/// A file stem for a system's name: lower-case ASCII letters, digits and single `-`, at most
+/// 64 characters, never empty, never starting with `-` or `.`, never a Windows device name.
+/// Different names can give the same stem; the front end adds a suffix then.
+pub fn file_stem(system: &str) -> String {
+    let mut out = String::new();
+    for ch in system.chars() {
+        if out.len() >= MAX_LEN {
+            break;
+        }
+        if ch.is_ascii_alphanumeric() {
+            out.push(ch.to_ascii_lowercase());
+        } else if !out.is_empty() && !out.ends_with('-') {
+            out.push('-');
+        }
+    }
+    let out = out.trim_end_matches('-').to_string();
+    if out.is_empty() {
+        return "system".to_string();
+    }
+    if DEVICES.contains(&out.as_str()) {
+        return format!("{out}-system");
+    }
+    out
+}

@@ -1,0 +1,566 @@
+//! Unit tests of the table import: mapping, readers, names and the importer.
+
+use super::*;
+
+const MAPPING: &str = r#"
+ignore = ["note"]
+[bodies]
+system = "sys"
+star = "star"
+planet = "pl"
+host = "host"
+[refs]
+text = ["paper"]
+[limit_codes]
+upper = ["u"]
+lower = ["l"]
+measured = [""]
+[star.mass]
+value = "ms"
+unit = "Msun"
+error = "ms_e"
+[planet.period]
+value = "p"
+unit = "d"
+error = "p_e"
+[planet.mass]
+value = "mp"
+unit = "Mjup"
+above = "mp_hi"
+below = "mp_lo"
+limit = "mp_f"
+[planet.eccentricity]
+value = "e"
+[constants.planet]
+albedo = "0.3 assumed"
+"#;
+
+const HEADER: &str = "sys,star,pl,host,ms,ms_e,p,p_e,mp,mp_hi,mp_lo,mp_f,e,paper,note\n";
+
+fn import_csv(csv: &str, mapping: &str) -> ImportResult {
+    let m = Mapping::from_toml(mapping).unwrap();
+    let mut t = CsvTable::new(csv.as_bytes(), m.delimiter, Limits::default()).unwrap();
+    let mut imp = Importer::new(&m, t.columns(), "t.csv").unwrap();
+    while let Some(r) = t.next_row().unwrap() {
+        imp.add_row(&r);
+    }
+    imp.finish()
+}
+
+fn text_of(r: &ImportResult, system: &str) -> String {
+    r.files
+        .iter()
+        .find(|f| f.system == system)
+        .map(|f| f.text.clone())
+        .unwrap_or_else(|| panic!("no file for {system}: {r:?}"))
+}
+
+/// The text analyses without errors.
+fn clean(text: &str) {
+    let a = crate::analyze(crate::source::FileId(0), text, &crate::Settings::default());
+    let errors: Vec<_> = a
+        .diagnostics
+        .iter()
+        .filter(|d| d.severity == crate::diagnostic::Severity::Error)
+        .map(|d| d.message.clone())
+        .collect();
+    assert!(errors.is_empty(), "{errors:?}\n{text}");
+}
+
+#[test]
+fn a_row_becomes_a_star_a_planet_and_their_values() {
+    let csv = format!(
+        "{HEADER}Orrin,Orrin,Orrin b,,0.9,0.03,3.5,0.001,0.5,0.04,-0.03,,0.1,\"Pell, 2031\",x\n"
+    );
+    let r = import_csv(&csv, MAPPING);
+    assert!(r.issues.is_empty(), "{:?}", r.issues);
+    let t = text_of(&r, "Orrin");
+    assert!(t.contains("ref pell2031 \"Pell, 2031\""), "{t}");
+    assert!(t.contains("star Orrin {"), "{t}");
+    assert!(t.contains("planet b orbits Orrin {"), "{t}");
+    // The negative lower error is read by its size.
+    assert!(
+        t.contains("mass         = 0.5 +0.04/-0.03 Mjup [pell2031]"),
+        "{t}"
+    );
+    assert!(t.contains("albedo       = 0.3 assumed"), "{t}");
+    // Constants are not counted.
+    assert_eq!(r.summary.values, 4);
+    assert_eq!(r.summary.planets, 1);
+    assert!(r.unmapped.is_empty(), "{:?}", r.unmapped);
+    clean(&t);
+    // Laid out as `syz fmt` lays it out.
+    assert_eq!(crate::layout::format_source(&t).unwrap(), t);
+}
+
+#[test]
+fn limit_flags_and_empty_cells() {
+    let csv = format!(
+        "{HEADER}Orrin,Orrin,Orrin b,,0.9,,3.5,,0.05,,,u,,,\nOrrin,Orrin,Orrin c,,0.9,,9.5,,0.2,,,l,,,\n"
+    );
+    let r = import_csv(&csv, MAPPING);
+    assert!(r.issues.is_empty(), "{:?}", r.issues);
+    let t = text_of(&r, "Orrin");
+    assert!(t.contains("mass   < 0.05 Mjup"), "{t}");
+    assert!(t.contains("mass   > 0.2 Mjup"), "{t}");
+    // An empty cell is no value, never zero.
+    assert!(!t.contains("eccentricity"), "{t}");
+    assert!(t.contains("mass = 0.9 Msun"), "{t}");
+    clean(&t);
+}
+
+#[test]
+fn bad_cells_are_named_and_the_rest_imported() {
+    let csv = format!(
+        "{HEADER}Orrin,Orrin,Orrin b,,0.9,,abc,,0.5,,,,1.5,,\nOrrin,Orrin,Orrin c,,0.9,,4.1,,0.5,,,z,,,\n,Orrin,Orrin d,,0.9,,,,,,,,,,\nOrrin,Orrin,Orrin e,,0.9,-1,4.4,,,,,,,,\n"
+    );
+    let r = import_csv(&csv, MAPPING);
+    let kinds: Vec<(IssueKind, usize, Option<&str>)> = r
+        .issues
+        .iter()
+        .map(|i| (i.kind, i.row, i.column.as_deref()))
+        .collect();
+    assert!(
+        kinds.contains(&(IssueKind::BadNumber, 1, Some("p"))),
+        "{kinds:?}"
+    );
+    assert!(
+        kinds.contains(&(IssueKind::OutOfRange, 1, Some("e"))),
+        "{kinds:?}"
+    );
+    assert!(
+        kinds.contains(&(IssueKind::BadLimitCode, 2, Some("mp_f"))),
+        "{kinds:?}"
+    );
+    assert!(
+        kinds.contains(&(IssueKind::MissingName, 3, Some("sys"))),
+        "{kinds:?}"
+    );
+    assert!(
+        kinds.contains(&(IssueKind::BadNumber, 4, Some("ms_e"))),
+        "{kinds:?}"
+    );
+    let bad = r
+        .issues
+        .iter()
+        .find(|i| i.kind == IssueKind::BadNumber)
+        .unwrap();
+    assert_eq!(bad.place(), "row 1 (line 2), column `p`");
+    assert!(r.summary.skipped_cells >= 6, "{:?}", r.summary);
+    // What was good is imported.
+    let t = text_of(&r, "Orrin");
+    assert!(t.contains("period = 4.1 d"), "{t}");
+    assert!(t.contains("planet b orbits Orrin"), "{t}");
+    clean(&t);
+}
+
+#[test]
+fn two_papers_give_two_sources_and_the_same_paper_a_conflict() {
+    let csv = format!(
+        "{HEADER}Orrin,Orrin,b,,0.9,0.03,3.5,0.01,,,,,,P1 2030,\nOrrin,Orrin,b,,0.9,0.03,3.51,0.01,,,,,,P2 2031,\nOrrin,Orrin,b,,0.92,0.03,,,,,,,,P2 2031,\nOrrin,Orrin,b,,0.9,0.03,3.5,0.01,,,,,,P1 2030,\n"
+    );
+    let r = import_csv(&csv, MAPPING);
+    let t = text_of(&r, "Orrin");
+    assert!(t.contains("period = 3.5 ± 0.01  d [p2030]"), "{t}");
+    assert!(t.contains("period = 3.51 ± 0.01 d [p2031]"), "{t}");
+    // The star's mass, 0.90 [P1 2030] and 0.90 [P2 2031], is one value per paper; 0.92 in
+    // row 3 repeats P2 2031 with another value: a conflict.
+    assert_eq!(r.issues.len(), 1, "{:?}", r.issues);
+    let i = &r.issues[0];
+    assert_eq!(
+        (i.kind, i.row, i.column.as_deref()),
+        (IssueKind::Conflict, 3, Some("ms"))
+    );
+    assert!(i.message.contains("row 2"), "{}", i.message);
+    assert_eq!(r.summary.merged, 2);
+    clean(&t);
+}
+
+#[test]
+fn a_planet_whose_host_is_missing_is_reported() {
+    let csv =
+        format!("{HEADER}Orrin,,Orrin b,Orrin B,,,3.5,,,,,,,,\nOrrin,Orrin A,,,0.9,,,,,,,,,,\n");
+    let r = import_csv(&csv, MAPPING);
+    assert_eq!(r.issues.len(), 1, "{:?}", r.issues);
+    let i = &r.issues[0];
+    assert_eq!(
+        (i.kind, i.row, i.column.as_deref()),
+        (IssueKind::MissingHost, 1, Some("host"))
+    );
+    assert!(i.message.contains("`Orrin B`"), "{}", i.message);
+    assert_eq!(r.summary.skipped_cells, 2);
+    assert_eq!(r.summary.planets, 0);
+    clean(&text_of(&r, "Orrin"));
+}
+
+#[test]
+fn a_limit_with_an_uncertainty_keeps_the_limit_and_names_the_uncertainty() {
+    let csv = format!("{HEADER}Orrin,Orrin,b,,,,3,,0.05,0.01,,u,,,\n");
+    let r = import_csv(&csv, MAPPING);
+    assert_eq!(r.issues.len(), 1, "{:?}", r.issues);
+    assert_eq!(r.issues[0].kind, IssueKind::Unused);
+    assert_eq!(r.issues[0].column.as_deref(), Some("mp_hi"));
+    assert!(text_of(&r, "Orrin").contains("mass   < 0.05 Mjup"));
+}
+
+#[test]
+fn extra_cells_and_unmapped_columns_are_reported() {
+    let mapping = MAPPING.replace("ignore = [\"note\"]", "");
+    let csv = format!("{HEADER}Orrin,Orrin,b,,,,3,,,,,,,,,surplus\n");
+    let r = import_csv(&csv, &mapping);
+    assert_eq!(r.unmapped, vec!["note".to_string()]);
+    assert_eq!(r.issues.len(), 1, "{:?}", r.issues);
+    assert_eq!(r.issues[0].kind, IssueKind::ExtraCells);
+    assert_eq!(r.summary.skipped_cells, 1);
+}
+
+#[test]
+fn separators_quotes_and_comments() {
+    let m = "[bodies]\nsystem = \"s\"\n[star.mass]\nvalue = \"m\"\nunit = \"Msun\"\n";
+    for sep in [";", "\t", ","] {
+        let csv = format!(
+            "# a comment\ns{sep}m\n# another\n\"Orrin{sep} the first\"{sep}0.9\nTarn{sep}\n"
+        );
+        let r = import_csv(&csv, m);
+        assert!(r.issues.is_empty(), "{sep:?}: {:?}", r.issues);
+        assert_eq!(r.summary.systems, 2, "{sep:?}");
+        let t = text_of(&r, &format!("Orrin{sep} the first"));
+        assert!(t.contains("mass = 0.9 Msun"), "{t}");
+        assert!(!text_of(&r, "Tarn").contains("mass"));
+        clean(&t);
+    }
+}
+
+#[test]
+fn mapping_errors_say_what_is_wrong() {
+    let cols: Vec<Column> = ["sys", "x"]
+        .iter()
+        .map(|n| Column {
+            name: n.to_string(),
+            unit: None,
+            null: None,
+        })
+        .collect();
+    let err = |toml: &str| -> String {
+        match Mapping::from_toml(toml) {
+            Err(e) => e.0,
+            Ok(m) => Importer::new(&m, &cols, "t").err().unwrap().0,
+        }
+    };
+    assert!(err("[bodies]\nsystem = \"nope\"").contains("`nope` is not in the table's header"));
+    assert!(err("[bodies]\nsystem = \"sys\"\nsurprise = 1").contains("unknown field"));
+    assert!(
+        err("[bodies]\nsystem = \"sys\"\n[star.mas]\nvalue = \"x\"\nunit = \"Msun\"")
+            .contains("did you mean `mass`")
+    );
+    assert!(
+        err("[bodies]\nsystem = \"sys\"\n[star.mass]\nvalue = \"x\"\nunit = \"km\"")
+            .contains("is a length")
+    );
+    assert!(err("[bodies]\nsystem = \"sys\"\n[star.mass]\nvalue = \"x\"").contains("needs a unit"));
+    assert!(
+        err("[bodies]\nsystem = \"sys\"\n[star.mass]\nvalue = \"x\"\nunit = \"Mfoo\"")
+            .contains("not a Syzygy unit")
+    );
+    assert!(
+        err("[bodies]\nsystem = \"sys\"\n[constants.star]\nmass = \"1 Msun }\"")
+            .contains("not a value Syzygy reads")
+    );
+    assert!(
+        err("[bodies]\nsystem = \"sys\"\n[constants.star]\nmass = \"2 km\"")
+            .contains("not a value Syzygy reads")
+    );
+}
+
+#[test]
+fn a_mapping_can_be_built_in_code() {
+    let mut m = Mapping {
+        bodies: BodyColumns {
+            system: "s".into(),
+            ..Default::default()
+        },
+        ..Default::default()
+    };
+    m.star.insert(
+        "teff".into(),
+        QuantityColumns {
+            value: "t".into(),
+            unit: Some("K".into()),
+            ..Default::default()
+        },
+    );
+    let mut t = CsvTable::new(&b"s,t\nOrrin,5000\n"[..], None, Limits::default()).unwrap();
+    let mut imp = Importer::new(&m, t.columns(), "t").unwrap();
+    while let Some(r) = t.next_row().unwrap() {
+        imp.add_row(&r);
+    }
+    let r = imp.finish();
+    assert!(text_of(&r, "Orrin").contains("teff = 5000 K"));
+}
+
+#[test]
+fn csv_limits_end_in_a_clear_error() {
+    let small = Limits {
+        max_cell_bytes: 16,
+        max_columns: 4,
+        max_row_bytes: 64,
+    };
+    let cell = CsvTable::new(&b"a,b\nx,01234567890123456789\n"[..], None, small)
+        .unwrap()
+        .next_row()
+        .unwrap_err();
+    assert!(cell.message.contains("more than the limit of 16"), "{cell}");
+    assert_eq!(cell.line, Some(2));
+    let Err(cols) = CsvTable::new(&b"a,b,c,d,e\n"[..], None, small) else {
+        panic!("five columns accepted")
+    };
+    assert!(
+        cols.message.contains("5 columns, more than the limit of 4"),
+        "{cols}"
+    );
+    // A row far longer than the limit stops the reader before it is all read.
+    let long = format!("a\n{}\n", "x".repeat(1_000_000));
+    let mut reader = Counting {
+        inner: long.as_bytes(),
+        read: 0,
+    };
+    let row = CsvTable::new(&mut reader, None, small)
+        .unwrap()
+        .next_row()
+        .unwrap_err();
+    assert!(row.message.contains("a row longer than 64 bytes"), "{row}");
+    assert!(reader.read < 300_000, "{} bytes read", reader.read);
+}
+
+/// A reader that counts what was read from it.
+struct Counting<'a> {
+    inner: &'a [u8],
+    read: usize,
+}
+
+impl std::io::Read for Counting<'_> {
+    fn read(&mut self, buf: &mut [u8]) -> std::io::Result<usize> {
+        let n = self.inner.read(buf)?;
+        self.read += n;
+        Ok(n)
+    }
+}
+
+const VOT: &str = r#"<?xml version="1.0"?>
+<VOTABLE version="1.4"><RESOURCE><TABLE>
+<FIELD name="sys" datatype="char" arraysize="*"/>
+<FIELD name="m" datatype="double" unit="solMass"><VALUES null="-1"/></FIELD>
+<FIELD name="r" datatype="double" unit="solRad"/>
+<FIELD name="ref" datatype="char" arraysize="*"/>
+<DATA><TABLEDATA>
+<TR><TD>Orrin &amp; Co</TD><TD>0.9</TD><TD><![CDATA[0.8]]></TD><TD>Pell &lt;2031&gt; &#x263C;</TD></TR>
+<TR><TD>Tarn</TD><TD>-1</TD><TD/><TD></TD></TR>
+</TABLEDATA></DATA></TABLE></RESOURCE></VOTABLE>
+"#;
+
+fn vot(text: &str, limits: Limits) -> Result<Vec<Row>, TableError> {
+    let mut t = VoTable::new(text.as_bytes(), limits)?;
+    let mut rows = Vec::new();
+    while let Some(r) = t.next_row()? {
+        rows.push(r);
+    }
+    Ok(rows)
+}
+
+#[test]
+fn votable_fields_units_nulls_and_entities() {
+    let t = VoTable::new(VOT.as_bytes(), Limits::default()).unwrap();
+    let units: Vec<Option<&str>> = t.columns().iter().map(|c| c.unit.as_deref()).collect();
+    assert_eq!(units, vec![None, Some("solMass"), Some("solRad"), None]);
+    let rows = vot(VOT, Limits::default()).unwrap();
+    assert_eq!(rows.len(), 2);
+    assert_eq!(
+        rows[0].cells,
+        vec!["Orrin & Co", "0.9", "0.8", "Pell <2031> ☼"]
+    );
+    // The null value and an empty TD are no value.
+    assert_eq!(rows[1].cells, vec!["Tarn", "", "", ""]);
+    assert_eq!(rows[0].line, 8);
+    let m = Mapping::from_toml(
+        "[bodies]\nsystem = \"sys\"\n[refs]\ntext = [\"ref\"]\n[star.mass]\nvalue = \"m\"\n[star.radius]\nvalue = \"r\"\n",
+    )
+    .unwrap();
+    let t = VoTable::new(VOT.as_bytes(), Limits::default()).unwrap();
+    let mut imp = Importer::new(&m, t.columns(), "t.vot").unwrap();
+    for r in &rows {
+        imp.add_row(r);
+    }
+    let r = imp.finish();
+    let text = text_of(&r, "Orrin & Co");
+    assert!(text.contains("mass   = 0.9 Msun [pell2031]"), "{text}");
+    assert!(text.contains("radius = 0.8 Rsun [pell2031]"), "{text}");
+    clean(&text);
+}
+
+#[test]
+fn votable_refuses_doctypes_and_unknown_entities() {
+    let doctype = "<?xml version=\"1.0\"?><!DOCTYPE VOTABLE [<!ENTITY a \"aaaaaaaaaa\"><!ENTITY b \"&a;&a;&a;&a;\">]><VOTABLE/>";
+    let e = vot(doctype, Limits::default()).unwrap_err();
+    assert!(e.message.contains("DOCTYPE"), "{e}");
+    let external =
+        "<?xml version=\"1.0\"?>\n<!DOCTYPE x SYSTEM \"file:///etc/passwd\">\n<VOTABLE/>";
+    assert!(vot(external, Limits::default())
+        .unwrap_err()
+        .message
+        .contains("DOCTYPE"));
+    let undeclared = VOT.replace("Orrin &amp; Co", "Orrin &xxe; Co");
+    let e = vot(&undeclared, Limits::default()).unwrap_err();
+    assert!(e.message.contains("predefined entities"), "{e}");
+    let binary = VOT
+        .replace("<TABLEDATA>", "<BINARY>")
+        .replace("</TABLEDATA>", "</BINARY>");
+    assert!(vot(&binary, Limits::default())
+        .unwrap_err()
+        .message
+        .contains("only TABLEDATA"));
+    assert!(vot("<html/>", Limits::default())
+        .unwrap_err()
+        .message
+        .contains("no TABLE"));
+    assert!(vot("<VOTABLE><TABLE></VOTABLE>", Limits::default()).is_err());
+}
+
+#[test]
+fn votable_limits_end_in_a_clear_error() {
+    let small = Limits {
+        max_cell_bytes: 16,
+        max_columns: 3,
+        max_row_bytes: 64,
+    };
+    let e = vot(VOT, small).unwrap_err();
+    assert!(e.message.contains("more than 3 FIELDs"), "{e}");
+    let small = Limits {
+        max_cell_bytes: 8,
+        max_columns: 8,
+        max_row_bytes: 1 << 20,
+    };
+    let e = vot(VOT, small).unwrap_err();
+    assert!(
+        e.message.contains("more than 8 bytes, the limit of a cell"),
+        "{e}"
+    );
+    // One text run far beyond the limit stops the reader before it is all read.
+    let huge = VOT.replace("0.9", &"9".repeat(2_000_000));
+    let small = Limits {
+        max_cell_bytes: 1 << 20,
+        max_columns: 8,
+        max_row_bytes: 1024,
+    };
+    let mut counting = Counting {
+        inner: huge.as_bytes(),
+        read: 0,
+    };
+    let e = VoTable::new(std::io::BufReader::new(&mut counting), small)
+        .and_then(|mut t| t.next_row())
+        .unwrap_err();
+    assert!(e.message.contains("a tag or text longer than"), "{e}");
+    assert!(counting.read < 300_000, "{} bytes read", counting.read);
+    let deep = format!("<VOTABLE>{}", "<a>".repeat(100));
+    assert!(vot(&deep, Limits::default())
+        .unwrap_err()
+        .message
+        .contains("nested deeper"));
+}
+
+#[test]
+fn vounits_in_syzygy_spelling() {
+    let cases = [
+        ("solMass", "Msun"),
+        ("solRad", "Rsun"),
+        ("jupiterMass", "Mjup"),
+        ("Mjup", "Mjup"),
+        ("earthMass", "Mearth"),
+        ("Mearth", "Mearth"),
+        ("jupiterRad", "Rjup"),
+        ("Rjup", "Rjup"),
+        ("earthRad", "Rearth"),
+        ("Rearth", "Rearth"),
+        ("d", "d"),
+        ("m/s", "m/s"),
+        ("m.s**-1", "m/s"),
+        ("km.s-1", "km/s"),
+        ("g.cm**-3", "g/cm^3"),
+        ("g/cm3", "g/cm^3"),
+        ("s-1", "s^-1"),
+        ("K", "K"),
+        ("au", "au"),
+        ("AU", "au"),
+        ("deg", "deg"),
+        ("pc", "pc"),
+        ("mas", "mas"),
+        ("%", "%"),
+        ("[cm/s2]", "dex"),
+        ("", ""),
+    ];
+    for (vo, syz) in cases {
+        assert_eq!(vounit_to_syzygy(vo).as_deref(), Ok(syz), "{vo}");
+        assert!(crate::units::parse_unit_text(syz).is_some(), "{syz}");
+    }
+    assert!(vounit_to_syzygy("mag").is_err());
+    assert!(vounit_to_syzygy("furlong")
+        .unwrap_err()
+        .contains("`furlong`"));
+}
+
+#[test]
+fn a_field_unit_without_equivalent_names_the_field() {
+    let text = VOT.replace("unit=\"solRad\"", "unit=\"mag\"");
+    let t = VoTable::new(text.as_bytes(), Limits::default()).unwrap();
+    let m =
+        Mapping::from_toml("[bodies]\nsystem = \"sys\"\n[star.radius]\nvalue = \"r\"\n").unwrap();
+    let e = Importer::new(&m, t.columns(), "t").err().unwrap();
+    assert!(e.0.contains("`mag` of field `r`"), "{e}");
+}
+
+#[test]
+fn names_from_tables_stay_names() {
+    assert_eq!(syzygy_name("Orrin b", "planet"), "Orrin_b");
+    assert_eq!(syzygy_name("3 Tarn", "planet"), "planet_3_Tarn");
+    assert_eq!(syzygy_name("star", "star"), "star_star");
+    assert_eq!(syzygy_name("☼☼", "star"), "star_unnamed");
+    assert_eq!(syzygy_name("..", "planet"), "planet_unnamed");
+    assert!(syzygy_name(&"x".repeat(500), "s").len() <= 64);
+    for hostile in [
+        "../../etc/passwd",
+        "/abs/path",
+        "..",
+        ".hidden",
+        "a\\b",
+        "C:\\x",
+        "",
+        "...",
+    ] {
+        let s = file_stem(hostile);
+        assert!(
+            !s.is_empty() && !s.starts_with(['.', '-']),
+            "{hostile:?} -> {s:?}"
+        );
+        assert!(
+            s.bytes()
+                .all(|b| b.is_ascii_lowercase() || b.is_ascii_digit() || b == b'-'),
+            "{s}"
+        );
+    }
+    assert_eq!(file_stem("../../etc/passwd"), "etc-passwd");
+    assert_eq!(file_stem("CON"), "con-system");
+    assert_eq!(file_stem("nul"), "nul-system");
+    assert_eq!(file_stem("Orrin & Co"), "orrin-co");
+    assert!(file_stem(&"y".repeat(10_000)).len() <= 64);
+}
+
+#[test]
+fn every_issue_kind_is_documented() {
+    let doc = include_str!("../../../docs/import.md");
+    for k in IssueKind::ALL {
+        assert!(
+            doc.contains(&format!("| `{}` |", k.id())),
+            "docs/import.md lacks `{}`",
+            k.id()
+        );
+    }
+}

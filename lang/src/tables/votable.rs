@@ -1,0 +1,462 @@
+//! VOTable 1.4 tables in the TABLEDATA serialisation (IVOA VOTable 1.4, section 5.1): the
+//! first TABLE's FIELDs (name, unit, a VALUES `null`) and its rows. A DOCTYPE is refused, so
+//! no DTD is read and no entity is declared; only the XML predefined entities and character
+//! references are expanded (quick-xml's `unescape`). Every tag, text run, cell, row and the
+//! field count are bounded, and the input is read incrementally.
+
+use super::{Column, Limits, Row, RowSource, TableError};
+use quick_xml::events::{BytesStart, Event};
+use std::io::BufRead;
+
+/// Deepest element nesting accepted (a VOTable needs under ten levels).
+const MAX_DEPTH: usize = 64;
+/// Slack for the markup around one event, beyond the row limit.
+const TAG_SLACK: usize = 64 * 1024;
+
+/// A buffered reader that counts lines and fails when one event grows past its limit.
+struct Counted<R> {
+    inner: R,
+    since: usize,
+    limit: usize,
+    line: u64,
+}
+
+impl<R: BufRead> std::io::Read for Counted<R> {
+    fn read(&mut self, buf: &mut [u8]) -> std::io::Result<usize> {
+        let available = self.fill_buf()?;
+        let n = available.len().min(buf.len());
+        if let (Some(dst), Some(src)) = (buf.get_mut(..n), available.get(..n)) {
+            dst.copy_from_slice(src);
+        }
+        self.consume(n);
+        Ok(n)
+    }
+}
+
+impl<R: BufRead> BufRead for Counted<R> {
+    fn fill_buf(&mut self) -> std::io::Result<&[u8]> {
+        if self.since > self.limit {
+            return Err(std::io::Error::other(format!(
+                "a tag or text longer than {} bytes",
+                self.limit
+            )));
+        }
+        // Never hand out more than the rest of the allowance (plus one byte to go past it),
+        // however much the inner reader holds.
+        let room = self.limit.saturating_sub(self.since).saturating_add(1);
+        let buf = self.inner.fill_buf()?;
+        Ok(buf.get(..room).unwrap_or(buf))
+    }
+
+    fn consume(&mut self, amt: usize) {
+        if let Ok(buf) = self.inner.fill_buf() {
+            let taken = buf.get(..amt).unwrap_or(buf);
+            self.line += taken.iter().filter(|b| **b == b'\n').count() as u64;
+        }
+        self.since = self.since.saturating_add(amt);
+        self.inner.consume(amt);
+    }
+}
+
+/// A VOTable being read.
+pub struct VoTable<R: BufRead> {
+    reader: quick_xml::Reader<Counted<R>>,
+    buf: Vec<u8>,
+    columns: Vec<Column>,
+    limits: Limits,
+    depth: usize,
+    rows: usize,
+    done: bool,
+}
+
+impl<R: BufRead> VoTable<R> {
+    /// Read up to the first TABLE's data, collecting its FIELDs.
+    pub fn new(input: R, limits: Limits) -> Result<Self, TableError> {
+        let counted = Counted {
+            inner: input,
+            since: 0,
+            limit: limits.max_row_bytes.saturating_add(TAG_SLACK),
+            line: 1,
+        };
+        let mut reader = quick_xml::Reader::from_reader(counted);
+        reader.config_mut().check_end_names = true;
+        let mut t = VoTable {
+            reader,
+            buf: Vec::new(),
+            columns: Vec::new(),
+            limits,
+            depth: 0,
+            rows: 0,
+            done: false,
+        };
+        let mut in_table = false;
+        let mut in_field = false;
+        loop {
+            let (ev, name, attrs) = t.event()?;
+            match (ev, name.as_str()) {
+                (Kind::Start | Kind::Empty, "TABLE") => {
+                    in_table = true;
+                }
+                (Kind::Start | Kind::Empty, "FIELD") if in_table => {
+                    if t.columns.len() >= t.limits.max_columns {
+                        return Err(t.error(format!(
+                            "more than {} FIELDs, the limit of columns",
+                            t.limits.max_columns
+                        )));
+                    }
+                    let get = |k: &str| attrs.iter().find(|(n, _)| n == k).map(|(_, v)| v.clone());
+                    let name = get("name").or_else(|| get("ID")).ok_or_else(|| {
+                        t.error(format!("FIELD {} has no name", t.columns.len() + 1))
+                    })?;
+                    t.columns.push(Column {
+                        name: name.trim().to_string(),
+                        unit: get("unit").filter(|u| !u.trim().is_empty()),
+                        null: None,
+                    });
+                    in_field = ev == Kind::Start;
+                }
+                (Kind::End, "FIELD") => in_field = false,
+                (Kind::Start | Kind::Empty, "VALUES") if in_field => {
+                    if let Some((_, v)) = attrs.iter().find(|(n, _)| n == "null") {
+                        if let Some(c) = t.columns.last_mut() {
+                            c.null = Some(v.trim().to_string());
+                        }
+                    }
+                }
+                (Kind::Start | Kind::Empty, "BINARY" | "BINARY2" | "FITS") if in_table => {
+                    return Err(t.error(format!(
+                        "the table is serialised as {name}; only TABLEDATA is read (ask the archive for TABLEDATA)"
+                    )));
+                }
+                (Kind::Start, "TABLEDATA") if in_table => return Ok(t),
+                (Kind::Empty, "TABLEDATA") if in_table => {
+                    t.done = true;
+                    return Ok(t);
+                }
+                (Kind::End, "TABLE") => {
+                    // A TABLE without data: no rows.
+                    t.done = true;
+                    return Ok(t);
+                }
+                (Kind::Eof, _) => {
+                    return Err(t.error("no TABLE with TABLEDATA found; is this a VOTable?"))
+                }
+                _ => {}
+            }
+        }
+    }
+
+    fn error(&self, message: impl Into<String>) -> TableError {
+        TableError::new(Some(self.reader.get_ref().line), message)
+    }
+
+    /// The next event's kind, element name and attributes (for start and empty tags); text
+    /// is returned as the name of a `Text` kind, unescaped.
+    fn event(&mut self) -> Result<(Kind, String, Attributes), TableError> {
+        self.buf.clear();
+        self.reader.get_mut().since = 0;
+        let ev = match self.reader.read_event_into(&mut self.buf) {
+            Ok(ev) => ev,
+            Err(e) => {
+                let line = self.reader.get_ref().line;
+                return Err(TableError::new(
+                    Some(line),
+                    format!("not well-formed XML: {e}"),
+                ));
+            }
+        };
+        let line = self.reader.get_ref().line;
+        let err = |m: String| TableError::new(Some(line), m);
+        let out =
+            match ev {
+                Event::Start(s) => {
+                    self.depth += 1;
+                    if self.depth > MAX_DEPTH {
+                        return Err(err(format!("elements nested deeper than {MAX_DEPTH}")));
+                    }
+                    (Kind::Start, local(&s), attributes(&s).map_err(err)?)
+                }
+                Event::Empty(s) => (Kind::Empty, local(&s), attributes(&s).map_err(err)?),
+                Event::End(e) => {
+                    self.depth = self.depth.saturating_sub(1);
+                    (
+                        Kind::End,
+                        String::from_utf8_lossy(e.local_name().as_ref()).into_owned(),
+                        Vec::new(),
+                    )
+                }
+                Event::Text(t) => {
+                    let text = t.unescape().map_err(|e| {
+                        err(format!(
+                        "{e}: only the XML predefined entities and character references are read"
+                    ))
+                    })?;
+                    (Kind::Text, text.into_owned(), Vec::new())
+                }
+                Event::CData(c) => (
+                    Kind::Text,
+                    String::from_utf8_lossy(&c.into_inner()).into_owned(),
+                    Vec::new(),
+                ),
+                Event::DocType(_) => return Err(err(
+                    "the VOTable has a DOCTYPE; it is refused, so that no DTD or entity is read"
+                        .into(),
+                )),
+                Event::Eof => (Kind::Eof, String::new(), Vec::new()),
+                Event::Decl(_) | Event::PI(_) | Event::Comment(_) => {
+                    (Kind::Other, String::new(), Vec::new())
+                }
+            };
+        Ok(out)
+    }
+}
+
+/// An element's attributes, by local name.
+type Attributes = Vec<(String, String)>;
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum Kind {
+    Start,
+    Empty,
+    End,
+    Text,
+    Eof,
+    Other,
+}
+
+fn local(s: &BytesStart) -> String {
+    String::from_utf8_lossy(s.local_name().as_ref()).into_owned()
+}
+
+fn attributes(s: &BytesStart) -> Result<Attributes, String> {
+    let mut out = Vec::new();
+    for a in s.attributes() {
+        let a = a.map_err(|e| format!("not well-formed XML: {e}"))?;
+        let v = a.unescape_value().map_err(|e| {
+            format!("{e}: only the XML predefined entities and character references are read")
+        })?;
+        out.push((
+            String::from_utf8_lossy(a.key.local_name().as_ref()).into_owned(),
+            v.into_owned(),
+        ));
+    }
+    Ok(out)
+}
+
+impl<R: BufRead> RowSource for VoTable<R> {
+    fn columns(&self) -> &[Column] {
+        &self.columns
+    }
+
+    fn next_row(&mut self) -> Result<Option<Row>, TableError> {
+        if self.done {
+            return Ok(None);
+        }
+        let mut cells: Option<Vec<String>> = None;
+        let mut cell: Option<String> = None;
+        let mut row_bytes = 0usize;
+        let mut line = 0;
+        loop {
+            let (ev, name, _) = self.event()?;
+            match (ev, name.as_str()) {
+                (Kind::Start, "TR") => {
+                    cells = Some(Vec::new());
+                    line = self.reader.get_ref().line;
+                    row_bytes = 0;
+                }
+                (Kind::Empty, "TR") => {
+                    self.rows += 1;
+                    let line = self.reader.get_ref().line;
+                    return Ok(Some(Row {
+                        number: self.rows,
+                        line,
+                        cells: Vec::new(),
+                    }));
+                }
+                (Kind::Start, "TD") => cell = Some(String::new()),
+                (Kind::Empty, "TD") => push(self, &mut cells, String::new())?,
+                (Kind::Text, _) => {
+                    if let Some(c) = cell.as_mut() {
+                        c.push_str(&name);
+                        row_bytes = row_bytes.saturating_add(name.len());
+                        if c.len() > self.limits.max_cell_bytes {
+                            return Err(self.error(format!(
+                                "a cell holds more than {} bytes, the limit of a cell",
+                                self.limits.max_cell_bytes
+                            )));
+                        }
+                        if row_bytes > self.limits.max_row_bytes {
+                            return Err(self.error(format!(
+                                "a row holds more than {} bytes, the limit of a row",
+                                self.limits.max_row_bytes
+                            )));
+                        }
+                    }
+                }
+                (Kind::End, "TD") => {
+                    let c = cell.take().unwrap_or_default();
+                    push(self, &mut cells, c)?;
+                }
+                (Kind::End, "TR") => {
+                    self.rows += 1;
+                    let mut cells = cells.take().unwrap_or_default();
+                    for (c, col) in cells.iter_mut().zip(&self.columns) {
+                        let trimmed = c.trim();
+                        if col.null.as_deref() == Some(trimmed) {
+                            c.clear();
+                        } else if trimmed.len() != c.len() {
+                            *c = trimmed.to_string();
+                        }
+                    }
+                    return Ok(Some(Row {
+                        number: self.rows,
+                        line,
+                        cells,
+                    }));
+                }
+                (Kind::End, "TABLEDATA") | (Kind::Eof, _) => {
+                    self.done = true;
+                    return Ok(None);
+                }
+                _ => {}
+            }
+        }
+    }
+}
+
+fn push<R: BufRead>(
+    t: &VoTable<R>,
+    cells: &mut Option<Vec<String>>,
+    cell: String,
+) -> Result<(), TableError> {
+    if let Some(cells) = cells.as_mut() {
+        if cells.len() >= t.limits.max_columns {
+            return Err(t.error(format!(
+                "a row with more than {} cells, the limit of columns",
+                t.limits.max_columns
+            )));
+        }
+        cells.push(cell);
+    }
+    Ok(())
+}
+
+/// A VOUnit string (IVOA VOUnits 1.0) in Syzygy's spelling: `solMass` is `Msun`, `m.s**-1`
+/// is `m/s`, `[cm/s2]` (a logarithm) is `dex`. Err says why there is no equivalent.
+pub fn vounit_to_syzygy(vo: &str) -> Result<String, String> {
+    let vo = vo.trim();
+    if vo.is_empty() || vo == "---" || vo == "-" {
+        return Ok(String::new());
+    }
+    // A logarithmic quantity: `[cm/s2]`, `[Sun]`, `[-]`, `log(...)`.
+    if (vo.starts_with('[') && vo.ends_with(']')) || vo.starts_with("log(") {
+        return Ok("dex".to_string());
+    }
+    if vo == "%" || vo == "ppm" {
+        return Ok(vo.to_string());
+    }
+    let mut num: Vec<String> = Vec::new();
+    let mut den: Vec<String> = Vec::new();
+    for (i, part) in vo.split('/').enumerate() {
+        for (j, factor) in part.split('.').filter(|f| !f.is_empty()).enumerate() {
+            let (sym, exp) = split_power(factor)?;
+            let sym = syzygy_symbol(sym)?;
+            // `/` divides by the one factor after it, as in Syzygy.
+            let exp = if i > 0 && j == 0 { -exp } else { exp };
+            let text = |e: i32| {
+                if e == 1 {
+                    sym.clone()
+                } else {
+                    format!("{sym}^{e}")
+                }
+            };
+            if exp < 0 {
+                den.push(text(-exp));
+            } else {
+                num.push(text(exp));
+            }
+        }
+    }
+    let mut out = num.join(" ");
+    for d in den {
+        if out.is_empty() {
+            // Nothing above the line: write the negative power.
+            out = d
+                .split_once('^')
+                .map_or(format!("{d}^-1"), |(s, e)| format!("{s}^-{e}"));
+        } else {
+            out.push('/');
+            out.push_str(&d);
+        }
+    }
+    Ok(out)
+}
+
+/// `m**2`, `m^2`, `m2`, `s-1`, `m**(-2)` into symbol and exponent.
+fn split_power(f: &str) -> Result<(&str, i32), String> {
+    let bad = || format!("cannot read the factor `{f}`");
+    if let Some((s, e)) = f.split_once("**").or_else(|| f.split_once('^')) {
+        let e = e.trim_start_matches('(').trim_end_matches(')');
+        let e: i32 = e.parse().map_err(|_| bad())?;
+        return Ok((s, e));
+    }
+    let digits = f
+        .char_indices()
+        .rev()
+        .take_while(|(_, c)| c.is_ascii_digit())
+        .last()
+        .map(|(i, _)| i);
+    match digits {
+        Some(0) => Err(format!("`{f}` is a number, not a unit")),
+        Some(i) => {
+            let (mut s, mut e) = f.split_at(i);
+            let mut sign = 1;
+            if let Some(rest) = s.strip_suffix(['-', '+']) {
+                if s.ends_with('-') {
+                    sign = -1;
+                }
+                s = rest;
+            }
+            if s.is_empty() {
+                return Err(bad());
+            }
+            e = e.trim();
+            let e: i32 = e.parse().map_err(|_| bad())?;
+            Ok((s, sign * e))
+        }
+        None => Ok((f, 1)),
+    }
+}
+
+/// One VOUnit symbol in Syzygy's spelling, if Syzygy knows the unit.
+fn syzygy_symbol(s: &str) -> Result<String, String> {
+    const NAMES: &[(&str, &str)] = &[
+        ("solMass", "Msun"),
+        ("solRad", "Rsun"),
+        ("solLum", "Lsun"),
+        ("jupiterMass", "Mjup"),
+        ("jovMass", "Mjup"),
+        ("jupiterRad", "Rjup"),
+        ("jovRad", "Rjup"),
+        ("earthMass", "Mearth"),
+        ("geoMass", "Mearth"),
+        ("earthRad", "Rearth"),
+        ("geoRad", "Rearth"),
+        ("AU", "au"),
+        ("a", "yr"),
+        ("ka", "kyr"),
+        ("Ma", "Myr"),
+        ("Ga", "Gyr"),
+        ("ppm", "ppm"),
+    ];
+    if let Some((_, syz)) = NAMES.iter().find(|(v, _)| *v == s) {
+        return Ok((*syz).to_string());
+    }
+    if s == "mag" {
+        return Err("magnitudes are not a unit of any Syzygy quantity".into());
+    }
+    if crate::units::lookup(s).is_some() {
+        return Ok(s.to_string());
+    }
+    Err(format!("`{s}` is not a unit Syzygy knows"))
+}
