@@ -31,8 +31,13 @@ const MAX_MAPPING_BYTES: u64 = 1024 * 1024;
 /// Exit code: 0 everything imported; 1 some cells were not imported (each is named); 2 a
 /// table, the mapping or the output folder could not be used.
 pub fn run(args: &Args) -> u8 {
-    let Some(mapping) = mapping(args) else {
-        return 2;
+    // Without a mapping file, only the tables `syz` writes itself can be read.
+    let mapping = match &args.mapping {
+        Some(_) => match mapping(args) {
+            Some(m) => Some(m),
+            None => return 2,
+        },
+        None => None,
     };
     if let Err(e) = std::fs::create_dir_all(&args.output) {
         eprintln!(
@@ -44,7 +49,7 @@ pub fn run(args: &Args) -> u8 {
     let mut written = HashSet::new();
     let mut code = 0;
     for table in &args.tables {
-        let c = import_one(table, &mapping, args, &mut written);
+        let c = import_one(table, mapping.as_ref(), args, &mut written);
         code = code.max(c);
     }
     code
@@ -52,14 +57,7 @@ pub fn run(args: &Args) -> u8 {
 
 /// The mapping the user gave.
 fn mapping(args: &Args) -> Option<Mapping> {
-    let Some(path) = &args.mapping else {
-        // A built-in mapping for tables `syz` itself writes belongs here, chosen by the
-        // table's columns; until one exists, a mapping file is required.
-        eprintln!(
-            "syz: error: give the mapping file with --mapping FILE (docs/import.md describes it)"
-        );
-        return None;
-    };
+    let path = args.mapping.as_ref()?;
     let text = match crate::files::read_text(path, MAX_MAPPING_BYTES) {
         Ok(t) => t,
         Err(e) => {
@@ -76,8 +74,8 @@ fn mapping(args: &Args) -> Option<Mapping> {
     }
 }
 
-fn format_of(path: &Path, mapping: &Mapping) -> TableFormat {
-    if let Some(f) = mapping.format {
+fn format_of(path: &Path, mapping: Option<&Mapping>) -> TableFormat {
+    if let Some(f) = mapping.and_then(|m| m.format) {
         return f;
     }
     let ext = path
@@ -91,7 +89,12 @@ fn format_of(path: &Path, mapping: &Mapping) -> TableFormat {
     }
 }
 
-fn import_one(path: &Path, mapping: &Mapping, args: &Args, written: &mut HashSet<String>) -> u8 {
+fn import_one(
+    path: &Path,
+    mapping: Option<&Mapping>,
+    args: &Args,
+    written: &mut HashSet<String>,
+) -> u8 {
     let shown = path.display().to_string();
     let (file, size) = match crate::files::open_regular(path) {
         Ok(f) => f,
@@ -108,7 +111,7 @@ fn import_one(path: &Path, mapping: &Mapping, args: &Args, written: &mut HashSet
     let input = BufReader::with_capacity(64 * 1024, input);
     let limits = Limits::default();
     let source: Result<Box<dyn RowSource>, _> = match format_of(path, mapping) {
-        TableFormat::Csv => CsvTable::new(input, mapping.delimiter, limits)
+        TableFormat::Csv => CsvTable::new(input, mapping.and_then(|m| m.delimiter), limits)
             .map(|t| Box::new(t) as Box<dyn RowSource>),
         TableFormat::Votable => {
             VoTable::new(input, limits).map(|t| Box::new(t) as Box<dyn RowSource>)
@@ -125,6 +128,26 @@ fn import_one(path: &Path, mapping: &Mapping, args: &Args, written: &mut HashSet
     let name = path
         .file_name()
         .map_or(shown.clone(), |n| n.to_string_lossy().into_owned());
+    let Some(mapping) = mapping else {
+        // No mapping: the table of declared values `syz eval --table sources` writes.
+        if !syzygy::tables::is_sources_table(source.columns()) {
+            finish_bar(bar);
+            eprintln!(
+                "syz: error: {shown}: give the mapping file with --mapping FILE (docs/import.md describes it); \
+                 only the table of declared values that `syz eval --table sources` writes is read without one"
+            );
+            return 2;
+        }
+        let result = syzygy::tables::import_sources(source.as_mut(), &name);
+        finish_bar(bar);
+        return match result {
+            Ok(result) => finish(&shown, &result, args, written),
+            Err(e) => {
+                eprintln!("syz: error: {shown}: {e}; nothing was written for this table");
+                2
+            }
+        };
+    };
     let mut importer = match Importer::new(mapping, source.columns(), &name) {
         Ok(i) => i,
         Err(e) => {
@@ -145,9 +168,13 @@ fn import_one(path: &Path, mapping: &Mapping, args: &Args, written: &mut HashSet
         }
     }
     finish_bar(bar);
-    let result = importer.finish();
-    report(&shown, &result);
-    let failed = write_all(&result, args, written);
+    finish(&shown, &importer.finish(), args, written)
+}
+
+/// Report an import, write its files, and say how it went (the exit code).
+fn finish(shown: &str, result: &ImportResult, args: &Args, written: &mut HashSet<String>) -> u8 {
+    report(shown, result);
+    let failed = write_all(result, args, written);
     if failed {
         2
     } else if result.issues.is_empty() && result.summary.skipped_cells == 0 {

@@ -279,7 +279,8 @@ enum Command {
         after_help = "Example:\n  syz completions bash > ~/.local/share/bash-completion/completions/syz\n  syz completions fish > ~/.config/fish/completions/syz.fish"
     )]
     Completions { shell: clap_complete::Shell },
-    /// Import tables (CSV, VOTable) into one .syz file per system, under a mapping file.
+    /// Import tables (CSV, VOTable) into one .syz file per system, under a mapping file (the
+    /// table of declared values `syz eval --table sources` writes needs none).
     #[command(
         after_help = "Exit status: 0 everything imported; 1 some cells were not imported (each is named); 2 a table, the mapping or the output folder could not be used.\n\nExample:\n  syz import examples/tables/survey.csv --mapping examples/tables/survey.toml -o imported/\n\nThe mapping file: docs/import.md."
     )]

@@ -148,7 +148,7 @@ fn planet_fields(out: &mut String) {
 }
 
 /// The columns of the table of declared values: name, numeric, UCD, description.
-const SOURCE_FIELDS: [(&str, &str, &str); 16] = [
+const SOURCE_FIELDS: [(&str, &str, &str); 17] = [
     ("file", "meta.id;meta.file", "The file the value is declared in"),
     ("system", "meta.id", "System name"),
     ("body", "meta.id", "Id of the star or planet"),
@@ -163,6 +163,7 @@ const SOURCE_FIELDS: [(&str, &str, &str); 16] = [
     ("limit", "meta.code.error", "upper or lower for a limit"),
     ("origin", "meta.code", "declared or assumed"),
     ("refs", "meta.ref", "The citation ids of the declaration, separated by '; '"),
+    ("references", "meta.bib", "The cited references as 'id: text', separated by ' | '"),
     ("line", "meta.record", "The line of the declaration in its file"),
     ("used", "meta.code", "yes: the value used; no: another source is used; combined: the value used is a weighted mean of the sources"),
 ];

@@ -232,6 +232,18 @@ fn results(a: &Analysis, row: Row) -> (Option<&BodyResult>, Option<&BodyResult>)
     (get(row.planet), get(row.host))
 }
 
+/// Citation ids with their references' texts: `id: text`, separated by ` | `.
+fn described(model: &Model, ids: &[String]) -> String {
+    let parts: Vec<String> = ids
+        .iter()
+        .map(|id| match model.refs.iter().find(|r| r.id == *id) {
+            Some(r) => format!("{id}: {}", r.text),
+            None => id.clone(),
+        })
+        .collect();
+    joined(parts.iter().map(String::as_str))
+}
+
 /// Join with ` | `.
 fn joined<'a>(items: impl IntoIterator<Item = &'a str>) -> String {
     let mut s = String::new();
@@ -449,8 +461,23 @@ pub fn vo_unit(unit: &str) -> Option<std::borrow::Cow<'static, str>> {
 /// The columns of the table of declared values (`--table sources`): one row per declaration,
 /// every source of a quantity declared several times included.
 pub const SOURCE_COLUMNS: &[&str] = &[
-    "file", "system", "body", "kind", "host", "quantity", "value", "below", "above", "text",
-    "unit", "limit", "origin", "refs", "line", "used",
+    "file",
+    "system",
+    "body",
+    "kind",
+    "host",
+    "quantity",
+    "value",
+    "below",
+    "above",
+    "text",
+    "unit",
+    "limit",
+    "origin",
+    "refs",
+    "references",
+    "line",
+    "used",
 ];
 
 /// One declared value, for the table of declared values.
@@ -477,6 +504,8 @@ pub struct SourceRow<'a> {
     pub origin: &'static str,
     /// Citation ids, separated by `; `.
     pub refs: String,
+    /// The cited references as `id: text`, separated by ` | `.
+    pub references: String,
     /// 1-based line of the declaration (0 when unknown).
     pub line: usize,
     /// `yes` (the value used), `no` (another source was used), `combined` (the value used is
@@ -536,6 +565,7 @@ pub fn source_rows<'a>(a: &'a Analysis, line: &dyn Fn(u32) -> usize) -> Vec<Sour
                     limit: limit(q.form),
                     origin,
                     refs: q.citations.join("; "),
+                    references: described(&a.model, &q.citations),
                     line: q.span.map_or(0, |s| line(s.start)),
                     used: "yes",
                 };
@@ -557,6 +587,7 @@ pub fn source_rows<'a>(a: &'a Analysis, line: &dyn Fn(u32) -> usize) -> Vec<Sour
                         above: number(s.above),
                         limit: limit(s.form),
                         refs: s.citations.join("; "),
+                        references: described(&a.model, &s.citations),
                         line: line(s.span.start),
                         used: if combined {
                             "combined"
@@ -588,7 +619,7 @@ impl SourceRow<'_> {
     }
 
     /// The cells in the order of [`SOURCE_COLUMNS`], after the file's name.
-    pub fn cells(&self) -> [Cell<'_>; 15] {
+    pub fn cells(&self) -> [Cell<'_>; 16] {
         let t = |s: &str| Cell::Text(std::borrow::Cow::Owned(s.to_string()));
         [
             t(self.system),
@@ -604,6 +635,7 @@ impl SourceRow<'_> {
             t(self.limit),
             t(self.origin),
             t(&self.refs),
+            t(&self.references),
             Cell::Number(self.line as f64),
             t(self.used),
         ]

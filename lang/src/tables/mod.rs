@@ -16,6 +16,7 @@ mod csv_table;
 mod emit;
 mod mapping;
 mod names;
+mod own;
 mod votable;
 
 pub use build::{ImportResult, Importer, Summary, SystemText};
@@ -25,6 +26,7 @@ pub use mapping::{
     TableFormat,
 };
 pub use names::{file_stem, syzygy_name};
+pub use own::{import_sources, is_sources_table};
 pub use votable::{vounit_to_syzygy, VoTable};
 
 /// Bounds on what a reader accepts. The defaults suit real tables by a wide margin; tests

@@ -1,0 +1,317 @@
+//! Tables `syz` writes itself, read back without a mapping: the table of declared values
+//! (`syz eval --format csv|votable --table sources`, docs/table-output.md). Each row is one
+//! declaration; every row becomes one line of a system file, so a catalogue exported this way
+//! and imported again declares the same values, sources, limits, `assumed` marks, the chosen
+//! source (as `preferred`) and references.
+
+use super::build::{string_literal, ImportResult, Summary, SystemText};
+use super::names::{file_stem, syzygy_name};
+use super::{Column, Issue, IssueKind, RowSource, TableError};
+use crate::ast::BodyKind;
+use crate::quantities;
+use std::collections::{BTreeMap, HashMap};
+use std::fmt::Write;
+
+/// The columns that make a table the table of declared values (`file`, `line` and
+/// `references` may be absent).
+const NEEDED: [&str; 13] = [
+    "system", "body", "kind", "host", "quantity", "value", "below", "above", "text", "unit",
+    "limit", "origin", "refs",
+];
+
+/// Whether `columns` are those of the table of declared values.
+pub fn is_sources_table(columns: &[Column]) -> bool {
+    NEEDED.iter().all(|n| columns.iter().any(|c| c.name == *n))
+}
+
+/// One body as read so far.
+struct Body {
+    id: String,
+    kind: BodyKind,
+    host: String,
+    /// (quantity name, declaration text without the name, used, citation ids)
+    decls: Vec<(&'static str, String, bool, Vec<String>)>,
+}
+
+/// One system as read so far, in the order its bodies first appear.
+#[derive(Default)]
+struct System {
+    name: String,
+    bodies: Vec<Body>,
+    /// The references its rows name, id to text (ids are only unique within a file).
+    refs: BTreeMap<String, String>,
+}
+
+/// Read every row of a table of declared values into one system text per (file, system).
+pub fn import_sources(source: &mut dyn RowSource, table: &str) -> Result<ImportResult, TableError> {
+    let index: HashMap<String, usize> = source
+        .columns()
+        .iter()
+        .enumerate()
+        .map(|(i, c)| (c.name.clone(), i))
+        .collect();
+    let mut systems: Vec<System> = Vec::new();
+    let mut by_key: HashMap<(String, String), usize> = HashMap::new();
+    let mut issues = Vec::new();
+    let mut summary = Summary::default();
+    while let Some(row) = source.next_row()? {
+        summary.rows += 1;
+        let cell = |name: &str| {
+            index
+                .get(name)
+                .and_then(|&i| row.cells.get(i))
+                .map_or("", |s| s.trim())
+        };
+        let issue = |kind, column: &str, message: String| Issue {
+            kind,
+            row: row.number,
+            line: row.line,
+            column: Some(column.to_string()),
+            message,
+        };
+        let (system, body_name) = (cell("system"), cell("body"));
+        if system.is_empty() || body_name.is_empty() {
+            let column = if system.is_empty() { "system" } else { "body" };
+            issues.push(issue(
+                IssueKind::MissingName,
+                column,
+                "no name: the row's value is not imported".into(),
+            ));
+            summary.skipped_cells += 1;
+            continue;
+        }
+        let kind = match cell("kind") {
+            "star" => BodyKind::Star,
+            "planet" => BodyKind::Planet,
+            other => {
+                issues.push(issue(
+                    IssueKind::Unused,
+                    "kind",
+                    format!(
+                        "`{other}` is neither `star` nor `planet`: the row's value is not imported"
+                    ),
+                ));
+                summary.skipped_cells += 1;
+                continue;
+            }
+        };
+        let Some(def) = quantities::find(kind, cell("quantity")) else {
+            issues.push(issue(
+                IssueKind::Unused,
+                "quantity",
+                format!(
+                    "no {} quantity is called `{}`: the row's value is not imported",
+                    kind.as_str(),
+                    cell("quantity")
+                ),
+            ));
+            summary.skipped_cells += 1;
+            continue;
+        };
+        let text = match declaration(def.text, &cell) {
+            Ok(t) => t,
+            Err((column, why)) => {
+                issues.push(issue(
+                    IssueKind::BadNumber,
+                    column,
+                    format!("{why}: the row's value is not imported"),
+                ));
+                summary.skipped_cells += 1;
+                continue;
+            }
+        };
+        let refs: Vec<String> = cell("refs")
+            .split(';')
+            .map(str::trim)
+            .filter(|r| !r.is_empty())
+            .map(|r| syzygy_name(r, "ref"))
+            .collect();
+        let mut line = text;
+        if !refs.is_empty() {
+            let _ = write!(line, " [{}]", refs.join(", "));
+        }
+        if cell("origin") == "assumed" {
+            line.push_str(" assumed");
+        }
+        let key = (cell("file").to_string(), system.to_string());
+        let si = *by_key.entry(key).or_insert_with(|| {
+            systems.push(System {
+                name: system.to_string(),
+                ..System::default()
+            });
+            systems.len() - 1
+        });
+        let Some(sys) = systems.get_mut(si) else {
+            continue;
+        };
+        for entry in cell("references").split(" | ").filter(|e| !e.is_empty()) {
+            if let Some((id, text)) = entry.split_once(": ") {
+                sys.refs
+                    .entry(syzygy_name(id, "ref"))
+                    .or_insert_with(|| text.to_string());
+            }
+        }
+        let id = syzygy_name(body_name, kind.as_str());
+        let bi = match sys.bodies.iter().position(|b| b.id == id && b.kind == kind) {
+            Some(i) => i,
+            None => {
+                sys.bodies.push(Body {
+                    id,
+                    kind,
+                    host: syzygy_name(cell("host"), ""),
+                    decls: Vec::new(),
+                });
+                sys.bodies.len() - 1
+            }
+        };
+        if let Some(b) = sys.bodies.get_mut(bi) {
+            b.decls.push((def.name, line, cell("used") == "yes", refs));
+            summary.values += 1;
+        }
+    }
+    // A host star that declares nothing has no row of its own: it is still declared.
+    for s in &mut systems {
+        let mut missing: Vec<String> = Vec::new();
+        for b in &s.bodies {
+            let known = |id: &str| {
+                s.bodies
+                    .iter()
+                    .any(|h| h.id == id && h.kind == BodyKind::Star)
+            };
+            if b.kind == BodyKind::Planet
+                && !b.host.is_empty()
+                && !known(&b.host)
+                && !missing.contains(&b.host)
+            {
+                missing.push(b.host.clone());
+            }
+        }
+        for id in missing {
+            s.bodies.push(Body {
+                id,
+                kind: BodyKind::Star,
+                host: String::new(),
+                decls: Vec::new(),
+            });
+        }
+    }
+    let files = systems.iter().map(|s| system_text(s, table)).collect();
+    summary.systems = systems.len();
+    for s in &systems {
+        for b in &s.bodies {
+            match b.kind {
+                BodyKind::Star => summary.stars += 1,
+                BodyKind::Planet => summary.planets += 1,
+            }
+        }
+    }
+    Ok(ImportResult {
+        files,
+        issues,
+        unmapped: Vec::new(),
+        summary,
+    })
+}
+
+/// The declaration after the quantity's name (`= 3.52474 ± 0.00002 d`, `< 0.08`), or the
+/// column that cannot be read and why.
+fn declaration<'a>(
+    text_quantity: bool,
+    cell: &dyn Fn(&str) -> &'a str,
+) -> Result<String, (&'static str, String)> {
+    if text_quantity {
+        return Ok(format!("= {}", string_literal(cell("text"))));
+    }
+    let number = |column: &'static str| -> Result<Option<f64>, (&'static str, String)> {
+        let c = cell(column);
+        if c.is_empty() {
+            return Ok(None);
+        }
+        match c.parse::<f64>() {
+            Ok(v) if v.is_finite() => Ok(Some(v)),
+            _ => Err((column, format!("`{c}` is not a number"))),
+        }
+    };
+    let value = cell("value");
+    if number("value")?.is_none() {
+        return Err(("value", "no value".into()));
+    }
+    let unit = match cell("unit") {
+        "" => String::new(),
+        u => format!(" {u}"),
+    };
+    let op = match cell("limit") {
+        "upper" => "<",
+        "lower" => ">",
+        "" => "=",
+        other => return Err(("limit", format!("`{other}` is neither `upper` nor `lower`"))),
+    };
+    if op != "=" {
+        return Ok(format!("{op} {value}{unit}"));
+    }
+    let (below, above) = (
+        number("below")?.unwrap_or(0.0),
+        number("above")?.unwrap_or(0.0),
+    );
+    if below < 0.0 || above < 0.0 {
+        return Err(("below", "an uncertainty is negative".into()));
+    }
+    let spread = if below == 0.0 && above == 0.0 {
+        String::new()
+    } else if below == above {
+        format!(" ± {}", cell("below"))
+    } else {
+        format!(" +{}/-{}", cell("above"), cell("below"))
+    };
+    Ok(format!("= {value}{spread}{unit}"))
+}
+
+/// One system's file: its references, then its bodies in the order they first appear, each
+/// declaration in table order; of several declarations of one quantity, the one the table
+/// says was used is marked `preferred`.
+fn system_text(s: &System, table: &str) -> SystemText {
+    let mut out = String::new();
+    let _ = writeln!(
+        out,
+        "# Imported by `syz import` from {}.",
+        table.replace(['\n', '\r'], " ")
+    );
+    let mut cited: Vec<&str> = Vec::new();
+    for r in s.bodies.iter().flat_map(|b| &b.decls).flat_map(|d| &d.3) {
+        if !cited.contains(&r.as_str()) {
+            cited.push(r);
+        }
+    }
+    for id in cited {
+        let text = s.refs.get(id).map_or("", String::as_str);
+        let _ = writeln!(out, "ref {id} {}", string_literal(text));
+    }
+    let _ = writeln!(out, "\nsystem {} {{", string_literal(&s.name));
+    for b in &s.bodies {
+        let has_host = !b.host.is_empty()
+            && s.bodies
+                .iter()
+                .any(|h| h.id == b.host && h.kind == BodyKind::Star);
+        match b.kind {
+            BodyKind::Planet if has_host => {
+                let _ = writeln!(out, "  planet {} orbits {} {{", b.id, b.host);
+            }
+            kind => {
+                let _ = writeln!(out, "  {} {} {{", kind.as_str(), b.id);
+            }
+        }
+        for (name, line, used, _) in &b.decls {
+            let several = b.decls.iter().filter(|d| d.0 == *name).count() > 1;
+            let mark = if several && *used { " preferred" } else { "" };
+            let _ = writeln!(out, "    {name} {line}{mark}");
+        }
+        out.push_str("  }\n");
+    }
+    out.push_str("}\n");
+    let text = crate::layout::format_source(&out).unwrap_or(out);
+    SystemText {
+        system: s.name.clone(),
+        stem: file_stem(&s.name),
+        text,
+    }
+}
