@@ -9,6 +9,7 @@ use crate::files;
 use std::path::PathBuf;
 use syzygy::composition::Curve;
 use syzygy::constants::{M_EARTH, R_EARTH};
+use syzygy::model::Form;
 use syzygy::plots::labels::{self, text_size, Rect, Request};
 use syzygy::plots::{self, PlanetPoint};
 use syzygy::settings::Layer;
@@ -255,13 +256,52 @@ pub(super) fn draw(
         .iter()
         .map(|p| frame.at((p.mass, p.radius)))
         .collect();
+    let mut arrows: Vec<Rect> = Vec::new();
     for ((p, (m, r)), &(x, y)) in points.iter().zip(&bars).zip(&at) {
         let (_, colour, _) = system_style(p.group);
         let (mx0, mx1) = (frame.x.at(m.low), frame.x.at(m.high));
         let (ry0, ry1) = (frame.y.at(r.low), frame.y.at(r.high));
-        body.polyline(&[(mx0, y), (mx1, y)], colour, 1.1, "", 0.7);
-        body.polyline(&[(x, ry0), (x, ry1)], colour, 1.1, "", 0.7);
+        // A limit is an arrow from the point the way the value may lie (28 px), not a bar.
+        let mut arrow = |body: &mut Svg, limit: Form, horizontal: bool| {
+            let sign = if limit == Form::UpperLimit { -1.0 } else { 1.0 };
+            let (dx, dy) = if horizontal {
+                (sign, 0.0)
+            } else {
+                (0.0, -sign)
+            };
+            let tip = (x + 28.0 * dx, y + 28.0 * dy);
+            body.polyline(&[(x, y), tip], colour, 1.3, "", 0.9);
+            // Labels keep clear of the arrow.
+            arrows.push(Rect {
+                x0: x.min(tip.0) - 4.0,
+                y0: y.min(tip.1) - 4.0,
+                x1: x.max(tip.0) + 4.0,
+                y1: y.max(tip.1) + 4.0,
+            });
+            let back = (tip.0 - 6.0 * dx, tip.1 - 6.0 * dy);
+            let side = (4.0 * dy, 4.0 * dx);
+            body.polyline(
+                &[
+                    (back.0 + side.0, back.1 + side.1),
+                    tip,
+                    (back.0 - side.0, back.1 - side.1),
+                ],
+                colour,
+                1.3,
+                "",
+                0.9,
+            );
+        };
+        match p.mass_limit {
+            Some(limit) => arrow(&mut body, limit, true),
+            None => body.polyline(&[(mx0, y), (mx1, y)], colour, 1.1, "", 0.7),
+        }
+        match p.radius_limit {
+            Some(limit) => arrow(&mut body, limit, false),
+            None => body.polyline(&[(x, ry0), (x, ry1)], colour, 1.1, "", 0.7),
+        }
     }
+    obstacles.extend(arrows);
     for (p, &(x, y)) in points.iter().zip(&at) {
         let (shape, colour, size) = system_style(p.group);
         body.marker(shape, x, y, size, colour, "#ffffff");
@@ -422,6 +462,12 @@ pub(super) fn draw(
     let mut counts = vec![
         "Each planet's position among the curves, in words: the command's text output.".to_string(),
     ];
+    if points
+        .iter()
+        .any(|p| p.mass_limit.is_some() || p.radius_limit.is_some())
+    {
+        caption.push("Arrows: a mass or radius that is only a limit, drawn at the limit and pointing the way the value may lie.".to_string());
+    }
     let plural = |n: usize, one: &str, many: &str| {
         if n == 1 {
             format!("1 {one}")

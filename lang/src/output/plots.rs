@@ -35,6 +35,10 @@ pub struct PlanetPoint {
     pub radius_above: f64,
     /// Where it sits in words ([`crate::composition::describe_position`]).
     pub position: String,
+    /// When the mass or the radius is only a limit (upper or lower): the point sits at the
+    /// limit and an arrow points the way the value may lie.
+    pub mass_limit: Option<crate::model::Form>,
+    pub radius_limit: Option<crate::model::Form>,
 }
 
 /// Every planet of the analyses that has a mass and a radius; the others are listed with
@@ -60,10 +64,6 @@ pub fn mass_radius_points(analyses: &[Analysis]) -> (Vec<PlanetPoint>, Vec<Strin
                     left_out.push(format!("{label}: {missing}"));
                     continue;
                 };
-                if m.form.is_limit() || rad.form.is_limit() {
-                    left_out.push(format!("{label}: a limit, not a value"));
-                    continue;
-                }
                 if !(m.value.is_finite() && rad.value.is_finite()) {
                     left_out.push(format!(
                         "{label}: the mass or the radius is not a finite number"
@@ -80,7 +80,22 @@ pub fn mass_radius_points(analyses: &[Analysis]) -> (Vec<PlanetPoint>, Vec<Strin
                     radius: rad.value / R_EARTH,
                     radius_below: rad.below / R_EARTH,
                     radius_above: rad.above / R_EARTH,
-                    position: crate::composition::describe_position(m.value, rad.value),
+                    position: {
+                        let mut words = crate::composition::describe_position(m.value, rad.value);
+                        for (q, what) in [(m, "mass"), (rad, "radius")] {
+                            let kind = match q.form {
+                                crate::model::Form::UpperLimit => "an upper",
+                                crate::model::Form::LowerLimit => "a lower",
+                                _ => continue,
+                            };
+                            words.push_str(&format!(
+                                "; the {what} is {kind} limit: the point is at the limit, not at a measured value"
+                            ));
+                        }
+                        words
+                    },
+                    mass_limit: m.form.is_limit().then_some(m.form),
+                    radius_limit: rad.form.is_limit().then_some(rad.form),
                 });
             }
             if points.len() > before {
@@ -540,6 +555,25 @@ mod tests {
     }
 
     const SRC: &str = "system \"Ostrel\" {\n  star s { mass = 1 Msun; radius = 1 Rsun; teff = 5800 K }\n  planet b orbits s {\n    period = 4 ± 0.001 d\n    rv_amplitude = 60 ± 3 m/s\n    radius_ratio = 0.1 ± 0.002\n    impact = 0.3 ± 0.05\n  }\n}\n";
+
+    #[test]
+    fn a_planet_whose_mass_is_a_limit_is_plotted_at_the_limit() {
+        // `rv_amplitude < 5 m/s` makes the mass an upper limit: the planet is drawn at it,
+        // marked as a limit, and its words say so.
+        let src = SRC.replace("rv_amplitude = 60 ± 3 m/s", "rv_amplitude < 5 m/s");
+        let (points, left_out) = mass_radius_points(&[analysis(&src)]);
+        assert!(left_out.is_empty(), "{left_out:?}");
+        let p = points.first().unwrap();
+        assert_eq!(p.mass_limit, Some(crate::model::Form::UpperLimit));
+        assert_eq!(p.radius_limit, None);
+        assert_eq!((p.mass_below, p.mass_above), (0.0, 0.0));
+        assert!(p.mass > 10.0 && p.mass < 30.0, "{}", p.mass);
+        assert!(
+            p.position.contains("the mass is an upper limit"),
+            "{}",
+            p.position
+        );
+    }
 
     #[test]
     fn rv_curve_spans_one_orbit_with_amplitude_k() {
