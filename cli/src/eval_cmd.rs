@@ -93,10 +93,7 @@ pub fn run(
                 |()| {},
             );
             errors |= bad;
-            // A reader that stops early (`| head`) is not an error of ours.
-            let failure = header.or(failure);
-            if let Some(e) = failure.filter(|e| e.kind() != std::io::ErrorKind::BrokenPipe) {
-                eprintln!("syz: error: writing the table failed: {e}");
+            if table_write_failed(header.or(failure)) {
                 return 2;
             }
         }
@@ -132,8 +129,7 @@ pub fn run(
                     .and_then(|()| out.flush())
                     .err()
             });
-            if let Some(e) = failure.filter(|e| e.kind() != std::io::ErrorKind::BrokenPipe) {
-                eprintln!("syz: error: writing the table failed: {e}");
+            if table_write_failed(failure) {
                 return 2;
             }
         }
@@ -205,6 +201,18 @@ fn stream_per_file<X: Send>(
     }
     let _ = std::io::stderr().lock().write_all(rendered.as_bytes());
     (errors, failure)
+}
+
+/// Say so when writing a table failed; a reader that stops early (`| head`) is not an error
+/// of ours.
+fn table_write_failed(failure: Option<std::io::Error>) -> bool {
+    match failure.filter(|e| e.kind() != std::io::ErrorKind::BrokenPipe) {
+        Some(e) => {
+            eprintln!("syz: error: writing the table failed: {e}");
+            true
+        }
+        None => false,
+    }
 }
 
 /// How the uncertainties shown were propagated, in words.

@@ -196,8 +196,9 @@ fn samples_for(bodies: usize, asked: usize) -> (usize, Option<Arc<str>>) {
 impl<'m> Derivation<'m> {
     pub fn run(sys: &'m System, options: &Options, lines: &'m sources::Lines) -> Derivation<'m> {
         let mut d = Derivation::run_pinned(sys, options, lines, FxHashSet::default());
-        d.sample_where_doubtful();
+        // Values given as limits need no sampling: bound first, then sample the rest.
         d.bound_where_limited();
+        d.sample_where_doubtful();
         d
     }
 

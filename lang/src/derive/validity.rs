@@ -60,7 +60,10 @@ impl<'m> Derivation<'m> {
     pub(super) fn doubts(&self) -> FxHashMap<Key, String> {
         let mut out = FxHashMap::default();
         for (key, entry) in &self.entries {
-            if entry.origin != Origin::Derived || entry.value.grad.is_empty() {
+            if entry.origin != Origin::Derived
+                || entry.value.grad.is_empty()
+                || self.bounded.contains_key(key)
+            {
                 continue;
             }
             let (lo, hi) = entry.value.linear_spread(&self.inputs);

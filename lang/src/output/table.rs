@@ -232,10 +232,20 @@ fn results(a: &Analysis, row: Row) -> (Option<&BodyResult>, Option<&BodyResult>)
     (get(row.planet), get(row.host))
 }
 
+/// An SI value in a column whose unit is `factor` SI units, tidied; empty when not finite.
+fn number_cell(si: f64, factor: f64) -> Cell<'static> {
+    let v = tidy(si / factor);
+    if v.is_finite() {
+        Cell::Number(v)
+    } else {
+        Cell::Empty
+    }
+}
+
 /// Citation ids with their references' texts: `id: text`, separated by ` | `.
-fn described(model: &Model, ids: &[String]) -> String {
+fn described<'a>(model: &Model, ids: impl IntoIterator<Item = &'a String>) -> String {
     let parts: Vec<String> = ids
-        .iter()
+        .into_iter()
         .map(|id| match model.refs.iter().find(|r| r.id == *id) {
             Some(r) => format!("{id}: {}", r.text),
             None => id.clone(),
@@ -281,20 +291,13 @@ pub fn cell<'a>(a: &'a Analysis, file: &'a str, row: Row, column: &Column) -> Ce
             }
         }
         Content::Refs => {
-            let ids: BTreeSet<&str> = [planet, host]
+            let ids: BTreeSet<&String> = [planet, host]
                 .into_iter()
                 .flatten()
                 .flat_map(|b| &b.quantities)
-                .flat_map(|q| q.cited.iter().map(String::as_str))
+                .flat_map(|q| &q.cited)
                 .collect();
-            let described: Vec<String> = ids
-                .iter()
-                .map(|id| match a.model.refs.iter().find(|r| r.id == *id) {
-                    Some(r) => format!("{id}: {}", r.text),
-                    None => (*id).to_string(),
-                })
-                .collect();
-            Cell::Text(joined(described.iter().map(String::as_str)).into())
+            Cell::Text(described(&a.model, ids).into())
         }
         Content::Assumptions => {
             // What the row's values assumed, in words, so the table never hides a default or
@@ -329,14 +332,7 @@ fn quantity_cell<'a>(
     unit: Option<&str>,
 ) -> Cell<'a> {
     let factor = unit.and_then(DisplayUnit::parse).map_or(1.0, |u| u.factor);
-    let number = |v: f64| {
-        let v = tidy(v / factor);
-        if v.is_finite() {
-            Cell::Number(v)
-        } else {
-            Cell::Empty
-        }
-    };
+    let number = |v: f64| number_cell(v, factor);
     match part {
         Part::Value if def.text => q
             .text
@@ -538,14 +534,7 @@ pub fn source_rows<'a>(a: &'a Analysis, line: &dyn Fn(u32) -> usize) -> Vec<Sour
                     column_unit(def, Flavor::Csv).unwrap_or("")
                 };
                 let factor = DisplayUnit::parse(unit).map_or(1.0, |u| u.factor);
-                let number = |v: f64| {
-                    let v = tidy(v / factor);
-                    if v.is_finite() {
-                        Cell::Number(v)
-                    } else {
-                        Cell::Empty
-                    }
-                };
+                let number = |v: f64| number_cell(v, factor);
                 let limit = |f: Form| match f {
                     Form::UpperLimit => "upper",
                     Form::LowerLimit => "lower",
