@@ -13,6 +13,11 @@
 //! FUZZ_SECONDS=1800 cargo test --release -p syzygy --test fuzz -- --ignored    # longer
 //! ```
 //!
+//! `FUZZ_THREADS=N` runs N threads in one run (seeds `FUZZ_SEED` to `FUZZ_SEED + N - 1`), and
+//! `FUZZ_RUNS=M` stops the run once M inputs are done. Each input's cost is reported as the
+//! CPU time of its thread, so that a run beside other work still tells a slow input from a
+//! wait for a core.
+//!
 //! A crash prints the seed and the mutant; add the mutant to `tests/fixtures/check/` as a
 //! regression test.
 
@@ -20,6 +25,7 @@
 
 use rand::{Rng as _, SeedableRng};
 use rand_chacha::ChaCha8Rng;
+use std::sync::atomic::{AtomicU64, Ordering};
 use std::time::{Duration, Instant};
 use syzygy::source::FileId;
 use syzygy::{analyze, Options};
@@ -251,24 +257,50 @@ fn in_parts_says_the_same(src: &str, settings: &syzygy::Settings, whole: &syzygy
     );
 }
 
-#[test]
-#[ignore = "time-boxed fuzzing; run with --ignored (see the module doc)"]
-fn fuzz_every_stage() {
-    let seconds: u64 = std::env::var("FUZZ_SECONDS")
+/// CPU time of the calling thread: what one input cost, whatever else the machine was doing
+/// (wall-clock time on a machine shared with builds measures waits for a core, not hangs).
+fn thread_cpu_time() -> Duration {
+    let mut t = libc::timespec {
+        tv_sec: 0,
+        tv_nsec: 0,
+    };
+    // SAFETY: `t` is a valid, writable timespec; CLOCK_THREAD_CPUTIME_ID is always available
+    // on Linux.
+    let rc = unsafe { libc::clock_gettime(libc::CLOCK_THREAD_CPUTIME_ID, &mut t) };
+    assert_eq!(rc, 0, "clock_gettime failed");
+    Duration::new(t.tv_sec as u64, t.tv_nsec as u32)
+}
+
+fn env_u64(name: &str, default: u64) -> u64 {
+    std::env::var(name)
         .ok()
         .and_then(|s| s.parse().ok())
-        .unwrap_or(20);
-    let seed: u64 = std::env::var("FUZZ_SEED")
-        .ok()
-        .and_then(|s| s.parse().ok())
-        .unwrap_or(0x5eed_5eed);
-    let corpus = corpus();
-    assert!(!corpus.is_empty(), "no corpus found");
+        .unwrap_or(default)
+}
+
+/// What one fuzzing thread did.
+struct Tally {
+    runs: u64,
+    slowest_wall: Duration,
+    slowest_cpu: Duration,
+}
+
+/// One thread of a run: its own generator (seeded `seed + thread`), stopping at the deadline
+/// or once all threads together have done `target` inputs.
+fn fuzz_thread(
+    corpus: &[String],
+    seed: u64,
+    deadline: Instant,
+    total: &AtomicU64,
+    target: u64,
+) -> Tally {
     let mut rng = Rng::seed_from_u64(seed);
-    let start = Instant::now();
-    let mut runs = 0u64;
-    let mut slowest = Duration::ZERO;
-    while start.elapsed() < Duration::from_secs(seconds) {
+    let mut tally = Tally {
+        runs: 0,
+        slowest_wall: Duration::ZERO,
+        slowest_cpu: Duration::ZERO,
+    };
+    while Instant::now() < deadline && total.load(Ordering::Relaxed) < target {
         // One run in eight starts from a generated input instead of the corpus.
         let mutant = if below(&mut rng, 8) == 0 {
             let generated = generate(&mut rng);
@@ -281,21 +313,67 @@ fn fuzz_every_stage() {
             mutate(&corpus[below(&mut rng, corpus.len())], &mut rng)
         };
         let began = Instant::now();
+        let cpu = thread_cpu_time();
         let result = std::panic::catch_unwind(|| one(&mutant));
-        slowest = slowest.max(began.elapsed());
+        tally.slowest_cpu = tally.slowest_cpu.max(thread_cpu_time().saturating_sub(cpu));
+        tally.slowest_wall = tally.slowest_wall.max(began.elapsed());
         if let Err(e) = result {
-            eprintln!("crash after {runs} runs (FUZZ_SEED={seed}); mutant:\n{mutant:?}");
+            eprintln!(
+                "crash after {} runs (FUZZ_SEED={seed}); mutant:\n{mutant:?}",
+                tally.runs
+            );
             std::panic::resume_unwind(e);
         }
-        runs += 1;
-        if runs.is_multiple_of(100_000) {
+        tally.runs += 1;
+        let all = total.fetch_add(1, Ordering::Relaxed) + 1;
+        if all.is_multiple_of(100_000) {
             // Progress for long runs, so that a stopped run still says how far it got.
-            eprintln!(
-                "fuzz: {runs} mutants in {:.0} s, no crash so far; slowest {slowest:?}",
-                start.elapsed().as_secs_f64()
-            );
+            eprintln!("fuzz: {all} inputs so far, no crash");
         }
     }
-    eprintln!("fuzz: {runs} mutants in {seconds} s, no crash; slowest {slowest:?}");
+    tally
+}
+
+#[test]
+#[ignore = "time-boxed fuzzing; run with --ignored (see the module doc)"]
+fn fuzz_every_stage() {
+    let seconds = env_u64("FUZZ_SECONDS", 20);
+    let seed = env_u64("FUZZ_SEED", 0x5eed_5eed);
+    let threads = env_u64("FUZZ_THREADS", 1).max(1);
+    let target = env_u64("FUZZ_RUNS", u64::MAX);
+    let corpus = corpus();
+    assert!(!corpus.is_empty(), "no corpus found");
+    let start = Instant::now();
+    let deadline = start + Duration::from_secs(seconds);
+    let total = AtomicU64::new(0);
+    let tallies: Vec<Tally> = std::thread::scope(|scope| {
+        let handles: Vec<_> = (0..threads)
+            .map(|t| {
+                let (corpus, total) = (&corpus, &total);
+                scope.spawn(move || fuzz_thread(corpus, seed + t, deadline, total, target))
+            })
+            .collect();
+        handles
+            .into_iter()
+            .map(|h| h.join().unwrap_or_else(|e| std::panic::resume_unwind(e)))
+            .collect()
+    });
+    let runs: u64 = tallies.iter().map(|t| t.runs).sum();
+    let wall = tallies
+        .iter()
+        .map(|t| t.slowest_wall)
+        .max()
+        .unwrap_or_default();
+    let cpu = tallies
+        .iter()
+        .map(|t| t.slowest_cpu)
+        .max()
+        .unwrap_or_default();
+    eprintln!(
+        "fuzz: {runs} inputs in {:.0} s on {threads} thread(s) (seeds {seed}..{}), no crash; \
+         slowest input {cpu:?} of CPU time ({wall:?} wall-clock)",
+        start.elapsed().as_secs_f64(),
+        seed + threads - 1
+    );
     assert!(runs > 0);
 }
