@@ -52,8 +52,12 @@ pub fn run(d: &Derivation, diags: &mut Vec<Diagnostic>) -> Vec<CompositionNote> 
                 object_class(d, bi, diags);
                 size_and_orbit(d, bi, diags);
                 transit_geometry(d, bi, diags);
+                no_prediction(d, bi, diags);
             }
-            BodyKind::Star => plausible_star(d, bi, diags),
+            BodyKind::Star => {
+                plausible_star(d, bi, diags);
+                habitable_zone_range(d, bi, diags);
+            }
         }
     }
     orbit_spacing(d, diags);
@@ -426,6 +430,56 @@ fn orbit_spacing(d: &Derivation, diags: &mut Vec<Diagnostic>) {
 pub const STAR_TEFF: (f64, f64) = (2_000.0, 60_000.0);
 pub const STAR_MASS: (f64, f64) = (0.07 * M_SUN, 300.0 * M_SUN);
 pub const STAR_LOG_G: (f64, f64) = (-1.0, 5.8);
+
+/// The habitable-zone fits hold for 2600-7200 K only: outside, the zone is not derived, and
+/// this says why.
+fn habitable_zone_range(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
+    let Some(t) = nominal(d, (bi, Qty::Teff)) else {
+        return;
+    };
+    let (lo, hi) = formulas::HABITABLE_TEFF_RANGE;
+    if (lo..=hi).contains(&t) {
+        return;
+    }
+    let name = d.sys.bodies.get(bi).map_or("?", |b| b.id.as_str());
+    diags.push(
+        Diagnostic::new(
+            Rule::NotDerivable,
+            anchor(d, bi, &[Qty::Teff]),
+            format!(
+                "{name}'s habitable zone is not derived: Teff {t:.0} K lies outside {lo:.0}-{hi:.0} K, where the fits of Kopparapu et al. (2014) hold"
+            ),
+        )
+        .with_note("extrapolating the fits' polynomials beyond their range gives meaningless edges"),
+    );
+}
+
+/// A planet with a radius but no mass whose radius does not tell a mass: say so, rather
+/// than leave the predicted mass (and the metrics that use it) silently absent.
+fn no_prediction(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
+    if d.value((bi, Qty::Mass)).is_some() || d.value((bi, Qty::PredictedMass)).is_some() {
+        return;
+    }
+    let Some(r) = nominal(d, (bi, Qty::Radius)) else {
+        return;
+    };
+    let top = formulas::largest_invertible_radius_earth();
+    let r_earth = r / R_EARTH;
+    if r_earth < top {
+        return;
+    }
+    let name = d.sys.bodies.get(bi).map_or("?", |b| b.id.as_str());
+    diags.push(
+        Diagnostic::new(
+            Rule::NotDerivable,
+            anchor(d, bi, &[Qty::Radius, Qty::TransitDepth, Qty::RadiusRatio]),
+            format!(
+                "no mass is predicted for {name}: its radius ({r_earth:.1} Rearth) is above {top:.1} Rearth, where the mass-radius relation of Chen & Kipping (2017) does not tell a mass"
+            ),
+        )
+        .with_note("giant planets from about 0.4 Jupiter masses to the brown-dwarf limit all have radii near 1 Rjup; a mass needs radial velocities (or transit timing)"),
+    );
+}
 
 fn plausible_star(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
     let name = d.sys.bodies.get(bi).map_or("?", |b| b.id.as_str());

@@ -475,6 +475,24 @@ fn build_registry() -> Vec<UnitDef> {
             "1e-3",
         ),
         u(
+            "mag",
+            &[],
+            "magnitude",
+            1.0,
+            D::NONE,
+            false,
+            "astronomical magnitude: -2.5 log10 of a flux ratio (common practice)",
+        ),
+        u(
+            "mmag",
+            &[],
+            "millimagnitude",
+            1e-3,
+            D::NONE,
+            false,
+            "1e-3 mag",
+        ),
+        u(
             "dex",
             &[],
             "decimal exponent",
@@ -551,6 +569,21 @@ pub fn all_units() -> &'static [UnitDef] {
 
 /// Unit spellings of one dimension, for completion and conversion: every registered unit of
 /// that dimension and a few common prefixed and compound spellings, with a name each.
+/// The logarithmic family of a unit symbol (`mag` for `mag` and `mmag`, `dex`), if it is one.
+pub fn log_family(sym: &str) -> Option<&'static str> {
+    match sym {
+        "mag" | "mmag" => Some("mag"),
+        "dex" => Some("dex"),
+        _ => None,
+    }
+}
+
+/// Whether a quantity shown in `display` may be written in unit `sym`: magnitudes and dex are
+/// logarithms of a ratio, not scale factors, so only quantities shown in them take them.
+pub fn takes_unit(display: &str, sym: &str) -> bool {
+    log_family(sym).is_none_or(|f| log_family(display) == Some(f))
+}
+
 pub fn units_for(dim: Dimension) -> Vec<(String, String)> {
     const COMMON: &[(&str, &str)] = &[
         ("km", "kilometre"),

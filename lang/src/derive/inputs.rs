@@ -12,6 +12,10 @@ pub(super) fn default_for(q: Qty) -> Option<(f64, &'static str)> {
             "argument of periastron = 90 deg (default; no effect on a circular orbit)",
         ),
         Qty::Albedo => (0.0, "Bond albedo = 0 (default)"),
+        Qty::MeanMolecularWeight => (
+            2.3,
+            "mean molecular weight 2.3 (default: hydrogen and helium of solar composition; common practice)",
+        ),
         Qty::Redistribution => (
             1.0,
             "heat redistribution f = 1 (default: full redistribution)",
@@ -171,6 +175,7 @@ impl<'m> Derivation<'m> {
                     Qty::ArgPeriastron,
                     Qty::Albedo,
                     Qty::Redistribution,
+                    Qty::MeanMolecularWeight,
                 ] {
                     if body.get(q).is_some() {
                         continue;

@@ -98,9 +98,17 @@ pub enum Origin {
     /// Estimated by the engine from another declaration (a star's spectral type), not
     /// measured; the estimate's basis is in its assumptions.
     Estimated,
+    /// Predicted from a population relation (a mass from a radius), not from this planet's
+    /// measurements; it feeds no derivation but those meant for predictions.
+    Predicted,
 }
 
 impl Origin {
+    /// Computed by a rule: derived from measurements, or predicted from a relation.
+    pub fn is_computed(self) -> bool {
+        matches!(self, Origin::Derived | Origin::Predicted)
+    }
+
     pub fn as_str(self) -> &'static str {
         match self {
             Origin::Declared => "declared",
@@ -108,6 +116,7 @@ impl Origin {
             Origin::Derived => "derived",
             Origin::Default => "default",
             Origin::Estimated => "estimated",
+            Origin::Predicted => "predicted",
         }
     }
 }

@@ -11,6 +11,10 @@ pub(super) fn rule_assumption(id: &str) -> Option<&'static str> {
         "kepler-third-law-min-mass" | "hill-radius-min-mass" => {
             "the minimum mass stands in for the true mass"
         }
+        "tsm-predicted-mass" => {
+            "the mass predicted from the radius (Chen & Kipping 2017) stands in for the \
+             unmeasured mass"
+        }
         "kepler-third-law-light-planet"
         | "kepler-period-light-planet"
         | "kepler-stellar-mass-light-planet" => {
@@ -23,6 +27,38 @@ pub(super) fn rule_assumption(id: &str) -> Option<&'static str> {
             "the star radiates as a blackbody; the planet sits at distance a"
         }
         "insolation" => "flux at the semi-major axis (not orbit-averaged)",
+        "distance-from-parallax" => {
+            "distance = 1/parallax, with no correction for the parallax's noise: biased when its \
+             fractional error exceeds about 10 % (common practice)"
+        }
+        "luminosity-from-bolometric-flux" => "isotropic emission and no interstellar extinction",
+        "habitable-inner-insolation"
+        | "habitable-outer-insolation"
+        | "habitable-inner-optimistic-insolation"
+        | "habitable-outer-optimistic-insolation" => {
+            "habitable-zone limits of Kopparapu et al. (2014) for a planet of 1 Earth mass with \
+             an Earth-like atmosphere; the fits hold for Teff 2600-7200 K"
+        }
+        "habitable-zone-position" => {
+            "the conservative habitable zone (runaway to maximum greenhouse, Kopparapu et al. \
+             2014), compared in insolation at the semi-major axis"
+        }
+        "scale-height" => "an isothermal atmosphere at the equilibrium temperature",
+        "tsm" => {
+            "zero albedo and full heat redistribution for Teq, and the scale factor of the \
+             planet's radius bin (0.190, 1.26, 1.28, 1.15 below 1.5, 2.75, 4 and 10 Rearth; \
+             the last used above 10 Rearth too), as Kempton et al. (2018) define the metric"
+        }
+        "esm" => {
+            "zero albedo and full heat redistribution for Teq, a day side at 1.10 Teq, and \
+             blackbodies at 7.5 um, as Kempton et al. (2018) define the metric"
+        }
+        "predicted-mass" | "predicted-radius" | "predicted-radius-min-mass" => {
+            "predicted from the mean mass-radius relation of Chen & Kipping (2017), widened by \
+             its intrinsic scatter: a prediction for a typical planet, not a measurement; it \
+             feeds no density, composition or other derivation"
+        }
+        "predicted-rv-amplitude" => "the predicted mass stands in for the planet's mass",
         _ => return None,
     })
 }
@@ -159,6 +195,11 @@ impl<'m> Derivation<'m> {
                     let Some(value) = value::apply(&rule.eval, &args, &self.inputs) else {
                         continue;
                     };
+                    let value = if rules::predicts(rule.id) {
+                        self.with_relation_scatter(out, value)
+                    } else {
+                        value
+                    };
                     if let Some(a) = rule_assumption(rule.id) {
                         assumptions.insert(Arc::from(a));
                     }
@@ -200,7 +241,14 @@ impl<'m> Derivation<'m> {
                         key,
                         Entry {
                             value: c.value,
-                            origin: Origin::Derived,
+                            origin: match RULES.get(c.rule).map(|r| r.output) {
+                                Some(Slot::Planet(
+                                    Qty::PredictedMass
+                                    | Qty::PredictedRadius
+                                    | Qty::PredictedRvAmplitude,
+                                )) => Origin::Predicted,
+                                _ => Origin::Derived,
+                            },
                             rule: Some(c.rule),
                             inputs: c.inputs,
                             deps: c.deps,
@@ -213,5 +261,51 @@ impl<'m> Derivation<'m> {
                 break;
             }
         }
+    }
+}
+
+impl Derivation<'_> {
+    /// A value predicted from the mean mass-radius relation, widened by the relation's
+    /// intrinsic scatter: multiplied by `10^(z sigma)` with `z` a standard normal of its own
+    /// (an input named after the prediction, so the error budget shows its share) and `sigma`
+    /// the scatter in log10 of the predicted quantity on the branch of the nominal value.
+    fn with_relation_scatter(&mut self, out: Key, value: Value) -> Value {
+        let nominal_of = |q: Qty| self.entries.get(&(out.0, q)).map(|e| e.value.nominal);
+        let sigma = match out.1 {
+            Qty::PredictedMass => crate::formulas::mass_radius_branches()
+                .into_iter()
+                .find(|b| {
+                    let me = value.nominal / crate::constants::M_EARTH;
+                    me >= b.from && me < b.to
+                })
+                .map(|b| b.sigma / b.s),
+            _ => nominal_of(Qty::Mass)
+                .or_else(|| nominal_of(Qty::MinMass))
+                .and_then(|m| {
+                    crate::formulas::predicted_radius_earth(m / crate::constants::M_EARTH)
+                })
+                .map(|(_, b)| b.sigma),
+        };
+        let Some(sigma) = sigma.filter(|s| s.is_finite() && *s > 0.0) else {
+            return value;
+        };
+        let body = self.sys.bodies.get(out.0).map_or("?", |b| b.id.as_str());
+        let label = format!("{body}.{} scatter", quantities::def(out.1).name);
+        let z = self.new_input(
+            label,
+            &Measurement {
+                value: 0.0,
+                below: 1.0,
+                above: 1.0,
+                form: Form::Symmetric,
+            },
+            f64::NEG_INFINITY,
+            f64::INFINITY,
+        );
+        let widen = move |x: &[f64]| match x {
+            [v, z] => Some(v * 10f64.powf(z * sigma)),
+            _ => None,
+        };
+        value::apply(&widen, &[&value, &z], &self.inputs).unwrap_or(value)
     }
 }

@@ -78,9 +78,41 @@ macro_rules! args {
 /// between the two masses, which is no disagreement, as one).
 pub fn stands_in_for(id: &str) -> Option<Qty> {
     match id {
-        "kepler-third-law-min-mass" | "hill-radius-min-mass" => Some(Mass),
+        "kepler-third-law-min-mass"
+        | "hill-radius-min-mass"
+        | "predicted-mass"
+        | "tsm-predicted-mass"
+        | "predicted-radius-min-mass" => Some(Mass),
+        "predicted-radius" => Some(Radius),
         _ => None,
     }
+}
+
+/// Whether a rule predicts from a population relation rather than derives from measurement:
+/// its value has origin `predicted`, and no rule but those meant for predictions reads it.
+pub fn predicts(id: &str) -> bool {
+    matches!(
+        id,
+        "predicted-mass" | "predicted-radius" | "predicted-radius-min-mass"
+    )
+}
+
+/// Tier of the rules that predict from a population relation: after every route from
+/// measurements has had its chance.
+const PREDICTION_TIER: u8 = 5;
+
+fn mass_earth(x: f64) -> f64 {
+    x / crate::constants::M_EARTH
+}
+fn radius_earth(x: f64) -> f64 {
+    x / crate::constants::R_EARTH
+}
+fn habitable(edge: f::HabitableEdge, te: f64) -> Option<f64> {
+    f::habitable_flux(edge, temp(te)).map(|s| s * crate::constants::INSOLATION_EARTH)
+}
+fn habitable_at(lum: f64, flux: f64) -> Option<f64> {
+    f::habitable_distance(pow(lum), flux / crate::constants::INSOLATION_EARTH)
+        .map(|v| v.get::<meter>())
 }
 
 pub static RULES: &[RuleDef] = &[
@@ -521,6 +553,248 @@ pub static RULES: &[RuleDef] = &[
         eval: |x| {
             args!(x, [te, r, a, alb, fr]);
             f::equilibrium_temperature(temp(te), l(r), l(a), alb, fr).map(|v| v.get::<kelvin>())
+        },
+    },
+    // ---- what an observer plans with ----
+    RuleDef {
+        id: "distance-from-parallax",
+        formula: "d = 1 au / tan(parallax)",
+        output: S(Distance),
+        inputs: &[S(Parallax)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [p]);
+            f::distance_from_parallax(ang(p)).map(|v| v.get::<meter>())
+        },
+    },
+    RuleDef {
+        id: "luminosity-from-absolute-bolometric-magnitude",
+        formula: "L = L0 10^(-0.4 M_bol), L0 = 3.0128e28 W (IAU 2015 B2)",
+        output: S(Luminosity),
+        inputs: &[S(AbsoluteBolometricMagnitude)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [mb]);
+            f::luminosity_from_absolute_bolometric_magnitude(mb).map(|v| v.get::<watt>())
+        },
+    },
+    RuleDef {
+        id: "bolometric-flux-from-magnitude",
+        formula: "f = f0 10^(-0.4 m_bol), f0 = 2.518021002e-8 W/m^2 (IAU 2015 B2)",
+        output: S(BolometricFlux),
+        inputs: &[S(BolometricMagnitude)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [mb]);
+            f::bolometric_flux_from_magnitude(mb).map(|v| v.get::<watt_per_square_meter>())
+        },
+    },
+    RuleDef {
+        id: "luminosity-from-bolometric-flux",
+        formula: "L = 4 pi d^2 f_bol",
+        output: S(Luminosity),
+        inputs: &[S(BolometricFlux), S(Distance)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [fb, d]);
+            f::luminosity_from_flux(
+                uom::si::f64::HeatFluxDensity::new::<watt_per_square_meter>(fb),
+                l(d),
+            )
+            .map(|v| v.get::<watt>())
+        },
+    },
+    RuleDef {
+        id: "habitable-inner-insolation",
+        formula: "S_eff = S_sun + a T + b T^2 + c T^3 + d T^4, T = Teff - 5780 K (Kopparapu et al. 2014, runaway greenhouse, 1 Mearth)",
+        output: S(HabitableInnerFlux),
+        inputs: &[S(Teff)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [te]);
+            habitable(f::HabitableEdge::RunawayGreenhouse, te)
+        },
+    },
+    RuleDef {
+        id: "habitable-outer-insolation",
+        formula: "S_eff = S_sun + a T + b T^2 + c T^3 + d T^4, T = Teff - 5780 K (Kopparapu et al. 2014, maximum greenhouse)",
+        output: S(HabitableOuterFlux),
+        inputs: &[S(Teff)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [te]);
+            habitable(f::HabitableEdge::MaximumGreenhouse, te)
+        },
+    },
+    RuleDef {
+        id: "habitable-inner-optimistic-insolation",
+        formula: "S_eff = S_sun + a T + b T^2 + c T^3 + d T^4, T = Teff - 5780 K (Kopparapu et al. 2014, recent Venus)",
+        output: S(HabitableInnerOptimisticFlux),
+        inputs: &[S(Teff)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [te]);
+            habitable(f::HabitableEdge::RecentVenus, te)
+        },
+    },
+    RuleDef {
+        id: "habitable-outer-optimistic-insolation",
+        formula: "S_eff = S_sun + a T + b T^2 + c T^3 + d T^4, T = Teff - 5780 K (Kopparapu et al. 2014, early Mars)",
+        output: S(HabitableOuterOptimisticFlux),
+        inputs: &[S(Teff)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [te]);
+            habitable(f::HabitableEdge::EarlyMars, te)
+        },
+    },
+    RuleDef {
+        id: "habitable-inner",
+        formula: "d = sqrt((L / Lsun) / S_eff) au (Kopparapu et al. 2013, eq. 3)",
+        output: S(HabitableInner),
+        inputs: &[S(Luminosity), S(HabitableInnerFlux)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [lum, s]);
+            habitable_at(lum, s)
+        },
+    },
+    RuleDef {
+        id: "habitable-outer",
+        formula: "d = sqrt((L / Lsun) / S_eff) au (Kopparapu et al. 2013, eq. 3)",
+        output: S(HabitableOuter),
+        inputs: &[S(Luminosity), S(HabitableOuterFlux)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [lum, s]);
+            habitable_at(lum, s)
+        },
+    },
+    RuleDef {
+        id: "habitable-inner-optimistic",
+        formula: "d = sqrt((L / Lsun) / S_eff) au (Kopparapu et al. 2013, eq. 3)",
+        output: S(HabitableInnerOptimistic),
+        inputs: &[S(Luminosity), S(HabitableInnerOptimisticFlux)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [lum, s]);
+            habitable_at(lum, s)
+        },
+    },
+    RuleDef {
+        id: "habitable-outer-optimistic",
+        formula: "d = sqrt((L / Lsun) / S_eff) au (Kopparapu et al. 2013, eq. 3)",
+        output: S(HabitableOuterOptimistic),
+        inputs: &[S(Luminosity), S(HabitableOuterOptimisticFlux)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [lum, s]);
+            habitable_at(lum, s)
+        },
+    },
+    RuleDef {
+        id: "habitable-zone-position",
+        formula: "x = (S_inner - S) / (S_inner - S_outer): 0 at the inner edge, 1 at the outer",
+        output: P(HabitableZonePosition),
+        inputs: &[P(Insolation), H(HabitableInnerFlux), H(HabitableOuterFlux)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [s, si, so]);
+            let w = si - so;
+            (w > 0.0).then(|| (si - s) / w)
+        },
+    },
+    RuleDef {
+        id: "scale-height",
+        formula: "H = k Teq / (mu m_u g)",
+        output: P(ScaleHeight),
+        inputs: &[P(Teq), P(MeanMolecularWeight), P(SurfaceGravity)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [te, mu, g]);
+            f::scale_height(
+                temp(te),
+                mu,
+                uom::si::f64::Acceleration::new::<uom::si::acceleration::meter_per_second_squared>(g),
+            )
+            .map(|v| v.get::<meter>())
+        },
+    },
+    RuleDef {
+        id: "tsm",
+        formula: "TSM = s Rp^3 Teq / (Mp R*^2) 10^(-mJ/5), Rp in Rearth, Mp in Mearth, R* in Rsun, Teq = Teff sqrt(R*/a) (1/4)^(1/4) (Kempton et al. 2018, eq. 1)",
+        output: P(Tsm),
+        inputs: &[P(Radius), P(Mass), H(StarRadius), H(Teff), P(ScaledAxis), H(MagnitudeJ)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [rp, mp, rs, te, ars, mj]);
+            f::transmission_metric(l(rp), m(mp), l(rs), temp(te), ars, mj)
+        },
+    },
+    RuleDef {
+        id: "tsm-predicted-mass",
+        formula: "TSM = s Rp^3 Teq / (Mp R*^2) 10^(-mJ/5), with the predicted mass standing in for Mp (Kempton et al. 2018, eq. 1)",
+        output: P(Tsm),
+        inputs: &[P(Radius), P(PredictedMass), H(StarRadius), H(Teff), P(ScaledAxis), H(MagnitudeJ)],
+        tier: PREDICTION_TIER + 1,
+        eval: |x| {
+            args!(x, [rp, mp, rs, te, ars, mj]);
+            f::transmission_metric(l(rp), m(mp), l(rs), temp(te), ars, mj)
+        },
+    },
+    RuleDef {
+        id: "esm",
+        formula: "ESM = 4.29e6 B_7.5um(1.10 Teq) / B_7.5um(Teff) (Rp/R*)^2 10^(-mK/5), Teq = Teff sqrt(R*/a) (1/4)^(1/4) (Kempton et al. 2018, eq. 4)",
+        output: P(Esm),
+        inputs: &[P(RadiusRatio), H(Teff), P(ScaledAxis), H(MagnitudeKs)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [k, te, ars, mk]);
+            f::emission_metric(k, temp(te), ars, mk)
+        },
+    },
+    RuleDef {
+        id: "predicted-mass",
+        formula: "M = (R / C)^(1/S) on the Terran or Neptunian branch of R = C M^S (Chen & Kipping 2017)",
+        output: P(PredictedMass),
+        inputs: &[P(Radius)],
+        tier: PREDICTION_TIER,
+        eval: |x| {
+            args!(x, [rp]);
+            f::predicted_mass_earth(radius_earth(rp)).map(|(me, _)| me * crate::constants::M_EARTH)
+        },
+    },
+    RuleDef {
+        id: "predicted-radius",
+        formula: "R = C M^S (Chen & Kipping 2017)",
+        output: P(PredictedRadius),
+        inputs: &[P(Mass)],
+        tier: PREDICTION_TIER,
+        eval: |x| {
+            args!(x, [mp]);
+            f::predicted_radius_earth(mass_earth(mp)).map(|(re, _)| re * crate::constants::R_EARTH)
+        },
+    },
+    RuleDef {
+        id: "predicted-radius-min-mass",
+        formula: "R = C M^S (Chen & Kipping 2017), with the minimum mass standing in for M",
+        output: P(PredictedRadius),
+        inputs: &[P(MinMass)],
+        tier: PREDICTION_TIER + 1,
+        eval: |x| {
+            args!(x, [mp]);
+            f::predicted_radius_earth(mass_earth(mp)).map(|(re, _)| re * crate::constants::R_EARTH)
+        },
+    },
+    RuleDef {
+        id: "predicted-rv-amplitude",
+        formula: "K = (2 pi G / P)^(1/3) Mp sin i / (M* + Mp)^(2/3) / sqrt(1 - e^2), with the predicted mass",
+        output: P(PredictedRvAmplitude),
+        inputs: &[P(PredictedMass), P(Period), H(StarMass), P(Eccentricity), P(Inclination)],
+        tier: PREDICTION_TIER + 1,
+        eval: |x| {
+            args!(x, [mp, p, ms, e, i]);
+            f::rv_semi_amplitude(m(mp), t(p), m(ms), e, sin_of(i)).map(|v| v.get::<meter_per_second>())
         },
     },
 ];

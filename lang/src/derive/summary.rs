@@ -295,6 +295,9 @@ impl<'m> Derivation<'m> {
                 }
             }
         };
+        if key.1 == Qty::HabitableZonePosition {
+            notes.extend(self.habitable_note(key));
+        }
         let form = if form == Form::Asymmetric && ((above - below).abs() <= 1e-3 * above.max(below))
         {
             Form::Symmetric
@@ -377,6 +380,109 @@ impl<'m> Derivation<'m> {
             choice: chosen.map(|c| c.choice),
             sources,
         }
+    }
+}
+
+impl Derivation<'_> {
+    /// Where a planet lies against its star's habitable zones, as probabilities from the
+    /// uncertainties of its insolation and of the zone's edges (their samples in Monte Carlo,
+    /// a normal difference to first order).
+    fn habitable_note(&self, key: Key) -> Option<String> {
+        let host = self.sys.bodies.get(key.0)?.orbits?;
+        let s = &self.entries.get(&(key.0, Qty::Insolation))?.value;
+        let edge = |q: Qty| self.entries.get(&(host, q)).map(|e| &e.value);
+        let pc = |p: f64| match p {
+            p if p <= 0.0 => "0%".to_string(),
+            p if p < 0.005 => "<1%".to_string(),
+            p if p >= 1.0 => "100%".to_string(),
+            p if p > 0.995 => ">99%".to_string(),
+            p => format!("{:.0}%", p * 100.0),
+        };
+        let words = |[hot, within, cold]: [f64; 3]| {
+            format!(
+                "{} within, {} closer in (hotter), {} farther out (colder)",
+                pc(within),
+                pc(hot),
+                pc(cold)
+            )
+        };
+        let conservative = self.zone_shares(
+            s,
+            edge(Qty::HabitableInnerFlux)?,
+            edge(Qty::HabitableOuterFlux)?,
+        )?;
+        let optimistic = match (
+            edge(Qty::HabitableInnerOptimisticFlux),
+            edge(Qty::HabitableOuterOptimisticFlux),
+        ) {
+            (Some(i), Some(o)) => self.zone_shares(s, i, o),
+            _ => None,
+        };
+        // Far from both zones, one phrase says it all.
+        let sure = |[hot, _, cold]: [f64; 3]| {
+            if hot > 0.995 {
+                Some("closer in (hotter)")
+            } else if cold > 0.995 {
+                Some("farther out (colder)")
+            } else {
+                None
+            }
+        };
+        if let (Some(a), Some(b)) = (sure(conservative), optimistic.and_then(sure)) {
+            if a == b {
+                return Some(format!("{a} than both habitable zones (>99%)"));
+            }
+        }
+        let mut text = format!(
+            "conservative habitable zone (runaway to maximum greenhouse): {}",
+            words(conservative)
+        );
+        if let Some(optimistic) = optimistic {
+            text.push_str(&format!(
+                "; optimistic zone (recent Venus to early Mars): {}",
+                words(optimistic)
+            ));
+        }
+        Some(text)
+    }
+
+    /// Probabilities that an insolation lies above the inner edge's, between the edges, and
+    /// below the outer edge's.
+    fn zone_shares(&self, s: &Value, inner: &Value, outer: &Value) -> Option<[f64; 3]> {
+        if let (Some(ss), Some(si), Some(so)) = (&s.samples, &inner.samples, &outer.samples) {
+            let (mut hot, mut cold, mut n) = (0usize, 0usize, 0usize);
+            for ((x, i), o) in ss.iter().zip(si.iter()).zip(so.iter()) {
+                if !(x.is_finite() && i.is_finite() && o.is_finite()) {
+                    continue;
+                }
+                n += 1;
+                if x > i {
+                    hot += 1;
+                } else if x < o {
+                    cold += 1;
+                }
+            }
+            if n == 0 {
+                return None;
+            }
+            let (hot, cold) = (hot as f64 / n as f64, cold as f64 / n as f64);
+            return Some([hot, (1.0 - hot - cold).max(0.0), cold]);
+        }
+        let phi = |z: f64| 0.5 * libm::erfc(-z / std::f64::consts::SQRT_2);
+        let above = |edge: &Value| {
+            let sd = s.sigma_of_difference(edge, &self.inputs);
+            let d = s.nominal - edge.nominal;
+            if sd > 0.0 {
+                phi(d / sd)
+            } else if d > 0.0 {
+                1.0
+            } else {
+                0.0
+            }
+        };
+        let hot = above(inner);
+        let cold = 1.0 - above(outer);
+        Some([hot, (1.0 - hot - cold).max(0.0), cold])
     }
 }
 

@@ -60,7 +60,7 @@ impl<'m> Derivation<'m> {
     pub(super) fn doubts(&self) -> FxHashMap<Key, String> {
         let mut out = FxHashMap::default();
         for (key, entry) in &self.entries {
-            if entry.origin != Origin::Derived
+            if !entry.origin.is_computed()
                 || entry.value.grad.is_empty()
                 || self.bounded.contains_key(key)
             {
@@ -133,7 +133,7 @@ impl<'m> Derivation<'m> {
     pub(super) fn bound_where_limited(&mut self) {
         let mut by_input: BTreeMap<u32, Vec<(Key, f64, f64)>> = BTreeMap::new();
         for (key, entry) in &self.entries {
-            if entry.origin != Origin::Derived || entry.value.grad.is_empty() {
+            if !entry.origin.is_computed() || entry.value.grad.is_empty() {
                 continue;
             }
             let Some(&(id, share)) = entry.value.budget(&self.inputs).first() else {

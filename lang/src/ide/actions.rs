@@ -213,6 +213,7 @@ fn convert_units(a: &Analysis, _src: &str, offset: usize) -> Vec<Action> {
     for (sym, name) in crate::units::units_for(def.dim) {
         if Some(&sym) == written.as_ref()
             || name.starts_with("Julian date") != (def.qty == quantities::Qty::TransitEpoch)
+            || !crate::units::takes_unit(def.display, &sym)
         {
             continue;
         }

@@ -293,14 +293,17 @@ pub fn complete(a: &Analysis, src: &str, offset: usize) -> Vec<Completion> {
         .iter()
         .position(|k| matches!(k, Tok::Eq | Tok::Lt | Tok::Gt));
     if kinds.last() == Some(&Tok::Number) {
-        let dim = match (&block, stmt.first()) {
+        let def = match (&block, stmt.first()) {
             (Block::Body { kind, .. }, Some(first)) if rel == Some(1) => {
-                quantities::find(*kind, text(first)).map(|d| d.dim)
+                quantities::find(*kind, text(first))
             }
             _ => None,
         };
-        let candidates = match dim {
-            Some(d) => crate::units::units_for(d),
+        let candidates: Vec<(String, String)> = match def {
+            Some(d) => crate::units::units_for(d.dim)
+                .into_iter()
+                .filter(|(sym, _)| crate::units::takes_unit(d.display, sym))
+                .collect(),
             None => crate::units::all_units()
                 .iter()
                 .map(|u| (u.symbol.to_string(), u.name.to_string()))

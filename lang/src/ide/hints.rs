@@ -3,7 +3,7 @@
 //! each declaration of a quantity declared several times that is not used, why not.
 
 use super::{open_brace_after, result, shown, Method};
-use crate::derive::{Choice, Origin, QuantityResult, SourceResult};
+use crate::derive::{Choice, QuantityResult, SourceResult};
 use crate::model::Form;
 use crate::quantities::Qty;
 use crate::source::LineIndex;
@@ -25,12 +25,17 @@ const PLANET_KEYS: &[(Qty, &str)] = &[
     (Qty::Radius, "R"),
     (Qty::Density, "ρ"),
     (Qty::Teq, "Teq"),
+    (Qty::PredictedMass, "M predicted"),
+    (Qty::Tsm, "TSM"),
+    (Qty::Esm, "ESM"),
 ];
 
 const STAR_KEYS: &[(Qty, &str)] = &[
     (Qty::Luminosity, "L"),
     (Qty::LogG, "log g"),
     (Qty::StarDensity, "ρ"),
+    (Qty::HabitableInner, "HZ inner"),
+    (Qty::HabitableOuter, "HZ outer"),
 ];
 
 /// All hints whose offset lies in `range` (byte offsets). Every tooltip ends with `method`'s
@@ -71,7 +76,7 @@ pub fn hints(a: &Analysis, src: &str, range: std::ops::Range<usize>, method: &Me
                     continue;
                 }
                 if let Some(q) = result(a, si, bi, *qty) {
-                    if q.origin == Origin::Derived && q.value.is_finite() {
+                    if q.origin.is_computed() && q.value.is_finite() {
                         // A value first order cannot describe was sampled as `syz eval`
                         // samples; it says so itself.
                         let sampled = crate::derive::validity::was_sampled(q);

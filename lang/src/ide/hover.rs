@@ -104,7 +104,11 @@ fn other_units(q: &QuantityResult) -> Vec<String> {
         return out;
     }
     for (sym, name) in crate::units::units_for(def.dim) {
-        if sym == main.symbol || name.starts_with("Julian date") || sym == "dex" {
+        // Logarithms are not scale factors: a fraction is never offered in them.
+        if sym == main.symbol
+            || name.starts_with("Julian date")
+            || !crate::units::takes_unit(def.display, &sym)
+        {
             continue;
         }
         let Some(unit) = crate::derive::DisplayUnit::parse(&sym) else {
@@ -197,7 +201,7 @@ pub fn quantity(a: &Analysis, si: usize, body: &str, qty: Qty, method: &Method) 
             out.push_str(&format!("- [{c}] {}\n", r.text));
         }
     }
-    if q.origin == Origin::Derived && !q.budget.is_empty() {
+    if q.origin.is_computed() && !q.budget.is_empty() {
         out.push_str("\nerror budget (share of the variance):\n");
         for (input, share) in &q.budget {
             out.push_str(&format!("- {input}: {:.1} %\n", share * 100.0));

@@ -152,6 +152,10 @@ pub(super) fn lower_value(
         diags.push(mismatch_for(def, &unit, lit, expr.span));
         return None;
     }
+    if let Some(d) = logarithm_misplaced(def, &unit, expr.span) {
+        diags.push(d);
+        return None;
+    }
     let value = sign * lit.value * unit.factor;
     let (below, above, form) = match (&lit.uncertainty, p.relation) {
         (Uncertainty::None, Relation::Equal) => (0.0, 0.0, Form::Exact),
@@ -382,6 +386,32 @@ pub(crate) fn unknown_unit(span: Span, e: &units::UnknownUnit) -> Diagnostic {
             d.with_help("see the unit table in docs/language.md; to multiply by a value, write '*'")
         }
     }
+}
+
+/// Magnitudes and dex are logarithms of a ratio, not scale factors: they belong to the
+/// quantities shown in them. Any other dimensionless quantity written in them (a transit
+/// depth of `5 mmag`) would be read as a plain number and be wrong.
+fn logarithm_misplaced(def: &QuantityDef, unit: &units::Unit, span: Span) -> Option<Diagnostic> {
+    if units::takes_unit(def.display, &unit.text) {
+        return None;
+    }
+    let written = units::log_family(&unit.text)?;
+    let d = Diagnostic::new(
+        Rule::UnitMismatch,
+        span,
+        format!(
+            "'{}' is a logarithmic unit, and '{}' is not a logarithm",
+            unit.text, def.name
+        ),
+    );
+    Some(if def.qty == Qty::TransitDepth && written == "mag" {
+        d.with_help(
+            "convert the depth first: a dip of D magnitudes is a fractional depth of 1 - 10^(-0.4 D) \
+             (5 mmag is about 0.46 %)",
+        )
+    } else {
+        d.with_help(format!("write '{}' in {}", def.name, unit_suffix(def)))
+    })
 }
 
 fn mismatch_for(

@@ -51,7 +51,7 @@ fn quantity_json<'a>(
             },
         }
     });
-    let budget = if q.origin == Origin::Derived {
+    let budget = if q.origin.is_computed() {
         q.budget
             .iter()
             .map(|(input, share)| json::Share {
@@ -481,7 +481,7 @@ fn improve_line(a: &Analysis, si: usize, key: crate::derive::Key, q: &QuantityRe
     let me = a.key_name(si, key);
     match q.budget.iter().find(|(input, _)| *input != me) {
         Some((top, _)) => format!("  to improve this value, improve {top} first\n"),
-        None if q.origin == Origin::Derived => String::new(),
+        None if q.origin.is_computed() => String::new(),
         None => format!(
             "  {me} is declared: its uncertainty is its own measurement's, and only a better \
              measurement of it improves it\n"

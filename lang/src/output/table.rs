@@ -22,7 +22,7 @@ pub enum Part {
     Below,
     /// Standard uncertainty above the value.
     Above,
-    /// `declared`, `assumed`, `derived`, `default` or `estimated`, with `;upper-limit` or
+    /// `declared`, `assumed`, `derived`, `default`, `estimated` or `predicted`, with `;upper-limit` or
     /// `;lower-limit` for a limit.
     Origin,
     /// The citation ids the value rests on, through any depth of derivation.
@@ -93,7 +93,15 @@ pub fn column_unit(def: &QuantityDef, flavor: Flavor) -> Option<&'static str> {
     let unit = match def.qty {
         Qty::Mass | Qty::MinMass => "Mjup",
         Qty::Radius => "Rjup",
-        Qty::Insolation if flavor == Flavor::VoTable => "W/m^2",
+        Qty::Insolation
+        | Qty::HabitableInnerFlux
+        | Qty::HabitableOuterFlux
+        | Qty::HabitableInnerOptimisticFlux
+        | Qty::HabitableOuterOptimisticFlux
+            if flavor == Flavor::VoTable =>
+        {
+            "W/m^2"
+        }
         _ => def.display,
     };
     // VOUnit has no scaled dimensionless units and no logarithmic ones: a VOTable gives
@@ -396,6 +404,25 @@ pub fn ucd(def: &QuantityDef) -> Option<&'static str> {
         Qty::OrbitalSpeed => "phys.veloc.orbital",
         Qty::Teq => "phys.temperature",
         Qty::Insolation => "phot.flux.bol",
+        Qty::MagnitudeV => "phot.mag;em.opt.V",
+        Qty::MagnitudeJ => "phot.mag;em.IR.J",
+        Qty::MagnitudeH => "phot.mag;em.IR.H",
+        Qty::MagnitudeKs => "phot.mag;em.IR.K",
+        Qty::BolometricMagnitude => "phot.mag.bol",
+        Qty::AbsoluteBolometricMagnitude => "phys.magAbs.bol",
+        Qty::BolometricFlux
+        | Qty::HabitableInnerFlux
+        | Qty::HabitableOuterFlux
+        | Qty::HabitableInnerOptimisticFlux
+        | Qty::HabitableOuterOptimisticFlux => "phot.flux.bol",
+        Qty::HabitableInner
+        | Qty::HabitableOuter
+        | Qty::HabitableInnerOptimistic
+        | Qty::HabitableOuterOptimistic => "pos.distance",
+        Qty::PredictedMass => "phys.mass",
+        Qty::PredictedRadius => "phys.size.radius",
+        Qty::PredictedRvAmplitude => "spect.dopplerVeloc;src.var.amplitude",
+        Qty::ScaleHeight => "phys.size",
         _ => return None,
     })
 }
@@ -433,7 +460,10 @@ pub fn vo_unit(unit: &str) -> Option<std::borrow::Cow<'static, str>> {
     };
     Some(std::borrow::Cow::Borrowed(match unit {
         "Mjup" => return scaled("kg"),
-        "Rjup" => return scaled("m"),
+        "Rjup" | "Rearth" => return scaled("m"),
+        "Mearth" => return scaled("kg"),
+        "km" => "km",
+        "mag" => "mag",
         "Msun" => "solMass",
         "Rsun" => "solRad",
         "Lsun" => "solLum",

@@ -20,6 +20,19 @@ pub const H: f64 = 6.626_070_15e-34;
 /// (sigma = 2 pi^5 k^4 / (15 h^3 c^2); CODATA 2018 quotes 5.670 374 419...e-8).
 pub const SIGMA_SB: f64 = 5.670_374_419e-8;
 
+/// Atomic mass constant m_u = 1 Da, kg (CODATA 2022 recommended value, relative standard
+/// uncertainty 3.1e-10; CODATA 2018 gave 1.660 539 066 60e-27).
+pub const ATOMIC_MASS: f64 = 1.660_539_068_92e-27;
+
+/// Zero point of the absolute bolometric magnitude scale: a star of luminosity `L0` has
+/// `M_bol = 0`, so `M_bol = -2.5 log10(L / L0)` (IAU 2015 Resolution B2, exact by definition).
+pub const L_BOL_ZERO: f64 = 3.012_8e28;
+/// Zero point of the apparent bolometric magnitude scale: `m_bol = -2.5 log10(f / f0)`.
+/// IAU 2015 Resolution B2 defines it as the irradiance of an `M_bol = 0` source at 10 pc,
+/// `f0 = L0 / (4 pi (10 pc)^2)`, and quotes it rounded as 2.518 021 002e-8 W/m^2; it is
+/// computed here from that definition.
+pub const F_BOL_ZERO: f64 = L_BOL_ZERO / (4.0 * std::f64::consts::PI * 100.0 * PARSEC * PARSEC);
+
 /// Nominal solar radius, m (IAU 2015 Resolution B3).
 pub const R_SUN: f64 = 6.957e8;
 /// Nominal total solar irradiance at 1 au, W/m^2 (IAU 2015 Resolution B3).

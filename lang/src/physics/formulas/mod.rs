@@ -15,13 +15,18 @@
 //!   with their two published coefficients;
 //! * `irradiation.rs`: insolation and the planet's equilibrium temperature;
 //! * `stellar.rs`: the Stefan–Boltzmann relations of a star and its `log g`;
+//! * `planning.rs`: distance from parallax, luminosity from bolometric photometry, the
+//!   transmission and emission spectroscopy metrics, scale height, habitable-zone limits and
+//!   masses or radii predicted from a mass–radius relation (its published coefficients are
+//!   there, each with its source);
 //! * `typed.rs` and `domain.rs`: what every formula shares — the typed constants and the input
 //!   checks.
 //!
 //! Every function is pure and works in SI through `uom::si::f64`, so a dimension slip (a mass
 //! where a length belongs, a missing power of a period) fails to compile. Physical constants are
 //! read from [`crate::constants`]; none are repeated here (the only numbers defined in this
-//! folder are two dimensionless formula coefficients in `stability.rs`, each with its source).
+//! folder are dimensionless formula coefficients: two in `stability.rs` and the published fits
+//! in `planning.rs`, each with its source).
 //! The rest of the code calls every formula as `crate::formulas::name`; the modules are private.
 //!
 //! # Conventions
@@ -43,6 +48,7 @@ mod bulk;
 mod domain;
 mod irradiation;
 mod kepler;
+mod planning;
 mod radial_velocity;
 mod stability;
 mod stellar;
@@ -54,6 +60,13 @@ pub use irradiation::{equilibrium_temperature, insolation, insolation_earth_unit
 pub use kepler::{
     mean_orbital_speed, period_from_axis, semi_major_axis, semi_major_axis_transiting,
     total_mass_from_orbit,
+};
+pub use planning::{
+    bolometric_flux_from_magnitude, distance_from_parallax, emission_metric, habitable_distance,
+    habitable_flux, largest_invertible_radius_earth, luminosity_from_absolute_bolometric_magnitude,
+    luminosity_from_flux, mass_radius_branches, planck_ratio, predicted_mass_earth,
+    predicted_radius_earth, scale_height, transmission_metric, tsm_scale_factor, Branch,
+    HabitableEdge, HABITABLE_TEFF_RANGE,
 };
 pub use radial_velocity::{minimum_mass_from_rv, planet_mass_from_rv, rv_semi_amplitude};
 pub use stability::{
