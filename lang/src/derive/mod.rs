@@ -98,9 +98,22 @@ pub enum Origin {
     /// Estimated by the engine from another declaration (a star's spectral type), not
     /// measured; the estimate's basis is in its assumptions.
     Estimated,
+    /// Set on the command line for one run (`--set`), in place of what the file declares.
+    Set,
 }
 
 impl Origin {
+    /// The origin of a declaration: set on the command line, assumed, or declared.
+    pub fn of(decl: &model::Declared) -> Origin {
+        if decl.set.is_some() {
+            Origin::Set
+        } else if decl.assumed {
+            Origin::Assumed
+        } else {
+            Origin::Declared
+        }
+    }
+
     pub fn as_str(self) -> &'static str {
         match self {
             Origin::Declared => "declared",
@@ -108,6 +121,7 @@ impl Origin {
             Origin::Derived => "derived",
             Origin::Default => "default",
             Origin::Estimated => "estimated",
+            Origin::Set => "set",
         }
     }
 }
