@@ -199,10 +199,14 @@ pub fn check(sets: &[WhatIf], outlines: &[Outline]) -> Result<(), String> {
             [one] => *one,
             [] => return Err(not_found(w, outlines)),
             several => {
-                let places: Vec<String> = several
+                let mut places: Vec<String> = several
                     .iter()
+                    .take(4)
                     .map(|(o, _)| format!("\"{}\" ({})", o.system, o.file))
                     .collect();
+                if several.len() > 4 {
+                    places.push(format!("and {} more", several.len() - 4));
+                }
                 let help = if w.system.is_some() {
                     "the same system is read from several files; name one file or folder only"
                         .to_string()
