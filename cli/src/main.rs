@@ -62,7 +62,7 @@ static ALLOCATOR: mimalloc::MiMalloc = mimalloc::MiMalloc;
                   syz explain examples/veyra.syz b.density\n\n\
                   Exit status: 0 done, nothing wrong; 1 a problem in the input (an error found by \
                   check or eval, a file fmt --check would change, a value the file does not let \
-                  explain, plot or ephemeris compute); 2 the command could not do its job (a file \
+                  explain, plot or ephemeris compute, a change diff finds beyond its threshold); 2 the command could not do its job (a file \
                   that cannot be read, an invalid syzygy.toml, a wrong argument, output that cannot \
                   be written).\n\n\
                   The language: docs/language.md; `syz <command> --help` for each command."
@@ -158,7 +158,12 @@ struct EngineArgs {
     /// (repeatable; the file is not changed). VALUE is written as in a file: `--set
     /// 'veyra.radius=0.80 ± 0.02 Rsun'`. Name the system when several have the body:
     /// `--set 'Veyra/b.period=3.5 ± 0.1 d'` (see docs/review.md).
-    #[arg(long, value_name = "[SYSTEM/]BODY.QUANTITY=VALUE", value_parser = parse_set)]
+    #[arg(
+        long,
+        value_name = "[SYSTEM/]BODY.QUANTITY=VALUE",
+        value_parser = parse_set,
+        global = true
+    )]
     set: Vec<WhatIf>,
 }
 

@@ -441,3 +441,43 @@ fn bad_set_values_stop_the_command_naming_the_option() {
         stderr(&o)
     );
 }
+
+/// The CI job of examples/catalogue/README.md runs its `syz diff` line as written, in a clone
+/// whose `origin/main` is the catalogue before a pull request's edit.
+#[test]
+fn the_review_job_of_the_catalogue_readme_runs_as_written() {
+    let readme = std::fs::read_to_string(root().join("examples/catalogue/README.md")).unwrap();
+    let lines: Vec<&str> = readme
+        .lines()
+        .filter(|l| l.contains("syz diff --against"))
+        .collect();
+    assert!(
+        lines.len() >= 2,
+        "the README should show the command and run it in the job"
+    );
+    let dir = scratch("diff-readme");
+    let upstream = dir.join("upstream");
+    copy_catalogue(&upstream.join("examples/catalogue"));
+    std::fs::create_dir_all(&upstream).unwrap();
+    git(&upstream, &["init", "--quiet", "-b", "main"]);
+    git(&upstream, &["add", "."]);
+    git(&upstream, &["commit", "--quiet", "-m", "catalogue"]);
+    git(&dir, &["clone", "--quiet", "upstream", "work"]);
+    let work = dir.join("work");
+    heavier_aubrel(&work.join("examples/catalogue"));
+    for line in lines {
+        let command = line.trim_start().trim_start_matches("syz diff").trim();
+        let command = command.split(" >").next().unwrap();
+        let mut args = vec!["diff"];
+        args.extend(command.split_whitespace());
+        let o = syz_in(&work, &args);
+        assert_eq!(o.status.code(), Some(1), "{line}: {}", stderr(&o));
+        let md = stdout(&o);
+        assert!(md.contains("#### system \"Aubrel\""), "{line}: {md}");
+        assert!(
+            md.contains("| b.semi_major_axis | derived value moved |"),
+            "{md}"
+        );
+        assert!(md.contains("Monte Carlo"), "{md}");
+    }
+}

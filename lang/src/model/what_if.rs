@@ -101,9 +101,14 @@ pub fn lower(w: &WhatIf, kind: BodyKind) -> Result<Declared, String> {
         BodyKind::Star => "star s {".to_string(),
         BodyKind::Planet => "star s {}\n  planet p orbits s {".to_string(),
     };
+    // A limit is written with its relation in place of `=`: `--set 'b.eccentricity=< 0.1'`.
+    let (relation, value) = match w.value.strip_prefix(['<', '>']) {
+        Some(rest) => (w.value.get(..1).unwrap_or("="), rest),
+        None => ("=", w.value.as_str()),
+    };
     let src = format!(
-        "system \"what-if\" {{\n  {body}\n    {} = {}\n  }}\n}}\n",
-        def.name, w.value
+        "system \"what-if\" {{\n  {body}\n    {} {relation} {value}\n  }}\n}}\n",
+        def.name
     );
     let file = FileId(0);
     let parsed = crate::parser::parse(file, &src);
@@ -286,22 +291,27 @@ pub fn apply(model: &mut Model, src: &str, sets: &[WhatIf]) {
     }
 }
 
+/// A value as written, with its alignment spaces collapsed.
+fn words(written: &str) -> String {
+    written.split_whitespace().collect::<Vec<_>>().join(" ")
+}
+
 fn replace(body: &mut Body, src: &str, w: &WhatIf, mut decl: Declared) {
     let qty = decl.qty;
     let name = quantities::def(qty).name;
-    let written: Vec<(Span, &str)> = body
+    let written: Vec<(Span, String)> = body
         .sources(qty)
         .iter()
-        .map(|d| (d.span, src.get(d.value_span.range()).unwrap_or("?")))
+        .map(|d| (d.span, words(src.get(d.value_span.range()).unwrap_or("?"))))
         .collect();
     let instead = match written.as_slice() {
         [] => "not declared in the file".to_string(),
-        [(_, one)] => format!("in place of the file's {}", one.trim()),
+        [(_, one)] => format!("in place of the file's {one}"),
         several => format!(
             "in place of the file's {}",
             several
                 .iter()
-                .map(|(_, v)| v.trim())
+                .map(|(_, v)| v.as_str())
                 .collect::<Vec<_>>()
                 .join(", ")
         ),
@@ -363,6 +373,11 @@ mod tests {
         )
         .unwrap_err();
         assert!(two.contains("not one value"), "{two}");
+        let limit = lower(&parse("b.eccentricity=< 0.1").unwrap(), BodyKind::Planet).unwrap();
+        let Content::Measured(m) = limit.content else {
+            panic!("{limit:?}")
+        };
+        assert_eq!((m.value, m.form), (0.1, crate::model::Form::UpperLimit));
         let t = lower(&parse("s.spectral_type=\"K1V\"").unwrap(), BodyKind::Star).unwrap();
         assert_eq!(t.content, Content::Text("K1V".into()));
     }
