@@ -481,3 +481,50 @@ fn the_review_job_of_the_catalogue_readme_runs_as_written() {
         assert!(md.contains("Monte Carlo"), "{md}");
     }
 }
+
+/// Every field of the diff's JSON is documented in docs/review.md, and the changes of a
+/// system come most significant first.
+#[test]
+fn the_json_fields_are_documented_and_changes_ranked() {
+    let o = run(&[
+        "diff",
+        "--propagation",
+        "linear",
+        "--format",
+        "json",
+        "--all",
+        "examples/veyra.syz",
+        "--set",
+        "veyra.mass=0.85 ± 0.04 Msun",
+    ]);
+    assert_eq!(o.status.code(), Some(1), "{}", stderr(&o));
+    let v = json(&o);
+    fn keys(v: &serde_json::Value, out: &mut std::collections::BTreeSet<String>) {
+        match v {
+            serde_json::Value::Object(m) => {
+                for (k, x) in m {
+                    out.insert(k.clone());
+                    keys(x, out);
+                }
+            }
+            serde_json::Value::Array(a) => a.iter().for_each(|x| keys(x, out)),
+            _ => {}
+        }
+    }
+    let mut all = std::collections::BTreeSet::new();
+    keys(&v, &mut all);
+    let doc = std::fs::read_to_string(root().join("docs/review.md")).unwrap();
+    let missing: Vec<&String> = all
+        .iter()
+        .filter(|k| !doc.contains(&format!("`{k}`")))
+        .collect();
+    assert!(missing.is_empty(), "docs/review.md lacks {missing:?}");
+    let weights: Vec<f64> = v["systems"][0]["changes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|c| c["shift"].as_f64().map_or(f64::INFINITY, f64::abs))
+        .collect();
+    assert!(weights.len() > 5, "{weights:?}");
+    assert!(weights.windows(2).all(|w| w[0] >= w[1]), "{weights:?}");
+}

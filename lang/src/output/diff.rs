@@ -427,7 +427,7 @@ pub fn compare(old: &[SystemSnapshot], new: &[SystemSnapshot], options: DiffOpti
             if n.name.is_none() {
                 changes.extend(diagnostic_changes(&[], &n.diagnostics));
             }
-            found += 1;
+            found += changes.len().max(1);
             systems.push(SystemDiff {
                 name: n.name.clone(),
                 old_file: None,
@@ -463,12 +463,12 @@ pub fn compare(old: &[SystemSnapshot], new: &[SystemSnapshot], options: DiffOpti
         if new_keys.contains(key) {
             continue;
         }
-        found += 1;
         let changes = if o.name.is_none() {
             diagnostic_changes(&o.diagnostics, &[])
         } else {
             Vec::new()
         };
+        found += changes.len().max(1);
         systems.push(SystemDiff {
             name: o.name.clone(),
             old_file: Some(o.file.clone()),
@@ -481,13 +481,7 @@ pub fn compare(old: &[SystemSnapshot], new: &[SystemSnapshot], options: DiffOpti
             changes,
         });
     }
-    let listed: usize = systems
-        .iter()
-        .map(|s| match s.status {
-            SystemStatus::Changed => s.changes.len(),
-            _ => 1,
-        })
-        .sum();
+    let listed: usize = systems.iter().map(|s| s.changes.len().max(1)).sum();
     systems.sort_by(|a, b| b.weight().total_cmp(&a.weight()));
     Diff {
         options,
