@@ -35,6 +35,16 @@ fn json(o: &Output) -> serde_json::Value {
     serde_json::from_slice(&o.stdout).unwrap_or_else(|e| panic!("{e}: {}", stderr(o)))
 }
 
+/// `syz diff --propagation linear --format json` with `args`, which must exit with status 1
+/// (something moved); its document.
+fn diff_json(args: &[&str]) -> serde_json::Value {
+    let mut all = vec!["diff", "--propagation", "linear", "--format", "json"];
+    all.extend_from_slice(args);
+    let o = run(&all);
+    assert_eq!(o.status.code(), Some(1), "{args:?}: {}", stderr(&o));
+    json(&o)
+}
+
 /// Every change of a diff document, as (system, kind, body.quantity, shift).
 fn changes(v: &serde_json::Value) -> Vec<(String, String, String, Option<f64>)> {
     let mut out = Vec::new();
@@ -74,9 +84,7 @@ fn one_stellar_mass_moves_that_systems_derived_values_in_every_format() {
         ])
     };
 
-    let o = args("json");
-    assert_eq!(o.status.code(), Some(1), "{}", stderr(&o));
-    let v = json(&o);
+    let v = diff_json(&[path(&old), path(&new)]);
     let systems: Vec<&str> = v["systems"]
         .as_array()
         .unwrap()
@@ -134,18 +142,7 @@ fn one_stellar_mass_moves_that_systems_derived_values_in_every_format() {
     );
 
     // --all lists the moves within the threshold too (the planet's mass moves < 1 sigma).
-    let o = run(&[
-        "diff",
-        "--propagation",
-        "linear",
-        "--format",
-        "json",
-        "--all",
-        path(&old),
-        path(&new),
-    ]);
-    assert_eq!(o.status.code(), Some(1));
-    let all = changes(&json(&o));
+    let all = changes(&diff_json(&["--all", path(&old), path(&new)]));
     assert!(all.len() > c.len(), "{} vs {}", all.len(), c.len());
     assert!(
         all.iter()
@@ -178,17 +175,7 @@ fn systems_and_declared_values_added_or_removed_are_listed() {
     let text = std::fs::read_to_string(&file).unwrap();
     let text = text.replace("    impact        = 0.28 ± 0.05\n", "");
     std::fs::write(&file, text).unwrap();
-    let o = run(&[
-        "diff",
-        "--propagation",
-        "linear",
-        "--format",
-        "json",
-        path(&old),
-        path(&new),
-    ]);
-    assert_eq!(o.status.code(), Some(1), "{}", stderr(&o));
-    let v = json(&o);
+    let v = diff_json(&[path(&old), path(&new)]);
     let lunsk = v["systems"]
         .as_array()
         .unwrap()
@@ -377,18 +364,11 @@ fn set_changes_evals_numbers_and_says_so() {
 
 #[test]
 fn set_on_diff_shows_the_consequences_of_a_what_if() {
-    let o = run(&[
-        "diff",
-        "--propagation",
-        "linear",
-        "--format",
-        "json",
+    let v = diff_json(&[
         "examples/catalogue/",
         "--set",
         "Aubrel/aubrel.mass=0.80 ± 0.03 Msun",
     ]);
-    assert_eq!(o.status.code(), Some(1), "{}", stderr(&o));
-    let v = json(&o);
     assert_eq!(v["set"][0], "Aubrel/aubrel.mass=0.80 ± 0.03 Msun");
     let c = changes(&v);
     assert!(c.iter().all(|c| c.0 == "Aubrel"), "{c:?}");
@@ -486,19 +466,12 @@ fn the_review_job_of_the_catalogue_readme_runs_as_written() {
 /// system come most significant first.
 #[test]
 fn the_json_fields_are_documented_and_changes_ranked() {
-    let o = run(&[
-        "diff",
-        "--propagation",
-        "linear",
-        "--format",
-        "json",
+    let v = diff_json(&[
         "--all",
         "examples/veyra.syz",
         "--set",
         "veyra.mass=0.85 ± 0.04 Msun",
     ]);
-    assert_eq!(o.status.code(), Some(1), "{}", stderr(&o));
-    let v = json(&o);
     fn keys(v: &serde_json::Value, out: &mut std::collections::BTreeSet<String>) {
         match v {
             serde_json::Value::Object(m) => {
