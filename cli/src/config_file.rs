@@ -33,7 +33,28 @@ pub fn resolve(db: &MemoryDb, flags: &Layer) -> Result<Vec<Settings>, String> {
         };
         out.push(settings);
     }
+    check_what_if(db, &flags.what_if)?;
     Ok(out)
+}
+
+/// Every `--set` must name one body of the files read and give it a value it takes: checked
+/// here, before anything is analysed, so that a misspelt one stops the command (status 2)
+/// instead of being left out.
+fn check_what_if(db: &MemoryDb, sets: &[syzygy::what_if::WhatIf]) -> Result<(), String> {
+    if sets.is_empty() {
+        return Ok(());
+    }
+    let mut outlines = Vec::new();
+    for f in db.files() {
+        for part in syzygy::parts::Parts::new(f, db.text(f), syzygy::parts::PART_BYTES) {
+            outlines.extend(syzygy::what_if::Outline::of(&part.model, db.name(f)));
+        }
+    }
+    for w in sets {
+        syzygy::what_if::check(std::slice::from_ref(w), &outlines)
+            .map_err(|e| format!("--set '{}': {e}", w.written))?;
+    }
+    syzygy::what_if::check(sets, &outlines).map_err(|e| format!("--set: {e}"))
 }
 
 /// The settings layer of one project file.

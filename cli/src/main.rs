@@ -18,11 +18,13 @@ macro_rules! eprintln {
 mod check_cmd;
 mod config_file;
 mod csv_out;
+mod diff_cmd;
 mod ephemeris_cmd;
 mod eval_cmd;
 mod explain_cmd;
 mod files;
 mod fmt_cmd;
+mod git;
 mod import_cmd;
 mod json_out;
 mod output;
@@ -37,6 +39,7 @@ use std::path::PathBuf;
 use std::process::ExitCode;
 use syzygy::diagnostic::{Rule, Severity, SeverityOverride};
 use syzygy::settings::Layer;
+use syzygy::what_if::WhatIf;
 use syzygy::Propagation;
 
 // The derivation engine makes many small allocations per system; mimalloc serves them
@@ -59,7 +62,7 @@ static ALLOCATOR: mimalloc::MiMalloc = mimalloc::MiMalloc;
                   syz explain examples/veyra.syz b.density\n\n\
                   Exit status: 0 done, nothing wrong; 1 a problem in the input (an error found by \
                   check or eval, a file fmt --check would change, a value the file does not let \
-                  explain, plot or ephemeris compute); 2 the command could not do its job (a file \
+                  explain, plot or ephemeris compute, a change diff finds beyond its threshold); 2 the command could not do its job (a file \
                   that cannot be read, an invalid syzygy.toml, a wrong argument, output that cannot \
                   be written).\n\n\
                   The language: docs/language.md; `syz <command> --help` for each command."
@@ -86,6 +89,16 @@ pub(crate) enum EvalFormat {
     /// The same table as an IVOA VOTable 1.4 document, with units and UCDs (see
     /// docs/table-output.md).
     Votable,
+}
+
+#[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub(crate) enum DiffFormat {
+    /// Aligned text for people.
+    Text,
+    /// The diff's JSON contract (see docs/review.md).
+    Json,
+    /// A review comment: one table per system, most significant first.
+    Markdown,
 }
 
 #[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
@@ -141,6 +154,21 @@ struct EngineArgs {
     /// Do not report this rule (repeatable).
     #[arg(long, value_name = "RULE", value_parser = parse_rule)]
     allow: Vec<Rule>,
+    /// For this run only, use VALUE for a body's quantity in place of what the file declares
+    /// (repeatable; the file is not changed). VALUE is written as in a file: `--set
+    /// 'veyra.radius=0.80 ± 0.02 Rsun'`. Name the system when several have the body:
+    /// `--set 'Veyra/b.period=3.5 ± 0.1 d'` (see docs/review.md).
+    #[arg(
+        long,
+        value_name = "[SYSTEM/]BODY.QUANTITY=VALUE",
+        value_parser = parse_set,
+        global = true
+    )]
+    set: Vec<WhatIf>,
+}
+
+fn parse_set(s: &str) -> Result<WhatIf, String> {
+    syzygy::what_if::parse(s)
 }
 
 fn parse_sigma(s: &str) -> Result<f64, String> {
@@ -173,6 +201,7 @@ impl EngineArgs {
             consistency_error_sigma: self.error_sigma,
             source_choice: None,
             overrides: self.overrides(),
+            what_if: self.set.clone(),
         }
     }
 
@@ -233,6 +262,32 @@ enum Command {
         /// The system, when several systems of the file have a body of that name.
         #[arg(long)]
         system: Option<String>,
+        #[command(flatten)]
+        engine: EngineArgs,
+        #[command(flatten)]
+        read: files::ReadArgs,
+    },
+    /// Compare two versions of a catalogue: declared values, derived values that moved
+    /// (in combined standard deviations), composition classes and diagnostics.
+    #[command(
+        after_help = "Exit status: 0 nothing moved beyond the threshold; 1 something did (or a system, body or value appeared or went away); 2 a file or revision could not be read, or a wrong argument.\n\nBoth sides are derived with the new side's settings (syzygy.toml and the flags, the same seed), so an unchanged file shows no change. --set applies to the new side only.\n\nExample:\n  syz diff old-catalogue/ catalogue/\n  syz diff --against origin/main --format markdown catalogue/\n  syz diff examples/veyra.syz --set 'veyra.mass=0.85 ± 0.04 Msun'\n\nSee docs/review.md."
+    )]
+    Diff {
+        /// OLD and NEW (two files or two folders); with --against, the paths to compare with
+        /// the revision; one path with --set compares it with itself under the values set.
+        #[arg(required = true, value_name = "PATH")]
+        paths: Vec<PathBuf>,
+        /// Compare the paths in the working tree with the same paths at this git revision.
+        #[arg(long, value_name = "REV", allow_hyphen_values = true)]
+        against: Option<String>,
+        #[arg(long, value_enum, default_value = "text")]
+        format: DiffFormat,
+        /// Moves of at least this many combined standard deviations are listed.
+        #[arg(long, value_name = "SIGMA", default_value = "1", value_parser = parse_sigma)]
+        threshold: f64,
+        /// List every change, however small.
+        #[arg(long)]
+        all: bool,
         #[command(flatten)]
         engine: EngineArgs,
         #[command(flatten)]
@@ -323,6 +378,24 @@ fn main() -> ExitCode {
             engine,
             read,
         } => explain_cmd::run(&file, &target, system.as_deref(), &engine.flags(), read),
+        Command::Diff {
+            paths,
+            against,
+            format,
+            threshold,
+            all,
+            engine,
+            read,
+        } => diff_cmd::run(
+            &diff_cmd::Request {
+                paths: &paths,
+                against: against.as_deref(),
+                format,
+                options: syzygy::diff::DiffOptions { threshold, all },
+            },
+            &engine.flags(),
+            read,
+        ),
         Command::Fmt {
             paths,
             write,

@@ -107,9 +107,19 @@ pub fn run(plot: &Plot, flags: &Layer, read: files::ReadArgs) -> u8 {
                 )?)
             }),
     };
-    match result {
+    let set: Vec<&str> = flags.what_if.iter().map(|w| w.written.as_str()).collect();
+    let set = (!set.is_empty()).then(|| {
+        format!(
+            "drawn with values set on the command line (--set), not the files': {}",
+            set.join("; ")
+        )
+    });
+    match result.map(|svg| with_description(svg, set.as_deref())) {
         Ok(svg) => match std::fs::write(out, svg) {
             Ok(()) => {
+                if let Some(words) = &set {
+                    eprintln!("note: {words}");
+                }
                 eprintln!("wrote {}", out.display());
                 0
             }
@@ -123,6 +133,24 @@ pub fn run(plot: &Plot, flags: &Layer, read: files::ReadArgs) -> u8 {
             stop.code
         }
     }
+}
+
+/// The drawing with `words` (if any) as its description, first inside the `<svg>` element,
+/// so that a what-if drawing says so wherever it goes.
+fn with_description(svg: String, words: Option<&str>) -> String {
+    let Some(words) = words else { return svg };
+    let Some(end) = svg
+        .find("<svg")
+        .and_then(|s| svg.get(s..)?.find('>').map(|e| s + e + 1))
+    else {
+        return svg;
+    };
+    let escaped = words
+        .replace('&', "&amp;")
+        .replace('<', "&lt;")
+        .replace('>', "&gt;");
+    let (head, tail) = svg.split_at(end);
+    format!("{head}\n<desc>{escaped}</desc>{tail}")
 }
 
 /// Why no plot was drawn, with the exit status: 2 for settings that stop every command (a

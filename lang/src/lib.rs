@@ -33,7 +33,8 @@ pub mod text;
 pub mod units;
 
 // Short paths kept for every module that moved into a folder.
-pub use output::{ephemeris, plots, report, rule_docs, shown, table};
+pub use model::what_if;
+pub use output::{diff, ephemeris, plots, report, rule_docs, shown, table};
 pub use physics::{
     composition, constants, fastmath, formulas, lightcurve, orbit, solar_system, spectral, time,
 };
@@ -90,7 +91,8 @@ pub fn analyze(file: source::FileId, src: &str, settings: &Settings) -> Analysis
 /// [`analyze`] for one part of a file read in parts ([`parts::Parts`]): what a file too
 /// large to hold whole is analysed with, one part after another. The analysis holds the
 /// part's systems, and the diagnostics whose place is in the part.
-pub fn analyze_part(src: &str, part: parts::Part, settings: &Settings) -> Analysis {
+pub fn analyze_part(src: &str, mut part: parts::Part, settings: &Settings) -> Analysis {
+    what_if::apply(&mut part.model, src, &settings.what_if);
     let lines = derive::Lines::new(src, &part.region, &part.model.systems);
     let outputs = part
         .model

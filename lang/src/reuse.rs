@@ -93,7 +93,8 @@ pub fn analyze_reusing(
     previous: Option<&Reusable>,
 ) -> (Analysis, Reusable) {
     let options = &settings.options;
-    let part = crate::parse_and_lower(file, src);
+    let mut part = crate::parse_and_lower(file, src);
+    crate::what_if::apply(&mut part.model, src, &settings.what_if);
     let model = &part.model;
     let lines = crate::derive::Lines::new(src, &part.region, &model.systems);
     let mut candidates: HashMap<&str, Vec<&Kept>> = HashMap::new();
@@ -347,6 +348,7 @@ impl Spans for Declared {
             citations,
             written_unit: _,
             timestamp: _,
+            set: _,
         } = self;
         f(name_span);
         f(span);

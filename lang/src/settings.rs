@@ -74,6 +74,8 @@ pub struct Layer {
     pub consistency_error_sigma: Option<f64>,
     /// Which of several declarations of one quantity derivations use (`[sources] choice`).
     pub source_choice: Option<SourceChoice>,
+    /// Values set for one run in place of the files' (`--set`; never from a project file).
+    pub what_if: Vec<crate::what_if::WhatIf>,
 }
 
 impl Layer {
@@ -160,6 +162,7 @@ fn parse(text: &str) -> Result<Layer, String> {
         seed: d.seed,
         consistency_sigma: d.consistency_sigma,
         consistency_error_sigma: d.consistency_error_sigma,
+        what_if: Vec::new(),
     })
 }
 
@@ -169,6 +172,8 @@ pub struct Settings {
     pub options: Options,
     /// Severity overrides in order of increasing precedence (project file first, then flags).
     pub overrides: Vec<SeverityOverride>,
+    /// Values set for this run in place of the files' (`--set`; see [`crate::what_if`]).
+    pub what_if: Vec<crate::what_if::WhatIf>,
 }
 
 impl From<Options> for Settings {
@@ -176,6 +181,7 @@ impl From<Options> for Settings {
         Settings {
             options,
             overrides: Vec::new(),
+            what_if: Vec::new(),
         }
     }
 }
@@ -220,6 +226,7 @@ impl Settings {
             o.source_choice = c;
         }
         self.overrides.extend(layer.overrides.iter().copied());
+        self.what_if.extend(layer.what_if.iter().cloned());
         self
     }
 

@@ -148,12 +148,12 @@ impl<'m> Derivation<'m> {
 
     pub(super) fn eval_declared_expr(&mut self, key: Key) -> Result<(), Pending> {
         let e = self.declared_expr(key).ok_or(Pending::Failed)?;
-        let assumed = self
+        let origin = self
             .sys
             .bodies
             .get(key.0)
             .and_then(|b| b.get(key.1))
-            .is_some_and(|d| d.assumed);
+            .map_or(Origin::Declared, Origin::of);
         let mut refs = Vec::new();
         self.naming = (self.key_name(key), 0);
         let v = match self.eval(e, &mut refs) {
@@ -193,11 +193,7 @@ impl<'m> Derivation<'m> {
             key,
             Entry {
                 value: v,
-                origin: if assumed {
-                    Origin::Assumed
-                } else {
-                    Origin::Declared
-                },
+                origin,
                 rule: None,
                 inputs: refs,
                 deps,

@@ -122,12 +122,11 @@ impl<'m> Derivation<'m> {
                         input.limit = Some((m.form, m.value));
                     }
                 }
-                let origin = if used.assumed {
-                    Origin::Assumed
-                } else {
-                    Origin::Declared
-                };
+                let origin = Origin::of(used);
                 let mut assumptions: SortedSet<Arc<str>> = SortedSet::new();
+                if let Some(words) = &used.set {
+                    assumptions.insert(Arc::from(words.as_str()));
+                }
                 if let Some(words) = choice_words {
                     assumptions.insert(Arc::from(words));
                 }

@@ -101,12 +101,25 @@ pub enum Origin {
     /// Predicted from a population relation (a mass from a radius), not from this planet's
     /// measurements; it feeds no derivation but those meant for predictions.
     Predicted,
+    /// Set on the command line for one run (`--set`), in place of what the file declares.
+    Set,
 }
 
 impl Origin {
     /// Computed by a rule: derived from measurements, or predicted from a relation.
     pub fn is_computed(self) -> bool {
         matches!(self, Origin::Derived | Origin::Predicted)
+    }
+
+    /// The origin of a declaration: set on the command line, assumed, or declared.
+    pub fn of(decl: &model::Declared) -> Origin {
+        if decl.set.is_some() {
+            Origin::Set
+        } else if decl.assumed {
+            Origin::Assumed
+        } else {
+            Origin::Declared
+        }
     }
 
     pub fn as_str(self) -> &'static str {
@@ -117,6 +130,7 @@ impl Origin {
             Origin::Default => "default",
             Origin::Estimated => "estimated",
             Origin::Predicted => "predicted",
+            Origin::Set => "set",
         }
     }
 }

@@ -114,11 +114,7 @@ impl<'m> Derivation<'m> {
                     if let Content::Text(t) = &d.content {
                         quantities.push(QuantityResult {
                             qty: def.qty,
-                            origin: if d.assumed {
-                                Origin::Assumed
-                            } else {
-                                Origin::Declared
-                            },
+                            origin: Origin::of(d),
                             value: f64::NAN,
                             below: 0.0,
                             above: 0.0,
@@ -131,7 +127,7 @@ impl<'m> Derivation<'m> {
                             cited: sorted_ids(&d.citations),
                             span: Some(d.span),
                             budget: Vec::new(),
-                            assumptions: Vec::new(),
+                            assumptions: d.set.iter().cloned().collect(),
                             notes: Vec::new(),
                             unit: None,
                             sources: Vec::new(),

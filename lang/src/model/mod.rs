@@ -8,6 +8,7 @@
 
 mod resolve;
 mod value;
+pub mod what_if;
 
 use crate::ast::{self, BodyKind};
 use crate::diagnostic::{Diagnostic, Rule};
@@ -79,6 +80,9 @@ pub struct Declared {
     pub written_unit: Option<String>,
     /// The timestamp as written, for a time given as ISO 8601 text.
     pub timestamp: Option<String>,
+    /// For a value set on the command line in place of the file's (`--set`, see
+    /// [`what_if`]): the sentence that says so.
+    pub set: Option<String>,
 }
 
 #[derive(Debug, Clone, PartialEq)]
@@ -527,6 +531,7 @@ fn lower_props(
             citations,
             written_unit,
             timestamp,
+            set: None,
         };
         let Some(first) = out.iter().find(|d| d.qty == def.qty) else {
             out.push(decl);

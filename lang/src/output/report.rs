@@ -293,6 +293,7 @@ pub fn provenance_text(a: &Analysis, sys: usize, q: &QuantityResult) -> String {
         Origin::Declared | Origin::Assumed if q.rule.is_none() => {
             format!("{}{cites}", q.origin.as_str())
         }
+        Origin::Set if q.rule.is_none() => format!("{}{cites}", crate::what_if::SET_WORDS),
         Origin::Default => "default".to_string(),
         Origin::Estimated => format!("estimated from the spectral type{cites}"),
         _ => {

@@ -555,6 +555,7 @@ pub fn source_rows<'a>(a: &'a Analysis, line: &dyn Fn(u32) -> usize) -> Vec<Sour
                 let origin = match q.origin {
                     Origin::Declared => "declared",
                     Origin::Assumed => "assumed",
+                    Origin::Set => "set",
                     _ => continue,
                 };
                 let def = quantities::def(q.qty);

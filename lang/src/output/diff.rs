@@ -1,0 +1,674 @@
+//! What changed between two versions of a catalogue (`syz diff`): each analysis reduced to a
+//! [`Snapshot`] of what a reviewer reads (declared and derived values, composition classes,
+//! diagnostics), then two sides' snapshots compared system by system and body by body.
+//!
+//! A value that moved is measured in units of the combined uncertainty of its two versions,
+//! the side of each facing the other: for a move up, `(new - old) / sqrt(old.above² +
+//! new.below²)`; for a move down, `(new - old) / sqrt(old.below² + new.above²)` (see
+//! [`shift`]). A change with no uncertainty to measure it by (exact values, limits, text, a
+//! value on one side only) has no shift and always counts as significant.
+//!
+//! Pure: the front end reads both sides, analyses them under the same settings and hands
+//! the snapshots here. The emitters for people (text, Markdown) and the JSON contract are in
+//! [`text`], [`markdown`] and [`json`].
+
+pub mod json;
+pub mod markdown;
+pub mod text;
+
+use crate::derive::{Origin, QuantityResult};
+use crate::diagnostic::Severity;
+use crate::model::Form;
+use crate::quantities;
+use crate::Analysis;
+
+/// One value as a comparison needs it.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ValueSnapshot {
+    /// The quantity's name in the language (`semi_major_axis`).
+    pub name: &'static str,
+    pub origin: Origin,
+    /// SI value and uncertainty below and above (zero for exact values and limits); NaN for text.
+    pub value: f64,
+    pub below: f64,
+    pub above: f64,
+    pub form: Form,
+    /// The value as people read it, in its own display unit (`0.0552 ± 0.0007 au`, `"G5V"`).
+    pub shown: String,
+    /// The unit differences are shown in, and its SI factor.
+    pub unit: String,
+    pub factor: f64,
+    /// The references cited on the declaration, and every declaration when there are several.
+    pub citations: Vec<String>,
+    pub sources: Vec<String>,
+    /// What was assumed on the way.
+    pub assumptions: Vec<String>,
+}
+
+impl ValueSnapshot {
+    fn new(q: &QuantityResult) -> ValueSnapshot {
+        let unit = q.shown_unit();
+        ValueSnapshot {
+            name: quantities::def(q.qty).name,
+            origin: q.origin,
+            value: q.value,
+            below: q.below,
+            above: q.above,
+            form: q.form,
+            shown: crate::report::value_text(q),
+            unit: unit.suffix().to_string(),
+            factor: unit.factor,
+            citations: q.citations.clone(),
+            sources: crate::report::sources_text(q),
+            assumptions: q.assumptions.clone(),
+        }
+    }
+
+    /// Written by the user (in the file, or set on the command line), not derived.
+    pub fn is_declared(&self) -> bool {
+        matches!(
+            self.origin,
+            Origin::Declared | Origin::Assumed | Origin::Set
+        )
+    }
+}
+
+/// A diagnostic as a comparison needs it: lines move with every edit, so they are left out.
+#[derive(Debug, Clone, PartialEq, Eq, PartialOrd, Ord)]
+pub struct DiagnosticSnapshot {
+    pub severity: Severity,
+    pub rule: &'static str,
+    pub message: String,
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct BodySnapshot {
+    pub id: String,
+    pub kind: &'static str,
+    pub values: Vec<ValueSnapshot>,
+    /// The most probable composition class of a planet.
+    pub class: Option<&'static str>,
+}
+
+/// One system of one side, or (with `name` `None`) what a file says outside any system.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SystemSnapshot {
+    pub name: Option<String>,
+    /// The file, as the front end names it for this comparison (relative to the folder).
+    pub file: String,
+    pub bodies: Vec<BodySnapshot>,
+    pub diagnostics: Vec<DiagnosticSnapshot>,
+}
+
+/// Reduce an analysis (of a whole file or a part of one) to what [`compare`] reads. `file`
+/// is the name the file goes by in the comparison.
+pub fn snapshot(a: &Analysis, file: &str) -> Vec<SystemSnapshot> {
+    let mut out: Vec<SystemSnapshot> = a
+        .model
+        .systems
+        .iter()
+        .zip(&a.results)
+        .enumerate()
+        .map(|(si, (sys, res))| SystemSnapshot {
+            name: Some(sys.name.clone()),
+            file: file.to_string(),
+            bodies: sys
+                .bodies
+                .iter()
+                .zip(&res.bodies)
+                .map(|(b, r)| BodySnapshot {
+                    id: b.id.clone(),
+                    kind: b.kind.as_str(),
+                    values: r.quantities.iter().map(ValueSnapshot::new).collect(),
+                    class: a
+                        .composition
+                        .get(&(si, b.id.clone()))
+                        .and_then(|c| c.json.most_probable),
+                })
+                .collect(),
+            diagnostics: Vec::new(),
+        })
+        .collect();
+    let mut outside = Vec::new();
+    for d in &a.diagnostics {
+        let snap = DiagnosticSnapshot {
+            severity: d.severity,
+            rule: d.rule.id(),
+            message: d.message.clone(),
+        };
+        let at = a
+            .model
+            .systems
+            .iter()
+            .position(|s| s.span.start <= d.span.start && d.span.end <= s.span.end);
+        match at.and_then(|i| out.get_mut(i)) {
+            Some(s) => s.diagnostics.push(snap),
+            None => outside.push(snap),
+        }
+    }
+    if !outside.is_empty() {
+        out.push(SystemSnapshot {
+            name: None,
+            file: file.to_string(),
+            bodies: Vec::new(),
+            diagnostics: outside,
+        });
+    }
+    out
+}
+
+/// How far a value moved, in units of the combined uncertainty of its two versions: the old
+/// version's uncertainty on the side it moved towards and the new one's on the side it came
+/// from, added in quadrature. Zero when the values are equal; `None` when they differ and
+/// neither has an uncertainty on those sides (exact values, limits, text).
+pub fn shift(old: (f64, f64, f64), new: (f64, f64, f64)) -> Option<f64> {
+    let (ov, nv) = (old.0, new.0);
+    if same_number(ov, nv) {
+        return Some(0.0);
+    }
+    let d = nv - ov;
+    let sigma = combined_sigma(old, new);
+    (sigma > 0.0 && sigma.is_finite() && d.is_finite()).then(|| d / sigma)
+}
+
+/// The combined uncertainty a move is measured in (see [`shift`]): the old version's
+/// uncertainty on the side it moved towards and the new one's on the side it came from.
+pub fn combined_sigma(old: (f64, f64, f64), new: (f64, f64, f64)) -> f64 {
+    if new.0 > old.0 {
+        old.2.hypot(new.1)
+    } else {
+        old.1.hypot(new.2)
+    }
+}
+
+/// Equal, or so close that only rounding in a unit conversion tells them apart.
+fn same_number(a: f64, b: f64) -> bool {
+    a == b || (a.is_nan() && b.is_nan()) || (a - b).abs() <= 1e-12 * a.abs().max(b.abs())
+}
+
+/// What kind of change a line of the comparison reports.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum ChangeKind {
+    BodyAdded,
+    BodyRemoved,
+    /// A value written by the user on the new side only (it may have been derived before).
+    DeclaredAdded,
+    /// A value written by the user on the old side only (it may be derived now).
+    DeclaredRemoved,
+    DeclaredChanged,
+    /// A derived value that moved.
+    DerivedChanged,
+    /// A value derived on the new side only.
+    DerivedAdded,
+    /// A value derived on the old side only.
+    DerivedRemoved,
+    ClassChanged,
+    DiagnosticAdded,
+    DiagnosticRemoved,
+}
+
+impl ChangeKind {
+    pub fn as_str(self) -> &'static str {
+        match self {
+            ChangeKind::BodyAdded => "body-added",
+            ChangeKind::BodyRemoved => "body-removed",
+            ChangeKind::DeclaredAdded => "declared-added",
+            ChangeKind::DeclaredRemoved => "declared-removed",
+            ChangeKind::DeclaredChanged => "declared-changed",
+            ChangeKind::DerivedChanged => "derived-changed",
+            ChangeKind::DerivedAdded => "derived-added",
+            ChangeKind::DerivedRemoved => "derived-removed",
+            ChangeKind::ClassChanged => "class-changed",
+            ChangeKind::DiagnosticAdded => "diagnostic-added",
+            ChangeKind::DiagnosticRemoved => "diagnostic-removed",
+        }
+    }
+
+    /// In a few words, for people.
+    pub fn words(self) -> &'static str {
+        match self {
+            ChangeKind::BodyAdded => "body added",
+            ChangeKind::BodyRemoved => "body removed",
+            ChangeKind::DeclaredAdded => "declared value added",
+            ChangeKind::DeclaredRemoved => "declared value removed",
+            ChangeKind::DeclaredChanged => "declared value changed",
+            ChangeKind::DerivedChanged => "derived value moved",
+            ChangeKind::DerivedAdded => "now derived",
+            ChangeKind::DerivedRemoved => "no longer derived",
+            ChangeKind::ClassChanged => "composition class changed",
+            ChangeKind::DiagnosticAdded => "diagnostic appeared",
+            ChangeKind::DiagnosticRemoved => "diagnostic went away",
+        }
+    }
+}
+
+/// One change of one body (or of the system, for diagnostics).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Change {
+    pub kind: ChangeKind,
+    pub body: Option<String>,
+    /// The quantity, for a value; `None` for a body, class or diagnostic.
+    pub quantity: Option<&'static str>,
+    /// What it was and what it is, as people read them.
+    pub old: Option<String>,
+    pub new: Option<String>,
+    /// New minus old, in `unit`, when both are numbers.
+    pub difference: Option<f64>,
+    /// The combined uncertainty the shift is measured in, in `unit`.
+    pub sigma: Option<f64>,
+    pub unit: String,
+    /// The move in combined standard deviations (see [`shift`]); `None` when it cannot be
+    /// measured that way.
+    pub shift: Option<f64>,
+    /// Beyond the threshold (always, for a change that has no shift).
+    pub significant: bool,
+    /// Values set on the command line (`--set`) on either side: the sentences that say so.
+    pub notes: Vec<String>,
+}
+
+impl Change {
+    fn plain(
+        kind: ChangeKind,
+        body: Option<&str>,
+        old: Option<String>,
+        new: Option<String>,
+    ) -> Change {
+        Change {
+            kind,
+            body: body.map(str::to_string),
+            quantity: None,
+            old,
+            new,
+            difference: None,
+            sigma: None,
+            unit: String::new(),
+            shift: None,
+            significant: true,
+            notes: Vec::new(),
+        }
+    }
+
+    /// How strongly it ranks: the size of its shift, or infinity for one that has none.
+    pub fn weight(&self) -> f64 {
+        self.shift.map_or(f64::INFINITY, f64::abs)
+    }
+}
+
+/// Whether a system is on both sides.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum SystemStatus {
+    Added,
+    Removed,
+    Changed,
+}
+
+impl SystemStatus {
+    pub fn as_str(self) -> &'static str {
+        match self {
+            SystemStatus::Added => "added",
+            SystemStatus::Removed => "removed",
+            SystemStatus::Changed => "changed",
+        }
+    }
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct SystemDiff {
+    /// The system's name; `None` for what a file says outside any system.
+    pub name: Option<String>,
+    pub old_file: Option<String>,
+    pub new_file: Option<String>,
+    pub status: SystemStatus,
+    /// The changes listed, most significant first.
+    pub changes: Vec<Change>,
+}
+
+impl SystemDiff {
+    /// How strongly the system ranks: its strongest listed change.
+    pub fn weight(&self) -> f64 {
+        match self.status {
+            SystemStatus::Changed => self.changes.iter().map(Change::weight).fold(0.0, f64::max),
+            _ => f64::INFINITY,
+        }
+    }
+
+    pub fn significant(&self) -> bool {
+        self.status != SystemStatus::Changed || self.changes.iter().any(|c| c.significant)
+    }
+
+    /// The system as people name it.
+    pub fn title(&self) -> String {
+        match &self.name {
+            Some(n) => format!("system \"{n}\""),
+            None => format!(
+                "outside any system of {}",
+                self.new_file
+                    .as_deref()
+                    .or(self.old_file.as_deref())
+                    .unwrap_or("?")
+            ),
+        }
+    }
+}
+
+/// What a comparison lists and how.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct DiffOptions {
+    /// Moves of at least this many combined standard deviations are significant.
+    pub threshold: f64,
+    /// List every change, significant or not (declared values are always listed).
+    pub all: bool,
+}
+
+/// How a comparison was made, for its outputs to say.
+#[derive(Debug, Clone, PartialEq)]
+pub struct About {
+    /// The two sides as the user named them.
+    pub old: String,
+    pub new: String,
+    /// The derivation settings both sides were analysed with, and their propagation in words.
+    pub options: crate::Options,
+    pub uncertainties: String,
+    /// Values set on the command line for the new side (`--set`), as written.
+    pub set: Vec<String>,
+}
+
+/// The comparison of two sides.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Diff {
+    pub options: DiffOptions,
+    /// Systems with something listed, most significant first.
+    pub systems: Vec<SystemDiff>,
+    /// Systems found on both sides.
+    pub systems_compared: usize,
+    /// Changes found in all, and how many of them were not listed (within the threshold).
+    pub changes_found: usize,
+    pub changes_not_listed: usize,
+}
+
+impl Diff {
+    /// Something moved beyond the threshold, or appeared, or went away.
+    pub fn significant(&self) -> bool {
+        self.systems.iter().any(SystemDiff::significant)
+    }
+}
+
+/// The key a system is matched by: its name, or for a name that occurs more than once on a
+/// side, its name and file; what a file says outside systems goes by the file.
+fn keys(side: &[SystemSnapshot]) -> Vec<(String, Option<String>)> {
+    side.iter()
+        .map(|s| match &s.name {
+            Some(n) if side.iter().filter(|o| o.name.as_ref() == Some(n)).count() == 1 => {
+                (n.clone(), None)
+            }
+            Some(n) => (n.clone(), Some(s.file.clone())),
+            None => (String::new(), Some(s.file.clone())),
+        })
+        .collect()
+}
+
+/// Compare two sides, each the snapshots of all its files.
+pub fn compare(old: &[SystemSnapshot], new: &[SystemSnapshot], options: DiffOptions) -> Diff {
+    let (old_keys, new_keys) = (keys(old), keys(new));
+    let mut systems = Vec::new();
+    let mut compared = 0;
+    let mut found = 0;
+    for (n, key) in new.iter().zip(&new_keys) {
+        let Some(o) = old_keys
+            .iter()
+            .position(|k| k == key)
+            .and_then(|i| old.get(i))
+        else {
+            // What a file says outside any system, new with the file: each diagnostic is
+            // listed as appeared.
+            let mut changes = Vec::new();
+            if n.name.is_none() {
+                changes.extend(diagnostic_changes(&[], &n.diagnostics));
+            }
+            found += changes.len().max(1);
+            systems.push(SystemDiff {
+                name: n.name.clone(),
+                old_file: None,
+                new_file: Some(n.file.clone()),
+                status: if n.name.is_some() {
+                    SystemStatus::Added
+                } else {
+                    SystemStatus::Changed
+                },
+                changes,
+            });
+            continue;
+        };
+        compared += 1;
+        let all = system_changes(o, n, options);
+        found += all.len();
+        let mut changes: Vec<Change> = all
+            .into_iter()
+            .filter(|c| c.significant || options.all || is_declared_kind(c.kind))
+            .collect();
+        changes.sort_by(|a, b| b.weight().total_cmp(&a.weight()));
+        if !changes.is_empty() {
+            systems.push(SystemDiff {
+                name: n.name.clone(),
+                old_file: Some(o.file.clone()),
+                new_file: Some(n.file.clone()),
+                status: SystemStatus::Changed,
+                changes,
+            });
+        }
+    }
+    for (o, key) in old.iter().zip(&old_keys) {
+        if new_keys.contains(key) {
+            continue;
+        }
+        let changes = if o.name.is_none() {
+            diagnostic_changes(&o.diagnostics, &[])
+        } else {
+            Vec::new()
+        };
+        found += changes.len().max(1);
+        systems.push(SystemDiff {
+            name: o.name.clone(),
+            old_file: Some(o.file.clone()),
+            new_file: None,
+            status: if o.name.is_some() {
+                SystemStatus::Removed
+            } else {
+                SystemStatus::Changed
+            },
+            changes,
+        });
+    }
+    let listed: usize = systems.iter().map(|s| s.changes.len().max(1)).sum();
+    systems.sort_by(|a, b| b.weight().total_cmp(&a.weight()));
+    Diff {
+        options,
+        systems,
+        systems_compared: compared,
+        changes_found: found,
+        changes_not_listed: found.saturating_sub(listed),
+    }
+}
+
+fn is_declared_kind(k: ChangeKind) -> bool {
+    matches!(
+        k,
+        ChangeKind::DeclaredAdded | ChangeKind::DeclaredRemoved | ChangeKind::DeclaredChanged
+    )
+}
+
+/// Every change between two versions of one system, listed or not.
+fn system_changes(o: &SystemSnapshot, n: &SystemSnapshot, options: DiffOptions) -> Vec<Change> {
+    let mut out = Vec::new();
+    for nb in &n.bodies {
+        let Some(ob) = o.bodies.iter().find(|b| b.id == nb.id) else {
+            out.push(Change::plain(
+                ChangeKind::BodyAdded,
+                Some(&nb.id),
+                None,
+                Some(nb.kind.to_string()),
+            ));
+            continue;
+        };
+        body_changes(ob, nb, options, &mut out);
+    }
+    for ob in &o.bodies {
+        if !n.bodies.iter().any(|b| b.id == ob.id) {
+            out.push(Change::plain(
+                ChangeKind::BodyRemoved,
+                Some(&ob.id),
+                Some(ob.kind.to_string()),
+                None,
+            ));
+        }
+    }
+    out.extend(diagnostic_changes(&o.diagnostics, &n.diagnostics));
+    out
+}
+
+fn body_changes(ob: &BodySnapshot, nb: &BodySnapshot, options: DiffOptions, out: &mut Vec<Change>) {
+    let body = Some(nb.id.as_str());
+    // In the quantity table's order, as `eval` lists them.
+    for nv in &nb.values {
+        let ov = ob.values.iter().find(|v| v.name == nv.name);
+        if let Some(c) = value_change(body, ov, Some(nv), options) {
+            out.push(c);
+        }
+    }
+    for ov in &ob.values {
+        if !nb.values.iter().any(|v| v.name == ov.name) {
+            if let Some(c) = value_change(body, Some(ov), None, options) {
+                out.push(c);
+            }
+        }
+    }
+    if ob.class != nb.class {
+        out.push(Change::plain(
+            ChangeKind::ClassChanged,
+            body,
+            ob.class.map(str::to_string),
+            nb.class.map(str::to_string),
+        ));
+    }
+}
+
+/// The change of one value between its two versions (either may be missing); `None` when
+/// nothing about it changed.
+fn value_change(
+    body: Option<&str>,
+    old: Option<&ValueSnapshot>,
+    new: Option<&ValueSnapshot>,
+    options: DiffOptions,
+) -> Option<Change> {
+    let declared = |v: Option<&ValueSnapshot>| v.is_some_and(ValueSnapshot::is_declared);
+    let kind = match (old, new) {
+        (Some(o), Some(n)) if o.is_declared() && n.is_declared() => ChangeKind::DeclaredChanged,
+        _ if declared(new) => ChangeKind::DeclaredAdded,
+        _ if declared(old) => ChangeKind::DeclaredRemoved,
+        (Some(_), Some(_)) => ChangeKind::DerivedChanged,
+        (None, Some(_)) => ChangeKind::DerivedAdded,
+        (Some(_), None) => ChangeKind::DerivedRemoved,
+        (None, None) => return None,
+    };
+    let shown = new.or(old)?;
+    let mut change = Change {
+        kind,
+        body: body.map(str::to_string),
+        quantity: Some(shown.name),
+        old: old.map(|v| v.shown.clone()),
+        new: new.map(|v| v.shown.clone()),
+        difference: None,
+        sigma: None,
+        unit: shown.unit.clone(),
+        shift: None,
+        significant: true,
+        notes: Vec::new(),
+    };
+    for v in [old, new].into_iter().flatten() {
+        if v.origin == Origin::Set {
+            change.notes.extend(
+                v.assumptions
+                    .iter()
+                    .filter(|a| a.contains(crate::what_if::SET_WORDS))
+                    .cloned(),
+            );
+        }
+    }
+    change.notes.dedup();
+    let (Some(o), Some(n)) = (old, new) else {
+        return Some(change);
+    };
+    let numbers = |v: &ValueSnapshot| (v.value, v.below, v.above);
+    let unchanged = same_number(o.value, n.value)
+        && same_number(o.below, n.below)
+        && same_number(o.above, n.above)
+        && o.form == n.form
+        && o.shown == n.shown
+        && o.citations == n.citations
+        && o.sources == n.sources
+        && o.origin == n.origin;
+    if unchanged && kind != ChangeKind::DeclaredAdded && kind != ChangeKind::DeclaredRemoved {
+        return None;
+    }
+    if o.value.is_finite() && n.value.is_finite() && o.form == n.form {
+        let factor = shown.factor;
+        change.difference = Some((n.value - o.value) / factor);
+        change.shift = if o.form.is_limit() && !same_number(o.value, n.value) {
+            None
+        } else {
+            shift(numbers(o), numbers(n))
+        };
+        let sigma = combined_sigma(numbers(o), numbers(n));
+        change.sigma = (sigma > 0.0).then_some(sigma / factor);
+    }
+    change.significant = match change.shift {
+        Some(s) => s.abs() >= options.threshold,
+        None => true,
+    };
+    Some(change)
+}
+
+/// Diagnostics on one side only; one said twice on one side and once on the other counts once.
+fn diagnostic_changes(old: &[DiagnosticSnapshot], new: &[DiagnosticSnapshot]) -> Vec<Change> {
+    let mut old: Vec<&DiagnosticSnapshot> = old.iter().collect();
+    let mut new: Vec<&DiagnosticSnapshot> = new.iter().collect();
+    old.sort();
+    new.sort();
+    let mut out = Vec::new();
+    let words =
+        |d: &DiagnosticSnapshot| format!("{} [{}]: {}", d.severity.as_str(), d.rule, d.message);
+    let (mut i, mut j) = (0, 0);
+    loop {
+        match (old.get(i), new.get(j)) {
+            (Some(a), Some(b)) if a == b => {
+                i += 1;
+                j += 1;
+            }
+            (a, Some(b)) if a.is_none_or(|a| b < a) => {
+                out.push(Change::plain(
+                    ChangeKind::DiagnosticAdded,
+                    None,
+                    None,
+                    Some(words(b)),
+                ));
+                j += 1;
+            }
+            (Some(a), _) => {
+                out.push(Change::plain(
+                    ChangeKind::DiagnosticRemoved,
+                    None,
+                    Some(words(a)),
+                    None,
+                ));
+                i += 1;
+            }
+            (None, _) => break,
+        }
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests;

@@ -1,0 +1,144 @@
+use super::*;
+
+/// Hand-computed: a move up from 1.00 (+0.30/-0.10) to 1.50 (+0.20/-0.40) is measured by the
+/// old value's upper side and the new value's lower side: sqrt(0.3² + 0.4²) = 0.5, so the
+/// shift is 0.5 / 0.5 = +1.0. A move down from 1.00 (+0.30/-0.10) to 0.50 (+0.20/-0.40) is
+/// measured by the other two sides: sqrt(0.1² + 0.2²) = 0.2236..., so -0.5 / 0.2236 = -2.236.
+#[test]
+fn shifts_use_the_sides_that_face_each_other() {
+    let up = shift((1.0, 0.1, 0.3), (1.5, 0.4, 0.2)).unwrap();
+    assert!((up - 1.0).abs() < 1e-12, "{up}");
+    let down = shift((1.0, 0.1, 0.3), (0.5, 0.4, 0.2)).unwrap();
+    // 0.5 / sqrt(0.05) = 2.2360679...
+    assert!((down + 2.236_067_977).abs() < 1e-8, "{down}");
+    // Symmetric: 3 ± 0.3 to 3.8 ± 0.4 is 0.8 / 0.5 = 1.6 sigma.
+    let sym = shift((3.0, 0.3, 0.3), (3.8, 0.4, 0.4)).unwrap();
+    assert!((sym - 1.6).abs() < 1e-12, "{sym}");
+    assert_eq!(shift((2.0, 0.1, 0.1), (2.0, 0.5, 0.5)), Some(0.0));
+    // Exact values that differ have no shift.
+    assert_eq!(shift((2.0, 0.0, 0.0), (3.0, 0.0, 0.0)), None);
+}
+
+fn value(name: &'static str, origin: Origin, v: f64, s: f64) -> ValueSnapshot {
+    ValueSnapshot {
+        name,
+        origin,
+        value: v,
+        below: s,
+        above: s,
+        form: if s > 0.0 {
+            Form::Symmetric
+        } else {
+            Form::Exact
+        },
+        shown: format!("{v} ± {s}"),
+        unit: String::new(),
+        factor: 1.0,
+        citations: Vec::new(),
+        sources: Vec::new(),
+        assumptions: Vec::new(),
+    }
+}
+
+fn system(name: &str, values: Vec<ValueSnapshot>, class: Option<&'static str>) -> SystemSnapshot {
+    SystemSnapshot {
+        name: Some(name.into()),
+        file: format!("{}.syz", name.to_lowercase()),
+        bodies: vec![BodySnapshot {
+            id: "b".into(),
+            kind: "planet",
+            values,
+            class,
+        }],
+        diagnostics: Vec::new(),
+    }
+}
+
+#[test]
+fn the_threshold_decides_what_is_listed_and_declared_changes_always_are() {
+    let old = [
+        system(
+            "A",
+            vec![
+                value("period", Origin::Declared, 3.0, 0.3),
+                value("mass", Origin::Derived, 10.0, 1.0),
+                value("radius", Origin::Derived, 5.0, 1.0),
+            ],
+            Some("rocky"),
+        ),
+        system("Gone", vec![], None),
+    ];
+    let new = [
+        system(
+            "A",
+            vec![
+                value("period", Origin::Declared, 3.1, 0.3),
+                value("mass", Origin::Derived, 13.0, 1.0),
+                value("radius", Origin::Derived, 5.5, 1.0),
+                value("density", Origin::Derived, 1.0, 0.1),
+            ],
+            Some("water-world"),
+        ),
+        system("New", vec![], None),
+    ];
+    let diff = compare(
+        &old,
+        &new,
+        DiffOptions {
+            threshold: 1.0,
+            all: false,
+        },
+    );
+    assert!(diff.significant());
+    let names: Vec<String> = diff.systems.iter().map(SystemDiff::title).collect();
+    assert_eq!(names.len(), 3, "{names:?}");
+    let a = diff
+        .systems
+        .iter()
+        .find(|s| s.name.as_deref() == Some("A"))
+        .unwrap();
+    let listed: Vec<(ChangeKind, Option<&str>)> =
+        a.changes.iter().map(|c| (c.kind, c.quantity)).collect();
+    // mass: 3 / sqrt(2) = 2.12 sigma, listed; radius: 0.5 / sqrt(2) = 0.35, not listed;
+    // period: declared, listed though within the threshold (0.1 / sqrt(0.18) = 0.24).
+    assert!(
+        listed.contains(&(ChangeKind::DerivedChanged, Some("mass"))),
+        "{listed:?}"
+    );
+    assert!(!listed.iter().any(|l| l.1 == Some("radius")), "{listed:?}");
+    assert!(listed.contains(&(ChangeKind::DeclaredChanged, Some("period"))));
+    assert!(listed.contains(&(ChangeKind::DerivedAdded, Some("density"))));
+    assert!(listed.contains(&(ChangeKind::ClassChanged, None)));
+    let mass = a
+        .changes
+        .iter()
+        .find(|c| c.quantity == Some("mass"))
+        .unwrap();
+    assert!((mass.shift.unwrap() - 3.0 / 2f64.sqrt()).abs() < 1e-12);
+    let period = a
+        .changes
+        .iter()
+        .find(|c| c.quantity == Some("period"))
+        .unwrap();
+    assert!(!period.significant);
+    assert_eq!(diff.changes_not_listed, 1);
+    let all = compare(
+        &old,
+        &new,
+        DiffOptions {
+            threshold: 1.0,
+            all: true,
+        },
+    );
+    assert_eq!(all.changes_not_listed, 0);
+    // The same on both sides: nothing.
+    let same = compare(
+        &old,
+        &old,
+        DiffOptions {
+            threshold: 1.0,
+            all: true,
+        },
+    );
+    assert!(same.systems.is_empty() && !same.significant());
+}
