@@ -246,7 +246,7 @@ pub fn tail(refs: &[[String; 3]], unread: usize, errors: usize) -> String {
         (
             "file",
             "meta.id;meta.file",
-            "The file that declares the reference",
+            "The file that declares the reference, or that cites it when it is a shared reference of the project",
         ),
         ("id", "meta.id", "The id values cite"),
         ("text", "meta.bib", "The reference as written"),

@@ -93,7 +93,7 @@ pub fn analyze_reusing(
     previous: Option<&Reusable>,
 ) -> (Analysis, Reusable) {
     let options = &settings.options;
-    let part = crate::parse_and_lower(file, src);
+    let part = crate::parse_and_lower(file, src, settings);
     let model = &part.model;
     let lines = crate::derive::Lines::new(src, &part.region, &model.systems);
     let mut candidates: HashMap<&str, Vec<&Kept>> = HashMap::new();

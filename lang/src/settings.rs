@@ -23,13 +23,18 @@
 //!
 //! [sources]
 //! choice = "most-precise"       # most-precise | last | weighted-mean
+//!
+//! [references]
+//! files = ["references.syz"]    # shared references, relative to this file's folder
 //! ```
 
+use crate::catalogue::SharedRefs;
 use crate::derive::{Options, Propagation, SourceChoice};
 use crate::diagnostic::{Diagnostic, Rule, Severity, SeverityOverride};
 use crate::source::{FileId, Span};
 use serde::Deserialize;
 use std::collections::BTreeMap;
+use std::sync::Arc;
 
 /// The name front ends look for.
 pub const FILE_NAME: &str = "syzygy.toml";
@@ -43,6 +48,14 @@ struct Raw {
     derivation: RawDerivation,
     #[serde(default)]
     sources: RawSources,
+    #[serde(default)]
+    references: RawReferences,
+}
+
+#[derive(Debug, Clone, Default, PartialEq, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawReferences {
+    files: Option<Vec<String>>,
 }
 
 #[derive(Debug, Clone, Default, PartialEq, Deserialize)]
@@ -74,6 +87,9 @@ pub struct Layer {
     pub consistency_error_sigma: Option<f64>,
     /// Which of several declarations of one quantity derivations use (`[sources] choice`).
     pub source_choice: Option<SourceChoice>,
+    /// The shared reference files (`[references] files`), relative to the project file's
+    /// folder, as written.
+    pub reference_files: Option<Vec<String>>,
 }
 
 impl Layer {
@@ -152,7 +168,14 @@ fn parse(text: &str) -> Result<Layer, String> {
             )
         })?),
     };
+    let reference_files = raw.references.files;
+    for f in reference_files.iter().flatten() {
+        if f.trim().is_empty() {
+            return Err("[references]: files: a file name cannot be empty".to_string());
+        }
+    }
     Ok(Layer {
+        reference_files,
         overrides,
         source_choice,
         propagation,
@@ -163,19 +186,25 @@ fn parse(text: &str) -> Result<Layer, String> {
     })
 }
 
-/// Everything an analysis is run with: the derivation options and the severity overrides.
+/// Everything an analysis is run with: the derivation options, the severity overrides and
+/// the project's shared references.
 #[derive(Debug, Clone, Default, PartialEq)]
 pub struct Settings {
     pub options: Options,
     /// Severity overrides in order of increasing precedence (project file first, then flags).
     pub overrides: Vec<SeverityOverride>,
+    /// The shared reference files the project file names, relative to its folder, as
+    /// written. The front end reads them and fills `shared_refs`.
+    pub reference_files: Vec<String>,
+    /// The references of those files, which citations find after the file's own.
+    pub shared_refs: Arc<SharedRefs>,
 }
 
 impl From<Options> for Settings {
     fn from(options: Options) -> Settings {
         Settings {
             options,
-            overrides: Vec::new(),
+            ..Settings::default()
         }
     }
 }
@@ -218,6 +247,9 @@ impl Settings {
         }
         if let Some(c) = layer.source_choice {
             o.source_choice = c;
+        }
+        if let Some(files) = &layer.reference_files {
+            self.reference_files = files.clone();
         }
         self.overrides.extend(layer.overrides.iter().copied());
         self
@@ -402,6 +434,13 @@ mod tests {
         assert!(layer("[derivaton]\n").is_err());
         assert!(layer("not toml [").is_err());
         assert_eq!(layer("").unwrap(), Layer::default());
+        assert!(layer("[references]\nfiles = [\" \"]\n").is_err());
+        assert!(layer("[references]\nfile = [\"r.syz\"]\n").is_err());
+        let shared = layer("[references]\nfiles = [\"r.syz\", \"more/s.syz\"]\n").unwrap();
+        assert_eq!(
+            Settings::resolve(Some(&shared), &Layer::default()).reference_files,
+            vec!["r.syz", "more/s.syz"]
+        );
         assert_eq!(
             ProjectFileError::unreadable("a/syzygy.toml", "permission denied").to_string(),
             "a/syzygy.toml: cannot be read: permission denied"

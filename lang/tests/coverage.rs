@@ -114,7 +114,10 @@ fn coverage(propagation: Propagation) -> Vec<(f64, f64)> {
             rv: draw(&mut rng, TRUE.rv, 43.0),
             depth: draw(&mut rng, TRUE.depth, 0.33),
         };
-        if [t.star_mass, t.star_radius, t.rv, t.depth].iter().any(|v| *v <= 0.0) {
+        if [t.star_mass, t.star_radius, t.rv, t.depth]
+            .iter()
+            .any(|v| *v <= 0.0)
+        {
             // A measurement at or below zero: the file is refused with an error, so the
             // procedure gives no interval and this experiment counts as not covered (an exact
             // interval would miss here too: the value lies more than 1 sigma below a truth).
