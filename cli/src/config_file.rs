@@ -33,6 +33,7 @@ pub fn resolve(loaded: &crate::files::Loaded, flags: &Layer) -> Result<Vec<Setti
                     .map_err(|e| e.to_string())?;
                 let mut s = Settings::resolve(layer.as_ref(), flags);
                 if let Some(p) = &path {
+                    s.catalogue = Some(p.display().to_string());
                     s.shared_refs = shared_refs(p, &s.reference_files, loaded.max_file_size)
                         .map_err(|e| e.to_string())?;
                 }
@@ -67,10 +68,8 @@ fn shared_refs(
     let mut texts = Vec::with_capacity(files.len());
     for f in files {
         let path = dir.join(f);
-        let text = crate::files::read_text(&path, limit).map_err(|why| ProjectFileError {
-            path: project_name.clone(),
-            reason: format!("[references]: {why}"),
-        })?;
+        let text = crate::files::read_text(&path, limit)
+            .map_err(|why| ProjectFileError::shared_unreadable(&project_name, why))?;
         // Named relative to the working folder when under it, as the checked files are.
         let cwd = std::env::current_dir().ok();
         let shown = cwd

@@ -231,7 +231,11 @@ pub fn rows(a: &Analysis, db: &dyn SourceDb, which: TableArg) -> (String, Vec<[S
         .model
         .refs
         .iter()
-        .map(|r| [file.to_string(), r.id.clone(), r.text.clone()])
+        // A shared reference is listed once, under the shared file that declares it.
+        .map(|r| {
+            let declared_in = r.shared.as_ref().map_or(file, |s| s.file.as_str());
+            [declared_in.to_string(), r.id.clone(), r.text.clone()]
+        })
         .collect();
     (out, refs)
 }
@@ -246,7 +250,7 @@ pub fn tail(refs: &[[String; 3]], unread: usize, errors: usize) -> String {
         (
             "file",
             "meta.id;meta.file",
-            "The file that declares the reference, or that cites it when it is a shared reference of the project",
+            "The file that declares the reference",
         ),
         ("id", "meta.id", "The id values cite"),
         ("text", "meta.bib", "The reference as written"),

@@ -6,8 +6,9 @@
 //! - [`shared`]: the references a project file names (`[references] files`), which every
 //!   file under that project may cite. Lowering looks a citation up in the file's own `ref`s
 //!   first, then here.
-//! - [`across`]: the checks between files — a system declared in two files, a star whose
-//!   values disagree between files, one paper cited under two ids. Each file is reduced to a
+//! - [`across`]: the checks between the files under one project file (a catalogue: the
+//!   project file marks it, as it names its shared references) — a system declared in two
+//!   files, a star whose values disagree between files, one paper cited under two ids. Each file is reduced to a
 //!   small [`across::Entry`] where it is analysed; the check then sorts the entries' keys, so
 //!   it costs n log n in the number of systems, stars and references, never a pairwise loop.
 //!

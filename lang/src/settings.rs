@@ -198,6 +198,10 @@ pub struct Settings {
     pub reference_files: Vec<String>,
     /// The references of those files, which citations find after the file's own.
     pub shared_refs: Arc<SharedRefs>,
+    /// The project file that applies, by path, as the front end found it: the files under one
+    /// project file form a catalogue, whose files are compared with each other
+    /// ([`crate::catalogue::across`]). `None`: no project file, no comparison.
+    pub catalogue: Option<String>,
 }
 
 impl From<Options> for Settings {
@@ -283,6 +287,15 @@ impl ProjectFileError {
         ProjectFileError {
             path: path.to_string(),
             reason: format!("cannot be read: {why}"),
+        }
+    }
+
+    /// A shared reference file the project file names (`[references] files`) could not be
+    /// read; `why` names the file and says why.
+    pub fn shared_unreadable(project: &str, why: impl std::fmt::Display) -> ProjectFileError {
+        ProjectFileError {
+            path: project.to_string(),
+            reason: format!("[references]: {why}"),
         }
     }
 

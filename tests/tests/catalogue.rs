@@ -33,6 +33,8 @@ const QUARREL: &str = "system \"Quarrel\" {\n  star quarrel { mass = 1.00 ± 0.0
 #[test]
 fn a_system_in_two_files_names_both_places_in_text_and_sarif() {
     let dir = scratch("catalogue-system");
+    // Files under one project file form a catalogue; an empty one is enough.
+    write(&dir, "syzygy.toml", "");
     write(&dir, "a.syz", QUARREL);
     write(
         &dir,
@@ -94,6 +96,7 @@ fn a_system_in_two_files_names_both_places_in_text_and_sarif() {
 #[test]
 fn a_star_whose_values_disagree_between_files_is_reported_with_both_values() {
     let dir = scratch("catalogue-star");
+    write(&dir, "syzygy.toml", "");
     write(&dir, "a.syz", QUARREL);
     write(
         &dir,
@@ -156,20 +159,25 @@ fn shared_references_resolve_from_every_file_and_a_file_alone_still_checks() {
         stdout(&o)
     );
 
-    // The table of references shows the shared text for the citing file.
-    let vot = stdout(&run(&[
-        "eval",
-        "--format",
-        "votable",
-        "--propagation",
-        "linear",
-        d,
-    ]));
-    let row = format!(
-        "<TR><TD>{}</TD><TD>survey</TD><TD>Demo spectroscopic survey of the catalogue (invented data)</TD></TR>",
-        dir.join("a.syz").display()
-    );
-    assert!(vot.contains(&row), "{vot}");
+    // The table of references lists the shared reference once, under the file that declares
+    // it (run from the folder, the files are named as given).
+    let o = std::process::Command::new(syzygy_e2e::syz())
+        .current_dir(&*dir)
+        .args([
+            "eval",
+            "--format",
+            "votable",
+            "--propagation",
+            "linear",
+            "a.syz",
+            "b.syz",
+        ])
+        .output()
+        .unwrap();
+    let vot = stdout(&o);
+    let row = "<TR><TD>references.syz</TD><TD>survey</TD><TD>Demo spectroscopic survey of the catalogue (invented data)</TD></TR>";
+    assert_eq!(vot.matches(row).count(), 1, "{vot}");
+    assert!(vot.contains("<TD>b.syz</TD><TD>own</TD>"), "{vot}");
 
     // A file checked outside the project behaves as before: the shared id is unknown there,
     // and a file that cites only its own references is clean.
@@ -227,6 +235,7 @@ fn shared_references_resolve_from_every_file_and_a_file_alone_still_checks() {
 #[test]
 fn one_paper_under_two_ids_is_a_note_naming_both() {
     let dir = scratch("catalogue-paper");
+    write(&dir, "syzygy.toml", "");
     write(
         &dir,
         "a.syz",

@@ -20,6 +20,9 @@ use crate::{ast::BodyKind, Analysis, Settings};
 #[derive(Debug, Clone, PartialEq, Default)]
 pub struct Entry {
     pub file: FileId,
+    /// The project file the file is under (`Settings::catalogue`): only files under the same
+    /// one are compared; a file under none is compared with no other.
+    pub catalogue: Option<String>,
     /// The file's consistency threshold (`consistency_sigma`).
     pub sigma: f64,
     /// The file's severity overrides, applied to the findings placed in it.
@@ -47,6 +50,7 @@ impl Entry {
     pub fn of(a: &Analysis, settings: &Settings) -> Entry {
         let mut e = Entry {
             file: a.file,
+            catalogue: settings.catalogue.clone(),
             sigma: settings.options.consistency_sigma,
             overrides: settings.overrides.clone(),
             ..Entry::default()
@@ -120,7 +124,7 @@ impl Entry {
 }
 
 /// The findings between the files of `entries` (one entry per file; a file's spans carry its
-/// `file`), each with the severity its file's settings give, sorted. `place` names a span for
+/// `file`) that are under the same project file, each with the severity its file's settings give, sorted. `place` names a span for
 /// people, `file:line`: the text output shows one file per finding, so each message names
 /// the other place too.
 pub fn check(entries: &[Entry], place: &dyn Fn(Span) -> String) -> Vec<Diagnostic> {
@@ -167,10 +171,11 @@ fn systems(entries: &[Entry], place: &dyn Fn(Span) -> String, out: &mut Vec<(usi
     let all = entries
         .iter()
         .enumerate()
-        .flat_map(|(i, e)| {
+        .filter_map(|(i, e)| Some((i, e.catalogue.as_deref()?, e)))
+        .flat_map(|(i, c, e)| {
             e.systems
                 .iter()
-                .map(move |(n, s)| (n.as_str(), i, *s, n.as_str()))
+                .map(move |(n, s)| ((c, n.as_str()), i, *s, n.as_str()))
         })
         .collect();
     for [(_, first, name), (i, at, _)] in pairs(all) {
@@ -194,10 +199,11 @@ fn stars(entries: &[Entry], place: &dyn Fn(Span) -> String, out: &mut Vec<(usize
     let all = entries
         .iter()
         .enumerate()
-        .flat_map(|(i, e)| {
+        .filter_map(|(i, e)| Some((i, e.catalogue.as_deref()?, e)))
+        .flat_map(|(i, c, e)| {
             e.stars
                 .iter()
-                .map(move |s| (s.id.as_str(), i, s.name_span, s))
+                .map(move |s| ((c, s.id.as_str()), i, s.name_span, s))
         })
         .collect();
     for [(fi, first, a), (i, at, b)] in pairs(all) {
@@ -246,18 +252,19 @@ fn stars(entries: &[Entry], place: &dyn Fn(Span) -> String, out: &mut Vec<(usize
 fn refs(entries: &[Entry], place: &dyn Fn(Span) -> String, out: &mut Vec<(usize, Diagnostic)>) {
     // Keyed by text; among the same text, the same id is no finding, so occurrences of the
     // first id of a text are skipped after the first.
-    let mut all: Vec<(String, usize, Span, &str)> = entries
+    let mut all: Vec<((&str, String), usize, Span, &str)> = entries
         .iter()
         .enumerate()
-        .flat_map(|(i, e)| {
+        .filter_map(|(i, e)| Some((i, e.catalogue.as_deref()?, e)))
+        .flat_map(|(i, c, e)| {
             e.refs
                 .iter()
-                .map(move |(id, text, s)| (normalized_text(text), i, *s, id.as_str()))
+                .map(move |(id, text, s)| ((c, normalized_text(text)), i, *s, id.as_str()))
         })
-        .filter(|(t, ..)| !t.is_empty())
+        .filter(|((_, t), ..)| !t.is_empty())
         .collect();
     all.sort_by(|a, b| (&a.0, a.1, a.2.start).cmp(&(&b.0, b.1, b.2.start)));
-    let mut first: Option<(&str, Span, &str)> = None;
+    let mut first: Option<(&(&str, String), Span, &str)> = None;
     for (text, i, at, id) in &all {
         match first {
             Some((ft, fs, fid)) if ft == text => {
@@ -277,7 +284,7 @@ fn refs(entries: &[Entry], place: &dyn Fn(Span) -> String, out: &mut Vec<(usize,
                     ));
                 }
             }
-            _ => first = Some((text.as_str(), *at, id)),
+            _ => first = Some((text, *at, id)),
         }
     }
 }

@@ -24,7 +24,10 @@ fn a_citation_finds_a_shared_reference_and_outputs_see_its_text() {
     assert!(a.diagnostics.is_empty(), "{:?}", a.diagnostics);
     let r = a.model.refs.iter().find(|r| r.id == "survey").unwrap();
     assert_eq!(r.text, "Demo spectroscopic survey (invented data)");
-    assert_eq!(r.shared.as_deref(), Some("references.syz:2"));
+    assert_eq!(
+        r.shared.as_ref().map(|s| s.place()).as_deref(),
+        Some("references.syz:2")
+    );
     // Only the shared references cited are the file's.
     assert!(a.model.refs.iter().all(|r| r.id != "rvs"));
     // Alone, the same file cites an unknown reference, as before.
@@ -59,8 +62,8 @@ fn a_local_reference_wins_and_is_reported_only_when_its_text_differs() {
     assert!(a.diagnostics[0].message.contains("references.syz:3"));
     let r = a.model.refs.iter().find(|r| r.id == "rvs").unwrap();
     assert_eq!(
-        (r.text.as_str(), r.shared.as_deref()),
-        ("Another campaign", None)
+        (r.text.as_str(), r.shared.is_none()),
+        ("Another campaign", true)
     );
     // The same text (up to case and spaces), as in the shared file itself: nothing to say.
     let same = "ref rvs \"demo  velocities (Invented data)\"\n";
@@ -82,6 +85,14 @@ fn completion_offers_shared_references_not_hidden_by_the_files_own() {
         .map(|c| c.label)
         .collect();
     assert_eq!(labels, vec!["own", "survey", "rvs"]);
+}
+
+/// The settings of a file under a project file (a catalogue).
+fn catalogue() -> Settings {
+    Settings {
+        catalogue: Some("cat/syzygy.toml".to_string()),
+        ..Settings::linear()
+    }
 }
 
 /// Entries of the named texts, analysed with `settings`, and the findings between them, with
@@ -112,7 +123,7 @@ fn a_system_in_two_files_is_reported_once_with_both_places() {
     let a = "system \"Quarrel\" {\n  star q { mass = 1 ± 0.1 Msun }\n}\n";
     let b =
         "# b\n\nsystem \"Quarrel\" {\n  star r { mass = 1 ± 0.1 Msun }\n}\nsystem \"Other\" {}\n";
-    let found = across(&[("a.syz", a), ("b.syz", b)], &Settings::linear());
+    let found = across(&[("a.syz", a), ("b.syz", b)], &catalogue());
     assert_eq!(found.len(), 1, "{found:?}");
     let (at, d) = &found[0];
     assert_eq!((at.as_str(), d.rule), ("b.syz:3", Rule::SystemInTwoFiles));
@@ -125,14 +136,14 @@ fn a_system_in_two_files_is_reported_once_with_both_places() {
     assert_eq!(d.labels[0].span.file, FileId(0));
     // Twice in one file is the `duplicate` of that file, not a finding between files.
     let twice = "system \"A\" {}\nsystem \"A\" {}\n";
-    assert!(across(&[("a.syz", twice)], &Settings::linear()).is_empty());
+    assert!(across(&[("a.syz", twice)], &catalogue()).is_empty());
 }
 
 #[test]
 fn a_star_in_two_files_is_compared_with_the_consistency_threshold() {
     let a = "system \"A\" {\n  star quen { mass = 1.00 ± 0.02 Msun; teff = 5700 ± 50 K }\n}\n";
     let far = "system \"B\" {\n  star quen { mass = 1.30 ± 0.02 Msun; teff = 5710 ± 50 K }\n}\n";
-    let found = across(&[("a.syz", a), ("b.syz", far)], &Settings::linear());
+    let found = across(&[("a.syz", a), ("b.syz", far)], &catalogue());
     assert_eq!(found.len(), 1, "{found:?}");
     let (at, d) = &found[0];
     assert_eq!(
@@ -149,9 +160,9 @@ fn a_star_in_two_files_is_compared_with_the_consistency_threshold() {
     assert!(!d.message.contains("teff"), "{}", d.message);
     // Within 3 sigma: 0.08 / 0.028 = 2.8.
     let near = "system \"B\" {\n  star quen { mass = 1.08 ± 0.02 Msun }\n}\n";
-    assert!(across(&[("a.syz", a), ("b.syz", near)], &Settings::linear()).is_empty());
+    assert!(across(&[("a.syz", a), ("b.syz", near)], &catalogue()).is_empty());
     // A lower threshold in the project reports it.
-    let mut strict = Settings::linear();
+    let mut strict = catalogue();
     strict.options.consistency_sigma = 2.0;
     assert_eq!(across(&[("a.syz", a), ("b.syz", near)], &strict).len(), 1);
 }
@@ -161,10 +172,7 @@ fn one_text_under_two_ids_is_a_note_and_the_same_id_is_not() {
     let a = "ref rv \"Demo velocities (invented)\"\n";
     let b = "ref rvel \"demo velocities  (invented)\"\n";
     let c = "ref rv \"Demo velocities (invented)\"\n";
-    let found = across(
-        &[("a.syz", a), ("b.syz", b), ("c.syz", c)],
-        &Settings::linear(),
-    );
+    let found = across(&[("a.syz", a), ("b.syz", b), ("c.syz", c)], &catalogue());
     assert_eq!(found.len(), 1, "{found:?}");
     let (at, d) = &found[0];
     assert_eq!(
@@ -182,22 +190,44 @@ fn one_text_under_two_ids_is_a_note_and_the_same_id_is_not() {
 #[test]
 fn the_files_settings_set_the_severity_of_its_findings() {
     let a = "system \"A\" {}\n";
-    let mut off = Settings::linear();
+    let mut off = catalogue();
     off.overrides.push((Rule::SystemInTwoFiles, None));
-    let mut error = Settings::linear();
+    let mut error = catalogue();
     error
         .overrides
         .push((Rule::SystemInTwoFiles, Some(Severity::Error)));
     let entries = |second: &Settings| {
         vec![
-            Entry::of(
-                &analyze(FileId(0), a, &Settings::linear()),
-                &Settings::linear(),
-            ),
+            Entry::of(&analyze(FileId(0), a, &catalogue()), &catalogue()),
             Entry::of(&analyze(FileId(1), a, second), second),
         ]
     };
     let place = |_| String::new();
     assert!(check(&entries(&off), &place).is_empty());
     assert_eq!(check(&entries(&error), &place)[0].severity, Severity::Error);
+}
+
+#[test]
+fn only_files_under_the_same_project_file_are_compared() {
+    let a = "system \"A\" {}\n";
+    let under = |c: Option<&str>| Settings {
+        catalogue: c.map(str::to_string),
+        ..Settings::linear()
+    };
+    let entries = |x: &Settings, y: &Settings| {
+        vec![
+            Entry::of(&analyze(FileId(0), a, x), x),
+            Entry::of(&analyze(FileId(1), a, y), y),
+        ]
+    };
+    let place = |_| String::new();
+    let (none, one, other) = (
+        under(None),
+        under(Some("a/syzygy.toml")),
+        under(Some("b/syzygy.toml")),
+    );
+    assert!(check(&entries(&none, &none), &place).is_empty());
+    assert!(check(&entries(&one, &other), &place).is_empty());
+    assert!(check(&entries(&one, &none), &place).is_empty());
+    assert_eq!(check(&entries(&one, &one), &place).len(), 1);
 }

@@ -42,7 +42,8 @@ pub fn hover(
         Symbol::Ref(id) => match a.model.refs.iter().find(|r| &r.id == id) {
             Some(r) => match &r.shared {
                 Some(at) => format!(
-                    "**reference `{id}`** (shared, declared in {at})\n\n{}",
+                    "**reference `{id}`** (shared, declared in {})\n\n{}",
+                    at.place(),
                     r.text
                 ),
                 None => format!("**reference `{id}`**\n\n{}", r.text),

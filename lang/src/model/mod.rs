@@ -152,9 +152,9 @@ pub struct RefInfo {
     /// The declaration; for a shared reference, the first citation of it in this file.
     pub span: Span,
     pub id_span: Span,
-    /// For a shared reference (declared in a file the project file names): where it is
-    /// declared, `file:line`. `None` for the file's own.
-    pub shared: Option<String>,
+    /// For a shared reference (declared in a file the project file names): that declaration.
+    /// `None` for the file's own.
+    pub shared: Option<crate::catalogue::SharedRef>,
 }
 
 #[derive(Debug, Clone, PartialEq, Default)]
@@ -308,7 +308,7 @@ fn add_shared_cited(model: &mut Model, own: usize) {
                     text: r.text.clone(),
                     span: *span,
                     id_span: *span,
-                    shared: Some(r.place()),
+                    shared: Some(r.clone()),
                 });
             }
         }
