@@ -341,7 +341,7 @@ pub fn for_each_analysed<T: Send>(
 /// What one worker analyses: a whole file, or a part of one already read.
 enum Unit<'a> {
     Whole(FileId, &'a Settings),
-    Part(syzygy::parts::Part, &'a Settings, bool),
+    Part(Box<syzygy::parts::Part>, &'a Settings, bool),
 }
 
 fn for_each_unit<T: Send>(
@@ -361,7 +361,7 @@ fn for_each_unit<T: Send>(
                     Unit::Whole(f, settings) => (analyze(f, db.text(f), settings), true),
                     Unit::Part(part, settings, last) => {
                         let f = part.model.file;
-                        (syzygy::analyze_part(db.text(f), part, settings), last)
+                        (syzygy::analyze_part(db.text(f), *part, settings), last)
                     }
                 };
                 if let Some(p) = progress.as_ref().filter(|_| last) {
@@ -390,7 +390,7 @@ fn for_each_unit<T: Send>(
             .peekable();
         while let Some(part) = parts.next() {
             bytes += part.region.end - part.region.start;
-            units.push(Unit::Part(part, settings, parts.peek().is_none()));
+            units.push(Unit::Part(Box::new(part), settings, parts.peek().is_none()));
             if units.len() >= BATCH || bytes >= BATCH_BYTES {
                 run(&mut units, &mut bytes, &mut sink);
             }

@@ -69,7 +69,7 @@ enum Stamp {
 struct Cached {
     stamp: Stamp,
     /// The shared reference files the project file names, with their stamps when read.
-    shared: Vec<(PathBuf, Option<Stamp>)>,
+    shared: Stamps,
     project: Arc<Project>,
 }
 
@@ -84,12 +84,15 @@ fn disk_stamp(path: &Path) -> Option<Stamp> {
 /// The largest shared reference file read (as `syz`'s default `--max-file-size`).
 const MAX_SHARED_BYTES: u64 = 256 << 20;
 
+/// Shared reference files with their stamps when read.
+type Stamps = Vec<(PathBuf, Option<Stamp>)>;
+
 /// The shared references a project file names, read from disk relative to its folder.
 fn read_shared(
     file: &Path,
     names: &[String],
 ) -> (
-    Vec<(PathBuf, Option<Stamp>)>,
+    Stamps,
     Result<Arc<syzygy::catalogue::SharedRefs>, ProjectFileError>,
 ) {
     let dir = file.parent().unwrap_or(Path::new("."));
@@ -229,14 +232,16 @@ impl Projects {
         let project = match refs {
             Ok(refs) => {
                 let mut p = Project::new(Some(file.clone()), layer);
-                p.editor.settings.shared_refs = refs;
+                if p.error.is_none() {
+                    p.editor.settings.shared_refs = refs;
+                    // Files under one project file form a catalogue, compared with each
+                    // other (a project file with a mistake stops `syz check` before that).
+                    p.editor.settings.catalogue = Some(file.display().to_string());
+                }
                 p
             }
             Err(e) => Project::new(Some(file.clone()), Err(e)),
         };
-        let mut project = project;
-        // Files under one project file form a catalogue, compared with each other.
-        project.editor.settings.catalogue = Some(file.display().to_string());
         let project = Arc::new(project);
         lock(&self.cache).insert(
             file,
