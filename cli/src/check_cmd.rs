@@ -7,8 +7,10 @@ use crate::render::rendered_diagnostics;
 use crate::{json_out, output, render, sarif, CheckFormat};
 use std::io::Write;
 use std::path::PathBuf;
+use syzygy::catalogue::Entry;
 use syzygy::diagnostic::Rule;
 use syzygy::settings::Layer;
+use syzygy::source::SourceDb;
 
 pub fn run(
     paths: &[PathBuf],
@@ -31,10 +33,14 @@ pub fn run(
     let mut sarif_results = Vec::new();
     let mut shown_so_far = Shown::default();
     let mut checked = 0usize;
+    // What the checks between files need of each file, made on the worker (one per file;
+    // the parts of a large file add to the same entry).
+    let mut entries: Vec<Entry> = Vec::new();
     files::for_each_analysed(
         db,
         &settings,
         |a| {
+            let entry = settings.get(a.file.0 as usize).map(|s| Entry::of(&a, s));
             let kinds: Vec<(usize, Rule)> = a
                 .diagnostics
                 .iter()
@@ -50,9 +56,15 @@ pub fn run(
                     sarif = shown.iter().map(|d| sarif::result(d, &places)).collect();
                 }
             }
-            (kinds, text, json, sarif, (a.file, left_out))
+            (kinds, text, json, sarif, (a.file, left_out), entry)
         },
-        |(kinds, text, json, sarif, (file, left_out)), last_of_file| {
+        |(kinds, text, json, sarif, (file, left_out), entry), last_of_file| {
+            if let Some(e) = entry {
+                match entries.last_mut() {
+                    Some(last) if last.file == e.file => last.absorb(e),
+                    _ => entries.push(e),
+                }
+            }
             for (severity, rule) in kinds {
                 if let Some(c) = counts.get_mut(severity) {
                     *c += 1;
@@ -81,6 +93,35 @@ pub fn run(
             }
         },
     );
+    // The checks between files, once every file is read: after the files' own diagnostics.
+    let place = |s: syzygy::source::Span| {
+        let index = db.line_index(s.file);
+        let line = index.line_col(db.text(s.file), s.start as usize).line;
+        format!("{}:{line}", db.name(s.file))
+    };
+    for d in syzygy::catalogue::check(&entries, &place) {
+        if let Some(c) = counts.get_mut(d.severity as usize) {
+            *c += 1;
+        }
+        if let Some(c) = Rule::ALL
+            .iter()
+            .position(|r| *r == d.rule)
+            .and_then(|i| rule_counts.get_mut(i))
+        {
+            *c += 1;
+        }
+        let places = syzygy::source::Places::new(db, d.span.file);
+        match format {
+            CheckFormat::Human => {
+                let text = render::diagnostic(db, &db.line_index(d.span.file), &d, color);
+                let _ = out.write_all(text.as_bytes());
+            }
+            CheckFormat::Json => {
+                json_diags.push(syzygy::report::json::Diagnostic::new(&d, &places))
+            }
+            CheckFormat::Sarif => sarif_results.push(sarif::result(&d, &places)),
+        }
+    }
     let (notes, warnings, errors) = (counts[0], counts[1], counts[2]);
     // Counts per rule id, in the catalogue's order (the order of docs/rules.md).
     let per_rule: Vec<(&'static str, usize)> = Rule::ALL

@@ -90,12 +90,12 @@ fn compare(req: &Request, flags: &Layer, read: files::ReadArgs) -> Result<u8, St
     // The settings of the new side, for both: the same project file, flags and seed, so
     // that an unchanged file gives the same numbers. Values set on the command line are
     // for the new side only.
-    let new_settings = config_file::resolve(&new.loaded.db, flags)?;
+    let new_settings = config_file::resolve(&new.loaded, flags)?;
     let plain = Layer {
         what_if: Vec::new(),
         ..flags.clone()
     };
-    let fallback = config_file::resolve(&new.loaded.db, &plain)?
+    let fallback = config_file::resolve(&new.loaded, &plain)?
         .into_iter()
         .next()
         .unwrap_or_else(|| Settings::resolve(None, &plain));

@@ -74,6 +74,8 @@ pub struct Loaded {
     pub db: MemoryDb,
     /// One line per path that could not be read.
     pub errors: Vec<String>,
+    /// The size limit the files were read with (shared reference files are read with it too).
+    pub max_file_size: u64,
 }
 
 /// Collect the files named (folders recursively, `*.syz` only, in sorted order) and read them.
@@ -89,7 +91,7 @@ pub fn load(paths: &[PathBuf], read: ReadArgs) -> Loaded {
         }
     }
     // Read in parallel (a catalogue is thousands of small files), kept in sorted order.
-    let read: Vec<Result<String, String>> = {
+    let texts: Vec<Result<String, String>> = {
         use rayon::prelude::*;
         files
             .par_iter()
@@ -97,7 +99,7 @@ pub fn load(paths: &[PathBuf], read: ReadArgs) -> Loaded {
             .collect()
     };
     let mut db = MemoryDb::new();
-    for (f, r) in files.iter().zip(read) {
+    for (f, r) in files.iter().zip(texts) {
         match r {
             Ok(text) => {
                 db.add(f.display().to_string(), text);
@@ -111,7 +113,11 @@ pub fn load(paths: &[PathBuf], read: ReadArgs) -> Loaded {
         let names: Vec<String> = paths.iter().map(|p| p.display().to_string()).collect();
         eprintln!("syz: warning: no .syz file found in {}", names.join(", "));
     }
-    Loaded { db, errors }
+    Loaded {
+        db,
+        errors,
+        max_file_size: read.max_file_size,
+    }
 }
 
 fn walk(
@@ -295,11 +301,11 @@ const PROGRESS_THRESHOLD: usize = 200;
 /// file (`syzygy.toml`) under the explicit flags; the result keeps the files' (sorted) order.
 /// An unreadable or invalid project file is an error naming it.
 pub fn analyze_all(
-    db: &MemoryDb,
+    loaded: &Loaded,
     flags: &syzygy::settings::Layer,
 ) -> Result<Vec<Analysis>, String> {
-    let settings = crate::config_file::resolve(db, flags)?;
-    Ok(analyze_each(db, &settings))
+    let settings = crate::config_file::resolve(loaded, flags)?;
+    Ok(analyze_each(&loaded.db, &settings))
 }
 
 /// Analyse every loaded file with its own settings (one entry per file, in file order).
@@ -335,7 +341,7 @@ pub fn for_each_analysed<T: Send>(
 /// What one worker analyses: a whole file, or a part of one already read.
 enum Unit<'a> {
     Whole(FileId, &'a Settings),
-    Part(syzygy::parts::Part, &'a Settings, bool),
+    Part(Box<syzygy::parts::Part>, &'a Settings, bool),
 }
 
 fn for_each_unit<T: Send>(
@@ -355,7 +361,7 @@ fn for_each_unit<T: Send>(
                     Unit::Whole(f, settings) => (analyze(f, db.text(f), settings), true),
                     Unit::Part(part, settings, last) => {
                         let f = part.model.file;
-                        (syzygy::analyze_part(db.text(f), part, settings), last)
+                        (syzygy::analyze_part(db.text(f), *part, settings), last)
                     }
                 };
                 if let Some(p) = progress.as_ref().filter(|_| last) {
@@ -379,10 +385,12 @@ fn for_each_unit<T: Send>(
             }
             continue;
         }
-        let mut parts = syzygy::parts::Parts::new(f, text, part_bytes).peekable();
+        let mut parts = syzygy::parts::Parts::new(f, text, part_bytes)
+            .with_shared(settings.shared_refs.clone())
+            .peekable();
         while let Some(part) = parts.next() {
             bytes += part.region.end - part.region.start;
-            units.push(Unit::Part(part, settings, parts.peek().is_none()));
+            units.push(Unit::Part(Box::new(part), settings, parts.peek().is_none()));
             if units.len() >= BATCH || bytes >= BATCH_BYTES {
                 run(&mut units, &mut bytes, &mut sink);
             }
@@ -423,7 +431,7 @@ pub fn load_with_settings(
     read: ReadArgs,
 ) -> Option<(Loaded, Vec<syzygy::Settings>)> {
     let loaded = load(paths, read);
-    match crate::config_file::resolve(&loaded.db, flags) {
+    match crate::config_file::resolve(&loaded, flags) {
         Ok(settings) => Some((loaded, settings)),
         Err(e) => {
             report_io_errors(&loaded.errors);
@@ -463,7 +471,7 @@ pub fn one_body(
         return Err((2, lines.join("\nsyz: ")));
     }
     let settings =
-        crate::config_file::resolve(&loaded.db, flags).map_err(|e| (2, format!("error: {e}")))?;
+        crate::config_file::resolve(&loaded, flags).map_err(|e| (2, format!("error: {e}")))?;
     let mut analyses = analyze_each(&loaded.db, &settings);
     let (Some(analysis), Some(settings)) = (analyses.pop(), settings.into_iter().next()) else {
         return Err((2, format!("{}: nothing to read", file.display())));

@@ -80,7 +80,11 @@ pub fn load(rev: &str, paths: &[PathBuf], limit: u64) -> Result<Loaded, String> 
             shown.join(", ")
         );
     }
-    Ok(Loaded { db, errors })
+    Ok(Loaded {
+        db,
+        errors,
+        max_file_size: limit,
+    })
 }
 
 /// The commit a revision names, as a hex object id; an error naming the revision when it

@@ -200,6 +200,7 @@ impl EngineArgs {
             consistency_sigma: self.sigma,
             consistency_error_sigma: self.error_sigma,
             source_choice: None,
+            reference_files: None,
             overrides: self.overrides(),
             what_if: self.set.clone(),
         }

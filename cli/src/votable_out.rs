@@ -231,7 +231,11 @@ pub fn rows(a: &Analysis, db: &dyn SourceDb, which: TableArg) -> (String, Vec<[S
         .model
         .refs
         .iter()
-        .map(|r| [file.to_string(), r.id.clone(), r.text.clone()])
+        // A shared reference is listed once, under the shared file that declares it.
+        .map(|r| {
+            let declared_in = r.shared.as_ref().map_or(file, |s| s.file.as_str());
+            [declared_in.to_string(), r.id.clone(), r.text.clone()]
+        })
         .collect();
     (out, refs)
 }

@@ -70,6 +70,7 @@ rules! {
     UnknownQuantity = "unknown-quantity", Error, "A property name that is not a quantity of this kind of body.";
     UnknownBody = "unknown-body", Error, "A reference to a body that is not declared in this system.";
     UnknownRef = "unknown-ref", Error, "A citation of a reference id that the file does not declare.";
+    RefShadowsShared = "ref-shadows-shared", Warning, "A file's own reference has the id of a shared reference but another text.";
     UnknownName = "unknown-name", Error, "A name in an expression that is neither a let binding nor a constant.";
     Duplicate = "duplicate", Error, "The same body, reference, binding or quantity is declared twice.";
     OutOfRange = "out-of-range", Error, "A declared value lies outside the range the quantity can take.";
@@ -89,6 +90,9 @@ rules! {
     UnstableSpacing = "unstable-spacing", Warning, "Neighbouring planets are closer than 2 sqrt(3) mutual Hill radii.";
     ImplausibleStar = "implausible-star", Warning, "No main-sequence or evolved star combines this mass, radius and temperature.";
     UnusedAllow = "unused-allow", Warning, "A silencing comment that no longer silences anything.";
+    SystemInTwoFiles = "system-in-two-files", Warning, "A system of the same name is declared in another file of the catalogue.";
+    StarDisagreesAcrossFiles = "star-disagrees-across-files", Warning, "A star of the same id is declared in another file with values that disagree.";
+    PaperUnderTwoIds = "paper-under-two-ids", Note, "One reference text is declared under two ids.";
 }
 
 /// A secondary location with a message.

@@ -11,6 +11,7 @@
 // The stages of the pipeline, each in its folder: text to tree, tree to model, model to
 // derived values, checks, output, editor features, incremental analysis.
 pub mod allow;
+pub mod catalogue;
 pub mod checks;
 pub mod derive;
 pub mod ide;
@@ -85,7 +86,7 @@ impl Analysis {
 ///
 /// [`analyze_reusing`] gives the same analysis while reusing the work of an earlier one.
 pub fn analyze(file: source::FileId, src: &str, settings: &Settings) -> Analysis {
-    analyze_part(src, parse_and_lower(file, src), settings)
+    analyze_part(src, parse_and_lower(file, src, settings), settings)
 }
 
 /// [`analyze`] for one part of a file read in parts ([`parts::Parts`]): what a file too
@@ -115,10 +116,15 @@ pub(crate) struct SystemOutput {
 }
 
 /// The whole file as one part: parsed and lowered.
-fn parse_and_lower(file: source::FileId, src: &str) -> parts::Part {
+fn parse_and_lower(file: source::FileId, src: &str, settings: &Settings) -> parts::Part {
     let parsed = parser::parse(file, src);
     let mut diagnostics = parsed.diagnostics;
-    let model = model::lower(file, &parsed.file, &mut diagnostics);
+    let model = model::Lowering::with_shared(settings.shared_refs.clone()).lower(
+        file,
+        &parsed.file,
+        None,
+        &mut diagnostics,
+    );
     parts::Part {
         region: source::Region::whole(src),
         ast: parsed.file,

@@ -88,6 +88,13 @@ impl<'a> Parts<'a> {
         }
     }
 
+    /// Citations may also name these shared references (the project's, see
+    /// [`crate::catalogue::shared`]).
+    pub fn with_shared(mut self, shared: std::sync::Arc<crate::catalogue::SharedRefs>) -> Self {
+        self.lowering = Lowering::with_shared(shared);
+        self
+    }
+
     /// Where the next part starts, given where its first declaration starts: at the first
     /// of the blank and comment-only lines right above that declaration's line. A comment on
     /// a line of its own covers the next line of code, so those comments belong with the

@@ -93,7 +93,7 @@ pub fn analyze_reusing(
     previous: Option<&Reusable>,
 ) -> (Analysis, Reusable) {
     let options = &settings.options;
-    let mut part = crate::parse_and_lower(file, src);
+    let mut part = crate::parse_and_lower(file, src, settings);
     crate::what_if::apply(&mut part.model, src, &settings.what_if);
     let model = &part.model;
     let lines = crate::derive::Lines::new(src, &part.region, &model.systems);

@@ -23,13 +23,18 @@
 //!
 //! [sources]
 //! choice = "most-precise"       # most-precise | last | weighted-mean
+//!
+//! [references]
+//! files = ["references.syz"]    # shared references, relative to this file's folder
 //! ```
 
+use crate::catalogue::SharedRefs;
 use crate::derive::{Options, Propagation, SourceChoice};
 use crate::diagnostic::{Diagnostic, Rule, Severity, SeverityOverride};
 use crate::source::{FileId, Span};
 use serde::Deserialize;
 use std::collections::BTreeMap;
+use std::sync::Arc;
 
 /// The name front ends look for.
 pub const FILE_NAME: &str = "syzygy.toml";
@@ -43,6 +48,14 @@ struct Raw {
     derivation: RawDerivation,
     #[serde(default)]
     sources: RawSources,
+    #[serde(default)]
+    references: RawReferences,
+}
+
+#[derive(Debug, Clone, Default, PartialEq, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawReferences {
+    files: Option<Vec<String>>,
 }
 
 #[derive(Debug, Clone, Default, PartialEq, Deserialize)]
@@ -76,6 +89,9 @@ pub struct Layer {
     pub source_choice: Option<SourceChoice>,
     /// Values set for one run in place of the files' (`--set`; never from a project file).
     pub what_if: Vec<crate::what_if::WhatIf>,
+    /// The shared reference files (`[references] files`), relative to the project file's
+    /// folder, as written.
+    pub reference_files: Option<Vec<String>>,
 }
 
 impl Layer {
@@ -154,7 +170,14 @@ fn parse(text: &str) -> Result<Layer, String> {
             )
         })?),
     };
+    let reference_files = raw.references.files;
+    for f in reference_files.iter().flatten() {
+        if f.trim().is_empty() {
+            return Err("[references]: files: a file name cannot be empty".to_string());
+        }
+    }
     Ok(Layer {
+        reference_files,
         overrides,
         source_choice,
         propagation,
@@ -166,7 +189,8 @@ fn parse(text: &str) -> Result<Layer, String> {
     })
 }
 
-/// Everything an analysis is run with: the derivation options and the severity overrides.
+/// Everything an analysis is run with: the derivation options, the severity overrides and
+/// the project's shared references.
 #[derive(Debug, Clone, Default, PartialEq)]
 pub struct Settings {
     pub options: Options,
@@ -174,14 +198,22 @@ pub struct Settings {
     pub overrides: Vec<SeverityOverride>,
     /// Values set for this run in place of the files' (`--set`; see [`crate::what_if`]).
     pub what_if: Vec<crate::what_if::WhatIf>,
+    /// The shared reference files the project file names, relative to its folder, as
+    /// written. The front end reads them and fills `shared_refs`.
+    pub reference_files: Vec<String>,
+    /// The references of those files, which citations find after the file's own.
+    pub shared_refs: Arc<SharedRefs>,
+    /// The project file that applies, by path, as the front end found it: the files under one
+    /// project file form a catalogue, whose files are compared with each other
+    /// ([`crate::catalogue::across`]). `None`: no project file, no comparison.
+    pub catalogue: Option<String>,
 }
 
 impl From<Options> for Settings {
     fn from(options: Options) -> Settings {
         Settings {
             options,
-            overrides: Vec::new(),
-            what_if: Vec::new(),
+            ..Settings::default()
         }
     }
 }
@@ -225,6 +257,9 @@ impl Settings {
         if let Some(c) = layer.source_choice {
             o.source_choice = c;
         }
+        if let Some(files) = &layer.reference_files {
+            self.reference_files = files.clone();
+        }
         self.overrides.extend(layer.overrides.iter().copied());
         self.what_if.extend(layer.what_if.iter().cloned());
         self
@@ -258,6 +293,15 @@ impl ProjectFileError {
         ProjectFileError {
             path: path.to_string(),
             reason: format!("cannot be read: {why}"),
+        }
+    }
+
+    /// A shared reference file the project file names (`[references] files`) could not be
+    /// read; `why` names the file and says why.
+    pub fn shared_unreadable(project: &str, why: impl std::fmt::Display) -> ProjectFileError {
+        ProjectFileError {
+            path: project.to_string(),
+            reason: format!("[references]: {why}"),
         }
     }
 
@@ -409,6 +453,13 @@ mod tests {
         assert!(layer("[derivaton]\n").is_err());
         assert!(layer("not toml [").is_err());
         assert_eq!(layer("").unwrap(), Layer::default());
+        assert!(layer("[references]\nfiles = [\" \"]\n").is_err());
+        assert!(layer("[references]\nfile = [\"r.syz\"]\n").is_err());
+        let shared = layer("[references]\nfiles = [\"r.syz\", \"more/s.syz\"]\n").unwrap();
+        assert_eq!(
+            Settings::resolve(Some(&shared), &Layer::default()).reference_files,
+            vec!["r.syz", "more/s.syz"]
+        );
         assert_eq!(
             ProjectFileError::unreadable("a/syzygy.toml", "permission denied").to_string(),
             "a/syzygy.toml: cannot be read: permission denied"

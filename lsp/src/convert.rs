@@ -34,6 +34,19 @@ pub fn diagnostics(
 }
 
 pub fn diagnostic(d: &Diagnostic, snap: &Snapshot, uri: &Url, enc: Encoding) -> lsp::Diagnostic {
+    diagnostic_in(d, &|_| Some((uri, snap)), enc)
+        .unwrap_or_else(|| lsp::Diagnostic::new_simple(snap.range(d.span, enc), d.message.clone()))
+}
+
+/// A diagnostic whose spans may lie in several files: `file` gives each span's file (its
+/// URI and text); `None` when the primary span's file is unknown. A label in an unknown file
+/// is left out.
+pub fn diagnostic_in<'a>(
+    d: &Diagnostic,
+    file: &dyn Fn(syzygy::source::FileId) -> Option<(&'a Url, &'a Snapshot)>,
+    enc: Encoding,
+) -> Option<lsp::Diagnostic> {
+    let (_, snap) = file(d.span.file)?;
     let mut message = d.message.clone();
     for n in &d.notes {
         message.push_str(&format!("\nnote: {n}"));
@@ -44,15 +57,18 @@ pub fn diagnostic(d: &Diagnostic, snap: &Snapshot, uri: &Url, enc: Encoding) -> 
     let related: Vec<lsp::DiagnosticRelatedInformation> = d
         .labels
         .iter()
-        .map(|l| lsp::DiagnosticRelatedInformation {
-            location: lsp::Location {
-                uri: uri.clone(),
-                range: snap.range(l.span, enc),
-            },
-            message: l.message.clone(),
+        .filter_map(|l| {
+            let (uri, at) = file(l.span.file)?;
+            Some(lsp::DiagnosticRelatedInformation {
+                location: lsp::Location {
+                    uri: uri.clone(),
+                    range: at.range(l.span, enc),
+                },
+                message: l.message.clone(),
+            })
         })
         .collect();
-    lsp::Diagnostic {
+    Some(lsp::Diagnostic {
         range: snap.range(d.span, enc),
         severity: Some(match d.severity {
             Severity::Error => lsp::DiagnosticSeverity::ERROR,
@@ -66,7 +82,7 @@ pub fn diagnostic(d: &Diagnostic, snap: &Snapshot, uri: &Url, enc: Encoding) -> 
         related_information: (!related.is_empty()).then_some(related),
         tags: (d.rule == Rule::UnusedAllow).then(|| vec![lsp::DiagnosticTag::UNNECESSARY]),
         data: None,
-    }
+    })
 }
 
 pub fn completion_kind(k: CompletionKind) -> lsp::CompletionItemKind {

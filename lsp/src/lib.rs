@@ -2,12 +2,14 @@
 //!
 //! A thin front end over the core: [`documents`] keeps open buffers as immutable snapshots,
 //! [`project`] finds and reads the `syzygy.toml` of each (the core parses and layers it),
+//! [`catalogue`] runs the core's checks between the files of the workspace folders,
 //! [`server`] converts protocol requests into calls of `syzygy::ide` and back, [`convert`]
 //! maps core data to protocol types, and [`transport`] filters stdin for the quirks of
 //! tower-lsp 0.20. No language or physics logic lives here.
 
 #![cfg_attr(test, allow(clippy::unwrap_used, clippy::indexing_slicing))]
 
+pub mod catalogue;
 pub mod convert;
 pub mod documents;
 pub mod project;

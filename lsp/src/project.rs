@@ -68,7 +68,62 @@ enum Stamp {
 
 struct Cached {
     stamp: Stamp,
+    /// The shared reference files the project file names, with their stamps when read.
+    shared: Stamps,
     project: Arc<Project>,
+}
+
+/// The stamp of a file on disk, `None` when it cannot be looked at.
+fn disk_stamp(path: &Path) -> Option<Stamp> {
+    std::fs::metadata(path).ok().map(|m| Stamp::Disk {
+        modified: m.modified().ok(),
+        len: m.len(),
+    })
+}
+
+/// The largest shared reference file read (as `syz`'s default `--max-file-size`).
+const MAX_SHARED_BYTES: u64 = 256 << 20;
+
+/// Shared reference files with their stamps when read.
+type Stamps = Vec<(PathBuf, Option<Stamp>)>;
+
+/// The shared references a project file names, read from disk relative to its folder.
+fn read_shared(
+    file: &Path,
+    names: &[String],
+) -> (
+    Stamps,
+    Result<Arc<syzygy::catalogue::SharedRefs>, ProjectFileError>,
+) {
+    let dir = file.parent().unwrap_or(Path::new("."));
+    let paths: Vec<PathBuf> = names.iter().map(|n| dir.join(n)).collect();
+    let stamps = paths.iter().map(|p| (p.clone(), disk_stamp(p))).collect();
+    let mut texts = Vec::new();
+    for p in &paths {
+        let shown = p.display().to_string();
+        let text = match std::fs::metadata(p) {
+            Ok(m) if m.len() > MAX_SHARED_BYTES => Err(format!(
+                "{shown}: larger than {MAX_SHARED_BYTES} bytes; skipped"
+            )),
+            _ => std::fs::read_to_string(p).map_err(|e| format!("{shown}: {e}")),
+        };
+        match text {
+            Ok(t) => texts.push((shown, t)),
+            Err(why) => {
+                return (
+                    stamps,
+                    Err(ProjectFileError::shared_unreadable(
+                        &file.display().to_string(),
+                        why,
+                    )),
+                )
+            }
+        }
+    }
+    let shared = syzygy::catalogue::SharedRefs::from_files(
+        texts.iter().map(|(n, t)| (n.as_str(), t.as_str())),
+    );
+    (stamps, Ok(Arc::new(shared)))
 }
 
 #[derive(Default)]
@@ -97,6 +152,11 @@ impl Projects {
         if let Ok(p) = uri.to_file_path() {
             lock(&self.roots).push(p);
         }
+    }
+
+    /// The roots of the workspace folders.
+    pub fn roots(&self) -> Vec<PathBuf> {
+        lock(&self.roots).clone()
     }
 
     pub fn remove_root(&self, uri: &Url) {
@@ -152,7 +212,7 @@ impl Projects {
             },
         };
         if let Some(c) = lock(&self.cache).get(&file) {
-            if c.stamp == stamp {
+            if c.stamp == stamp && c.shared.iter().all(|(p, st)| disk_stamp(p) == *st) {
                 return c.project.clone();
             }
         }
@@ -164,11 +224,30 @@ impl Projects {
             }
         };
         let layer = text.and_then(|t| Layer::from_project_file(&name, &t).map(Some));
-        let project = Arc::new(Project::new(Some(file.clone()), layer));
+        let names = match &layer {
+            Ok(Some(l)) => l.reference_files.clone().unwrap_or_default(),
+            _ => Vec::new(),
+        };
+        let (shared, refs) = read_shared(&file, &names);
+        let project = match refs {
+            Ok(refs) => {
+                let mut p = Project::new(Some(file.clone()), layer);
+                if p.error.is_none() {
+                    p.editor.settings.shared_refs = refs;
+                    // Files under one project file form a catalogue, compared with each
+                    // other (a project file with a mistake stops `syz check` before that).
+                    p.editor.settings.catalogue = Some(file.display().to_string());
+                }
+                p
+            }
+            Err(e) => Project::new(Some(file.clone()), Err(e)),
+        };
+        let project = Arc::new(project);
         lock(&self.cache).insert(
             file,
             Cached {
                 stamp,
+                shared,
                 project: project.clone(),
             },
         );

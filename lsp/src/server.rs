@@ -2,6 +2,7 @@
 //! types out. Document text is updated synchronously at the top of each notification (before
 //! any `.await`), because tower-lsp runs handlers concurrently.
 
+use crate::catalogue::Catalogue;
 use crate::convert;
 use crate::documents::{Documents, Encoding, Snapshot};
 use crate::project::{project_file_path, Projects};
@@ -29,6 +30,8 @@ struct State {
     projects: Projects,
     /// Whether the client lets the server register for changes of project files.
     can_watch: OnceLock<bool>,
+    /// The checks between the files of the workspace folders.
+    catalogue: Catalogue,
 }
 
 impl State {
@@ -65,30 +68,127 @@ impl Backend {
             if !state.docs.is_current(&uri, snap.generation) {
                 return;
             }
+            // The document's entry in the checks between files, then its own diagnostics
+            // with the findings between files placed in it.
+            let roots = state.projects.roots();
+            let changed = if roots.is_empty() {
+                Vec::new()
+            } else {
+                let (st, u, sn, a) = (state.clone(), uri.clone(), snap.clone(), analysis.clone());
+                tokio::task::spawn_blocking(move || {
+                    st.catalogue.update(&u, sn, &a, &roots);
+                    st.catalogue.recompute(st.enc(), &roots)
+                })
+                .await
+                .unwrap_or_default()
+            };
+            if !state.docs.is_current(&uri, snap.generation) {
+                return;
+            }
             let enc = state.enc();
-            let diags = convert::diagnostics(&analysis.diagnostics, &snap, &uri, enc);
+            let mut diags = convert::diagnostics(&analysis.diagnostics, &snap, &uri, enc);
+            diags.extend(state.catalogue.findings(&uri));
             client
-                .publish_diagnostics(uri, diags, Some(snap.version))
+                .publish_diagnostics(uri.clone(), diags, Some(snap.version))
                 .await;
+            for other in changed.into_iter().filter(|u| *u != uri) {
+                publish(&state, &client, other).await;
+            }
+        });
+    }
+
+    /// Read the workspace folders' files again and compare them, in the background; publish
+    /// on the files whose findings changed.
+    fn rescan(&self) {
+        let state = self.state.clone();
+        let client = self.client.clone();
+        tokio::spawn(async move {
+            let st = state.clone();
+            let scanned = tokio::task::spawn_blocking(move || {
+                let roots = st.projects.roots();
+                st.catalogue.keep_under(&roots);
+                let over = st.catalogue.scan(&roots, &st.projects);
+                (over, st.catalogue.recompute(st.enc(), &roots))
+            })
+            .await;
+            let Ok((over, changed)) = scanned else {
+                return;
+            };
+            if over {
+                client
+                    .log_message(
+                        MessageType::WARNING,
+                        format!(
+                            "the workspace folders hold more .syz files than are compared with each other (at most {} files, {} MiB together): the first by path are compared",
+                            crate::catalogue::MAX_FILES,
+                            crate::catalogue::MAX_TOTAL_BYTES >> 20
+                        ),
+                    )
+                    .await;
+            }
+            for uri in changed {
+                publish(&state, &client, uri).await;
+            }
+        });
+    }
+
+    /// A file closed or changed on disk: compare it as it is on disk, in the background.
+    fn reload(&self, uris: Vec<Url>) {
+        let state = self.state.clone();
+        let client = self.client.clone();
+        tokio::spawn(async move {
+            let st = state.clone();
+            let reloaded = uris.clone();
+            let changed = tokio::task::spawn_blocking(move || {
+                for u in &reloaded {
+                    st.catalogue.reload(u, &st.projects);
+                }
+                st.catalogue.recompute(st.enc(), &st.projects.roots())
+            })
+            .await
+            .unwrap_or_default();
+            let mut all: Vec<Url> = uris;
+            all.extend(changed);
+            all.sort();
+            all.dedup();
+            for uri in all {
+                publish(&state, &client, uri).await;
+            }
         });
     }
 
     /// Analyse again, and publish anew, every open document whose project changed (a project
     /// file was changed, created, deleted, or opened or closed in the editor).
     fn refresh_projects(&self) {
-        for (uri, snap, replaced) in self.state.docs.refresh(&self.state.projects) {
+        let refreshed = self.state.docs.refresh(&self.state.projects);
+        let any = !refreshed.is_empty();
+        for (uri, snap, replaced) in refreshed {
             self.schedule_diagnostics(uri, snap);
             tokio::task::spawn_blocking(move || drop(replaced));
+        }
+        if any {
+            // Closed files under a changed project are compared under its new settings.
+            self.rescan();
         }
     }
 
     /// Ask the client to report changes of project files (`**/syzygy.toml`).
     fn watch_project_files(&self) {
         let options = DidChangeWatchedFilesRegistrationOptions {
-            watchers: vec![FileSystemWatcher {
-                glob_pattern: GlobPattern::String(format!("**/{}", syzygy::settings::FILE_NAME)),
-                kind: None,
-            }],
+            watchers: vec![
+                FileSystemWatcher {
+                    glob_pattern: GlobPattern::String(format!(
+                        "**/{}",
+                        syzygy::settings::FILE_NAME
+                    )),
+                    kind: None,
+                },
+                // Closed catalogue files, for the checks between files.
+                FileSystemWatcher {
+                    glob_pattern: GlobPattern::String("**/*.syz".to_string()),
+                    kind: None,
+                },
+            ],
         };
         let registration = Registration {
             id: "syzygy-project-files".to_string(),
@@ -131,6 +231,27 @@ async fn analysis_of(snap: &Arc<Snapshot>) -> Option<Arc<syzygy::Analysis>> {
     })
     .await
     .ok()
+}
+
+/// Publish a file's diagnostics after its findings between files changed: an open
+/// document's own (if analysed; else its own publication follows) with the findings, a closed
+/// file's findings alone.
+async fn publish(state: &Arc<State>, client: &Client, uri: Url) {
+    let enc = state.enc();
+    let findings = state.catalogue.findings(&uri);
+    match state.docs.get(&uri) {
+        Some(snap) => {
+            let Some(analysis) = snap.analysis_ready() else {
+                return;
+            };
+            let mut diags = convert::diagnostics(&analysis.diagnostics, &snap, &uri, enc);
+            diags.extend(findings);
+            client
+                .publish_diagnostics(uri, diags, Some(snap.version))
+                .await;
+        }
+        None => client.publish_diagnostics(uri, findings, None).await,
+    }
 }
 
 async fn ready(snap: &Arc<Snapshot>) -> Result<Arc<syzygy::Analysis>> {
@@ -248,6 +369,8 @@ impl LanguageServer for Backend {
         if self.state.can_watch.get() == Some(&true) {
             self.watch_project_files();
         }
+        // Compare the files of the workspace folders in the background.
+        self.rescan();
         self.client
             .log_message(MessageType::INFO, "syzygy language server ready")
             .await;
@@ -323,7 +446,11 @@ impl LanguageServer for Backend {
             return;
         }
         self.state.docs.close(&uri);
-        self.client.publish_diagnostics(uri, Vec::new(), None).await;
+        self.client
+            .publish_diagnostics(uri.clone(), Vec::new(), None)
+            .await;
+        // Under a workspace folder, the file on disk takes its place among the files compared.
+        self.reload(vec![uri]);
     }
 
     async fn did_change_workspace_folders(&self, params: DidChangeWorkspaceFoldersParams) {
@@ -335,6 +462,7 @@ impl LanguageServer for Backend {
         }
         // The folders bound the search for project files.
         self.refresh_projects();
+        self.rescan();
     }
 
     async fn did_change_watched_files(&self, params: DidChangeWatchedFilesParams) {
@@ -349,6 +477,16 @@ impl LanguageServer for Backend {
         }
         if projects {
             self.refresh_projects();
+        }
+        // A closed .syz file changed on disk: compare it as it now is.
+        let changed: Vec<Url> = params
+            .changes
+            .iter()
+            .filter(|c| c.uri.path().ends_with(".syz") && self.state.docs.get(&c.uri).is_none())
+            .map(|c| c.uri.clone())
+            .collect();
+        if !changed.is_empty() {
+            self.reload(changed);
         }
         // Open documents are served from the editor's buffer, so a file deleted or changed
         // on disk changes nothing here until the editor says so.

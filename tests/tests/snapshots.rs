@@ -32,6 +32,11 @@ const SHOWN_ELSEWHERE: &[(&str, &str)] = &[
     // A project file that cannot be used: `syz check` stops with a sentence on stderr, and
     // the language server reports it on each document as rule `io`.
     ("io", "lsp_project_file.rs"),
+    // Checks that need a project file or several files: a catalogue in a scratch folder.
+    ("ref-shadows-shared", "catalogue.rs"),
+    ("system-in-two-files", "catalogue.rs"),
+    ("star-disagrees-across-files", "catalogue.rs"),
+    ("paper-under-two-ids", "catalogue.rs"),
 ];
 
 /// Every rule of the rule table has a demo or fixture that triggers it, so a new rule must

@@ -85,7 +85,7 @@ pub(super) fn draw(
 ) -> Result<String, Stop> {
     let loaded = files::load(paths, read);
     files::report_io_errors(&loaded.errors);
-    let analyses = files::analyze_all(&loaded.db, flags).map_err(Stop::settings)?;
+    let analyses = files::analyze_all(&loaded, flags).map_err(Stop::settings)?;
     let (points, mut left_out) = plots::mass_radius_points(&analyses);
     // Only what fits the diagram's widest axes is drawn; the rest is said.
     let (points, beyond): (Vec<_>, Vec<_>) = points

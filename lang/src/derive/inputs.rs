@@ -289,17 +289,7 @@ impl<'m> Derivation<'m> {
                     continue;
                 };
                 let name = format!("{}.{}", body.id, quantities::def(later.qty).name);
-                let apart = if z.is_finite() && (a.form.is_limit() || b.form.is_limit()) {
-                    format!(
-                        "disagree: the measurement lies {z:.1} standard deviations past the limit"
-                    )
-                } else if z.is_finite() {
-                    format!("differ by {z:.1} combined standard deviations")
-                } else if a.form.is_limit() && b.form.is_limit() {
-                    "exclude each other".to_string()
-                } else {
-                    "differ, and neither gives an uncertainty".to_string()
-                };
+                let apart = sources::apart_words(z, &a, &b);
                 self.diagnostics.push(
                     Diagnostic::new(
                         Rule::SourcesDisagree,

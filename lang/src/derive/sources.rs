@@ -285,6 +285,20 @@ pub fn words(
     format!("{name}: {n} sources; {how}")
 }
 
+/// How two measurements `z` combined standard deviations apart ([`separation`]) differ, in
+/// words that follow "a and b": `differ by 4.2 combined standard deviations`.
+pub fn apart_words(z: f64, a: &Measurement, b: &Measurement) -> String {
+    if z.is_finite() && (a.form.is_limit() || b.form.is_limit()) {
+        format!("disagree: the measurement lies {z:.1} standard deviations past the limit")
+    } else if z.is_finite() {
+        format!("differ by {z:.1} combined standard deviations")
+    } else if a.form.is_limit() && b.form.is_limit() {
+        "exclude each other".to_string()
+    } else {
+        "differ, and neither gives an uncertainty".to_string()
+    }
+}
+
 /// How far apart two declarations of one quantity are, in combined standard deviations:
 /// two measurements by the sides that face each other, added in quadrature; a measurement
 /// and a limit by how far the measurement lies on the wrong side of the limit, in its own

@@ -157,17 +157,28 @@ pub fn complete(a: &Analysis, src: &str, offset: usize) -> Vec<Completion> {
             .filter(|t| t.kind == Tok::Ident)
             .map(text)
             .collect();
-        for r in a
-            .model
-            .refs
-            .iter()
-            .filter(|r| !cited.contains(&r.id.as_str()))
-        {
+        let own = a.model.refs.iter().filter(|r| r.shared.is_none());
+        for r in own.clone().filter(|r| !cited.contains(&r.id.as_str())) {
             out.push(Completion {
                 label: r.id.clone(),
                 kind: CompletionKind::Ref,
                 detail: r.text.clone(),
                 doc: format!("reference `{}`: {}", r.id, r.text),
+                replace,
+            });
+        }
+        // Then the project's shared references the file's own do not hide.
+        for r in a
+            .model
+            .shared
+            .iter()
+            .filter(|r| !cited.contains(&r.id.as_str()) && !own.clone().any(|o| o.id == r.id))
+        {
+            out.push(Completion {
+                label: r.id.clone(),
+                kind: CompletionKind::Ref,
+                detail: r.text.clone(),
+                doc: format!("shared reference `{}` ({}): {}", r.id, r.place(), r.text),
                 replace,
             });
         }

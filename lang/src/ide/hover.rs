@@ -40,7 +40,14 @@ pub fn hover(
         ),
         Symbol::Unit(sym) => unit(sym),
         Symbol::Ref(id) => match a.model.refs.iter().find(|r| &r.id == id) {
-            Some(r) => format!("**reference `{id}`**\n\n{}", r.text),
+            Some(r) => match &r.shared {
+                Some(at) => format!(
+                    "**reference `{id}`** (shared, declared in {})\n\n{}",
+                    at.place(),
+                    r.text
+                ),
+                None => format!("**reference `{id}`**\n\n{}", r.text),
+            },
             None => format!("**reference `{id}`** is not declared in this file"),
         },
         Symbol::Let { system, body, name } => binding(a, *system, body.as_deref(), name)?,

@@ -11,6 +11,7 @@ mod value;
 pub mod what_if;
 
 use crate::ast::{self, BodyKind};
+use crate::catalogue::SharedRefs;
 use crate::diagnostic::{Diagnostic, Rule};
 use crate::quantities::{self, Qty};
 use crate::source::{FileId, Span};
@@ -18,6 +19,7 @@ use crate::units::Dimension;
 pub use resolve::{Func, LetId, Node, Resolved, UncertainLiteral};
 use rustc_hash::FxHashMap;
 use std::collections::HashMap;
+use std::sync::Arc;
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum Form {
@@ -151,14 +153,21 @@ impl System {
 pub struct RefInfo {
     pub id: String,
     pub text: String,
+    /// The declaration; for a shared reference, the first citation of it in this file.
     pub span: Span,
     pub id_span: Span,
+    /// For a shared reference (declared in a file the project file names): that declaration.
+    /// `None` for the file's own.
+    pub shared: Option<crate::catalogue::SharedRef>,
 }
 
 #[derive(Debug, Clone, PartialEq, Default)]
 pub struct Model {
     pub file: FileId,
+    /// The file's own references, then the shared references it cites.
     pub refs: Vec<RefInfo>,
+    /// Every shared reference the file could cite (for completion).
+    pub shared: Arc<SharedRefs>,
     pub systems: Vec<System>,
     pub comments: Vec<ast::Comment>,
 }
@@ -204,9 +213,18 @@ pub fn lower(file: FileId, ast: &ast::File, diags: &mut Vec<Diagnostic>) -> Mode
 pub struct Lowering {
     systems: HashMap<String, Span>,
     refs: HashMap<String, Span>,
+    shared: Arc<SharedRefs>,
 }
 
 impl Lowering {
+    /// Lowering where citations may also name the project's shared references.
+    pub fn with_shared(shared: Arc<SharedRefs>) -> Lowering {
+        Lowering {
+            shared,
+            ..Lowering::default()
+        }
+    }
+
     /// Lower the declarations of `ast`. `all_refs` are the file's references when `ast` is
     /// only a part of it (read ahead, so a citation may name a reference declared later in
     /// the file); `None` when `ast` is the whole file.
@@ -220,6 +238,7 @@ impl Lowering {
         let mut model = Model {
             file,
             comments: ast.comments.clone(),
+            shared: self.shared.clone(),
             ..Model::default()
         };
         for r in &ast.refs {
@@ -235,11 +254,15 @@ impl Lowering {
                 continue;
             }
             self.refs.insert(r.id.name.clone(), r.id.span);
+            if let Some(d) = shadowing(r, &self.shared) {
+                diags.push(d);
+            }
             model.refs.push(ref_info(r));
         }
         if let Some(all) = all_refs {
             model.refs = all.to_vec();
         }
+        let own = model.refs.len();
         for s in &ast.systems {
             if !s.name.is_empty() {
                 if let Some(prev) = self.systems.get(s.name.as_str()) {
@@ -255,11 +278,86 @@ impl Lowering {
                     self.systems.insert(s.name.clone(), s.name_span);
                 }
             }
-            let sys = lower_system(s, &model.refs, diags);
+            let sys = lower_system(s, &model.refs, &self.shared, diags);
             model.systems.push(sys);
         }
+        add_shared_cited(&mut model, own);
         model
     }
+}
+
+/// Add to the model's references the shared ones its declarations cite (each once, placed at
+/// its first citation), after the `own` references of the file.
+fn add_shared_cited(model: &mut Model, own: usize) {
+    if model.shared.is_empty() {
+        return;
+    }
+    let mut known: std::collections::HashSet<String> =
+        model.refs.iter().take(own).map(|r| r.id.clone()).collect();
+    let mut added = Vec::new();
+    let decls = model
+        .systems
+        .iter()
+        .flat_map(|s| &s.bodies)
+        .flat_map(|b| b.declared.iter().chain(&b.further));
+    for d in decls {
+        for (id, span) in &d.citations {
+            if known.contains(id) {
+                continue;
+            }
+            if let Some(r) = model.shared.get(id) {
+                known.insert(id.clone());
+                added.push(RefInfo {
+                    id: id.clone(),
+                    text: r.text.clone(),
+                    span: *span,
+                    id_span: *span,
+                    shared: Some(r.clone()),
+                });
+            }
+        }
+    }
+    added.sort_by_key(|r| r.span.start);
+    model.refs.extend(added);
+}
+
+/// A file's own reference that has the id of a shared one with another text.
+fn shadowing(r: &ast::RefDecl, shared: &SharedRefs) -> Option<Diagnostic> {
+    let s = shared.get(&r.id.name)?;
+    if same_text(&s.text, &r.text) {
+        return None;
+    }
+    Some(
+        Diagnostic::new(
+            Rule::RefShadowsShared,
+            r.id.span,
+            format!(
+                "reference '{}' is also a shared reference ({}) with another text; this file's own is used",
+                r.id.name,
+                s.place()
+            ),
+        )
+        .with_note(format!("this file: \"{}\"; shared: \"{}\"", r.text, s.text))
+        .with_help(format!(
+            "if both are the same source, delete this `ref` and cite the shared one; else give this one another id than '{}'",
+            r.id.name
+        )),
+    )
+}
+
+/// Whether two reference texts name the same source: equal but for case and runs of white
+/// space.
+pub fn same_text(a: &str, b: &str) -> bool {
+    normalized_text(a) == normalized_text(b)
+}
+
+/// A reference text with case folded and white space collapsed, trimmed: what two citations
+/// of the same paper have in common however they were typed.
+pub fn normalized_text(t: &str) -> String {
+    t.split_whitespace()
+        .map(str::to_lowercase)
+        .collect::<Vec<_>>()
+        .join(" ")
 }
 
 /// The references of a file, as lowering keeps them: the first declaration of each id.
@@ -277,10 +375,16 @@ fn ref_info(r: &ast::RefDecl) -> RefInfo {
         text: r.text.clone(),
         span: r.span,
         id_span: r.id.span,
+        shared: None,
     }
 }
 
-fn lower_system(s: &ast::SystemDecl, refs: &[RefInfo], diags: &mut Vec<Diagnostic>) -> System {
+fn lower_system(
+    s: &ast::SystemDecl,
+    refs: &[RefInfo],
+    shared: &SharedRefs,
+    diags: &mut Vec<Diagnostic>,
+) -> System {
     let (lets, let_syntax) = lower_lets(&s.lets, diags);
     let mut sys = System {
         name: s.name.clone(),
@@ -341,7 +445,7 @@ fn lower_system(s: &ast::SystemDecl, refs: &[RefInfo], diags: &mut Vec<Diagnosti
         .enumerate()
         .map(|(bi, b)| {
             let orbits = b.orbits.as_ref().and_then(|o| resolve_host(&sys, o, diags));
-            (orbits, lower_props(b, bi, refs, &resolver, diags))
+            (orbits, lower_props(b, bi, (refs, shared), &resolver, diags))
         })
         .collect();
     drop(resolver);
@@ -448,7 +552,7 @@ fn cited(p: &ast::Prop) -> Vec<&str> {
 fn lower_props(
     b: &ast::BodyDecl,
     bi: usize,
-    refs: &[RefInfo],
+    (refs, shared): (&[RefInfo], &SharedRefs),
     resolver: &resolve::Resolver,
     diags: &mut Vec<Diagnostic>,
 ) -> Props {
@@ -493,15 +597,27 @@ fn lower_props(
         seen.entry(def.qty).or_default().push((p.name.span, cites));
         let mut citations = Vec::new();
         for c in &p.citations {
-            if refs.iter().any(|r| r.id == c.name) {
+            if refs.iter().any(|r| r.id == c.name) || shared.get(&c.name).is_some() {
                 citations.push((c.name.clone(), c.span));
             } else {
                 let mut d = Diagnostic::new(
                     Rule::UnknownRef,
                     c.span,
-                    format!("no reference '{}' is declared in this file", c.name),
+                    if shared.is_empty() {
+                        format!("no reference '{}' is declared in this file", c.name)
+                    } else {
+                        format!(
+                            "no reference '{}' is declared in this file or in the shared references ({})",
+                            c.name,
+                            shared.file_names()
+                        )
+                    },
                 );
-                d = match crate::text::closest(&c.name, refs.iter().map(|r| r.id.as_str())) {
+                let ids = refs
+                    .iter()
+                    .map(|r| r.id.as_str())
+                    .chain(shared.iter().map(|r| r.id.as_str()));
+                d = match crate::text::closest(&c.name, ids) {
                     Some(s) => d.with_help(format!("did you mean '{s}'?")),
                     None => d.with_help(format!(
                         "declare it at the top of the file: ref {} \"...\"",
