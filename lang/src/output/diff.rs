@@ -612,7 +612,8 @@ fn value_change(
     if unchanged && kind != ChangeKind::DeclaredAdded && kind != ChangeKind::DeclaredRemoved {
         return None;
     }
-    if o.value.is_finite() && n.value.is_finite() && o.form == n.form {
+    // A symmetric and an asymmetric interval compare alike; a limit only with a limit.
+    if o.value.is_finite() && n.value.is_finite() && o.form.is_limit() == n.form.is_limit() {
         let factor = shown.factor;
         change.difference = Some((n.value - o.value) / factor);
         change.shift = if o.form.is_limit() && !same_number(o.value, n.value) {

@@ -142,3 +142,38 @@ fn the_threshold_decides_what_is_listed_and_declared_changes_always_are() {
     );
     assert!(same.systems.is_empty() && !same.significant());
 }
+
+/// A value whose interval came out symmetric in one version and barely asymmetric in the
+/// other is still measured in sigma: 1.505 ± 0.072 to 1.453 (+0.070/-0.068) is a small move,
+/// not an unmeasurable change (found comparing a catalogue with a stellar mass changed).
+#[test]
+fn a_symmetric_and_an_asymmetric_interval_compare_in_sigma() {
+    let old = [system(
+        "A",
+        vec![value(
+            "transit_duration_full",
+            Origin::Derived,
+            1.505,
+            0.072,
+        )],
+        None,
+    )];
+    let mut moved = value("transit_duration_full", Origin::Derived, 1.453, 0.069);
+    moved.below = 0.068;
+    moved.above = 0.070;
+    moved.form = Form::Asymmetric;
+    let new = [system("A", vec![moved], None)];
+    let diff = compare(
+        &old,
+        &new,
+        DiffOptions {
+            threshold: 1.0,
+            all: true,
+        },
+    );
+    let change = &diff.systems[0].changes[0];
+    // Moved down: sqrt(0.072² + 0.070²) = 0.1004..., so -0.052 / 0.1004 = -0.518 sigma.
+    let s = change.shift.expect("a shift in sigma");
+    assert!((s + 0.052 / 0.072f64.hypot(0.070)).abs() < 1e-9, "{s}");
+    assert!(!change.significant);
+}
