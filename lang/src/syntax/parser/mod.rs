@@ -559,6 +559,18 @@ impl<'a> Cursor<'a> {
                     );
                     self.skip_line();
                 }
+                Some(Tok::Ref) => {
+                    let span = self.span_here();
+                    self.diags.push(
+                        Diagnostic::new(
+                            Rule::Syntax,
+                            span,
+                            "a reference is declared at the top of the file, not inside a system",
+                        )
+                        .with_help("move this `ref ID \"text\"` line above the first `system`"),
+                    );
+                    self.skip_line();
+                }
                 Some(_) => {
                     self.expect_error("'star', 'planet', 'let' or '}'");
                     self.skip_line();

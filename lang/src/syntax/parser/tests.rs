@@ -417,3 +417,23 @@ fn two_properties_on_one_line_get_help_to_split_them() {
         .unwrap_or_default()
         .contains("one property per line"));
 }
+
+#[test]
+fn a_reference_inside_a_system_is_told_where_it_goes() {
+    let diags = parse(
+        FileId(0),
+        "system \"S\" {\n  ref disc \"An invented paper\"\n  star s { mass = 1 Msun }\n}\n",
+    )
+    .diagnostics;
+    let d = diags
+        .iter()
+        .find(|d| d.message.contains("top of the file"))
+        .unwrap_or_else(|| panic!("{diags:?}"));
+    assert!(d
+        .help
+        .as_deref()
+        .unwrap_or("")
+        .contains("above the first `system`"));
+    // The rest of the system is still read.
+    assert_eq!(diags.len(), 1, "{diags:?}");
+}
