@@ -14,6 +14,7 @@ pub fn run(
     paths: &[PathBuf],
     format: EvalFormat,
     table: TableArg,
+    compact: bool,
     flags: &Layer,
     read: files::ReadArgs,
 ) -> u8 {
@@ -36,7 +37,12 @@ pub fn run(
                 version: syzygy::report::JSON_VERSION,
                 options: syzygy::report::json::Options::new(&options),
             };
-            let mut doc = json_out::Document::start(&mut out, &head);
+            let style = if compact {
+                json_out::Style::Compact
+            } else {
+                json_out::Style::Pretty
+            };
+            let mut doc = json_out::Document::start(&mut out, &head, style);
             let mut diags = Vec::new();
             let mut shown = Shown::default();
             files::for_each_analysed(
@@ -45,7 +51,7 @@ pub fn run(
                 |a| {
                     let systems: Vec<String> = syzygy::report::systems_json(&a, db)
                         .iter()
-                        .map(json_out::pretty)
+                        .map(|s| style.render(s))
                         .collect();
                     let diagnostics = syzygy::report::diagnostics_json(&a, db);
                     (a.has_errors(), systems, diagnostics, a.file)

@@ -248,6 +248,10 @@ enum Command {
         /// Which table `--format csv` and `--format votable` write.
         #[arg(long, value_enum, default_value = "planets")]
         table: TableArg,
+        /// With `--format json`: the same document on one line, without indentation (about
+        /// half the bytes, for machines).
+        #[arg(long)]
+        compact: bool,
         #[command(flatten)]
         engine: EngineArgs,
         #[command(flatten)]
@@ -369,9 +373,10 @@ fn main() -> ExitCode {
             paths,
             format,
             table,
+            compact,
             engine,
             read,
-        } => eval_cmd::run(&paths, format, table, &engine.flags(), read),
+        } => eval_cmd::run(&paths, format, table, compact, &engine.flags(), read),
         Command::Explain {
             file,
             target,

@@ -232,3 +232,30 @@ fn the_demo_catalogue_checks_clean_with_its_project_file() {
     assert_eq!(o.status.code(), Some(1), "{}", stdout(&o));
     assert!(stdout(&o).contains("\"inconsistent\""));
 }
+
+/// `--compact` writes the same JSON document on one line: the same value, about half the bytes.
+#[test]
+fn compact_json_is_the_same_document_on_one_line() {
+    let args = |compact: bool| {
+        let mut a = vec!["eval", "--format", "json", "--propagation", "linear"];
+        if compact {
+            a.push("--compact");
+        }
+        a.push("examples/");
+        a
+    };
+    let pretty = run(&args(false));
+    let compact = run(&args(true));
+    assert_eq!(pretty.status.code(), compact.status.code());
+    let (p, c) = (stdout(&pretty), stdout(&compact));
+    assert_eq!(c.lines().count(), 1, "one line");
+    assert!(
+        c.len() * 10 < p.len() * 7,
+        "{} vs {} bytes",
+        c.len(),
+        p.len()
+    );
+    let p: serde_json::Value = serde_json::from_str(&p).unwrap();
+    let c: serde_json::Value = serde_json::from_str(&c).unwrap();
+    assert_eq!(p, c);
+}
