@@ -202,6 +202,7 @@ impl EngineArgs {
             source_choice: None,
             overrides: self.overrides(),
             what_if: self.set.clone(),
+            site: None,
         }
     }
 

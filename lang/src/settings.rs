@@ -23,6 +23,11 @@
 //!
 //! [sources]
 //! choice = "most-precise"       # most-precise | last | weighted-mean
+//!
+//! [site]                        # where `syz ephemeris` looks from
+//! latitude = 28.76              # degrees, north positive
+//! longitude = -17.88            # degrees, east positive
+//! elevation = 2300              # metres (optional, default 0)
 //! ```
 
 use crate::derive::{Options, Propagation, SourceChoice};
@@ -43,6 +48,15 @@ struct Raw {
     derivation: RawDerivation,
     #[serde(default)]
     sources: RawSources,
+    site: Option<RawSite>,
+}
+
+#[derive(Debug, Clone, Default, PartialEq, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawSite {
+    latitude: Option<f64>,
+    longitude: Option<f64>,
+    elevation: Option<f64>,
 }
 
 #[derive(Debug, Clone, Default, PartialEq, Deserialize)]
@@ -76,6 +90,8 @@ pub struct Layer {
     pub source_choice: Option<SourceChoice>,
     /// Values set for one run in place of the files' (`--set`; never from a project file).
     pub what_if: Vec<crate::what_if::WhatIf>,
+    /// The observing site (`[site]`, or `syz ephemeris --site`).
+    pub site: Option<crate::sky::Site>,
 }
 
 impl Layer {
@@ -154,7 +170,25 @@ fn parse(text: &str) -> Result<Layer, String> {
             )
         })?),
     };
+    let site = match raw.site {
+        None => None,
+        Some(RawSite {
+            latitude: Some(lat),
+            longitude: Some(lon),
+            elevation,
+        }) => Some(
+            crate::sky::Site::from_degrees(lat, lon, elevation.unwrap_or(0.0))
+                .map_err(|e| format!("[site]: {e}"))?,
+        ),
+        Some(_) => {
+            return Err(
+                "[site]: give both latitude and longitude (degrees, east longitude positive)"
+                    .to_string(),
+            )
+        }
+    };
     Ok(Layer {
+        site,
         overrides,
         source_choice,
         propagation,
@@ -174,6 +208,8 @@ pub struct Settings {
     pub overrides: Vec<SeverityOverride>,
     /// Values set for this run in place of the files' (`--set`; see [`crate::what_if`]).
     pub what_if: Vec<crate::what_if::WhatIf>,
+    /// The observing site, where one is given (used by `syz ephemeris`, not by analysis).
+    pub site: Option<crate::sky::Site>,
 }
 
 impl From<Options> for Settings {
@@ -182,6 +218,7 @@ impl From<Options> for Settings {
             options,
             overrides: Vec::new(),
             what_if: Vec::new(),
+            site: None,
         }
     }
 }
@@ -227,6 +264,9 @@ impl Settings {
         }
         self.overrides.extend(layer.overrides.iter().copied());
         self.what_if.extend(layer.what_if.iter().cloned());
+        if layer.site.is_some() {
+            self.site = layer.site;
+        }
         self
     }
 
@@ -453,5 +493,19 @@ mod tests {
             "first-order propagation, as `syz eval` uses per syzygy.toml"
         );
         assert_eq!(m.tag, None);
+    }
+
+    #[test]
+    fn a_site_is_read_in_degrees_east_positive() {
+        let l = layer("[site]\nlatitude = 28.76\nlongitude = -17.88\nelevation = 2300\n").unwrap();
+        let site = l.site.unwrap();
+        assert!((site.longitude.to_degrees() + 17.88).abs() < 1e-12);
+        assert_eq!(site.elevation_m, 2300.0);
+        let s = Settings::resolve(Some(&l), &Layer::default());
+        assert_eq!(s.site, Some(site));
+        let e = layer("[site]\nlatitude = 28.76\n").unwrap_err();
+        assert!(e.reason.contains("both latitude and longitude"), "{e}");
+        let e = layer("[site]\nlatitude = 128.76\nlongitude = 1\n").unwrap_err();
+        assert!(e.reason.contains("[site]: latitude"), "{e}");
     }
 }
