@@ -9,7 +9,7 @@ use syzygy::time;
 
 #[derive(clap::Args)]
 #[command(
-    after_help = "Examples:\n  syz ephemeris examples/veyra.syz b\n  syz ephemeris examples/veyra.syz b --from 2027-01-01 --count 5\n  syz ephemeris examples/veyra.syz b --from 2461400.5   # a JD in UTC\n  syz ephemeris examples/veyra.syz b --site 28.76,-17.88,2300 --observable"
+    after_help = "Examples:\n  syz ephemeris examples/veyra.syz b\n  syz ephemeris examples/veyra.syz b --from 2027-01-01 --count 5\n  syz ephemeris examples/veyra.syz b --from 2461400.5   # a JD in UTC\n  syz ephemeris examples/orrin.syz b --site 28.76,-17.88,2300 --observable"
 )]
 pub struct Args {
     pub file: std::path::PathBuf,

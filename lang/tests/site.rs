@@ -8,6 +8,8 @@
 //! room to spare; 20 arcseconds on Greenwich mean sidereal time, which differs from astropy's
 //! only by UT1 − UTC (under 0.9 s of time, 13.5 arcseconds).
 
+#![allow(clippy::unwrap_used, clippy::indexing_slicing)]
+
 use syzygy::sky::{gmst, Site};
 use syzygy::time::{convert, Scale};
 
