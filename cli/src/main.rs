@@ -203,6 +203,7 @@ impl EngineArgs {
             reference_files: None,
             overrides: self.overrides(),
             what_if: self.set.clone(),
+            site: None,
         }
     }
 

@@ -37,7 +37,8 @@ pub mod units;
 pub use model::what_if;
 pub use output::{diff, ephemeris, plots, report, rule_docs, shown, table};
 pub use physics::{
-    composition, constants, fastmath, formulas, lightcurve, orbit, solar_system, spectral, time,
+    composition, constants, fastmath, formulas, lightcurve, orbit, sky, solar_system, spectral,
+    time,
 };
 pub use syntax::{ast, layout, lexer, parser};
 

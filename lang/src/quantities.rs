@@ -26,6 +26,8 @@ pub enum Qty {
     Age,
     Distance,
     Parallax,
+    RightAscension,
+    Declination,
     SpectralType,
     MagnitudeV,
     MagnitudeJ,
@@ -143,6 +145,8 @@ fn build() -> Vec<QuantityDef> {
         q!(Age, Star, "age", [], time, Inclusive(0.0), Inclusive(2.0e10 * 31_557_600.0), "Gyr", "Age of the star."),
         q!(Distance, Star, "distance", ["dist"], len, Exclusive(0.0), None, "pc", "Distance from the Sun."),
         q!(Parallax, Star, "parallax", ["plx"], angle, Exclusive(0.0), None, "mas", "Trigonometric parallax."),
+        q!(RightAscension, Star, "right_ascension", ["ra"], angle, Inclusive(0.0), Exclusive(2.0 * PI), "deg", "Right ascension (ICRS), in degrees or as hours \"hh:mm:ss.s\"; proper motion is not applied."),
+        q!(Declination, Star, "declination", ["dec"], angle, Inclusive(-PI / 2.0), Inclusive(PI / 2.0), "deg", "Declination (ICRS), in degrees or as \"±dd:mm:ss\"; proper motion is not applied."),
         QuantityDef {
             text: true,
             ..q!(SpectralType, Star, "spectral_type", ["sptype", "SpT"], none, None, None, "", "Spectral type and luminosity class, such as \"K0V\".")

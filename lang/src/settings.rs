@@ -26,6 +26,11 @@
 //!
 //! [references]
 //! files = ["references.syz"]    # shared references, relative to this file's folder
+//!
+//! [site]                        # where `syz ephemeris` looks from
+//! latitude = 28.76              # degrees, north positive
+//! longitude = -17.88            # degrees, east positive
+//! elevation = 2300              # metres (optional, default 0)
 //! ```
 
 use crate::catalogue::SharedRefs;
@@ -50,12 +55,21 @@ struct Raw {
     sources: RawSources,
     #[serde(default)]
     references: RawReferences,
+    site: Option<RawSite>,
 }
 
 #[derive(Debug, Clone, Default, PartialEq, Deserialize)]
 #[serde(deny_unknown_fields)]
 struct RawReferences {
     files: Option<Vec<String>>,
+}
+
+#[derive(Debug, Clone, Default, PartialEq, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawSite {
+    latitude: Option<f64>,
+    longitude: Option<f64>,
+    elevation: Option<f64>,
 }
 
 #[derive(Debug, Clone, Default, PartialEq, Deserialize)]
@@ -92,6 +106,8 @@ pub struct Layer {
     /// The shared reference files (`[references] files`), relative to the project file's
     /// folder, as written.
     pub reference_files: Option<Vec<String>>,
+    /// The observing site (`[site]`, or `syz ephemeris --site`).
+    pub site: Option<crate::sky::Site>,
 }
 
 impl Layer {
@@ -176,8 +192,26 @@ fn parse(text: &str) -> Result<Layer, String> {
             return Err("[references]: files: a file name cannot be empty".to_string());
         }
     }
+    let site = match raw.site {
+        None => None,
+        Some(RawSite {
+            latitude: Some(lat),
+            longitude: Some(lon),
+            elevation,
+        }) => Some(
+            crate::sky::Site::from_degrees(lat, lon, elevation.unwrap_or(0.0))
+                .map_err(|e| format!("[site]: {e}"))?,
+        ),
+        Some(_) => {
+            return Err(
+                "[site]: give both latitude and longitude (degrees, east longitude positive)"
+                    .to_string(),
+            )
+        }
+    };
     Ok(Layer {
         reference_files,
+        site,
         overrides,
         source_choice,
         propagation,
@@ -207,6 +241,8 @@ pub struct Settings {
     /// project file form a catalogue, whose files are compared with each other
     /// ([`crate::catalogue::across`]). `None`: no project file, no comparison.
     pub catalogue: Option<String>,
+    /// The observing site, where one is given (used by `syz ephemeris`, not by analysis).
+    pub site: Option<crate::sky::Site>,
 }
 
 impl From<Options> for Settings {
@@ -262,6 +298,9 @@ impl Settings {
         }
         self.overrides.extend(layer.overrides.iter().copied());
         self.what_if.extend(layer.what_if.iter().cloned());
+        if layer.site.is_some() {
+            self.site = layer.site;
+        }
         self
     }
 
@@ -504,5 +543,19 @@ mod tests {
             "first-order propagation, as `syz eval` uses per syzygy.toml"
         );
         assert_eq!(m.tag, None);
+    }
+
+    #[test]
+    fn a_site_is_read_in_degrees_east_positive() {
+        let l = layer("[site]\nlatitude = 28.76\nlongitude = -17.88\nelevation = 2300\n").unwrap();
+        let site = l.site.unwrap();
+        assert!((site.longitude.to_degrees() + 17.88).abs() < 1e-12);
+        assert_eq!(site.elevation_m, 2300.0);
+        let s = Settings::resolve(Some(&l), &Layer::default());
+        assert_eq!(s.site, Some(site));
+        let e = layer("[site]\nlatitude = 28.76\n").unwrap_err();
+        assert!(e.reason.contains("both latitude and longitude"), "{e}");
+        let e = layer("[site]\nlatitude = 128.76\nlongitude = 1\n").unwrap_err();
+        assert!(e.reason.contains("[site]: latitude"), "{e}");
     }
 }

@@ -85,6 +85,39 @@ pub(super) fn lower_value(
                     }
                 };
             }
+            if matches!(def.qty, Qty::RightAscension | Qty::Declination) {
+                let (parsed, help) = if def.qty == Qty::RightAscension {
+                    (
+                        crate::sky::parse_right_ascension(t),
+                        "a right ascension is degrees (`201.3472 deg`) or hours, minutes and \
+                         seconds of time in quotes (`\"13:25:23.3\"`)",
+                    )
+                } else {
+                    (
+                        crate::sky::parse_declination(t),
+                        "a declination is degrees (`-12.04 deg`) or signed degrees, arcminutes \
+                         and arcseconds in quotes (`\"-12:02:24\"`)",
+                    )
+                };
+                return match parsed {
+                    Ok(rad) => Some((
+                        Content::Measured(Measurement {
+                            value: rad,
+                            below: 0.0,
+                            above: 0.0,
+                            form: Form::Exact,
+                        }),
+                        Some("deg".to_string()),
+                    )),
+                    Err(e) => {
+                        diags.push(
+                            Diagnostic::new(Rule::InvalidValue, *span, e.to_string())
+                                .with_help(help),
+                        );
+                        None
+                    }
+                };
+            }
             diags.push(
                 Diagnostic::new(
                     Rule::UnitMismatch,

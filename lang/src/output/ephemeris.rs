@@ -6,6 +6,12 @@
 //! `sigma_n^2 = sigma_T0^2 + n^2 sigma_P^2`, which takes T0 and P as uncorrelated (linear
 //! propagation, common practice). Each time is given back in the time system the epoch
 //! was declared in and in UTC; see [`crate::time`] for what those conversions assume.
+//!
+//! First and fourth contact are mid-transit ∓ T14/2, with T14 the planet's
+//! `transit_duration` (declared or derived). Their uncertainty is
+//! `sqrt(sigma_n^2 + (sigma_T14 / 2)^2)`, the mid-time and the duration taken as
+//! uncorrelated. From an observing site ([`Visibility`]), the star's altitude and airmass and
+//! the Sun's altitude at those moments come from [`crate::sky`].
 
 use crate::ast::BodyKind;
 use crate::constants::DAY;
@@ -25,6 +31,8 @@ pub struct Ephemeris {
     pub sigma_t0_days: f64,
     pub period_days: f64,
     pub sigma_period_days: f64,
+    /// The total transit duration T14 and its standard uncertainty, days, where known.
+    pub duration_days: Option<(f64, f64)>,
     /// Everything taken for granted, in words.
     pub assumptions: Vec<String>,
 }
@@ -42,7 +50,55 @@ pub struct Transit {
     pub utc: String,
     /// Standard uncertainty, days.
     pub sigma_days: f64,
+    /// First and fourth contact, where the duration is known.
+    pub contacts: Option<Contacts>,
 }
+
+/// First (ingress) and fourth (egress) contact of one transit.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Contacts {
+    /// Julian dates in the epoch's time system.
+    pub ingress_jd: f64,
+    pub egress_jd: f64,
+    /// Julian dates in UTC.
+    pub ingress_jd_utc: f64,
+    pub egress_jd_utc: f64,
+    /// ISO 8601 UTC timestamps, to the second.
+    pub ingress_utc: String,
+    pub egress_utc: String,
+    /// Standard uncertainty of either contact, days: sqrt(sigma_mid^2 + (sigma_T14/2)^2).
+    pub sigma_days: f64,
+}
+
+/// A star's ICRS place, radians.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct SkyPosition {
+    pub ra: f64,
+    pub dec: f64,
+}
+
+/// The sky at one moment of a transit, seen from a site.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Moment {
+    /// `ingress`, `mid` or `egress`.
+    pub label: &'static str,
+    pub star_altitude_deg: f64,
+    /// Kasten & Young (1989) airmass; `None` below the horizon.
+    pub airmass: Option<f64>,
+    pub sun_altitude_deg: f64,
+}
+
+/// Whether one transit can be watched from a site.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Visibility {
+    /// Ingress, mid-transit and egress (mid-transit alone without a duration).
+    pub moments: Vec<Moment>,
+    /// Every moment in astronomical night with the star at or above the minimum altitude.
+    pub observable: bool,
+}
+
+/// The Sun's altitude below which the night is astronomical, degrees (common practice).
+pub const ASTRONOMICAL_NIGHT_DEG: f64 = -18.0;
 
 impl Ephemeris {
     /// Read a planet's epoch and period from an analysis. Errors say what is missing.
@@ -99,7 +155,24 @@ impl Ephemeris {
                 assumptions.push(a.clone());
             }
         }
+        let duration_days = res
+            .get(Qty::TransitDuration)
+            .filter(|d| d.value.is_finite() && d.value > 0.0)
+            .map(|d| (d.value / DAY, mean(d.below, d.above) / DAY));
+        match duration_days {
+            Some(_) => assumptions.push(
+                "first and fourth contact are mid-transit ∓ T14/2; their uncertainty is \
+                 sqrt(sigma_mid^2 + (sigma_T14/2)^2), the mid-time and the duration taken as \
+                 uncorrelated"
+                    .to_string(),
+            ),
+            None => assumptions.push(format!(
+                "no transit_duration of '{}' is declared or derivable: contact times are not given",
+                b.id
+            )),
+        }
         Ok(Ephemeris {
+            duration_days,
             t0_tdb,
             system,
             t0_declared,
@@ -121,12 +194,39 @@ impl Ephemeris {
         let tdb = self.t0_tdb + n as f64 * self.period_days;
         let jd = time::convert(tdb, Scale::Tdb, self.system.scale)?;
         let jd_utc = time::convert(tdb, Scale::Tdb, Scale::Utc)?;
+        let sigma_days = self.sigma_at(n);
+        let contacts = match self.duration_days {
+            Some((t14, sigma_t14)) => {
+                let half = t14 / 2.0;
+                let at = |t: f64| -> Result<(f64, f64, String), TimeError> {
+                    let utc = time::convert(t, Scale::Tdb, Scale::Utc)?;
+                    Ok((
+                        time::convert(t, Scale::Tdb, self.system.scale)?,
+                        utc,
+                        time::iso(utc, Scale::Utc)?,
+                    ))
+                };
+                let (ingress_jd, ingress_jd_utc, ingress_utc) = at(tdb - half)?;
+                let (egress_jd, egress_jd_utc, egress_utc) = at(tdb + half)?;
+                Some(Contacts {
+                    ingress_jd,
+                    egress_jd,
+                    ingress_jd_utc,
+                    egress_jd_utc,
+                    ingress_utc,
+                    egress_utc,
+                    sigma_days: (sigma_days.powi(2) + (sigma_t14 / 2.0).powi(2)).sqrt(),
+                })
+            }
+            None => None,
+        };
         Ok(Transit {
             n,
             jd,
             jd_utc,
             utc: time::iso(jd_utc, Scale::Utc)?,
-            sigma_days: self.sigma_at(n),
+            sigma_days,
+            contacts,
         })
     }
 
@@ -162,6 +262,113 @@ impl Ephemeris {
         }
         out
     }
+}
+
+/// The ICRS place of a planet's host star, from its declared `right_ascension` and
+/// `declination`. The error names what is missing and where to declare it.
+pub fn sky_position(a: &Analysis, sys: usize, planet: usize) -> Result<SkyPosition, String> {
+    let s = a.model.systems.get(sys).ok_or("no such system")?;
+    let b = s.bodies.get(planet).ok_or("no such body")?;
+    let host = b.orbits.ok_or_else(|| {
+        format!(
+            "'{}' orbits no declared star, so its sky position is unknown: the star's \
+             right_ascension and declination give it",
+            b.id
+        )
+    })?;
+    let star = s.bodies.get(host).ok_or("no such star")?;
+    let res = a
+        .results
+        .get(sys)
+        .and_then(|r| r.bodies.get(host))
+        .ok_or("no results for the host star")?;
+    let ra = res.get(Qty::RightAscension).map(|q| q.value);
+    let dec = res.get(Qty::Declination).map(|q| q.value);
+    match (ra, dec) {
+        (Some(ra), Some(dec)) if ra.is_finite() && dec.is_finite() => Ok(SkyPosition { ra, dec }),
+        _ => {
+            let missing: Vec<&str> = [("right_ascension", ra), ("declination", dec)]
+                .iter()
+                .filter(|(_, v)| v.is_none())
+                .map(|(n, _)| *n)
+                .collect();
+            Err(format!(
+                "a site needs the sky position of '{star}', which declares no {what}: add \
+                 `right_ascension = \"hh:mm:ss.s\"` and `declination = \"±dd:mm:ss\"` (ICRS; \
+                 or both in deg) to `star {star}`",
+                star = star.id,
+                what = missing.join(" and "),
+            ))
+        }
+    }
+}
+
+impl SkyPosition {
+    /// The star and the Sun at a transit's contacts (or at mid-transit alone), seen from
+    /// `site`, and whether the whole transit falls in astronomical night with the star at
+    /// or above `min_altitude_deg`.
+    pub fn visibility(
+        &self,
+        site: &crate::sky::Site,
+        min_altitude_deg: f64,
+        t: &Transit,
+    ) -> Result<Visibility, TimeError> {
+        let times: Vec<(&'static str, f64)> = match &t.contacts {
+            Some(c) => vec![
+                ("ingress", c.ingress_jd_utc),
+                ("mid", t.jd_utc),
+                ("egress", c.egress_jd_utc),
+            ],
+            None => vec![("mid", t.jd_utc)],
+        };
+        let deg = std::f64::consts::PI / 180.0;
+        let mut moments = Vec::with_capacity(times.len());
+        for (label, jd_utc) in times {
+            let tt = time::convert(jd_utc, Scale::Utc, Scale::Tt)?;
+            let alt = site.star_altitude(self.ra, self.dec, jd_utc, tt);
+            moments.push(Moment {
+                label,
+                star_altitude_deg: alt / deg,
+                airmass: crate::sky::airmass(alt),
+                sun_altitude_deg: site.sun_altitude(jd_utc, tt) / deg,
+            });
+        }
+        let observable = moments.iter().all(|m| {
+            m.star_altitude_deg >= min_altitude_deg && m.sun_altitude_deg < ASTRONOMICAL_NIGHT_DEG
+        });
+        Ok(Visibility {
+            moments,
+            observable,
+        })
+    }
+}
+
+/// What altitudes from a site take for granted, in words.
+pub fn site_assumptions(system: TimeSystem, has_contacts: bool) -> Vec<String> {
+    let mut out = vec![
+        "the star's ICRS position is used as it is at every date: proper motion is not applied"
+            .to_string(),
+        "altitudes are geometric (no refraction), from sidereal time (IAU 2006, UT1 taken as \
+         UTC) and the star precessed to the date (IAU 1976; nutation and aberration not \
+         applied), good to about 1 arcminute; the Sun from the Astronomical Almanac's \
+         low-precision formulae; airmass by Kasten & Young (1989)"
+            .to_string(),
+        "observable: the star at or above the minimum altitude and the Sun below -18 deg \
+         (astronomical night) at ingress, mid-transit and egress; the sky between these \
+         moments is not sampled"
+            .to_string(),
+    ];
+    if !has_contacts {
+        out.push("without a transit duration only mid-transit is checked".to_string());
+    }
+    if system.place != Place::Earth {
+        out.push(
+            "altitudes are for the listed UTC times, which stay at the epoch's clock: the \
+             transit is seen at Earth up to 8.3 min earlier or later"
+                .to_string(),
+        );
+    }
+    out
 }
 
 #[cfg(test)]
@@ -236,5 +443,65 @@ mod tests {
             .assumptions
             .iter()
             .any(|s| s.contains("no stated uncertainty")));
+    }
+
+    const SITED: &str = "system \"Ostrel\" {\n  star s { mass = 1 Msun; radius = 1 Rsun; right_ascension = \"13:25:23.3\"; declination = \"-12:02:24\" }\n  planet b orbits s {\n    period = 2.5 ± 0.0001 d\n    transit_epoch = 2460000.0 ± 0.0005 BJD_TDB\n    transit_duration = 2.4 ± 0.12 h\n  }\n}\n";
+
+    #[test]
+    fn contacts_are_half_the_duration_either_side_with_the_documented_uncertainty() {
+        let a = analysis(SITED);
+        let e = Ephemeris::of(&a, 0, 1).unwrap();
+        let t = e.transit(4).unwrap();
+        let c = t.contacts.clone().unwrap();
+        assert!((t.jd - c.ingress_jd - 0.05).abs() < 1e-9);
+        assert!((c.egress_jd - t.jd - 0.05).abs() < 1e-9);
+        assert!((c.egress_jd_utc - c.ingress_jd_utc - 0.1).abs() < 1e-9);
+        // sqrt(sigma_mid^2 + (sigma_T14 / 2)^2), 0.12 h = 0.005 d.
+        let expect = (t.sigma_days.powi(2) + 0.0025f64.powi(2)).sqrt();
+        assert!((c.sigma_days - expect).abs() < 1e-15);
+        assert!(e.assumptions.iter().any(|s| s.contains("∓ T14/2")));
+    }
+
+    #[test]
+    fn visibility_checks_every_contact() {
+        let a = analysis(SITED);
+        let e = Ephemeris::of(&a, 0, 1).unwrap();
+        let pos = sky_position(&a, 0, 1).unwrap();
+        let site = crate::sky::Site::parse("28.76,-17.88,2300").unwrap();
+        let list = e.upcoming(2_460_000.0, 200).unwrap();
+        let v: Vec<Visibility> = list
+            .iter()
+            .map(|t| pos.visibility(&site, 30.0, t).unwrap())
+            .collect();
+        assert!(v.iter().all(|v| v.moments.len() == 3));
+        // Over 500 days some transits are seen and some are not.
+        assert!(v.iter().any(|v| v.observable) && v.iter().any(|v| !v.observable));
+        for v in &v {
+            let ok = v
+                .moments
+                .iter()
+                .all(|m| m.star_altitude_deg >= 30.0 && m.sun_altitude_deg < -18.0);
+            assert_eq!(v.observable, ok);
+            for m in &v.moments {
+                assert_eq!(m.airmass.is_some(), m.star_altitude_deg >= 0.0);
+            }
+        }
+        // A lower bar admits at least as many.
+        let low = list
+            .iter()
+            .filter(|t| pos.visibility(&site, 10.0, t).unwrap().observable)
+            .count();
+        assert!(low >= v.iter().filter(|v| v.observable).count());
+    }
+
+    #[test]
+    fn a_site_without_a_sky_position_names_what_is_missing() {
+        let a = analysis(SRC);
+        let err = sky_position(&a, 0, 1).unwrap_err();
+        assert!(err.contains("right_ascension and declination"), "{err}");
+        assert!(err.contains("star s"), "{err}");
+        let half = SRC.replace("radius = 1 Rsun", "radius = 1 Rsun; ra = 10 deg");
+        let err = sky_position(&analysis(&half), 0, 1).unwrap_err();
+        assert!(err.contains("declares no declination:"), "{err}");
     }
 }

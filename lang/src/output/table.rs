@@ -388,6 +388,8 @@ pub fn ucd(def: &QuantityDef) -> Option<&'static str> {
         Qty::Age => "time.age",
         Qty::Distance => "pos.distance",
         Qty::Parallax => "pos.parallax.trig",
+        Qty::RightAscension => "pos.eq.ra;meta.main",
+        Qty::Declination => "pos.eq.dec;meta.main",
         Qty::SpectralType => "src.spType",
         Qty::Period => "time.period.revolution",
         Qty::SemiMajorAxis => "phys.size.smajAxis",

@@ -9,6 +9,7 @@ pub mod fastmath;
 pub mod formulas;
 pub mod lightcurve;
 pub mod orbit;
+pub mod sky;
 pub mod solar_system;
 pub mod spectral;
 pub mod time;

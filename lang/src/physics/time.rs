@@ -19,7 +19,7 @@
 //! far below the timing precision of any transit.
 //!
 //! The place of the clock (the "B" of BJD, the "H" of HJD) cannot be changed without the
-//! star's sky coordinates, which a file does not declare: moving a time between Earth and
+//! star's sky coordinates and the Earth's orbit, which this module does not use: moving a time between Earth and
 //! the barycentre is a light-travel-time correction of up to ±8.3 min (1 au / c = 499 s).
 //! Conversions here change the scale only and say so ([`LIGHT_TIME_NOT_APPLIED`]).
 
@@ -40,7 +40,7 @@ pub const TT_MINUS_TAI: f64 = 32.184;
 pub const AU_LIGHT_TIME_S: f64 = crate::constants::AU / crate::constants::C;
 
 /// The words shown whenever a time is moved between time scales without moving its clock.
-pub const LIGHT_TIME_NOT_APPLIED: &str = "the light-travel-time (barycentric) correction, up to ±8.3 min, is not applied: the star's sky coordinates are not declared";
+pub const LIGHT_TIME_NOT_APPLIED: &str = "the light-travel-time (barycentric) correction, up to ±8.3 min, is not applied: only the time scale is converted";
 
 /// A time scale: how the seconds are counted.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
