@@ -69,7 +69,16 @@ The first element is looked up on `exec-path' unless it is a full path."
     "transit_duration_full" "T23" "transit_epoch" "T0" "epoch" "scaled_semi_major_axis"
     "a_rs" "a_Rs" "albedo" "A" "bond_albedo" "redistribution" "f" "surface_gravity" "g"
     "escape_velocity" "v_esc" "orbital_speed" "v_orb" "hill_radius" "r_hill" "teq" "Teq"
-    "T_eq" "insolation" "S" "flux")
+    "T_eq" "insolation" "S" "flux"
+    ;; planning
+    "M_bol" "absolute_bolometric_magnitude" "bolometric_flux" "bolometric_magnitude" "dec"
+    "declination" "esm" "f_bol" "habitable_inner" "habitable_inner_insolation"
+    "habitable_inner_optimistic" "habitable_inner_optimistic_insolation" "habitable_outer"
+    "habitable_outer_insolation" "habitable_outer_optimistic"
+    "habitable_outer_optimistic_insolation" "habitable_zone_position" "m_bol" "magnitude_h"
+    "magnitude_j" "magnitude_ks" "magnitude_v" "mean_molecular_weight" "mu"
+    "predicted_mass" "predicted_radius" "predicted_rv_amplitude" "ra" "right_ascension"
+    "scale_height" "tsm")
   "Quantity names and their trade-symbol aliases, for stars and planets.")
 
 (defconst syzygy-functions
