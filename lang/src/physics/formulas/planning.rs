@@ -15,7 +15,7 @@
 //!   `S_eff = S_eff,sun + a T + b T^2 + c T^3 + d T^4`, `T = Teff - 5780 K`, valid for
 //!   2600–7200 K (the range: the paper's abstract, verified in the VizieR description of its
 //!   catalogue J/ApJ/787/L29). The coefficients are from memory; they agree digit for digit
-//!   with several independent public transcriptions of the authors' coefficient file (not the
+//!   with several independent public copies of the authors' coefficient file (not the
 //!   paper itself, so not a verification).
 //! * Chen & Kipping (2017, ApJ 834, 17) for the mean mass–radius relation
 //!   `R = C M^S` in Earth units, continuous at the transitions 2.04 Mearth (Terran to
