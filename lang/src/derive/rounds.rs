@@ -271,14 +271,11 @@ impl Derivation<'_> {
     /// the scatter in log10 of the predicted quantity on the branch of the nominal value.
     fn with_relation_scatter(&mut self, out: Key, value: Value) -> Value {
         let nominal_of = |q: Qty| self.entries.get(&(out.0, q)).map(|e| e.value.nominal);
+        // The branch the prediction was made on, found as the rule found it.
         let sigma = match out.1 {
-            Qty::PredictedMass => crate::formulas::mass_radius_branches()
-                .into_iter()
-                .find(|b| {
-                    let me = value.nominal / crate::constants::M_EARTH;
-                    me >= b.from && me < b.to
-                })
-                .map(|b| b.sigma / b.s),
+            Qty::PredictedMass => nominal_of(Qty::Radius)
+                .and_then(|r| crate::formulas::predicted_mass_earth(r / crate::constants::R_EARTH))
+                .map(|(_, b)| b.sigma / b.s),
             _ => nominal_of(Qty::Mass)
                 .or_else(|| nominal_of(Qty::MinMass))
                 .and_then(|m| {
