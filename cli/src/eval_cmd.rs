@@ -224,6 +224,11 @@ fn table_write_failed(failure: Option<std::io::Error>) -> bool {
 /// How the uncertainties shown were propagated, in words.
 pub fn propagation_words(options: &Options) -> String {
     match options.propagation {
+        Propagation::MonteCarlo if options.adaptive => format!(
+            "Monte Carlo, adaptive: from {} samples, doubled until every value is stable to the digits shown \
+             (seed {}); derived values are sample medians with 16th-84th percentile ranges",
+            options.samples, options.seed
+        ),
         Propagation::MonteCarlo => format!(
             "Monte Carlo, {} samples (seed {}); derived values are sample medians with 16th-84th percentile ranges",
             options.samples, options.seed

@@ -133,9 +133,10 @@ struct EngineArgs {
     /// How uncertainties are propagated [default: monte-carlo, or as syzygy.toml says].
     #[arg(long, value_enum)]
     propagation: Option<PropagationArg>,
-    /// Monte Carlo sample count [default: 10000, or as syzygy.toml says].
-    #[arg(long, value_parser = clap::value_parser!(u32).range(1..=10_000_000))]
-    samples: Option<u32>,
+    /// Monte Carlo sample count, or `auto` to draw until every value is stable to the
+    /// digits shown (JCGM 101:2008 7.9) [default: 10000, or as syzygy.toml says].
+    #[arg(long, value_name = "N|auto", value_parser = syzygy::SampleCount::parse)]
+    samples: Option<syzygy::SampleCount>,
     /// Seed of the Monte Carlo generator (the same seed gives the same numbers) [default: 1398364761].
     #[arg(long)]
     seed: Option<u64>,
@@ -195,7 +196,7 @@ impl EngineArgs {
                 PropagationArg::MonteCarlo => Propagation::MonteCarlo,
                 PropagationArg::Linear => Propagation::Linear,
             }),
-            samples: self.samples.map(|n| n as usize),
+            samples: self.samples,
             seed: self.seed,
             consistency_sigma: self.sigma,
             consistency_error_sigma: self.error_sigma,

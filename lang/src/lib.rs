@@ -45,7 +45,7 @@ pub use syntax::{ast, layout, lexer, parser};
 use std::collections::HashMap;
 use std::sync::Arc;
 
-pub use derive::{Options, Propagation};
+pub use derive::{Options, Propagation, SampleCount};
 pub use reuse::{analyze_reusing, Reusable};
 pub use settings::Settings;
 

@@ -288,6 +288,7 @@ impl Spans for QuantityResult {
             unit: _,
             sources,
             choice: _,
+            precision: _,
         } = self;
         span.each_span(f);
         for s in sources {

@@ -16,7 +16,7 @@
 //!
 //! [derivation]
 //! propagation = "linear"        # monte-carlo | linear
-//! samples = 5000
+//! samples = 5000                # or "auto": until stable (JCGM 101:2008 7.9)
 //! seed = 7
 //! consistency_sigma = 3.0
 //! consistency_error_sigma = 5.0  # inconsistent past this is an error
@@ -82,10 +82,18 @@ struct RawSources {
 #[serde(deny_unknown_fields)]
 struct RawDerivation {
     propagation: Option<String>,
-    samples: Option<u64>,
+    samples: Option<RawSamples>,
     seed: Option<u64>,
     consistency_sigma: Option<f64>,
     consistency_error_sigma: Option<f64>,
+}
+
+/// `samples = 5000` or `samples = "auto"`.
+#[derive(Debug, Clone, PartialEq, Deserialize)]
+#[serde(untagged)]
+enum RawSamples {
+    Count(i64),
+    Word(String),
 }
 
 /// The settings one source gives explicitly (`None`: not given, the layer below decides):
@@ -95,7 +103,7 @@ pub struct Layer {
     /// Severity overrides in order (a later one for the same rule wins).
     pub overrides: Vec<SeverityOverride>,
     pub propagation: Option<Propagation>,
-    pub samples: Option<usize>,
+    pub samples: Option<crate::derive::SampleCount>,
     pub seed: Option<u64>,
     pub consistency_sigma: Option<f64>,
     pub consistency_error_sigma: Option<f64>,
@@ -157,13 +165,17 @@ fn parse(text: &str) -> Result<Layer, String> {
             ))
         }
     };
-    let samples = match d.samples {
+    let samples = match &d.samples {
         None => None,
-        Some(n) if (1..=10_000_000).contains(&n) => Some(n as usize),
-        Some(n) => {
-            return Err(format!(
-                "[derivation]: samples = {n}: expected 1 to 10000000"
-            ))
+        Some(raw) => {
+            let text = match raw {
+                RawSamples::Count(n) => n.to_string(),
+                RawSamples::Word(w) => w.clone(),
+            };
+            Some(
+                crate::derive::SampleCount::parse(&text)
+                    .map_err(|e| format!("[derivation]: samples = {text}: {e}"))?,
+            )
         }
     };
     for (name, value) in [
@@ -279,7 +291,7 @@ impl Settings {
             o.propagation = p;
         }
         if let Some(n) = layer.samples {
-            o.samples = n;
+            n.apply(o);
         }
         if let Some(s) = layer.seed {
             o.seed = s;
@@ -489,6 +501,24 @@ mod tests {
             .reason
             .contains("expected"));
         assert!(layer("[derivation]\nsamples = 0\n").is_err());
+        assert!(layer("[derivation]\nsamples = \"many\"\n")
+            .unwrap_err()
+            .reason
+            .contains("\"auto\""));
+        let auto = Settings::resolve(
+            Some(&layer("[derivation]\nsamples = \"auto\"\n").unwrap()),
+            &Layer::default(),
+        );
+        assert!(auto.options.adaptive && auto.options.samples == 10_000);
+        // A count given later (the command line) turns adaptive sampling off again.
+        let fixed = Settings::resolve(
+            Some(&layer("[derivation]\nsamples = \"auto\"\n").unwrap()),
+            &Layer {
+                samples: Some(crate::derive::SampleCount::Fixed(500)),
+                ..Layer::default()
+            },
+        );
+        assert!(!fixed.options.adaptive && fixed.options.samples == 500);
         assert!(layer("[derivaton]\n").is_err());
         assert!(layer("not toml [").is_err());
         assert_eq!(layer("").unwrap(), Layer::default());

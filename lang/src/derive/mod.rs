@@ -13,6 +13,7 @@
 //! [`value`]. A few quantities have defaults when not declared (circular orbit, zero Bond
 //! albedo, full heat redistribution); a default that a result used is listed with it.
 
+mod adaptive;
 mod consistency;
 mod expr;
 mod inputs;
@@ -38,7 +39,7 @@ use std::sync::Arc;
 pub use summary::{
     display_unit, Alternative, BodyResult, DisplayUnit, QuantityResult, SourceResult, SystemResult,
 };
-pub use value::{InputInfo, Value};
+pub use value::{InputInfo, Precision, SampleSummary, Value};
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum Propagation {
@@ -49,8 +50,12 @@ pub enum Propagation {
 #[derive(Debug, Clone, PartialEq)]
 pub struct Options {
     pub propagation: Propagation,
-    /// Monte Carlo sample count.
+    /// Monte Carlo sample count (with `adaptive`, the first batch's).
     pub samples: usize,
+    /// Keep drawing, doubling the sample count, until every derived value's median and
+    /// interval ends are stable to its second significant digit (JCGM 101:2008 7.9), up to
+    /// [`ADAPTIVE_MOST`] samples.
+    pub adaptive: bool,
     pub seed: u64,
     /// Declared and derived values further apart than this many combined standard
     /// deviations are reported as `inconsistent`.
@@ -67,6 +72,7 @@ impl Default for Options {
         Options {
             propagation: Propagation::MonteCarlo,
             samples: 10_000,
+            adaptive: false,
             seed: 0x5359_5a59,
             consistency_sigma: 3.0,
             consistency_error_sigma: 5.0,
@@ -179,9 +185,10 @@ pub struct Derivation<'m> {
     /// For each quantity declared several times: the value used and how it was reached.
     chosen: FxHashMap<Key, sources::Chosen>,
     pub diagnostics: Vec<Diagnostic>,
-    /// Set when the system is so large that Monte Carlo drew fewer samples than asked, to
-    /// bound memory: the sentence every value of the system then carries.
-    fewer_samples: Option<Arc<str>>,
+    /// How the sample count came about, when that needs saying: fewer samples than asked
+    /// (a system so large that memory bounds them), or an adaptive count. Every derived
+    /// value of the system carries the sentence.
+    sample_note: Option<Arc<str>>,
     /// In first-order mode, Monte Carlo results for the values first order cannot
     /// describe (see [`validity`]).
     sampled: Option<validity::Sampled<'m>>,
@@ -191,6 +198,53 @@ pub struct Derivation<'m> {
     /// Derived values that rest mostly on one limit, given as limits themselves: the value
     /// at that limit, its form, and the sentence that says so.
     bounded: FxHashMap<Key, (f64, Form, String)>,
+}
+
+/// The most samples adaptive Monte Carlo draws for one system (besides the memory bound of
+/// [`samples_for`]).
+pub const ADAPTIVE_MOST: usize = 1 << 20;
+
+/// A count of samples, or `auto`: how the sample count is given in a project file and on
+/// the command line.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum SampleCount {
+    Fixed(usize),
+    /// Adaptive (JCGM 101:2008 7.9), from 10^4 samples.
+    Auto,
+}
+
+impl SampleCount {
+    /// The most samples one may ask for.
+    pub const MOST: usize = 10_000_000;
+
+    /// `auto`, or a count from 1 to [`SampleCount::MOST`].
+    pub fn parse(s: &str) -> Result<SampleCount, String> {
+        let s = s.trim();
+        if s == "auto" {
+            return Ok(SampleCount::Auto);
+        }
+        match s.replace('_', "").parse::<usize>() {
+            Ok(n) if (1..=SampleCount::MOST).contains(&n) => Ok(SampleCount::Fixed(n)),
+            _ => Err(format!(
+                "expected a sample count from 1 to {} or \"auto\", found '{s}'",
+                SampleCount::MOST
+            )),
+        }
+    }
+
+    /// Lay this over `options`.
+    pub fn apply(self, options: &mut Options) {
+        match self {
+            SampleCount::Fixed(n) => {
+                options.samples = n;
+                options.adaptive = false;
+            }
+            SampleCount::Auto => {
+                options.samples = Options::default().samples;
+                options.adaptive = true;
+            }
+        }
+    }
 }
 
 /// Monte Carlo sample arrays one system may hold at once (in bytes), and about how many
@@ -218,6 +272,13 @@ fn samples_for(bodies: usize, asked: usize) -> (usize, Option<Arc<str>>) {
 
 impl<'m> Derivation<'m> {
     pub fn run(sys: &'m System, options: &Options, lines: &'m sources::Lines) -> Derivation<'m> {
+        if options.adaptive && options.propagation == Propagation::MonteCarlo {
+            return Derivation::run_adaptive(sys, options, lines);
+        }
+        Derivation::run_once(sys, options, lines)
+    }
+
+    fn run_once(sys: &'m System, options: &Options, lines: &'m sources::Lines) -> Derivation<'m> {
         let mut d = Derivation::run_pinned(sys, options, lines, FxHashSet::default());
         // Values given as limits need no sampling: bound first, then sample the rest.
         d.bound_where_limited();
@@ -233,11 +294,11 @@ impl<'m> Derivation<'m> {
         pinned: FxHashSet<String>,
     ) -> Derivation<'m> {
         let mut options = options.clone();
-        let mut fewer_samples = None;
+        let mut sample_note = None;
         if options.propagation == Propagation::MonteCarlo {
             let (n, words) = samples_for(sys.bodies.len(), options.samples);
             options.samples = n;
-            fewer_samples = words;
+            sample_note = words;
         }
         let mut d = Derivation {
             sys,
@@ -253,7 +314,7 @@ impl<'m> Derivation<'m> {
             used: FxHashSet::default(),
             chosen: FxHashMap::default(),
             diagnostics: Vec::new(),
-            fewer_samples,
+            sample_note,
             sampled: None,
             pinned,
             bounded: FxHashMap::default(),

@@ -37,6 +37,9 @@ pub struct QuantityResult {
     pub sources: Vec<SourceResult>,
     /// For a quantity declared more than once: how the value used was reached.
     pub choice: Option<Choice>,
+    /// For a value summarised from Monte Carlo samples: how precisely the samples fix its
+    /// median and interval ends.
+    pub precision: Option<value::Precision>,
 }
 
 /// One of several declarations of a quantity, as reported.
@@ -54,6 +57,27 @@ pub struct SourceResult {
 }
 
 impl QuantityResult {
+    /// Whether a Monte Carlo value's median and ends are fixed to the second significant
+    /// digit of its standard uncertainty, the mean of its two sides (JCGM 101:2008 7.9.2 with
+    /// n_dig = 2). Values not from samples are.
+    pub fn stable(&self) -> bool {
+        self.precision
+            .is_none_or(|p| p.stable_for((self.below + self.above) / 2.0))
+    }
+
+    /// The largest of a Monte Carlo value's numerical precisions (twice the standard
+    /// error of its median and ends) as a fraction of its uncertainty on that side.
+    pub fn relative_precision(&self) -> Option<f64> {
+        let p = self.precision?;
+        let side = |w: f64, u: f64| if u > 0.0 { w / u } else { 0.0 };
+        let mid = side(p.median, self.below.min(self.above));
+        Some(
+            side(p.low, self.below)
+                .max(side(p.high, self.above))
+                .max(mid),
+        )
+    }
+
     /// The unit to show the value in.
     /// The unit the value is shown in: the one written in the file, else the usual one.
     pub fn shown_unit(&self) -> DisplayUnit<'_> {
@@ -132,6 +156,7 @@ impl<'m> Derivation<'m> {
                             unit: None,
                             sources: Vec::new(),
                             choice: None,
+                            precision: None,
                         });
                         continue;
                     }
@@ -176,9 +201,11 @@ impl<'m> Derivation<'m> {
             let Some(c) = best else { continue };
             let (lo, hi) = c.value.linear_spread(&self.inputs);
             let (value, below, above) = match (self.options.propagation, c.value.sample_summary()) {
-                (Propagation::MonteCarlo, Some((med, p16, p84, _))) => {
-                    (med, (med - p16).max(0.0), (p84 - med).max(0.0))
-                }
+                (Propagation::MonteCarlo, Some(s)) => (
+                    s.median,
+                    (s.median - s.low).max(0.0),
+                    (s.high - s.median).max(0.0),
+                ),
                 _ => (c.value.nominal, lo, hi),
             };
             if !value.is_finite() {
@@ -205,6 +232,7 @@ impl<'m> Derivation<'m> {
         let rule = entry.rule.and_then(|r| RULES.get(r));
         let mut notes = Vec::new();
         let mut sampled = None;
+        let mut precision = None;
         let chosen = self.chosen.get(&key);
         let all = match (decl, chosen) {
             (Some(d), Some(_)) => self.sys.bodies.get(key.0).map(|b| b.sources(d.qty)),
@@ -251,18 +279,19 @@ impl<'m> Derivation<'m> {
             _ => {
                 let (lo, hi) = entry.value.linear_spread(&self.inputs);
                 match (self.options.propagation, entry.value.sample_summary()) {
-                    (Propagation::MonteCarlo, Some((med, p16, p84, frac))) => {
-                        if frac < 0.999 {
+                    (Propagation::MonteCarlo, Some(s)) => {
+                        if s.finite < 0.999 {
                             notes.push(format!(
                                 "{:.1}% of the Monte Carlo samples gave no value (outside the formula's domain) and were left out",
-                                (1.0 - frac) * 100.0
+                                (1.0 - s.finite) * 100.0
                             ));
                         }
                         if !entry.value.grad.is_empty() || entry.origin == Origin::Derived {
+                            precision = s.precision;
                             (
-                                med,
-                                (med - p16).max(0.0),
-                                (p84 - med).max(0.0),
+                                s.median,
+                                (s.median - s.low).max(0.0),
+                                (s.high - s.median).max(0.0),
                                 Form::Asymmetric,
                             )
                         } else {
@@ -270,12 +299,13 @@ impl<'m> Derivation<'m> {
                         }
                     }
                     _ => match self.sampled_instead(key) {
-                        Some(((median, p16, p84), words)) => {
+                        Some((s, words)) => {
                             sampled = Some(words);
+                            precision = s.precision;
                             (
-                                median,
-                                (median - p16).max(0.0),
-                                (p84 - median).max(0.0),
+                                s.median,
+                                (s.median - s.low).max(0.0),
+                                (s.high - s.median).max(0.0),
                                 Form::Asymmetric,
                             )
                         }
@@ -358,7 +388,7 @@ impl<'m> Derivation<'m> {
                 .assumptions
                 .iter()
                 .chain(
-                    self.fewer_samples
+                    self.sample_note
                         .as_ref()
                         .filter(|_| entry.origin == Origin::Derived),
                 )
@@ -375,6 +405,7 @@ impl<'m> Derivation<'m> {
                 .flatten(),
             choice: chosen.map(|c| c.choice),
             sources,
+            precision,
         }
     }
 }

@@ -207,14 +207,14 @@ impl<'m> Derivation<'m> {
 
     /// The Monte Carlo median and 16th and 84th percentiles standing in for a doubted
     /// value's first-order interval, with the sentence that says so.
-    pub(super) fn sampled_instead(&self, key: Key) -> Option<((f64, f64, f64), String)> {
+    pub(super) fn sampled_instead(&self, key: Key) -> Option<(value::SampleSummary, String)> {
         let s = self.sampled.as_ref()?;
         let why = s.doubts.get(&key)?;
-        let (median, p16, p84, _) = s.derivation.value(key)?.sample_summary()?;
+        let summary = s.derivation.value(key)?.sample_summary()?;
         let words = format!(
             "{SAMPLED}: {why}, so this interval is the median and 16th-84th percentiles of {} Monte Carlo draws (seed {})",
             s.derivation.options.samples, s.derivation.options.seed
         );
-        Some(((median, p16, p84), words))
+        Some((summary, words))
     }
 }

@@ -114,9 +114,9 @@ impl Value {
             .sqrt()
     }
 
-    /// Median and the 16th and 84th percentiles of the finite samples, with the fraction of
-    /// samples that were finite.
-    pub fn sample_summary(&self) -> Option<(f64, f64, f64, f64)> {
+    /// Median and the 16th and 84th percentiles of the finite samples, the fraction of
+    /// samples that were finite, and how precisely the samples fix those three numbers.
+    pub fn sample_summary(&self) -> Option<SampleSummary> {
         let s = self.samples.as_ref()?;
         // Order statistics are found on integer keys that sort as the floats do (the
         // `f64::total_cmp` order), which selection compares far faster than floats.
@@ -125,29 +125,128 @@ impl Value {
         if v.is_empty() {
             return None;
         }
-        let frac = v.len() as f64 / s.len() as f64;
+        let finite = v.len() as f64 / s.len() as f64;
         // The order statistic nearest each percentile, found by selection (O(n)) rather
         // than a full sort; with 10^4 samples the rounding is 0.005% of the distribution.
         let n = v.len();
         let rank = |p: f64| ((p * (n - 1) as f64).round() as usize).min(n - 1);
-        let (lo_rank, mid_rank, hi_rank) = (
-            rank(0.158_655_253_931_457),
-            rank(0.5),
-            rank(0.841_344_746_068_543),
+        let centre = [P_LOW, 0.5, P_HIGH].map(rank);
+        // Numerical precision: the order statistics `d = sqrt(n p (1 - p))` ranks either
+        // side of each percentile's rank lie about one standard error of that percentile
+        // away from it (the count of samples below a p-quantile is binomial(n, p)), so the
+        // distance between them is two standard errors, whatever the distribution.
+        let with_precision = n >= MIN_FOR_PRECISION;
+        // For each percentile: its rank and the ranks either side.
+        let around = |r: usize, p: f64| {
+            let d = ((n as f64) * p * (1.0 - p)).sqrt().ceil() as usize;
+            (r.saturating_sub(d), (r + d).min(n - 1))
+        };
+        let [r_low, r_median, r_high] = centre;
+        let sides = [
+            around(r_low, P_LOW),
+            around(r_median, 0.5),
+            around(r_high, P_HIGH),
+        ];
+        let mut wanted: Vec<usize> = centre.to_vec();
+        if with_precision {
+            wanted.extend(sides.iter().flat_map(|&(a, b)| [a, b]));
+        }
+        wanted.sort_unstable();
+        wanted.dedup();
+        let mut found = vec![0i64; wanted.len()];
+        select_ranks(&mut v, 0, &wanted, &mut found);
+        let at = |r: usize| {
+            let i = wanted.binary_search(&r).unwrap_or(0);
+            from_order_key(found.get(i).copied().unwrap_or(0))
+        };
+        let [low, median, high] = centre.map(at);
+        let precision = with_precision.then(|| {
+            let [low, median, high] = sides.map(|(a, b)| (at(b) - at(a)).max(0.0));
+            Precision {
+                samples: n,
+                low,
+                median,
+                high,
+            }
+        });
+        Some(SampleSummary {
+            median,
+            low,
+            high,
+            finite,
+            precision,
+        })
+    }
+}
+
+/// The 16th and 84th percentiles: the ends of a 68 % interval around the median.
+const P_LOW: f64 = 0.158_655_253_931_457;
+const P_HIGH: f64 = 0.841_344_746_068_543;
+
+/// The fewest finite samples of which a numerical precision is stated: with fewer, the
+/// order statistics either side of the 16th percentile run into the sample's end.
+pub const MIN_FOR_PRECISION: usize = 100;
+
+/// What the samples of one value say of it.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct SampleSummary {
+    pub median: f64,
+    /// The 16th and 84th percentiles.
+    pub low: f64,
+    pub high: f64,
+    /// The fraction of the samples that were finite (the rest had no value).
+    pub finite: f64,
+    /// How precisely the samples fix each number, when there are enough of them.
+    pub precision: Option<Precision>,
+}
+
+/// The numerical precision of a Monte Carlo summary: for the lower end, median and upper
+/// end, twice the standard error with which the samples fix them (SI). Drawing again with
+/// another seed moves each by about half of this (one standard error). JCGM 101:2008 7.9
+/// calls a result stable when twice the standard deviation of its estimates is within the
+/// tolerance of the digits reported.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Precision {
+    /// Finite samples the summary rests on.
+    pub samples: usize,
+    pub low: f64,
+    pub median: f64,
+    pub high: f64,
+}
+
+impl Precision {
+    /// Whether the three numbers are fixed to half a unit of the second significant digit
+    /// of the standard uncertainty `u` (JCGM 101:2008 7.9.2 with n_dig = 2).
+    pub fn stable_for(&self, u: f64) -> bool {
+        if !(u > 0.0 && u.is_finite()) {
+            return true; // nothing uncertain to state digits of
+        }
+        let tolerance = 0.5 * 10f64.powi(u.log10().floor() as i32 - 1);
+        self.low <= tolerance && self.median <= tolerance && self.high <= tolerance
+    }
+}
+
+/// Select the elements of the sorted, distinct `ranks` (counted from `offset`, the rank of
+/// `v[0]` in the whole) into `out`: the selection of several order statistics at once, each
+/// split narrowing the slices the next ones search. Depth is log2 of the number of ranks.
+fn select_ranks(v: &mut [i64], offset: usize, ranks: &[usize], out: &mut [i64]) {
+    let m = ranks.len() / 2;
+    let (Some(&rank), false) = (ranks.get(m), v.is_empty()) else {
+        return;
+    };
+    let r = rank.saturating_sub(offset).min(v.len() - 1);
+    let (left, x, right) = v.select_nth_unstable(r);
+    let (ranks_left, ranks_rest) = ranks.split_at(m);
+    let (out_left, out_rest) = out.split_at_mut(m.min(out.len()));
+    if let Some((o, out_right)) = out_rest.split_first_mut() {
+        *o = *x;
+        select_ranks(left, offset, ranks_left, out_left);
+        select_ranks(
+            right,
+            offset + r + 1,
+            ranks_rest.get(1..).unwrap_or(&[]),
+            out_right,
         );
-        let (below, mid, above) = v.select_nth_unstable(mid_rank);
-        let median = from_order_key(*mid);
-        let low = if lo_rank < mid_rank {
-            from_order_key(*below.select_nth_unstable(lo_rank).1)
-        } else {
-            median
-        };
-        let high = if hi_rank > mid_rank {
-            from_order_key(*above.select_nth_unstable(hi_rank - mid_rank - 1).1)
-        } else {
-            median
-        };
-        Some((median, low, high, frac))
     }
 }
 
@@ -368,7 +467,12 @@ mod tests {
             grad: Vec::new(),
             samples: Some(Arc::from(s.clone())),
         };
-        let (median, p16, p84, _) = v.sample_summary().unwrap();
+        let SampleSummary {
+            median,
+            low: p16,
+            high: p84,
+            ..
+        } = v.sample_summary().unwrap();
         // Sampling error of a percentile with 40,000 draws: about 0.01 of a side's width.
         assert!((median - 10.0).abs() < 0.03, "{median}");
         assert!((p16 - 9.0).abs() < 0.03, "{p16}");
@@ -396,6 +500,85 @@ mod tests {
         let u = draw(&lim, 0.0, 1.0, 20_000, 2);
         let mean = u.iter().sum::<f64>() / u.len() as f64;
         assert!((mean - 0.04).abs() < 0.001 && u.iter().all(|v| (0.0..=0.08).contains(v)));
+    }
+
+    /// The standard error of a sample p-quantile of n draws from a density f is
+    /// sqrt(p (1 - p) / n) / f(q_p) (common practice: asymptotic normality of sample
+    /// quantiles); for the unit normal, f(q_0.16) = phi(-1) = 0.2419707 and f(q_0.5) = phi(0) =
+    /// 0.3989423.
+    #[test]
+    fn precision_is_twice_the_standard_error_of_each_end() {
+        let unit = Measurement {
+            value: 0.0,
+            below: 1.0,
+            above: 1.0,
+            form: Form::Symmetric,
+        };
+        let sampled = |n: usize, seed: u64| {
+            let samples = draw(&unit, f64::NEG_INFINITY, f64::INFINITY, n, seed);
+            Value {
+                nominal: 0.0,
+                grad: vec![],
+                samples: Some(Arc::from(samples)),
+            }
+            .sample_summary()
+            .unwrap()
+        };
+        let n = 10_000.0;
+        let se_end = (P_LOW * (1.0 - P_LOW) / n).sqrt() / 0.241_970_7;
+        let se_median = (0.25 / n).sqrt() / 0.398_942_3;
+        let p = sampled(10_000, 11).precision.unwrap();
+        assert_eq!(p.samples, 10_000);
+        for (got, want) in [
+            (p.low, 2.0 * se_end),
+            (p.high, 2.0 * se_end),
+            (p.median, 2.0 * se_median),
+        ] {
+            assert!((got / want - 1.0).abs() < 0.3, "{got} against {want}");
+        }
+        // And what it promises: over many seeds, the lower end scatters by about half
+        // the stated precision (one standard error).
+        let ends: Vec<(f64, f64)> = (0..300)
+            .map(|seed| {
+                let s = sampled(4_000, 1000 + seed);
+                (s.low, s.precision.unwrap().low)
+            })
+            .collect();
+        let mean = ends.iter().map(|e| e.0).sum::<f64>() / ends.len() as f64;
+        let scatter = (ends.iter().map(|e| (e.0 - mean).powi(2)).sum::<f64>()
+            / (ends.len() - 1) as f64)
+            .sqrt();
+        let stated = ends.iter().map(|e| e.1).sum::<f64>() / ends.len() as f64 / 2.0;
+        assert!(
+            (scatter / stated - 1.0).abs() < 0.2,
+            "scatter {scatter} against stated {stated}"
+        );
+        // Few samples: no precision is claimed.
+        let few = Value {
+            nominal: 0.0,
+            grad: vec![],
+            samples: Some(Arc::from(vec![1.0, 2.0, 3.0])),
+        };
+        let s = few.sample_summary().unwrap();
+        assert_eq!(
+            (s.median, s.low, s.high, s.precision),
+            (2.0, 1.0, 3.0, None)
+        );
+    }
+
+    #[test]
+    fn stable_means_within_half_the_second_digit() {
+        // u = 0.034: digits shown to 0.001, tolerance 0.0005 (JCGM 101:2008 7.9.2, n_dig 2).
+        let p = |w: f64| Precision {
+            samples: 10_000,
+            low: w,
+            median: w,
+            high: w,
+        };
+        assert!(p(0.00049).stable_for(0.034));
+        assert!(!p(0.00051).stable_for(0.034));
+        // u = 340: tolerance 5.
+        assert!(p(4.9).stable_for(340.0) && !p(5.1).stable_for(340.0));
     }
 
     #[test]
@@ -430,7 +613,9 @@ mod tests {
                 3,
             ))),
         };
-        let (med, p16, p84, frac) = v.sample_summary().unwrap();
-        assert!((med - 5.0).abs() < 0.01 && (p84 - p16 - 1.0).abs() < 0.02 && frac == 1.0);
+        let summary = v.sample_summary().unwrap();
+        let (med, p16, p84) = (summary.median, summary.low, summary.high);
+        assert!((med - 5.0).abs() < 0.01 && (p84 - p16 - 1.0).abs() < 0.02);
+        assert_eq!(summary.finite, 1.0);
     }
 }

@@ -62,7 +62,18 @@ fn quantity_json<'a>(
     } else {
         Vec::new()
     };
+    let precision = q.precision.map(|p| {
+        let unit = q.shown_unit();
+        json::Precision {
+            samples: p.samples,
+            low: unit.of(p.low),
+            median: unit.of(p.median),
+            high: unit.of(p.high),
+            stable: q.stable(),
+        }
+    });
     json::Quantity {
+        precision,
         text: q.text.as_deref(),
         measured,
         form: q.form.as_str(),
@@ -398,10 +409,75 @@ pub fn eval_text(a: &Analysis, db: &dyn SourceDb) -> String {
             for n in notes {
                 out.push_str(&format!("    note: {n}\n"));
             }
+            if let Some(line) = precision_line(&r.quantities) {
+                out.push_str(&format!("    {line}\n"));
+            }
         }
         out.push('\n');
     }
     out
+}
+
+/// How precisely the Monte Carlo samples fix a body's values, in one line (`None` when no
+/// value of it comes from samples): the worst relative precision, and the values not
+/// stable to the last digit shown.
+pub fn precision_line(quantities: &[QuantityResult]) -> Option<String> {
+    let sampled: Vec<&QuantityResult> = quantities
+        .iter()
+        .filter(|q| q.precision.is_some())
+        .collect();
+    let samples = sampled
+        .iter()
+        .filter_map(|q| q.precision.map(|p| p.samples))
+        .max()?;
+    let worst = sampled
+        .iter()
+        .filter_map(|q| q.relative_precision())
+        .fold(0.0f64, f64::max);
+    let unstable: Vec<&str> = sampled
+        .iter()
+        .filter(|q| !q.stable())
+        .map(|q| quantities::def(q.qty).name)
+        .collect();
+    let stable = match unstable.len() {
+        0 => "each is stable to two significant digits of its uncertainty".to_string(),
+        k => {
+            let named = if k > 4 {
+                format!(
+                    "{} and {} more",
+                    unstable.get(..3).unwrap_or_default().join(", "),
+                    k - 3
+                )
+            } else {
+                unstable.join(", ")
+            };
+            // In first-order mode only the values first order cannot describe are sampled,
+            // with a fixed number of draws.
+            let first_order = sampled
+                .iter()
+                .all(|q| crate::derive::validity::was_sampled(q));
+            let how = if first_order {
+                "Monte Carlo propagation with --samples auto draws until they are"
+            } else {
+                "--samples auto draws until they are"
+            };
+            format!(
+                "{k} of {} {} not yet stable to two significant digits of their uncertainty \
+                 ({named}; {how})",
+                sampled.len(),
+                if sampled.len() == 1 {
+                    "value"
+                } else {
+                    "values"
+                }
+            )
+        }
+    };
+    Some(format!(
+        "Monte Carlo precision: {samples} samples fix each median and interval end to within \
+         {:.1} % of its uncertainty (twice the standard error); {stable}",
+        worst * 100.0
+    ))
 }
 
 /// Find a body by id: in the named system, or the first system that has it.

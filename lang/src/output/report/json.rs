@@ -73,6 +73,9 @@ pub struct Options {
     /// Monte Carlo draws; with linear propagation, the draws used for the values first
     /// order cannot describe (`derive::validity`).
     pub samples: usize,
+    /// Whether Monte Carlo drew more than `samples` where needed, until stable
+    /// (`--samples auto`); each value's `precision` says how many it drew.
+    pub adaptive: bool,
     pub seed: u64,
     pub consistency_sigma: f64,
     pub consistency_error_sigma: f64,
@@ -88,6 +91,7 @@ impl Options {
             } else {
                 o.samples.min(crate::derive::validity::MOST_SAMPLES)
             },
+            adaptive: monte_carlo && o.adaptive,
             seed: o.seed,
             consistency_sigma: o.consistency_sigma,
             consistency_error_sigma: o.consistency_error_sigma,
@@ -205,6 +209,21 @@ pub struct Quantity<'a> {
     /// A quantity declared more than once: how the value used was reached.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub choice: Option<&'static str>,
+    /// A value summarised from Monte Carlo samples: how precisely they fix it.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub precision: Option<Precision>,
+}
+
+/// The numerical precision of a Monte Carlo value, in the value's display unit: twice the
+/// standard error of its lower end, median and upper end (JCGM 101:2008 7.9), the samples it
+/// rests on, and whether all three are fixed to the digits shown.
+#[derive(Debug, Serialize)]
+pub struct Precision {
+    pub samples: usize,
+    pub low: f64,
+    pub median: f64,
+    pub high: f64,
+    pub stable: bool,
 }
 
 /// One of several declarations of a quantity, in the quantity's display unit.
