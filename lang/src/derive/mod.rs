@@ -198,6 +198,9 @@ pub struct Derivation<'m> {
     /// Derived values that rest mostly on one limit, given as limits themselves: the value
     /// at that limit, its form, and the sentence that says so.
     bounded: FxHashMap<Key, (f64, Form, String)>,
+    /// When only some values are wanted (see [`Derivation::run_pinned`]): those keys and
+    /// every key they rest on.
+    focus: Option<FxHashSet<Key>>,
 }
 
 /// The most samples adaptive Monte Carlo draws for one system (besides the memory bound of
@@ -279,19 +282,23 @@ impl<'m> Derivation<'m> {
     }
 
     fn run_once(sys: &'m System, options: &Options, lines: &'m sources::Lines) -> Derivation<'m> {
-        let mut d = Derivation::run_pinned(sys, options, lines, FxHashSet::default());
+        let mut d = Derivation::run_pinned(sys, options, lines, FxHashSet::default(), None);
         // Values given as limits need no sampling: bound first, then sample the rest.
         d.bound_where_limited();
         d.sample_where_doubtful();
         d
     }
 
-    /// The derivations alone, with the limits labelled in `pinned` taken at the limit.
+    /// The derivations alone, with the limits labelled in `pinned` taken at the limit. With a
+    /// `focus`, only the values of those keys are wanted: rules for other quantities do not
+    /// fire, and neither do second routes to a known value or the consistency checks that
+    /// compare them (the values of the focus come out as in a full run, by the same routes).
     fn run_pinned(
         sys: &'m System,
         options: &Options,
         lines: &'m sources::Lines,
         pinned: FxHashSet<String>,
+        focus: Option<FxHashSet<Key>>,
     ) -> Derivation<'m> {
         let mut options = options.clone();
         let mut sample_note = None;
@@ -318,10 +325,13 @@ impl<'m> Derivation<'m> {
             sampled: None,
             pinned,
             bounded: FxHashMap::default(),
+            focus,
         };
         d.declare_measurements();
         d.fixed_point();
-        d.check_consistency();
+        if d.focus.is_none() {
+            d.check_consistency();
+        }
         d
     }
 

@@ -159,6 +159,13 @@ impl<'m> Derivation<'m> {
                     if !tier_ok || !ins.iter().all(|k| self.entries.contains_key(k)) {
                         continue;
                     }
+                    if self
+                        .focus
+                        .as_ref()
+                        .is_some_and(|f| !f.contains(out) || self.entries.contains_key(out))
+                    {
+                        continue; // not wanted, or a second route to a known value
+                    }
                     let stands_in = RULES.get(*ri).and_then(|r| rules::stands_in_for(r.id));
                     if stands_in.is_some_and(|q| self.entries.contains_key(&(out.0, q))) {
                         continue; // the quantity it stands in for is known

@@ -869,3 +869,37 @@ fn teq_at_an_albedo_limit_is_the_formula_at_that_albedo() {
         teq.value
     );
 }
+
+/// In first-order mode the values first order cannot describe are sampled by a run that
+/// derives only them and what they rest on: their intervals are exactly those of a full
+/// Monte Carlo run with the same draws.
+#[test]
+fn sampling_only_the_doubted_values_gives_the_full_runs_numbers() {
+    let src = include_str!("../../../tests/fixtures/eval/eccentric.syz");
+    let lin = run(src, &Options::linear());
+    let mc = run(
+        src,
+        &Options {
+            samples: crate::derive::validity::MOST_SAMPLES,
+            ..Options::default()
+        },
+    );
+    let mut compared = 0;
+    for (lb, mb) in lin.results[0].bodies.iter().zip(&mc.results[0].bodies) {
+        for q in lb
+            .quantities
+            .iter()
+            .filter(|q| crate::derive::validity::was_sampled(q))
+        {
+            let full = mb.get(q.qty).unwrap();
+            assert_eq!(
+                (q.value, q.below, q.above, q.precision),
+                (full.value, full.below, full.above, full.precision),
+                "{:?}",
+                q.qty
+            );
+            compared += 1;
+        }
+    }
+    assert!(compared >= 3, "only {compared} sampled values");
+}

@@ -97,6 +97,18 @@ impl<'m> Derivation<'m> {
         out
     }
 
+    /// `keys` and every key their values rest on.
+    fn cone<'k>(&self, keys: impl Iterator<Item = &'k Key>) -> FxHashSet<Key> {
+        let mut out = FxHashSet::default();
+        for k in keys {
+            out.insert(*k);
+            if let Some(e) = self.entries.get(k) {
+                out.extend(e.deps.iter().copied());
+            }
+        }
+        out
+    }
+
     /// In first-order mode, sample the system when some derived value cannot be described
     /// to first order: the doubted values take their intervals from the samples.
     pub(super) fn sample_where_doubtful(&mut self) {
@@ -112,12 +124,14 @@ impl<'m> Derivation<'m> {
             samples: self.options.samples.min(MOST_SAMPLES),
             ..self.options.clone()
         };
+        let focus = self.cone(doubts.keys());
         self.sampled = Some(Sampled {
             derivation: Box::new(Derivation::run_pinned(
                 self.sys,
                 &options,
                 self.lines,
                 Default::default(),
+                Some(focus),
             )),
             doubts,
         });
@@ -165,7 +179,9 @@ impl<'m> Derivation<'m> {
                 continue;
             };
             let pinned = std::iter::once(input.label.clone()).collect();
-            let at_limit = Derivation::run_pinned(self.sys, &options, self.lines, pinned);
+            let focus = self.cone(keys.iter().map(|k| &k.0));
+            let at_limit =
+                Derivation::run_pinned(self.sys, &options, self.lines, pinned, Some(focus));
             // The limit as people read it (`< 5 m/s`): its quantity from the label.
             let qty = input.label.split_once('.').and_then(|(body, name)| {
                 let kind = self.sys.bodies.iter().find(|b| b.id == body)?.kind;

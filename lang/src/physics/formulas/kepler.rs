@@ -4,7 +4,7 @@
 
 use super::domain::{finite, is_non_negative, is_positive};
 use super::radial_velocity::{minimum_mass_from_rv, planet_mass_from_rv};
-use super::transit::inclination_from_impact;
+use super::transit::sin_inclination_from_impact;
 use super::typed::{gravitational_constant, typed};
 use crate::fastmath;
 use std::f64::consts::PI;
@@ -90,8 +90,7 @@ pub fn semi_major_axis_transiting(
     let mut a = semi_major_axis(period, m_star, minimum_mass_from_rv(k, period, m_star, e)?)?;
     for _ in 0..TRANSITING_AXIS_ROUNDS {
         let a_over_rstar = (a / r_star).get::<ratio>();
-        let inclination = inclination_from_impact(impact, a_over_rstar, e, omega)?;
-        let sin_i = inclination.sin().get::<ratio>().abs();
+        let sin_i = sin_inclination_from_impact(impact, a_over_rstar, e, omega)?;
         let m_planet = planet_mass_from_rv(k, period, m_star, e, sin_i)?;
         let next = semi_major_axis(period, m_star, m_planet)?;
         let change = ((next - a) / a).get::<ratio>().abs();

@@ -77,6 +77,17 @@ pub fn inclination_from_impact(
     cos_inclination(impact, a_over_rstar, e, omega).map(|c| Ratio::new::<ratio>(c).acos())
 }
 
+/// `sin i` of [`inclination_from_impact`], as `sqrt(1 - cos^2 i)` (the identity
+/// `sin(acos c) = sqrt(1 - c^2)` for `c` in `[0, 1]`), without the inverse cosine and sine.
+pub fn sin_inclination_from_impact(
+    impact: f64,
+    a_over_rstar: f64,
+    e: f64,
+    omega: Angle,
+) -> Option<f64> {
+    cos_inclination(impact, a_over_rstar, e, omega).map(|c| (1.0 - c * c).max(0.0).sqrt())
+}
+
 fn cos_inclination(impact: f64, a_over_rstar: f64, e: f64, omega: Angle) -> Option<f64> {
     if !(impact.is_finite() && impact >= 0.0) {
         return None;
