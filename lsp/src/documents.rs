@@ -112,6 +112,11 @@ impl Snapshot {
         self.analysis.get().cloned()
     }
 
+    /// Whether the symbol occurrences are computed already.
+    pub fn occurrences_ready(&self) -> bool {
+        self.occurrences.get().is_some()
+    }
+
     pub fn occurrences(&self) -> &[Occurrence] {
         self.occurrences
             .get_or_init(|| symbols::occurrences(&self.analysis().ast))

@@ -7,15 +7,45 @@ use crate::convert;
 use crate::documents::{Documents, Encoding, Snapshot};
 use crate::project::{project_file_path, Projects};
 use std::collections::HashMap;
-use std::sync::{Arc, OnceLock};
-use std::time::Duration;
+use std::sync::{Arc, Mutex, OnceLock};
+use std::time::{Duration, Instant};
 use syzygy::ide;
 use tower_lsp::jsonrpc::{Error, Result};
 use tower_lsp::lsp_types::*;
 use tower_lsp::{Client, LanguageServer};
 
-/// How long diagnostics wait for more typing before they are computed.
-pub const DEBOUNCE: Duration = Duration::from_millis(20);
+/// How long diagnostics wait for more typing before they are computed, given how long an
+/// analysis of the document has been taking: half of it, between 1 and 50 ms. A change that
+/// comes within that time replaces the one waiting, so a burst of changes (a paste, fast
+/// typing on a large file) costs one analysis; a small file, analysed in a millisecond or
+/// two, is not kept waiting for a fixed delay.
+pub fn debounce_for(analysis: Duration) -> Duration {
+    (analysis / 2).clamp(Duration::from_millis(1), Duration::from_millis(50))
+}
+
+/// How long the last analysis of each document took (a document not analysed yet is
+/// assumed to take 20 ms): the last time rather than a mean, because an edit that re-derives
+/// one system costs a hundredth of the first analysis of a large file, and the delay should
+/// follow at once.
+#[derive(Default)]
+struct AnalysisTimes(Mutex<HashMap<Url, Duration>>);
+
+impl AnalysisTimes {
+    fn get(&self, uri: &Url) -> Duration {
+        let times = self.0.lock().unwrap_or_else(|e| e.into_inner());
+        times.get(uri).copied().unwrap_or(Duration::from_millis(20))
+    }
+
+    fn record(&self, uri: &Url, took: Duration) {
+        let mut times = self.0.lock().unwrap_or_else(|e| e.into_inner());
+        times.insert(uri.clone(), took);
+    }
+
+    fn forget(&self, uri: &Url) {
+        let mut times = self.0.lock().unwrap_or_else(|e| e.into_inner());
+        times.remove(uri);
+    }
+}
 
 pub struct Backend {
     client: Client,
@@ -32,6 +62,8 @@ struct State {
     can_watch: OnceLock<bool>,
     /// The checks between the files of the workspace folders.
     catalogue: Catalogue,
+    /// How long analyses have been taking, for the debounce delay.
+    analysis_times: AnalysisTimes,
 }
 
 impl State {
@@ -52,19 +84,25 @@ impl Backend {
         self.state.enc()
     }
 
-    /// Compute and publish diagnostics for one generation after the debounce delay; a
-    /// generation overtaken by a newer change is dropped before and after analysis.
+    /// Compute and publish diagnostics for one generation after the debounce delay
+    /// ([`debounce_for`]); a generation overtaken by a newer change is dropped before and
+    /// after analysis.
     fn schedule_diagnostics(&self, uri: Url, snap: Arc<Snapshot>) {
         let state = self.state.clone();
         let client = self.client.clone();
         tokio::spawn(async move {
-            tokio::time::sleep(DEBOUNCE).await;
+            tokio::time::sleep(debounce_for(state.analysis_times.get(&uri))).await;
             if !state.docs.is_current(&uri, snap.generation) {
                 return;
             }
-            let Some(analysis) = analysis_of(&snap).await else {
+            let fresh = snap.analysis_ready().is_none();
+            let began = Instant::now();
+            let Some(analysis) = analysis_of(&snap, false).await else {
                 return;
             };
+            if fresh {
+                state.analysis_times.record(&uri, began.elapsed());
+            }
             if !state.docs.is_current(&uri, snap.generation) {
                 return;
             }
@@ -91,6 +129,12 @@ impl Backend {
             client
                 .publish_diagnostics(uri.clone(), diags, Some(snap.version))
                 .await;
+            // Hover, rename and highlighting read the symbol occurrences: ready them now,
+            // after the diagnostics rather than before.
+            let warm = snap.clone();
+            tokio::task::spawn_blocking(move || {
+                let _ = warm.occurrences();
+            });
             for other in changed.into_iter().filter(|u| *u != uri) {
                 publish(&state, &client, other).await;
             }
@@ -218,15 +262,21 @@ impl Backend {
     }
 }
 
-/// The snapshot's analysis, computed on a blocking thread if it is not there yet.
-async fn analysis_of(snap: &Arc<Snapshot>) -> Option<Arc<syzygy::Analysis>> {
+/// The snapshot's analysis, computed on a blocking thread if it is not there yet; with
+/// `occurrences`, the symbol occurrences too (requests use them; diagnostics do not, and
+/// warm them only after publishing, see [`Backend::schedule_diagnostics`]).
+async fn analysis_of(snap: &Arc<Snapshot>, occurrences: bool) -> Option<Arc<syzygy::Analysis>> {
     if let Some(a) = snap.analysis_ready() {
-        return Some(a);
+        if !occurrences || snap.occurrences_ready() {
+            return Some(a);
+        }
     }
     let s = snap.clone();
     tokio::task::spawn_blocking(move || {
         let a = s.analysis();
-        let _ = s.occurrences();
+        if occurrences {
+            let _ = s.occurrences();
+        }
         a
     })
     .await
@@ -255,7 +305,9 @@ async fn publish(state: &Arc<State>, client: &Client, uri: Url) {
 }
 
 async fn ready(snap: &Arc<Snapshot>) -> Result<Arc<syzygy::Analysis>> {
-    analysis_of(snap).await.ok_or_else(Error::internal_error)
+    analysis_of(snap, true)
+        .await
+        .ok_or_else(Error::internal_error)
 }
 
 fn edit(uri: &Url, edits: Vec<TextEdit>) -> WorkspaceEdit {
@@ -446,6 +498,7 @@ impl LanguageServer for Backend {
             return;
         }
         self.state.docs.close(&uri);
+        self.state.analysis_times.forget(&uri);
         self.client
             .publish_diagnostics(uri.clone(), Vec::new(), None)
             .await;
@@ -771,5 +824,30 @@ impl LanguageServer for Backend {
             })
             .collect();
         Ok(Some(actions))
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn the_debounce_follows_the_analysis_time() {
+        let ms = Duration::from_millis;
+        assert_eq!(debounce_for(ms(10)), ms(5));
+        assert_eq!(debounce_for(Duration::from_micros(300)), ms(1));
+        assert_eq!(debounce_for(ms(400)), ms(50));
+        let times = AnalysisTimes::default();
+        let (a, b) = (
+            Url::parse("file:///a.syz").unwrap(),
+            Url::parse("file:///b.syz").unwrap(),
+        );
+        assert_eq!(times.get(&a), ms(20));
+        times.record(&a, ms(900));
+        times.record(&b, ms(2));
+        times.record(&a, ms(8));
+        assert_eq!((times.get(&a), times.get(&b)), (ms(8), ms(2)));
+        times.forget(&a);
+        assert_eq!(times.get(&a), ms(20));
     }
 }
