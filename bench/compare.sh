@@ -1,17 +1,20 @@
 #!/usr/bin/env bash
-# Time `syz eval` on an invented catalogue against the hand-written Python route.
+# Time `syz eval` on an invented catalogue against the hand-written Python routes.
 #
-# Usage: bench/compare.sh [N]        (N systems, default 5000; run from anywhere)
+# Usage: bench/compare.sh [N]        (N systems, default 2000; run from anywhere)
 #
 # Generates N systems into a temporary folder, builds the release CLI, runs
 #   python3 bench/peer.py DIR                              (astropy + uncertainties, linear)
+#   python3 bench/peer_mc.py DIR                           (numpy, Monte Carlo, 10^4 samples)
 #   syz eval --format csv --propagation linear DIR         (first-order propagation)
+#   syz eval --format json --propagation linear DIR        (the same, as JSON)
 #   syz eval --format csv DIR                              (Monte Carlo, 10^4 samples)
-# under /usr/bin/time -v, and prints wall-clock times, peer/syz ratios and peak resident
-# memory. `syz check --propagation linear DIR` is run once to show the catalogue is clean.
+# under /usr/bin/time -v, and prints wall-clock times, the ratios of each peer's time to
+# syz's next to their targets, and peak resident memory. `syz check --propagation linear
+# DIR` is run once to show the catalogue is clean.
 set -euo pipefail
 
-N="${1:-5000}"
+N="${1:-2000}"
 ROOT="$(cd "$(dirname "$0")/.." && pwd)"
 cd "$ROOT"
 
@@ -19,8 +22,8 @@ if [ ! -x /usr/bin/time ]; then
   echo "error: /usr/bin/time is missing (apt-get install -y time)" >&2
   exit 1
 fi
-python3 -c 'import astropy, uncertainties' 2>/dev/null || {
-  echo "error: the peer needs astropy and uncertainties (pip install astropy uncertainties)" >&2
+python3 -c 'import astropy, uncertainties, numpy' 2>/dev/null || {
+  echo "error: the peers need astropy, uncertainties and numpy (pip install astropy uncertainties numpy)" >&2
   exit 1
 }
 
@@ -70,12 +73,24 @@ run() {
 
 echo "== timing"
 run peer python3 bench/peer.py "$DIR" /dev/stdout
+run peermc python3 bench/peer_mc.py "$DIR" /dev/stdout 10000
 run linear "$SYZ" eval --format csv --propagation linear "$DIR"
-run mc "$SYZ" eval --format csv "$DIR"
+run json "$SYZ" eval --format json --propagation linear "$DIR"
+run mc "$SYZ" eval --format csv --samples 10000 "$DIR"
+
+# ratio A B TARGET LABEL: print A/B against its target.
+ratio() {
+  local r
+  r=$(echo "$1 / $2" | bc -l)
+  printf '   %-44s = %7.1f x   (target %s x: %s)\n' "$4" "$r" "$3" \
+    "$(if (( $(echo "$r >= $3" | bc -l) )); then echo met; else echo not met; fi)"
+}
 
 echo "== summary (N = $N)"
-printf '   peer / syz linear       = %8.1f x\n' "$(echo "$WALL_peer / $WALL_linear" | bc -l)"
-printf '   peer / syz Monte Carlo  = %8.2f x\n' "$(echo "$WALL_peer / $WALL_mc" | bc -l)"
-printf '   peak RSS: peer %.1f MiB, linear %.1f MiB, Monte Carlo %.1f MiB\n' \
-  "$(echo "$RSS_peer / 1024" | bc -l)" "$(echo "$RSS_linear / 1024" | bc -l)" \
+ratio "$WALL_peer" "$WALL_linear" 40 "astropy+uncertainties / syz linear CSV"
+ratio "$WALL_peer" "$WALL_json" 15 "astropy+uncertainties / syz linear JSON"
+ratio "$WALL_peermc" "$WALL_mc" 3 "numpy Monte Carlo / syz Monte Carlo CSV"
+printf '   peak RSS: peer %.1f MiB, numpy peer %.1f MiB, linear %.1f MiB, JSON %.1f MiB, Monte Carlo %.1f MiB\n' \
+  "$(echo "$RSS_peer / 1024" | bc -l)" "$(echo "$RSS_peermc / 1024" | bc -l)" \
+  "$(echo "$RSS_linear / 1024" | bc -l)" "$(echo "$RSS_json / 1024" | bc -l)" \
   "$(echo "$RSS_mc / 1024" | bc -l)"

@@ -53,7 +53,10 @@ def measured(value, err, unit, name):
     return ufloat(q.value, e.value, name)
 
 
-def read(path):
+def read(path, make=None):
+    """The system's name, its stars by name and its planets, each a dict of the values
+    `make(value, err, unit, name)` returns (a ufloat in SI by default)."""
+    make = make or measured
     system, stars, planets, current = None, {}, [], None
     with open(path, encoding="utf-8") as f:
         for line in f:
@@ -75,12 +78,12 @@ def read(path):
             m = ASYM.match(line)
             if m:
                 name, v, up, lo, unit = m.groups()
-                current[name] = measured(float(v), (float(up) + float(lo)) / 2, unit, name)
+                current[name] = make(float(v), (float(up) + float(lo)) / 2, unit, name)
                 continue
             m = SYM.match(line)
             if m:
                 name, v, err, unit = m.groups()
-                current[name] = measured(float(v), float(err), unit, name)
+                current[name] = make(float(v), float(err), unit, name)
     return system, stars, planets
 
 
