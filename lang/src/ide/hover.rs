@@ -214,25 +214,8 @@ pub fn quantity(a: &Analysis, si: usize, body: &str, qty: Qty, method: &Method) 
             out.push_str(&format!("- {input}: {:.1} %\n", share * 100.0));
         }
     }
-    if let Some(p) = q.precision {
-        let unit = q.shown_unit();
-        let at = |x: f64| match unit.suffix() {
-            "" => crate::format::sig(unit.of(x), 2),
-            u => format!("{} {u}", crate::format::sig(unit.of(x), 2)),
-        };
-        out.push_str(&format!(
-            "\nMonte Carlo precision ({} samples, twice the standard error): lower end ± {}, \
-             median ± {}, upper end ± {}; {}\n",
-            p.samples,
-            at(p.low),
-            at(p.median),
-            at(p.high),
-            if q.stable() {
-                "stable to two significant digits of the uncertainty"
-            } else {
-                "not yet stable to two significant digits of the uncertainty (--samples auto)"
-            }
-        ));
+    if let Some(line) = crate::report::precision_text(q) {
+        out.push_str(&format!("\n{line}\n"));
     }
     if !q.assumptions.is_empty() {
         out.push_str("\nassumed:\n");

@@ -566,8 +566,33 @@ fn improve_line(a: &Analysis, si: usize, key: crate::derive::Key, q: &QuantityRe
     }
 }
 
+/// How precisely a Monte Carlo value's samples fix it, in one sentence (`None` for a value
+/// not from samples): for hover and `syz explain`.
+pub fn precision_text(q: &QuantityResult) -> Option<String> {
+    let p = q.precision?;
+    let unit = q.shown_unit();
+    let at = |x: f64| match unit.suffix() {
+        "" => crate::format::sig(unit.of(x), 2),
+        u => format!("{} {u}", crate::format::sig(unit.of(x), 2)),
+    };
+    Some(format!(
+        "Monte Carlo precision ({} samples, twice the standard error): lower end ± {}, \
+         median ± {}, upper end ± {}; {}",
+        p.samples,
+        at(p.low),
+        at(p.median),
+        at(p.high),
+        if q.stable() {
+            "stable to two significant digits of the uncertainty"
+        } else {
+            "not yet stable to two significant digits of the uncertainty (--samples auto)"
+        }
+    ))
+}
+
 /// The derivation tree of one quantity down to the declared measurements, then its error
-/// budget: each independent input's share of the variance (first order).
+/// budget: each independent input's share of the variance (first order), and how precisely
+/// Monte Carlo fixed it.
 pub fn explain_text(a: &Analysis, si: usize, key: crate::derive::Key) -> Option<String> {
     let res = a.results.get(si)?;
     let q = res.bodies.get(key.0)?.get(key.1)?;
@@ -581,6 +606,9 @@ pub fn explain_text(a: &Analysis, si: usize, key: crate::derive::Key) -> Option<
             out.push_str(&format!("  {input:<width$}  {:>5.1} %\n", share * 100.0));
         }
         out.push_str(&improve_line(a, si, key, q));
+    }
+    if let Some(line) = precision_text(q) {
+        out.push_str(&format!("\n{line}\n"));
     }
     let mut assumed = q.assumptions.clone();
     assumed.dedup();
@@ -672,6 +700,29 @@ mod tests {
         assert!(
             e.contains("to improve this value, improve b.transit_depth first"),
             "{e}"
+        );
+    }
+
+    #[test]
+    fn monte_carlo_values_say_how_precise_their_samples_are() {
+        let mc = crate::analyze(FileId(0), SRC, &crate::Options::default().into());
+        let e = explain_text(&mc, 0, (1, Qty::RadiusRatio)).unwrap();
+        let line = e
+            .lines()
+            .find(|l| l.starts_with("Monte Carlo precision (10000 samples"))
+            .unwrap_or_else(|| panic!("{e}"));
+        assert!(
+            line.contains("lower end ±") && line.contains("upper end ±"),
+            "{line}"
+        );
+        // First order: a value not from samples says nothing of the kind.
+        assert!(!explain(Qty::RadiusRatio).contains("Monte Carlo precision"));
+        // The text report: one line per body with sampled values.
+        let text = eval_text(&mc, &crate::source::MemoryDb::new());
+        assert_eq!(
+            text.matches("Monte Carlo precision: 10000 samples").count(),
+            2,
+            "{text}"
         );
     }
 
