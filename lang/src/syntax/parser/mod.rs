@@ -484,6 +484,15 @@ impl<'a> Cursor<'a> {
 
     /// The `{` that opens `what` (line ends before it allowed); an error and the rest of the
     /// line skipped when it is missing.
+    /// The next token that is not a newline, with the newlines before it consumed (as
+    /// [`Parser::open_block`] would consume them).
+    fn peek_past_newlines(&mut self) -> Option<Tok> {
+        while self.peek() == Some(Tok::Newline) {
+            self.pos += 1;
+        }
+        self.peek()
+    }
+
     fn open_block(&mut self, what: &str) -> bool {
         while self.peek() == Some(Tok::Newline) {
             self.pos += 1;
@@ -600,7 +609,8 @@ impl<'a> Cursor<'a> {
         if kind == BodyKind::Planet && name.is_some() {
             if self.eat(Tok::Orbits).is_some() {
                 orbits = self.ident("the name of the star it orbits");
-            } else if self.peek() == Some(Tok::LBrace) {
+            } else if self.peek_past_newlines() == Some(Tok::LBrace) {
+                // `{` on the next line too: the block opens there all the same.
                 let span = name.as_ref().map_or(self.span_here(), |n| n.span);
                 self.diags.push(
                     Diagnostic::new(Rule::Syntax, span, "a planet must say which star it orbits")

@@ -437,3 +437,26 @@ fn a_reference_inside_a_system_is_told_where_it_goes() {
     // The rest of the system is still read.
     assert_eq!(diags.len(), 1, "{diags:?}");
 }
+
+/// Found by the long fuzz run: a planet without `orbits` whose `{` stood on the next line
+/// was accepted without a word, so formatting it (which puts the `{` on the name's line)
+/// turned a clean file into one with a syntax error. Both layouts now say what is missing.
+#[test]
+fn a_planet_without_its_star_is_an_error_wherever_its_brace_is() {
+    for src in [
+        "system \"A\" {\n  star s { mass = 1 Msun }\n  planet p {\n    period = 3 d\n  }\n}\n",
+        "system \"A\" {\n  star s { mass = 1 Msun }\n  planet p\n{\n    period = 3 d\n  }\n}\n",
+        "system \"A\" {\n  star s { mass = 1 Msun }\n  planet p\n\n  {\n    period = 3 d\n  }\n}\n",
+    ] {
+        assert_eq!(
+            messages(src),
+            vec!["a planet must say which star it orbits".to_string()],
+            "{src}"
+        );
+    }
+    // With its star named, the brace may still stand on the next line.
+    assert!(messages(
+        "system \"A\" {\n  star s { mass = 1 Msun }\n  planet p orbits s\n{\n    period = 3 d\n  }\n}\n"
+    )
+    .is_empty());
+}
