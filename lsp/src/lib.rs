@@ -11,6 +11,7 @@
 
 pub mod catalogue;
 pub mod convert;
+pub mod debounce;
 pub mod documents;
 pub mod project;
 pub mod server;
