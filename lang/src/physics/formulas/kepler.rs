@@ -3,7 +3,7 @@
 //! speed.
 
 use super::domain::{finite, is_non_negative, is_positive};
-use super::radial_velocity::{minimum_mass_from_rv, planet_mass_from_rv};
+use super::radial_velocity::{mass_function, mass_ratio};
 use super::transit::sin_inclination_from_impact;
 use super::typed::{gravitational_constant, typed};
 use crate::fastmath;
@@ -68,12 +68,14 @@ const TRANSITING_AXIS_ROUNDS: usize = 60;
 ///
 /// The true mass needs `sin i`, which the transit gives through the impact parameter and
 /// `a/R*` (Winn 2010 eq. 7), and `a` needs the true mass (`a^3 = G (M* + Mp) P^2 / (4 pi^2)`):
-/// the two are solved together by fixed-point iteration, starting from the minimum mass. Each
-/// round changes `a` by a factor `(M* + Mp)^(1/3)`, and `Mp` depends on `a` only through
-/// `sin i`, so the map contracts by about `Mp / (3 M*) cot^2 i` per round (far below 1 for
-/// any planet) and a few rounds reach rounding level. `None` when any step has no answer (the
-/// impact parameter exceeds `a/R*` at some round, bad inputs) or after
-/// [`TRANSITING_AXIS_ROUNDS`] rounds without converging to 1e-13 relative.
+/// the two are solved together, starting from the minimum mass. Each round takes `sin i` from
+/// the current `a`, the true mass from that, and `a` from the mass; `Mp` depends on `a` only
+/// through `sin i`, so that map moves `a` by a factor of about `Mp / (3 M*) cot^2 i` of its
+/// error (far below 1 for any planet). Each round then takes Newton's step along the map's
+/// known slope, so one round usually reaches rounding level (two for a heavy companion on a
+/// grazing orbit).
+/// `None` when any step has no answer (the impact parameter exceeds `a/R*` at some round, bad
+/// inputs) or after [`TRANSITING_AXIS_ROUNDS`] rounds without converging.
 #[allow(clippy::too_many_arguments)]
 pub fn semi_major_axis_transiting(
     period: Time,
@@ -87,15 +89,32 @@ pub fn semi_major_axis_transiting(
     if !is_positive(&r_star) {
         return None;
     }
-    let mut a = semi_major_axis(period, m_star, minimum_mass_from_rv(k, period, m_star, e)?)?;
+    // The mass function does not change between rounds; each round's mass ratio starts from
+    // the previous one, which differs from it only through sin i.
+    let f = mass_function(k, period, m_star, e)?;
+    let mut u = mass_ratio(f, m_star, 1.0, None)?;
+    let mut a = semi_major_axis(period, m_star, m_star * u)?;
     for _ in 0..TRANSITING_AXIS_ROUNDS {
         let a_over_rstar = (a / r_star).get::<ratio>();
         let sin_i = sin_inclination_from_impact(impact, a_over_rstar, e, omega)?;
-        let m_planet = planet_mass_from_rv(k, period, m_star, e, sin_i)?;
-        let next = semi_major_axis(period, m_star, m_planet)?;
-        let change = ((next - a) / a).get::<ratio>().abs();
-        a = next;
-        if change <= 1e-13 {
+        u = mass_ratio(f, m_star, sin_i, Some(u))?;
+        let next = semi_major_axis(period, m_star, m_star * u)?;
+        let change = ((next - a) / a).get::<ratio>();
+        // Newton's method on F(a) = A(a) - a, A the round's map a -> next. The map's
+        // logarithmic slope is known in closed form,
+        // kappa = d ln(next) / d ln(a) = -u cot^2 i / (3 + u)
+        // (a^3 grows as 1 + u, u falls as sin i^(-3(1+u)/(3+u)), and sin i grows with a as
+        // cot^2 i), so F'(a) = kappa next / a - 1 and the relative step is
+        // delta = change / (1 - kappa (1 + change)); kappa <= 0 keeps the divisor >= 1. The
+        // relative error left after it is about
+        // |F''| / (2 |F'|) delta^2, and d kappa / d ln a is about 2 |kappa| (1 + cot^2 i) (the
+        // change of u with a adds terms of order kappa^2), so once |kappa| (1 + cot^2 i)
+        // delta^2 is below 1e-16 the result is at rounding level.
+        let cot2 = (1.0 - sin_i * sin_i) / (sin_i * sin_i);
+        let kappa = -u * cot2 / (3.0 + u);
+        let delta = change / (1.0 - kappa * (1.0 + change));
+        a *= 1.0 + delta;
+        if kappa.abs() * (1.0 + cot2) * delta * delta <= 1e-16 {
             return finite(a);
         }
     }

@@ -74,30 +74,60 @@ pub fn planet_mass_from_rv(
     e: f64,
     sin_i: f64,
 ) -> Option<Mass> {
-    if !(is_positive(&k)
-        && is_positive(&period)
-        && is_positive(&m_star)
-        && is_eccentricity(e)
-        && is_sin_inclination(sin_i))
-    {
+    let f = mass_function(k, period, m_star, e)?;
+    let u = mass_ratio(f, m_star, sin_i, None)?;
+    finite(m_star * u)
+}
+
+/// The spectroscopic mass function `f = P K^3 (1 - e^2)^(3/2) / (2 pi G)`, a mass; `None`
+/// for a non-positive `k`, period or stellar mass, or `e` outside `[0, 1)` (the cases
+/// [`planet_mass_from_rv`] has no answer for).
+pub(super) fn mass_function(k: Velocity, period: Time, m_star: Mass, e: f64) -> Option<Mass> {
+    if !(is_positive(&k) && is_positive(&period) && is_positive(&m_star) && is_eccentricity(e)) {
         return None;
     }
-    // Mass function f = P K^3 (1 - e^2)^(3/2) / (2 pi G), a mass.
-    let mass_function: Mass = period * k * k * k * one_minus_e2_to_three_halves(e)
-        / (2.0 * PI * gravitational_constant());
-    let phi = value_of(mass_function / (m_star * sin_i.powi(3)));
+    Some(
+        period * k * k * k * one_minus_e2_to_three_halves(e)
+            / (2.0 * PI * gravitational_constant()),
+    )
+}
+
+/// The mass ratio `u = Mp / M*` for the mass function `f` (see [`mass_function`]) and
+/// `sin_i`: the positive root of `u^3 = phi (1 + u)^2`, `phi = f / (M* sin^3 i)`, to rounding
+/// level. `start`, when given, is the root of a nearby problem (the previous round of an
+/// iteration) and saves the starting guess's cube roots. `None` for `sin_i` outside
+/// `(0, 1]`, a `phi` that is not positive and finite, or no convergence.
+pub(super) fn mass_ratio(f: Mass, m_star: Mass, sin_i: f64, start: Option<f64>) -> Option<f64> {
+    if !is_sin_inclination(sin_i) {
+        return None;
+    }
+    let phi = value_of(f / (m_star * sin_i.powi(3)));
     if !(phi.is_finite() && phi > 0.0) {
         return None;
     }
-    // Fast path: Newton on the cubic g(u) = u^3 - phi (1 + u)^2 itself (arithmetic only),
-    // from the small-planet guess u0 = c (1 + c)^(2/3), c = phi^(1/3). g is convex where
-    // the root lies (g'' = 6u - 2 phi > 0 for u > phi/3, and the root exceeds phi^(1/3)), so
-    // after the first step the iterates decrease monotonically onto the root. Anything
-    // unusual (a flat slope, no convergence) falls through to the log-space iteration below,
-    // which converges from any start.
+    // Fast path: Newton on the cubic g(u) = u^3 - phi (1 + u)^2 itself (arithmetic only).
+    // The start: the given one, or the small-planet series u = c (1 + 2c/3 + c^2/3 + O(c^3)),
+    // c = phi^(1/3) (from u = c (1 + u)^(2/3)), where c is small, phi + 2 where phi is large,
+    // and c (1 + c)^(2/3) between. g is convex where the root lies (g'' = 6u - 2 phi > 0 for u > phi/3, and the
+    // root exceeds phi^(1/3)), so after the first step the iterates decrease monotonically
+    // onto the root, each step squaring the relative error. Anything unusual (a flat slope, no convergence) falls through to the
+    // log-space iteration below, which converges from any start.
     {
-        let c = fastmath::cbrt_guess(phi);
-        let mut u = c * fastmath::cbrt_guess((1.0 + c) * (1.0 + c));
+        let mut u = match start.filter(|s| s.is_finite() && *s > 0.0) {
+            Some(s) => s,
+            None => {
+                let c = fastmath::cbrt_guess(phi);
+                if c < 0.1 {
+                    c * (1.0 + c * (2.0 / 3.0 + c / 3.0))
+                } else if phi > 8.0 {
+                    // A companion heavier than the star: u = phi (1 + 1/u)^2 = phi + 2 +
+                    // O(1/phi).
+                    phi + 2.0
+                } else {
+                    c * fastmath::cbrt_guess((1.0 + c) * (1.0 + c))
+                }
+            }
+        };
         for _ in 0..60 {
             let g = u * u * u - phi * (1.0 + u) * (1.0 + u);
             let slope = 3.0 * u * u - 2.0 * phi * (1.0 + u);
@@ -109,16 +139,12 @@ pub fn planet_mass_from_rv(
             if !(u.is_finite() && u > 0.0) {
                 break;
             }
-            if step.abs() <= 1e-9 * u {
-                let g = u * u * u - phi * (1.0 + u) * (1.0 + u);
-                let slope = 3.0 * u * u - 2.0 * phi * (1.0 + u);
-                if slope > 0.0 {
-                    u -= g / slope;
-                }
-                if u.is_finite() && u > 0.0 {
-                    return finite(m_star * u);
-                }
-                break;
+            // Quadratic convergence: after a step s the error left is about
+            // g'' / (2 g') s^2, at most 2 (s/u)^2 u here (the factor is 1 for a light planet
+            // and 2 for a companion far heavier than the star), so a step below 1e-8 u
+            // leaves the root at rounding level.
+            if step.abs() <= 1e-8 * u {
+                return Some(u);
             }
         }
     }
@@ -147,9 +173,16 @@ pub fn planet_mass_from_rv(
             return None;
         }
         if step.abs() <= 1e-10 * y.abs().max(1.0) {
-            // Quadratic convergence: one more step brings the error to rounding level.
+            // Quadratic convergence: one more step brings the error to rounding level in y;
+            // e^y carries the rounding of y (a few units in the last place times |y|), which
+            // one Newton step on the cubic itself removes where its slope is positive.
             y -= newton_step(y);
-            return finite(m_star * y.exp());
+            let mut u = y.exp();
+            let slope = 3.0 * u * u - 2.0 * phi * (1.0 + u);
+            if slope > 0.0 {
+                u -= (u * u * u - phi * (1.0 + u) * (1.0 + u)) / slope;
+            }
+            return Some(u).filter(|u| u.is_finite() && *u > 0.0);
         }
     }
     None
