@@ -1,7 +1,7 @@
 //! Throughput benchmark (not a test): `cargo run --release -p syzygy --example bench`.
 //!
 //! Generates an invented catalogue in memory and times each stage. Figures go to
-//! docs/performance.md.
+//! docs/performance.md. It allocates with mimalloc, as `syz` does.
 
 use rand::{Rng, SeedableRng};
 use rand_chacha::ChaCha8Rng;
@@ -54,6 +54,9 @@ fn time<T>(label: &str, bytes: usize, runs: usize, mut f: impl FnMut() -> T) -> 
     }
     secs
 }
+
+#[global_allocator]
+static ALLOC: mimalloc::MiMalloc = mimalloc::MiMalloc;
 
 fn main() {
     let mut rng = Gen::seed_from_u64(42);

@@ -545,21 +545,45 @@ pub struct UnknownUnit {
 
 /// Look up one symbol, with or without an SI prefix.
 pub fn lookup(symbol: &str) -> Option<(f64, &'static UnitDef)> {
-    let reg = registry();
-    if let Some(def) = reg
-        .iter()
-        .find(|d| d.symbol == symbol || d.aliases.contains(&symbol))
-    {
+    let (plain, prefixable) = symbol_index();
+    if let Some(&def) = plain.get(symbol) {
         return Some((def.factor, def));
     }
     for (p, scale) in PREFIXES {
         if let Some(rest) = symbol.strip_prefix(p) {
-            if let Some(def) = reg.iter().find(|d| d.prefixes && d.symbol == rest) {
+            if let Some(&def) = prefixable.get(rest) {
                 return Some((scale * def.factor, def));
             }
         }
     }
     None
+}
+
+/// The registry by spelling: every symbol and alias (the first unit in registry order that
+/// has it), and the symbols that take a prefix. Every value with a unit is looked up here,
+/// so a file of a hundred thousand values no longer scans the registry's list for each.
+#[allow(clippy::type_complexity)]
+fn symbol_index() -> &'static (
+    rustc_hash::FxHashMap<&'static str, &'static UnitDef>,
+    rustc_hash::FxHashMap<&'static str, &'static UnitDef>,
+) {
+    static INDEX: OnceLock<(
+        rustc_hash::FxHashMap<&'static str, &'static UnitDef>,
+        rustc_hash::FxHashMap<&'static str, &'static UnitDef>,
+    )> = OnceLock::new();
+    INDEX.get_or_init(|| {
+        let mut plain = rustc_hash::FxHashMap::default();
+        let mut prefixable = rustc_hash::FxHashMap::default();
+        for def in registry() {
+            for s in std::iter::once(def.symbol).chain(def.aliases.iter().copied()) {
+                plain.entry(s).or_insert(def);
+            }
+            if def.prefixes {
+                prefixable.entry(def.symbol).or_insert(def);
+            }
+        }
+        (plain, prefixable)
+    })
 }
 
 /// Every registered unit (for completion and documentation).
@@ -727,32 +751,42 @@ pub fn resolve(expr: &UnitExpr) -> Result<Unit, Vec<(crate::source::Span, Unknow
 /// The canonical spelling of a unit expression: numerator factors joined by spaces, each
 /// denominator factor after a `/` (`km s^-1` is spelled `km/s`, `g cm^-3` is `g/cm^3`).
 pub fn unit_text(expr: &UnitExpr) -> String {
-    let power = |name: &str, e: i32| {
-        if e == 1 {
-            name.to_string()
-        } else {
-            format!("{name}^{e}")
+    use std::fmt::Write;
+    // Written into one string (every value with a unit comes through here): the factors
+    // with positive exponents joined by spaces, then each negative one after a '/'; with
+    // no positive factor, the negative ones joined by spaces with their signs.
+    let mut out = String::with_capacity(
+        expr.factors
+            .iter()
+            .map(|f| f.symbol.name.len() + 4)
+            .sum::<usize>(),
+    );
+    let put = |out: &mut String, name: &str, e: i32| {
+        out.push_str(name);
+        if e != 1 {
+            let _ = write!(out, "^{e}");
         }
     };
-    let num: Vec<String> = expr
-        .factors
-        .iter()
-        .filter(|f| f.exponent > 0)
-        .map(|f| power(&f.symbol.name, f.exponent))
-        .collect();
-    let den: Vec<&crate::ast::UnitFactor> =
-        expr.factors.iter().filter(|f| f.exponent < 0).collect();
-    if num.is_empty() {
-        return den
-            .iter()
-            .map(|f| power(&f.symbol.name, f.exponent))
-            .collect::<Vec<_>>()
-            .join(" ");
+    let any_positive = expr.factors.iter().any(|f| f.exponent > 0);
+    let mut first = true;
+    for f in expr.factors.iter().filter(|f| f.exponent > 0) {
+        if !first {
+            out.push(' ');
+        }
+        first = false;
+        put(&mut out, &f.symbol.name, f.exponent);
     }
-    let mut out = num.join(" ");
-    for f in den {
-        out.push('/');
-        out.push_str(&power(&f.symbol.name, -f.exponent));
+    for f in expr.factors.iter().filter(|f| f.exponent < 0) {
+        if any_positive {
+            out.push('/');
+            put(&mut out, &f.symbol.name, -f.exponent);
+        } else {
+            if !first {
+                out.push(' ');
+            }
+            first = false;
+            put(&mut out, &f.symbol.name, f.exponent);
+        }
     }
     out
 }

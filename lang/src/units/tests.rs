@@ -116,3 +116,85 @@ fn prefixes_only_where_allowed() {
     // "min" is the minute, not milli-inch; "mas" the milliarcsecond.
     assert_eq!(lookup("min").map(|(f, _)| f), Some(60.0));
 }
+
+/// The spelling index finds what a scan of the registry in order finds: for every symbol
+/// and alias, and for every prefix before every symbol (prefixable or not), the same unit
+/// and factor, or nothing for both.
+#[test]
+fn the_spelling_index_agrees_with_a_scan_of_the_registry() {
+    let reg = all_units();
+    let scan = |symbol: &str| -> Option<(f64, &'static UnitDef)> {
+        if let Some(def) = reg
+            .iter()
+            .find(|d| d.symbol == symbol || d.aliases.contains(&symbol))
+        {
+            return Some((def.factor, def));
+        }
+        for (p, scale) in PREFIXES {
+            if let Some(rest) = symbol.strip_prefix(p) {
+                if let Some(def) = reg.iter().find(|d| d.prefixes && d.symbol == rest) {
+                    return Some((scale * def.factor, def));
+                }
+            }
+        }
+        None
+    };
+    let mut spellings: Vec<String> = Vec::new();
+    for d in reg {
+        for s in std::iter::once(d.symbol).chain(d.aliases.iter().copied()) {
+            spellings.push(s.to_string());
+            for (p, _) in PREFIXES {
+                spellings.push(format!("{p}{s}"));
+            }
+        }
+    }
+    spellings.extend(["", "x", "mmmag", "kkm", "Msun2"].map(String::from));
+    let mut found = 0;
+    for s in &spellings {
+        let (a, b) = (lookup(s), scan(s));
+        assert_eq!(
+            a.map(|(f, d)| (f, d.symbol, d.name)),
+            b.map(|(f, d)| (f, d.symbol, d.name)),
+            "{s:?}"
+        );
+        found += usize::from(a.is_some());
+    }
+    assert!(found > 300, "only {found} spellings resolve");
+}
+
+/// How a unit is spelled back: numerator factors joined by spaces, each denominator factor
+/// after a '/', or, with no numerator, the factors with their negative exponents. Checked
+/// against the spelling written out here for each shape of unit.
+#[test]
+fn units_are_spelled_back_as_written() {
+    use crate::ast::{Ident, UnitExpr, UnitFactor};
+    use crate::source::{FileId, Span};
+    let expr = |factors: &[(&str, i32)]| UnitExpr {
+        factors: factors
+            .iter()
+            .map(|(n, e)| UnitFactor {
+                symbol: Ident {
+                    name: (*n).to_string(),
+                    span: Span::new(FileId(0), 0, 0),
+                },
+                exponent: *e,
+            })
+            .collect(),
+        span: Span::new(FileId(0), 0, 0),
+    };
+    let cases: &[(&[(&str, i32)], &str)] = &[
+        (&[("Msun", 1)], "Msun"),
+        (&[("m", 1), ("s", -1)], "m/s"),
+        (&[("kg", 1), ("m", -3)], "kg/m^3"),
+        (&[("g", 1), ("cm", -3)], "g/cm^3"),
+        (&[("m", 3), ("kg", -1), ("s", -2)], "m^3/kg/s^2"),
+        (&[("W", 1), ("m", 2)], "W m^2"),
+        (&[("s", -1)], "s^-1"),
+        (&[("s", -1), ("m", -2)], "s^-1 m^-2"),
+        (&[("m", 0), ("K", 1)], "K"),
+        (&[], ""),
+    ];
+    for (factors, spelled) in cases {
+        assert_eq!(unit_text(&expr(factors)), *spelled, "{factors:?}");
+    }
+}
