@@ -11,8 +11,8 @@
 
 pub mod catalogue;
 pub mod convert;
-pub mod debounce;
 pub mod documents;
+pub mod gate;
 pub mod project;
 pub mod server;
 pub mod transport;

@@ -4,12 +4,11 @@
 
 use crate::catalogue::Catalogue;
 use crate::convert;
-use crate::debounce::{debounce_for, AnalysisTimes};
 use crate::documents::{Documents, Encoding, Snapshot};
+use crate::gate::Gates;
 use crate::project::{project_file_path, Projects};
 use std::collections::HashMap;
 use std::sync::{Arc, OnceLock};
-use std::time::Instant;
 use syzygy::ide;
 use tower_lsp::jsonrpc::{Error, Result};
 use tower_lsp::lsp_types::*;
@@ -30,8 +29,8 @@ struct State {
     can_watch: OnceLock<bool>,
     /// The checks between the files of the workspace folders.
     catalogue: Catalogue,
-    /// How long analyses have been taking, for the debounce delay.
-    analysis_times: AnalysisTimes,
+    /// One analysis of a document at a time (see [`crate::gate`]).
+    gates: Gates,
 }
 
 impl State {
@@ -52,25 +51,21 @@ impl Backend {
         self.state.enc()
     }
 
-    /// Compute and publish diagnostics for one generation after the debounce delay
-    /// ([`debounce_for`]); a generation overtaken by a newer change is dropped before and
-    /// after analysis.
+    /// Compute and publish diagnostics for one generation: at once if no analysis of the
+    /// document is running, else after it ends, and only if no newer change came meanwhile
+    /// ([`crate::gate`]); a generation overtaken during its analysis is dropped after it too.
     fn schedule_diagnostics(&self, uri: Url, snap: Arc<Snapshot>) {
         let state = self.state.clone();
         let client = self.client.clone();
+        let gate = state.gates.of(&uri);
         tokio::spawn(async move {
-            tokio::time::sleep(debounce_for(state.analysis_times.get(&uri))).await;
+            let _running = gate.lock().await;
             if !state.docs.is_current(&uri, snap.generation) {
                 return;
             }
-            let fresh = snap.analysis_ready().is_none();
-            let began = Instant::now();
             let Some(analysis) = analysis_of(&snap, false).await else {
                 return;
             };
-            if fresh {
-                state.analysis_times.record(&uri, began.elapsed());
-            }
             if !state.docs.is_current(&uri, snap.generation) {
                 return;
             }
@@ -466,7 +461,7 @@ impl LanguageServer for Backend {
             return;
         }
         self.state.docs.close(&uri);
-        self.state.analysis_times.forget(&uri);
+        self.state.gates.forget(&uri);
         self.client
             .publish_diagnostics(uri.clone(), Vec::new(), None)
             .await;
