@@ -903,3 +903,63 @@ fn sampling_only_the_doubted_values_gives_the_full_runs_numbers() {
     }
     assert!(compared >= 3, "only {compared} sampled values");
 }
+
+/// A quantity with no physical zero (the habitable-zone position: 0 at the inner edge) can
+/// sit near 0 with an uncertainty far larger than itself and no skew at all: it is not
+/// sampled for that, and its first-order interval agrees with Monte Carlo's. When a value
+/// it rests on is doubted (a luminosity from a loosely known Teff, T^4 with 32 % first-order
+/// uncertainty), it is sampled too, and says why.
+#[test]
+fn a_value_near_a_zero_that_is_no_floor_stays_first_order() {
+    let src = "system \"Liminal\" {\n  star s { mass = 0.85 ± 0.04 Msun; radius = 0.85 ± 0.02 Rsun; teff = 4980 ± 80 K }\n  planet b orbits s { period = 178.7 ± 0.01 d }\n}\n";
+    let lin = get(
+        &run(src, &Options::linear()),
+        "b",
+        Qty::HabitableZonePosition,
+    )
+    .unwrap();
+    let mc = get(
+        &run(src, &Options::default()),
+        "b",
+        Qty::HabitableZonePosition,
+    )
+    .unwrap();
+    assert!(
+        lin.below > 0.25 * lin.value.abs(),
+        "near 0: {} ± {}",
+        lin.value,
+        lin.below
+    );
+    assert!(
+        !crate::derive::validity::was_sampled(&lin),
+        "{:?}",
+        lin.assumptions
+    );
+    // First order is good here: each end within a tenth of the uncertainty of Monte
+    // Carlo's (10^4 draws fix them to about 4 % of it).
+    let sigma = (mc.below + mc.above) / 2.0;
+    for (l, m) in [
+        (lin.value, mc.value),
+        (lin.value - lin.below, mc.value - mc.below),
+        (lin.value + lin.above, mc.value + mc.above),
+    ] {
+        assert!((l - m).abs() < 0.1 * sigma, "{l} vs {m} (sigma {sigma})");
+    }
+    let loose = src.replace("teff = 4980 ± 80 K", "teff = 4980 ± 400 K");
+    let a = run(&loose, &Options::linear());
+    let lum = get(&a, "s", Qty::Luminosity).unwrap();
+    assert!(
+        crate::derive::validity::was_sampled(&lum),
+        "{:?}",
+        lum.assumptions
+    );
+    let hz = get(&a, "b", Qty::HabitableZonePosition).unwrap();
+    assert!(
+        hz.assumptions
+            .iter()
+            .any(|a| a.starts_with(crate::derive::validity::SAMPLED)
+                && a.contains("it rests on s.luminosity, which first order cannot describe")),
+        "{:?}",
+        hz.assumptions
+    );
+}

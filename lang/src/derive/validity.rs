@@ -33,6 +33,19 @@ pub const SHARE_LIMIT: f64 = 0.05;
 /// enough for an editor.
 pub const MOST_SAMPLES: usize = 4_000;
 
+/// Whether a quantity is measured from a true zero (it cannot be negative: a mass, a
+/// radius, a flux, a duration). Only for those does an uncertainty that is a large fraction
+/// of the value mean a skewed distribution ([`RELATIVE_LIMIT`]); a quantity on a scale with
+/// no physical zero (a position in the habitable zone, a magnitude, a logarithm such as
+/// log g) can sit near 0 with no skew at all, and its relative uncertainty says nothing.
+pub fn ratio_scale(q: Qty) -> bool {
+    use quantities::Bound;
+    match quantities::def(q).min {
+        Bound::Inclusive(m) | Bound::Exclusive(m) => m >= 0.0,
+        Bound::None => false,
+    }
+}
+
 /// A derived value resting on a declared limit for at least this share of its first-order
 /// variance is given as a limit (see [`Derivation::bound_where_limited`]).
 pub const LIMIT_SHARE: f64 = 0.5;
@@ -70,7 +83,7 @@ impl<'m> Derivation<'m> {
             let size = entry.value.nominal.abs();
             let relative = lo.max(hi) / size.max(f64::MIN_POSITIVE);
             let mut why = Vec::new();
-            if relative > RELATIVE_LIMIT {
+            if relative > RELATIVE_LIMIT && ratio_scale(key.1) {
                 why.push(format!(
                     "its first-order uncertainty is {:.0}% of the value",
                     (relative * 100.0).min(999.0)
@@ -97,6 +110,37 @@ impl<'m> Derivation<'m> {
         out
     }
 
+    /// Values whose size says nothing about how well first order describes them (see
+    /// [`ratio_scale`]) are doubted when a value they rest on is: its skew passes on.
+    fn inherit_doubts(&self, doubts: &mut FxHashMap<Key, String>) {
+        let mut inherited = Vec::new();
+        for (key, entry) in &self.entries {
+            if ratio_scale(key.1)
+                || doubts.contains_key(key)
+                || !entry.origin.is_computed()
+                || self.bounded.contains_key(key)
+            {
+                continue;
+            }
+            let mut from: Vec<&Key> = entry
+                .deps
+                .iter()
+                .filter(|d| *d != key && doubts.contains_key(d))
+                .collect();
+            from.sort();
+            if let Some(first) = from.first() {
+                inherited.push((
+                    *key,
+                    format!(
+                        "it rests on {}, which first order cannot describe",
+                        self.key_name(**first)
+                    ),
+                ));
+            }
+        }
+        doubts.extend(inherited);
+    }
+
     /// `keys` and every key their values rest on.
     fn cone<'k>(&self, keys: impl Iterator<Item = &'k Key>) -> FxHashSet<Key> {
         let mut out = FxHashSet::default();
@@ -115,10 +159,11 @@ impl<'m> Derivation<'m> {
         if self.options.propagation != Propagation::Linear {
             return;
         }
-        let doubts = self.doubts();
+        let mut doubts = self.doubts();
         if doubts.is_empty() {
             return;
         }
+        self.inherit_doubts(&mut doubts);
         let options = Options {
             propagation: Propagation::MonteCarlo,
             samples: self.options.samples.min(MOST_SAMPLES),
