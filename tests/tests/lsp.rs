@@ -732,3 +732,50 @@ fn a_code_action_switches_the_source_of_a_quantity_declared_twice() {
     );
     assert_eq!(c.shutdown_and_exit().unwrap().code(), Some(0));
 }
+
+/// A burst of changes to a large file costs about two analyses, not one per change: a
+/// change is analysed at once when none is running, and of the changes that wait for a
+/// running analysis only the newest is analysed next. Every diagnostics message is for a
+/// version that was current when its analysis began, the last one for the last version.
+#[test]
+fn a_burst_of_changes_is_analysed_about_twice_not_once_per_change() {
+    let (_, veyra) = veyra();
+    // Forty renamed copies of the demo system: an analysis long enough to overlap the burst.
+    let mut text = String::new();
+    for i in 0..40 {
+        text.push_str(&veyra.replace("system \"Veyra\"", &format!("system \"Veyra {i}\"")));
+        text.push('\n');
+    }
+    let uri = "file:///tmp/burst.syz";
+    let mut c = LspClient::start();
+    c.initialize(json!({}));
+    c.open(uri, &text);
+    c.diagnostics(uri, Some(1));
+    let at = position_of(&text, "# ", 0);
+    let changes = 40i64;
+    for v in 2..2 + changes {
+        c.notify(
+            "textDocument/didChange",
+            json!({"textDocument": {"uri": uri, "version": v},
+                   "contentChanges": [{"range": {"start": at, "end": at}, "text": "x"}]}),
+        );
+    }
+    let last = 1 + changes;
+    c.diagnostics(uri, Some(last));
+    let published: Vec<i64> = c
+        .drain(Duration::from_millis(500))
+        .iter()
+        .filter(|m| m["method"] == "textDocument/publishDiagnostics")
+        .map(|m| m["params"]["version"].as_i64().unwrap())
+        .collect();
+    assert!(
+        published.iter().all(|&v| v < last),
+        "nothing after the last version's: {published:?}"
+    );
+    assert!(
+        published.len() <= 6,
+        "{} analyses published for a burst of {changes} changes: {published:?}",
+        published.len() + 1
+    );
+    assert_eq!(c.shutdown_and_exit().unwrap().code(), Some(0));
+}
