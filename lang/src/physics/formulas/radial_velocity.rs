@@ -60,10 +60,12 @@ pub fn rv_semi_amplitude(
 /// star; see [`minimum_mass_from_rv`].
 ///
 /// Method: with `u = Mp / M*` and `phi = f / (M* sin^3 i)`, the relation reads
-/// `u^3 = phi (1 + u)^2`, which has exactly one positive root. Newton's method on
-/// `h(y) = 3 y - 2 ln(1 + e^y) - ln phi`, `y = ln u`, converges from any start because `h` is
-/// increasing (`1 < h' <= 3`) and concave; once a step falls below 1e-10 one more step is
-/// taken, which leaves the mass accurate to rounding level (about 1e-15 relative).
+/// `u^3 = phi (1 + u)^2`, which has exactly one positive root (`mass_ratio`). Newton's
+/// method on the cubic itself, from a series start, usually needs one or two steps; where it
+/// cannot be used, Newton's method on `h(y) = 3 y - 2 ln(1 + e^y) - ln phi`, `y = ln u`,
+/// converges from any start because `h` is increasing (`1 < h' <= 3`) and concave. Either way
+/// the mass is accurate to rounding level (a test checks the cubic's residual from
+/// `phi = 1e-30` to `1e6`).
 ///
 /// `None` for a non-positive `k`, period or stellar mass, `e` outside `[0, 1)`, `sin_i` outside
 /// `(0, 1]`, or if the iteration does not converge (not observed for finite inputs).
@@ -108,10 +110,11 @@ pub(super) fn mass_ratio(f: Mass, m_star: Mass, sin_i: f64, start: Option<f64>) 
     // Fast path: Newton on the cubic g(u) = u^3 - phi (1 + u)^2 itself (arithmetic only).
     // The start: the given one, or the small-planet series u = c (1 + 2c/3 + c^2/3 + O(c^3)),
     // c = phi^(1/3) (from u = c (1 + u)^(2/3)), where c is small, phi + 2 where phi is large,
-    // and c (1 + c)^(2/3) between. g is convex where the root lies (g'' = 6u - 2 phi > 0 for u > phi/3, and the
-    // root exceeds phi^(1/3)), so after the first step the iterates decrease monotonically
-    // onto the root, each step squaring the relative error. Anything unusual (a flat slope, no convergence) falls through to the
-    // log-space iteration below, which converges from any start.
+    // and c (1 + c)^(2/3) between. g is convex where the root lies (g'' = 6u - 2 phi > 0
+    // for u > phi/3, and the root exceeds phi^(1/3)), so after the first step the iterates
+    // decrease monotonically onto the root, each step squaring the relative error. Anything
+    // unusual (a flat slope, no convergence) falls through to the log-space iteration below,
+    // which converges from any start.
     {
         let mut u = match start.filter(|s| s.is_finite() && *s > 0.0) {
             Some(s) => s,
