@@ -155,6 +155,12 @@ impl LspClient {
         std::mem::take(&mut self.pending)
     }
 
+    /// The messages received so far and not yet taken by a wait (in arrival order), without
+    /// reading any more.
+    pub fn take_pending(&mut self) -> Vec<Value> {
+        std::mem::take(&mut self.pending)
+    }
+
     /// `publishDiagnostics` for `uri` (at `version`, if given).
     pub fn diagnostics(&mut self, uri: &str, version: Option<i64>) -> Value {
         self.wait_for(TIMEOUT, |m| {
