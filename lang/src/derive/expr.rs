@@ -229,7 +229,7 @@ impl<'m> Derivation<'m> {
                     1 => format!("{}: {}", self.naming.0, lit.written),
                     k => format!("{}: {} (literal {k})", self.naming.0, lit.written),
                 };
-                Ok(self.new_input(label, m, f64::NEG_INFINITY, f64::INFINITY))
+                Ok(self.new_input(None, label, m, f64::NEG_INFINITY, f64::INFINITY))
             }
             Node::Binding(id) => match self.bindings.get(id) {
                 Some(Binding::Ready(v, used)) => {
@@ -311,7 +311,7 @@ impl<'m> Derivation<'m> {
                 .get(id as usize)
                 .map_or("", |i| i.label.as_str());
             let seed = value::stable_hash(&[&self.sys.name, label], self.options.seed);
-            std::sync::Arc::from(value::draw(m, f64::NEG_INFINITY, f64::INFINITY, n, seed))
+            value::draw(m, f64::NEG_INFINITY, f64::INFINITY, n, seed)
         })
     }
 

@@ -25,7 +25,16 @@ pub(super) fn default_for(q: Qty) -> Option<(f64, &'static str)> {
 }
 
 impl<'m> Derivation<'m> {
-    pub(super) fn new_input(&mut self, label: String, m: &Measurement, lo: f64, hi: f64) -> Value {
+    /// A new input of the engine: `key` is the quantity it is the value of (`None` for a
+    /// literal in an expression or a prediction's scatter, which are always sampled).
+    pub(super) fn new_input(
+        &mut self,
+        key: Option<Key>,
+        label: String,
+        m: &Measurement,
+        lo: f64,
+        hi: f64,
+    ) -> Value {
         let id = u32::try_from(self.inputs.len()).unwrap_or(u32::MAX);
         if m.form.is_limit() && self.pinned.contains(&label) {
             // Evaluated at its limit (see `validity::bound_where_limited`).
@@ -49,9 +58,10 @@ impl<'m> Derivation<'m> {
             _ => m.value,
         };
         let n = self.n();
-        let samples = (n > 0).then(|| {
+        // Each input's draws come from its own seed, so leaving some out changes no other.
+        let samples = (n > 0 && key.is_none_or(|k| self.wants_samples(k))).then(|| {
             let seed = value::stable_hash(&[&self.sys.name, &label], self.options.seed);
-            std::sync::Arc::from(value::draw(m, lo, hi, n, seed))
+            value::draw(m, lo, hi, n, seed)
         });
         let shape = if m.form.is_limit() {
             value::Shape::Uniform
@@ -114,7 +124,7 @@ impl<'m> Derivation<'m> {
                 }
                 let label = format!("{}.{}", body.id, def.name);
                 let before = self.inputs.len();
-                let v = self.new_input(label, m, lo, hi);
+                let v = self.new_input(Some((bi, decl.qty)), label, m, lo, hi);
                 // A declared limit (an unknown angle spread over a turn is not one); a limit
                 // taken at its value (pinned) adds no input.
                 if m.form.is_limit() && self.inputs.len() > before {
@@ -191,8 +201,13 @@ impl<'m> Derivation<'m> {
                             above: 0.0,
                             form: Form::UpperLimit,
                         };
-                        let value =
-                            self.new_input(format!("{}.arg_periastron", body.id), &m, 0.0, turn);
+                        let value = self.new_input(
+                            Some((bi, q)),
+                            format!("{}.arg_periastron", body.id),
+                            &m,
+                            0.0,
+                            turn,
+                        );
                         self.entries.insert(
                             (bi, q),
                             Entry {
@@ -373,7 +388,7 @@ impl<'m> Derivation<'m> {
             };
             let (lo, hi) = def.limits();
             let label = format!("{}.{}", body.id, def.name);
-            let v = self.new_input(label, &m, lo, hi);
+            let v = self.new_input(Some((bi, q)), label, &m, lo, hi);
             let f = unit.factor;
             let words = format!(
                 "{}.{} = {} {unit} estimated from spectral type {text} ({}; {})",

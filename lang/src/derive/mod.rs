@@ -201,6 +201,8 @@ pub struct Derivation<'m> {
     /// When only some values are wanted (see [`Derivation::run_pinned`]): those keys and
     /// every key they rest on.
     focus: Option<FxHashSet<Key>>,
+    /// Draw samples for every input, even those no value of the focus rests on.
+    draw_all: bool,
 }
 
 /// The most samples adaptive Monte Carlo draws for one system (besides the memory bound of
@@ -293,12 +295,40 @@ impl<'m> Derivation<'m> {
     /// `focus`, only the values of those keys are wanted: rules for other quantities do not
     /// fire, and neither do second routes to a known value or the consistency checks that
     /// compare them (the values of the focus come out as in a full run, by the same routes).
+    ///
+    /// With a focus, Monte Carlo draws only the inputs the focus rests on. Should a value of
+    /// the focus come out without samples all the same (a route through an input outside
+    /// it), the run is repeated drawing every input, so the focus always has its samples.
     fn run_pinned(
         sys: &'m System,
         options: &Options,
         lines: &'m sources::Lines,
         pinned: FxHashSet<String>,
         focus: Option<FxHashSet<Key>>,
+    ) -> Derivation<'m> {
+        let again = focus.clone().map(|f| (pinned.clone(), f));
+        let d = Derivation::run_drawing(sys, options, lines, pinned, focus, false);
+        let unsampled = d.n() > 0
+            && d.focus
+                .iter()
+                .flatten()
+                .any(|k| d.entries.get(k).is_some_and(|e| e.value.samples.is_none()));
+        match again {
+            Some((pinned, focus)) if unsampled => {
+                Derivation::run_drawing(sys, options, lines, pinned, Some(focus), true)
+            }
+            _ => d,
+        }
+    }
+
+    /// [`Derivation::run_pinned`], drawing every input if `draw_all`.
+    fn run_drawing(
+        sys: &'m System,
+        options: &Options,
+        lines: &'m sources::Lines,
+        pinned: FxHashSet<String>,
+        focus: Option<FxHashSet<Key>>,
+        draw_all: bool,
     ) -> Derivation<'m> {
         let mut options = options.clone();
         let mut sample_note = None;
@@ -326,6 +356,7 @@ impl<'m> Derivation<'m> {
             pinned,
             bounded: FxHashMap::default(),
             focus,
+            draw_all,
         };
         d.declare_measurements();
         d.fixed_point();
@@ -333,6 +364,13 @@ impl<'m> Derivation<'m> {
             d.check_consistency();
         }
         d
+    }
+
+    /// Whether the input that is the value of `key` is sampled (when sampling at all):
+    /// always, except in a run with a focus, where an input no value of the focus rests on
+    /// is not.
+    fn wants_samples(&self, key: Key) -> bool {
+        self.draw_all || self.focus.as_ref().is_none_or(|f| f.contains(&key))
     }
 
     fn n(&self) -> usize {

@@ -296,6 +296,7 @@ impl Derivation<'_> {
         let body = self.sys.bodies.get(out.0).map_or("?", |b| b.id.as_str());
         let label = format!("{body}.{} scatter", quantities::def(out.1).name);
         let z = self.new_input(
+            None,
             label,
             &Measurement {
                 value: 0.0,

@@ -963,3 +963,50 @@ fn a_value_near_a_zero_that_is_no_floor_stays_first_order() {
         hz.assumptions
     );
 }
+
+/// A focused Monte Carlo run draws only the inputs its values rest on. Given a focus that
+/// leaves out one of them (here the velocity amplitude under the planet's minimum mass), the
+/// wanted value would come out without samples; the run is repeated drawing every input, so
+/// the value has the same samples as in a full run.
+#[test]
+fn a_focus_that_misses_an_input_still_gets_samples() {
+    use crate::derive::{Derivation, Lines};
+    let src = "system \"Tessaly\" {\n  star s { mass = 0.9 ± 0.05 Msun; radius = 0.88 ± 0.03 Rsun }\n  planet b orbits s { period = 12.3 ± 0.001 d; rv_amplitude = 8.1 ± 0.9 m/s }\n}\n";
+    let a = run(src, &Options::default());
+    let sys = a.model.systems.first().unwrap();
+    let b = sys.body("b").unwrap();
+    let lines = Lines::default();
+    let options = Options {
+        samples: 500,
+        ..Options::default()
+    };
+    let key = (b, Qty::MinMass);
+    let full = Derivation::run_pinned(sys, &options, &lines, Default::default(), None);
+    let wanted = full.value(key).unwrap().samples.clone().unwrap();
+    // The focus names the minimum mass and the star's mass, not the velocity amplitude.
+    let s = sys.body("s").unwrap();
+    let focus = [key, (s, Qty::Mass), (b, Qty::Period)]
+        .into_iter()
+        .collect();
+    let focused = Derivation::run_pinned(sys, &options, &lines, Default::default(), Some(focus));
+    assert_eq!(
+        focused.value(key).unwrap().samples.as_deref(),
+        Some(&*wanted)
+    );
+    // With the whole cone given, the amplitude is drawn the first time and others are not.
+    let cone = full
+        .entries
+        .get(&key)
+        .unwrap()
+        .deps
+        .iter()
+        .copied()
+        .collect();
+    let lean = Derivation::run_pinned(sys, &options, &lines, Default::default(), Some(cone));
+    assert_eq!(lean.value(key).unwrap().samples.as_deref(), Some(&*wanted));
+    assert!(!lean.draw_all);
+    assert!(
+        lean.value((s, Qty::StarRadius)).unwrap().samples.is_none(),
+        "the star's radius is not under the minimum mass"
+    );
+}

@@ -62,7 +62,7 @@ impl Value {
         Value {
             nominal: v,
             grad: Vec::new(),
-            samples: (n > 0).then(|| Arc::from(vec![v; n])),
+            samples: (n > 0).then(|| std::iter::repeat_n(v, n).collect()),
         }
     }
 
@@ -374,7 +374,7 @@ pub fn stable_hash(parts: &[&str], seed: u64) -> u64 {
 /// then clamped to the range. An upper limit is sampled uniformly between the range's
 /// lower end and the limit; a lower limit uniformly between the limit and the range's upper
 /// end. Callers do not pass limits without the needed finite end.
-pub fn draw(m: &Measurement, lo: f64, hi: f64, n: usize, seed: u64) -> Vec<f64> {
+pub fn draw(m: &Measurement, lo: f64, hi: f64, n: usize, seed: u64) -> Arc<[f64]> {
     let mut rng = ChaCha8Rng::seed_from_u64(seed);
     let inside = |v: f64| v >= lo && v <= hi && v.is_finite();
     let clamp = |v: f64| {
@@ -386,7 +386,7 @@ pub fn draw(m: &Measurement, lo: f64, hi: f64, n: usize, seed: u64) -> Vec<f64> 
         }
     };
     match m.form {
-        Form::Exact => vec![m.value; n],
+        Form::Exact => std::iter::repeat_n(m.value, n).collect(),
         Form::UpperLimit => (0..n)
             .map(|_| lo + (m.value - lo) * rng.gen::<f64>())
             .collect(),
@@ -465,7 +465,7 @@ mod tests {
         let v = Value {
             nominal: 10.0,
             grad: Vec::new(),
-            samples: Some(Arc::from(s.clone())),
+            samples: Some(s.clone()),
         };
         let SampleSummary {
             median,
@@ -519,7 +519,7 @@ mod tests {
             Value {
                 nominal: 0.0,
                 grad: vec![],
-                samples: Some(Arc::from(samples)),
+                samples: Some(samples),
             }
             .sample_summary()
             .unwrap()
@@ -605,13 +605,7 @@ mod tests {
         let v = Value {
             nominal: 5.0,
             grad: vec![],
-            samples: Some(Arc::from(draw(
-                &m,
-                f64::NEG_INFINITY,
-                f64::INFINITY,
-                50_000,
-                3,
-            ))),
+            samples: Some(draw(&m, f64::NEG_INFINITY, f64::INFINITY, 50_000, 3)),
         };
         let summary = v.sample_summary().unwrap();
         let (med, p16, p84) = (summary.median, summary.low, summary.high);

@@ -237,7 +237,7 @@ impl<'a> Inputs<'a> {
                 above: 0.0,
                 form: crate::model::Form::UpperLimit,
             };
-            return Ok(value::draw(&m, 0.0, turn, n, seed));
+            return Ok(value::draw(&m, 0.0, turn, n, seed).to_vec());
         }
         let r = self
             .result(q)
@@ -271,7 +271,7 @@ impl<'a> Inputs<'a> {
         if exact {
             return Ok(vec![r.value; n]);
         }
-        Ok(value::draw(&m, lo, hi, n, seed))
+        Ok(value::draw(&m, lo, hi, n, seed).to_vec())
     }
 }
 
