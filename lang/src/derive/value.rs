@@ -280,8 +280,8 @@ fn merge(mut g: Vec<(u32, f64)>) -> Vec<(u32, f64)> {
 
 /// Push `f` (SI in, SI out) through the nominal values, the sensitivities and the samples.
 /// `None` when `f` has no value at the nominal inputs.
-pub fn apply(
-    f: &dyn Fn(&[f64]) -> Option<f64>,
+pub fn apply<F: Fn(&[f64]) -> Option<f64>>(
+    f: &F,
     args: &[&Value],
     inputs: &[InputInfo],
 ) -> Option<Value> {
@@ -326,7 +326,11 @@ pub fn apply(
     })
 }
 
-fn sample_through(f: &dyn Fn(&[f64]) -> Option<f64>, args: &[&Value]) -> Option<Arc<[f64]>> {
+/// `f` over the samples of `args`, one sample of each at a time, into a new shared array
+/// (`None` unless every argument has samples, all of one length). The common arities walk
+/// the columns side by side (no per-sample gathering or bounds checks), and `f` is the
+/// caller's own type, so a rule's formula is called directly.
+fn sample_through<F: Fn(&[f64]) -> Option<f64>>(f: &F, args: &[&Value]) -> Option<Arc<[f64]>> {
     let cols: Vec<&[f64]> = args
         .iter()
         .map(|a| a.samples.as_deref())
@@ -335,18 +339,36 @@ fn sample_through(f: &dyn Fn(&[f64]) -> Option<f64>, args: &[&Value]) -> Option<
     if cols.iter().any(|c| c.len() != n) {
         return None;
     }
-    let mut buf = vec![0.0; args.len()];
-    // Collected straight into the shared array: one allocation, no copy.
-    Some(
-        (0..n)
-            .map(|i| {
-                for (b, c) in buf.iter_mut().zip(&cols) {
-                    *b = c.get(i).copied().unwrap_or(f64::NAN);
-                }
-                f(&buf).unwrap_or(f64::NAN)
-            })
+    let g = |x: &[f64]| f(x).unwrap_or(f64::NAN);
+    // Each arm is collected straight into the shared array: one allocation, no copy.
+    Some(match cols.as_slice() {
+        [a] => a.iter().map(|&x| g(&[x])).collect(),
+        [a, b] => a.iter().zip(*b).map(|(&x, &y)| g(&[x, y])).collect(),
+        [a, b, c] => a
+            .iter()
+            .zip(*b)
+            .zip(*c)
+            .map(|((&x, &y), &z)| g(&[x, y, z]))
             .collect(),
-    )
+        [a, b, c, d] => a
+            .iter()
+            .zip(*b)
+            .zip(*c)
+            .zip(*d)
+            .map(|(((&x, &y), &z), &w)| g(&[x, y, z, w]))
+            .collect(),
+        _ => {
+            let mut buf = vec![0.0; args.len()];
+            (0..n)
+                .map(|i| {
+                    for (b, c) in buf.iter_mut().zip(&cols) {
+                        *b = c.get(i).copied().unwrap_or(f64::NAN);
+                    }
+                    g(&buf)
+                })
+                .collect()
+        }
+    })
 }
 
 /// A stable 64-bit hash (FNV-1a), so seeds do not depend on the platform or the run.
