@@ -35,11 +35,22 @@ pub fn radius_ratio_from_depth(depth: f64) -> Option<f64> {
 /// `r / R* = (a / R*) (1 - e^2) / (1 + e sin omega)` (the eccentric factor of Winn 2010 eq. 7).
 /// `None` for bad inputs or when `r / R* <= 1` (the planet would be inside the star at
 /// conjunction).
+/// `e sin omega`, the eccentric orbit's term in Winn 2010 eqs. 7 and 16: exactly 0 on a
+/// circular orbit without computing the sine (most orbits in a catalogue, and every Monte
+/// Carlo sample of one). Callers check that `omega` is finite.
+fn e_sin_omega(e: f64, omega: Angle) -> f64 {
+    if e == 0.0 {
+        0.0
+    } else {
+        e * omega.sin().get::<ratio>()
+    }
+}
+
 fn conjunction_distance(a_over_rstar: f64, e: f64, omega: Angle) -> Option<f64> {
     if !(omega.value.is_finite() && is_scaled_axis(a_over_rstar) && is_eccentricity(e)) {
         return None;
     }
-    let r = a_over_rstar * (1.0 - e * e) / (1.0 + e * omega.sin().get::<ratio>());
+    let r = a_over_rstar * (1.0 - e * e) / (1.0 + e_sin_omega(e, omega));
     (r.is_finite() && r > 1.0).then_some(r)
 }
 
@@ -121,7 +132,7 @@ fn transit_duration(
     if !(arg.is_finite() && arg <= 1.0) {
         return None;
     }
-    let eccentric = (1.0 - e * e).sqrt() / (1.0 + e * omega.sin().get::<ratio>());
+    let eccentric = (1.0 - e * e).sqrt() / (1.0 + e_sin_omega(e, omega));
     finite(period / PI * arg.asin() * eccentric)
 }
 
@@ -195,7 +206,7 @@ fn circular_sin2(duration: Time, period: Time, e: f64, omega: Angle) -> Option<f
     {
         return None;
     }
-    let factor = (1.0 + e * omega.sin().get::<ratio>()) / (1.0 - e * e).sqrt();
+    let factor = (1.0 + e_sin_omega(e, omega)) / (1.0 - e * e).sqrt();
     let x = PI * (duration / period).get::<ratio>() * factor;
     (x.is_finite() && x > 0.0 && x <= PI / 2.0).then(|| x.sin().powi(2))
 }
@@ -255,7 +266,7 @@ pub fn scaled_axis_from_duration(
     if chord_sq <= 0.0 {
         return None;
     }
-    let rho_c = (1.0 - e * e) / (1.0 + e * omega.sin().get::<ratio>());
+    let rho_c = (1.0 - e * e) / (1.0 + e_sin_omega(e, omega));
     let a_sq = chord_sq / s14 + (impact / rho_c).powi(2);
     let a = a_sq.sqrt();
     is_scaled_axis(a).then_some(a)
