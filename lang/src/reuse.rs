@@ -6,7 +6,9 @@
 //! the new text, once lowered, equals a system of the previous analysis with every span moved
 //! by the same distance (the system moved because text before it changed), its results,
 //! diagnostics and composition notes are the old ones with their spans moved by that
-//! distance. [`analyze_reusing`] parses and lowers the whole text every time (cheap next to
+//! distance. Only the diagnostics have spans to move: results count their places from the
+//! system's start ([`crate::source::InSystem`]), so a moved system's results are shared as
+//! they are, not copied. [`analyze_reusing`] parses and lowers the whole text every time (cheap next to
 //! derivation), looks for such a system among those of the previous analysis with the same
 //! source text, and derives only the systems it does not find. Everything that spans systems
 //! is done afresh: silencing comments, sorting, and the system index of composition notes.
@@ -21,7 +23,7 @@
 //! its system (a span made up elsewhere, such as an empty placeholder, would not move).
 
 use crate::ast::{self, ExprKind, Uncertainty};
-use crate::derive::{BodyResult, QuantityResult, SystemResult};
+use crate::derive::{BodyResult, QuantityResult, SourceResult, SystemResult};
 use crate::diagnostic::{Diagnostic, Label};
 use crate::model::{Body, Content, Declared, LetInfo, Node, Resolved, System};
 use crate::source::{FileId, Span};
@@ -221,7 +223,15 @@ impl Spans for SystemOutput {
             composition: _,
         } = self;
         diagnostics.each_span(f);
-        result.each_span(f);
+        // A result counts its places from its system's start (`InSystem`), so nothing in it
+        // moves and the shared result is not copied. Its implementation below names every
+        // field, and visits none: checked here in debug builds.
+        debug_assert!({
+            let mut copy = SystemResult::clone(result);
+            let mut visited = 0;
+            copy.each_span(&mut |_| visited += 1);
+            visited == 0
+        });
     }
 }
 
@@ -281,7 +291,8 @@ impl Spans for QuantityResult {
             inputs: _,
             citations: _,
             cited: _,
-            span,
+            // Counted from the system's start: moves with it.
+            span: _,
             budget: _,
             assumptions: _,
             notes: _,
@@ -290,10 +301,22 @@ impl Spans for QuantityResult {
             choice: _,
             precision: _,
         } = self;
-        span.each_span(f);
-        for s in sources {
-            f(&mut s.span);
-        }
+        sources.each_span(f);
+    }
+}
+
+impl Spans for SourceResult {
+    fn each_span(&mut self, _: &mut dyn FnMut(&mut Span)) {
+        let SourceResult {
+            value: _,
+            below: _,
+            above: _,
+            form: _,
+            citations: _,
+            // Counted from the system's start: moves with it.
+            span: _,
+            chosen: _,
+        } = self;
     }
 }
 

@@ -46,6 +46,39 @@ impl Span {
     }
 }
 
+/// A place inside a system: a byte range counted from the start of the system's span.
+///
+/// Results hold these rather than [`Span`]s, so that they stay true when text before the
+/// system changes and the system only moves: the language server then reuses a moved
+/// system's results as they are instead of copying them to move their places
+/// ([`crate::reuse`]). [`InSystem::in_file`] gives the place in the file.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, Default)]
+pub struct InSystem {
+    // Private, so that no offset is read as if it were one in the file.
+    start: u32,
+    end: u32,
+}
+
+impl InSystem {
+    /// The place of `span`, which lies inside `system` (a span before the system's start
+    /// is taken to start there).
+    pub fn of(span: Span, system: Span) -> InSystem {
+        InSystem {
+            start: span.start.saturating_sub(system.start),
+            end: span.end.saturating_sub(system.start),
+        }
+    }
+
+    /// The place in the file, given the span of the system it lies in.
+    pub fn in_file(self, system: Span) -> Span {
+        Span {
+            file: system.file,
+            start: system.start.saturating_add(self.start),
+            end: system.start.saturating_add(self.end),
+        }
+    }
+}
+
 fn clamp_u32(v: usize) -> u32 {
     u32::try_from(v).unwrap_or(u32::MAX)
 }
@@ -329,6 +362,17 @@ fn floor_char_boundary(text: &str, mut offset: usize) -> usize {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// A place in a system is the same place wherever the system moves.
+    #[test]
+    fn a_place_in_a_system_moves_with_it() {
+        let system = Span::new(FileId(3), 100, 200);
+        let decl = Span::new(FileId(3), 120, 135);
+        let place = InSystem::of(decl, system);
+        assert_eq!(place.in_file(system), decl);
+        let moved = Span::new(FileId(3), 107, 207);
+        assert_eq!(place.in_file(moved), Span::new(FileId(3), 127, 142));
+    }
 
     #[test]
     fn line_col_counts_characters_not_bytes() {

@@ -29,7 +29,7 @@ use crate::ast::BodyKind;
 use crate::diagnostic::{Diagnostic, Rule};
 use crate::model::{self, Content, Form, Measurement, System};
 use crate::quantities::{self, Qty};
-use crate::source::Span;
+use crate::source::{InSystem, Span};
 use rules::{RuleDef, Slot, RULES};
 use rustc_hash::{FxHashMap, FxHashSet};
 use set::SortedSet;

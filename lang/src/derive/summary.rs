@@ -23,8 +23,8 @@ pub struct QuantityResult {
     /// Every reference behind the value, through any depth of derivation: the citations of
     /// the declared values it rests on, sorted.
     pub cited: Vec<String>,
-    /// Where it was declared.
-    pub span: Option<Span>,
+    /// Where it was declared, in its system (see [`InSystem`]).
+    pub span: Option<InSystem>,
     /// Share of the variance per independent input (label, fraction), largest first.
     pub budget: Vec<(String, f64)>,
     /// What was assumed on the way (defaults, approximations), in words.
@@ -51,7 +51,8 @@ pub struct SourceResult {
     pub above: f64,
     pub form: Form,
     pub citations: Vec<String>,
-    pub span: Span,
+    /// Where it was declared, in its system (see [`InSystem`]).
+    pub span: InSystem,
     /// Whether this declaration is the value used (false for all when they were combined).
     pub chosen: bool,
 }
@@ -149,7 +150,7 @@ impl<'m> Derivation<'m> {
                             inputs: Vec::new(),
                             citations: d.citations.iter().map(|c| c.0.clone()).collect(),
                             cited: sorted_ids(&d.citations),
-                            span: Some(d.span),
+                            span: Some(InSystem::of(d.span, self.sys.span)),
                             budget: Vec::new(),
                             assumptions: d.set.iter().cloned().collect(),
                             notes: Vec::new(),
@@ -255,7 +256,7 @@ impl<'m> Derivation<'m> {
                     above: m.above,
                     form: m.form,
                     citations: d.citations.iter().map(|c| c.0.clone()).collect(),
-                    span: d.span,
+                    span: InSystem::of(d.span, self.sys.span),
                     chosen: chosen.is_some_and(|c| c.index == Some(i)),
                 }),
                 _ => None,
@@ -382,7 +383,7 @@ impl<'m> Derivation<'m> {
                 }
                 (None, None) => Vec::new(),
             },
-            span: used.or(decl).map(|d| d.span),
+            span: used.or(decl).map(|d| InSystem::of(d.span, self.sys.span)),
             budget,
             assumptions: entry
                 .assumptions

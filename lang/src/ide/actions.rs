@@ -281,8 +281,16 @@ fn choose_source(a: &Analysis, src: &str, offset: usize) -> Vec<Action> {
             });
         (Span::new(a.file, start, mark.end as usize), String::new())
     };
-    let used = super::result(a, si, bi, def.qty)
-        .is_some_and(|q| q.sources.iter().any(|s| s.chosen && s.span == this.span));
+    let system_span = a
+        .model
+        .systems
+        .get(si)
+        .map_or_else(Default::default, |s| s.span);
+    let used = super::result(a, si, bi, def.qty).is_some_and(|q| {
+        q.sources
+            .iter()
+            .any(|s| s.chosen && s.span.in_file(system_span) == this.span)
+    });
     let name = format!("{}.{}", body.id, def.name);
     let marked_here = p.preferred.is_some();
     if used && marked_here {

@@ -154,12 +154,15 @@ fn unused_sources(a: &Analysis, src: &str, range: std::ops::Range<usize>) -> Vec
             for q in body.quantities.iter().filter(|q| q.sources.len() > 1) {
                 let used = q.sources.iter().find(|s| s.chosen);
                 for s in q.sources.iter().filter(|s| !s.chosen) {
-                    let offset = s.span.end as usize;
+                    let offset = s.span.in_file(sys.span).end as usize;
                     if !(range.contains(&offset) || offset == range.end) {
                         continue;
                     }
-                    let Some(why) = why_not_used(q, s, used.map(|u| (u, line(u.span.start))))
-                    else {
+                    let Some(why) = why_not_used(
+                        q,
+                        s,
+                        used.map(|u| (u, line(u.span.in_file(sys.span).start))),
+                    ) else {
                         continue;
                     };
                     let name = a.key_name(si, (bi, q.qty));

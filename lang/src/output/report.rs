@@ -19,6 +19,11 @@ fn quantity_json<'a>(
     q: &'a QuantityResult,
     places: &Places,
 ) -> json::Quantity<'a> {
+    let system_span = a
+        .model
+        .systems
+        .get(sys)
+        .map_or_else(Default::default, |s| s.span);
     let sources = q
         .sources
         .iter()
@@ -31,7 +36,7 @@ fn quantity_json<'a>(
                 unit: unit.symbol.to_string(),
                 limit: limit_word(s.form),
                 citations: &s.citations,
-                line: places.of(s.span).1.line,
+                line: places.of(s.span.in_file(system_span)).1.line,
                 chosen: s.chosen,
             }
         })

@@ -588,7 +588,7 @@ pub fn source_rows<'a>(a: &'a Analysis, line: &dyn Fn(u32) -> usize) -> Vec<Sour
                     origin,
                     refs: q.citations.join("; "),
                     references: described(&a.model, &q.citations),
-                    line: q.span.map_or(0, |s| line(s.start)),
+                    line: q.span.map_or(0, |s| line(s.in_file(sys.span).start)),
                     used: "yes",
                 };
                 if def.text {
@@ -610,7 +610,7 @@ pub fn source_rows<'a>(a: &'a Analysis, line: &dyn Fn(u32) -> usize) -> Vec<Sour
                         limit: limit(s.form),
                         refs: s.citations.join("; "),
                         references: described(&a.model, &s.citations),
-                        line: line(s.span.start),
+                        line: line(s.span.in_file(sys.span).start),
                         used: if combined {
                             "combined"
                         } else if s.chosen {

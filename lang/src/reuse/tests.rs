@@ -127,11 +127,22 @@ fn an_edit_in_one_system_derives_only_that_system() {
     doc.systems[2] = doc.systems[2].replace("365.25", "365.2500");
     let (a, keep) = step(&doc.text(), &linear(), Some(&keep));
     assert_eq!(keep.reused(), 7);
-    // Systems that did not move share their results with the previous analysis.
+    // Systems that did not move and systems that moved share their results with the
+    // previous analysis: results count their places from their system's start.
     assert!(Arc::ptr_eq(&before.results[1], &a.results[1]));
-    assert!(!Arc::ptr_eq(&before.results[3], &a.results[3]));
-    // A moved system's diagnostic points at its own text.
+    assert!(Arc::ptr_eq(&before.results[3], &a.results[3]));
     let src = doc.text();
+    // A moved system's results place its declarations in its own text.
+    let sys = &a.model.systems[3];
+    let period = crate::ide::result(&a, 3, 1, crate::quantities::Qty::Period).unwrap();
+    let at = period.span.unwrap().in_file(sys.span);
+    assert!(at.start > before.model.systems[3].span.start);
+    assert!(
+        src[at.range()].starts_with("period"),
+        "{}",
+        &src[at.range()]
+    );
+    // A moved system's diagnostic points at its own text.
     let labels =
         |d: &Diagnostic| -> Vec<&str> { d.labels.iter().map(|l| &src[l.span.range()]).collect() };
     let d = a
