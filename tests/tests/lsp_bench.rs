@@ -86,6 +86,29 @@ fn language_server_on_1000_planets() {
         c.diagnostics(uri, Some(version));
         change_times.push(t.elapsed());
     }
+    // The same, typing that moves the later systems: insert a digit, then delete it again
+    // (about half of the 125 systems come after the edit).
+    let mut moving_times = Vec::new();
+    for r in 0..rounds {
+        let version = 2 + rounds as i64 + r as i64;
+        let pos = position_of(&text, "period        = ", 500);
+        let at = json!({"line": pos["line"], "character": pos["character"].as_u64().unwrap() + 16});
+        let end =
+            json!({"line": pos["line"], "character": pos["character"].as_u64().unwrap() + 17});
+        let change = if r % 2 == 0 {
+            json!({"range": {"start": at, "end": at}, "text": "1"})
+        } else {
+            json!({"range": {"start": at, "end": end}, "text": ""})
+        };
+        let t = Instant::now();
+        c.notify(
+            "textDocument/didChange",
+            json!({"textDocument": {"uri": uri, "version": version},
+                   "contentChanges": [change]}),
+        );
+        c.diagnostics(uri, Some(version));
+        moving_times.push(t.elapsed());
+    }
     // Hover on a settled document.
     let mut hover_times = Vec::new();
     for k in 0..200 {
@@ -104,11 +127,13 @@ fn language_server_on_1000_planets() {
     let rss = rss_mib(c.pid(), "VmRSS:");
     let peak = rss_mib(c.pid(), "VmHWM:");
     change_times.sort();
+    moving_times.sort();
     hover_times.sort();
     let ms = |d: Duration| d.as_secs_f64() * 1000.0;
     println!(
         "file: {} bytes, {} lines, 1000 planets\nfirst diagnostics after didOpen: {:.1} ms\n\
          didChange -> publishDiagnostics ({rounds} changes): median {:.1} ms, p95 {:.1} ms\n\
+         the same, inserting and deleting (later systems move): median {:.1} ms, p95 {:.1} ms\n\
          hover (200 requests): median {:.2} ms, p95 {:.2} ms\n\
          memory: resident {rss:.0} MiB, peak {peak:.0} MiB",
         text.len(),
@@ -116,6 +141,8 @@ fn language_server_on_1000_planets() {
         ms(first),
         ms(percentile(&change_times, 0.5)),
         ms(percentile(&change_times, 0.95)),
+        ms(percentile(&moving_times, 0.5)),
+        ms(percentile(&moving_times, 0.95)),
         ms(percentile(&hover_times, 0.5)),
         ms(percentile(&hover_times, 0.95)),
     );
