@@ -34,10 +34,17 @@ impl Rat {
     }
 
     pub fn int(n: i32) -> Rat {
-        Rat::new(n, 1)
+        Rat {
+            num: clamp_i16(n),
+            den: 1,
+        }
     }
 
+    // Whole exponents (nearly every unit) skip the reduction, which gives the same result.
     fn add(self, o: Rat) -> Rat {
+        if self.den == 1 && o.den == 1 {
+            return Rat::int(i32::from(self.num) + i32::from(o.num));
+        }
         Rat::new(
             i32::from(self.num) * i32::from(o.den) + i32::from(o.num) * i32::from(self.den),
             i32::from(self.den) * i32::from(o.den),
@@ -45,6 +52,9 @@ impl Rat {
     }
 
     fn mul(self, o: Rat) -> Rat {
+        if self.den == 1 && o.den == 1 {
+            return Rat::int(i32::from(self.num) * i32::from(o.num));
+        }
         Rat::new(
             i32::from(self.num) * i32::from(o.num),
             i32::from(self.den) * i32::from(o.den),

@@ -198,3 +198,22 @@ fn units_are_spelled_back_as_written() {
         assert_eq!(unit_text(&expr(factors)), *spelled, "{factors:?}");
     }
 }
+
+/// Whole exponents skip the reduction; the results are those of the reduced fraction.
+#[test]
+fn whole_exponents_add_and_multiply_as_reduced_fractions() {
+    for a in -40..=40 {
+        for b in -40..=40 {
+            let (x, y) = (Rat::int(a), Rat::int(b));
+            assert_eq!(x.add(y), Rat::new(a + b, 1), "{a} + {b}");
+            assert_eq!(x.mul(y), Rat::new(a * b, 1), "{a} * {b}");
+            assert_eq!(x, Rat::new(a * 3, 3), "{a}");
+        }
+    }
+    // Beyond the range of the stored numerator, both clamp the same way.
+    assert_eq!(Rat::int(40_000), Rat::new(40_000, 1));
+    assert_eq!(Rat::int(300).mul(Rat::int(300)), Rat::new(90_000, 1));
+    // Fractions still reduce: 1/2 + 1/2 = 1, (2/3) * (3/2) = 1.
+    assert_eq!(Rat::new(1, 2).add(Rat::new(1, 2)), Rat::int(1));
+    assert_eq!(Rat::new(2, 3).mul(Rat::new(3, 2)), Rat::int(1));
+}
