@@ -9,6 +9,8 @@
 #   syz eval --format csv --propagation linear DIR         (first-order propagation)
 #   syz eval --format json --propagation linear DIR        (the same, as JSON)
 #   syz eval --format csv DIR                              (Monte Carlo, 10^4 samples)
+# and, on a copy with asymmetric uncertainties replaced by their mean (bench/symmetric_copy.py,
+# the catalogue as the peers read it), the first peer and the linear CSV run again,
 # under /usr/bin/time -v, and prints wall-clock times, the ratios of each peer's time to
 # syz's next to their targets, and peak resident memory. `syz check --propagation linear
 # DIR` is run once to show the catalogue is clean.
@@ -77,6 +79,11 @@ run peermc python3 bench/peer_mc.py "$DIR" /dev/stdout 10000
 run linear "$SYZ" eval --format csv --propagation linear "$DIR"
 run json "$SYZ" eval --format json --propagation linear "$DIR"
 run mc "$SYZ" eval --format csv --samples 10000 "$DIR"
+# The same catalogue as the peers read it (asymmetric uncertainties replaced by the mean of
+# their two sides): what first order costs when only the other reasons to sample remain.
+python3 bench/symmetric_copy.py "$DIR" "$WORK/symmetric"
+run peersym python3 bench/peer.py "$WORK/symmetric" /dev/stdout
+run linsym "$SYZ" eval --format csv --propagation linear "$WORK/symmetric"
 
 # ratio A B TARGET LABEL: print A/B against its target.
 ratio() {
@@ -90,6 +97,8 @@ echo "== summary (N = $N)"
 ratio "$WALL_peer" "$WALL_linear" 40 "astropy+uncertainties / syz linear CSV"
 ratio "$WALL_peer" "$WALL_json" 15 "astropy+uncertainties / syz linear JSON"
 ratio "$WALL_peermc" "$WALL_mc" 3 "numpy Monte Carlo / syz Monte Carlo CSV"
+printf '   %-44s = %7.1f x   (no target: both read the same numbers)\n' \
+  "symmetric copy: peer / syz linear CSV" "$(echo "$WALL_peersym / $WALL_linsym" | bc -l)"
 printf '   peak RSS: peer %.1f MiB, numpy peer %.1f MiB, linear %.1f MiB, JSON %.1f MiB, Monte Carlo %.1f MiB\n' \
   "$(echo "$RSS_peer / 1024" | bc -l)" "$(echo "$RSS_peermc / 1024" | bc -l)" \
   "$(echo "$RSS_linear / 1024" | bc -l)" "$(echo "$RSS_json / 1024" | bc -l)" \
