@@ -64,6 +64,14 @@ pub struct Analysis {
 }
 
 impl Analysis {
+    /// The span of system `si`: what places in its results ([`source::InSystem`]) count from.
+    pub fn system_span(&self, si: usize) -> source::Span {
+        self.model
+            .systems
+            .get(si)
+            .map_or_else(Default::default, |s| s.span)
+    }
+
     /// `body.quantity` for a quantity of system `si`, as every output names it.
     pub fn key_name(&self, si: usize, k: derive::Key) -> String {
         let b = self

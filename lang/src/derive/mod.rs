@@ -306,19 +306,17 @@ impl<'m> Derivation<'m> {
         pinned: FxHashSet<String>,
         focus: Option<FxHashSet<Key>>,
     ) -> Derivation<'m> {
-        let again = focus.clone().map(|f| (pinned.clone(), f));
         let d = Derivation::run_drawing(sys, options, lines, pinned, focus, false);
         let unsampled = d.n() > 0
             && d.focus
                 .iter()
                 .flatten()
                 .any(|k| d.entries.get(k).is_some_and(|e| e.value.samples.is_none()));
-        match again {
-            Some((pinned, focus)) if unsampled => {
-                Derivation::run_drawing(sys, options, lines, pinned, Some(focus), true)
-            }
-            _ => d,
+        if !unsampled {
+            return d;
         }
+        let Derivation { pinned, focus, .. } = d;
+        Derivation::run_drawing(sys, options, lines, pinned, focus, true)
     }
 
     /// [`Derivation::run_pinned`], drawing every input if `draw_all`.

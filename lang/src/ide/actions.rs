@@ -281,11 +281,7 @@ fn choose_source(a: &Analysis, src: &str, offset: usize) -> Vec<Action> {
             });
         (Span::new(a.file, start, mark.end as usize), String::new())
     };
-    let system_span = a
-        .model
-        .systems
-        .get(si)
-        .map_or_else(Default::default, |s| s.span);
+    let system_span = a.system_span(si);
     let used = super::result(a, si, bi, def.qty).is_some_and(|q| {
         q.sources
             .iter()

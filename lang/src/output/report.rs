@@ -19,11 +19,7 @@ fn quantity_json<'a>(
     q: &'a QuantityResult,
     places: &Places,
 ) -> json::Quantity<'a> {
-    let system_span = a
-        .model
-        .systems
-        .get(sys)
-        .map_or_else(Default::default, |s| s.span);
+    let system_span = a.system_span(sys);
     let sources = q
         .sources
         .iter()

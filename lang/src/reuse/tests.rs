@@ -1,4 +1,5 @@
 use super::*;
+use crate::derive::SystemResult;
 use crate::diagnostic::Rule;
 use proptest::prelude::*;
 

@@ -31,10 +31,6 @@ pub fn radius_ratio_from_depth(depth: f64) -> Option<f64> {
     finite_f64(depth.sqrt())
 }
 
-/// Star–planet distance at mid-transit in stellar radii,
-/// `r / R* = (a / R*) (1 - e^2) / (1 + e sin omega)` (the eccentric factor of Winn 2010 eq. 7).
-/// `None` for bad inputs or when `r / R* <= 1` (the planet would be inside the star at
-/// conjunction).
 /// `e sin omega`, the eccentric orbit's term in Winn 2010 eqs. 7 and 16: exactly 0 on a
 /// circular orbit without computing the sine (most orbits in a catalogue, and every Monte
 /// Carlo sample of one). Callers check that `omega` is finite.
@@ -46,6 +42,10 @@ fn e_sin_omega(e: f64, omega: Angle) -> f64 {
     }
 }
 
+/// Star–planet distance at mid-transit in stellar radii,
+/// `r / R* = (a / R*) (1 - e^2) / (1 + e sin omega)` (the eccentric factor of Winn 2010 eq. 7).
+/// `None` for bad inputs or when `r / R* <= 1` (the planet would be inside the star at
+/// conjunction).
 fn conjunction_distance(a_over_rstar: f64, e: f64, omega: Angle) -> Option<f64> {
     if !(omega.value.is_finite() && is_scaled_axis(a_over_rstar) && is_eccentricity(e)) {
         return None;
