@@ -119,16 +119,25 @@ impl Value {
     pub fn sample_summary(&self) -> Option<SampleSummary> {
         let s = self.samples.as_ref()?;
         // Order statistics are found on integer keys that sort as the floats do (the
-        // `f64::total_cmp` order), which selection compares far faster than floats.
+        // `f64::total_cmp` order), which selection compares far faster than floats. Every
+        // sample is converted (a loop without branches), and the samples that are not
+        // finite are counted instead of left out: in that order they sit at the two ends
+        // (negative NaN and -inf below every finite key, +inf and NaN above), so the
+        // finite ones hold the ranks `first..first + n` and their order statistics are
+        // selected there.
         let mut v: Vec<i64> = Vec::with_capacity(s.len());
-        v.extend(s.iter().filter(|x| x.is_finite()).map(|x| order_key(*x)));
-        if v.is_empty() {
+        v.extend(s.iter().map(|x| order_key(*x)));
+        let (least, most) = (order_key(f64::MIN), order_key(f64::MAX));
+        let (first, after) = v.iter().fold((0usize, 0usize), |(lo, hi), &k| {
+            (lo + usize::from(k < least), hi + usize::from(k > most))
+        });
+        let n = v.len() - first - after;
+        if n == 0 {
             return None;
         }
-        let finite = v.len() as f64 / s.len() as f64;
+        let finite = n as f64 / s.len() as f64;
         // The order statistic nearest each percentile, found by selection (O(n)) rather
         // than a full sort; with 10^4 samples the rounding is 0.005% of the distribution.
-        let n = v.len();
         let rank = |p: f64| ((p * (n - 1) as f64).round() as usize).min(n - 1);
         let centre = [P_LOW, 0.5, P_HIGH].map(rank);
         // Numerical precision: the order statistics `d = sqrt(n p (1 - p))` ranks either
@@ -154,7 +163,8 @@ impl Value {
         wanted.sort_unstable();
         wanted.dedup();
         let mut found = vec![0i64; wanted.len()];
-        select_ranks(&mut v, 0, &wanted, &mut found);
+        let in_all: Vec<usize> = wanted.iter().map(|r| r + first).collect();
+        select_ranks(&mut v, 0, &in_all, &mut found);
         let at = |r: usize| {
             let i = wanted.binary_search(&r).unwrap_or(0);
             from_order_key(found.get(i).copied().unwrap_or(0))
@@ -601,6 +611,55 @@ mod tests {
         assert!(!p(0.00051).stable_for(0.034));
         // u = 340: tolerance 5.
         assert!(p(4.9).stable_for(340.0) && !p(5.1).stable_for(340.0));
+    }
+
+    #[test]
+    fn samples_without_a_value_are_left_out_of_the_summary() {
+        // The same finite samples, alone and among samples of every kind that is not finite
+        // (both signs of NaN and of infinity), give the same order statistics; the fraction
+        // of finite samples counts the rest.
+        let m = Measurement {
+            value: 2.0,
+            below: 0.5,
+            above: 0.9,
+            form: Form::Asymmetric,
+        };
+        let finite = draw(&m, f64::NEG_INFINITY, f64::INFINITY, 3_000, 5);
+        let alone = Value {
+            nominal: 2.0,
+            grad: vec![],
+            samples: Some(finite.clone()),
+        }
+        .sample_summary()
+        .unwrap();
+        let odd = [f64::NAN, -f64::NAN, f64::INFINITY, f64::NEG_INFINITY];
+        let mut mixed: Vec<f64> = Vec::new();
+        for (i, x) in finite.iter().enumerate() {
+            if i % 7 == 0 {
+                mixed.push(odd[i / 7 % 4]);
+            }
+            mixed.push(*x);
+        }
+        let among = Value {
+            nominal: 2.0,
+            grad: vec![],
+            samples: Some(Arc::from(mixed.clone())),
+        }
+        .sample_summary()
+        .unwrap();
+        assert_eq!(
+            (among.median, among.low, among.high, among.precision),
+            (alone.median, alone.low, alone.high, alone.precision)
+        );
+        assert_eq!(among.finite, 3_000.0 / mixed.len() as f64);
+        assert_eq!(alone.finite, 1.0);
+        // Nothing finite: no summary.
+        let none = Value {
+            nominal: 0.0,
+            grad: vec![],
+            samples: Some(Arc::from(odd.to_vec())),
+        };
+        assert!(none.sample_summary().is_none());
     }
 
     #[test]
