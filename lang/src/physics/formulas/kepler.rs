@@ -3,8 +3,8 @@
 //! speed.
 
 use super::domain::{finite, is_non_negative, is_positive};
-use super::radial_velocity::{mass_function, mass_ratio};
-use super::transit::sin_inclination_from_impact;
+use super::radial_velocity::{mass_function, mass_ratio, mass_ratio_guess};
+use super::transit::{sin_inclination_in_orbit, Eccentric};
 use super::typed::{gravitational_constant, typed};
 use crate::fastmath;
 use std::f64::consts::PI;
@@ -90,13 +90,16 @@ pub fn semi_major_axis_transiting(
         return None;
     }
     // The mass function does not change between rounds; each round's mass ratio starts from
-    // the previous one, which differs from it only through sin i.
+    // the previous one, which differs from it only through sin i. The first round starts from
+    // the edge-on ratio's guess, unrefined: the rounds solve the ratio anyway, and the axis
+    // (which grows only as (1 + u)^(1/3)) is corrected by the first Newton round.
     let f = mass_function(k, period, m_star, e)?;
-    let mut u = mass_ratio(f, m_star, 1.0, None)?;
+    let orbit = Eccentric::of(e, omega)?;
+    let mut u = mass_ratio_guess(f, m_star)?;
     let mut a = semi_major_axis(period, m_star, m_star * u)?;
     for _ in 0..TRANSITING_AXIS_ROUNDS {
         let a_over_rstar = (a / r_star).get::<ratio>();
-        let sin_i = sin_inclination_from_impact(impact, a_over_rstar, e, omega)?;
+        let sin_i = sin_inclination_in_orbit(impact, a_over_rstar, orbit)?;
         u = mass_ratio(f, m_star, sin_i, Some(u))?;
         let next = semi_major_axis(period, m_star, m_star * u)?;
         let change = ((next - a) / a).get::<ratio>();

@@ -118,18 +118,7 @@ pub(super) fn mass_ratio(f: Mass, m_star: Mass, sin_i: f64, start: Option<f64>) 
     {
         let mut u = match start.filter(|s| s.is_finite() && *s > 0.0) {
             Some(s) => s,
-            None => {
-                let c = fastmath::cbrt_guess(phi);
-                if c < 0.1 {
-                    c * (1.0 + c * (2.0 / 3.0 + c / 3.0))
-                } else if phi > 8.0 {
-                    // A companion heavier than the star: u = phi (1 + 1/u)^2 = phi + 2 +
-                    // O(1/phi).
-                    phi + 2.0
-                } else {
-                    c * fastmath::cbrt_guess((1.0 + c) * (1.0 + c))
-                }
-            }
+            None => ratio_start(phi),
         };
         for _ in 0..60 {
             let g = u * u * u - phi * (1.0 + u) * (1.0 + u);
@@ -189,6 +178,29 @@ pub(super) fn mass_ratio(f: Mass, m_star: Mass, sin_i: f64, start: Option<f64>) 
         }
     }
     None
+}
+
+/// The starting guess for the root of `u^3 = phi (1 + u)^2` (see [`mass_ratio`]): the
+/// small-planet series where `phi^(1/3)` is small, `phi + 2` for a companion heavier than the
+/// star, and `c (1 + c)^(2/3)` between.
+fn ratio_start(phi: f64) -> f64 {
+    let c = fastmath::cbrt_guess(phi);
+    if c < 0.1 {
+        c * (1.0 + c * (2.0 / 3.0 + c / 3.0))
+    } else if phi > 8.0 {
+        // A companion heavier than the star: u = phi (1 + 1/u)^2 = phi + 2 + O(1/phi).
+        phi + 2.0
+    } else {
+        c * fastmath::cbrt_guess((1.0 + c) * (1.0 + c))
+    }
+}
+
+/// The starting guess of [`mass_ratio`] for the mass function `f` and `sin i = 1`, without
+/// solving: where an iteration refines the ratio anyway. `None` where [`mass_ratio`] has no
+/// answer (a ratio `f / M*` that is not positive and finite).
+pub(super) fn mass_ratio_guess(f: Mass, m_star: Mass) -> Option<f64> {
+    let phi = value_of(f / m_star);
+    (phi.is_finite() && phi > 0.0).then(|| ratio_start(phi))
 }
 
 /// Minimum planet mass from the radial-velocity semi-amplitude: [`planet_mass_from_rv`] with

@@ -31,14 +31,38 @@ pub fn radius_ratio_from_depth(depth: f64) -> Option<f64> {
     finite_f64(depth.sqrt())
 }
 
-/// `e sin omega`, the eccentric orbit's term in Winn 2010 eqs. 7 and 16: exactly 0 on a
-/// circular orbit without computing the sine (most orbits in a catalogue, and every Monte
-/// Carlo sample of one). Callers check that `omega` is finite.
-fn e_sin_omega(e: f64, omega: Angle) -> f64 {
-    if e == 0.0 {
-        0.0
-    } else {
-        e * omega.sin().get::<ratio>()
+/// An orbit's eccentricity with `e sin omega`, the eccentric term of Winn 2010 eqs. 7 and 16,
+/// computed once for the formulas that use it (a transit duration needs it twice, the
+/// transiting axis once per round): exactly 0 on a circular orbit without computing the sine
+/// (most orbits in a catalogue, and every Monte Carlo sample of one).
+#[derive(Debug, Clone, Copy)]
+pub(super) struct Eccentric {
+    e: f64,
+    e_sin_omega: f64,
+}
+
+impl Eccentric {
+    /// `None` for `e` outside `[0, 1)` or a non-finite `omega`.
+    pub(super) fn of(e: f64, omega: Angle) -> Option<Eccentric> {
+        if !(omega.value.is_finite() && is_eccentricity(e)) {
+            return None;
+        }
+        let e_sin_omega = if e == 0.0 {
+            0.0
+        } else {
+            e * omega.sin().get::<ratio>()
+        };
+        Some(Eccentric { e, e_sin_omega })
+    }
+
+    /// `1 + e sin omega`.
+    fn one_plus_e_sin_omega(self) -> f64 {
+        1.0 + self.e_sin_omega
+    }
+
+    /// `1 - e^2`.
+    fn one_minus_e2(self) -> f64 {
+        1.0 - self.e * self.e
     }
 }
 
@@ -46,11 +70,11 @@ fn e_sin_omega(e: f64, omega: Angle) -> f64 {
 /// `r / R* = (a / R*) (1 - e^2) / (1 + e sin omega)` (the eccentric factor of Winn 2010 eq. 7).
 /// `None` for bad inputs or when `r / R* <= 1` (the planet would be inside the star at
 /// conjunction).
-fn conjunction_distance(a_over_rstar: f64, e: f64, omega: Angle) -> Option<f64> {
-    if !(omega.value.is_finite() && is_scaled_axis(a_over_rstar) && is_eccentricity(e)) {
+fn conjunction_distance(a_over_rstar: f64, orbit: Eccentric) -> Option<f64> {
+    if !is_scaled_axis(a_over_rstar) {
         return None;
     }
-    let r = a_over_rstar * (1.0 - e * e) / (1.0 + e_sin_omega(e, omega));
+    let r = a_over_rstar * orbit.one_minus_e2() / orbit.one_plus_e_sin_omega();
     (r.is_finite() && r > 1.0).then_some(r)
 }
 
@@ -69,7 +93,7 @@ pub fn impact_from_inclination(
     if !inclination.value.is_finite() {
         return None;
     }
-    let r = conjunction_distance(a_over_rstar, e, omega)?;
+    let r = conjunction_distance(a_over_rstar, Eccentric::of(e, omega)?)?;
     finite_f64(r * inclination.cos().get::<ratio>().abs())
 }
 
@@ -85,25 +109,26 @@ pub fn inclination_from_impact(
     e: f64,
     omega: Angle,
 ) -> Option<Angle> {
-    cos_inclination(impact, a_over_rstar, e, omega).map(|c| Ratio::new::<ratio>(c).acos())
+    cos_inclination(impact, a_over_rstar, Eccentric::of(e, omega)?)
+        .map(|c| Ratio::new::<ratio>(c).acos())
 }
 
-/// `sin i` of [`inclination_from_impact`], as `sqrt(1 - cos^2 i)` (the identity
-/// `sin(acos c) = sqrt(1 - c^2)` for `c` in `[0, 1]`), without the inverse cosine and sine.
-pub fn sin_inclination_from_impact(
+/// `sin i` of [`inclination_from_impact`] for an orbit whose eccentric term is already
+/// computed, as `sqrt(1 - cos^2 i)` (the identity `sin(acos c) = sqrt(1 - c^2)` for `c` in
+/// `[0, 1]`), without the inverse cosine and sine.
+pub(super) fn sin_inclination_in_orbit(
     impact: f64,
     a_over_rstar: f64,
-    e: f64,
-    omega: Angle,
+    orbit: Eccentric,
 ) -> Option<f64> {
-    cos_inclination(impact, a_over_rstar, e, omega).map(|c| (1.0 - c * c).max(0.0).sqrt())
+    cos_inclination(impact, a_over_rstar, orbit).map(|c| (1.0 - c * c).max(0.0).sqrt())
 }
 
-fn cos_inclination(impact: f64, a_over_rstar: f64, e: f64, omega: Angle) -> Option<f64> {
+fn cos_inclination(impact: f64, a_over_rstar: f64, orbit: Eccentric) -> Option<f64> {
     if !(impact.is_finite() && impact >= 0.0) {
         return None;
     }
-    let cos_i = impact / conjunction_distance(a_over_rstar, e, omega)?;
+    let cos_i = impact / conjunction_distance(a_over_rstar, orbit)?;
     (cos_i.is_finite() && cos_i <= 1.0).then_some(cos_i)
 }
 
@@ -120,7 +145,8 @@ fn transit_duration(
     if !is_positive(&period) {
         return None;
     }
-    let cos_i = cos_inclination(impact, a_over_rstar, e, omega)?;
+    let orbit = Eccentric::of(e, omega)?;
+    let cos_i = cos_inclination(impact, a_over_rstar, orbit)?;
     let sin_i = (1.0 - cos_i * cos_i).sqrt();
     let half_chord_sq = chord * chord - impact * impact;
     if !(half_chord_sq > 0.0 && sin_i > 0.0) {
@@ -132,7 +158,7 @@ fn transit_duration(
     if !(arg.is_finite() && arg <= 1.0) {
         return None;
     }
-    let eccentric = (1.0 - e * e).sqrt() / (1.0 + e_sin_omega(e, omega));
+    let eccentric = orbit.one_minus_e2().sqrt() / orbit.one_plus_e_sin_omega();
     finite(period / PI * arg.asin() * eccentric)
 }
 
@@ -198,15 +224,11 @@ pub fn stellar_density_from_transit(a_over_rstar: f64, period: Time) -> Option<M
 /// take on a circular orbit, which is what Seager & Mallén-Ornelas (2003) write their
 /// equations for. `None` unless `0 < pi T' / P <= pi / 2` (the range of the forward formula's
 /// asin).
-fn circular_sin2(duration: Time, period: Time, e: f64, omega: Angle) -> Option<f64> {
-    if !(is_positive(&duration)
-        && is_positive(&period)
-        && is_eccentricity(e)
-        && omega.value.is_finite())
-    {
+fn circular_sin2(duration: Time, period: Time, orbit: Eccentric) -> Option<f64> {
+    if !(is_positive(&duration) && is_positive(&period)) {
         return None;
     }
-    let factor = (1.0 + e_sin_omega(e, omega)) / (1.0 - e * e).sqrt();
+    let factor = orbit.one_plus_e_sin_omega() / orbit.one_minus_e2().sqrt();
     let x = PI * (duration / period).get::<ratio>() * factor;
     (x.is_finite() && x > 0.0 && x <= PI / 2.0).then(|| x.sin().powi(2))
 }
@@ -232,7 +254,8 @@ pub fn impact_from_durations(
     if !(radius_ratio.is_finite() && radius_ratio > 0.0 && radius_ratio < 1.0) {
         return None;
     }
-    let r = circular_sin2(t23, period, e, omega)? / circular_sin2(t14, period, e, omega)?;
+    let orbit = Eccentric::of(e, omega)?;
+    let r = circular_sin2(t23, period, orbit)? / circular_sin2(t14, period, orbit)?;
     if !(r.is_finite() && r > 0.0 && r < 1.0) {
         return None;
     }
@@ -261,12 +284,13 @@ pub fn scaled_axis_from_duration(
     if !(radius_ratio.is_finite() && radius_ratio > 0.0 && impact.is_finite() && impact >= 0.0) {
         return None;
     }
-    let s14 = circular_sin2(t14, period, e, omega)?;
+    let orbit = Eccentric::of(e, omega)?;
+    let s14 = circular_sin2(t14, period, orbit)?;
     let chord_sq = (1.0 + radius_ratio).powi(2) - impact * impact;
     if chord_sq <= 0.0 {
         return None;
     }
-    let rho_c = (1.0 - e * e) / (1.0 + e_sin_omega(e, omega));
+    let rho_c = orbit.one_minus_e2() / orbit.one_plus_e_sin_omega();
     let a_sq = chord_sq / s14 + (impact / rho_c).powi(2);
     let a = a_sq.sqrt();
     is_scaled_axis(a).then_some(a)
