@@ -251,7 +251,26 @@ pub fn suggest(kind: BodyKind, name: &str) -> Option<&'static str> {
         .iter()
         .find(|(k, n, _)| *k == kind && *n == name)
         .map(|(_, _, meant)| *meant)
+        .or_else(|| band_magnitude(kind, name))
         .or_else(|| crate::text::closest(name, names_for(kind)))
+}
+
+/// A star's magnitude written as catalogues often head its column (`Vmag`, `Ks_mag`,
+/// `mag_J`: common practice), too far from `magnitude_v` for the edit distance to find.
+fn band_magnitude(kind: BodyKind, name: &str) -> Option<&'static str> {
+    if kind != BodyKind::Star {
+        return None;
+    }
+    let n = name.to_lowercase().replace('_', "");
+    let band = n.strip_suffix("mag").or_else(|| n.strip_prefix("mag"))?;
+    match band {
+        "v" => Some("magnitude_v"),
+        "j" => Some("magnitude_j"),
+        "h" => Some("magnitude_h"),
+        "k" | "ks" => Some("magnitude_ks"),
+        "bol" => Some("bolometric_magnitude"),
+        _ => None,
+    }
 }
 
 impl QuantityDef {

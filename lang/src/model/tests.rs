@@ -260,6 +260,41 @@ fn abbreviations_that_are_not_names_point_to_the_quantity() {
 }
 
 #[test]
+fn catalogue_spellings_of_a_magnitude_point_to_the_quantity_and_its_body() {
+    let on_star = |prop: &str| {
+        let src = format!("system \"S\" {{\n star s {{ mass = 1 Msun; {prop} }} }}");
+        let (_, diags) = lower_text(&src);
+        assert_eq!(diags.len(), 1, "{prop}: {diags:?}");
+        diags.into_iter().next().unwrap()
+    };
+    for (written, meant) in [
+        ("Vmag = 10.2", "magnitude_v"),
+        ("Ks_mag = 8.1", "magnitude_ks"),
+        ("mag_J = 9", "magnitude_j"),
+        ("Kmag = 8", "magnitude_ks"),
+    ] {
+        let d = on_star(written);
+        assert_eq!(d.rule, Rule::UnknownQuantity, "{written}");
+        assert_eq!(
+            d.help.as_deref(),
+            Some(&*format!("did you mean '{meant}'?")),
+            "{written}"
+        );
+    }
+    // Written on a planet: the star's quantity, and where it belongs.
+    let d = only_diagnostic("Vmag = 10.2");
+    assert_eq!(
+        d.help.as_deref(),
+        Some("did you mean 'magnitude_v'? It is a quantity of a star; declare it there")
+    );
+    // Not every word ending in "mag" is a band.
+    assert_ne!(
+        on_star("xmag = 3").help.as_deref(),
+        Some("did you mean 'magnitude_v'?")
+    );
+}
+
+#[test]
 fn a_quantity_declared_by_several_cited_sources_keeps_every_declaration() {
     let (m, diags) = lower_text(
         "ref disc \"Invented A\"\nref followup \"Invented B\"\nsystem \"S\" {\n star s { mass = 1 Msun }\n planet b orbits s {\n  period = 10.000 ± 0.001 d [disc]\n  period = 10.0021 ± 0.0002 d [followup] preferred\n }\n}",

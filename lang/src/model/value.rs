@@ -35,6 +35,11 @@ pub(super) fn unknown_quantity(kind: BodyKind, name: &ast::Ident) -> Diagnostic 
             name.name,
             other.as_str()
         ));
+    } else if let Some(s) = quantities::suggest(other, &name.name) {
+        d = d.with_help(format!(
+            "did you mean '{s}'? It is a quantity of a {}; declare it there",
+            other.as_str()
+        ));
     }
     d
 }

@@ -406,6 +406,17 @@ fn a_unit_before_the_uncertainty_gets_the_value_rewritten() {
 }
 
 #[test]
+fn plus_slash_minus_and_a_decimal_comma_get_the_accepted_spelling() {
+    let h = help_of("1.05 +/- 0.04 Msun").unwrap();
+    assert!(h.contains("`+-`") && h.contains("`±`"), "{h}");
+    let h = help_of("12,5 d").unwrap();
+    assert!(h.contains("`12.5`"), "{h}");
+    // A comma or a slash elsewhere gets neither help.
+    assert!(!help_of("12, 5 d").unwrap_or_default().contains("decimal"));
+    assert!(!help_of("1 + / 2").unwrap_or_default().contains("symmetric"));
+}
+
+#[test]
 fn two_properties_on_one_line_get_help_to_split_them() {
     let h = help_of("1 Msun radius = 1 Rsun").unwrap();
     assert!(

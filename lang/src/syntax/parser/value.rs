@@ -481,6 +481,27 @@ impl Cursor<'_> {
                      `{value} ± {spread} {unit}`{combined}"
                 ))
             }
+            // `1.05 +/- 0.04 Msun`: found '/' right after '+', with '-' right after it.
+            Tok::Slash
+                if back(1).is_some_and(|t| t.kind == Tok::Plus && t.end == at)
+                    && ahead(1).is_some_and(|t| t.kind == Tok::Minus && t.start == at + 1) =>
+            {
+                Some(
+                    "a symmetric uncertainty is written `±` or `+-`: `1.05 +- 0.04 Msun`; an \
+                     asymmetric one `+above/-below`: `+0.05/-0.04`"
+                        .to_string(),
+                )
+            }
+            // `12,5 d`: found ',' between two numbers written without spaces.
+            Tok::Comma => {
+                let whole = back(1).filter(|t| t.kind == Tok::Number && t.end == at)?;
+                let fraction = ahead(1).filter(|t| t.kind == Tok::Number && t.start == at + 1)?;
+                Some(format!(
+                    "the decimal separator is a point: `{}.{}`",
+                    self.text(*whole),
+                    self.text(*fraction)
+                ))
+            }
             _ => None,
         }
     }
