@@ -93,10 +93,11 @@ impl<'m> Derivation<'m> {
         if !reported.insert(involved.clone()) {
             return;
         }
+        let unit = display_unit(small.1, s.value.nominal);
         let message = format!(
             "{} exceeds {} by {z:.1} sigma, but {why}",
-            self.described(small, s),
-            self.described(large, l),
+            self.described(small, s, unit),
+            self.described(large, l, unit),
         );
         // Point at the declared one of the two (the measurement to check first).
         let span = [small, large]
@@ -119,19 +120,20 @@ impl<'m> Derivation<'m> {
             .map(|d| d.value_span)
     }
 
-    /// A value with its uncertainty and unit, as diagnostics show it.
-    fn shown(&self, q: Qty, v: &Value) -> String {
+    /// A value with its uncertainty and unit, as diagnostics show it. Two values a message
+    /// compares are shown in one unit (the first one's), so a reader compares numbers, not
+    /// units (1.3 Rjup against 0.37 Rjup, not against 4.2 Rearth).
+    fn shown(&self, unit: DisplayUnit, v: &Value) -> String {
         let (lo, hi) = v.linear_spread(&self.inputs);
-        let unit = display_unit(q, v.nominal);
         format!(
             "{} {unit}",
             crate::format::with_uncertainty(unit.of(v.nominal), unit.of(lo), unit.of(hi))
         )
     }
 
-    /// `declared b.mass = ...`, or `b.mass = ... from inputs (rule)`.
-    fn described(&self, key: Key, entry: &Entry) -> String {
-        let value = self.shown(key.1, &entry.value);
+    /// `declared b.mass = ...`, or `b.mass = ... from inputs (rule)`, in `unit`.
+    fn described(&self, key: Key, entry: &Entry, unit: DisplayUnit) -> String {
+        let value = self.shown(unit, &entry.value);
         match entry.rule {
             None => format!("declared {} = {value}", self.key_name(key)),
             Some(r) => format!(
@@ -161,10 +163,11 @@ impl<'m> Derivation<'m> {
     ) -> Diagnostic {
         let body = self.sys.bodies.get(key.0);
         let rule = RULES.get(c.rule);
+        let unit = display_unit(key.1, entry.value.nominal);
         let message = format!(
             "{} disagrees with {} from {} ({}) by {:.1} sigma",
-            self.described(key, entry),
-            self.shown(key.1, &c.value),
+            self.described(key, entry, unit),
+            self.shown(unit, &c.value),
             self.route(&c.inputs),
             rule.map_or("?", |r| r.id),
             z

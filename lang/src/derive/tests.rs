@@ -166,6 +166,27 @@ fn declared_value_contradicting_kepler_is_inconsistent() {
 }
 
 #[test]
+fn a_disagreement_shows_both_values_in_one_unit() {
+    // A declared Jupiter-size radius against a Neptune-size one from the transit depth: the
+    // derived value is shown in the declared value's unit, not in its own (Rearth).
+    // Rp = sqrt(1200 ppm) x 1.1 Rsun = 0.0381 Rsun = 0.371 Rjup (IAU 2015 B3 nominal radii:
+    // Rsun 695,700 km, equatorial Rjup 71,492 km).
+    let src = "system \"S\" { star s { mass = 1.05 ± 0.04 Msun; radius = 1.1 ± 0.05 Rsun }\n planet b orbits s { period = 3.52 d; transit_depth = 1200 ± 50 ppm; radius = 1.3 ± 0.1 Rjup } }";
+    let a = run(src, &Options::linear());
+    let d = a
+        .diagnostics
+        .iter()
+        .find(|d| d.rule == crate::diagnostic::Rule::Inconsistent)
+        .expect("an inconsistency");
+    assert!(
+        d.message.contains("1.30 ± 0.10 Rjup") && d.message.contains("0.371 ± 0.019 Rjup"),
+        "{}",
+        d.message
+    );
+    assert!(!d.message.contains("Rearth"), "{}", d.message);
+}
+
+#[test]
 fn expressions_and_lets_carry_uncertainty() {
     let src = "system \"S\" { let base = 2.0 ± 0.1 d\n star s { mass = 1 Msun }\n planet b orbits s { period = base }\n planet c orbits s { period = 2 * b.period } }";
     let a = run(src, &Options::linear());
