@@ -399,5 +399,11 @@ fn relative_spread(v: &Value, inputs: &[InputInfo]) -> f64 {
     (lo + hi) / 2.0 / v.nominal.abs().max(f64::MIN_POSITIVE)
 }
 
+/// Whether the engine supplies a default for `q` when a rule needs it and nothing declares
+/// it (a circular orbit, a Bond albedo of 0, ...; each default is named when used).
+pub fn has_default(q: Qty) -> bool {
+    inputs::default_for(q).is_some()
+}
+
 #[cfg(test)]
 mod tests;

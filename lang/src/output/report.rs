@@ -511,7 +511,12 @@ fn declaration(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<&crate::a
 pub fn missing_text(a: &Analysis, si: usize, bi: usize, qty: Qty) -> String {
     use crate::ast::{ExprKind, PropValue, Relation};
     let Some(p) = declaration(a, si, bi, qty) else {
-        return "not declared, and not derivable from what the file declares".to_string();
+        return match routes_missing(a, si, bi, qty) {
+            Some(routes) => {
+                format!("not declared, and not derivable from what the file declares: {routes}")
+            }
+            None => "not declared, and no rule derives it".to_string(),
+        };
     };
     let why: Vec<String> = a
         .diagnostics
@@ -550,6 +555,84 @@ pub fn missing_text(a: &Analysis, si: usize, bi: usize, qty: Qty) -> String {
         what
     } else {
         format!("{what} ({})", why.join("; "))
+    }
+}
+
+/// The routes that derive `qty` of body `bi`, each with the inputs it still lacks, fewest
+/// lacking first (at most three): what a user could declare to get the value. `None` when no
+/// rule derives the quantity for this kind of body.
+fn routes_missing(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<String> {
+    use crate::derive::rules::{predicts, Slot, RULES};
+    let sys = a.model.systems.get(si)?;
+    let body = sys.bodies.get(bi)?;
+    let has = |b: usize, q: Qty| {
+        a.results
+            .get(si)
+            .and_then(|r| r.bodies.get(b))
+            .is_some_and(|r| r.get(q).is_some())
+    };
+    let mut routes: Vec<(usize, u8, String)> = Vec::new();
+    for rule in RULES.iter().filter(|r| !predicts(r.id)) {
+        let output = match (rule.output, body.kind) {
+            (Slot::Planet(q), BodyKind::Planet) | (Slot::Star(q), BodyKind::Star) => q,
+            _ => continue,
+        };
+        if output != qty {
+            continue;
+        }
+        // Each input's body: this one, or for a planet's rule its host star (a planet without
+        // a host star cannot use the rule at all: the host is what it lacks).
+        let mut inputs = Vec::new();
+        let mut lacking = Vec::new();
+        for slot in rule.inputs {
+            let (b, q) = match *slot {
+                Slot::Planet(q) | Slot::Star(q) => (Some(bi), q),
+                Slot::Host(q) => (body.orbits, q),
+            };
+            let name = match b {
+                Some(b) => a.key_name(si, (b, q)),
+                None => format!("the host star's {}", quantities::def(q).name),
+            };
+            if !b.is_some_and(|b| has(b, q) || crate::derive::has_default(q)) {
+                lacking.push(name.clone());
+            }
+            inputs.push(name);
+        }
+        if lacking.is_empty() {
+            continue; // every input is there: the value failed for another reason
+        }
+        let text = format!(
+            "{} from {}, of which {} {} no value",
+            rule.id,
+            join_and(&inputs),
+            join_and(&lacking),
+            if lacking.len() == 1 { "has" } else { "have" }
+        );
+        routes.push((lacking.len(), rule.tier, text));
+    }
+    if routes.is_empty() {
+        return None;
+    }
+    routes.sort_by(|x, y| (x.0, x.1).cmp(&(y.0, y.1)).then_with(|| x.2.cmp(&y.2)));
+    routes.dedup_by(|x, y| x.2 == y.2);
+    let shown: Vec<String> = routes.into_iter().take(3).map(|r| r.2).collect();
+    Some(format!(
+        "{} {}",
+        if shown.len() == 1 {
+            "it follows by"
+        } else {
+            "it follows by any of"
+        },
+        shown.join("; ")
+    ))
+}
+
+/// `a`, `a and b`, `a, b and c`.
+fn join_and(items: &[String]) -> String {
+    match items {
+        [] => String::new(),
+        [one] => one.clone(),
+        [init @ .., last] => format!("{} and {last}", init.join(", ")),
     }
 }
 
@@ -689,6 +772,36 @@ mod tests {
     fn explain(qty: Qty) -> String {
         let a = crate::analyze(FileId(0), SRC, &crate::Settings::linear());
         explain_text(&a, 0, (1, qty)).unwrap()
+    }
+
+    #[test]
+    fn a_value_without_a_route_says_what_each_route_lacks() {
+        // An RV-only planet: the minimum mass follows, the true mass needs the inclination.
+        let src = "system \"S\" {\n star s { mass = 1 ± 0.05 Msun }\n planet b orbits s { period = 4.2 d; rv_amplitude = 55 ± 2 m/s }\n planet c { period = 9 d }\n}\n";
+        let a = crate::analyze(FileId(0), src, &crate::Settings::linear());
+        let why = missing_text(&a, 0, 1, Qty::Mass);
+        assert!(
+            why.starts_with(
+                "not declared, and not derivable from what the file declares: it follows by"
+            ),
+            "{why}"
+        );
+        assert!(
+            why.contains("from b.rv_amplitude, b.period, s.mass, b.eccentricity and b.inclination, of which b.inclination has no value"),
+            "{why}"
+        );
+        // Inputs the engine has defaults for (albedo, heat redistribution) are not lacking.
+        let why = missing_text(&a, 0, 1, Qty::Teq);
+        assert!(
+            why.contains("of which s.teff and s.radius have no value"),
+            "{why}"
+        );
+        // A planet without a host star: the host is what its routes lack.
+        let why = missing_text(&a, 0, 2, Qty::SemiMajorAxis);
+        assert!(why.contains("the host star's mass"), "{why}");
+        // A quantity no rule derives.
+        let why = missing_text(&a, 0, 0, Qty::MagnitudeV);
+        assert_eq!(why, "not declared, and no rule derives it");
     }
 
     #[test]
