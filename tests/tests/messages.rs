@@ -130,6 +130,33 @@ fn ephemeris_without_an_epoch_shows_how_to_declare_the_planets_own() {
 }
 
 #[test]
+fn ephemeris_with_an_unreadable_epoch_says_why_not_that_there_is_none() {
+    let dir = scratch("messages-bad-epoch");
+    let file = dir.join("bad-epoch.syz");
+    std::fs::write(
+        &file,
+        "system \"Orrin\" {\n  star orrin { mass = 1 Msun; radius = 1 Rsun }\n  planet b orbits orrin {\n    period = 2.5 ± 0.001 d\n    transit_epoch = 2460000.123 ± 0.001\n  }\n}\n",
+    )
+    .unwrap();
+    let o = run(&["ephemeris", file.to_str().unwrap(), "b"]);
+    assert_eq!(o.status.code(), Some(1));
+    let err = stderr(&o);
+    assert!(!err.contains("declares no transit_epoch"), "{err}");
+    assert!(
+        err.contains("the transit_epoch of 'b' is declared, but the value could not be used"),
+        "{err}"
+    );
+    assert!(err.contains("without a unit"), "{err}");
+    // `syz check` gives the fix with every digit of the value.
+    let o = run(&["check", file.to_str().unwrap()]);
+    assert!(
+        stdout(&o).contains("`transit_epoch = 2460000.123 ± 0.001 BJD_TDB`"),
+        "{}",
+        stdout(&o)
+    );
+}
+
+#[test]
 fn json_keys_follow_the_documented_order_not_the_alphabet() {
     let o = run(&[
         "eval",

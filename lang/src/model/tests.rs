@@ -260,6 +260,30 @@ fn abbreviations_that_are_not_names_point_to_the_quantity() {
 }
 
 #[test]
+fn a_missing_unit_is_added_to_the_value_as_written() {
+    // The help is a fix to copy back: every digit and the uncertainty stay.
+    for (written, fixed) in [
+        (
+            "transit_epoch = 2459000.123 ± 0.001",
+            "`transit_epoch = 2459000.123 ± 0.001 BJD_TDB`",
+        ),
+        (
+            "period = 3.5246871 +0.0000021/-0.0000019",
+            "`period = 3.5246871 +0.0000021/-0.0000019 d`",
+        ),
+        (
+            "inclination = 88.4 ± 0.2 ± 0.1",
+            "`inclination = 88.4 ± 0.2 ± 0.1 deg`",
+        ),
+    ] {
+        let d = only_diagnostic(written);
+        assert_eq!(d.rule, Rule::UnitMismatch, "{written}");
+        let help = d.help.unwrap_or_default();
+        assert!(help.contains(fixed), "{written}: {help}");
+    }
+}
+
+#[test]
 fn catalogue_spellings_of_a_magnitude_point_to_the_quantity_and_its_body() {
     let on_star = |prop: &str| {
         let src = format!("system \"S\" {{\n star s {{ mass = 1 Msun; {prop} }} }}");

@@ -452,6 +452,29 @@ fn logarithm_misplaced(def: &QuantityDef, unit: &units::Unit, span: Span) -> Opt
     })
 }
 
+/// A literal's number and uncertainty with every digit it was written with (the shortest
+/// text that reads back as the same numbers), for a help whose fix is copied back into the
+/// file: a Julian date of nine digits or a period of seven must not come back rounded.
+fn as_written(lit: &ast::Literal) -> String {
+    let n = |v: f64| {
+        let plain = format!("{v}");
+        if plain.len() > 18 {
+            format!("{v:e}")
+        } else {
+            plain
+        }
+    };
+    let spread = match &lit.uncertainty {
+        Uncertainty::None => String::new(),
+        Uncertainty::Symmetric(s, _) => format!(" ± {}", n(*s)),
+        Uncertainty::Quadrature(parts, _) => {
+            parts.iter().map(|p| format!(" ± {}", n(*p))).collect()
+        }
+        Uncertainty::Asymmetric { plus, minus, .. } => format!(" +{}/-{}", n(*plus), n(*minus)),
+    };
+    format!("{}{spread}", n(lit.value))
+}
+
 fn mismatch_for(
     def: &QuantityDef,
     unit: &units::Unit,
@@ -472,11 +495,11 @@ fn mismatch_for(
             def.dim.describe()
         ),
     );
-    let value = crate::format::number(lit.value);
     if lit.unit.is_none() {
         d = d.with_help(format!(
-            "add a unit: `{} = {value} {}`",
+            "add a unit: `{} = {} {}`",
             def.name,
+            as_written(lit),
             unit_suffix(def)
         ));
         if def.dim == Dimension::ANGLE {

@@ -114,6 +114,13 @@ impl Ephemeris {
             .and_then(|r| r.bodies.get(body))
             .ok_or("no results for this body")?;
         let epoch = res.get(Qty::TransitEpoch).ok_or_else(|| {
+            if crate::report::written_in_file(a, sys, body, Qty::TransitEpoch) {
+                return format!(
+                    "the transit_epoch of '{}' is {}; `syz check` shows the line",
+                    b.id,
+                    crate::report::missing_text(a, sys, body, Qty::TransitEpoch)
+                );
+            }
             format!(
                 "'{id}' declares no transit_epoch, and an ephemeris counts periods from one \
                  observed mid-transit time of the planet itself. Declare the time of one of \

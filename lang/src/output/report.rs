@@ -506,6 +506,11 @@ fn declaration(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<&crate::a
         .find(|p| quantities::find(body.kind, &p.name.name).is_some_and(|d| d.qty == qty))
 }
 
+/// Whether the file declares `qty` on body `bi` of system `si`, readable or not.
+pub fn written_in_file(a: &Analysis, si: usize, bi: usize, qty: Qty) -> bool {
+    declaration(a, si, bi, qty).is_some()
+}
+
 /// Why a quantity has no value, in a sentence: not declared and not derivable, or declared
 /// in a way that could not be used, with what the diagnostics on the declaration say.
 pub fn missing_text(a: &Analysis, si: usize, bi: usize, qty: Qty) -> String {
