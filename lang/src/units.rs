@@ -499,12 +499,34 @@ pub fn offset_scale(symbol: &str) -> Option<OffsetScale> {
     }
 }
 
+/// Spellings of the astronomical units that papers and general-purpose unit libraries use
+/// but this language does not take (common practice), with the symbol meant. Kept out of the
+/// registry on purpose: `ME` and `RE` are Earth's mass and radius in many papers but read as
+/// other things elsewhere, so the user confirms the reading by writing the symbol. Without
+/// this list the edit distance would offer `m` for `ME` and `Rsun` for `RE`.
+const OTHER_SPELLINGS: &[(&str, &str)] = &[
+    ("ME", "Mearth"),
+    ("M_E", "Mearth"),
+    ("RE", "Rearth"),
+    ("R_E", "Rearth"),
+    ("earthMass", "Mearth"),
+    ("earthRad", "Rearth"),
+    ("jupiterMass", "Mjup"),
+    ("jupiterRad", "Rjup"),
+    ("solMass", "Msun"),
+    ("solRad", "Rsun"),
+    ("solLum", "Lsun"),
+];
+
 /// The nearest known symbol, for a did-you-mean hint. A symbol of one or two characters
 /// is nearly as close to every short symbol as to the one meant (`C` is one edit from
 /// `m`, `g`, `s` and `K`), so a suggestion must be fewer edits away than it has characters.
 pub fn suggest(symbol: &str) -> Option<&'static str> {
     if offset_scale(symbol).is_some() {
         return None;
+    }
+    if let Some((_, meant)) = OTHER_SPELLINGS.iter().find(|(other, _)| *other == symbol) {
+        return Some(meant);
     }
     let lower = symbol.to_lowercase();
     let length = symbol.chars().count();

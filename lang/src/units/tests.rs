@@ -89,6 +89,16 @@ fn suggestions() {
     assert_eq!(suggest("C"), None);
     assert_eq!(suggest("q"), None);
     assert_eq!(suggest("k"), Some("K"));
+    // Other spellings of the astronomical units point to ours, not to the nearest by edits
+    // (`ME` is one edit from `m`, `RE` two from `R☉`).
+    assert_eq!(suggest("ME"), Some("Mearth"));
+    assert_eq!(suggest("RE"), Some("Rearth"));
+    assert_eq!(suggest("solRad"), Some("Rsun"));
+    assert_eq!(suggest("jupiterMass"), Some("Mjup"));
+    // Each symbol meant is a unit of the registry.
+    for (_, meant) in OTHER_SPELLINGS {
+        assert!(lookup(meant).is_some(), "{meant}");
+    }
 }
 
 #[test]
