@@ -417,6 +417,47 @@ fn plus_slash_minus_and_a_decimal_comma_get_the_accepted_spelling() {
 }
 
 #[test]
+fn uncertainties_in_other_notations_are_errors_with_the_spelling_taken() {
+    // Signs attached to their numbers: uncertainties, never silently a sum.
+    let h = help_of("0.4 +0.1 -0.05").unwrap();
+    assert!(h.contains("`0.4 +0.1/-0.05`"), "{h}");
+    let h = help_of("1.1 -0.04 +0.05 Rsun").unwrap();
+    assert!(h.contains("`1.1 +0.05/-0.04`"), "{h}");
+    // The concise notation, in the value's decimals.
+    let h = help_of("1.1(5) Rsun").unwrap();
+    assert!(h.contains("`1.1 ± 0.5`"), "{h}");
+    let h = help_of("2459000.1234(12) BJD_TDB").unwrap();
+    assert!(h.contains("`2459000.1234 ± 0.0012`"), "{h}");
+    // A sum written as one is still a sum, and a call is still a call.
+    for value in ["0.4 + 0.1 - 0.05", "0.4 + 0.1", "sqrt(0.25)"] {
+        let src = format!("system \"S\" {{ star s {{ x = {value} }} }}");
+        assert!(parse(FileId(0), &src).diagnostics.is_empty(), "{value}");
+    }
+}
+
+#[test]
+fn concise_uncertainties_keep_the_value_decimals() {
+    // `value(digits)`: the digits count in the value's last places (common practice).
+    assert_eq!(
+        super::value::concise_uncertainty("1.1", "5").as_deref(),
+        Some("0.5")
+    );
+    assert_eq!(
+        super::value::concise_uncertainty("1.1", "15").as_deref(),
+        Some("1.5")
+    );
+    assert_eq!(
+        super::value::concise_uncertainty("152", "3").as_deref(),
+        Some("3")
+    );
+    assert_eq!(
+        super::value::concise_uncertainty("0.00120", "7").as_deref(),
+        Some("0.00007")
+    );
+    assert_eq!(super::value::concise_uncertainty("1e3", "5"), None);
+}
+
+#[test]
 fn two_properties_on_one_line_get_help_to_split_them() {
     let h = help_of("1 Msun radius = 1 Rsun").unwrap();
     assert!(

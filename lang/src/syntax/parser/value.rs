@@ -187,18 +187,14 @@ impl Cursor<'_> {
                 .with_help("split it into 'let' bindings")
             };
             self.diags.push(d);
-            return Some(ValueParts {
-                value: PropValue::Expr(Expr {
-                    kind: ExprKind::Error,
-                    span: whole,
-                }),
-                assumed: None,
-                preferred: None,
-                citations: Vec::new(),
-            });
+            return Some(error_value(whole));
         }
         if let Some(parts) = self.plain_measurement(slice) {
             return Some(parts);
+        }
+        if let Some(d) = self.uncertainty_in_another_notation(slice) {
+            self.diags.push(d);
+            return Some(error_value(whole));
         }
         let eoi = whole.end as usize..whole.end as usize;
         let stream = Stream::from_iter(eoi, slice.iter().map(|t| (t.kind, t.start..t.end)));
@@ -207,15 +203,70 @@ impl Cursor<'_> {
             let d = self.syntax_from_chumsky(e);
             self.diags.push(d);
         }
-        Some(out.unwrap_or(ValueParts {
-            value: PropValue::Expr(Expr {
-                kind: ExprKind::Error,
-                span: whole,
-            }),
-            assumed: None,
-            preferred: None,
-            citations: Vec::new(),
-        }))
+        Some(out.unwrap_or_else(|| error_value(whole)))
+    }
+
+    /// An uncertainty written as tables and papers write it, which the grammar would read
+    /// as something else or not at all: `0.4 +0.1 -0.05` (signs attached to their numbers,
+    /// a sum to the grammar: `impact` would silently be 0.45) and the concise `1.1(5)`. An
+    /// error with the spelling this language takes; a sum written with spaces after its
+    /// signs (`0.4 + 0.1 - 0.05`) is left to be one.
+    fn uncertainty_in_another_notation(&self, slice: &[Token]) -> Option<Diagnostic> {
+        let [value, a, b, rest @ ..] = slice else {
+            return None;
+        };
+        if value.kind != Tok::Number {
+            return None;
+        }
+        let joined = |x: &Token, y: &Token| x.end == y.start;
+        let span = |from: &Token, to: &Token| Span::new(self.file, from.start, to.end);
+        let v = self.text(*value);
+        // `1.1(5)`: the last digits' uncertainty in parentheses.
+        if a.kind == Tok::LParen && joined(value, a) && b.kind == Tok::Number {
+            let close = rest.first().filter(|t| t.kind == Tok::RParen)?;
+            let digits = self.text(*b);
+            if !digits.bytes().all(|c| c.is_ascii_digit()) {
+                return None;
+            }
+            let d = Diagnostic::new(
+                Rule::Syntax,
+                span(value, close),
+                format!(
+                    "`{v}({digits})` gives the uncertainty of the last digits in parentheses, \
+                     a notation this language does not read"
+                ),
+            );
+            return Some(match concise_uncertainty(v, digits) {
+                Some(u) => d.with_help(format!("write the uncertainty out: `{v} ± {u}`")),
+                None => d.with_help("write the uncertainty out: `VALUE ± UNCERTAINTY`"),
+            });
+        }
+        // `0.4 +0.1 -0.05` or `0.4 -0.05 +0.1`.
+        let [c, d, ..] = rest else {
+            return None;
+        };
+        let signed = |sign: &Token, n: &Token| {
+            matches!(sign.kind, Tok::Plus | Tok::Minus) && n.kind == Tok::Number && joined(sign, n)
+        };
+        if !(signed(a, b) && signed(c, d) && a.kind != c.kind) || joined(value, a) || joined(b, c) {
+            return None;
+        }
+        let (above, below) = if a.kind == Tok::Plus { (b, d) } else { (d, b) };
+        let (above, below) = (self.text(*above), self.text(*below));
+        Some(
+            Diagnostic::new(
+                Rule::Syntax,
+                span(a, d),
+                format!(
+                    "`{}` reads as a sum, not as uncertainties above and below the value",
+                    self.src.get(a.start..d.end).unwrap_or("")
+                ),
+            )
+            .with_help(format!(
+                "an uncertainty above and below is written `+above/-below`: `{v} +{above}/-{below}`; \
+                 for a sum, put a space after each sign"
+            )),
+        )
     }
 
     /// The common case, read directly: a number with an optional uncertainty and unit, or a
@@ -504,6 +555,36 @@ impl Cursor<'_> {
             }
             _ => None,
         }
+    }
+}
+
+/// The uncertainty `digits` of the concise notation `value(digits)`, in the value's own
+/// decimals: `1.1(5)` is 0.5, `2459000.1234(12)` is 0.0012, `152(3)` is 3 (common practice).
+/// `None` for a value with an exponent.
+pub(super) fn concise_uncertainty(value: &str, digits: &str) -> Option<String> {
+    if value.contains(['e', 'E']) {
+        return None;
+    }
+    let decimals = value.split_once('.').map_or(0, |(_, f)| f.len());
+    if decimals == 0 {
+        return Some(digits.trim_start_matches('0').to_string()).filter(|s| !s.is_empty());
+    }
+    let padded = format!("{digits:0>width$}", width = decimals + 1);
+    let (int, frac) = padded.split_at(padded.len() - decimals);
+    let int = int.trim_start_matches('0');
+    Some(format!("{}.{frac}", if int.is_empty() { "0" } else { int }))
+}
+
+/// The value of a property that did not parse: an `Error` placeholder over its tokens.
+fn error_value(whole: Span) -> ValueParts {
+    ValueParts {
+        value: PropValue::Expr(Expr {
+            kind: ExprKind::Error,
+            span: whole,
+        }),
+        assumed: None,
+        preferred: None,
+        citations: Vec::new(),
     }
 }
 
