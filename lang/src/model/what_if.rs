@@ -124,7 +124,11 @@ pub fn lower(w: &WhatIf, kind: BodyKind) -> Result<Declared, String> {
         diags
             .iter()
             .find(|d| d.severity == Severity::Error)
-            .map(|d| format!("the value '{}' is refused: {}", w.value, d.message))
+            .map(|d| match &d.help {
+                // The help names the fix (`1.0 Msun`, `+-`), which the user types next.
+                Some(help) => format!("the value '{}' is refused: {}; {help}", w.value, d.message),
+                None => format!("the value '{}' is refused: {}", w.value, d.message),
+            })
     };
     if let Some(e) = refused(&diags) {
         return Err(e);
@@ -363,6 +367,11 @@ mod tests {
         assert!((m.value / 1.898_13e27 - 2.0).abs() < 1e-4, "{m:?}");
         let wrong = lower(&parse("b.mass=2 Rjup").unwrap(), BodyKind::Planet).unwrap_err();
         assert!(wrong.contains("refused"), "{wrong}");
+        // The refusal carries the diagnostic's help, which names the fix.
+        let comma = lower(&parse("b.mass=1,5 Mjup").unwrap(), BodyKind::Planet).unwrap_err();
+        assert!(comma.contains("`1.5`"), "{comma}");
+        let bare = lower(&parse("b.mass=1.5").unwrap(), BodyKind::Planet).unwrap_err();
+        assert!(bare.contains("add a unit: `mass = 1.5 Mjup`"), "{bare}");
         let unknown = lower(&parse("b.mas=2 Mjup").unwrap(), BodyKind::Planet).unwrap_err();
         assert!(unknown.contains("did you mean 'mass'"), "{unknown}");
         let cited = lower(&parse("b.mass=2 Mjup [x]").unwrap(), BodyKind::Planet).unwrap_err();

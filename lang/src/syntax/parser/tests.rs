@@ -423,6 +423,8 @@ fn uncertainties_in_other_notations_are_errors_with_the_spelling_taken() {
     assert!(h.contains("`0.4 +0.1/-0.05`"), "{h}");
     let h = help_of("1.1 -0.04 +0.05 Rsun").unwrap();
     assert!(h.contains("`1.1 +0.05/-0.04`"), "{h}");
+    let h = help_of("-0.4 +0.1 -0.05").unwrap();
+    assert!(h.contains("`-0.4 +0.1/-0.05`"), "{h}");
     // The concise notation, in the value's decimals.
     let h = help_of("1.1(5) Rsun").unwrap();
     assert!(h.contains("`1.1 ± 0.5`"), "{h}");

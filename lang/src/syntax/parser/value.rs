@@ -212,15 +212,24 @@ impl Cursor<'_> {
     /// error with the spelling this language takes; a sum written with spaces after its
     /// signs (`0.4 + 0.1 - 0.05`) is left to be one.
     fn uncertainty_in_another_notation(&self, slice: &[Token]) -> Option<Diagnostic> {
+        let joined = |x: &Token, y: &Token| x.end == y.start;
+        let span = |from: &Token, to: &Token| Span::new(self.file, from.start, to.end);
+        // A negative value keeps its sign: `-0.4 +0.1 -0.05`.
+        let (begin, slice) = match slice {
+            [m, rest @ ..]
+                if m.kind == Tok::Minus && rest.first().is_some_and(|n| joined(m, n)) =>
+            {
+                (m.start, rest)
+            }
+            _ => (slice.first()?.start, slice),
+        };
         let [value, a, b, rest @ ..] = slice else {
             return None;
         };
         if value.kind != Tok::Number {
             return None;
         }
-        let joined = |x: &Token, y: &Token| x.end == y.start;
-        let span = |from: &Token, to: &Token| Span::new(self.file, from.start, to.end);
-        let v = self.text(*value);
+        let v = self.src.get(begin..value.end)?;
         // `1.1(5)`: the last digits' uncertainty in parentheses.
         if a.kind == Tok::LParen && joined(value, a) && b.kind == Tok::Number {
             let close = rest.first().filter(|t| t.kind == Tok::RParen)?;
