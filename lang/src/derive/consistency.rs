@@ -95,9 +95,10 @@ impl<'m> Derivation<'m> {
         }
         let unit = display_unit(small.1, s.value.nominal);
         let message = format!(
-            "{} exceeds {} by {z:.1} sigma, but {why}",
+            "{} exceeds {} {}, but {why}",
             self.described(small, s, unit),
             self.described(large, l, unit),
+            apart(z, s.value.nominal, l.value.nominal, sigma),
         );
         // Point at the declared one of the two (the measurement to check first).
         let span = [small, large]
@@ -164,13 +165,14 @@ impl<'m> Derivation<'m> {
         let body = self.sys.bodies.get(key.0);
         let rule = RULES.get(c.rule);
         let unit = display_unit(key.1, entry.value.nominal);
+        let sigma = entry.value.sigma_of_difference(&c.value, &self.inputs);
         let message = format!(
-            "{} disagrees with {} from {} ({}) by {:.1} sigma",
+            "{} disagrees with {} from {} ({}) {}",
             self.described(key, entry, unit),
             self.shown(unit, &c.value),
             self.route(&c.inputs),
             rule.map_or("?", |r| r.id),
-            z
+            apart(z, entry.value.nominal, c.value.nominal, sigma)
         );
         let span = self
             .declared_span(key)
@@ -233,4 +235,22 @@ impl<'m> Derivation<'m> {
             })
             .collect()
     }
+}
+
+/// How far apart two values are, for a message: `by 3.2 sigma`; or, when the difference has
+/// no uncertainty to weigh it by (every input both rest on is exact, so any difference
+/// passes every threshold), by how many per cent: a number of sigma over a zero uncertainty
+/// (`by 133764973.4 sigma`) says nothing.
+fn apart(z: f64, a: f64, b: f64, sigma: f64) -> String {
+    let scale = a.abs().max(b.abs());
+    if sigma > 1e-9 * scale {
+        return format!("by {z:.1} sigma");
+    }
+    let percent = (a - b).abs() / scale * 100.0;
+    // Three significant digits: `24.9 %`, `0.0123 %`.
+    let decimals = usize::try_from(2 - percent.log10().floor() as i64).unwrap_or(0);
+    format!(
+        "by {percent:.decimals$} %, with no uncertainty to weigh the difference by (every \
+         value they rest on is exact)"
+    )
 }

@@ -165,6 +165,16 @@ fn declared_value_contradicting_kepler_is_inconsistent() {
     assert!(a.diagnostics.is_empty(), "{:#?}", a.diagnostics);
 }
 
+/// The message of the first inconsistency a first-order analysis of `src` reports.
+fn first_inconsistency(src: &str) -> String {
+    let a = run(src, &Options::linear());
+    a.diagnostics
+        .iter()
+        .find(|d| d.rule == crate::diagnostic::Rule::Inconsistent)
+        .map(|d| d.message.clone())
+        .expect("an inconsistency")
+}
+
 #[test]
 fn a_disagreement_shows_both_values_in_one_unit() {
     // A declared Jupiter-size radius against a Neptune-size one from the transit depth: the
@@ -172,18 +182,27 @@ fn a_disagreement_shows_both_values_in_one_unit() {
     // Rp = sqrt(1200 ppm) x 1.1 Rsun = 0.0381 Rsun = 0.371 Rjup (IAU 2015 B3 nominal radii:
     // Rsun 695,700 km, equatorial Rjup 71,492 km).
     let src = "system \"S\" { star s { mass = 1.05 ± 0.04 Msun; radius = 1.1 ± 0.05 Rsun }\n planet b orbits s { period = 3.52 d; transit_depth = 1200 ± 50 ppm; radius = 1.3 ± 0.1 Rjup } }";
-    let a = run(src, &Options::linear());
-    let d = a
-        .diagnostics
-        .iter()
-        .find(|d| d.rule == crate::diagnostic::Rule::Inconsistent)
-        .expect("an inconsistency");
+    let message = first_inconsistency(src);
     assert!(
-        d.message.contains("1.30 ± 0.10 Rjup") && d.message.contains("0.371 ± 0.019 Rjup"),
-        "{}",
-        d.message
+        message.contains("1.30 ± 0.10 Rjup") && message.contains("0.371 ± 0.019 Rjup"),
+        "{message}"
     );
-    assert!(!d.message.contains("Rearth"), "{}", d.message);
+    assert!(!message.contains("Rearth"), "{message}");
+}
+
+#[test]
+fn a_disagreement_between_exact_values_is_said_in_per_cent() {
+    // Every input exact: the difference has no uncertainty, and a number of sigma over it
+    // would be meaningless. An orbit of 0.05 au (IAU 2012 B2) in 0.0123 yr (4.4926 d of
+    // 86,400 s; a Julian year of 365.25 d) needs 4 pi^2 a^3 / (G P^2) = 0.8263 Msun
+    // (Kepler's third law, the planet's mass neglected): 24.9 % below the declared 1.1 Msun.
+    let src = "system \"S\" { star s { mass = 1.1 Msun }\n planet b orbits s { period = 0.0123 yr; semi_major_axis = 0.05 au } }";
+    let message = first_inconsistency(src);
+    assert!(
+        message.contains("by 24.9 %, with no uncertainty to weigh the difference by"),
+        "{message}"
+    );
+    assert!(!message.contains("sigma"), "{message}");
 }
 
 #[test]
