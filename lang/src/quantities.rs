@@ -243,6 +243,9 @@ const NOT_NAMES: &[(BodyKind, &str, &str)] = &[
     (BodyKind::Planet, "inc", "inclination"),
     (BodyKind::Planet, "ecc", "eccentricity"),
     (BodyKind::Planet, "w", "arg_periastron"),
+    (BodyKind::Planet, "Tdur", "transit_duration"),
+    (BodyKind::Planet, "tdur", "transit_duration"),
+    (BodyKind::Planet, "T_dur", "transit_duration"),
 ];
 
 /// The name meant by an unknown quantity name of a kind of body, for a did-you-mean.

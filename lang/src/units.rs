@@ -509,6 +509,8 @@ const OTHER_SPELLINGS: &[(&str, &str)] = &[
     ("M_E", "Mearth"),
     ("RE", "Rearth"),
     ("R_E", "Rearth"),
+    ("M_J", "Mjup"),
+    ("R_J", "Rjup"),
     ("earthMass", "Mearth"),
     ("earthRad", "Rearth"),
     ("jupiterMass", "Mjup"),
@@ -520,7 +522,8 @@ const OTHER_SPELLINGS: &[(&str, &str)] = &[
 
 /// The nearest known symbol, for a did-you-mean hint. A symbol of one or two characters
 /// is nearly as close to every short symbol as to the one meant (`C` is one edit from
-/// `m`, `g`, `s` and `K`), so a suggestion must be fewer edits away than it has characters.
+/// `m`, `g`, `s` and `K`, `R_J` two from `yr`), so a suggestion may be at most half as many
+/// edits away as the symbol has characters.
 pub fn suggest(symbol: &str) -> Option<&'static str> {
     if offset_scale(symbol).is_some() {
         return None;
@@ -538,7 +541,7 @@ pub fn suggest(symbol: &str) -> Option<&'static str> {
             } else {
                 crate::text::edit_distance(&lower, &cand.to_lowercase())
             };
-            if d <= 2 && d < length && best.is_none_or(|(bd, _)| d < bd) {
+            if d <= 2 && 2 * d <= length && best.is_none_or(|(bd, _)| d < bd) {
                 best = Some((d, def.symbol));
             }
         }

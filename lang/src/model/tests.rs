@@ -244,6 +244,7 @@ fn abbreviations_that_are_not_names_point_to_the_quantity() {
         ("inc = 88 deg", "inclination"),
         ("ecc = 0.1", "eccentricity"),
         ("w = 90 deg", "arg_periastron"),
+        ("Tdur = 2.1 h", "transit_duration"),
     ] {
         let d = only_diagnostic(written);
         assert_eq!(d.rule, Rule::UnknownQuantity, "{written}");

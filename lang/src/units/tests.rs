@@ -95,6 +95,9 @@ fn suggestions() {
     assert_eq!(suggest("RE"), Some("Rearth"));
     assert_eq!(suggest("solRad"), Some("Rsun"));
     assert_eq!(suggest("jupiterMass"), Some("Mjup"));
+    assert_eq!(suggest("R_J"), Some("Rjup"));
+    // Two edits are too many for a symbol of three characters (`R_Q` is two from `yr`).
+    assert_eq!(suggest("R_Q"), None);
     // Each symbol meant is a unit of the registry.
     for (_, meant) in OTHER_SPELLINGS {
         assert!(lookup(meant).is_some(), "{meant}");
