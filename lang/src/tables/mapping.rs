@@ -159,7 +159,28 @@ impl std::fmt::Display for MappingError {
 impl Mapping {
     /// Read a mapping file's text.
     pub fn from_toml(text: &str) -> Result<Mapping, MappingError> {
-        toml::from_str(text).map_err(|e| MappingError(e.to_string()))
+        toml::from_str(text).map_err(|e| {
+            let message = e.to_string();
+            // The parser names a missing field; say what the field is for.
+            let help = if message.contains("missing field `system`") {
+                Some(
+                    "help: `[bodies]` needs `system = \"COLUMN\"`, the column that names each \
+                     row's system (where every star is its own system, its name column will do: \
+                     `system = \"host\"`); docs/import.md",
+                )
+            } else if message.contains("missing field `value`") {
+                Some(
+                    "help: each `[star.QUANTITY]` and `[planet.QUANTITY]` table needs \
+                     `value = \"COLUMN\"`, the column of the value itself; docs/import.md",
+                )
+            } else {
+                None
+            };
+            MappingError(match help {
+                Some(h) => format!("{}\n{h}", message.trim_end()),
+                None => message,
+            })
+        })
     }
 }
 

@@ -248,6 +248,15 @@ fn mapping_errors_say_what_is_wrong() {
         }
     };
     assert!(err("[bodies]\nsystem = \"nope\"").contains("`nope` is not in the table's header"));
+    // A missing required field: what it is for.
+    let e = err("[bodies]\nplanet = \"x\"");
+    assert!(
+        e.contains("missing field `system`")
+            && e.contains("the column that names each row's system"),
+        "{e}"
+    );
+    let e = err("[bodies]\nsystem = \"sys\"\n[star.mass]\nunit = \"Msun\"");
+    assert!(e.contains("needs `value = \"COLUMN\"`"), "{e}");
     assert!(err("[bodies]\nsystem = \"sys\"\nsurprise = 1").contains("unknown field"));
     assert!(
         err("[bodies]\nsystem = \"sys\"\n[star.mas]\nvalue = \"x\"\nunit = \"Msun\"")
