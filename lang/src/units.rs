@@ -518,6 +518,10 @@ const OTHER_SPELLINGS: &[(&str, &str)] = &[
     ("solMass", "Msun"),
     ("solRad", "Rsun"),
     ("solLum", "Lsun"),
+    ("degree", "deg"),
+    ("degrees", "deg"),
+    ("hrs", "h"),
+    ("mps", "m/s"),
 ];
 
 /// The nearest known symbol, for a did-you-mean hint. A symbol of one or two characters

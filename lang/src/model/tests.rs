@@ -285,6 +285,22 @@ fn a_missing_unit_is_added_to_the_value_as_written() {
 }
 
 #[test]
+fn metres_per_second_written_as_per_millisecond_is_pointed_out() {
+    let d = only_diagnostic("rv_amplitude = 55 ± 2 ms^-1");
+    assert_eq!(d.rule, Rule::UnitMismatch);
+    let help = d.help.unwrap_or_default();
+    assert!(
+        help.contains("millisecond") && help.contains("`rv_amplitude = 55 ± 2 m/s`"),
+        "{help}"
+    );
+    // Another wrong unit of a speed gets the usual help.
+    let help = only_diagnostic("rv_amplitude = 55 ± 2 kg")
+        .help
+        .unwrap_or_default();
+    assert!(!help.contains("millisecond"), "{help}");
+}
+
+#[test]
 fn catalogue_spellings_of_a_magnitude_point_to_the_quantity_and_its_body() {
     let on_star = |prop: &str| {
         let src = format!("system \"S\" {{\n star s {{ mass = 1 Msun; {prop} }} }}");

@@ -510,6 +510,15 @@ fn mismatch_for(
             "'{}' is a plain number; drop the unit or use % or ppm",
             def.name
         ));
+    } else if unit.text.starts_with("ms")
+        && units::parse_unit_text("m/s").is_some_and(|speed| speed.dim == def.dim)
+    {
+        // `ms^-1` is per millisecond: the metre and the second need a space or a `/`.
+        d = d.with_help(format!(
+            "`ms` is the millisecond: for metres per second write `m/s` or `m s^-1` (`{} = {} m/s`)",
+            def.name,
+            as_written(lit)
+        ));
     } else {
         d = d.with_help(format!(
             "use a unit of {}, such as {}",

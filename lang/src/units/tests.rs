@@ -98,9 +98,10 @@ fn suggestions() {
     assert_eq!(suggest("R_J"), Some("Rjup"));
     // Two edits are too many for a symbol of three characters (`R_Q` is two from `yr`).
     assert_eq!(suggest("R_Q"), None);
-    // Each symbol meant is a unit of the registry.
+    assert_eq!(suggest("degrees"), Some("deg"));
+    // Each unit meant is one the language reads.
     for (_, meant) in OTHER_SPELLINGS {
-        assert!(lookup(meant).is_some(), "{meant}");
+        assert!(parse_unit_text(meant).is_some(), "{meant}");
     }
 }
 

@@ -438,6 +438,26 @@ fn uncertainties_in_other_notations_are_errors_with_the_spelling_taken() {
 }
 
 #[test]
+fn an_exponent_without_a_caret_gets_the_unit_rewritten() {
+    let h = help_of("55 ± 2 km s-1").unwrap();
+    assert!(h.contains("`s^-1`"), "{h}");
+    let h = help_of("1.33 g cm-3").unwrap();
+    assert!(h.contains("`cm^-3`"), "{h}");
+    // A subtraction of a name that is no unit, or with spaces, is left to the grammar.
+    for value in ["2 * b.mass - 1", "x-1", "3 km - 1 km", "d-1"] {
+        let src = format!("system \"S\" {{ star s {{ x = {value} }} }}");
+        let p = parse(FileId(0), &src);
+        assert!(
+            p.diagnostics
+                .iter()
+                .all(|d| !d.message.contains("reads as a subtraction")),
+            "{value}: {:?}",
+            p.diagnostics
+        );
+    }
+}
+
+#[test]
 fn concise_uncertainties_keep_the_value_decimals() {
     // `value(digits)`: the digits count in the value's last places (common practice).
     assert_eq!(

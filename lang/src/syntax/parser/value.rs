@@ -192,7 +192,10 @@ impl Cursor<'_> {
         if let Some(parts) = self.plain_measurement(slice) {
             return Some(parts);
         }
-        if let Some(d) = self.uncertainty_in_another_notation(slice) {
+        if let Some(d) = self
+            .uncertainty_in_another_notation(slice)
+            .or_else(|| self.exponent_without_caret(slice))
+        {
             self.diags.push(d);
             return Some(error_value(whole));
         }
@@ -204,6 +207,46 @@ impl Cursor<'_> {
             self.diags.push(d);
         }
         Some(out.unwrap_or_else(|| error_value(whole)))
+    }
+
+    /// A unit's exponent written as papers typeset it, without `^` (`km s-1`, `g cm-3`):
+    /// to the grammar a subtraction, reported as a dimension error far from the cause. The
+    /// first unit symbol followed directly by `-` and a whole number is an error with the
+    /// unit rewritten.
+    fn exponent_without_caret(&self, slice: &[Token]) -> Option<Diagnostic> {
+        let joined = |x: &Token, y: &Token| x.end == y.start;
+        // Only after a number, where a unit is written (`d-1` alone may be a binding's use).
+        if slice.first()?.kind != Tok::Number {
+            return None;
+        }
+        let found = slice.windows(3).find_map(|w| match w {
+            [unit, minus, n]
+                if unit.kind == Tok::Ident
+                    && minus.kind == Tok::Minus
+                    && n.kind == Tok::Number
+                    && joined(unit, minus)
+                    && joined(minus, n)
+                    && self.text(*n).bytes().all(|c| c.is_ascii_digit())
+                    && crate::units::lookup(self.text(*unit)).is_some() =>
+            {
+                Some((unit, n))
+            }
+            _ => None,
+        })?;
+        let (unit, n) = found;
+        let written = self.src.get(unit.start..n.end)?;
+        let exponent = self.text(*n);
+        let symbol = self.text(*unit);
+        Some(
+            Diagnostic::new(
+                Rule::Syntax,
+                Span::new(self.file, unit.start, n.end),
+                format!("`{written}` reads as a subtraction, not as a unit with an exponent"),
+            )
+            .with_help(format!(
+                "write the exponent with `^`: `{symbol}^-{exponent}` (or divide: `/{symbol}`)"
+            )),
+        )
     }
 
     /// An uncertainty written as tables and papers write it, which the grammar would read
