@@ -102,6 +102,13 @@ pub struct Label {
     pub message: String,
 }
 
+/// A replacement of the source that fixes a diagnostic: the editor offers it as a quick fix.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Fix {
+    pub span: Span,
+    pub text: String,
+}
+
 #[derive(Debug, Clone, PartialEq)]
 pub struct Diagnostic {
     pub rule: Rule,
@@ -111,6 +118,8 @@ pub struct Diagnostic {
     pub labels: Vec<Label>,
     pub notes: Vec<String>,
     pub help: Option<String>,
+    /// The edit the help describes, when it is one replacement.
+    pub fix: Option<Fix>,
 }
 
 impl Diagnostic {
@@ -124,7 +133,17 @@ impl Diagnostic {
             labels: Vec::new(),
             notes: Vec::new(),
             help: None,
+            fix: None,
         }
+    }
+
+    /// The replacement of `span` by `text` that fixes this diagnostic.
+    pub fn with_fix(mut self, span: Span, text: impl Into<String>) -> Diagnostic {
+        self.fix = Some(Fix {
+            span,
+            text: text.into(),
+        });
+        self
     }
 
     pub fn with_label(mut self, span: Span, message: impl Into<String>) -> Diagnostic {

@@ -238,9 +238,13 @@ impl Spans for Diagnostic {
             labels,
             notes: _,
             help: _,
+            fix,
         } = self;
         f(span);
         labels.each_span(f);
+        if let Some(fix) = fix {
+            f(&mut fix.span);
+        }
     }
 }
 

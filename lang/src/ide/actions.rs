@@ -53,6 +53,21 @@ pub fn actions(a: &Analysis, src: &str, range: std::ops::Range<usize>) -> Vec<Ac
                 preferred: true,
                 fixes: Some(i),
             });
+        } else if let Some(fix) = &d.fix {
+            let written = src
+                .get(fix.span.start as usize..fix.span.end as usize)
+                .unwrap_or("");
+            out.push(Action {
+                title: if written.is_empty() {
+                    format!("Add '{}'", fix.text.trim())
+                } else {
+                    format!("Write '{written}' as '{}'", fix.text)
+                },
+                kind: ActionKind::QuickFix,
+                edits: vec![(fix.span, fix.text.clone())],
+                preferred: true,
+                fixes: Some(i),
+            });
         }
         if d.rule != Rule::UnusedAllow {
             out.push(silence(a, src, d, i));
@@ -359,6 +374,75 @@ mod tests {
         let fixed = apply_edits(SRC, &fix.edits);
         let a = crate::analyze(FileId(0), &fixed, &crate::Settings::linear());
         assert!(!a.has_errors(), "{:?}", a.diagnostics);
+    }
+
+    #[test]
+    fn the_fixes_of_slips_make_their_errors_go_away() {
+        // Each slip, where the cursor is, the quick fix's title, and the line it leaves.
+        for (slip, at, title, fixed_line) in [
+            (
+                "radius = 1.0 +/- 0.02 Rsun",
+                "/-",
+                "Write '+/-' as '±'",
+                "radius = 1.0 ± 0.02 Rsun",
+            ),
+            (
+                "radius = 1,0 ± 0.02 Rsun",
+                ",0",
+                "Write '1,0' as '1.0'",
+                "radius = 1.0 ± 0.02 Rsun",
+            ),
+            (
+                "radius = 1.0 +0.03 -0.02 Rsun",
+                "+0.03",
+                "Write '+0.03 -0.02' as '+0.03/-0.02'",
+                "radius = 1.0 +0.03/-0.02 Rsun",
+            ),
+            (
+                "radius = 1.00(2) Rsun",
+                "(2)",
+                "Write '1.00(2)' as '1.00 ± 0.02'",
+                "radius = 1.00 ± 0.02 Rsun",
+            ),
+            (
+                "radius = 1.0 ± 0.02\n",
+                "1.0 ± 0.02\n",
+                "Add 'Rsun'",
+                "radius = 1.0 ± 0.02 Rsun",
+            ),
+        ] {
+            let src = SRC.replace(
+                "radius = 1.0 ± 0.02 Rsun\n",
+                &format!("{}\n", slip.trim_end()),
+            );
+            let (_, acts) = run(&src, at);
+            let fix = acts.iter().find(|x| x.title == title).unwrap_or_else(|| {
+                panic!(
+                    "{slip}: {:?}",
+                    acts.iter().map(|a| &a.title).collect::<Vec<_>>()
+                )
+            });
+            let fixed = apply_edits(&src, &fix.edits);
+            assert!(fixed.contains(fixed_line), "{slip}: {fixed}");
+            // Only the file's own slip (`perod`) is left.
+            let a = crate::analyze(FileId(0), &fixed, &crate::Settings::linear());
+            assert!(
+                a.diagnostics
+                    .iter()
+                    .all(|d| d.rule == Rule::UnknownQuantity),
+                "{slip}: {:?}",
+                a.diagnostics
+            );
+        }
+        // A unit's exponent: `m s-1` becomes `m s^-1`.
+        let src = SRC.replace("30 ± 2 m/s", "30 ± 2 m s-1");
+        let (_, acts) = run(&src, "s-1");
+        let fix = acts
+            .iter()
+            .find(|x| x.title == "Write 's-1' as 's^-1'")
+            .unwrap();
+        let fixed = apply_edits(&src, &fix.edits);
+        assert!(fixed.contains("rv_amplitude = 30 ± 2 m s^-1"), "{fixed}");
     }
 
     #[test]

@@ -502,6 +502,13 @@ fn mismatch_for(
             as_written(lit),
             unit_suffix(def)
         ));
+        // The unit goes after the whole measurement (the literal's end).
+        if !unit_suffix(def).is_empty() {
+            d = d.with_fix(
+                Span::new(span.file, span.end as usize, span.end as usize),
+                format!(" {}", unit_suffix(def)),
+            );
+        }
         if def.dim == Dimension::ANGLE {
             d = d.with_note("angles and plain numbers are different types: write `deg` or `rad`");
         }

@@ -3,6 +3,7 @@
 //! with the diagnostics its errors become.
 
 use super::*;
+use crate::diagnostic::Fix;
 
 type Range = std::ops::Range<usize>;
 pub(super) type ValueParser<'a> = chumsky::BoxedParser<'a, Tok, ValueParts, ParseError>;
@@ -245,7 +246,11 @@ impl Cursor<'_> {
             )
             .with_help(format!(
                 "write the exponent with `^`: `{symbol}^-{exponent}` (or divide: `/{symbol}`)"
-            )),
+            ))
+            .with_fix(
+                Span::new(self.file, unit.start, n.end),
+                format!("{symbol}^-{exponent}"),
+            ),
         )
     }
 
@@ -288,8 +293,11 @@ impl Cursor<'_> {
                      a notation this language does not read"
                 ),
             );
+            let whole = Span::new(self.file, begin, close.end);
             return Some(match concise_uncertainty(v, digits) {
-                Some(u) => d.with_help(format!("write the uncertainty out: `{v} ± {u}`")),
+                Some(u) => d
+                    .with_help(format!("write the uncertainty out: `{v} ± {u}`"))
+                    .with_fix(whole, format!("{v} ± {u}")),
                 None => d.with_help("write the uncertainty out: `VALUE ± UNCERTAINTY`"),
             });
         }
@@ -317,7 +325,8 @@ impl Cursor<'_> {
             .with_help(format!(
                 "an uncertainty above and below is written `+above/-below`: `{v} +{above}/-{below}`; \
                  for a sum, put a space after each sign"
-            )),
+            ))
+            .with_fix(span(a, d), format!("+{above}/-{below}")),
         )
     }
 
@@ -498,8 +507,11 @@ impl Cursor<'_> {
             format!("expected {}, found {found}", join_or(&expected))
         };
         let mut d = Diagnostic::new(Rule::Syntax, span, msg);
-        if let Some(help) = self.misplaced_uncertainty(r.start, e.found) {
+        if let Some((help, fix)) = self.misplaced_uncertainty(r.start, e.found) {
             d = d.with_help(help);
+            if let Some(Fix { span, text }) = fix {
+                d = d.with_fix(span, text);
+            }
         } else if matches!(e.found, Some(Tok::Ident | Tok::Number)) {
             d = d.with_help(
                 "a unit follows the whole measurement: `1.2 ± 0.1 Rjup`; to multiply, write `*`",
@@ -532,7 +544,11 @@ impl Cursor<'_> {
 
     /// Help for an uncertainty written in a form the grammar does not take, found at
     /// `at`: `-below/+above` (the parts swapped), or a unit before the uncertainty.
-    fn misplaced_uncertainty(&self, at: usize, found: Option<Tok>) -> Option<String> {
+    fn misplaced_uncertainty(
+        &self,
+        at: usize,
+        found: Option<Tok>,
+    ) -> Option<(String, Option<Fix>)> {
         let i = self.toks.partition_point(|t| t.start < at);
         let back = |n: usize| i.checked_sub(n).and_then(|j| self.toks.get(j));
         let kind = |n: usize| back(n).map(|t| t.kind);
@@ -549,9 +565,12 @@ impl Cursor<'_> {
                 let above = ahead(1)
                     .filter(|t| t.kind == Tok::Number)
                     .map_or("ABOVE", |t| self.text(*t));
-                Some(format!(
-                    "an asymmetric uncertainty is written `+above/-below`, the part above the \
-                     value first: `+{above}/-{below}`"
+                Some((
+                    format!(
+                        "an asymmetric uncertainty is written `+above/-below`, the part above \
+                         the value first: `+{above}/-{below}`"
+                    ),
+                    None,
                 ))
             }
             // `1.2 Mjup ± 0.1`: found '±' after a unit that follows a number.
@@ -579,9 +598,12 @@ impl Cursor<'_> {
                 } else {
                     ""
                 };
-                Some(format!(
-                    "the unit goes after the uncertainty, once for the whole measurement: \
-                     `{value} ± {spread} {unit}`{combined}"
+                Some((
+                    format!(
+                        "the unit goes after the uncertainty, once for the whole measurement: \
+                         `{value} ± {spread} {unit}`{combined}"
+                    ),
+                    None,
                 ))
             }
             // `1.05 +/- 0.04 Msun`: found '/' right after '+', with '-' right after it.
@@ -589,20 +611,28 @@ impl Cursor<'_> {
                 if back(1).is_some_and(|t| t.kind == Tok::Plus && t.end == at)
                     && ahead(1).is_some_and(|t| t.kind == Tok::Minus && t.start == at + 1) =>
             {
-                Some(
+                let plus = back(1)?;
+                Some((
                     "a symmetric uncertainty is written `±` or `+-`: `1.05 +- 0.04 Msun`; an \
                      asymmetric one `+above/-below`: `+0.05/-0.04`"
                         .to_string(),
-                )
+                    Some(Fix {
+                        span: Span::new(self.file, plus.start, at + 2),
+                        text: "±".to_string(),
+                    }),
+                ))
             }
             // `12,5 d`: found ',' between two numbers written without spaces.
             Tok::Comma => {
                 let whole = back(1).filter(|t| t.kind == Tok::Number && t.end == at)?;
                 let fraction = ahead(1).filter(|t| t.kind == Tok::Number && t.start == at + 1)?;
-                Some(format!(
-                    "the decimal separator is a point: `{}.{}`",
-                    self.text(*whole),
-                    self.text(*fraction)
+                let point = format!("{}.{}", self.text(*whole), self.text(*fraction));
+                Some((
+                    format!("the decimal separator is a point: `{point}`"),
+                    Some(Fix {
+                        span: Span::new(self.file, whole.start, fraction.end),
+                        text: point,
+                    }),
                 ))
             }
             _ => None,
