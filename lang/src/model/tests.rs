@@ -285,6 +285,26 @@ fn a_missing_unit_is_added_to_the_value_as_written() {
 }
 
 #[test]
+fn a_percentage_uncertainty_before_a_unit_is_not_read_as_hundredths() {
+    // `± 10% d` would make the whole measurement hundredths of a day (0.035 ± 0.1 d).
+    let d = only_diagnostic("period = 3.5 ± 10% d");
+    assert_eq!(d.rule, Rule::UnitMismatch);
+    let help = d.help.unwrap_or_default();
+    assert!(help.contains("`period = 3.5 ± 0.35 d`"), "{help}");
+    assert_eq!(d.fix.map(|f| f.text).as_deref(), Some("3.5 ± 0.35 d"));
+    let d = only_diagnostic("rv_amplitude = 40 ± 5 % m/s");
+    assert!(d
+        .help
+        .unwrap_or_default()
+        .contains("`rv_amplitude = 40 ± 2 m s^-1`"));
+    // A fraction alone is a fraction.
+    let (_, diags) = lower_text(
+        "system \"S\" {\n star s { mass = 1 Msun }\n planet b orbits s { transit_depth = 0.5 ± 0.01 % } }",
+    );
+    assert!(diags.is_empty(), "{diags:?}");
+}
+
+#[test]
 fn metres_per_second_written_as_per_millisecond_is_pointed_out() {
     let d = only_diagnostic("rv_amplitude = 55 ± 2 ms^-1");
     assert_eq!(d.rule, Rule::UnitMismatch);

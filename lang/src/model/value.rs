@@ -168,6 +168,10 @@ pub(super) fn lower_value(
         }
         return Some((Content::Expr(resolve(expr, diags)?), None));
     };
+    if let Some(d) = fraction_times_a_unit(def, sign, lit, expr.span) {
+        diags.push(d);
+        return None;
+    }
     let unit = match &lit.unit {
         None => units::Unit::one(),
         Some(u) => match units::resolve(u) {
@@ -450,6 +454,69 @@ fn logarithm_misplaced(def: &QuantityDef, unit: &units::Unit, span: Span) -> Opt
     } else {
         d.with_help(format!("write '{}' in {}", def.name, unit_suffix(def)))
     })
+}
+
+/// `3.5 ± 10% d`: a percentage (or ppm) in one unit with another unit. The unit applies to
+/// the whole measurement, so this reads as 0.035 ± 0.1 d, a value nobody means: almost
+/// always a relative uncertainty. Refused, with the uncertainty written out in the other
+/// unit when it is `± p%`.
+fn fraction_times_a_unit(
+    def: &QuantityDef,
+    sign: f64,
+    lit: &ast::Literal,
+    span: Span,
+) -> Option<Diagnostic> {
+    let unit = lit.unit.as_ref()?;
+    let is_fraction =
+        |f: &&ast::UnitFactor| matches!(f.symbol.name.as_str(), "%" | "percent" | "ppm");
+    let fraction = unit.factors.iter().find(is_fraction)?;
+    let others: Vec<&ast::UnitFactor> = unit.factors.iter().filter(|f| !is_fraction(f)).collect();
+    if others.is_empty() {
+        return None;
+    }
+    let rest = others
+        .iter()
+        .map(|f| match f.exponent {
+            1 => f.symbol.name.clone(),
+            e => format!("{}^{e}", f.symbol.name),
+        })
+        .collect::<Vec<_>>()
+        .join(" ");
+    let per = if fraction.symbol.name == "ppm" {
+        1e-6
+    } else {
+        1e-2
+    };
+    let value = sign * lit.value;
+    let mut d =
+        Diagnostic::new(
+            Rule::UnitMismatch,
+            unit.span,
+            format!(
+            "the unit '{}' multiplies a fraction by {rest}: the whole measurement is read in it, \
+             so `{}` would be {} times smaller",
+            crate::units::unit_text(unit),
+            as_written(lit),
+            if per == 1e-2 { "a hundred" } else { "a million" }
+        ),
+        );
+    d = match &lit.uncertainty {
+        Uncertainty::Symmetric(relative, _) => {
+            let absolute = crate::format::number(value.abs() * relative * per);
+            let fixed = format!("{} ± {absolute} {rest}", crate::format::number(value));
+            d.with_help(format!(
+                "if {} {} is the relative uncertainty, write it out: `{} = {fixed}`",
+                crate::format::number(*relative),
+                fraction.symbol.name,
+                def.name
+            ))
+            .with_fix(span, fixed)
+        }
+        _ => d.with_help(format!(
+            "give the value and its uncertainty in {rest}, or a fraction alone"
+        )),
+    };
+    Some(d)
 }
 
 /// A literal's number and uncertainty with every digit it was written with (the shortest
