@@ -1,4 +1,13 @@
-//! Small text helpers shared by diagnostics: edit distance for did-you-mean hints.
+//! Small text helpers shared by diagnostics: edit distance for did-you-mean hints, and
+//! lists in words.
+
+/// `a`, `a and b`, `a, b and c`.
+pub fn and_list(items: &[String]) -> String {
+    match items.split_last() {
+        Some((last, rest)) if !rest.is_empty() => format!("{} and {last}", rest.join(", ")),
+        _ => items.join(""),
+    }
+}
 
 /// Levenshtein distance over characters.
 pub fn edit_distance(a: &str, b: &str) -> usize {

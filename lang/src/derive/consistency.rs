@@ -42,7 +42,7 @@ impl<'m> Derivation<'m> {
                 }
                 let sigma = entry.value.sigma_of_difference(&c.value, &self.inputs);
                 let diff = (entry.value.nominal - c.value.nominal).abs();
-                let floor = 1e-9 * entry.value.nominal.abs().max(c.value.nominal.abs());
+                let floor = NO_UNCERTAINTY * entry.value.nominal.abs().max(c.value.nominal.abs());
                 let z = diff / sigma.max(floor);
                 if z <= threshold || diff <= floor {
                     continue;
@@ -52,7 +52,7 @@ impl<'m> Derivation<'m> {
                 if !reported.insert(involved.clone()) {
                     continue;
                 }
-                let diag = self.inconsistency(key, entry, c, z, &involved);
+                let diag = self.inconsistency(key, entry, c, (z, sigma), &involved);
                 self.diagnostics.push(diag);
             }
         }
@@ -82,7 +82,7 @@ impl<'m> Derivation<'m> {
             return; // one follows from the other's measurements, so the model orders them
         }
         let excess = s.value.nominal - l.value.nominal;
-        let floor = 1e-9 * s.value.nominal.abs().max(l.value.nominal.abs());
+        let floor = NO_UNCERTAINTY * s.value.nominal.abs().max(l.value.nominal.abs());
         let sigma = s.value.sigma_of_difference(&l.value, &self.inputs);
         let z = excess / sigma.max(floor);
         if excess <= floor || z <= threshold {
@@ -154,18 +154,19 @@ impl<'m> Derivation<'m> {
             .join(", ")
     }
 
+    /// The finding for a declared or derived value and a candidate route that disagree by
+    /// `z` combined standard deviations of `sigma` (SI).
     pub(super) fn inconsistency(
         &self,
         key: Key,
         entry: &Entry,
         c: &Candidate,
-        z: f64,
+        (z, sigma): (f64, f64),
         involved: &SortedSet<Key>,
     ) -> Diagnostic {
         let body = self.sys.bodies.get(key.0);
         let rule = RULES.get(c.rule);
         let unit = display_unit(key.1, entry.value.nominal);
-        let sigma = entry.value.sigma_of_difference(&c.value, &self.inputs);
         let message = format!(
             "{} disagrees with {} from {} ({}) {}",
             self.described(key, entry, unit),
@@ -237,13 +238,17 @@ impl<'m> Derivation<'m> {
     }
 }
 
+/// A difference or uncertainty below this fraction of the values compared counts as none
+/// (rounding, not measurement).
+const NO_UNCERTAINTY: f64 = 1e-9;
+
 /// How far apart two values are, for a message: `by 3.2 sigma`; or, when the difference has
 /// no uncertainty to weigh it by (every input both rest on is exact, so any difference
 /// passes every threshold), by how many per cent: a number of sigma over a zero uncertainty
 /// (`by 133764973.4 sigma`) says nothing.
 fn apart(z: f64, a: f64, b: f64, sigma: f64) -> String {
     let scale = a.abs().max(b.abs());
-    if sigma > 1e-9 * scale {
+    if sigma > NO_UNCERTAINTY * scale {
         return format!("by {z:.1} sigma");
     }
     let percent = (a - b).abs() / scale * 100.0;

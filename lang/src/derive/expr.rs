@@ -427,7 +427,7 @@ impl<'m> Derivation<'m> {
         } else if !absent.is_empty() {
             why.push(format!(
                 "{}, none of them declared or derivable from what is declared",
-                and_list(&absent)
+                crate::text::and_list(&absent)
             ));
         }
         let stuck = names(true);
@@ -438,7 +438,7 @@ impl<'m> Derivation<'m> {
         } else if !stuck.is_empty() {
             why.push(format!(
                 "{}, expressions that cannot be evaluated either",
-                and_list(&stuck)
+                crate::text::and_list(&stuck)
             ));
         }
         let what = if own.is_some() {
@@ -461,12 +461,5 @@ impl<'m> Derivation<'m> {
             ));
         }
         d
-    }
-}
-
-fn and_list(items: &[String]) -> String {
-    match items.split_last() {
-        Some((last, rest)) if !rest.is_empty() => format!("{} and {last}", rest.join(", ")),
-        _ => items.join(""),
     }
 }

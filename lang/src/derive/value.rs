@@ -624,14 +624,17 @@ mod tests {
             above: 0.9,
             form: Form::Asymmetric,
         };
+        // The summary of a value holding only these samples.
+        let summary = |samples: Vec<f64>| {
+            Value {
+                nominal: 0.0,
+                grad: vec![],
+                samples: Some(Arc::from(samples)),
+            }
+            .sample_summary()
+        };
         let finite = draw(&m, f64::NEG_INFINITY, f64::INFINITY, 3_000, 5);
-        let alone = Value {
-            nominal: 2.0,
-            grad: vec![],
-            samples: Some(finite.clone()),
-        }
-        .sample_summary()
-        .unwrap();
+        let alone = summary(finite.to_vec()).unwrap();
         let odd = [f64::NAN, -f64::NAN, f64::INFINITY, f64::NEG_INFINITY];
         let mut mixed: Vec<f64> = Vec::new();
         for (i, x) in finite.iter().enumerate() {
@@ -640,13 +643,7 @@ mod tests {
             }
             mixed.push(*x);
         }
-        let among = Value {
-            nominal: 2.0,
-            grad: vec![],
-            samples: Some(Arc::from(mixed.clone())),
-        }
-        .sample_summary()
-        .unwrap();
+        let among = summary(mixed.clone()).unwrap();
         assert_eq!(
             (among.median, among.low, among.high, among.precision),
             (alone.median, alone.low, alone.high, alone.precision)
@@ -654,12 +651,7 @@ mod tests {
         assert_eq!(among.finite, 3_000.0 / mixed.len() as f64);
         assert_eq!(alone.finite, 1.0);
         // Nothing finite: no summary.
-        let none = Value {
-            nominal: 0.0,
-            grad: vec![],
-            samples: Some(Arc::from(odd.to_vec())),
-        };
-        assert!(none.sample_summary().is_none());
+        assert!(summary(odd.to_vec()).is_none());
     }
 
     #[test]

@@ -482,24 +482,23 @@ fn fraction_times_a_unit(
         })
         .collect::<Vec<_>>()
         .join(" ");
-    let per = if fraction.symbol.name == "ppm" {
-        1e-6
+    let (per, times) = if fraction.symbol.name == "ppm" {
+        (1e-6, "a million")
     } else {
-        1e-2
+        (1e-2, "a hundred")
     };
     let value = sign * lit.value;
-    let mut d =
-        Diagnostic::new(
-            Rule::UnitMismatch,
-            unit.span,
-            format!(
+    let mut d = Diagnostic::new(
+        Rule::UnitMismatch,
+        unit.span,
+        format!(
             "the unit '{}' multiplies a fraction by {rest}: the whole measurement is read in it, \
              so `{}` would be {} times smaller",
             crate::units::unit_text(unit),
             as_written(lit),
-            if per == 1e-2 { "a hundred" } else { "a million" }
+            times
         ),
-        );
+    );
     d = match &lit.uncertainty {
         Uncertainty::Symmetric(relative, _) => {
             let absolute = crate::format::number(value.abs() * relative * per);
@@ -584,9 +583,7 @@ fn mismatch_for(
             "'{}' is a plain number; drop the unit or use % or ppm",
             def.name
         ));
-    } else if unit.text.starts_with("ms")
-        && units::parse_unit_text("m/s").is_some_and(|speed| speed.dim == def.dim)
-    {
+    } else if unit.text.starts_with("ms") && def.dim == Dimension::LENGTH.per(Dimension::TIME) {
         // `ms^-1` is per millisecond: the metre and the second need a space or a `/`.
         d = d.with_help(format!(
             "`ms` is the millisecond: for metres per second write `m/s` or `m s^-1` (`{} = {} m/s`)",

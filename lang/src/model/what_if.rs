@@ -124,10 +124,10 @@ pub fn lower(w: &WhatIf, kind: BodyKind) -> Result<Declared, String> {
         diags
             .iter()
             .find(|d| d.severity == Severity::Error)
-            .map(|d| match &d.help {
+            .map(|d| {
                 // The help names the fix (`1.0 Msun`, `+-`), which the user types next.
-                Some(help) => format!("the value '{}' is refused: {}; {help}", w.value, d.message),
-                None => format!("the value '{}' is refused: {}", w.value, d.message),
+                let help = d.help.as_ref().map_or(String::new(), |h| format!("; {h}"));
+                format!("the value '{}' is refused: {}{help}", w.value, d.message)
             })
     };
     if let Some(e) = refused(&diags) {

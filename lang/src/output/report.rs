@@ -609,8 +609,8 @@ fn routes_missing(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<String
         let text = format!(
             "{} from {}, of which {} {} no value",
             rule.id,
-            join_and(&inputs),
-            join_and(&lacking),
+            crate::text::and_list(&inputs),
+            crate::text::and_list(&lacking),
             if lacking.len() == 1 { "has" } else { "have" }
         );
         routes.push((lacking.len(), rule.tier, text));
@@ -619,7 +619,6 @@ fn routes_missing(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<String
         return None;
     }
     routes.sort_by(|x, y| (x.0, x.1).cmp(&(y.0, y.1)).then_with(|| x.2.cmp(&y.2)));
-    routes.dedup_by(|x, y| x.2 == y.2);
     let shown: Vec<String> = routes.into_iter().take(3).map(|r| r.2).collect();
     Some(format!(
         "{} {}",
@@ -630,15 +629,6 @@ fn routes_missing(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<String
         },
         shown.join("; ")
     ))
-}
-
-/// `a`, `a and b`, `a, b and c`.
-fn join_and(items: &[String]) -> String {
-    match items {
-        [] => String::new(),
-        [one] => one.clone(),
-        [init @ .., last] => format!("{} and {last}", init.join(", ")),
-    }
 }
 
 /// The advice line under an error budget: the input to improve first. A value's own

@@ -235,22 +235,20 @@ impl Cursor<'_> {
             _ => None,
         })?;
         let (unit, n) = found;
+        let at = Span::new(self.file, unit.start, n.end);
         let written = self.src.get(unit.start..n.end)?;
         let exponent = self.text(*n);
         let symbol = self.text(*unit);
         Some(
             Diagnostic::new(
                 Rule::Syntax,
-                Span::new(self.file, unit.start, n.end),
+                at,
                 format!("`{written}` reads as a subtraction, not as a unit with an exponent"),
             )
             .with_help(format!(
                 "write the exponent with `^`: `{symbol}^-{exponent}` (or divide: `/{symbol}`)"
             ))
-            .with_fix(
-                Span::new(self.file, unit.start, n.end),
-                format!("{symbol}^-{exponent}"),
-            ),
+            .with_fix(at, format!("{symbol}^-{exponent}")),
         )
     }
 
