@@ -497,3 +497,53 @@ fn bad_rows_of_a_table_of_declared_values_are_named() {
     assert!(text.contains("rv_amplitude = 12 ± 1 m/s"), "{text}");
     assert!(text.contains("planet b orbits s"), "{text}");
 }
+
+/// A lower limit the derivations cannot use and reference texts holding the table's
+/// separator (` | `) and backslashes survive the round trip through the table of declared
+/// values, and the limit's row says it is not used.
+#[test]
+fn unusable_limits_and_references_with_bars_round_trip() {
+    let dir = scratch("import-limits-bars");
+    let file = dir.join("narrowdale.syz");
+    std::fs::write(
+        &file,
+        "ref aa \"Harl 2031 | zz: Fenwick 2030 (erratum)\"\nref zz \"Marrowby et al. 2033, A\\\\&A\"\nsystem \"Narrowdale\" {\n  star s {\n    mass = 1.0 ± 0.1 Msun [aa]\n    radius = 1.0 ± 0.05 Rsun [zz]\n  }\n  planet b orbits s {\n    period = 3.5 ± 0.1 d [aa]\n    rv_amplitude > 30 m/s [zz]\n  }\n}\n",
+    )
+    .unwrap();
+    let before = declared(&[s(&file)]);
+    let limit = before
+        .iter()
+        .find(|r| r.contains(&("quantity".into(), "rv_amplitude".into())))
+        .expect("the lower limit has a row");
+    assert!(
+        limit.contains(&("limit".into(), "lower".into())),
+        "{limit:?}"
+    );
+    assert!(limit.contains(&("used".into(), "no".into())), "{limit:?}");
+    let table = dir.join("declared.csv");
+    std::fs::write(
+        &table,
+        run(&["eval", "--format", "csv", "--table", "sources", s(&file)]).stdout,
+    )
+    .unwrap();
+    let out = dir.join("out");
+    let o = run(&["import", s(&table), "-o", s(&out)]);
+    assert_eq!(o.status.code(), Some(0), "{}{}", stdout(&o), stderr(&o));
+    let written = std::fs::read_to_string(out.join("narrowdale.syz")).unwrap();
+    assert!(
+        written.contains("\"Harl 2031 | zz: Fenwick 2030 (erratum)\""),
+        "{written}"
+    );
+    assert!(
+        written.contains("Marrowby et al. 2033, A\\\\&A"),
+        "{written}"
+    );
+    let words: Vec<&str> = written.split_whitespace().collect();
+    assert!(
+        words
+            .windows(4)
+            .any(|w| w == ["rv_amplitude", ">", "30", "m/s"]),
+        "{written}"
+    );
+    assert_eq!(declared(&[s(&out)]), before);
+}

@@ -117,8 +117,15 @@ impl<'m> Derivation<'m> {
                 };
                 if !usable {
                     self.diagnostics.push(
-                        Diagnostic::new(Rule::NotDerivable, decl.span, format!("the lower limit on '{}' is not used in derivations", def.name))
-                            .with_note("a lower limit without an upper physical bound has no distribution to sample; derived values that need it are not computed"),
+                        Diagnostic::new(
+                            Rule::NotDerivable,
+                            decl.span,
+                            format!(
+                                "the lower limit on '{}' is not used in derivations",
+                                def.name
+                            ),
+                        )
+                        .with_note(super::summary::UNUSED_LOWER_LIMIT),
                     );
                     continue;
                 }

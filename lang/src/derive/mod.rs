@@ -405,5 +405,11 @@ pub fn has_default(q: Qty) -> bool {
     inputs::default_for(q).is_some()
 }
 
+/// The default the engine takes for `q` when it is not declared (SI), with the words its
+/// assumption lines use.
+pub fn default_of(q: Qty) -> Option<(f64, &'static str)> {
+    inputs::default_for(q)
+}
+
 #[cfg(test)]
 mod tests;

@@ -3,6 +3,9 @@
 
 use super::*;
 
+/// Why a declared lower limit feeds no derivation (said by its result and its diagnostic).
+pub(super) const UNUSED_LOWER_LIMIT: &str = "not used in derivations: a lower limit without an upper physical bound has no distribution to sample, so derived values that need it are not computed";
+
 /// One quantity of one body as reported.
 #[derive(Debug, Clone, PartialEq)]
 pub struct QuantityResult {
@@ -58,6 +61,11 @@ pub struct SourceResult {
 }
 
 impl QuantityResult {
+    /// Whether this is a declared value the derivations could not use (its note says why).
+    pub fn unused(&self) -> bool {
+        self.notes.iter().any(|n| n == UNUSED_LOWER_LIMIT)
+    }
+
     /// Whether a Monte Carlo value's median and ends are fixed to the second significant
     /// digit of its standard uncertainty, the mean of its two sides (JCGM 101:2008 7.9.2 with
     /// n_dig = 2). Values not from samples are.
@@ -137,32 +145,30 @@ impl<'m> Derivation<'m> {
                 let decl = body.get(def.qty);
                 if let Some(d) = decl {
                     if let Content::Text(t) = &d.content {
-                        quantities.push(QuantityResult {
-                            qty: def.qty,
-                            origin: Origin::of(d),
-                            value: f64::NAN,
-                            below: 0.0,
-                            above: 0.0,
-                            form: Form::Exact,
+                        let text = QuantityResult {
                             text: Some(t.clone()),
-                            rule: None,
-                            formula: None,
-                            inputs: Vec::new(),
-                            citations: d.citations.iter().map(|c| c.0.clone()).collect(),
-                            cited: sorted_ids(&d.citations),
-                            span: Some(InSystem::of(d.span, self.sys.span)),
-                            budget: Vec::new(),
-                            assumptions: d.set.iter().cloned().collect(),
-                            notes: Vec::new(),
-                            unit: None,
-                            sources: Vec::new(),
-                            choice: None,
-                            precision: None,
-                        });
+                            ..self.as_declared(
+                                d,
+                                &Measurement {
+                                    value: f64::NAN,
+                                    below: 0.0,
+                                    above: 0.0,
+                                    form: Form::Exact,
+                                },
+                            )
+                        };
+                        quantities.push(text);
                         continue;
                     }
                 }
                 let Some(entry) = self.entries.get(&key) else {
+                    // A declared value the derivations could not use (a lower limit with no
+                    // upper bound to sample up to) is still reported, with the reason.
+                    if let Some(d) = decl {
+                        if let Content::Measured(m) = &d.content {
+                            quantities.push(self.unused_result(d, m));
+                        }
+                    }
                     continue;
                 };
                 // A default that a result used is shown, except a spread of orientations,
@@ -178,6 +184,41 @@ impl<'m> Derivation<'m> {
         SystemResult {
             bodies,
             alternatives: self.alternatives(),
+        }
+    }
+
+    /// A declared measurement that feeds no derivation, as reported: its value as declared
+    /// and a note that says why it is not used.
+    fn unused_result(&self, d: &model::Declared, m: &Measurement) -> QuantityResult {
+        QuantityResult {
+            notes: vec![UNUSED_LOWER_LIMIT.to_string()],
+            ..self.as_declared(d, m)
+        }
+    }
+
+    /// A declaration reported as written, with nothing derived about it.
+    fn as_declared(&self, d: &model::Declared, m: &Measurement) -> QuantityResult {
+        QuantityResult {
+            qty: d.qty,
+            origin: Origin::of(d),
+            value: m.value,
+            below: m.below,
+            above: m.above,
+            form: m.form,
+            text: None,
+            rule: None,
+            formula: None,
+            inputs: Vec::new(),
+            citations: d.citations.iter().map(|c| c.0.clone()).collect(),
+            cited: sorted_ids(&d.citations),
+            span: Some(InSystem::of(d.span, self.sys.span)),
+            budget: Vec::new(),
+            assumptions: d.set.iter().cloned().collect(),
+            notes: Vec::new(),
+            unit: None,
+            sources: Vec::new(),
+            choice: None,
+            precision: None,
         }
     }
 

@@ -32,7 +32,8 @@ pub fn hover(
     let text = match &o.symbol {
         Symbol::Quantity { system, body, qty } => with_method(
             quantity(a, *system, body, *qty, method)?,
-            body_of(*system, body).is_some_and(|r| r.get(*qty).is_some_and(has_number)),
+            body_of(*system, body)
+                .is_some_and(|r| r.get(*qty).is_some_and(|q| has_number(q) && !q.unused())),
         ),
         Symbol::Body { system, name } => with_method(
             body_table(a, *system, name, method)?,
@@ -450,8 +451,8 @@ mod tests {
     #[test]
     fn a_value_without_a_result_says_why_and_shows_no_method() {
         let h = hover_in(LIMITS, "mass > 0.5");
-        assert!(h.contains("a lower limit (`> 0.5 Mjup`)"), "{h}");
-        assert!(h.contains("not used for derivation"), "{h}");
+        assert!(h.contains("`> 0.5 Mjup` (declared)"), "{h}");
+        assert!(h.contains("not used in derivations"), "{h}");
         assert!(!h.contains("not declared"), "{h}");
         assert!(!h.contains("uncertainties:"), "no numbers, no method: {h}");
         let h = hover_in(LIMITS, "radius = sqrt");

@@ -239,10 +239,28 @@ impl<'a> Inputs<'a> {
             };
             return Ok(value::draw(&m, 0.0, turn, n, seed).to_vec());
         }
-        let r = self
-            .result(q)
-            .filter(|r| r.value.is_finite())
-            .ok_or_else(|| format!("'{}' is neither declared nor derivable", def.name))?;
+        if let Some(r) = self.result(q).filter(|r| r.unused()) {
+            return Err(format!(
+                "'{}' is declared only as a lower limit ({}), which has no upper bound to draw up to; give a measurement or an upper limit",
+                def.name,
+                crate::report::value_text(r)
+            ));
+        }
+        let Some(r) = self.result(q).filter(|r| r.value.is_finite()) else {
+            // A default no derived value happened to use (an eccentricity on a planet whose
+            // other values do not need one) is still the engine's default.
+            let (v, words) = crate::derive::default_of(q)
+                .ok_or_else(|| format!("'{}' is neither declared nor derivable", def.name))?;
+            if !self.assumptions.iter().any(|a| a == words) {
+                self.assumptions.push(words.to_string());
+            }
+            self.shown.push(format!(
+                "{} = {} (default)",
+                def.name,
+                crate::format::number(v)
+            ));
+            return Ok(vec![v; n]);
+        };
         for a in &r.assumptions {
             if !self.assumptions.contains(a) {
                 self.assumptions.push(a.clone());

@@ -570,12 +570,9 @@ fn routes_missing(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<String
     use crate::derive::rules::{predicts, Slot, RULES};
     let sys = a.model.systems.get(si)?;
     let body = sys.bodies.get(bi)?;
-    let has = |b: usize, q: Qty| {
-        a.results
-            .get(si)
-            .and_then(|r| r.bodies.get(b))
-            .is_some_and(|r| r.get(q).is_some())
-    };
+    let result = |b: usize, q: Qty| a.results.get(si)?.bodies.get(b)?.get(q);
+    // A declared lower limit the derivations cannot use is no value either.
+    let has = |b: usize, q: Qty| result(b, q).is_some_and(|r| !r.unused());
     let mut routes: Vec<(usize, u8, String)> = Vec::new();
     for rule in RULES.iter().filter(|r| !predicts(r.id)) {
         let output = match (rule.output, body.kind) {
@@ -599,7 +596,12 @@ fn routes_missing(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<String
                 None => format!("the host star's {}", quantities::def(q).name),
             };
             if !b.is_some_and(|b| has(b, q) || crate::derive::has_default(q)) {
-                lacking.push(name.clone());
+                let unusable = b.and_then(|b| result(b, q)).is_some_and(|r| r.unused());
+                lacking.push(if unusable {
+                    format!("{name} (a lower limit, which cannot be used)")
+                } else {
+                    name.clone()
+                });
             }
             inputs.push(name);
         }

@@ -255,7 +255,9 @@ fn described<'a>(model: &Model, ids: impl IntoIterator<Item = &'a String>) -> St
     let parts: Vec<String> = ids
         .into_iter()
         .map(|id| match model.refs.iter().find(|r| r.id == *id) {
-            Some(r) => format!("{id}: {}", r.text),
+            // A bar or backslash in a text is escaped, so the importer can tell it from
+            // the separator (`tables::own`).
+            Some(r) => format!("{id}: {}", r.text.replace('\\', "\\\\").replace('|', "\\|")),
             None => id.clone(),
         })
         .collect();
@@ -536,8 +538,9 @@ pub struct SourceRow<'a> {
     pub references: String,
     /// 1-based line of the declaration (0 when unknown).
     pub line: usize,
-    /// `yes` (the value used), `no` (another source was used), `combined` (the value used is
-    /// a weighted mean of the sources).
+    /// `yes` (the value used), `no` (another source was used, or the value cannot be: a
+    /// lower limit without an upper bound), `combined` (the value used is a weighted mean of
+    /// the sources).
     pub used: &'static str,
 }
 
@@ -589,7 +592,7 @@ pub fn source_rows<'a>(a: &'a Analysis, line: &dyn Fn(u32) -> usize) -> Vec<Sour
                     refs: q.citations.join("; "),
                     references: described(&a.model, &q.citations),
                     line: q.span.map_or(0, |s| line(s.in_file(sys.span).start)),
-                    used: "yes",
+                    used: if q.unused() { "no" } else { "yes" },
                 };
                 if def.text {
                     row.text = q.text.as_deref().unwrap_or("");

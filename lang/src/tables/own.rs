@@ -144,12 +144,8 @@ pub fn import_sources(source: &mut dyn RowSource, table: &str) -> Result<ImportR
         let Some(sys) = systems.get_mut(si) else {
             continue;
         };
-        for entry in cell("references").split(" | ").filter(|e| !e.is_empty()) {
-            if let Some((id, text)) = entry.split_once(": ") {
-                sys.refs
-                    .entry(syzygy_name(id, "ref"))
-                    .or_insert_with(|| text.to_string());
-            }
+        for (id, text) in reference_texts(cell("references")) {
+            sys.refs.entry(syzygy_name(&id, "ref")).or_insert(text);
         }
         let id = syzygy_name(body_name, kind.as_str());
         let bi = match sys.bodies.iter().position(|b| b.id == id && b.kind == kind) {
@@ -313,5 +309,66 @@ fn system_text(s: &System, table: &str) -> SystemText {
         system: s.name.clone(),
         stem: file_stem(&s.name),
         text,
+    }
+}
+
+/// The `(id, text)` pairs of a `references` cell: `id: text` entries (a bare `id` for a
+/// reference with no text) joined by ` | `, with `\|` and `\\` in a text standing for a
+/// bar and a backslash (see `output::table`); any other backslash is kept as written.
+fn reference_texts(cell: &str) -> Vec<(String, String)> {
+    let mut entries = vec![String::new()];
+    let mut chars = cell.chars().peekable();
+    while let Some(c) = chars.next() {
+        let mut ahead = chars.clone();
+        let pushed = match (c, ahead.next(), ahead.next()) {
+            ('\\', Some(next @ ('|' | '\\')), _) => {
+                chars.next();
+                next
+            }
+            (' ', Some('|'), Some(' ')) => {
+                chars = ahead;
+                entries.push(String::new());
+                continue;
+            }
+            _ => c,
+        };
+        if let Some(e) = entries.last_mut() {
+            e.push(pushed);
+        }
+    }
+    entries
+        .iter()
+        .filter_map(|e| e.split_once(": "))
+        .map(|(id, text)| (id.to_string(), text.to_string()))
+        .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::reference_texts;
+
+    fn pairs(cell: &str) -> Vec<(String, String)> {
+        reference_texts(cell)
+    }
+
+    #[test]
+    fn reference_texts_may_hold_the_separator() {
+        let owned = |v: &[(&str, &str)]| -> Vec<(String, String)> {
+            v.iter()
+                .map(|(a, b)| (a.to_string(), b.to_string()))
+                .collect()
+        };
+        assert_eq!(
+            pairs(r"aa: Harl 2031 \| zz: Fenwick 2030 (erratum) | zz: Marrowby et al. 2033"),
+            owned(&[
+                ("aa", "Harl 2031 | zz: Fenwick 2030 (erratum)"),
+                ("zz", "Marrowby et al. 2033")
+            ])
+        );
+        // A bare id has no text; an escaped backslash is one; other backslashes stay.
+        assert_eq!(
+            pairs(r"x | y: A\&A 12 \\ 3|4"),
+            owned(&[("y", r"A\&A 12 \ 3|4")])
+        );
     }
 }
