@@ -125,7 +125,7 @@ impl<'m> Derivation<'m> {
                                 def.name
                             ),
                         )
-                        .with_note(super::summary::UNUSED_LOWER_LIMIT),
+                        .with_note(super::summary::UNUSABLE_LOWER_LIMIT),
                     );
                     continue;
                 }

@@ -3,8 +3,12 @@
 
 use super::*;
 
-/// Why a declared lower limit feeds no derivation (said by its result and its diagnostic).
-pub(super) const UNUSED_LOWER_LIMIT: &str = "not used in derivations: a lower limit without an upper physical bound has no distribution to sample, so derived values that need it are not computed";
+/// Why a declared lower limit feeds no derivation (said by its diagnostic, and after
+/// [`NOT_USED`] by its result).
+pub(super) const UNUSABLE_LOWER_LIMIT: &str = "a lower limit without an upper physical bound has no distribution to sample, so derived values that need it are not computed";
+
+/// How the note of a declared value the derivations cannot use starts.
+const NOT_USED: &str = "not used in derivations: ";
 
 /// One quantity of one body as reported.
 #[derive(Debug, Clone, PartialEq)]
@@ -63,7 +67,7 @@ pub struct SourceResult {
 impl QuantityResult {
     /// Whether this is a declared value the derivations could not use (its note says why).
     pub fn unused(&self) -> bool {
-        self.notes.iter().any(|n| n == UNUSED_LOWER_LIMIT)
+        self.notes.iter().any(|n| n.starts_with(NOT_USED))
     }
 
     /// Whether a Monte Carlo value's median and ends are fixed to the second significant
@@ -191,7 +195,7 @@ impl<'m> Derivation<'m> {
     /// and a note that says why it is not used.
     fn unused_result(&self, d: &model::Declared, m: &Measurement) -> QuantityResult {
         QuantityResult {
-            notes: vec![UNUSED_LOWER_LIMIT.to_string()],
+            notes: vec![format!("{NOT_USED}{UNUSABLE_LOWER_LIMIT}")],
             ..self.as_declared(d, m)
         }
     }

@@ -699,6 +699,9 @@ pub fn explain_text(a: &Analysis, si: usize, key: crate::derive::Key) -> Option<
             out.push_str(&format!("  - {s}\n"));
         }
     }
+    for note in &q.notes {
+        out.push_str(&format!("\nnote: {note}\n"));
+    }
     Some(out)
 }
 
