@@ -8,6 +8,10 @@ pub(super) fn rule_assumption(id: &str) -> Option<&'static str> {
         "depth-radius-ratio" | "radius-ratio-depth" => {
             "transit depth = (Rp/R*)^2: limb darkening neglected"
         }
+        "depth-impact-radius-ratio" => {
+            "transit depth = the fraction of the star's disc the planet covers at mid-transit \
+             ((Rp/R*)^2 unless grazing): limb darkening neglected"
+        }
         "kepler-third-law-min-mass" | "hill-radius-min-mass" => {
             "the minimum mass stands in for the true mass"
         }

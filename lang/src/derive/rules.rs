@@ -84,6 +84,9 @@ pub fn stands_in_for(id: &str) -> Option<Qty> {
         | "tsm-predicted-mass"
         | "predicted-radius-min-mass" => Some(Mass),
         "predicted-radius" => Some(Radius),
+        // sqrt(depth) takes the transit as not grazing, which only the impact parameter
+        // can tell (see `depth-impact-radius-ratio`).
+        "depth-radius-ratio" => Some(Impact),
         _ => None,
     }
 }
@@ -341,6 +344,17 @@ pub static RULES: &[RuleDef] = &[
         eval: |x| {
             args!(x, [d]);
             f::radius_ratio_from_depth(d)
+        },
+    },
+    RuleDef {
+        id: "depth-impact-radius-ratio",
+        formula: "depth = overlap of the planet's and the star's discs at separation b, over pi (no limb darkening): k = sqrt(depth) unless the transit is grazing (b > 1 - k)",
+        output: P(RadiusRatio),
+        inputs: &[P(TransitDepth), P(Impact)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [d, b]);
+            f::radius_ratio_from_depth_and_impact(d, b)
         },
     },
     RuleDef {

@@ -370,6 +370,9 @@ impl<'m> Derivation<'m> {
         if key.1 == Qty::HabitableZonePosition {
             notes.extend(self.habitable_note(key));
         }
+        if key.1 == Qty::RadiusRatio {
+            notes.extend(self.grazing_note(key, entry));
+        }
         let form = if form == Form::Asymmetric && ((above - below).abs() <= 1e-3 * above.max(below))
         {
             Form::Symmetric
@@ -457,6 +460,20 @@ impl<'m> Derivation<'m> {
 }
 
 impl Derivation<'_> {
+    /// On a grazing transit, what that means for the radius ratio: it was solved from the
+    /// depth and the impact parameter, and rests heavily on the latter.
+    fn grazing_note(&self, key: Key, entry: &Entry) -> Option<String> {
+        let b = self.entries.get(&(key.0, Qty::Impact))?.value.nominal;
+        let k = entry.value.nominal;
+        crate::physics::formulas::is_grazing(k, b).then(|| {
+            format!(
+                "grazing transit: the impact parameter {} exceeds 1 - k = {}, so only part of the planet's disc covers the star; k is solved from the depth and b (not sqrt(depth)) and rests heavily on b, and there is no full (T23) duration",
+                crate::format::sig(b, 3),
+                crate::format::sig(1.0 - k, 3)
+            )
+        })
+    }
+
     /// Where a planet lies against its star's habitable zones, as probabilities from the
     /// uncertainties of its insolation and of the zone's edges (their samples in Monte Carlo,
     /// a normal difference to first order).

@@ -452,9 +452,12 @@ pub fn transit_curve(
     // A radius ratio the engine read from the depth as k = sqrt(depth) (no limb darkening)
     // would make this limb-darkened curve deeper than the depth; it is solved again from the
     // depth with the law drawn here instead, so the dip is the depth.
-    let from_depth = inp
-        .result(Qty::RadiusRatio)
-        .is_some_and(|r| r.rule == Some("depth-radius-ratio"));
+    let from_depth = inp.result(Qty::RadiusRatio).is_some_and(|r| {
+        matches!(
+            r.rule,
+            Some("depth-radius-ratio" | "depth-impact-radius-ratio")
+        )
+    });
     let k_or_depth = if from_depth {
         inp.draws(Qty::TransitDepth, n, 21)?
     } else {

@@ -574,6 +574,8 @@ fn routes_missing(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<String
     // A declared lower limit the derivations cannot use is no value either.
     let has = |b: usize, q: Qty| result(b, q).is_some_and(|r| !r.unused());
     let mut routes: Vec<(usize, u8, String)> = Vec::new();
+    // Rules with every input that still gave no value (outside their formula's domain).
+    let mut failed: Vec<String> = Vec::new();
     for rule in RULES.iter().filter(|r| !predicts(r.id)) {
         let output = match (rule.output, body.kind) {
             (Slot::Planet(q), BodyKind::Planet) | (Slot::Star(q), BodyKind::Star) => q,
@@ -606,7 +608,8 @@ fn routes_missing(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<String
             inputs.push(name);
         }
         if lacking.is_empty() {
-            continue; // every input is there: the value failed for another reason
+            failed.push(rule.id.to_string());
+            continue;
         }
         let text = format!(
             "{} from {}, of which {} {} no value",
@@ -618,7 +621,24 @@ fn routes_missing(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<String
         routes.push((lacking.len(), rule.tier, text));
     }
     if routes.is_empty() {
-        return None;
+        if failed.is_empty() {
+            return None;
+        }
+        let value = |q: Qty| result(bi, q).map(|r| r.value);
+        let grazing = matches!(
+            (value(Qty::RadiusRatio), value(Qty::Impact)),
+            (Some(k), Some(b)) if crate::physics::formulas::is_grazing(k, b)
+        );
+        let why = if qty == Qty::TransitDurationFull && grazing {
+            ": the transit is grazing (b > 1 - k), so there is no second and third contact"
+        } else {
+            " (outside the formula's domain)"
+        };
+        return Some(format!(
+            "{} {} every input but gives no value at these inputs{why}",
+            crate::text::and_list(&failed),
+            if failed.len() == 1 { "has" } else { "have" }
+        ));
     }
     routes.sort_by(|x, y| (x.0, x.1).cmp(&(y.0, y.1)).then_with(|| x.2.cmp(&y.2)));
     let shown: Vec<String> = routes.into_iter().take(3).map(|r| r.2).collect();
@@ -772,6 +792,22 @@ mod tests {
     fn explain(qty: Qty) -> String {
         let a = crate::analyze(FileId(0), SRC, &crate::Settings::linear());
         explain_text(&a, 0, (1, qty)).unwrap()
+    }
+
+    #[test]
+    fn a_grazing_transit_says_so_and_why_it_has_no_full_duration() {
+        let src = "system \"S\" {\n star s { mass = 1.1 ± 0.04 Msun; radius = 1.2 ± 0.03 Rsun }\n planet b orbits s {\n  period = 3.9 ± 0.0002 d\n  transit_depth = 0.8 ± 0.05 %\n  impact = 1.02 ± 0.02\n }\n}\n";
+        let a = crate::analyze(FileId(0), src, &crate::Settings::linear());
+        let k = a.results[0].bodies[1].get(Qty::RadiusRatio).unwrap();
+        assert_eq!(k.rule, Some("depth-impact-radius-ratio"));
+        assert!(
+            k.notes.iter().any(|n| n.starts_with("grazing transit")),
+            "{:?}",
+            k.notes
+        );
+        let why = missing_text(&a, 0, 1, Qty::TransitDurationFull);
+        assert!(why.contains("the transit is grazing"), "{why}");
+        assert!(!why.contains("no rule derives it"), "{why}");
     }
 
     #[test]

@@ -763,3 +763,44 @@ mod transit_inverse {
         assert!(scaled_axis_from_duration(p, hours(2.0), 0.1, 1.2, 0.0, deg(90.0)).is_none());
     }
 }
+
+/// The area two discs of radii 1 and `k` share at centre separation `b`, over pi: the
+/// fraction of a uniform star the planet hides (Mandel & Agol 2002, eq. 1), written out here
+/// from the circle–circle intersection (common practice) rather than taken from the code.
+fn covered_fraction(k: f64, b: f64) -> f64 {
+    if b >= 1.0 + k {
+        return 0.0;
+    }
+    if b <= 1.0 - k {
+        return k * k;
+    }
+    let kappa0 = ((k * k + b * b - 1.0) / (2.0 * k * b)).acos();
+    let kappa1 = ((1.0 - k * k + b * b) / (2.0 * b)).acos();
+    let lens = (4.0 * b * b - (1.0 + b * b - k * k).powi(2)).sqrt() / 2.0;
+    (k * k * kappa0 + kappa1 - lens) / PI
+}
+
+#[test]
+fn grazing_transits_need_a_larger_radius_ratio_than_sqrt_depth() {
+    // Not grazing: exactly sqrt(depth), whatever b.
+    for (depth, b) in [(0.01, 0.0), (0.01, 0.89), (8.4e-5, 0.99)] {
+        let k = radius_ratio_from_depth_and_impact(depth, b).unwrap();
+        assert_eq!(k, depth.sqrt(), "depth {depth}, b {b}");
+        assert!(!is_grazing(k, b));
+    }
+    // Grazing: the k whose covered fraction at b is the depth, larger than sqrt(depth).
+    for (depth, b) in [(0.008, 0.95), (0.008, 1.02), (0.002, 1.0), (0.01, 1.05)] {
+        let k = radius_ratio_from_depth_and_impact(depth, b).unwrap();
+        assert!(is_grazing(k, b), "depth {depth}, b {b}, k {k}");
+        assert!(k > depth.sqrt());
+        let back = covered_fraction(k, b);
+        assert!((back - depth).abs() < 1e-9 * depth, "{back} vs {depth}");
+    }
+    // A depth of 0.8 % at b = 1.02 needs k = 0.1421, where sqrt(depth) = 0.0894 would make
+    // the planet 37 % too small.
+    let k = radius_ratio_from_depth_and_impact(0.008, 1.02).unwrap();
+    assert!((k - 0.1421).abs() < 5e-4, "{k}");
+    // No depth outside (0, 1], no b that is not a number.
+    assert!(radius_ratio_from_depth_and_impact(1.2, 0.5).is_none());
+    assert!(radius_ratio_from_depth_and_impact(0.01, f64::NAN).is_none());
+}

@@ -31,6 +31,36 @@ pub fn radius_ratio_from_depth(depth: f64) -> Option<f64> {
     finite_f64(depth.sqrt())
 }
 
+/// Radius ratio from the transit depth and the impact parameter, without limb darkening: the
+/// depth is the fraction of the star's disc the planet's disc covers at mid-transit, their
+/// overlap area over pi at separation `b` (Mandel & Agol 2002, eq. 1). While the planet's
+/// disc lies wholly on the star's (`b <= 1 - k`) that is `k^2`, so `k = sqrt(depth)` as in
+/// [`radius_ratio_from_depth`]; on a grazing transit (`b > 1 - k`) only part of the disc
+/// covers the star, so the same depth needs a larger `k`, solved numerically. `None` for a
+/// depth outside `(0, 1]` or a `b` that is not a number.
+pub fn radius_ratio_from_depth_and_impact(depth: f64, impact: f64) -> Option<f64> {
+    let k = radius_ratio_from_depth(depth)?;
+    let b = impact.abs();
+    if !b.is_finite() {
+        return None;
+    }
+    if b <= 1.0 - k {
+        return Some(k);
+    }
+    crate::physics::lightcurve::radius_ratio_for_depth(
+        depth,
+        b,
+        crate::physics::lightcurve::LimbDarkening::NONE,
+    )
+}
+
+/// Whether a transit of radius ratio `k` at impact parameter `b` is grazing: the planet's
+/// disc is not wholly on the star's at mid-transit (`b > 1 - k`; Winn 2010 sec. 2.2), so
+/// there is no second and third contact.
+pub fn is_grazing(radius_ratio: f64, impact: f64) -> bool {
+    impact.abs() > 1.0 - radius_ratio
+}
+
 /// An orbit's eccentricity with `e sin omega`, the eccentric term of Winn 2010 eqs. 7 and 16,
 /// computed once for the formulas that use it (a transit duration needs it twice, the
 /// transiting axis once per round): exactly 0 on a circular orbit without computing the sine
