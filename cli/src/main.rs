@@ -182,10 +182,16 @@ fn parse_sigma(s: &str) -> Result<f64, String> {
 }
 
 fn parse_rule(s: &str) -> Result<Rule, String> {
-    Rule::from_id(s).ok_or_else(|| {
+    let rule = Rule::from_id(s).ok_or_else(|| {
         let ids: Vec<&str> = Rule::ALL.iter().map(|r| r.id()).collect();
         format!("unknown rule '{s}'; the rules are: {}", ids.join(", "))
-    })
+    })?;
+    if rule.is_fixed() {
+        return Err(format!(
+            "'{s}' cannot be changed: a syntax error or an unreadable file means values were not read, so it is always an error"
+        ));
+    }
+    Ok(rule)
 }
 
 impl EngineArgs {

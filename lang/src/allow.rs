@@ -124,7 +124,11 @@ pub fn apply_in(
         let mut silenced = false;
         for a in &allows {
             for (id, _) in &a.rules {
-                if d.rule != Rule::UnusedAllow && a.covers == Some(line) && id == d.rule.id() {
+                if d.rule != Rule::UnusedAllow
+                    && !d.rule.is_fixed()
+                    && a.covers == Some(line)
+                    && id == d.rule.id()
+                {
                     silenced = true;
                     if let Some(u) = used.get_mut(slot) {
                         *u = true;
@@ -145,7 +149,17 @@ pub fn apply_in(
             if was_used {
                 continue;
             }
-            if Rule::from_id(id).is_none() {
+            if let Some(rule) = Rule::from_id(id).filter(|r| r.is_fixed()) {
+                out.push(
+                    Diagnostic::new(
+                        Rule::UnusedAllow,
+                        *span,
+                        format!("'{}' cannot be silenced, so this comment silences nothing", rule.id()),
+                    )
+                    .with_note("a syntax error or an unreadable file means values were not read; silencing it would make them disappear without a word")
+                    .with_help("fix the error instead, and remove the comment"),
+                );
+            } else if Rule::from_id(id).is_none() {
                 let mut d = Diagnostic::new(
                     Rule::UnusedAllow,
                     *span,
@@ -226,6 +240,37 @@ mod tests {
             "    # allow(unit-mismatch): testing\n    # another comment\n    period",
         );
         assert_eq!(analyze(&src), []);
+    }
+
+    #[test]
+    fn a_syntax_error_cannot_be_silenced() {
+        // The mass is not read (a decimal comma): silencing that would lose it silently.
+        let src = "system \"Pellomar\" {\n  star p {\n    mass = 1,05 ± 0.04 Msun  # allow(syntax): reason\n  }\n}\n";
+        let a = crate::analyze(FileId(0), src, &crate::Settings::linear());
+        let rules: Vec<&str> = a.diagnostics.iter().map(|d| d.rule.id()).collect();
+        assert!(rules.contains(&"syntax"), "{rules:?}");
+        let unused = a
+            .diagnostics
+            .iter()
+            .find(|d| d.rule == Rule::UnusedAllow)
+            .expect("the comment is pointed out");
+        assert!(
+            unused.message.contains("'syntax' cannot be silenced"),
+            "{}",
+            unused.message
+        );
+        // Nor does the editor offer to.
+        let d = a
+            .diagnostics
+            .iter()
+            .find(|d| d.rule == Rule::Syntax)
+            .unwrap();
+        let actions = crate::ide::actions::actions(&a, src, d.span.range());
+        assert!(
+            actions.iter().all(|x| !x.title.starts_with("Silence")),
+            "{:?}",
+            actions.iter().map(|x| &x.title).collect::<Vec<_>>()
+        );
     }
 
     #[test]

@@ -51,6 +51,13 @@ macro_rules! rules {
             pub fn from_id(id: &str) -> Option<Rule> {
                 match id { $( $id => Some(Rule::$variant), )* _ => None }
             }
+
+            /// Whether the rule keeps its severity whatever the user asks: a syntax error or
+            /// an unreadable file means values were not read at all, so silencing it would
+            /// make them disappear without a word.
+            pub fn is_fixed(self) -> bool {
+                matches!(self, Rule::Syntax | Rule::Io)
+            }
         }
     };
 }
@@ -175,7 +182,7 @@ pub fn apply_overrides(diags: &mut Vec<Diagnostic>, overrides: &[SeverityOverrid
         return;
     }
     diags.retain_mut(|d| {
-        if matches!(d.rule, Rule::Syntax | Rule::Io) {
+        if d.rule.is_fixed() {
             return true;
         }
         match overrides.iter().rev().find(|(r, _)| *r == d.rule) {

@@ -141,6 +141,11 @@ fn parse(text: &str) -> Result<Layer, String> {
                 None => format!("[rules]: unknown rule '{id}'"),
             }
         })?;
+        if rule.is_fixed() {
+            return Err(format!(
+                "[rules]: '{id}' cannot be changed: a syntax error or an unreadable file means values were not read, so it is always an error"
+            ));
+        }
         let severity = match level.as_str() {
             "error" => Some(Severity::Error),
             "warning" => Some(Severity::Warning),
@@ -458,6 +463,17 @@ mod tests {
         assert_eq!((o.samples, o.seed, o.consistency_sigma), (500, 9, 5.0));
         assert_eq!(o.consistency_error_sigma, 8.0);
         assert_eq!(Settings::default().options.consistency_error_sigma, 5.0);
+    }
+
+    #[test]
+    fn syntax_and_io_cannot_be_changed() {
+        for id in ["syntax", "io"] {
+            let e = layer(&format!("[rules]\n{id} = \"off\"\n")).unwrap_err();
+            assert!(
+                e.reason.contains(&format!("'{id}' cannot be changed")),
+                "{e}"
+            );
+        }
     }
 
     #[test]

@@ -69,7 +69,7 @@ pub fn actions(a: &Analysis, src: &str, range: std::ops::Range<usize>) -> Vec<Ac
                 fixes: Some(i),
             });
         }
-        if d.rule != Rule::UnusedAllow {
+        if d.rule != Rule::UnusedAllow && !d.rule.is_fixed() {
             out.push(silence(a, src, d, i));
         }
     }
