@@ -600,6 +600,7 @@ fn value_change(
     let (Some(o), Some(n)) = (old, new) else {
         return Some(change);
     };
+    change.notes.extend(source_notes(o, n));
     let numbers = |v: &ValueSnapshot| (v.value, v.below, v.above);
     let unchanged = same_number(o.value, n.value)
         && same_number(o.below, n.below)
@@ -629,6 +630,44 @@ fn value_change(
         None => true,
     };
     Some(change)
+}
+
+/// The declarations of a declared value as people read them (`10.0030 ± 0.0010 d [b]`), without
+/// saying which is used: every source of a quantity declared several times, else the one.
+fn declarations(v: &ValueSnapshot) -> Vec<String> {
+    if !v.sources.is_empty() {
+        return v
+            .sources
+            .iter()
+            .map(|s| s.trim_end_matches(" (used)").to_string())
+            .collect();
+    }
+    if !v.is_declared() {
+        return Vec::new();
+    }
+    if v.citations.is_empty() {
+        vec![v.shown.clone()]
+    } else {
+        vec![format!("{} [{}]", v.shown, v.citations.join(", "))]
+    }
+}
+
+/// The declarations added to and removed from a value between its versions: a source added
+/// beside the one used changes no number shown, and would otherwise go unmentioned.
+fn source_notes(old: &ValueSnapshot, new: &ValueSnapshot) -> Vec<String> {
+    let (before, after) = (declarations(old), declarations(new));
+    let mut left = before.clone();
+    let mut notes = Vec::new();
+    for d in &after {
+        match left.iter().position(|x| x == d) {
+            Some(i) => {
+                left.remove(i);
+            }
+            None => notes.push(format!("source added: {d}")),
+        }
+    }
+    notes.extend(left.iter().map(|d| format!("source removed: {d}")));
+    notes
 }
 
 /// Diagnostics on one side only; one said twice on one side and once on the other counts once.

@@ -177,3 +177,31 @@ fn a_symmetric_and_an_asymmetric_interval_compare_in_sigma() {
     assert!((s + 0.052 / 0.072f64.hypot(0.070)).abs() < 1e-9, "{s}");
     assert!(!change.significant);
 }
+
+/// A source added beside the one used changes no number shown; the change says what was
+/// added, and a source taken away is said too.
+#[test]
+fn sources_added_and_removed_are_named() {
+    let one = ValueSnapshot {
+        citations: vec!["a".into()],
+        ..value("period", Origin::Declared, 10.0021, 0.0002)
+    };
+    let two = ValueSnapshot {
+        sources: vec![
+            "10.0021 ± 0.0002 [a] (used)".into(),
+            "10.003 ± 0.001 [b]".into(),
+        ],
+        ..one.clone()
+    };
+    let options = DiffOptions {
+        threshold: 1.0,
+        all: false,
+    };
+    let c = value_change(Some("b"), Some(&one), Some(&two), options).unwrap();
+    assert_eq!(c.kind, ChangeKind::DeclaredChanged);
+    assert_eq!(c.notes, vec!["source added: 10.003 ± 0.001 [b]"]);
+    let back = value_change(Some("b"), Some(&two), Some(&one), options).unwrap();
+    assert_eq!(back.notes, vec!["source removed: 10.003 ± 0.001 [b]"]);
+    // Nothing changed, nothing said.
+    assert!(value_change(Some("b"), Some(&two), Some(&two), options).is_none());
+}
