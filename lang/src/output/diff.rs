@@ -655,6 +655,9 @@ fn declarations(v: &ValueSnapshot) -> Vec<String> {
 /// The declarations added to and removed from a value between its versions: a source added
 /// beside the one used changes no number shown, and would otherwise go unmentioned.
 fn source_notes(old: &ValueSnapshot, new: &ValueSnapshot) -> Vec<String> {
+    if old.sources.is_empty() && new.sources.is_empty() {
+        return Vec::new(); // one declaration on each side: the change shows both
+    }
     let (before, after) = (declarations(old), declarations(new));
     let mut left = before.clone();
     let mut notes = Vec::new();

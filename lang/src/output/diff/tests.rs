@@ -202,6 +202,13 @@ fn sources_added_and_removed_are_named() {
     assert_eq!(c.notes, vec!["source added: 10.003 ± 0.001 [b]"]);
     let back = value_change(Some("b"), Some(&two), Some(&one), options).unwrap();
     assert_eq!(back.notes, vec!["source removed: 10.003 ± 0.001 [b]"]);
+    // One declaration on each side: the change itself shows both.
+    let other = ValueSnapshot {
+        shown: "10.1 ± 0.0002".into(),
+        ..value("period", Origin::Declared, 10.1, 0.0002)
+    };
+    let c = value_change(Some("b"), Some(&one), Some(&other), options).unwrap();
+    assert!(c.notes.is_empty(), "{:?}", c.notes);
     // Nothing changed, nothing said.
     assert!(value_change(Some("b"), Some(&two), Some(&two), options).is_none());
 }
