@@ -221,11 +221,23 @@ impl Plan {
     pub fn new(m: &Mapping, columns: &[super::Column]) -> Result<Plan, MappingError> {
         let mut used = vec![false; columns.len()];
         let mut find = |name: &str, what: &str| -> Result<usize, MappingError> {
-            let i = columns.iter().position(|c| c.name == name).ok_or_else(|| {
+            let mut named = columns
+                .iter()
+                .enumerate()
+                .filter(|(_, c)| c.name == name)
+                .map(|(i, _)| i);
+            let i = named.next().ok_or_else(|| {
                 MappingError(format!(
                     "the mapping's {what} column `{name}` is not in the table's header"
                 ))
             })?;
+            if let Some(j) = named.next() {
+                return Err(MappingError(format!(
+                    "the table's header names two columns `{name}` (columns {} and {}), so the mapping's {what} column could be either: rename one in the header",
+                    i + 1,
+                    j + 1
+                )));
+            }
             if let Some(u) = used.get_mut(i) {
                 *u = true;
             }
@@ -307,8 +319,15 @@ impl Plan {
         let unmapped = columns
             .iter()
             .zip(&used)
-            .filter(|(_, u)| !**u)
-            .map(|(c, _)| c.name.clone())
+            .enumerate()
+            .filter(|(_, (_, u))| !**u)
+            .map(|(i, (c, _))| {
+                if c.name.trim().is_empty() {
+                    format!("column {} (no name in the header)", i + 1)
+                } else {
+                    c.name.clone()
+                }
+            })
             .collect();
         Ok(Plan {
             system,
@@ -418,14 +437,16 @@ fn check_value_text(kind: BodyKind, def: &QuantityDef, text: &str) -> Result<(),
         .filter(|d| d.severity == crate::diagnostic::Severity::Error)
         .map(|d| d.message.clone())
         .collect();
-    if text.contains('\n') || text.contains('}') || !errors.is_empty() {
+    // One value: a ';' would start another declaration, a '#' a comment the file would keep.
+    let more_than_a_value = text.contains(['\n', '\r', '{', '}', ';', '#']);
+    if more_than_a_value || !errors.is_empty() {
         return Err(MappingError(format!(
             "constant {}.{} = \"{}\" is not a value Syzygy reads: {}",
             kind.as_str(),
             def.name,
             text.trim(),
             if errors.is_empty() {
-                "one line, no braces".to_string()
+                "one value, on one line, with no ';', '#' or braces".to_string()
             } else {
                 errors.join("; ")
             }

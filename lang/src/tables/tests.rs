@@ -215,6 +215,36 @@ fn extra_cells_and_unmapped_columns_are_reported() {
 }
 
 #[test]
+fn a_mapped_column_named_twice_is_refused_and_a_nameless_one_is_named_by_position() {
+    let m = Mapping::from_toml(
+        "[bodies]\nsystem = \"sys\"\nplanet = \"pl\"\n[planet.period]\nvalue = \"per\"\nunit = \"d\"\n",
+    )
+    .unwrap();
+    let t = CsvTable::new(
+        "sys,pl,per,per\nQuorlin,b,3,4\n".as_bytes(),
+        m.delimiter,
+        Limits::default(),
+    )
+    .unwrap();
+    let e = Importer::new(&m, t.columns(), "t.csv").err().unwrap();
+    assert!(
+        e.to_string()
+            .contains("two columns `per` (columns 3 and 4)"),
+        "{e}"
+    );
+    let csv = "sys,pl,per,\nQuorlin,b,3,4\n";
+    let mut t = CsvTable::new(csv.as_bytes(), m.delimiter, Limits::default()).unwrap();
+    let mut imp = Importer::new(&m, t.columns(), "t.csv").unwrap();
+    while let Some(r) = t.next_row().unwrap() {
+        imp.add_row(&r);
+    }
+    assert_eq!(
+        imp.finish().unmapped,
+        vec!["column 4 (no name in the header)".to_string()]
+    );
+}
+
+#[test]
 fn separators_quotes_and_comments() {
     let m = "[bodies]\nsystem = \"s\"\n[star.mass]\nvalue = \"m\"\nunit = \"Msun\"\n";
     for sep in [";", "\t", ","] {
@@ -279,6 +309,13 @@ fn mapping_errors_say_what_is_wrong() {
         err("[bodies]\nsystem = \"sys\"\n[constants.star]\nmass = \"2 km\"")
             .contains("not a value Syzygy reads")
     );
+    // A second declaration or a comment smuggled into a constant.
+    for text in ["0.3 assumed ; eccentricity = 0.5", "0.3 # from a talk"] {
+        let e = err(&format!(
+            "[bodies]\nsystem = \"sys\"\n[constants.planet]\nalbedo = \"{text}\""
+        ));
+        assert!(e.contains("one value, on one line"), "{e}");
+    }
 }
 
 #[test]
