@@ -51,6 +51,7 @@ pub fn run(d: &Derivation, diags: &mut Vec<Diagnostic>) -> Vec<CompositionNote> 
                 }
                 object_class(d, bi, diags);
                 size_and_orbit(d, bi, diags);
+                implausible_planet(d, bi, diags);
                 transit_geometry(d, bi, diags);
                 no_prediction(d, bi, diags);
             }
@@ -236,6 +237,63 @@ fn object_class(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
                 format!("{name}'s {which} of {:.1} Mjup is above the deuterium-burning limit (about 13 Mjup): a brown dwarf rather than a planet", mass / M_JUPITER),
             )
             .with_note("the boundary is a convention of the trade (IAU working definition); objects near it are often listed in both classes"),
+        );
+    }
+}
+
+/// Largest planet radius not taken for a slip: the largest known planets, inflated hot
+/// Jupiters, reach about 2 Rjup (from memory; common practice), and a young giant may be
+/// somewhat larger.
+pub const LARGEST_PLANET_RADIUS: f64 = 2.5 * crate::constants::R_JUPITER;
+/// Least bulk density not taken for a slip, 0.01 g/cm^3 (SI): a third of the least dense
+/// planets known, the "super-puffs" at about 0.03 g/cm^3 (Libby-Roberts et al. 2020, AJ 159,
+/// 57: "densities below 0.1 g/cm^3"; the 0.03 from memory).
+pub const LEAST_PLANET_DENSITY: f64 = 10.0;
+
+/// A planet larger or less dense than any known: almost always a unit slip (a depth
+/// without a unit read as a fraction, a mass in Mearth meant as Mjup, a radius in Rjup
+/// meant as Rearth). A planet as large as its star is `larger-than-star` instead.
+fn implausible_planet(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
+    let Some(body) = d.sys.bodies.get(bi) else {
+        return;
+    };
+    let name = body.id.as_str();
+    let rp = nominal(d, (bi, Qty::Radius));
+    let rs = body.orbits.and_then(|h| nominal(d, (h, Qty::StarRadius)));
+    if let Some(rp) = rp.filter(|r| *r > LARGEST_PLANET_RADIUS && rs.is_none_or(|s| *r < s)) {
+        // A depth written without a unit is a fraction: 0.5 is 50 %.
+        let bare_depth = body.get(Qty::TransitDepth).is_some_and(|decl| {
+            decl.written_unit.is_none()
+                && matches!(&decl.content, crate::model::Content::Measured(m) if m.value >= 0.01)
+        });
+        let help = if bare_depth {
+            "the transit depth has no unit, so it is read as a fraction (0.5 is 50 %): write `%` or `ppm` after it if that is what the paper gives"
+        } else {
+            "check the transit depth's unit (a fraction, %, or ppm), the stellar radius, and a declared radius's unit (Rjup for Rearth?)"
+        };
+        diags.push(
+            Diagnostic::new(
+                Rule::ImplausiblePlanet,
+                anchor(d, bi, &[Qty::TransitDepth, Qty::RadiusRatio, Qty::Radius]),
+                format!(
+                    "{name}'s radius ({}) is larger than any known planet's: the largest reach about 2 Rjup",
+                    shown(Qty::Radius, rp)
+                ),
+            )
+            .with_help(help),
+        );
+    }
+    if let Some(rho) = nominal(d, (bi, Qty::Density)).filter(|r| *r < LEAST_PLANET_DENSITY) {
+        diags.push(
+            Diagnostic::new(
+                Rule::ImplausiblePlanet,
+                anchor(d, bi, &[Qty::Mass, Qty::MinMass, Qty::Radius, Qty::TransitDepth]),
+                format!(
+                    "{name}'s density ({}) is lower than any known planet's: the least dense known are about 0.03 g/cm^3",
+                    shown(Qty::Density, rho)
+                ),
+            )
+            .with_help("check the mass's unit (a mass in Mearth meant as Mjup is 318 times too small) and the radius's (Rjup meant as Rearth)"),
         );
     }
 }

@@ -95,6 +95,7 @@ rules! {
     TransitGeometry = "transit-geometry", Error, "A transit is declared but the impact parameter or inclination allows none.";
     CrossingOrbits = "crossing-orbits", Error, "Two planets of one star have orbits that cross.";
     UnstableSpacing = "unstable-spacing", Warning, "Neighbouring planets are closer than 2 sqrt(3) mutual Hill radii.";
+    ImplausiblePlanet = "implausible-planet", Warning, "The planet is larger or less dense than any known planet: usually a unit slip.";
     ImplausibleStar = "implausible-star", Warning, "No main-sequence or evolved star combines this mass, radius and temperature.";
     UnusedAllow = "unused-allow", Warning, "A silencing comment that no longer silences anything.";
     SystemInTwoFiles = "system-in-two-files", Warning, "A system of the same name is declared in another file of the catalogue.";

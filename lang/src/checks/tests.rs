@@ -327,3 +327,45 @@ fn implausible_star() {
     let ok = run(&format!("system \"Orveth\" {{ {STAR} }}"));
     assert!(ok.diagnostics.is_empty(), "{:#?}", ok.diagnostics);
 }
+
+#[test]
+fn planets_larger_or_lighter_than_any_known_are_pointed_out() {
+    let system = |planet: &str| {
+        format!("system \"S\" {{\n  star s {{ mass = 0.9 ± 0.04 Msun; radius = 0.9 ± 0.03 Rsun }}\n  planet b orbits s {{ period = 24 ± 0.01 d; {planet} }}\n}}\n")
+    };
+    let implausible = |src: &str| -> Vec<String> {
+        run(src)
+            .diagnostics
+            .iter()
+            .filter(|d| d.rule == Rule::ImplausiblePlanet)
+            .map(|d| format!("{} | {}", d.message, d.help.clone().unwrap_or_default()))
+            .collect()
+    };
+    // A mass in Mearth meant as Mjup: 0.0016 g/cm^3.
+    let found = implausible(&system(
+        "mass = 0.71 ± 0.05 Mearth; radius = 1.21 ± 0.04 Rjup",
+    ));
+    assert_eq!(found.len(), 1, "{found:?}");
+    assert!(
+        found[0].contains("lower than any known planet's"),
+        "{found:?}"
+    );
+    assert!(found[0].contains("Mearth meant as Mjup"), "{found:?}");
+    // A depth without a unit, meant in %: read as 50 %, a planet of several Rjup.
+    let found = implausible(&system("transit_depth = 0.5 ± 0.03"));
+    assert!(
+        found
+            .iter()
+            .any(|f| f.contains("larger than any known planet's")
+                && f.contains("read as a fraction")),
+        "{found:?}"
+    );
+    // The same depth in %: a giant of about 0.6 Rjup, nothing to say.
+    assert!(implausible(&system("transit_depth = 0.5 ± 0.03 %")).is_empty());
+    // A super-puff (0.05 g/cm^3) and an inflated hot Jupiter (2 Rjup) are planets.
+    assert!(implausible(&system(
+        "mass = 5.5 ± 0.5 Mearth; radius = 0.75 ± 0.03 Rjup"
+    ))
+    .is_empty());
+    assert!(implausible(&system("mass = 1.5 ± 0.1 Mjup; radius = 2.0 ± 0.1 Rjup")).is_empty());
+}
