@@ -58,8 +58,10 @@ pub fn mass_radius_points(analyses: &[Analysis]) -> (Vec<PlanetPoint>, Vec<Strin
                 let (Some(m), Some(rad)) = (r.get(Qty::Mass), r.get(Qty::Radius)) else {
                     let missing = if r.get(Qty::Radius).is_none() {
                         "no radius"
-                    } else {
+                    } else if r.get(Qty::MinMass).is_some() {
                         "no true mass (a minimum mass is not plotted)"
+                    } else {
+                        "no mass"
                     };
                     left_out.push(format!("{label}: {missing}"));
                     continue;
@@ -576,6 +578,22 @@ mod tests {
     }
 
     const SRC: &str = "system \"Ostrel\" {\n  star s { mass = 1 Msun; radius = 1 Rsun; teff = 5800 K }\n  planet b orbits s {\n    period = 4 ± 0.001 d\n    rv_amplitude = 60 ± 3 m/s\n    radius_ratio = 0.1 ± 0.002\n    impact = 0.3 ± 0.05\n  }\n}\n";
+
+    #[test]
+    fn a_planet_left_out_says_which_mass_it_lacks() {
+        // Without an RV amplitude there is no mass at all, not even a minimum one.
+        let src = SRC.replace("    rv_amplitude = 60 ± 3 m/s\n", "");
+        let (points, left_out) = mass_radius_points(&[analysis(&src)]);
+        assert!(points.is_empty());
+        assert_eq!(left_out, vec!["Ostrel b: no mass".to_string()]);
+        // Without the impact parameter there is a minimum mass only.
+        let src = SRC.replace("    impact = 0.3 ± 0.05\n", "");
+        let (_, left_out) = mass_radius_points(&[analysis(&src)]);
+        assert_eq!(
+            left_out,
+            vec!["Ostrel b: no true mass (a minimum mass is not plotted)".to_string()]
+        );
+    }
 
     #[test]
     fn a_planet_whose_mass_is_a_limit_is_plotted_at_the_limit() {
