@@ -116,17 +116,26 @@ impl<'m> Derivation<'m> {
                     _ => true,
                 };
                 if !usable {
-                    self.diagnostics.push(
-                        Diagnostic::new(
-                            Rule::NotDerivable,
-                            decl.span,
-                            format!(
-                                "the lower limit on '{}' is not used in derivations",
-                                def.name
-                            ),
-                        )
-                        .with_note(super::summary::UNUSABLE_LOWER_LIMIT),
-                    );
+                    let mut d = Diagnostic::new(
+                        Rule::NotDerivable,
+                        used.span,
+                        format!(
+                            "the lower limit on '{}' is not used in derivations",
+                            def.name
+                        ),
+                    )
+                    .with_note(super::summary::UNUSABLE_LOWER_LIMIT);
+                    let measured = body
+                        .sources(decl.qty)
+                        .iter()
+                        .any(|s| matches!(&s.content, Content::Measured(x) if !x.form.is_limit()));
+                    if measured {
+                        d = d.with_help(format!(
+                            "another declaration of '{}' is a measurement: take `preferred` off this limit (or choose the measurement) to use it",
+                            def.name
+                        ));
+                    }
+                    self.diagnostics.push(d);
                     continue;
                 }
                 let label = format!("{}.{}", body.id, def.name);

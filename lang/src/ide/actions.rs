@@ -281,6 +281,13 @@ fn choose_source(a: &Analysis, src: &str, offset: usize) -> Vec<Action> {
     let Some(this) = all.iter().find(|d| d.name_span == p.name.span) else {
         return Vec::new();
     };
+    // A lower limit with no upper bound cannot be used: choosing it would leave the
+    // quantity without a value for every derivation.
+    if let crate::model::Content::Measured(m) = &this.content {
+        if m.form == crate::model::Form::LowerLimit && !def.limits().1.is_finite() {
+            return Vec::new();
+        }
+    }
     // The marks on the declarations of this quantity, as written.
     let marks: Vec<(Span, Option<Span>)> = b
         .props
@@ -533,6 +540,33 @@ mod tests {
         let q = result(&a, 0, 1, quantities::Qty::Period).unwrap();
         assert!((q.value / 86400.0 - 10.0021).abs() < 1e-9, "{}", q.value);
         assert_eq!(q.choice, Some(crate::derive::Choice::Marked));
+    }
+
+    #[test]
+    fn a_lower_limit_that_cannot_be_used_is_not_offered_as_the_source() {
+        let src = "ref ta \"A\"\nref tb \"B\"\nsystem \"S\" {\n  star s {\n    teff = 5700 ± 90 K [ta]\n    teff > 5500 K [tb]\n  }\n}\n";
+        let (_, acts) = run(src, "5500");
+        assert!(titled(&acts, "Use this source").is_none());
+        // Marked by hand, its note sits on its own line and says how to use the measurement.
+        let marked = src.replace("[tb]", "[tb] preferred");
+        let a = crate::analyze(FileId(0), &marked, &crate::Settings::linear());
+        let d = a
+            .diagnostics
+            .iter()
+            .find(|d| d.rule == crate::diagnostic::Rule::NotDerivable)
+            .unwrap();
+        assert!(
+            marked[d.span.range()].starts_with("teff > 5500"),
+            "{}",
+            &marked[d.span.range()]
+        );
+        assert!(
+            d.help
+                .as_deref()
+                .unwrap_or("")
+                .contains("take `preferred` off"),
+            "{d:?}"
+        );
     }
 
     #[test]
