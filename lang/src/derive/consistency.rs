@@ -108,9 +108,26 @@ impl<'m> Derivation<'m> {
             .unwrap_or_default();
         let mut d = Diagnostic::new(Rule::Inconsistent, span, message)
             .with_help("check the units and the sources of these measurements; one of them may belong to another body or epoch");
+        if let Some(n) = self.shared(unit, &s.value, &l.value, sigma) {
+            d = d.with_note(n);
+        }
         self.grade(&mut d, z);
         let d = self.label_involved(d, span, &involved);
         self.diagnostics.push(d);
+    }
+
+    /// [`shared_note`] for two values.
+    fn shared(&self, unit: DisplayUnit, a: &Value, b: &Value, sigma: f64) -> Option<String> {
+        let own = |v: &Value| {
+            let (lo, hi) = v.linear_spread(&self.inputs);
+            (lo + hi) / 2.0
+        };
+        shared_note(
+            unit,
+            (a.nominal - b.nominal).abs(),
+            own(a).min(own(b)),
+            sigma,
+        )
     }
 
     fn declared_span(&self, k: Key) -> Option<Span> {
@@ -126,10 +143,12 @@ impl<'m> Derivation<'m> {
     /// units (1.3 Rjup against 0.37 Rjup, not against 4.2 Rearth).
     fn shown(&self, unit: DisplayUnit, v: &Value) -> String {
         let (lo, hi) = v.linear_spread(&self.inputs);
-        format!(
-            "{} {unit}",
-            crate::format::with_uncertainty(unit.of(v.nominal), unit.of(lo), unit.of(hi))
-        )
+        let number = crate::format::with_uncertainty(unit.of(v.nominal), unit.of(lo), unit.of(hi));
+        if unit.symbol == "1" {
+            number // a plain number (a/R*, an eccentricity) has no unit to show
+        } else {
+            format!("{number} {unit}")
+        }
     }
 
     /// `declared b.mass = ...`, or `b.mass = ... from inputs (rule)`, in `unit`.
@@ -185,6 +204,9 @@ impl<'m> Derivation<'m> {
         if let Some(r) = rule {
             d = d.with_note(format!("{}: {}", r.id, r.formula));
         }
+        if let Some(n) = self.shared(unit, &entry.value, &c.value, sigma) {
+            d = d.with_note(n);
+        }
         self.grade(&mut d, z);
         self.label_involved(d, span, involved)
     }
@@ -238,9 +260,37 @@ impl<'m> Derivation<'m> {
     }
 }
 
-/// A difference or uncertainty below this fraction of the values compared counts as none
-/// (rounding, not measurement).
-const NO_UNCERTAINTY: f64 = 1e-9;
+/// When two values that disagree share inputs whose uncertainties cancel in their difference
+/// (its uncertainty `sigma` well below `own`, the smaller of the values' own), they can look
+/// alike to the digits shown and still differ by many of the difference's standard
+/// deviations: the note gives the difference itself (SI in, shown in `unit`).
+pub(super) fn shared_note(
+    unit: DisplayUnit,
+    difference: f64,
+    own: f64,
+    sigma: f64,
+) -> Option<String> {
+    if !(sigma > 0.0 && sigma < 0.5 * own) {
+        return None;
+    }
+    let u = if unit.symbol == "1" {
+        String::new()
+    } else {
+        format!(" {unit}")
+    };
+    Some(format!(
+        "the two share inputs whose uncertainties cancel in their difference: they differ by {}{u}, and that difference is known to ± {}{u}, far better than either value",
+        crate::format::sig(unit.of(difference), 2),
+        crate::format::sig(unit.of(sigma), 2)
+    ))
+}
+
+/// A difference or uncertainty below this fraction of the values compared counts as none:
+/// rounding and the tolerance of the numerical solutions (the transiting planet's axis is
+/// iterated with its mass, and two routes through it agree to a few parts in 10^8), not
+/// measurement. Two routes that share every uncertain input can differ by that much while
+/// their difference has an uncertainty smaller still.
+const NO_UNCERTAINTY: f64 = 1e-6;
 
 /// How far apart two values are, for a message: `by 3.2 sigma`; or, when the difference has
 /// no uncertainty to weigh it by (every input both rest on is exact, so any difference
