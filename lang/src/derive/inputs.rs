@@ -36,9 +36,14 @@ impl<'m> Derivation<'m> {
         hi: f64,
     ) -> Value {
         let id = u32::try_from(self.inputs.len()).unwrap_or(u32::MAX);
-        if m.form.is_limit() && self.pinned.contains(&label) {
-            // Evaluated at its limit (see `validity::bound_where_limited`).
-            return Value::exact(m.value, self.n());
+        if let Some(at) = self.pinned.get(&label).filter(|_| m.form.is_limit()) {
+            // Evaluated at one end of its range (see `validity::bound_where_limited`).
+            let v = match (at, m.form) {
+                (super::PinAt::OtherEnd, Form::UpperLimit) => lo,
+                (super::PinAt::OtherEnd, _) => hi,
+                (super::PinAt::Limit, _) => m.value,
+            };
+            return Value::exact(v, self.n());
         }
         let (below, above) = match m.form {
             Form::UpperLimit | Form::LowerLimit => {

@@ -192,9 +192,9 @@ pub struct Derivation<'m> {
     /// In first-order mode, Monte Carlo results for the values first order cannot
     /// describe (see [`validity`]).
     sampled: Option<validity::Sampled<'m>>,
-    /// Labels of declared limits taken at the limit itself rather than spread over their
-    /// range (for [`validity::bound_where_limited`]; empty in every ordinary run).
-    pinned: FxHashSet<String>,
+    /// Labels of declared limits taken at one end of their range rather than spread over it
+    /// (for [`validity::bound_where_limited`]; empty in every ordinary run).
+    pinned: Pins,
     /// Derived values that rest mostly on one limit, given as limits themselves: the value
     /// at that limit, its form, and the sentence that says so.
     bounded: FxHashMap<Key, (f64, Form, String)>,
@@ -284,7 +284,7 @@ impl<'m> Derivation<'m> {
     }
 
     fn run_once(sys: &'m System, options: &Options, lines: &'m sources::Lines) -> Derivation<'m> {
-        let mut d = Derivation::run_pinned(sys, options, lines, FxHashSet::default(), None);
+        let mut d = Derivation::run_pinned(sys, options, lines, Pins::default(), None);
         // Values given as limits need no sampling: bound first, then sample the rest.
         d.bound_where_limited();
         d.sample_where_doubtful();
@@ -303,7 +303,7 @@ impl<'m> Derivation<'m> {
         sys: &'m System,
         options: &Options,
         lines: &'m sources::Lines,
-        pinned: FxHashSet<String>,
+        pinned: Pins,
         focus: Option<FxHashSet<Key>>,
     ) -> Derivation<'m> {
         let d = Derivation::run_drawing(sys, options, lines, pinned, focus, false);
@@ -324,7 +324,7 @@ impl<'m> Derivation<'m> {
         sys: &'m System,
         options: &Options,
         lines: &'m sources::Lines,
-        pinned: FxHashSet<String>,
+        pinned: Pins,
         focus: Option<FxHashSet<Key>>,
         draw_all: bool,
     ) -> Derivation<'m> {
@@ -401,6 +401,17 @@ fn relative_spread(v: &Value, inputs: &[InputInfo]) -> f64 {
 
 /// Whether the engine supplies a default for `q` when a rule needs it and nothing declares
 /// it (a circular orbit, a Bond albedo of 0, ...; each default is named when used).
+/// Where a declared limit is taken instead of spread over its range: at the limit itself, or
+/// at the other end of the range it leaves open (the quantity's physical bound).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub(super) enum PinAt {
+    Limit,
+    OtherEnd,
+}
+
+/// Declared limits by label, each with where it is taken.
+pub(super) type Pins = FxHashMap<String, PinAt>;
+
 pub fn has_default(q: Qty) -> bool {
     inputs::default_for(q).is_some()
 }

@@ -1085,3 +1085,52 @@ fn a_difference_known_better_than_either_value_is_given() {
     // A difference as uncertain as the values themselves needs no such note.
     assert!(super::consistency::shared_note(unit, 2e-3 * au, 1.6e-3 * au, 2e-3 * au).is_none());
 }
+
+/// A value resting on two limits that bound it from opposite sides has no bound: the scale
+/// height grows as the mass falls (`rv_amplitude < 3 m/s`) and falls as the albedo grows
+/// (`albedo > 0.5`, up to 1 where Teq is 0). It was given as a lower limit with the albedo at
+/// the middle of its range; it keeps its interval instead. A value resting on one limit only
+/// is still that limit.
+#[test]
+fn limits_that_pull_opposite_ways_give_no_bound() {
+    let src = "system \"Kestrelby\" {\n  star k { mass = 0.90 ± 0.03 Msun; radius = 0.90 ± 0.02 Rsun; teff = 5400 ± 60 K }\n  planet b orbits k {\n    period = 20.0 ± 0.001 d\n    rv_amplitude < 3 m/s\n    transit_depth = 500 ± 30 ppm\n    impact = 0.4 ± 0.05\n    albedo > 0.5\n  }\n}\n";
+    for options in [Options::linear(), Options::default()] {
+        let a = run(src, &options);
+        let h = get(&a, "b", Qty::ScaleHeight).unwrap();
+        assert!(!h.form.is_limit(), "{h:?}");
+        assert!(h.below > 0.0 && h.above > h.below, "{h:?}");
+        let teq = get(&a, "b", Qty::Teq).unwrap();
+        assert_eq!(teq.form, crate::model::Form::UpperLimit);
+        let mass = get(&a, "b", Qty::Mass).unwrap();
+        assert_eq!(mass.form, crate::model::Form::UpperLimit);
+    }
+}
+
+/// A limit that pulls the other way is taken at the other end of its range when that end
+/// bounds the value: the Hill radius at periastron, a (1 - e) (m / 3 M*)^(1/3), with
+/// `rv_amplitude < 3 m/s` and `eccentricity < 0.2` is at most its value at K = 3 m/s and
+/// e = 0, the same as with the eccentricity declared 0 (not at the middle of e's range).
+#[test]
+fn a_limit_pulling_the_other_way_is_taken_at_its_other_end() {
+    let src = "system \"Dunmere\" {\n  star d { mass = 1.0 ± 0.03 Msun; radius = 1.0 ± 0.02 Rsun }\n  planet b orbits d {\n    period = 15.0 ± 0.01 d\n    rv_amplitude < 3 m/s\n    eccentricity < 0.2\n  }\n}\n";
+    let circular = src.replace("eccentricity < 0.2", "eccentricity = 0");
+    for options in [Options::linear(), Options::default()] {
+        let hill = get(&run(src, &options), "b", Qty::HillRadius).unwrap();
+        let at_zero = get(&run(&circular, &options), "b", Qty::HillRadius).unwrap();
+        assert_eq!(hill.form, crate::model::Form::UpperLimit, "{hill:?}");
+        assert_eq!(at_zero.form, crate::model::Form::UpperLimit, "{at_zero:?}");
+        assert!(
+            (hill.value / at_zero.value - 1.0).abs() < 1e-9,
+            "{} vs {}",
+            hill.value,
+            at_zero.value
+        );
+        assert!(
+            hill.assumptions
+                .iter()
+                .any(|a| a.contains("b.eccentricity < 0.2 at the other end of its range")),
+            "{:?}",
+            hill.assumptions
+        );
+    }
+}

@@ -50,6 +50,10 @@ pub fn ratio_scale(q: Qty) -> bool {
 /// variance is given as a limit (see [`Derivation::bound_where_limited`]).
 pub const LIMIT_SHARE: f64 = 0.5;
 
+/// Another declared limit with at least this share of a limited value's first-order variance
+/// is taken at its limit too (or, pulling the other way, leaves the value without a bound).
+pub const OTHER_LIMIT_SHARE: f64 = 0.01;
+
 /// How the assumption that a value was given as a limit begins.
 pub const LIMITED: &str = "a limit, not an interval";
 
@@ -190,63 +194,106 @@ impl<'m> Derivation<'m> {
     /// it is an upper or a lower limit follows from the direction the value moves with the
     /// input. Applies in both propagation modes.
     pub(super) fn bound_where_limited(&mut self) {
-        let mut by_input: BTreeMap<u32, Vec<(Key, f64, f64)>> = BTreeMap::new();
+        // The value's dominant limit first, then the other limits it rests on, pinned
+        // together: each key with its slope and share along the dominant one.
+        let mut by_limits: BTreeMap<Vec<(u32, bool)>, Vec<(Key, f64, f64)>> = BTreeMap::new();
         for (key, entry) in &self.entries {
             if !entry.origin.is_computed() || entry.value.grad.is_empty() {
                 continue;
             }
-            let Some(&(id, share)) = entry.value.budget(&self.inputs).first() else {
+            let budget = entry.value.budget(&self.inputs);
+            let Some(&(id, share)) = budget.first() else {
                 continue;
             };
-            let limited = self
-                .inputs
-                .get(id as usize)
-                .is_some_and(|i| i.limit.is_some());
-            let slope = entry
-                .value
-                .grad
-                .iter()
-                .find(|g| g.0 == id)
-                .map_or(0.0, |g| g.1);
-            if limited && share >= LIMIT_SHARE && slope != 0.0 {
-                by_input.entry(id).or_default().push((*key, slope, share));
+            let limit_of = |id: u32| self.inputs.get(id as usize).and_then(|i| i.limit);
+            let slope_of = |id: u32| {
+                entry
+                    .value
+                    .grad
+                    .iter()
+                    .find(|g| g.0 == id)
+                    .map_or(0.0, |g| g.1)
+            };
+            // Whether taking input `id` at its limit bounds the value from above.
+            let bounds_above = |id: u32| {
+                limit_of(id).map(|(form, _)| (form == Form::UpperLimit) == (slope_of(id) > 0.0))
+            };
+            let slope = slope_of(id);
+            let Some(above) = bounds_above(id) else {
+                continue;
+            };
+            if share < LIMIT_SHARE || slope == 0.0 {
+                continue;
             }
+            // Other limits it rests on are taken at the end of their range that bounds it
+            // from the same side: the limit itself, or for one that pulls the other way the
+            // other end of its range (an eccentricity `< 0.2` at 0). Where that end is open
+            // or makes the value vanish, there is no bound (see below).
+            let mut set = vec![(id, false)];
+            set.extend(
+                budget
+                    .iter()
+                    .skip(1)
+                    .filter(|(_, s)| *s >= OTHER_LIMIT_SHARE)
+                    .filter_map(|&(other, _)| bounds_above(other).map(|b| (other, b != above))),
+            );
+            by_limits.entry(set).or_default().push((*key, slope, share));
         }
         let options = Options {
             propagation: Propagation::Linear,
             ..self.options.clone()
         };
-        for (id, keys) in by_input {
-            let Some(input) = self.inputs.get(id as usize) else {
+        for (ids, keys) in by_limits {
+            let limits: Vec<(&InputInfo, Form, f64, bool)> = ids
+                .iter()
+                .filter_map(|&(id, other_end)| {
+                    let input = self.inputs.get(id as usize)?;
+                    let (form, limit) = input.limit?;
+                    Some((input, form, limit, other_end))
+                })
+                .collect();
+            let Some(&(_, form, _, _)) = limits.first() else {
                 continue;
             };
-            let Some((form, limit)) = input.limit else {
-                continue;
-            };
-            let pinned = std::iter::once(input.label.clone()).collect();
+            let pinned = limits
+                .iter()
+                .map(|l| {
+                    let at = if l.3 { PinAt::OtherEnd } else { PinAt::Limit };
+                    (l.0.label.clone(), at)
+                })
+                .collect();
             let focus = self.cone(keys.iter().map(|k| &k.0));
             let at_limit =
                 Derivation::run_pinned(self.sys, &options, self.lines, pinned, Some(focus));
-            // The limit as people read it (`< 5 m/s`): its quantity from the label.
-            let qty = input.label.split_once('.').and_then(|(body, name)| {
-                let kind = self.sys.bodies.iter().find(|b| b.id == body)?.kind;
-                quantities::find(kind, name).map(|d| d.qty)
-            });
-            let limit_words = match qty {
-                Some(q) => {
-                    crate::report::shown_in(limit, 0.0, 0.0, form, summary::display_unit(q, limit))
-                }
-                None => format!(
-                    "{} {}",
-                    if form == Form::UpperLimit { "<" } else { ">" },
-                    crate::format::number(limit)
-                ),
+            let described: Vec<String> = limits
+                .iter()
+                .map(|(i, f, l, other_end)| {
+                    let declared = format!("{} {}", i.label, self.limit_words(i, *f, *l));
+                    if *other_end {
+                        format!("{declared} at the other end of its range")
+                    } else {
+                        declared
+                    }
+                })
+                .collect();
+            let (first, rest) = described
+                .split_first()
+                .map_or(("", &[][..]), |(f, r)| (f.as_str(), r));
+            let also = if rest.is_empty() {
+                String::new()
+            } else {
+                format!(
+                    ", with {} (the end that bounds it from that side)",
+                    crate::text::and_list(rest)
+                )
             };
             for (key, slope, share) in keys {
                 let Some(v) = at_limit.value(key).map(|v| v.nominal) else {
                     continue;
                 };
-                if !v.is_finite() {
+                // An open end, or one where the value vanishes (a scale height at an albedo
+                // of 1, where Teq is 0), bounds nothing: the value keeps its interval.
+                if !v.is_finite() || v == 0.0 {
                     continue;
                 }
                 let upper = (form == Form::UpperLimit) == (slope > 0.0);
@@ -256,13 +303,30 @@ impl<'m> Derivation<'m> {
                     Form::LowerLimit
                 };
                 let words = format!(
-                    "{} is {LIMITED}: {:.0}% of its variance comes from {} {limit_words}, so it is given at that limit, with the other inputs at their values (common practice)",
+                    "{} is {LIMITED}: {:.0}% of its variance comes from {first}, so it is given at that limit{also}, with the other inputs at their values (common practice)",
                     self.key_name(key),
                     (share * 100.0).min(100.0),
-                    input.label,
                 );
                 self.bounded.insert(key, (v, result, words));
             }
+        }
+    }
+
+    /// A declared limit as people read it (`< 5 m/s`), its quantity from the input's label.
+    fn limit_words(&self, input: &InputInfo, form: Form, limit: f64) -> String {
+        let qty = input.label.split_once('.').and_then(|(body, name)| {
+            let kind = self.sys.bodies.iter().find(|b| b.id == body)?.kind;
+            quantities::find(kind, name).map(|d| d.qty)
+        });
+        match qty {
+            Some(q) => {
+                crate::report::shown_in(limit, 0.0, 0.0, form, summary::display_unit(q, limit))
+            }
+            None => format!(
+                "{} {}",
+                if form == Form::UpperLimit { "<" } else { ">" },
+                crate::format::number(limit)
+            ),
         }
     }
 
