@@ -50,6 +50,10 @@ pub fn ratio_scale(q: Qty) -> bool {
 /// variance is given as a limit (see [`Derivation::bound_where_limited`]).
 pub const LIMIT_SHARE: f64 = 0.5;
 
+/// A value given as a limit: its key, its slope along its dominant limit, and that limit's
+/// share of its variance.
+type Limited = (Key, f64, f64);
+
 /// Another declared limit with at least this share of a limited value's first-order variance
 /// is taken at its limit too (or, pulling the other way, leaves the value without a bound).
 pub const OTHER_LIMIT_SHARE: f64 = 0.01;
@@ -196,7 +200,7 @@ impl<'m> Derivation<'m> {
     pub(super) fn bound_where_limited(&mut self) {
         // The value's dominant limit first, then the other limits it rests on, pinned
         // together: each key with its slope and share along the dominant one.
-        let mut by_limits: BTreeMap<Vec<(u32, bool)>, Vec<(Key, f64, f64)>> = BTreeMap::new();
+        let mut by_limits: BTreeMap<Vec<(u32, bool)>, Vec<Limited>> = BTreeMap::new();
         for (key, entry) in &self.entries {
             if !entry.origin.is_computed() || entry.value.grad.is_empty() {
                 continue;
