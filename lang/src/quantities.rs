@@ -246,7 +246,48 @@ const NOT_NAMES: &[(BodyKind, &str, &str)] = &[
     (BodyKind::Planet, "Tdur", "transit_duration"),
     (BodyKind::Planet, "tdur", "transit_duration"),
     (BodyKind::Planet, "T_dur", "transit_duration"),
+    (BodyKind::Planet, "Mp", "mass"),
+    (BodyKind::Planet, "M_p", "mass"),
+    (BodyKind::Planet, "Rp", "radius"),
+    (BodyKind::Planet, "R_p", "radius"),
+    (BodyKind::Star, "Mstar", "mass"),
+    (BodyKind::Star, "M_star", "mass"),
+    (BodyKind::Star, "Ms", "mass"),
+    (BodyKind::Star, "Rstar", "radius"),
+    (BodyKind::Star, "R_star", "radius"),
+    (BodyKind::Star, "Rs", "radius"),
 ];
+
+/// Quantities the trade writes down that Syzygy has no place for, with what they are: an
+/// unknown name among these is told so instead of pointed at a name that merely looks
+/// alike (`vsini` is not `msini`).
+const NOT_QUANTITIES: &[(&str, &str)] = &[
+    ("vsini", "a star's projected rotation speed"),
+    ("v_sin_i", "a star's projected rotation speed"),
+    ("vsin_i", "a star's projected rotation speed"),
+    ("prot", "a star's rotation period"),
+    ("P_rot", "a star's rotation period"),
+];
+
+/// The quantity a ratio written as a fraction stands for: `Rp/Rs`, `Rp/R*` and `k` are the
+/// radius ratio, `a/Rs` and `a/R*` the semi-major axis in stellar radii.
+pub fn ratio_name(written: &str) -> Option<&'static str> {
+    let n = written.to_ascii_lowercase().replace(['_', ' '], "");
+    let n = n.replace("rstar", "rs").replace("r*", "rs");
+    match n.as_str() {
+        "rp/rs" | "r/rs" => Some("radius_ratio"),
+        "a/rs" => Some("scaled_semi_major_axis"),
+        _ => None,
+    }
+}
+
+/// What a name the trade uses but Syzygy has no quantity for stands for.
+pub fn not_a_quantity(name: &str) -> Option<&'static str> {
+    NOT_QUANTITIES
+        .iter()
+        .find(|(n, _)| n.eq_ignore_ascii_case(name))
+        .map(|(_, what)| *what)
+}
 
 /// The name meant by an unknown quantity name of a kind of body, for a did-you-mean.
 pub fn suggest(kind: BodyKind, name: &str) -> Option<&'static str> {
@@ -342,6 +383,18 @@ impl QuantityDef {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn names_the_trade_writes_point_to_the_quantity_or_say_there_is_none() {
+        assert_eq!(suggest(BodyKind::Star, "Mstar"), Some("mass"));
+        assert_eq!(suggest(BodyKind::Planet, "Rp"), Some("radius"));
+        // `vsini` looks like `msini` but is a star's rotation: no such quantity.
+        assert!(not_a_quantity("vsini").is_some_and(|w| w.contains("rotation")));
+        assert_eq!(not_a_quantity("msini"), None);
+        assert_eq!(ratio_name("Rp/R*"), Some("radius_ratio"));
+        assert_eq!(ratio_name("a/R_star"), Some("scaled_semi_major_axis"));
+        assert_eq!(ratio_name("Mp/Ms"), None);
+    }
 
     #[test]
     fn every_variant_is_in_the_table_once() {

@@ -521,7 +521,22 @@ const OTHER_SPELLINGS: &[(&str, &str)] = &[
     ("degree", "deg"),
     ("degrees", "deg"),
     ("hrs", "h"),
+    ("hour", "h"),
+    ("hours", "h"),
     ("mps", "m/s"),
+    // Subscript e (Earth), J (Jupiter), o and "solar" (the Sun) as papers write them.
+    ("Re", "Rearth"),
+    ("Me", "Mearth"),
+    ("R_e", "Rearth"),
+    ("M_e", "Mearth"),
+    ("Rj", "Rjup"),
+    ("Mj", "Mjup"),
+    ("Ro", "Rsun"),
+    ("Mo", "Msun"),
+    ("Lo", "Lsun"),
+    ("R_solar", "Rsun"),
+    ("M_solar", "Msun"),
+    ("L_solar", "Lsun"),
 ];
 
 /// The nearest known symbol, for a did-you-mean hint. A symbol of one or two characters

@@ -27,7 +27,12 @@ pub(super) fn unknown_quantity(kind: BodyKind, name: &ast::Ident) -> Diagnostic 
         BodyKind::Star => BodyKind::Planet,
         BodyKind::Planet => BodyKind::Star,
     };
-    if let Some(s) = quantities::suggest(kind, &name.name) {
+    if let Some(what) = quantities::not_a_quantity(&name.name) {
+        d = d.with_help(format!(
+            "'{}' ({what}) is not among Syzygy's quantities (docs/language.md lists them); keep it in a comment",
+            name.name
+        ));
+    } else if let Some(s) = quantities::suggest(kind, &name.name) {
         d = d.with_help(format!("did you mean '{s}'?"));
     } else if quantities::find(other, &name.name).is_some() {
         d = d.with_help(format!(

@@ -99,9 +99,16 @@ fn suggestions() {
     // Two edits are too many for a symbol of three characters (`R_Q` is two from `yr`).
     assert_eq!(suggest("R_Q"), None);
     assert_eq!(suggest("degrees"), Some("deg"));
-    // Each unit meant is one the language reads.
-    for (_, meant) in OTHER_SPELLINGS {
+    // Subscripts as papers write them: `Re` is the Earth's radius (R_e), not the Sun's.
+    assert_eq!(suggest("Re"), Some("Rearth"));
+    assert_eq!(suggest("Me"), Some("Mearth"));
+    assert_eq!(suggest("Mo"), Some("Msun"));
+    assert_eq!(suggest("R_solar"), Some("Rsun"));
+    assert_eq!(suggest("hours"), Some("h"));
+    // Each unit meant is one the language reads, and no other spelling is one already.
+    for (other, meant) in OTHER_SPELLINGS {
         assert!(parse_unit_text(meant).is_some(), "{meant}");
+        assert!(lookup(other).is_none(), "{other} is a unit already");
     }
 }
 

@@ -407,8 +407,9 @@ fn a_unit_before_the_uncertainty_gets_the_value_rewritten() {
 
 #[test]
 fn plus_slash_minus_and_a_decimal_comma_get_the_accepted_spelling() {
-    let h = help_of("1.05 +/- 0.04 Msun").unwrap();
+    let h = help_of("1.07 +/- 0.03 Msun").unwrap();
     assert!(h.contains("`+-`") && h.contains("`±`"), "{h}");
+    assert!(h.contains("`1.07 ± 0.03`"), "the user's own numbers: {h}");
     let h = help_of("12,5 d").unwrap();
     assert!(h.contains("`12.5`"), "{h}");
     // A comma or a slash elsewhere gets neither help.
@@ -430,6 +431,11 @@ fn uncertainties_in_other_notations_are_errors_with_the_spelling_taken() {
     assert!(h.contains("`1.1 ± 0.5`"), "{h}");
     let h = help_of("2459000.1234(12) BJD_TDB").unwrap();
     assert!(h.contains("`2459000.1234 ± 0.0012`"), "{h}");
+    // An asymmetric uncertainty in parentheses, in either order.
+    let h = help_of("92 (+6/-5) m/s").unwrap();
+    assert!(h.contains("`92 +6/-5`"), "{h}");
+    let h = help_of("92 (-5/+6) m/s").unwrap();
+    assert!(h.contains("`92 +6/-5`"), "{h}");
     // A sum written as one is still a sum, and a call is still a call.
     for value in ["0.4 + 0.1 - 0.05", "0.4 + 0.1", "sqrt(0.25)"] {
         let src = format!("system \"S\" {{ star s {{ x = {value} }} }}");
@@ -533,4 +539,22 @@ fn a_planet_without_its_star_is_an_error_wherever_its_brace_is() {
         "system \"A\" {\n  star s { mass = 1 Msun }\n  planet p orbits s\n{\n    period = 3 d\n  }\n}\n"
     )
     .is_empty());
+}
+
+#[test]
+fn ratios_and_bracketed_names_get_the_quantity_meant() {
+    let help = |line: &str| {
+        let src = format!("system \"S\" {{\n star s {{\n  {line}\n }}\n}}\n");
+        let p = parse(FileId(0), &src);
+        p.diagnostics
+            .into_iter()
+            .find_map(|d| d.help)
+            .unwrap_or_default()
+    };
+    assert!(help("Rp/Rs = 0.108 ± 0.001").contains("`radius_ratio = VALUE`"));
+    assert!(help("Rp/R* = 0.108").contains("`radius_ratio = VALUE`"));
+    assert!(help("a/Rs = 10.1").contains("`scaled_semi_major_axis = VALUE`"));
+    assert!(help("[Fe/H] = 0.12 ± 0.05").contains("`metallicity = VALUE dex`"));
+    // Another fraction keeps the generic help.
+    assert!(help("x/y = 1").contains("write `x = VALUE UNIT`"));
 }

@@ -276,6 +276,37 @@ impl Cursor<'_> {
             return None;
         }
         let v = self.src.get(begin..value.end)?;
+        // `92 (+6/-5)`: an asymmetric uncertainty in parentheses.
+        if a.kind == Tok::LParen && matches!(b.kind, Tok::Plus | Tok::Minus) {
+            let close = rest.iter().position(|t| t.kind == Tok::RParen)?;
+            let inside: Vec<Tok> = rest.get(..close)?.iter().map(|t| t.kind).collect();
+            let close = rest.get(close)?;
+            let sign = |t: Tok| matches!(t, Tok::Plus | Tok::Minus);
+            let shape = matches!(
+                inside.as_slice(),
+                [Tok::Number, Tok::Slash, m, Tok::Number] if sign(*m) && *m != b.kind
+            );
+            if !shape {
+                return None;
+            }
+            let written = self.src.get(b.start..close.start)?.trim();
+            let (first, second) = (rest.first()?, rest.get(3)?);
+            let (above, below) = if b.kind == Tok::Plus {
+                (first, second)
+            } else {
+                (second, first)
+            };
+            let fixed = format!("+{}/-{}", self.text(*above), self.text(*below));
+            return Some(
+                Diagnostic::new(
+                    Rule::Syntax,
+                    span(a, close),
+                    format!("`({written})`: an uncertainty is written without parentheses"),
+                )
+                .with_help(format!("write `{v} {fixed}`"))
+                .with_fix(span(a, close), fixed),
+            );
+        }
         // `1.1(5)`: the last digits' uncertainty in parentheses.
         if a.kind == Tok::LParen && joined(value, a) && b.kind == Tok::Number {
             let close = rest.first().filter(|t| t.kind == Tok::RParen)?;
@@ -610,10 +641,19 @@ impl Cursor<'_> {
                     && ahead(1).is_some_and(|t| t.kind == Tok::Minus && t.start == at + 1) =>
             {
                 let plus = back(1)?;
+                // The user's own numbers in the example, when they are there.
+                let example = match (
+                    back(2).filter(|t| t.kind == Tok::Number),
+                    ahead(2).filter(|t| t.kind == Tok::Number),
+                ) {
+                    (Some(v), Some(u)) => format!("{} ± {}", self.text(*v), self.text(*u)),
+                    _ => "1.05 ± 0.04 Msun".to_string(),
+                };
                 Some((
-                    "a symmetric uncertainty is written `±` or `+-`: `1.05 +- 0.04 Msun`; an \
-                     asymmetric one `+above/-below`: `+0.05/-0.04`"
-                        .to_string(),
+                    format!(
+                        "a symmetric uncertainty is written `±` or `+-`: `{example}`; an \
+                         asymmetric one `+above/-below`: `+0.05/-0.04`"
+                    ),
                     Some(Fix {
                         span: Span::new(self.file, plus.start, at + 2),
                         text: "±".to_string(),
