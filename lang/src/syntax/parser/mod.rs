@@ -674,7 +674,7 @@ impl<'a> Cursor<'a> {
                     }
                 }
                 Some(_) => {
-                    let here = self.peek_token().map_or(0, |t| t.start as usize);
+                    let here = self.peek_token().map_or(0, |t| t.start);
                     let line = self.src.get(here..).unwrap_or("");
                     let line = line.split(['\n', ';']).next().unwrap_or("");
                     self.expect_error("a property name, 'let' or '}'");
