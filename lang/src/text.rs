@@ -56,3 +56,14 @@ mod tests {
         assert_eq!(closest("zzzz", ["period", "mass"]), None);
     }
 }
+
+/// The citations of one declaration as shown beside its value: `[a, b]`, or `(no citation)`
+/// rather than an empty `[]`.
+pub fn citation_mark<'a>(ids: impl IntoIterator<Item = &'a str>) -> String {
+    let ids: Vec<&str> = ids.into_iter().collect();
+    if ids.is_empty() {
+        "(no citation)".to_string()
+    } else {
+        format!("[{}]", ids.join(", "))
+    }
+}

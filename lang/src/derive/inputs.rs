@@ -309,11 +309,8 @@ impl<'m> Derivation<'m> {
                 Form::LowerLimit => format!("> {}", crate::format::number(m.value / f)),
                 _ => crate::format::with_uncertainty(m.value / f, m.below / f, m.above / f),
             };
-            let cites: Vec<&str> = d.citations.iter().map(|c| c.0.as_str()).collect();
-            Some((
-                *m,
-                format!("{value} {} [{}]", unit.suffix(), cites.join(", ")),
-            ))
+            let cites = crate::text::citation_mark(d.citations.iter().map(|c| c.0.as_str()));
+            Some((*m, format!("{value} {} {cites}", unit.suffix())))
         };
         let k = self.options.consistency_sigma;
         for (j, later) in all.iter().enumerate() {

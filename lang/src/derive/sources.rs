@@ -243,10 +243,10 @@ pub fn words(
 ) -> String {
     let n = cites.len();
     let source = |i: usize| {
-        let c = cites.get(i).map(|c| c.join(", ")).unwrap_or_default();
+        let c = crate::text::citation_mark(cites.get(i).into_iter().flatten().map(String::as_str));
         match lines.get(i).copied().flatten() {
-            Some(line) => format!("[{c}], source {} of {n}, line {line}", i + 1),
-            None => format!("[{c}], source {} of {n}", i + 1),
+            Some(line) => format!("{c}, source {} of {n}, line {line}", i + 1),
+            None => format!("{c}, source {} of {n}", i + 1),
         }
     };
     let how = match (chosen.choice, chosen.index, chosen.mean) {

@@ -1134,3 +1134,27 @@ fn a_limit_pulling_the_other_way_is_taken_at_its_other_end() {
         );
     }
 }
+
+/// A citation of a reference the file does not declare stays with its value (an
+/// unknown-ref error says it is missing), and a value with no citation says so instead of
+/// showing empty brackets.
+#[test]
+fn sources_show_their_citations_as_written() {
+    let src = "system \"Zq\" {\n star s { mass = 1 ± 0.1 Msun }\n planet b orbits s {\n  period = 3 ± 0.1 d\n  period = 5 ± 0.1 d [x]\n }\n}\n";
+    let a = run(src, &Options::linear());
+    assert!(a
+        .diagnostics
+        .iter()
+        .any(|d| d.rule == crate::diagnostic::Rule::UnknownRef));
+    let q = get(&a, "b", Qty::Period).unwrap();
+    let shown = crate::report::sources_text(&q);
+    assert_eq!(shown.len(), 2, "{shown:?}");
+    assert!(shown[0].ends_with("(no citation)"), "{shown:?}");
+    assert!(shown[1].contains("[x]"), "{shown:?}");
+    let disagree = a
+        .diagnostics
+        .iter()
+        .find(|d| d.rule == crate::diagnostic::Rule::SourcesDisagree)
+        .unwrap();
+    assert!(!disagree.message.contains("[]"), "{}", disagree.message);
+}

@@ -625,6 +625,9 @@ fn lower_props(
                     )),
                 };
                 diags.push(d);
+                // Still recorded: the value keeps the citation it was written with (the
+                // error above says the reference is missing).
+                citations.push((c.name.clone(), c.span));
             }
         }
         let resolve =

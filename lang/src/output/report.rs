@@ -285,9 +285,9 @@ pub fn sources_text(q: &QuantityResult) -> Vec<String> {
         .iter()
         .map(|s| {
             format!(
-                "{} [{}]{}",
+                "{} {}{}",
                 shown_in(s.value, s.below, s.above, s.form, unit),
-                s.citations.join(", "),
+                crate::text::citation_mark(s.citations.iter().map(String::as_str)),
                 if s.chosen { " (used)" } else { "" }
             )
         })
