@@ -44,6 +44,17 @@ pub fn closest<'a>(word: &str, candidates: impl IntoIterator<Item = &'a str>) ->
     best.map(|(_, c)| c)
 }
 
+/// The citations of one declaration as shown beside its value: `[a, b]`, or `(no citation)`
+/// rather than an empty `[]`.
+pub fn citation_mark<'a>(ids: impl IntoIterator<Item = &'a str>) -> String {
+    let ids: Vec<&str> = ids.into_iter().collect();
+    if ids.is_empty() {
+        "(no citation)".to_string()
+    } else {
+        format!("[{}]", ids.join(", "))
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -54,16 +65,5 @@ mod tests {
         assert_eq!(edit_distance("", "abc"), 3);
         assert_eq!(closest("perod", ["period", "mass"]), Some("period"));
         assert_eq!(closest("zzzz", ["period", "mass"]), None);
-    }
-}
-
-/// The citations of one declaration as shown beside its value: `[a, b]`, or `(no citation)`
-/// rather than an empty `[]`.
-pub fn citation_mark<'a>(ids: impl IntoIterator<Item = &'a str>) -> String {
-    let ids: Vec<&str> = ids.into_iter().collect();
-    if ids.is_empty() {
-        "(no citation)".to_string()
-    } else {
-        format!("[{}]", ids.join(", "))
     }
 }
