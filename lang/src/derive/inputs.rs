@@ -210,7 +210,14 @@ impl<'m> Derivation<'m> {
                     if body.get(q).is_some() {
                         continue;
                     }
-                    if q == Qty::ArgPeriastron && body.get(Qty::Eccentricity).is_some() {
+                    // A circular orbit declared exactly (`eccentricity = 0`) has no
+                    // orientation to spread: the default applies, as when nothing is declared.
+                    let circular = body.get(Qty::Eccentricity).is_some_and(|d| {
+                        matches!(&d.content, Content::Measured(m)
+                            if m.value == 0.0 && m.below == 0.0 && m.above == 0.0 && !m.form.is_limit())
+                    });
+                    if q == Qty::ArgPeriastron && body.get(Qty::Eccentricity).is_some() && !circular
+                    {
                         // An eccentric orbit of unknown orientation: every orientation is
                         // equally likely, so the argument of periastron is spread uniformly
                         // over a full turn (nominal 180 deg, where sin omega = 0) rather

@@ -1158,3 +1158,24 @@ fn sources_show_their_citations_as_written() {
         .unwrap();
     assert!(!disagree.message.contains("[]"), "{}", disagree.message);
 }
+
+/// An orbit declared exactly circular has no orientation to spread: the argument of
+/// periastron takes its default (90 deg, no effect), and no assumption says it is unknown.
+#[test]
+fn an_exactly_circular_orbit_spreads_no_orientation() {
+    let src = "system \"Pellu\" {\n star s { mass = 1.08 ± 0.06 Msun; radius = 1.15 ± 0.05 Rsun }\n planet b orbits s {\n  period = 4.3127 ± 0.0004 d\n  eccentricity = 0\n  rv_amplitude = 92 ± 6 m/s\n  impact = 0.5 ± 0.05\n  transit_depth = 1.2 ± 0.05 %\n }\n}\n";
+    for options in [Options::linear(), Options::default()] {
+        let a = run(src, &options);
+        let w = get(&a, "b", Qty::ArgPeriastron).unwrap();
+        assert_eq!(w.origin, Origin::Default);
+        let mass = get(&a, "b", Qty::Mass).unwrap();
+        assert!(
+            !mass
+                .assumptions
+                .iter()
+                .any(|s| s.contains("argument of periastron unknown")),
+            "{:?}",
+            mass.assumptions
+        );
+    }
+}
