@@ -10,6 +10,16 @@ pub(super) const UNUSABLE_LOWER_LIMIT: &str = "a lower limit without an upper ph
 /// How the note of a declared value the derivations cannot use starts.
 const NOT_USED: &str = "not used in derivations: ";
 
+/// The note of a value some of whose Monte Carlo draws gave no value: how many were left out.
+fn left_out_note(s: &value::SampleSummary) -> Option<String> {
+    (s.finite < 0.999).then(|| {
+        format!(
+            "{:.1}% of the Monte Carlo samples gave no value (outside the formula's domain) and were left out",
+            (1.0 - s.finite) * 100.0
+        )
+    })
+}
+
 /// One quantity of one body as reported.
 #[derive(Debug, Clone, PartialEq)]
 pub struct QuantityResult {
@@ -326,12 +336,7 @@ impl<'m> Derivation<'m> {
                 let (lo, hi) = entry.value.linear_spread(&self.inputs);
                 match (self.options.propagation, entry.value.sample_summary()) {
                     (Propagation::MonteCarlo, Some(s)) => {
-                        if s.finite < 0.999 {
-                            notes.push(format!(
-                                "{:.1}% of the Monte Carlo samples gave no value (outside the formula's domain) and were left out",
-                                (1.0 - s.finite) * 100.0
-                            ));
-                        }
+                        notes.extend(left_out_note(&s));
                         if !entry.value.grad.is_empty() || entry.origin == Origin::Derived {
                             precision = s.precision;
                             (
@@ -346,6 +351,7 @@ impl<'m> Derivation<'m> {
                     }
                     _ => match self.sampled_instead(key) {
                         Some((s, words)) => {
+                            notes.extend(left_out_note(&s));
                             sampled = Some(words);
                             precision = s.precision;
                             (
