@@ -101,6 +101,16 @@ fn rounded(value: f64, below: f64, above: f64) -> Option<String> {
     let last = last_digit(u);
     let step = 10f64.powi(last);
     let value_r = (value / step).round() * step;
+    if value_r == 0.0 && value != 0.0 {
+        // An uncertainty far larger than the value would round the value itself to 0
+        // (`3 ± 1e300` as `0.0e300 ± 1.0e300`): each is shown in its own digits instead.
+        let (lo, hi) = (sig(below, 2), sig(above, 2));
+        return Some(if lo == hi {
+            format!("{} ± {hi}", sig(value, 3))
+        } else {
+            format!("{} +{hi}/-{lo}", sig(value, 3))
+        });
+    }
     let scale = value_r.abs().max(u);
     let plain = (-15..=1).contains(&last) && (1e-3..1e6).contains(&scale);
     let (exp, places) = if plain {
@@ -239,6 +249,9 @@ mod tests {
             (1.4e6, 1.3e5, 1.3e5, "1.40e6 ± 0.13e6"),
             (5.0, 0.0, 0.0, "5"),
             (5310.0, 80.0, 80.0, "5310 ± 80"),
+            // An uncertainty so large the value would round to 0: each in its own digits.
+            (3.0, 1e300, 1e300, "3.00 ± 1e300"),
+            (0.01, 2.0, 2.0, "0.0100 ± 2.0"),
             (288.4, 24.0, 27.0, "288 +27/-24"),
             // An insolation in W/m^2 and a star's mass in Earth masses: six digits each
             // before, of which only two or three meant anything.
@@ -274,6 +287,9 @@ mod tests {
             for m in [1.0, 1.234, 3.55, 9.5, 9.96] {
                 let u = m * 10f64.powi(exp);
                 let value = 7.77 * u * 10f64.powi(exp % 4);
+                if value < 0.5 * 10f64.powi(last_digit(u)) {
+                    continue; // would round to 0: shown in its own digits (tested above)
+                }
                 let text = with_uncertainty(value, u, u);
                 let (v, e) = text.split_once(" ± ").unwrap();
                 let digits = |s: &str| -> String {
