@@ -244,9 +244,7 @@ fn regular(meta: &std::fs::Metadata) -> Result<(), String> {
     } else {
         special_kind(&kind)
     };
-    Err(format!(
-        "{what}, not a regular file; skipped (only regular files are read)"
-    ))
+    Err(syzygy::text::not_regular_words(what))
 }
 
 #[cfg(unix)]
@@ -287,11 +285,7 @@ fn open_without_waiting(path: &Path) -> std::io::Result<std::fs::File> {
 }
 
 fn io_words(e: &std::io::Error) -> String {
-    match e.kind() {
-        std::io::ErrorKind::NotFound => "no such file or folder".to_string(),
-        std::io::ErrorKind::PermissionDenied => "permission denied".to_string(),
-        _ => e.to_string(),
-    }
+    syzygy::text::io_words(e)
 }
 
 /// Above this many files, `check` shows a progress bar (on a terminal only).

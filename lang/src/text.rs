@@ -55,6 +55,22 @@ pub fn citation_mark<'a>(ids: impl IntoIterator<Item = &'a str>) -> String {
     }
 }
 
+/// A failed read of a file in the words every front end uses (`syz` and the editor say the
+/// same): the common kinds in plain words, the rest as the system gives them.
+pub fn io_words(e: &std::io::Error) -> String {
+    match e.kind() {
+        std::io::ErrorKind::NotFound => "no such file or folder".to_string(),
+        std::io::ErrorKind::PermissionDenied => "permission denied".to_string(),
+        _ => e.to_string(),
+    }
+}
+
+/// Why a path that is not a regular file (`what`: "a folder", "a named pipe (FIFO)", ...)
+/// is not read.
+pub fn not_regular_words(what: &str) -> String {
+    format!("{what}, not a regular file; skipped (only regular files are read)")
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

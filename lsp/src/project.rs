@@ -101,11 +101,22 @@ fn read_shared(
     let mut texts = Vec::new();
     for p in &paths {
         let shown = p.display().to_string();
+        // In the words `syz check` uses for the same file.
+        let words = |e: std::io::Error| format!("{shown}: {}", syzygy::text::io_words(&e));
         let text = match std::fs::metadata(p) {
+            Ok(m) if m.is_dir() => Err(format!(
+                "{shown}: {}",
+                syzygy::text::not_regular_words("a folder")
+            )),
+            Ok(m) if !m.is_file() => Err(format!(
+                "{shown}: {}",
+                syzygy::text::not_regular_words("a special file")
+            )),
             Ok(m) if m.len() > MAX_SHARED_BYTES => Err(format!(
                 "{shown}: larger than {MAX_SHARED_BYTES} bytes; skipped"
             )),
-            _ => std::fs::read_to_string(p).map_err(|e| format!("{shown}: {e}")),
+            Ok(_) => std::fs::read_to_string(p).map_err(words),
+            Err(e) => Err(words(e)),
         };
         match text {
             Ok(t) => texts.push((shown, t)),
@@ -257,6 +268,15 @@ impl Projects {
     /// Read this project file again at its next use (the client says it changed on disk).
     pub fn forget(&self, file: &Path) {
         lock(&self.cache).remove(file);
+    }
+
+    /// Forget every project whose shared reference files include `file` (it changed on
+    /// disk); whether any did.
+    pub fn forget_sharing(&self, file: &Path) -> bool {
+        let mut cache = lock(&self.cache);
+        let before = cache.len();
+        cache.retain(|_, c| !c.shared.iter().any(|(p, _)| p == file));
+        cache.len() != before
     }
 
     /// The editor opened or changed a project file: its buffer now stands for the file.

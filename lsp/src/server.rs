@@ -489,6 +489,10 @@ impl LanguageServer for Backend {
             if let Some(path) = project_file_path(&c.uri) {
                 self.state.projects.forget(&path);
                 projects = true;
+            } else if let Ok(path) = c.uri.to_file_path() {
+                // A shared reference file of a project: its documents resolve citations
+                // against it, so they are analysed again as `syz check` would see them.
+                projects |= self.state.projects.forget_sharing(&path);
             }
         }
         if projects {

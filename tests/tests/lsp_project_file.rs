@@ -319,3 +319,75 @@ fn a_changed_project_file_changes_the_published_diagnostics() {
     });
     assert_eq!(c.shutdown_and_exit().unwrap().code(), Some(0));
 }
+
+/// A shared reference file the project file names changed on disk, announced by the
+/// client: the open document that cites it is analysed again, and agrees with `syz check`
+/// (a citation of a reference added there no longer errs). A shared file that is missing is
+/// said in the words `syz check` uses.
+#[test]
+fn a_changed_shared_reference_file_changes_the_published_diagnostics() {
+    let dir = scratch("lsp-shared-refs");
+    let refs = dir.join("refs.syz");
+    std::fs::write(&refs, "ref sv \"Invented shared survey\"\n").unwrap();
+    std::fs::write(
+        dir.join("syzygy.toml"),
+        "[references]\nfiles = [\"refs.syz\"]\n",
+    )
+    .unwrap();
+    let text = "system \"Harlowe\" {\n  star harlowe { teff = 5650 ± 80 K [sv3] }\n}\n";
+    let file = dir.join("harlowe.syz");
+    std::fs::write(&file, text).unwrap();
+    let uri = file_uri(&file);
+
+    let mut c = LspClient::start();
+    c.initialize_in(
+        &dir,
+        json!({"workspace": {"didChangeWatchedFiles": {"dynamicRegistration": true}}}),
+    );
+    if let Some(reg) = c.wait_for(TIMEOUT, |m| m["method"] == "client/registerCapability") {
+        c.respond(&reg, Value::Null);
+    }
+    c.open(&uri, text);
+    let before = from_server(&c.diagnostics(&uri, Some(1)));
+    assert!(
+        rules(&before).contains(&("unknown-ref", "error")),
+        "{before:?}"
+    );
+
+    std::fs::write(
+        &refs,
+        "ref sv \"Invented shared survey\"\nref sv3 \"Invented third survey\"\n",
+    )
+    .unwrap();
+    c.notify(
+        "workspace/didChangeWatchedFiles",
+        json!({"changes": [{"uri": file_uri(&refs), "type": 2}]}),
+    );
+    let after = published_when(&mut c, &uri, |f| {
+        !rules(f).contains(&("unknown-ref", "error"))
+    });
+    assert_eq!(after, from_check(&file, text));
+
+    // Gone: the project file's error names it as `syz check` does.
+    std::fs::remove_file(&refs).unwrap();
+    c.notify(
+        "workspace/didChangeWatchedFiles",
+        json!({"changes": [{"uri": file_uri(&refs), "type": 3}]}),
+    );
+    let said = |m: &Value| {
+        m["method"] == "textDocument/publishDiagnostics"
+            && m["params"]["uri"] == uri.as_str()
+            && m.to_string().contains("refs.syz: no such file or folder")
+    };
+    assert!(
+        c.wait_for(TIMEOUT, said).is_some(),
+        "the editor says the shared file is missing as check does"
+    );
+    let o = run(&["check", file.to_str().unwrap()]);
+    let words = format!("{}{}", stderr(&o), syzygy_e2e::stdout(&o));
+    assert!(
+        words.contains("refs.syz: no such file or folder"),
+        "{words}"
+    );
+    c.shutdown_and_exit();
+}
