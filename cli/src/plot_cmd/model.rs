@@ -139,7 +139,10 @@ pub(super) fn draw(
         top,
         13.0,
         Anchor::Start,
-        &format!("model of {} (median of draws)", c.label),
+        &match &c.upper_limit {
+            Some(limit) => format!("largest signal {limit} allows ({})", c.label),
+            None => format!("model of {} (median of draws)", c.label),
+        },
         INK,
         false,
         false,

@@ -176,6 +176,9 @@ pub struct ModelCurve {
     pub assumptions: Vec<String>,
     /// What the curve leaves out and why (model values that are not finite numbers).
     pub left_out: Vec<String>,
+    /// For a curve drawn at an upper limit rather than from a measurement: the limit, as
+    /// the legend says it (`rv_amplitude < 3.1 m/s`).
+    pub upper_limit: Option<String>,
 }
 
 const DRAWS_RV: usize = 1000;
@@ -222,7 +225,11 @@ impl<'a> Inputs<'a> {
     /// `n` draws of a quantity (SI), or an error naming what is missing.
     fn draws(&mut self, q: Qty, n: usize, seed: u64) -> Result<Vec<f64>, String> {
         let def = quantities::def(q);
-        if q == Qty::ArgPeriastron && self.result(q).is_none() {
+        // A circular orbit (declared so, or by default) has no orientation to spread.
+        let circular = self.result(Qty::Eccentricity).is_none_or(|e| {
+            e.value == 0.0 && e.below == 0.0 && e.above == 0.0 && !e.form.is_limit()
+        });
+        if q == Qty::ArgPeriastron && self.result(q).is_none() && !circular {
             // The engine spreads an unknown orientation over a full turn (see
             // `derive::Derivation`); the model curves do the same.
             let words = "argument of periastron unknown: spread uniformly over 0-360 deg (default)"
@@ -256,10 +263,11 @@ impl<'a> Inputs<'a> {
             if !self.assumptions.iter().any(|a| a == words) {
                 self.assumptions.push(words.to_string());
             }
+            let unit = crate::derive::display_unit(q, v);
             self.shown.push(format!(
                 "{} = {} (default)",
                 def.name,
-                crate::format::number(v)
+                crate::report::shown_in(v, 0.0, 0.0, crate::model::Form::Exact, unit)
             ));
             return Ok(vec![v; n]);
         };
@@ -388,7 +396,23 @@ const BAND_WORDS: &str = "band: 16th–84th percentiles of Monte Carlo draws of 
 pub fn rv_curve(a: &Analysis, sys: usize, body: usize) -> Result<ModelCurve, String> {
     let mut inp = Inputs::new(a, sys, body)?;
     let n = DRAWS_RV;
-    let k = inp.draws(Qty::RvAmplitude, n, 11)?;
+    let mut k = inp.draws(Qty::RvAmplitude, n, 11)?;
+    // An upper limit on K is no detection: the curve is the largest signal the limit
+    // allows, K at the limit, not the median of draws spread below it.
+    let limit = inp
+        .result(Qty::RvAmplitude)
+        .filter(|r| r.form == crate::model::Form::UpperLimit)
+        .map(|r| r.value);
+    if let Some(most) = limit {
+        k = vec![most; n];
+        // It is drawn at the limit, not sampled below it.
+        inp.assumptions
+            .retain(|a| !(a.contains("rv_amplitude <") && a.contains("sampled uniformly")));
+        inp.assumptions.push(format!(
+            "rv_amplitude < {} m/s is an upper limit, not a detection: the curve is the largest signal it allows (K at the limit); any smaller one fits as well",
+            crate::format::number(most)
+        ));
+    }
     // The period only scales the time axis: its nominal value is used.
     let period = inp
         .draws(Qty::Period, 1, 12)
@@ -431,6 +455,7 @@ pub fn rv_curve(a: &Analysis, sys: usize, body: usize) -> Result<ModelCurve, Str
         inputs: inp.shown,
         assumptions,
         left_out,
+        upper_limit: limit.map(|k| format!("rv_amplitude < {} m/s", crate::format::number(k))),
     })
 }
 
@@ -561,6 +586,7 @@ pub fn transit_curve(
             inputs: inp.shown,
             assumptions,
             left_out,
+            upper_limit: None,
         },
         ld,
     ))
@@ -578,6 +604,28 @@ mod tests {
     }
 
     const SRC: &str = "system \"Ostrel\" {\n  star s { mass = 1 Msun; radius = 1 Rsun; teff = 5800 K }\n  planet b orbits s {\n    period = 4 ± 0.001 d\n    rv_amplitude = 60 ± 3 m/s\n    radius_ratio = 0.1 ± 0.002\n    impact = 0.3 ± 0.05\n  }\n}\n";
+
+    #[test]
+    fn an_upper_limit_on_k_is_drawn_at_the_limit_and_said_to_be_one() {
+        // Not a detection: the curve is the largest signal the limit allows, K at 5 m/s.
+        let src = SRC.replace("rv_amplitude = 60 ± 3 m/s", "rv_amplitude < 5 m/s");
+        let c = rv_curve(&analysis(&src), 0, 1).unwrap();
+        assert_eq!(c.upper_limit.as_deref(), Some("rv_amplitude < 5 m/s"));
+        let most = c.band.median.iter().fold(0.0f64, |m, v| m.max(v.abs()));
+        assert!((most - 5.0).abs() < 0.05, "{most}");
+        assert!(c.assumptions.iter().any(|a| a.contains("not a detection")));
+        assert!(!c
+            .assumptions
+            .iter()
+            .any(|a| a.contains("sampled uniformly")));
+        // A circular orbit spreads no orientation.
+        assert!(!c
+            .assumptions
+            .iter()
+            .any(|a| a.contains("periastron unknown")));
+        // A measured K is a model of draws.
+        assert_eq!(rv_curve(&analysis(SRC), 0, 1).unwrap().upper_limit, None);
+    }
 
     #[test]
     fn a_planet_left_out_says_which_mass_it_lacks() {
