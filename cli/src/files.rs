@@ -54,7 +54,12 @@ pub fn parse_size(text: &str) -> Result<u64, String> {
         .parse()
         .map_err(|_| format!("'{text}': expected a size such as 1048576, 500KB or 256MiB"))?;
     let bytes = n * factor as f64;
-    if !(bytes.is_finite() && bytes >= 1.0 && bytes < u64::MAX as f64) {
+    if bytes >= u64::MAX as f64 {
+        return Err(format!(
+            "'{text}': too large a size (at most 18446744073709551615 bytes, about 18 EB)"
+        ));
+    }
+    if !(bytes.is_finite() && bytes >= 1.0) {
         return Err(format!("'{text}': the size must be at least one byte"));
     }
     Ok(bytes as u64)
@@ -492,7 +497,11 @@ mod tests {
         assert_eq!(parse_size("1.5 MiB"), Ok(1_572_864));
         assert_eq!(parse_size("256mib"), Ok(256 << 20));
         assert_eq!(parse_size("1G"), Ok(1_000_000_000));
-        assert!(parse_size("0").is_err());
+        assert!(parse_size("0").unwrap_err().contains("at least one byte"));
+        // Past what a size can hold: said to be too large, not too small.
+        assert!(parse_size("99999999999999999999GB")
+            .unwrap_err()
+            .contains("too large"));
         assert!(parse_size("ten").is_err());
         assert!(parse_size("5 parsecs").is_err());
         assert_eq!(size_words(256 << 20), "256 MiB");
