@@ -497,11 +497,9 @@ mod tests {
         assert_eq!(parse_size("1.5 MiB"), Ok(1_572_864));
         assert_eq!(parse_size("256mib"), Ok(256 << 20));
         assert_eq!(parse_size("1G"), Ok(1_000_000_000));
-        assert!(parse_size("0").unwrap_err().contains("at least one byte"));
+        assert!(parse_size("0").is_err_and(|e| e.contains("at least one byte")));
         // Past what a size can hold: said to be too large, not too small.
-        assert!(parse_size("99999999999999999999GB")
-            .unwrap_err()
-            .contains("too large"));
+        assert!(parse_size("99999999999999999999GB").is_err_and(|e| e.contains("too large")));
         assert!(parse_size("ten").is_err());
         assert!(parse_size("5 parsecs").is_err());
         assert_eq!(size_words(256 << 20), "256 MiB");
