@@ -165,6 +165,23 @@ pub fn literal_text(value: f64, below: f64, above: f64) -> String {
     rounded(value, below, above).unwrap_or_else(|| number(value))
 }
 
+/// A value with its uncertainty written for a conversion of the user's own measurement (the
+/// editor's "Convert to"): six significant figures of the value and of each side, so
+/// the converted literal stands for the same numbers (a rounding to the uncertainty's second
+/// digit moved values derived from an asymmetric one by half a per cent). A side is merged
+/// into `±` only when both read the same.
+pub fn converted_text(value: f64, below: f64, above: f64) -> String {
+    if !(below.is_finite() && above.is_finite()) || (below == 0.0 && above == 0.0) {
+        return number(value);
+    }
+    let (lo, hi) = (number(below), number(above));
+    if lo == hi {
+        format!("{} ± {hi}", number(value))
+    } else {
+        format!("{} +{hi}/-{lo}", number(value))
+    }
+}
+
 /// A Julian date with its uncertainty in days: fixed decimals (two significant figures of
 /// the uncertainty, at least 4 and at most 8 places), never scientific notation.
 pub fn julian_date(jd: f64, below: f64, above: f64) -> String {

@@ -24,6 +24,13 @@ pub(super) fn default_for(q: Qty) -> Option<(f64, &'static str)> {
     })
 }
 
+/// An input asymmetric by this factor or more is skewed: first order does not describe it.
+const SKEWED_RATIO: f64 = 1.5;
+/// The factor is compared to a part in 10^4, so that one measurement written in another unit
+/// (`0.88 +0.03/-0.02 Rsun` as `95.9872 +3.27229/-2.18153 Rearth`, a ratio of 1.499998) is
+/// classed alike.
+const RATIO_TOLERANCE: f64 = 1e-4;
+
 impl<'m> Derivation<'m> {
     /// A new input of the engine: `key` is the quantity it is the value of (`None` for a
     /// literal in an expression or a prediction's scatter, which are always sampled).
@@ -70,7 +77,7 @@ impl<'m> Derivation<'m> {
         });
         let shape = if m.form.is_limit() {
             value::Shape::Uniform
-        } else if below.max(above) >= 1.5 * below.min(above) {
+        } else if below.max(above) >= SKEWED_RATIO * (1.0 - RATIO_TOLERANCE) * below.min(above) {
             value::Shape::Skewed
         } else {
             value::Shape::Normal

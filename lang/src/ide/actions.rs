@@ -240,7 +240,7 @@ fn convert_units(a: &Analysis, _src: &str, offset: usize) -> Vec<Action> {
         };
         let lit = match m.form {
             Form::Exact | Form::UpperLimit | Form::LowerLimit => crate::format::number(m.value / f),
-            _ => crate::format::literal_text(m.value / f, m.below / f, m.above / f),
+            _ => crate::format::converted_text(m.value / f, m.below / f, m.above / f),
         };
         out.push(Action {
             title: format!("Convert to {sym} ({name})"),
@@ -495,7 +495,33 @@ mod tests {
             .find(|x| x.title.starts_with("Convert to km/s"))
             .unwrap();
         let out = apply_edits(SRC, &c.edits);
-        assert!(out.contains("rv_amplitude = 0.0300 ± 0.0020 km/s"), "{out}");
+        assert!(out.contains("rv_amplitude = 0.03 ± 0.002 km/s"), "{out}");
+        // An asymmetric value keeps its sides to six figures: what derives from it does not
+        // move (rounding them to two digits moved a luminosity by 0.6 %).
+        let src = SRC.replace("radius = 1.0 ± 0.02 Rsun", "radius = 0.88 +0.03/-0.02 Rsun");
+        let (_, acts) = run(&src, "0.88");
+        let r0 = crate::analyze(FileId(0), &src, &crate::Settings::linear());
+        let c = acts
+            .iter()
+            .find(|x| x.title.starts_with("Convert to Rearth"))
+            .unwrap();
+        let out = apply_edits(&src, &c.edits);
+        assert!(out.contains("+3.27"), "{out}");
+        let r1 = crate::analyze(FileId(0), &out, &crate::Settings::linear());
+        let b = result(&r0, 0, 0, quantities::Qty::StarDensity).unwrap();
+        let a = result(&r1, 0, 0, quantities::Qty::StarDensity).unwrap();
+        assert!(
+            (b.value / a.value - 1.0).abs() < 1e-4,
+            "{} vs {}: {out}",
+            b.value,
+            a.value
+        );
+        assert!(
+            (b.above / a.above - 1.0).abs() < 1e-3,
+            "{} vs {}",
+            b.above,
+            a.above
+        );
         let a = crate::analyze(FileId(0), &out, &crate::Settings::linear());
         let before = result(&a0, 0, 1, quantities::Qty::RvAmplitude).unwrap();
         let after = result(&a, 0, 1, quantities::Qty::RvAmplitude).unwrap();
