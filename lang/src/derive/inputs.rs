@@ -295,9 +295,16 @@ impl<'m> Derivation<'m> {
                 _ => None,
             })
             .collect();
-        self.sources_disagree(body, &all);
         let marked = all.iter().position(|d| d.preferred);
-        let chosen = sources::choose(&measurements, marked, self.options.source_choice)?;
+        let chosen = sources::choose(&measurements, marked, self.options.source_choice);
+        // The index among the measurements is the index among all declarations when every
+        // one is a measurement (a text quantity is never chosen among).
+        let used = chosen
+            .as_ref()
+            .and_then(|c| c.index)
+            .filter(|_| measurements.len() == all.len());
+        self.sources_disagree(body, &all, used);
+        let chosen = chosen?;
         let cites: Vec<Vec<String>> = all
             .iter()
             .map(|d| d.citations.iter().map(|c| c.0.clone()).collect())
@@ -310,8 +317,14 @@ impl<'m> Derivation<'m> {
     }
 
     /// `sources-disagree` for each declaration of one quantity further than the consistency
-    /// threshold from an earlier one (reported once, against the first such).
-    fn sources_disagree(&mut self, body: &model::Body, all: &[&model::Declared]) {
+    /// threshold from an earlier one (reported once, against the first such, the value in
+    /// use first: its disagreements are the ones that matter).
+    fn sources_disagree(
+        &mut self,
+        body: &model::Body,
+        all: &[&model::Declared],
+        used: Option<usize>,
+    ) {
         let shown = |d: &model::Declared| {
             let Content::Measured(m) = &d.content else {
                 return None;
@@ -326,12 +339,23 @@ impl<'m> Derivation<'m> {
             let cites = crate::text::citation_mark(d.citations.iter().map(|c| c.0.as_str()));
             Some((*m, format!("{value} {} {cites}", unit.suffix())))
         };
+        let in_use = |i: usize| {
+            if used == Some(i) {
+                " (the value used)"
+            } else {
+                ""
+            }
+        };
         let k = self.options.consistency_sigma;
         for (j, later) in all.iter().enumerate() {
-            for earlier in all.iter().take(j) {
+            let mut earlier_ones: Vec<usize> = (0..j).collect();
+            earlier_ones.sort_by_key(|&i| used != Some(i));
+            for i in earlier_ones {
+                let Some(earlier) = all.get(i) else { continue };
                 let (Some((a, wa)), Some((b, wb))) = (shown(earlier), shown(later)) else {
                     continue;
                 };
+                let (wa, wb) = (format!("{wa}{}", in_use(i)), format!("{wb}{}", in_use(j)));
                 let Some(z) = sources::separation(&a, &b).filter(|z| *z > k) else {
                     continue;
                 };

@@ -825,7 +825,7 @@ fn sources_disagree_fires_on_inconsistent_declarations_and_not_on_consistent_one
         "{found:?}"
     );
     assert!(rules((&p("10.000 ± 0.001 d"), "period < 10.01 d")).is_empty());
-    // A third source far from both is reported once, against the first.
+    // A third source far from both is reported once, against the value in use.
     let three = TWO_PERIODS
         .replace("period = 10.0021 ± 0.0002 d", "period = 10.0005 ± 0.0002 d")
         .replace(" }\n}", "  period = 10.5 ± 0.001 d [disc, followup]\n }\n}");
@@ -836,7 +836,9 @@ fn sources_disagree_fires_on_inconsistent_declarations_and_not_on_consistent_one
         .collect();
     assert_eq!(d.len(), 1, "{d:?}");
     assert!(
-        d[0].labels[0].message.contains("[disc] declared here"),
+        d[0].labels[0]
+            .message
+            .contains("[followup] (the value used) declared here"),
         "{d:?}"
     );
 }
@@ -1199,4 +1201,25 @@ fn sampled_values_say_how_many_draws_were_left_out() {
         "{:?}",
         b.notes
     );
+}
+
+/// Of several sources, a later one that disagrees is compared with the value in use first:
+/// a new paper far from the value used is the finding that matters, not its distance from an
+/// older value nobody uses.
+#[test]
+fn a_disagreeing_source_is_compared_with_the_value_in_use_first() {
+    let src = "ref a \"Invented A\"\nref b \"Invented B\"\nref c \"Invented C\"\nsystem \"Marrow\" {\n star s { mass = 1 ± 0.05 Msun }\n planet b orbits s {\n  period = 7 ± 0.001 d\n  rv_amplitude = 48.1 +3.2/-2.9 m/s [a]\n  rv_amplitude = 51.0 ± 2.0 m/s [b]\n  rv_amplitude = 71.0 ± 3.0 m/s [c]\n }\n}\n";
+    let a = run(src, &Options::linear());
+    let found: Vec<&str> = a
+        .diagnostics
+        .iter()
+        .filter(|d| d.rule == crate::diagnostic::Rule::SourcesDisagree)
+        .map(|d| d.message.as_str())
+        .collect();
+    assert_eq!(found.len(), 1, "{found:?}");
+    assert!(
+        found[0].contains("51.0 ± 2.0 m/s [b] (the value used)"),
+        "{found:?}"
+    );
+    assert!(found[0].contains("71.0 ± 3.0 m/s [c]"), "{found:?}");
 }
