@@ -567,16 +567,39 @@ impl Importer {
             .iter()
             .find(|e| e.refs == d.refs || e.refs.is_empty() || d.refs.is_empty() || d.def.text)
             .or(same.first())
-            .map(|e| (e.row, e.op, e.text.clone()));
+            .map(|e| (e.row, e.op, e.text.clone(), e.refs.is_empty()));
         let id = body.id.clone();
         self.summary.skipped_cells += cells;
-        if let Some((r, op, text)) = first {
+        if let Some((r, op, text, uncited)) = first {
+            // Say what actually differs: the values, or only the citations (one row with an
+            // empty reference cell).
+            let why = if op == d.op && text == d.text {
+                let empty = if d.refs.is_empty() {
+                    "this row"
+                } else {
+                    "that row"
+                };
+                format!(
+                    "the same value, but {empty} cites no reference (its reference cell is empty), so the two cannot be told apart as sources; only row {r}'s is kept (fill in the reference to keep both)"
+                )
+            } else if d.refs.is_empty() || uncited {
+                let empty = if d.refs.is_empty() {
+                    "this row"
+                } else {
+                    "that row"
+                };
+                format!(
+                    "{empty} cites no reference (its reference cell is empty), so only row {r}'s value is kept (fill in the reference to keep both as sources)"
+                )
+            } else {
+                format!("the rows do not cite different sources, so only row {r}'s value is kept (add a reference column to keep both)")
+            };
             self.issue(
                 IssueKind::Conflict,
                 row,
                 Some(col),
                 format!(
-                    "{id}.{} {} {} here, but {} {} in row {r}; the rows do not cite different sources, so only row {r}'s value is kept (add a reference column to keep both)",
+                    "{id}.{} {} {} here, but {} {} in row {r}; {why}",
                     d.def.name, d.op, d.text, op, text
                 ),
             );

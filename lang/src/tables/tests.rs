@@ -177,6 +177,23 @@ fn two_papers_give_two_sources_and_the_same_paper_a_conflict() {
 }
 
 #[test]
+fn a_repeated_value_with_an_empty_reference_cell_says_so() {
+    // Row 2 repeats row 1's period with its reference cell empty: the values are the same,
+    // only the citation differs, and the message says that rather than a clash of values.
+    let csv = format!(
+        "{HEADER}Orrin,Orrin,b,,,,3.5,0.01,,,,,,P1 2030,\nOrrin,Orrin,b,,,,3.5,0.01,,,,,,,\n"
+    );
+    let r = import_csv(&csv, MAPPING);
+    assert_eq!(r.issues.len(), 1, "{:?}", r.issues);
+    let m = &r.issues[0].message;
+    assert!(
+        m.contains("the same value, but this row cites no reference"),
+        "{m}"
+    );
+    assert!(!m.contains("do not cite different sources"), "{m}");
+}
+
+#[test]
 fn a_planet_whose_host_is_missing_is_reported() {
     let csv =
         format!("{HEADER}Orrin,,Orrin b,Orrin B,,,3.5,,,,,,,,\nOrrin,Orrin A,,,0.9,,,,,,,,,,\n");
