@@ -145,6 +145,25 @@ pub fn lower(w: &WhatIf, kind: BodyKind) -> Result<Declared, String> {
             w.value
         ));
     }
+    let expression = || {
+        format!(
+            "the value '{}' is an expression; --set takes a measured value (a number with its \
+             uncertainty and unit, or a limit) or a text",
+            w.value
+        )
+    };
+    // An expression naming other values (`b.period * 2`) would be resolved in the sandbox
+    // this value is read in, whose bodies are not the file's: refused before that.
+    let plain = |e: &crate::ast::Expr| match &e.kind {
+        crate::ast::ExprKind::Literal(_) => true,
+        crate::ast::ExprKind::Neg(inner) => matches!(inner.kind, crate::ast::ExprKind::Literal(_)),
+        _ => false,
+    };
+    if let crate::ast::PropValue::Expr(e) = &prop.value {
+        if !plain(e) {
+            return Err(expression());
+        }
+    }
     let model = super::lower(file, &parsed.file, &mut diags);
     if let Some(e) = refused(&diags) {
         return Err(e);
@@ -157,11 +176,7 @@ pub fn lower(w: &WhatIf, kind: BodyKind) -> Result<Declared, String> {
         .next()
         .ok_or_else(|| format!("the value '{}' could not be read", w.value))?;
     if matches!(decl.content, Content::Expr(_)) {
-        return Err(format!(
-            "the value '{}' is an expression; --set takes a measured value (a number with its \
-             uncertainty and unit, or a limit) or a text",
-            w.value
-        ));
+        return Err(expression());
     }
     Ok(decl)
 }
@@ -389,6 +404,17 @@ mod tests {
         assert_eq!((m.value, m.form), (0.1, crate::model::Form::UpperLimit));
         let t = lower(&parse("s.spectral_type=\"K1V\"").unwrap(), BodyKind::Star).unwrap();
         assert_eq!(t.content, Content::Text("K1V".into()));
+        // An expression, with or without names of other values, is refused as one (not as
+        // a body missing from the sandbox it is read in).
+        for value in ["b.period*2", "s.period", "2 * 3 d"] {
+            let e = lower(
+                &parse(&format!("b.period={value}")).unwrap(),
+                BodyKind::Planet,
+            )
+            .unwrap_err();
+            assert!(e.contains("is an expression"), "{value}: {e}");
+            assert!(!e.contains("what-if"), "{value}: {e}");
+        }
     }
 
     #[test]
