@@ -198,7 +198,17 @@ impl Importer {
             None => system.clone(),
         };
         let planet_name = cell(plan.planet).to_string();
+        let known = self.systems.len();
         let si = self.system(&system);
+        if si == known {
+            self.same_but_for_case(row, "system", &system, |b| {
+                b.systems
+                    .iter()
+                    .take(known)
+                    .map(|s| s.name.clone())
+                    .collect()
+            });
+        }
         // The row's references.
         let mut row_refs = BTreeSet::new();
         for &c in &plan.ref_text {
@@ -380,7 +390,41 @@ impl Importer {
             cells: 0,
         });
         sys.index.insert((kind, name.to_string()), b);
+        self.same_but_for_case(row, kind.as_str(), name, |imp| {
+            imp.systems.get(si).map_or_else(Vec::new, |s| {
+                s.bodies
+                    .iter()
+                    .take(b)
+                    .filter(|x| x.kind == kind)
+                    .map(|x| x.table_name.clone())
+                    .collect()
+            })
+        });
         b
+    }
+
+    /// A `name-case` issue when a new name equals an earlier one but for letter case
+    /// (`OSPRETH` and `Ospreth`): they are kept apart, as written, but are probably one.
+    fn same_but_for_case(
+        &mut self,
+        row: &Row,
+        what: &str,
+        name: &str,
+        earlier: impl Fn(&Self) -> Vec<String>,
+    ) {
+        if let Some(other) = earlier(self)
+            .into_iter()
+            .find(|e| e != name && e.eq_ignore_ascii_case(name))
+        {
+            self.issue(
+                IssueKind::NameCase,
+                row,
+                None,
+                format!(
+                    "{what} `{name}` differs from `{other}` only in letter case; they are kept apart as written (write the names alike if they are one {what})"
+                ),
+            );
+        }
     }
 
     /// The id of a reference text (the key column's cell made a name when given, else a name

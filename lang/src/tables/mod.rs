@@ -134,10 +134,12 @@ pub enum IssueKind {
     /// An uncertainty or other cell that cannot be used with its value (an uncertainty on a
     /// limit, an uncertainty without a value).
     Unused,
+    /// A system or body name equal to an earlier one but for letter case.
+    NameCase,
 }
 
 impl IssueKind {
-    pub const ALL: [IssueKind; 8] = [
+    pub const ALL: [IssueKind; 9] = [
         IssueKind::BadNumber,
         IssueKind::OutOfRange,
         IssueKind::MissingName,
@@ -146,6 +148,7 @@ impl IssueKind {
         IssueKind::BadLimitCode,
         IssueKind::ExtraCells,
         IssueKind::Unused,
+        IssueKind::NameCase,
     ];
 
     pub fn id(self) -> &'static str {
@@ -158,6 +161,7 @@ impl IssueKind {
             IssueKind::BadLimitCode => "bad-limit-code",
             IssueKind::ExtraCells => "extra-cells",
             IssueKind::Unused => "unused-cell",
+            IssueKind::NameCase => "name-case",
         }
     }
 }

@@ -194,6 +194,38 @@ fn a_repeated_value_with_an_empty_reference_cell_says_so() {
 }
 
 #[test]
+fn names_that_differ_only_in_case_are_pointed_out() {
+    // `OSPRETH` and `Ospreth`, `orrin b` and `Orrin b`: kept apart as written, each pointed
+    // out once at the row that introduces it.
+    let csv = format!(
+        "{HEADER}Ospreth,Ospreth,Ospreth b,,0.9,0.03,3.5,0.01,,,,,,P1 2030,\nOSPRETH,Ospreth,Ospreth b,,0.9,0.03,,,,,,,,P1 2030,\nOspreth,Ospreth,ospreth b,,,,3.5,0.01,,,,,,P2 2031,\n"
+    );
+    let r = import_csv(&csv, MAPPING);
+    let cases: Vec<(usize, &str)> = r
+        .issues
+        .iter()
+        .filter(|i| i.kind == IssueKind::NameCase)
+        .map(|i| (i.row, i.message.as_str()))
+        .collect();
+    assert_eq!(cases.len(), 2, "{:?}", r.issues);
+    assert_eq!(cases[0].0, 2);
+    assert!(
+        cases[0]
+            .1
+            .contains("system `OSPRETH` differs from `Ospreth`"),
+        "{cases:?}"
+    );
+    assert_eq!(cases[1].0, 3);
+    assert!(cases[1].1.contains("planet `ospreth b`"), "{cases:?}");
+    // Exactly repeated names raise nothing.
+    let same = format!("{HEADER}Orrin,Orrin,b,,0.9,0.03,,,,,,,,P1 2030,\nOrrin,Orrin,b,,,,3.5,0.01,,,,,,P1 2030,\n");
+    assert!(import_csv(&same, MAPPING)
+        .issues
+        .iter()
+        .all(|i| i.kind != IssueKind::NameCase));
+}
+
+#[test]
 fn a_planet_whose_host_is_missing_is_reported() {
     let csv =
         format!("{HEADER}Orrin,,Orrin b,Orrin B,,,3.5,,,,,,,,\nOrrin,Orrin A,,,0.9,,,,,,,,,,\n");
