@@ -170,7 +170,9 @@ fn names_from_the_table_never_leave_the_output_folder() {
     }
     csv.push_str(&format!("{},b,1.0,,3.0,,\n", "x".repeat(5000)));
     let o = import(&dir, &csv, &[]);
-    assert_eq!(o.status.code(), Some(0), "{}{}", stdout(&o), stderr(&o));
+    // `Orrin` and `orrin` differ only in case: pointed out (exit 1), and both still written.
+    assert_eq!(o.status.code(), Some(1), "{}{}", stdout(&o), stderr(&o));
+    assert!(stderr(&o).contains("[name-case]"), "{}", stderr(&o));
     let out = dir.join("out");
     let files = files_in(&out);
     assert_eq!(files.len(), hostile.len() + 1, "{files:?}");
