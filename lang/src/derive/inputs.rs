@@ -122,12 +122,7 @@ impl<'m> Derivation<'m> {
                     None => (m, None),
                 };
                 let (lo, hi) = def.limits();
-                let usable = match m.form {
-                    Form::UpperLimit => lo.is_finite(),
-                    Form::LowerLimit => hi.is_finite(),
-                    _ => true,
-                };
-                if !usable {
+                if !m.can_be_sampled(def) {
                     let mut d = Diagnostic::new(
                         Rule::NotDerivable,
                         used.span,
@@ -219,10 +214,9 @@ impl<'m> Derivation<'m> {
                     }
                     // A circular orbit declared exactly (`eccentricity = 0`) has no
                     // orientation to spread: the default applies, as when nothing is declared.
-                    let circular = body.get(Qty::Eccentricity).is_some_and(|d| {
-                        matches!(&d.content, Content::Measured(m)
-                            if m.value == 0.0 && m.below == 0.0 && m.above == 0.0 && !m.form.is_limit())
-                    });
+                    let circular = body.get(Qty::Eccentricity).is_some_and(
+                        |d| matches!(&d.content, Content::Measured(m) if m.is_exactly(0.0)),
+                    );
                     if q == Qty::ArgPeriastron && body.get(Qty::Eccentricity).is_some() && !circular
                     {
                         // An eccentric orbit of unknown orientation: every orientation is

@@ -283,10 +283,8 @@ fn choose_source(a: &Analysis, src: &str, offset: usize) -> Vec<Action> {
     };
     // A lower limit with no upper bound cannot be used: choosing it would leave the
     // quantity without a value for every derivation.
-    if let crate::model::Content::Measured(m) = &this.content {
-        if m.form == crate::model::Form::LowerLimit && !def.limits().1.is_finite() {
-            return Vec::new();
-        }
+    if matches!(&this.content, crate::model::Content::Measured(m) if !m.can_be_sampled(def)) {
+        return Vec::new();
     }
     // The marks on the declarations of this quantity, as written.
     let marks: Vec<(Span, Option<Span>)> = b
@@ -501,10 +499,7 @@ mod tests {
         let src = SRC.replace("radius = 1.0 ± 0.02 Rsun", "radius = 0.88 +0.03/-0.02 Rsun");
         let (_, acts) = run(&src, "0.88");
         let r0 = crate::analyze(FileId(0), &src, &crate::Settings::linear());
-        let c = acts
-            .iter()
-            .find(|x| x.title.starts_with("Convert to Rearth"))
-            .unwrap();
+        let c = titled(&acts, "Convert to Rearth").unwrap();
         let out = apply_edits(&src, &c.edits);
         assert!(out.contains("+3.27"), "{out}");
         let r1 = crate::analyze(FileId(0), &out, &crate::Settings::linear());

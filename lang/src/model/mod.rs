@@ -57,6 +57,25 @@ pub struct Measurement {
     pub form: Form,
 }
 
+impl Measurement {
+    /// Whether the derivations can use it as a quantity `def`: a limit is sampled up to the
+    /// other end of the quantity's range, so that end must be finite (`mass > 1 Mjup` has
+    /// none).
+    pub fn can_be_sampled(&self, def: &crate::quantities::QuantityDef) -> bool {
+        let (lo, hi) = def.limits();
+        match self.form {
+            Form::UpperLimit => lo.is_finite(),
+            Form::LowerLimit => hi.is_finite(),
+            _ => true,
+        }
+    }
+
+    /// Exactly `v`: no uncertainty, and not a limit (`eccentricity = 0`).
+    pub fn is_exactly(&self, v: f64) -> bool {
+        self.value == v && self.below == 0.0 && self.above == 0.0 && !self.form.is_limit()
+    }
+}
+
 #[derive(Debug, Clone, PartialEq)]
 pub enum Content {
     Measured(Measurement),

@@ -2,7 +2,7 @@
 //! either kept in a declaration or named in an [`Issue`]; nothing is dropped quietly.
 
 use super::mapping::{Plan, QuantityPlan};
-use super::names::syzygy_name;
+use super::names::{ref_name, syzygy_name};
 use super::{Column, Issue, IssueKind, Mapping, MappingError, Row};
 use crate::ast::BodyKind;
 use crate::quantities::QuantityDef;
@@ -780,26 +780,4 @@ fn shorten(s: &str) -> String {
         let head: String = s.chars().take(40).collect();
         format!("{head}…")
     }
-}
-
-/// An id made from a reference's text: its first word and first four-digit number, lower
-/// case (`Orlen et al. 2031, invented journal` is `orlen2031`).
-fn ref_name(text: &str) -> String {
-    let word: String = text
-        .split(|c: char| !c.is_ascii_alphabetic())
-        .find(|w| !w.is_empty())
-        .unwrap_or("")
-        .to_ascii_lowercase();
-    let year = text
-        .as_bytes()
-        .windows(4)
-        .enumerate()
-        .find(|(i, w)| {
-            w.iter().all(u8::is_ascii_digit)
-                && !text.as_bytes().get(i + 4).is_some_and(u8::is_ascii_digit)
-                && (*i == 0 || !text.as_bytes().get(i - 1).is_some_and(u8::is_ascii_digit))
-        })
-        .and_then(|(i, _)| text.get(i..i + 4))
-        .unwrap_or("");
-    syzygy_name(&format!("{word}{year}"), "ref")
 }

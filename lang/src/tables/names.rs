@@ -47,6 +47,28 @@ const DEVICES: &[&str] = &[
 
 /// A file stem for a system's name: lower-case ASCII letters, digits and single `-`, at most
 /// 64 characters, never empty, never starting with `-` or `.`, never a Windows device name.
+/// An id made from a reference's text: its first word and first four-digit number, lower
+/// case (`Orlen et al. 2031, invented journal` is `orlen2031`).
+pub fn ref_name(text: &str) -> String {
+    let word: String = text
+        .split(|c: char| !c.is_ascii_alphabetic())
+        .find(|w| !w.is_empty())
+        .unwrap_or("")
+        .to_ascii_lowercase();
+    let year = text
+        .as_bytes()
+        .windows(4)
+        .enumerate()
+        .find(|(i, w)| {
+            w.iter().all(u8::is_ascii_digit)
+                && !text.as_bytes().get(i + 4).is_some_and(u8::is_ascii_digit)
+                && (*i == 0 || !text.as_bytes().get(i - 1).is_some_and(u8::is_ascii_digit))
+        })
+        .and_then(|(i, _)| text.get(i..i + 4))
+        .unwrap_or("");
+    syzygy_name(&format!("{word}{year}"), "ref")
+}
+
 /// Different names can give the same stem; the front end adds a suffix then.
 pub fn file_stem(system: &str) -> String {
     let mut out = String::new();

@@ -49,6 +49,7 @@ pub const MAX_VALUE_TOKENS: usize = 256;
 /// five million errors and took two gigabytes).
 pub const MAX_SYNTAX_ERRORS: usize = 1000;
 
+mod names;
 mod value;
 
 use value::{value_parser, ValueParser};
@@ -675,18 +676,10 @@ impl<'a> Cursor<'a> {
                 }
                 Some(_) => {
                     let here = self.peek_token().map_or(0, |t| t.start);
-                    let line = self.src.get(here..).unwrap_or("");
-                    let line = line.split(['\n', ';']).next().unwrap_or("");
+                    let help = names::bracketed_name_help(self.src.get(here..).unwrap_or(""));
                     self.expect_error("a property name, 'let' or '}'");
-                    // `[Fe/H] = 0.12`: the metallicity as papers head its column.
-                    let bracketed = line.trim_start().to_ascii_lowercase();
-                    if bracketed.starts_with("[fe/h]") || bracketed.starts_with("[m/h]") {
-                        if let Some(d) = self.diags.last_mut() {
-                            d.help = Some(
-                                "the metallicity is written `metallicity = VALUE dex` (or `feh`)"
-                                    .to_string(),
-                            );
-                        }
+                    if let (Some(d), Some(h)) = (self.diags.last_mut(), help) {
+                        d.help = Some(h.to_string());
                     }
                     self.skip_line();
                 }
@@ -758,18 +751,9 @@ impl<'a> Cursor<'a> {
                     self.found()
                 );
                 let span = self.span_here();
-                // `Rp/Rs = 0.108`, `a/R* = 10.1`: a ratio written as a fraction.
-                let ratio = (self.peek() == Some(Tok::Slash))
-                    .then(|| {
-                        let rest = self.src.get(name.span.start as usize..)?;
-                        let written = rest.split(['=', '<', '>', '\n', ';']).next()?.trim();
-                        crate::quantities::ratio_name(written).map(|q| (written.to_string(), q))
-                    })
-                    .flatten();
-                let help = match ratio {
-                    Some((written, q)) => format!("`{written}` is written `{q}`: `{q} = VALUE`"),
-                    None => format!("write `{} = VALUE UNIT`", name.name),
-                };
+                let slash = self.peek() == Some(Tok::Slash);
+                let from_name = self.src.get(name.span.start as usize..).unwrap_or("");
+                let help = names::property_name_help(&name.name, from_name, slash);
                 self.diags
                     .push(Diagnostic::new(Rule::Syntax, span, msg).with_help(help));
                 self.skip_line();
