@@ -111,6 +111,7 @@ pub fn run(args: &Args, flags: &syzygy::settings::Layer, read: files::ReadArgs) 
             return 1;
         }
     };
+    let warnings = eph.warnings(&transits);
     let mut assumptions = eph.assumptions.clone();
     assumptions.extend(eph.time_assumptions(&transits));
     let site = flag_site.or(one.settings.site);
@@ -203,6 +204,7 @@ pub fn run(args: &Args, flags: &syzygy::settings::Layer, read: files::ReadArgs) 
                         })).collect::<Vec<_>>(),
                     })),
                 })).collect::<Vec<_>>(),
+                "warnings": warnings,
                 "assumptions": assumptions,
             });
             println!("{}", serde_json::to_string_pretty(&doc).unwrap_or_default());
@@ -237,18 +239,20 @@ pub fn run(args: &Args, flags: &syzygy::settings::Layer, read: files::ReadArgs) 
                 "n", "mid-transit (UTC)", jd_head, "± 1 sigma"
             );
             for (t, v) in &rows {
-                let minutes = t.sigma_days * 24.0 * 60.0;
                 println!(
-                    "  {:>7}  {:<22}  {:<18.6}  {:>10.1} min",
-                    t.n, t.utc, t.jd, minutes
+                    "  {:>7}  {:<22}  {:<18.6}  {:>14}",
+                    t.n,
+                    t.utc,
+                    t.jd,
+                    ephemeris::sigma_text(t.sigma_days)
                 );
                 if let Some(c) = &t.contacts {
                     println!(
-                        "  {:>7}  ingress {}  egress {}  (± {:.1} min each)",
+                        "  {:>7}  ingress {}  egress {}  (± {} each)",
                         "",
                         c.ingress_utc,
                         c.egress_utc,
-                        c.sigma_days * 24.0 * 60.0
+                        ephemeris::sigma_text(c.sigma_days)
                     );
                 }
                 if let Some(v) = v {
@@ -280,11 +284,22 @@ pub fn run(args: &Args, flags: &syzygy::settings::Layer, read: files::ReadArgs) 
             if rows.is_empty() {
                 println!("  (none of the {total} transits looked at is observable)");
             }
+            for w in &warnings {
+                println!("\nwarning: {w}");
+            }
             println!("\nassumed:");
             for s in &assumptions {
                 println!("  - {s}");
             }
         }
+    }
+    let bad = a
+        .diagnostics
+        .iter()
+        .filter(|d| d.severity == syzygy::diagnostic::Severity::Error)
+        .count();
+    if bad > 0 {
+        eprintln!("note: the file has {bad} error(s); run `syz check` on it");
     }
     0
 }

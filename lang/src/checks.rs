@@ -400,8 +400,13 @@ fn transit_geometry(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
                 Rule::TransitGeometry,
                 anchor(d, bi, &[Qty::Impact, Qty::Inclination]),
                 format!(
-                    "{} has a transit depth but its impact parameter b = {:.3} exceeds 1 + k = {:.3}: the planet never crosses the stellar disc",
+                    "{} has a {} but its impact parameter b = {:.3} exceeds 1 + k = {:.3}: the planet never crosses the stellar disc",
                     body.id,
+                    if body.get(Qty::TransitDepth).is_some() {
+                        "transit depth"
+                    } else {
+                        "radius ratio from a transit"
+                    },
                     b,
                     1.0 + k
                 ),

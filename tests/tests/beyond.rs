@@ -196,9 +196,39 @@ fn ephemeris_lists_transits_with_growing_uncertainty() {
         .iter()
         .any(|a| a.as_str().unwrap().contains("±8.3 min")));
 
+    assert_eq!(v["warnings"].as_array().map(Vec::len), Some(0), "{v}");
+
     let o = run(&["ephemeris", "examples/veyra.syz", "b", "--count", "2"]);
     assert!(o.status.success());
     assert!(stdout(&o).contains("mid-transit (UTC)"), "{}", stdout(&o));
+
+    // A period known to 2 %: after 141 orbits the uncertainty is 28 days, almost three
+    // periods, which the listing says instead of printing 40,608 minutes as a prediction.
+    let dir = scratch("lost-ephemeris");
+    let file = dir.join("lost.syz");
+    std::fs::write(
+        &file,
+        "system \"Vellum\" {\n  star v { mass = 0.9 ± 0.02 Msun; radius = 0.9 ± 0.02 Rsun }\n  planet b orbits v {\n    period = 10.0 ± 0.2 d\n    transit_epoch = 2460000.5 ± 0.01 BJD_TDB\n  }\n}\n",
+    )
+    .unwrap();
+    let path = file.to_str().unwrap();
+    let o = run(&[
+        "ephemeris",
+        path,
+        "b",
+        "--from",
+        "2027-01-01",
+        "--count",
+        "1",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let text = stdout(&o);
+    assert!(text.contains("28.2 d"), "{text}");
+    assert!(!text.contains("40608"), "{text}");
+    assert!(
+        text.contains("warning: the ephemeris is lost from transit n = 141 on"),
+        "{text}"
+    );
 
     let o = run(&["ephemeris", "examples/veyra.syz", "c"]);
     assert_eq!(o.status.code(), Some(1));

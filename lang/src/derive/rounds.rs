@@ -8,7 +8,7 @@ pub(super) fn rule_assumption(id: &str) -> Option<&'static str> {
         "depth-radius-ratio" | "radius-ratio-depth" => {
             "transit depth = (Rp/R*)^2: limb darkening neglected"
         }
-        "depth-impact-radius-ratio" => {
+        "depth-impact-radius-ratio" | "radius-ratio-impact-depth" => {
             "transit depth = the fraction of the star's disc the planet covers at mid-transit \
              ((Rp/R*)^2 unless grazing): limb darkening neglected"
         }

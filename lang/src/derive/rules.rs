@@ -84,9 +84,9 @@ pub fn stands_in_for(id: &str) -> Option<Qty> {
         | "tsm-predicted-mass"
         | "predicted-radius-min-mass" => Some(Mass),
         "predicted-radius" => Some(Radius),
-        // sqrt(depth) takes the transit as not grazing, which only the impact parameter
-        // can tell (see `depth-impact-radius-ratio`).
-        "depth-radius-ratio" => Some(Impact),
+        // sqrt(depth) and k^2 take the transit as not grazing, which only the impact
+        // parameter can tell (see `depth-impact-radius-ratio`, `radius-ratio-impact-depth`).
+        "depth-radius-ratio" | "radius-ratio-depth" => Some(Impact),
         _ => None,
     }
 }
@@ -355,6 +355,17 @@ pub static RULES: &[RuleDef] = &[
         eval: |x| {
             args!(x, [d, b]);
             f::radius_ratio_from_depth_and_impact(d, b)
+        },
+    },
+    RuleDef {
+        id: "radius-ratio-impact-depth",
+        formula: "depth = overlap of the planet's and the star's discs at separation b, over pi (no limb darkening): k^2 unless the transit is grazing (b > 1 - k), none once b >= 1 + k",
+        output: P(TransitDepth),
+        inputs: &[P(RadiusRatio), P(Impact)],
+        tier: 0,
+        eval: |x| {
+            args!(x, [k, b]);
+            f::depth_from_radius_ratio_and_impact(k, b)
         },
     },
     RuleDef {

@@ -376,7 +376,7 @@ impl<'m> Derivation<'m> {
         if key.1 == Qty::HabitableZonePosition {
             notes.extend(self.habitable_note(key));
         }
-        if key.1 == Qty::RadiusRatio {
+        if matches!(key.1, Qty::RadiusRatio | Qty::TransitDepth) {
             notes.extend(self.grazing_note(key, entry));
         }
         let form = if form == Form::Asymmetric && ((above - below).abs() <= 1e-3 * above.max(below))
@@ -466,18 +466,33 @@ impl<'m> Derivation<'m> {
 }
 
 impl Derivation<'_> {
-    /// On a grazing transit, what that means for the radius ratio: it was solved from the
-    /// depth and the impact parameter, and rests heavily on the latter.
+    /// On a grazing transit, what that means for the radius ratio and the depth: which of the
+    /// two was found from the other and the impact parameter, and that there is no full
+    /// duration.
     fn grazing_note(&self, key: Key, entry: &Entry) -> Option<String> {
         let b = self.entries.get(&(key.0, Qty::Impact))?.value.nominal;
-        let k = entry.value.nominal;
-        crate::physics::formulas::is_grazing(k, b).then(|| {
-            format!(
-                "grazing transit: the impact parameter {} exceeds 1 - k = {}, so only part of the planet's disc covers the star; k is solved from the depth and b (not sqrt(depth)) and rests heavily on b, and there is no full (T23) duration",
-                crate::format::sig(b, 3),
-                crate::format::sig(1.0 - k, 3)
-            )
-        })
+        let k = self.entries.get(&(key.0, Qty::RadiusRatio))?.value.nominal;
+        // Past 1 + k there is no transit at all, which the transit-geometry check reports.
+        if !crate::physics::formulas::is_grazing(k, b) || b.abs() >= 1.0 + k {
+            return None;
+        }
+        let rule = entry.rule.and_then(|r| RULES.get(r)).map(|r| r.id);
+        let how = match (key.1, rule) {
+            (Qty::RadiusRatio, Some("depth-impact-radius-ratio")) => {
+                "; k is solved from the depth and b (not sqrt(depth)) and rests heavily on b,"
+            }
+            (Qty::TransitDepth, Some("radius-ratio-impact-depth")) => {
+                "; the depth is the covered fraction of the star's disc, less than k^2, and rests heavily on b,"
+            }
+            // The depth note is enough where neither was found from the other.
+            (Qty::TransitDepth, _) => return None,
+            _ => ",",
+        };
+        Some(format!(
+            "grazing transit: the impact parameter {} exceeds 1 - k = {}, so only part of the planet's disc covers the star{how} and there is no full (T23) duration",
+            crate::format::sig(b, 3),
+            crate::format::sig(1.0 - k, 3)
+        ))
     }
 
     /// Where a planet lies against its star's habitable zones, as probabilities from the

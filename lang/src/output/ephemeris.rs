@@ -248,6 +248,43 @@ impl Ephemeris {
         (0..count as i64).map(|i| self.transit(first + i)).collect()
     }
 
+    /// What could make the listed times mislead: the first listed transit whose uncertainty
+    /// makes its orbit number doubtful (the ephemeris is lost), else the first whose
+    /// uncertainty exceeds the transit's own duration (a window of one sigma may miss it).
+    pub fn warnings(&self, transits: &[Transit]) -> Vec<String> {
+        let quarter = self.period_days / 4.0;
+        if let Some(t) = transits.iter().find(|t| t.sigma_days > quarter) {
+            return vec![format!(
+                "the ephemeris is lost from transit n = {} on: its uncertainty ({}) exceeds a \
+                 quarter of the period ({} d), so the two-sigma window spans a whole orbit and \
+                 which orbit a transit belongs to cannot be told; these times (and whether \
+                 they are observable) are not predictions: a new transit time or a better \
+                 period is needed (common practice)",
+                t.n,
+                sigma_text(t.sigma_days),
+                crate::format::sig(self.period_days, 4)
+            )];
+        }
+        let Some((duration, _)) = self.duration_days else {
+            return Vec::new();
+        };
+        transits
+            .iter()
+            .find(|t| t.sigma_days > duration)
+            .map(|t| {
+                format!(
+                    "from transit n = {} on, the uncertainty of mid-transit ({}) exceeds the \
+                     transit's own duration ({}): a window of one sigma either side may miss \
+                     it; plan for several sigma or refine the ephemeris (common practice)",
+                    t.n,
+                    sigma_text(t.sigma_days),
+                    sigma_text(duration)
+                )
+            })
+            .into_iter()
+            .collect()
+    }
+
     /// What the listed times take for granted beyond the ephemeris itself.
     pub fn time_assumptions(&self, transits: &[Transit]) -> Vec<String> {
         let mut out = Vec::new();
@@ -268,6 +305,19 @@ impl Ephemeris {
             out.push(time::NO_FUTURE_LEAP_SECONDS.to_string());
         }
         out
+    }
+}
+
+/// A standard uncertainty of a time, in days, in the unit that reads best: minutes up to
+/// two hours, hours up to two days, days beyond.
+pub fn sigma_text(days: f64) -> String {
+    let minutes = days * 24.0 * 60.0;
+    if minutes < 120.0 {
+        format!("{minutes:.1} min")
+    } else if minutes < 48.0 * 60.0 {
+        format!("{:.2} h", days * 24.0)
+    } else {
+        format!("{} d", crate::format::sig(days, 3))
     }
 }
 
@@ -405,6 +455,37 @@ mod tests {
         }
         // Far from the epoch the period's term dominates: linear growth.
         assert!((e.sigma_at(10_000) / e.sigma_at(5_000) - 2.0).abs() < 1e-3);
+    }
+
+    #[test]
+    fn a_lost_ephemeris_and_a_window_wider_than_the_transit_are_said() {
+        // P = 10 ± 0.2 d: after 141 orbits the uncertainty is 28 days, almost 3 periods.
+        let lost = SRC.replace("2.5 ± 0.0001 d", "10 ± 0.2 d");
+        let a = analysis(&lost);
+        let e = Ephemeris::of(&a, 0, 1).unwrap();
+        let near = e.upcoming(2_460_001.0, 1).unwrap();
+        assert_eq!(near[0].n, 1);
+        assert!(e.warnings(&near).is_empty(), "{:?}", e.warnings(&near));
+        let far = e.upcoming(2_461_400.0, 3).unwrap();
+        let w = e.warnings(&far);
+        assert_eq!(w.len(), 1);
+        assert!(
+            w[0].starts_with("the ephemeris is lost from transit n = 141 on"),
+            "{w:?}"
+        );
+        assert!(w[0].contains("28.2 d"), "{w:?}");
+        // With a duration known, a sigma past it is said before the ephemeris is lost.
+        let mut e = e;
+        e.duration_days = Some((0.125, 0.001));
+        let mid = e.upcoming(2_460_010.0, 1).unwrap();
+        let w = e.warnings(&mid);
+        assert!(
+            w[0].contains("exceeds the transit's own duration (3.00 h)"),
+            "{w:?}"
+        );
+        assert_eq!(sigma_text(0.001), "1.4 min");
+        assert_eq!(sigma_text(0.5), "12.00 h");
+        assert_eq!(sigma_text(28.2), "28.2 d");
     }
 
     #[test]

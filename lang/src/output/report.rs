@@ -811,6 +811,43 @@ mod tests {
     }
 
     #[test]
+    fn a_declared_radius_ratio_on_a_grazing_orbit_predicts_the_covered_fraction() {
+        // k = 0.1 at b = 0.98 covers 0.616 % of a uniform star (Mandel & Agol 2002 eq. 1,
+        // evaluated with numpy), where k^2 would say 1 %.
+        let src = "system \"S\" {\n star s { mass = 1 ± 0.03 Msun; radius = 1 ± 0.02 Rsun }\n planet b orbits s {\n  period = 3 ± 0.0001 d\n  radius_ratio = 0.1 ± 0.002\n  impact = 0.98 ± 0.02\n }\n}\n";
+        let a = crate::analyze(FileId(0), src, &crate::Settings::linear());
+        let depth = a.results[0].bodies[1].get(Qty::TransitDepth).unwrap();
+        assert_eq!(depth.rule, Some("radius-ratio-impact-depth"));
+        assert!((depth.value - 0.006163).abs() < 2e-5, "{}", depth.value);
+        assert!(
+            depth.notes.iter().any(|n| n.contains("less than k^2")),
+            "{:?}",
+            depth.notes
+        );
+        // The declared k is not said to be solved from the depth.
+        let k = a.results[0].bodies[1].get(Qty::RadiusRatio).unwrap();
+        assert!(
+            k.notes.iter().all(|n| !n.contains("solved from the depth")),
+            "{:?}",
+            k.notes
+        );
+        // Past 1 + k: no depth at all, and no grazing note, only the geometry error.
+        let none = src.replace("0.98 ± 0.02", "1.2 ± 0.02");
+        let a = crate::analyze(FileId(0), &none, &crate::Settings::linear());
+        assert!(a.results[0].bodies[1].get(Qty::TransitDepth).is_none());
+        let k = a.results[0].bodies[1].get(Qty::RadiusRatio).unwrap();
+        assert!(
+            k.notes.iter().all(|n| !n.contains("grazing")),
+            "{:?}",
+            k.notes
+        );
+        assert!(a
+            .diagnostics
+            .iter()
+            .any(|d| d.message.contains("never crosses")));
+    }
+
+    #[test]
     fn a_value_without_a_route_says_what_each_route_lacks() {
         // An RV-only planet: the minimum mass follows, the true mass needs the inclination.
         let src = "system \"S\" {\n star s { mass = 1 ± 0.05 Msun }\n planet b orbits s { period = 4.2 d; rv_amplitude = 55 ± 2 m/s }\n planet c { period = 9 d }\n}\n";

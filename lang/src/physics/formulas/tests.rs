@@ -804,3 +804,39 @@ fn grazing_transits_need_a_larger_radius_ratio_than_sqrt_depth() {
     assert!(radius_ratio_from_depth_and_impact(1.2, 0.5).is_none());
     assert!(radius_ratio_from_depth_and_impact(0.01, f64::NAN).is_none());
 }
+
+#[test]
+fn the_depth_of_a_grazing_transit_is_the_covered_fraction_not_k_squared() {
+    // Not grazing: exactly k^2.
+    for (k, b) in [(0.1, 0.0), (0.1, 0.9), (0.01, 0.99)] {
+        assert_eq!(
+            depth_from_radius_ratio_and_impact(k, b),
+            Some(k * k),
+            "k {k}, b {b}"
+        );
+    }
+    // Grazing: the covered fraction, below k^2, and the inverse of the depth's k.
+    for (k, b) in [
+        (0.1, 0.95),
+        (0.1, 0.98),
+        (0.1, 1.08),
+        (0.15, 1.1),
+        (0.3, 0.9),
+    ] {
+        let depth = depth_from_radius_ratio_and_impact(k, b).unwrap();
+        let expected = covered_fraction(k, b);
+        assert!((depth - expected).abs() < 1e-12, "{depth} vs {expected}");
+        assert!(depth < k * k);
+        let back = radius_ratio_from_depth_and_impact(depth, b).unwrap();
+        assert!((back - k).abs() < 1e-8 * k, "{back} vs {k}");
+    }
+    // k = 0.1 at b = 0.98 covers 0.616 % of the star, not the 1 % of k^2 (an outside check
+    // of this case, Mandel & Agol 2002 eq. 1 evaluated with numpy, gave 0.616 %).
+    let d = depth_from_radius_ratio_and_impact(0.1, 0.98).unwrap();
+    assert!((d - 0.00616).abs() < 5e-6, "{d}");
+    // No transit at b >= 1 + k; nothing for a k that is not positive or a b not a number.
+    assert!(depth_from_radius_ratio_and_impact(0.1, 1.1).is_none());
+    assert!(depth_from_radius_ratio_and_impact(0.1, 1.5).is_none());
+    assert!(depth_from_radius_ratio_and_impact(0.0, 0.5).is_none());
+    assert!(depth_from_radius_ratio_and_impact(0.1, f64::NAN).is_none());
+}

@@ -20,6 +20,25 @@ pub fn depth_from_radius_ratio(radius_ratio: f64) -> Option<f64> {
     finite_f64(radius_ratio * radius_ratio)
 }
 
+/// Transit depth from the radius ratio and the impact parameter, without limb darkening: the
+/// fraction of the star's disc the planet's disc covers at mid-transit, their overlap area
+/// over pi at separation `b` (Mandel & Agol 2002, eq. 1). That is `k^2` while the planet's
+/// disc lies wholly on the star's (`b <= 1 - k`), less on a grazing transit, and there is no
+/// transit (`None`) once `b >= 1 + k`. `None` too for a non-positive or non-finite `k` or
+/// a `b` that is not a number.
+pub fn depth_from_radius_ratio_and_impact(radius_ratio: f64, impact: f64) -> Option<f64> {
+    let full = depth_from_radius_ratio(radius_ratio)?;
+    let b = impact.abs();
+    if !b.is_finite() {
+        return None;
+    }
+    if b <= 1.0 - radius_ratio {
+        return Some(full);
+    }
+    let depth = crate::physics::lightcurve::uniform_blocked(radius_ratio, b);
+    (depth > 0.0).then_some(depth).and_then(finite_f64)
+}
+
 /// Radius ratio from the transit depth, `k = Rp / R* = sqrt(depth)` (Winn 2010 sec. 2). This is
 /// the no-limb-darkening approximation: a limb-darkened star makes a central transit deeper than
 /// `k^2`, so this `k` is an estimate. `depth` is a fraction (84 ppm = 8.4e-5). `None` for a
