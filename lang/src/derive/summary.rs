@@ -379,6 +379,9 @@ impl<'m> Derivation<'m> {
         if matches!(key.1, Qty::RadiusRatio | Qty::TransitDepth) {
             notes.extend(self.grazing_note(key, entry));
         }
+        if key.1 == Qty::Tsm {
+            notes.extend(self.tsm_bin_note(key));
+        }
         let form = if form == Form::Asymmetric && ((above - below).abs() <= 1e-3 * above.max(below))
         {
             Form::Symmetric
@@ -493,6 +496,47 @@ impl Derivation<'_> {
             crate::format::sig(b, 3),
             crate::format::sig(1.0 - k, 3)
         ))
+    }
+
+    /// Where the planet's radius interval spans an edge of the TSM's radius bins, whose scale
+    /// factor jumps there (from 0.190 to 1.26 at 1.5 Rearth): the metric's distribution then
+    /// has a peak on each side, its median may lie between them, and a first-order error
+    /// budget cannot describe a step.
+    fn tsm_bin_note(&self, key: Key) -> Option<String> {
+        let rkey = (key.0, Qty::Radius);
+        let r = &self.entries.get(&rkey)?.value;
+        let (lo, hi) = match r
+            .sample_summary()
+            .or_else(|| self.sampled_instead(rkey).map(|s| s.0))
+        {
+            Some(s) => (s.low, s.high),
+            None => {
+                let (below, above) = r.linear_spread(&self.inputs);
+                (r.nominal - below, r.nominal + above)
+            }
+        };
+        let earth = crate::constants::R_EARTH;
+        let (lo, hi) = (lo / earth, hi / earth);
+        let f = crate::physics::formulas::tsm_scale_factor;
+        let edges: Vec<String> = [1.5, 2.75, 4.0]
+            .into_iter()
+            .filter(|&edge| lo < edge && edge < hi)
+            .map(|edge| {
+                format!(
+                    "{edge} Rearth (scale factor {} below, {} above)",
+                    f(edge - 1e-9),
+                    f(edge)
+                )
+            })
+            .collect();
+        (!edges.is_empty()).then(|| {
+            format!(
+                "the radius's interval ({} to {} Rearth) spans the edge of the metric's radius bins at {} (Kempton et al. 2018, Table 1): the metric jumps there, so its distribution has a peak on each side and the median may lie between them, and a first-order error budget does not describe the jump; compare the metric at each side",
+                crate::format::sig(lo, 3),
+                crate::format::sig(hi, 3),
+                edges.join(" and ")
+            )
+        })
     }
 
     /// Where a planet lies against its star's habitable zones, as probabilities from the

@@ -848,6 +848,28 @@ mod tests {
     }
 
     #[test]
+    fn a_tsm_whose_radius_spans_a_bin_edge_says_the_metric_jumps_there() {
+        // Kempton et al. 2018, Table 1: the scale factor is 0.190 below 1.5 Rearth and 1.26
+        // from there, so a radius of 1.5 ± 0.05 Rearth gives a metric with two peaks.
+        let src = |r: &str| {
+            format!("system \"S\" {{\n star s {{ mass = 0.4 ± 0.02 Msun; radius = 0.4 ± 0.01 Rsun; teff = 3500 ± 50 K; magnitude_j = 9.5 ± 0.02 mag }}\n planet c orbits s {{\n  period = 5 ± 0.0001 d\n  radius = {r} Rearth\n  mass = 3 ± 0.5 Mearth\n }}\n}}\n")
+        };
+        let note = |r: &str, settings: &crate::Settings| {
+            let a = crate::analyze(FileId(0), &src(r), settings);
+            let tsm = a.results[0].bodies[1].get(Qty::Tsm).unwrap().clone();
+            tsm.notes.into_iter().find(|n| n.contains("spans the edge"))
+        };
+        for settings in [crate::Settings::linear(), crate::Settings::default()] {
+            let n = note("1.5 ± 0.05", &settings).expect("a note at the edge");
+            assert!(
+                n.contains("at 1.5 Rearth (scale factor 0.19 below, 1.26 above)"),
+                "{n}"
+            );
+            assert!(note("2.0 ± 0.05", &settings).is_none());
+        }
+    }
+
+    #[test]
     fn a_value_without_a_route_says_what_each_route_lacks() {
         // An RV-only planet: the minimum mass follows, the true mass needs the inclination.
         let src = "system \"S\" {\n star s { mass = 1 ± 0.05 Msun }\n planet b orbits s { period = 4.2 d; rv_amplitude = 55 ± 2 m/s }\n planet c { period = 9 d }\n}\n";
