@@ -46,16 +46,24 @@ pub struct Args {
 
 fn parse_from(text: &str) -> Result<f64, String> {
     let t = text.trim();
-    if let Ok(jd) = t.parse::<f64>() {
-        return if jd > 1e6 {
-            Ok(jd)
-        } else {
-            Err(format!(
+    let jd = match t.parse::<f64>() {
+        Ok(jd) if jd > 1e6 => jd,
+        Ok(_) => {
+            return Err(format!(
                 "'{t}' is not a Julian date; give e.g. 2461400.5 or 2027-01-01"
             ))
-        };
+        }
+        Err(_) => time::parse_iso(t).map_err(|e| e.to_string())?,
+    };
+    // The listing starts from this moment in TDB: a UTC it cannot convert is the option's
+    // fault, not the file's.
+    match time::convert(jd, time::Scale::Utc, time::Scale::Tdb) {
+        Ok(_) => Ok(jd),
+        Err(time::TimeError::UtcBefore1972) => Err(format!(
+            "'{t}' is before 1972-01-01, when UTC did not count SI seconds; give a later date"
+        )),
+        Err(e) => Err(e.to_string()),
     }
-    time::parse_iso(t).map_err(|e| e.to_string())
 }
 
 fn now_jd() -> f64 {

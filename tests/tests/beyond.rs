@@ -235,6 +235,20 @@ fn ephemeris_lists_transits_with_growing_uncertainty() {
     assert!(stderr(&o).contains("declares no transit_epoch"));
     let o = run(&["ephemeris", "examples/veyra.syz", "b", "--from", "soon"]);
     assert_eq!(o.status.code(), Some(2));
+    // A --from the listing cannot start at is the option's fault (exit 2), said plainly.
+    let o = run(&[
+        "ephemeris",
+        "examples/veyra.syz",
+        "b",
+        "--from",
+        "1960-01-01",
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stderr(&o).contains("before 1972-01-01"), "{}", stderr(&o));
+    assert!(!stderr(&o).contains("TT or TDB"), "{}", stderr(&o));
+    let o = run(&["ephemeris", "examples/veyra.syz", "b", "--from", "1e300"]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stderr(&o).contains("1.000e300"), "{}", stderr(&o));
 }
 
 #[test]

@@ -168,7 +168,15 @@ impl fmt::Display for TimeError {
                 f,
                 "UTC before 1972-01-01 is not supported (its seconds were not SI seconds); give the time in TT or TDB"
             ),
-            TimeError::OutOfRange(jd) => write!(f, "Julian date {jd} is outside the supported range (years 1000 to 9999)"),
+            TimeError::OutOfRange(jd) => write!(
+                f,
+                "Julian date {} is outside the supported range (years 1000 to 9999)",
+                if jd.abs() < 1e12 {
+                    jd.to_string()
+                } else {
+                    format!("{jd:.3e}")
+                }
+            ),
             TimeError::BadTimestamp(why) => write!(f, "{why}"),
         }
     }
