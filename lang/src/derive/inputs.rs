@@ -341,18 +341,30 @@ impl<'m> Derivation<'m> {
             }
         };
         let k = self.options.consistency_sigma;
+        let measured = |d: &model::Declared| match &d.content {
+            Content::Measured(m) => Some(*m),
+            _ => None,
+        };
         for (j, later) in all.iter().enumerate() {
-            let mut earlier_ones: Vec<usize> = (0..j).collect();
-            earlier_ones.sort_by_key(|&i| used != Some(i));
+            let Some(b) = measured(later) else { continue };
+            // The value used first, then the earlier ones in order: at most
+            // COMPARED_SOURCES of them, so that many sources of one quantity cost linear
+            // time, not quadratic.
+            let earlier_ones = used
+                .filter(|&u| u < j)
+                .into_iter()
+                .chain((0..j).filter(|&i| used != Some(i)))
+                .take(sources::COMPARED_SOURCES);
             for i in earlier_ones {
                 let Some(earlier) = all.get(i) else { continue };
+                let Some(a) = measured(earlier) else { continue };
+                let Some(z) = sources::separation(&a, &b).filter(|z| *z > k) else {
+                    continue;
+                };
                 let (Some((a, wa)), Some((b, wb))) = (shown(earlier), shown(later)) else {
                     continue;
                 };
                 let (wa, wb) = (format!("{wa}{}", in_use(i)), format!("{wb}{}", in_use(j)));
-                let Some(z) = sources::separation(&a, &b).filter(|z| *z > k) else {
-                    continue;
-                };
                 let name = format!("{}.{}", body.id, quantities::def(later.qty).name);
                 let apart = sources::apart_words(z, &a, &b);
                 self.diagnostics.push(

@@ -86,6 +86,11 @@ pub struct WeightedMean {
     pub n: usize,
 }
 
+/// How many earlier sources of one quantity each source is compared with for
+/// `sources-disagree` (the value used first): a bound that keeps a quantity with thousands
+/// of sources linear in their number.
+pub const COMPARED_SOURCES: usize = 256;
+
 /// The standard uncertainty of a measurement: the mean of its two sides.
 pub fn standard(m: &Measurement) -> f64 {
     (m.below + m.above) / 2.0
