@@ -419,6 +419,16 @@ fn transit_geometry(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
 
 fn orbit_spacing(d: &Derivation, diags: &mut Vec<Diagnostic>) {
     let sys = d.sys;
+    // Each star's planets with their semi-major axes, gathered in one pass over the bodies
+    // (a scan per star made a system of many stars quadratic).
+    let mut by_host: Vec<Vec<(usize, f64)>> = vec![Vec::new(); sys.bodies.len()];
+    for (i, b) in sys.bodies.iter().enumerate() {
+        if let (Some(host), Some(a)) = (b.orbits, nominal(d, (i, Qty::SemiMajorAxis))) {
+            if let Some(list) = by_host.get_mut(host) {
+                list.push((i, a));
+            }
+        }
+    }
     for (host, star) in sys.bodies.iter().enumerate() {
         if star.kind != BodyKind::Star {
             continue;
@@ -426,13 +436,10 @@ fn orbit_spacing(d: &Derivation, diags: &mut Vec<Diagnostic>) {
         let Some(ms) = nominal(d, (host, Qty::StarMass)) else {
             continue;
         };
-        let mut planets: Vec<(usize, f64)> = sys
-            .bodies
-            .iter()
-            .enumerate()
-            .filter(|(_, b)| b.orbits == Some(host))
-            .filter_map(|(i, _)| nominal(d, (i, Qty::SemiMajorAxis)).map(|a| (i, a)))
-            .collect();
+        let Some(planets) = by_host.get_mut(host) else {
+            continue;
+        };
+        let mut planets = std::mem::take(planets);
         planets.sort_by(|a, b| a.1.total_cmp(&b.1));
         let many = planets.len() >= 3;
         for pair in planets.windows(2) {
