@@ -61,8 +61,11 @@ pub fn run(paths: &[PathBuf], read: crate::files::ReadArgs, mode: Mode) -> u8 {
     }
 }
 
-/// Write beside the file, then rename over it, so a failure never leaves half a file.
+/// Write beside the file, then rename over it, so a failure never leaves half a file. A
+/// symbolic link is followed: its target is rewritten and the link stays a link.
 fn write_in_place(path: &Path, text: &str) -> std::io::Result<()> {
+    let target = std::fs::canonicalize(path)?;
+    let path = target.as_path();
     let mut tmp = path.as_os_str().to_owned();
     tmp.push(".syz-fmt-tmp");
     let tmp = PathBuf::from(tmp);

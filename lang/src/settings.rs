@@ -517,6 +517,12 @@ mod tests {
             .reason
             .contains("expected"));
         assert!(layer("[derivation]\nsamples = 0\n").is_err());
+        // One sample would show a single random draw as an exact value.
+        for few in ["1", "99"] {
+            let e = crate::derive::SampleCount::parse(few).unwrap_err();
+            assert!(e.contains("from 100 to"), "{e}");
+        }
+        assert!(crate::derive::SampleCount::parse("100").is_ok());
         assert!(layer("[derivation]\nsamples = \"many\"\n")
             .unwrap_err()
             .reason

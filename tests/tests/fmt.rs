@@ -57,6 +57,22 @@ fn fmt_prints_checks_and_writes_without_changing_meaning() {
 
     // Same values, same provenance, same uncertainties.
     assert_eq!(systems(p), before);
+
+    // Through a symbolic link: the target is laid out and the link stays a link.
+    #[cfg(unix)]
+    {
+        let target = dir.join("target.syz");
+        let link = dir.join("link.syz");
+        std::fs::write(&target, MESSY).unwrap();
+        std::os::unix::fs::symlink(&target, &link).unwrap();
+        let o = run(&["fmt", "--write", link.to_str().unwrap()]);
+        assert!(o.status.success(), "{}", stderr(&o));
+        assert!(std::fs::symlink_metadata(&link)
+            .unwrap()
+            .file_type()
+            .is_symlink());
+        assert_eq!(std::fs::read_to_string(&target).unwrap(), printed);
+    }
 }
 
 #[test]

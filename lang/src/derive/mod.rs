@@ -222,16 +222,24 @@ impl SampleCount {
     /// The most samples one may ask for.
     pub const MOST: usize = 10_000_000;
 
-    /// `auto`, or a count from 1 to [`SampleCount::MOST`].
+    /// The fewest samples one may ask for: fewer cannot place a 16th and an 84th
+    /// percentile apart from the median (one sample showed a single random draw as an
+    /// exact value).
+    pub const FEWEST: usize = MIN_SAMPLES;
+
+    /// `auto`, or a count from [`SampleCount::FEWEST`] to [`SampleCount::MOST`].
     pub fn parse(s: &str) -> Result<SampleCount, String> {
         let s = s.trim();
         if s == "auto" {
             return Ok(SampleCount::Auto);
         }
         match s.replace('_', "").parse::<usize>() {
-            Ok(n) if (1..=SampleCount::MOST).contains(&n) => Ok(SampleCount::Fixed(n)),
+            Ok(n) if (SampleCount::FEWEST..=SampleCount::MOST).contains(&n) => {
+                Ok(SampleCount::Fixed(n))
+            }
             _ => Err(format!(
-                "expected a sample count from 1 to {} or \"auto\", found '{s}'",
+                "expected a sample count from {} to {} or \"auto\", found '{s}'",
+                SampleCount::FEWEST,
                 SampleCount::MOST
             )),
         }

@@ -436,8 +436,25 @@ fn uncertainties_in_other_notations_are_errors_with_the_spelling_taken() {
     assert!(h.contains("`92 +6/-5`"), "{h}");
     let h = help_of("92 (-5/+6) m/s").unwrap();
     assert!(h.contains("`92 +6/-5`"), "{h}");
-    // A sum written as one is still a sum, and a call is still a call.
-    for value in ["0.4 + 0.1 - 0.05", "0.4 + 0.1", "sqrt(0.25)"] {
+    // One signed number after the value: a lost `±`, not a difference (0.35) or a sum.
+    for (value, help) in [
+        ("0.4 -0.05", "`0.4 ± 0.05`"),
+        ("0.4 +0.05 Rsun", "`0.4 ± 0.05`"),
+        ("0.4 \u{2212}0.05", "`0.4 ± 0.05`"),
+        ("-0.4 -0.05", "`-0.4 ± 0.05`"),
+    ] {
+        let h = help_of(value).unwrap_or_default();
+        assert!(h.contains(help), "{value}: {h}");
+    }
+    // A sum written as one is still a sum, and a call is still a call; so is a signed
+    // number followed by an operator, or glued to the value.
+    for value in [
+        "0.4 + 0.1 - 0.05",
+        "0.4 + 0.1",
+        "sqrt(0.25)",
+        "0.4 -0.05 * 2",
+        "0.4-0.05",
+    ] {
         let src = format!("system \"S\" {{ star s {{ x = {value} }} }}");
         assert!(parse(FileId(0), &src).diagnostics.is_empty(), "{value}");
     }

@@ -330,12 +330,40 @@ impl Cursor<'_> {
                 None => d.with_help("write the uncertainty out: `VALUE ± UNCERTAINTY`"),
             });
         }
+        let signed = |sign: &Token, n: &Token| {
+            matches!(sign.kind, Tok::Plus | Tok::Minus) && n.kind == Tok::Number && joined(sign, n)
+        };
+        // `0.4 -0.05` or `0.4 +0.05` alone: one side of an uncertainty, or a `±` lost in
+        // copying, which the grammar reads as a difference or a sum (0.35 or 0.45). An
+        // operator after it (`0.4 -0.05 * x`) makes it an expression, left as one.
+        let two_sided = matches!(rest, [c, d, ..] if signed(c, d));
+        let operator_follows = rest
+            .first()
+            .is_some_and(|t| matches!(t.kind, Tok::Star | Tok::Slash | Tok::Caret | Tok::LParen));
+        if signed(a, b) && !joined(value, a) && !two_sided && !operator_follows {
+            let written = self.src.get(a.start..b.end).unwrap_or("");
+            let u = self.text(*b);
+            let reads = if a.kind == Tok::Minus {
+                "a difference"
+            } else {
+                "a sum"
+            };
+            return Some(
+                Diagnostic::new(
+                    Rule::Syntax,
+                    span(a, b),
+                    format!("`{written}` after the value reads as {reads}, not as an uncertainty"),
+                )
+                .with_help(format!(
+                    "a symmetric uncertainty is written `{v} ± {u}`, one above and below \
+                     `{v} +above/-below`; for {reads}, put a space after the sign"
+                ))
+                .with_fix(span(a, b), format!("± {u}")),
+            );
+        }
         // `0.4 +0.1 -0.05` or `0.4 -0.05 +0.1`.
         let [c, d, ..] = rest else {
             return None;
-        };
-        let signed = |sign: &Token, n: &Token| {
-            matches!(sign.kind, Tok::Plus | Tok::Minus) && n.kind == Tok::Number && joined(sign, n)
         };
         if !(signed(a, b) && signed(c, d) && a.kind != c.kind) || joined(value, a) || joined(b, c) {
             return None;
