@@ -85,7 +85,7 @@ pub fn run(args: &Args, flags: &syzygy::settings::Layer, read: files::ReadArgs) 
     if !(args.min_altitude.is_finite() && (-90.0..=90.0).contains(&args.min_altitude)) {
         eprintln!(
             "syz: --min-altitude {}: expected -90 to 90 degrees",
-            args.min_altitude
+            syzygy::format::sig(args.min_altitude, 6)
         );
         return 2;
     }

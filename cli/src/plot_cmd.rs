@@ -88,7 +88,7 @@ pub fn run(plot: &Plot, flags: &Layer, read: files::ReadArgs) -> u8 {
             limb_darkening,
             ..
         } => parse_ld(limb_darkening.as_deref())
-            .map_err(Stop::from)
+            .map_err(|message| Stop { code: 2, message })
             .and_then(|ld| {
                 let (a, si, bi) = one_planet(file, body, system.as_deref(), flags, read)?;
                 let (c, _) = plots::transit_curve(&a, si, bi, ld)?;
@@ -193,10 +193,19 @@ fn parse_ld(text: Option<&str>) -> Result<Option<LimbDarkening>, String> {
         s.parse::<f64>()
             .map_err(|_| format!("--limb-darkening: '{s}' is not a number"))
     };
-    Ok(Some(LimbDarkening {
+    let ld = LimbDarkening {
         u1: num(a)?,
         u2: num(b)?,
-    }))
+    };
+    // An unphysical pair is the option's fault (exit 2), said before any file is read.
+    if !ld.is_physical() {
+        return Err(format!(
+            "--limb-darkening {}, {}: unphysical (it needs u1 >= 0, u1 + u2 <= 1, u1 + 2 u2 >= 0)",
+            syzygy::format::sig(ld.u1, 6),
+            syzygy::format::sig(ld.u2, 6)
+        ));
+    }
+    Ok(Some(ld))
 }
 
 fn one_planet(

@@ -10,6 +10,7 @@ use crate::composition::{self, CompositionClass};
 use crate::constants::{M_JUPITER, M_SUN, R_EARTH};
 use crate::derive::{display_unit, value, Derivation, Key};
 use crate::diagnostic::{Diagnostic, Rule};
+use crate::format::fixed;
 use crate::formulas;
 use crate::quantities::Qty;
 use crate::source::Span;
@@ -150,13 +151,13 @@ fn composition_check(
                 Rule::DenserThanIron,
                 anchor(d, bi, &[Qty::Radius, Qty::TransitDepth, Qty::RadiusRatio, Qty::Mass]),
                 format!(
-                    "{} is {}denser than pure iron: {} at {}, where a pure-iron body would have {} and a radius of {:.2} Rearth{extrapolated} (probability {:.1}%)",
+                    "{} is {}denser than pure iron: {} at {}, where a pure-iron body would have {} and a radius of {} Rearth{extrapolated} (probability {:.1}%)",
                     d.sys.bodies.get(bi).map_or("?", |b| b.id.as_str()),
                     if certain { "" } else { "probably " },
                     shown(Qty::Density, density),
                     shown(Qty::Mass, mass),
                     shown(Qty::Density, iron),
-                    iron_r,
+                    fixed(iron_r, 2),
                     p_iron * 100.0
                 ),
             )
@@ -225,7 +226,7 @@ fn object_class(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
             Diagnostic::new(
                 Rule::StellarMassCompanion,
                 at,
-                format!("{name}'s {which} of {:.3} Msun is above the hydrogen-burning limit (about 0.075 Msun): a star, not a planet", mass / M_SUN),
+                format!("{name}'s {which} of {} Msun is above the hydrogen-burning limit (about 0.075 Msun): a star, not a planet", fixed(mass / M_SUN, 3)),
             )
             .with_help("declare it as a star, or check the radial-velocity amplitude and its unit"),
         );
@@ -234,7 +235,7 @@ fn object_class(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
             Diagnostic::new(
                 Rule::AboveDeuteriumLimit,
                 at,
-                format!("{name}'s {which} of {:.1} Mjup is above the deuterium-burning limit (about 13 Mjup): a brown dwarf rather than a planet", mass / M_JUPITER),
+                format!("{name}'s {which} of {} Mjup is above the deuterium-burning limit (about 13 Mjup): a brown dwarf rather than a planet", fixed(mass / M_JUPITER, 1)),
             )
             .with_note("the boundary is a convention of the trade (IAU working definition); objects near it are often listed in both classes"),
         );
@@ -329,9 +330,9 @@ fn size_and_orbit(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
                 Rule::PeriastronInsideStar,
                 anchor(d, bi, &[Qty::Eccentricity, Qty::SemiMajorAxis, Qty::Period]),
                 format!(
-                    "{name}'s closest approach a(1 - e) = {:.4} au lies inside {star} (R* + Rp = {:.4} au)",
-                    q / crate::constants::AU,
-                    (rs + rp.unwrap_or(0.0)) / crate::constants::AU
+                    "{name}'s closest approach a(1 - e) = {} au lies inside {star} (R* + Rp = {} au)",
+                    fixed(q / crate::constants::AU, 4),
+                    fixed((rs + rp.unwrap_or(0.0)) / crate::constants::AU, 4)
                 ),
             )
             .with_help("check the eccentricity and the period's unit"),
@@ -357,9 +358,9 @@ fn size_and_orbit(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
                 Rule::InsideRocheLimit,
                 anchor(d, bi, &[Qty::Period, Qty::SemiMajorAxis]),
                 format!(
-                    "{name}'s periastron ({:.4} au) lies inside the fluid-body Roche limit for its density ({:.4} au): tides would tear it apart",
-                    q / crate::constants::AU,
-                    roche / crate::constants::AU
+                    "{name}'s periastron ({} au) lies inside the fluid-body Roche limit for its density ({} au): tides would tear it apart",
+                    fixed(q / crate::constants::AU, 4),
+                    fixed(roche / crate::constants::AU, 4)
                 ),
             )
             .with_note("fluid Roche limit d = 2.44 R* (rho*/rho_p)^(1/3) (Roche; common practice)"),
@@ -454,9 +455,9 @@ fn orbit_spacing(d: &Derivation, diags: &mut Vec<Diagnostic>) {
                         Rule::CrossingOrbits,
                         anchor(d, *i2, &[Qty::Eccentricity, Qty::Period, Qty::SemiMajorAxis]),
                         format!(
-                            "the orbits of {n1} and {n2} cross: {n1}'s apastron ({:.4} au) lies beyond {n2}'s periastron ({:.4} au)",
-                            a1 * (1.0 + e1) / crate::constants::AU,
-                            a2 * (1.0 - e2) / crate::constants::AU
+                            "the orbits of {n1} and {n2} cross: {n1}'s apastron ({} au) lies beyond {n2}'s periastron ({} au)",
+                            fixed(a1 * (1.0 + e1) / crate::constants::AU, 4),
+                            fixed(a2 * (1.0 - e2) / crate::constants::AU, 4)
                         ),
                     )
                     .with_label(anchor(d, *i1, &[Qty::Eccentricity, Qty::Period, Qty::SemiMajorAxis]), format!("{n1}'s orbit"))
@@ -517,7 +518,8 @@ fn habitable_zone_range(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) 
             Rule::NotDerivable,
             anchor(d, bi, &[Qty::Teff]),
             format!(
-                "{name}'s habitable zone is not derived: Teff {t:.0} K lies outside {lo:.0}-{hi:.0} K, where the fits of Kopparapu et al. (2014) hold"
+                "{name}'s habitable zone is not derived: Teff {} K lies outside {lo:.0}-{hi:.0} K, where the fits of Kopparapu et al. (2014) hold",
+                fixed(t, 0)
             ),
         )
         .with_note("extrapolating the fits' polynomials beyond their range gives meaningless edges"),
@@ -544,7 +546,8 @@ fn no_prediction(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
             Rule::NotDerivable,
             anchor(d, bi, &[Qty::Radius, Qty::TransitDepth, Qty::RadiusRatio]),
             format!(
-                "no mass is predicted for {name}: its radius ({r_earth:.1} Rearth) is above {top:.1} Rearth, where the mass-radius relation of Chen & Kipping (2017) does not tell a mass"
+                "no mass is predicted for {name}: its radius ({} Rearth) is above {top:.1} Rearth, where the mass-radius relation of Chen & Kipping (2017) does not tell a mass",
+                fixed(r_earth, 1)
             ),
         )
         .with_note("giant planets from about 0.4 Jupiter masses to the brown-dwarf limit all have radii near 1 Rjup; a mass needs radial velocities (or transit timing)"),
@@ -559,8 +562,10 @@ fn plausible_star(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
             problems.push((
                 Qty::Teff,
                 format!(
-                    "Teff {t:.0} K lies outside {:.0}–{:.0} K",
-                    STAR_TEFF.0, STAR_TEFF.1
+                    "Teff {} K lies outside {:.0}–{:.0} K",
+                    fixed(t, 0),
+                    STAR_TEFF.0,
+                    STAR_TEFF.1
                 ),
             ));
         }
@@ -569,7 +574,10 @@ fn plausible_star(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
         if m < STAR_MASS.0 || m > STAR_MASS.1 {
             problems.push((
                 Qty::StarMass,
-                format!("mass {:.3} Msun lies outside 0.07–300 Msun", m / M_SUN),
+                format!(
+                    "mass {} Msun lies outside 0.07–300 Msun",
+                    fixed(m / M_SUN, 3)
+                ),
             ));
         }
     }
@@ -578,7 +586,8 @@ fn plausible_star(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
             problems.push((
                 Qty::LogG,
                 format!(
-                    "log g {g:.2} lies outside {:.1}–{:.1}: {}",
+                    "log g {} lies outside {:.1}–{:.1}: {}",
+                    fixed(g, 2),
                     STAR_LOG_G.0,
                     STAR_LOG_G.1,
                     if g > STAR_LOG_G.1 {

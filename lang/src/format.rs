@@ -47,6 +47,17 @@ pub fn sig(v: f64, n: usize) -> String {
     format!("{v:.digits$}")
 }
 
+/// `v` with `decimals` digits after the point, as a message shows a number it compares
+/// with a threshold; a magnitude past 10^9 (or not finite) in four significant figures
+/// instead, so that an absurd input never becomes a number of hundreds of digits.
+pub fn fixed(v: f64, decimals: usize) -> String {
+    if v.is_finite() && v.abs() < 1e9 {
+        format!("{v:.decimals$}")
+    } else {
+        sig(v, 4)
+    }
+}
+
 fn trim_zeros(s: &str) -> String {
     if s.contains('.') {
         s.trim_end_matches('0').trim_end_matches('.').to_string()

@@ -145,8 +145,24 @@ fn plot_errors_are_clear() {
         "--limb-darkening",
         "0.5",
     ]);
-    assert_eq!(o.status.code(), Some(1));
+    // A wrong argument: exit 2, as the README's exit statuses say.
+    assert_eq!(o.status.code(), Some(2));
     assert!(stderr(&o).contains("two numbers"), "{}", stderr(&o));
+    let o = run(&[
+        "plot",
+        "transit",
+        "examples/veyra.syz",
+        "b",
+        "-o",
+        dir.join("a.svg").to_str().unwrap(),
+        "--limb-darkening=1e308,1e308",
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        stderr(&o).contains("1e308, 1e308: unphysical"),
+        "{}",
+        stderr(&o)
+    );
     // Veyra c has no radius ratio: no transit model, and nothing written.
     let o = run(&[
         "plot",

@@ -369,3 +369,42 @@ fn planets_larger_or_lighter_than_any_known_are_pointed_out() {
     .is_empty());
     assert!(implausible(&system("mass = 1.5 ± 0.1 Mjup; radius = 2.0 ± 0.1 Rjup")).is_empty());
 }
+
+/// Absurd inputs give messages a reader can take in: no number of hundreds of digits, a
+/// radial-velocity amplitude past the speed of light refused (it once made the mass vanish
+/// without a word), and a bound shown rounded like the value says what it is exactly.
+#[test]
+fn absurd_values_give_readable_messages() {
+    let src = "system \"Q\" {\n star s { mass = 1e20 Msun; radius = 1 Rsun; teff = 1e30 K }\n planet b orbits s { period = 3 d; rv_amplitude = 3e8 m/s }\n planet c orbits s { period = 9 d; redistribution = 2.66667 }\n}\n";
+    let a = run(src);
+    let texts: Vec<String> = a
+        .diagnostics
+        .iter()
+        .flat_map(|d| std::iter::once(d.message.clone()).chain(d.notes.iter().cloned()))
+        .collect();
+    // (The one long number meant to be long: a bound to full precision.)
+    for t in texts.iter().filter(|t| !t.contains("to full precision")) {
+        let longest = t
+            .split(|c: char| !c.is_ascii_digit())
+            .map(str::len)
+            .max()
+            .unwrap_or(0);
+        assert!(longest < 12, "{t}");
+    }
+    assert!(texts.iter().any(|t| t.contains("Teff 1e30 K")), "{texts:?}");
+    assert!(
+        texts.iter().any(|t| t.contains("mass 1e20 Msun")),
+        "{texts:?}"
+    );
+    let k = a
+        .diagnostics
+        .iter()
+        .find(|d| d.rule == Rule::OutOfRange && d.message.contains("rv_amplitude"));
+    assert!(k.is_some(), "{texts:?}");
+    assert!(
+        texts
+            .iter()
+            .any(|t| t.contains("the bound is 2.6666666666666665 to full precision")),
+        "{texts:?}"
+    );
+}

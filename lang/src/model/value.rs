@@ -281,6 +281,22 @@ pub(super) fn lower_value(
         if let Some(help) = other_unit_in_range(def, sign, lit, &unit) {
             d = d.with_help(help);
         }
+        // `2.66667` against a bound of 8/3 shown as 2.66667: say what the bound is exactly.
+        let display = crate::units::parse_unit_text(def.display).map_or(1.0, |u| u.factor);
+        let bound_shown = |b: crate::quantities::Bound| match b {
+            crate::quantities::Bound::Inclusive(m) | crate::quantities::Bound::Exclusive(m) => {
+                Some(m / display)
+            }
+            crate::quantities::Bound::None => None,
+        };
+        let written_number = crate::format::number(sign * lit.value);
+        for bound in [def.min, def.max].into_iter().filter_map(bound_shown) {
+            if crate::format::number(bound) == written_number && bound != sign * lit.value {
+                d = d.with_note(format!(
+                    "the bound is {bound} to full precision, and {written_number} lies past it"
+                ));
+            }
+        }
         diags.push(d);
         return None;
     }

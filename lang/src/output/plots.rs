@@ -471,7 +471,8 @@ pub fn transit_curve(
     if !ld.is_physical() {
         return Err(format!(
             "limb darkening u1 = {}, u2 = {} is unphysical (it needs u1 >= 0, u1 + u2 <= 1, u1 + 2 u2 >= 0)",
-            ld.u1, ld.u2
+            crate::format::sig(ld.u1, 6),
+            crate::format::sig(ld.u2, 6)
         ));
     }
     let mut inp = Inputs::new(a, sys, body)?;

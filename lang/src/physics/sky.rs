@@ -181,16 +181,21 @@ impl Site {
     /// A site from degrees (east longitude positive), checked.
     pub fn from_degrees(lat: f64, lon: f64, elevation_m: f64) -> Result<Site, String> {
         if !(lat.is_finite() && (-90.0..=90.0).contains(&lat)) {
-            return Err(format!("latitude {lat}: expected -90 to 90 degrees"));
+            return Err(format!(
+                "latitude {}: expected -90 to 90 degrees",
+                crate::format::sig(lat, 6)
+            ));
         }
         if !(lon.is_finite() && (-180.0..=360.0).contains(&lon)) {
             return Err(format!(
-                "longitude {lon}: expected -180 to 360 degrees, east positive"
+                "longitude {}: expected -180 to 360 degrees, east positive",
+                crate::format::sig(lon, 6)
             ));
         }
         if !(elevation_m.is_finite() && (-500.0..=10_000.0).contains(&elevation_m)) {
             return Err(format!(
-                "elevation {elevation_m} m: expected -500 to 10000 metres"
+                "elevation {} m: expected -500 to 10000 metres",
+                crate::format::sig(elevation_m, 6)
             ));
         }
         Ok(Site {
