@@ -146,7 +146,12 @@ pub fn run(
                 &settings,
                 &mut out,
                 color,
-                |a| (Ok(syzygy::report::eval_text(a, db).into_bytes()), ()),
+                |a| {
+                    (
+                        Ok(render::printable(&syzygy::report::eval_text(a, db)).into_bytes()),
+                        (),
+                    )
+                },
                 |()| {},
             );
             errors |= bad;

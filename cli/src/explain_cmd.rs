@@ -40,7 +40,7 @@ pub fn run(
     };
     match syzygy::report::explain_text(a, si, (bi, def.qty)) {
         Some(text) => {
-            print!("{text}");
+            print!("{}", crate::render::printable(&text));
             println!("\nuncertainties: {}", propagation_words(options));
             let bad = a
                 .diagnostics

@@ -44,6 +44,7 @@ const PLACEHOLDER: &str = "\u{1}excerpt\u{1}";
 
 /// One diagnostic with its source lines and labels; `index` is the line index of its file.
 pub fn diagnostic(db: &dyn SourceDb, index: &LineIndex, d: &Diagnostic, color: bool) -> String {
+    let d = &*printable_diagnostic(d);
     let name = db.name(d.span.file);
     let text = db.text(d.span.file);
     let primary = visible(d.span.range(), text.len());
@@ -311,13 +312,57 @@ impl<'a> Excerpt<'a> {
 /// the core does not) replaced by visible ones of the same length in bytes.
 fn push_shown(out: &mut String, s: &str) {
     for c in s.chars() {
+        // Each replacement takes as many bytes as the character it replaces, so the spans'
+        // offsets still hold; a control character (a terminal escape that would clear the
+        // screen, say) or a bidirectional override is never written to the terminal.
         out.push(match c {
             '\u{b}' | '\u{c}' => ' ',
             '\u{85}' => '·',
             '\u{2028}' | '\u{2029}' => '␤',
+            '\t' => c,
+            c if c.is_ascii_control() => '?',
+            '\u{80}'..='\u{9f}' => '·',
+            '\u{202a}'..='\u{202e}' | '\u{2066}'..='\u{2069}' => '\u{fffd}',
             c => c,
         });
     }
+}
+
+/// A message's text as the terminal may show it: control characters as their pictures
+/// (U+2400 block), bidirectional overrides as U+FFFD; line ends kept.
+pub fn printable(s: &str) -> String {
+    s.chars()
+        .map(|c| match c {
+            '\n' | '\t' => c,
+            '\u{7f}' => '\u{2421}',
+            c if c.is_ascii_control() => char::from_u32(0x2400 + c as u32).unwrap_or('?'),
+            '\u{80}'..='\u{9f}' | '\u{202a}'..='\u{202e}' | '\u{2066}'..='\u{2069}' => '\u{fffd}',
+            c => c,
+        })
+        .collect()
+}
+
+/// The diagnostic with every text it shows made [`printable`] (a name or a reference's text
+/// quoted in a message may hold any character).
+fn printable_diagnostic(d: &Diagnostic) -> std::borrow::Cow<'_, Diagnostic> {
+    let bad = |s: &str| s != printable(s);
+    let any = bad(&d.message)
+        || d.labels.iter().any(|l| bad(&l.message))
+        || d.notes.iter().any(|n| bad(n))
+        || d.help.as_deref().is_some_and(bad);
+    if !any {
+        return std::borrow::Cow::Borrowed(d);
+    }
+    let mut d = d.clone();
+    d.message = printable(&d.message);
+    for l in &mut d.labels {
+        l.message = printable(&l.message);
+    }
+    for n in &mut d.notes {
+        *n = printable(n);
+    }
+    d.help = d.help.as_deref().map(printable);
+    std::borrow::Cow::Owned(d)
 }
 
 /// The part of a line shown: all of a short line; of a long one, a window around `points`
@@ -467,6 +512,29 @@ mod tests {
         // The mark sits under the second '=' (one column: '┬' where the arrow leaves).
         assert_eq!(mark.get(column..column + 3), Some("┬"), "{out}");
         assert!(lines[at + 2].ends_with(PRIMARY_LABEL), "{out}");
+    }
+
+    #[test]
+    fn control_characters_never_reach_the_terminal() {
+        // A reference text or a system name may hold a terminal escape that would clear
+        // the screen; neither the excerpt nor the message writes it raw.
+        let mut db = MemoryDb::new();
+        let text = "system \"A\u{1b}[2J\" { star s { mass = \u{1b}[2J } }\n";
+        let f = db.add("t.syz", text);
+        let at = text.find("\u{1b}[2J }").unwrap_or(0);
+        let d = Diagnostic::new(
+            Rule::Syntax,
+            Span::new(f, at, at + 1),
+            "system \"A\u{1b}[2J\" has \u{202e}an override",
+        );
+        let out = diagnostic(&db, &LineIndex::new(text), &d, false);
+        assert!(
+            !out.contains('\u{1b}') && !out.contains('\u{202e}'),
+            "{out:?}"
+        );
+        assert!(out.contains("system \"A\u{241b}[2J\""), "{out}");
+        // The excerpt keeps its width, so the underline still points at the character.
+        assert!(out.contains("mass = ?[2J"), "{out}");
     }
 
     #[test]
