@@ -16,6 +16,8 @@ struct Capped<R> {
     inner: R,
     since: usize,
     limit: usize,
+    /// Quote characters read so far: an odd count at the end means one was never closed.
+    quotes: usize,
 }
 
 impl<R: Read> Read for Capped<R> {
@@ -25,6 +27,9 @@ impl<R: Read> Read for Capped<R> {
         }
         let n = self.inner.read(buf)?;
         self.since += n;
+        self.quotes += buf
+            .get(..n)
+            .map_or(0, |b| b.iter().filter(|&&c| c == b'"').count());
         Ok(n)
     }
 }
@@ -49,6 +54,8 @@ pub struct CsvTable<R: Read> {
     limits: Limits,
     record: csv::ByteRecord,
     rows: usize,
+    /// The line of the last record read, when one of its cells spans lines.
+    multiline: Option<u64>,
 }
 
 impl<R: Read> CsvTable<R> {
@@ -76,6 +83,7 @@ impl<R: Read> CsvTable<R> {
             inner: std::io::Cursor::new(prefix).chain(input),
             since: 0,
             limit: limits.max_row_bytes.saturating_add(CSV_BUFFER),
+            quotes: 0,
         };
         let reader = csv::ReaderBuilder::new()
             .has_headers(false)
@@ -90,6 +98,7 @@ impl<R: Read> CsvTable<R> {
             limits,
             record: csv::ByteRecord::new(),
             rows: 0,
+            multiline: None,
         };
         let header = table
             .record()?
@@ -110,7 +119,19 @@ impl<R: Read> CsvTable<R> {
         self.reader.get_mut().since = 0;
         let line = self.reader.position().line();
         match self.reader.read_byte_record(&mut self.record) {
-            Ok(false) => return Ok(None),
+            Ok(false) => {
+                // A quote never closed makes the csv reader take every line after it into
+                // one cell of the last row: those rows would vanish without a word.
+                if let (Some(at), true) = (self.multiline, self.reader.get_ref().quotes % 2 == 1) {
+                    return Err(TableError::new(
+                        Some(at),
+                        "a quote that opens a cell on this row is never closed, so every line \
+                         after it was read into that one cell; close it (a quote inside a \
+                         quoted cell is written twice, `\"\"`)",
+                    ));
+                }
+                return Ok(None);
+            }
             Ok(true) => {}
             Err(e) => {
                 let too_long = matches!(e.kind(), csv::ErrorKind::Io(io) if io.get_ref().is_some_and(|r| r.is::<RowTooLong>()));
@@ -128,6 +149,11 @@ impl<R: Read> CsvTable<R> {
             }
         }
         let line = self.record.position().map_or(line, |p| p.line());
+        self.multiline = self
+            .record
+            .iter()
+            .any(|cell| cell.contains(&b'\n'))
+            .then_some(line);
         if self.record.len() > self.limits.max_columns {
             return Err(TableError::new(
                 Some(line),

@@ -659,3 +659,32 @@ fn every_issue_kind_is_documented() {
         );
     }
 }
+
+#[test]
+fn a_quote_never_closed_is_an_error_not_rows_lost() {
+    // Row 2's quote is never closed: every later line would become part of its cell.
+    let csv = "sys,pl,per\nQuorlin,\"b,3\nVessa,c,4\nTorr,d,5\n";
+    let mut t = CsvTable::new(csv.as_bytes(), None, Limits::default()).unwrap();
+    let mut rows = 0;
+    let e = loop {
+        match t.next_row() {
+            Ok(Some(_)) => rows += 1,
+            Ok(None) => panic!("read to the end without a word after {rows} rows"),
+            Err(e) => break e,
+        }
+    };
+    assert_eq!(e.line, Some(2), "{e}");
+    assert!(e.to_string().contains("never closed"), "{e}");
+    // A closed quote spanning lines, and a lone inch mark in an unquoted cell, are fine.
+    for ok in [
+        "sys,pl,note\nQuorlin,b,\"two\nlines\"\nVessa,c,x\n",
+        "sys,pl,note\nQuorlin,b,a 12\" mirror\nVessa,c,x\n",
+    ] {
+        let mut t = CsvTable::new(ok.as_bytes(), None, Limits::default()).unwrap();
+        let mut n = 0;
+        while t.next_row().unwrap().is_some() {
+            n += 1;
+        }
+        assert_eq!(n, 2, "{ok}");
+    }
+}
