@@ -436,6 +436,23 @@ fn uncertainties_in_other_notations_are_errors_with_the_spelling_taken() {
     assert!(h.contains("`92 +6/-5`"), "{h}");
     let h = help_of("92 (-5/+6) m/s").unwrap();
     assert!(h.contains("`92 +6/-5`"), "{h}");
+    // As typeset in a paper, in either order, spaces or not: one error, and the braces do
+    // not break the blocks around them (the one error is all `help_of` allows).
+    for value in [
+        "92^{+6}_{-5} m/s",
+        "92_{-5}^{+6} m/s",
+        "92 ^{ +6 } _{ -5 }",
+        "92^{6}_{-5}",
+    ] {
+        let h = help_of(value).unwrap_or_default();
+        assert!(h.contains("`92 +6/-5`"), "{value}: {h}");
+    }
+    let src =
+        "system \"S\" {\n star s {\n  mass = 1.1^{+0.1}_{-0.2} Msun\n  radius = 1 Rsun\n }\n}\n";
+    let p = parse(FileId(0), src);
+    assert_eq!(p.diagnostics.len(), 1, "{:?}", p.diagnostics);
+    let props = &p.file.systems[0].bodies[0].props;
+    assert_eq!(props.len(), 2, "the property after it is read: {props:?}");
     // One signed number after the value: a lost `±`, not a difference (0.35) or a sum.
     for (value, help) in [
         ("0.4 -0.05", "`0.4 ± 0.05`"),

@@ -145,6 +145,21 @@ impl Cursor<'_> {
         let mut depth = 0usize;
         let mut max_depth = 0usize;
         while let Some(k) = self.peek() {
+            // `92^{+6}_{-5}` as typeset in a paper: its braces belong to the value (to be
+            // refused with the spelling taken), not to the file's blocks, whose structure
+            // they would otherwise break for the rest of the file.
+            if k == Tok::LBrace && self.latex_group_here(begin) {
+                while let Some(k) = self.peek() {
+                    if matches!(k, Tok::Newline | Tok::Semi) {
+                        break;
+                    }
+                    self.pos += 1;
+                    if k == Tok::RBrace {
+                        break;
+                    }
+                }
+                continue;
+            }
             match k {
                 Tok::Newline | Tok::Semi | Tok::RBrace | Tok::LBrace => break,
                 Tok::LParen | Tok::LBracket => {
@@ -252,6 +267,33 @@ impl Cursor<'_> {
         )
     }
 
+    /// Whether the `{` at the cursor opens a typeset superscript or subscript of a value
+    /// (`^{+6}` or `_{-5}`, after a number of this value) and closes on its line.
+    fn latex_group_here(&mut self, begin: usize) -> bool {
+        let Some(before) = self
+            .pos
+            .checked_sub(1)
+            .and_then(|i| self.toks.get(i))
+            .copied()
+        else {
+            return false;
+        };
+        let marker = before.kind == Tok::Caret || self.text(before) == "_";
+        let has_number = self
+            .toks
+            .get(begin..self.pos)
+            .is_some_and(|t| t.iter().any(|t| t.kind == Tok::Number));
+        let line_end = self
+            .src
+            .get(before.end..)
+            .map_or(0, |rest| rest.find(['\n', '\r', ';']).unwrap_or(rest.len()));
+        let closes = self
+            .src
+            .get(before.end..before.end + line_end)
+            .is_some_and(|rest| rest.contains('}'));
+        marker && has_number && self.pos > begin && closes
+    }
+
     /// An uncertainty written as tables and papers write it, which the grammar would read
     /// as something else or not at all: `0.4 +0.1 -0.05` (signs attached to their numbers,
     /// a sum to the grammar: `impact` would silently be 0.45) and the concise `1.1(5)`. An
@@ -276,6 +318,23 @@ impl Cursor<'_> {
             return None;
         }
         let v = self.src.get(begin..value.end)?;
+        // `92^{+6}_{-5}` (or `_{-5}^{+6}`): an asymmetric uncertainty as typeset in a paper.
+        if let Some((plus, minus, len)) = self.src.get(value.end..).and_then(typeset_uncertainty) {
+            let at = Span::new(self.file, value.end, value.end + len);
+            let written = self.src.get(value.end..value.end + len).unwrap_or("");
+            let fixed = format!(" +{plus}/-{minus}");
+            return Some(
+                Diagnostic::new(
+                    Rule::Syntax,
+                    at,
+                    format!(
+                        "`{v}{written}` is typeset notation, which this language does not read"
+                    ),
+                )
+                .with_help(format!("write the uncertainty as `{v} +{plus}/-{minus}`"))
+                .with_fix(at, fixed),
+            );
+        }
         // `92 (+6/-5)`: an asymmetric uncertainty in parentheses.
         if a.kind == Tok::LParen && matches!(b.kind, Tok::Plus | Tok::Minus) {
             let close = rest.iter().position(|t| t.kind == Tok::RParen)?;
@@ -997,4 +1056,35 @@ pub(super) fn value_parser<'a>(src: &'a str, file: FileId) -> ValueParser<'a> {
 
 fn tok(t: Tok) -> impl chumsky::Parser<Tok, Tok, Error = ParseError> + Clone {
     just(t)
+}
+
+/// A typeset asymmetric uncertainty at the start of `text`: `^{+6}_{-5}` or `_{-5}^{+6}`
+/// (spaces allowed inside and between the groups): the part above, the part below, and the
+/// length of text they took.
+fn typeset_uncertainty(text: &str) -> Option<(String, String, usize)> {
+    fn group(text: &str, marker: char, sign: char) -> Option<(&str, &str)> {
+        let rest = text.trim_start().strip_prefix(marker)?.trim_start();
+        let rest = rest.strip_prefix('{')?;
+        let close = rest.find('}')?;
+        let inside = rest.get(..close)?.trim();
+        let number = match inside.strip_prefix(sign) {
+            Some(n) => n.trim(),
+            // `^{6}`: the part above may come without its sign.
+            None if sign == '+' => inside,
+            None => return None,
+        };
+        if number.is_empty() || number.parse::<f64>().is_err() {
+            return None;
+        }
+        Some((number, rest.get(close + 1..)?))
+    }
+    let (plus, minus, rest) = if let Some((p, rest)) = group(text, '^', '+') {
+        let (m, rest) = group(rest, '_', '-')?;
+        (p, m, rest)
+    } else {
+        let (m, rest) = group(text, '_', '-')?;
+        let (p, rest) = group(rest, '^', '+')?;
+        (p, m, rest)
+    };
+    Some((plus.to_string(), minus.to_string(), text.len() - rest.len()))
 }
