@@ -67,8 +67,16 @@ pub fn run(plot: &Plot, flags: &Layer, read: files::ReadArgs) -> u8 {
         );
         return 2;
     }
+    // Files that could not be read: the diagram is drawn from the rest, and the exit status
+    // is 2, as `check` and `eval` give for the same folder.
+    let mut unread = false;
     let result = match plot {
-        Plot::MassRadius { paths, .. } => mass_radius::draw(paths, flags, read),
+        Plot::MassRadius { paths, .. } => {
+            mass_radius::draw(paths, flags, read).map(|(svg, io_errors)| {
+                unread = io_errors;
+                svg
+            })
+        }
         Plot::Rv {
             file, body, system, ..
         } => one_planet(file, body, system.as_deref(), flags, read).and_then(|(a, si, bi)| {
@@ -121,7 +129,11 @@ pub fn run(plot: &Plot, flags: &Layer, read: files::ReadArgs) -> u8 {
                     eprintln!("note: {words}");
                 }
                 eprintln!("wrote {}", out.display());
-                0
+                if unread {
+                    2
+                } else {
+                    0
+                }
             }
             Err(e) => {
                 eprintln!("syz: {}: {e}", out.display());

@@ -172,7 +172,7 @@ fn build() -> Vec<QuantityDef> {
         q!(Inclination, Planet, "inclination", ["i"], angle, Inclusive(0.0), Inclusive(PI), "deg", "Inclination of the orbit to the sky plane (90 deg is edge-on)."),
         q!(Impact, Planet, "impact", ["b", "impact_parameter"], none, Inclusive(0.0), None, "1", "Transit impact parameter, in stellar radii."),
         q!(ArgPeriastron, Planet, "arg_periastron", ["omega", "ω"], angle, Inclusive(-2.0 * PI), Inclusive(2.0 * PI), "deg", "Argument of periastron of the planet's orbit."),
-        q!(RvAmplitude, Planet, "rv_amplitude", ["K", "K_rv"], speed, Inclusive(0.0), Exclusive(crate::constants::C), "m/s", "Semi-amplitude of the star's radial-velocity signal (below the speed of light)."),
+        q!(RvAmplitude, Planet, "rv_amplitude", ["K", "K_rv"], speed, Inclusive(0.0), None, "m/s", "Semi-amplitude of the star's radial-velocity signal."),
         q!(MinMass, Planet, "min_mass", ["msini", "Msini", "m_sin_i"], mass, Exclusive(0.0), None, "Mjup", "Minimum mass Mp sin i, from radial velocities alone."),
         q!(Mass, Planet, "mass", ["M", "Mp"], mass, Exclusive(0.0), None, "Mjup", "True planet mass."),
         q!(Radius, Planet, "radius", ["R", "Rp"], len, Exclusive(0.0), None, "Rjup", "Planet radius."),

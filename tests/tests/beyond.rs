@@ -2,7 +2,7 @@
 
 #![allow(clippy::unwrap_used, clippy::indexing_slicing)]
 
-use syzygy_e2e::{run, scratch, stderr, stdout};
+use syzygy_e2e::{root, run, scratch, stderr, stdout};
 
 fn texts(svg: &str) -> Vec<String> {
     let doc = roxmltree::Document::parse(svg).expect("the SVG parses as XML");
@@ -289,4 +289,25 @@ fn spectral_type_estimates_show_in_eval_json() {
         .unwrap()
         .iter()
         .any(|a| a.as_str().unwrap().contains("estimated from spectral type")));
+}
+
+#[test]
+fn a_folder_with_an_unreadable_file_is_plotted_from_the_rest_and_exits_2() {
+    // As `check` and `eval` do for the same folder: the rest is used, the status says not all.
+    let dir = scratch("plot-unreadable");
+    std::fs::copy(root().join("examples/veyra.syz"), dir.join("veyra.syz")).unwrap();
+    std::fs::write(dir.join("broken.syz"), [0xff, 0xfe, 0x00]).unwrap();
+    let svg = dir.join("mr.svg");
+    let o = run(&[
+        "plot",
+        "mass-radius",
+        dir.to_str().unwrap(),
+        "-o",
+        svg.to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
+    assert!(stderr(&o).contains("broken.syz"), "{}", stderr(&o));
+    assert!(std::fs::read_to_string(&svg).unwrap().contains("Veyra b"));
+    let o = run(&["check", dir.to_str().unwrap()]);
+    assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
 }

@@ -82,7 +82,7 @@ pub(super) fn draw(
     paths: &[PathBuf],
     flags: &Layer,
     read: files::ReadArgs,
-) -> Result<String, Stop> {
+) -> Result<(String, bool), Stop> {
     let loaded = files::load(paths, read);
     files::report_io_errors(&loaded.errors);
     let analyses = files::analyze_all(&loaded, flags).map_err(Stop::settings)?;
@@ -526,7 +526,7 @@ pub(super) fn draw(
             unlabelled.join(", ")
         );
     }
-    Ok(svg_text)
+    Ok((svg_text, !loaded.errors.is_empty()))
 }
 
 fn print_planets(points: &[PlanetPoint], systems: &[(usize, &str, usize)], unlabelled: &[&str]) {
