@@ -69,6 +69,17 @@ impl<R: Read> CsvTable<R> {
         if prefix.starts_with(b"\xEF\xBB\xBF") {
             prefix.drain(..3);
         }
+        // A table saved as UTF-16 (a byte-order mark, or a zero byte beside every ASCII
+        // character) would otherwise be read as one column of garbled names.
+        let utf16 = prefix.starts_with(b"\xFF\xFE")
+            || prefix.starts_with(b"\xFE\xFF")
+            || prefix.iter().take(200).filter(|&&b| b == 0).count() > 20;
+        if utf16 {
+            return Err(TableError::new(
+                None,
+                "the table is encoded in UTF-16; save it as UTF-8 (the encoding CSV tables use)",
+            ));
+        }
         let delimiter = match delimiter {
             Some(c) if c == ',' || c == '\t' || c == ';' => c as u8,
             Some(c) => {

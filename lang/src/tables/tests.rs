@@ -688,3 +688,19 @@ fn a_quote_never_closed_is_an_error_not_rows_lost() {
         assert_eq!(n, 2, "{ok}");
     }
 }
+
+#[test]
+fn a_utf16_table_is_named_as_such() {
+    let text = "sys,pl,per\nQuorlin,b,3\n";
+    let le: Vec<u8> = [0xFF, 0xFE]
+        .into_iter()
+        .chain(text.encode_utf16().flat_map(u16::to_le_bytes))
+        .collect();
+    let no_mark: Vec<u8> = text.encode_utf16().flat_map(u16::to_be_bytes).collect();
+    for bytes in [le, no_mark] {
+        let e = CsvTable::new(bytes.as_slice(), None, Limits::default())
+            .err()
+            .expect("refused");
+        assert!(e.to_string().contains("UTF-16"), "{e}");
+    }
+}
