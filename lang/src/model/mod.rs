@@ -568,6 +568,9 @@ fn cited(p: &ast::Prop) -> Vec<&str> {
     ids
 }
 
+/// Where a quantity was written and the references it cites.
+type Written<'a> = (Span, Vec<&'a str>);
+
 fn lower_props(
     b: &ast::BodyDecl,
     bi: usize,
@@ -575,19 +578,22 @@ fn lower_props(
     resolver: &resolve::Resolver,
     diags: &mut Vec<Diagnostic>,
 ) -> Props {
-    let mut out: Vec<Declared> = Vec::new();
+    // At most one declaration per property: sized once rather than grown by doubling.
+    let mut out: Vec<Declared> = Vec::with_capacity(b.props.len());
     let mut further: Vec<Declared> = Vec::new();
     // Every quantity written, even one whose value was refused, with its citations: a
     // repeat that cites nothing, or the same sources as an earlier one, is a duplicate
     // whether or not the first could be read.
-    let mut seen: FxHashMap<Qty, Vec<(Span, Vec<&str>)>> = FxHashMap::default();
+    // By quantity, in a list: a body declares a few dozen quantities at most, which a scan
+    // finds sooner than a hash table is built for every body.
+    let mut seen: Vec<(Qty, Vec<Written>)> = Vec::new();
     for p in &b.props {
         let Some(def) = quantities::find(b.kind, &p.name.name) else {
             diags.push(value::unknown_quantity(b.kind, &p.name));
             continue;
         };
         let cites = cited(p);
-        if let Some(prev) = seen.get(&def.qty) {
+        if let Some((_, prev)) = seen.iter().find(|(q, _)| *q == def.qty) {
             let same = prev.iter().find(|(_, c)| *c == cites);
             if cites.is_empty() || same.is_some() {
                 let (at, words) = match same {
@@ -613,7 +619,10 @@ fn lower_props(
                 continue;
             }
         }
-        seen.entry(def.qty).or_default().push((p.name.span, cites));
+        match seen.iter_mut().find(|(q, _)| *q == def.qty) {
+            Some((_, list)) => list.push((p.name.span, cites)),
+            None => seen.push((def.qty, vec![(p.name.span, cites)])),
+        }
         let mut citations = Vec::new();
         for c in &p.citations {
             if refs.iter().any(|r| r.id == c.name) || shared.get(&c.name).is_some() {

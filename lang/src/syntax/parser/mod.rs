@@ -130,6 +130,7 @@ impl<'a> Items<'a> {
                 taken: 0,
                 stopped: false,
                 value: value_parser(src, file),
+                props: Vec::new(),
             },
         }
     }
@@ -252,6 +253,10 @@ struct Cursor<'a> {
     /// Set when the parser stopped reading after too many syntax errors.
     stopped: bool,
     value: ValueParser<'a>,
+    /// The properties of the body being read, moved into it at its end with the exact
+    /// capacity (growing each body's own list by doubling copied its 232-byte nodes and
+    /// left half of its memory unused).
+    props: Vec<Prop>,
 }
 
 impl<'a> Cursor<'a> {
@@ -671,7 +676,7 @@ impl<'a> Cursor<'a> {
                 }
                 Some(Tok::Ident) => {
                     if let Some(p) = self.parse_prop() {
-                        body.props.push(p);
+                        self.props.push(p);
                     }
                 }
                 Some(_) => {
@@ -685,6 +690,7 @@ impl<'a> Cursor<'a> {
                 }
             }
         }
+        body.props = self.props.drain(..).collect();
         body.span = Span::new(self.file, start, self.prev_end());
         Some(body)
     }
