@@ -203,9 +203,15 @@ fn report(table: &str, r: &ImportResult) {
     } else {
         String::new()
     };
+    let n = |count: usize, word: &str| format!("{count} {word}{}", crate::check_cmd::plural(count));
     println!(
-        "{table}: {} rows: {} systems, {} stars, {} planets, {} values imported{merged}; {} cells skipped",
-        s.rows, s.systems, s.stars, s.planets, s.values, s.skipped_cells
+        "{table}: {}: {}, {}, {}, {} imported{merged}; {} skipped",
+        n(s.rows, "row"),
+        n(s.systems, "system"),
+        n(s.stars, "star"),
+        n(s.planets, "planet"),
+        n(s.values, "value"),
+        n(s.skipped_cells, "cell")
     );
 }
 
@@ -231,7 +237,11 @@ fn write_all(r: &ImportResult, args: &Args, written: &mut HashSet<String>) -> bo
             }
         }
     }
-    println!("wrote {count} files to {}", args.output.display());
+    println!(
+        "wrote {count} file{} to {}",
+        crate::check_cmd::plural(count),
+        args.output.display()
+    );
     failed
 }
 

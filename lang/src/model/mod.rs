@@ -473,6 +473,52 @@ fn lower_system(
         body.declared = props.first;
         body.further = props.further;
     }
+    // A body written with nothing in it (an imported star whose cells were all empty, say):
+    // nothing resting on it is derived, which `check` would otherwise pass in silence.
+    // Not where something was written but did not parse: that error already says so.
+    let mut starts: Option<Vec<(FileId, u32)>> = None;
+    for (bi, b) in body_syntax.iter().enumerate() {
+        if !(b.props.is_empty() && b.lets.is_empty()) {
+            continue;
+        }
+        let starts = starts.get_or_insert_with(|| {
+            let mut v: Vec<(FileId, u32)> =
+                diags.iter().map(|d| (d.span.file, d.span.start)).collect();
+            v.sort_unstable();
+            v
+        });
+        let from = starts.partition_point(|&s| s < (b.span.file, b.span.start));
+        if starts
+            .get(from)
+            .is_some_and(|&(f, at)| f == b.span.file && at < b.span.end)
+        {
+            continue;
+        }
+        let planets = sys.bodies.iter().filter(|p| p.orbits == Some(bi)).count();
+        let what = match (b.kind, planets) {
+            (BodyKind::Star, 0) => "nothing is derived for it".to_string(),
+            (BodyKind::Star, 1) => "nothing that needs the star (its planet's semi-major axis, mass or temperature) is derived".to_string(),
+            (BodyKind::Star, n) => format!("nothing that needs the star (its {n} planets' semi-major axes, masses or temperatures) is derived"),
+            (BodyKind::Planet, _) => "nothing is derived for it".to_string(),
+        };
+        diags.push(
+            Diagnostic::new(
+                Rule::NotDerivable,
+                b.name.span,
+                format!(
+                    "{} '{}' declares no value, so {what}",
+                    b.kind.as_str(),
+                    b.name.name
+                ),
+            )
+            .with_help(match b.kind {
+                BodyKind::Star => "declare its measurements: mass, radius, teff, ...",
+                BodyKind::Planet => {
+                    "declare its measurements: period, rv_amplitude, transit_depth, ..."
+                }
+            }),
+        );
+    }
     for (id, value, dim) in bindings.resolved {
         let slot = match id.body {
             None => sys.lets.get_mut(id.index),

@@ -403,3 +403,27 @@ fn a_second_preferred_mark_is_reported_and_the_first_kept() {
     let all = m.systems[0].bodies[1].sources(Qty::Period);
     assert!(all[0].preferred && !all[1].preferred);
 }
+
+/// A body written with nothing in it is said (an imported star whose cells were all
+/// empty passed `check` in silence), but not where its lines failed to parse: that error
+/// says so already.
+#[test]
+fn an_empty_body_is_noted_unless_its_lines_failed_to_parse() {
+    let notes = |src: &str| {
+        let a = crate::analyze(FileId(0), src, &crate::Settings::linear());
+        a.diagnostics
+            .iter()
+            .filter(|d| d.message.contains("declares no value"))
+            .map(|d| d.message.clone())
+            .collect::<Vec<_>>()
+    };
+    let empty = "system \"Orvane\" {\n  star orv {\n  }\n  planet b orbits orv { period = 3.1 d }\n  planet c orbits orv { period = 9.2 d }\n}\n";
+    assert_eq!(
+        notes(empty),
+        ["star 'orv' declares no value, so nothing that needs the star (its 2 planets' semi-major axes, masses or temperatures) is derived"]
+    );
+    let broken = empty.replace("star orv {\n", "star orv {\n    = 1 Msun\n");
+    assert_eq!(notes(&broken), Vec::<String>::new());
+    let full = empty.replace("star orv {\n", "star orv {\n    mass = 1 Msun\n");
+    assert_eq!(notes(&full), Vec::<String>::new());
+}
