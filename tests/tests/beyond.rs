@@ -251,6 +251,21 @@ fn ephemeris_lists_transits_with_growing_uncertainty() {
     assert!(stderr(&o).contains("declares no transit_epoch"));
     let o = run(&["ephemeris", "examples/veyra.syz", "b", "--from", "soon"]);
     assert_eq!(o.status.code(), Some(2));
+    // A period far too short for the date blames the period, not the date.
+    let tiny = dir.join("tiny.syz");
+    std::fs::write(
+        &tiny,
+        "system \"Mote\" {\n  star s { mass = 1 Msun; radius = 1 Rsun }\n  planet b orbits s { period = 1e-300 d; transit_epoch = 2460000.5 BJD_TDB }\n}\n",
+    )
+    .unwrap();
+    let o = run(&["ephemeris", tiny.to_str().unwrap(), "b", "--count", "1"]);
+    assert_eq!(o.status.code(), Some(1));
+    assert!(
+        stderr(&o).contains("check the period's unit"),
+        "{}",
+        stderr(&o)
+    );
+    assert!(!stderr(&o).contains("Julian date"), "{}", stderr(&o));
     // A --from the listing cannot start at is the option's fault (exit 2), said plainly.
     let o = run(&[
         "ephemeris",

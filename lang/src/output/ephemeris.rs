@@ -238,14 +238,23 @@ impl Ephemeris {
     }
 
     /// The first `count` transits at or after the UTC Julian date `from`.
-    pub fn upcoming(&self, from_jd_utc: f64, count: usize) -> Result<Vec<Transit>, TimeError> {
-        let from_tdb = time::convert(from_jd_utc, Scale::Utc, Scale::Tdb)?;
+    pub fn upcoming(&self, from_jd_utc: f64, count: usize) -> Result<Vec<Transit>, String> {
+        let from_tdb =
+            time::convert(from_jd_utc, Scale::Utc, Scale::Tdb).map_err(|e| e.to_string())?;
         let first = ((from_tdb - self.t0_tdb) / self.period_days).ceil();
         if !first.is_finite() || first.abs() > 1e12 {
-            return Err(TimeError::OutOfRange(from_jd_utc));
+            // The date is fine (it converted); the period is too short to count orbits to it.
+            return Err(format!(
+                "a period of {} d would put about {} orbits between the epoch and this date, \
+                 more than the 10^12 transit numbers are counted to; check the period's unit",
+                crate::format::sig(self.period_days, 4),
+                crate::format::sig(first.abs(), 2)
+            ));
         }
         let first = first as i64;
-        (0..count as i64).map(|i| self.transit(first + i)).collect()
+        (0..count as i64)
+            .map(|i| self.transit(first + i).map_err(|e| e.to_string()))
+            .collect()
     }
 
     /// What could make the listed times mislead: the first listed transit whose uncertainty

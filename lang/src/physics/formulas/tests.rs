@@ -840,3 +840,15 @@ fn the_depth_of_a_grazing_transit_is_the_covered_fraction_not_k_squared() {
     assert!(depth_from_radius_ratio_and_impact(0.0, 0.5).is_none());
     assert!(depth_from_radius_ratio_and_impact(0.1, f64::NAN).is_none());
 }
+
+#[test]
+fn an_edge_on_orbit_has_an_impact_parameter_of_exactly_zero() {
+    // 90 deg in radians has a cosine of 6e-17; the impact parameter is 0, not 1e-15.
+    let b = impact_from_inclination(deg(90.0), 19.6, 0.0, deg(90.0)).unwrap();
+    assert_eq!(b, 0.0);
+    let b = impact_from_inclination(deg(89.9), 19.6, 0.0, deg(90.0)).unwrap();
+    assert!(
+        (b - 19.6 * (89.9f64).to_radians().cos()).abs() < 1e-12,
+        "{b}"
+    );
+}

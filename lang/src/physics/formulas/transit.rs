@@ -143,7 +143,15 @@ pub fn impact_from_inclination(
         return None;
     }
     let r = conjunction_distance(a_over_rstar, Eccentric::of(e, omega)?)?;
-    finite_f64(r * inclination.cos().get::<ratio>().abs())
+    // 90 deg converted to radians is not exactly pi/2, and its cosine is 6e-17, not 0: an
+    // edge-on orbit would show an impact parameter of 1e-15 as if measured.
+    let cos_i = inclination.cos().get::<ratio>().abs();
+    let cos_i = if cos_i < 4.0 * f64::EPSILON {
+        0.0
+    } else {
+        cos_i
+    };
+    finite_f64(r * cos_i)
 }
 
 /// Inclination from the impact parameter, inverting Winn 2010 eq. 7:
