@@ -382,6 +382,10 @@ impl<'m> Derivation<'m> {
         if key.1 == Qty::Tsm {
             notes.extend(self.tsm_bin_note(key));
         }
+        // Once per star, on the first of its habitable-zone values.
+        if key.1 == Qty::HabitableInnerFlux {
+            notes.extend(self.habitable_range_note(key));
+        }
         let form = if form == Form::Asymmetric && ((above - below).abs() <= 1e-3 * above.max(below))
         {
             Form::Symmetric
@@ -535,6 +539,36 @@ impl Derivation<'_> {
                 crate::format::sig(lo, 3),
                 crate::format::sig(hi, 3),
                 edges.join(" and ")
+            )
+        })
+    }
+
+    /// Where the star's temperature interval reaches past the 2600-7200 K the habitable
+    /// zone's fits hold for, while its value lies inside: the edges rest partly on the fits
+    /// beyond their range (Monte Carlo leaves those draws out and says how many; first order
+    /// extrapolates without a word, so this note says it for both).
+    fn habitable_range_note(&self, key: Key) -> Option<String> {
+        let tkey = (key.0, Qty::Teff);
+        let t = &self.entries.get(&tkey)?.value;
+        let (lo, hi) = match t.sample_summary() {
+            Some(s) => (s.low, s.high),
+            None => {
+                let (below, above) = t.linear_spread(&self.inputs);
+                (t.nominal - below, t.nominal + above)
+            }
+        };
+        let (min, max) = crate::physics::formulas::HABITABLE_TEFF_RANGE;
+        let past = [(lo < min, min), (hi > max, max)]
+            .into_iter()
+            .filter(|(past, _)| *past)
+            .map(|(_, edge)| format!("{edge} K"))
+            .collect::<Vec<_>>();
+        (!past.is_empty()).then(|| {
+            format!(
+                "the star's Teff interval ({} to {} K) reaches past {}, where the fits of Kopparapu et al. (2014) end: every habitable-zone edge of this star, and a planet's place against them, is less certain than its interval says",
+                crate::format::sig(lo, 4),
+                crate::format::sig(hi, 4),
+                past.join(" and ")
             )
         })
     }

@@ -870,6 +870,32 @@ mod tests {
     }
 
     #[test]
+    fn a_star_near_the_end_of_the_habitable_zone_fits_says_so_once() {
+        // Kopparapu et al. (2014): the fits hold for Teff 2600-7200 K; 7180 ± 60 K reaches
+        // past it, which first order would otherwise extrapolate without a word.
+        let src = |t: &str| {
+            format!("system \"S\" {{\n star s {{ mass = 1.5 ± 0.05 Msun; radius = 1.6 ± 0.05 Rsun; teff = {t} K }}\n planet b orbits s {{ period = 300 ± 1 d }}\n}}\n")
+        };
+        for settings in [crate::Settings::linear(), crate::Settings::default()] {
+            let a = crate::analyze(FileId(0), &src("7180 ± 60"), &settings);
+            let notes: Vec<&String> = a.results[0].bodies[0]
+                .quantities
+                .iter()
+                .flat_map(|q| &q.notes)
+                .filter(|n| n.contains("where the fits of Kopparapu et al. (2014) end"))
+                .collect();
+            assert_eq!(notes.len(), 1, "{notes:?}");
+            assert!(notes[0].contains("reaches past 7200 K"), "{}", notes[0]);
+            let a = crate::analyze(FileId(0), &src("6500 ± 60"), &settings);
+            assert!(a.results[0].bodies[0]
+                .quantities
+                .iter()
+                .flat_map(|q| &q.notes)
+                .all(|n| !n.contains("where the fits of Kopparapu")));
+        }
+    }
+
+    #[test]
     fn a_value_without_a_route_says_what_each_route_lacks() {
         // An RV-only planet: the minimum mass follows, the true mass needs the inclination.
         let src = "system \"S\" {\n star s { mass = 1 ± 0.05 Msun }\n planet b orbits s { period = 4.2 d; rv_amplitude = 55 ± 2 m/s }\n planet c { period = 9 d }\n}\n";
