@@ -395,7 +395,42 @@ fn transit_geometry(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
         }
         return;
     };
-    if b > 1.0 + k {
+    // k from the depth (or the depth from k) without the impact parameter, found before the
+    // impact parameter was derived from other values: right only for a transit that is not
+    // grazing. (A declared impact parameter is used by the rules that know about grazing.)
+    let blind = [
+        (
+            Qty::RadiusRatio,
+            "depth-radius-ratio",
+            "k was taken as sqrt(depth)",
+        ),
+        (
+            Qty::TransitDepth,
+            "radius-ratio-depth",
+            "the depth was taken as k^2",
+        ),
+    ]
+    .into_iter()
+    .find(|(q, rule, _)| d.rule_id((bi, *q)) == Some(*rule));
+    if let (Some((_, _, how)), true) = (blind, b > 1.0 - k && b < 1.0 + k) {
+        diags.push(
+            Diagnostic::new(
+                Rule::TransitGeometry,
+                anchor(d, bi, &[Qty::TransitDepth, Qty::RadiusRatio]),
+                format!(
+                    "{}'s transit is grazing (b = {} exceeds 1 - k = {}), but {how}, which holds only when the planet's disc lies wholly on the star's: the impact parameter was derived only after it",
+                    body.id,
+                    crate::format::sig(b, 3),
+                    crate::format::sig(1.0 - k, 3)
+                ),
+            )
+            .with_help("declare the impact parameter (b), so that the covered fraction of the star's disc is used"),
+        );
+        if let Some(last) = diags.last_mut() {
+            last.severity = crate::diagnostic::Severity::Warning;
+        }
+    }
+    if b >= 1.0 + k {
         diags.push(
             Diagnostic::new(
                 Rule::TransitGeometry,

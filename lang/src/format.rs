@@ -48,10 +48,12 @@ pub fn sig(v: f64, n: usize) -> String {
 }
 
 /// `v` with `decimals` digits after the point, as a message shows a number it compares
-/// with a threshold; a magnitude past 10^9 (or not finite) in four significant figures
-/// instead, so that an absurd input never becomes a number of hundreds of digits.
+/// with a threshold; a magnitude past 10^6, one too small to show in those decimals, or
+/// one not finite in four significant figures instead, so that an absurd input never
+/// becomes a number of hundreds of digits, nor a zero.
 pub fn fixed(v: f64, decimals: usize) -> String {
-    if v.is_finite() && v.abs() < 1e9 {
+    let smallest = 0.5 * 10f64.powi(-(decimals.min(20) as i32));
+    if v.is_finite() && v.abs() < 1e6 && (v == 0.0 || v.abs() >= smallest) {
         format!("{v:.decimals$}")
     } else {
         sig(v, 4)
@@ -219,6 +221,18 @@ pub fn julian_date(jd: f64, below: f64, above: f64) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_number_in_a_message_is_never_hundreds_of_digits_nor_a_false_zero() {
+        assert_eq!(fixed(0.0407, 4), "0.0407");
+        assert_eq!(fixed(5772.0, 0), "5772");
+        assert_eq!(fixed(0.0, 3), "0.000");
+        assert_eq!(fixed(1e30, 0), "1e30");
+        assert_eq!(fixed(12_345_678.9, 3), "1.235e7");
+        assert_eq!(fixed(1.23e-6, 0), "1.23e-6");
+        assert_eq!(fixed(1e-30, 3), "1e-30");
+        assert_eq!(fixed(f64::INFINITY, 2), sig(f64::INFINITY, 4));
+    }
 
     #[test]
     fn an_uncertainty_that_is_not_finite_is_said() {

@@ -333,6 +333,14 @@ impl QuantityDef {
         lo && hi
     }
 
+    /// Why `value` (SI) is physically impossible though inside the quantity's range, where
+    /// it is: a radial-velocity amplitude at or past the speed of light. Not a bound of the
+    /// range, which would make a lower limit on it samplable up to that bound.
+    pub fn impossible(&self, value: f64) -> Option<&'static str> {
+        (self.qty == Qty::RvAmplitude && value.abs() >= crate::constants::C)
+            .then_some("a radial-velocity amplitude must be below the speed of light")
+    }
+
     /// The range in words, in the display unit (for messages and docs).
     pub fn range_text(&self) -> String {
         let unit = crate::units::parse_unit_text(self.display);

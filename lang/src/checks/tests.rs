@@ -396,15 +396,61 @@ fn absurd_values_give_readable_messages() {
         texts.iter().any(|t| t.contains("mass 1e20 Msun")),
         "{texts:?}"
     );
-    let k = a
-        .diagnostics
-        .iter()
-        .find(|d| d.rule == Rule::OutOfRange && d.message.contains("not below the speed of light"));
+    let k = a.diagnostics.iter().find(|d| {
+        d.rule == Rule::OutOfRange && d.message.contains("must be below the speed of light")
+    });
     assert!(k.is_some(), "{texts:?}");
+    // Also as an expression's value (2 c).
+    let expr = run("system \"Q\" {\n star s { mass = 1 Msun }\n planet b orbits s { period = 3 d; rv_amplitude = 2 * c }\n}\n");
+    assert!(
+        expr.diagnostics.iter().any(|d| d.rule == Rule::OutOfRange
+            && d.message.contains("must be below the speed of light")),
+        "{:#?}",
+        expr.diagnostics
+    );
     assert!(
         texts
             .iter()
             .any(|t| t.contains("the bound is 2.6666666666666665 to full precision")),
         "{texts:?}"
+    );
+}
+
+/// The impact parameter derived (from the inclination) only after k gave the depth as k^2:
+/// on a grazing orbit that depth is too deep, which a warning says (the rules that know
+/// about grazing need the impact parameter declared). And b exactly 1 + k is no transit.
+#[test]
+fn a_grazing_orbit_found_after_the_depth_is_pointed_out() {
+    let src = |i: &str| {
+        format!("system \"Orveth\" {{\n  star s {{ mass = 1 ± 0.02 Msun; radius = 1 ± 0.02 Rsun }}\n  planet b orbits s {{ period = 15 ± 0.001 d; radius_ratio = 0.1 ± 0.001; inclination = {i} ± 0.01 deg }}\n}}\n")
+    };
+    // b = a/R* cos i = 0.95 at 87.872 deg for this orbit (a/R* = 26.6).
+    let grazing = run(&src("87.872"));
+    let w: Vec<&crate::diagnostic::Diagnostic> = grazing
+        .diagnostics
+        .iter()
+        .filter(|d| d.rule == Rule::TransitGeometry)
+        .collect();
+    assert_eq!(w.len(), 1, "{:#?}", grazing.diagnostics);
+    assert_eq!(w[0].severity, Severity::Warning);
+    assert!(
+        w[0].message.contains("the depth was taken as k^2"),
+        "{}",
+        w[0].message
+    );
+    let central = run(&src("89.9"));
+    assert!(
+        !rules(&central).contains(&Rule::TransitGeometry),
+        "{:#?}",
+        central.diagnostics
+    );
+    // b exactly 1 + k: the discs only touch.
+    let touching = run(&one_planet(
+        "period = 10 d; radius_ratio = 0.1 ± 0.002; impact = 1.1 ± 0.02",
+    ));
+    assert!(
+        rules(&touching).contains(&Rule::TransitGeometry),
+        "{:#?}",
+        touching.diagnostics
     );
 }

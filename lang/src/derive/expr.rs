@@ -166,6 +166,17 @@ impl<'m> Derivation<'m> {
         refs.sort_unstable();
         refs.dedup();
         let def = quantities::def(key.1);
+        if let Some(why) = def.impossible(v.nominal) {
+            self.diagnostics.push(Diagnostic::new(
+                Rule::OutOfRange,
+                e.span,
+                format!(
+                    "this expression evaluates to {} m/s: {why}",
+                    crate::format::sig(v.nominal, 4)
+                ),
+            ));
+            return Err(Pending::Failed);
+        }
         if !def.in_range(v.nominal) {
             self.diagnostics.push(Diagnostic::new(
                 Rule::OutOfRange,

@@ -346,12 +346,16 @@ impl<'m> Derivation<'m> {
             _ => None,
         };
         for (j, later) in all.iter().enumerate() {
+            // The value used is compared by every other source (before or after it), so it
+            // needs no comparisons of its own.
+            if used == Some(j) {
+                continue;
+            }
             let Some(b) = measured(later) else { continue };
-            // The value used first, then the earlier ones in order: at most
-            // COMPARED_SOURCES of them, so that many sources of one quantity cost linear
-            // time, not quadratic.
+            // The value used first, wherever it stands, then the earlier ones in order: at
+            // most COMPARED_SOURCES of them, so that many sources of one quantity cost
+            // linear time, not quadratic.
             let earlier_ones = used
-                .filter(|&u| u < j)
                 .into_iter()
                 .chain((0..j).filter(|&i| used != Some(i)))
                 .take(sources::COMPARED_SOURCES);

@@ -399,6 +399,15 @@ impl<'m> Derivation<'m> {
     pub fn origin(&self, k: Key) -> Option<Origin> {
         self.entries.get(&k).map(|e| e.origin)
     }
+
+    /// The id of the rule a derived value came from.
+    pub fn rule_id(&self, k: Key) -> Option<&'static str> {
+        self.entries
+            .get(&k)
+            .and_then(|e| e.rule)
+            .and_then(|r| RULES.get(r))
+            .map(|r| r.id)
+    }
 }
 
 /// A value's first-order spread relative to its size: how routes are ranked by precision.

@@ -1266,3 +1266,31 @@ fn sources_are_compared_with_a_bounded_number_of_earlier_ones() {
         found[0].message
     );
 }
+
+/// A source written before the value used is compared with it too: with the most precise
+/// value last, an earlier one 19.6 sigma from it was never reported (only the first
+/// earlier disagreement of the value used itself was).
+#[test]
+fn a_source_before_the_value_used_is_compared_with_it() {
+    let src = "ref a \"Invented A\"\nref b \"Invented B\"\nref c \"Invented C\"\nsystem \"Marrow\" {\n star s { mass = 1 ± 0.05 Msun }\n planet p orbits s {\n  period = 10.0 ± 0.3 d [a]\n  period = 10.0 ± 0.05 d [b]\n  period = 11.0 ± 0.01 d [c]\n }\n}\n";
+    let a = run(src, &Options::linear());
+    let found: Vec<&str> = a
+        .diagnostics
+        .iter()
+        .filter(|d| d.rule == crate::diagnostic::Rule::SourcesDisagree)
+        .map(|d| d.message.as_str())
+        .collect();
+    assert_eq!(found.len(), 2, "{found:?}");
+    assert!(
+        found
+            .iter()
+            .any(|m| m.contains("[b]") && m.contains("[c] (the value used)") && m.contains("19.6")),
+        "{found:?}"
+    );
+    assert!(
+        found
+            .iter()
+            .any(|m| m.contains("[a]") && m.contains("[c] (the value used)")),
+        "{found:?}"
+    );
+}

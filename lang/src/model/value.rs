@@ -257,15 +257,12 @@ pub(super) fn lower_value(
     // A radial-velocity amplitude cannot reach the speed of light. Not a bound of the
     // quantity's range (a lower limit would then be sampled up to c); a value or limit at or
     // past it is a unit slip (K = 1e50 m/s once made the mass vanish without a word).
-    if def.qty == Qty::RvAmplitude && value.abs() >= crate::constants::C {
+    if let Some(why) = def.impossible(value) {
         diags.push(
             Diagnostic::new(
                 Rule::OutOfRange,
                 expr.span,
-                format!(
-                    "a radial-velocity amplitude of {} m/s is not below the speed of light",
-                    crate::format::sig(value, 4)
-                ),
+                format!("{} m/s: {why}", crate::format::sig(value, 4)),
             )
             .with_help(
                 "check the unit: stellar reflex motions are metres to kilometres per second",

@@ -265,13 +265,13 @@ impl Ephemeris {
         if let Some(t) = transits.iter().find(|t| t.sigma_days > quarter) {
             return vec![format!(
                 "the ephemeris is lost from transit n = {} on: its uncertainty ({}) exceeds a \
-                 quarter of the period ({} d), so the two-sigma window spans a whole orbit and \
+                 quarter of the period (P/4 = {} d), so the two-sigma window spans a whole orbit and \
                  which orbit a transit belongs to cannot be told; these times (and whether \
                  they are observable) are not predictions: a new transit time or a better \
                  period is needed (common practice)",
                 t.n,
                 sigma_text(t.sigma_days),
-                crate::format::sig(self.period_days, 4)
+                crate::format::sig(quarter, 3)
             )];
         }
         let Some((duration, _)) = self.duration_days else {

@@ -634,10 +634,14 @@ fn routes_missing(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<String
         } else {
             " (outside the formula's domain)"
         };
+        let (has, gives) = if failed.len() == 1 {
+            ("has", "gives")
+        } else {
+            ("have", "give")
+        };
         return Some(format!(
-            "{} {} every input but gives no value at these inputs{why}",
-            crate::text::and_list(&failed),
-            if failed.len() == 1 { "has" } else { "have" }
+            "{} {has} every input but {gives} no value at these inputs{why}",
+            crate::text::and_list(&failed)
         ));
     }
     routes.sort_by(|x, y| (x.0, x.1).cmp(&(y.0, y.1)).then_with(|| x.2.cmp(&y.2)));

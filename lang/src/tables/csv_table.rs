@@ -16,8 +16,14 @@ struct Capped<R> {
     inner: R,
     since: usize,
     limit: usize,
-    /// Quote characters read so far: an odd count at the end means one was never closed.
+    /// Quote characters read so far outside comment lines: an odd count at the end means
+    /// one was never closed (or an inch mark stands in a cell: see `last`).
     quotes: usize,
+    /// The last byte read that is not white space, outside comment lines: a quoted cell
+    /// closed at the end of the file leaves a quote here.
+    last: u8,
+    at_line_start: bool,
+    in_comment: bool,
 }
 
 impl<R: Read> Read for Capped<R> {
@@ -27,9 +33,19 @@ impl<R: Read> Read for Capped<R> {
         }
         let n = self.inner.read(buf)?;
         self.since += n;
-        self.quotes += buf
-            .get(..n)
-            .map_or(0, |b| b.iter().filter(|&&c| c == b'"').count());
+        for &c in buf.get(..n).unwrap_or(&[]) {
+            if self.at_line_start {
+                self.in_comment = c == b'#';
+            }
+            self.at_line_start = c == b'\n';
+            if self.in_comment || c.is_ascii_whitespace() {
+                continue;
+            }
+            self.last = c;
+            if c == b'"' {
+                self.quotes += 1;
+            }
+        }
         Ok(n)
     }
 }
@@ -71,6 +87,12 @@ impl<R: Read> CsvTable<R> {
         }
         // A table saved as UTF-16 (a byte-order mark, or a zero byte beside every ASCII
         // character) would otherwise be read as one column of garbled names.
+        if prefix.starts_with(b"\xFF\xFE\x00\x00") || prefix.starts_with(b"\x00\x00\xFE\xFF") {
+            return Err(TableError::new(
+                None,
+                "the table is encoded in UTF-32; save it as UTF-8 (the encoding CSV tables use)",
+            ));
+        }
         let utf16 = prefix.starts_with(b"\xFF\xFE")
             || prefix.starts_with(b"\xFE\xFF")
             || prefix.iter().take(200).filter(|&&b| b == 0).count() > 20;
@@ -95,6 +117,9 @@ impl<R: Read> CsvTable<R> {
             since: 0,
             limit: limits.max_row_bytes.saturating_add(CSV_BUFFER),
             quotes: 0,
+            last: 0,
+            at_line_start: true,
+            in_comment: false,
         };
         let reader = csv::ReaderBuilder::new()
             .has_headers(false)
@@ -133,7 +158,9 @@ impl<R: Read> CsvTable<R> {
             Ok(false) => {
                 // A quote never closed makes the csv reader take every line after it into
                 // one cell of the last row: those rows would vanish without a word.
-                if let (Some(at), true) = (self.multiline, self.reader.get_ref().quotes % 2 == 1) {
+                let source = self.reader.get_ref();
+                let unclosed = source.quotes % 2 == 1 && source.last != b'"';
+                if let (Some(at), true) = (self.multiline, unclosed) {
                     return Err(TableError::new(
                         Some(at),
                         "a quote that opens a cell on this row is never closed, so every line \

@@ -679,6 +679,9 @@ fn a_quote_never_closed_is_an_error_not_rows_lost() {
     for ok in [
         "sys,pl,note\nQuorlin,b,\"two\nlines\"\nVessa,c,x\n",
         "sys,pl,note\nQuorlin,b,a 12\" mirror\nVessa,c,x\n",
+        // An inch mark, then a quoted cell spanning lines at the very end (with a comment
+        // after it): an odd number of quotes, all closed.
+        "sys,pl,note\nQuorlin,b,x\nVessa,c 8\" A,\"multi\nline\"\n# the end\n",
     ] {
         let mut t = CsvTable::new(ok.as_bytes(), None, Limits::default()).unwrap();
         let mut n = 0;

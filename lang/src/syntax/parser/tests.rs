@@ -463,14 +463,35 @@ fn uncertainties_in_other_notations_are_errors_with_the_spelling_taken() {
         let h = help_of(value).unwrap_or_default();
         assert!(h.contains(help), "{value}: {h}");
     }
+    // Two signed numbers of one sign, and a signed number after `± u`: the same slip.
+    for (value, says) in [
+        ("0.4 -0.05 -0.1", "reads as arithmetic"),
+        ("0.4 +0.05 +0.1", "reads as arithmetic"),
+        (
+            "0.3 ± 0.05 -0.01",
+            "after the uncertainty reads as a difference",
+        ),
+        ("0.3 ±0.05 +0.01", "after the uncertainty reads as a sum"),
+    ] {
+        let src = format!("system \"S\" {{ star s {{ x = {value} }} }}");
+        let d = parse(FileId(0), &src).diagnostics;
+        assert!(
+            d.len() == 1 && d[0].message.contains(says),
+            "{value}: {d:?}"
+        );
+    }
     // A sum written as one is still a sum, and a call is still a call; so is a signed
-    // number followed by an operator, or glued to the value.
+    // number followed by an operator (spaced `+` and `-` included), or glued to the value.
     for value in [
         "0.4 + 0.1 - 0.05",
         "0.4 + 0.1",
         "sqrt(0.25)",
         "0.4 -0.05 * 2",
         "0.4-0.05",
+        "0.3 -0.05 + 0.01",
+        "0.3 -0.05 - 0.01",
+        "0.3 ± 0.05 - 0.01",
+        "0.3 ± 0.05 ± 0.01",
     ] {
         let src = format!("system \"S\" {{ star s {{ x = {value} }} }}");
         assert!(parse(FileId(0), &src).diagnostics.is_empty(), "{value}");

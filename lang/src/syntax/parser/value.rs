@@ -396,9 +396,60 @@ impl Cursor<'_> {
         // copying, which the grammar reads as a difference or a sum (0.35 or 0.45). An
         // operator after it (`0.4 -0.05 * x`) makes it an expression, left as one.
         let two_sided = matches!(rest, [c, d, ..] if signed(c, d));
-        let operator_follows = rest
-            .first()
-            .is_some_and(|t| matches!(t.kind, Tok::Star | Tok::Slash | Tok::Caret | Tok::LParen));
+        // An operator: `*`, `/`, `^`, `(`, or a `+`/`-` not attached to a number after it.
+        let operator_follows = match rest {
+            [t, ..] if matches!(t.kind, Tok::Star | Tok::Slash | Tok::Caret | Tok::LParen) => true,
+            [t, n, ..] if matches!(t.kind, Tok::Plus | Tok::Minus) => !joined(t, n),
+            [t] => matches!(t.kind, Tok::Plus | Tok::Minus),
+            _ => false,
+        };
+        // `0.3 ± 0.05 -0.01`: the same slip after a symmetric uncertainty (0.29 ± 0.05).
+        if a.kind == Tok::PlusMinus && b.kind == Tok::Number {
+            let [c, d, after @ ..] = rest else {
+                return None;
+            };
+            let operator_after = after.first().is_some_and(|t| {
+                matches!(t.kind, Tok::Star | Tok::Slash | Tok::Caret | Tok::LParen)
+            });
+            if !signed(c, d) || joined(b, c) || operator_after {
+                return None;
+            }
+            let written = self.src.get(c.start..d.end).unwrap_or("");
+            return Some(
+                Diagnostic::new(
+                    Rule::Syntax,
+                    span(c, d),
+                    format!(
+                        "`{written}` after the uncertainty reads as {}, not as part of the measurement",
+                        if c.kind == Tok::Minus { "a difference" } else { "a sum" }
+                    ),
+                )
+                .with_help(
+                    "a second uncertainty is written `± u` (combined in quadrature), one above and below `+above/-below`; for a sum, put a space after the sign",
+                ),
+            );
+        }
+        // `0.4 -0.05 -0.1` or `0.4 +0.05 +0.1`: two signed numbers of the same sign.
+        if let [c, d, ..] = rest {
+            if signed(a, b)
+                && signed(c, d)
+                && a.kind == c.kind
+                && !joined(value, a)
+                && !joined(b, c)
+            {
+                let written = self.src.get(a.start..d.end).unwrap_or("");
+                return Some(
+                    Diagnostic::new(
+                        Rule::Syntax,
+                        span(a, d),
+                        format!("`{written}` after the value reads as arithmetic, not as uncertainties"),
+                    )
+                    .with_help(format!(
+                        "an uncertainty is written `{v} ± u`, or `{v} +above/-below`; for arithmetic, put a space after each sign"
+                    )),
+                );
+            }
+        }
         if signed(a, b) && !joined(value, a) && !two_sided && !operator_follows {
             let written = self.src.get(a.start..b.end).unwrap_or("");
             let u = self.text(*b);
