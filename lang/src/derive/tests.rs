@@ -1209,13 +1209,7 @@ fn sampled_values_say_how_many_draws_were_left_out() {
 #[test]
 fn a_disagreeing_source_is_compared_with_the_value_in_use_first() {
     let src = "ref a \"Invented A\"\nref b \"Invented B\"\nref c \"Invented C\"\nsystem \"Marrow\" {\n star s { mass = 1 ± 0.05 Msun }\n planet b orbits s {\n  period = 7 ± 0.001 d\n  rv_amplitude = 48.1 +3.2/-2.9 m/s [a]\n  rv_amplitude = 51.0 ± 2.0 m/s [b]\n  rv_amplitude = 71.0 ± 3.0 m/s [c]\n }\n}\n";
-    let a = run(src, &Options::linear());
-    let found: Vec<&str> = a
-        .diagnostics
-        .iter()
-        .filter(|d| d.rule == crate::diagnostic::Rule::SourcesDisagree)
-        .map(|d| d.message.as_str())
-        .collect();
+    let found = disagreements(src);
     assert_eq!(found.len(), 1, "{found:?}");
     assert!(
         found[0].contains("51.0 ± 2.0 m/s [b] (the value used)"),
@@ -1273,13 +1267,7 @@ fn sources_are_compared_with_a_bounded_number_of_earlier_ones() {
 #[test]
 fn a_source_before_the_value_used_is_compared_with_it() {
     let src = "ref a \"Invented A\"\nref b \"Invented B\"\nref c \"Invented C\"\nsystem \"Marrow\" {\n star s { mass = 1 ± 0.05 Msun }\n planet p orbits s {\n  period = 10.0 ± 0.3 d [a]\n  period = 10.0 ± 0.05 d [b]\n  period = 11.0 ± 0.01 d [c]\n }\n}\n";
-    let a = run(src, &Options::linear());
-    let found: Vec<&str> = a
-        .diagnostics
-        .iter()
-        .filter(|d| d.rule == crate::diagnostic::Rule::SourcesDisagree)
-        .map(|d| d.message.as_str())
-        .collect();
+    let found = disagreements(src);
     assert_eq!(found.len(), 2, "{found:?}");
     assert!(
         found
@@ -1293,4 +1281,14 @@ fn a_source_before_the_value_used_is_compared_with_it() {
             .any(|m| m.contains("[a]") && m.contains("[c] (the value used)")),
         "{found:?}"
     );
+}
+
+/// The messages of the `sources-disagree` findings of `src`, to first order.
+fn disagreements(src: &str) -> Vec<String> {
+    run(src, &Options::linear())
+        .diagnostics
+        .into_iter()
+        .filter(|d| d.rule == crate::diagnostic::Rule::SourcesDisagree)
+        .map(|d| d.message)
+        .collect()
 }
