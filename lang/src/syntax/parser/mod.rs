@@ -131,6 +131,7 @@ impl<'a> Items<'a> {
                 stopped: false,
                 value: value_parser(src, file),
                 props: Vec::new(),
+                bodies: Vec::new(),
             },
         }
     }
@@ -257,6 +258,8 @@ struct Cursor<'a> {
     /// capacity (growing each body's own list by doubling copied its 232-byte nodes and
     /// left half of its memory unused).
     props: Vec<Prop>,
+    /// The same for the bodies of the system being read.
+    bodies: Vec<BodyDecl>,
 }
 
 impl<'a> Cursor<'a> {
@@ -545,7 +548,7 @@ impl<'a> Cursor<'a> {
                 }
                 Some(Tok::StarKw | Tok::Planet) => {
                     if let Some(b) = self.parse_body() {
-                        sys.bodies.push(b);
+                        self.bodies.push(b);
                     }
                 }
                 Some(Tok::Let) => {
@@ -595,6 +598,7 @@ impl<'a> Cursor<'a> {
                 }
             }
         }
+        sys.bodies = self.bodies.drain(..).collect();
         sys.span = Span::new(self.file, start, self.prev_end());
         Some(sys)
     }

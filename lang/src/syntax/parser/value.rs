@@ -550,7 +550,9 @@ impl Cursor<'_> {
                 } else {
                     Uncertainty::None
                 };
-                let mut factors = Vec::new();
+                // Most units are one symbol (`Msun`, `d`): room for one, not the four a
+                // first push would reserve.
+                let mut factors = Vec::with_capacity(1);
                 let mut unit_span: Option<Span> = None;
                 loop {
                     let divide = kind(i) == Some(Tok::Slash) && !factors.is_empty();
