@@ -14,9 +14,11 @@
 //! albedo, full heat redistribution); a default that a result used is listed with it.
 
 mod adaptive;
+mod caveats;
 mod consistency;
 mod expr;
 mod inputs;
+mod roles;
 mod rounds;
 pub mod rules;
 mod set;

@@ -72,33 +72,7 @@ macro_rules! args {
     };
 }
 
-/// The quantity a rule's approximation stands in for: the rule is not used once that
-/// quantity is known (the minimum mass stands in for a planet's mass only while the mass is
-/// unknown; compared with a route through the true mass, it would report the difference
-/// between the two masses, which is no disagreement, as one).
-pub fn stands_in_for(id: &str) -> Option<Qty> {
-    match id {
-        "kepler-third-law-min-mass"
-        | "hill-radius-min-mass"
-        | "predicted-mass"
-        | "tsm-predicted-mass"
-        | "predicted-radius-min-mass" => Some(Mass),
-        "predicted-radius" => Some(Radius),
-        // sqrt(depth) and k^2 take the transit as not grazing, which only the impact
-        // parameter can tell (see `depth-impact-radius-ratio`, `radius-ratio-impact-depth`).
-        "depth-radius-ratio" | "radius-ratio-depth" => Some(Impact),
-        _ => None,
-    }
-}
-
-/// Whether a rule predicts from a population relation rather than derives from measurement:
-/// its value has origin `predicted`, and no rule but those meant for predictions reads it.
-pub fn predicts(id: &str) -> bool {
-    matches!(
-        id,
-        "predicted-mass" | "predicted-radius" | "predicted-radius-min-mass"
-    )
-}
+pub use super::roles::{predicts, stands_in_for};
 
 /// Tier of the rules that predict from a population relation: after every route from
 /// measurements has had its chance.

@@ -260,6 +260,11 @@ impl Lowering {
             shared: self.shared.clone(),
             ..Model::default()
         };
+        // Where the parser found errors, sorted once: an empty body there is one whose lines
+        // did not parse, which the syntax error already says.
+        let mut parse_errors: Vec<(FileId, u32)> =
+            diags.iter().map(|d| (d.span.file, d.span.start)).collect();
+        parse_errors.sort_unstable();
         for r in &ast.refs {
             if let Some(prev) = self.refs.get(&r.id.name) {
                 diags.push(
@@ -298,6 +303,7 @@ impl Lowering {
                 }
             }
             let sys = lower_system(s, &model.refs, &self.shared, diags);
+            note_empty_bodies(s, &sys, &parse_errors, diags);
             model.systems.push(sys);
         }
         add_shared_cited(&mut model, own);
@@ -473,33 +479,57 @@ fn lower_system(
         body.declared = props.first;
         body.further = props.further;
     }
-    // A body written with nothing in it (an imported star whose cells were all empty, say):
-    // nothing resting on it is derived, which `check` would otherwise pass in silence.
-    // Not where something was written but did not parse: that error already says so.
-    let mut starts: Option<Vec<(FileId, u32)>> = None;
-    for (bi, b) in body_syntax.iter().enumerate() {
+    for (id, value, dim) in bindings.resolved {
+        let slot = match id.body {
+            None => sys.lets.get_mut(id.index),
+            Some(b) => sys.bodies.get_mut(b).and_then(|b| b.lets.get_mut(id.index)),
+        };
+        if let Some(l) = slot {
+            l.value = value;
+            l.dim = dim;
+        }
+    }
+    sys.let_order = bindings.order;
+    sys
+}
+
+/// A body written with nothing in it (an imported star whose cells were all empty, say):
+/// nothing resting on it is derived, which `check` would otherwise pass in silence. Not
+/// where something was written but did not parse (`parse_errors`, sorted): that error says
+/// so already.
+fn note_empty_bodies(
+    s: &ast::SystemDecl,
+    sys: &System,
+    parse_errors: &[(FileId, u32)],
+    diags: &mut Vec<Diagnostic>,
+) {
+    let mut planets = vec![0usize; sys.bodies.len()];
+    for host in sys.bodies.iter().filter_map(|b| b.orbits) {
+        if let Some(n) = planets.get_mut(host) {
+            *n += 1;
+        }
+    }
+    // The lowered bodies are the written ones in order, less those declared twice: walk
+    // both together.
+    let mut lowered = sys.bodies.iter().zip(planets).peekable();
+    for b in &s.bodies {
+        let Some((_, planets)) = lowered.next_if(|(l, _)| l.name_span == b.name.span) else {
+            continue;
+        };
         if !(b.props.is_empty() && b.lets.is_empty()) {
             continue;
         }
-        let starts = starts.get_or_insert_with(|| {
-            let mut v: Vec<(FileId, u32)> =
-                diags.iter().map(|d| (d.span.file, d.span.start)).collect();
-            v.sort_unstable();
-            v
-        });
-        let from = starts.partition_point(|&s| s < (b.span.file, b.span.start));
-        if starts
+        let from = parse_errors.partition_point(|&e| e < (b.span.file, b.span.start));
+        if parse_errors
             .get(from)
             .is_some_and(|&(f, at)| f == b.span.file && at < b.span.end)
         {
             continue;
         }
-        let planets = sys.bodies.iter().filter(|p| p.orbits == Some(bi)).count();
         let what = match (b.kind, planets) {
-            (BodyKind::Star, 0) => "nothing is derived for it".to_string(),
+            (BodyKind::Star, 0) | (BodyKind::Planet, _) => "nothing is derived for it".to_string(),
             (BodyKind::Star, 1) => "nothing that needs the star (its planet's semi-major axis, mass or temperature) is derived".to_string(),
             (BodyKind::Star, n) => format!("nothing that needs the star (its {n} planets' semi-major axes, masses or temperatures) is derived"),
-            (BodyKind::Planet, _) => "nothing is derived for it".to_string(),
         };
         diags.push(
             Diagnostic::new(
@@ -519,18 +549,6 @@ fn lower_system(
             }),
         );
     }
-    for (id, value, dim) in bindings.resolved {
-        let slot = match id.body {
-            None => sys.lets.get_mut(id.index),
-            Some(b) => sys.bodies.get_mut(b).and_then(|b| b.lets.get_mut(id.index)),
-        };
-        if let Some(l) = slot {
-            l.value = value;
-            l.dim = dim;
-        }
-    }
-    sys.let_order = bindings.order;
-    sys
 }
 
 fn resolve_host(sys: &System, o: &ast::Ident, diags: &mut Vec<Diagnostic>) -> Option<usize> {
