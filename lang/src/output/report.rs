@@ -853,8 +853,9 @@ mod tests {
 
     #[test]
     fn a_tsm_whose_radius_spans_a_bin_edge_says_the_metric_jumps_there() {
-        // Kempton et al. 2018, Table 1: the scale factor is 0.190 below 1.5 Rearth and 1.26
-        // from there, so a radius of 1.5 ± 0.05 Rearth gives a metric with two peaks.
+        // Kempton et al. 2018, Table 1 (values from memory, as in `tsm_scale_factor`): the
+        // scale factor is 0.190 below 1.5 Rearth and 1.26 from there, so a radius of
+        // 1.5 ± 0.05 Rearth gives a metric with two peaks.
         let src = |r: &str| {
             format!("system \"S\" {{\n star s {{ mass = 0.4 ± 0.02 Msun; radius = 0.4 ± 0.01 Rsun; teff = 3500 ± 50 K; magnitude_j = 9.5 ± 0.02 mag }}\n planet c orbits s {{\n  period = 5 ± 0.0001 d\n  radius = {r} Rearth\n  mass = 3 ± 0.5 Mearth\n }}\n}}\n")
         };
