@@ -525,8 +525,19 @@ impl Importer {
                 if raw.is_empty() {
                     return Ok(None);
                 }
+                // An uncertainty in a unit of its own is written in the value's.
+                let scale = q
+                    .error_scales
+                    .iter()
+                    .find(|(c, _)| Some(*c) == col)
+                    .map(|(_, f)| *f);
+                let converted = |v: f64, t: String| match scale {
+                    Some(f) => super::mapping::scaled_text(v.abs() * f),
+                    None => t,
+                };
                 match number(&raw) {
-                    Some((v, t)) if v >= 0.0 => Ok(Some(t)),
+                    Some((v, t)) if v >= 0.0 => Ok(Some(converted(v, t))),
+                    Some((v, t)) if signed_ok && scale.is_some() => Ok(Some(converted(v, t))),
                     Some((_, t)) if signed_ok => Ok(Some(t.trim_start_matches('-').to_string())),
                     Some(_) => {
                         s.issue(IssueKind::BadNumber, row, col, format!("{what}: the uncertainty {side} `{}` is negative; the value is not imported", shorten(&raw)));

@@ -24,29 +24,93 @@ struct Capped<R> {
     last: u8,
     at_line_start: bool,
     in_comment: bool,
+    /// Each line read but not yet passed: where it starts (the byte after the line break
+    /// before it) and whether it is a comment, so that a record's byte offset gives its line
+    /// whatever the file's line breaks (the `csv` crate's own count is one short on `\r\n`
+    /// files and stays at 1 on `\r` ones). The first is the line the last record was found
+    /// on.
+    lines: std::collections::VecDeque<(u64, bool)>,
+    /// Lines already passed, bytes read so far, and whether the last byte was `\r`.
+    passed: u64,
+    offset: u64,
+    after_cr: bool,
+}
+
+impl<R> Capped<R> {
+    /// The 1-based line of the record that starts at byte `at` (as the `csv` reader counts
+    /// bytes; it starts a record before the comment lines it skips). Calls must not go back:
+    /// a line once passed is forgotten, which keeps memory to the read-ahead.
+    fn line_at(&mut self, at: u64) -> u64 {
+        let next_start = |l: &std::collections::VecDeque<(u64, bool)>| l.get(1).map(|x| x.0);
+        while next_start(&self.lines).is_some_and(|s| s <= at)
+            || (self.lines.front().is_some_and(|l| l.1) && self.lines.len() > 1)
+        {
+            self.lines.pop_front();
+            self.passed += 1;
+        }
+        self.passed + 1
+    }
 }
 
 impl<R: Read> Read for Capped<R> {
+    /// Reads with every line break made `\n`: the `csv` crate takes a lone `\r` as the end
+    /// of a record but not of a comment, so a comment in a file with `\r` line breaks would
+    /// swallow every row after it, and it counts lines by `\n` alone.
     fn read(&mut self, buf: &mut [u8]) -> std::io::Result<usize> {
-        if self.since > self.limit {
-            return Err(std::io::Error::other(RowTooLong));
+        loop {
+            if self.since > self.limit {
+                return Err(std::io::Error::other(RowTooLong));
+            }
+            let n = self.inner.read(buf)?;
+            self.since += n;
+            let mut kept = 0;
+            for i in 0..n {
+                let Some(&c) = buf.get(i) else { break };
+                if c == b'\n' && self.after_cr {
+                    // The `\n` of `\r\n`: its `\r` already ended the line.
+                    self.after_cr = false;
+                    continue;
+                }
+                self.after_cr = c == b'\r';
+                let c = if c == b'\r' { b'\n' } else { c };
+                if let Some(slot) = buf.get_mut(kept) {
+                    *slot = c;
+                }
+                kept += 1;
+                self.note(c);
+            }
+            // A read that kept nothing (a lone `\n` after a `\r`) is not the end of the file.
+            if kept > 0 || n == 0 {
+                return Ok(kept);
+            }
         }
-        let n = self.inner.read(buf)?;
-        self.since += n;
-        for &c in buf.get(..n).unwrap_or(&[]) {
-            if self.at_line_start {
-                self.in_comment = c == b'#';
+    }
+}
+
+impl<R> Capped<R> {
+    /// Take note of one byte passed on to the `csv` reader (line breaks already `\n`).
+    fn note(&mut self, c: u8) {
+        self.offset += 1;
+        match c {
+            b'\n' => self.lines.push_back((self.offset, false)),
+            b'#' if self.lines.back().is_some_and(|l| l.0 + 1 == self.offset) => {
+                if let Some(l) = self.lines.back_mut() {
+                    l.1 = true;
+                }
             }
-            self.at_line_start = c == b'\n';
-            if self.in_comment || c.is_ascii_whitespace() {
-                continue;
-            }
-            self.last = c;
-            if c == b'"' {
-                self.quotes += 1;
-            }
+            _ => {}
         }
-        Ok(n)
+        if self.at_line_start {
+            self.in_comment = c == b'#';
+        }
+        self.at_line_start = c == b'\n';
+        if self.in_comment || c.is_ascii_whitespace() {
+            return;
+        }
+        self.last = c;
+        if c == b'"' {
+            self.quotes += 1;
+        }
     }
 }
 
@@ -70,7 +134,9 @@ pub struct CsvTable<R: Read> {
     limits: Limits,
     record: csv::ByteRecord,
     rows: usize,
-    /// The line of the last record read, when one of its cells spans lines.
+    /// The line of the last record read, and that line again when one of its cells spans
+    /// lines.
+    line: u64,
     multiline: Option<u64>,
 }
 
@@ -120,6 +186,10 @@ impl<R: Read> CsvTable<R> {
             last: 0,
             at_line_start: true,
             in_comment: false,
+            lines: std::collections::VecDeque::from([(0, false)]),
+            passed: 0,
+            offset: 0,
+            after_cr: false,
         };
         let reader = csv::ReaderBuilder::new()
             .has_headers(false)
@@ -134,6 +204,7 @@ impl<R: Read> CsvTable<R> {
             limits,
             record: csv::ByteRecord::new(),
             rows: 0,
+            line: 0,
             multiline: None,
         };
         let header = table
@@ -153,7 +224,8 @@ impl<R: Read> CsvTable<R> {
     /// The next record's cells and line, within the limits.
     fn record(&mut self) -> Result<Option<Vec<String>>, TableError> {
         self.reader.get_mut().since = 0;
-        let line = self.reader.position().line();
+        let at = self.reader.position().byte();
+        let line = self.reader.get_mut().line_at(at);
         match self.reader.read_byte_record(&mut self.record) {
             Ok(false) => {
                 // A quote never closed makes the csv reader take every line after it into
@@ -186,7 +258,11 @@ impl<R: Read> CsvTable<R> {
                 });
             }
         }
-        let line = self.record.position().map_or(line, |p| p.line());
+        let line = match self.record.position().map(|p| p.byte()) {
+            Some(at) => self.reader.get_mut().line_at(at),
+            None => line,
+        };
+        self.line = line;
         self.multiline = self
             .record
             .iter()
@@ -231,7 +307,7 @@ impl<R: Read> RowSource for CsvTable<R> {
             let Some(cells) = self.record()? else {
                 return Ok(None);
             };
-            let line = self.record.position().map_or(0, |p| p.line());
+            let line = self.line;
             // A blank line is no row.
             if cells.iter().all(|c| c.is_empty()) && cells.len() <= 1 {
                 continue;
@@ -250,7 +326,7 @@ impl<R: Read> RowSource for CsvTable<R> {
 /// `;` outside quotes (`,` when none occurs).
 fn detect(prefix: &[u8]) -> u8 {
     let line = prefix
-        .split(|b| *b == b'\n')
+        .split(|b| *b == b'\n' || *b == b'\r')
         .find(|l| {
             let t = l.trim_ascii();
             !t.is_empty() && !t.starts_with(b"#")

@@ -197,6 +197,9 @@ pub(crate) struct QuantityPlan {
     pub below: Option<usize>,
     pub limit: Option<usize>,
     pub refs: Option<usize>,
+    /// For an uncertainty column (`error`, `above`, `below`) whose VOTable FIELD gives a unit
+    /// other than the value's: the factor that turns its numbers into the value's unit.
+    pub error_scales: Vec<(usize, f64)>,
 }
 
 /// The mapping resolved against a header: column indices and checked units.
@@ -275,16 +278,27 @@ impl Plan {
                 let value = find(&q.value, &format!("{what} value"))?;
                 let col = columns.get(value);
                 let (unit, factor) = unit_for(def, q.unit.as_deref(), col, &what)?;
+                let error = opt(&mut find, q.error.as_deref(), &format!("{what} error"))?;
+                let above = opt(&mut find, q.above.as_deref(), &format!("{what} above"))?;
+                let below = opt(&mut find, q.below.as_deref(), &format!("{what} below"))?;
+                let mut error_scales = Vec::new();
+                for i in [error, above, below].into_iter().flatten() {
+                    let scale = error_scale(def, factor, columns.get(i), &what)?;
+                    if scale != 1.0 {
+                        error_scales.push((i, scale));
+                    }
+                }
                 quantities.push(QuantityPlan {
                     def,
                     value,
                     unit,
                     factor,
-                    error: opt(&mut find, q.error.as_deref(), &format!("{what} error"))?,
-                    above: opt(&mut find, q.above.as_deref(), &format!("{what} above"))?,
-                    below: opt(&mut find, q.below.as_deref(), &format!("{what} below"))?,
+                    error,
+                    above,
+                    below,
                     limit: opt(&mut find, q.limit.as_deref(), &format!("{what} limit"))?,
                     refs: opt(&mut find, q.r#ref.as_deref(), &format!("{what} ref"))?,
+                    error_scales,
                 });
                 if q.above.is_some() != q.below.is_some() {
                     return Err(MappingError(format!(
@@ -411,6 +425,53 @@ fn unit_for(
         return Err(MappingError(need));
     }
     Ok((text, unit.factor))
+}
+
+/// The factor that turns an uncertainty column's numbers into the value's unit (of SI factor
+/// `value_factor`): 1 when its VOTable FIELD gives no unit (read in the value's unit), else
+/// the ratio of the two units, which must share the quantity's dimension.
+fn error_scale(
+    def: &QuantityDef,
+    value_factor: f64,
+    col: Option<&super::Column>,
+    what: &str,
+) -> Result<f64, MappingError> {
+    let Some((name, vo)) = col.and_then(|c| Some((c.name.as_str(), c.unit.as_deref()?))) else {
+        return Ok(1.0);
+    };
+    if def.text {
+        return Ok(1.0);
+    }
+    let refuse = |why: String| {
+        MappingError(format!(
+            "{what}: the uncertainty field `{name}` has the unit `{vo}`, {why}; convert the column, or remove its unit if it is in the value's unit"
+        ))
+    };
+    let text = super::vounit_to_syzygy(vo)
+        .map_err(|why| refuse(format!("which has no Syzygy equivalent ({why})")))?;
+    let unit = crate::units::parse_unit_text(&text)
+        .ok_or_else(|| refuse("which is not a Syzygy unit".to_string()))?;
+    if unit.dim != def.dim {
+        return Err(refuse(format!(
+            "{}, but {} is {}",
+            unit.dim.describe(),
+            def.name,
+            def.dim.describe()
+        )));
+    }
+    Ok(if value_factor > 0.0 && unit.factor != value_factor {
+        unit.factor / value_factor
+    } else {
+        1.0
+    })
+}
+
+/// A number converted between units, written with twelve significant digits at most (the
+/// conversion's rounding noise left out): `2.4` h in days is `0.1`, not `0.09999999999999999`.
+pub(crate) fn scaled_text(v: f64) -> String {
+    let rounded: f64 = format!("{v:.11e}").parse().unwrap_or(v);
+    // Debug, not Display: an exponent for very large or small numbers (`1e-20`).
+    format!("{rounded:?}")
 }
 
 /// A constant's text must be a value the language reads for that quantity.

@@ -612,6 +612,64 @@ fn a_field_unit_without_equivalent_names_the_field() {
     assert!(e.0.contains("`mag` of field `r`"), "{e}");
 }
 
+/// An uncertainty FIELD with a unit of its own is converted into the value's unit (2.4 h is
+/// 0.1 d; 4 m/s is 0.004 km/s), and one of another dimension is refused.
+#[test]
+fn an_uncertainty_field_in_its_own_unit_is_converted() {
+    let text = r#"<?xml version="1.0"?>
+<VOTABLE version="1.4"><RESOURCE><TABLE>
+<FIELD name="sys" datatype="char" arraysize="*"/>
+<FIELD name="pl" datatype="char" arraysize="*"/>
+<FIELD name="per" datatype="double" unit="d"/>
+<FIELD name="per_e" datatype="double" unit="h"/>
+<FIELD name="k" datatype="double" unit="km/s"/>
+<FIELD name="k_e" datatype="double" unit="m/s"/>
+<DATA><TABLEDATA>
+<TR><TD>Oskarun</TD><TD>b</TD><TD>6.2214</TD><TD>2.4</TD><TD>0.052</TD><TD>4</TD></TR>
+</TABLEDATA></DATA></TABLE></RESOURCE></VOTABLE>
+"#;
+    let mapping = "[bodies]\nsystem = \"sys\"\nplanet = \"pl\"\n[planet.period]\nvalue = \"per\"\nerror = \"per_e\"\n[planet.rv_amplitude]\nvalue = \"k\"\nerror = \"k_e\"\n";
+    let m = Mapping::from_toml(mapping).unwrap();
+    let mut t = VoTable::new(text.as_bytes(), Limits::default()).unwrap();
+    let mut imp = Importer::new(&m, t.columns(), "t.vot").unwrap();
+    while let Some(r) = t.next_row().unwrap() {
+        imp.add_row(&r);
+    }
+    let out = text_of(&imp.finish(), "Oskarun");
+    assert!(out.contains("6.2214 ± 0.1  d"), "{out}");
+    assert!(out.contains("0.052 ± 0.004 km/s"), "{out}");
+    // A relative error in per cent beside a period: refused, naming the field.
+    let relative = text.replace("unit=\"h\"", "unit=\"%\"");
+    let t = VoTable::new(relative.as_bytes(), Limits::default()).unwrap();
+    let e = Importer::new(&m, t.columns(), "t.vot").err().unwrap();
+    assert!(e.0.contains("`per_e` has the unit `%`"), "{e}");
+}
+
+/// A second TABLE, in the same RESOURCE or another, is refused: its rows would be lost.
+#[test]
+fn a_second_votable_table_is_refused() {
+    let second = VOT.replace(
+        "</TABLE></RESOURCE></VOTABLE>",
+        "</TABLE></RESOURCE><RESOURCE><TABLE name=\"more\"><FIELD name=\"sys\"/><DATA><TABLEDATA><TR><TD>Pembrel</TD></TR></TABLEDATA></DATA></TABLE></RESOURCE></VOTABLE>",
+    );
+    let e = vot(&second, Limits::default()).unwrap_err();
+    assert!(e.message.contains("a second TABLE `more`"), "{e}");
+    // A table without data followed by another is refused as well.
+    let empty_first = "<VOTABLE><RESOURCE><TABLE><FIELD name=\"a\"/></TABLE><TABLE name=\"b\"><FIELD name=\"x\"/></TABLE></RESOURCE></VOTABLE>";
+    let e = VoTable::new(empty_first.as_bytes(), Limits::default())
+        .err()
+        .unwrap();
+    assert!(e.message.contains("second TABLE `b`"), "{e}");
+    // One table reads as before, and so does one followed by a table of references only
+    // (every FIELD's UCD in the meta. family), as this project's own export writes.
+    assert_eq!(vot(VOT, Limits::default()).unwrap().len(), 2);
+    let refs = VOT.replace(
+        "</TABLE></RESOURCE></VOTABLE>",
+        "</TABLE><TABLE name=\"references\"><FIELD name=\"id\" ucd=\"meta.id\"/><FIELD name=\"text\" ucd=\"meta.bib\"/><DATA><TABLEDATA><TR><TD>a</TD><TD>Pell 2031</TD></TR></TABLEDATA></DATA></TABLE></RESOURCE></VOTABLE>",
+    );
+    assert_eq!(vot(&refs, Limits::default()).unwrap().len(), 2);
+}
+
 #[test]
 fn names_from_tables_stay_names() {
     assert_eq!(syzygy_name("Orrin b", "planet"), "Orrin_b");
@@ -705,5 +763,28 @@ fn a_utf16_table_is_named_as_such() {
             .err()
             .expect("refused");
         assert!(e.to_string().contains("UTF-16"), "{e}");
+    }
+}
+
+/// A row's line is the same whatever the file's line breaks: `\n`, `\r\n` (the usual
+/// spreadsheet export) or a lone `\r`, also after a comment and a cell spanning lines.
+#[test]
+fn csv_lines_are_counted_for_every_line_break() {
+    let lf = "sys,pl,note\n# a comment\nQuorlin,b,\"two\nlines\"\nVessa,c,x\n";
+    for (name, text) in [
+        ("LF", lf.to_string()),
+        ("CRLF", lf.replace('\n', "\r\n")),
+        ("CR", lf.replace('\n', "\r")),
+    ] {
+        let mut t = CsvTable::new(text.as_bytes(), None, Limits::default()).unwrap();
+        let mut lines = Vec::new();
+        while let Some(r) = t.next_row().unwrap() {
+            lines.push((r.cells[0].clone(), r.line));
+        }
+        assert_eq!(
+            lines,
+            [("Quorlin".to_string(), 3), ("Vessa".to_string(), 5)],
+            "{name}"
+        );
     }
 }

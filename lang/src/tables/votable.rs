@@ -1,5 +1,6 @@
 //! VOTable 1.4 tables in the TABLEDATA serialisation (IVOA VOTable 1.4, section 5.1): the
-//! first TABLE's FIELDs (name, unit, a VALUES `null`) and its rows. A DOCTYPE is refused, so
+//! TABLE's FIELDs (name, unit, a VALUES `null`) and its rows; a document with a second TABLE
+//! of values is refused, since its rows would be left out (see [`VoTable::finish`]). A DOCTYPE is refused, so
 //! no DTD is read and no entity is declared; only the XML predefined entities and character
 //! references are expanded (quick-xml's `unescape`). Every tag, text run, cell, row and the
 //! field count are bounded, and the input is read incrementally.
@@ -130,17 +131,51 @@ impl<R: BufRead> VoTable<R> {
                 }
                 (Kind::Start, "TABLEDATA") if in_table => return Ok(t),
                 (Kind::Empty, "TABLEDATA") if in_table => {
-                    t.done = true;
+                    t.finish()?;
                     return Ok(t);
                 }
                 (Kind::End, "TABLE") => {
                     // A TABLE without data: no rows.
-                    t.done = true;
+                    t.finish()?;
                     return Ok(t);
                 }
                 (Kind::Eof, _) => {
                     return Err(t.error("no TABLE with TABLEDATA found; is this a VOTable?"))
                 }
+                _ => {}
+            }
+        }
+    }
+
+    /// The first table is read: the rest of the document must hold no other TABLE of values,
+    /// whose rows would otherwise be left out without a word. A table whose every FIELD has a
+    /// UCD of the `meta.` family (identifiers, bibliography: the table of references this
+    /// project's own export adds) holds no values, and is passed over.
+    fn finish(&mut self) -> Result<(), TableError> {
+        self.done = true;
+        let mut table: Option<String> = None;
+        let mut values = false;
+        loop {
+            let (ev, name, attrs) = self.event()?;
+            let get = |k: &str| attrs.iter().find(|(n, _)| n == k).map(|(_, v)| v.clone());
+            match (ev, name.as_str()) {
+                (Kind::Start | Kind::Empty, "TABLE") => {
+                    table = Some(get("name").or_else(|| get("ID")).unwrap_or_default());
+                    values = false;
+                }
+                (Kind::Start | Kind::Empty, "FIELD") if table.is_some() => {
+                    values |= !get("ucd").is_some_and(|u| u.trim().starts_with("meta."));
+                }
+                (Kind::Start | Kind::Empty, "DATA") | (Kind::End, "TABLE") if table.is_some() => {
+                    let called = table.take().filter(|n| !n.is_empty());
+                    if values {
+                        let called = called.map(|n| format!(" `{n}`")).unwrap_or_default();
+                        return Err(self.error(format!(
+                            "the file holds a second TABLE{called}; one table is read per file, so its rows would be left out: write each TABLE to a file of its own and import them together"
+                        )));
+                    }
+                }
+                (Kind::Eof, _) => return Ok(()),
                 _ => {}
             }
         }
@@ -314,7 +349,11 @@ impl<R: BufRead> RowSource for VoTable<R> {
                         cells,
                     }));
                 }
-                (Kind::End, "TABLEDATA") | (Kind::Eof, _) => {
+                (Kind::End, "TABLEDATA") => {
+                    self.finish()?;
+                    return Ok(None);
+                }
+                (Kind::Eof, _) => {
                     self.done = true;
                     return Ok(None);
                 }
