@@ -406,6 +406,20 @@ fn columns(src: &str, toks: &[Token]) -> Option<Columns> {
     let mut cites = Vec::new();
     let mut assumed = Vec::new();
     let mut i = trail;
+    // A mark written before a citation (`assumed [a]`, which the grammar allows) stays in
+    // its place: the whole tail is kept in the citations' column in its written order, as
+    // the layout never reorders tokens.
+    let mark_first = rest.get(trail..).is_some_and(|tail| {
+        let mark = tail
+            .iter()
+            .position(|t| matches!(t.kind, Tok::Assumed | Tok::Preferred));
+        let cite = tail.iter().rposition(|t| t.kind == Tok::LBracket);
+        matches!((mark, cite), (Some(m), Some(c)) if m < c)
+    });
+    if mark_first {
+        cites.push(join(src, rest, &r, trail..rest.len()));
+        i = rest.len();
+    }
     while i < rest.len() {
         if matches!(
             rest.get(i).map(|t| t.kind),
@@ -647,6 +661,18 @@ fn code_tokens(src: &str) -> impl Iterator<Item = (Tok, &str)> + '_ {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_mark_written_before_its_citation_stays_before_it() {
+        // The grammar takes `assumed` and `preferred` before or after the citations
+        // (language.md); the layout keeps the order written rather than refuse the file.
+        let src = "ref a \"A\"\nsystem \"S\" {\n  star s {\n    teff = 5400 ± 70 K assumed [a]\n    mass=1 Msun preferred   [a]\n  }\n}\n";
+        let out = format_source(src).unwrap();
+        assert!(out.contains("K    assumed [a]\n"), "{out}");
+        assert!(out.contains("Msun preferred [a]\n"), "{out}");
+        assert!(same_tokens(src, &out));
+        assert_eq!(format_source(&out).unwrap(), out);
+    }
 
     #[test]
     fn several_declarations_of_one_quantity_stay_together_in_order() {
