@@ -33,6 +33,9 @@ pub fn run(
     let mut sarif_results = Vec::new();
     let mut shown_so_far = Shown::default();
     let mut checked = 0usize;
+    // Declarations no output uses whose finding is silenced: said in the summary, since
+    // nothing else in `check` would show them.
+    let mut silenced_unused = 0usize;
     // What the checks between files need of each file, made on the worker (one per file;
     // the parts of a large file add to the same entry).
     let mut entries: Vec<Entry> = Vec::new();
@@ -56,9 +59,18 @@ pub fn run(
                     sarif = shown.iter().map(|d| sarif::result(d, &places)).collect();
                 }
             }
-            (kinds, text, json, sarif, (a.file, left_out), entry)
+            let silenced = a.unused.iter().filter(|u| u.silenced).count();
+            (
+                kinds,
+                text,
+                json,
+                sarif,
+                (a.file, left_out, silenced),
+                entry,
+            )
         },
-        |(kinds, text, json, sarif, (file, left_out), entry), last_of_file| {
+        |(kinds, text, json, sarif, (file, left_out, silenced), entry), last_of_file| {
+            silenced_unused += silenced;
             if let Some(e) = entry {
                 match entries.last_mut() {
                     Some(last) if last.file == e.file => last.absorb(e),
@@ -147,6 +159,7 @@ pub fn run(
                     warnings,
                     notes,
                     rules: syzygy::report::json::Pairs(per_rule.clone()),
+                    not_used_silenced: silenced_unused,
                 },
             };
             let _ = writeln!(out, "{}", json_out::pretty(&doc));
@@ -170,6 +183,14 @@ pub fn run(
                     .map(|(id, n)| format!("{id}: {n}"))
                     .collect();
                 let _ = writeln!(out, "by rule: {}", words.join(", "));
+            }
+            if silenced_unused > 0 {
+                let _ = writeln!(
+                    out,
+                    "not used: {silenced_unused} declared value{} refused by a silenced rule (`syz eval` lists {}, with why)",
+                    plural(silenced_unused),
+                    if silenced_unused == 1 { "it" } else { "them" }
+                );
             }
         }
     }

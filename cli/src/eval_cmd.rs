@@ -89,7 +89,7 @@ pub fn run(
                 db,
                 &settings,
                 &mut out,
-                render::stderr_color(),
+                (render::stderr_color(), true),
                 |a| {
                     (
                         csv_out::rows(a, db, table).map_err(std::io::Error::other),
@@ -113,7 +113,7 @@ pub fn run(
                 db,
                 &settings,
                 &mut out,
-                render::stderr_color(),
+                (render::stderr_color(), true),
                 |a| {
                     let (rows, refs) = votable_out::rows(a, db, table);
                     (Ok(rows.into_bytes()), (refs, a.has_errors()))
@@ -145,7 +145,7 @@ pub fn run(
                 db,
                 &settings,
                 &mut out,
-                color,
+                (color, false),
                 |a| {
                     (
                         Ok(render::printable(&syzygy::report::eval_text(a, db)).into_bytes()),
@@ -168,7 +168,8 @@ pub fn run(
 }
 
 /// Analyse every file and write `body` of each to `out` in file order, as it comes; the
-/// files' diagnostics, rendered for people, go to standard error after all of it. Returns
+/// files' diagnostics, rendered for people, go to standard error after all of it (for a
+/// `table`, with a line for each value it leaves out whose finding is silenced). Returns
 /// whether any file has errors, and the first failure to make or write a body (later bodies
 /// are not written after one). `body` also returns something for `keep`, which sees it in
 /// file order.
@@ -176,7 +177,7 @@ fn stream_per_file<X: Send>(
     db: &syzygy::source::MemoryDb,
     settings: &[Settings],
     out: &mut impl Write,
-    color: bool,
+    (color, table): (bool, bool),
     body: impl Fn(&syzygy::Analysis) -> (std::io::Result<Vec<u8>>, X) + Sync,
     mut keep: impl FnMut(X),
 ) -> (bool, Option<std::io::Error>) {
@@ -188,17 +189,23 @@ fn stream_per_file<X: Send>(
         db,
         settings,
         |a| {
+            let unused = if table {
+                render::silenced_unused(&a, db)
+            } else {
+                String::new()
+            };
             (
                 a.has_errors(),
                 body(&a),
-                rendered_diagnostics(&a, db, color),
+                (rendered_diagnostics(&a, db, color), unused),
                 a.file,
             )
         },
-        |(bad, (bytes, extra), (diags, left_out), file), last_of_file| {
+        |(bad, (bytes, extra), ((diags, left_out), unused), file), last_of_file| {
             errors |= bad;
             keep(extra);
             rendered.extend(shown.admit(diags, left_out));
+            rendered.push_str(&unused);
             if last_of_file {
                 rendered.extend(shown.end_file(db, file));
             }

@@ -469,6 +469,28 @@ pub fn rendered_diagnostics(
     (out, left_out)
 }
 
+/// For a table, which has no place for them: one line for each declaration no output uses
+/// whose finding is silenced (the others have their diagnostic), saying what and why.
+pub fn silenced_unused(a: &syzygy::Analysis, db: &syzygy::source::MemoryDb) -> String {
+    let silenced: Vec<&syzygy::unused::Unused> = a.unused.iter().filter(|u| u.silenced).collect();
+    if silenced.is_empty() {
+        return String::new();
+    }
+    let places = syzygy::source::Places::new(db, a.file);
+    let mut out = String::new();
+    for u in silenced {
+        let (file, at, _) = places.of(u.span);
+        out.push_str(&printable(&format!(
+            "syz: note: {file}:{}: `{}` is not in the table: [{}] {} (this finding is silenced)\n",
+            at.line,
+            u.text,
+            u.rule.unwrap_or("?"),
+            u.why
+        )));
+    }
+    out
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

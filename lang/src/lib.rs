@@ -32,6 +32,7 @@ pub mod settings;
 pub mod source;
 pub mod text;
 pub mod units;
+pub mod unused;
 
 // Short paths kept for every module that moved into a folder.
 pub use model::what_if;
@@ -61,6 +62,9 @@ pub struct Analysis {
     /// line of text.
     pub composition: HashMap<(usize, String), checks::CompositionNote>,
     pub diagnostics: Vec<diagnostic::Diagnostic>,
+    /// Every declaration the analysis could not use, with why, including those whose
+    /// finding is silenced ([`unused`]).
+    pub unused: Vec<unused::Unused>,
 }
 
 impl Analysis {
@@ -186,10 +190,13 @@ fn assemble(
         }
         results.push(out.result);
     }
+    // Before silencing, so that a value refused by a silenced rule still shows.
+    let mut unused = unused::collect(src, &ast, &model, &results, &diagnostics);
     // Comments first: a comment that silences a rule the settings turn off is still used.
     let mut diagnostics = allow::apply_in(src, &region, &ast.comments, diagnostics);
     settings.apply_overrides(&mut diagnostics);
     diagnostic::sort_diagnostics(&mut diagnostics);
+    unused::mark_silenced(&mut unused, &diagnostics);
     Analysis {
         file: model.file,
         ast,
@@ -197,5 +204,6 @@ fn assemble(
         results,
         composition,
         diagnostics,
+        unused,
     }
 }

@@ -222,7 +222,7 @@ fn the_demo_with_several_sources_shows_which_is_used_and_why_the_others_are_not(
         assert!(h.contains("[brenn] (used)`"), "{h}");
         assert!(
             h.contains(&format!(
-                "chosen: the most precise, by relative uncertainty ([brenn], source 2 of 2, line {brenn_period})"
+                "chosen: the most precise, by standard uncertainty ([brenn], source 2 of 2, line {brenn_period})"
             )),
             "{h}"
         );

@@ -117,3 +117,68 @@ fn a_mild_inconsistency_stays_a_warning() {
         ]
     );
 }
+
+/// Silencing a rule that refuses a value hides the finding, not the value: `check` says how
+/// many values no output uses, `eval` lists each with why (text and JSON), and a table
+/// says on standard error what it leaves out (invented system).
+#[test]
+fn a_silenced_refusal_still_shows_the_value_it_refused() {
+    let dir = scratch("severity-silenced-refusal");
+    let file = dir.join("tessaly.syz");
+    std::fs::write(
+        &file,
+        "system \"Tessaly\" {
+  star tess { mass = 0.9 ± 0.03 Msun }
+  planet b orbits tess {
+    period = 7.3 ± 0.01 d
+    eccentricity = 1.3
+    rv_amplitude = 30 ± 3 km # allow(unit-mismatch): checking the drop is still shown
+  }
+}
+",
+    )
+    .unwrap();
+    let file = file.to_str().unwrap();
+    let allow = ["--allow", "out-of-range"];
+
+    let out = run(&["check", allow[0], allow[1], file]);
+    assert_eq!(out.status.code(), Some(0), "{}", stdout(&out));
+    assert!(
+        stdout(&out).contains("not used: 2 declared values refused by a silenced rule"),
+        "{}",
+        stdout(&out)
+    );
+
+    let out = run(&["eval", allow[0], allow[1], file]);
+    assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
+    let text = stdout(&out);
+    assert!(
+        text.contains("not used: `eccentricity = 1.3` (line 5): [out-of-range]"),
+        "{text}"
+    );
+    assert!(
+        text.contains("not used: `rv_amplitude = 30 ± 3 km` (line 6): [unit-mismatch]"),
+        "{text}"
+    );
+
+    let out = run(&["eval", "--format", "json", allow[0], allow[1], file]);
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let listed = &v["systems"][0]["not_used"];
+    assert_eq!(listed.as_array().map(Vec::len), Some(2), "{listed}");
+    assert_eq!(listed[0]["quantity"], "eccentricity");
+    assert_eq!(listed[0]["rule"], "out-of-range");
+    assert_eq!(listed[0]["silenced"], true);
+    assert_eq!(listed[0]["line"], 5);
+
+    let out = run(&["eval", "--format", "csv", allow[0], allow[1], file]);
+    assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
+    let err = stderr(&out);
+    assert!(
+        err.contains(":5: `eccentricity = 1.3` is not in the table: [out-of-range]"),
+        "{err}"
+    );
+    assert!(
+        err.contains(":6: `rv_amplitude = 30 ± 3 km` is not in the table"),
+        "{err}"
+    );
+}

@@ -116,7 +116,7 @@ fn the_sentence_of_the_choice_names_the_line_of_the_value_used() {
             .to_string()
     };
     for (name, how) in [
-        ("period", "the most precise, by relative uncertainty"),
+        ("period", "the most precise, by standard uncertainty"),
         ("transit_depth", "the one marked preferred"),
     ] {
         let want = format!(

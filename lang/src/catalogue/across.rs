@@ -78,7 +78,7 @@ impl Entry {
                         r.quantities
                             .iter()
                             .filter(|q| {
-                                q.origin == Origin::Declared
+                                matches!(q.origin, Origin::Declared | Origin::Combined)
                                     && q.text.is_none()
                                     && q.rule.is_none()
                                     && q.value.is_finite()

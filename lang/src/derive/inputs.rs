@@ -155,7 +155,15 @@ impl<'m> Derivation<'m> {
                         input.limit = Some((m.form, m.value));
                     }
                 }
-                let origin = Origin::of(used);
+                let combined = self
+                    .chosen
+                    .get(&(bi, decl.qty))
+                    .is_some_and(|c| c.mean.is_some() && c.index.is_none());
+                let origin = if combined {
+                    Origin::Combined
+                } else {
+                    Origin::of(used)
+                };
                 let mut assumptions: SortedSet<Arc<str>> = SortedSet::new();
                 if let Some(words) = &used.set {
                     assumptions.insert(Arc::from(words.as_str()));
@@ -282,15 +290,15 @@ impl<'m> Derivation<'m> {
         if all.len() < 2 {
             return None;
         }
-        let measurements: Vec<Measurement> = all
+        let (measurements, assumed): (Vec<Measurement>, Vec<bool>) = all
             .iter()
             .filter_map(|d| match &d.content {
-                Content::Measured(m) => Some(*m),
+                Content::Measured(m) => Some((*m, d.assumed)),
                 _ => None,
             })
-            .collect();
+            .unzip();
         let marked = all.iter().position(|d| d.preferred);
-        let chosen = sources::choose(&measurements, marked, self.options.source_choice);
+        let chosen = sources::choose(&measurements, &assumed, marked, self.options.source_choice);
         // The index among the measurements is the index among all declarations when every
         // one is a measurement (a text quantity is never chosen among).
         let used = chosen

@@ -111,6 +111,9 @@ pub enum Origin {
     Predicted,
     /// Set on the command line for one run (`--set`), in place of what the file declares.
     Set,
+    /// The weighted mean of several declared measurements of one quantity (`[sources]
+    /// choice = "weighted-mean"`): no paper published this value.
+    Combined,
 }
 
 impl Origin {
@@ -139,6 +142,7 @@ impl Origin {
             Origin::Estimated => "estimated",
             Origin::Predicted => "predicted",
             Origin::Set => "set",
+            Origin::Combined => "combined",
         }
     }
 }

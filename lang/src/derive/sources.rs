@@ -6,7 +6,7 @@
 //!
 //! - the declaration marked `preferred`, when there is one;
 //! - else the project file's `[sources] choice`: `most-precise` (the default: the smallest
-//!   relative standard uncertainty), `last` (the last measurement listed) or `weighted-mean`
+//!   standard uncertainty), `last` (the last measurement listed) or `weighted-mean`
 //!   (the inverse-variance weighted mean of the measurements, its uncertainty scaled up by
 //!   the Birge ratio sqrt(chi2 / (n - 1)) when that ratio exceeds 1: Birge 1932, Phys. Rev.
 //!   40, 207; the scale-factor procedure of the Particle Data Group's reviews, "Introduction:
@@ -16,7 +16,8 @@
 //! weights. A limit is never averaged nor chosen while a measurement exists; it only takes
 //! part in the disagreement check (`sources-disagree`). When only limits exist, the most
 //! constraining is used (the smallest upper limit, else the largest lower limit). A value
-//! without uncertainty cannot be weighted: `weighted-mean` then takes the most precise.
+//! without uncertainty, or marked `assumed`, is neither ranked nor weighted: it is used only
+//! when no source has a stated uncertainty and is not assumed (see [`choose`]).
 
 use crate::model::{Form, Measurement, System};
 use crate::source::{LineIndex, Region};
@@ -96,10 +97,6 @@ pub fn standard(m: &Measurement) -> f64 {
     (m.below + m.above) / 2.0
 }
 
-fn relative(m: &Measurement) -> f64 {
-    standard(m) / m.value.abs().max(f64::MIN_POSITIVE)
-}
-
 /// The weighted mean of `(value, standard uncertainty)` pairs, each uncertainty positive;
 /// `None` for fewer than two.
 pub fn weighted_mean(points: &[(f64, f64)]) -> Option<WeightedMean> {
@@ -133,9 +130,19 @@ pub fn weighted_mean(points: &[(f64, f64)]) -> Option<WeightedMean> {
     })
 }
 
-/// The value used among `sources` (file order), with `marked` the one marked `preferred`.
+/// The value used among `sources` (file order), with `assumed[i]` whether source `i` is
+/// marked `assumed`, and `marked` the one marked `preferred`.
+///
+/// Only a measurement with a stated uncertainty that is not an assumption is ranked or
+/// averaged: a value without uncertainty has no known precision (it is not infinitely
+/// precise), and an assumption is not a measurement. Such values are used only when no
+/// source is ranked. All sources of one quantity share its unit, so the most precise is the
+/// one with the smallest standard uncertainty (relative uncertainty would favour the larger
+/// value, and means nothing for a quantity whose zero is arbitrary: an angle, a metallicity,
+/// an epoch).
 pub fn choose(
     sources: &[Measurement],
+    assumed: &[bool],
     marked: Option<usize>,
     policy: SourceChoice,
 ) -> Option<Chosen> {
@@ -153,13 +160,32 @@ pub fn choose(
     let measured: Vec<usize> = (0..sources.len())
         .filter(|&i| sources.get(i).is_some_and(|m| !m.form.is_limit()))
         .collect();
+    // The measurements that can be ranked, else those not assumed, else any.
+    let ranked: Vec<usize> = measured
+        .iter()
+        .copied()
+        .filter(|&i| {
+            !assumed.get(i).copied().unwrap_or(false)
+                && sources.get(i).is_some_and(|m| standard(m) > 0.0)
+        })
+        .collect();
+    let not_assumed: Vec<usize> = measured
+        .iter()
+        .copied()
+        .filter(|&i| !assumed.get(i).copied().unwrap_or(false))
+        .collect();
+    let candidates = [&ranked, &not_assumed, &measured]
+        .into_iter()
+        .find(|c| !c.is_empty())
+        .cloned()
+        .unwrap_or_default();
     let most_precise = || {
-        measured
+        candidates
             .iter()
             .copied()
             .min_by(|&a, &b| {
-                let r = |i: usize| sources.get(i).map_or(f64::INFINITY, relative);
-                r(a).total_cmp(&r(b))
+                let s = |i: usize| sources.get(i).map_or(f64::INFINITY, standard);
+                s(a).total_cmp(&s(b))
             })
             .and_then(|i| pick(i, Choice::MostPrecise))
     };
@@ -168,9 +194,9 @@ pub fn choose(
     }
     match policy {
         SourceChoice::MostPrecise => most_precise(),
-        SourceChoice::Last => measured.last().and_then(|&i| pick(i, Choice::Last)),
+        SourceChoice::Last => candidates.last().and_then(|&i| pick(i, Choice::Last)),
         SourceChoice::WeightedMean => {
-            let points: Vec<(f64, f64)> = measured
+            let points: Vec<(f64, f64)> = ranked
                 .iter()
                 .filter_map(|&i| sources.get(i))
                 .map(|m| (m.value, standard(m)))
@@ -270,7 +296,7 @@ pub fn words(
                 )
             };
             format!(
-                "used: the inverse-variance weighted mean of {} measurements (asymmetric uncertainties weighted by their mean side; limits are not averaged), {scale}",
+                "used: the inverse-variance weighted mean of {} measurements (asymmetric uncertainties weighted by their mean side; limits, values without an uncertainty and assumed values are not averaged), {scale}",
                 w.n
             )
         }
@@ -281,8 +307,12 @@ pub fn words(
         (_, Some(i), _) if chosen.measurement.form.is_limit() => {
             format!("chosen: the most constraining limit ({})", source(i))
         }
+        (_, Some(i), _) if standard(&chosen.measurement) == 0.0 => format!(
+            "chosen: the first listed, since no source states an uncertainty ({})",
+            source(i)
+        ),
         (_, Some(i), _) => format!(
-            "chosen: the most precise, by relative uncertainty ({})",
+            "chosen: the most precise, by standard uncertainty ({})",
             source(i)
         ),
         (_, None, None) => "chosen: none".to_string(),
@@ -393,11 +423,11 @@ mod tests {
     #[test]
     fn each_policy_picks_its_source() {
         let s = [m(10.0, 0.001), m(10.0021, 0.0002), m(10.003, 0.01)];
-        let c = |p| choose(&s, None, p).unwrap();
+        let c = |p| choose(&s, &[], None, p).unwrap();
         assert_eq!(c(SourceChoice::MostPrecise).index, Some(1));
         assert_eq!(c(SourceChoice::Last).index, Some(2));
         assert_eq!(c(SourceChoice::WeightedMean).index, None);
-        let marked = choose(&s, Some(0), SourceChoice::Last).unwrap();
+        let marked = choose(&s, &[], Some(0), SourceChoice::Last).unwrap();
         assert_eq!((marked.index, marked.choice), (Some(0), Choice::Marked));
     }
 
@@ -410,11 +440,11 @@ mod tests {
             form: Form::UpperLimit,
         };
         let s = [upper(0.3), m(0.1, 0.02), upper(0.2)];
-        let w = choose(&s, None, SourceChoice::WeightedMean).unwrap();
+        let w = choose(&s, &[], None, SourceChoice::WeightedMean).unwrap();
         // One measurement: nothing to average, it is used as it is.
         assert_eq!(w.index, Some(1));
         let only = [upper(0.3), upper(0.2)];
-        let l = choose(&only, None, SourceChoice::Last).unwrap();
+        let l = choose(&only, &[], None, SourceChoice::Last).unwrap();
         assert_eq!(l.index, Some(1));
         assert!(words("b.eccentricity", &[vec![], vec![]], &[], &l).contains("most constraining"));
     }
@@ -449,7 +479,7 @@ mod tests {
             above: 0.3,
             form: Form::Asymmetric,
         };
-        let c = choose(&[a, m(2.0, 0.2)], None, SourceChoice::WeightedMean).unwrap();
+        let c = choose(&[a, m(2.0, 0.2)], &[], None, SourceChoice::WeightedMean).unwrap();
         // Equal standard uncertainties (0.2): the plain mean.
         assert!((c.measurement.value - 1.5).abs() < 1e-12, "{c:?}");
     }
@@ -457,12 +487,72 @@ mod tests {
     #[test]
     fn the_sentence_names_the_line_of_the_source_used() {
         let s = [m(10.0, 0.001), m(10.0021, 0.0002)];
-        let c = choose(&s, None, SourceChoice::MostPrecise).unwrap();
+        let c = choose(&s, &[], None, SourceChoice::MostPrecise).unwrap();
         let cites = [vec!["disc".to_string()], vec!["followup".to_string()]];
         assert_eq!(
             words("b.period", &cites, &[Some(6), Some(14)], &c),
-            "b.period: 2 sources; chosen: the most precise, by relative uncertainty ([followup], source 2 of 2, line 14)"
+            "b.period: 2 sources; chosen: the most precise, by standard uncertainty ([followup], source 2 of 2, line 14)"
         );
         assert!(words("b.period", &cites, &[], &c).ends_with("source 2 of 2)"));
+    }
+
+    #[test]
+    fn the_most_precise_is_the_smallest_uncertainty_not_the_smallest_fraction() {
+        // A metallicity near zero: 0.01 ± 0.02 dex is four times as precise as
+        // -0.30 ± 0.10 dex, though its relative uncertainty is larger.
+        let s = [m(0.01, 0.02), m(-0.30, 0.10)];
+        assert_eq!(
+            choose(&s, &[], None, SourceChoice::MostPrecise)
+                .unwrap()
+                .index,
+            Some(0)
+        );
+        // Equal uncertainties: the first listed, not the larger value (a period alias at
+        // twice the period has half the relative uncertainty).
+        let s = [m(7.3, 0.01), m(14.6, 0.01)];
+        assert_eq!(
+            choose(&s, &[], None, SourceChoice::MostPrecise)
+                .unwrap()
+                .index,
+            Some(0)
+        );
+    }
+
+    #[test]
+    fn values_without_uncertainty_and_assumptions_are_not_ranked_or_averaged() {
+        let exact = Measurement {
+            value: 0.99,
+            below: 0.0,
+            above: 0.0,
+            form: Form::Exact,
+        };
+        let s = [m(0.92, 0.01), m(0.91, 0.01), exact];
+        let c = choose(&s, &[], None, SourceChoice::MostPrecise).unwrap();
+        assert_eq!(c.index, Some(0));
+        let w = choose(&s, &[], None, SourceChoice::WeightedMean).unwrap();
+        // The mean of the two measurements only (equal weights).
+        assert!((w.measurement.value - 0.915).abs() < 1e-12, "{w:?}");
+        assert_eq!(w.mean.unwrap().n, 2);
+        // With the last policy, the last measurement with an uncertainty.
+        assert_eq!(
+            choose(&s, &[], None, SourceChoice::Last).unwrap().index,
+            Some(1)
+        );
+        // An assumed value, even with an uncertainty, gives way to a measurement.
+        let s = [m(0.3, 0.001), m(0.1, 0.01)];
+        let c = choose(&s, &[true, false], None, SourceChoice::MostPrecise).unwrap();
+        assert_eq!(c.index, Some(1));
+        // Only values without uncertainty: the first listed, and the sentence says why.
+        let s = [
+            exact,
+            Measurement {
+                value: 1.0,
+                ..exact
+            },
+        ];
+        let c = choose(&s, &[], None, SourceChoice::MostPrecise).unwrap();
+        assert_eq!(c.index, Some(0));
+        assert!(words("s.radius", &[vec![], vec![]], &[], &c)
+            .contains("the first listed, since no source states an uncertainty"));
     }
 }

@@ -72,6 +72,22 @@ pub struct SourceResult {
     pub span: InSystem,
     /// Whether this declaration is the value used (false for all when they were combined).
     pub chosen: bool,
+    /// Whether this declaration is marked `assumed`.
+    pub assumed: bool,
+    /// A transit epoch's Julian-date unit as this declaration wrote it (`BJD_TDB`,
+    /// `JD_UTC`, ...): each source keeps its own time scale.
+    pub unit: Option<String>,
+}
+
+impl SourceResult {
+    /// The unit this source is shown in: its own time scale for a transit epoch, else the
+    /// quantity's display unit.
+    pub fn shown_unit<'a>(&'a self, q: &'a QuantityResult) -> DisplayUnit<'a> {
+        self.unit
+            .as_deref()
+            .and_then(DisplayUnit::parse)
+            .unwrap_or_else(|| q.shown_unit())
+    }
 }
 
 impl QuantityResult {
@@ -180,7 +196,7 @@ impl<'m> Derivation<'m> {
                     // upper bound to sample up to) is still reported, with the reason.
                     if let Some(d) = decl {
                         if let Content::Measured(m) = &d.content {
-                            quantities.push(self.unused_result(d, m));
+                            quantities.push(self.unused_result(key, d, m));
                         }
                     }
                     continue;
@@ -201,11 +217,62 @@ impl<'m> Derivation<'m> {
         }
     }
 
+    /// Every declaration of a quantity declared more than once, as reported, and the
+    /// declaration whose value is used (the chosen source, else the one declared; `None`
+    /// for a weighted mean).
+    fn sources_of(
+        &self,
+        key: Key,
+        decl: Option<&'m model::Declared>,
+    ) -> (Vec<SourceResult>, Option<&'m model::Declared>) {
+        let chosen = self.chosen.get(&key);
+        let all = match (decl, chosen) {
+            (Some(d), Some(_)) => self.sys.bodies.get(key.0).map(|b| b.sources(d.qty)),
+            _ => None,
+        }
+        .unwrap_or_default();
+        // The declaration whose value is used: the chosen source, else the one declared.
+        let used = match chosen.map(|c| c.index) {
+            Some(Some(i)) => all.get(i).copied(),
+            Some(None) => None,
+            None => decl,
+        };
+        let sources: Vec<SourceResult> = all
+            .iter()
+            .enumerate()
+            .filter_map(|(i, d)| match &d.content {
+                Content::Measured(m) => Some(SourceResult {
+                    value: m.value,
+                    below: m.below,
+                    above: m.above,
+                    form: m.form,
+                    citations: d.citations.iter().map(|c| c.0.clone()).collect(),
+                    span: InSystem::of(d.span, self.sys.span),
+                    chosen: chosen.is_some_and(|c| c.index == Some(i)),
+                    assumed: d.assumed,
+                    unit: epoch_unit(key.1, d),
+                }),
+                _ => None,
+            })
+            .collect();
+        (sources, used)
+    }
+
     /// A declared measurement that feeds no derivation, as reported: its value as declared
     /// and a note that says why it is not used.
-    fn unused_result(&self, d: &model::Declared, m: &Measurement) -> QuantityResult {
+    /// With several sources, it is the one chosen (the most constraining limit), listed with
+    /// the others.
+    fn unused_result(&self, key: Key, d: &'m model::Declared, m: &Measurement) -> QuantityResult {
+        let (sources, used) = self.sources_of(key, Some(d));
+        let chosen = self.chosen.get(&key);
+        let (d, m) = match (used, chosen) {
+            (Some(u), Some(c)) => (u, &c.measurement),
+            _ => (d, m),
+        };
         QuantityResult {
             notes: vec![format!("{NOT_USED}{UNUSABLE_LOWER_LIMIT}")],
+            sources,
+            choice: chosen.map(|c| c.choice),
             ..self.as_declared(d, m)
         }
     }
@@ -290,33 +357,7 @@ impl<'m> Derivation<'m> {
         let mut sampled = None;
         let mut precision = None;
         let chosen = self.chosen.get(&key);
-        let all = match (decl, chosen) {
-            (Some(d), Some(_)) => self.sys.bodies.get(key.0).map(|b| b.sources(d.qty)),
-            _ => None,
-        }
-        .unwrap_or_default();
-        // The declaration whose value is used: the chosen source, else the one declared.
-        let used = match chosen.map(|c| c.index) {
-            Some(Some(i)) => all.get(i).copied(),
-            Some(None) => None,
-            None => decl,
-        };
-        let sources: Vec<SourceResult> = all
-            .iter()
-            .enumerate()
-            .filter_map(|(i, d)| match &d.content {
-                Content::Measured(m) => Some(SourceResult {
-                    value: m.value,
-                    below: m.below,
-                    above: m.above,
-                    form: m.form,
-                    citations: d.citations.iter().map(|c| c.0.clone()).collect(),
-                    span: InSystem::of(d.span, self.sys.span),
-                    chosen: chosen.is_some_and(|c| c.index == Some(i)),
-                }),
-                _ => None,
-            })
-            .collect();
+        let (sources, used) = self.sources_of(key, decl);
         let (value, below, above, form) = match (chosen, decl.map(|d| &d.content)) {
             (Some(c), _) => {
                 let m = c.measurement;
@@ -458,18 +499,20 @@ impl<'m> Derivation<'m> {
                 .chain(sampled)
                 .collect(),
             notes,
-            unit: (key.1 == Qty::TransitEpoch)
-                .then(|| {
-                    used.or(decl)
-                        .and_then(|d| d.written_unit.clone())
-                        .filter(|u| crate::time::system_of_unit(u).is_some())
-                })
-                .flatten(),
+            unit: used.or(decl).and_then(|d| epoch_unit(key.1, d)),
             choice: chosen.map(|c| c.choice),
             sources,
             precision,
         }
     }
+}
+
+/// The Julian-date unit a transit epoch was declared in, when `qty` is one.
+fn epoch_unit(qty: Qty, d: &model::Declared) -> Option<String> {
+    (qty == Qty::TransitEpoch)
+        .then(|| d.written_unit.clone())
+        .flatten()
+        .filter(|u| crate::time::system_of_unit(u).is_some())
 }
 
 impl Derivation<'_> {

@@ -68,7 +68,7 @@ impl ValueSnapshot {
     pub fn is_declared(&self) -> bool {
         matches!(
             self.origin,
-            Origin::Declared | Origin::Assumed | Origin::Set
+            Origin::Declared | Origin::Assumed | Origin::Set | Origin::Combined
         )
     }
 }
@@ -601,6 +601,21 @@ fn value_change(
         return Some(change);
     };
     change.notes.extend(source_notes(o, n));
+    // What changed when the number did not: a change shown as `X → X` says what it was.
+    if o.sources.is_empty() && n.sources.is_empty() && o.citations != n.citations {
+        let cites =
+            |v: &ValueSnapshot| crate::text::citation_mark(v.citations.iter().map(String::as_str));
+        change
+            .notes
+            .push(format!("citations changed: {} → {}", cites(o), cites(n)));
+    }
+    if o.origin != n.origin {
+        change.notes.push(format!(
+            "origin changed: {} → {}",
+            o.origin.as_str(),
+            n.origin.as_str()
+        ));
+    }
     let numbers = |v: &ValueSnapshot| (v.value, v.below, v.above);
     let unchanged = same_number(o.value, n.value)
         && same_number(o.below, n.below)
@@ -625,8 +640,15 @@ fn value_change(
         let sigma = combined_sigma(numbers(o), numbers(n));
         change.sigma = (sigma > 0.0).then_some(sigma / factor);
     }
+    let derived_limits = o.form.is_limit()
+        && n.form.is_limit()
+        && o.origin == Origin::Derived
+        && n.origin == Origin::Derived;
     change.significant = match change.shift {
         Some(s) => s.abs() >= options.threshold,
+        // A derived limit has no uncertainty to measure its move by: it counts when it
+        // moved at the digits shown, not by the rounding noise of its inputs.
+        None if derived_limits => o.shown != n.shown,
         None => true,
     };
     Some(change)

@@ -24,7 +24,7 @@ fn quantity_json<'a>(
         .sources
         .iter()
         .map(|s| {
-            let unit = q.shown_unit();
+            let unit = s.shown_unit(q);
             json::Source {
                 value: unit.of(s.value),
                 below: unit.of(s.below),
@@ -137,6 +137,20 @@ pub fn systems_json<'a>(a: &'a Analysis, db: &'a dyn SourceDb) -> Vec<json::Syst
                             .collect(),
                     ),
                     composition: a.composition.get(&(si, b.id.clone())).map(|c| &c.json),
+                })
+                .collect(),
+            not_used: a
+                .unused
+                .iter()
+                .filter(|u| u.system == si)
+                .map(|u| json::NotUsed {
+                    body: &u.body_id,
+                    quantity: u.quantity.as_deref(),
+                    text: &u.text,
+                    line: places.of(u.span).1.line as usize,
+                    rule: u.rule,
+                    why: &u.why,
+                    silenced: u.silenced,
                 })
                 .collect(),
         })
@@ -280,14 +294,26 @@ impl TableUnits {
 /// one used: `4.2170 ± 0.0008 d [aster]`, `4.21762 ± 0.00012 d [brenn] (used)`. Empty for a
 /// quantity declared once.
 pub fn sources_text(q: &QuantityResult) -> Vec<String> {
-    let unit = q.shown_unit();
     q.sources
         .iter()
         .map(|s| {
+            let unit = s.shown_unit(q);
+            let shown = if q.qty == Qty::TransitEpoch {
+                format!(
+                    "{} {unit}",
+                    crate::format::julian_date(
+                        unit.of(s.value),
+                        unit.of(s.below),
+                        unit.of(s.above)
+                    )
+                )
+            } else {
+                shown_in(s.value, s.below, s.above, s.form, unit)
+            };
             format!(
-                "{} {}{}",
-                shown_in(s.value, s.below, s.above, s.form, unit),
+                "{shown} {}{}{}",
                 crate::text::citation_mark(s.citations.iter().map(String::as_str)),
+                if s.assumed { " assumed" } else { "" },
                 if s.chosen { " (used)" } else { "" }
             )
         })
@@ -306,6 +332,7 @@ pub fn provenance_text(a: &Analysis, sys: usize, q: &QuantityResult) -> String {
             format!("{}{cites}", q.origin.as_str())
         }
         Origin::Set if q.rule.is_none() => format!("{}{cites}", crate::what_if::SET_WORDS),
+        Origin::Combined => format!("combined: the weighted mean of{cites}"),
         Origin::Default => "default".to_string(),
         Origin::Estimated => format!("estimated from the spectral type{cites}"),
         _ => {
@@ -331,6 +358,7 @@ pub fn provenance_text(a: &Analysis, sys: usize, q: &QuantityResult) -> String {
 /// The people's form of `eval` for one file.
 pub fn eval_text(a: &Analysis, db: &dyn SourceDb) -> String {
     let mut out = String::new();
+    let places = Places::new(db, a.file);
     let units = TableUnits::of(
         a.results
             .iter()
@@ -339,7 +367,7 @@ pub fn eval_text(a: &Analysis, db: &dyn SourceDb) -> String {
     );
     for (si, (sys, res)) in a.model.systems.iter().zip(&a.results).enumerate() {
         out.push_str(&format!("system \"{}\"  ({})\n", sys.name, db.name(a.file)));
-        for (b, r) in sys.bodies.iter().zip(&res.bodies) {
+        for (bi, (b, r)) in sys.bodies.iter().zip(&res.bodies).enumerate() {
             match b.orbits.and_then(|h| sys.bodies.get(h)) {
                 Some(h) => {
                     out.push_str(&format!("  {} {} orbits {}\n", b.kind.as_str(), b.id, h.id))
@@ -413,10 +441,40 @@ pub fn eval_text(a: &Analysis, db: &dyn SourceDb) -> String {
             if let Some(line) = precision_line(&r.quantities) {
                 out.push_str(&format!("    {line}\n"));
             }
+            let unused = a
+                .unused
+                .iter()
+                .filter(|u| u.system == si && u.body == Some(bi));
+            for line in unused.map(|u| not_used_line(u, &places)) {
+                out.push_str(&format!("    {line}\n"));
+            }
+        }
+        let whole = a
+            .unused
+            .iter()
+            .filter(|u| u.system == si && u.body.is_none());
+        for line in whole.map(|u| not_used_line(u, &places)) {
+            out.push_str(&format!("  {line}\n"));
         }
         out.push('\n');
     }
     out
+}
+
+/// A declaration that could not be used, in one line of `eval`'s text: what was written,
+/// where, and why, saying so when that finding is silenced.
+fn not_used_line(u: &crate::unused::Unused, places: &Places) -> String {
+    let line = places.of(u.span).1.line;
+    let why = match u.rule {
+        Some(rule) => format!("[{rule}] {}", u.why),
+        None => u.why.clone(),
+    };
+    let silenced = if u.silenced {
+        " (this finding is silenced, so it is not reported elsewhere)"
+    } else {
+        ""
+    };
+    format!("not used: `{}` (line {line}): {why}{silenced}", u.text)
 }
 
 /// How precisely the Monte Carlo samples fix a body's values, in one line (`None` when no
@@ -523,7 +581,7 @@ pub fn missing_text(a: &Analysis, si: usize, bi: usize, qty: Qty) -> String {
             None => "not declared, and no rule derives it".to_string(),
         };
     };
-    let why: Vec<String> = a
+    let mut why: Vec<String> = a
         .diagnostics
         .iter()
         .filter(|d| {
@@ -534,6 +592,15 @@ pub fn missing_text(a: &Analysis, si: usize, bi: usize, qty: Qty) -> String {
             None => d.message.clone(),
         })
         .collect();
+    if why.is_empty() {
+        // Its finding silenced: still say why.
+        why.extend(
+            a.unused
+                .iter()
+                .filter(|u| u.span == p.span)
+                .map(|u| format!("{}; this finding is silenced", u.why)),
+        );
+    }
     let limit = match p.relation {
         Relation::Below => Some(("an upper limit", "<")),
         Relation::Above => Some(("a lower limit", ">")),
@@ -551,7 +618,10 @@ pub fn missing_text(a: &Analysis, si: usize, bi: usize, qty: Qty) -> String {
             }
             _ => format!("declared as {kind}, a limit not used for derivation"),
         },
-        (PropValue::Expr(e), None) if !matches!(e.kind, ExprKind::Literal(_)) => {
+        (PropValue::Expr(e), None)
+            if !matches!(e.kind, ExprKind::Literal(_))
+                && !matches!(&e.kind, ExprKind::Neg(x) if matches!(x.kind, ExprKind::Literal(_))) =>
+        {
             "declared by an expression that could not be evaluated".to_string()
         }
         _ => "declared, but the value could not be used".to_string(),

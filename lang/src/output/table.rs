@@ -559,6 +559,7 @@ pub fn source_rows<'a>(a: &'a Analysis, line: &dyn Fn(u32) -> usize) -> Vec<Sour
             for q in &r.quantities {
                 let origin = match q.origin {
                     Origin::Declared => "declared",
+                    Origin::Combined => "combined",
                     Origin::Assumed => "assumed",
                     Origin::Set => "set",
                     _ => continue,
@@ -606,7 +607,15 @@ pub fn source_rows<'a>(a: &'a Analysis, line: &dyn Fn(u32) -> usize) -> Vec<Sour
                 }
                 let combined = q.sources.iter().all(|s| !s.chosen);
                 for s in &q.sources {
+                    // Each source keeps its own `assumed` mark and an epoch its time scale.
+                    let origin = match q.origin {
+                        Origin::Set if s.chosen => "set",
+                        _ if s.assumed => "assumed",
+                        _ => "declared",
+                    };
                     out.push(SourceRow {
+                        origin,
+                        unit: s.unit.as_deref().unwrap_or(unit),
                         value: number(s.value),
                         below: number(s.below),
                         above: number(s.above),

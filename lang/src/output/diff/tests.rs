@@ -202,13 +202,80 @@ fn sources_added_and_removed_are_named() {
     assert_eq!(c.notes, vec!["source added: 10.003 ± 0.001 [b]"]);
     let back = value_change(Some("b"), Some(&two), Some(&one), options).unwrap();
     assert_eq!(back.notes, vec!["source removed: 10.003 ± 0.001 [b]"]);
-    // One declaration on each side: the change itself shows both.
+    // One declaration on each side: the change itself shows both numbers; only the
+    // citation, which it does not show, is named.
     let other = ValueSnapshot {
         shown: "10.1 ± 0.0002".into(),
         ..value("period", Origin::Declared, 10.1, 0.0002)
     };
     let c = value_change(Some("b"), Some(&one), Some(&other), options).unwrap();
-    assert!(c.notes.is_empty(), "{:?}", c.notes);
+    assert_eq!(c.notes, vec!["citations changed: [a] → (no citation)"]);
     // Nothing changed, nothing said.
     assert!(value_change(Some("b"), Some(&two), Some(&two), options).is_none());
+}
+
+/// A derived limit has no uncertainty: one that moved only below the digits shown (its
+/// inputs' rounding noise, e.g. a period edited in its seventh digit) is not significant,
+/// while one whose shown value moved is; a declared limit that changed always is.
+#[test]
+fn a_derived_limit_counts_when_its_shown_value_moves() {
+    let limit = |origin: Origin, v: f64, shown: &str| ValueSnapshot {
+        form: Form::LowerLimit,
+        shown: shown.to_string(),
+        ..value("hill_radius", origin, v, 0.0)
+    };
+    let options = DiffOptions {
+        threshold: 1.0,
+        all: false,
+    };
+    let run = |o: ValueSnapshot, n: ValueSnapshot| {
+        compare(
+            &[system("A", vec![o], None)],
+            &[system("A", vec![n], None)],
+            options,
+        )
+    };
+    let noise = run(
+        limit(Origin::Derived, 0.002_100_000, "> 0.0021 au"),
+        limit(Origin::Derived, 0.002_100_000_5, "> 0.0021 au"),
+    );
+    assert!(!noise.significant(), "{noise:?}");
+    let moved = run(
+        limit(Origin::Derived, 0.0021, "> 0.0021 au"),
+        limit(Origin::Derived, 0.0025, "> 0.0025 au"),
+    );
+    assert!(moved.significant());
+    let declared = run(
+        limit(Origin::Declared, 0.002_100_000, "> 0.0021 au"),
+        limit(Origin::Declared, 0.002_100_000_5, "> 0.0021 au"),
+    );
+    assert!(declared.significant());
+}
+
+/// A declared value whose number stayed but whose citation or origin changed says what
+/// changed, instead of showing `X → X` alone.
+#[test]
+fn a_citation_or_origin_change_is_named() {
+    let mut old = value("mass", Origin::Declared, 0.9, 0.03);
+    old.citations = vec!["a".into()];
+    let mut new = old.clone();
+    new.citations = vec!["b".into()];
+    new.origin = Origin::Assumed;
+    let diff = compare(
+        &[system("A", vec![old], None)],
+        &[system("A", vec![new], None)],
+        DiffOptions {
+            threshold: 1.0,
+            all: false,
+        },
+    );
+    let notes = &diff.systems[0].changes[0].notes;
+    assert!(
+        notes.contains(&"citations changed: [a] → [b]".to_string()),
+        "{notes:?}"
+    );
+    assert!(
+        notes.contains(&"origin changed: declared → assumed".to_string()),
+        "{notes:?}"
+    );
 }

@@ -40,6 +40,13 @@ pub struct Summary {
     pub notes: usize,
     /// Rule id to count, only for rules that occur, in the catalogue's order.
     pub rules: Pairs<usize>,
+    /// Declarations refused by a rule whose finding is silenced (left out when none).
+    #[serde(skip_serializing_if = "is_zero")]
+    pub not_used_silenced: usize,
+}
+
+fn is_zero(n: &usize) -> bool {
+    *n == 0
 }
 
 /// The members of `syz eval --format json` before `systems` (the systems are streamed
@@ -162,6 +169,24 @@ pub struct System<'a> {
     pub file: &'a str,
     pub name: &'a str,
     pub bodies: Vec<Body<'a>>,
+    /// Declarations of the system that could not be used, with why (left out when none).
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub not_used: Vec<NotUsed<'a>>,
+}
+
+/// A declaration that could not be used ([`crate::unused`]).
+#[derive(Debug, Serialize)]
+pub struct NotUsed<'a> {
+    pub body: &'a str,
+    /// The quantity's name as written; `null` for a whole body.
+    pub quantity: Option<&'a str>,
+    pub text: &'a str,
+    pub line: usize,
+    /// The rule id that says why; `null` when no diagnostic does.
+    pub rule: Option<&'static str>,
+    pub why: &'a str,
+    /// Whether that rule's finding is silenced (`--allow`, `# allow(...)`, `[rules]`).
+    pub silenced: bool,
 }
 
 #[derive(Debug, Serialize)]

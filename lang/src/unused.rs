@@ -1,0 +1,301 @@
+//! Declarations the analysis could not use, with why.
+//!
+//! A value the file declares can be refused (a wrong unit, a value outside its quantity's
+//! range, an unknown quantity, a repeat without its own source, a body declared twice) or
+//! come out without a value (an expression with no finite value). Each such refusal is a
+//! diagnostic, but a diagnostic can be silenced (`--allow`, `# allow(...)`, `[rules]` in
+//! `syzygy.toml`), and then the value would vanish from every output without a word. This
+//! module lists every such declaration, with the rule and message that say why, before the
+//! silencing applies, so that the outputs can still show it (and whether its finding was
+//! silenced).
+
+use crate::ast;
+use crate::derive::SystemResult;
+use crate::diagnostic::{Diagnostic, Severity};
+use crate::model::Model;
+use crate::source::Span;
+use std::sync::Arc;
+
+/// One declaration the analysis did not use.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Unused {
+    /// The system's index in the model.
+    pub system: usize,
+    /// The body's index in the system; `None` for a whole body that was not used (a body
+    /// declared twice in one system).
+    pub body: Option<usize>,
+    /// The body's identifier as written.
+    pub body_id: String,
+    /// The quantity's name as written; `None` for a whole body.
+    pub quantity: Option<String>,
+    /// The declaration as written, on one line (shortened when long).
+    pub text: String,
+    pub span: Span,
+    /// The rule id that says why, and its message; `None` when no diagnostic says why.
+    pub rule: Option<&'static str>,
+    pub why: String,
+    /// Whether that rule's finding is silenced in this analysis (so it is not reported).
+    pub silenced: bool,
+}
+
+/// The longest declaration text kept, in characters.
+const TEXT_CHARS: usize = 80;
+
+/// Every declaration of `ast` the model or the derivation did not use, with the diagnostic
+/// (from `diags`, before silencing) that says why. Cheap when nothing was refused: every
+/// refusal comes with a diagnostic, so a file without diagnostics is not walked.
+pub fn collect(
+    src: &str,
+    ast: &ast::File,
+    model: &Model,
+    results: &[Arc<SystemResult>],
+    diags: &[Diagnostic],
+) -> Vec<Unused> {
+    let mut out = Vec::new();
+    if diags.is_empty() {
+        return out;
+    }
+    let reasons = Reasons::new(diags);
+    for (si, (s, sys)) in ast.systems.iter().zip(&model.systems).enumerate() {
+        if s.name_span != sys.name_span {
+            continue;
+        }
+        let result = results.get(si);
+        // The model's bodies are the file's, in order, less those declared twice.
+        let mut next = 0;
+        for b in &s.bodies {
+            let Some((bi, body)) = sys
+                .bodies
+                .get(next)
+                .filter(|m| m.span == b.span)
+                .map(|m| (next, m))
+            else {
+                let (rule, why) = reasons.of(b.span);
+                out.push(Unused {
+                    system: si,
+                    body: None,
+                    body_id: b.name.name.clone(),
+                    quantity: None,
+                    text: format!("{} {}", b.kind.as_str(), b.name.name),
+                    span: b.span,
+                    rule,
+                    why,
+                    silenced: false,
+                });
+                continue;
+            };
+            next += 1;
+            let mut used: Vec<u32> = body
+                .declared
+                .iter()
+                .chain(&body.further)
+                .map(|d| d.span.start)
+                .collect();
+            used.sort_unstable();
+            let values = result.and_then(|r| r.bodies.get(bi));
+            for p in &b.props {
+                let kept = used.binary_search(&p.span.start).is_ok();
+                // A declaration kept by the model can still end without a value (an
+                // expression with none); the first of a quantity is the one that would show.
+                let valued = || {
+                    body.declared
+                        .iter()
+                        .find(|d| d.span == p.span)
+                        .is_none_or(|d| values.is_none_or(|v| v.get(d.qty).is_some()))
+                };
+                if kept && valued() {
+                    continue;
+                }
+                let (rule, why) = reasons.of(p.span);
+                out.push(Unused {
+                    system: si,
+                    body: Some(bi),
+                    body_id: b.name.name.clone(),
+                    quantity: Some(p.name.name.clone()),
+                    text: one_line(src.get(p.span.range()).unwrap_or_default()),
+                    span: p.span,
+                    rule,
+                    why,
+                    silenced: false,
+                });
+            }
+        }
+    }
+    out
+}
+
+/// Mark those of `unused` whose finding is not among `shown` (the diagnostics after
+/// silencing and severity overrides) as silenced.
+pub fn mark_silenced(unused: &mut [Unused], shown: &[Diagnostic]) {
+    if unused.is_empty() {
+        return;
+    }
+    let mut places: Vec<(u32, u32, &str)> = shown
+        .iter()
+        .map(|d| (d.span.start, d.span.end, d.rule.id()))
+        .collect();
+    places.sort_unstable();
+    for u in unused {
+        let from = places.partition_point(|p| p.0 < u.span.start);
+        let inside = places
+            .get(from..)
+            .unwrap_or_default()
+            .iter()
+            .take_while(|p| p.0 < u.span.end.max(u.span.start + 1))
+            .filter(|p| p.1 <= u.span.end);
+        let mut inside = inside;
+        u.silenced = u.rule.is_some_and(|id| !inside.any(|p| p.2 == id));
+    }
+}
+
+/// The diagnostics by where they start, to find the one inside a declaration.
+struct Reasons<'a> {
+    by_start: Vec<&'a Diagnostic>,
+}
+
+impl<'a> Reasons<'a> {
+    fn new(diags: &'a [Diagnostic]) -> Reasons<'a> {
+        let mut by_start: Vec<&Diagnostic> = diags.iter().collect();
+        by_start.sort_by_key(|d| (d.span.start, d.span.end));
+        Reasons { by_start }
+    }
+
+    /// The rule and message of the diagnostic inside `span` that says why it was not used:
+    /// the first error there, else the first diagnostic.
+    fn of(&self, span: Span) -> (Option<&'static str>, String) {
+        let from = self.by_start.partition_point(|d| d.span.start < span.start);
+        let inside = || {
+            self.by_start
+                .get(from..)
+                .unwrap_or_default()
+                .iter()
+                .take_while(|d| d.span.start < span.end.max(span.start + 1))
+                .filter(|d| d.span.file == span.file && d.span.end <= span.end)
+        };
+        match inside()
+            .find(|d| d.severity == Severity::Error)
+            .or_else(|| inside().next())
+        {
+            Some(d) => (Some(d.rule.id()), d.message.clone()),
+            None => (None, "it could not be used".to_string()),
+        }
+    }
+}
+
+/// `text` on one line, its runs of white space made single spaces, shortened to
+/// [`TEXT_CHARS`] characters with an ellipsis.
+fn one_line(text: &str) -> String {
+    let words: Vec<&str> = text.split_whitespace().collect();
+    let line = words.join(" ");
+    if line.chars().count() <= TEXT_CHARS {
+        return line;
+    }
+    let mut short: String = line.chars().take(TEXT_CHARS - 1).collect();
+    short.push('…');
+    short
+}
+
+#[cfg(test)]
+mod tests {
+    use crate::derive::{Options, Propagation};
+    use crate::diagnostic::Rule;
+    use crate::settings::Settings;
+    use crate::source::FileId;
+    use crate::{analyze, Analysis};
+
+    fn run(src: &str, allow: &[Rule]) -> Analysis {
+        let settings = Settings {
+            options: Options {
+                propagation: Propagation::Linear,
+                ..Options::default()
+            },
+            overrides: allow.iter().map(|r| (*r, None)).collect(),
+            ..Settings::default()
+        };
+        analyze(FileId(0), src, &settings)
+    }
+
+    /// (body, quantity, rule, silenced) of each declaration not used.
+    fn listed(a: &Analysis) -> Vec<(String, Option<String>, Option<&'static str>, bool)> {
+        a.unused
+            .iter()
+            .map(|u| (u.body_id.clone(), u.quantity.clone(), u.rule, u.silenced))
+            .collect()
+    }
+
+    const FILE: &str = "ref a \"Invented A\"
+system \"Tessaly\" {
+  star tess {
+    mass = 0.9 ± 0.03 Msun
+    radius = -3 Rsun
+    colour = 3
+    teff = sqrt(-1) * 5000 K
+  }
+  planet b orbits tess {
+    period = 7.3 ± 0.01 d [a]
+    period = 7.5 ± 0.01 d [a]
+    rv_amplitude = 30 ± 3 km # allow(unit-mismatch): testing
+  }
+  planet b orbits tess { period = 9 d }
+}
+";
+
+    #[test]
+    fn every_refused_declaration_is_listed_with_its_rule() {
+        let a = run(FILE, &[]);
+        let s = |x: &str| x.to_string();
+        assert_eq!(
+            listed(&a),
+            vec![
+                (s("tess"), Some(s("radius")), Some("out-of-range"), false),
+                (
+                    s("tess"),
+                    Some(s("colour")),
+                    Some("unknown-quantity"),
+                    false
+                ),
+                (s("tess"), Some(s("teff")), Some("invalid-value"), false),
+                (s("b"), Some(s("period")), Some("duplicate"), false),
+                // Silenced by its comment: still listed, and said to be silenced.
+                (s("b"), Some(s("rv_amplitude")), Some("unit-mismatch"), true),
+                (s("b"), None, Some("duplicate"), false),
+            ]
+        );
+        let radius = a.unused.first().unwrap();
+        assert_eq!(radius.text, "radius = -3 Rsun");
+        assert!(radius.why.contains("greater than 0"), "{}", radius.why);
+        assert_eq!(a.unused.last().unwrap().text, "planet b");
+    }
+
+    #[test]
+    fn silencing_a_rule_hides_the_finding_not_the_declaration() {
+        let a = run(
+            FILE,
+            &[Rule::OutOfRange, Rule::Duplicate, Rule::InvalidValue],
+        );
+        assert!(a.diagnostics.iter().all(|d| !matches!(
+            d.rule,
+            Rule::OutOfRange | Rule::Duplicate | Rule::InvalidValue
+        )));
+        let silenced: Vec<_> = listed(&a).into_iter().filter(|u| u.3).collect();
+        assert_eq!(silenced.len(), 5, "{:?}", listed(&a));
+        assert_eq!(a.unused.len(), 6);
+        // The text output lists each, and says it is silenced.
+        let mut db = crate::source::MemoryDb::new();
+        assert_eq!(db.add("t.syz", FILE), a.file);
+        let text = crate::report::eval_text(&a, &db);
+        assert_eq!(text.matches("not used: ").count(), 6, "{text}");
+        assert!(text
+            .contains("not used: `radius = -3 Rsun` (line 5): [out-of-range] the value -3 Rsun"));
+        assert_eq!(text.matches("this finding is silenced").count(), 5);
+    }
+
+    #[test]
+    fn a_clean_file_lists_nothing() {
+        let a = run(
+            "system \"S\" { star s { mass = 1 Msun }\n planet p orbits s { period = 3 d } }",
+            &[],
+        );
+        assert!(a.unused.is_empty(), "{:?}", a.unused);
+    }
+}
