@@ -21,6 +21,7 @@ mod inputs;
 mod roles;
 mod rounds;
 pub mod rules;
+mod select;
 mod set;
 pub mod sources;
 mod summary;

@@ -164,7 +164,7 @@ impl Value {
         wanted.dedup();
         let mut found = vec![0i64; wanted.len()];
         let in_all: Vec<usize> = wanted.iter().map(|r| r + first).collect();
-        select_ranks(&mut v, &in_all, &mut found);
+        super::select::select_ranks(&mut v, &in_all, &mut found);
         let at = |r: usize| {
             let i = wanted.binary_search(&r).unwrap_or(0);
             from_order_key(found.get(i).copied().unwrap_or(0))
@@ -236,98 +236,9 @@ impl Precision {
     }
 }
 
-/// Select the elements of the sorted, distinct `ranks` of `v` into `out` (one per rank):
-/// several order statistics at once, each selection narrowing the slices the next ones
-/// partition. Which rank to select first matters: a quickselect costs about the length of
-/// the slice it partitions, and the ranks of a summary come in three tight clusters, so
-/// selecting each cluster's outer ranks first leaves its centre a slice of a few dozen
-/// elements. [`SelectionPlan`] finds the order that partitions the fewest elements in all.
-fn select_ranks(v: &mut [i64], ranks: &[usize], out: &mut [i64]) {
-    let plan = SelectionPlan::new(v.len(), ranks);
-    plan.select(v, 0, 0, ranks.len(), ranks, out);
-}
-
-/// The order of the selections of [`select_ranks`]: for the ranks `i..j` (indices into the
-/// sorted ranks), the one to select first. Found by the interval dynamic programme of the
-/// optimal binary search tree (Knuth 1971), with a selection's cost taken as the length of
-/// the slice it partitions: the slice holding ranks `i..j` runs from just after rank
-/// `i - 1` to rank `j`.
-struct SelectionPlan {
-    k: usize,
-    first: Vec<usize>,
-    /// Elements partitioned in all (what the tests compare).
-    #[cfg(test)]
-    cost: usize,
-}
-
-impl SelectionPlan {
-    fn new(len: usize, ranks: &[usize]) -> SelectionPlan {
-        let k = ranks.len();
-        let at = |i: usize, j: usize| i * (k + 1) + j;
-        // cost[at(i, j)]: elements partitioned to select ranks i..j; 0 when i == j.
-        let mut cost = vec![0usize; (k + 1) * (k + 1)];
-        let mut first = vec![0usize; (k + 1) * (k + 1)];
-        for width in 1..=k {
-            for i in 0..=k - width {
-                let j = i + width;
-                let start = i
-                    .checked_sub(1)
-                    .and_then(|p| ranks.get(p))
-                    .map_or(0, |r| r + 1);
-                let end = ranks.get(j).copied().unwrap_or(len);
-                let mut best = (usize::MAX, i);
-                for t in i..j {
-                    let c = cost.get(at(i, t)).copied().unwrap_or(0)
-                        + cost.get(at(t + 1, j)).copied().unwrap_or(0);
-                    if c < best.0 {
-                        best = (c, t);
-                    }
-                }
-                if let (Some(c), Some(f)) = (cost.get_mut(at(i, j)), first.get_mut(at(i, j))) {
-                    *c = end.saturating_sub(start) + best.0;
-                    *f = best.1;
-                }
-            }
-        }
-        SelectionPlan {
-            k,
-            first,
-            #[cfg(test)]
-            cost: cost.get(k).copied().unwrap_or(0),
-        }
-    }
-
-    /// Select ranks `i..j` from `v`, the slice of the whole that starts at rank `offset`.
-    /// Depth is at most the number of ranks (nine in a summary).
-    fn select(
-        &self,
-        v: &mut [i64],
-        offset: usize,
-        i: usize,
-        j: usize,
-        ranks: &[usize],
-        out: &mut [i64],
-    ) {
-        if i >= j || v.is_empty() {
-            return;
-        }
-        let t = self.first.get(i * (self.k + 1) + j).copied().unwrap_or(i);
-        let Some(&rank) = ranks.get(t) else {
-            return;
-        };
-        let r = rank.saturating_sub(offset).min(v.len() - 1);
-        let (left, x, right) = v.select_nth_unstable(r);
-        if let Some(o) = out.get_mut(t) {
-            *o = *x;
-        }
-        self.select(left, offset, i, t, ranks, out);
-        self.select(right, offset + r + 1, t + 1, j, ranks, out);
-    }
-}
-
 /// An integer whose order is the `f64::total_cmp` order of `x` (flip the magnitude bits of
 /// negative numbers; the same transform the standard library's `total_cmp` applies).
-fn order_key(x: f64) -> i64 {
+pub(super) fn order_key(x: f64) -> i64 {
     flip_magnitude_if_negative(x.to_bits() as i64)
 }
 
@@ -717,69 +628,6 @@ mod tests {
         assert_eq!(alone.finite, 1.0);
         // Nothing finite: no summary.
         assert!(summary(odd.to_vec()).is_none());
-    }
-
-    #[test]
-    fn planned_selection_finds_what_a_sort_finds() {
-        // Several order statistics selected in the planned order are those of the sorted
-        // array, for rank sets with clusters, ends, a single rank and none.
-        let mut rng = ChaCha8Rng::seed_from_u64(11);
-        for len in [1usize, 2, 3, 10, 97, 1000, 10_000] {
-            let data: Vec<i64> = (0..len).map(|_| rng.gen_range(-50..50)).collect();
-            let mut sorted = data.clone();
-            sorted.sort_unstable();
-            let last = len - 1;
-            let sets: Vec<Vec<usize>> = vec![
-                vec![],
-                vec![last / 2],
-                vec![0, last],
-                vec![0, 1, last / 3, last / 2, last],
-                (0..len).step_by((len / 9).max(1)).collect(),
-            ];
-            for set in sets {
-                let mut ranks = set;
-                ranks.retain(|&r| r < len);
-                ranks.sort_unstable();
-                ranks.dedup();
-                let mut v = data.clone();
-                let mut out = vec![0i64; ranks.len()];
-                select_ranks(&mut v, &ranks, &mut out);
-                let expected: Vec<i64> = ranks.iter().map(|&r| sorted[r]).collect();
-                assert_eq!(out, expected, "len {len}, ranks {ranks:?}");
-            }
-        }
-    }
-
-    #[test]
-    fn selection_plan_partitions_the_fewest_elements() {
-        // The nine ranks of a summary of 10^4 samples. Every order of selection, tried
-        // by brute force (4,862 of them), partitions at least as many elements as the plan;
-        // always halving the list of ranks (the order used before) partitions 34,957.
-        let ranks = [1549, 1586, 1623, 4950, 5000, 5050, 8376, 8413, 8450];
-        fn brute(start: usize, end: usize, ranks: &[usize]) -> usize {
-            if ranks.is_empty() {
-                return 0;
-            }
-            (0..ranks.len())
-                .map(|t| {
-                    let r = ranks[t];
-                    end - start + brute(start, r, &ranks[..t]) + brute(r + 1, end, &ranks[t + 1..])
-                })
-                .min()
-                .unwrap()
-        }
-        fn halving(start: usize, end: usize, ranks: &[usize]) -> usize {
-            if ranks.is_empty() {
-                return 0;
-            }
-            let t = ranks.len() / 2;
-            let r = ranks[t];
-            end - start + halving(start, r, &ranks[..t]) + halving(r + 1, end, &ranks[t + 1..])
-        }
-        let plan = SelectionPlan::new(10_000, &ranks);
-        assert_eq!(plan.cost, brute(0, 10_000, &ranks));
-        assert_eq!(halving(0, 10_000, &ranks), 34_957);
-        assert!(plan.cost < 27_000, "{}", plan.cost);
     }
 
     #[test]
