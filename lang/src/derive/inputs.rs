@@ -331,6 +331,14 @@ impl<'m> Derivation<'m> {
             let Content::Measured(m) = &d.content else {
                 return None;
             };
+            let cites = crate::text::citation_mark(d.citations.iter().map(|c| c.0.as_str()));
+            if d.qty == Qty::TransitEpoch {
+                // A Julian date in its own time scale, never in scientific notation.
+                let scale = d.written_unit.as_deref().unwrap_or("JD");
+                let day = crate::constants::DAY;
+                let jd = crate::format::julian_date(m.value / day, m.below / day, m.above / day);
+                return Some((*m, format!("{jd} {scale} {cites}")));
+            }
             let unit = display_unit(d.qty, m.value);
             let f = unit.factor;
             let value = match m.form {
@@ -338,9 +346,20 @@ impl<'m> Derivation<'m> {
                 Form::LowerLimit => format!("> {}", crate::format::number(m.value / f)),
                 _ => crate::format::with_uncertainty(m.value / f, m.below / f, m.above / f),
             };
-            let cites = crate::text::citation_mark(d.citations.iter().map(|c| c.0.as_str()));
-            Some((*m, format!("{value} {} {cites}", unit.suffix())))
+            let assumed = if d.assumed { " assumed" } else { "" };
+            let unit = unit.suffix();
+            let unit = if unit.is_empty() {
+                String::new()
+            } else {
+                format!(" {unit}")
+            };
+            Some((*m, format!("{value}{unit} {cites}{assumed}")))
         };
+        // Epochs compare modulo the period (the first declared measurement of it).
+        let period = body.get(Qty::Period).and_then(|d| match &d.content {
+            Content::Measured(p) => Some(*p),
+            _ => None,
+        });
         let in_use = |i: usize| {
             if used == Some(i) {
                 " (the value used)"
@@ -370,15 +389,33 @@ impl<'m> Derivation<'m> {
             for i in earlier_ones {
                 let Some(earlier) = all.get(i) else { continue };
                 let Some(a) = measured(earlier) else { continue };
-                let Some(z) = sources::separation(&a, &b).filter(|z| *z > k) else {
+                let (carried, orbits) = if later.qty == Qty::TransitEpoch {
+                    sources::epoch_aligned(&a, &b, period.as_ref())
+                } else {
+                    (b, 0)
+                };
+                let Some(z) = sources::separation(&a, &carried).filter(|z| *z > k) else {
                     continue;
                 };
-                let (Some((a, wa)), Some((b, wb))) = (shown(earlier), shown(later)) else {
+                let (Some((a, wa)), Some((_, wb))) = (shown(earlier), shown(later)) else {
                     continue;
                 };
                 let (wa, wb) = (format!("{wa}{}", in_use(i)), format!("{wb}{}", in_use(j)));
                 let name = format!("{}.{}", body.id, quantities::def(later.qty).name);
-                let apart = sources::apart_words(z, &a, &b);
+                let mut apart = sources::apart_words(z, &a, &carried);
+                if orbits != 0 {
+                    apart.push_str(&format!(
+                        " after carrying the second by {orbits} orbit{} of the period",
+                        if orbits.abs() == 1 { "" } else { "s" }
+                    ));
+                }
+                if let (Some(x), Some(y)) = (&earlier.written_unit, &later.written_unit) {
+                    if later.qty == Qty::TransitEpoch && x != y {
+                        apart.push_str(&format!(
+                            " (they are in different time scales, {x} and {y}, compared as written)"
+                        ));
+                    }
+                }
                 self.diagnostics.push(
                     Diagnostic::new(
                         Rule::SourcesDisagree,

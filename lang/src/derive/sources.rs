@@ -368,6 +368,38 @@ pub fn separation(a: &Measurement, b: &Measurement) -> Option<f64> {
     }
 }
 
+/// Two transit epochs compare as the same ephemeris: `later` carried by the whole number of
+/// orbits `n` (of `period`, its standard uncertainty adding `|n|` times in quadrature) that
+/// brings it nearest to `earlier`. Two papers usually publish different transits; only
+/// their distance from a whole number of periods can disagree. `n` is 0 without a period.
+pub fn epoch_aligned(
+    earlier: &Measurement,
+    later: &Measurement,
+    period: Option<&Measurement>,
+) -> (Measurement, i64) {
+    let Some(p) = period.filter(|p| p.value > 0.0 && p.value.is_finite() && !p.form.is_limit())
+    else {
+        return (*later, 0);
+    };
+    let orbits = ((earlier.value - later.value) / p.value).round();
+    if orbits == 0.0 || !orbits.is_finite() || orbits.abs() > 1e9 {
+        return (*later, 0);
+    }
+    let spread = orbits.abs() * standard(p);
+    let widen = |s: f64| (s * s + spread * spread).sqrt();
+    let moved = Measurement {
+        value: later.value + orbits * p.value,
+        below: widen(later.below),
+        above: widen(later.above),
+        form: if later.form.is_limit() {
+            later.form
+        } else {
+            Form::Asymmetric
+        },
+    };
+    (moved, orbits as i64)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -554,5 +586,22 @@ mod tests {
         assert_eq!(c.index, Some(0));
         assert!(words("s.radius", &[vec![], vec![]], &[], &c)
             .contains("the first listed, since no source states an uncertainty"));
+    }
+
+    #[test]
+    fn epochs_whole_orbits_apart_are_the_same_ephemeris() {
+        let p = m(7.3, 0.0001);
+        // Two transits 10 orbits apart, each to 0.0002 d: no disagreement once carried.
+        let (moved, n) = epoch_aligned(&m(2461000.1, 0.0002), &m(2461073.1, 0.0002), Some(&p));
+        assert_eq!(n, -10);
+        assert!((moved.value - 2461000.1).abs() < 1e-6, "{moved:?}");
+        // sqrt(0.0002^2 + (10 x 0.0001)^2) = 0.00101980
+        assert!((moved.below - 0.001_019_80).abs() < 1e-8, "{moved:?}");
+        assert_eq!(separation(&m(2461000.1, 0.0002), &moved), None);
+        // Half an orbit off stays half an orbit off; without a period nothing is carried.
+        let (half, n) = epoch_aligned(&m(2461000.1, 0.0002), &m(2461003.75, 0.0002), Some(&p));
+        assert_eq!(n, 0);
+        assert_eq!(half.value, 2461003.75);
+        assert_eq!(epoch_aligned(&m(1.0, 0.1), &m(30.0, 0.1), None).1, 0);
     }
 }

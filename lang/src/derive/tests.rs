@@ -1349,3 +1349,43 @@ fn each_source_keeps_its_assumed_mark_and_time_scale() {
         ]
     );
 }
+
+/// Two papers' transit epochs a whole number of orbits apart are one ephemeris, not a
+/// disagreement; carried by those orbits, an epoch that is off is still reported, in Julian
+/// dates as written (never in scientific notation). An assumed source says it is assumed.
+#[test]
+fn epochs_compare_modulo_the_period_and_assumed_sources_say_so() {
+    let src = |second: &str| {
+        format!("ref a \"Invented A\"\nref b \"Invented B\"\nsystem \"Ra\" {{\n star s {{ mass = 0.92 ± 0.03 Msun }}\n planet b orbits s {{\n  period = 7.3 ± 0.0001 d [a]\n  transit_epoch = 2461000.1 ± 0.001 BJD_TDB [a]\n  transit_epoch = {second} ± 0.002 BJD_TDB [b]\n  albedo = 0.3 assumed [a]\n  albedo = 0.1 ± 0.05 [b]\n }}\n}}\n")
+    };
+    let disagreeing = |a: &Analysis| -> Vec<String> {
+        a.diagnostics
+            .iter()
+            .filter(|d| d.rule == crate::diagnostic::Rule::SourcesDisagree)
+            .map(|d| d.message.clone())
+            .collect()
+    };
+    // One orbit later, to the same ephemeris.
+    let a = run(&src("2461007.4"), &Options::linear());
+    let found = disagreeing(&a);
+    assert!(
+        found.iter().all(|m| !m.contains("transit_epoch")),
+        "{found:?}"
+    );
+    assert!(
+        found.iter().any(|m| m.contains("0.3 [a] assumed")),
+        "{found:?}"
+    );
+    // Ten orbits later and 0.05 d off: reported after carrying it back.
+    let a = run(&src("2461073.15"), &Options::linear());
+    let found = disagreeing(&a);
+    let epoch = found.iter().find(|m| m.contains("transit_epoch")).unwrap();
+    assert!(
+        epoch.contains("2461073.1500 ± 0.0020 BJD_TDB [b]"),
+        "{epoch}"
+    );
+    assert!(
+        epoch.contains("after carrying the second by -10 orbits"),
+        "{epoch}"
+    );
+}
