@@ -549,3 +549,34 @@ fn unusable_limits_and_references_with_bars_round_trip() {
     );
     assert_eq!(declared(&[s(&out)]), before);
 }
+
+/// Sources a weighted-mean project combined come back with a comment saying so and how to get
+/// the same value, rather than silently under the importing project's choice (invented data).
+#[test]
+fn combined_sources_say_so_after_the_round_trip() {
+    let dir = scratch("import-combined");
+    std::fs::write(
+        dir.join("syzygy.toml"),
+        "[sources]\nchoice = \"weighted-mean\"\n",
+    )
+    .unwrap();
+    let file = dir.join("pellory.syz");
+    std::fs::write(
+        &file,
+        "ref a \"Invented A\"\nref b \"Invented B\"\nsystem \"Pellory\" {\n  star s {\n    mass = 0.95 ± 0.03 Msun [a]\n    mass = 0.99 ± 0.02 Msun [b]\n  }\n}\n",
+    )
+    .unwrap();
+    let table = dir.join("declared.csv");
+    let o = run(&["eval", "--format", "csv", "--table", "sources", s(&file)]);
+    assert!(stdout(&o).contains(",combined"), "{}", stdout(&o));
+    std::fs::write(&table, o.stdout).unwrap();
+    let out = dir.join("out");
+    let o = run(&["import", s(&table), "-o", s(&out)]);
+    assert_eq!(o.status.code(), Some(0), "{}{}", stdout(&o), stderr(&o));
+    let written = std::fs::read_to_string(out.join("pellory.syz")).unwrap();
+    assert!(
+        written.contains("# mass: the exported table used the weighted mean of these sources"),
+        "{written}"
+    );
+    assert!(!written.contains("preferred"), "{written}");
+}

@@ -31,6 +31,8 @@ struct Body {
     host: String,
     /// (quantity name, declaration text without the name, used, citation ids)
     decls: Vec<(&'static str, String, bool, Vec<String>)>,
+    /// The quantities whose sources the table says were combined (`used` = `combined`).
+    combined: Vec<&'static str>,
 }
 
 /// One system as read so far, in the order its bodies first appear.
@@ -156,12 +158,16 @@ pub fn import_sources(source: &mut dyn RowSource, table: &str) -> Result<ImportR
                     kind,
                     host: syzygy_name(cell("host"), ""),
                     decls: Vec::new(),
+                    combined: Vec::new(),
                 });
                 sys.bodies.len() - 1
             }
         };
         if let Some(b) = sys.bodies.get_mut(bi) {
             b.decls.push((def.name, line, cell("used") == "yes", refs));
+            if cell("used") == "combined" && !b.combined.contains(&def.name) {
+                b.combined.push(def.name);
+            }
             summary.values += 1;
         }
     }
@@ -188,6 +194,7 @@ pub fn import_sources(source: &mut dyn RowSource, table: &str) -> Result<ImportR
                 kind: BodyKind::Star,
                 host: String::new(),
                 decls: Vec::new(),
+                combined: Vec::new(),
             });
         }
     }
@@ -296,7 +303,16 @@ fn system_text(s: &System, table: &str) -> SystemText {
                 let _ = writeln!(out, "  {} {} {{", kind.as_str(), b.id);
             }
         }
+        let mut said: Vec<&str> = Vec::new();
         for (name, line, used, _) in &b.decls {
+            if b.combined.contains(name) && !said.contains(name) {
+                // No mark can say "combine these": the comment keeps what the table said.
+                said.push(name);
+                let _ = writeln!(
+                    out,
+                    "    # {name}: the exported table used the weighted mean of these sources; set `[sources] choice = \"weighted-mean\"` in syzygy.toml to use it here too"
+                );
+            }
             let several = b.decls.iter().filter(|d| d.0 == *name).count() > 1;
             let mark = if several && *used { " preferred" } else { "" };
             let _ = writeln!(out, "    {name} {line}{mark}");
