@@ -1,6 +1,7 @@
 //! Inlay hints: the key derived values of each body after its opening brace, beside a
-//! declared value the value the engine derives for it from other measurements, and beside
-//! each declaration of a quantity declared several times that is not used, why not.
+//! declared value the value the engine derives for it from other measurements, beside
+//! each declaration of a quantity declared several times that is not used, why not, and
+//! beside a declaration refused by a silenced rule, that it is not used.
 
 use super::{open_brace_after, result, shown, Method};
 use crate::derive::{Choice, QuantityResult, SourceResult};
@@ -127,9 +128,30 @@ pub fn hints(a: &Analysis, src: &str, range: std::ops::Range<usize>, method: &Me
             }
         }
     }
-    out.extend(unused_sources(a, src, range));
+    out.extend(unused_sources(a, src, range.clone()));
+    out.extend(silenced_refusals(a, range));
     out.sort_by_key(|h| h.offset);
     out
+}
+
+/// "not used (silenced)" after each declaration refused by a rule whose finding is silenced:
+/// with no diagnostic, the editor would otherwise show the value as if it were used.
+fn silenced_refusals(a: &Analysis, range: std::ops::Range<usize>) -> Vec<Hint> {
+    a.unused
+        .iter()
+        .filter(|u| u.silenced)
+        .filter_map(|u| {
+            let offset = u.span.end as usize;
+            (range.contains(&offset) || offset == range.end).then(|| Hint {
+                offset,
+                label: format!("not used: [{}] (silenced)", u.rule.unwrap_or("?")),
+                detail: format!(
+                    "{}\nthis declaration is refused; its finding is silenced, so no diagnostic shows it",
+                    u.why
+                ),
+            })
+        })
+        .collect()
 }
 
 /// "not used: ..." after each declaration of a quantity declared several times whose value
@@ -239,6 +261,21 @@ mod tests {
         assert!(tagged.iter().all(|x| x.detail.ends_with(&m.line)));
         let tb = tagged.iter().find(|x| x.offset == b).unwrap();
         assert_eq!(tb.label, format!("{} (first-order)", hb.label));
+    }
+
+    #[test]
+    fn a_declaration_refused_by_a_silenced_rule_says_it_is_not_used() {
+        let src = "system \"S\" {\n  star s {\n    mass = 1 ± 0.05 Msun\n    radius = -2 Rsun # allow(out-of-range): checking\n  }\n}\n";
+        let a = crate::analyze(FileId(0), src, &crate::Settings::linear());
+        assert!(a.diagnostics.is_empty(), "{:?}", a.diagnostics);
+        let h = hints(&a, src, 0..src.len(), &Method::default());
+        let end = src.find("-2 Rsun").unwrap() + "-2 Rsun".len();
+        let x = h
+            .iter()
+            .find(|x| x.offset == end)
+            .expect("hint after radius");
+        assert_eq!(x.label, "not used: [out-of-range] (silenced)");
+        assert!(x.detail.contains("greater than 0"), "{}", x.detail);
     }
 
     #[test]
