@@ -174,7 +174,8 @@ fn source_fields(out: &mut String) {
     for (i, (name, ucd, what)) in SOURCE_FIELDS.iter().enumerate() {
         out.push_str("   <FIELD");
         attr(out, "name", name);
-        if i == 0 || !table::SourceRow::numeric(i - 1) {
+        // SOURCE_FIELDS and SOURCE_COLUMNS both start with the file's column.
+        if !table::SourceRow::numeric(i) {
             out.push_str(" datatype=\"unicodeChar\" arraysize=\"*\"");
         } else {
             out.push_str(" datatype=\"double\"");

@@ -36,6 +36,8 @@ pub struct Unused {
     pub why: String,
     /// Whether that rule's finding is silenced in this analysis (so it is not reported).
     pub silenced: bool,
+    /// Where that finding is: the declaration, or the binding its value uses.
+    pub why_at: Span,
 }
 
 /// The longest declaration text kept, in characters.
@@ -81,6 +83,7 @@ pub fn collect(
                     rule,
                     why,
                     silenced: false,
+                    why_at: b.span,
                 });
                 continue;
             };
@@ -106,7 +109,16 @@ pub fn collect(
                 if kept && valued() {
                     continue;
                 }
-                let (rule, why) = reasons.of(p.span);
+                let (mut rule, mut why) = reasons.of(p.span);
+                let mut why_at = p.span;
+                if rule.is_none() {
+                    // Nothing said on the line itself: a binding it uses has no value.
+                    if let Some((name, at)) = failed_binding(p, b, s, &reasons) {
+                        (rule, why) = reasons.of(at);
+                        why = format!("it uses `{name}`, which has no value: {why}");
+                        why_at = at;
+                    }
+                }
                 out.push(Unused {
                     system: si,
                     body: Some(bi),
@@ -117,11 +129,48 @@ pub fn collect(
                     rule,
                     why,
                     silenced: false,
+                    why_at,
                 });
             }
         }
     }
     out
+}
+
+/// The first binding (`let`, of the body or the system) that the value of `p` names and that
+/// a diagnostic says has no value: its name and the span of its declaration.
+fn failed_binding<'a>(
+    p: &'a ast::Prop,
+    body: &'a ast::BodyDecl,
+    sys: &'a ast::SystemDecl,
+    reasons: &Reasons,
+) -> Option<(&'a str, Span)> {
+    let ast::PropValue::Expr(e) = &p.value else {
+        return None;
+    };
+    let mut names = Vec::new();
+    let mut stack = vec![e];
+    // Bounded by the expression's size; the parser bounds its depth.
+    while let Some(x) = stack.pop() {
+        match &x.kind {
+            ast::ExprKind::Name(id) => names.push(id.name.as_str()),
+            ast::ExprKind::Neg(a) => stack.push(a),
+            ast::ExprKind::Binary(_, a, b) | ast::ExprKind::Pow(a, b) => {
+                stack.push(a);
+                stack.push(b);
+            }
+            ast::ExprKind::Call(_, args) => stack.extend(args.iter()),
+            _ => {}
+        }
+    }
+    names.into_iter().find_map(|name| {
+        let l = body
+            .lets
+            .iter()
+            .chain(&sys.lets)
+            .find(|l| l.name.name == name)?;
+        reasons.of(l.span).0.map(|_| (name, l.span))
+    })
 }
 
 /// Mark those of `unused` whose finding is not among `shown` (the diagnostics after
@@ -136,13 +185,14 @@ pub fn mark_silenced(unused: &mut [Unused], shown: &[Diagnostic]) {
         .collect();
     places.sort_unstable();
     for u in unused {
-        let from = places.partition_point(|p| p.0 < u.span.start);
+        let at = u.why_at;
+        let from = places.partition_point(|p| p.0 < at.start);
         let inside = places
             .get(from..)
             .unwrap_or_default()
             .iter()
-            .take_while(|p| p.0 < u.span.end.max(u.span.start + 1))
-            .filter(|p| p.1 <= u.span.end);
+            .take_while(|p| p.0 < at.end.max(at.start + 1))
+            .filter(|p| p.1 <= at.end);
         let mut inside = inside;
         u.silenced = u.rule.is_some_and(|id| !inside.any(|p| p.2 == id));
     }
@@ -288,6 +338,53 @@ system \"Tessaly\" {
         assert!(text
             .contains("not used: `radius = -3 Rsun` (line 5): [out-of-range] the value -3 Rsun"));
         assert_eq!(text.matches("this finding is silenced").count(), 5);
+    }
+
+    #[test]
+    fn a_default_standing_in_for_a_refused_value_says_so() {
+        let src = "system \"T\" {\n star s { mass = 0.9 ± 0.03 Msun }\n planet b orbits s {\n  period = 6.1 ± 0.01 d\n  rv_amplitude = 30 ± 3 m/s\n  eccentricity = 1.5 # allow(out-of-range): testing\n }\n}\n";
+        let a = run(src, &[]);
+        let key = (1, crate::quantities::Qty::Eccentricity);
+        let text = crate::report::explain_text(&a, 0, key).unwrap();
+        assert!(
+            text.starts_with("note: `eccentricity = 1.5` is declared but not used: [out-of-range]"),
+            "{text}"
+        );
+        assert!(text.contains("this finding is silenced"), "{text}");
+        let hover =
+            crate::ide::hover::quantity(&a, 0, "b", key.1, &crate::ide::Method::default()).unwrap();
+        assert!(
+            hover.contains("**not used:** `eccentricity = 1.5`"),
+            "{hover}"
+        );
+    }
+
+    #[test]
+    fn a_value_refused_for_its_binding_names_the_binding_and_its_rule() {
+        let src = "system \"P\" {\n  let bad = 1 / 0\n  star s { mass = 0.9 ± 0.03 Msun }\n  planet b orbits s {\n    period = 6.1 ± 0.01 d\n    albedo = bad\n  }\n}\n";
+        let a = run(src, &[]);
+        let u = a
+            .unused
+            .iter()
+            .find(|u| u.quantity.as_deref() == Some("albedo"))
+            .unwrap();
+        assert_eq!(
+            (u.rule, u.silenced),
+            (Some("invalid-value"), false),
+            "{u:?}"
+        );
+        assert!(
+            u.why.starts_with("it uses `bad`, which has no value: "),
+            "{}",
+            u.why
+        );
+        let a = run(src, &[Rule::InvalidValue]);
+        let u = a
+            .unused
+            .iter()
+            .find(|u| u.quantity.as_deref() == Some("albedo"))
+            .unwrap();
+        assert!(u.silenced, "{u:?}");
     }
 
     #[test]

@@ -169,3 +169,32 @@ fn votable_is_well_formed_with_hostile_text_and_errors() {
         .descendants()
         .any(|n| n.has_tag_name("INFO") && n.attribute("name") == Some("diagnostics")));
 }
+
+/// The table of declared values declares its numeric columns as numbers and its text columns
+/// as text (`value` was declared as text and `text` as a number, one column off).
+#[test]
+fn the_table_of_declared_values_declares_each_column_with_its_type() {
+    let o = run(&[
+        "eval",
+        "--format",
+        "votable",
+        "--table",
+        "sources",
+        "examples/veyra.syz",
+    ]);
+    let doc = stdout(&o);
+    let datatype = |name: &str| -> String {
+        let at = doc
+            .find(&format!("<FIELD name=\"{name}\""))
+            .unwrap_or_else(|| panic!("no FIELD {name}"));
+        let rest = &doc[at..];
+        let start = rest.find("datatype=\"").unwrap() + "datatype=\"".len();
+        rest[start..start + rest[start..].find('"').unwrap()].to_string()
+    };
+    for numeric in ["value", "below", "above", "line"] {
+        assert_eq!(datatype(numeric), "double", "{numeric}");
+    }
+    for text in ["file", "system", "quantity", "text", "unit", "used"] {
+        assert_eq!(datatype(text), "unicodeChar", "{text}");
+    }
+}

@@ -355,11 +355,21 @@ impl<'m> Derivation<'m> {
             };
             Some((*m, format!("{value}{unit} {cites}{assumed}")))
         };
-        // Epochs compare modulo the period (the first declared measurement of it).
-        let period = body.get(Qty::Period).and_then(|d| match &d.content {
-            Content::Measured(p) => Some(*p),
-            _ => None,
-        });
+        // Epochs compare modulo the period: its first measurement that is not assumed, else
+        // its first measurement (a limit carries nothing).
+        let periods: Vec<(model::Measurement, bool)> = body
+            .sources(Qty::Period)
+            .iter()
+            .filter_map(|d| match &d.content {
+                Content::Measured(p) if !p.form.is_limit() => Some((*p, d.assumed)),
+                _ => None,
+            })
+            .collect();
+        let period = periods
+            .iter()
+            .find(|p| !p.1)
+            .or(periods.first())
+            .map(|p| p.0);
         let in_use = |i: usize| {
             if used == Some(i) {
                 " (the value used)"
@@ -389,7 +399,8 @@ impl<'m> Derivation<'m> {
             for i in earlier_ones {
                 let Some(earlier) = all.get(i) else { continue };
                 let Some(a) = measured(earlier) else { continue };
-                let (carried, orbits) = if later.qty == Qty::TransitEpoch {
+                let limit = a.form.is_limit() || b.form.is_limit();
+                let (carried, orbits) = if later.qty == Qty::TransitEpoch && !limit {
                     sources::epoch_aligned(&a, &b, period.as_ref())
                 } else {
                     (b, 0)

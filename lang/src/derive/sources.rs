@@ -71,6 +71,9 @@ pub struct Chosen {
     pub choice: Choice,
     /// For a weighted mean: what was combined and how.
     pub mean: Option<WeightedMean>,
+    /// Why the source used could not be ranked by precision, when it could not (in the words
+    /// of the choice's sentence).
+    pub unranked: Option<&'static str>,
 }
 
 /// An inverse-variance weighted mean and its Birge ratio.
@@ -91,6 +94,12 @@ pub struct WeightedMean {
 /// `sources-disagree` (the value used first): a bound that keeps a quantity with thousands
 /// of sources linear in their number.
 pub const COMPARED_SOURCES: usize = 256;
+
+/// Whether a source takes part in a weighted mean (and is ranked by precision): a
+/// measurement, not a limit, with an uncertainty, not marked `assumed`.
+pub fn ranked(m: &Measurement, assumed: bool) -> bool {
+    !m.form.is_limit() && !assumed && standard(m) > 0.0
+}
 
 /// The standard uncertainty of a measurement: the mean of its two sides.
 pub fn standard(m: &Measurement) -> f64 {
@@ -152,6 +161,7 @@ pub fn choose(
             index: Some(i),
             choice,
             mean: None,
+            unranked: None,
         })
     };
     if let Some(i) = marked {
@@ -160,25 +170,47 @@ pub fn choose(
     let measured: Vec<usize> = (0..sources.len())
         .filter(|&i| sources.get(i).is_some_and(|m| !m.form.is_limit()))
         .collect();
-    // The measurements that can be ranked, else those not assumed, else any.
-    let ranked: Vec<usize> = measured
-        .iter()
-        .copied()
-        .filter(|&i| {
-            !assumed.get(i).copied().unwrap_or(false)
-                && sources.get(i).is_some_and(|m| standard(m) > 0.0)
-        })
-        .collect();
-    let not_assumed: Vec<usize> = measured
-        .iter()
-        .copied()
-        .filter(|&i| !assumed.get(i).copied().unwrap_or(false))
-        .collect();
-    let candidates = [&ranked, &not_assumed, &measured]
+    // The measurements that can be ranked (not assumed, with an uncertainty), else those
+    // not assumed (none with an uncertainty), else assumed ones with an uncertainty, else any.
+    let is_assumed = |i: usize| assumed.get(i).copied().unwrap_or(false);
+    let has_spread = |i: usize| sources.get(i).is_some_and(|m| standard(m) > 0.0);
+    let tiers: [(Vec<usize>, Option<&'static str>); 4] = [
+        (
+            measured
+                .iter()
+                .copied()
+                .filter(|&i| !is_assumed(i) && has_spread(i))
+                .collect(),
+            None,
+        ),
+        (
+            measured
+                .iter()
+                .copied()
+                .filter(|&i| !is_assumed(i))
+                .collect(),
+            Some("the first measurement listed that is not assumed, as none states an uncertainty"),
+        ),
+        (
+            measured
+                .iter()
+                .copied()
+                .filter(|&i| has_spread(i))
+                .collect(),
+            None,
+        ),
+        (
+            measured.clone(),
+            Some("the first listed, as every source is assumed and none states an uncertainty"),
+        ),
+    ];
+    let (candidates, unranked) = tiers
         .into_iter()
-        .find(|c| !c.is_empty())
-        .cloned()
+        .find(|c| !c.0.is_empty())
         .unwrap_or_default();
+    let ranked: Vec<usize> = (0..sources.len())
+        .filter(|&i| sources.get(i).is_some_and(|m| ranked(m, is_assumed(i))))
+        .collect();
     let most_precise = || {
         candidates
             .iter()
@@ -188,6 +220,7 @@ pub fn choose(
                 s(a).total_cmp(&s(b))
             })
             .and_then(|i| pick(i, Choice::MostPrecise))
+            .map(|c| Chosen { unranked, ..c })
     };
     if measured.is_empty() {
         return most_constraining(sources).and_then(|i| pick(i, Choice::MostPrecise));
@@ -212,6 +245,7 @@ pub fn choose(
                     index: None,
                     choice: Choice::WeightedMean,
                     mean: Some(w),
+                    unranked: None,
                 }),
                 None => most_precise(),
             }
@@ -307,8 +341,9 @@ pub fn words(
         (_, Some(i), _) if chosen.measurement.form.is_limit() => {
             format!("chosen: the most constraining limit ({})", source(i))
         }
-        (_, Some(i), _) if standard(&chosen.measurement) == 0.0 => format!(
-            "chosen: the first listed, since no source states an uncertainty ({})",
+        (_, Some(i), _) if chosen.unranked.is_some() => format!(
+            "chosen: {} ({})",
+            chosen.unranked.unwrap_or_default(),
             source(i)
         ),
         (_, Some(i), _) => format!(
@@ -584,8 +619,41 @@ mod tests {
         ];
         let c = choose(&s, &[], None, SourceChoice::MostPrecise).unwrap();
         assert_eq!(c.index, Some(0));
-        assert!(words("s.radius", &[vec![], vec![]], &[], &c)
-            .contains("the first listed, since no source states an uncertainty"));
+        assert!(words("s.radius", &[vec![], vec![]], &[], &c).contains(
+            "the first measurement listed that is not assumed, as none states an uncertainty"
+        ));
+        // An assumption with an uncertainty and one without: the one with it, as the most
+        // precise; a measurement without one beats an assumption with one, and says why.
+        let s = [
+            m(0.3, 0.1),
+            Measurement {
+                value: 0.32,
+                ..exact
+            },
+        ];
+        let c = choose(&s, &[true, true], None, SourceChoice::MostPrecise).unwrap();
+        assert_eq!((c.index, c.unranked), (Some(0), None));
+        let s = [
+            m(5.0, 0.01),
+            Measurement {
+                value: 5.1,
+                ..exact
+            },
+        ];
+        let c = choose(&s, &[true, false], None, SourceChoice::MostPrecise).unwrap();
+        assert_eq!(c.index, Some(1));
+        assert!(words("b.period", &[vec![], vec![]], &[], &c).contains("not assumed"));
+        // Only assumptions without uncertainty: the first, said so.
+        let s = [
+            exact,
+            Measurement {
+                value: 1.0,
+                ..exact
+            },
+        ];
+        let c = choose(&s, &[true, true], None, SourceChoice::MostPrecise).unwrap();
+        assert_eq!(c.index, Some(0));
+        assert!(words("s.radius", &[vec![], vec![]], &[], &c).contains("every source is assumed"));
     }
 
     #[test]

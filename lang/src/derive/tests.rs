@@ -1388,4 +1388,14 @@ fn epochs_compare_modulo_the_period_and_assumed_sources_say_so() {
         epoch.contains("after carrying the second by -10 orbits"),
         "{epoch}"
     );
+    // A limit declared first on the period carries nothing: the measurement does.
+    let limited = src("2461007.4").replace(
+        "  period = 7.3 ± 0.0001 d [a]\n",
+        "  period < 10 d [b]\n  period = 7.3 ± 0.0001 d [a]\n",
+    );
+    let found = disagreeing(&run(&limited, &Options::linear()));
+    assert!(
+        found.iter().all(|m| !m.contains("transit_epoch")),
+        "{found:?}"
+    );
 }

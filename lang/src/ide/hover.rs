@@ -168,6 +168,9 @@ pub fn quantity(a: &Analysis, si: usize, body: &str, qty: Qty, method: &Method) 
         crate::report::value_text(q),
         q.origin.as_str()
     ));
+    for line in crate::report::refused_text(a, si, bi, qty) {
+        out.push_str(&format!("**not used:** {line}\n\n"));
+    }
     let alternative = a.results.get(si).and_then(|r| r.alternative((bi, qty)));
     if propagated(q) || alternative.is_some() {
         if let Some(note) = method.estimate_note() {

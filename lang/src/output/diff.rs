@@ -146,6 +146,20 @@ pub fn snapshot(a: &Analysis, file: &str) -> Vec<SystemSnapshot> {
             None => outside.push(snap),
         }
     }
+    // A declaration refused by a silenced rule has no diagnostic: it is compared as one, so
+    // that a version adding such a line (or fixing one) does not compare as unchanged.
+    for u in a.unused.iter().filter(|u| u.silenced) {
+        if let Some(s) = out.get_mut(u.system) {
+            s.diagnostics.push(DiagnosticSnapshot {
+                severity: Severity::Note,
+                rule: u.rule.unwrap_or("not-used"),
+                message: format!(
+                    "`{}` of {} is not used (its finding is silenced): {}",
+                    u.text, u.body_id, u.why
+                ),
+            });
+        }
+    }
     if !outside.is_empty() {
         out.push(SystemSnapshot {
             name: None,
@@ -632,7 +646,10 @@ fn value_change(
     if o.value.is_finite() && n.value.is_finite() && o.form.is_limit() == n.form.is_limit() {
         let factor = shown.factor;
         change.difference = Some((n.value - o.value) / factor);
-        change.shift = if o.form.is_limit() && !same_number(o.value, n.value) {
+        // A limit measures no move in sigma; nor does one that changed direction.
+        change.shift = if (o.form.is_limit() && !same_number(o.value, n.value))
+            || o.form != n.form && o.form.is_limit()
+        {
             None
         } else {
             shift(numbers(o), numbers(n))
@@ -640,10 +657,8 @@ fn value_change(
         let sigma = combined_sigma(numbers(o), numbers(n));
         change.sigma = (sigma > 0.0).then_some(sigma / factor);
     }
-    let derived_limits = o.form.is_limit()
-        && n.form.is_limit()
-        && o.origin == Origin::Derived
-        && n.origin == Origin::Derived;
+    let derived_limits =
+        o.form.is_limit() && n.form == o.form && o.origin.is_computed() && n.origin.is_computed();
     change.significant = match change.shift {
         Some(s) => s.abs() >= options.threshold,
         // A derived limit has no uncertainty to measure its move by: it counts when it

@@ -34,6 +34,7 @@ fn quantity_json<'a>(
                 citations: &s.citations,
                 line: places.of(s.span.in_file(system_span)).1.line,
                 chosen: s.chosen,
+                assumed: s.assumed,
             }
         })
         .collect();
@@ -206,7 +207,7 @@ fn value_text_in(q: &QuantityResult, unit: DisplayUnit, flux: DisplayUnit) -> St
         );
     }
     // A derived limit has no uncertainty to set its digits: three significant ones.
-    let derived_limit = q.origin == Origin::Derived && q.form.is_limit();
+    let derived_limit = q.origin.is_computed() && q.form.is_limit();
     let show = |unit: DisplayUnit| {
         if derived_limit {
             let v = format!("{:.2e}", unit.of(q.value))
@@ -768,10 +769,49 @@ pub fn precision_text(q: &QuantityResult) -> Option<String> {
 /// The derivation tree of one quantity down to the declared measurements, then its error
 /// budget: each independent input's share of the variance (first order), and how precisely
 /// Monte Carlo fixed it.
+/// The declarations of `qty` of body `bi` that could not be used, one sentence each (empty
+/// when none): shown wherever the value in use (a default, another source) stands in for them.
+pub fn refused_text(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Vec<String> {
+    let Some(kind) = a
+        .model
+        .systems
+        .get(si)
+        .and_then(|s| s.bodies.get(bi))
+        .map(|b| b.kind)
+    else {
+        return Vec::new();
+    };
+    a.unused
+        .iter()
+        .filter(|u| u.system == si && u.body == Some(bi))
+        .filter(|u| {
+            u.quantity
+                .as_deref()
+                .and_then(|n| quantities::find(kind, n))
+                .is_some_and(|d| d.qty == qty)
+        })
+        .map(|u| {
+            let rule = u.rule.map(|r| format!("[{r}] ")).unwrap_or_default();
+            let silenced = if u.silenced {
+                "; this finding is silenced"
+            } else {
+                ""
+            };
+            format!(
+                "`{}` is declared but not used: {rule}{}{silenced}",
+                u.text, u.why
+            )
+        })
+        .collect()
+}
+
 pub fn explain_text(a: &Analysis, si: usize, key: crate::derive::Key) -> Option<String> {
     let res = a.results.get(si)?;
     let q = res.bodies.get(key.0)?.get(key.1)?;
     let mut out = String::new();
+    for line in refused_text(a, si, key.0, key.1) {
+        out.push_str(&format!("note: {line}\n\n"));
+    }
     let mut seen = Vec::new();
     explain_node(a, si, key, "", "", &mut out, &mut seen);
     if !q.budget.is_empty() {

@@ -624,7 +624,18 @@ pub fn source_rows<'a>(a: &'a Analysis, line: &dyn Fn(u32) -> usize) -> Vec<Sour
                         references: described(&a.model, &s.citations),
                         line: line(s.span.in_file(sys.span).start),
                         used: if combined {
-                            "combined"
+                            let m = crate::model::Measurement {
+                                value: s.value,
+                                below: s.below,
+                                above: s.above,
+                                form: s.form,
+                            };
+                            // Only what the mean averaged; the rest were left out of it.
+                            if crate::derive::sources::ranked(&m, s.assumed) {
+                                "combined"
+                            } else {
+                                "no"
+                            }
                         } else if s.chosen {
                             "yes"
                         } else {

@@ -25,7 +25,7 @@ struct Capped<R> {
     at_line_start: bool,
     in_comment: bool,
     /// Each line read but not yet passed: where it starts (the byte after the line break
-    /// before it) and whether it is a comment, so that a record's byte offset gives its line
+    /// before it) and whether it is a comment or empty (no record starts there), so that a record's byte offset gives its line
     /// whatever the file's line breaks (the `csv` crate's own count is one short on `\r\n`
     /// files and stays at 1 on `\r` ones). The first is the line the last record was found
     /// on.
@@ -92,7 +92,13 @@ impl<R> Capped<R> {
     fn note(&mut self, c: u8) {
         self.offset += 1;
         match c {
-            b'\n' => self.lines.push_back((self.offset, false)),
+            b'\n' => {
+                // An empty line holds no record either: passed over like a comment.
+                if let Some(l) = self.lines.back_mut().filter(|l| l.0 + 1 == self.offset) {
+                    l.1 = true;
+                }
+                self.lines.push_back((self.offset, false));
+            }
             b'#' if self.lines.back().is_some_and(|l| l.0 + 1 == self.offset) => {
                 if let Some(l) = self.lines.back_mut() {
                     l.1 = true;

@@ -668,6 +668,15 @@ fn a_second_votable_table_is_refused() {
         "</TABLE><TABLE name=\"references\"><FIELD name=\"id\" ucd=\"meta.id\"/><FIELD name=\"text\" ucd=\"meta.bib\"/><DATA><TABLEDATA><TR><TD>a</TD><TD>Pell 2031</TD></TR></TABLEDATA></DATA></TABLE></RESOURCE></VOTABLE>",
     );
     assert_eq!(vot(&refs, Limits::default()).unwrap().len(), 2);
+    // A second table of rows without FIELDs is not passed over: its columns are unknown.
+    let bare = VOT.replace(
+        "</TABLE></RESOURCE></VOTABLE>",
+        "</TABLE><TABLE name=\"bare\"><DATA><TABLEDATA><TR><TD>Oxbrin</TD></TR></TABLEDATA></DATA></TABLE></RESOURCE></VOTABLE>",
+    );
+    assert!(vot(&bare, Limits::default())
+        .unwrap_err()
+        .message
+        .contains("second TABLE `bare`"));
 }
 
 #[test]
@@ -767,10 +776,11 @@ fn a_utf16_table_is_named_as_such() {
 }
 
 /// A row's line is the same whatever the file's line breaks: `\n`, `\r\n` (the usual
-/// spreadsheet export) or a lone `\r`, also after a comment and a cell spanning lines.
+/// spreadsheet export) or a lone `\r`, also after a comment, a cell spanning lines and an
+/// empty line.
 #[test]
 fn csv_lines_are_counted_for_every_line_break() {
-    let lf = "sys,pl,note\n# a comment\nQuorlin,b,\"two\nlines\"\nVessa,c,x\n";
+    let lf = "sys,pl,note\n# a comment\nQuorlin,b,\"two\nlines\"\n\nVessa,c,x\n";
     for (name, text) in [
         ("LF", lf.to_string()),
         ("CRLF", lf.replace('\n', "\r\n")),
@@ -783,7 +793,7 @@ fn csv_lines_are_counted_for_every_line_break() {
         }
         assert_eq!(
             lines,
-            [("Quorlin".to_string(), 3), ("Vessa".to_string(), 5)],
+            [("Quorlin".to_string(), 3), ("Vessa".to_string(), 6)],
             "{name}"
         );
     }

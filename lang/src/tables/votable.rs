@@ -155,6 +155,7 @@ impl<R: BufRead> VoTable<R> {
         self.done = true;
         let mut table: Option<String> = None;
         let mut values = false;
+        let mut fields = 0usize;
         loop {
             let (ev, name, attrs) = self.event()?;
             let get = |k: &str| attrs.iter().find(|(n, _)| n == k).map(|(_, v)| v.clone());
@@ -162,13 +163,16 @@ impl<R: BufRead> VoTable<R> {
                 (Kind::Start | Kind::Empty, "TABLE") => {
                     table = Some(get("name").or_else(|| get("ID")).unwrap_or_default());
                     values = false;
+                    fields = 0;
                 }
                 (Kind::Start | Kind::Empty, "FIELD") if table.is_some() => {
+                    fields += 1;
                     values |= !get("ucd").is_some_and(|u| u.trim().starts_with("meta."));
                 }
                 (Kind::Start | Kind::Empty, "DATA") | (Kind::End, "TABLE") if table.is_some() => {
                     let called = table.take().filter(|n| !n.is_empty());
-                    if values {
+                    // Data under no FIELD at all is rows of unknown columns, not passed over.
+                    if values || (fields == 0 && name == "DATA") {
                         let called = called.map(|n| format!(" `{n}`")).unwrap_or_default();
                         return Err(self.error(format!(
                             "the file holds a second TABLE{called}; one table is read per file, so its rows would be left out: write each TABLE to a file of its own and import them together"

@@ -250,6 +250,21 @@ fn a_derived_limit_counts_when_its_shown_value_moves() {
         limit(Origin::Declared, 0.002_100_000_5, "> 0.0021 au"),
     );
     assert!(declared.significant());
+    // A limit that changed direction at the same number moved, whatever the digits.
+    let flipped = run(
+        limit(Origin::Derived, 774.0, "> 774 K"),
+        ValueSnapshot {
+            form: Form::UpperLimit,
+            ..limit(Origin::Derived, 774.0, "< 774 K")
+        },
+    );
+    assert!(flipped.significant(), "{flipped:?}");
+    // A predicted limit is judged as a derived one.
+    let predicted = run(
+        limit(Origin::Predicted, 3.713_37, "< 3.71 Rearth"),
+        limit(Origin::Predicted, 3.713_38, "< 3.71 Rearth"),
+    );
+    assert!(!predicted.significant(), "{predicted:?}");
 }
 
 /// A declared value whose number stayed but whose citation or origin changed says what
@@ -277,5 +292,38 @@ fn a_citation_or_origin_change_is_named() {
     assert!(
         notes.contains(&"origin changed: declared → assumed".to_string()),
         "{notes:?}"
+    );
+}
+
+/// A line added with a value refused by a silenced rule is a change (it had no diagnostic
+/// to compare, and the comparison found nothing).
+#[test]
+fn a_new_refused_declaration_with_its_finding_silenced_is_a_change() {
+    let base = "system \"T\" {\n star s { mass = 0.9 ± 0.03 Msun }\n planet b orbits s {\n  period = 6.1 ± 0.01 d\n";
+    let old = format!("{base} }}\n}}\n");
+    let new = format!("{base}  eccentricity = 1.5 # allow(out-of-range): kept\n }}\n}}\n");
+    let settings = crate::Settings::linear();
+    let snap = |src: &str| {
+        let a = crate::analyze(crate::source::FileId(0), src, &settings);
+        snapshot(&a, "t.syz")
+    };
+    let diff = compare(
+        &snap(&old),
+        &snap(&new),
+        DiffOptions {
+            threshold: 1.0,
+            all: false,
+        },
+    );
+    assert!(diff.significant(), "{diff:?}");
+    let change = &diff.systems[0].changes[0];
+    assert_eq!(change.kind, ChangeKind::DiagnosticAdded);
+    assert!(
+        change
+            .new
+            .as_deref()
+            .unwrap()
+            .contains("`eccentricity = 1.5` of b is not used"),
+        "{change:?}"
     );
 }

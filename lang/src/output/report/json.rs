@@ -264,6 +264,9 @@ pub struct Source<'a> {
     pub line: u32,
     /// Whether this declaration is the value used (false for all when they were combined).
     pub chosen: bool,
+    /// Whether this declaration is marked `assumed` (left out when not).
+    #[serde(skip_serializing_if = "std::ops::Not::not")]
+    pub assumed: bool,
 }
 
 /// A number with its uncertainties, in the display unit and in SI.
