@@ -87,6 +87,14 @@ impl Analysis {
         format!("{b}.{}", quantities::def(k.1).name)
     }
 
+    /// The declarations of system `si` that could not be used ([`unused`] lists them in
+    /// system order), found without a scan of the others.
+    pub fn unused_in(&self, si: usize) -> &[unused::Unused] {
+        let from = self.unused.partition_point(|u| u.system < si);
+        let to = self.unused.partition_point(|u| u.system <= si);
+        self.unused.get(from..to).unwrap_or_default()
+    }
+
     pub fn has_errors(&self) -> bool {
         self.diagnostics
             .iter()

@@ -141,9 +141,8 @@ pub fn systems_json<'a>(a: &'a Analysis, db: &'a dyn SourceDb) -> Vec<json::Syst
                 })
                 .collect(),
             not_used: a
-                .unused
+                .unused_in(si)
                 .iter()
-                .filter(|u| u.system == si)
                 .map(|u| json::NotUsed {
                     body: &u.body_id,
                     quantity: u.quantity.as_deref(),
@@ -367,6 +366,18 @@ pub fn eval_text(a: &Analysis, db: &dyn SourceDb) -> String {
             .flat_map(|b| &b.quantities),
     );
     for (si, (sys, res)) in a.model.systems.iter().zip(&a.results).enumerate() {
+        // Each body's declarations not used, in one pass over the system's.
+        let unused = a.unused_in(si);
+        let mut by_body: Vec<Vec<&crate::unused::Unused>> = if unused.is_empty() {
+            Vec::new()
+        } else {
+            vec![Vec::new(); sys.bodies.len()]
+        };
+        for u in unused {
+            if let Some(list) = u.body.and_then(|b| by_body.get_mut(b)) {
+                list.push(u);
+            }
+        }
         out.push_str(&format!("system \"{}\"  ({})\n", sys.name, db.name(a.file)));
         for (bi, (b, r)) in sys.bodies.iter().zip(&res.bodies).enumerate() {
             match b.orbits.and_then(|h| sys.bodies.get(h)) {
@@ -442,18 +453,11 @@ pub fn eval_text(a: &Analysis, db: &dyn SourceDb) -> String {
             if let Some(line) = precision_line(&r.quantities) {
                 out.push_str(&format!("    {line}\n"));
             }
-            let unused = a
-                .unused
-                .iter()
-                .filter(|u| u.system == si && u.body == Some(bi));
-            for line in unused.map(|u| not_used_line(u, &places)) {
-                out.push_str(&format!("    {line}\n"));
+            for u in by_body.get(bi).into_iter().flatten() {
+                out.push_str(&format!("    {}\n", not_used_line(u, &places)));
             }
         }
-        let whole = a
-            .unused
-            .iter()
-            .filter(|u| u.system == si && u.body.is_none());
+        let whole = a.unused_in(si).iter().filter(|u| u.body.is_none());
         for line in whole.map(|u| not_used_line(u, &places)) {
             out.push_str(&format!("  {line}\n"));
         }
@@ -814,6 +818,13 @@ pub fn explain_text(a: &Analysis, si: usize, key: crate::derive::Key) -> Option<
     }
     let mut seen = Vec::new();
     explain_node(a, si, key, "", "", &mut out, &mut seen);
+    let sources = sources_text(q);
+    if !sources.is_empty() {
+        out.push_str(&format!("\n{} sources, in file order:\n", sources.len()));
+        for s in sources {
+            out.push_str(&format!("  - {s}\n"));
+        }
+    }
     if !q.budget.is_empty() {
         out.push_str("\nerror budget (share of the variance, first order):\n");
         let width = q.budget.iter().map(|b| b.0.len()).max().unwrap_or(0);
@@ -906,6 +917,17 @@ mod tests {
     fn explain(qty: Qty) -> String {
         let a = crate::analyze(FileId(0), SRC, &crate::Settings::linear());
         explain_text(&a, 0, (1, qty)).unwrap()
+    }
+
+    #[test]
+    fn explain_lists_every_source_of_a_value() {
+        let src = "ref a \"Invented A\"\nref b \"Invented B\"\nsystem \"S\" {\n star s { mass = 1 ± 0.05 Msun }\n planet b orbits s {\n  period = 3 ± 0.01 d [a]\n  period = 3.002 ± 0.001 d [b]\n }\n}\n";
+        let a = crate::analyze(FileId(0), src, &crate::Settings::linear());
+        let text = explain_text(&a, 0, (1, Qty::Period)).unwrap();
+        assert!(
+            text.contains("2 sources, in file order:\n  - 3.000 ± 0.010 d [a]\n  - 3.0020 ± 0.0010 d [b] (used)\n"),
+            "{text}"
+        );
     }
 
     #[test]
