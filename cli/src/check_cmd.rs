@@ -57,6 +57,12 @@ pub fn run(
                 CheckFormat::Sarif => {
                     let places = syzygy::source::Places::new(db, a.file);
                     sarif = shown.iter().map(|d| sarif::result(d, &places)).collect();
+                    sarif.extend(
+                        a.unused
+                            .iter()
+                            .filter(|u| u.silenced)
+                            .filter_map(|u| sarif::suppressed(u, &places)),
+                    );
                 }
             }
             let silenced = a.unused.iter().filter(|u| u.silenced).count();

@@ -140,6 +140,16 @@ pub struct SarifResult {
     related_locations: Vec<Location>,
     #[serde(skip_serializing_if = "Option::is_none")]
     properties: Option<Properties>,
+    /// For a finding that is silenced (SARIF 2.1.0 §3.27.23): how.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    suppressions: Option<[Suppression; 1]>,
+}
+
+/// A suppression (§3.35): `inSource` for a silencing comment, `external` for `--allow` or
+/// the project file.
+#[derive(Debug, Serialize)]
+struct Suppression {
+    kind: &'static str,
 }
 
 #[derive(Debug, Serialize)]
@@ -277,7 +287,30 @@ pub fn result(d: &Diagnostic, places: &Places) -> SarifResult {
         }],
         related_locations,
         properties,
+        suppressions: None,
     }
+}
+
+/// A declaration refused by a rule whose finding is silenced, as a suppressed result: a
+/// code-scanning tool lists it as suppressed instead of the value vanishing from the log.
+pub fn suppressed(u: &syzygy::unused::Unused, places: &Places) -> Option<SarifResult> {
+    let rule = Rule::ALL.iter().copied().find(|r| Some(r.id()) == u.rule)?;
+    Some(SarifResult {
+        rule_id: rule,
+        rule_index: Rule::ALL.iter().position(|r| *r == rule).unwrap_or(0),
+        level: level(rule.default_severity()),
+        message: Message::plain(format!("`{}` is not used: {}", u.text, u.why)),
+        locations: [Location {
+            id: None,
+            physical_location: physical(places, u.span),
+            message: None,
+        }],
+        related_locations: Vec::new(),
+        properties: None,
+        suppressions: Some([Suppression {
+            kind: if u.in_source { "inSource" } else { "external" },
+        }]),
+    })
 }
 
 fn rules() -> Vec<ReportingDescriptor> {

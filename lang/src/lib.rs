@@ -202,6 +202,7 @@ fn assemble(
     let mut unused = unused::collect(src, &ast, &model, &results, &diagnostics);
     // Comments first: a comment that silences a rule the settings turn off is still used.
     let mut diagnostics = allow::apply_in(src, &region, &ast.comments, diagnostics);
+    unused::mark_in_source(&mut unused, &diagnostics);
     settings.apply_overrides(&mut diagnostics);
     diagnostic::sort_diagnostics(&mut diagnostics);
     unused::mark_silenced(&mut unused, &diagnostics);

@@ -36,6 +36,8 @@ pub struct Unused {
     pub why: String,
     /// Whether that rule's finding is silenced in this analysis (so it is not reported).
     pub silenced: bool,
+    /// Whether a silencing comment in the file did it (else `--allow` or `[rules]`).
+    pub in_source: bool,
     /// Where that finding is: the declaration, or the binding its value uses.
     pub why_at: Span,
 }
@@ -83,6 +85,7 @@ pub fn collect(
                     rule,
                     why,
                     silenced: false,
+                    in_source: false,
                     why_at: b.span,
                 });
                 continue;
@@ -129,6 +132,7 @@ pub fn collect(
                     rule,
                     why,
                     silenced: false,
+                    in_source: false,
                     why_at,
                 });
             }
@@ -176,6 +180,17 @@ fn failed_binding<'a>(
 /// Mark those of `unused` whose finding is not among `shown` (the diagnostics after
 /// silencing and severity overrides) as silenced.
 pub fn mark_silenced(unused: &mut [Unused], shown: &[Diagnostic]) {
+    missing_from(unused, shown, |u, missing| u.silenced = missing);
+}
+
+/// Mark those of `unused` whose finding is not among `after_comments` (the diagnostics after
+/// the silencing comments, before the settings' overrides) as silenced in the source.
+pub fn mark_in_source(unused: &mut [Unused], after_comments: &[Diagnostic]) {
+    missing_from(unused, after_comments, |u, missing| u.in_source = missing);
+}
+
+/// Call `set` with each of `unused` and whether its finding is missing from `diags`.
+fn missing_from(unused: &mut [Unused], shown: &[Diagnostic], set: impl Fn(&mut Unused, bool)) {
     if unused.is_empty() {
         return;
     }
@@ -194,7 +209,8 @@ pub fn mark_silenced(unused: &mut [Unused], shown: &[Diagnostic]) {
             .take_while(|p| p.0 < at.end.max(at.start + 1))
             .filter(|p| p.1 <= at.end);
         let mut inside = inside;
-        u.silenced = u.rule.is_some_and(|id| !inside.any(|p| p.2 == id));
+        let missing = u.rule.is_some_and(|id| !inside.any(|p| p.2 == id));
+        set(u, missing);
     }
 }
 

@@ -184,3 +184,41 @@ fn the_schema_check_rejects_broken_logs() {
         );
     }
 }
+
+/// A declaration refused by a silenced rule is a suppressed result (§3.27.23), `inSource`
+/// for a silencing comment and `external` for `--allow`, and the log stays valid; the check
+/// still passes (invented system).
+#[test]
+fn silenced_refusals_are_suppressed_results() {
+    let dir = syzygy_e2e::scratch("sarif-suppressed");
+    let file = dir.join("tessaly.syz");
+    std::fs::write(
+        &file,
+        "system \"Tessaly\" {\n  star tess { mass = 0.9 ± 0.03 Msun }\n  planet b orbits tess {\n    period = 7.3 ± 0.01 d\n    eccentricity = 1.3\n    rv_amplitude = 30 ± 3 km # allow(unit-mismatch): kept as published\n  }\n}\n",
+    )
+    .unwrap();
+    let (code, log) = sarif(&["--allow", "out-of-range", file.to_str().unwrap()]);
+    assert_eq!(code, Some(0));
+    assert!(violations(&validator(), &log).is_empty(), "{log}");
+    let results = log["runs"][0]["results"].as_array().unwrap();
+    let kinds: Vec<(String, String)> = results
+        .iter()
+        .map(|r| {
+            (
+                r["ruleId"].as_str().unwrap().to_string(),
+                r["suppressions"][0]["kind"].as_str().unwrap().to_string(),
+            )
+        })
+        .collect();
+    assert_eq!(
+        kinds,
+        [
+            ("out-of-range".to_string(), "external".to_string()),
+            ("unit-mismatch".to_string(), "inSource".to_string())
+        ]
+    );
+    assert_eq!(
+        results[0]["locations"][0]["physicalLocation"]["region"]["startLine"],
+        5
+    );
+}
