@@ -613,3 +613,17 @@ fn ratios_and_bracketed_names_get_the_quantity_meant() {
     // Another fraction keeps the generic help.
     assert!(help("x/y = 1").contains("write `x = VALUE UNIT`"));
 }
+
+#[test]
+fn a_mark_written_twice_is_said_and_once_is_taken() {
+    let m = messages("system \"S\" {\n star s {\n  radius = 0.85 ± 0.02 Rsun assumed assumed\n  mass = 1 Msun preferred [a] preferred\n }\n}\n");
+    assert_eq!(
+        m,
+        [
+            "`assumed` is written twice; once is enough",
+            "`preferred` is written twice; once is enough"
+        ]
+    );
+    // Once, before or after the citations, is fine.
+    parse_ok("ref a \"A\"\nsystem \"S\" {\n star s {\n  radius = 0.85 ± 0.02 Rsun assumed [a]\n  mass = 1 Msun [a] preferred\n }\n}\n");
+}

@@ -608,6 +608,9 @@ impl Cursor<'_> {
         };
         while let Some(t) = slice.get(i) {
             match t.kind {
+                // A mark written twice: the full grammar says so.
+                Tok::Assumed if parts.assumed.is_some() => return None,
+                Tok::Preferred if parts.preferred.is_some() => return None,
                 Tok::Assumed => {
                     parts.assumed = Some(sp(t));
                     i += 1;
@@ -1076,33 +1079,43 @@ pub(super) fn value_parser<'a>(src: &'a str, file: FileId) -> ValueParser<'a> {
         .at_least(1)
         .delimited_by(tok(Tok::LBracket), tok(Tok::RBracket));
     enum Trail {
-        Assumed(Span),
-        Preferred(Span),
+        Assumed(Span, Range),
+        Preferred(Span, Range),
         Cites(Vec<Ident>),
     }
     let trail = choice((
-        tok(Tok::Assumed).map_with_span(move |_, r: Range| Trail::Assumed(sp(r))),
-        tok(Tok::Preferred).map_with_span(move |_, r: Range| Trail::Preferred(sp(r))),
+        tok(Tok::Assumed).map_with_span(move |_, r: Range| Trail::Assumed(sp(r.clone()), r)),
+        tok(Tok::Preferred).map_with_span(move |_, r: Range| Trail::Preferred(sp(r.clone()), r)),
         citations.map(Trail::Cites),
     ));
     choice((text, expr.map(PropValue::Expr)))
         .then(trail.repeated())
         .then_ignore(end())
-        .map(|(value, trails)| {
+        .try_map(|(value, trails), _| {
             let mut parts = ValueParts {
                 value,
                 assumed: None,
                 preferred: None,
                 citations: Vec::new(),
             };
+            // A mark written twice is a slip (a pasted tail, say): said, not taken silently.
+            let twice = |word: &str, r: Range| {
+                ParseError::custom(r, &format!("`{word}` is written twice; once is enough"))
+            };
             for t in trails {
                 match t {
-                    Trail::Assumed(s) => parts.assumed = Some(s),
-                    Trail::Preferred(s) => parts.preferred = Some(s),
+                    Trail::Assumed(_, r) if parts.assumed.is_some() => {
+                        return Err(twice("assumed", r))
+                    }
+                    Trail::Preferred(_, r) if parts.preferred.is_some() => {
+                        return Err(twice("preferred", r))
+                    }
+                    Trail::Assumed(s, _) => parts.assumed = Some(s),
+                    Trail::Preferred(s, _) => parts.preferred = Some(s),
                     Trail::Cites(c) => parts.citations.extend(c),
                 }
             }
-            parts
+            Ok(parts)
         })
         .boxed()
 }
