@@ -34,6 +34,15 @@ struct Stored {
     entry: Entry,
     /// The text the entry's spans are in, for positions.
     snap: Arc<Snapshot>,
+    /// For a file read from disk: its modification time and length then, by which a rescan
+    /// knows it unchanged and keeps it without reading it again.
+    stamp: Option<Stamp>,
+}
+
+type Stamp = (std::time::SystemTime, u64);
+
+fn stamp_of(meta: &std::fs::Metadata) -> Option<Stamp> {
+    Some((meta.modified().ok()?, meta.len()))
 }
 
 #[derive(Default)]
@@ -110,6 +119,7 @@ fn from_disk(path: &Path, projects: &Projects) -> Option<Stored> {
         uri,
         entry: Entry::of(&analysis, &settings),
         snap,
+        stamp: stamp_of(&meta),
     })
 }
 
@@ -117,29 +127,63 @@ impl Catalogue {
     /// Read every file of the workspace folders that is not open (blocking: call it off the
     /// request threads). Returns whether files were left out, over [`MAX_FILES`] or
     /// [`MAX_TOTAL_BYTES`].
-    pub fn scan(&self, roots: &[PathBuf], projects: &Projects) -> bool {
+    /// With `reuse`, a file whose modification time and length are those it was read with is
+    /// kept as it is (a stat, not a read and an analysis), so a rescan costs little when
+    /// little changed; without, every file is read again (its project may have changed).
+    pub fn scan(&self, roots: &[PathBuf], projects: &Projects, reuse: bool) -> bool {
         let (paths, over) = files_under(roots);
-        let open = lock(&self.inner).open.clone();
+        let (open, known): (HashSet<PathBuf>, HashMap<PathBuf, Stamp>) = {
+            let inner = lock(&self.inner);
+            let known = inner
+                .files
+                .iter()
+                .filter(|_| reuse)
+                .filter_map(|(p, s)| Some((p.clone(), s.stamp?)))
+                .collect();
+            (inner.open.clone(), known)
+        };
         let mut total = 0u64;
         let mut over = over;
+        let mut kept: Vec<PathBuf> = Vec::new();
         let read: BTreeMap<PathBuf, Stored> = paths
             .into_iter()
             .filter(|p| !open.contains(p))
-            .filter(|p| {
-                total += std::fs::metadata(p).map_or(0, |m| m.len());
+            .filter_map(|p| {
+                let meta = std::fs::metadata(&p).ok();
+                total += meta.as_ref().map_or(0, |m| m.len());
                 over |= total > MAX_TOTAL_BYTES;
-                total <= MAX_TOTAL_BYTES
+                if total > MAX_TOTAL_BYTES {
+                    return None;
+                }
+                let unchanged = meta
+                    .as_ref()
+                    .and_then(stamp_of)
+                    .is_some_and(|s| known.get(&p) == Some(&s));
+                if unchanged {
+                    kept.push(p);
+                    return None;
+                }
+                from_disk(&p, projects).map(|s| (p, s))
             })
-            .filter_map(|p| from_disk(&p, projects).map(|s| (p, s)))
             .collect();
         let mut inner = lock(&self.inner);
-        // Open documents keep the entries of their own analyses.
-        let open: Vec<(PathBuf, Stored)> = std::mem::take(&mut inner.files)
+        let mut before = std::mem::take(&mut inner.files);
+        // Open documents keep the entries of their own analyses; unchanged files theirs.
+        let open: Vec<(PathBuf, Stored)> = before
+            .iter()
+            .filter(|(p, _)| inner.open.contains(*p))
+            .map(|(p, _)| p.clone())
+            .collect::<Vec<_>>()
             .into_iter()
-            .filter(|(p, _)| inner.open.contains(p))
+            .filter_map(|p| before.remove(&p).map(|s| (p, s)))
+            .collect();
+        let unchanged: Vec<(PathBuf, Stored)> = kept
+            .into_iter()
+            .filter_map(|p| before.remove(&p).map(|s| (p, s)))
             .collect();
         inner.files = read;
         inner.files.extend(open);
+        inner.files.extend(unchanged);
         over
     }
 
@@ -167,6 +211,8 @@ impl Catalogue {
                 uri: uri.clone(),
                 entry,
                 snap,
+                // An open document's entry is its buffer's: never taken as the disk's.
+                stamp: None,
             },
         );
     }

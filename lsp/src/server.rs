@@ -106,7 +106,9 @@ impl Backend {
 
     /// Read the workspace folders' files again and compare them, in the background; publish
     /// on the files whose findings changed.
-    fn rescan(&self) {
+    /// Compare the closed files of the workspace folders again; with `reuse`, a file
+    /// unchanged on disk keeps its entry (its project's settings must not have changed).
+    fn rescan_with(&self, reuse: bool) {
         let state = self.state.clone();
         let client = self.client.clone();
         tokio::spawn(async move {
@@ -114,7 +116,7 @@ impl Backend {
             let scanned = tokio::task::spawn_blocking(move || {
                 let roots = st.projects.roots();
                 st.catalogue.keep_under(&roots);
-                let over = st.catalogue.scan(&roots, &st.projects);
+                let over = st.catalogue.scan(&roots, &st.projects, reuse);
                 (over, st.catalogue.recompute(st.enc(), &roots))
             })
             .await;
@@ -175,7 +177,7 @@ impl Backend {
         }
         if any {
             // Closed files under a changed project are compared under its new settings.
-            self.rescan();
+            self.rescan_with(false);
         }
     }
 
@@ -331,6 +333,7 @@ impl LanguageServer for Backend {
                     TextDocumentSyncOptions {
                         open_close: Some(true),
                         change: Some(TextDocumentSyncKind::INCREMENTAL),
+                        save: Some(TextDocumentSyncSaveOptions::Supported(true)),
                         ..TextDocumentSyncOptions::default()
                     },
                 )),
@@ -385,7 +388,7 @@ impl LanguageServer for Backend {
             self.watch_project_files();
         }
         // Compare the files of the workspace folders in the background.
-        self.rescan();
+        self.rescan_with(false);
         self.client
             .log_message(MessageType::INFO, "syzygy language server ready")
             .await;
@@ -453,6 +456,15 @@ impl LanguageServer for Backend {
         }
     }
 
+    async fn did_save(&self, _params: DidSaveTextDocumentParams) {
+        // A client that cannot watch files never says a closed catalogue file changed on disk
+        // (another tool, a `git pull`): at each save, the closed files are compared again as
+        // they now are (a stat of each; only those changed are read again).
+        if self.state.can_watch.get() != Some(&true) {
+            self.rescan_with(true);
+        }
+    }
+
     async fn did_close(&self, params: DidCloseTextDocumentParams) {
         let uri = params.text_document.uri;
         if let Some(path) = project_file_path(&uri) {
@@ -478,7 +490,7 @@ impl LanguageServer for Backend {
         }
         // The folders bound the search for project files.
         self.refresh_projects();
-        self.rescan();
+        self.rescan_with(false);
     }
 
     async fn did_change_watched_files(&self, params: DidChangeWatchedFilesParams) {

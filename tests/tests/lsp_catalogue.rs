@@ -155,3 +155,28 @@ fn the_editor_publishes_the_findings_of_check_on_the_folders_files() {
     );
     assert_eq!(c.shutdown_and_exit().unwrap().code(), Some(0));
 }
+
+/// A client that cannot watch files never says a closed file changed on disk: at a save, the
+/// server compares the closed files again as they now are.
+#[test]
+fn without_file_watching_a_save_rereads_closed_files_changed_on_disk() {
+    let dir = catalogue("lsp-catalogue-save");
+    let b = file_uri(&dir.join("b.syz"));
+    let a = file_uri(&dir.join("a.syz"));
+    let mut c = LspClient::start();
+    // No `workspace.didChangeWatchedFiles` capability.
+    c.initialize_in(&dir, json!({}));
+    published_with(&mut c, &b, 3);
+    c.open(&a, A);
+    // Another tool makes b agree on the star (a shorter text, so its length changes too).
+    std::fs::write(dir.join("b.syz"), B.replace("1.30 ± 0.02", "1.0 ± 0.02")).unwrap();
+    c.notify("textDocument/didSave", json!({"textDocument": {"uri": a}}));
+    let after = published_with(&mut c, &b, 2);
+    assert!(
+        !findings(&after)
+            .iter()
+            .any(|f| f.1 == "star-disagrees-across-files"),
+        "{after}"
+    );
+    assert_eq!(c.shutdown_and_exit().unwrap().code(), Some(0));
+}
