@@ -92,6 +92,19 @@ fn published_with(c: &mut LspClient, uri: &str, n: usize) -> Value {
         .clone()
 }
 
+/// The next publication for `b` has the two findings left once its star agrees with a's
+/// (no `star-disagrees-across-files`); then the server exits cleanly.
+fn stars_agree_then_exit(mut c: LspClient, b: &str) {
+    let after = published_with(&mut c, b, 2);
+    assert!(
+        !findings(&after)
+            .iter()
+            .any(|f| f.1 == "star-disagrees-across-files"),
+        "{after}"
+    );
+    assert_eq!(c.shutdown_and_exit().unwrap().code(), Some(0));
+}
+
 #[test]
 fn the_editor_publishes_the_findings_of_check_on_the_folders_files() {
     let dir = catalogue("lsp-catalogue-agree");
@@ -146,14 +159,7 @@ fn the_editor_publishes_the_findings_of_check_on_the_folders_files() {
         "textDocument/didChange",
         json!({"textDocument": {"uri": a, "version": 2}, "contentChanges": [{"text": agreeing}]}),
     );
-    let after = published_with(&mut c, &b, 2);
-    assert!(
-        !findings(&after)
-            .iter()
-            .any(|f| f.1 == "star-disagrees-across-files"),
-        "{after}"
-    );
-    assert_eq!(c.shutdown_and_exit().unwrap().code(), Some(0));
+    stars_agree_then_exit(c, &b);
 }
 
 /// A client that cannot watch files never says a closed file changed on disk: at a save, the
@@ -171,12 +177,5 @@ fn without_file_watching_a_save_rereads_closed_files_changed_on_disk() {
     // Another tool makes b agree on the star (a shorter text, so its length changes too).
     std::fs::write(dir.join("b.syz"), B.replace("1.30 ± 0.02", "1.0 ± 0.02")).unwrap();
     c.notify("textDocument/didSave", json!({"textDocument": {"uri": a}}));
-    let after = published_with(&mut c, &b, 2);
-    assert!(
-        !findings(&after)
-            .iter()
-            .any(|f| f.1 == "star-disagrees-across-files"),
-        "{after}"
-    );
-    assert_eq!(c.shutdown_and_exit().unwrap().code(), Some(0));
+    stars_agree_then_exit(c, &b);
 }
