@@ -1399,3 +1399,32 @@ fn epochs_compare_modulo_the_period_and_assumed_sources_say_so() {
         "{found:?}"
     );
 }
+
+/// A value limited by an albedo `< 0.3` is a lower limit on Teq at that albedo; taken at the
+/// other end of the albedo's range (0) it is bounded from above as well, and the assumption
+/// gives both ends. The upper end is checked against Teq = Teff sqrt(R*/(2a)) (1 - A)^(1/4)
+/// with full redistribution (common practice), computed here at A = 0.
+#[test]
+fn a_value_on_a_limit_gives_both_ends_where_both_are_bounded() {
+    let src = "system \"Orl\" {\n star s { mass = 0.9 ± 0.03 Msun; radius = 0.85 ± 0.02 Rsun; teff = 5200 ± 70 K }\n planet b orbits s {\n  period = 3.1 ± 0.01 d\n  albedo < 0.3\n }\n}\n";
+    let a = run(src, &Options::linear());
+    let teq = get(&a, "b", Qty::Teq).unwrap();
+    assert_eq!(teq.form, crate::model::Form::LowerLimit);
+    let words = teq
+        .assumptions
+        .iter()
+        .find(|w| w.contains("is a limit, not an interval"))
+        .unwrap();
+    let axis = get(&a, "b", Qty::SemiMajorAxis).unwrap().value;
+    let r_star = 0.85 * crate::constants::R_SUN;
+    let top = 5200.0 * (r_star / (2.0 * axis)).sqrt();
+    let three = |x: f64| format!("{:.2e}", x).parse::<f64>().unwrap();
+    assert!(
+        words.ends_with(&format!(
+            "so it lies between {} K and {} K",
+            crate::format::number(three(teq.value)),
+            crate::format::number(three(top))
+        )),
+        "{words} (top {top})"
+    );
+}

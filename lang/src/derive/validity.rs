@@ -267,6 +267,22 @@ impl<'m> Derivation<'m> {
                 })
                 .collect();
             let focus = self.cone(keys.iter().map(|k| &k.0));
+            // Every limit at its other end: what bounds the value from the other side (an
+            // albedo `< 0.3` taken at 0 bounds Teq from above), where that end is finite.
+            let flipped = limits
+                .iter()
+                .map(|l| {
+                    let at = if l.3 { PinAt::Limit } else { PinAt::OtherEnd };
+                    (l.0.label.clone(), at)
+                })
+                .collect();
+            let at_other_end = Derivation::run_pinned(
+                self.sys,
+                &options,
+                self.lines,
+                flipped,
+                Some(focus.clone()),
+            );
             let at_limit =
                 Derivation::run_pinned(self.sys, &options, self.lines, pinned, Some(focus));
             let described: Vec<String> = limits
@@ -306,8 +322,32 @@ impl<'m> Derivation<'m> {
                 } else {
                     Form::LowerLimit
                 };
+                // The other side, when the other ends bound it there: a value that lies past
+                // the limit's value on the side the limit leaves open.
+                let other = at_other_end
+                    .value(key)
+                    .map(|o| o.nominal)
+                    .filter(|o| o.is_finite() && *o != 0.0 && (*o > v) != upper && *o != v);
+                let between = match other {
+                    Some(o) => {
+                        let unit = summary::display_unit(key.1, v);
+                        // Three significant digits, as a derived limit is shown.
+                        let shown = |x: f64| {
+                            let r: f64 = format!("{:.2e}", unit.of(x)).parse().unwrap_or(f64::NAN);
+                            crate::report::shown_in(r * unit.factor, 0.0, 0.0, Form::Exact, unit)
+                        };
+                        let (lo, hi) = if o < v { (o, v) } else { (v, o) };
+                        format!(
+                            "; taken at the other end of the range instead, it is {}, so it lies between {} and {}",
+                            shown(o),
+                            shown(lo),
+                            shown(hi)
+                        )
+                    }
+                    None => String::new(),
+                };
                 let words = format!(
-                    "{} is {LIMITED}: {:.0}% of its variance comes from {first}, so it is given at that limit{also}, with the other inputs at their values (common practice)",
+                    "{} is {LIMITED}: {:.0}% of its variance comes from {first}, so it is given at that limit{also}, with the other inputs at their values (common practice){between}",
                     self.key_name(key),
                     (share * 100.0).min(100.0),
                 );
