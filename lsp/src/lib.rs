@@ -9,6 +9,7 @@
 
 #![cfg_attr(test, allow(clippy::unwrap_used, clippy::indexing_slicing))]
 
+pub mod capabilities;
 pub mod catalogue;
 pub mod convert;
 pub mod documents;

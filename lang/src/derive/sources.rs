@@ -174,31 +174,18 @@ pub fn choose(
     // not assumed (none with an uncertainty), else assumed ones with an uncertainty, else any.
     let is_assumed = |i: usize| assumed.get(i).copied().unwrap_or(false);
     let has_spread = |i: usize| sources.get(i).is_some_and(|m| standard(m) > 0.0);
+    let where_ = |keep: &dyn Fn(usize) -> bool| -> Vec<usize> {
+        measured.iter().copied().filter(|&i| keep(i)).collect()
+    };
+    // The measurements ranked and averaged (see [`ranked`]).
+    let ranked = where_(&|i| sources.get(i).is_some_and(|m| ranked(m, is_assumed(i))));
     let tiers: [(Vec<usize>, Option<&'static str>); 4] = [
+        (ranked.clone(), None),
         (
-            measured
-                .iter()
-                .copied()
-                .filter(|&i| !is_assumed(i) && has_spread(i))
-                .collect(),
-            None,
-        ),
-        (
-            measured
-                .iter()
-                .copied()
-                .filter(|&i| !is_assumed(i))
-                .collect(),
+            where_(&|i| !is_assumed(i)),
             Some("the first measurement listed that is not assumed, as none states an uncertainty"),
         ),
-        (
-            measured
-                .iter()
-                .copied()
-                .filter(|&i| has_spread(i))
-                .collect(),
-            None,
-        ),
+        (where_(&has_spread), None),
         (
             measured.clone(),
             Some("the first listed, as every source is assumed and none states an uncertainty"),
@@ -208,9 +195,6 @@ pub fn choose(
         .into_iter()
         .find(|c| !c.0.is_empty())
         .unwrap_or_default();
-    let ranked: Vec<usize> = (0..sources.len())
-        .filter(|&i| sources.get(i).is_some_and(|m| ranked(m, is_assumed(i))))
-        .collect();
     let most_precise = || {
         candidates
             .iter()

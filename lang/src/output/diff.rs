@@ -647,8 +647,7 @@ fn value_change(
         let factor = shown.factor;
         change.difference = Some((n.value - o.value) / factor);
         // A limit measures no move in sigma; nor does one that changed direction.
-        change.shift = if (o.form.is_limit() && !same_number(o.value, n.value))
-            || o.form != n.form && o.form.is_limit()
+        change.shift = if o.form.is_limit() && (!same_number(o.value, n.value) || o.form != n.form)
         {
             None
         } else {
