@@ -206,14 +206,46 @@ fn build() -> Vec<QuantityDef> {
 
 /// Find a quantity of a body kind by canonical name or alias.
 pub fn find(kind: BodyKind, name: &str) -> Option<&'static QuantityDef> {
-    table()
-        .iter()
-        .find(|q| q.kind == kind && (q.name == name || q.aliases.contains(&name)))
+    index().by_name.get(&(kind, name)).copied()
 }
 
 pub fn def(qty: Qty) -> &'static QuantityDef {
     // The table holds every variant; the fallback only keeps this total.
-    table().iter().find(|q| q.qty == qty).unwrap_or(&FALLBACK)
+    index()
+        .by_qty
+        .get(qty as usize)
+        .copied()
+        .flatten()
+        .unwrap_or(&FALLBACK)
+}
+
+/// The table looked up by name (with aliases) and by quantity: every declaration of a file
+/// is found here, and a scan compared it with every name of the table.
+struct Index {
+    by_name: rustc_hash::FxHashMap<(BodyKind, &'static str), &'static QuantityDef>,
+    by_qty: Vec<Option<&'static QuantityDef>>,
+}
+
+fn index() -> &'static Index {
+    static I: std::sync::OnceLock<Index> = std::sync::OnceLock::new();
+    I.get_or_init(|| {
+        let mut by_name = rustc_hash::FxHashMap::default();
+        let mut by_qty: Vec<Option<&'static QuantityDef>> = Vec::new();
+        for q in table() {
+            for name in std::iter::once(&q.name).chain(q.aliases) {
+                // The first entry of a name wins, as the scan it replaces found it.
+                by_name.entry((q.kind, *name)).or_insert(q);
+            }
+            let i = q.qty as usize;
+            if by_qty.len() <= i {
+                by_qty.resize(i + 1, None);
+            }
+            if let Some(slot @ None) = by_qty.get_mut(i) {
+                *slot = Some(q);
+            }
+        }
+        Index { by_name, by_qty }
+    })
 }
 
 static FALLBACK: QuantityDef = QuantityDef {

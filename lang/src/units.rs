@@ -570,6 +570,24 @@ pub fn suggest(symbol: &str) -> Option<&'static str> {
 
 /// Resolve a parsed unit expression. Errors name each unknown symbol.
 pub fn resolve(expr: &UnitExpr) -> Result<Unit, Vec<(crate::source::Span, UnknownUnit)>> {
+    // Most units are one symbol to the first power (`Msun`, `d`, `%`): no powers to take
+    // and the text is the symbol. The same result as the general path below.
+    if let [f] = expr.factors.as_slice() {
+        if f.exponent == 1 {
+            if let Some((scale, def)) = lookup(&f.symbol.name) {
+                return Ok(Unit {
+                    factor: scale,
+                    dim: def.dim,
+                    text: f.symbol.name.to_string(),
+                });
+            }
+        }
+    }
+    resolve_general(expr)
+}
+
+/// [`resolve`] without its shortcut for one symbol (a test compares the two).
+fn resolve_general(expr: &UnitExpr) -> Result<Unit, Vec<(crate::source::Span, UnknownUnit)>> {
     let mut factor = 1.0;
     let mut dim = Dimension::NONE;
     let mut errors = Vec::new();
@@ -582,7 +600,7 @@ pub fn resolve(expr: &UnitExpr) -> Result<Unit, Vec<(crate::source::Span, Unknow
             None => errors.push((
                 f.symbol.span,
                 UnknownUnit {
-                    symbol: f.symbol.name.clone(),
+                    symbol: f.symbol.name.to_string(),
                     suggestion: suggest(&f.symbol.name),
                 },
             )),

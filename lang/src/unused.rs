@@ -78,7 +78,7 @@ pub fn collect(
                 out.push(Unused {
                     system: si,
                     body: None,
-                    body_id: b.name.name.clone(),
+                    body_id: b.name.name.to_string(),
                     quantity: None,
                     text: format!("{} {}", b.kind.as_str(), b.name.name),
                     span: b.span,
@@ -125,8 +125,8 @@ pub fn collect(
                 out.push(Unused {
                     system: si,
                     body: Some(bi),
-                    body_id: b.name.name.clone(),
-                    quantity: Some(p.name.name.clone()),
+                    body_id: b.name.name.to_string(),
+                    quantity: Some(p.name.name.to_string()),
                     text: one_line(src.get(p.span.range()).unwrap_or_default()),
                     span: p.span,
                     rule,

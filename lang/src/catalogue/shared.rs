@@ -46,13 +46,13 @@ impl SharedRefs {
             let parsed = crate::parser::parse(FileId::default(), text);
             let index = LineIndex::new(text);
             for r in parsed.file.refs {
-                if out.index.contains_key(&r.id.name) {
+                if out.index.contains_key(r.id.name.as_str()) {
                     continue;
                 }
-                out.index.insert(r.id.name.clone(), out.refs.len());
+                out.index.insert(r.id.name.to_string(), out.refs.len());
                 let line = index.line_col(text, r.id.span.start as usize).line;
                 out.refs.push(SharedRef {
-                    id: r.id.name,
+                    id: r.id.name.to_string(),
                     text: r.text,
                     file: name.to_string(),
                     line,

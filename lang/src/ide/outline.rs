@@ -30,7 +30,7 @@ pub struct Node {
 
 fn let_node(l: &ast::LetDecl) -> Node {
     Node {
-        name: l.name.name.clone(),
+        name: l.name.name.to_string(),
         detail: "let".to_string(),
         kind: NodeKind::Binding,
         span: l.span,
@@ -45,7 +45,7 @@ pub fn outline(file: &ast::File) -> Vec<Node> {
         .refs
         .iter()
         .map(|r| Node {
-            name: r.id.name.clone(),
+            name: r.id.name.to_string(),
             detail: r.text.clone(),
             kind: NodeKind::Ref,
             span: r.span,
@@ -59,7 +59,7 @@ pub fn outline(file: &ast::File) -> Vec<Node> {
             let mut inner: Vec<Node> = b.lets.iter().map(let_node).collect();
             for p in &b.props {
                 inner.push(Node {
-                    name: p.name.name.clone(),
+                    name: p.name.name.to_string(),
                     detail: String::new(),
                     kind: NodeKind::Quantity,
                     span: p.span,
@@ -69,7 +69,7 @@ pub fn outline(file: &ast::File) -> Vec<Node> {
             }
             inner.sort_by_key(|n| n.span.start);
             children.push(Node {
-                name: b.name.name.clone(),
+                name: b.name.name.to_string(),
                 detail: match (&b.kind, &b.orbits) {
                     (BodyKind::Planet, Some(o)) => format!("planet orbiting {}", o.name),
                     (k, _) => k.as_str().to_string(),

@@ -57,7 +57,7 @@ pub fn occurrences(file: &ast::File) -> Vec<Occurrence> {
     for r in &file.refs {
         out.push(Occurrence {
             span: r.id.span,
-            symbol: Symbol::Ref(r.id.name.clone()),
+            symbol: Symbol::Ref(r.id.name.to_string()),
             def: true,
         });
     }
@@ -69,7 +69,7 @@ pub fn occurrences(file: &ast::File) -> Vec<Occurrence> {
                 symbol: Symbol::Let {
                     system: si,
                     body: None,
-                    name: l.name.name.clone(),
+                    name: l.name.name.to_string(),
                 },
                 def: true,
             });
@@ -80,7 +80,7 @@ pub fn occurrences(file: &ast::File) -> Vec<Occurrence> {
                 span: b.name.span,
                 symbol: Symbol::Body {
                     system: si,
-                    name: b.name.name.clone(),
+                    name: b.name.name.to_string(),
                 },
                 def: true,
             });
@@ -89,7 +89,7 @@ pub fn occurrences(file: &ast::File) -> Vec<Occurrence> {
                     span: o.span,
                     symbol: Symbol::Body {
                         system: si,
-                        name: o.name.clone(),
+                        name: o.name.to_string(),
                     },
                     def: false,
                 });
@@ -99,8 +99,8 @@ pub fn occurrences(file: &ast::File) -> Vec<Occurrence> {
                     span: l.name.span,
                     symbol: Symbol::Let {
                         system: si,
-                        body: Some(b.name.name.clone()),
-                        name: l.name.name.clone(),
+                        body: Some(b.name.name.to_string()),
+                        name: l.name.name.to_string(),
                     },
                     def: true,
                 });
@@ -112,7 +112,7 @@ pub fn occurrences(file: &ast::File) -> Vec<Occurrence> {
                         span: p.name.span,
                         symbol: Symbol::Quantity {
                             system: si,
-                            body: b.name.name.clone(),
+                            body: b.name.name.to_string(),
                             qty: def.qty,
                         },
                         def: true,
@@ -124,7 +124,7 @@ pub fn occurrences(file: &ast::File) -> Vec<Occurrence> {
                 for c in &p.citations {
                     out.push(Occurrence {
                         span: c.span,
-                        symbol: Symbol::Ref(c.name.clone()),
+                        symbol: Symbol::Ref(c.name.to_string()),
                         def: false,
                     });
                 }
@@ -156,7 +156,7 @@ impl Walker<'_> {
                     for f in &u.factors {
                         out.push(Occurrence {
                             span: f.symbol.span,
-                            symbol: Symbol::Unit(f.symbol.name.clone()),
+                            symbol: Symbol::Unit(f.symbol.name.to_string()),
                             def: false,
                         });
                     }
@@ -167,17 +167,17 @@ impl Walker<'_> {
                 let symbol = if let Some(b) = body_let {
                     Some(Symbol::Let {
                         system: self.si,
-                        body: Some(b.name.name.clone()),
-                        name: id.name.clone(),
+                        body: Some(b.name.name.to_string()),
+                        name: id.name.to_string(),
                     })
                 } else if self.sys.lets.iter().any(|l| l.name.name == id.name) {
                     Some(Symbol::Let {
                         system: self.si,
                         body: None,
-                        name: id.name.clone(),
+                        name: id.name.to_string(),
                     })
                 } else if crate::model::constant(&id.name).is_some() {
-                    Some(Symbol::Builtin(id.name.clone()))
+                    Some(Symbol::Builtin(id.name.to_string()))
                 } else {
                     None
                 };
@@ -194,7 +194,7 @@ impl Walker<'_> {
                     span: b.span,
                     symbol: Symbol::Body {
                         system: self.si,
-                        name: b.name.clone(),
+                        name: b.name.to_string(),
                     },
                     def: false,
                 });
@@ -206,7 +206,7 @@ impl Walker<'_> {
                         span: q.span,
                         symbol: Symbol::Quantity {
                             system: self.si,
-                            body: b.name.clone(),
+                            body: b.name.to_string(),
                             qty: def.qty,
                         },
                         def: false,
@@ -222,7 +222,7 @@ impl Walker<'_> {
                 if crate::model::FUNCTIONS.contains(&f.name.as_str()) {
                     out.push(Occurrence {
                         span: f.span,
-                        symbol: Symbol::Builtin(f.name.clone()),
+                        symbol: Symbol::Builtin(f.name.to_string()),
                         def: false,
                     });
                 }

@@ -18,7 +18,6 @@ use crate::source::{FileId, Span};
 use crate::units::Dimension;
 pub use resolve::{Func, LetId, Node, Resolved, UncertainLiteral};
 use rustc_hash::FxHashMap;
-use std::collections::HashMap;
 use std::sync::Arc;
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -230,8 +229,8 @@ pub fn lower(file: FileId, ast: &ast::File, diags: &mut Vec<Diagnostic>) -> Mode
 /// declared twice is reported however far apart the two are.
 #[derive(Debug, Default)]
 pub struct Lowering {
-    systems: HashMap<String, Span>,
-    refs: HashMap<String, Span>,
+    systems: FxHashMap<String, Span>,
+    refs: FxHashMap<String, Span>,
     shared: Arc<SharedRefs>,
 }
 
@@ -266,7 +265,7 @@ impl Lowering {
             diags.iter().map(|d| (d.span.file, d.span.start)).collect();
         parse_errors.sort_unstable();
         for r in &ast.refs {
-            if let Some(prev) = self.refs.get(&r.id.name) {
+            if let Some(prev) = self.refs.get(r.id.name.as_str()) {
                 diags.push(
                     Diagnostic::new(
                         Rule::Duplicate,
@@ -277,7 +276,7 @@ impl Lowering {
                 );
                 continue;
             }
-            self.refs.insert(r.id.name.clone(), r.id.span);
+            self.refs.insert(r.id.name.to_string(), r.id.span);
             if let Some(d) = shadowing(r, &self.shared) {
                 diags.push(d);
             }
@@ -396,7 +395,7 @@ pub fn first_refs<'a>(refs: impl IntoIterator<Item = &'a ast::RefDecl>) -> Vec<R
 
 fn ref_info(r: &ast::RefDecl) -> RefInfo {
     RefInfo {
-        id: r.id.name.clone(),
+        id: r.id.name.to_string(),
         text: r.text.clone(),
         span: r.span,
         id_span: r.id.span,
@@ -447,7 +446,7 @@ fn lower_system(
         body_syntax.push(b);
         body_let_syntax.push(syntax);
         sys.bodies.push(Body {
-            id: b.name.name.clone(),
+            id: b.name.name.to_string(),
             kind: b.kind,
             name_span: b.name.span,
             span: b.span,
@@ -607,7 +606,7 @@ fn lower_lets<'a>(
         }
         seen.insert(&l.name.name, l.name.span);
         out.push(LetInfo {
-            name: l.name.name.clone(),
+            name: l.name.name.to_string(),
             name_span: l.name.span,
             value: None,
             dim: None,
@@ -650,24 +649,25 @@ fn lower_props(
     // whether or not the first could be read.
     // By quantity, in a list: a body declares a few dozen quantities at most, which a scan
     // finds sooner than a hash table is built for every body.
-    let mut seen: Vec<(Qty, Vec<Written>)> = Vec::new();
+    // One flat list in the order written (a list per quantity cost an allocation each).
+    let mut seen: Vec<(Qty, Written)> = Vec::with_capacity(b.props.len());
     for p in &b.props {
         let Some(def) = quantities::find(b.kind, &p.name.name) else {
             diags.push(value::unknown_quantity(b.kind, &p.name));
             continue;
         };
         let cites = cited(p);
-        if let Some((_, prev)) = seen.iter().find(|(q, _)| *q == def.qty) {
-            let same = prev.iter().find(|(_, c)| *c == cites);
+        let mut prev = seen.iter().filter(|(q, _)| *q == def.qty).map(|(_, w)| w);
+        if let Some(first) = prev.next() {
+            let same = std::iter::once(first)
+                .chain(prev)
+                .find(|(_, c)| *c == cites);
             if cites.is_empty() || same.is_some() {
                 let (at, words) = match same {
                     Some((s, _)) if !cites.is_empty() => {
                         (*s, "declared with the same citations here")
                     }
-                    _ => (
-                        prev.first().map_or(p.name.span, |x| x.0),
-                        "first declared here",
-                    ),
+                    _ => (first.0, "first declared here"),
                 };
                 diags.push(
                     Diagnostic::new(
@@ -683,14 +683,11 @@ fn lower_props(
                 continue;
             }
         }
-        match seen.iter_mut().find(|(q, _)| *q == def.qty) {
-            Some((_, list)) => list.push((p.name.span, cites)),
-            None => seen.push((def.qty, vec![(p.name.span, cites)])),
-        }
+        seen.push((def.qty, (p.name.span, cites)));
         let mut citations = Vec::new();
         for c in &p.citations {
             if refs.iter().any(|r| r.id == c.name) || shared.get(&c.name).is_some() {
-                citations.push((c.name.clone(), c.span));
+                citations.push((c.name.to_string(), c.span));
             } else {
                 let mut d = Diagnostic::new(
                     Rule::UnknownRef,
@@ -719,7 +716,7 @@ fn lower_props(
                 diags.push(d);
                 // Still recorded: the value keeps the citation it was written with (the
                 // error above says the reference is missing).
-                citations.push((c.name.clone(), c.span));
+                citations.push((c.name.to_string(), c.span));
             }
         }
         let resolve =

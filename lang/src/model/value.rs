@@ -316,7 +316,8 @@ pub(super) fn lower_value(
         diags.push(d);
         return None;
     }
-    let written = lit.unit.as_ref().map(units::unit_text);
+    // The resolved unit's text is the unit as written (`units::unit_text`).
+    let written = lit.unit.is_some().then_some(unit.text);
     Some((
         Content::Measured(Measurement {
             value,
@@ -514,7 +515,7 @@ fn fraction_times_a_unit(
     let rest = others
         .iter()
         .map(|f| match f.exponent {
-            1 => f.symbol.name.clone(),
+            1 => f.symbol.name.to_string(),
             e => format!("{}^{e}", f.symbol.name),
         })
         .collect::<Vec<_>>()

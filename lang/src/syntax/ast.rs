@@ -3,9 +3,13 @@
 
 use crate::source::Span;
 
+/// A name as written: kept inline up to 24 bytes (every name of a catalogue), so the
+/// reader allocates nothing for it.
+pub type Name = compact_str::CompactString;
+
 #[derive(Debug, Clone, PartialEq)]
 pub struct Ident {
-    pub name: String,
+    pub name: Name,
     pub span: Span,
 }
 
@@ -168,9 +172,13 @@ pub struct Literal {
 
 #[derive(Debug, Clone, PartialEq)]
 pub struct UnitExpr {
-    pub factors: Vec<UnitFactor>,
+    /// The symbols, the first kept inline (most units are one symbol).
+    pub factors: UnitFactors,
     pub span: Span,
 }
+
+/// The symbols of a unit expression.
+pub type UnitFactors = smallvec::SmallVec<[UnitFactor; 1]>;
 
 /// One symbol of a unit expression with its signed exponent (`s^-1`, or `cm` after `/`
 /// with exponent -1).

@@ -195,7 +195,7 @@ fn units_are_spelled_back_as_written() {
             .iter()
             .map(|(n, e)| UnitFactor {
                 symbol: Ident {
-                    name: (*n).to_string(),
+                    name: (*n).into(),
                     span: Span::new(FileId(0), 0, 0),
                 },
                 exponent: *e,
@@ -237,4 +237,48 @@ fn whole_exponents_add_and_multiply_as_reduced_fractions() {
     // Fractions still reduce: 1/2 + 1/2 = 1, (2/3) * (3/2) = 1.
     assert_eq!(Rat::new(1, 2).add(Rat::new(1, 2)), Rat::int(1));
     assert_eq!(Rat::new(2, 3).mul(Rat::new(3, 2)), Rat::int(1));
+}
+
+/// The shortcut of [`resolve`] for a unit of one symbol to the first power gives what the
+/// general path gives (factor, dimension, text), for every spelling of the registry with
+/// and without each prefix, and for unknown symbols.
+#[test]
+fn one_symbol_shortcut_equals_the_general_path() {
+    use crate::ast::{Ident, UnitExpr, UnitFactor};
+    use crate::source::{FileId, Span};
+    let mut spellings: Vec<String> = Vec::new();
+    for d in registry() {
+        for s in std::iter::once(d.symbol).chain(d.aliases.iter().copied()) {
+            spellings.push(s.to_string());
+            for (p, _) in PREFIXES {
+                spellings.push(format!("{p}{s}"));
+            }
+        }
+    }
+    spellings.extend(["x", "kkm", "Msun2"].map(String::from));
+    let mut known = 0;
+    for s in &spellings {
+        let expr = UnitExpr {
+            factors: std::iter::once(UnitFactor {
+                symbol: Ident {
+                    name: s.as_str().into(),
+                    span: Span::new(FileId(0), 0, s.len()),
+                },
+                exponent: 1,
+            })
+            .collect(),
+            span: Span::new(FileId(0), 0, s.len()),
+        };
+        let (fast, general) = (resolve(&expr), resolve_general(&expr));
+        known += usize::from(fast.is_ok());
+        assert_eq!(
+            fast.map(|u| (u.factor.to_bits(), u.dim, u.text))
+                .map_err(|e| e.len()),
+            general
+                .map(|u| (u.factor.to_bits(), u.dim, u.text))
+                .map_err(|e| e.len()),
+            "{s:?}"
+        );
+    }
+    assert!(known > 300, "only {known} spellings resolve");
 }

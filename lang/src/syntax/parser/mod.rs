@@ -338,7 +338,7 @@ impl<'a> Cursor<'a> {
             Some(t) if t.kind == Tok::Ident => {
                 self.pos += 1;
                 Some(Ident {
-                    name: self.text(t).to_string(),
+                    name: self.text(t).into(),
                     span: Span::new(self.file, t.start, t.end),
                 })
             }

@@ -523,17 +523,22 @@ impl Cursor<'_> {
                 let uncertainty = if kind(1) == Some(Tok::PlusMinus) {
                     let (s, mut end) = num(2)?;
                     i = 3;
-                    let mut parts = vec![s];
+                    // A list only for a second `±` (most values have one).
+                    let mut parts = Vec::new();
                     while kind(i) == Some(Tok::PlusMinus) {
                         let (more, at) = num(i + 1)?;
+                        if parts.is_empty() {
+                            parts.push(s);
+                        }
                         parts.push(more);
                         end = at;
                         i += 2;
                     }
                     let span = sp(slice.get(1)?).join(end);
-                    match parts.as_slice() {
-                        [one] => Uncertainty::Symmetric(*one, span),
-                        _ => Uncertainty::Quadrature(parts, span),
+                    if parts.is_empty() {
+                        Uncertainty::Symmetric(s, span)
+                    } else {
+                        Uncertainty::Quadrature(parts, span)
                     }
                 } else if kind(1) == Some(Tok::Plus)
                     && kind(3) == Some(Tok::Slash)
@@ -550,9 +555,8 @@ impl Cursor<'_> {
                 } else {
                     Uncertainty::None
                 };
-                // Most units are one symbol (`Msun`, `d`): room for one, not the four a
-                // first push would reserve.
-                let mut factors = Vec::with_capacity(1);
+                // Most units are one symbol (`Msun`, `d`), kept inline.
+                let mut factors = crate::ast::UnitFactors::new();
                 let mut unit_span: Option<Span> = None;
                 loop {
                     let divide = kind(i) == Some(Tok::Slash) && !factors.is_empty();
@@ -580,7 +584,7 @@ impl Cursor<'_> {
                     unit_span = Some(unit_span.map_or(start.join(end), |u| u.join(end)));
                     factors.push(UnitFactor {
                         symbol: Ident {
-                            name: self.text(*sym).to_string(),
+                            name: self.text(*sym).into(),
                             span: start,
                         },
                         exponent,
@@ -625,7 +629,7 @@ impl Cursor<'_> {
                     while kind(i) == Some(Tok::Ident) {
                         let id = slice.get(i)?;
                         parts.citations.push(Ident {
-                            name: self.text(*id).to_string(),
+                            name: self.text(*id).into(),
                             span: sp(id),
                         });
                         i += 1;
@@ -865,7 +869,7 @@ pub(super) fn value_parser<'a>(src: &'a str, file: FileId) -> ValueParser<'a> {
     let slice = move |r: &Range| src.get(r.clone()).unwrap_or("").to_string();
 
     let ident = tok(Tok::Ident).map_with_span(move |_, r: Range| Ident {
-        name: slice(&r),
+        name: slice(&r).into(),
         span: sp(r),
     });
     let number = tok(Tok::Number).map_with_span(move |_, r: Range| {
@@ -913,7 +917,8 @@ pub(super) fn value_parser<'a>(src: &'a str, file: FileId) -> ValueParser<'a> {
                 .repeated(),
         )
         .map_with_span(move |(first, rest), r: Range| {
-            let mut factors = vec![first];
+            let mut factors = crate::ast::UnitFactors::new();
+            factors.push(first);
             factors.extend(rest);
             UnitExpr {
                 factors,
