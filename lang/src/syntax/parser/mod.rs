@@ -221,8 +221,19 @@ struct Cursor<'a> {
 }
 
 impl<'a> Cursor<'a> {
-    /// The token at `pos`, lexed now if it has not been.
+    /// The token at `pos`, lexed now if it has not been. Small enough to inline: the
+    /// parser asks for the current token several times per token, and the lexer it
+    /// calls the first time is kept out of line ([`Cursor::lex_current`]).
+    #[inline]
     fn current(&mut self) -> Option<Token> {
+        match self.toks.get(self.pos) {
+            Some(t) => Some(*t),
+            None => self.lex_current(),
+        }
+    }
+
+    #[inline(never)]
+    fn lex_current(&mut self) -> Option<Token> {
         if self.pos >= self.toks.len() {
             let last = self.toks.last().map(|t| t.kind);
             let t = self.feed.next(last)?;
