@@ -330,7 +330,8 @@ fn build_registry() -> Vec<UnitDef> {
 pub struct Unit {
     pub factor: f64,
     pub dim: Dimension,
-    pub text: String,
+    /// Kept inline up to 24 bytes (every unit of a catalogue): resolving allocates nothing.
+    pub text: crate::ast::Name,
 }
 
 impl Unit {
@@ -338,7 +339,7 @@ impl Unit {
         Unit {
             factor: 1.0,
             dim: Dimension::NONE,
-            text: String::new(),
+            text: crate::ast::Name::default(),
         }
     }
 }
@@ -578,7 +579,7 @@ pub fn resolve(expr: &UnitExpr) -> Result<Unit, Vec<(crate::source::Span, Unknow
                 return Ok(Unit {
                     factor: scale,
                     dim: def.dim,
-                    text: f.symbol.name.to_string(),
+                    text: f.symbol.name.clone(),
                 });
             }
         }
@@ -610,7 +611,7 @@ fn resolve_general(expr: &UnitExpr) -> Result<Unit, Vec<(crate::source::Span, Un
         Ok(Unit {
             factor,
             dim,
-            text: unit_text(expr),
+            text: unit_text(expr).into(),
         })
     } else {
         Err(errors)
@@ -684,7 +685,7 @@ pub fn parse_unit_text(text: &str) -> Option<Unit> {
     Some(Unit {
         factor,
         dim,
-        text: text.to_string(),
+        text: text.into(),
     })
 }
 

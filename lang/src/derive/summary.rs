@@ -510,7 +510,7 @@ impl<'m> Derivation<'m> {
 /// The Julian-date unit a transit epoch was declared in, when `qty` is one.
 fn epoch_unit(qty: Qty, d: &model::Declared) -> Option<String> {
     (qty == Qty::TransitEpoch)
-        .then(|| d.written_unit.clone())
+        .then(|| d.written_unit.as_ref().map(|u| u.to_string()))
         .flatten()
         .filter(|u| crate::time::system_of_unit(u).is_some())
 }

@@ -226,7 +226,7 @@ fn convert_units(a: &Analysis, _src: &str, offset: usize) -> Vec<Action> {
     let (m, written) = m;
     let mut out = Vec::new();
     for (sym, name) in crate::units::units_for(def.dim) {
-        if Some(&sym) == written.as_ref()
+        if written.as_deref() == Some(sym.as_str())
             || name.starts_with("Julian date") != (def.qty == quantities::Qty::TransitEpoch)
             || !crate::units::takes_unit(def.display, &sym)
         {

@@ -97,7 +97,7 @@ pub struct Declared {
     pub citations: Vec<(String, Span)>,
     /// The unit as written, when the value is a literal with a unit (`JD_UTC` for a
     /// transit epoch written as an ISO 8601 timestamp).
-    pub written_unit: Option<String>,
+    pub written_unit: Option<crate::ast::Name>,
     /// The timestamp as written, for a time given as ISO 8601 text.
     pub timestamp: Option<String>,
     /// For a value set on the command line in place of the file's (`--set`, see

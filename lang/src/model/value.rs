@@ -66,7 +66,7 @@ pub(super) fn lower_value(
     p: &ast::Prop,
     resolve: &dyn Fn(&ast::Expr, &mut Vec<Diagnostic>) -> Option<Resolved>,
     diags: &mut Vec<Diagnostic>,
-) -> Option<(Content, Option<String>)> {
+) -> Option<(Content, Option<crate::ast::Name>)> {
     let expr = match &p.value {
         ast::PropValue::Text(t, span) => {
             if def.text {
@@ -81,7 +81,7 @@ pub(super) fn lower_value(
                             above: 0.0,
                             form: Form::Exact,
                         }),
-                        Some("JD_UTC".to_string()),
+                        Some("JD_UTC".into()),
                     )),
                     Err(e) => {
                         diags.push(
@@ -117,7 +117,7 @@ pub(super) fn lower_value(
                             above: 0.0,
                             form: Form::Exact,
                         }),
-                        Some("deg".to_string()),
+                        Some("deg".into()),
                     )),
                     Err(e) => {
                         diags.push(
