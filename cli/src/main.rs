@@ -188,7 +188,7 @@ fn parse_rule(s: &str) -> Result<Rule, String> {
     })?;
     if rule.is_fixed() {
         return Err(format!(
-            "'{s}' cannot be changed: a syntax error or an unreadable file means values were not read, so it is always an error"
+            "'{s}' cannot be changed: a syntax error, an unreadable file or bodies past a system's bound mean values were not read, so it is always an error"
         ));
     }
     Ok(rule)

@@ -156,7 +156,7 @@ pub fn apply_in(
                         *span,
                         format!("'{}' cannot be silenced, so this comment silences nothing", rule.id()),
                     )
-                    .with_note("a syntax error or an unreadable file means values were not read; silencing it would make them disappear without a word")
+                    .with_note("a syntax error, an unreadable file or bodies past a system's bound mean values were not read; silencing it would make them disappear without a word")
                     .with_help("fix the error instead, and remove the comment"),
                 );
             } else if Rule::from_id(id).is_none() {

@@ -52,11 +52,11 @@ macro_rules! rules {
                 match id { $( $id => Some(Rule::$variant), )* _ => None }
             }
 
-            /// Whether the rule keeps its severity whatever the user asks: a syntax error or
-            /// an unreadable file means values were not read at all, so silencing it would
-            /// make them disappear without a word.
+            /// Whether the rule keeps its severity whatever the user asks: a syntax error, an
+            /// unreadable file or bodies past a system's bound mean values were not read at
+            /// all, so silencing it would make them disappear without a word.
             pub fn is_fixed(self) -> bool {
-                matches!(self, Rule::Syntax | Rule::Io)
+                matches!(self, Rule::Syntax | Rule::Io | Rule::TooManyBodies)
             }
         }
     };
@@ -80,6 +80,7 @@ rules! {
     RefShadowsShared = "ref-shadows-shared", Warning, "A file's own reference has the id of a shared reference but another text.";
     UnknownName = "unknown-name", Error, "A name in an expression that is neither a let binding nor a constant.";
     Duplicate = "duplicate", Error, "The same body, reference, binding or quantity is declared twice.";
+    TooManyBodies = "too-many-bodies", Error, "A system declares more bodies than one system is read with (1,000); the rest are not read.";
     OutOfRange = "out-of-range", Error, "A declared value lies outside the range the quantity can take.";
     InvalidValue = "invalid-value", Error, "A number that is not finite, or an expression that cannot be evaluated.";
     Inconsistent = "inconsistent", Warning, "A declared value disagrees with the value derived from other measurements.";

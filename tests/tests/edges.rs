@@ -431,3 +431,42 @@ fn plots_of_absurd_uncertainties_end_and_say_what_was_left_out() {
         .unwrap()
         .contains("beyond the diagram"));
 }
+
+/// A system is read with at most 1,000 bodies (`syzygy::model::limits::MAX_SYSTEM_BODIES`):
+/// a file of one system of 1,003 stars is checked with an error for each star past the
+/// bound, `--allow` cannot silence it, and `eval` lists each such star as not used, with the
+/// rule that says why, while the stars within the bound keep their values.
+#[test]
+fn a_system_past_its_bound_on_bodies_says_which_bodies_are_not_read() {
+    let dir = scratch("crowd");
+    let file = dir.join("crowd.syz");
+    let mut src = String::from("system \"Crowd\" {\n");
+    for i in 0..1003 {
+        src.push_str(&format!("  star s{i} {{ mass = 0.5 Msun }}\n"));
+    }
+    src.push_str("}\n");
+    std::fs::write(&file, &src).unwrap();
+    let o = run_bounded(&["check", "--allow", "too-many-bodies", path(&file)], HANG);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        stderr(&o).contains("'too-many-bodies' cannot be changed"),
+        "{}",
+        stderr(&o)
+    );
+    let o = run_bounded(&["check", "--format", "json", path(&file)], HANG);
+    assert_eq!(o.status.code(), Some(1), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["summary"]["rules"]["too-many-bodies"], 3, "{v}");
+    let o = run_bounded(&["eval", "--format", "json", path(&file)], HANG);
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    let sys = &v["systems"][0];
+    let not_used = sys["not_used"].as_array().unwrap();
+    let ids: Vec<&str> = not_used
+        .iter()
+        .map(|u| u["body"].as_str().unwrap())
+        .collect();
+    assert_eq!(ids, ["s1000", "s1001", "s1002"], "{not_used:?}");
+    assert!(not_used.iter().all(|u| u["rule"] == "too-many-bodies"));
+    assert_eq!(not_used[0]["line"], 1002);
+    assert_eq!(sys["bodies"].as_array().unwrap().len(), 1000);
+}

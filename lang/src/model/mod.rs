@@ -6,6 +6,7 @@
 //! diagnostics; the offending value is dropped and lowering goes on, so one mistake never
 //! hides the rest.
 
+pub mod limits;
 mod resolve;
 mod value;
 pub mod what_if;
@@ -422,6 +423,7 @@ fn lower_system(
     let mut seen: FxHashMap<&str, usize> = FxHashMap::default();
     let mut body_syntax: Vec<&ast::BodyDecl> = Vec::new();
     let mut body_let_syntax: Vec<Vec<&ast::Expr>> = Vec::new();
+    let mut past = false; // past the bound on a system's bodies
     for b in &s.bodies {
         if let Some(prev) = seen
             .get(b.name.name.as_str())
@@ -439,6 +441,14 @@ fn lower_system(
                 .with_label(prev.name_span, "first declared here")
                 .with_help("body identifiers must be unique within a system"),
             );
+            continue;
+        }
+        if sys.bodies.len() >= limits::MAX_SYSTEM_BODIES {
+            diags.push(limits::too_many_bodies(
+                s,
+                b,
+                !std::mem::replace(&mut past, true),
+            ));
             continue;
         }
         seen.insert(&b.name.name, sys.bodies.len());
@@ -646,10 +656,8 @@ fn lower_props(
     let mut further: Vec<Declared> = Vec::new();
     // Every quantity written, even one whose value was refused, with its citations: a
     // repeat that cites nothing, or the same sources as an earlier one, is a duplicate
-    // whether or not the first could be read.
-    // By quantity, in a list: a body declares a few dozen quantities at most, which a scan
-    // finds sooner than a hash table is built for every body.
-    // One flat list in the order written (a list per quantity cost an allocation each).
+    // whether or not the first could be read. One flat list in the order written: a body
+    // declares a few dozen quantities at most, which a scan finds soonest.
     let mut seen: Vec<(Qty, Written)> = Vec::with_capacity(b.props.len());
     for p in &b.props {
         let Some(def) = quantities::find(b.kind, &p.name.name) else {

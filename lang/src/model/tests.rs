@@ -427,3 +427,44 @@ fn an_empty_body_is_noted_unless_its_lines_failed_to_parse() {
     let full = empty.replace("star orv {\n", "star orv {\n    mass = 1 Msun\n");
     assert_eq!(notes(&full), Vec::<String>::new());
 }
+
+/// A system is read with at most `MAX_SYSTEM_BODIES` bodies: each body past the bound is an
+/// error of its own (the first with the note and the fix), a duplicate is still reported as
+/// one, the bodies within the bound keep their values, and the next system is read whole.
+#[test]
+fn bodies_past_a_systems_bound_are_errors_each() {
+    use crate::diagnostic::Rule;
+    let n = limits::MAX_SYSTEM_BODIES;
+    let mut src = String::from("system \"Crowd\" {\n");
+    for i in 0..n + 3 {
+        src.push_str(&format!(" star s{i} {{ mass = 0.5 Msun }}\n"));
+    }
+    src.push_str(
+        " star s0 { mass = 0.6 Msun }\n}\nsystem \"Next\" {\n star t { mass = 1 Msun }\n}\n",
+    );
+    let (m, diags) = lower_text(&src);
+    assert_eq!(m.systems[0].bodies.len(), n);
+    assert_eq!(m.systems[1].bodies.len(), 1);
+    let last = &m.systems[0].bodies[n - 1];
+    assert_eq!(last.id, format!("s{}", n - 1));
+    assert!(last.get(Qty::StarMass).is_some());
+    let past: Vec<&Diagnostic> = diags
+        .iter()
+        .filter(|d| d.rule == Rule::TooManyBodies)
+        .collect();
+    assert_eq!(past.len(), 3, "{:?}", messages(&diags));
+    assert_eq!(
+        past[0].message,
+        format!("star 's{n}' is not read: system \"Crowd\" already has {n} bodies, the most one system is read with")
+    );
+    assert!(past[0].help.is_some() && !past[0].notes.is_empty());
+    assert!(past[1].help.is_none() && past[1].notes.is_empty());
+    assert!(past[2].message.starts_with(&format!("star 's{}'", n + 2)));
+    assert_eq!(
+        diags.iter().filter(|d| d.rule == Rule::Duplicate).count(),
+        1,
+        "{:?}",
+        messages(&diags)
+    );
+    assert!(Rule::TooManyBodies.is_fixed());
+}

@@ -1,0 +1,40 @@
+//! How much of one system is read: a bound on the bodies of a system, so that the results
+//! of one system, held whole until it is written, stay small whatever the file holds.
+
+use crate::ast;
+use crate::diagnostic::{Diagnostic, Rule};
+
+/// The most bodies read in one system. A planetary system is a star (or a few) and its
+/// planets; a thousand is far past any, and at about 10 kB of results per body (more in
+/// Monte Carlo) it keeps one system in tens of megabytes. Before the bound, one system of
+/// 100,000 stars (a 5 MB file) took over a gigabyte.
+pub const MAX_SYSTEM_BODIES: usize = 1000;
+
+/// The error on a body past the bound: it is not read. Each such body has its own, so that
+/// every value it declares is listed as not used with this reason; the first says how to
+/// fix it.
+pub(super) fn too_many_bodies(s: &ast::SystemDecl, b: &ast::BodyDecl, first: bool) -> Diagnostic {
+    let d = Diagnostic::new(
+        Rule::TooManyBodies,
+        b.name.span,
+        format!(
+            "{} '{}' is not read: system \"{}\" already has {MAX_SYSTEM_BODIES} bodies, the most \
+             one system is read with",
+            b.kind.as_str(),
+            b.name.name,
+            s.name
+        ),
+    );
+    if !first {
+        return d;
+    }
+    let more = s.bodies.len().saturating_sub(MAX_SYSTEM_BODIES);
+    d.with_note(format!(
+        "about {more} bodies from here on are not derived or checked; a bound keeps one \
+         system's results small"
+    ))
+    .with_help(
+        "a system is a star (or a few) with its planets: put each other star and its planets \
+         in a system of its own",
+    )
+}
