@@ -668,6 +668,21 @@ fn a_second_votable_table_is_refused() {
         "</TABLE><TABLE name=\"references\"><FIELD name=\"id\" ucd=\"meta.id\"/><FIELD name=\"text\" ucd=\"meta.bib\"/><DATA><TABLEDATA><TR><TD>a</TD><TD>Pell 2031</TD></TR></TABLEDATA></DATA></TABLE></RESOURCE></VOTABLE>",
     );
     assert_eq!(vot(&refs, Limits::default()).unwrap().len(), 2);
+    // The table of references placed first is passed over too (with or without rows); alone,
+    // it is no table of values, and the error says so.
+    let table = "<TABLE name=\"references\"><FIELD name=\"id\" ucd=\"meta.id\"/><FIELD name=\"text\" ucd=\"meta.bib\"/><DATA><TABLEDATA><TR><TD>a</TD><TD>Pell 2031</TD></TR></TABLEDATA></DATA></TABLE>";
+    for first in [table, "<TABLE><FIELD name=\"id\" ucd=\"meta.id\"/></TABLE>"] {
+        let refs_first = VOT.replace("<RESOURCE><TABLE>", &format!("<RESOURCE>{first}<TABLE>"));
+        assert_eq!(
+            vot(&refs_first, Limits::default()).unwrap(),
+            vot(VOT, Limits::default()).unwrap()
+        );
+    }
+    let only = format!("<VOTABLE><RESOURCE>{table}</RESOURCE></VOTABLE>");
+    let e = VoTable::new(only.as_bytes(), Limits::default())
+        .err()
+        .unwrap();
+    assert!(e.message.contains("no TABLE of values: the only one, `references`, has every FIELD in the UCD family `meta.`"), "{e}");
     // A second table of rows without FIELDs is not passed over: its columns are unknown.
     let bare = VOT.replace(
         "</TABLE></RESOURCE></VOTABLE>",

@@ -92,11 +92,31 @@ impl<R: BufRead> VoTable<R> {
         };
         let mut in_table = false;
         let mut in_field = false;
+        // Whether every FIELD of the table so far has a UCD of the `meta.` family: a table
+        // of references only (this project's export writes one after its values), passed
+        // over when it comes first, as [`VoTable::finish`] passes it over after.
+        let mut meta_only = false;
+        let mut table_name = String::new();
+        let mut passed_over: Option<String> = None;
         loop {
             let (ev, name, attrs) = t.event()?;
             match (ev, name.as_str()) {
                 (Kind::Start | Kind::Empty, "TABLE") => {
                     in_table = true;
+                    meta_only = true;
+                    t.columns.clear();
+                    let get = |k: &str| attrs.iter().find(|(n, _)| n == k).map(|(_, v)| v.clone());
+                    table_name = get("name").or_else(|| get("ID")).unwrap_or_default();
+                }
+                (Kind::Start | Kind::Empty, "TABLEDATA") | (Kind::End, "TABLE")
+                    if in_table && meta_only && !t.columns.is_empty() =>
+                {
+                    if name == "TABLEDATA" {
+                        t.skip_to_table_end()?;
+                    }
+                    in_table = false;
+                    t.columns.clear();
+                    passed_over = Some(std::mem::take(&mut table_name));
                 }
                 (Kind::Start | Kind::Empty, "FIELD") if in_table => {
                     if t.columns.len() >= t.limits.max_columns {
@@ -106,6 +126,7 @@ impl<R: BufRead> VoTable<R> {
                         )));
                     }
                     let get = |k: &str| attrs.iter().find(|(n, _)| n == k).map(|(_, v)| v.clone());
+                    meta_only &= get("ucd").is_some_and(|u| u.trim().starts_with("meta."));
                     let name = get("name").or_else(|| get("ID")).ok_or_else(|| {
                         t.error(format!("FIELD {} has no name", t.columns.len() + 1))
                     })?;
@@ -140,7 +161,13 @@ impl<R: BufRead> VoTable<R> {
                     return Ok(t);
                 }
                 (Kind::Eof, _) => {
-                    return Err(t.error("no TABLE with TABLEDATA found; is this a VOTable?"))
+                    return Err(match passed_over {
+                        Some(n) => t.error(format!(
+                            "no TABLE of values: the only one{} has every FIELD in the UCD family `meta.` (identifiers, references)",
+                            if n.is_empty() { String::new() } else { format!(", `{n}`,") }
+                        )),
+                        None => t.error("no TABLE with TABLEDATA found; is this a VOTable?"),
+                    })
                 }
                 _ => {}
             }
@@ -180,6 +207,17 @@ impl<R: BufRead> VoTable<R> {
                     }
                 }
                 (Kind::Eof, _) => return Ok(()),
+                _ => {}
+            }
+        }
+    }
+
+    /// Read past the rows of a table passed over, to its end.
+    fn skip_to_table_end(&mut self) -> Result<(), TableError> {
+        loop {
+            match self.event()? {
+                (Kind::End, name, _) if name == "TABLE" => return Ok(()),
+                (Kind::Eof, _, _) => return Err(self.error("a TABLE is never closed")),
                 _ => {}
             }
         }
