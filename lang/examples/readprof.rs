@@ -1,6 +1,7 @@
 //! The reader stage alone, run many times in one process, for profiling and for the
 //! reader figures of docs/performance.md (not a test):
-//! `cargo run --release -p syzygy --example readprof -- read 10` (also `lex`, `parse`,
+//! `cargo run --release -p syzygy --example readprof -- read 10` (also `lex`, `parse`, `lower`
+//! (one parse lowered again and again), `parts`,
 //! `sizes` for the tree's node sizes, `mc` and `lin1` for one system's derivation). It
 //! generates the same invented 10 MB catalogue as the `bench` example.
 #[path = "common/catalogue.rs"]
@@ -46,6 +47,8 @@ fn main() {
         .nth(2)
         .and_then(|s| s.parse().ok())
         .unwrap_or(10);
+    // The `lower` stage lowers one parse of the file again and again.
+    let parsed = (stage == "lower").then(|| syzygy::parser::parse(FileId(0), &src));
     let (a0, b0) = counts();
     let t = Instant::now();
     let mut passes = Vec::with_capacity(runs);
@@ -79,6 +82,16 @@ fn main() {
                         .map(|p| p.model.systems.len())
                         .sum();
                 std::hint::black_box(n);
+            }
+            "lower" => {
+                if let Some(p) = &parsed {
+                    let mut d = Vec::new();
+                    std::hint::black_box(
+                        syzygy::model::lower(FileId(0), &p.file, &mut d)
+                            .systems
+                            .len(),
+                    );
+                }
             }
             "parse" => {
                 std::hint::black_box(syzygy::parser::parse(FileId(0), &src).diagnostics.len());
