@@ -153,7 +153,7 @@ pub enum Uncertainty {
     Symmetric(f64, Span),
     /// `± a ± b ...`: independent uncertainties of one value (a statistical and a
     /// systematic one, say), combined in quadrature when lowered.
-    Quadrature(Vec<f64>, Span),
+    Quadrature(Box<[f64]>, Span),
     /// `+p/-m`: the uncertainty above (plus) and below (minus) the value.
     Asymmetric {
         plus: f64,

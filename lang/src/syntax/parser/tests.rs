@@ -374,7 +374,7 @@ fn several_symmetric_uncertainties_are_kept_as_written() {
     let ExprKind::Literal(l) = &e.kind else {
         panic!("not a literal: {e:?}");
     };
-    assert!(matches!(&l.uncertainty, Uncertainty::Quadrature(p, _) if p == &[0.05, 0.02]));
+    assert!(matches!(&l.uncertainty, Uncertainty::Quadrature(p, _) if p[..] == [0.05, 0.02]));
 }
 
 fn help_of(value: &str) -> Option<String> {

@@ -538,7 +538,7 @@ impl Cursor<'_> {
                     if parts.is_empty() {
                         Uncertainty::Symmetric(s, span)
                     } else {
-                        Uncertainty::Quadrature(parts, span)
+                        Uncertainty::Quadrature(parts.into(), span)
                     }
                 } else if kind(1) == Some(Tok::Plus)
                     && kind(3) == Some(Tok::Slash)
