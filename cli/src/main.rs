@@ -157,7 +157,8 @@ struct EngineArgs {
     allow: Vec<Rule>,
     /// For this run only, use VALUE for a body's quantity in place of what the file declares
     /// (repeatable; the file is not changed). VALUE is written as in a file: `--set
-    /// 'veyra.radius=0.80 ± 0.02 Rsun'`. Name the system when several have the body:
+    /// 'veyra.radius=0.80 ± 0.02 Rsun'`, a limit `--set 'b.eccentricity<0.1'`. Name the
+    /// system when several have the body:
     /// `--set 'Veyra/b.period=3.5 ± 0.1 d'` (see docs/review.md).
     #[arg(
         long,

@@ -48,12 +48,37 @@ impl WhatIf {
     }
 }
 
-/// Read a request. The target is everything before the first `=`; in it, a system name ends
-/// at the last `/`, and the body at the first `.` after it.
+/// Read a request. The target is everything before the first `=`, `<` or `>` (a limit may be
+/// written as in a file, `b.eccentricity<0.1`, or after `=`, `b.eccentricity=<0.1`); in it, a
+/// system name ends at the last `/`, and the body at the first `.` after it.
 pub fn parse(written: &str) -> Result<WhatIf, String> {
-    let form = "expected [SYSTEM/]BODY.QUANTITY=VALUE, such as 'b.period=3.5247 ± 0.0001 d'";
-    let Some((target, value)) = written.split_once('=') else {
+    let form = "expected [SYSTEM/]BODY.QUANTITY=VALUE, such as 'b.period=3.5247 ± 0.0001 d' \
+                (or a limit, 'b.eccentricity<0.1')";
+    // The first `=`, `<` or `>` right after `.QUANTITY` (a system's name may hold any of them).
+    let after_quantity = |i: usize| {
+        let before = written.get(..i).unwrap_or("").trim_end();
+        let name = before
+            .rfind(|c: char| !(c.is_alphanumeric() || c == '_'))
+            .map_or(0, |j| j + 1);
+        name < before.len() && before.get(..name).is_some_and(|b| b.ends_with('.'))
+    };
+    let Some(at) = written
+        .char_indices()
+        .find(|&(i, c)| matches!(c, '=' | '<' | '>') && after_quantity(i))
+        .map(|(i, _)| i)
+    else {
         return Err(form.to_string());
+    };
+    let (target, value) = match written.get(at..at + 1) {
+        // The relation of a limit is part of the value: `<0.1`.
+        Some("<" | ">") => (
+            written.get(..at).unwrap_or(""),
+            written.get(at..).unwrap_or(""),
+        ),
+        _ => (
+            written.get(..at).unwrap_or(""),
+            written.get(at + 1..).unwrap_or(""),
+        ),
     };
     let (system, rest) = match target.rsplit_once('/') {
         Some((s, r)) => (Some(s.trim().to_string()), r),
@@ -397,11 +422,34 @@ mod tests {
         )
         .unwrap_err();
         assert!(two.contains("not one value"), "{two}");
-        let limit = lower(&parse("b.eccentricity=< 0.1").unwrap(), BodyKind::Planet).unwrap();
-        let Content::Measured(m) = limit.content else {
-            panic!("{limit:?}")
-        };
-        assert_eq!((m.value, m.form), (0.1, crate::model::Form::UpperLimit));
+        // A limit, after `=` or as a file writes it; a system's name may hold `<` or `=`.
+        for (written, form) in [
+            ("b.eccentricity=< 0.1", crate::model::Form::UpperLimit),
+            ("b.eccentricity<0.1", crate::model::Form::UpperLimit),
+            ("b.eccentricity >0.1", crate::model::Form::LowerLimit),
+            ("A<B=C/b.eccentricity< 0.1", crate::model::Form::UpperLimit),
+        ] {
+            let w = parse(written).unwrap();
+            assert_eq!(
+                (w.body.as_str(), w.quantity.as_str()),
+                ("b", "eccentricity")
+            );
+            let limit = lower(&w, BodyKind::Planet).unwrap();
+            let Content::Measured(m) = limit.content else {
+                panic!("{limit:?}")
+            };
+            assert_eq!((m.value, m.form), (0.1, form), "{written}");
+        }
+        assert_eq!(
+            parse("A<B=C/b.eccentricity< 0.1")
+                .unwrap()
+                .system
+                .as_deref(),
+            Some("A<B=C")
+        );
+        assert!(parse("b.eccentricity 0.1")
+            .unwrap_err()
+            .contains("or a limit, 'b.eccentricity<0.1'"));
         let t = lower(&parse("s.spectral_type=\"K1V\"").unwrap(), BodyKind::Star).unwrap();
         assert_eq!(t.content, Content::Text("K1V".into()));
         // An expression, with or without names of other values, is refused as one (not as
