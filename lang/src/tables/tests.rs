@@ -813,3 +813,36 @@ fn csv_lines_are_counted_for_every_line_break() {
         );
     }
 }
+
+/// A VOTable cut short (inside its rows, or after them before the document closes) or with
+/// anything but white space after its end is refused: its rows would otherwise be imported in
+/// part without a word.
+#[test]
+fn a_votable_cut_short_or_with_content_after_it_is_refused() {
+    assert_eq!(vot(VOT, Limits::default()).unwrap().len(), 2);
+    let rows_end = VOT.find("</TR>").unwrap() + "</TR>".len();
+    let e = vot(VOT.get(..rows_end).unwrap(), Limits::default()).unwrap_err();
+    assert!(e.message.contains("ends inside the table's rows"), "{e}");
+    let data_end = VOT.find("</TABLEDATA>").unwrap() + "</TABLEDATA>".len();
+    let e = vot(VOT.get(..data_end).unwrap(), Limits::default()).unwrap_err();
+    assert!(
+        e.message.contains("ends before its elements are closed"),
+        "{e}"
+    );
+    for tail in ["<VOTABLE/>", "junk", "<RESOURCE></RESOURCE>"] {
+        let e = vot(&format!("{VOT}\n{tail}\n"), Limits::default()).unwrap_err();
+        assert!(
+            e.message.contains("after the end of the VOTABLE document"),
+            "{tail}: {e}"
+        );
+    }
+    assert_eq!(
+        vot(
+            &format!("{VOT}\n  \n<!-- a comment -->\n"),
+            Limits::default()
+        )
+        .unwrap()
+        .len(),
+        2
+    );
+}

@@ -68,6 +68,8 @@ pub struct VoTable<R: BufRead> {
     depth: usize,
     rows: usize,
     done: bool,
+    /// Set once the root element has closed: anything but white space after it is refused.
+    root_closed: bool,
 }
 
 impl<R: BufRead> VoTable<R> {
@@ -89,6 +91,7 @@ impl<R: BufRead> VoTable<R> {
             depth: 0,
             rows: 0,
             done: false,
+            root_closed: false,
         };
         let mut in_table = false;
         let mut in_field = false;
@@ -206,6 +209,10 @@ impl<R: BufRead> VoTable<R> {
                         )));
                     }
                 }
+                (Kind::Eof, _) if self.depth > 0 => {
+                    return Err(self
+                        .error("the file ends before its elements are closed: it looks cut short"))
+                }
                 (Kind::Eof, _) => return Ok(()),
                 _ => {}
             }
@@ -244,6 +251,10 @@ impl<R: BufRead> VoTable<R> {
         };
         let line = self.reader.get_ref().line;
         let err = |m: String| TableError::new(Some(line), m);
+        let after_root = || err("content after the end of the VOTABLE document".into());
+        if self.root_closed && matches!(ev, Event::Start(_) | Event::Empty(_)) {
+            return Err(after_root());
+        }
         let out =
             match ev {
                 Event::Start(s) => {
@@ -256,6 +267,7 @@ impl<R: BufRead> VoTable<R> {
                 Event::Empty(s) => (Kind::Empty, local(&s), attributes(&s).map_err(err)?),
                 Event::End(e) => {
                     self.depth = self.depth.saturating_sub(1);
+                    self.root_closed |= self.depth == 0;
                     (
                         Kind::End,
                         String::from_utf8_lossy(e.local_name().as_ref()).into_owned(),
@@ -268,6 +280,9 @@ impl<R: BufRead> VoTable<R> {
                         "{e}: only the XML predefined entities and character references are read"
                     ))
                     })?;
+                    if self.root_closed && !text.trim().is_empty() {
+                        return Err(after_root());
+                    }
                     (Kind::Text, text.into_owned(), Vec::new())
                 }
                 Event::CData(c) => (
@@ -397,7 +412,9 @@ impl<R: BufRead> RowSource for VoTable<R> {
                 }
                 (Kind::Eof, _) => {
                     self.done = true;
-                    return Ok(None);
+                    return Err(self.error(
+                        "the file ends inside the table's rows, without its closing </TABLEDATA>: it looks cut short, so rows may be missing",
+                    ));
                 }
                 _ => {}
             }
