@@ -580,3 +580,49 @@ fn combined_sources_say_so_after_the_round_trip() {
     );
     assert!(!written.contains("preferred"), "{written}");
 }
+
+/// Names the language reads (`☉`, `⊕`, `µ`, `°` first) come back from the table of declared
+/// values as they were, so that `☉x`, `x` and `⊕x` stay three planets and `r_☉`, `r_⊕` two
+/// references with their own texts; a hand-made table whose names make the same id gets ids
+/// of their own (`r_`, `r__2`), each body's table name kept in a comment (invented data).
+#[test]
+fn names_with_symbols_and_colliding_names_stay_apart_in_the_round_trip() {
+    let dir = scratch("import-symbol-names");
+    let file = dir.join("coll.syz");
+    std::fs::write(
+        &file,
+        "ref r_☉ \"Invented ref one\"\nref r_⊕ \"Invented ref two\"\nsystem \"Coll\" {\n  star s { mass = 1.0 ± 0.1 Msun [r_☉] }\n  planet ☉x orbits s { period = 3 ± 0.1 d [r_☉] }\n  planet x orbits s { period = 5 ± 0.1 d [r_⊕] }\n  planet ⊕x orbits s { period = 7 ± 0.1 d }\n  planet °c orbits s { period = 40 ± 1 d }\n}\n",
+    )
+    .unwrap();
+    let before = declared(&[s(&file)]);
+    let csv = run(&["eval", "--format", "csv", "--table", "sources", s(&file)]).stdout;
+    let table = dir.join("declared.csv");
+    std::fs::write(&table, &csv).unwrap();
+    let out = dir.join("out");
+    let o = run(&["import", s(&table), "-o", s(&out)]);
+    assert_eq!(o.status.code(), Some(0), "{}{}", stdout(&o), stderr(&o));
+    assert!(stdout(&o).contains("4 planets"), "{}", stdout(&o));
+    assert_eq!(declared(&[s(&out)]), before);
+    // The same table with names no language would write: `r☼` and `r✶` both make `r`.
+    let text = String::from_utf8(csv)
+        .unwrap()
+        .replace("r_☉", "r☼")
+        .replace("r_⊕", "r✶")
+        .replace("☉x", "p☼");
+    std::fs::write(&table, text).unwrap();
+    let out = dir.join("out2");
+    let o = run(&["import", s(&table), "-o", s(&out)]);
+    assert_eq!(o.status.code(), Some(0), "{}{}", stdout(&o), stderr(&o));
+    let written = std::fs::read_to_string(out.join("coll.syz")).unwrap();
+    assert!(written.contains("ref r \"Invented ref one\""), "{written}");
+    assert!(
+        written.contains("ref r_2 \"Invented ref two\""),
+        "{written}"
+    );
+    assert!(
+        written.contains("# \"p☼\" in the table\n  planet p orbits s"),
+        "{written}"
+    );
+    let o = run(&["check", s(&out)]);
+    assert_eq!(o.status.code(), Some(0), "{}", stdout(&o));
+}

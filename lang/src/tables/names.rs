@@ -15,15 +15,26 @@ const KEYWORDS: &[&str] = &[
 /// Longest name or file stem made.
 const MAX_LEN: usize = 64;
 
-/// A valid Syzygy name for a table value: ASCII letters, digits and `_`, starting with a
-/// letter or `_`, never a keyword; `fallback` when nothing is left.
+/// The characters a name may hold besides ASCII letters, digits and `_`, as the lexer reads
+/// them (`crate::lexer`): `☉`, `⊕`, `µ`, `μ`, `ω` anywhere, `°` only first.
+fn other_name_char(ch: char, first: bool) -> bool {
+    matches!(
+        ch,
+        '\u{2609}' | '\u{2295}' | '\u{00B5}' | '\u{03BC}' | '\u{03C9}'
+    ) || (first && ch == '\u{00B0}')
+}
+
+/// A valid Syzygy name for a table value: the characters a name may hold (ASCII letters,
+/// digits, `_`, and the few others the language reads, so that a name the language wrote comes
+/// back as it was), every run of others made one `_`, starting with a letter or `_`, never a
+/// keyword; `fallback` when nothing is left.
 pub fn syzygy_name(text: &str, fallback: &str) -> String {
     let mut out = String::new();
     for ch in text.trim().chars() {
         if out.len() >= MAX_LEN {
             break;
         }
-        if ch.is_ascii_alphanumeric() {
+        if ch.is_ascii_alphanumeric() || other_name_char(ch, out.is_empty()) {
             out.push(ch);
         } else if !out.ends_with('_') && !out.is_empty() {
             out.push('_');

@@ -9,7 +9,7 @@ use super::names::{file_stem, syzygy_name};
 use super::{Column, Issue, IssueKind, RowSource, TableError};
 use crate::ast::BodyKind;
 use crate::quantities;
-use std::collections::{BTreeMap, HashMap};
+use std::collections::{BTreeMap, HashMap, HashSet};
 use std::fmt::Write;
 
 /// The columns that make a table the table of declared values (`file`, `line` and
@@ -27,6 +27,8 @@ pub fn is_sources_table(columns: &[Column]) -> bool {
 /// One body as read so far.
 struct Body {
     id: String,
+    /// The name in the table, when the id differs from it.
+    table_name: Option<String>,
     kind: BodyKind,
     host: String,
     /// (quantity name, declaration text without the name, used, citation ids)
@@ -42,6 +44,33 @@ struct System {
     bodies: Vec<Body>,
     /// The references its rows name, id to text (ids are only unique within a file).
     refs: BTreeMap<String, String>,
+    /// The id given to each name of the table, references and bodies apart: two names that
+    /// make the same id (`r_☉` and `r_x` once both made `r_`) get ids of their own.
+    ids: HashMap<(bool, String), String>,
+    /// The ids given, references and bodies apart.
+    taken: HashSet<(bool, String)>,
+    /// Where each body is in `bodies`, by id and kind.
+    at: HashMap<(String, BodyKind), usize>,
+}
+
+impl System {
+    /// The id of a reference (`reference`) or body named `name` in the table: the name made a
+    /// Syzygy name, with `_2`, `_3`... when another name of the table already has that id.
+    fn id(&mut self, reference: bool, name: &str, fallback: &str) -> String {
+        if let Some(id) = self.ids.get(&(reference, name.to_string())) {
+            return id.clone();
+        }
+        let base = syzygy_name(name, fallback);
+        let mut id = base.clone();
+        let mut n = 1;
+        while self.taken.contains(&(reference, id.clone())) {
+            n += 1;
+            id = format!("{base}_{n}");
+        }
+        self.taken.insert((reference, id.clone()));
+        self.ids.insert((reference, name.to_string()), id.clone());
+        id
+    }
 }
 
 /// Read every row of a table of declared values into one system text per (file, system).
@@ -122,19 +151,6 @@ pub fn import_sources(source: &mut dyn RowSource, table: &str) -> Result<ImportR
                 continue;
             }
         };
-        let refs: Vec<String> = cell("refs")
-            .split(';')
-            .map(str::trim)
-            .filter(|r| !r.is_empty())
-            .map(|r| syzygy_name(r, "ref"))
-            .collect();
-        let mut line = text;
-        if !refs.is_empty() {
-            let _ = write!(line, " [{}]", refs.join(", "));
-        }
-        if cell("origin") == "assumed" {
-            line.push_str(" assumed");
-        }
         let key = (cell("file").to_string(), system.to_string());
         let si = *by_key.entry(key).or_insert_with(|| {
             systems.push(System {
@@ -147,16 +163,36 @@ pub fn import_sources(source: &mut dyn RowSource, table: &str) -> Result<ImportR
             continue;
         };
         for (id, text) in reference_texts(cell("references")) {
-            sys.refs.entry(syzygy_name(&id, "ref")).or_insert(text);
+            let id = sys.id(true, &id, "ref");
+            sys.refs.entry(id).or_insert(text);
         }
-        let id = syzygy_name(body_name, kind.as_str());
-        let bi = match sys.bodies.iter().position(|b| b.id == id && b.kind == kind) {
-            Some(i) => i,
+        let refs: Vec<String> = cell("refs")
+            .split(';')
+            .map(str::trim)
+            .filter(|r| !r.is_empty())
+            .map(|r| sys.id(true, r, "ref"))
+            .collect();
+        let mut line = text;
+        if !refs.is_empty() {
+            let _ = write!(line, " [{}]", refs.join(", "));
+        }
+        if cell("origin") == "assumed" {
+            line.push_str(" assumed");
+        }
+        let id = sys.id(false, body_name, kind.as_str());
+        let bi = match sys.at.get(&(id.clone(), kind)) {
+            Some(&i) => i,
             None => {
+                let host = match cell("host") {
+                    "" => String::new(),
+                    h => sys.id(false, h, "star"),
+                };
+                sys.at.insert((id.clone(), kind), sys.bodies.len());
                 sys.bodies.push(Body {
+                    table_name: (id != body_name).then(|| body_name.to_string()),
                     id,
                     kind,
-                    host: syzygy_name(cell("host"), ""),
+                    host,
                     decls: Vec::new(),
                     combined: Vec::new(),
                 });
@@ -190,6 +226,7 @@ pub fn import_sources(source: &mut dyn RowSource, table: &str) -> Result<ImportR
         }
         for id in missing {
             s.bodies.push(Body {
+                table_name: None,
                 id,
                 kind: BodyKind::Star,
                 host: String::new(),
@@ -295,6 +332,9 @@ fn system_text(s: &System, table: &str) -> SystemText {
             && s.bodies
                 .iter()
                 .any(|h| h.id == b.host && h.kind == BodyKind::Star);
+        if let Some(name) = &b.table_name {
+            let _ = writeln!(out, "  # {} in the table", string_literal(name));
+        }
         match b.kind {
             BodyKind::Planet if has_host => {
                 let _ = writeln!(out, "  planet {} orbits {} {{", b.id, b.host);
