@@ -476,7 +476,13 @@ pub fn one_body(
         return Err((2, format!("{}: nothing to read", file.display())));
     };
     let Some((system, body_index)) = syzygy::report::find_body(&analysis, system, body) else {
-        return Err((1, format!("no body '{body}' in {}", file.display())));
+        let past = analysis.model.systems.iter().find(|s| {
+            system.is_none_or(|n| n == s.name) && s.not_read.iter().any(|(n, _)| n == body)
+        });
+        return Err(match past {
+            Some(s) => (1, syzygy::model::limits::not_read(&s.name, body)),
+            None => (1, format!("no body '{body}' in {}", file.display())),
+        });
     };
     Ok(OneBody {
         analysis,

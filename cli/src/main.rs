@@ -189,7 +189,8 @@ fn parse_rule(s: &str) -> Result<Rule, String> {
     })?;
     if rule.is_fixed() {
         return Err(format!(
-            "'{s}' cannot be changed: a syntax error, an unreadable file or bodies past a system's bound mean values were not read, so it is always an error"
+            "'{s}' cannot be changed: {}, so it is always an error",
+            rule.why_fixed()
         ));
     }
     Ok(rule)

@@ -154,9 +154,15 @@ pub fn apply_in(
                     Diagnostic::new(
                         Rule::UnusedAllow,
                         *span,
-                        format!("'{}' cannot be silenced, so this comment silences nothing", rule.id()),
+                        format!(
+                            "'{}' cannot be silenced, so this comment silences nothing",
+                            rule.id()
+                        ),
                     )
-                    .with_note("a syntax error, an unreadable file or bodies past a system's bound mean values were not read; silencing it would make them disappear without a word")
+                    .with_note(format!(
+                        "{}; silencing it would make them disappear without a word",
+                        rule.why_fixed()
+                    ))
                     .with_help("fix the error instead, and remove the comment"),
                 );
             } else if Rule::from_id(id).is_none() {

@@ -58,6 +58,14 @@ macro_rules! rules {
             pub fn is_fixed(self) -> bool {
                 matches!(self, Rule::Syntax | Rule::Io | Rule::TooManyBodies)
             }
+
+            /// Why a fixed rule keeps its severity, in words for messages.
+            pub fn why_fixed(self) -> &'static str {
+                match self {
+                    Rule::TooManyBodies => "bodies past a system's bound are not read",
+                    _ => "a syntax error or an unreadable file means values were not read",
+                }
+            }
         }
     };
 }

@@ -201,7 +201,35 @@ fn assemble(
     // Before silencing, so that a value refused by a silenced rule still shows.
     let mut unused = unused::collect(src, &ast, &model, &results, &diagnostics);
     // Comments first: a comment that silences a rule the settings turn off is still used.
-    let mut diagnostics = allow::apply_in(src, &region, &ast.comments, diagnostics);
+    // A comment inside a body that is not read (past a system's bound) silences nothing and
+    // is not stale either: the body's own error says why nothing there is reported.
+    let mut unread: Vec<source::Span> = model
+        .systems
+        .iter()
+        .flat_map(|s| s.not_read.iter().map(|(_, at)| *at))
+        .collect();
+    unread.sort_unstable();
+    let read_comments: Vec<ast::Comment>;
+    let comments = if unread.is_empty() {
+        &ast.comments
+    } else {
+        // Bodies do not overlap: the last one starting before the comment is the only one
+        // that can hold it.
+        let inside = |c: &ast::Comment| {
+            let i = unread.partition_point(|b| b.start <= c.span.start);
+            i.checked_sub(1)
+                .and_then(|i| unread.get(i))
+                .is_some_and(|b| c.span.end <= b.end)
+        };
+        read_comments = ast
+            .comments
+            .iter()
+            .filter(|c| !inside(c))
+            .cloned()
+            .collect();
+        &read_comments
+    };
+    let mut diagnostics = allow::apply_in(src, &region, comments, diagnostics);
     unused::mark_in_source(&mut unused, &diagnostics);
     settings.apply_overrides(&mut diagnostics);
     diagnostic::sort_diagnostics(&mut diagnostics);

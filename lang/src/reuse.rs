@@ -264,9 +264,13 @@ impl Spans for System {
             bodies,
             lets,
             let_order: _,
+            not_read,
         } = self;
         f(name_span);
         f(span);
+        for (_, s) in not_read {
+            f(s);
+        }
         bodies.each_span(f);
         lets.each_span(f);
     }

@@ -143,7 +143,8 @@ fn parse(text: &str) -> Result<Layer, String> {
         })?;
         if rule.is_fixed() {
             return Err(format!(
-                "[rules]: '{id}' cannot be changed: a syntax error, an unreadable file or bodies past a system's bound mean values were not read, so it is always an error"
+                "[rules]: '{id}' cannot be changed: {}, so it is always an error",
+                rule.why_fixed()
             ));
         }
         let severity = match level.as_str() {

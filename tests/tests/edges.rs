@@ -469,4 +469,23 @@ fn a_system_past_its_bound_on_bodies_says_which_bodies_are_not_read() {
     assert!(not_used.iter().all(|u| u["rule"] == "too-many-bodies"));
     assert_eq!(not_used[0]["line"], 1002);
     assert_eq!(sys["bodies"].as_array().unwrap().len(), 1000);
+    // Named where it is not read, a body past the bound is said to be declared but not read;
+    // a silencing comment inside it is not called stale.
+    let o = run_bounded(&["explain", path(&file), "s1001.mass"], HANG);
+    assert!(
+        stderr(&o).contains(
+            "'s1001' is declared but not read: system \"Crowd\" has more than 1000 bodies"
+        ),
+        "{}",
+        stderr(&o)
+    );
+    let with_comment = src.replace(
+        "  star s1002 { mass = 0.5 Msun }",
+        "  star s1002 {\n    # allow(unknown-quantity)\n    masss = 1 Msun\n  }",
+    );
+    std::fs::write(&file, with_comment).unwrap();
+    let o = run_bounded(&["check", "--format", "json", path(&file)], HANG);
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["summary"]["rules"]["too-many-bodies"], 3, "{v}");
+    assert!(v["summary"]["rules"].get("unused-allow").is_none(), "{v}");
 }

@@ -626,3 +626,30 @@ fn names_with_symbols_and_colliding_names_stay_apart_in_the_round_trip() {
     let o = run(&["check", s(&out)]);
     assert_eq!(o.status.code(), Some(0), "{}", stdout(&o));
 }
+
+/// A table that makes one system of more bodies than a system is read with is written whole,
+/// with a `too-many-bodies` issue (exit status 1) saying that checking it would not read the
+/// bodies past the bound (invented data).
+#[test]
+fn a_system_past_the_bound_on_bodies_is_written_with_an_issue() {
+    let dir = scratch("import-crowd");
+    let mut csv = String::from(
+        "system,body,kind,host,quantity,value,below,above,text,unit,limit,origin,refs\n",
+    );
+    for i in 0..1002 {
+        csv.push_str(&format!("Crowd,s{i},star,,mass,0.5,,,,Msun,,declared,\n"));
+    }
+    let table = dir.join("crowd.csv");
+    std::fs::write(&table, csv).unwrap();
+    let out = dir.join("out");
+    let o = run(&["import", s(&table), "-o", s(&out)]);
+    assert_eq!(o.status.code(), Some(1), "{}{}", stdout(&o), stderr(&o));
+    assert!(
+        stderr(&o).contains("system `Crowd` has 1002 bodies, and a system is read with at most 1000: `syz check` would not read the 2 past them"),
+        "{}",
+        stderr(&o)
+    );
+    assert!(stderr(&o).contains("[too-many-bodies]"), "{}", stderr(&o));
+    let written = std::fs::read_to_string(out.join("crowd.syz")).unwrap();
+    assert!(written.contains("star s1001"), "{written}");
+}

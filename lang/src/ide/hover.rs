@@ -238,6 +238,9 @@ pub fn quantity(a: &Analysis, si: usize, body: &str, qty: Qty, method: &Method) 
 pub fn body_table(a: &Analysis, si: usize, name: &str, method: &Method) -> Option<String> {
     let sys = a.model.systems.get(si)?;
     let Some(bi) = sys.body(name) else {
+        if sys.not_read.iter().any(|(n, _)| n == name) {
+            return Some(crate::model::limits::not_read(&sys.name, name));
+        }
         return Some(format!("no body `{name}` in system \"{}\"", sys.name));
     };
     let b = sys.bodies.get(bi)?;

@@ -28,13 +28,20 @@ pub(super) fn too_many_bodies(s: &ast::SystemDecl, b: &ast::BodyDecl, first: boo
     if !first {
         return d;
     }
-    let more = s.bodies.len().saturating_sub(MAX_SYSTEM_BODIES);
-    d.with_note(format!(
-        "about {more} bodies from here on are not derived or checked; a bound keeps one \
-         system's results small"
-    ))
+    d.with_note(
+        "this body and the ones after it in the system are not derived or checked; a bound \
+         keeps one system's results small",
+    )
     .with_help(
         "a system is a star (or a few) with its planets: put each other star and its planets \
          in a system of its own",
+    )
+}
+
+/// What is said where a body past the bound is named (`orbits`, `body.quantity`, hover,
+/// `syz explain`): that it is declared but not read, and why.
+pub fn not_read(system: &str, id: &str) -> String {
+    format!(
+        "'{id}' is declared but not read: system \"{system}\" has more than {MAX_SYSTEM_BODIES} bodies, the most one system is read with (too-many-bodies)"
     )
 }

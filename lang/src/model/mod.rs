@@ -160,6 +160,9 @@ pub struct System {
     pub lets: Vec<LetInfo>,
     /// The bindings that resolved, each after those it uses: the order to evaluate them in.
     pub let_order: Vec<LetId>,
+    /// The bodies declared past [`limits::MAX_SYSTEM_BODIES`], which are not read: each id
+    /// and where the body is written.
+    pub not_read: Vec<(String, Span)>,
 }
 
 impl System {
@@ -418,12 +421,12 @@ fn lower_system(
         bodies: Vec::new(),
         lets,
         let_order: Vec::new(),
+        not_read: Vec::new(),
     };
     // First pass: bodies and their identifiers, so that references can be resolved in any order.
     let mut seen: FxHashMap<&str, usize> = FxHashMap::default();
     let mut body_syntax: Vec<&ast::BodyDecl> = Vec::new();
     let mut body_let_syntax: Vec<Vec<&ast::Expr>> = Vec::new();
-    let mut past = false; // past the bound on a system's bodies
     for b in &s.bodies {
         if let Some(prev) = seen
             .get(b.name.name.as_str())
@@ -444,11 +447,9 @@ fn lower_system(
             continue;
         }
         if sys.bodies.len() >= limits::MAX_SYSTEM_BODIES {
-            diags.push(limits::too_many_bodies(
-                s,
-                b,
-                !std::mem::replace(&mut past, true),
-            ));
+            let first = sys.not_read.is_empty();
+            diags.push(limits::too_many_bodies(s, b, first));
+            sys.not_read.push((b.name.name.to_string(), b.span));
             continue;
         }
         seen.insert(&b.name.name, sys.bodies.len());
@@ -478,7 +479,10 @@ fn lower_system(
         .iter()
         .enumerate()
         .map(|(bi, b)| {
-            let orbits = b.orbits.as_ref().and_then(|o| resolve_host(&sys, o, diags));
+            let orbits = b
+                .orbits
+                .as_ref()
+                .and_then(|o| resolve::resolve_host(&sys, o, diags));
             (orbits, lower_props(b, bi, (refs, shared), &resolver, diags))
         })
         .collect();
@@ -557,40 +561,6 @@ fn note_empty_bodies(
                 }
             }),
         );
-    }
-}
-
-fn resolve_host(sys: &System, o: &ast::Ident, diags: &mut Vec<Diagnostic>) -> Option<usize> {
-    match sys.body(&o.name) {
-        Some(i) if sys.bodies.get(i).map(|b| b.kind) == Some(BodyKind::Star) => Some(i),
-        Some(_) => {
-            diags.push(
-                Diagnostic::new(
-                    Rule::UnknownBody,
-                    o.span,
-                    format!("'{}' is a planet; a planet orbits a star", o.name),
-                )
-                .with_help("name a star declared in this system after 'orbits'"),
-            );
-            None
-        }
-        None => {
-            let stars = sys
-                .bodies
-                .iter()
-                .filter(|b| b.kind == BodyKind::Star)
-                .map(|b| b.id.as_str());
-            let mut d = Diagnostic::new(
-                Rule::UnknownBody,
-                o.span,
-                format!("no star '{}' in system \"{}\"", o.name, sys.name),
-            );
-            if let Some(s) = crate::text::closest(&o.name, stars) {
-                d = d.with_help(format!("did you mean '{s}'?"));
-            }
-            diags.push(d);
-            None
-        }
     }
 }
 

@@ -460,6 +460,10 @@ impl<'a> Resolver<'a> {
     }
 
     fn unknown_body(&self, b: &ast::Ident) -> Diagnostic {
+        if self.sys.not_read.iter().any(|(n, _)| *n == b.name) {
+            let why = super::limits::not_read(&self.sys.name, &b.name);
+            return Diagnostic::new(Rule::TooManyBodies, b.span, why);
+        }
         let d = Diagnostic::new(
             Rule::UnknownBody,
             b.span,
@@ -685,4 +689,47 @@ fn rational(v: f64) -> Option<Rat> {
         }
     }
     None
+}
+
+pub(super) fn resolve_host(
+    sys: &System,
+    o: &ast::Ident,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<usize> {
+    match sys.body(&o.name) {
+        Some(i) if sys.bodies.get(i).map(|b| b.kind) == Some(crate::ast::BodyKind::Star) => Some(i),
+        Some(_) => {
+            diags.push(
+                Diagnostic::new(
+                    Rule::UnknownBody,
+                    o.span,
+                    format!("'{}' is a planet; a planet orbits a star", o.name),
+                )
+                .with_help("name a star declared in this system after 'orbits'"),
+            );
+            None
+        }
+        None if sys.not_read.iter().any(|(n, _)| *n == o.name) => {
+            let why = super::limits::not_read(&sys.name, &o.name);
+            diags.push(Diagnostic::new(Rule::TooManyBodies, o.span, why));
+            None
+        }
+        None => {
+            let stars = sys
+                .bodies
+                .iter()
+                .filter(|b| b.kind == crate::ast::BodyKind::Star)
+                .map(|b| b.id.as_str());
+            let mut d = Diagnostic::new(
+                Rule::UnknownBody,
+                o.span,
+                format!("no star '{}' in system \"{}\"", o.name, sys.name),
+            );
+            if let Some(s) = crate::text::closest(&o.name, stars) {
+                d = d.with_help(format!("did you mean '{s}'?"));
+            }
+            diags.push(d);
+            None
+        }
+    }
 }

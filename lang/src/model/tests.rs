@@ -467,4 +467,38 @@ fn bodies_past_a_systems_bound_are_errors_each() {
         messages(&diags)
     );
     assert!(Rule::TooManyBodies.is_fixed());
+    // Named where it is not read (after `orbits`, in an expression), it is said to be
+    // declared but not read, not missing.
+    let n = limits::MAX_SYSTEM_BODIES;
+    let mut src = String::from("system \"Crowd\" {\n");
+    for i in 0..n {
+        src.push_str(&format!(" star s{i} {{ mass = 0.5 Msun }}\n"));
+    }
+    src.push_str(" star late { mass = 0.7 Msun }\n}\nsystem \"Two\" {\n");
+    for i in 0..n - 1 {
+        src.push_str(&format!(" star s{i} {{ mass = 0.5 Msun }}\n"));
+    }
+    src.push_str(" planet b orbits late { period = 3 d; radius = late.radius * 0.1 }\n star late { radius = 1 Rsun }\n}\n");
+    let (m, diags) = lower_text(&src);
+    assert_eq!(m.systems[0].not_read.len(), 1);
+    assert_eq!(
+        m.systems[1].not_read.len(),
+        1,
+        "{:?}",
+        m.systems[1].not_read
+    );
+    let named: Vec<&str> = diags
+        .iter()
+        .filter(|d| {
+            d.rule == Rule::TooManyBodies
+                && d.message.starts_with("'late' is declared but not read")
+        })
+        .map(|d| d.message.as_str())
+        .collect();
+    assert_eq!(named.len(), 2, "{:?}", messages(&diags));
+    assert!(
+        !diags.iter().any(|d| d.rule == Rule::UnknownBody),
+        "{:?}",
+        messages(&diags)
+    );
 }

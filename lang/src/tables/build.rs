@@ -705,6 +705,8 @@ impl Importer {
                 .iter()
                 .map(|b| b.host.as_ref().and_then(|h| stars.get(h)).cloned())
                 .collect();
+            self.issues
+                .extend(super::too_many_bodies(&sys.name, kept.len()));
             self.summary.systems += 1;
             self.summary.stars += kept.iter().filter(|b| b.kind == BodyKind::Star).count();
             self.summary.planets += kept.iter().filter(|b| b.kind == BodyKind::Planet).count();

@@ -136,10 +136,12 @@ pub enum IssueKind {
     Unused,
     /// A system or body name equal to an earlier one but for letter case.
     NameCase,
+    /// A system with more bodies than one system is read with.
+    TooManyBodies,
 }
 
 impl IssueKind {
-    pub const ALL: [IssueKind; 9] = [
+    pub const ALL: [IssueKind; 10] = [
         IssueKind::BadNumber,
         IssueKind::OutOfRange,
         IssueKind::MissingName,
@@ -149,6 +151,7 @@ impl IssueKind {
         IssueKind::ExtraCells,
         IssueKind::Unused,
         IssueKind::NameCase,
+        IssueKind::TooManyBodies,
     ];
 
     pub fn id(self) -> &'static str {
@@ -162,8 +165,26 @@ impl IssueKind {
             IssueKind::ExtraCells => "extra-cells",
             IssueKind::Unused => "unused-cell",
             IssueKind::NameCase => "name-case",
+            IssueKind::TooManyBodies => "too-many-bodies",
         }
     }
+}
+
+/// The issue of a system written with more bodies than `syz` reads in one system
+/// ([`crate::model::limits::MAX_SYSTEM_BODIES`]): the file is written whole, but checking it
+/// would not read the bodies past the bound.
+pub(crate) fn too_many_bodies(system: &str, bodies: usize) -> Option<Issue> {
+    let max = crate::model::limits::MAX_SYSTEM_BODIES;
+    (bodies > max).then(|| Issue {
+        kind: IssueKind::TooManyBodies,
+        row: 0,
+        line: 0,
+        column: None,
+        message: format!(
+            "system `{system}` has {bodies} bodies, and a system is read with at most {max}: `syz check` would not read the {} past them; give each star and its planets a system of its own",
+            bodies - max
+        ),
+    })
 }
 
 impl Issue {

@@ -236,6 +236,9 @@ pub fn import_sources(source: &mut dyn RowSource, table: &str) -> Result<ImportR
         }
     }
     let files = systems.iter().map(|s| system_text(s, table)).collect();
+    for s in &systems {
+        issues.extend(super::too_many_bodies(&s.name, s.bodies.len()));
+    }
     summary.systems = systems.len();
     for s in &systems {
         for b in &s.bodies {
