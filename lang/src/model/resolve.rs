@@ -691,6 +691,8 @@ fn rational(v: f64) -> Option<Rat> {
     None
 }
 
+/// The star a planet `orbits`, or the error that says why there is none (no such body, a
+/// planet, or a star past the system's bound on bodies).
 pub(super) fn resolve_host(
     sys: &System,
     o: &ast::Ident,

@@ -602,13 +602,31 @@ impl<'a> Cursor<'a> {
             self.pos += 1;
             let _ = self.ident("a name");
         }
+        if name.is_none() {
+            // The name did not read (`star é {`): the error says so. Go on to the block on
+            // this line, so that its lines are read as the body's and not spilled into the
+            // system (which then closed at the body's `}`).
+            while let Some(k) = self.peek() {
+                match k {
+                    Tok::LBrace | Tok::Newline | Tok::Semi | Tok::RBrace => break,
+                    _ => self.pos += 1,
+                }
+            }
+            if self.peek() != Some(Tok::LBrace) {
+                self.skip_line();
+                return None;
+            }
+        }
         if !self.open_block("the body") {
             return None;
         }
-        let name = name?;
+        let named = name.is_some();
         let mut body = BodyDecl {
             kind,
-            name,
+            name: name.unwrap_or_else(|| Ident {
+                name: Default::default(),
+                span: Span::new(self.file, start, start),
+            }),
             orbits,
             props: Vec::new(),
             lets: Vec::new(),
@@ -665,7 +683,8 @@ impl<'a> Cursor<'a> {
         }
         body.props = self.props.drain(..).collect();
         body.span = Span::new(self.file, start, self.prev_end());
-        Some(body)
+        // A body whose name did not read is not kept: its error covers its lines.
+        named.then_some(body)
     }
 
     fn parse_let(&mut self) -> Option<LetDecl> {

@@ -627,3 +627,29 @@ fn a_mark_written_twice_is_said_and_once_is_taken() {
     // Once, before or after the citations, is fine.
     parse_ok("ref a \"A\"\nsystem \"S\" {\n star s {\n  radius = 0.85 ± 0.02 Rsun assumed [a]\n  mass = 1 Msun [a] preferred\n }\n}\n");
 }
+
+/// A body whose name does not read (`star é {`, `star 2x {`, `planet orbits s {`) is one
+/// error: its block is read as its own and dropped, and the bodies after it stay in the system
+/// (the block's lines spilled into the system, whose `}` then closed at the body's).
+#[test]
+fn a_body_whose_name_does_not_read_costs_only_that_body() {
+    for bad in ["star é {", "star 2x {", "planet orbits s {", "star {"] {
+        let src = format!(
+            "system \"A\" {{\n  star s {{ mass = 1 Msun }}\n  {bad}\n    mass = 1 Msun\n  }}\n  star t {{ mass = 0.8 Msun }}\n  planet p orbits t {{ period = 3 d }}\n}}\nsystem \"B\" {{\n  star u {{ mass = 1 Msun }}\n}}\n"
+        );
+        let p = parse(FileId(0), &src);
+        assert_eq!(p.diagnostics.len(), 1, "{bad}: {:#?}", p.diagnostics);
+        assert!(
+            p.diagnostics[0].message.contains("name"),
+            "{bad}: {:?}",
+            p.diagnostics[0]
+        );
+        let names: Vec<&str> = p.file.systems[0]
+            .bodies
+            .iter()
+            .map(|b| b.name.name.as_str())
+            .collect();
+        assert_eq!(names, ["s", "t", "p"], "{bad}");
+        assert_eq!(p.file.systems.len(), 2, "{bad}");
+    }
+}
