@@ -671,7 +671,17 @@ fn a_second_votable_table_is_refused() {
     // The table of references placed first is passed over too (with or without rows); alone,
     // it is no table of values, and the error says so.
     let table = "<TABLE name=\"references\"><FIELD name=\"id\" ucd=\"meta.id\"/><FIELD name=\"text\" ucd=\"meta.bib\"/><DATA><TABLEDATA><TR><TD>a</TD><TD>Pell 2031</TD></TR></TABLEDATA></DATA></TABLE>";
-    for first in [table, "<TABLE><FIELD name=\"id\" ucd=\"meta.id\"/></TABLE>"] {
+    // So is one whose UCDs are written in capitals (UCDs ignore letter case), and a table
+    // with neither FIELDs nor data.
+    let upper = table
+        .replace("meta.id", "META.ID")
+        .replace("meta.bib", "Meta.Bib");
+    for first in [
+        table,
+        "<TABLE><FIELD name=\"id\" ucd=\"meta.id\"/></TABLE>",
+        &upper,
+        "<TABLE name=\"x\"></TABLE>",
+    ] {
         let refs_first = VOT.replace("<RESOURCE><TABLE>", &format!("<RESOURCE>{first}<TABLE>"));
         assert_eq!(
             vot(&refs_first, Limits::default()).unwrap(),

@@ -111,6 +111,8 @@ impl<R: BufRead> VoTable<R> {
                     let get = |k: &str| attrs.iter().find(|(n, _)| n == k).map(|(_, v)| v.clone());
                     table_name = get("name").or_else(|| get("ID")).unwrap_or_default();
                 }
+                // A table with neither FIELDs nor data holds nothing: passed over.
+                (Kind::End, "TABLE") if in_table && t.columns.is_empty() => in_table = false,
                 (Kind::Start | Kind::Empty, "TABLEDATA") | (Kind::End, "TABLE")
                     if in_table && meta_only && !t.columns.is_empty() =>
                 {
@@ -129,7 +131,7 @@ impl<R: BufRead> VoTable<R> {
                         )));
                     }
                     let get = |k: &str| attrs.iter().find(|(n, _)| n == k).map(|(_, v)| v.clone());
-                    meta_only &= get("ucd").is_some_and(|u| u.trim().starts_with("meta."));
+                    meta_only &= get("ucd").is_some_and(|u| is_meta(&u));
                     let name = get("name").or_else(|| get("ID")).ok_or_else(|| {
                         t.error(format!("FIELD {} has no name", t.columns.len() + 1))
                     })?;
@@ -197,7 +199,7 @@ impl<R: BufRead> VoTable<R> {
                 }
                 (Kind::Start | Kind::Empty, "FIELD") if table.is_some() => {
                     fields += 1;
-                    values |= !get("ucd").is_some_and(|u| u.trim().starts_with("meta."));
+                    values |= !get("ucd").is_some_and(|u| is_meta(&u));
                 }
                 (Kind::Start | Kind::Empty, "DATA") | (Kind::End, "TABLE") if table.is_some() => {
                     let called = table.take().filter(|n| !n.is_empty());
@@ -301,6 +303,15 @@ impl<R: BufRead> VoTable<R> {
             };
         Ok(out)
     }
+}
+
+/// Whether a UCD is of the `meta.` family (identifiers, references). UCDs are compared
+/// without regard to letter case (IVOA UCD 1.1 Recommendation, 2005: case is not
+/// significant; from memory).
+fn is_meta(ucd: &str) -> bool {
+    ucd.trim()
+        .get(..5)
+        .is_some_and(|p| p.eq_ignore_ascii_case("meta."))
 }
 
 /// An element's attributes, by local name.
