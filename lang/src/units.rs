@@ -525,6 +525,9 @@ const OTHER_SPELLINGS: &[(&str, &str)] = &[
     ("hour", "h"),
     ("hours", "h"),
     ("mps", "m/s"),
+    ("kms", "km/s"),
+    ("Kelvin", "K"),
+    ("kelvin", "K"),
     // Subscript e (Earth), J (Jupiter), o and "solar" (the Sun) as papers write them.
     ("Re", "Rearth"),
     ("Me", "Mearth"),
@@ -545,6 +548,12 @@ const OTHER_SPELLINGS: &[(&str, &str)] = &[
 /// `m`, `g`, `s` and `K`, `R_J` two from `yr`), so a suggestion may be at most half as many
 /// edits away as the symbol has characters.
 pub fn suggest(symbol: &str) -> Option<&'static str> {
+    suggest_for(symbol, None)
+}
+
+/// [`suggest`] for a unit that should have the dimension `wanted`: of the spellings as close
+/// as each other, one of that dimension first (`Msn` for a mass is `Msun`, not `min`).
+pub fn suggest_for(symbol: &str, wanted: Option<Dimension>) -> Option<&'static str> {
     if offset_scale(symbol).is_some() {
         return None;
     }
@@ -553,7 +562,8 @@ pub fn suggest(symbol: &str) -> Option<&'static str> {
     }
     let lower = symbol.to_lowercase();
     let length = symbol.chars().count();
-    let mut best: Option<(usize, &'static str)> = None;
+    // Ranked by distance, then by whether the dimension is the one wanted.
+    let mut best: Option<((usize, bool), &'static str)> = None;
     for def in registry() {
         for cand in std::iter::once(&def.symbol).chain(def.aliases.iter()) {
             let d = if cand.to_lowercase() == lower {
@@ -561,8 +571,9 @@ pub fn suggest(symbol: &str) -> Option<&'static str> {
             } else {
                 crate::text::edit_distance(&lower, &cand.to_lowercase())
             };
-            if d <= 2 && 2 * d <= length && best.is_none_or(|(bd, _)| d < bd) {
-                best = Some((d, def.symbol));
+            let rank = (d, wanted.is_some_and(|w| w != def.dim));
+            if d <= 2 && 2 * d <= length && best.is_none_or(|(br, _)| rank < br) {
+                best = Some((rank, def.symbol));
             }
         }
     }

@@ -182,7 +182,12 @@ pub(super) fn lower_value(
         Some(u) => match units::resolve(u) {
             Ok(u) => u,
             Err(errs) => {
-                for (span, e) in errs {
+                let single = matches!(u.factors.as_slice(), [f] if f.exponent == 1);
+                for (span, mut e) in errs {
+                    if single {
+                        // The unit alone gives the value its dimension: suggest one of it.
+                        e.suggestion = units::suggest_for(&e.symbol, Some(def.dim));
+                    }
                     let d = unknown_unit(span, &e);
                     diags.push(match units::offset_scale(&e.symbol) {
                         Some(scale) if def.dim == Dimension::TEMPERATURE => {

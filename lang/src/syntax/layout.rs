@@ -454,7 +454,10 @@ fn literal_unit_start(v: &[Token]) -> Option<usize> {
     }
     i += 1;
     if k(i) == Some(Tok::PlusMinus) && k(i + 1) == Some(Tok::Number) {
-        i += 2;
+        // One `±` or several (combined in quadrature).
+        while k(i) == Some(Tok::PlusMinus) && k(i + 1) == Some(Tok::Number) {
+            i += 2;
+        }
     } else if k(i) == Some(Tok::Plus)
         && k(i + 1) == Some(Tok::Number)
         && k(i + 2) == Some(Tok::Slash)
@@ -671,6 +674,19 @@ mod tests {
         assert!(out.contains("K    assumed [a]\n"), "{out}");
         assert!(out.contains("Msun preferred [a]\n"), "{out}");
         assert!(same_tokens(src, &out));
+        assert_eq!(format_source(&out).unwrap(), out);
+    }
+
+    #[test]
+    fn a_value_with_several_uncertainties_has_its_unit_in_the_column() {
+        let src = "system \"A\" {\n  star s {\n    mass = 1.1 ± 0.05 ± 0.02 Msun\n    radius = 1.2 ± 0.05 Rsun\n  }\n}\n";
+        let out = format_source(src).unwrap();
+        let col = |unit: &str| {
+            out.lines()
+                .find_map(|l| l.find(unit).map(|i| l[..i].chars().count()))
+                .unwrap()
+        };
+        assert_eq!(col("Msun"), col("Rsun"), "{out}");
         assert_eq!(format_source(&out).unwrap(), out);
     }
 

@@ -282,3 +282,16 @@ fn one_symbol_shortcut_equals_the_general_path() {
     }
     assert!(known > 300, "only {known} spellings resolve");
 }
+
+/// A misspelt unit is matched against spellings of the dimension the value needs first:
+/// `Msn` for a mass is `Msun` (as close as the minute, `min`, when letter case is ignored),
+/// `Rsum` for a length `Rsun`; without a dimension the nearest spelling is still found.
+#[test]
+fn suggestions_prefer_the_dimension_the_value_needs() {
+    assert_eq!(suggest_for("Msn", Some(Dimension::MASS)), Some("Msun"));
+    assert_eq!(suggest_for("Msn", Some(Dimension::TIME)), Some("min"));
+    assert_eq!(suggest_for("Rsum", Some(Dimension::LENGTH)), Some("Rsun"));
+    assert_eq!(suggest_for("dd", Some(Dimension::TIME)), Some("d"));
+    assert!(suggest("Msn").is_some());
+    assert_eq!(suggest_for("zzzzzz", Some(Dimension::MASS)), None);
+}
