@@ -50,6 +50,7 @@ pub const MAX_VALUE_TOKENS: usize = 256;
 pub const MAX_SYNTAX_ERRORS: usize = 1000;
 
 mod names;
+mod notation;
 mod repeats;
 mod value;
 

@@ -522,22 +522,22 @@ fn an_exponent_without_a_caret_gets_the_unit_rewritten() {
 fn concise_uncertainties_keep_the_value_decimals() {
     // `value(digits)`: the digits count in the value's last places (common practice).
     assert_eq!(
-        super::value::concise_uncertainty("1.1", "5").as_deref(),
+        super::notation::concise_uncertainty("1.1", "5").as_deref(),
         Some("0.5")
     );
     assert_eq!(
-        super::value::concise_uncertainty("1.1", "15").as_deref(),
+        super::notation::concise_uncertainty("1.1", "15").as_deref(),
         Some("1.5")
     );
     assert_eq!(
-        super::value::concise_uncertainty("152", "3").as_deref(),
+        super::notation::concise_uncertainty("152", "3").as_deref(),
         Some("3")
     );
     assert_eq!(
-        super::value::concise_uncertainty("0.00120", "7").as_deref(),
+        super::notation::concise_uncertainty("0.00120", "7").as_deref(),
         Some("0.00007")
     );
-    assert_eq!(super::value::concise_uncertainty("1e3", "5"), None);
+    assert_eq!(super::notation::concise_uncertainty("1e3", "5"), None);
 }
 
 #[test]
@@ -652,4 +652,28 @@ fn a_body_whose_name_does_not_read_costs_only_that_body() {
         assert_eq!(names, ["s", "t", "p"], "{bad}");
         assert_eq!(p.file.systems.len(), 2, "{bad}");
     }
+}
+
+/// A symmetric and an asymmetric uncertainty on one value, in either order, is one error that
+/// names both and says to keep one (it was read as arithmetic: a dimension error, or a list of
+/// expected tokens).
+#[test]
+fn a_value_with_both_kinds_of_uncertainty_says_to_keep_one() {
+    for (value, written) in [
+        ("5000 ± 30 +40/-20 K", "`± 30 +40/-20`"),
+        ("5000 +40/-20 ± 30 K", "`+40/-20 ± 30`"),
+    ] {
+        let src = format!("system \"A\" {{\n  star s {{ teff = {value} }}\n}}\n");
+        let p = parse(FileId(0), &src);
+        assert_eq!(p.diagnostics.len(), 1, "{value}: {:#?}", p.diagnostics);
+        let d = &p.diagnostics[0];
+        assert!(d.message.starts_with(written), "{}", d.message);
+        assert!(d
+            .message
+            .contains("once symmetric (± 30) and once asymmetric (+40/-20)"));
+        let help = d.help.as_deref().unwrap();
+        assert!(help.contains("`5000 ± 30` or `5000 +40/-20`"), "{help}");
+    }
+    // Several symmetric ones stay one value.
+    parse_ok("system \"A\" {\n  star s { teff = 5000 ± 30 ± 40 K }\n}\n");
 }

@@ -1,0 +1,462 @@
+//! Values written in notations this language does not read (an uncertainty typeset as in a
+//! paper, in parentheses, given twice; a unit's exponent without `^`; a second property on
+//! the line), each an error with the spelling the language takes.
+
+use super::*;
+use crate::diagnostic::Fix;
+
+impl Cursor<'_> {
+    /// A unit's exponent written as papers typeset it, without `^` (`km s-1`, `g cm-3`):
+    /// to the grammar a subtraction, reported as a dimension error far from the cause. The
+    /// first unit symbol followed directly by `-` and a whole number is an error with the
+    /// unit rewritten.
+    pub(super) fn exponent_without_caret(&self, slice: &[Token]) -> Option<Diagnostic> {
+        let joined = |x: &Token, y: &Token| x.end == y.start;
+        // Only after a number, where a unit is written (`d-1` alone may be a binding's use).
+        if slice.first()?.kind != Tok::Number {
+            return None;
+        }
+        let found = slice.windows(3).find_map(|w| match w {
+            [unit, minus, n]
+                if unit.kind == Tok::Ident
+                    && minus.kind == Tok::Minus
+                    && n.kind == Tok::Number
+                    && joined(unit, minus)
+                    && joined(minus, n)
+                    && self.text(*n).bytes().all(|c| c.is_ascii_digit())
+                    && crate::units::lookup(self.text(*unit)).is_some() =>
+            {
+                Some((unit, n))
+            }
+            _ => None,
+        })?;
+        let (unit, n) = found;
+        let at = Span::new(self.file, unit.start, n.end);
+        let written = self.src.get(unit.start..n.end)?;
+        let exponent = self.text(*n);
+        let symbol = self.text(*unit);
+        Some(
+            Diagnostic::new(
+                Rule::Syntax,
+                at,
+                format!("`{written}` reads as a subtraction, not as a unit with an exponent"),
+            )
+            .with_help(format!(
+                "write the exponent with `^`: `{symbol}^-{exponent}` (or divide: `/{symbol}`)"
+            ))
+            .with_fix(at, format!("{symbol}^-{exponent}")),
+        )
+    }
+
+    /// An uncertainty written as tables and papers write it, which the grammar would read
+    /// as something else or not at all: `0.4 +0.1 -0.05` (signs attached to their numbers,
+    /// a sum to the grammar: `impact` would silently be 0.45) and the concise `1.1(5)`. An
+    /// error with the spelling this language takes; a sum written with spaces after its
+    /// signs (`0.4 + 0.1 - 0.05`) is left to be one.
+    pub(super) fn uncertainty_in_another_notation(&self, slice: &[Token]) -> Option<Diagnostic> {
+        let joined = |x: &Token, y: &Token| x.end == y.start;
+        let span = |from: &Token, to: &Token| Span::new(self.file, from.start, to.end);
+        // A negative value keeps its sign: `-0.4 +0.1 -0.05`.
+        let (begin, slice) = match slice {
+            [m, rest @ ..]
+                if m.kind == Tok::Minus && rest.first().is_some_and(|n| joined(m, n)) =>
+            {
+                (m.start, rest)
+            }
+            _ => (slice.first()?.start, slice),
+        };
+        let [value, a, b, rest @ ..] = slice else {
+            return None;
+        };
+        if value.kind != Tok::Number {
+            return None;
+        }
+        let v = self.src.get(begin..value.end)?;
+        // `92^{+6}_{-5}` (or `_{-5}^{+6}`): an asymmetric uncertainty as typeset in a paper.
+        if let Some((plus, minus, len)) = self.src.get(value.end..).and_then(typeset_uncertainty) {
+            let at = Span::new(self.file, value.end, value.end + len);
+            let written = self.src.get(value.end..value.end + len).unwrap_or("");
+            let fixed = format!(" +{plus}/-{minus}");
+            return Some(
+                Diagnostic::new(
+                    Rule::Syntax,
+                    at,
+                    format!(
+                        "`{v}{written}` is typeset notation, which this language does not read"
+                    ),
+                )
+                .with_help(format!("write the uncertainty as `{v} +{plus}/-{minus}`"))
+                .with_fix(at, fixed),
+            );
+        }
+        // `5000 ± 30 +40/-20` or `1.0 +0.1/-0.05 ± 0.02`: a symmetric and an asymmetric
+        // uncertainty on one value, which the grammar reads as arithmetic.
+        let asymmetric = |t: &[Token]| {
+            matches!(t, [p, n, s, m, k, ..] if p.kind == Tok::Plus && n.kind == Tok::Number
+                && s.kind == Tok::Slash && m.kind == Tok::Minus && k.kind == Tok::Number)
+        };
+        let both = match slice.get(1..).unwrap_or_default() {
+            [pm, n, after @ ..]
+                if pm.kind == Tok::PlusMinus && n.kind == Tok::Number && asymmetric(after) =>
+            {
+                Some((self.text(*n), after.get(1), after.get(4), after.get(4)))
+            }
+            after @ [_, _, _, _, _, pm, n, ..]
+                if asymmetric(after) && pm.kind == Tok::PlusMinus && n.kind == Tok::Number =>
+            {
+                Some((self.text(*n), after.get(1), after.get(4), Some(n)))
+            }
+            _ => None,
+        };
+        if let (Some((sym, Some(above), Some(below), Some(last))), Some(first)) =
+            (both, slice.get(1))
+        {
+            let (above, below) = (self.text(*above), self.text(*below));
+            return Some(
+                Diagnostic::new(
+                    Rule::Syntax,
+                    span(first, last),
+                    format!(
+                        "`{}` gives the uncertainty twice, once symmetric (± {sym}) and once asymmetric (+{above}/-{below})",
+                        self.src.get(first.start..last.end).unwrap_or("")
+                    ),
+                )
+                .with_help(format!(
+                    "keep one: `{v} ± {sym}` or `{v} +{above}/-{below}`; several symmetric uncertainties are written `± a ± b` (combined in quadrature), an asymmetric one is not combined so: combine them yourself if that is meant"
+                )),
+            );
+        }
+        // `92 (+6/-5)`: an asymmetric uncertainty in parentheses.
+        if a.kind == Tok::LParen && matches!(b.kind, Tok::Plus | Tok::Minus) {
+            let close = rest.iter().position(|t| t.kind == Tok::RParen)?;
+            let inside: Vec<Tok> = rest.get(..close)?.iter().map(|t| t.kind).collect();
+            let close = rest.get(close)?;
+            let sign = |t: Tok| matches!(t, Tok::Plus | Tok::Minus);
+            let shape = matches!(
+                inside.as_slice(),
+                [Tok::Number, Tok::Slash, m, Tok::Number] if sign(*m) && *m != b.kind
+            );
+            if !shape {
+                return None;
+            }
+            let written = self.src.get(b.start..close.start)?.trim();
+            let (first, second) = (rest.first()?, rest.get(3)?);
+            let (above, below) = if b.kind == Tok::Plus {
+                (first, second)
+            } else {
+                (second, first)
+            };
+            let fixed = format!("+{}/-{}", self.text(*above), self.text(*below));
+            return Some(
+                Diagnostic::new(
+                    Rule::Syntax,
+                    span(a, close),
+                    format!("`({written})`: an uncertainty is written without parentheses"),
+                )
+                .with_help(format!("write `{v} {fixed}`"))
+                .with_fix(span(a, close), fixed),
+            );
+        }
+        // `1.1(5)`: the last digits' uncertainty in parentheses.
+        if a.kind == Tok::LParen && joined(value, a) && b.kind == Tok::Number {
+            let close = rest.first().filter(|t| t.kind == Tok::RParen)?;
+            let digits = self.text(*b);
+            if !digits.bytes().all(|c| c.is_ascii_digit()) {
+                return None;
+            }
+            let d = Diagnostic::new(
+                Rule::Syntax,
+                span(value, close),
+                format!(
+                    "`{v}({digits})` gives the uncertainty of the last digits in parentheses, \
+                     a notation this language does not read"
+                ),
+            );
+            let whole = Span::new(self.file, begin, close.end);
+            return Some(match concise_uncertainty(v, digits) {
+                Some(u) => d
+                    .with_help(format!("write the uncertainty out: `{v} ± {u}`"))
+                    .with_fix(whole, format!("{v} ± {u}")),
+                None => d.with_help("write the uncertainty out: `VALUE ± UNCERTAINTY`"),
+            });
+        }
+        let signed = |sign: &Token, n: &Token| {
+            matches!(sign.kind, Tok::Plus | Tok::Minus) && n.kind == Tok::Number && joined(sign, n)
+        };
+        // `0.4 -0.05` or `0.4 +0.05` alone: one side of an uncertainty, or a `±` lost in
+        // copying, which the grammar reads as a difference or a sum (0.35 or 0.45). An
+        // operator after it (`0.4 -0.05 * x`) makes it an expression, left as one.
+        let two_sided = matches!(rest, [c, d, ..] if signed(c, d));
+        // An operator: `*`, `/`, `^`, `(`, or a `+`/`-` not attached to a number after it.
+        let operator_follows = match rest {
+            [t, ..] if matches!(t.kind, Tok::Star | Tok::Slash | Tok::Caret | Tok::LParen) => true,
+            [t, n, ..] if matches!(t.kind, Tok::Plus | Tok::Minus) => !joined(t, n),
+            [t] => matches!(t.kind, Tok::Plus | Tok::Minus),
+            _ => false,
+        };
+        // `0.3 ± 0.05 -0.01`: the same slip after a symmetric uncertainty (0.29 ± 0.05).
+        if a.kind == Tok::PlusMinus && b.kind == Tok::Number {
+            let [c, d, after @ ..] = rest else {
+                return None;
+            };
+            let operator_after = after.first().is_some_and(|t| {
+                matches!(t.kind, Tok::Star | Tok::Slash | Tok::Caret | Tok::LParen)
+            });
+            if !signed(c, d) || joined(b, c) || operator_after {
+                return None;
+            }
+            let written = self.src.get(c.start..d.end).unwrap_or("");
+            return Some(
+                Diagnostic::new(
+                    Rule::Syntax,
+                    span(c, d),
+                    format!(
+                        "`{written}` after the uncertainty reads as {}, not as part of the measurement",
+                        if c.kind == Tok::Minus { "a difference" } else { "a sum" }
+                    ),
+                )
+                .with_help(
+                    "a second uncertainty is written `± u` (combined in quadrature), one above and below `+above/-below`; for a sum, put a space after the sign",
+                ),
+            );
+        }
+        // `0.4 -0.05 -0.1` or `0.4 +0.05 +0.1`: two signed numbers of the same sign.
+        if let [c, d, ..] = rest {
+            if signed(a, b)
+                && signed(c, d)
+                && a.kind == c.kind
+                && !joined(value, a)
+                && !joined(b, c)
+            {
+                let written = self.src.get(a.start..d.end).unwrap_or("");
+                return Some(
+                    Diagnostic::new(
+                        Rule::Syntax,
+                        span(a, d),
+                        format!("`{written}` after the value reads as arithmetic, not as uncertainties"),
+                    )
+                    .with_help(format!(
+                        "an uncertainty is written `{v} ± u`, or `{v} +above/-below`; for arithmetic, put a space after each sign"
+                    )),
+                );
+            }
+        }
+        if signed(a, b) && !joined(value, a) && !two_sided && !operator_follows {
+            let written = self.src.get(a.start..b.end).unwrap_or("");
+            let u = self.text(*b);
+            let reads = if a.kind == Tok::Minus {
+                "a difference"
+            } else {
+                "a sum"
+            };
+            return Some(
+                Diagnostic::new(
+                    Rule::Syntax,
+                    span(a, b),
+                    format!("`{written}` after the value reads as {reads}, not as an uncertainty"),
+                )
+                .with_help(format!(
+                    "a symmetric uncertainty is written `{v} ± {u}`, one above and below \
+                     `{v} +above/-below`; for {reads}, put a space after the sign"
+                ))
+                .with_fix(span(a, b), format!("± {u}")),
+            );
+        }
+        // `0.4 +0.1 -0.05` or `0.4 -0.05 +0.1`.
+        let [c, d, ..] = rest else {
+            return None;
+        };
+        if !(signed(a, b) && signed(c, d) && a.kind != c.kind) || joined(value, a) || joined(b, c) {
+            return None;
+        }
+        let (above, below) = if a.kind == Tok::Plus { (b, d) } else { (d, b) };
+        let (above, below) = (self.text(*above), self.text(*below));
+        Some(
+            Diagnostic::new(
+                Rule::Syntax,
+                span(a, d),
+                format!(
+                    "`{}` reads as a sum, not as uncertainties above and below the value",
+                    self.src.get(a.start..d.end).unwrap_or("")
+                ),
+            )
+            .with_help(format!(
+                "an uncertainty above and below is written `+above/-below`: `{v} +{above}/-{below}`; \
+                 for a sum, put a space after each sign"
+            ))
+            .with_fix(span(a, d), format!("+{above}/-{below}")),
+        )
+    }
+}
+
+impl Cursor<'_> {
+    /// The name of a second property written on the line of the first
+    /// (`mass = 1 Msun radius = 1 Rsun`): found '=', '<' or '>' just after a quantity's name.
+    pub(super) fn second_property(&self, at: usize, found: Option<Tok>) -> Option<&str> {
+        if !matches!(found?, Tok::Eq | Tok::Lt | Tok::Gt) {
+            return None;
+        }
+        let i = self.toks.partition_point(|t| t.start < at);
+        let name = self.toks.get(i.checked_sub(1)?)?;
+        let text = self.text(*name);
+        // Only a quantity's name: `1 Msun = 2` is not two properties.
+        let quantity = [crate::ast::BodyKind::Star, crate::ast::BodyKind::Planet]
+            .into_iter()
+            .any(|k| crate::quantities::find(k, text).is_some());
+        (name.kind == Tok::Ident && quantity).then_some(text)
+    }
+
+    /// Help for an uncertainty written in a form the grammar does not take, found at
+    /// `at`: `-below/+above` (the parts swapped), or a unit before the uncertainty.
+    pub(super) fn misplaced_uncertainty(
+        &self,
+        at: usize,
+        found: Option<Tok>,
+    ) -> Option<(String, Option<Fix>)> {
+        let i = self.toks.partition_point(|t| t.start < at);
+        let back = |n: usize| i.checked_sub(n).and_then(|j| self.toks.get(j));
+        let kind = |n: usize| back(n).map(|t| t.kind);
+        let ahead = |n: usize| self.toks.get(i + n);
+        let text = |t: Option<&Token>| t.map_or("", |t| self.text(*t));
+        match found? {
+            // `1.1 -0.03/+0.05 Rjup`: found '+' after `- NUMBER /`.
+            Tok::Plus
+                if kind(1) == Some(Tok::Slash)
+                    && kind(2) == Some(Tok::Number)
+                    && kind(3) == Some(Tok::Minus) =>
+            {
+                let below = text(back(2));
+                let above = ahead(1)
+                    .filter(|t| t.kind == Tok::Number)
+                    .map_or("ABOVE", |t| self.text(*t));
+                Some((
+                    format!(
+                        "an asymmetric uncertainty is written `+above/-below`, the part above \
+                         the value first: `+{above}/-{below}`"
+                    ),
+                    None,
+                ))
+            }
+            // `1.2 Mjup ± 0.1`: found '±' after a unit that follows a number.
+            Tok::PlusMinus if kind(1) == Some(Tok::Ident) => {
+                let mut j = 1;
+                while matches!(kind(j), Some(Tok::Ident | Tok::Caret | Tok::Slash))
+                    || (kind(j) == Some(Tok::Number) && kind(j + 1) == Some(Tok::Caret))
+                    || (kind(j) == Some(Tok::Minus) && kind(j + 1) == Some(Tok::Caret))
+                {
+                    j += 1;
+                }
+                let value_end = back(j).filter(|t| t.kind == Tok::Number)?.end;
+                // The measurement before the unit: a number, perhaps with `± s` already.
+                let mut k = j;
+                while kind(k + 1) == Some(Tok::PlusMinus) && kind(k + 2) == Some(Tok::Number) {
+                    k += 2;
+                }
+                let value = self.src.get(back(k)?.start..value_end)?;
+                let unit = self.src.get(back(j - 1)?.start..back(1)?.end)?;
+                let spread = ahead(1)
+                    .filter(|t| t.kind == Tok::Number)
+                    .map_or("SPREAD", |t| self.text(*t));
+                let combined = if k > j {
+                    " (the uncertainties are then combined in quadrature)"
+                } else {
+                    ""
+                };
+                Some((
+                    format!(
+                        "the unit goes after the uncertainty, once for the whole measurement: \
+                         `{value} ± {spread} {unit}`{combined}"
+                    ),
+                    None,
+                ))
+            }
+            // `1.05 +/- 0.04 Msun`: found '/' right after '+', with '-' right after it.
+            Tok::Slash
+                if back(1).is_some_and(|t| t.kind == Tok::Plus && t.end == at)
+                    && ahead(1).is_some_and(|t| t.kind == Tok::Minus && t.start == at + 1) =>
+            {
+                let plus = back(1)?;
+                // The user's own numbers in the example, when they are there.
+                let example = match (
+                    back(2).filter(|t| t.kind == Tok::Number),
+                    ahead(2).filter(|t| t.kind == Tok::Number),
+                ) {
+                    (Some(v), Some(u)) => format!("{} ± {}", self.text(*v), self.text(*u)),
+                    _ => "1.05 ± 0.04 Msun".to_string(),
+                };
+                Some((
+                    format!(
+                        "a symmetric uncertainty is written `±` or `+-`: `{example}`; an \
+                         asymmetric one `+above/-below`: `+0.05/-0.04`"
+                    ),
+                    Some(Fix {
+                        span: Span::new(self.file, plus.start, at + 2),
+                        text: "±".to_string(),
+                    }),
+                ))
+            }
+            // `12,5 d`: found ',' between two numbers written without spaces.
+            Tok::Comma => {
+                let whole = back(1).filter(|t| t.kind == Tok::Number && t.end == at)?;
+                let fraction = ahead(1).filter(|t| t.kind == Tok::Number && t.start == at + 1)?;
+                let point = format!("{}.{}", self.text(*whole), self.text(*fraction));
+                Some((
+                    format!("the decimal separator is a point: `{point}`"),
+                    Some(Fix {
+                        span: Span::new(self.file, whole.start, fraction.end),
+                        text: point,
+                    }),
+                ))
+            }
+            _ => None,
+        }
+    }
+}
+
+/// The uncertainty `digits` of the concise notation `value(digits)`, in the value's own
+/// decimals: `1.1(5)` is 0.5, `2459000.1234(12)` is 0.0012, `152(3)` is 3 (common practice).
+/// `None` for a value with an exponent.
+pub(super) fn concise_uncertainty(value: &str, digits: &str) -> Option<String> {
+    if value.contains(['e', 'E']) {
+        return None;
+    }
+    let decimals = value.split_once('.').map_or(0, |(_, f)| f.len());
+    if decimals == 0 {
+        return Some(digits.trim_start_matches('0').to_string()).filter(|s| !s.is_empty());
+    }
+    let padded = format!("{digits:0>width$}", width = decimals + 1);
+    let (int, frac) = padded.split_at(padded.len() - decimals);
+    let int = int.trim_start_matches('0');
+    Some(format!("{}.{frac}", if int.is_empty() { "0" } else { int }))
+}
+
+/// A typeset asymmetric uncertainty at the start of `text`: `^{+6}_{-5}` or `_{-5}^{+6}`
+/// (spaces allowed inside and between the groups): the part above, the part below, and the
+/// length of text they took.
+fn typeset_uncertainty(text: &str) -> Option<(String, String, usize)> {
+    fn group(text: &str, marker: char, sign: char) -> Option<(&str, &str)> {
+        let rest = text.trim_start().strip_prefix(marker)?.trim_start();
+        let rest = rest.strip_prefix('{')?;
+        let close = rest.find('}')?;
+        let inside = rest.get(..close)?.trim();
+        let number = match inside.strip_prefix(sign) {
+            Some(n) => n.trim(),
+            // `^{6}`: the part above may come without its sign.
+            None if sign == '+' => inside,
+            None => return None,
+        };
+        if number.is_empty() || number.parse::<f64>().is_err() {
+            return None;
+        }
+        Some((number, rest.get(close + 1..)?))
+    }
+    let (plus, minus, rest) = if let Some((p, rest)) = group(text, '^', '+') {
+        let (m, rest) = group(rest, '_', '-')?;
+        (p, m, rest)
+    } else {
+        let (m, rest) = group(text, '_', '-')?;
+        let (p, rest) = group(rest, '^', '+')?;
+        (p, m, rest)
+    };
+    Some((plus.to_string(), minus.to_string(), text.len() - rest.len()))
+}
