@@ -36,8 +36,10 @@ pub fn closest<'a>(word: &str, candidates: impl IntoIterator<Item = &'a str>) ->
     let mut best: Option<(usize, &str)> = None;
     for c in candidates {
         let d = edit_distance(&word.to_lowercase(), &c.to_lowercase());
-        let limit = (word.chars().count() / 3).clamp(1, 3);
-        if d <= limit && best.is_none_or(|(bd, _)| d < bd) {
+        let length = word.chars().count();
+        let limit = (length / 3).clamp(1, 3);
+        // A candidate that shares nothing with the word (`x` and `M`) is no suggestion.
+        if d <= limit && d < length && best.is_none_or(|(bd, _)| d < bd) {
             best = Some((d, c));
         }
     }
@@ -81,5 +83,9 @@ mod tests {
         assert_eq!(edit_distance("", "abc"), 3);
         assert_eq!(closest("perod", ["period", "mass"]), Some("period"));
         assert_eq!(closest("zzzz", ["period", "mass"]), None);
+        // One letter shares nothing with another: no suggestion; one more letter does.
+        assert_eq!(closest("x", ["M", "e"]), None);
+        assert_eq!(closest("Ms", ["M", "e"]), Some("M"));
+        assert_eq!(closest("B", ["b", "c"]), Some("b"));
     }
 }
