@@ -625,6 +625,21 @@ fn names_with_symbols_and_colliding_names_stay_apart_in_the_round_trip() {
     );
     let o = run(&["check", s(&out)]);
     assert_eq!(o.status.code(), Some(0), "{}", stdout(&o));
+    // A star and a planet of one name are two bodies with two ids.
+    let text = String::from_utf8(std::fs::read(&table).unwrap())
+        .unwrap()
+        .replace(",x,planet,", ",s,planet,");
+    std::fs::write(&table, text).unwrap();
+    let out = dir.join("out3");
+    let o = run(&["import", s(&table), "-o", s(&out)]);
+    assert_eq!(o.status.code(), Some(0), "{}{}", stdout(&o), stderr(&o));
+    let written = std::fs::read_to_string(out.join("coll.syz")).unwrap();
+    assert!(
+        written.contains("# \"s\" in the table\n  planet s_2 orbits s"),
+        "{written}"
+    );
+    let o = run(&["check", s(&out)]);
+    assert_eq!(o.status.code(), Some(0), "{}", stdout(&o));
 }
 
 /// A table that makes one system of more bodies than a system is read with is written whole,

@@ -502,3 +502,19 @@ fn bodies_past_a_systems_bound_are_errors_each() {
         messages(&diags)
     );
 }
+
+/// A limit on a text (`spectral_type < "K1V"`) is refused: it was read as the text itself, the
+/// `<` gone from every output.
+#[test]
+fn a_limit_on_text_is_refused() {
+    let (m, diags) = lower_text("system \"S\" {\n star s { spectral_type < \"K1V\" }\n}\n");
+    assert!(m.systems[0].bodies[0].get(Qty::SpectralType).is_none());
+    assert_eq!(
+        messages(&diags),
+        ["a limit takes a single number with a unit, not text"]
+    );
+    assert_eq!(
+        diags[0].help.as_deref(),
+        Some("write `spectral_type = \"K1V\"`")
+    );
+}

@@ -69,6 +69,18 @@ pub(super) fn lower_value(
 ) -> Option<(Content, Option<crate::ast::Name>)> {
     let expr = match &p.value {
         ast::PropValue::Text(t, span) => {
+            if p.relation != Relation::Equal {
+                // `spectral_type < "K1V"`: no text is a limit (the `<` would vanish).
+                diags.push(
+                    Diagnostic::new(
+                        Rule::InvalidValue,
+                        *span,
+                        "a limit takes a single number with a unit, not text",
+                    )
+                    .with_help(format!("write `{} = \"{}\"`", def.name, t)),
+                );
+                return None;
+            }
             if def.text {
                 return Some((Content::Text(t.clone()), None));
             }

@@ -2,7 +2,7 @@
 //! either kept in a declaration or named in an [`Issue`]; nothing is dropped quietly.
 
 use super::mapping::{Plan, QuantityPlan};
-use super::names::{ref_name, syzygy_name};
+use super::names::{ref_name, syzygy_name, Ids};
 use super::{Column, Issue, IssueKind, Mapping, MappingError, Row};
 use crate::ast::BodyKind;
 use crate::quantities::QuantityDef;
@@ -43,6 +43,8 @@ pub(crate) struct System {
     pub bodies: Vec<Body>,
     /// (kind, name in the table) to index in `bodies`.
     index: HashMap<(BodyKind, String), usize>,
+    /// The body ids given.
+    ids: Ids,
 }
 
 /// What an import made of one table.
@@ -89,6 +91,7 @@ pub struct Importer {
     system_index: HashMap<String, usize>,
     ref_ids: HashMap<String, String>,
     ref_texts: HashMap<String, String>,
+    ref_names: Ids,
     issues: Vec<Issue>,
     summary: Summary,
 }
@@ -106,6 +109,7 @@ impl Importer {
             system_index: HashMap::new(),
             ref_ids: HashMap::new(),
             ref_texts: HashMap::new(),
+            ref_names: Ids::default(),
             issues: Vec::new(),
             summary: Summary::default(),
         })
@@ -330,6 +334,7 @@ impl Importer {
             name: name.to_string(),
             bodies: Vec::new(),
             index: HashMap::new(),
+            ids: Ids::default(),
         });
         self.system_index.insert(name.to_string(), i);
         i
@@ -371,12 +376,7 @@ impl Importer {
         if from_system {
             id = id.to_ascii_lowercase();
         }
-        let base = id.clone();
-        let mut n = 1;
-        while sys.bodies.iter().any(|b| b.id == id) {
-            n += 1;
-            id = format!("{base}_{n}");
-        }
+        let id = sys.ids.fresh(&id);
         let b = sys.bodies.len();
         sys.bodies.push(Body {
             kind,
@@ -438,12 +438,7 @@ impl Importer {
         } else {
             syzygy_name(key, "ref")
         };
-        let mut id = base.clone();
-        let mut n = 1;
-        while self.ref_texts.contains_key(&id) {
-            n += 1;
-            id = format!("{base}_{n}");
-        }
+        let id = self.ref_names.fresh(&base);
         self.ref_ids.insert(text.to_string(), id.clone());
         self.ref_texts.insert(id.clone(), text.to_string());
         id

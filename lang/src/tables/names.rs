@@ -102,3 +102,31 @@ pub fn file_stem(system: &str) -> String {
     }
     out
 }
+
+/// The ids given so far in one scope (a system's bodies, a file's references), to make each
+/// new one unique: `base`, else `base_2`, `base_3`... Each base remembers the next number to
+/// try, so many names that make one base cost no more than distinct ones.
+#[derive(Debug, Default, Clone)]
+pub struct Ids {
+    taken: std::collections::HashSet<String>,
+    next: std::collections::HashMap<String, usize>,
+}
+
+impl Ids {
+    /// A fresh id from `base`, now taken.
+    pub fn fresh(&mut self, base: &str) -> String {
+        let mut id = base.to_string();
+        if self.taken.contains(&id) {
+            let n = self.next.entry(base.to_string()).or_insert(2);
+            loop {
+                id = format!("{base}_{n}");
+                *n += 1;
+                if !self.taken.contains(&id) {
+                    break;
+                }
+            }
+        }
+        self.taken.insert(id.clone());
+        id
+    }
+}

@@ -5,11 +5,11 @@
 //! source (as `preferred`) and references.
 
 use super::build::{string_literal, ImportResult, Summary, SystemText};
-use super::names::{file_stem, syzygy_name};
+use super::names::{file_stem, syzygy_name, Ids};
 use super::{Column, Issue, IssueKind, RowSource, TableError};
 use crate::ast::BodyKind;
 use crate::quantities;
-use std::collections::{BTreeMap, HashMap, HashSet};
+use std::collections::{BTreeMap, HashMap};
 use std::fmt::Write;
 
 /// The columns that make a table the table of declared values (`file`, `line` and
@@ -46,9 +46,11 @@ struct System {
     refs: BTreeMap<String, String>,
     /// The id given to each name of the table, references and bodies apart: two names that
     /// make the same id (`r_☉` and `r_x` once both made `r_`) get ids of their own.
-    ids: HashMap<(bool, String), String>,
-    /// The ids given, references and bodies apart.
-    taken: HashSet<(bool, String)>,
+    /// (reference or body kind, name) to id.
+    ids: HashMap<(Option<BodyKind>, String), String>,
+    /// The ids given: references, and bodies (stars and planets share one scope).
+    ref_ids: Ids,
+    body_ids: Ids,
     /// Where each body is in `bodies`, by id and kind.
     at: HashMap<(String, BodyKind), usize>,
 }
@@ -56,19 +58,17 @@ struct System {
 impl System {
     /// The id of a reference (`reference`) or body named `name` in the table: the name made a
     /// Syzygy name, with `_2`, `_3`... when another name of the table already has that id.
-    fn id(&mut self, reference: bool, name: &str, fallback: &str) -> String {
-        if let Some(id) = self.ids.get(&(reference, name.to_string())) {
+    /// `kind` is the body's, `None` for a reference: a star and a planet of one name are two
+    /// bodies, with two ids.
+    fn id(&mut self, kind: Option<BodyKind>, name: &str) -> String {
+        if let Some(id) = self.ids.get(&(kind, name.to_string())) {
             return id.clone();
         }
-        let base = syzygy_name(name, fallback);
-        let mut id = base.clone();
-        let mut n = 1;
-        while self.taken.contains(&(reference, id.clone())) {
-            n += 1;
-            id = format!("{base}_{n}");
-        }
-        self.taken.insert((reference, id.clone()));
-        self.ids.insert((reference, name.to_string()), id.clone());
+        let id = match kind {
+            None => self.ref_ids.fresh(&syzygy_name(name, "ref")),
+            Some(k) => self.body_ids.fresh(&syzygy_name(name, k.as_str())),
+        };
+        self.ids.insert((kind, name.to_string()), id.clone());
         id
     }
 }
@@ -163,14 +163,14 @@ pub fn import_sources(source: &mut dyn RowSource, table: &str) -> Result<ImportR
             continue;
         };
         for (id, text) in reference_texts(cell("references")) {
-            let id = sys.id(true, &id, "ref");
+            let id = sys.id(None, &id);
             sys.refs.entry(id).or_insert(text);
         }
         let refs: Vec<String> = cell("refs")
             .split(';')
             .map(str::trim)
             .filter(|r| !r.is_empty())
-            .map(|r| sys.id(true, r, "ref"))
+            .map(|r| sys.id(None, r))
             .collect();
         let mut line = text;
         if !refs.is_empty() {
@@ -179,13 +179,13 @@ pub fn import_sources(source: &mut dyn RowSource, table: &str) -> Result<ImportR
         if cell("origin") == "assumed" {
             line.push_str(" assumed");
         }
-        let id = sys.id(false, body_name, kind.as_str());
+        let id = sys.id(Some(kind), body_name);
         let bi = match sys.at.get(&(id.clone(), kind)) {
             Some(&i) => i,
             None => {
                 let host = match cell("host") {
                     "" => String::new(),
-                    h => sys.id(false, h, "star"),
+                    h => sys.id(Some(BodyKind::Star), h),
                 };
                 sys.at.insert((id.clone(), kind), sys.bodies.len());
                 sys.bodies.push(Body {

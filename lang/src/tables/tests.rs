@@ -681,6 +681,8 @@ fn a_second_votable_table_is_refused() {
         "<TABLE><FIELD name=\"id\" ucd=\"meta.id\"/></TABLE>",
         &upper,
         "<TABLE name=\"x\"></TABLE>",
+        "<TABLE name=\"x\"><DATA><TABLEDATA></TABLEDATA></DATA></TABLE>",
+        "<TABLE name=\"x\"><DATA><TABLEDATA/></DATA></TABLE>",
     ] {
         let refs_first = VOT.replace("<RESOURCE><TABLE>", &format!("<RESOURCE>{first}<TABLE>"));
         assert_eq!(
@@ -688,6 +690,32 @@ fn a_second_votable_table_is_refused() {
             vot(VOT, Limits::default()).unwrap()
         );
     }
+    // Empty tables without FIELDs after the table of values are passed over as well; one
+    // with rows is not (its columns are unknown), before or after.
+    for after in [
+        "<TABLE name=\"e\"><DATA></DATA></TABLE>",
+        "<TABLE name=\"e\"><DATA><TABLEDATA/></DATA></TABLE>",
+    ] {
+        let text = VOT.replace(
+            "</RESOURCE></VOTABLE>",
+            &format!("{after}</RESOURCE></VOTABLE>"),
+        );
+        assert_eq!(vot(&text, Limits::default()).unwrap().len(), 2, "{after}");
+    }
+    let rows = "<TABLE name=\"e\"><DATA><TABLEDATA><TR><TD>1</TD></TR></TABLEDATA></DATA></TABLE>";
+    let first = VOT.replace("<RESOURCE><TABLE>", &format!("<RESOURCE>{rows}<TABLE>"));
+    assert!(vot(&first, Limits::default())
+        .unwrap_err()
+        .message
+        .contains("rows but no FIELDs"));
+    let last = VOT.replace(
+        "</RESOURCE></VOTABLE>",
+        &format!("{rows}</RESOURCE></VOTABLE>"),
+    );
+    assert!(vot(&last, Limits::default())
+        .unwrap_err()
+        .message
+        .contains("second TABLE `e`"));
     let only = format!("<VOTABLE><RESOURCE>{table}</RESOURCE></VOTABLE>");
     let e = VoTable::new(only.as_bytes(), Limits::default())
         .err()
@@ -702,6 +730,19 @@ fn a_second_votable_table_is_refused() {
         .unwrap_err()
         .message
         .contains("second TABLE `bare`"));
+}
+
+/// Fresh ids: the base, then `_2`, `_3`..., past ids a table wrote itself; many names of one
+/// base cost no more than distinct ones (each base keeps its next number).
+#[test]
+fn fresh_ids_are_unique_and_cheap() {
+    let mut ids = super::names::Ids::default();
+    assert_eq!(ids.fresh("b"), "b");
+    assert_eq!(ids.fresh("b_3"), "b_3");
+    assert_eq!(ids.fresh("b"), "b_2");
+    assert_eq!(ids.fresh("b"), "b_4");
+    let many: std::collections::HashSet<String> = (0..50_000).map(|_| ids.fresh("Kel")).collect();
+    assert_eq!(many.len(), 50_000);
 }
 
 #[test]
@@ -839,7 +880,13 @@ fn a_votable_cut_short_or_with_content_after_it_is_refused() {
         e.message.contains("ends before its elements are closed"),
         "{e}"
     );
-    for tail in ["<VOTABLE/>", "junk", "<RESOURCE></RESOURCE>"] {
+    for tail in [
+        "<VOTABLE/>",
+        "junk",
+        "<RESOURCE></RESOURCE>",
+        "<![CDATA[x]]>",
+        "<?xml version=\"1.0\"?>",
+    ] {
         let e = vot(&format!("{VOT}\n{tail}\n"), Limits::default()).unwrap_err();
         assert!(
             e.message.contains("after the end of the VOTABLE document"),

@@ -155,6 +155,12 @@ impl<R: BufRead> VoTable<R> {
                         "the table is serialised as {name}; only TABLEDATA is read (ask the archive for TABLEDATA)"
                     )));
                 }
+                // Data under no FIELD: passed over when it holds no rows, refused when it does
+                // (its columns are unknown).
+                (Kind::Start | Kind::Empty, "TABLEDATA") if in_table && t.columns.is_empty() => {
+                    t.skip_bare_table()?;
+                    in_table = false;
+                }
                 (Kind::Start, "TABLEDATA") if in_table => return Ok(t),
                 (Kind::Empty, "TABLEDATA") if in_table => {
                     t.finish()?;
@@ -201,21 +207,48 @@ impl<R: BufRead> VoTable<R> {
                     fields += 1;
                     values |= !get("ucd").is_some_and(|u| is_meta(&u));
                 }
-                (Kind::Start | Kind::Empty, "DATA") | (Kind::End, "TABLE") if table.is_some() => {
-                    let called = table.take().filter(|n| !n.is_empty());
-                    // Data under no FIELD at all is rows of unknown columns, not passed over.
-                    if values || (fields == 0 && name == "DATA") {
-                        let called = called.map(|n| format!(" `{n}`")).unwrap_or_default();
-                        return Err(self.error(format!(
-                            "the file holds a second TABLE{called}; one table is read per file, so its rows would be left out: write each TABLE to a file of its own and import them together"
-                        )));
-                    }
+                // Data of a table of values, or rows under no FIELD at all (rows of unknown
+                // columns), are not passed over; a table without either is.
+                (Kind::Start | Kind::Empty, "DATA") | (Kind::End, "TABLE")
+                    if table.is_some() && values =>
+                {
+                    return Err(self.second_table(table.take()))
                 }
+                (Kind::Start | Kind::Empty, "TR") if table.is_some() && fields == 0 => {
+                    return Err(self.second_table(table.take()))
+                }
+                (Kind::End, "TABLE") => table = None,
                 (Kind::Eof, _) if self.depth > 0 => {
                     return Err(self
                         .error("the file ends before its elements are closed: it looks cut short"))
                 }
                 (Kind::Eof, _) => return Ok(()),
+                _ => {}
+            }
+        }
+    }
+
+    fn second_table(&self, name: Option<String>) -> TableError {
+        let called = name
+            .filter(|n| !n.is_empty())
+            .map(|n| format!(" `{n}`"))
+            .unwrap_or_default();
+        self.error(format!(
+            "the file holds a second TABLE{called}; one table is read per file, so its rows would be left out: write each TABLE to a file of its own and import them together"
+        ))
+    }
+
+    /// Read past the data of a table without FIELDs, to its end: refused if it holds a row.
+    fn skip_bare_table(&mut self) -> Result<(), TableError> {
+        loop {
+            match self.event()? {
+                (Kind::Start | Kind::Empty, name, _) if name == "TR" => {
+                    return Err(
+                        self.error("a TABLE has rows but no FIELDs, so its columns are unknown")
+                    )
+                }
+                (Kind::End, name, _) if name == "TABLE" => return Ok(()),
+                (Kind::Eof, _, _) => return Err(self.error("a TABLE is never closed")),
                 _ => {}
             }
         }
@@ -254,7 +287,12 @@ impl<R: BufRead> VoTable<R> {
         let line = self.reader.get_ref().line;
         let err = |m: String| TableError::new(Some(line), m);
         let after_root = || err("content after the end of the VOTABLE document".into());
-        if self.root_closed && matches!(ev, Event::Start(_) | Event::Empty(_)) {
+        if self.root_closed
+            && matches!(
+                ev,
+                Event::Start(_) | Event::Empty(_) | Event::CData(_) | Event::Decl(_)
+            )
+        {
             return Err(after_root());
         }
         let out =
