@@ -15,6 +15,9 @@ const KEYWORDS: &[&str] = &[
 /// Longest name or file stem made.
 const MAX_LEN: usize = 64;
 
+/// Longest valid name kept as it is.
+const KEPT_LEN: usize = 256;
+
 /// The characters a name may hold besides ASCII letters, digits and `_`, as the lexer reads
 /// them (`crate::lexer`): `☉`, `⊕`, `µ`, `μ`, `ω` anywhere, `°` only first.
 fn other_name_char(ch: char, first: bool) -> bool {
@@ -29,6 +32,22 @@ fn other_name_char(ch: char, first: bool) -> bool {
 /// back as it was), every run of others made one `_`, starting with a letter or `_`, never a
 /// keyword; `fallback` when nothing is left.
 pub fn syzygy_name(text: &str, fallback: &str) -> String {
+    // A name the language reads comes back as it was, up to `KEPT_LEN` bytes (the language
+    // sets no length; a longer one is cut like any other).
+    let valid = |ch: char, first: bool| {
+        ch.is_ascii_alphabetic()
+            || ch == '_'
+            || (!first && ch.is_ascii_digit())
+            || other_name_char(ch, first)
+    };
+    let mut chars = text.chars();
+    if text.len() <= KEPT_LEN
+        && chars.next().is_some_and(|c| valid(c, true))
+        && chars.all(|c| valid(c, false))
+        && !KEYWORDS.contains(&text)
+    {
+        return text.to_string();
+    }
     let mut out = String::new();
     for ch in text.trim().chars() {
         if out.len() >= MAX_LEN {

@@ -753,6 +753,11 @@ fn names_from_tables_stay_names() {
     assert_eq!(syzygy_name("☼☼", "star"), "star_unnamed");
     assert_eq!(syzygy_name("..", "planet"), "planet_unnamed");
     assert!(syzygy_name(&"x".repeat(500), "s").len() <= 64);
+    // A valid name is kept whole, past the 64 bytes a made name is cut to.
+    let long = format!("b{}", "_long".repeat(16));
+    assert_eq!(syzygy_name(&long, "planet"), long);
+    assert_eq!(syzygy_name("☉x", "planet"), "☉x");
+    assert_eq!(syzygy_name("Orrin_b", "planet"), "Orrin_b");
     for hostile in [
         "../../etc/passwd",
         "/abs/path",
