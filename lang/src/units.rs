@@ -528,6 +528,15 @@ const OTHER_SPELLINGS: &[(&str, &str)] = &[
     ("kms", "km/s"),
     ("Kelvin", "K"),
     ("kelvin", "K"),
+    ("Kelvins", "K"),
+    ("kelvins", "K"),
+    ("Kms", "km/s"),
+    ("parsec", "pc"),
+    ("parsecs", "pc"),
+    ("Gy", "Gyr"),
+    ("Gyrs", "Gyr"),
+    ("Myrs", "Myr"),
+    ("yrs", "yr"),
     // Subscript e (Earth), J (Jupiter), o and "solar" (the Sun) as papers write them.
     ("Re", "Rearth"),
     ("Me", "Mearth"),
@@ -551,8 +560,8 @@ pub fn suggest(symbol: &str) -> Option<&'static str> {
     suggest_for(symbol, None)
 }
 
-/// [`suggest`] for a unit that should have the dimension `wanted`: of the spellings as close
-/// as each other, one of that dimension first (`Msn` for a mass is `Msun`, not `min`).
+/// [`suggest`] for a unit that should have the dimension `wanted`: only spellings of that
+/// dimension (`Msn` for a mass is `Msun`, not `min`; `parsec` is `pc`, not `arcsec`).
 pub fn suggest_for(symbol: &str, wanted: Option<Dimension>) -> Option<&'static str> {
     if offset_scale(symbol).is_some() {
         return None;
@@ -562,8 +571,7 @@ pub fn suggest_for(symbol: &str, wanted: Option<Dimension>) -> Option<&'static s
     }
     let lower = symbol.to_lowercase();
     let length = symbol.chars().count();
-    // Ranked by distance, then by whether the dimension is the one wanted.
-    let mut best: Option<((usize, bool), &'static str)> = None;
+    let mut best: Option<(usize, &'static str)> = None;
     for def in registry() {
         for cand in std::iter::once(&def.symbol).chain(def.aliases.iter()) {
             let d = if cand.to_lowercase() == lower {
@@ -571,9 +579,11 @@ pub fn suggest_for(symbol: &str, wanted: Option<Dimension>) -> Option<&'static s
             } else {
                 crate::text::edit_distance(&lower, &cand.to_lowercase())
             };
-            let rank = (d, wanted.is_some_and(|w| w != def.dim));
-            if d <= 2 && 2 * d <= length && best.is_none_or(|(br, _)| rank < br) {
-                best = Some((rank, def.symbol));
+            if wanted.is_some_and(|w| w != def.dim) {
+                continue;
+            }
+            if d <= 2 && 2 * d <= length && best.is_none_or(|(bd, _)| d < bd) {
+                best = Some((d, def.symbol));
             }
         }
     }

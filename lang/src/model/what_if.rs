@@ -346,7 +346,16 @@ fn replace(body: &mut Body, src: &str, w: &WhatIf, mut decl: Declared) {
     let written: Vec<(Span, String)> = body
         .sources(qty)
         .iter()
-        .map(|d| (d.span, words(src.get(d.value_span.range()).unwrap_or("?"))))
+        .map(|d| {
+            // A limit keeps its relation (`< 0.08`), which its value's place leaves out.
+            let relation = match &d.content {
+                Content::Measured(m) if m.form == super::Form::UpperLimit => "< ",
+                Content::Measured(m) if m.form == super::Form::LowerLimit => "> ",
+                _ => "",
+            };
+            let value = words(src.get(d.value_span.range()).unwrap_or("?"));
+            (d.span, format!("{relation}{value}"))
+        })
         .collect();
     let instead = match written.as_slice() {
         [] => "not declared in the file".to_string(),
@@ -367,8 +376,12 @@ fn replace(body: &mut Body, src: &str, w: &WhatIf, mut decl: Declared) {
     decl.value_span = at;
     decl.preferred = false;
     decl.set = Some(format!(
-        "{}.{name} = {} {SET_WORDS}, {instead}",
-        body.id, w.value
+        "{}.{name} {} {SET_WORDS}, {instead}",
+        body.id,
+        match w.value.strip_prefix(['<', '>']) {
+            Some(rest) => format!("{} {}", w.value.get(..1).unwrap_or(""), rest.trim_start()),
+            None => format!("= {}", w.value),
+        }
     ));
     body.declared.retain(|d| d.qty != qty);
     body.further.retain(|d| d.qty != qty);

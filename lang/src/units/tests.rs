@@ -293,5 +293,17 @@ fn suggestions_prefer_the_dimension_the_value_needs() {
     assert_eq!(suggest_for("Rsum", Some(Dimension::LENGTH)), Some("Rsun"));
     assert_eq!(suggest_for("dd", Some(Dimension::TIME)), Some("d"));
     assert!(suggest("Msn").is_some());
+    // Only units of the dimension wanted; other spellings papers use are known by name.
+    assert_eq!(suggest_for("parsec", Some(Dimension::LENGTH)), Some("pc"));
+    assert_eq!(
+        suggest_for("kelvins", Some(Dimension::TEMPERATURE)),
+        Some("K")
+    );
+    assert_eq!(suggest_for("Gy", Some(Dimension::TIME)), Some("Gyr"));
+    assert_eq!(suggest_for("Msn", Some(Dimension::LENGTH)), None);
+    for (other, meant) in OTHER_SPELLINGS {
+        assert!(lookup(other).is_none(), "{other} is a unit itself");
+        assert!(parse_unit_text(meant).is_some(), "{meant} is no unit");
+    }
     assert_eq!(suggest_for("zzzzzz", Some(Dimension::MASS)), None);
 }
