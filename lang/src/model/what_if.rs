@@ -213,6 +213,8 @@ pub struct Outline {
     pub file: String,
     pub system: String,
     pub bodies: Vec<(String, BodyKind)>,
+    /// The ids of bodies declared past the system's bound, which are not read.
+    pub not_read: Vec<String>,
 }
 
 impl Outline {
@@ -225,6 +227,7 @@ impl Outline {
                 file: file.to_string(),
                 system: s.name.clone(),
                 bodies: s.bodies.iter().map(|b| (b.id.clone(), b.kind)).collect(),
+                not_read: s.not_read.iter().map(|(id, _)| id.clone()).collect(),
             })
             .collect()
     }
@@ -298,10 +301,13 @@ fn not_found(w: &WhatIf, outlines: &[Outline]) -> String {
             );
         }
     }
-    let bodies = outlines
+    let here = outlines
         .iter()
-        .filter(|o| w.system.as_ref().is_none_or(|s| *s == o.system))
-        .flat_map(|o| o.bodies.iter().map(|(id, _)| id.as_str()));
+        .filter(|o| w.system.as_ref().is_none_or(|s| *s == o.system));
+    if let Some(o) = here.clone().find(|o| o.not_read.contains(&w.body)) {
+        return super::limits::not_read(&o.system, &w.body);
+    }
+    let bodies = here.flat_map(|o| o.bodies.iter().map(|(id, _)| id.as_str()));
     let meant = crate::text::closest(&w.body, bodies);
     format!(
         "no body '{}' in {}{}",
@@ -484,9 +490,16 @@ mod tests {
             file: file.into(),
             system: sys.into(),
             bodies: vec![("s".into(), BodyKind::Star), ("b".into(), BodyKind::Planet)],
+            not_read: vec!["late".into()],
         };
         let all = [o("A", "a.syz"), o("B", "b.syz")];
         let set = |t: &str| check(&[parse(t).unwrap()], &all);
+        // A body past its system's bound is declared but not read, not missing.
+        let e = set("A/late.mass=1 Msun").unwrap_err();
+        assert!(
+            e.contains("'late' is declared but not read: system \"A\""),
+            "{e}"
+        );
         let e = set("b.mass=1 Mjup").unwrap_err();
         assert!(
             e.contains("several systems") && e.contains("'A/b.mass=...'"),
