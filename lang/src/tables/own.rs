@@ -44,15 +44,14 @@ struct System {
     bodies: Vec<Body>,
     /// The references its rows name, id to text (ids are only unique within a file).
     refs: BTreeMap<String, String>,
-    /// The id given to each name of the table, references and bodies apart: two names that
-    /// make the same id (`r_☉` and `r_x` once both made `r_`) get ids of their own.
-    /// (reference or body kind, name) to id.
+    /// The id given to each (body kind, or `None` for a reference; name in the table): two
+    /// names that make the same id (`r_☉` and `r_x` once both made `r_`) get ids of their own.
     ids: HashMap<(Option<BodyKind>, String), String>,
     /// The ids given: references, and bodies (stars and planets share one scope).
     ref_ids: Ids,
     body_ids: Ids,
-    /// Where each body is in `bodies`, by id and kind.
-    at: HashMap<(String, BodyKind), usize>,
+    /// Where each body is in `bodies`, by id (unique among bodies of either kind).
+    at: HashMap<String, usize>,
 }
 
 impl System {
@@ -180,14 +179,14 @@ pub fn import_sources(source: &mut dyn RowSource, table: &str) -> Result<ImportR
             line.push_str(" assumed");
         }
         let id = sys.id(Some(kind), body_name);
-        let bi = match sys.at.get(&(id.clone(), kind)) {
+        let bi = match sys.at.get(&id) {
             Some(&i) => i,
             None => {
                 let host = match cell("host") {
                     "" => String::new(),
                     h => sys.id(Some(BodyKind::Star), h),
                 };
-                sys.at.insert((id.clone(), kind), sys.bodies.len());
+                sys.at.insert(id.clone(), sys.bodies.len());
                 sys.bodies.push(Body {
                     table_name: (id != body_name).then(|| body_name.to_string()),
                     id,
@@ -209,22 +208,18 @@ pub fn import_sources(source: &mut dyn RowSource, table: &str) -> Result<ImportR
     }
     // A host star that declares nothing has no row of its own: it is still declared.
     for s in &mut systems {
-        let mut missing: Vec<String> = Vec::new();
-        for b in &s.bodies {
-            let known = |id: &str| {
-                s.bodies
-                    .iter()
-                    .any(|h| h.id == id && h.kind == BodyKind::Star)
-            };
-            if b.kind == BodyKind::Planet
-                && !b.host.is_empty()
-                && !known(&b.host)
-                && !missing.contains(&b.host)
-            {
-                missing.push(b.host.clone());
+        let hosts: Vec<String> = s
+            .bodies
+            .iter()
+            .filter(|b| b.kind == BodyKind::Planet && !b.host.is_empty())
+            .map(|b| b.host.clone())
+            .collect();
+        for id in hosts {
+            // A host's id is made as a star's (`System::id`), so a body of that id is the star.
+            if s.at.contains_key(&id) {
+                continue;
             }
-        }
-        for id in missing {
+            s.at.insert(id.clone(), s.bodies.len());
             s.bodies.push(Body {
                 table_name: None,
                 id,
@@ -331,10 +326,10 @@ fn system_text(s: &System, table: &str) -> SystemText {
     }
     let _ = writeln!(out, "\nsystem {} {{", string_literal(&s.name));
     for b in &s.bodies {
-        let has_host = !b.host.is_empty()
-            && s.bodies
-                .iter()
-                .any(|h| h.id == b.host && h.kind == BodyKind::Star);
+        let has_host =
+            s.at.get(&b.host)
+                .and_then(|&i| s.bodies.get(i))
+                .is_some_and(|h| h.kind == BodyKind::Star);
         if let Some(name) = &b.table_name {
             let _ = writeln!(out, "  # {} in the table", string_literal(name));
         }

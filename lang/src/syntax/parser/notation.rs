@@ -91,34 +91,43 @@ impl Cursor<'_> {
         }
         // `5000 ± 30 +40/-20` or `1.0 +0.1/-0.05 ± 0.02`: a symmetric and an asymmetric
         // uncertainty on one value, which the grammar reads as arithmetic.
-        let asymmetric = |t: &[Token]| {
-            matches!(t, [p, n, s, m, k, ..] if p.kind == Tok::Plus && n.kind == Tok::Number
-                && s.kind == Tok::Slash && m.kind == Tok::Minus && k.kind == Tok::Number)
-        };
-        let both = match slice.get(1..).unwrap_or_default() {
-            [pm, n, after @ ..]
-                if pm.kind == Tok::PlusMinus && n.kind == Tok::Number && asymmetric(after) =>
+        // `+above/-below` at the start of `t`: its two numbers.
+        let asymmetric = |t: &'_ [Token]| match t {
+            [p, above, s, m, below, ..]
+                if p.kind == Tok::Plus
+                    && above.kind == Tok::Number
+                    && s.kind == Tok::Slash
+                    && m.kind == Tok::Minus
+                    && below.kind == Tok::Number =>
             {
-                Some((self.text(*n), after.get(1), after.get(4), after.get(4)))
-            }
-            after @ [_, _, _, _, _, pm, n, ..]
-                if asymmetric(after) && pm.kind == Tok::PlusMinus && n.kind == Tok::Number =>
-            {
-                Some((self.text(*n), after.get(1), after.get(4), Some(n)))
+                Some((*above, *below))
             }
             _ => None,
         };
-        if let (Some((sym, Some(above), Some(below), Some(last))), Some(first)) =
-            (both, slice.get(1))
-        {
-            let (above, below) = (self.text(*above), self.text(*below));
+        let number_after_pm =
+            |pm: &Token, n: &Token| pm.kind == Tok::PlusMinus && n.kind == Tok::Number;
+        // (the symmetric one, the asymmetric one's two numbers, the last token of both)
+        let both = match (a, b, rest) {
+            (pm, n, after) if number_after_pm(pm, n) => {
+                asymmetric(after).map(|(above, below)| (*n, above, below, below))
+            }
+            _ => match rest {
+                [_, _, _, pm, n, ..] if number_after_pm(pm, n) => {
+                    asymmetric(slice.get(1..).unwrap_or_default())
+                        .map(|(above, below)| (*n, above, below, *n))
+                }
+                _ => None,
+            },
+        };
+        if let Some((sym, above, below, last)) = both {
+            let (sym, above, below) = (self.text(sym), self.text(above), self.text(below));
             return Some(
                 Diagnostic::new(
                     Rule::Syntax,
-                    span(first, last),
+                    span(a, &last),
                     format!(
                         "`{}` gives the uncertainty twice, once symmetric (± {sym}) and once asymmetric (+{above}/-{below})",
-                        self.src.get(first.start..last.end).unwrap_or("")
+                        self.src.get(a.start..last.end).unwrap_or("")
                     ),
                 )
                 .with_help(format!(
