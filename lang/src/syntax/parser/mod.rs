@@ -51,11 +51,13 @@ pub const MAX_SYNTAX_ERRORS: usize = 1000;
 
 mod names;
 mod notation;
+mod recovery;
+use recovery::inner_label;
 mod repeats;
 mod value;
 
 use repeats::{merge_repeats, repeated};
-use value::{value_parser, ValueParser};
+use value::{unescape, value_parser, ValueParser};
 
 /// What one property value parses to.
 #[derive(Debug, Clone)]
@@ -335,16 +337,6 @@ impl<'a> Cursor<'a> {
         self.error(span, msg);
     }
 
-    /// Skip to the end of the current line (not past a `}` that closes a block).
-    fn skip_line(&mut self) {
-        while let Some(k) = self.peek() {
-            match k {
-                Tok::Newline | Tok::Semi | Tok::RBrace => return,
-                _ => self.pos += 1,
-            }
-        }
-    }
-
     fn ident(&mut self, what: &str) -> Option<Ident> {
         match self.peek_token() {
             Some(t) if t.kind == Tok::Ident => {
@@ -422,6 +414,7 @@ impl<'a> Cursor<'a> {
                     // Parse it anyway so its own mistakes are reported, then drop it.
                     let _ = self.parse_body();
                 }
+                Some(Tok::Ident) if self.line_opens_block() => self.misspelt_system_keyword(),
                 Some(_) => {
                     self.expect_error("'system' or 'ref'");
                     self.skip_line();
@@ -539,6 +532,7 @@ impl<'a> Cursor<'a> {
                     );
                     break;
                 }
+                Some(Tok::Ident) if self.line_opens_block() => self.misspelt_body_keyword(),
                 Some(Tok::Ident) => {
                     let span = self.span_here();
                     self.diags.push(
@@ -589,6 +583,11 @@ impl<'a> Cursor<'a> {
         if kind == BodyKind::Planet && name.is_some() {
             if self.eat(Tok::Orbits).is_some() {
                 orbits = self.ident("the name of the star it orbits");
+                if orbits.is_none() {
+                    // `planet c orbits é {`: the error says so; the body is still read (as a
+                    // planet without a host) so that its lines do not spill into the system.
+                    self.skip_to_block();
+                }
             } else if self.peek_past_newlines() == Some(Tok::LBrace) {
                 // `{` on the next line too: the block opens there all the same.
                 let span = name.as_ref().map_or(self.span_here(), |n| n.span);
@@ -607,12 +606,7 @@ impl<'a> Cursor<'a> {
             // The name did not read (`star é {`): the error says so. Go on to the block on
             // this line, so that its lines are read as the body's and not spilled into the
             // system (which then closed at the body's `}`).
-            while let Some(k) = self.peek() {
-                match k {
-                    Tok::LBrace | Tok::Newline | Tok::Semi | Tok::RBrace => break,
-                    _ => self.pos += 1,
-                }
-            }
+            self.skip_to_block();
             if self.peek() != Some(Tok::LBrace) {
                 self.skip_line();
                 return None;
@@ -622,6 +616,9 @@ impl<'a> Cursor<'a> {
             return None;
         }
         let named = name.is_some();
+        // Blocks opened inside the body by mistake and not yet closed.
+        let mut inner = 0usize;
+        let mut inner_at: Option<Span> = None;
         let mut body = BodyDecl {
             kind,
             name: name.unwrap_or_else(|| Ident {
@@ -638,15 +635,23 @@ impl<'a> Cursor<'a> {
             match self.peek() {
                 None if self.stopped => break,
                 None => {
-                    self.diags.push(
+                    self.diags.push(inner_label(
                         Diagnostic::new(Rule::Syntax, body.name.span, "this body is never closed")
                             .with_help("add '}' after its last property"),
-                    );
+                        inner_at,
+                    ));
                     break;
                 }
                 Some(Tok::RBrace) => {
                     self.pos += 1;
-                    break;
+                    if inner == 0 {
+                        break;
+                    }
+                    inner -= 1;
+                }
+                Some(Tok::Ident) if self.opens_inner_block() => {
+                    inner_at = Some(self.inner_block());
+                    inner += 1;
                 }
                 Some(Tok::StarKw | Tok::Planet | Tok::System) => {
                     let span = self.span_here();
@@ -659,6 +664,8 @@ impl<'a> Cursor<'a> {
                         .with_label(span, "the next declaration starts here")
                         .with_help("add '}' after the body's last property"),
                     );
+                    let d = self.diags.pop().map(|d| inner_label(d, inner_at));
+                    self.diags.extend(d);
                     break;
                 }
                 Some(Tok::Let) => {
@@ -775,27 +782,7 @@ impl<'a> Cursor<'a> {
     }
 }
 
-fn unescape(quoted: &str) -> String {
-    let inner = quoted
-        .strip_prefix('"')
-        .and_then(|s| s.strip_suffix('"'))
-        .unwrap_or(quoted);
-    let mut out = String::with_capacity(inner.len());
-    let mut chars = inner.chars();
-    while let Some(c) = chars.next() {
-        if c == '\\' {
-            match chars.next() {
-                Some('n') => out.push('\n'),
-                Some('t') => out.push('\t'),
-                Some(other) => out.push(other),
-                None => {}
-            }
-        } else {
-            out.push(c);
-        }
-    }
-    out
-}
-
 #[cfg(test)]
 mod tests;
+#[cfg(test)]
+mod tests_recovery;

@@ -89,51 +89,10 @@ impl Cursor<'_> {
                 .with_fix(at, fixed),
             );
         }
-        // `5000 ± 30 +40/-20` or `1.0 +0.1/-0.05 ± 0.02`: a symmetric and an asymmetric
-        // uncertainty on one value, which the grammar reads as arithmetic.
-        // `+above/-below` at the start of `t`: its two numbers.
-        let asymmetric = |t: &'_ [Token]| match t {
-            [p, above, s, m, below, ..]
-                if p.kind == Tok::Plus
-                    && above.kind == Tok::Number
-                    && s.kind == Tok::Slash
-                    && m.kind == Tok::Minus
-                    && below.kind == Tok::Number =>
-            {
-                Some((*above, *below))
-            }
-            _ => None,
-        };
-        let number_after_pm =
-            |pm: &Token, n: &Token| pm.kind == Tok::PlusMinus && n.kind == Tok::Number;
-        // (the symmetric one, the asymmetric one's two numbers, the last token of both)
-        let both = match (a, b, rest) {
-            (pm, n, after) if number_after_pm(pm, n) => {
-                asymmetric(after).map(|(above, below)| (*n, above, below, below))
-            }
-            _ => match rest {
-                [_, _, _, pm, n, ..] if number_after_pm(pm, n) => {
-                    asymmetric(slice.get(1..).unwrap_or_default())
-                        .map(|(above, below)| (*n, above, below, *n))
-                }
-                _ => None,
-            },
-        };
-        if let Some((sym, above, below, last)) = both {
-            let (sym, above, below) = (self.text(sym), self.text(above), self.text(below));
-            return Some(
-                Diagnostic::new(
-                    Rule::Syntax,
-                    span(a, &last),
-                    format!(
-                        "`{}` gives the uncertainty twice, once symmetric (± {sym}) and once asymmetric (+{above}/-{below})",
-                        self.src.get(a.start..last.end).unwrap_or("")
-                    ),
-                )
-                .with_help(format!(
-                    "keep one: `{v} ± {sym}` or `{v} +{above}/-{below}`; several symmetric uncertainties are written `± a ± b` (combined in quadrature), an asymmetric one is not combined so: combine them yourself if that is meant"
-                )),
-            );
+        // `5000 ± 30 +40/-20`, `1.0 +0.1/-0.05 ± 0.02`, `5 ± 1 ± 2 +3%/-2%`: symmetric and
+        // asymmetric uncertainties on one value, which the grammar reads as arithmetic.
+        if let Some(d) = self.both_kinds_of_uncertainty(v, slice.get(1..).unwrap_or_default()) {
+            return Some(d);
         }
         // `92 (+6/-5)`: an asymmetric uncertainty in parentheses.
         if a.kind == Tok::LParen && matches!(b.kind, Tok::Plus | Tok::Minus) {
@@ -468,4 +427,94 @@ fn typeset_uncertainty(text: &str) -> Option<(String, String, usize)> {
         (p, m, rest)
     };
     Some((plus.to_string(), minus.to_string(), text.len() - rest.len()))
+}
+
+/// One uncertainty term after a value: `± N`, `+N/-M`, each number possibly in `%`.
+enum Term {
+    Symmetric(String),
+    Asymmetric(String, String),
+}
+
+impl Cursor<'_> {
+    /// A number, with a `%` right after it if there is one: its text and the tokens it took.
+    fn number_at(&self, t: &[Token]) -> Option<(String, usize)> {
+        let n = t.first().filter(|n| n.kind == Tok::Number)?;
+        match t.get(1) {
+            Some(p) if p.kind == Tok::Ident && self.text(*p) == "%" => {
+                Some((format!("{}%", self.text(*n)), 2))
+            }
+            _ => Some((self.text(*n).to_string(), 1)),
+        }
+    }
+
+    /// The uncertainty term at the start of `t` and the tokens it took.
+    fn term_at(&self, t: &[Token]) -> Option<(Term, usize)> {
+        match t.first()?.kind {
+            Tok::PlusMinus => {
+                let (n, used) = self.number_at(t.get(1..)?)?;
+                Some((Term::Symmetric(n), 1 + used))
+            }
+            Tok::Plus => {
+                let (above, a) = self.number_at(t.get(1..)?)?;
+                let rest = t.get(1 + a..)?;
+                if rest.first()?.kind != Tok::Slash || rest.get(1)?.kind != Tok::Minus {
+                    return None;
+                }
+                let (below, b) = self.number_at(rest.get(2..)?)?;
+                Some((Term::Asymmetric(above, below), 1 + a + 2 + b))
+            }
+            _ => None,
+        }
+    }
+
+    /// Both kinds of uncertainty after the value `v` (`after` starts right after it): one
+    /// error that names them and says to keep one kind.
+    fn both_kinds_of_uncertainty(&self, v: &str, after: &[Token]) -> Option<Diagnostic> {
+        let (mut symmetric, mut asymmetric) = (Vec::new(), Vec::new());
+        let mut used = 0;
+        while let Some((term, n)) = after.get(used..).and_then(|t| self.term_at(t)) {
+            match term {
+                Term::Symmetric(s) => symmetric.push(format!("± {s}")),
+                Term::Asymmetric(a, b) => asymmetric.push(format!("+{a}/-{b}")),
+            }
+            used += n;
+        }
+        if asymmetric.is_empty() || (symmetric.is_empty() && asymmetric.len() < 2) {
+            return None;
+        }
+        let (first, last) = (after.first()?, after.get(used.checked_sub(1)?)?);
+        let written = self.src.get(first.start..last.end).unwrap_or("");
+        let at = Span::new(self.file, first.start, last.end);
+        let (sym, asym) = (symmetric.join(" "), asymmetric.join(" "));
+        if symmetric.is_empty() {
+            // `5 +1/-1 +2/-2`: read as arithmetic, it was a dimension error.
+            return Some(
+                Diagnostic::new(
+                    Rule::Syntax,
+                    at,
+                    format!("`{written}` gives {} asymmetric uncertainties on one value", asymmetric.len()),
+                )
+                .with_help(format!(
+                    "keep one, as in `{v} {}`: asymmetric uncertainties are not combined by the language (symmetric ones, `± a ± b`, are combined in quadrature); combine them yourself if that is meant",
+                    asymmetric.first().map_or("", String::as_str)
+                )),
+            );
+        }
+        let asym_help = match asymmetric.as_slice() {
+            [one] => format!("`{v} {one}`"),
+            _ => "one asymmetric uncertainty".to_string(),
+        };
+        Some(
+            Diagnostic::new(
+                Rule::Syntax,
+                at,
+                format!(
+                    "`{written}` gives the uncertainty twice, once symmetric ({sym}) and once asymmetric ({asym})"
+                ),
+            )
+            .with_help(format!(
+                "keep one: `{v} {sym}` or {asym_help}; several symmetric uncertainties are written `± a ± b` (combined in quadrature), an asymmetric one is not combined so: combine them yourself if that is meant"
+            )),
+        )
+    }
 }

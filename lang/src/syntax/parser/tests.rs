@@ -628,32 +628,6 @@ fn a_mark_written_twice_is_said_and_once_is_taken() {
     parse_ok("ref a \"A\"\nsystem \"S\" {\n star s {\n  radius = 0.85 ± 0.02 Rsun assumed [a]\n  mass = 1 Msun [a] preferred\n }\n}\n");
 }
 
-/// A body whose name does not read (`star é {`, `star 2x {`, `planet orbits s {`) is one
-/// error: its block is read as its own and dropped, and the bodies after it stay in the system
-/// (the block's lines spilled into the system, whose `}` then closed at the body's).
-#[test]
-fn a_body_whose_name_does_not_read_costs_only_that_body() {
-    for bad in ["star é {", "star 2x {", "planet orbits s {", "star {"] {
-        let src = format!(
-            "system \"A\" {{\n  star s {{ mass = 1 Msun }}\n  {bad}\n    mass = 1 Msun\n  }}\n  star t {{ mass = 0.8 Msun }}\n  planet p orbits t {{ period = 3 d }}\n}}\nsystem \"B\" {{\n  star u {{ mass = 1 Msun }}\n}}\n"
-        );
-        let p = parse(FileId(0), &src);
-        assert_eq!(p.diagnostics.len(), 1, "{bad}: {:#?}", p.diagnostics);
-        assert!(
-            p.diagnostics[0].message.contains("name"),
-            "{bad}: {:?}",
-            p.diagnostics[0]
-        );
-        let names: Vec<&str> = p.file.systems[0]
-            .bodies
-            .iter()
-            .map(|b| b.name.name.as_str())
-            .collect();
-        assert_eq!(names, ["s", "t", "p"], "{bad}");
-        assert_eq!(p.file.systems.len(), 2, "{bad}");
-    }
-}
-
 /// A symmetric and an asymmetric uncertainty on one value, in either order, is one error that
 /// names both and says to keep one (it was read as arithmetic: a dimension error, or a list of
 /// expected tokens).
@@ -676,4 +650,39 @@ fn a_value_with_both_kinds_of_uncertainty_says_to_keep_one() {
     }
     // Several symmetric ones stay one value.
     parse_ok("system \"A\" {\n  star s { teff = 5000 ± 30 ± 40 K }\n}\n");
+    // More than one of either kind, and percentages: still one error, each term named, the
+    // `%` kept in the help (it was a dimension error, or the help dropped the `%`).
+    for (value, message, help) in [
+        (
+            "5000 ± 30 ± 20 +40/-20 K",
+            "once symmetric (± 30 ± 20) and once asymmetric (+40/-20)",
+            "`5000 ± 30 ± 20` or `5000 +40/-20`",
+        ),
+        (
+            "5000 +40/-20 ± 1%",
+            "once symmetric (± 1%) and once asymmetric (+40/-20)",
+            "`5000 ± 1%` or `5000 +40/-20`",
+        ),
+        (
+            "5000 ± 30 +1%/-2% K",
+            "once symmetric (± 30) and once asymmetric (+1%/-2%)",
+            "`5000 ± 30` or `5000 +1%/-2%`",
+        ),
+        (
+            "5000 +40/-20 +10/-10 K",
+            "`+40/-20 +10/-10` gives 2 asymmetric uncertainties on one value",
+            "keep one, as in `5000 +40/-20`",
+        ),
+    ] {
+        let src = format!("system \"A\" {{\n  star s {{ teff = {value} }}\n}}\n");
+        let p = parse(FileId(0), &src);
+        assert_eq!(p.diagnostics.len(), 1, "{value}: {:#?}", p.diagnostics);
+        let d = &p.diagnostics[0];
+        assert!(d.message.contains(message), "{value}: {}", d.message);
+        assert!(
+            d.help.as_deref().unwrap().contains(help),
+            "{value}: {:?}",
+            d.help
+        );
+    }
 }

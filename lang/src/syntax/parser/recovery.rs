@@ -1,0 +1,145 @@
+//! Recovery from mistakes in the block structure: a line passed over, a block passed over
+//! whole, a block opened by mistake inside a body, a misspelt keyword. Each costs one error
+//! and keeps the lines after it where they belong (a `}` taken by the wrong block spilled a
+//! body's lines into its system and closed the system early).
+
+use super::*;
+
+impl Cursor<'_> {
+    /// Skip to the end of the current line (not past a `}` that closes a block).
+    pub(super) fn skip_line(&mut self) {
+        while let Some(k) = self.peek() {
+            match k {
+                Tok::Newline | Tok::Semi | Tok::RBrace => return,
+                _ => self.pos += 1,
+            }
+        }
+    }
+
+    /// Skip to the `{` on this line, if there is one (not past the line's end or a `}`).
+    pub(super) fn skip_to_block(&mut self) {
+        while let Some(k) = self.peek() {
+            match k {
+                Tok::LBrace | Tok::Newline | Tok::Semi | Tok::RBrace => break,
+                _ => self.pos += 1,
+            }
+        }
+    }
+
+    /// Whether the current line has a `{` before its end.
+    pub(super) fn line_opens_block(&mut self) -> bool {
+        let at = self.pos;
+        self.skip_to_block();
+        let opens = self.peek() == Some(Tok::LBrace);
+        self.pos = at;
+        opens
+    }
+
+    /// Pass over the rest of this line and the block it opens, braces nested inside counted,
+    /// up to its `}`; a declaration keyword or the end of the file ends it first (so a block
+    /// never closed does not take what follows).
+    pub(super) fn skip_block(&mut self) {
+        self.skip_to_block();
+        let mut depth = 0usize;
+        while let Some(k) = self.peek() {
+            match k {
+                Tok::LBrace => depth += 1,
+                Tok::RBrace if depth <= 1 => {
+                    self.pos += 1;
+                    return;
+                }
+                Tok::RBrace => depth -= 1,
+                Tok::StarKw | Tok::Planet | Tok::System | Tok::Ref => return,
+                _ => {}
+            }
+            self.pos += 1;
+        }
+    }
+
+    /// Whether a name followed by `{` comes next (a block opened inside a body).
+    pub(super) fn opens_inner_block(&mut self) -> bool {
+        let at = self.pos;
+        self.pos += 1;
+        let opens = self.peek() == Some(Tok::LBrace);
+        self.pos = at;
+        opens
+    }
+
+    /// `transit { depth = ... }` in a body: blocks do not nest. One error; the inner lines are
+    /// read as the body's, and the caller counts the block so that its `}` closes it, not the
+    /// body. The span of its `{`.
+    pub(super) fn inner_block(&mut self) -> Span {
+        let name = self
+            .bump()
+            .map(|t| self.text(t).to_string())
+            .unwrap_or_default();
+        let span = self.span_here();
+        self.pos += 1;
+        self.diags.push(
+            Diagnostic::new(
+                Rule::Syntax,
+                span,
+                format!("'{name}' opens a block inside a body; blocks do not nest"),
+            )
+            .with_help(
+                "write the properties directly in the star's or planet's block, \
+                 one per line; the lines of this block are read as the body's",
+            ),
+        );
+        span
+    }
+
+    /// `plnaet b orbits s {` in a system: a misspelt keyword. One error for the block, which
+    /// is passed over whole (its lines did not belong to the system either).
+    pub(super) fn misspelt_body_keyword(&mut self) {
+        let span = self.span_here();
+        let word = self.peek_token().map(|t| self.text(t)).unwrap_or("");
+        let mut d = Diagnostic::new(
+                Rule::Syntax,
+                span,
+                format!("'{word}' does not open a block: only 'star' and 'planet' do; this block is not read"),
+            );
+        d = match crate::text::closest(word, ["star", "planet"]) {
+            Some(k) => d.with_help(format!("did you mean '{k}'?")),
+            None => d.with_help(
+                "declare bodies as `star NAME { ... }` or `planet NAME orbits STAR { ... }`",
+            ),
+        };
+        self.diags.push(d);
+        self.skip_block();
+    }
+
+    /// `sytsem "A" {` at the top of a file: read as a system (its own mistakes reported too)
+    /// and dropped, its error covering its lines; another word's block is passed over.
+    pub(super) fn misspelt_system_keyword(&mut self) {
+        let span = self.span_here();
+        let word = self.peek_token().map(|t| self.text(t)).unwrap_or("");
+        let system = crate::text::closest(word, ["system"]).is_some();
+        let mut d = Diagnostic::new(
+                Rule::Syntax,
+                span,
+                format!("'{word}' does not open a block: only 'system' does at the top of a file; this block is not read"),
+            );
+        if system {
+            d = d.with_help("did you mean 'system'?");
+        }
+        self.diags.push(d);
+        if system {
+            let _ = self.parse_system();
+        } else {
+            self.skip_block();
+        }
+    }
+}
+
+/// A body left open: name the last `{` opened inside it, if any (the `}` meant for the body may
+/// have closed it).
+pub(super) fn inner_label(d: Diagnostic, inner_at: Option<Span>) -> Diagnostic {
+    match inner_at {
+        Some(at) => d.with_label(
+            at,
+            "a '{' opened inside the body: the '}' meant for the body may have closed it",
+        ),
+        None => d,
+    }
+}

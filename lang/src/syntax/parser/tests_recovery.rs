@@ -1,0 +1,132 @@
+//! Recovery from mistakes in the block structure (see `recovery.rs`).
+
+use super::*;
+
+/// A body whose name does not read (`star é {`, `star 2x {`, `planet orbits s {`) is one
+/// error: its block is read as its own and dropped, and the bodies after it stay in the system
+/// (the block's lines spilled into the system, whose `}` then closed at the body's).
+#[test]
+fn a_body_whose_name_does_not_read_costs_only_that_body() {
+    for bad in ["star é {", "star 2x {", "planet orbits s {", "star {"] {
+        let src = format!(
+            "system \"A\" {{\n  star s {{ mass = 1 Msun }}\n  {bad}\n    mass = 1 Msun\n  }}\n  star t {{ mass = 0.8 Msun }}\n  planet p orbits t {{ period = 3 d }}\n}}\nsystem \"B\" {{\n  star u {{ mass = 1 Msun }}\n}}\n"
+        );
+        let p = parse(FileId(0), &src);
+        assert_eq!(p.diagnostics.len(), 1, "{bad}: {:#?}", p.diagnostics);
+        assert!(
+            p.diagnostics[0].message.contains("name"),
+            "{bad}: {:?}",
+            p.diagnostics[0]
+        );
+        let names: Vec<&str> = p.file.systems[0]
+            .bodies
+            .iter()
+            .map(|b| b.name.name.as_str())
+            .collect();
+        assert_eq!(names, ["s", "t", "p"], "{bad}");
+        assert_eq!(p.file.systems.len(), 2, "{bad}");
+    }
+}
+
+/// The names of the bodies of each system, in order.
+fn bodies_of(f: &File) -> Vec<Vec<String>> {
+    f.systems
+        .iter()
+        .map(|s| s.bodies.iter().map(|b| b.name.name.to_string()).collect())
+        .collect()
+}
+
+/// A planet whose host name does not read (`orbits é`) is one error; the planet is kept
+/// without a host and its lines stay its own (they spilled into the system, which then closed
+/// at the planet's `}` and dropped every later body).
+#[test]
+fn an_unreadable_host_name_costs_only_the_host() {
+    let src = "system \"A\" {\n  star s { mass = 1 Msun }\n  planet c orbits é {\n    period = 3 d\n  }\n  planet d orbits s { period = 5 d }\n}\nsystem \"B\" {\n  star u { mass = 1 Msun }\n}\n";
+    let p = parse(FileId(0), src);
+    assert_eq!(p.diagnostics.len(), 1, "{:#?}", p.diagnostics);
+    assert!(p.diagnostics[0].message.contains("star it orbits"));
+    assert_eq!(bodies_of(&p.file), [vec!["s", "c", "d"], vec!["u"]]);
+    let c = &p.file.systems[0].bodies[1];
+    assert!(c.orbits.is_none());
+    assert_eq!(c.props.len(), 1);
+}
+
+/// A block opened inside a body (`transit { ... }`, `notes { a }`) is one error; its lines are
+/// read as the body's and its `}` does not close the body (it did, and the body's own `}` then
+/// closed the system).
+#[test]
+fn a_block_inside_a_body_does_not_close_the_body() {
+    let src = "system \"A\" {\n  star s { mass = 1 Msun }\n  planet d orbits s {\n    period = 10 d\n    transit {\n      transit_depth = 500 ppm\n    }\n    rv_amplitude = 5 m/s\n  }\n  planet e orbits s { period = 20 d }\n}\n";
+    let p = parse(FileId(0), src);
+    assert_eq!(p.diagnostics.len(), 1, "{:#?}", p.diagnostics);
+    assert!(p.diagnostics[0].message.contains("'transit' opens a block"));
+    assert_eq!(bodies_of(&p.file), [vec!["s", "d", "e"]]);
+    let names: Vec<&str> = p.file.systems[0].bodies[1]
+        .props
+        .iter()
+        .map(|p| p.name.name.as_str())
+        .collect();
+    assert_eq!(names, ["period", "transit_depth", "rv_amplitude"]);
+
+    // On one line, with a stray word inside: the body still ends at its own `}`.
+    let one_line = "system \"A\" {\n  star s { mass = 1 Msun }\n  planet d orbits s {\n    notes { a }\n    period = 10 d\n  }\n  planet e orbits s { period = 20 d }\n}\n";
+    let p = parse(FileId(0), one_line);
+    assert_eq!(
+        bodies_of(&p.file),
+        [vec!["s", "d", "e"]],
+        "{:#?}",
+        p.diagnostics
+    );
+    assert_eq!(p.file.systems[0].bodies[1].props.len(), 1);
+
+    // Never closed: the body's `}` closes it, and the error for the open body names it.
+    let open = "system \"A\" {\n  star s { mass = 1 Msun }\n  planet d orbits s {\n    transit {\n    period = 10 d\n  }\n  planet e orbits s { period = 20 d }\n}\n";
+    let p = parse(FileId(0), open);
+    assert_eq!(
+        bodies_of(&p.file),
+        [vec!["s", "d", "e"]],
+        "{:#?}",
+        p.diagnostics
+    );
+    let unclosed = p
+        .diagnostics
+        .iter()
+        .find(|d| d.message.contains("not closed"))
+        .expect("the open body is reported");
+    assert!(unclosed
+        .labels
+        .iter()
+        .any(|l| l.message.contains("opened inside the body")));
+}
+
+/// A misspelt keyword that opens a block (`plnaet b orbits s {`, `sytsem "A" {`) is one error
+/// with the keyword suggested, and its block is passed over whole (its lines were each an
+/// error, and its `}` closed the system).
+#[test]
+fn a_misspelt_keyword_costs_one_error_for_its_block() {
+    let src = "system \"A\" {\n  star s { mass = 1 Msun }\n  plnaet d orbits s {\n    period = 10 d\n    rv_amplitude = 5 m/s\n  }\n  planet e orbits s { period = 20 d }\n}\n";
+    let p = parse(FileId(0), src);
+    assert_eq!(p.diagnostics.len(), 1, "{:#?}", p.diagnostics);
+    assert!(p.diagnostics[0]
+        .message
+        .contains("'plnaet' does not open a block"));
+    assert_eq!(
+        p.diagnostics[0].help.as_deref(),
+        Some("did you mean 'planet'?")
+    );
+    assert_eq!(bodies_of(&p.file), [vec!["s", "e"]]);
+
+    let top = format!("sytsem \"Z\" {{\n  star z {{ mass = 1 Msun }}\n}}\n{src}");
+    let p = parse(FileId(0), &top);
+    assert_eq!(p.diagnostics.len(), 2, "{:#?}", p.diagnostics);
+    assert_eq!(
+        p.diagnostics[0].help.as_deref(),
+        Some("did you mean 'system'?")
+    );
+    assert_eq!(bodies_of(&p.file), [vec!["s", "e"]]);
+
+    // A block never closed ends at the next declaration instead of taking it.
+    let open = "system \"A\" {\n  star s { mass = 1 Msun }\n  plnaet d orbits s {\n    period = 10 d\n  planet e orbits s { period = 20 d }\n}\n";
+    let p = parse(FileId(0), open);
+    assert_eq!(bodies_of(&p.file), [vec!["s", "e"]], "{:#?}", p.diagnostics);
+}
