@@ -51,6 +51,8 @@ pub fn run(
                 .collect();
             let (mut text, mut json, mut sarif) = (Vec::new(), Vec::new(), Vec::new());
             let (shown, mut left_out) = syzygy::shown::split(&a.diagnostics);
+            let mut severities: Vec<syzygy::diagnostic::Severity> =
+                shown.iter().map(|d| d.severity).collect();
             match format {
                 CheckFormat::Human => (text, left_out) = rendered_diagnostics(&a, db, color),
                 CheckFormat::Json => (json, left_out) = syzygy::report::diagnostics_json(&a, db),
@@ -63,6 +65,8 @@ pub fn run(
                             .filter(|u| u.silenced)
                             .filter_map(|u| sarif::suppressed(u, &places)),
                     );
+                    // A silenced value's record is shown within the quota of notes.
+                    severities.resize(sarif.len(), syzygy::diagnostic::Severity::Note);
                 }
             }
             let silenced = a.unused.iter().filter(|u| u.silenced).count();
@@ -73,9 +77,11 @@ pub fn run(
                 sarif,
                 (a.file, left_out, silenced),
                 entry,
+                severities,
             )
         },
-        |(kinds, text, json, sarif, (file, left_out, silenced), entry), last_of_file| {
+        |(kinds, text, json, sarif, (file, left_out, silenced), entry, severities),
+         last_of_file| {
             silenced_unused += silenced;
             if let Some(e) = entry {
                 match entries.last_mut() {
@@ -96,11 +102,11 @@ pub fn run(
                 }
             }
             // One of the three is filled, by the format; each is cut to the file's quota.
-            for t in shown_so_far.admit(text, left_out) {
+            for t in shown_so_far.admit(text, &severities, left_out) {
                 let _ = out.write_all(t.as_bytes());
             }
-            json_diags.extend(shown_so_far.admit(json, 0));
-            sarif_results.extend(shown_so_far.admit(sarif, 0));
+            json_diags.extend(shown_so_far.admit(json, &severities, 0));
+            sarif_results.extend(shown_so_far.admit(sarif, &severities, 0));
             if last_of_file {
                 checked += 1;
                 if let Some(note) = shown_so_far.end_file(db, file) {
@@ -211,25 +217,34 @@ pub fn run(
 }
 
 /// The diagnostics shown per file across the parts of a large file (the first
-/// `syzygy::shown::PER_FILE`), and the files whose diagnostics were not all shown, with how
+/// `syzygy::shown::PER_FILE` of each severity), and the files whose diagnostics were not all shown, with how
 /// many were left out.
 #[derive(Default)]
 pub struct Shown {
     pub not_shown: Vec<syzygy::report::json::NotShown>,
-    in_file: usize,
+    budget: syzygy::shown::Budget,
     left_in_file: usize,
 }
 
 impl Shown {
     /// Of the diagnostics one part of a file would show (and the `left_out` it would not),
     /// the ones still to show for the file.
-    pub fn admit<X>(&mut self, mut shown: Vec<X>, left_out: usize) -> Vec<X> {
-        let room = syzygy::shown::PER_FILE.saturating_sub(self.in_file);
-        let over = shown.len().saturating_sub(room);
-        shown.truncate(room);
-        self.in_file += shown.len();
-        self.left_in_file += left_out + over;
-        shown
+    /// `severities` are those of `shown`, in its order.
+    pub fn admit<X>(
+        &mut self,
+        shown: Vec<X>,
+        severities: &[syzygy::diagnostic::Severity],
+        left_out: usize,
+    ) -> Vec<X> {
+        let before = shown.len();
+        let kept: Vec<X> = shown
+            .into_iter()
+            .zip(severities)
+            .filter(|(_, s)| self.budget.take(**s))
+            .map(|(x, _)| x)
+            .collect();
+        self.left_in_file += left_out + (before - kept.len());
+        kept
     }
 
     /// The last part of `file` is done: the line counting what was not shown of it, if any.
@@ -240,7 +255,7 @@ impl Shown {
     ) -> Option<String> {
         use syzygy::source::SourceDb;
         let count = std::mem::take(&mut self.left_in_file);
-        self.in_file = 0;
+        self.budget = syzygy::shown::Budget::default();
         (count > 0).then(|| {
             self.not_shown.push(syzygy::report::json::NotShown {
                 file: db.name(file).to_string(),

@@ -54,11 +54,12 @@ pub fn run(
                         .map(|s| style.render(s))
                         .collect();
                     let diagnostics = syzygy::report::diagnostics_json(&a, db);
-                    (a.has_errors(), systems, diagnostics, a.file)
+                    let severities = shown_severities(&a);
+                    (a.has_errors(), systems, diagnostics, a.file, severities)
                 },
-                |(bad, systems, (d, left_out), file), last_of_file| {
+                |(bad, systems, (d, left_out), file, severities), last_of_file| {
                     errors |= bad;
-                    diags.extend(shown.admit(d, left_out));
+                    diags.extend(shown.admit(d, &severities, left_out));
                     if last_of_file {
                         let _ = shown.end_file(db, file);
                     }
@@ -198,13 +199,13 @@ fn stream_per_file<X: Send>(
                 a.has_errors(),
                 body(&a),
                 (rendered_diagnostics(&a, db, color), unused),
-                a.file,
+                (a.file, shown_severities(&a)),
             )
         },
-        |(bad, (bytes, extra), ((diags, left_out), unused), file), last_of_file| {
+        |(bad, (bytes, extra), ((diags, left_out), unused), (file, severities)), last_of_file| {
             errors |= bad;
             keep(extra);
-            rendered.extend(shown.admit(diags, left_out));
+            rendered.extend(shown.admit(diags, &severities, left_out));
             rendered.push_str(&unused);
             if last_of_file {
                 rendered.extend(shown.end_file(db, file));
@@ -249,4 +250,14 @@ pub fn propagation_words(options: &Options) -> String {
             "first order (linear) from the measurements' standard uncertainties".to_string()
         }
     }
+}
+
+/// The severities of the diagnostics of `a` that are shown, in their order (for
+/// [`Shown::admit`] across the parts of a large file).
+fn shown_severities(a: &syzygy::Analysis) -> Vec<syzygy::diagnostic::Severity> {
+    syzygy::shown::split(&a.diagnostics)
+        .0
+        .iter()
+        .map(|d| d.severity)
+        .collect()
 }

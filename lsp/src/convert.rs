@@ -8,8 +8,9 @@ use syzygy::ide::outline::{Node, NodeKind, TokenClass};
 use tower_lsp::lsp_types as lsp;
 use tower_lsp::lsp_types::Url;
 
-/// The diagnostics published for a file: the first `syzygy::shown::PER_FILE`, then one
-/// of severity information, where the first one left out is, counting the rest.
+/// The diagnostics published for a file: the first `syzygy::shown::PER_FILE` of each
+/// severity, then one of severity information, where the first one left out is, counting the
+/// rest.
 pub fn diagnostics(
     all: &[Diagnostic],
     snap: &Snapshot,
@@ -21,7 +22,12 @@ pub fn diagnostics(
         .iter()
         .map(|d| diagnostic(d, snap, uri, enc))
         .collect();
-    if let Some(first) = all.get(shown.len()) {
+    let first_left_out = all
+        .iter()
+        .zip(shown.iter().map(Some).chain(std::iter::repeat(None)))
+        .find(|(d, s)| !s.is_some_and(|s| std::ptr::eq(*d, *s)))
+        .map(|(d, _)| d);
+    if let (Some(first), true) = (first_left_out, left_out > 0) {
         out.push(lsp::Diagnostic {
             range: snap.range(first.span, enc),
             severity: Some(lsp::DiagnosticSeverity::INFORMATION),

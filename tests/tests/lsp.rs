@@ -475,6 +475,51 @@ fn a_file_with_hundreds_of_errors_publishes_the_first_200_and_a_count() {
     assert_eq!(last["range"]["start"]["line"], 202, "{last}");
 }
 
+/// An error after more notes than are shown is published all the same (200 notes early in a
+/// file once hid the only error, in the editor as on the command line).
+#[test]
+fn notes_before_it_do_not_hide_an_error() {
+    let uri = "file:///tmp/noted.syz";
+    let text = notes_then_an_error(205);
+    let mut c = LspClient::start();
+    c.initialize(json!({}));
+    c.open(uri, &text);
+    let d = c.diagnostics(uri, Some(1));
+    let list = d["diagnostics"].as_array().unwrap();
+    let errors: Vec<&Value> = list.iter().filter(|d| d["severity"] == 1).collect();
+    assert_eq!(errors.len(), 1, "{list:?}");
+    assert!(
+        errors[0]["message"].as_str().unwrap().contains("kelvins"),
+        "{}",
+        errors[0]
+    );
+    let last = list.last().unwrap();
+    assert!(
+        last["message"]
+            .as_str()
+            .unwrap()
+            .starts_with("5 more diagnostics in this file not shown"),
+        "{last}"
+    );
+    // It sits where the first diagnostic left out is: the 201st system's note.
+    assert_eq!(last["range"]["start"]["line"], 200, "{last}");
+}
+
+/// `n` systems whose star's mass has two uncertainties (a `combined-uncertainty` note each),
+/// then one with a misspelt unit (an error), one system a line.
+fn notes_then_an_error(n: usize) -> String {
+    let mut text = String::new();
+    for i in 0..n {
+        text.push_str(&format!(
+            "system \"Noted {i}\" {{ star s{i} {{ mass = 1.0 ± 0.05 ± 0.02 Msun }} }}\n"
+        ));
+    }
+    text.push_str(
+        "system \"Last\" { star z { mass = 1.0 ± 0.05 Msun; teff = 5000 ± 50 kelvins } }\n",
+    );
+    text
+}
+
 #[test]
 fn unhandled_dollar_requests_get_method_not_found() {
     let (uri, text) = veyra();
