@@ -130,12 +130,19 @@ impl<'m> Derivation<'m> {
         )
     }
 
+    /// Where the value used for `k` is declared: the source chosen among several (the first
+    /// declaration is not always the one used), or the first source for a weighted mean.
     fn declared_span(&self, k: Key) -> Option<Span> {
-        self.sys
-            .bodies
-            .get(k.0)
-            .and_then(|b| b.get(k.1))
-            .map(|d| d.value_span)
+        let body = self.sys.bodies.get(k.0)?;
+        match self.chosen.get(&k).and_then(|c| c.index) {
+            Some(i) => body.sources(k.1).get(i).map(|d| d.value_span),
+            None => body.get(k.1).map(|d| d.value_span),
+        }
+    }
+
+    /// Whether the value used for `k` is the weighted mean of its sources.
+    fn is_mean(&self, k: Key) -> bool {
+        self.chosen.get(&k).is_some_and(|c| c.index.is_none())
     }
 
     /// A value with its uncertainty and unit, as diagnostics show it. Two values a message
@@ -221,7 +228,15 @@ impl<'m> Derivation<'m> {
         for k in involved {
             if let Some(at) = self.declared_span(*k) {
                 if at != span {
-                    d = d.with_label(at, format!("{} is used here", self.key_name(*k)));
+                    let what = if self.is_mean(*k) {
+                        format!(
+                            "{} is used (the weighted mean of its sources, the first here)",
+                            self.key_name(*k)
+                        )
+                    } else {
+                        format!("{} is used here", self.key_name(*k))
+                    };
+                    d = d.with_label(at, what);
                 }
             }
         }

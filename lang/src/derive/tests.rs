@@ -165,6 +165,38 @@ fn declared_value_contradicting_kepler_is_inconsistent() {
     assert!(a.diagnostics.is_empty(), "{:#?}", a.diagnostics);
 }
 
+/// A disagreement points at the declaration whose value is used: the one marked
+/// `preferred`, or the one the policy picks, not the first of the quantity (whose line the
+/// labels named, although the numbers in the message came from another).
+#[test]
+fn a_disagreement_points_at_the_source_used() {
+    let src = "ref r1 \"A\"\nref r2 \"B\"\nsystem \"S\" {\n star s { mass = 1.0 ± 0.02 Msun }\n planet b orbits s {\n  period = 3.0 ± 0.01 d [r1]\n  period = 30.0 ± 0.1 d [r2] preferred\n  semi_major_axis = 0.04 ± 0.001 au\n }\n}\n";
+    let used = src.find("30.0 ± 0.1 d").unwrap();
+    let first = src.find("3.0 ± 0.01 d").unwrap();
+    // Marked, or the more precise one under the default policy (same length, same offsets).
+    let precise = src.replace(
+        "30.0 ± 0.1 d [r2] preferred",
+        "30.0 ± 0.001 d [r2]          ",
+    );
+    for src in [src.to_string(), precise] {
+        let a = run(&src, &Options::linear());
+        let d = a
+            .diagnostics
+            .iter()
+            .find(|d| d.rule == crate::diagnostic::Rule::Inconsistent)
+            .expect("an inconsistency");
+        let at: Vec<(usize, &str)> = d
+            .labels
+            .iter()
+            .map(|l| (l.span.start as usize, l.message.as_str()))
+            .chain([(d.span.start as usize, "primary")])
+            .filter(|(_, m)| m.contains("b.period") || *m == "primary")
+            .collect();
+        assert!(at.iter().any(|(s, _)| *s == used), "{at:?} {d:#?}");
+        assert!(at.iter().all(|(s, _)| *s != first), "{at:?}");
+    }
+}
+
 /// The message of the first inconsistency a first-order analysis of `src` reports.
 fn first_inconsistency(src: &str) -> String {
     let a = run(src, &Options::linear());
