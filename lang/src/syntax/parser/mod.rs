@@ -137,6 +137,7 @@ impl<'a> Items<'a> {
                 value: value_parser(src, file),
                 props: Vec::new(),
                 bodies: Vec::new(),
+                in_nested: false,
             },
         }
     }
@@ -221,6 +222,9 @@ struct Cursor<'a> {
     props: Vec<Prop>,
     /// The same for the bodies of the system being read.
     bodies: Vec<BodyDecl>,
+    /// Set while a body declared inside another is read (one level only: recursion is
+    /// bounded, and a deeper one ends its body as a missing `}` does).
+    in_nested: bool,
 }
 
 impl<'a> Cursor<'a> {
@@ -507,6 +511,10 @@ impl<'a> Cursor<'a> {
                 }
                 Some(Tok::RBrace) => {
                     self.pos += 1;
+                    if self.body_follows() {
+                        self.stray_system_close(&sys.name);
+                        continue;
+                    }
                     break;
                 }
                 Some(Tok::StarKw | Tok::Planet) => {
@@ -652,6 +660,9 @@ impl<'a> Cursor<'a> {
                 Some(Tok::Ident) if self.opens_inner_block() => {
                     inner_at = Some(self.inner_block());
                     inner += 1;
+                }
+                Some(Tok::StarKw | Tok::Planet) if !self.in_nested && self.indented_past(start) => {
+                    self.nested_body(&body.name.name);
                 }
                 Some(Tok::StarKw | Tok::Planet | Tok::System) => {
                     let span = self.span_here();

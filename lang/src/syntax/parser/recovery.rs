@@ -89,6 +89,79 @@ impl Cursor<'_> {
         span
     }
 
+    /// Whether a `star` or `planet` comes next, past line ends: after a system's `}`, the
+    /// sign that the `}` was one too many (a body's lines after it were all errors, and the
+    /// system's own `}` unmatched).
+    pub(super) fn body_follows(&mut self) -> bool {
+        let at = self.pos;
+        while matches!(self.peek(), Some(Tok::Newline | Tok::Semi)) {
+            self.pos += 1;
+        }
+        let follows = matches!(self.peek(), Some(Tok::StarKw | Tok::Planet));
+        self.pos = at;
+        follows
+    }
+
+    /// The `}` just read closed the system `name` with a body after it: one error at the
+    /// `}`, and the system goes on (its bodies after it are kept).
+    pub(super) fn stray_system_close(&mut self, name: &str) {
+        let end = self.prev_end();
+        let span = Span::new(self.file, end.saturating_sub(1), end);
+        self.diags.push(
+            Diagnostic::new(
+                Rule::Syntax,
+                span,
+                format!("a body follows this '}}', which closes system \"{name}\""),
+            )
+            .with_help(
+                "remove this '}' if the system goes on (the bodies after it are read as the \
+                 system's), or wrap those bodies in a system of their own",
+            ),
+        );
+    }
+
+    /// Whether the token here starts a line indented further than the line of the byte
+    /// `outer` (a body's keyword): inside that body's block, as the writer laid it out.
+    pub(super) fn indented_past(&mut self, outer: usize) -> bool {
+        let here = self.peek_token().map_or(0, |t| t.start);
+        let indent = |at: usize| {
+            let before = self.src.get(..at).unwrap_or("");
+            let line = before.rfind('\n').map_or(0, |i| i + 1);
+            let lead = before.get(line..).unwrap_or("");
+            // Only a keyword that starts its line counts (`star k { star c {` does not).
+            (lead.trim().is_empty() || at == outer).then(|| lead.len() - lead.trim_start().len())
+        };
+        matches!((indent(here), indent(outer)), (Some(inner), Some(o)) if inner > o)
+    }
+
+    /// A `star` or `planet` declared inside the block of the body `outer` (indented into it):
+    /// bodies do not nest. One error; the inner body is read and kept as the system's, and
+    /// the outer body goes on after it (so its `}` closes it and the bodies after it stay in
+    /// the system, where they were dropped with a cascade of errors).
+    pub(super) fn nested_body(&mut self, outer: &str) {
+        let span = self.span_here();
+        let inner = std::mem::take(&mut self.props);
+        self.in_nested = true;
+        let nested = self.parse_body();
+        self.in_nested = false;
+        self.props = inner;
+        let name = nested
+            .as_ref()
+            .map_or("", |b| b.name.name.as_str())
+            .to_string();
+        self.diags.push(
+            Diagnostic::new(
+                Rule::Syntax,
+                span,
+                format!("'{name}' is declared inside the block of '{outer}'; bodies do not nest"),
+            )
+            .with_help(format!(
+                "move it out of '{outer}', to the system's level (it is read as the system's)"
+            )),
+        );
+        self.bodies.extend(nested);
+    }
+
     /// `plnaet b orbits s {` in a system: a misspelt keyword. One error for the block, which
     /// is passed over whole (its lines did not belong to the system either).
     pub(super) fn misspelt_body_keyword(&mut self) {

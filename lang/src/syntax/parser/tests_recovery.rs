@@ -130,3 +130,53 @@ fn a_misspelt_keyword_costs_one_error_for_its_block() {
     let p = parse(FileId(0), open);
     assert_eq!(bodies_of(&p.file), [vec!["s", "e"]], "{:#?}", p.diagnostics);
 }
+
+/// A body declared inside another's block (indented into it) is one error; it is kept as the
+/// system's, and the outer body and the bodies after it stay in the system (the outer body
+/// ended there, its `}` closed the system, and the bodies after it were dropped with a
+/// cascade of errors advising to wrap them in a system).
+#[test]
+fn a_body_inside_a_body_costs_one_error() {
+    let src = "system \"K\" {\n  star k {\n    mass = 0.9 ± 0.02 Msun\n    star companion { mass = 0.2 Msun }\n    radius = 0.9 Rsun\n  }\n  planet b orbits k { period = 3 d }\n}\n";
+    let p = parse(FileId(0), src);
+    assert_eq!(p.diagnostics.len(), 1, "{:#?}", p.diagnostics);
+    assert!(p.diagnostics[0].message.contains("bodies do not nest"));
+    assert_eq!(bodies_of(&p.file), [vec!["companion", "k", "b"]]);
+    assert_eq!(p.file.systems[0].bodies[1].props.len(), 2);
+
+    // Not indented into the body: a `}` left out, as before (the next body ends it).
+    let forgot = "system \"K\" {\n  star k {\n    mass = 0.9 Msun\n  planet b orbits k { period = 3 d }\n  planet c orbits k { period = 7 d }\n}\n";
+    let p = parse(FileId(0), forgot);
+    assert_eq!(p.diagnostics.len(), 1, "{:#?}", p.diagnostics);
+    assert!(p.diagnostics[0].message.contains("not closed"));
+    assert_eq!(bodies_of(&p.file), [vec!["k", "b", "c"]]);
+
+    // Nested deeper still: one level is taken as nesting, and reading stays bounded.
+    let mut deep = String::from("system \"K\" {\n");
+    for i in 0..5_000 {
+        deep.push_str(&format!("{}star s{i} {{\n", " ".repeat(i % 200)));
+    }
+    let p = parse(FileId(0), &deep);
+    assert!(!p.diagnostics.is_empty());
+}
+
+/// A `}` too many in a system, with bodies after it, is one error at that `}`; the bodies
+/// after it stay in the system (they were each "outside a system", and the system's own `}`
+/// unmatched).
+#[test]
+fn a_brace_too_many_in_a_system_is_blamed_on_itself() {
+    let src = "system \"K\" {\n  star k { mass = 0.9 Msun }\n  planet b orbits k { period = 3 d }\n  }\n  planet c orbits k { period = 7 d }\n}\nsystem \"L\" {\n  star l { mass = 1 Msun }\n}\n";
+    let p = parse(FileId(0), src);
+    assert_eq!(p.diagnostics.len(), 1, "{:#?}", p.diagnostics);
+    let d = &p.diagnostics[0];
+    assert!(
+        d.message.contains("a body follows this '}'"),
+        "{}",
+        d.message
+    );
+    assert_eq!(
+        d.span.start as usize,
+        src.find("  }\n  planet c").unwrap() + 2
+    );
+    assert_eq!(bodies_of(&p.file), [vec!["k", "b", "c"], vec!["l"]]);
+}
