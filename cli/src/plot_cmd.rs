@@ -70,16 +70,22 @@ pub fn run(plot: &Plot, flags: &Layer, read: files::ReadArgs) -> u8 {
     // Files that could not be read: the diagram is drawn from the rest, and the exit status
     // is 2, as `check` and `eval` give for the same folder.
     let mut unread = false;
+    // Errors in the files: what they hide is not drawn, so the drawing is said to be
+    // incomplete (exit 0 all the same, as for `explain` and `ephemeris`: `check` is the
+    // command that fails on them).
+    let mut input_errors = 0;
     let result = match plot {
         Plot::MassRadius { paths, .. } => {
-            mass_radius::draw(paths, flags, read).map(|(svg, io_errors)| {
+            mass_radius::draw(paths, flags, read).map(|(svg, io_errors, errors)| {
                 unread = io_errors;
+                input_errors = errors;
                 svg
             })
         }
         Plot::Rv {
             file, body, system, ..
         } => one_planet(file, body, system.as_deref(), flags, read).and_then(|(a, si, bi)| {
+            input_errors = a.error_count();
             let c = plots::rv_curve(&a, si, bi)?;
             Ok(model::draw(
                 &c,
@@ -99,6 +105,7 @@ pub fn run(plot: &Plot, flags: &Layer, read: files::ReadArgs) -> u8 {
             .map_err(|message| Stop { code: 2, message })
             .and_then(|ld| {
                 let (a, si, bi) = one_planet(file, body, system.as_deref(), flags, read)?;
+                input_errors = a.error_count();
                 let (c, _) = plots::transit_curve(&a, si, bi, ld)?;
                 // The coefficients are among the assumptions, given or none.
                 let model = if ld.is_some() {
@@ -129,6 +136,12 @@ pub fn run(plot: &Plot, flags: &Layer, read: files::ReadArgs) -> u8 {
                     eprintln!("note: {words}");
                 }
                 eprintln!("wrote {}", out.display());
+                if input_errors > 0 {
+                    eprintln!(
+                        "note: the input has {input_errors} error{}: what they hide is not drawn; run `syz check` on it",
+                        if input_errors == 1 { "" } else { "s" }
+                    );
+                }
                 if unread {
                     2
                 } else {
@@ -234,12 +247,15 @@ fn one_planet(
     Ok((one.analysis, one.system, one.body))
 }
 
-/// A 1-sigma error bar on one axis: its ends within the axis, and whether the upper end had
-/// to be cut at the axis's edge.
+/// A 1-sigma error bar on one axis: its ends within the axis, and whether an end had to be
+/// cut at the axis's edge (the upper end past it, or the lower end below it: `5 ± 20` on a
+/// logarithmic axis reaches below zero, and was drawn to the edge without a word).
 struct Bar {
     low: f64,
     high: f64,
-    cut: bool,
+    /// The upper end cut (past the axis), and the lower end (below it).
+    cut_high: bool,
+    cut_low: bool,
 }
 
 impl Bar {
@@ -256,7 +272,8 @@ impl Bar {
             } else {
                 axis.end
             },
-            cut: !(hi.is_finite() && hi <= axis.end),
+            cut_high: !(hi.is_finite() && hi <= axis.end),
+            cut_low: !(lo.is_finite() && lo >= axis.start),
         }
     }
 }

@@ -100,6 +100,14 @@ impl Analysis {
             .iter()
             .any(|d| d.severity == diagnostic::Severity::Error)
     }
+
+    /// How many errors the file has.
+    pub fn error_count(&self) -> usize {
+        self.diagnostics
+            .iter()
+            .filter(|d| d.severity == diagnostic::Severity::Error)
+            .count()
+    }
 }
 
 /// Run the whole pipeline on one source text: parse, lower, derive, check, then apply the

@@ -326,3 +326,36 @@ fn a_folder_with_an_unreadable_file_is_plotted_from_the_rest_and_exits_2() {
     let o = run(&["check", dir.to_str().unwrap()]);
     assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
 }
+
+/// A plot from a file with errors says so, on stderr and in the caption (a planet hidden by a
+/// misspelt keyword was left out of the figure without a word); a mass error bar reaching
+/// below zero is said to be cut at the edge (it ran to the edge in silence).
+#[test]
+fn a_mass_radius_diagram_says_what_errors_and_cut_bars_hide() {
+    let dir = scratch("plot-errors");
+    let file = dir.join("halm.syz");
+    std::fs::write(
+        &file,
+        "system \"Halm\" {\n  star h { mass = 0.8 ± 0.02 Msun; radius = 0.8 ± 0.02 Rsun; teff = 5000 ± 50 K }\n  planet b orbits h { period = 3 ± 0.01 d; mass = 5 ± 1 Mearth; radius = 2 ± 0.1 Rearth }\n  plnaet c orbits h { period = 9 ± 0.01 d; mass = 8 ± 1 Mearth; radius = 2.5 ± 0.1 Rearth }\n  planet d orbits h { period = 5 ± 0.01 d; mass = 5 ± 20 Mearth; radius = 2 ± 0.1 Rearth }\n}\n",
+    )
+    .unwrap();
+    let out = dir.join("mr.svg");
+    let o = run(&[
+        "plot",
+        "mass-radius",
+        file.to_str().unwrap(),
+        "-o",
+        out.to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let err = stderr(&o);
+    assert!(err.contains("the input has 1 error"), "{err}");
+    assert!(
+        err.contains("Halm d: the mass error bar reaches below zero"),
+        "{err}"
+    );
+    assert!(!err.contains("Halm b: the mass error bar"), "{err}");
+    let t = texts(&std::fs::read_to_string(&out).unwrap()).join(" ");
+    assert!(t.contains("The input has 1 error"), "{t}");
+    assert!(t.contains("1 error bar is cut at the edge"), "{t}");
+}

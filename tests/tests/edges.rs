@@ -258,6 +258,40 @@ fn many_errors(n: usize) -> String {
     s
 }
 
+/// An error after more notes than are shown is shown all the same, in text and JSON (200
+/// notes early in a file once hid the only error: exit 1 with nothing to read).
+#[test]
+fn notes_before_it_do_not_hide_an_error() {
+    let dir = scratch("noted");
+    let f = dir.join("noted.syz");
+    let mut text = String::new();
+    for i in 0..205 {
+        text.push_str(&format!(
+            "system \"Noted {i}\" {{ star s{i} {{ mass = 1.0 ± 0.05 ± 0.02 Msun }} }}\n"
+        ));
+    }
+    text.push_str(
+        "system \"Last\" { star z { mass = 1.0 ± 0.05 Msun; teff = 5000 ± 50 kelvins } }\n",
+    );
+    std::fs::write(&f, text).unwrap();
+    let file = path(&f);
+    let o = run_bounded(&["check", file], HANG);
+    let out = stdout(&o);
+    assert_eq!(o.status.code(), Some(1));
+    assert!(out.contains("kelvins"), "{out}");
+    assert!(
+        out.contains("5 more diagnostics in this file not shown"),
+        "{out}"
+    );
+    let o = run_bounded(&["check", "--format", "json", file], HANG);
+    let doc: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    let list = doc["diagnostics"].as_array().unwrap();
+    assert_eq!(list.len(), 201, "{doc}");
+    assert_eq!(list.iter().filter(|d| d["severity"] == "error").count(), 1);
+    let o = run_bounded(&["eval", file], HANG);
+    assert!(stdout(&o).contains("kelvins") || stderr(&o).contains("kelvins"));
+}
+
 #[test]
 fn a_file_shows_its_first_200_diagnostics_and_counts_the_rest() {
     let dir = scratch("many-errors");
@@ -269,7 +303,7 @@ fn a_file_shows_its_first_200_diagnostics_and_counts_the_rest() {
     assert_eq!(text.matches("[syntax] Error").count(), 200, "{text}");
     assert!(
         text.contains(&format!(
-            "note: {file}: 100 more diagnostics in this file not shown (only the first 200 of a file are)"
+            "note: {file}: 100 more diagnostics in this file not shown (only the first 200 errors, 200 warnings and 200 notes of a file are)"
         )),
         "{text}"
     );
@@ -408,7 +442,7 @@ fn plots_of_absurd_uncertainties_end_and_say_what_was_left_out() {
     );
     assert!(std::fs::read_to_string(&svg)
         .unwrap()
-        .contains("cut at its edge"));
+        .contains("cut at the edge of the diagram"));
     svg_numbers_are_finite(&svg);
     let o = run_bounded(&["plot", "transit", file, "b", "-o", out], HANG);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));

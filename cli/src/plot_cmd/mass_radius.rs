@@ -82,10 +82,11 @@ pub(super) fn draw(
     paths: &[PathBuf],
     flags: &Layer,
     read: files::ReadArgs,
-) -> Result<(String, bool), Stop> {
+) -> Result<(String, bool, usize), Stop> {
     let loaded = files::load(paths, read);
     files::report_io_errors(&loaded.errors);
     let analyses = files::analyze_all(&loaded, flags).map_err(Stop::settings)?;
+    let errors = analyses.iter().map(syzygy::Analysis::error_count).sum();
     let (points, mut left_out) = plots::mass_radius_points(&analyses);
     // Only what fits the diagram's widest axes is drawn; the rest is said.
     let (points, beyond): (Vec<_>, Vec<_>) = points
@@ -130,8 +131,20 @@ pub(super) fn draw(
     for p in &points {
         x_max = finite_max(2.0 * (p.mass + p.mass_above), x_max, &MASS_AXIS);
         y_max = finite_max(1.5 * (p.radius + p.radius_above), y_max, &RADIUS_AXIS);
-        x_min = x_min.min(0.5 * p.mass).max(MASS_AXIS.start);
-        y_min = y_min.min(0.5 * p.radius).max(RADIUS_AXIS.start);
+        // Down to the lower end of each error bar that stays positive (a logarithmic axis
+        // cannot show one that does not: that bar is cut at the edge, and said to be).
+        let low = |v: f64, below: f64| {
+            let end = v - below;
+            if end > 0.0 {
+                0.8 * end
+            } else {
+                0.5 * v
+            }
+        };
+        x_min = x_min.min(low(p.mass, p.mass_below)).max(MASS_AXIS.start);
+        y_min = y_min
+            .min(low(p.radius, p.radius_below))
+            .max(RADIUS_AXIS.start);
     }
     let bars: Vec<(Bar, Bar)> = points
         .iter()
@@ -144,11 +157,24 @@ pub(super) fn draw(
         .collect();
     let mut cut = 0;
     for (p, (m, r)) in points.iter().zip(&bars) {
-        for (c, what) in [(m.cut, "mass"), (r.cut, "radius")] {
-            if c {
+        let sides = [
+            (m, "mass", p.mass - p.mass_below),
+            (r, "radius", p.radius - p.radius_below),
+        ];
+        for (bar, what, low_end) in sides {
+            // The lower end is cut where it is not positive (a logarithmic axis cannot show
+            // it); else where it falls below the widest axis, as the upper end can exceed it.
+            let below_zero = bar.cut_low && low_end <= 0.0;
+            let beyond = bar.cut_high || (bar.cut_low && !below_zero);
+            if beyond || below_zero {
                 cut += 1;
+                let reach = match (beyond, below_zero) {
+                    (true, true) => "reaches beyond the axis, and below zero,",
+                    (true, false) => "reaches beyond the axis",
+                    _ => "reaches below zero, which a logarithmic axis cannot show,",
+                };
                 eprintln!(
-                    "note: {}: the {what} error bar reaches beyond the axis and is cut at its edge",
+                    "note: {}: the {what} error bar {reach} and is cut at its edge",
                     p.label
                 );
             }
@@ -487,14 +513,21 @@ pub(super) fn draw(
     }
     if cut > 0 {
         counts.push(format!(
-            "{} beyond the axis and cut at its edge.",
-            plural(cut, "error bar reaches", "error bars reach")
+            "{} cut at the edge of the diagram (reaching beyond its axis, or below zero).",
+            plural(cut, "error bar is", "error bars are")
         ));
     }
     if !beyond.is_empty() {
         counts.push(format!(
             "{} beyond the diagram, not drawn (named in the text output).",
             plural(beyond.len(), "planet lies", "planets lie")
+        ));
+    }
+    if errors > 0 {
+        counts.push(format!(
+            "The input has {}: what {} hide is not drawn (see syz check).",
+            plural(errors, "error", "errors"),
+            if errors == 1 { "it" } else { "they" }
         ));
     }
     caption.push(counts.join(" "));
@@ -526,7 +559,7 @@ pub(super) fn draw(
             unlabelled.join(", ")
         );
     }
-    Ok((svg_text, !loaded.errors.is_empty()))
+    Ok((svg_text, !loaded.errors.is_empty(), errors))
 }
 
 fn print_planets(points: &[PlanetPoint], systems: &[(usize, &str, usize)], unlabelled: &[&str]) {
