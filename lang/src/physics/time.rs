@@ -223,8 +223,10 @@ pub const NO_FUTURE_LEAP_SECONDS: &str =
     "no leap second after 2017-01-01 is known to the table; later UTC times assume TAI − UTC = 37 s";
 
 fn check_range(jd: f64) -> Result<(), TimeError> {
-    // Years 1000..9999, roughly: JD 2086308 .. 5373484.
-    if jd.is_finite() && (2_086_308.0..5_373_484.0).contains(&jd) {
+    // Years 1000 to 9999 whole, in the proleptic Gregorian calendar the timestamps are read
+    // in: JD 2086302.5 (1000-01-01T00:00) up to 5373484.5 (10000-01-01T00:00). The bounds were
+    // the Julian calendar's at the start (five days late) and cut half a day off the end.
+    if jd.is_finite() && (2_086_302.5..5_373_484.5).contains(&jd) {
         Ok(())
     } else {
         Err(TimeError::OutOfRange(jd))
@@ -418,6 +420,14 @@ pub fn parse_iso(text: &str) -> Result<f64, TimeError> {
         if hour > 23 || minute > 59 || second >= 61.0 {
             return Err(bad("the time of day is out of range"));
         }
+        if second >= 60.0 {
+            // 23:59:60 on a day that ends with a leap second: a Julian date in UTC has no
+            // number for it (it was read as the next day's 00:00:00, one second late).
+            return Err(TimeError::BadTimestamp(format!(
+                "'{text}' names a leap second (second 60), which a Julian date in UTC cannot \
+                 name; give the instant as a Julian date in TAI or TT (JD_TAI, JD_TT)"
+            )));
+        }
         if zone != "Z" && zone != "z" {
             let sign = if zone.starts_with('-') { -1 } else { 1 };
             let mut z = zone.get(1..).unwrap_or("").splitn(2, ':');
@@ -577,9 +587,28 @@ mod tests {
             "yesterday",
             "2026-13-01T00:00Z",
             "2026-03-14T25:00:00Z",
+            // A leap second has no Julian date in UTC (read as the next day, 1 s late).
+            "2016-12-31T23:59:60Z",
+            "2020-05-05T12:00:60.5Z",
         ] {
             assert!(parse_iso(text).is_err(), "{text} accepted");
         }
+    }
+
+    /// The range is years 1000 to 9999 whole (it started five days late and ended half a day
+    /// early), counted from JD 2451544.5 = 2000-01-01 00:00 (Meeus, Astronomical Algorithms,
+    /// ch. 7) in Gregorian days: 400 years are 146,097 days, and 1000-1199 hold 48 leap years.
+    #[test]
+    fn the_range_holds_years_1000_to_9999_whole() {
+        let first = parse_iso("1000-01-01").unwrap();
+        let last = parse_iso("9999-12-31T23:59:59Z").unwrap();
+        assert_eq!(
+            first,
+            2_451_544.5 - 146_097.0 * 2.0 - (200.0 * 365.0 + 48.0)
+        );
+        assert!(check_range(first - 1e-6).is_err());
+        assert!((last - (2_451_544.5 + 146_097.0 * 20.0 - 1.0 / DAY)).abs() < 1e-8);
+        assert!(check_range(2_451_544.5 + 146_097.0 * 20.0).is_err());
     }
 
     #[test]
