@@ -481,7 +481,19 @@ pub fn one_body(
         });
         return Err(match past {
             Some(s) => (1, syzygy::model::limits::not_read(&s.name, body)),
-            None => (1, format!("no body '{body}' in {}", file.display())),
+            None => {
+                let errors = analysis.error_count();
+                let hidden = if errors > 0 {
+                    format!(
+                        "; the file has {errors} error{}, and one may hide it (a misspelt \
+                         'planet', an unreadable name): run `syz check` on it",
+                        if errors == 1 { "" } else { "s" }
+                    )
+                } else {
+                    String::new()
+                };
+                (1, format!("no body '{body}' in {}{hidden}", file.display()))
+            }
         });
     };
     Ok(OneBody {

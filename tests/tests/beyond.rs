@@ -125,6 +125,20 @@ fn plot_errors_are_clear() {
     ]);
     assert_eq!(o.status.code(), Some(1));
     assert!(stderr(&o).contains("no body 'zz'"));
+    // A body an error hides: the message says the file has errors (it said only "no body").
+    let hidden = dir.join("hidden.syz");
+    std::fs::write(
+        &hidden,
+        "system \"H\" {\n  star s { mass = 1 Msun }\n  plnaet c orbits s { period = 3 d }\n}\n",
+    )
+    .unwrap();
+    let o = run(&["explain", hidden.to_str().unwrap(), "c.period"]);
+    assert_ne!(o.status.code(), Some(0));
+    assert!(
+        stderr(&o).contains("no body 'c'") && stderr(&o).contains("the file has 1 error"),
+        "{}",
+        stderr(&o)
+    );
     let o = run(&[
         "plot",
         "rv",
@@ -332,7 +346,7 @@ fn a_folder_with_an_unreadable_file_is_plotted_from_the_rest_and_exits_2() {
 /// below zero is said to be cut at the edge (it ran to the edge in silence).
 #[test]
 fn a_mass_radius_diagram_says_what_errors_and_cut_bars_hide() {
-    let dir = scratch("plot-errors");
+    let dir = scratch("plot-input-errors");
     let file = dir.join("halm.syz");
     std::fs::write(
         &file,

@@ -133,7 +133,15 @@ impl Ephemeris {
         let period = res
             .get(Qty::Period)
             .filter(|p| p.value.is_finite() && p.value > 0.0)
-            .ok_or_else(|| format!("the period of '{}' is neither declared nor derivable", b.id))?;
+            .ok_or_else(|| {
+                // Say why, as for the epoch: a period declared but refused (`0 d`) was called
+                // "neither declared nor derivable".
+                format!(
+                    "the period of '{}' is {}",
+                    b.id,
+                    crate::report::missing_text(a, sys, body, Qty::Period)
+                )
+            })?;
         let mut assumptions = epoch.assumptions.clone();
         let unit = epoch.shown_unit().to_string();
         let system = match time::system_of_unit(&unit) {
@@ -525,6 +533,15 @@ mod tests {
         // No number to paste: another planet's epoch would give a wrong ephemeris.
         assert!(!err.chars().any(|c| c.is_ascii_digit()), "{err}");
         assert!(Ephemeris::of(&a, 0, 0).is_err());
+    }
+
+    /// A period declared but refused says why (it was "neither declared nor derivable").
+    #[test]
+    fn a_refused_period_says_why() {
+        let src = "system \"Ostrel\" {\n  star s { mass = 1 Msun }\n  planet b orbits s { period = 0 d; transit_epoch = 2460000.5 ± 0.001 BJD_TDB }\n}\n";
+        let err = Ephemeris::of(&analysis(src), 0, 1).unwrap_err();
+        assert!(err.contains("the period of 'b' is declared"), "{err}");
+        assert!(err.contains("outside the valid range"), "{err}");
     }
 
     #[test]

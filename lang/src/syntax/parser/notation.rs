@@ -285,6 +285,7 @@ impl Cursor<'_> {
         let back = |n: usize| i.checked_sub(n).and_then(|j| self.toks.get(j));
         let kind = |n: usize| back(n).map(|t| t.kind);
         let ahead = |n: usize| self.toks.get(i + n);
+        let back_of = |j: usize| j.checked_sub(1).and_then(|j| self.toks.get(j));
         let text = |t: Option<&Token>| t.map_or("", |t| self.text(*t));
         match found? {
             // `1.1 -0.03/+0.05 Rjup`: found '+' after `- NUMBER /`.
@@ -368,11 +369,45 @@ impl Cursor<'_> {
                 let whole = back(1).filter(|t| t.kind == Tok::Number && t.end == at)?;
                 let fraction = ahead(1).filter(|t| t.kind == Tok::Number && t.start == at + 1)?;
                 let point = format!("{}.{}", self.text(*whole), self.text(*fraction));
+                // Every decimal comma of the value in one fix (`27,3 ± 0,2` had only its
+                // first mended).
+                let mut commas = vec![at];
+                let mut last = fraction.end;
+                let mut n = 2;
+                while let Some(t) = ahead(n) {
+                    if matches!(t.kind, Tok::Newline | Tok::Semi | Tok::RBrace) {
+                        break;
+                    }
+                    let joined = t.kind == Tok::Comma
+                        && back_of(i + n)
+                            .is_some_and(|b| b.kind == Tok::Number && b.end == t.start)
+                        && ahead(n + 1).is_some_and(|f| f.kind == Tok::Number && f.start == t.end);
+                    if joined {
+                        commas.push(t.start);
+                        last = ahead(n + 1).map_or(last, |f| f.end);
+                    }
+                    n += 1;
+                }
+                let written = self.src.get(whole.start..last)?;
+                let fixed: String = written
+                    .char_indices()
+                    .map(|(k, c)| {
+                        if commas.contains(&(whole.start + k)) {
+                            '.'
+                        } else {
+                            c
+                        }
+                    })
+                    .collect();
+                let more = match commas.len() {
+                    1 => String::new(),
+                    n => format!(" (all {n} on this line: `{fixed}`)"),
+                };
                 Some((
-                    format!("the decimal separator is a point: `{point}`"),
+                    format!("the decimal separator is a point: `{point}`{more}"),
                     Some(Fix {
-                        span: Span::new(self.file, whole.start, fraction.end),
-                        text: point,
+                        span: Span::new(self.file, whole.start, last),
+                        text: fixed,
                     }),
                 ))
             }

@@ -412,6 +412,18 @@ fn plus_slash_minus_and_a_decimal_comma_get_the_accepted_spelling() {
     assert!(h.contains("`1.07 ± 0.03`"), "the user's own numbers: {h}");
     let h = help_of("12,5 d").unwrap();
     assert!(h.contains("`12.5`"), "{h}");
+    // Every decimal comma of the value is mended by the one fix (only the first was).
+    let src = "system \"S\" { star s { teff = 5727,3 ± 10,2 K } }";
+    let p = parse(FileId(0), src);
+    let fix = p.diagnostics[0].fix.clone().expect("a fix");
+    let mended = format!(
+        "{}{}{}",
+        &src[..fix.span.start as usize],
+        fix.text,
+        &src[fix.span.end as usize..]
+    );
+    assert_eq!(mended, "system \"S\" { star s { teff = 5727.3 ± 10.2 K } }");
+    assert!(p.diagnostics[0].help.as_deref().unwrap().contains("all 2"));
     // A comma or a slash elsewhere gets neither help.
     assert!(!help_of("12, 5 d").unwrap_or_default().contains("decimal"));
     assert!(!help_of("1 + / 2").unwrap_or_default().contains("symmetric"));
