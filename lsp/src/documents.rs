@@ -78,7 +78,7 @@ impl Snapshot {
     /// The analysis, computed on first use, deriving again only the systems that changed
     /// since the work it reuses. It uses the project's settings, except that propagation is
     /// first order so that typing stays smooth (see `syzygy::settings::EditorSettings`). A
-    /// project file that cannot be used is reported on the first line.
+    /// project file that cannot be used is reported on the first line, alone.
     pub fn analysis(&self) -> Arc<Analysis> {
         self.analysis
             .get_or_init(|| {
@@ -90,10 +90,11 @@ impl Snapshot {
                     previous.as_deref(),
                 );
                 if let Some(e) = &self.project.error {
-                    analysis
-                        .diagnostics
-                        .push(e.diagnostic(FileId(0), &self.text));
-                    syzygy::diagnostic::sort_diagnostics(&mut analysis.diagnostics);
+                    // As `syz check`, which checks nothing under a project file it cannot
+                    // use: that error alone (the rest, found under the default settings,
+                    // differed from the project's: its shared references unknown, its rule
+                    // levels not applied).
+                    analysis.diagnostics = vec![e.diagnostic(FileId(0), &self.text)];
                 }
                 *self.reusable_slot() = Some(Arc::new(reusable));
                 Arc::new(analysis)

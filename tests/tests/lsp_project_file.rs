@@ -216,6 +216,17 @@ fn a_bad_project_file_is_a_diagnostic_in_the_editor() {
         message.starts_with(&format!("{sentence}\n")),
         "the sentence `syz check` prints: {message}"
     );
+    // A document with mistakes of its own shows that error alone, as `syz check` checks
+    // nothing under such a project file (what the default settings find is not the project's).
+    let errant = dir.join("errant.syz");
+    let errant_text = every_rule();
+    std::fs::write(&errant, &errant_text).unwrap();
+    let errant_uri = file_uri(&errant);
+    c.open(&errant_uri, &errant_text);
+    let d = c.diagnostics(&errant_uri, Some(1));
+    let diags = d["diagnostics"].as_array().unwrap();
+    assert_eq!(diags.len(), 1, "{d}");
+    assert_eq!(diags[0]["code"], "io");
     assert_eq!(c.shutdown_and_exit().unwrap().code(), Some(0));
 }
 
