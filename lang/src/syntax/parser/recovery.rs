@@ -124,10 +124,19 @@ impl Cursor<'_> {
     /// `outer` (a body's keyword): inside that body's block, as the writer laid it out.
     pub(super) fn indented_past(&mut self, outer: usize) -> bool {
         let here = self.peek_token().map_or(0, |t| t.start);
+        // The line's start is looked for at most this far back: a keyword that far into its
+        // line does not start it, and a bounded look keeps a file of one long line linear.
+        const LOOK_BACK: usize = 4096;
         let indent = |at: usize| {
-            let before = self.src.get(..at).unwrap_or("");
-            let line = before.rfind('\n').map_or(0, |i| i + 1);
-            let lead = before.get(line..).unwrap_or("");
+            let bytes = self.src.as_bytes();
+            let from = at.saturating_sub(LOOK_BACK);
+            let window = bytes.get(from..at)?;
+            let line = match window.iter().rposition(|b| *b == b'\n') {
+                Some(i) => from + i + 1,
+                None if from == 0 => 0,
+                None => return None,
+            };
+            let lead = self.src.get(line..at)?;
             // Only a keyword that starts its line counts (`star k { star c {` does not).
             (lead.trim().is_empty() || at == outer).then(|| lead.len() - lead.trim_start().len())
         };
