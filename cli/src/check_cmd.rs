@@ -51,8 +51,8 @@ pub fn run(
                 .collect();
             let (mut text, mut json, mut sarif) = (Vec::new(), Vec::new(), Vec::new());
             let (shown, mut left_out) = syzygy::shown::split(&a.diagnostics);
-            let mut severities: Vec<syzygy::diagnostic::Severity> =
-                shown.iter().map(|d| d.severity).collect();
+            let mut severities: Vec<Option<syzygy::diagnostic::Severity>> =
+                shown.iter().map(|d| syzygy::shown::quota(d)).collect();
             match format {
                 CheckFormat::Human => (text, left_out) = rendered_diagnostics(&a, db, color),
                 CheckFormat::Json => (json, left_out) = syzygy::report::diagnostics_json(&a, db),
@@ -66,7 +66,7 @@ pub fn run(
                             .filter_map(|u| sarif::suppressed(u, &places)),
                     );
                     // A silenced value's record is shown within the quota of notes.
-                    severities.resize(sarif.len(), syzygy::diagnostic::Severity::Note);
+                    severities.resize(sarif.len(), Some(syzygy::diagnostic::Severity::Note));
                 }
             }
             let silenced = a.unused.iter().filter(|u| u.silenced).count();
@@ -229,11 +229,11 @@ pub struct Shown {
 impl Shown {
     /// Of the diagnostics one part of a file would show (and the `left_out` it would not),
     /// the ones still to show for the file.
-    /// `severities` are those of `shown`, in its order.
+    /// `severities` are the quotas of `shown` (`syzygy::shown::quota`), in its order.
     pub fn admit<X>(
         &mut self,
         shown: Vec<X>,
-        severities: &[syzygy::diagnostic::Severity],
+        severities: &[Option<syzygy::diagnostic::Severity>],
         left_out: usize,
     ) -> Vec<X> {
         let before = shown.len();

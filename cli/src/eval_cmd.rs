@@ -254,10 +254,10 @@ pub fn propagation_words(options: &Options) -> String {
 
 /// The severities of the diagnostics of `a` that are shown, in their order (for
 /// [`Shown::admit`] across the parts of a large file).
-fn shown_severities(a: &syzygy::Analysis) -> Vec<syzygy::diagnostic::Severity> {
+fn shown_severities(a: &syzygy::Analysis) -> Vec<Option<syzygy::diagnostic::Severity>> {
     syzygy::shown::split(&a.diagnostics)
         .0
         .iter()
-        .map(|d| d.severity)
+        .map(|d| syzygy::shown::quota(d))
         .collect()
 }

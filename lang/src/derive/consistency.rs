@@ -131,11 +131,29 @@ impl<'m> Derivation<'m> {
     }
 
     /// Where the value used for `k` is declared: the source chosen among several (the first
-    /// declaration is not always the one used), or the first source for a weighted mean.
+    /// declaration is not always the one used), or the first source averaged for a weighted
+    /// mean.
     fn declared_span(&self, k: Key) -> Option<Span> {
         let body = self.sys.bodies.get(k.0)?;
-        match self.chosen.get(&k).and_then(|c| c.index) {
-            Some(i) => body.sources(k.1).get(i).map(|d| d.value_span),
+        match self.chosen.get(&k) {
+            Some(c) => {
+                let all = body.sources(k.1);
+                match c.index {
+                    Some(i) => all.get(i).map(|d| d.value_span),
+                    // A weighted mean: its first source averaged (not a limit, an assumed
+                    // value or one without an uncertainty listed before it).
+                    None => all
+                        .iter()
+                        .find(|d| match &d.content {
+                            crate::model::Content::Measured(m) => {
+                                super::sources::ranked(m, d.assumed)
+                            }
+                            _ => false,
+                        })
+                        .or(all.first())
+                        .map(|d| d.value_span),
+                }
+            }
             None => body.get(k.1).map(|d| d.value_span),
         }
     }
@@ -230,7 +248,7 @@ impl<'m> Derivation<'m> {
                 if at != span {
                     let what = if self.is_mean(*k) {
                         format!(
-                            "{} is used (the weighted mean of its sources, the first here)",
+                            "{} is used (the weighted mean of its measurements, the first here)",
                             self.key_name(*k)
                         )
                     } else {

@@ -195,6 +195,27 @@ fn a_disagreement_points_at_the_source_used() {
         assert!(at.iter().any(|(s, _)| *s == used), "{at:?} {d:#?}");
         assert!(at.iter().all(|(s, _)| *s != first), "{at:?}");
     }
+    // A weighted mean: the first measurement averaged, not a limit or a value without an
+    // uncertainty listed before it.
+    let mean = "ref r1 \"A\"\nref r2 \"B\"\nref r3 \"C\"\nref r4 \"D\"\nsystem \"S\" {\n star s { mass = 1.0 ± 0.02 Msun }\n planet b orbits s {\n  period < 40 d [r1]\n  period = 30.0 d [r4]\n  period = 30.0 ± 0.1 d [r2]\n  period = 30.1 ± 0.1 d [r3]\n  semi_major_axis = 0.04 ± 0.001 au\n }\n}\n";
+    let mut options = Options::linear();
+    options.source_choice = crate::derive::SourceChoice::WeightedMean;
+    let a = run(mean, &options);
+    let d = a
+        .diagnostics
+        .iter()
+        .find(|d| d.rule == crate::diagnostic::Rule::Inconsistent)
+        .expect("an inconsistency");
+    let label = d
+        .labels
+        .iter()
+        .find(|l| l.message.starts_with("b.period"))
+        .expect("a label on the period");
+    assert_eq!(
+        label.span.start as usize,
+        mean.find("30.0 ± 0.1 d").unwrap()
+    );
+    assert!(label.message.contains("weighted mean"), "{}", label.message);
 }
 
 /// The message of the first inconsistency a first-order analysis of `src` reports.

@@ -25,9 +25,16 @@ impl Default for Budget {
     }
 }
 
+/// The quota a diagnostic is shown within: its severity's, or `None` for one always shown
+/// (the error that says the parser stopped reading the file).
+pub fn quota(d: &Diagnostic) -> Option<Severity> {
+    (!crate::parser::stops_reading(d)).then_some(d.severity)
+}
+
 impl Budget {
-    /// Whether a diagnostic of severity `s` is shown, taking its room if so.
-    pub fn take(&mut self, s: Severity) -> bool {
+    /// Whether a diagnostic of quota `s` (see [`quota`]) is shown, taking its room if so.
+    pub fn take(&mut self, s: Option<Severity>) -> bool {
+        let Some(s) = s else { return true };
         match self.left.get_mut(s as usize) {
             Some(n) if *n > 0 => {
                 *n -= 1;
@@ -43,7 +50,7 @@ pub fn split(diagnostics: &[Diagnostic]) -> (Vec<&Diagnostic>, usize) {
     let mut budget = Budget::default();
     let shown: Vec<&Diagnostic> = diagnostics
         .iter()
-        .filter(|d| budget.take(d.severity))
+        .filter(|d| budget.take(quota(d)))
         .collect();
     let left_out = diagnostics.len() - shown.len();
     (shown, left_out)
@@ -92,5 +99,20 @@ mod tests {
                 .count()
                 == PER_FILE
         );
+    }
+
+    /// The error that says the parser stopped reading is always shown: it comes after a
+    /// thousand other errors, so the cap hid it, and nothing said the rest went unread.
+    #[test]
+    fn the_stop_of_the_parser_is_always_shown() {
+        let src: String = (0..1500).map(|_| "x x\n").collect();
+        let p = crate::parser::parse(crate::source::FileId(0), &src);
+        let (shown, rest) = split(&p.diagnostics);
+        assert!(rest > 0);
+        assert!(
+            shown.iter().any(|d| crate::parser::stops_reading(d)),
+            "{shown:?}"
+        );
+        assert_eq!(shown.len(), PER_FILE + 1);
     }
 }

@@ -424,8 +424,10 @@ pub fn parse_iso(text: &str) -> Result<f64, TimeError> {
             // 23:59:60 on a day that ends with a leap second: a Julian date in UTC has no
             // number for it (it was read as the next day's 00:00:00, one second late).
             return Err(TimeError::BadTimestamp(format!(
-                "'{text}' names a leap second (second 60), which a Julian date in UTC cannot \
-                 name; give the instant as a Julian date in TAI or TT (JD_TAI, JD_TT)"
+                "'{text}' has second 60: a leap second, which exists only at 23:59:60 UTC on \
+                 a day that ends with one, and which a Julian date in UTC has no number for; \
+                 give the second before or after it (or, for a transit epoch in a file, the \
+                 instant as a Julian date in TAI or TT: JD_TAI, JD_TT)"
             )));
         }
         if zone != "Z" && zone != "z" {

@@ -48,6 +48,18 @@ pub const MAX_VALUE_TOKENS: usize = 256;
 /// description with mistakes but something else (ten megabytes of stray names once made
 /// five million errors and took two gigabytes).
 pub const MAX_SYNTAX_ERRORS: usize = 1000;
+/// The words of the error that says the parser stopped reading (see [`stops_reading`]).
+const STOPPED: &str = "the file is not read past this point";
+
+/// Whether `d` is the error that says the parser stopped reading the file: front ends always
+/// show it (it comes after a thousand others, which their caps on shown diagnostics hid it
+/// behind, so nothing said that the rest of the file went unchecked).
+pub fn stops_reading(d: &Diagnostic) -> bool {
+    d.rule == Rule::Syntax && d.message.ends_with(STOPPED)
+}
+
+/// Bodies declared inside bodies that recovery reads as such (each one level of recursion).
+const MAX_NESTED_BODIES: usize = 8;
 
 mod names;
 mod notation;
@@ -137,7 +149,7 @@ impl<'a> Items<'a> {
                 value: value_parser(src, file),
                 props: Vec::new(),
                 bodies: Vec::new(),
-                in_nested: false,
+                nested: 0,
             },
         }
     }
@@ -222,9 +234,9 @@ struct Cursor<'a> {
     props: Vec<Prop>,
     /// The same for the bodies of the system being read.
     bodies: Vec<BodyDecl>,
-    /// Set while a body declared inside another is read (one level only: recursion is
-    /// bounded, and a deeper one ends its body as a missing `}` does).
-    in_nested: bool,
+    /// How deep the body being read is declared inside others (recursion is bounded by
+    /// [`MAX_NESTED_BODIES`]; a deeper one ends its body as a missing `}` does).
+    nested: usize,
 }
 
 impl<'a> Cursor<'a> {
@@ -310,7 +322,7 @@ impl<'a> Cursor<'a> {
             Diagnostic::new(
                 Rule::Syntax,
                 span,
-                format!("{MAX_SYNTAX_ERRORS} syntax errors: the file is not read past this point"),
+                format!("{MAX_SYNTAX_ERRORS} syntax errors: {STOPPED}"),
             )
             .with_help("fix the errors above (or check that this is a Syzygy file) and run again"),
         );
@@ -456,29 +468,6 @@ impl<'a> Cursor<'a> {
                 self.skip_line();
             }
         }
-    }
-
-    /// The `{` that opens `what` (line ends before it allowed); an error and the rest of the
-    /// line skipped when it is missing.
-    /// The next token that is not a newline, with the newlines before it consumed (as
-    /// [`Parser::open_block`] would consume them).
-    fn peek_past_newlines(&mut self) -> Option<Tok> {
-        while self.peek() == Some(Tok::Newline) {
-            self.pos += 1;
-        }
-        self.peek()
-    }
-
-    fn open_block(&mut self, what: &str) -> bool {
-        while self.peek() == Some(Tok::Newline) {
-            self.pos += 1;
-        }
-        if self.eat(Tok::LBrace).is_some() {
-            return true;
-        }
-        self.expect_error(&format!("'{{' to open {what}"));
-        self.skip_line();
-        false
     }
 
     fn parse_system(&mut self) -> Option<SystemDecl> {
@@ -661,7 +650,9 @@ impl<'a> Cursor<'a> {
                     inner_at = Some(self.inner_block());
                     inner += 1;
                 }
-                Some(Tok::StarKw | Tok::Planet) if !self.in_nested && self.indented_past(start) => {
+                Some(Tok::StarKw | Tok::Planet)
+                    if self.nested < MAX_NESTED_BODIES && self.indented_past(start) =>
+                {
                     self.nested_body(&body.name.name);
                 }
                 Some(Tok::StarKw | Tok::Planet | Tok::System) => {

@@ -188,6 +188,33 @@ impl Cursor<'_> {
                 ),
             );
         }
+        // `0.3 +0.1/-0.1 -0.2`: the same slip after an asymmetric uncertainty, which the
+        // grammar read as a difference (0.1 +0.1/-0.1, with no word).
+        if let Some((Term::Asymmetric(..), used)) = slice.get(1..).and_then(|t| self.term_at(t)) {
+            let after = slice.get(1 + used..).unwrap_or_default();
+            let last = slice.get(used)?;
+            if let [c, d, more @ ..] = after {
+                let operator_after = more.first().is_some_and(|t| {
+                    matches!(t.kind, Tok::Star | Tok::Slash | Tok::Caret | Tok::LParen)
+                });
+                if signed(c, d) && !joined(last, c) && !operator_after {
+                    let written = self.src.get(c.start..d.end).unwrap_or("");
+                    return Some(
+                        Diagnostic::new(
+                            Rule::Syntax,
+                            span(c, d),
+                            format!(
+                                "`{written}` after the uncertainty reads as {}, not as part of the measurement",
+                                if c.kind == Tok::Minus { "a difference" } else { "a sum" }
+                            ),
+                        )
+                        .with_help(
+                            "an asymmetric uncertainty is one `+above/-below`; for a sum, put a space after the sign",
+                        ),
+                    );
+                }
+            }
+        }
         // `0.4 -0.05 -0.1` or `0.4 +0.05 +0.1`: two signed numbers of the same sign.
         if let [c, d, ..] = rest {
             if signed(a, b)
@@ -514,12 +541,44 @@ impl Cursor<'_> {
             }
             used += n;
         }
-        if asymmetric.is_empty() || (symmetric.is_empty() && asymmetric.len() < 2) {
-            return None;
-        }
         let (first, last) = (after.first()?, after.get(used.checked_sub(1)?)?);
         let written = self.src.get(first.start..last.end).unwrap_or("");
         let at = Span::new(self.file, first.start, last.end);
+        let in_percent = asymmetric.iter().any(|a| a.contains('%'));
+        if symmetric.is_empty() && asymmetric.len() == 1 && in_percent {
+            // `5 +1%/-2%`: the grammar takes no per cent in an asymmetric uncertainty (it said
+            // "reads as a sum"); give it in the value's unit.
+            let value: f64 = v.parse().ok()?;
+            let (above, below) = written.trim_start_matches('+').split_once("/-")?;
+            let side = |t: &str| -> Option<String> {
+                let (n, percent) = match t.trim().strip_suffix('%') {
+                    Some(n) => (n.trim().parse::<f64>().ok()?, true),
+                    None => (t.trim().parse::<f64>().ok()?, false),
+                };
+                let x = if percent {
+                    (value * n / 100.0).abs()
+                } else {
+                    n
+                };
+                Some(crate::format::sig(x, 3))
+            };
+            let fixed = format!("{v} +{}/-{}", side(above)?, side(below)?);
+            let bare = |t: &str| t.trim().trim_end_matches('%').trim().to_string();
+            let in_unit = format!("{v} +{}/-{} %", bare(above), bare(below));
+            return Some(
+                Diagnostic::new(
+                    Rule::Syntax,
+                    at,
+                    format!("`{written}`: `%` inside an uncertainty is not read"),
+                )
+                .with_help(format!(
+                    "a unit is written once, after the uncertainty: `{in_unit}` if the value is in per cent; a relative uncertainty is written out in the value's unit: `{fixed}`"
+                )),
+            );
+        }
+        if asymmetric.is_empty() || (symmetric.is_empty() && asymmetric.len() < 2) {
+            return None;
+        }
         let (sym, asym) = (symmetric.join(" "), asymmetric.join(" "));
         if symmetric.is_empty() {
             // `5 +1/-1 +2/-2`: read as arithmetic, it was a dimension error.
@@ -536,6 +595,9 @@ impl Cursor<'_> {
             );
         }
         let asym_help = match asymmetric.as_slice() {
+            _ if in_percent => {
+                "one asymmetric uncertainty in the value's unit (no `%`)".to_string()
+            }
             [one] => format!("`{v} {one}`"),
             _ => "one asymmetric uncertainty".to_string(),
         };

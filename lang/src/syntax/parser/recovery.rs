@@ -6,6 +6,43 @@
 use super::*;
 
 impl Cursor<'_> {
+    /// The next token that is not a newline, with the newlines before it consumed (as
+    /// [`Cursor::open_block`] would consume them).
+    pub(super) fn peek_past_newlines(&mut self) -> Option<Tok> {
+        while self.peek() == Some(Tok::Newline) {
+            self.pos += 1;
+        }
+        self.peek()
+    }
+
+    /// The `{` that opens `what` (line ends before it allowed); when it is missing, an error,
+    /// and the rest of the line skipped or the block on it opened.
+    pub(super) fn open_block(&mut self, what: &str) -> bool {
+        let mut next_line = false;
+        while self.peek() == Some(Tok::Newline) {
+            self.pos += 1;
+            next_line = true;
+        }
+        if self.eat(Tok::LBrace).is_some() {
+            return true;
+        }
+        self.expect_error(&format!("'{{' to open {what}"));
+        // `star a junk {`: the block is still this one's (its lines spilled into the
+        // enclosing block, whose `}` then closed it early). Only on the declaration's own
+        // line: a `{` on a later line, after a keyword, opens that declaration's block.
+        let declaration = matches!(
+            self.peek(),
+            Some(Tok::StarKw | Tok::Planet | Tok::System | Tok::Ref)
+        );
+        if !next_line && !declaration && self.line_opens_block() {
+            self.skip_to_block();
+            self.pos += 1;
+            return true;
+        }
+        self.skip_line();
+        false
+    }
+
     /// Skip to the end of the current line (not past a `}` that closes a block).
     pub(super) fn skip_line(&mut self) {
         while let Some(k) = self.peek() {
@@ -131,7 +168,7 @@ impl Cursor<'_> {
             let bytes = self.src.as_bytes();
             let from = at.saturating_sub(LOOK_BACK);
             let window = bytes.get(from..at)?;
-            let line = match window.iter().rposition(|b| *b == b'\n') {
+            let line = match window.iter().rposition(|b| matches!(b, b'\n' | b'\r')) {
                 Some(i) => from + i + 1,
                 None if from == 0 => 0,
                 None => return None,
@@ -150,9 +187,9 @@ impl Cursor<'_> {
     pub(super) fn nested_body(&mut self, outer: &str) {
         let span = self.span_here();
         let inner = std::mem::take(&mut self.props);
-        self.in_nested = true;
+        self.nested += 1;
         let nested = self.parse_body();
-        self.in_nested = false;
+        self.nested -= 1;
         self.props = inner;
         let name = nested
             .as_ref()

@@ -484,6 +484,12 @@ fn uncertainties_in_other_notations_are_errors_with_the_spelling_taken() {
             "after the uncertainty reads as a difference",
         ),
         ("0.3 ±0.05 +0.01", "after the uncertainty reads as a sum"),
+        // After an asymmetric one too (it was silently a difference: 0.1 +0.1/-0.1).
+        (
+            "0.3 +0.1/-0.1 -0.2",
+            "after the uncertainty reads as a difference",
+        ),
+        ("3 +0.1/-0.1 +0.5 d", "after the uncertainty reads as a sum"),
     ] {
         let src = format!("system \"S\" {{ star s {{ x = {value} }} }}");
         let d = parse(FileId(0), &src).diagnostics;
@@ -678,12 +684,23 @@ fn a_value_with_both_kinds_of_uncertainty_says_to_keep_one() {
         (
             "5000 ± 30 +1%/-2% K",
             "once symmetric (± 30) and once asymmetric (+1%/-2%)",
-            "`5000 ± 30` or `5000 +1%/-2%`",
+            "`5000 ± 30` or one asymmetric uncertainty in the value's unit (no `%`)",
         ),
         (
             "5000 +40/-20 +10/-10 K",
             "`+40/-20 +10/-10` gives 2 asymmetric uncertainties on one value",
             "keep one, as in `5000 +40/-20`",
+        ),
+        // Per cent inside an asymmetric one (it said "reads as a sum", and a help suggested it).
+        (
+            "5 +1%/-2%",
+            "`%` inside an uncertainty is not read",
+            "`5 +1/-2 %` if the value is in per cent; a relative uncertainty is written out in the value's unit: `5 +0.0500/-0.100`",
+        ),
+        (
+            "5 +1%/-2% ± 3%",
+            "once symmetric (± 3%) and once asymmetric (+1%/-2%)",
+            "one asymmetric uncertainty in the value's unit (no `%`)",
         ),
     ] {
         let src = format!("system \"A\" {{\n  star s {{ teff = {value} }}\n}}\n");

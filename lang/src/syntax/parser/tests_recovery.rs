@@ -151,7 +151,33 @@ fn a_body_inside_a_body_costs_one_error() {
     assert!(p.diagnostics[0].message.contains("not closed"));
     assert_eq!(bodies_of(&p.file), [vec!["k", "b", "c"]]);
 
-    // Nested deeper still: one level is taken as nesting, and reading stays bounded.
+    // Lines ended by a lone `\r` (old Mac files) or `\r\n` are read the same way.
+    for end in ["\r", "\r\n"] {
+        let p = parse(FileId(0), &src.replace('\n', end));
+        assert_eq!(p.diagnostics.len(), 1, "{end:?}: {:#?}", p.diagnostics);
+        assert_eq!(bodies_of(&p.file), [vec!["companion", "k", "b"]], "{end:?}");
+    }
+
+    // Two levels: each body keeps its own lines (the inner one's radius went to the outer).
+    let two = "system \"Q\" {\n  star q {\n    mass = 0.9 Msun\n    star r {\n      mass = 0.5 Msun\n      planet b orbits r {\n        period = 3.1 d\n      }\n      radius = 0.5 Rsun\n    }\n    radius = 0.85 Rsun\n  }\n}\n";
+    let p = parse(FileId(0), two);
+    assert_eq!(p.diagnostics.len(), 2, "{:#?}", p.diagnostics);
+    assert!(p.diagnostics.iter().any(|d| d
+        .message
+        .contains("'b' is declared inside the block of 'r'")));
+    assert_eq!(bodies_of(&p.file), [vec!["b", "r", "q"]]);
+    for b in &p.file.systems[0].bodies {
+        let props: Vec<&str> = b.props.iter().map(|p| p.name.name.as_str()).collect();
+        let want: &[&str] = if b.name.name == "b" {
+            &["period"]
+        } else {
+            &["mass", "radius"]
+        };
+        assert_eq!(props, want, "{}", b.name.name);
+    }
+
+    // Nested deeper still: a bounded number of levels is taken as nesting, and reading stays
+    // bounded.
     let mut deep = String::from("system \"K\" {\n");
     for i in 0..5_000 {
         deep.push_str(&format!("{}star s{i} {{\n", " ".repeat(i % 200)));
@@ -179,4 +205,24 @@ fn a_brace_too_many_in_a_system_is_blamed_on_itself() {
         src.find("  }\n  planet c").unwrap() + 2
     );
     assert_eq!(bodies_of(&p.file), [vec!["k", "b", "c"], vec!["l"]]);
+}
+
+/// A stray word before a body's `{` (`star a junk {`, `orbits a orbits a {`) is one error, and
+/// the block is still the body's (its lines spilled into the system, which the body's `}`
+/// then closed, dropping the body and the host of every planet after it).
+#[test]
+fn a_stray_word_before_the_brace_costs_one_error() {
+    let src = "system \"V\" {\n  star a junk { mass = 1 Msun }\n  planet j orbits a { period = 21 d }\n  planet i orbits a orbits a { period = 5 d }\n}\nsystem \"W\" junk {\n  star w { mass = 1 Msun }\n}\n";
+    let p = parse(FileId(0), src);
+    assert_eq!(p.diagnostics.len(), 3, "{:#?}", p.diagnostics);
+    assert!(p
+        .diagnostics
+        .iter()
+        .all(|d| d.message.starts_with("expected '{' to open")));
+    assert_eq!(bodies_of(&p.file), [vec!["a", "j", "i"], vec!["w"]]);
+    assert_eq!(p.file.systems[0].bodies[0].props.len(), 1);
+    assert_eq!(
+        p.file.systems[0].bodies[2].orbits.as_ref().unwrap().name,
+        "a"
+    );
 }
