@@ -509,6 +509,19 @@ impl Cursor<'_> {
         }
     }
 
+    /// Both kinds of uncertainty on a literal inside an expression (`2 * 3 ± 1 +1/-1`), which
+    /// the grammar read as arithmetic without a word (a value at the start is checked by
+    /// [`Cursor::uncertainty_in_another_notation`]).
+    pub(super) fn uncertainty_twice_inside(&self, slice: &[Token]) -> Option<Diagnostic> {
+        slice.iter().enumerate().skip(1).find_map(|(k, t)| {
+            let after = slice.get(k + 1..)?;
+            let starts_term = matches!(after.first()?.kind, Tok::PlusMinus | Tok::Plus);
+            (t.kind == Tok::Number && starts_term)
+                .then(|| self.both_kinds_of_uncertainty(self.text(*t), after))
+                .flatten()
+        })
+    }
+
     /// The uncertainty term at the start of `t` and the tokens it took.
     fn term_at(&self, t: &[Token]) -> Option<(Term, usize)> {
         match t.first()?.kind {

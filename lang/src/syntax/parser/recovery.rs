@@ -164,20 +164,30 @@ impl Cursor<'_> {
         // The line's start is looked for at most this far back: a keyword that far into its
         // line does not start it, and a bounded look keeps a file of one long line linear.
         const LOOK_BACK: usize = 4096;
-        let indent = |at: usize| {
+        let line_start = |at: usize| {
             let bytes = self.src.as_bytes();
             let from = at.saturating_sub(LOOK_BACK);
             let window = bytes.get(from..at)?;
-            let line = match window.iter().rposition(|b| matches!(b, b'\n' | b'\r')) {
-                Some(i) => from + i + 1,
-                None if from == 0 => 0,
-                None => return None,
-            };
+            match window.iter().rposition(|b| matches!(b, b'\n' | b'\r')) {
+                Some(i) => Some(from + i + 1),
+                None if from == 0 => Some(0),
+                None => None,
+            }
+        };
+        let (Some(line), Some(outer_line)) = (line_start(here), line_start(outer)) else {
+            return false;
+        };
+        // On the outer body's own line, after its `{` (`star a { planet b orbits a { ... } }`):
+        // inside its block as written.
+        if line == outer_line {
+            return true;
+        }
+        let indent = |line: usize, at: usize| {
             let lead = self.src.get(line..at)?;
-            // Only a keyword that starts its line counts (`star k { star c {` does not).
+            // Only a keyword that starts its line counts (`mass = 1; star c {` does not).
             (lead.trim().is_empty() || at == outer).then(|| lead.len() - lead.trim_start().len())
         };
-        matches!((indent(here), indent(outer)), (Some(inner), Some(o)) if inner > o)
+        matches!((indent(line, here), indent(outer_line, outer)), (Some(inner), Some(o)) if inner > o)
     }
 
     /// A `star` or `planet` declared inside the block of the body `outer` (indented into it):

@@ -668,6 +668,14 @@ fn a_value_with_both_kinds_of_uncertainty_says_to_keep_one() {
     }
     // Several symmetric ones stay one value.
     parse_ok("system \"A\" {\n  star s { teff = 5000 ± 30 ± 40 K }\n}\n");
+    // Inside an expression too (it was arithmetic without a word); a sum stays a sum.
+    let inside = "system \"A\" {\n  star s { let w = 0.1 * 3 ± 1 +1/-1 ± 2 }\n}\n";
+    let p = parse(FileId(0), inside);
+    assert_eq!(p.diagnostics.len(), 1, "{:#?}", p.diagnostics);
+    assert!(p.diagnostics[0]
+        .message
+        .contains("gives the uncertainty twice"));
+    parse_ok("system \"A\" {\n  star s { let w = 2 * 3 ± 1 + 1/2 }\n}\n");
     // More than one of either kind, and percentages: still one error, each term named, the
     // `%` kept in the help (it was a dimension error, or the help dropped the `%`).
     for (value, message, help) in [

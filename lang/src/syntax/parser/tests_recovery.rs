@@ -226,3 +226,19 @@ fn a_stray_word_before_the_brace_costs_one_error() {
         "a"
     );
 }
+
+/// A body declared inside another on that body's own line (`star a { planet b orbits a { ... } }`)
+/// is one error, as when indented (it was two: the body ended early, and its `}` then closed
+/// the system, with later lines lost).
+#[test]
+fn a_body_inside_a_body_on_one_line_costs_one_error() {
+    let src = "system \"S\" {\n  star a { planet b orbits a { period = 3 d } }\n  star c { mass = 1 Msun; planet d orbits c { period = 3 d }; radius = 1 Rsun }\n  planet e orbits a { period = 5 d }\n}\n";
+    let p = parse(FileId(0), src);
+    assert_eq!(p.diagnostics.len(), 2, "{:#?}", p.diagnostics);
+    assert!(p
+        .diagnostics
+        .iter()
+        .all(|d| d.message.contains("bodies do not nest")));
+    assert_eq!(bodies_of(&p.file), [vec!["b", "a", "d", "c", "e"]]);
+    assert_eq!(p.file.systems[0].bodies[3].props.len(), 2);
+}
