@@ -518,3 +518,24 @@ fn a_limit_on_text_is_refused() {
         Some("write `spectral_type = \"K1V\"`")
     );
 }
+
+/// A UTC timestamp before 1972 is refused when the file is read (its seconds were not SI
+/// seconds, so no time scale follows from it); `syz check` passed it, and only `ephemeris`
+/// refused it later. 1972-01-01T00:00:00Z itself is taken.
+#[test]
+fn a_utc_epoch_before_1972_is_refused_when_read() {
+    let (_, diags) = lower_text(
+        "system \"A\" {\n star s { mass = 1 Msun }\n planet b orbits s { transit_epoch = \"1971-12-31T23:59:59Z\" }\n}\n",
+    );
+    assert!(
+        messages(&diags)
+            .iter()
+            .any(|m| m.contains("UTC before 1972-01-01 is not supported")),
+        "{diags:#?}"
+    );
+    let (model, diags) = lower_text(
+        "system \"A\" {\n star s { mass = 1 Msun }\n planet b orbits s { transit_epoch = \"1972-01-01T00:00:00Z\" }\n}\n",
+    );
+    assert!(diags.is_empty(), "{diags:#?}");
+    assert!(model.systems[0].bodies[1].get(Qty::TransitEpoch).is_some());
+}

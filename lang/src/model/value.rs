@@ -85,7 +85,11 @@ pub(super) fn lower_value(
                 return Some((Content::Text(t.clone()), None));
             }
             if def.qty == Qty::TransitEpoch {
-                return match crate::time::parse_iso(t) {
+                // UTC before 1972 did not count SI seconds: no time scale can be had from it,
+                // so it is refused here as `ephemeris` would refuse it later.
+                let read = crate::time::parse_iso(t)
+                    .and_then(|jd| crate::time::tai_minus_utc(jd).map(|_| jd));
+                return match read {
                     Ok(jd) => Some((
                         Content::Measured(Measurement {
                             value: jd * crate::constants::DAY,
