@@ -538,4 +538,19 @@ fn a_utc_epoch_before_1972_is_refused_when_read() {
     );
     assert!(diags.is_empty(), "{diags:#?}");
     assert!(model.systems[0].bodies[1].get(Qty::TransitEpoch).is_some());
+    // A Julian date in UTC the same (JD 2441317.5 is 1972-01-01T00:00 UTC, where the IERS
+    // table of TAI - UTC starts at 10 s).
+    let (_, diags) = lower_text(
+        "system \"A\" {\n star s { mass = 1 Msun }\n planet b orbits s { transit_epoch = 2441317.4 ± 0.001 JD_UTC }\n}\n",
+    );
+    assert!(
+        messages(&diags)
+            .iter()
+            .any(|m| m.contains("UTC before 1972-01-01 is not supported")),
+        "{diags:#?}"
+    );
+    let (_, diags) = lower_text(
+        "system \"A\" {\n star s { mass = 1 Msun }\n planet b orbits s { transit_epoch = 2441317.4 ± 0.001 BJD_TDB }\n}\n",
+    );
+    assert!(diags.is_empty(), "{diags:#?}");
 }

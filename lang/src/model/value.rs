@@ -291,6 +291,18 @@ pub(super) fn lower_value(
         );
         return None;
     }
+    // An epoch in UTC before 1972, as a timestamp is: no time scale follows from it (its
+    // seconds were not SI seconds), and only `ephemeris` refused it.
+    if def.qty == Qty::TransitEpoch && unit.text.ends_with("_UTC") {
+        if let Err(e) = crate::time::tai_minus_utc(value / crate::constants::DAY) {
+            diags.push(Diagnostic::new(
+                Rule::InvalidValue,
+                expr.span,
+                e.to_string(),
+            ));
+            return None;
+        }
+    }
     if !def.in_range(value) {
         let what = match form {
             Form::UpperLimit => "upper limit",
