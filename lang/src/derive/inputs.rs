@@ -171,12 +171,15 @@ impl<'m> Derivation<'m> {
                 if let Some(words) = choice_words {
                     assumptions.insert(Arc::from(words));
                 }
-                if used.assumed {
+                // The value itself, in the unit people read it in (an axis was given in
+                // metres without a unit); not for a mean, which no assumed value enters.
+                if used.assumed && !combined {
+                    let unit = summary::display_unit(decl.qty, m.value);
                     assumptions.insert(Arc::from(format!(
                         "{}.{} = {} (assumed)",
                         body.id,
                         def.name,
-                        crate::format::number(m.value)
+                        crate::report::shown_in(m.value, m.below, m.above, m.form, unit)
                     )));
                 }
                 if decl.qty == Qty::TransitEpoch {

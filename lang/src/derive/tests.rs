@@ -269,6 +269,25 @@ fn expressions_and_lets_carry_uncertainty() {
     assert_eq!(c.rule, Some("expression"));
 }
 
+/// An assumed value is stated in the unit people read it in (an axis was `1.34639e10`, in
+/// metres without a unit).
+#[test]
+fn an_assumed_value_is_stated_in_its_unit() {
+    let src = "system \"S\" { star s { mass = 1 Msun; radius = 1 Rsun; teff = 5700 K }\n planet b orbits s { period = 10 d; semi_major_axis = 0.09 au assumed; albedo = 0.3 ± 0.1 assumed } }";
+    let a = run(src, &Options::linear());
+    let teq = get(&a, "b", Qty::Teq).unwrap();
+    for said in [
+        "b.semi_major_axis = 0.09 au (assumed)",
+        "b.albedo = 0.30 ± 0.10 (assumed)",
+    ] {
+        assert!(
+            teq.assumptions.iter().any(|s| &**s == said),
+            "{said}: {:?}",
+            teq.assumptions
+        );
+    }
+}
+
 #[test]
 fn defaults_are_reported_only_when_used() {
     let src = "system \"S\" { star s { mass = 1 Msun; radius = 1 Rsun; teff = 5772 K }\n planet b orbits s { period = 365.25 d } }";
