@@ -162,19 +162,20 @@ impl Cursor<'_> {
             [t] => matches!(t.kind, Tok::Plus | Tok::Minus),
             _ => false,
         };
-        // `0.3 ± 0.05 -0.01`: the same slip after a symmetric uncertainty (0.29 ± 0.05).
-        if a.kind == Tok::PlusMinus && b.kind == Tok::Number {
-            let [c, d, after @ ..] = rest else {
+        // A signed number right after an uncertainty's last token `last`: the same slip,
+        // which the grammar reads as a difference or a sum.
+        let slip_after = |last: &Token, after: &[Token], help: &str| {
+            let [c, d, more @ ..] = after else {
                 return None;
             };
-            let operator_after = after.first().is_some_and(|t| {
+            let operator_after = more.first().is_some_and(|t| {
                 matches!(t.kind, Tok::Star | Tok::Slash | Tok::Caret | Tok::LParen)
             });
-            if !signed(c, d) || joined(b, c) || operator_after {
+            if !signed(c, d) || joined(last, c) || operator_after {
                 return None;
             }
             let written = self.src.get(c.start..d.end).unwrap_or("");
-            return Some(
+            Some(
                 Diagnostic::new(
                     Rule::Syntax,
                     span(c, d),
@@ -183,36 +184,28 @@ impl Cursor<'_> {
                         if c.kind == Tok::Minus { "a difference" } else { "a sum" }
                     ),
                 )
-                .with_help(
-                    "a second uncertainty is written `± u` (combined in quadrature), one above and below `+above/-below`; for a sum, put a space after the sign",
-                ),
+                .with_help(help.to_string()),
+            )
+        };
+        // `0.3 ± 0.05 -0.01`: after a symmetric uncertainty (0.29 ± 0.05).
+        if a.kind == Tok::PlusMinus && b.kind == Tok::Number {
+            return slip_after(
+                b,
+                rest,
+                "a second uncertainty is written `± u` (combined in quadrature), one above and below `+above/-below`; for a sum, put a space after the sign",
             );
         }
-        // `0.3 +0.1/-0.1 -0.2`: the same slip after an asymmetric uncertainty, which the
-        // grammar read as a difference (0.1 +0.1/-0.1, with no word).
+        // `0.3 +0.1/-0.1 -0.2`: after an asymmetric one, which the grammar read as a
+        // difference (0.1 +0.1/-0.1, with no word).
         if let Some((Term::Asymmetric(..), used)) = slice.get(1..).and_then(|t| self.term_at(t)) {
             let after = slice.get(1 + used..).unwrap_or_default();
-            let last = slice.get(used)?;
-            if let [c, d, more @ ..] = after {
-                let operator_after = more.first().is_some_and(|t| {
-                    matches!(t.kind, Tok::Star | Tok::Slash | Tok::Caret | Tok::LParen)
-                });
-                if signed(c, d) && !joined(last, c) && !operator_after {
-                    let written = self.src.get(c.start..d.end).unwrap_or("");
-                    return Some(
-                        Diagnostic::new(
-                            Rule::Syntax,
-                            span(c, d),
-                            format!(
-                                "`{written}` after the uncertainty reads as {}, not as part of the measurement",
-                                if c.kind == Tok::Minus { "a difference" } else { "a sum" }
-                            ),
-                        )
-                        .with_help(
-                            "an asymmetric uncertainty is one `+above/-below`; for a sum, put a space after the sign",
-                        ),
-                    );
-                }
+            let found = slip_after(
+                slice.get(used)?,
+                after,
+                "an asymmetric uncertainty is one `+above/-below`; for a sum, put a space after the sign",
+            );
+            if found.is_some() {
+                return found;
             }
         }
         // `0.4 -0.05 -0.1` or `0.4 +0.05 +0.1`: two signed numbers of the same sign.
