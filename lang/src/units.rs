@@ -573,16 +573,18 @@ pub fn suggest_for(symbol: &str, wanted: Option<Dimension>) -> Option<&'static s
     let length = symbol.chars().count();
     let mut best: Option<(usize, &'static str)> = None;
     for def in registry() {
+        if wanted.is_some_and(|w| w != def.dim) {
+            continue;
+        }
         for cand in std::iter::once(&def.symbol).chain(def.aliases.iter()) {
-            let d = if cand.to_lowercase() == lower {
-                0
-            } else {
-                crate::text::edit_distance(&lower, &cand.to_lowercase())
-            };
-            if wanted.is_some_and(|w| w != def.dim) {
-                continue;
+            // Within two edits and half the symbol, and closer than the best so far.
+            let cap = best
+                .map_or(2, |(bd, _)| bd.saturating_sub(1))
+                .min(length / 2);
+            if best.is_some_and(|(bd, _)| bd == 0) {
+                break;
             }
-            if d <= 2 && 2 * d <= length && best.is_none_or(|(bd, _)| d < bd) {
+            if let Some(d) = crate::text::distance_within(&lower, &cand.to_lowercase(), cap) {
                 best = Some((d, def.symbol));
             }
         }

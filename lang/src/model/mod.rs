@@ -18,7 +18,7 @@ use crate::quantities::{self, Qty};
 use crate::source::{FileId, Span};
 use crate::units::Dimension;
 pub use resolve::{Func, LetId, Node, Resolved, UncertainLiteral};
-use rustc_hash::FxHashMap;
+use rustc_hash::{FxHashMap, FxHashSet};
 use std::sync::Arc;
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -236,6 +236,8 @@ pub struct Lowering {
     systems: FxHashMap<String, Span>,
     refs: FxHashMap<String, Span>,
     shared: Arc<SharedRefs>,
+    /// The bound on the work of this file's did-you-mean hints.
+    hints: crate::text::Hints,
 }
 
 impl Lowering {
@@ -290,6 +292,14 @@ impl Lowering {
             model.refs = all.to_vec();
         }
         let own = model.refs.len();
+        // Citations are looked up here, once per citation, however many references.
+        let known: FxHashSet<&str> = model.refs.iter().map(|r| r.id.as_str()).collect();
+        let cites = Cites {
+            refs: &model.refs,
+            known: &known,
+            shared: &self.shared,
+            hints: &self.hints,
+        };
         for s in &ast.systems {
             if !s.name.is_empty() {
                 if let Some(prev) = self.systems.get(s.name.as_str()) {
@@ -305,7 +315,7 @@ impl Lowering {
                     self.systems.insert(s.name.clone(), s.name_span);
                 }
             }
-            let sys = lower_system(s, &model.refs, &self.shared, diags);
+            let sys = lower_system(s, &cites, diags);
             note_empty_bodies(s, &sys, &parse_errors, diags);
             model.systems.push(sys);
         }
@@ -407,12 +417,16 @@ fn ref_info(r: &ast::RefDecl) -> RefInfo {
     }
 }
 
-fn lower_system(
-    s: &ast::SystemDecl,
-    refs: &[RefInfo],
-    shared: &SharedRefs,
-    diags: &mut Vec<Diagnostic>,
-) -> System {
+/// What a citation is checked against: the file's references (and their ids, to look one
+/// up), the shared ones, and the bound on hints.
+struct Cites<'a> {
+    refs: &'a [RefInfo],
+    known: &'a FxHashSet<&'a str>,
+    shared: &'a SharedRefs,
+    hints: &'a crate::text::Hints,
+}
+
+fn lower_system(s: &ast::SystemDecl, cites: &Cites, diags: &mut Vec<Diagnostic>) -> System {
     let (lets, let_syntax) = lower_lets(&s.lets, diags);
     let mut sys = System {
         name: s.name.clone(),
@@ -469,7 +483,7 @@ fn lower_system(
         });
     }
     // Bindings, in dependency order, then every body's properties.
-    let mut resolver = resolve::Resolver::new(&sys);
+    let mut resolver = resolve::Resolver::new(&sys, cites.hints);
     let syntax = |id: LetId| match id.body {
         None => let_syntax.get(id.index).copied(),
         Some(b) => body_let_syntax.get(b)?.get(id.index).copied(),
@@ -482,8 +496,8 @@ fn lower_system(
             let orbits = b
                 .orbits
                 .as_ref()
-                .and_then(|o| resolve::resolve_host(&sys, o, diags));
-            (orbits, lower_props(b, bi, (refs, shared), &resolver, diags))
+                .and_then(|o| resolve::resolve_host(&sys, o, cites.hints, diags));
+            (orbits, lower_props(b, bi, cites, &resolver, diags))
         })
         .collect();
     drop(resolver);
@@ -617,7 +631,7 @@ type Written<'a> = (Span, Vec<&'a str>);
 fn lower_props(
     b: &ast::BodyDecl,
     bi: usize,
-    (refs, shared): (&[RefInfo], &SharedRefs),
+    citing: &Cites,
     resolver: &resolve::Resolver,
     diags: &mut Vec<Diagnostic>,
 ) -> Props {
@@ -626,25 +640,30 @@ fn lower_props(
     let mut further: Vec<Declared> = Vec::new();
     // Every quantity written, even one whose value was refused, with its citations: a
     // repeat that cites nothing, or the same sources as an earlier one, is a duplicate
-    // whether or not the first could be read. One flat list in the order written: a body
-    // declares a few dozen quantities at most, which a scan finds soonest.
+    // whether or not the first could be read. The first of each quantity in one flat list
+    // (a body declares a few dozen quantities at most, which a scan finds soonest); further
+    // sources by quantity and citations, since a curator's file may give one quantity
+    // thousands of sources, which a scan per source would make quadratic.
     let mut seen: Vec<(Qty, Written)> = Vec::with_capacity(b.props.len());
+    let mut later: FxHashMap<(Qty, Vec<&str>), Span> = FxHashMap::default();
+    // Where each quantity is marked `preferred` first.
+    let mut marked: Vec<(Qty, Span)> = Vec::new();
     for p in &b.props {
         let Some(def) = quantities::find(b.kind, &p.name.name) else {
             diags.push(value::unknown_quantity(b.kind, &p.name));
             continue;
         };
         let cites = cited(p);
-        let mut prev = seen.iter().filter(|(q, _)| *q == def.qty).map(|(_, w)| w);
-        if let Some(first) = prev.next() {
-            let same = std::iter::once(first)
-                .chain(prev)
-                .find(|(_, c)| *c == cites);
-            if cites.is_empty() || same.is_some() {
+        if let Some((_, first)) = seen.iter().find(|(q, _)| *q == def.qty) {
+            let key = (def.qty, cites);
+            let same = if first.1 == key.1 {
+                Some(first.0)
+            } else {
+                later.get(&key).copied()
+            };
+            if key.1.is_empty() || same.is_some() {
                 let (at, words) = match same {
-                    Some((s, _)) if !cites.is_empty() => {
-                        (*s, "declared with the same citations here")
-                    }
+                    Some(s) if !key.1.is_empty() => (s, "declared with the same citations here"),
                     _ => (first.0, "first declared here"),
                 };
                 diags.push(
@@ -660,11 +679,14 @@ fn lower_props(
                 );
                 continue;
             }
+            later.insert(key, p.name.span);
+        } else {
+            seen.push((def.qty, (p.name.span, cites)));
         }
-        seen.push((def.qty, (p.name.span, cites)));
         let mut citations = Vec::new();
         for c in &p.citations {
-            if refs.iter().any(|r| r.id == c.name) || shared.get(&c.name).is_some() {
+            let shared = citing.shared;
+            if citing.known.contains(c.name.as_str()) || shared.get(&c.name).is_some() {
                 citations.push((c.name.to_string(), c.span));
             } else {
                 let mut d = Diagnostic::new(
@@ -680,11 +702,12 @@ fn lower_props(
                         )
                     },
                 );
-                let ids = refs
+                let ids = citing
+                    .refs
                     .iter()
                     .map(|r| r.id.as_str())
                     .chain(shared.iter().map(|r| r.id.as_str()));
-                d = match crate::text::closest(&c.name, ids) {
+                d = match citing.hints.closest(&c.name, ids) {
                     Some(s) => d.with_help(format!("did you mean '{s}'?")),
                     None => d.with_help(format!(
                         "declare it at the top of the file: ref {} \"...\"",
@@ -720,6 +743,9 @@ fn lower_props(
             set: None,
         };
         let Some(first) = out.iter().find(|d| d.qty == def.qty) else {
+            if decl.preferred {
+                marked.push((def.qty, decl.name_span));
+            }
             out.push(decl);
             continue;
         };
@@ -737,11 +763,7 @@ fn lower_props(
             continue;
         }
         if decl.preferred {
-            if let Some(other) = out
-                .iter()
-                .chain(&further)
-                .find(|d| d.qty == def.qty && d.preferred)
-            {
+            if let Some((_, other)) = marked.iter().find(|(q, _)| *q == def.qty) {
                 diags.push(
                     Diagnostic::new(
                         Rule::Duplicate,
@@ -751,7 +773,7 @@ fn lower_props(
                             def.name, b.name.name
                         ),
                     )
-                    .with_label(other.name_span, "marked preferred here"),
+                    .with_label(*other, "marked preferred here"),
                 );
                 further.push(Declared {
                     preferred: false,
@@ -759,6 +781,7 @@ fn lower_props(
                 });
                 continue;
             }
+            marked.push((def.qty, decl.name_span));
         }
         further.push(decl);
     }

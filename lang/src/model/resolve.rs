@@ -126,6 +126,7 @@ pub(super) struct Resolver<'a> {
     body_lets: Vec<FxHashMap<&'a str, usize>>,
     /// The dimension of each binding resolved so far; `None` after a reported failure.
     dims: FxHashMap<LetId, Option<Dimension>>,
+    hints: &'a crate::text::Hints,
 }
 
 /// The outcome for the bindings of a system.
@@ -144,9 +145,10 @@ fn scope_map(lets: &[LetInfo]) -> FxHashMap<&str, usize> {
 }
 
 impl<'a> Resolver<'a> {
-    pub fn new(sys: &'a System) -> Resolver<'a> {
+    pub fn new(sys: &'a System, hints: &'a crate::text::Hints) -> Resolver<'a> {
         Resolver {
             sys,
+            hints,
             bodies: sys
                 .bodies
                 .iter()
@@ -450,7 +452,7 @@ impl<'a> Resolver<'a> {
             names.extend(b.lets.iter().map(|l| l.name.as_str()));
         }
         names.extend(self.sys.lets.iter().map(|l| l.name.as_str()));
-        if let Some(s) = crate::text::closest(&id.name, names) {
+        if let Some(s) = self.hints.closest(&id.name, names) {
             d.with_help(format!("did you mean '{s}'?"))
         } else if units::lookup(&id.name).is_some() {
             d.with_help(format!("a unit follows a number: write `1 {}`", id.name))
@@ -469,7 +471,8 @@ impl<'a> Resolver<'a> {
             b.span,
             format!("no body '{}' in system \"{}\"", b.name, self.sys.name),
         );
-        match crate::text::closest(&b.name, self.sys.bodies.iter().map(|x| x.id.as_str())) {
+        let bodies = self.sys.bodies.iter().map(|x| x.id.as_str());
+        match self.hints.closest(&b.name, bodies) {
             Some(s) => d.with_help(format!("did you mean '{s}'?")),
             None => d,
         }
@@ -696,6 +699,7 @@ fn rational(v: f64) -> Option<Rat> {
 pub(super) fn resolve_host(
     sys: &System,
     o: &ast::Ident,
+    hints: &crate::text::Hints,
     diags: &mut Vec<Diagnostic>,
 ) -> Option<usize> {
     match sys.body(&o.name) {
@@ -727,7 +731,7 @@ pub(super) fn resolve_host(
                 o.span,
                 format!("no star '{}' in system \"{}\"", o.name, sys.name),
             );
-            if let Some(s) = crate::text::closest(&o.name, stars) {
+            if let Some(s) = hints.closest(&o.name, stars) {
                 d = d.with_help(format!("did you mean '{s}'?"));
             }
             diags.push(d);

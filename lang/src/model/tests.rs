@@ -554,3 +554,41 @@ fn a_utc_epoch_before_1972_is_refused_when_read() {
     );
     assert!(diags.is_empty(), "{diags:#?}");
 }
+
+/// A repeat is matched with the earlier declaration that has its citations, whether that is
+/// the first of the quantity or a later source (found through an index, so that thousands of
+/// sources of one quantity are not each compared with every earlier one); a third
+/// `preferred` mark names the first mark, which may be on a later source.
+#[test]
+fn a_repeat_names_the_earlier_declaration_with_its_citations() {
+    let src = "ref a \"Invented A\"\nref c \"Invented C\"\nref d \"Invented D\"\nref e \"Invented E\"\nsystem \"S\" {\n star s { mass = 1 Msun }\n planet b orbits s {\n  period = 10 ± 1 d [a]\n  period = 11 ± 1 d [c] preferred\n  period = 12 ± 1 d [d]\n  period = 13 ± 1 d [c]\n  period = 14 ± 1 d [a]\n  period = 15 ± 1 d [c, a]\n  period = 16 ± 1 d [e] preferred\n  period = 17 ± 1 d\n }\n}";
+    let (m, diags) = lower_text(src);
+    let line_of = |at: crate::source::Span| src[..at.start as usize].lines().count();
+    let found: Vec<(usize, &str, usize)> = diags
+        .iter()
+        .map(|d| {
+            let l = &d.labels[0];
+            (line_of(d.span), l.message.as_str(), line_of(l.span))
+        })
+        .collect();
+    assert_eq!(
+        found,
+        [
+            (11, "declared with the same citations here", 9),
+            (12, "declared with the same citations here", 8),
+            (14, "marked preferred here", 9),
+            (15, "first declared here", 8),
+        ],
+        "{diags:#?}"
+    );
+    // Kept: every source with citations of its own; 16 [e] without its mark.
+    let kept: Vec<f64> = m.systems[0].bodies[1]
+        .sources(Qty::Period)
+        .iter()
+        .filter_map(|d| match &d.content {
+            Content::Measured(x) => Some((x.value / 86_400.0).round()),
+            _ => None,
+        })
+        .collect();
+    assert_eq!(kept, [10.0, 11.0, 12.0, 15.0, 16.0]);
+}
