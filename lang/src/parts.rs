@@ -7,7 +7,8 @@
 //! - the same parser reads the declarations ([`crate::parser::Items`]), so syntax errors
 //!   and their recovery are the same;
 //! - references are read ahead in a first pass when the file has more than one part (a
-//!   citation may name a reference declared further down), and a system or reference
+//!   citation may name a reference declared further down; the pass stops at the first
+//!   system when lexing finds no reference below it), and a system or reference
 //!   declared twice is reported wherever the two are ([`crate::model::Lowering`]);
 //! - a part ends at the end of a line, after its last declaration; each comment and each
 //!   diagnostic belongs to the part its place is in, so a silencing comment above a system
@@ -57,18 +58,36 @@ pub struct Parts<'a> {
     done: bool,
 }
 
+/// Where the read-ahead of references may stop: at the first `system` keyword when no `ref`
+/// keyword follows it (references are declared at the top of a file), else the end.
+/// The parser makes a reference only from a `ref` token, so past that point there is none
+/// to find, and lexing the file to know it costs a fraction of parsing it.
+fn refs_end(src: &str) -> usize {
+    use crate::syntax::lexer::{tokens, Tok};
+    let mut toks = tokens(src);
+    match toks.find(|t| t.kind == Tok::System) {
+        Some(system) if !toks.any(|t| t.kind == Tok::Ref) => system.start,
+        _ => usize::MAX,
+    }
+}
+
 impl<'a> Parts<'a> {
     /// Parts of about `part_bytes` bytes (`usize::MAX`: the whole file as one part).
     pub fn new(file: FileId, src: &'a str, part_bytes: usize) -> Parts<'a> {
         let refs = (src.len() > part_bytes).then(|| {
+            let until = refs_end(src);
             let mut items = Items::new(file, src);
             let mut refs = Vec::new();
             while let Some(item) = items.next_item() {
+                let end = item.span().end as usize;
                 if let Item::Ref(r) = item {
                     refs.push(r);
                 }
                 // Comments are not needed here; let them go as they come.
                 drop(items.take_comments());
+                if end > until {
+                    break;
+                }
             }
             model::first_refs(&refs)
         });

@@ -212,3 +212,34 @@ fn comments_above_a_declaration_go_with_it_even_inside_an_unclosed_one() {
         seen.0
     );
 }
+
+/// References above the first system are all the read-ahead needs when lexing finds no
+/// `ref` below it: the word in a comment or a string is not one, a `ref` line inside a
+/// system is (an error there, but the reading must be the one a whole-file reading gives).
+#[test]
+fn references_above_the_systems_are_read_ahead_without_parsing_the_rest() {
+    let top = r#"ref disc "Invented discovery paper"
+ref phot "Invented photometry, with the word ref inside"
+system "Anvel" {
+  star a { mass = 1.0 ± 0.05 Msun [disc]; radius = 1.0 ± 0.03 Rsun [phot] }
+  # a comment that says ref and system
+  planet b orbits a { period = 3 ± 0.01 d [disc] }
+}
+system "Borrin" {
+  star s { mass = 0.8 ± 0.04 Msun [phot]; radius = 0.8 ± 0.04 Rsun [nope] }
+}
+"#;
+    let at = top.find("system \"Anvel\"").unwrap();
+    assert_eq!(refs_end(top), at);
+    same_in_parts(top);
+    // A `ref` line inside a system: the read-ahead goes on to the end.
+    let inside = top.replace(
+        "  # a comment",
+        "  ref late \"Inside a system\"\n  # a comment",
+    );
+    assert_eq!(refs_end(&inside), usize::MAX);
+    same_in_parts(&inside);
+    // No system at all, or a reference below the systems.
+    assert_eq!(refs_end("ref a \"A\"\n"), usize::MAX);
+    assert_eq!(refs_end(TWO), usize::MAX);
+}
