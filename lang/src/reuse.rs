@@ -287,6 +287,7 @@ impl Spans for Body {
             orbits_span,
             declared,
             further,
+            refused,
             lets,
         } = self;
         f(name_span);
@@ -294,6 +295,9 @@ impl Spans for Body {
         orbits_span.each_span(f);
         declared.each_span(f);
         further.each_span(f);
+        for (_, s) in refused {
+            f(s);
+        }
         lets.each_span(f);
     }
 }

@@ -422,15 +422,36 @@ impl<'m> Derivation<'m> {
             .with_note("a declared value cannot use its own value, directly or through other declared expressions")
             .with_help("write the value itself, or derive it from other quantities");
         }
-        let names = |waiting_ones: bool| -> Vec<String> {
+        // A quantity written but refused (a wrong unit, say) is not "not declared": its own
+        // error says why, and this one points there.
+        let refused = |k: &Key| {
+            let body = self.sys.bodies.get(k.0)?;
+            body.refused
+                .iter()
+                .find(|(q, _)| *q == k.1)
+                .map(|(_, at)| *at)
+        };
+        let names = |waiting_ones: bool, refused_ones: bool| -> Vec<String> {
             missing
                 .iter()
                 .filter(|k| waiting.contains(k) == waiting_ones)
+                .filter(|k| waiting_ones || refused(k).is_some() == refused_ones)
                 .map(|k| self.key_name(*k))
                 .collect()
         };
         let mut why = Vec::new();
-        let absent = names(false);
+        let unusable = names(false, true);
+        if let [one] = unusable.as_slice() {
+            why.push(format!(
+                "{one}, which is declared but whose value could not be used"
+            ));
+        } else if !unusable.is_empty() {
+            why.push(format!(
+                "{}, declared but with values that could not be used",
+                crate::text::and_list(&unusable)
+            ));
+        }
+        let absent = names(false, false);
         if let [one] = absent.as_slice() {
             why.push(format!(
                 "{one}, which is neither declared nor derivable from what is declared"
@@ -441,7 +462,7 @@ impl<'m> Derivation<'m> {
                 crate::text::and_list(&absent)
             ));
         }
-        let stuck = names(true);
+        let stuck = names(true, false);
         if let [one] = stuck.as_slice() {
             why.push(format!(
                 "{one}, an expression that cannot be evaluated either"
@@ -465,9 +486,26 @@ impl<'m> Derivation<'m> {
                 why.join("; and ")
             ),
         );
-        if let Some(k) = missing.iter().find(|k| !waiting.contains(k)) {
+        for k in missing.iter().filter(|k| !waiting.contains(k)) {
+            if let Some(at) = refused(k) {
+                let name = self.key_name(*k);
+                d = d.with_label(
+                    at,
+                    format!("{name} is declared here; its error says why it could not be used"),
+                );
+            }
+        }
+        if let Some(k) = missing
+            .iter()
+            .find(|k| !waiting.contains(k) && refused(k).is_none())
+        {
             d = d.with_help(format!(
                 "declare {} in the file, or write this value directly",
+                self.key_name(*k)
+            ));
+        } else if let Some(k) = missing.iter().find(|k| refused(k).is_some()) {
+            d = d.with_help(format!(
+                "correct the declaration of {} (see its own error)",
                 self.key_name(*k)
             ));
         }

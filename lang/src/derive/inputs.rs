@@ -264,6 +264,16 @@ impl<'m> Derivation<'m> {
                         continue;
                     }
                     if let Some((v, words)) = default_for(q) {
+                        // A value written but refused (its error says why) is replaced by the
+                        // default: said beside it, so that the default is not read as chosen.
+                        let words: Arc<str> = if body.refused.iter().any(|(r, _)| *r == q) {
+                            Arc::from(format!(
+                                "{words}; the value written for {} could not be used (see its error)",
+                                body.id
+                            ))
+                        } else {
+                            Arc::from(words)
+                        };
                         self.entries.insert(
                             (bi, q),
                             Entry {
@@ -272,7 +282,7 @@ impl<'m> Derivation<'m> {
                                 rule: None,
                                 inputs: Vec::new(),
                                 deps: SortedSet::one((bi, q)),
-                                assumptions: SortedSet::one(Arc::from(words)),
+                                assumptions: SortedSet::one(words),
                             },
                         );
                     }

@@ -353,6 +353,52 @@ fn a_value_whose_input_cannot_be_had_says_which() {
     assert!(get(&a, "c", Qty::Impact).is_none());
 }
 
+/// A quantity written with a wrong unit is declared, not missing: what needs it says that
+/// its value could not be used and points at it (it said "neither declared nor derivable").
+/// A default that stands in for a refused value says so among the assumptions.
+#[test]
+fn a_value_whose_input_was_refused_points_at_the_refused_declaration() {
+    let src = "system \"S\" {\n star s { mass = 1 Msun\n radius = 1 Rsun }\n planet b orbits s { period = 3 d\n rv_amplitude = 20 m/s\n impact = 0.3 Msun\n eccentricity = 0.1 m }\n planet c orbits s { period = 5 d\n rv_amplitude = 20 m/s\n impact = b.impact }\n}";
+    let a = run(src, &Options::linear());
+    let d = a
+        .diagnostics
+        .iter()
+        .find(|d| d.rule == crate::diagnostic::Rule::InvalidValue)
+        .unwrap();
+    assert_eq!(
+        d.message,
+        "this value cannot be evaluated: it needs b.impact, which is declared but whose value could not be used"
+    );
+    let declared_at = src.find("impact = 0.3").unwrap();
+    assert_eq!(d.labels.len(), 1, "{d:?}");
+    assert_eq!(d.labels[0].span.start as usize, declared_at);
+    assert_eq!(
+        d.help.as_deref(),
+        Some("correct the declaration of b.impact (see its own error)")
+    );
+    // Both unit errors are reported on their own.
+    let units = a
+        .diagnostics
+        .iter()
+        .filter(|d| d.rule == crate::diagnostic::Rule::UnitMismatch)
+        .count();
+    assert_eq!(units, 2);
+    let e = get(&a, "b", Qty::Eccentricity).unwrap();
+    assert!(
+        e.assumptions.iter().any(|w| w.contains(
+            "eccentricity = 0 (default: circular orbit); the value written for b could not be used"
+        )),
+        "{:?}",
+        e.assumptions
+    );
+    // Nothing was written for c's eccentricity: the plain default.
+    let e = get(&a, "c", Qty::Eccentricity).unwrap();
+    assert!(e
+        .assumptions
+        .iter()
+        .any(|w| &**w == "eccentricity = 0 (default: circular orbit)"));
+}
+
 #[test]
 fn two_declared_expressions_waiting_on_each_other_are_both_reported() {
     let a = run(

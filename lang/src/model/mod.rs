@@ -131,6 +131,10 @@ pub struct Body {
     /// Further declarations of quantities in `declared`, each citing its own source
     /// (several published values of one quantity), in file order.
     pub further: Vec<Declared>,
+    /// Quantities written whose value could not be used (a wrong unit, a value out of range,
+    /// ...), each with the declaration; an error says why. Only those with no declaration
+    /// that could be read, so that what needs them can say so rather than "not declared".
+    pub refused: Vec<(Qty, Span)>,
     pub lets: Vec<LetInfo>,
 }
 
@@ -480,6 +484,7 @@ fn lower_system(s: &ast::SystemDecl, cites: &Cites, diags: &mut Vec<Diagnostic>)
             orbits_span: b.orbits.as_ref().map(|o| o.span),
             declared: Vec::new(),
             further: Vec::new(),
+            refused: Vec::new(),
             lets,
         });
     }
@@ -506,6 +511,7 @@ fn lower_system(s: &ast::SystemDecl, cites: &Cites, diags: &mut Vec<Diagnostic>)
         body.orbits = orbits;
         body.declared = props.first;
         body.further = props.further;
+        body.refused = props.refused;
     }
     for (id, value, dim) in bindings.resolved {
         let slot = match id.body {

@@ -12,6 +12,8 @@ use rustc_hash::FxHashMap;
 pub(super) struct Props {
     pub first: Vec<Declared>,
     pub further: Vec<Declared>,
+    /// See [`super::Body::refused`].
+    pub refused: Vec<(Qty, Span)>,
 }
 
 /// The citation ids written on a property, sorted: what tells two sources apart.
@@ -35,6 +37,7 @@ pub(super) fn lower(
     // At most one declaration per property: sized once rather than grown by doubling.
     let mut out: Vec<Declared> = Vec::with_capacity(b.props.len());
     let mut further: Vec<Declared> = Vec::new();
+    let mut refused: Vec<(Qty, Span)> = Vec::new();
     // Every quantity written, even one whose value was refused, with its citations: a
     // repeat that cites nothing, or the same sources as an earlier one, is a duplicate
     // whether or not the first could be read. The first of each quantity in one flat list
@@ -120,6 +123,7 @@ pub(super) fn lower(
         let resolve =
             |e: &ast::Expr, diags: &mut Vec<Diagnostic>| resolver.declared(e, bi, def, diags);
         let Some((content, written_unit)) = value::lower_value(def, p, &resolve, diags) else {
+            refused.push((def.qty, p.span));
             continue;
         };
         let timestamp = match (&p.value, &content) {
@@ -182,8 +186,20 @@ pub(super) fn lower(
         }
         further.push(decl);
     }
+    // A quantity refused here but read from another declaration is not missing.
+    // The first refused declaration of each quantity (at most one per quantity, so the
+    // list of those kept stays short).
+    let mut kept: Vec<Qty> = Vec::new();
+    refused.retain(|(q, _)| {
+        let keep = !out.iter().any(|d| d.qty == *q) && !kept.contains(q);
+        if keep {
+            kept.push(*q);
+        }
+        keep
+    });
     Props {
         first: out,
         further,
+        refused,
     }
 }
