@@ -472,11 +472,20 @@ impl<'m> Derivation<'m> {
             inputs: entry.inputs.clone(),
             citations: match (used, chosen) {
                 (Some(d), _) => d.citations.iter().map(|c| c.0.clone()).collect(),
-                // A combination rests on every measurement combined.
+                // A combination rests on every measurement combined (not on a limit, a
+                // value without an uncertainty or an assumed one, which are not averaged).
                 (None, Some(_)) => {
                     let mut all: Vec<String> = sources
                         .iter()
-                        .filter(|s| !s.form.is_limit())
+                        .filter(|s| {
+                            let m = Measurement {
+                                value: s.value,
+                                below: s.below,
+                                above: s.above,
+                                form: s.form,
+                            };
+                            super::sources::ranked(&m, s.assumed)
+                        })
                         .flat_map(|s| s.citations.iter().cloned())
                         .collect();
                     all.sort();
@@ -639,7 +648,9 @@ impl Derivation<'_> {
                 Some(i) => all.get(i).copied().into_iter().collect(),
                 None => all
                     .into_iter()
-                    .filter(|d| matches!(&d.content, Content::Measured(m) if !m.form.is_limit()))
+                    .filter(|d| {
+                        matches!(&d.content, Content::Measured(m) if super::sources::ranked(m, d.assumed))
+                    })
                     .collect(),
             },
             None => body.get(key.1).into_iter().collect(),

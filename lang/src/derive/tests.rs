@@ -908,6 +908,47 @@ fn a_weighted_mean_is_used_as_a_combination_of_all_measurements() {
     );
 }
 
+/// A weighted mean rests on the measurements it averages: a limit, a value without an
+/// uncertainty and an assumed value are not averaged, so their references are not named
+/// behind it (the value without an uncertainty was named).
+#[test]
+fn a_weighted_mean_names_only_the_references_it_averages() {
+    let src = TWO_PERIODS
+        .replace(
+            "ref followup",
+            "ref lim \"Invented C\"\nref bare \"Invented D\"\nref guess \"Invented E\"\nref followup",
+        )
+        .replace(
+            "  mass = 5",
+            "  period < 11 d [lim]\n  period = 10.001 d [bare]\n  period = 10.003 ± 0.0001 d [guess] assumed\n  mass = 5",
+        );
+    let a = run(
+        &src,
+        &Options {
+            source_choice: crate::derive::SourceChoice::WeightedMean,
+            ..Options::linear()
+        },
+    );
+    let p = get(&a, "b", Qty::Period).unwrap();
+    assert_eq!(p.sources.len(), 5);
+    assert_eq!(p.citations, ["disc", "followup"]);
+    // The same two behind what is derived from it.
+    let axis = get(&a, "b", Qty::SemiMajorAxis).unwrap();
+    assert!(
+        !axis
+            .cited
+            .iter()
+            .any(|c| ["lim", "bare", "guess"].contains(&c.as_str())),
+        "{:?}",
+        axis.cited
+    );
+    assert!(
+        axis.cited.iter().any(|c| c == "followup"),
+        "{:?}",
+        axis.cited
+    );
+}
+
 #[test]
 fn sources_disagree_fires_on_inconsistent_declarations_and_not_on_consistent_ones() {
     let rules = |periods: (&str, &str)| -> Vec<String> {
