@@ -553,6 +553,26 @@ fn a_utc_epoch_before_1972_is_refused_when_read() {
         "system \"A\" {\n star s { mass = 1 Msun }\n planet b orbits s { transit_epoch = 2441317.4 ± 0.001 BJD_TDB }\n}\n",
     );
     assert!(diags.is_empty(), "{diags:#?}");
+    // A plain or heliocentric Julian date names no scale and is read as UTC: the same, with
+    // a note that says how it was read (`check` passed them). A plain BJD is read as TDB.
+    for (unit, refused) in [
+        ("JD", true),
+        ("HJD", true),
+        ("BJD", false),
+        ("JD_TT", false),
+    ] {
+        let (_, diags) = lower_text(&format!(
+            "system \"A\" {{\n star s {{ mass = 1 Msun }}\n planet b orbits s {{ transit_epoch = 2441317.4 ± 0.001 {unit} }}\n}}\n"
+        ));
+        assert_eq!(diags.len(), usize::from(refused), "{unit}: {diags:#?}");
+        if let Some(d) = diags.first() {
+            assert!(d.message.contains("UTC before 1972-01-01"), "{d:?}");
+            assert!(
+                d.notes.iter().any(|n| n.contains("no time scale named")),
+                "{d:?}"
+            );
+        }
+    }
 }
 
 /// A repeat is matched with the earlier declaration that has its citations, whether that is

@@ -293,13 +293,16 @@ pub(super) fn lower_value(
     }
     // An epoch in UTC before 1972, as a timestamp is: no time scale follows from it (its
     // seconds were not SI seconds), and only `ephemeris` refused it.
-    if def.qty == Qty::TransitEpoch && unit.text.ends_with("_UTC") {
+    // A Julian date with no scale named (`JD`, `HJD`) is read as UTC, so the same holds.
+    let system = crate::time::system_of_unit(&unit.text);
+    let utc = system.is_some_and(|(s, _)| s.scale == crate::time::Scale::Utc);
+    if def.qty == Qty::TransitEpoch && utc {
         if let Err(e) = crate::time::tai_minus_utc(value / crate::constants::DAY) {
-            diags.push(Diagnostic::new(
-                Rule::InvalidValue,
-                expr.span,
-                e.to_string(),
-            ));
+            let mut d = Diagnostic::new(Rule::InvalidValue, expr.span, e.to_string());
+            if let Some((_, Some(read_as))) = system {
+                d = d.with_note(read_as);
+            }
+            diags.push(d);
             return None;
         }
     }
