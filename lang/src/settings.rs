@@ -129,9 +129,28 @@ impl Layer {
     }
 }
 
+/// A TOML error as a sentence that says where: the line and what it holds (`seed = -7`
+/// said only "invalid value: integer `-7`, expected u64"), with the parser's type names in
+/// words.
+fn toml_words(text: &str, e: &toml::de::Error) -> String {
+    let message = e
+        .message()
+        .trim_end()
+        .replace('\n', "; ")
+        .replace("expected u64", "expected a whole number, 0 or more")
+        .replace("expected f64", "expected a number");
+    let Some(at) = e.span().map(|r| r.start.min(text.len())) else {
+        return message;
+    };
+    let line = text.get(..at).map_or(0, |t| t.matches('\n').count()) + 1;
+    let written = text.lines().nth(line - 1).unwrap_or("").trim();
+    let written: String = written.chars().take(80).collect();
+    format!("line {line} (`{written}`): {message}")
+}
+
 /// Parse the text of a `syzygy.toml`. Errors are sentences fit to show as they are.
 fn parse(text: &str) -> Result<Layer, String> {
-    let raw: Raw = toml::from_str(text).map_err(|e| e.message().to_string())?;
+    let raw: Raw = toml::from_str(text).map_err(|e| toml_words(text, &e))?;
     let mut overrides = Vec::new();
     for (id, level) in &raw.rules {
         let rule = Rule::from_id(id).ok_or_else(|| {
@@ -566,6 +585,23 @@ mod tests {
         assert_eq!(d.span, Span::new(FileId(3), 0, 12));
         assert_eq!(d.message, e.to_string());
         assert_eq!(e.diagnostic(FileId(0), "").span, Span::default());
+    }
+
+    /// A value of the wrong type names its line and what it holds, in words (`seed = -7`
+    /// said only "invalid value: integer `-7`, expected u64").
+    #[test]
+    fn a_value_of_the_wrong_type_names_its_line() {
+        let said = |text: &str| layer(text).unwrap_err().reason;
+        assert_eq!(
+            said("[derivation]\nseed = -7\n"),
+            "line 2 (`seed = -7`): invalid value: integer `-7`, expected a whole number, 0 or more"
+        );
+        assert_eq!(
+            said("[rules]\n\n[site]\nlatitude = \"north\"\n"),
+            "line 4 (`latitude = \"north\"`): invalid type: string \"north\", expected a number"
+        );
+        // One line, whatever the parser's message holds.
+        assert!(!said("[derivation\nseed = 1\n").contains('\n'));
     }
 
     #[test]
