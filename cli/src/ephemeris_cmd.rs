@@ -12,6 +12,7 @@ use syzygy::time;
     after_help = "Examples:\n  syz ephemeris examples/veyra.syz b\n  syz ephemeris examples/veyra.syz b --from 2027-01-01 --count 5\n  syz ephemeris examples/veyra.syz b --from 2461400.5   # a JD in UTC\n  syz ephemeris examples/orrin.syz b --site 28.76,-17.88,2300 --observable"
 )]
 pub struct Args {
+    /// The *.syz file.
     pub file: std::path::PathBuf,
     /// The planet.
     pub body: String,
