@@ -1559,6 +1559,38 @@ fn epochs_compare_modulo_the_period_and_assumed_sources_say_so() {
     );
 }
 
+/// A value that rests on a limit for only part of its variance is still given at the limit,
+/// and says what is left out: here the radius predicted from a minimum mass, whose relation
+/// scatter is about half the variance (it said nothing of it).
+#[test]
+fn a_bound_says_what_the_other_inputs_would_add() {
+    let src = "system \"Orl\" {\n star s { mass = 0.9 ± 0.03 Msun; radius = 0.85 ± 0.02 Rsun }\n planet b orbits s {\n  period = 4.2 ± 0.001 d\n  rv_amplitude < 10 m/s\n }\n}\n";
+    let a = run(src, &Options::linear());
+    let words = |q: Qty| -> String {
+        get(&a, "b", q)
+            .unwrap()
+            .assumptions
+            .iter()
+            .find(|w| w.contains("is a limit, not an interval"))
+            .cloned()
+            .unwrap()
+    };
+    let predicted = words(Qty::PredictedRadius);
+    let share: f64 = predicted
+        .split("the other inputs (")
+        .nth(1)
+        .and_then(|r| r.split('%').next())
+        .and_then(|n| n.parse().ok())
+        .unwrap_or_else(|| panic!("{predicted}"));
+    assert!((5.0..95.0).contains(&share), "{predicted}");
+    assert!(
+        predicted.ends_with("of the variance) do not widen it"),
+        "{predicted}"
+    );
+    // The minimum mass rests on the limit alone: nothing to add.
+    assert!(!words(Qty::MinMass).contains("do not widen"));
+}
+
 /// A value limited by an albedo `< 0.3` is a lower limit on Teq at that albedo; taken at the
 /// other end of the albedo's range (0) it is bounded from above as well, and the assumption
 /// gives both ends. The upper end is checked against Teq = Teff sqrt(R*/(2a)) (1 - A)^(1/4)

@@ -346,8 +346,16 @@ impl<'m> Derivation<'m> {
                     }
                     None => String::new(),
                 };
+                // What the other inputs' uncertainties would add is left out of the limit:
+                // said when it is not negligible, so the bound is not read as a safe one.
+                let rest = 100.0 - (share * 100.0).min(100.0);
+                let unwidened = if rest >= 5.0 {
+                    format!("; the uncertainties of the other inputs ({rest:.0}% of the variance) do not widen it")
+                } else {
+                    String::new()
+                };
                 let words = format!(
-                    "{} is {LIMITED}: {:.0}% of its variance comes from {first}, so it is given at that limit{also}, with the other inputs at their values (common practice){between}",
+                    "{} is {LIMITED}: {:.0}% of its variance comes from {first}, so it is given at that limit{also}, with the other inputs at their values (common practice){unwidened}{between}",
                     self.key_name(key),
                     (share * 100.0).min(100.0),
                 );
