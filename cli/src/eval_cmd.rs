@@ -106,6 +106,10 @@ pub fn run(
         }
         EvalFormat::Votable => {
             let mut refs: Vec<[String; 3]> = Vec::new();
+            // (file, id) of those listed: a file read in parts names its references in
+            // every part, and a scan of the list for each would be quadratic.
+            let mut listed: std::collections::HashSet<(String, String)> =
+                std::collections::HashSet::new();
             let mut files_with_errors = 0usize;
             let head = out
                 .write_all(votable_out::head(&propagation_words(&options), table).as_bytes())
@@ -123,7 +127,7 @@ pub fn run(
                     files_with_errors += usize::from(bad);
                     // A file read in parts names its references in every part.
                     for r in more {
-                        if !refs.iter().any(|k| k[0] == r[0] && k[1] == r[1]) {
+                        if listed.insert((r[0].clone(), r[1].clone())) {
                             refs.push(r);
                         }
                     }

@@ -73,14 +73,25 @@ fn collect_in(src: &str, region: &Region, comments: &[Comment]) -> Vec<Allow> {
     let index = LineIndex::new(text);
     let line_text = |l: usize| index.line_span(text, l).and_then(|r| text.get(r));
     let mut out = Vec::new();
+    // The last search for the line below a comment: where it started and what it found. A
+    // comment in a stack of comment lines covers what the one above it covers, found once
+    // (a search per comment made a stack of thousands quadratic).
+    let mut below: Option<(usize, Option<usize>)> = None;
     for (c, (ids, reason)) in parsed {
         let start = c.span.start as usize;
         let line = index.line_at(start.saturating_sub(region.start));
         let covers = if c.trailing {
             Some(line)
         } else {
-            (line + 1..index.line_count())
-                .find(|l| !line_text(*l).is_some_and(|t| t.trim_start().starts_with('#')))
+            match below {
+                Some((from, found)) if from < line && found.is_none_or(|f| line < f) => found,
+                _ => {
+                    let found = (line + 1..index.line_count())
+                        .find(|l| !line_text(*l).is_some_and(|t| t.trim_start().starts_with('#')));
+                    below = Some((line, found));
+                    found
+                }
+            }
         }
         .filter(|l| line_text(*l).is_some_and(|t| !t.trim().is_empty()));
         out.push(Allow {
@@ -115,26 +126,31 @@ pub fn apply_in(
     }
     let index = LineIndex::new(src.get(region.start..region.end).unwrap_or_default());
     let mut used = vec![false; allows.iter().map(|a| a.rules.len()).sum()];
+    // Each rule id of each comment, by the line it covers, with its slot in `used`.
+    let mut by_line: rustc_hash::FxHashMap<usize, Vec<(usize, &str)>> = Default::default();
+    let mut slot = 0;
+    for a in &allows {
+        for (id, _) in &a.rules {
+            if let Some(l) = a.covers {
+                by_line.entry(l).or_default().push((slot, id.as_str()));
+            }
+            slot += 1;
+        }
+    }
     let mut out = Vec::with_capacity(diags.len());
     for d in diags {
         let line = index
             .utf8_position((d.span.start as usize).saturating_sub(region.start))
             .0 as usize;
-        let mut slot = 0;
         let mut silenced = false;
-        for a in &allows {
-            for (id, _) in &a.rules {
-                if d.rule != Rule::UnusedAllow
-                    && !d.rule.is_fixed()
-                    && a.covers == Some(line)
-                    && id == d.rule.id()
-                {
+        if d.rule != Rule::UnusedAllow && !d.rule.is_fixed() {
+            for (slot, id) in by_line.get(&line).map_or(&[][..], Vec::as_slice) {
+                if *id == d.rule.id() {
                     silenced = true;
-                    if let Some(u) = used.get_mut(slot) {
+                    if let Some(u) = used.get_mut(*slot) {
                         *u = true;
                     }
                 }
-                slot += 1;
             }
         }
         if !silenced {
@@ -237,6 +253,35 @@ mod tests {
         assert_eq!(analyze(BAD), [("unit-mismatch".to_string(), 4)]);
         let src = BAD.replace("12 m/s", "12 m/s # allow(unit-mismatch): testing");
         assert_eq!(analyze(&src), []);
+    }
+
+    /// Each comment of a stack covers the code line below the stack (found once for the
+    /// stack); a stack further down covers its own line, and one at the end covers nothing.
+    #[test]
+    fn every_comment_of_a_stack_covers_the_line_below_it() {
+        let src = "# allow(inconsistent): a\n# plain\n# allow(unit-mismatch): b\nx = 1\n  # allow(duplicate): c\n# allow(out-of-range): d\n\ny = 2 # allow(syntax): e\n# allow(io): f\n# allow(io): g\n";
+        let comments: Vec<Comment> = crate::parser::parse(crate::source::FileId(0), src)
+            .file
+            .comments;
+        let covers: Vec<(String, Option<usize>)> = collect(src, &comments)
+            .into_iter()
+            .map(|a| (a.reason, a.covers))
+            .collect();
+        let want = [
+            ("a", Some(3)),
+            ("b", Some(3)),
+            // A blank line below: nothing.
+            ("c", None),
+            ("d", None),
+            ("e", Some(7)),
+            ("f", None),
+            ("g", None),
+        ];
+        assert_eq!(
+            covers,
+            want.map(|(r, l)| (r.to_string(), l)).to_vec(),
+            "{src}"
+        );
     }
 
     #[test]

@@ -330,11 +330,9 @@ impl<'m> Derivation<'m> {
         match v {
             Some(v) => Ok(v),
             None => {
-                if !self
-                    .diagnostics
-                    .iter()
-                    .any(|d| d.span == span && d.rule == Rule::InvalidValue)
-                {
+                // Once per place (a set: a scan of the diagnostics made thousands of such
+                // bindings quadratic).
+                if self.no_value_at.insert(span) {
                     self.diagnostics.push(
                         Diagnostic::new(Rule::InvalidValue, span, "this expression has no finite value")
                             .with_note("division by zero, a root of a negative number or a logarithm of zero or less"),

@@ -188,6 +188,8 @@ pub struct Derivation<'m> {
     bindings: FxHashMap<crate::model::LetId, expr::Binding>,
     /// How many unfinished expressions use each binding (see [`expr::binding_uses`]).
     binding_uses: FxHashMap<crate::model::LetId, usize>,
+    /// Where an expression was found to have no finite value (reported once each).
+    no_value_at: FxHashSet<Span>,
     used: FxHashSet<Key>,
     /// For each quantity declared several times: the value used and how it was reached.
     chosen: FxHashMap<Key, sources::Chosen>,
@@ -361,6 +363,7 @@ impl<'m> Derivation<'m> {
             naming: (String::new(), 0),
             bindings: FxHashMap::default(),
             binding_uses: expr::binding_uses(sys),
+            no_value_at: FxHashSet::default(),
             used: FxHashSet::default(),
             chosen: FxHashMap::default(),
             diagnostics: Vec::new(),

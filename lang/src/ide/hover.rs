@@ -40,7 +40,7 @@ pub fn hover(
             body_of(*system, name).is_some_and(|r| r.quantities.iter().any(has_number)),
         ),
         Symbol::Unit(sym) => unit(sym),
-        Symbol::Ref(id) => match a.model.refs.iter().find(|r| &r.id == id) {
+        Symbol::Ref(id) => match a.model.reference(id) {
             Some(r) => match &r.shared {
                 Some(at) => format!(
                     "**reference `{id}`** (shared, declared in {})\n\n{}",
@@ -208,7 +208,7 @@ pub fn quantity(a: &Analysis, si: usize, body: &str, qty: Qty, method: &Method) 
         ));
     }
     for c in &q.citations {
-        if let Some(r) = a.model.refs.iter().find(|r| &r.id == c) {
+        if let Some(r) = a.model.reference(c) {
             out.push_str(&format!("- [{c}] {}\n", r.text));
         }
     }

@@ -197,6 +197,25 @@ pub struct Model {
     pub shared: Arc<SharedRefs>,
     pub systems: Vec<System>,
     pub comments: Vec<ast::Comment>,
+    /// Where each id of `refs` is, built at the first [`Model::reference`] (outputs look up
+    /// a reference per citation: a scan would be quadratic in the references).
+    pub ref_index: std::sync::OnceLock<FxHashMap<String, usize>>,
+}
+
+impl Model {
+    /// The reference of this id (the file's own or a shared one it cites). For outputs, once
+    /// `refs` is complete.
+    pub fn reference(&self, id: &str) -> Option<&RefInfo> {
+        let index = self.ref_index.get_or_init(|| {
+            let mut index = FxHashMap::default();
+            for (i, r) in self.refs.iter().enumerate() {
+                // The first of an id, as a scan finds it.
+                index.entry(r.id.clone()).or_insert(i);
+            }
+            index
+        });
+        index.get(id).and_then(|&i| self.refs.get(i))
+    }
 }
 
 /// Constants available by name inside expressions.

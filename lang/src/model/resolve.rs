@@ -447,11 +447,15 @@ impl<'a> Resolver<'a> {
             id.span,
             format!("'{}' is neither a 'let' binding nor a constant", id.name),
         );
-        let mut names: Vec<&str> = vec!["pi", "G", "c", "sigma_sb"];
-        if let Some(b) = scope.and_then(|i| self.body(i)) {
-            names.extend(b.lets.iter().map(|l| l.name.as_str()));
-        }
-        names.extend(self.sys.lets.iter().map(|l| l.name.as_str()));
+        // Walked, not gathered: once the file's hints have spent their bound, a system of
+        // thousands of bindings costs nothing more per unknown name.
+        let body_lets = scope
+            .and_then(|i| self.body(i))
+            .map_or(&[][..], |b| &b.lets[..]);
+        let names = ["pi", "G", "c", "sigma_sb"]
+            .into_iter()
+            .chain(body_lets.iter().map(|l| l.name.as_str()))
+            .chain(self.sys.lets.iter().map(|l| l.name.as_str()));
         if let Some(s) = self.hints.closest(&id.name, names) {
             d.with_help(format!("did you mean '{s}'?"))
         } else if units::lookup(&id.name).is_some() {

@@ -254,7 +254,7 @@ fn number_cell(si: f64, factor: f64) -> Cell<'static> {
 fn described<'a>(model: &Model, ids: impl IntoIterator<Item = &'a String>) -> String {
     let parts: Vec<String> = ids
         .into_iter()
-        .map(|id| match model.refs.iter().find(|r| r.id == *id) {
+        .map(|id| match model.reference(id) {
             // A bar or backslash in a text is escaped, so the importer can tell it from
             // the separator (`tables::own`).
             Some(r) => format!("{id}: {}", r.text.replace('\\', "\\\\").replace('|', "\\|")),
@@ -590,8 +590,11 @@ pub fn source_rows<'a>(a: &'a Analysis, line: &dyn Fn(u32) -> usize) -> Vec<Sour
                     unit,
                     limit: limit(q.form),
                     origin,
-                    refs: q.citations.join("; "),
-                    references: described(&a.model, &q.citations),
+                    // Filled below for a quantity listed alone: a combination cites every
+                    // source, which each source's row would otherwise copy (quadratic in
+                    // the sources).
+                    refs: String::new(),
+                    references: String::new(),
                     line: q.span.map_or(0, |s| line(s.in_file(sys.span).start)),
                     used: if q.unused() { "no" } else { "yes" },
                 };
@@ -602,6 +605,8 @@ pub fn source_rows<'a>(a: &'a Analysis, line: &dyn Fn(u32) -> usize) -> Vec<Sour
                     row.above = Cell::Empty;
                 }
                 if q.sources.is_empty() {
+                    row.refs = q.citations.join("; ");
+                    row.references = described(&a.model, &q.citations);
                     out.push(row);
                     continue;
                 }
