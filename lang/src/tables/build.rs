@@ -162,18 +162,22 @@ impl Importer {
             .filter(|i| row.cells.get(*i).is_some_and(|c| !c.is_empty()))
             .collect();
         if !extra.is_empty() {
-            self.summary.skipped_cells += extra.len();
+            // More cells than columns means the cells may have moved (an unquoted decimal
+            // comma: `1,05` is two cells): every cell after the slip would be read under the
+            // wrong column, with nothing to show it. The row is refused whole.
+            let filled = row.cells.iter().filter(|c| !c.is_empty()).count();
+            self.summary.skipped_cells += filled;
             self.issue(
                 IssueKind::ExtraCells,
                 row,
                 None,
                 format!(
-                    "{} cells, the header has {} columns; {} non-empty cells beyond the header are not imported",
+                    "{} cells, the header has {} columns: the cells may be shifted (an unquoted decimal comma, or a comma inside a value, makes two cells of one), so none of the row's {filled} non-empty cells is imported; quote such a cell, or write the number with a decimal point",
                     row.cells.len(),
                     self.columns.len(),
-                    extra.len()
                 ),
             );
+            return;
         }
         let plan = std::sync::Arc::clone(&self.plan);
         let system = cell(Some(plan.system)).to_string();

@@ -388,7 +388,11 @@ fn unit_for(
     what: &str,
 ) -> Result<(String, f64), MappingError> {
     let col_name = col.map_or("?", |c| c.name.as_str());
-    let text = match (given, col.and_then(|c| c.unit.as_deref())) {
+    let field = col.and_then(|c| c.unit.as_deref());
+    if let (Some(u), Some(vo)) = (given, field) {
+        disagreeing(u, vo, col_name, what)?;
+    }
+    let text = match (given, field) {
         (Some(u), _) => u.trim().to_string(),
         (None, Some(vo)) => super::vounit_to_syzygy(vo).map_err(|why| {
             MappingError(format!(
@@ -425,6 +429,29 @@ fn unit_for(
         return Err(MappingError(need));
     }
     Ok((text, unit.factor))
+}
+
+/// A mapping's `unit` for a VOTable field that names a unit of its own is refused where the
+/// two differ: the value would be read in the mapping's unit and its uncertainty columns in
+/// theirs, a value 1000 times too small beside a right uncertainty (`km/s` read as `m/s`).
+/// A field unit with no Syzygy equivalent is what the mapping's `unit` is for, and stands.
+fn disagreeing(given: &str, vo: &str, col_name: &str, what: &str) -> Result<(), MappingError> {
+    let field = super::vounit_to_syzygy(vo)
+        .ok()
+        .and_then(|t| crate::units::parse_unit_text(&t));
+    let (Some(field), Some(mapped)) = (field, crate::units::parse_unit_text(given.trim())) else {
+        return Ok(());
+    };
+    let same = field.dim == mapped.dim
+        && (field.factor - mapped.factor).abs()
+            <= 1e-9 * field.factor.abs().max(mapped.factor.abs());
+    if same {
+        return Ok(());
+    }
+    Err(MappingError(format!(
+        "{what}: the mapping says `unit = \"{}\"`, but field `{col_name}` gives its unit as `{vo}`; remove `unit` from the mapping to read the field's unit, or correct the one that is wrong",
+        given.trim()
+    )))
 }
 
 /// The factor that turns an uncertainty column's numbers into the value's unit (of SI factor

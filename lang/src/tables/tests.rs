@@ -55,6 +55,11 @@ fn text_of(r: &ImportResult, system: &str) -> String {
         .unwrap_or_else(|| panic!("no file for {system}: {r:?}"))
 }
 
+/// Every file's text, one after another.
+fn text_of_all(r: &ImportResult) -> String {
+    r.files.iter().map(|f| f.text.as_str()).collect()
+}
+
 /// The text analyses without errors.
 fn clean(text: &str) {
     let a = crate::analyze(crate::source::FileId(0), text, &crate::Settings::default());
@@ -260,7 +265,41 @@ fn extra_cells_and_unmapped_columns_are_reported() {
     assert_eq!(r.unmapped, vec!["note".to_string()]);
     assert_eq!(r.issues.len(), 1, "{:?}", r.issues);
     assert_eq!(r.issues[0].kind, IssueKind::ExtraCells);
-    assert_eq!(r.summary.skipped_cells, 1);
+    // The whole row is refused: its cells may have moved under the wrong columns.
+    assert_eq!(r.summary.skipped_cells, 5);
+    assert!(!text_of_all(&r).contains("period"), "{r:?}");
+}
+
+/// An unquoted decimal comma makes two cells of one and shifts every cell after it: the
+/// row is refused, where it was imported by position (the star's mass 1, the period 05 d,
+/// the planet's mass 3.25) with one cell said to be lost.
+#[test]
+fn a_row_with_more_cells_than_the_header_is_refused_whole() {
+    let m = Mapping::from_toml(
+        "[bodies]\nsystem = \"system\"\nplanet = \"planet\"\n[star.mass]\nvalue = \"mstar\"\nunit = \"Msun\"\n[planet.period]\nvalue = \"period\"\nunit = \"d\"\n[planet.mass]\nvalue = \"mp\"\nunit = \"Mjup\"\n",
+    )
+    .unwrap();
+    let mut t = CsvTable::new(
+        "system,planet,mstar,period,mp\nCalder,b,1,05,3.25,1.2\nDunmere,c,0.9,4.5,2\n".as_bytes(),
+        m.delimiter,
+        Limits::default(),
+    )
+    .unwrap();
+    let mut imp = Importer::new(&m, t.columns(), "t.csv").unwrap();
+    while let Some(row) = t.next_row().unwrap() {
+        imp.add_row(&row);
+    }
+    let r = imp.finish();
+    assert_eq!(r.issues.len(), 1, "{:?}", r.issues);
+    assert_eq!(r.issues[0].kind, IssueKind::ExtraCells);
+    assert!(
+        r.issues[0].message.contains("shifted"),
+        "{}",
+        r.issues[0].message
+    );
+    let all = text_of_all(&r);
+    assert!(!all.contains("Calder"), "{all}");
+    assert!(all.contains("Dunmere"), "{all}");
 }
 
 #[test]
@@ -643,6 +682,21 @@ fn an_uncertainty_field_in_its_own_unit_is_converted() {
     let t = VoTable::new(relative.as_bytes(), Limits::default()).unwrap();
     let e = Importer::new(&m, t.columns(), "t.vot").err().unwrap();
     assert!(e.0.contains("`per_e` has the unit `%`"), "{e}");
+    // A mapping `unit` that differs from the value's FIELD: refused, naming both (the value
+    // was read in m/s and its uncertainty converted from its own field, 1000 times apart).
+    let reused = mapping.replace("error = \"k_e\"\n", "error = \"k_e\"\nunit = \"m/s\"\n");
+    let m = Mapping::from_toml(&reused).unwrap();
+    let t = VoTable::new(text.as_bytes(), Limits::default()).unwrap();
+    let e = Importer::new(&m, t.columns(), "t.vot").err().unwrap();
+    assert!(
+        e.0.contains("`unit = \"m/s\"`, but field `k` gives its unit as `km/s`"),
+        "{e}"
+    );
+    // The same unit in another spelling agrees.
+    let same = mapping.replace("error = \"k_e\"\n", "error = \"k_e\"\nunit = \"km s^-1\"\n");
+    let m = Mapping::from_toml(&same).unwrap();
+    let t = VoTable::new(text.as_bytes(), Limits::default()).unwrap();
+    assert!(Importer::new(&m, t.columns(), "t.vot").is_ok());
 }
 
 /// A second TABLE, in the same RESOURCE or another, is refused: its rows would be lost.
