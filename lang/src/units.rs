@@ -694,6 +694,11 @@ pub fn parse_unit_text(text: &str) -> Option<Unit> {
     let mut factor = 1.0;
     let mut dim = Dimension::NONE;
     for (i, part) in text.split('/').enumerate() {
+        // `Rearth/`, `/s`, `m//s`: a unit is written into files as given, where it would not
+        // parse.
+        if part.trim().is_empty() {
+            return None;
+        }
         for word in part.split_whitespace() {
             let (sym, exp) = match word.split_once('^') {
                 Some((s, e)) => (s, e.parse::<i32>().ok()?),

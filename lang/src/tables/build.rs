@@ -535,7 +535,10 @@ impl Importer {
                     None => t,
                 };
                 match number(&raw) {
-                    Some((v, t)) if v >= 0.0 => Ok(Some(converted(v, t))),
+                    // `-0` is 0 (written `± -0` it would not parse).
+                    Some((v, t)) if v >= 0.0 => {
+                        Ok(Some(converted(v, t.trim_start_matches('-').to_string())))
+                    }
                     Some((v, t)) if signed_ok && scale.is_some() => Ok(Some(converted(v, t))),
                     Some((_, t)) if signed_ok => Ok(Some(t.trim_start_matches('-').to_string())),
                     Some(_) => {

@@ -138,6 +138,40 @@ pub fn import_sources(source: &mut dyn RowSource, table: &str) -> Result<ImportR
             summary.skipped_cells += 1;
             continue;
         };
+        // The table's own words for what a value was and whether it was used: another word
+        // would be read as a plain declaration without a word.
+        let refused = [
+            (
+                "origin",
+                &["", "declared", "assumed", "combined", "set"][..],
+            ),
+            ("used", &["", "yes", "no", "combined"][..]),
+        ]
+        .into_iter()
+        .find(|(column, words)| !words.contains(&cell(column)));
+        if let Some((column, words)) = refused {
+            let listed: Vec<String> = words.iter().skip(1).map(|w| format!("`{w}`")).collect();
+            issues.push(issue(
+                IssueKind::Unused,
+                column,
+                format!(
+                    "`{}` is none of {}: the row's value is not imported",
+                    cell(column),
+                    crate::text::and_list(&listed).replacen(" and ", " or ", 1)
+                ),
+            ));
+            summary.skipped_cells += 1;
+            continue;
+        }
+        if kind == BodyKind::Planet && cell("host").is_empty() {
+            issues.push(issue(
+                IssueKind::MissingHost,
+                "host",
+                "a planet's row names no host star: the row's value is not imported".into(),
+            ));
+            summary.skipped_cells += 1;
+            continue;
+        }
         let text = match declaration(def.text, &cell) {
             Ok(t) => t,
             Err((column, why)) => {
@@ -180,7 +214,23 @@ pub fn import_sources(source: &mut dyn RowSource, table: &str) -> Result<ImportR
         }
         let id = sys.id(Some(kind), body_name);
         let bi = match sys.at.get(&id) {
-            Some(&i) => i,
+            Some(&i) => {
+                let host = cell("host");
+                let earlier = sys.bodies.get(i).map_or("", |b| b.host.as_str());
+                let same = sys
+                    .ids
+                    .get(&(Some(BodyKind::Star), host.to_string()))
+                    .is_some_and(|id| id == earlier);
+                if kind == BodyKind::Planet && !earlier.is_empty() && !same {
+                    issues.push(issue(
+                        IssueKind::Unused,
+                        "host",
+                        format!("an earlier row gives {body_name} the host `{earlier}`; this row's `{host}` is not used (its value is)"),
+                    ));
+                    summary.skipped_cells += 1;
+                }
+                i
+            }
             None => {
                 let host = match cell("host") {
                     "" => String::new(),
@@ -285,7 +335,26 @@ fn declaration<'a>(
         other => return Err(("limit", format!("`{other}` is neither `upper` nor `lower`"))),
     };
     if op != "=" {
+        // A limit takes no uncertainty: one given would vanish (0, as this table writes a
+        // limit's, is none).
+        for side in ["below", "above"] {
+            if number(side)?.is_some_and(|v| v != 0.0) {
+                return Err((
+                    side,
+                    "a limit takes no uncertainty, but this cell gives one".into(),
+                ));
+            }
+        }
         return Ok(format!("{op} {value}{unit}"));
+    }
+    // One side given and the other empty would be written `+/-80`, which does not parse.
+    for (side, other) in [("below", "above"), ("above", "below")] {
+        if cell(side).is_empty() && !cell(other).is_empty() {
+            return Err((
+                side,
+                format!("the uncertainty {side} is empty but the one {other} is given"),
+            ));
+        }
     }
     let (below, above) = (
         number("below")?.unwrap_or(0.0),
@@ -400,6 +469,59 @@ fn reference_texts(cell: &str) -> Vec<(String, String)> {
 #[cfg(test)]
 mod tests {
     use super::reference_texts;
+    use crate::tables::{CsvTable, IssueKind, Limits};
+
+    /// Rows a spreadsheet could have made of the table of declared values: each is refused
+    /// with an issue, or imported, and every file written parses (one-sided uncertainties
+    /// and a planet without a host were written as text that did not; an uncertainty on a
+    /// limit, a `used` or `origin` word of another kind and a second host went unsaid).
+    #[test]
+    fn rows_that_cannot_be_written_are_issues_and_what_is_written_parses() {
+        let csv =
+            "system,body,kind,host,quantity,value,below,above,text,unit,limit,origin,refs,used\n\
+            Quill,quill,star,,teff,5100,80,,,K,,declared,,\n\
+            Quill,quill,star,,mass,0.9,,0.05,,Msun,,declared,,\n\
+            Quill,quill,star,,radius,0.9,0.02,0.02,,Rsun,,declared,,\n\
+            Quill,c,planet,,period,4,0.1,0.1,,d,,declared,,\n\
+            Quill,b,planet,quill,period,3,0.1,0.1,,d,,declared,,maybe\n\
+            Quill,b,planet,quill,mass,2,,,,Mjup,,estimated,,\n\
+            Quill,b,planet,quill,rv_amplitude,20,1,1,,m/s,upper,declared,,\n\
+            Quill,b,planet,quill,impact,0.3,0.1,0.1,,,,declared,,\n\
+            Quill,b,planet,other,transit_depth,0.5,0.01,0.01,,%,,declared,,\n";
+        let mut t = CsvTable::new(csv.as_bytes(), Some(','), Limits::default()).unwrap();
+        let r = super::import_sources(&mut t, "t.csv").unwrap();
+        let said: Vec<(usize, IssueKind, Option<String>)> = r
+            .issues
+            .iter()
+            .map(|i| (i.row, i.kind, i.column.clone()))
+            .collect();
+        let at = |c: &str| Some(c.to_string());
+        assert_eq!(
+            said,
+            [
+                (1, IssueKind::BadNumber, at("above")),
+                (2, IssueKind::BadNumber, at("below")),
+                (4, IssueKind::MissingHost, at("host")),
+                (5, IssueKind::Unused, at("used")),
+                (6, IssueKind::Unused, at("origin")),
+                (7, IssueKind::BadNumber, at("below")),
+                (9, IssueKind::Unused, at("host")),
+            ],
+            "{:#?}",
+            r.issues
+        );
+        // The radius, the impact and the depth are imported.
+        assert_eq!(r.summary.values, 3);
+        for f in &r.files {
+            let parsed = crate::parser::parse(crate::source::FileId(0), &f.text);
+            assert!(
+                parsed.diagnostics.is_empty(),
+                "{}\n{:?}",
+                f.text,
+                parsed.diagnostics
+            );
+        }
+    }
 
     fn pairs(cell: &str) -> Vec<(String, String)> {
         reference_texts(cell)

@@ -69,6 +69,10 @@ fn compound_units_and_dimensions() {
         "angles are not dimensionless numbers"
     );
     assert!(parse_unit_text("furlong").is_none());
+    // A slash with nothing on one side: not a unit (it was written into imported files).
+    for broken in ["Rearth/", "/s", "m//s", "m/ /s"] {
+        assert!(parse_unit_text(broken).is_none(), "{broken}");
+    }
 }
 
 #[test]
