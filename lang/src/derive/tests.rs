@@ -1559,6 +1559,41 @@ fn epochs_compare_modulo_the_period_and_assumed_sources_say_so() {
     );
 }
 
+/// A limit that hardly moves a value keeps it a value: a planet's mass `< 5 Mearth` beside an
+/// exact period and star mass moves the semi-major axis by about a part in 10^5 over its
+/// whole range, and the axis was given as `< 0.0385 au`, "between 0.0385 au and 0.0385 au".
+/// The Hill radius, which the mass sets, stays a limit.
+#[test]
+fn a_limit_that_hardly_moves_a_value_leaves_it_a_value() {
+    let src = "system \"Quill\" {\n star q { mass = 0.7 Msun; radius = 0.7 Rsun }\n planet b orbits q { period = 3.3 d; mass < 5 Mearth }\n}\n";
+    for options in [Options::linear(), Options::default()] {
+        let a = run(src, &options);
+        let axis = get(&a, "b", Qty::SemiMajorAxis).unwrap();
+        assert!(!axis.form.is_limit(), "{axis:?}");
+        assert!(
+            !axis
+                .assumptions
+                .iter()
+                .any(|w| w.contains("a limit, not an interval")),
+            "{:?}",
+            axis.assumptions
+        );
+        // Kepler's third law with the planet's mass between 0 and 5 Mearth: within a part
+        // in 10^4 of the value with no planet mass.
+        let light =
+            (crate::constants::G * 0.7 * crate::constants::M_SUN * (3.3f64 * 86_400.0).powi(2)
+                / (4.0 * std::f64::consts::PI.powi(2)))
+            .cbrt();
+        assert!(
+            (axis.value / light - 1.0).abs() < 1e-4,
+            "{} {light}",
+            axis.value
+        );
+        let hill = get(&a, "b", Qty::HillRadius).unwrap();
+        assert_eq!(hill.form, crate::model::Form::UpperLimit, "{hill:?}");
+    }
+}
+
 /// A value that rests on a limit for only part of its variance is still given at the limit,
 /// and says what is left out: here the radius predicted from a minimum mass, whose relation
 /// scatter is about half the variance (it said nothing of it).

@@ -316,6 +316,14 @@ impl<'m> Derivation<'m> {
                 if !v.is_finite() || v == 0.0 {
                     continue;
                 }
+                // A limit that moves the value by under a part in a thousand over its whole
+                // range (a planet's mass limit in Kepler's third law, beside exact period and
+                // star mass) bounds nothing worth saying: "between 0.0385 au and 0.0385 au".
+                // The value keeps its interval.
+                let whole_range = at_other_end.value(key).map(|o| o.nominal);
+                if whole_range.is_some_and(|o| o.is_finite() && (o - v).abs() <= 1e-3 * v.abs()) {
+                    continue;
+                }
                 let upper = (form == Form::UpperLimit) == (slope > 0.0);
                 let result = if upper {
                     Form::UpperLimit
