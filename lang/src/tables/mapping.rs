@@ -407,6 +407,13 @@ fn unit_for(
         }
         return Ok((text, 1.0));
     }
+    // Depths are published as fractions, per cent and ppm alike: a column read as a
+    // fraction without a word made 0.02 (per cent) a depth of 2 %.
+    if def.qty == crate::quantities::Qty::TransitDepth && text.is_empty() {
+        return Err(MappingError(format!(
+            "{what}: give `unit` in the mapping: \"%\", \"ppm\", or \"1\" for a fraction (depths are published in all three)"
+        )));
+    }
     let unit = crate::units::parse_unit_text(&text).ok_or_else(|| {
         MappingError(format!(
             "{what}: `{text}` is not a Syzygy unit (docs/language.md, \"Units\")"
@@ -428,6 +435,8 @@ fn unit_for(
         };
         return Err(MappingError(need));
     }
+    // `1`, a plain number, is written without a unit (`0.02 1` would not parse).
+    let text = if text == "1" { String::new() } else { text };
     Ok((text, unit.factor))
 }
 

@@ -962,3 +962,27 @@ fn a_votable_cut_short_or_with_content_after_it_is_refused() {
         2
     );
 }
+
+/// A depth without a unit is refused at the mapping: depths are published as fractions, per
+/// cent and ppm, and a column of per cent read as fractions made 0.02 % a depth of 2 %.
+/// `unit = "1"` says it is a fraction, and is written without a unit.
+#[test]
+fn a_depth_needs_its_unit_said() {
+    let base =
+        "[bodies]\nsystem = \"sys\"\nplanet = \"pl\"\n[planet.transit_depth]\nvalue = \"depth\"\n";
+    let columns = |csv: &str| {
+        CsvTable::new(csv.as_bytes(), None, Limits::default())
+            .unwrap()
+            .columns()
+            .to_vec()
+    };
+    let csv = "sys,pl,depth\nQuorlin,b,0.02\n";
+    let m = Mapping::from_toml(base).unwrap();
+    let e = Importer::new(&m, &columns(csv), "t.csv").err().unwrap();
+    assert!(e.0.contains("give `unit`"), "{e}");
+    let r = import_csv(csv, &format!("{base}unit = \"1\"\n"));
+    let text = text_of(&r, "Quorlin");
+    assert!(text.contains("transit_depth = 0.02\n"), "{text}");
+    let r = import_csv(csv, &format!("{base}unit = \"%\"\n"));
+    assert!(text_of(&r, "Quorlin").contains("transit_depth = 0.02 %"));
+}
