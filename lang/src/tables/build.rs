@@ -2,11 +2,13 @@
 //! either kept in a declaration or named in an [`Issue`]; nothing is dropped quietly.
 
 use super::mapping::{Plan, QuantityPlan};
-use super::names::{ref_name, syzygy_name, Ids};
+use super::names::{syzygy_name, Ids};
 use super::{Column, Issue, IssueKind, Mapping, MappingError, Row};
 use crate::ast::BodyKind;
 use crate::quantities::QuantityDef;
 use std::collections::{BTreeSet, HashMap};
+
+mod refs;
 
 /// One declaration of a quantity, as it will be written.
 #[derive(Debug, Clone)]
@@ -90,6 +92,8 @@ pub struct Importer {
     systems: Vec<System>,
     system_index: HashMap<String, usize>,
     ref_ids: HashMap<String, String>,
+    /// The key cell each reference text first came with (empty for none).
+    ref_keys: HashMap<String, String>,
     ref_texts: HashMap<String, String>,
     ref_names: Ids,
     issues: Vec<Issue>,
@@ -108,6 +112,7 @@ impl Importer {
             systems: Vec::new(),
             system_index: HashMap::new(),
             ref_ids: HashMap::new(),
+            ref_keys: HashMap::new(),
             ref_texts: HashMap::new(),
             ref_names: Ids::default(),
             issues: Vec::new(),
@@ -217,15 +222,7 @@ impl Importer {
                     .collect()
             });
         }
-        // The row's references.
-        let mut row_refs = BTreeSet::new();
-        for &c in &plan.ref_text {
-            let text = cell(Some(c)).to_string();
-            if !text.is_empty() {
-                let key = cell(plan.ref_key).to_string();
-                row_refs.insert(self.ref_id(&text, &key));
-            }
-        }
+        let row_refs = self.row_refs(row, &plan);
         let star = if star_name.is_empty() {
             None
         } else {
@@ -288,7 +285,9 @@ impl Importer {
             if value.is_empty() {
                 let lost = Self::filled(
                     row,
-                    [q.error, q.above, q.below, q.limit].into_iter().flatten(),
+                    [q.error, q.above, q.below, q.limit, q.refs]
+                        .into_iter()
+                        .flatten(),
                 );
                 for c in lost {
                     self.summary.skipped_cells += 1;
@@ -429,23 +428,6 @@ impl Importer {
                 ),
             );
         }
-    }
-
-    /// The id of a reference text (the key column's cell made a name when given, else a name
-    /// made from the text); one text keeps one id for the whole import.
-    fn ref_id(&mut self, text: &str, key: &str) -> String {
-        if let Some(id) = self.ref_ids.get(text) {
-            return id.clone();
-        }
-        let base = if key.is_empty() {
-            ref_name(text)
-        } else {
-            syzygy_name(key, "ref")
-        };
-        let id = self.ref_names.fresh(&base);
-        self.ref_ids.insert(text.to_string(), id.clone());
-        self.ref_texts.insert(id.clone(), text.to_string());
-        id
     }
 
     /// The declaration a row gives one quantity, or `None` after naming the cell at fault.

@@ -986,3 +986,34 @@ fn a_depth_needs_its_unit_said() {
     let r = import_csv(csv, &format!("{base}unit = \"%\"\n"));
     assert!(text_of(&r, "Quorlin").contains("transit_depth = 0.02 %"));
 }
+
+/// A reference key with no text in its row, a key other than the one its text first came
+/// with, and a per-quantity reference beside an empty value are issues (each was dropped
+/// without a word); the values themselves are imported.
+#[test]
+fn reference_cells_that_cannot_be_used_are_issues() {
+    let mapping = "[bodies]\nsystem = \"sys\"\nplanet = \"pl\"\n[refs]\ntext = [\"paper\"]\nkey = \"pkey\"\n[planet.period]\nvalue = \"p\"\nunit = \"d\"\nref = \"p_ref\"\n";
+    let csv = "sys,pl,p,p_ref,paper,pkey\n\
+        Ulm,b,15.1,,,orphan\n\
+        Ulm,c,3.2,,Harl 2031,vk29\n\
+        Ulm,d,4.4,,Harl 2031,vk30\n\
+        Ulm,e,,Penn 2031,,\n";
+    let r = import_csv(csv, mapping);
+    let said: Vec<(usize, Option<String>)> =
+        r.issues.iter().map(|i| (i.row, i.column.clone())).collect();
+    assert_eq!(
+        said,
+        [
+            (1, Some("pkey".to_string())),
+            (3, Some("pkey".to_string())),
+            (4, Some("p_ref".to_string())),
+        ],
+        "{:#?}",
+        r.issues
+    );
+    assert!(r.issues.iter().all(|i| i.kind == IssueKind::Unused));
+    assert!(r.issues[1].message.contains("the key `vk29`"), "{}", r.issues[1].message);
+    let text = text_of(&r, "Ulm");
+    assert!(text.contains("period = 15.1 d\n"), "{text}");
+    assert!(text.contains("period = 4.4 d [vk29]"), "{text}");
+}
