@@ -24,7 +24,7 @@ impl<'m> Derivation<'m> {
         options: &Options,
         lines: &'m sources::Lines,
     ) -> Derivation<'m> {
-        let (most, _) = samples_for(sys.bodies.len(), ADAPTIVE_MOST);
+        let (most, _) = samples_for(sys, ADAPTIVE_MOST);
         let mut once = options.clone();
         once.adaptive = false;
         once.samples = options.samples.clamp(1, most);

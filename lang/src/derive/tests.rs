@@ -1654,3 +1654,42 @@ fn a_value_on_a_limit_gives_both_ends_where_both_are_bounded() {
         "{words} (top {top})"
     );
 }
+
+/// A system of many uncertain bindings holds the samples of each (a tree of them all at
+/// once): past the system's sample budget it is sampled more thinly and says so, as a
+/// system of many bodies is (32,000 bindings in a tree took 2.8 GB at 10^4 samples).
+#[test]
+fn many_bindings_are_sampled_within_the_budget() {
+    let n = 4_000;
+    let mut src =
+        String::from("system \"Q\" {\n star z { mass = 1 ± 0.1 Msun }\n let s0 = 1 ± 0.1\n");
+    for i in 1..n {
+        src.push_str(&format!(
+            " let a{i} = 1 ± 0.1\n let s{i} = s{} + a{i}\n",
+            i - 1
+        ));
+    }
+    src.push_str(&format!(
+        " planet p orbits z {{ period = s{} / {n} * 1 d }}\n}}\n",
+        n - 1
+    ));
+    let lets = 2 * n - 1;
+    let a = run(&src, &Options::default());
+    let p = get(&a, "p", Qty::SemiMajorAxis).unwrap();
+    let said = p
+        .assumptions
+        .iter()
+        .chain(&p.notes)
+        .find(|w| w.contains("asked for: this system has"))
+        .unwrap_or_else(|| panic!("{p:?}"));
+    // The budget, 512 MiB, over the arrays: 24 for each of the two bodies and one per
+    // binding.
+    let most = (512usize << 20) / ((2 * 24 + lets) * 8);
+    assert!(
+        said.starts_with(&format!(
+            "Monte Carlo with {most} samples, not the 10000 asked for: this system has {lets} bindings"
+        )),
+        "{said}"
+    );
+    assert_eq!(p.precision.map(|x| x.samples), Some(most));
+}

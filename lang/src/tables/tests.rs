@@ -1012,7 +1012,11 @@ fn reference_cells_that_cannot_be_used_are_issues() {
         r.issues
     );
     assert!(r.issues.iter().all(|i| i.kind == IssueKind::Unused));
-    assert!(r.issues[1].message.contains("the key `vk29`"), "{}", r.issues[1].message);
+    assert!(
+        r.issues[1].message.contains("the key `vk29`"),
+        "{}",
+        r.issues[1].message
+    );
     let text = text_of(&r, "Ulm");
     assert!(text.contains("period = 15.1 d\n"), "{text}");
     assert!(text.contains("period = 4.4 d [vk29]"), "{text}");
