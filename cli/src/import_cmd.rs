@@ -52,7 +52,40 @@ pub fn run(args: &Args) -> u8 {
         let c = import_one(table, mapping.as_ref(), args, &mut written);
         code = code.max(c);
     }
+    others_in_folder(args, &written);
     code
+}
+
+/// Say which `*.syz` files in the output folder this import did not write (an earlier
+/// import's, whose systems the table may no longer hold): `syz check` of the folder reads
+/// them too. Nothing is removed.
+fn others_in_folder(args: &Args, written: &HashSet<String>) {
+    let Ok(entries) = std::fs::read_dir(&args.output) else {
+        return;
+    };
+    let mut others: Vec<String> = entries
+        .filter_map(Result::ok)
+        .map(|e| e.file_name().to_string_lossy().into_owned())
+        .filter(|n| n.ends_with(".syz") && !written.contains(n))
+        .collect();
+    if others.is_empty() {
+        return;
+    }
+    others.sort();
+    let n = others.len();
+    let shown: Vec<&str> = others.iter().take(5).map(String::as_str).collect();
+    let more = if n > 5 {
+        format!(" and {} more", n - 5)
+    } else {
+        String::new()
+    };
+    eprintln!(
+        "syz: note: {} holds {n} other .syz file{} this import did not write ({}{more}); `syz check` of the folder reads {} too",
+        args.output.display(),
+        crate::check_cmd::plural(n),
+        shown.join(", "),
+        if n == 1 { "it" } else { "them" }
+    );
 }
 
 /// The mapping the user gave.

@@ -234,6 +234,20 @@ fn existing_files_are_not_overwritten_unless_forced() {
         .file_type()
         .is_symlink());
     check_clean(&out);
+    // Imported again from a table that no longer holds Tarn and Vell: their files stay
+    // (nothing the user owns is removed), and the import says they are there.
+    let o = import(
+        &dir,
+        "sys,pl,ms,ms_e,p,e,paper\nOrrin,b,1.0,,3.0,,\n",
+        &["--force"],
+    );
+    assert_eq!(o.status.code(), Some(0), "{}{}", stdout(&o), stderr(&o));
+    assert!(
+        stderr(&o).contains("holds 2 other .syz files this import did not write (tarn.syz, vell.syz); `syz check` of the folder reads them too"),
+        "{}",
+        stderr(&o)
+    );
+    assert!(out.join("vell.syz").is_file());
 }
 
 const VOT_HEAD: &str = "<VOTABLE version=\"1.4\"><RESOURCE><TABLE><FIELD name=\"sys\" datatype=\"char\" arraysize=\"*\"/><FIELD name=\"ms\" datatype=\"double\" unit=\"solMass\"/><DATA><TABLEDATA>";
