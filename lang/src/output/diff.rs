@@ -412,11 +412,14 @@ impl Diff {
 /// The key a system is matched by: its name, or for a name that occurs more than once on a
 /// side, its name and file; what a file says outside systems goes by the file.
 fn keys(side: &[SystemSnapshot]) -> Vec<(String, Option<String>)> {
+    // Counted once (a count per system made a side of many systems quadratic).
+    let mut count: std::collections::HashMap<&str, usize> = std::collections::HashMap::new();
+    for n in side.iter().filter_map(|s| s.name.as_deref()) {
+        *count.entry(n).or_insert(0) += 1;
+    }
     side.iter()
         .map(|s| match &s.name {
-            Some(n) if side.iter().filter(|o| o.name.as_ref() == Some(n)).count() == 1 => {
-                (n.clone(), None)
-            }
+            Some(n) if count.get(n.as_str()) == Some(&1) => (n.clone(), None),
             Some(n) => (n.clone(), Some(s.file.clone())),
             None => (String::new(), Some(s.file.clone())),
         })
@@ -426,15 +429,19 @@ fn keys(side: &[SystemSnapshot]) -> Vec<(String, Option<String>)> {
 /// Compare two sides, each the snapshots of all its files.
 pub fn compare(old: &[SystemSnapshot], new: &[SystemSnapshot], options: DiffOptions) -> Diff {
     let (old_keys, new_keys) = (keys(old), keys(new));
+    // Each key's first place on the old side, and the keys of the new side: found through
+    // hashes, not scans.
+    let mut old_at: std::collections::HashMap<&(String, Option<String>), usize> =
+        std::collections::HashMap::new();
+    for (i, k) in old_keys.iter().enumerate() {
+        old_at.entry(k).or_insert(i);
+    }
+    let new_set: std::collections::HashSet<&(String, Option<String>)> = new_keys.iter().collect();
     let mut systems = Vec::new();
     let mut compared = 0;
     let mut found = 0;
     for (n, key) in new.iter().zip(&new_keys) {
-        let Some(o) = old_keys
-            .iter()
-            .position(|k| k == key)
-            .and_then(|i| old.get(i))
-        else {
+        let Some(o) = old_at.get(key).and_then(|&i| old.get(i)) else {
             // What a file says outside any system, new with the file: each diagnostic is
             // listed as appeared.
             let mut changes = Vec::new();
@@ -474,7 +481,7 @@ pub fn compare(old: &[SystemSnapshot], new: &[SystemSnapshot], options: DiffOpti
         }
     }
     for (o, key) in old.iter().zip(&old_keys) {
-        if new_keys.contains(key) {
+        if new_set.contains(key) {
             continue;
         }
         let changes = if o.name.is_none() {
