@@ -437,40 +437,32 @@ impl<'m> Derivation<'m> {
                 .map(|k| self.key_name(*k))
                 .collect()
         };
-        let mut why = Vec::new();
-        let unusable = names(false, true);
-        if let [one] = unusable.as_slice() {
-            why.push(format!(
-                "{one}, which is declared but whose value could not be used"
-            ));
-        } else if !unusable.is_empty() {
-            why.push(format!(
-                "{}, declared but with values that could not be used",
-                crate::text::and_list(&unusable)
-            ));
-        }
-        let absent = names(false, false);
-        if let [one] = absent.as_slice() {
-            why.push(format!(
-                "{one}, which is neither declared nor derivable from what is declared"
-            ));
-        } else if !absent.is_empty() {
-            why.push(format!(
-                "{}, none of them declared or derivable from what is declared",
-                crate::text::and_list(&absent)
-            ));
-        }
-        let stuck = names(true, false);
-        if let [one] = stuck.as_slice() {
-            why.push(format!(
-                "{one}, an expression that cannot be evaluated either"
-            ));
-        } else if !stuck.is_empty() {
-            why.push(format!(
-                "{}, expressions that cannot be evaluated either",
-                crate::text::and_list(&stuck)
-            ));
-        }
+        // Each group in the words for one of it or for several.
+        let groups = [
+            (
+                names(false, true),
+                "which is declared but whose value could not be used",
+                "declared but with values that could not be used",
+            ),
+            (
+                names(false, false),
+                "which is neither declared nor derivable from what is declared",
+                "none of them declared or derivable from what is declared",
+            ),
+            (
+                names(true, false),
+                "an expression that cannot be evaluated either",
+                "expressions that cannot be evaluated either",
+            ),
+        ];
+        let why: Vec<String> = groups
+            .iter()
+            .filter_map(|(keys, one, several)| match keys.as_slice() {
+                [] => None,
+                [k] => Some(format!("{k}, {one}")),
+                _ => Some(format!("{}, {several}", crate::text::and_list(keys))),
+            })
+            .collect();
         let what = if own.is_some() {
             "this value"
         } else {

@@ -199,14 +199,31 @@ pub struct Model {
     pub comments: Vec<ast::Comment>,
     /// Where each id of `refs` is, built at the first [`Model::reference`] (outputs look up
     /// a reference per citation: a scan would be quadratic in the references).
-    pub ref_index: std::sync::OnceLock<FxHashMap<String, usize>>,
+    pub ref_index: RefIndex,
+}
+
+/// A cache of where each reference is: not part of what a model says, so two models that
+/// differ only in whether it was built yet are equal and print alike.
+#[derive(Clone, Default)]
+pub struct RefIndex(std::sync::OnceLock<FxHashMap<String, usize>>);
+
+impl PartialEq for RefIndex {
+    fn eq(&self, _: &RefIndex) -> bool {
+        true
+    }
+}
+
+impl std::fmt::Debug for RefIndex {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str("RefIndex")
+    }
 }
 
 impl Model {
     /// The reference of this id (the file's own or a shared one it cites). For outputs, once
     /// `refs` is complete.
     pub fn reference(&self, id: &str) -> Option<&RefInfo> {
-        let index = self.ref_index.get_or_init(|| {
+        let index = self.ref_index.0.get_or_init(|| {
             let mut index = FxHashMap::default();
             for (i, r) in self.refs.iter().enumerate() {
                 // The first of an id, as a scan finds it.
