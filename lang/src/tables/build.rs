@@ -8,7 +8,11 @@ use crate::ast::BodyKind;
 use crate::quantities::QuantityDef;
 use std::collections::{BTreeSet, HashMap};
 
+mod cells;
 mod refs;
+
+pub(crate) use cells::string_literal;
+use cells::{not_a_number_hint, number, shorten};
 
 /// One declaration of a quantity, as it will be written.
 #[derive(Debug, Clone)]
@@ -157,6 +161,24 @@ impl Importer {
             .flatten()
     }
 
+    /// Whether every mapped cell of the row holds its own column's name (a header row again).
+    fn repeats_header(&self, row: &Row) -> bool {
+        let mut mapped = self
+            .plan
+            .used
+            .iter()
+            .zip(&self.columns)
+            .enumerate()
+            .filter(|(_, (used, _))| **used)
+            .peekable();
+        mapped.peek().is_some()
+            && mapped.all(|(i, (_, c))| {
+                row.cells
+                    .get(i)
+                    .is_some_and(|cell| cell.trim() == c.as_str())
+            })
+    }
+
     /// Import one row.
     pub fn add_row(&mut self, row: &Row) {
         self.summary.rows += 1;
@@ -177,10 +199,22 @@ impl Importer {
                 row,
                 None,
                 format!(
-                    "{} cells, the header has {} columns: the cells may be shifted (an unquoted decimal comma, or a comma inside a value, makes two cells of one), so none of the row's {filled} non-empty cells is imported; quote such a cell, or write the number with a decimal point",
+                    "{} cells, the header has {} columns: the cells may be shifted (an unquoted decimal comma, or a comma inside a value, makes two cells of one), so none of the row's {filled} non-empty {} imported; quote such a cell, or write the number with a decimal point",
                     row.cells.len(),
                     self.columns.len(),
+                    if filled == 1 { "cell is" } else { "cells are" },
                 ),
+            );
+            return;
+        }
+        if self.repeats_header(row) {
+            // Tables joined end to end keep each part's header: read as data, it made a
+            // system called `system` with bodies called `star` and `planet`.
+            self.issue(
+                IssueKind::RepeatedHeader,
+                row,
+                None,
+                "the row repeats the header's column names (tables joined end to end?), so it is read as no values".to_string(),
             );
             return;
         }
@@ -449,12 +483,13 @@ impl Importer {
             });
         }
         let Some((value, value_text)) = number(&raw) else {
+            let hint = not_a_number_hint(&raw, q.limit.is_some());
             self.issue(
                 IssueKind::BadNumber,
                 row,
                 Some(q.value),
                 format!(
-                    "{what}: `{}` is not a number; the value is not imported",
+                    "{what}: `{}` is not a number; the value is not imported{hint}",
                     shorten(&raw)
                 ),
             );
@@ -710,71 +745,5 @@ impl Importer {
             unmapped: self.plan.unmapped.clone(),
             summary: self.summary,
         }
-    }
-}
-
-/// A cell read as a number, with the text to write: the cell itself when the language reads
-/// it as written (so no digit is lost), else the shortest text that gives the same number.
-fn number(raw: &str) -> Option<(f64, String)> {
-    let t = raw.trim();
-    let t = t.strip_prefix('+').unwrap_or(t);
-    let v: f64 = t.parse().ok()?;
-    if !v.is_finite() {
-        return None;
-    }
-    let (neg, digits) = match t.strip_prefix('-') {
-        Some(rest) => (true, rest),
-        None => (false, t),
-    };
-    if syzygy_number(digits) {
-        let digits = digits.to_string();
-        return Some((v, if neg { format!("-{digits}") } else { digits }));
-    }
-    Some((v, format!("{v:e}")))
-}
-
-/// Whether text is a number as the lexer reads it: digits with an optional fraction and
-/// exponent (`42`, `0.93`, `1.`, `.5`, `6.2e-3`).
-fn syzygy_number(t: &str) -> bool {
-    let (mant, exp) = match t.find(['e', 'E']) {
-        Some(i) => (t.get(..i).unwrap_or(""), t.get(i + 1..)),
-        None => (t, None),
-    };
-    let (int, frac) = mant.split_once('.').unwrap_or((mant, ""));
-    let digits = |s: &str| s.bytes().all(|b| b.is_ascii_digit());
-    let mant_ok = digits(int) && digits(frac) && !(int.is_empty() && frac.is_empty());
-    let exp_ok = exp.is_none_or(|e| {
-        let e = e.strip_prefix(['+', '-']).unwrap_or(e);
-        !e.is_empty() && digits(e)
-    });
-    mant_ok && exp_ok
-}
-
-/// A string literal of the language.
-pub(crate) fn string_literal(s: &str) -> String {
-    let mut out = String::from("\"");
-    for ch in s.chars() {
-        match ch {
-            '"' => out.push_str("\\\""),
-            '\\' => out.push_str("\\\\"),
-            '\n' => out.push_str("\\n"),
-            '\t' => out.push_str("\\t"),
-            // Other control characters cannot stand in a string literal; a space keeps the
-            // words apart.
-            c if c.is_control() => out.push(' '),
-            c => out.push(c),
-        }
-    }
-    out.push('"');
-    out
-}
-
-/// A cell shown in a message: at most 40 characters.
-fn shorten(s: &str) -> String {
-    if s.chars().count() <= 40 {
-        s.to_string()
-    } else {
-        let head: String = s.chars().take(40).collect();
-        format!("{head}…")
     }
 }

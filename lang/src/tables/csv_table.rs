@@ -222,6 +222,7 @@ impl<R: Read> CsvTable<R> {
                 name: name.trim().to_string(),
                 unit: None,
                 null: None,
+                floating: false,
             })
             .collect();
         Ok(table)

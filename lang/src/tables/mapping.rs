@@ -223,6 +223,7 @@ pub(crate) struct Plan {
 impl Plan {
     pub fn new(m: &Mapping, columns: &[super::Column]) -> Result<Plan, MappingError> {
         let mut used = vec![false; columns.len()];
+        let hints = crate::text::Hints::default();
         let mut find = |name: &str, what: &str| -> Result<usize, MappingError> {
             let mut named = columns
                 .iter()
@@ -231,7 +232,8 @@ impl Plan {
                 .map(|(i, _)| i);
             let i = named.next().ok_or_else(|| {
                 MappingError(format!(
-                    "the mapping's {what} column `{name}` is not in the table's header"
+                    "the mapping's {what} column `{name}` is not in the table's header{}",
+                    header_hint(name, columns, &hints)
                 ))
             })?;
             if let Some(j) = named.next() {
@@ -379,6 +381,22 @@ fn quantity(kind: BodyKind, name: &str) -> Result<&'static QuantityDef, MappingE
     })
 }
 
+/// The header's column a mapping's missing column name probably meant, as a clause: one
+/// that differs only in letter case (`Mass` for `mass`), else a close spelling. The search
+/// shares one work bound over the mapping (a header may have 10,000 columns).
+fn header_hint(name: &str, columns: &[super::Column], hints: &crate::text::Hints) -> String {
+    if let Some(c) = columns.iter().find(|c| c.name.eq_ignore_ascii_case(name)) {
+        return format!(
+            "; the header has `{}`, which differs only in letter case (column names are matched exactly)",
+            c.name
+        );
+    }
+    hints
+        .closest(name, columns.iter().map(|c| c.name.as_str()))
+        .map(|c| format!("; did you mean `{c}`?"))
+        .unwrap_or_default()
+}
+
 /// The unit a quantity's values are written in: the mapping's, else the VOTable FIELD's;
 /// either must resolve and have the quantity's dimension.
 fn unit_for(
@@ -415,8 +433,11 @@ fn unit_for(
         )));
     }
     let unit = crate::units::parse_unit_text(&text).ok_or_else(|| {
+        let meant = crate::units::suggest_for(text.trim(), Some(def.dim))
+            .map(|s| format!("; did you mean `{s}`?"))
+            .unwrap_or_default();
         MappingError(format!(
-            "{what}: `{text}` is not a Syzygy unit (docs/language.md, \"Units\")"
+            "{what}: `{text}` is not a Syzygy unit (docs/language.md, \"Units\"){meant}"
         ))
     })?;
     if unit.dim != def.dim {

@@ -58,6 +58,9 @@ pub struct Column {
     pub unit: Option<String>,
     /// A VOTable FIELD's `null` value (a cell holding it has no value).
     pub null: Option<String>,
+    /// A VOTable FIELD of `datatype` `float` or `double`, where a `NaN` cell has no value
+    /// (VOTable 1.4, section 6: the IEEE NaN represents null for floating-point fields).
+    pub floating: bool,
 }
 
 /// One data row: 1-based number among the data rows, the line it starts on, its cells.
@@ -138,10 +141,12 @@ pub enum IssueKind {
     NameCase,
     /// A system with more bodies than one system is read with.
     TooManyBodies,
+    /// A row that repeats the header's column names (tables joined end to end).
+    RepeatedHeader,
 }
 
 impl IssueKind {
-    pub const ALL: [IssueKind; 10] = [
+    pub const ALL: [IssueKind; 11] = [
         IssueKind::BadNumber,
         IssueKind::OutOfRange,
         IssueKind::MissingName,
@@ -152,6 +157,7 @@ impl IssueKind {
         IssueKind::Unused,
         IssueKind::NameCase,
         IssueKind::TooManyBodies,
+        IssueKind::RepeatedHeader,
     ];
 
     pub fn id(self) -> &'static str {
@@ -166,6 +172,7 @@ impl IssueKind {
             IssueKind::Unused => "unused-cell",
             IssueKind::NameCase => "name-case",
             IssueKind::TooManyBodies => "too-many-bodies",
+            IssueKind::RepeatedHeader => "repeated-header",
         }
     }
 }
@@ -208,3 +215,5 @@ impl Issue {
 
 #[cfg(test)]
 mod tests;
+#[cfg(test)]
+mod tests_hints;

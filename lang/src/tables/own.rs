@@ -383,12 +383,16 @@ fn system_text(s: &System, table: &str) -> SystemText {
         "# Imported by `syz import` from {}.",
         table.replace(['\n', '\r'], " ")
     );
-    let mut cited: Vec<&str> = Vec::new();
-    for r in s.bodies.iter().flat_map(|b| &b.decls).flat_map(|d| &d.3) {
-        if !cited.contains(&r.as_str()) {
-            cited.push(r);
-        }
-    }
+    // In order of first citation; a set keeps this linear in the citations.
+    let mut seen = std::collections::HashSet::new();
+    let cited: Vec<&str> = s
+        .bodies
+        .iter()
+        .flat_map(|b| &b.decls)
+        .flat_map(|d| &d.3)
+        .map(String::as_str)
+        .filter(|r| seen.insert(*r))
+        .collect();
     for id in cited {
         let text = s.refs.get(id).map_or("", String::as_str);
         let _ = writeln!(out, "ref {id} {}", string_literal(text));

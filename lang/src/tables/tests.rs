@@ -2,7 +2,7 @@
 
 use super::*;
 
-const MAPPING: &str = r#"
+pub(super) const MAPPING: &str = r#"
 ignore = ["note"]
 [bodies]
 system = "sys"
@@ -35,9 +35,9 @@ value = "e"
 albedo = "0.3 assumed"
 "#;
 
-const HEADER: &str = "sys,star,pl,host,ms,ms_e,p,p_e,mp,mp_hi,mp_lo,mp_f,e,paper,note\n";
+pub(super) const HEADER: &str = "sys,star,pl,host,ms,ms_e,p,p_e,mp,mp_hi,mp_lo,mp_f,e,paper,note\n";
 
-fn import_csv(csv: &str, mapping: &str) -> ImportResult {
+pub(super) fn import_csv(csv: &str, mapping: &str) -> ImportResult {
     let m = Mapping::from_toml(mapping).unwrap();
     let mut t = CsvTable::new(csv.as_bytes(), m.delimiter, Limits::default()).unwrap();
     let mut imp = Importer::new(&m, t.columns(), "t.csv").unwrap();
@@ -47,7 +47,7 @@ fn import_csv(csv: &str, mapping: &str) -> ImportResult {
     imp.finish()
 }
 
-fn text_of(r: &ImportResult, system: &str) -> String {
+pub(super) fn text_of(r: &ImportResult, system: &str) -> String {
     r.files
         .iter()
         .find(|f| f.system == system)
@@ -357,6 +357,7 @@ fn mapping_errors_say_what_is_wrong() {
             name: n.to_string(),
             unit: None,
             null: None,
+            floating: false,
         })
         .collect();
     let err = |toml: &str| -> String {
@@ -480,7 +481,7 @@ impl std::io::Read for Counting<'_> {
     }
 }
 
-const VOT: &str = r#"<?xml version="1.0"?>
+pub(super) const VOT: &str = r#"<?xml version="1.0"?>
 <VOTABLE version="1.4"><RESOURCE><TABLE>
 <FIELD name="sys" datatype="char" arraysize="*"/>
 <FIELD name="m" datatype="double" unit="solMass"><VALUES null="-1"/></FIELD>
@@ -492,7 +493,7 @@ const VOT: &str = r#"<?xml version="1.0"?>
 </TABLEDATA></DATA></TABLE></RESOURCE></VOTABLE>
 "#;
 
-fn vot(text: &str, limits: Limits) -> Result<Vec<Row>, TableError> {
+pub(super) fn vot(text: &str, limits: Limits) -> Result<Vec<Row>, TableError> {
     let mut t = VoTable::new(text.as_bytes(), limits)?;
     let mut rows = Vec::new();
     while let Some(r) = t.next_row()? {

@@ -139,6 +139,12 @@ impl<R: BufRead> VoTable<R> {
                         name: name.trim().to_string(),
                         unit: get("unit").filter(|u| !u.trim().is_empty()),
                         null: None,
+                        floating: get("datatype").is_some_and(|d| {
+                            matches!(
+                                d.trim(),
+                                "float" | "double" | "floatComplex" | "doubleComplex"
+                            )
+                        }),
                     });
                     in_field = ev == Kind::Start;
                 }
@@ -443,7 +449,9 @@ impl<R: BufRead> RowSource for VoTable<R> {
                     let mut cells = cells.take().unwrap_or_default();
                     for (c, col) in cells.iter_mut().zip(&self.columns) {
                         let trimmed = c.trim();
-                        if col.null.as_deref() == Some(trimmed) {
+                        if col.null.as_deref() == Some(trimmed)
+                            || (col.floating && trimmed.eq_ignore_ascii_case("nan"))
+                        {
                             c.clear();
                         } else if trimmed.len() != c.len() {
                             *c = trimmed.to_string();

@@ -1,0 +1,100 @@
+//! Cells into Syzygy text: numbers as the lexer reads them, string literals, and what a
+//! cell that is not a number probably meant.
+
+/// A cell read as a number, with the text to write: the cell itself when the language reads
+/// it as written (so no digit is lost), else the shortest text that gives the same number.
+pub(super) fn number(raw: &str) -> Option<(f64, String)> {
+    let t = raw.trim();
+    let t = t.strip_prefix('+').unwrap_or(t);
+    let v: f64 = t.parse().ok()?;
+    if !v.is_finite() {
+        return None;
+    }
+    let (neg, digits) = match t.strip_prefix('-') {
+        Some(rest) => (true, rest),
+        None => (false, t),
+    };
+    if syzygy_number(digits) {
+        let digits = digits.to_string();
+        return Some((v, if neg { format!("-{digits}") } else { digits }));
+    }
+    Some((v, format!("{v:e}")))
+}
+
+/// What a value cell that is not a number probably meant, as a clause to add to the issue:
+/// a limit written into the value (`<5`), or a spelling of "no value" (`NaN`, `--`).
+/// `has_limit_column`: whether the mapping names a limit-flag column for the quantity.
+pub(super) fn not_a_number_hint(raw: &str, has_limit_column: bool) -> String {
+    let t = raw.trim();
+    let limit = t
+        .strip_prefix(['<', '>', '≤', '≥'])
+        .map(|r| r.trim_start_matches('=').trim())
+        .filter(|r| number(r).is_some());
+    if let Some(rest) = limit {
+        let how = if has_limit_column {
+            "write `{rest}` in the value cell and the limit's code in the quantity's limit-flag column"
+        } else {
+            "write `{rest}` in the value cell, the limit's code in a column of its own, and name that column as the quantity's `limit` in the mapping (codes as in `[limit_codes]`)"
+        };
+        return format!(
+            "; a limit is read from a flag beside its value: {}",
+            how.replace("{rest}", rest)
+        );
+    }
+    let lower = t.to_ascii_lowercase();
+    if [
+        "nan", "na", "n/a", "null", "none", "-", "--", "---", "?", "...",
+    ]
+    .contains(&lower.as_str())
+    {
+        return "; if it means no value, leave the cell empty (an empty cell is no value and no issue)"
+            .to_string();
+    }
+    String::new()
+}
+
+/// Whether text is a number as the lexer reads it: digits with an optional fraction and
+/// exponent (`42`, `0.93`, `1.`, `.5`, `6.2e-3`).
+fn syzygy_number(t: &str) -> bool {
+    let (mant, exp) = match t.find(['e', 'E']) {
+        Some(i) => (t.get(..i).unwrap_or(""), t.get(i + 1..)),
+        None => (t, None),
+    };
+    let (int, frac) = mant.split_once('.').unwrap_or((mant, ""));
+    let digits = |s: &str| s.bytes().all(|b| b.is_ascii_digit());
+    let mant_ok = digits(int) && digits(frac) && !(int.is_empty() && frac.is_empty());
+    let exp_ok = exp.is_none_or(|e| {
+        let e = e.strip_prefix(['+', '-']).unwrap_or(e);
+        !e.is_empty() && digits(e)
+    });
+    mant_ok && exp_ok
+}
+
+/// A string literal of the language.
+pub(crate) fn string_literal(s: &str) -> String {
+    let mut out = String::from("\"");
+    for ch in s.chars() {
+        match ch {
+            '"' => out.push_str("\\\""),
+            '\\' => out.push_str("\\\\"),
+            '\n' => out.push_str("\\n"),
+            '\t' => out.push_str("\\t"),
+            // Other control characters cannot stand in a string literal; a space keeps the
+            // words apart.
+            c if c.is_control() => out.push(' '),
+            c => out.push(c),
+        }
+    }
+    out.push('"');
+    out
+}
+
+/// A cell shown in a message: at most 40 characters.
+pub(super) fn shorten(s: &str) -> String {
+    if s.chars().count() <= 40 {
+        s.to_string()
+    } else {
+        let head: String = s.chars().take(40).collect();
+        format!("{head}…")
+    }
+}
