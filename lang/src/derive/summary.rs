@@ -144,6 +144,9 @@ pub struct SystemResult {
     /// For declared quantities that rules can also derive from other measurements: the best
     /// such route (front ends show it beside the declared value).
     pub alternatives: Vec<Alternative>,
+    /// The Monte Carlo sample count was chosen adaptively (`--samples auto`): doubled until
+    /// every value was stable, or until the most drawn for the system.
+    pub adaptive: bool,
 }
 
 impl SystemResult {
@@ -214,6 +217,7 @@ impl<'m> Derivation<'m> {
         SystemResult {
             bodies,
             alternatives: self.alternatives(),
+            adaptive: self.options.adaptive,
         }
     }
 

@@ -455,7 +455,7 @@ pub fn eval_text(a: &Analysis, db: &dyn SourceDb) -> String {
             for n in notes {
                 out.push_str(&format!("    note: {n}\n"));
             }
-            if let Some(line) = precision_line(&r.quantities) {
+            if let Some(line) = precision_line(&r.quantities, res.adaptive) {
                 out.push_str(&format!("    {line}\n"));
             }
             for u in by_body.get(bi).into_iter().flatten() {
@@ -489,8 +489,9 @@ fn not_used_line(u: &crate::unused::Unused, places: &Places) -> String {
 
 /// How precisely the Monte Carlo samples fix a body's values, in one line (`None` when no
 /// value of it comes from samples): the worst relative precision, and the values not
-/// stable to the last digit shown.
-pub fn precision_line(quantities: &[QuantityResult]) -> Option<String> {
+/// stable to the last digit shown. `adaptive`: the count was chosen by `--samples auto`,
+/// which stopped at its most before those values were stable (it is not the way on).
+pub fn precision_line(quantities: &[QuantityResult], adaptive: bool) -> Option<String> {
     let sampled: Vec<&QuantityResult> = quantities
         .iter()
         .filter(|q| q.precision.is_some())
@@ -525,7 +526,9 @@ pub fn precision_line(quantities: &[QuantityResult]) -> Option<String> {
             let first_order = sampled
                 .iter()
                 .all(|q| crate::derive::validity::was_sampled(q));
-            let how = if first_order {
+            let how = if adaptive {
+                "--samples auto stopped at the most samples it draws for this system"
+            } else if first_order {
                 "Monte Carlo propagation with --samples auto draws until they are"
             } else {
                 "--samples auto draws until they are"
@@ -593,6 +596,27 @@ mod tests {
     fn explain(qty: Qty) -> String {
         let a = crate::analyze(FileId(0), SRC, &crate::Settings::linear());
         explain_text(&a, 0, (1, qty)).unwrap()
+    }
+
+    #[test]
+    fn the_precision_line_points_to_auto_only_where_auto_was_not_used() {
+        // At 10^4 samples some values of this system are not stable to two digits.
+        let a = crate::analyze(FileId(0), SRC, &crate::Settings::default());
+        let q = &a.results[0].bodies[1].quantities;
+        assert!(q.iter().any(|q| !q.stable()), "{q:?}");
+        let fixed = precision_line(q, false).unwrap();
+        assert!(
+            fixed.ends_with("; --samples auto draws until they are)"),
+            "{fixed}"
+        );
+        // After `--samples auto` reached its most, pointing to it would send the user round.
+        let auto = precision_line(q, true).unwrap();
+        assert!(
+            auto.ends_with(
+                "; --samples auto stopped at the most samples it draws for this system)"
+            ),
+            "{auto}"
+        );
     }
 
     #[test]

@@ -315,6 +315,7 @@ fn outputs_with_spans_outside_their_system_are_not_kept() {
         result: Arc::new(SystemResult {
             bodies: Vec::new(),
             alternatives: Vec::new(),
+            adaptive: false,
         }),
         composition: Vec::new(),
     };
