@@ -612,3 +612,22 @@ fn a_repeat_names_the_earlier_declaration_with_its_citations() {
         .collect();
     assert_eq!(kept, [10.0, 11.0, 12.0, 15.0, 16.0]);
 }
+
+#[test]
+fn a_power_written_without_a_caret_says_how_to_write_it() {
+    // `g/cm3` is how some unit syntaxes write g/cm^3.
+    let d = only_diagnostic("density = 1.4 g/cm3");
+    assert_eq!(d.rule, Rule::UnknownUnit);
+    assert_eq!(
+        d.help.as_deref(),
+        Some("a power is written with '^': 'cm^3'")
+    );
+    let d = only_diagnostic("surface_gravity = 9.8 m/s2");
+    assert_eq!(
+        d.help.as_deref(),
+        Some("a power is written with '^': 's^2'")
+    );
+    // Digits after something that is not a unit are no power.
+    let d = only_diagnostic("density = 1.4 g/qq3");
+    assert!(!d.help.unwrap().contains("power"));
+}

@@ -496,6 +496,12 @@ pub(crate) fn unknown_unit(span: Span, e: &units::UnknownUnit) -> Diagnostic {
                  a temperature and a difference of temperatures differently",
             );
     }
+    // `cm3`, `s2`: a power written without `^` (as some other unit syntaxes allow).
+    let base = e.symbol.trim_end_matches(|c: char| c.is_ascii_digit());
+    if base.len() < e.symbol.len() && units::lookup(base).is_some() {
+        let power = e.symbol.get(base.len()..).unwrap_or_default();
+        return d.with_help(format!("a power is written with '^': '{base}^{power}'"));
+    }
     match e.suggestion {
         Some(s) => d.with_help(format!("did you mean '{s}'?")),
         None => {
