@@ -123,9 +123,12 @@ pub fn rules_of(v: &serde_json::Value) -> Vec<(String, String)> {
 }
 
 /// A scratch folder for one test, emptied first and removed when the test is done (it
-/// derefs to its path).
+/// derefs to its path). Numbered as well as named: the tests of every module run in one
+/// process, in parallel, so two tests that chose one name still get two folders.
 pub fn scratch(name: &str) -> Scratch {
-    let dir = std::env::temp_dir().join(format!("syzygy-e2e-{}-{name}", std::process::id()));
+    static NEXT: std::sync::atomic::AtomicUsize = std::sync::atomic::AtomicUsize::new(0);
+    let n = NEXT.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
+    let dir = std::env::temp_dir().join(format!("syzygy-e2e-{}-{n}-{name}", std::process::id()));
     let _ = std::fs::remove_dir_all(&dir);
     std::fs::create_dir_all(&dir).unwrap();
     Scratch(dir)

@@ -3,7 +3,7 @@
 //! `publishDiagnostics`, hover latency (medians and 95th percentiles) and the server's memory.
 //!
 //! ```sh
-//! cargo test -p syzygy-e2e --test lsp_bench -- --ignored --nocapture
+//! cargo test -p syzygy-e2e --test e2e lsp_bench -- --ignored --nocapture
 //! ```
 
 #![allow(clippy::unwrap_used, clippy::indexing_slicing)]
