@@ -666,7 +666,12 @@ impl Importer {
                     "{empty} cites no reference (its reference cell is empty), so only row {r}'s value is kept (fill in the reference to keep both as sources)"
                 )
             } else {
-                format!("the rows do not cite different sources, so only row {r}'s value is kept (add a reference column to keep both)")
+                // Both rows cite something, and the same: a reference column exists.
+                let cited: Vec<String> = d.refs.iter().map(|id| format!("`{id}`")).collect();
+                format!(
+                    "both rows cite {}, so they cannot be told apart as sources and only row {r}'s value is kept (if they come from different papers, give each row its own reference)",
+                    crate::text::and_list(&cited)
+                )
             };
             self.issue(
                 IssueKind::Conflict,

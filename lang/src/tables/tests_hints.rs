@@ -144,3 +144,17 @@ fn a_misspelt_mapping_unit_gets_a_suggestion_of_the_quantity_s_dimension() {
     let e = err("zzzzzz");
     assert!(e.ends_with("\"Units\")"), "{e}");
 }
+
+#[test]
+fn two_values_citing_one_paper_name_it_instead_of_asking_for_a_reference_column() {
+    // The mapping has a reference column, and both rows fill it with the same paper.
+    let csv = format!(
+        "{HEADER}Orrin,Orrin,b,,,,3.5,0.01,,,,,,P1 2030,\nOrrin,Orrin,b,,,,3.6,0.01,,,,,,P1 2030,\n"
+    );
+    let r = import_csv(&csv, MAPPING);
+    let m = messages(&r, IssueKind::Conflict);
+    assert_eq!(m.len(), 1, "{r:?}");
+    assert!(m[0].contains("both rows cite `p2030`"), "{m:?}");
+    assert!(m[0].contains("give each row its own reference"), "{m:?}");
+    assert!(!m[0].contains("add a reference column"), "{m:?}");
+}
