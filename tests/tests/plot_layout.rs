@@ -67,11 +67,12 @@ fn catalogue(systems: usize, per: usize) -> String {
 
 /// The box of every line of text in an SVG, estimated as the layout estimates it: the
 /// width from the character count and font size, the top `ASCENT` font sizes above the
-/// baseline; quarter-turned text (the y axis's name) turned with it.
+/// baseline; quarter-turned text (the y axis's name) turned with it. A label's white halo
+/// (a copy drawn under it, marked `aria-hidden`) is not a line of its own.
 fn text_boxes(svg: &str) -> Vec<(String, Rect)> {
     let doc = roxmltree::Document::parse(svg).expect("the SVG parses as XML");
     doc.descendants()
-        .filter(|n| n.has_tag_name("text"))
+        .filter(|n| n.has_tag_name("text") && n.attribute("aria-hidden") != Some("true"))
         .map(|n| {
             let text = n.text().unwrap_or("").to_string();
             let num = |a: &str| n.attribute(a).unwrap().parse::<f64>().unwrap();

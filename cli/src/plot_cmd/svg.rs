@@ -120,18 +120,19 @@ impl Svg {
             Anchor::End => ("end", x - w),
         };
         let weight = if bold { " font-weight=\"bold\"" } else { "" };
-        let halo = if halo {
-            " stroke=\"#ffffff\" stroke-width=\"3\" stroke-linejoin=\"round\" paint-order=\"stroke\""
-        } else {
-            ""
-        };
+        // The halo is a white copy drawn first, under the text, rather than the text's own
+        // stroke with `paint-order`: renderers that ignore `paint-order` (some SVG-to-PNG
+        // converters) drew the white stroke over the text and hid it.
+        let (x, y, size, text) = (n(x), n(top + ASCENT * size), n(size), escape(text));
+        if halo {
+            let _ = writeln!(
+                self.out,
+                "<text x=\"{x}\" y=\"{y}\" font-size=\"{size}\" text-anchor=\"{a}\" fill=\"#ffffff\" stroke=\"#ffffff\" stroke-width=\"3\" stroke-linejoin=\"round\"{weight} aria-hidden=\"true\">{text}</text>"
+            );
+        }
         let _ = writeln!(
             self.out,
-            "<text x=\"{}\" y=\"{}\" font-size=\"{}\" text-anchor=\"{a}\" fill=\"{fill}\"{weight}{halo}>{}</text>",
-            n(x),
-            n(top + ASCENT * size),
-            n(size),
-            escape(text)
+            "<text x=\"{x}\" y=\"{y}\" font-size=\"{size}\" text-anchor=\"{a}\" fill=\"{fill}\"{weight}>{text}</text>"
         );
         Rect::new(x0, top, x0 + w, top + h)
     }
@@ -401,4 +402,47 @@ pub fn wrap(text: &str, size: f64, width: f64) -> Vec<String> {
         out.push(line);
     }
     out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_halo_is_a_white_copy_under_the_text_not_a_paint_order_stroke() {
+        let mut s = Svg::new();
+        s.text(
+            10.0,
+            10.0,
+            12.0,
+            Anchor::Start,
+            "Orrin b",
+            "#123456",
+            false,
+            true,
+        );
+        let doc = s.finish(100.0, 50.0);
+        assert!(!doc.contains("paint-order"), "{doc}");
+        let halo = doc
+            .find("fill=\"#ffffff\" stroke=\"#ffffff\"")
+            .expect("a white copy");
+        let text = doc
+            .find("fill=\"#123456\">Orrin b</text>")
+            .expect("the text");
+        // Drawn first, so it lies under the text in every renderer.
+        assert!(halo < text, "{doc}");
+        // Without a halo, only the text.
+        let mut s = Svg::new();
+        s.text(
+            10.0,
+            10.0,
+            12.0,
+            Anchor::Start,
+            "Orrin b",
+            "#123456",
+            false,
+            false,
+        );
+        assert_eq!(s.finish(100.0, 50.0).matches("<text").count(), 1);
+    }
 }
