@@ -55,6 +55,7 @@ pub fn run(d: &Derivation, diags: &mut Vec<Diagnostic>) -> Vec<CompositionNote> 
                 implausible_planet(d, bi, diags);
                 transit_geometry(d, bi, diags);
                 no_prediction(d, bi, diags);
+                idle::idle_measurements(d, bi, diags);
             }
             BodyKind::Star => {
                 plausible_star(d, bi, diags);
@@ -649,5 +650,6 @@ fn plausible_star(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
     );
 }
 
+mod idle;
 #[cfg(test)]
 mod tests;

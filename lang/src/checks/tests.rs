@@ -454,3 +454,45 @@ fn a_grazing_orbit_found_after_the_depth_is_pointed_out() {
         touching.diagnostics
     );
 }
+
+#[test]
+fn measurements_idle_for_want_of_the_star_s_mass_say_so() {
+    // An invented star with a radius and temperature but no mass: the planet's period and
+    // radial-velocity amplitude give nothing (no axis, no minimum mass, no Teq), and a note
+    // on each says what the star lacks.
+    let src = "system \"Nodrey\" {\n  star n { radius = 0.9 ± 0.03 Rsun; teff = 5300 ± 80 K }\n  planet b orbits n {\n    period = 4.2 ± 0.001 d\n    transit_depth = 0.52 ± 0.04 %\n    rv_amplitude = 15 ± 2 m/s\n  }\n}\n";
+    let a = run(src);
+    let notes: Vec<&str> = a
+        .diagnostics
+        .iter()
+        .filter(|d| d.rule == Rule::NotDerivable)
+        .map(|d| d.message.as_str())
+        .collect();
+    assert_eq!(
+        notes,
+        [
+            "nothing is derived from b.period: kepler-third-law-light-planet also needs n.mass, which has no value",
+            "nothing is derived from b.rv_amplitude: rv-minimum-mass also needs n.mass, which has no value",
+        ],
+        "{:?}",
+        a.diagnostics
+    );
+    assert!(a.diagnostics.iter().all(|d| d.severity == Severity::Note));
+    // With the star's mass, every measurement is used and nothing is said.
+    let whole = src.replace("radius = 0.9", "mass = 0.92 ± 0.04 Msun; radius = 0.9");
+    assert!(
+        run(&whole).diagnostics.is_empty(),
+        "{:?}",
+        run(&whole).diagnostics
+    );
+    // A planet's own partial data (a radius without a mass: no density) are no such case.
+    let partial = "system \"Tessaly\" {\n  star t { mass = 0.92 ± 0.04 Msun; radius = 0.9 ± 0.03 Rsun; teff = 5300 ± 80 K }\n  planet b orbits t { period = 4.2 ± 0.001 d; radius = 2.1 ± 0.1 Rearth }\n}\n";
+    let a = run(partial);
+    assert!(
+        a.diagnostics
+            .iter()
+            .all(|d| !d.message.starts_with("nothing is derived")),
+        "{:?}",
+        a.diagnostics
+    );
+}

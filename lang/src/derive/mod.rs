@@ -416,6 +416,11 @@ impl<'m> Derivation<'m> {
         self.entries.get(&k).map(|e| &e.value)
     }
 
+    /// Whether a derived value was computed from `k` (it is an input of a chosen route).
+    pub fn is_used(&self, k: Key) -> bool {
+        self.used.contains(&k)
+    }
+
     pub fn origin(&self, k: Key) -> Option<Origin> {
         self.entries.get(&k).map(|e| e.origin)
     }

@@ -1,0 +1,144 @@
+//! A planet's measurements from which nothing is derived because its host star lacks an
+//! input of every rule that would use them (a radial-velocity amplitude without the star's
+//! mass): shown in the table as declared, they would otherwise leave the values they were
+//! written for absent without a word. Only what the star lacks: partial data of a planet (a
+//! radius without a mass) are common and said elsewhere, and a star declared with a mass
+//! alone surprises nobody.
+
+use crate::ast::BodyKind;
+use crate::derive::rules::{predicts, Slot, RULES};
+use crate::derive::{has_default, Derivation, Key};
+use crate::diagnostic::{Diagnostic, Rule};
+use crate::model::Content;
+use crate::quantities::{self, Qty};
+
+/// A note on each measured declaration of body `bi` that no derived value uses while a rule
+/// that takes it lacks another input; it names the rule and what it lacks (the route that
+/// lacks the fewest).
+pub(super) fn idle_measurements(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
+    let Some(body) = d.sys.bodies.get(bi) else {
+        return;
+    };
+    for decl in &body.declared {
+        if matches!(decl.content, Content::Text(_))
+            || d.is_used((bi, decl.qty))
+            // A declaration without a value (a limit that cannot be sampled, an expression
+            // with no value) is reported where it is refused.
+            || d.value((bi, decl.qty)).is_none()
+            || !for_deriving(decl.qty)
+        {
+            continue;
+        }
+        let Some((rule, lacking)) = waiting_route(d, bi, body.kind, decl.qty) else {
+            continue;
+        };
+        let names: Vec<String> = lacking.iter().map(|k| d.key_name(*k)).collect();
+        let listed = crate::text::and_list(&names);
+        let first = names.first().cloned().unwrap_or_default();
+        diags.push(
+            Diagnostic::new(
+                Rule::NotDerivable,
+                decl.span,
+                format!(
+                    "nothing is derived from {}: {rule} also needs {listed}, which {} no value",
+                    d.key_name((bi, decl.qty)),
+                    if lacking.len() == 1 { "has" } else { "have" }
+                ),
+            )
+            .with_help(format!(
+                "declare {listed}, or measurements it can be derived from (`syz explain FILE {first}` lists the routes)"
+            )),
+        );
+    }
+}
+
+/// Whether a declared quantity is there to derive others from, so that nothing derived from
+/// it means a missing input. A star's distance, parallax and magnitudes are also declared to
+/// plan observations, where they are used without any rule, and an orbit's shape and the
+/// atmosphere's parameters also serve the checks; a note on each would be noise.
+fn for_deriving(q: Qty) -> bool {
+    !matches!(
+        q,
+        Qty::Distance
+            | Qty::Parallax
+            | Qty::MagnitudeV
+            | Qty::MagnitudeJ
+            | Qty::MagnitudeH
+            | Qty::MagnitudeKs
+            | Qty::BolometricMagnitude
+            | Qty::AbsoluteBolometricMagnitude
+            | Qty::Metallicity
+            | Qty::Age
+            // Parameters with a default, which the physics checks read as well (an
+            // eccentric orbit's apastron in the crossing-orbits check).
+            | Qty::Eccentricity
+            | Qty::ArgPeriastron
+            | Qty::Albedo
+            | Qty::Redistribution
+            | Qty::MeanMolecularWeight
+    )
+}
+
+/// The rule taking quantity `qty` of planet `bi` that lacks the fewest inputs, all of them
+/// its host star's, with those inputs; `None` when no rule takes it, when every rule that
+/// takes it has its inputs (the value went unused for another reason: a better route was
+/// chosen), or lacks some of the planet's own.
+fn waiting_route(
+    d: &Derivation,
+    bi: usize,
+    kind: BodyKind,
+    qty: quantities::Qty,
+) -> Option<(&'static str, Vec<Key>)> {
+    let has = |k: Key| d.value(k).is_some() || has_default(k.1);
+    // The bodies a rule is applied to when it takes this quantity: the body itself, or for
+    // a star's quantity in a planet's rule, each planet of the star.
+    let planets: Vec<usize> = d
+        .sys
+        .bodies
+        .iter()
+        .enumerate()
+        .filter(|(_, b)| b.orbits == Some(bi))
+        .map(|(i, _)| i)
+        .collect();
+    let mut best: Option<(&'static str, Vec<Key>)> = None;
+    for rule in RULES.iter().filter(|r| !predicts(r.id)) {
+        let subjects: Vec<(usize, Option<usize>)> = match (kind, rule.output) {
+            (BodyKind::Planet, Slot::Planet(_)) if rule.inputs.contains(&Slot::Planet(qty)) => {
+                vec![(bi, d.sys.bodies.get(bi).and_then(|b| b.orbits))]
+            }
+            (BodyKind::Star, Slot::Star(_)) if rule.inputs.contains(&Slot::Star(qty)) => {
+                vec![(bi, None)]
+            }
+            (BodyKind::Star, Slot::Planet(_)) if rule.inputs.contains(&Slot::Host(qty)) => {
+                planets.iter().map(|&p| (p, Some(bi))).collect()
+            }
+            _ => continue,
+        };
+        for (subject, host) in subjects {
+            let mut lacking = Vec::new();
+            for slot in rule.inputs {
+                let key = match *slot {
+                    Slot::Planet(q) | Slot::Star(q) => Some((subject, q)),
+                    Slot::Host(q) => host.map(|h| (h, q)),
+                };
+                match key {
+                    Some(k) if has(k) => {}
+                    Some(k) => lacking.push(k),
+                    // A planet without a host star: the missing host is said elsewhere.
+                    None => {}
+                }
+            }
+            // Only what the host star lacks: a planet whose own data are partial (a radius
+            // without a mass) is common and says so elsewhere; a star left without the mass,
+            // radius or temperature its planets' rules need leaves their measurements idle.
+            let host_only = lacking.iter().all(|k| Some(k.0) == host);
+            if !lacking.is_empty()
+                && host_only
+                && best.as_ref().is_none_or(|(_, l)| lacking.len() < l.len())
+            {
+                best = Some((rule.id, lacking));
+            }
+        }
+    }
+    best
+}
