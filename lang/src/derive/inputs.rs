@@ -26,6 +26,11 @@ pub(super) fn default_for(q: Qty) -> Option<(f64, &'static str)> {
 
 /// An input asymmetric by this factor or more is skewed: first order does not describe it.
 const SKEWED_RATIO: f64 = 1.5;
+
+/// The share of a measurement's stated distribution outside its quantity's range from which
+/// the truncation is noted: about a two-sigma reach (2.3 % on one side); below it, the
+/// median moves by less than a tenth of the uncertainty.
+const TRUNCATED_SHARE: f64 = 0.025;
 /// The factor is compared to a part in 10^4, so that one measurement written in another unit
 /// (`0.88 +0.03/-0.02 Rsun` as `95.9872 +3.27229/-2.18153 Rearth`, a ratio of 1.499998) is
 /// classed alike.
@@ -97,6 +102,65 @@ impl<'m> Derivation<'m> {
         }
     }
 
+    /// A note on a measurement whose uncertainty puts more than [`TRUNCATED_SHARE`] of its
+    /// stated distribution outside its quantity's range, and the words of the assumption
+    /// that says how it is sampled ([`super::truncation`]).
+    fn truncated_note(
+        &mut self,
+        label: &str,
+        qty: Qty,
+        m: &Measurement,
+        span: crate::source::Span,
+    ) -> Option<String> {
+        let (lo, hi) = quantities::def(qty).limits();
+        let (below, above, median) = super::truncation::truncation(m, lo, hi)?;
+        let outside = below + above;
+        if outside < TRUNCATED_SHARE {
+            return None;
+        }
+        let unit = summary::display_unit(qty, m.value);
+        let f = unit.factor;
+        let with_unit = |text: String| {
+            if unit.symbol.is_empty() || unit.symbol == "1" {
+                text
+            } else {
+                format!("{text} {}", unit.symbol)
+            }
+        };
+        // An end of the range as a number; the median to the digits of the declared value.
+        let end = |v: f64| with_unit(crate::format::number(v / f));
+        let at_digits = |v: f64| {
+            let t = crate::format::with_uncertainty(v / f, m.below / f, m.above / f);
+            with_unit(t.split(' ').next().unwrap_or_default().to_string())
+        };
+        let side = if below >= 0.9 * outside {
+            format!("below {}", end(lo))
+        } else if above >= 0.9 * outside {
+            format!("above {}", end(hi))
+        } else {
+            format!("outside {} to {}", end(lo), end(hi))
+        };
+        let declared = crate::report::shown_in(m.value, m.below, m.above, m.form, unit);
+        let pct = crate::format::number((outside * 1000.0).round() / 10.0);
+        let words = format!(
+            "{label} = {declared} sampled inside its valid range: {pct}% of the stated distribution lies {side}, where draws are drawn again, so the sampled median is {} (a truncated distribution)",
+            at_digits(median)
+        );
+        self.diagnostics.push(
+            Diagnostic::new(
+                Rule::Truncated,
+                span,
+                format!(
+                    "{label} = {declared} puts {pct}% of its probability {side}, outside the range it can take: sampled values are kept inside it, so their median is {}, not {}",
+                    at_digits(median),
+                    at_digits(m.value)
+                ),
+            )
+            .with_help("if the data only bound the value, declare a limit (`<` or `>`) instead; if the published value is a median with percentiles of a fit kept inside the range, this is expected")
+        );
+        Some(words)
+    }
+
     pub(super) fn declare_measurements(&mut self) {
         let sys = self.sys;
         for (bi, body) in sys.bodies.iter().enumerate() {
@@ -146,6 +210,7 @@ impl<'m> Derivation<'m> {
                     continue;
                 }
                 let label = format!("{}.{}", body.id, def.name);
+                let truncated = self.truncated_note(&label, decl.qty, m, used.span);
                 let before = self.inputs.len();
                 let v = self.new_input(Some((bi, decl.qty)), label, m, lo, hi);
                 // A declared limit (an unknown angle spread over a turn is not one); a limit
@@ -169,6 +234,11 @@ impl<'m> Derivation<'m> {
                     assumptions.insert(Arc::from(words.as_str()));
                 }
                 if let Some(words) = choice_words {
+                    assumptions.insert(Arc::from(words));
+                }
+                if let Some(words) =
+                    truncated.filter(|_| self.options.propagation == Propagation::MonteCarlo)
+                {
                     assumptions.insert(Arc::from(words));
                 }
                 // The value itself, in the unit people read it in (an axis was given in

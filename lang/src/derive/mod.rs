@@ -25,6 +25,7 @@ mod select;
 mod set;
 pub mod sources;
 mod summary;
+pub mod truncation;
 pub mod validity;
 pub mod value;
 

@@ -1,0 +1,157 @@
+//! A measurement whose uncertainty reaches past its quantity's valid range (an eccentricity
+//! of `0.2 ± 0.3`, a weak amplitude of `1.5 ± 1.2 m/s`): its draws are kept inside the range
+//! ([`super::value::draw`] draws again those that fall outside), so what is sampled is the
+//! stated distribution truncated to the range, whose median is not the declared value. This
+//! computes how much of the stated distribution lies outside and the truncated median, in
+//! closed form, so that the note saying so gives the numbers.
+
+use crate::model::{Form, Measurement};
+
+/// The shares of a measurement's stated distribution below `lo` and above `hi`, and the
+/// median of that distribution truncated to `[lo, hi]`. `v +a/-b` is the two-piece normal of
+/// [`super::value::draw`] (median `v`, `b` below and `a` above); `None` for an exact value
+/// or a limit, or when nothing lies outside.
+pub fn truncation(m: &Measurement, lo: f64, hi: f64) -> Option<(f64, f64, f64)> {
+    if !matches!(m.form, Form::Symmetric | Form::Asymmetric) {
+        return None;
+    }
+    let cdf = |x: f64| {
+        if x.is_infinite() {
+            return if x > 0.0 { 1.0 } else { 0.0 };
+        }
+        let s = if x < m.value { m.below } else { m.above };
+        if s > 0.0 {
+            phi((x - m.value) / s)
+        } else if x < m.value {
+            0.0
+        } else {
+            1.0
+        }
+    };
+    let (below, above) = (cdf(lo), 1.0 - cdf(hi));
+    let outside = below + above;
+    if !(outside > 0.0 && outside < 1.0) {
+        return None;
+    }
+    // The truncated median: where the stated distribution function reaches halfway between
+    // its values at the two ends of the range.
+    let target = below + 0.5 * (1.0 - outside);
+    let median = if target < 0.5 {
+        m.value + m.below * probit(target)
+    } else {
+        m.value + m.above * probit(target)
+    };
+    Some((below, above, median))
+}
+
+/// The standard normal distribution function.
+fn phi(z: f64) -> f64 {
+    0.5 * libm::erfc(-z / std::f64::consts::SQRT_2)
+}
+
+/// Its inverse, by bisection (once per declared value, so speed does not matter).
+fn probit(p: f64) -> f64 {
+    let (mut lo, mut hi) = (-40.0f64, 40.0f64);
+    for _ in 0..200 {
+        let mid = 0.5 * (lo + hi);
+        if phi(mid) < p {
+            lo = mid;
+        } else {
+            hi = mid;
+        }
+    }
+    0.5 * (lo + hi)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn m(value: f64, below: f64, above: f64) -> Measurement {
+        Measurement {
+            value,
+            below,
+            above,
+            form: if below == above {
+                Form::Symmetric
+            } else {
+                Form::Asymmetric
+            },
+        }
+    }
+
+    #[test]
+    fn an_eccentricity_reaching_below_zero_is_truncated_with_its_median_moved() {
+        // e = 0.2 ± 0.3 in [0, 1]: P(e < 0) = Phi(-2/3) = 0.2525 and P(e > 1) = 1 - Phi(8/3)
+        // = 0.0038 (standard normal table); the truncated median solves
+        // Phi((x - 0.2)/0.3) = 0.2525 + (1 - 0.2563)/2, i.e. x = 0.2 + 0.3 * 0.3163 = 0.2949.
+        let (below, above, median) = truncation(&m(0.2, 0.3, 0.3), 0.0, 1.0).unwrap();
+        assert!((below - 0.2525).abs() < 1e-4, "{below}");
+        assert!((above - 0.0038).abs() < 1e-4, "{above}");
+        assert!((median - 0.2949).abs() < 2e-4, "{median}");
+    }
+
+    #[test]
+    fn the_closed_form_median_is_that_of_the_draws() {
+        // The draws of `value::draw` (outside draws drawn again) have the median computed
+        // here, asymmetric sides included.
+        for meas in [m(0.2, 0.3, 0.3), m(0.3, 0.25, 0.4), m(0.05, 0.02, 0.09)] {
+            let (_, _, median) = truncation(&meas, 0.0, 1.0).unwrap();
+            let mut d = super::super::value::draw(&meas, 0.0, 1.0, 200_001, 7).to_vec();
+            d.sort_by(f64::total_cmp);
+            let drawn = d[100_000];
+            assert!(
+                (drawn - median).abs() < 0.01 * (meas.below + meas.above),
+                "{meas:?}: {drawn} against {median}"
+            );
+        }
+    }
+
+    #[test]
+    fn the_note_and_the_assumption_say_what_is_sampled() {
+        use crate::quantities::Qty;
+        let src = "system \"Quessa\" {\n  star q { mass = 0.90 ± 0.03 Msun; radius = 0.85 ± 0.03 Rsun }\n  planet b orbits q { period = 5.2 ± 0.001 d; rv_amplitude = 25 ± 3 m/s; eccentricity = 0.2 ± 0.3 }\n}\n";
+        let mc = crate::analyze(crate::source::FileId(0), src, &crate::Settings::default());
+        let notes: Vec<&str> = mc
+            .diagnostics
+            .iter()
+            .filter(|d| d.rule == crate::diagnostic::Rule::Truncated)
+            .map(|d| d.message.as_str())
+            .collect();
+        assert_eq!(
+            notes,
+            ["b.eccentricity = 0.20 ± 0.30 puts 25.6% of its probability below 0, outside the range it can take: sampled values are kept inside it, so their median is 0.30, not 0.20"]
+        );
+        // What rests on it says how the eccentricity was sampled.
+        let min_mass = mc.results[0].bodies[1].get(Qty::MinMass).unwrap();
+        assert!(
+            min_mass
+                .assumptions
+                .iter()
+                .any(|a| a.contains("sampled inside its valid range")
+                    && a.contains("median is 0.30")),
+            "{:?}",
+            min_mass.assumptions
+        );
+        // Within 2.5 % outside, nothing is said: 0.2 ± 0.1 puts 2.3 % below 0.
+        let near = src.replace("0.2 ± 0.3", "0.2 ± 0.1");
+        let a = crate::analyze(crate::source::FileId(0), &near, &crate::Settings::default());
+        assert!(a
+            .diagnostics
+            .iter()
+            .all(|d| d.rule != crate::diagnostic::Rule::Truncated));
+    }
+
+    #[test]
+    fn nothing_outside_or_nothing_to_truncate_gives_none() {
+        // Far inside the range: the share outside underflows to nothing.
+        assert!(truncation(&m(5.0, 0.001, 0.001), 0.0, f64::INFINITY).is_none());
+        let exact = Measurement {
+            value: 0.2,
+            below: 0.0,
+            above: 0.0,
+            form: Form::Exact,
+        };
+        assert!(truncation(&exact, 0.0, 1.0).is_none());
+    }
+}
