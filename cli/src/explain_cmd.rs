@@ -12,8 +12,21 @@ pub fn run(
     flags: &Layer,
     read: files::ReadArgs,
 ) -> u8 {
-    let Some((body, qty)) = target.split_once('.') else {
-        eprintln!("syz: expected BODY.QUANTITY, such as b.density, found '{target}'");
+    // `SYSTEM/BODY.QUANTITY`, as `--set` takes it, names the system too.
+    let (named, rest) = match target.rsplit_once('/') {
+        Some((sys, rest)) => (Some(sys), rest),
+        None => (None, target),
+    };
+    let system = match (named, system) {
+        (Some(a), Some(b)) if a != b => {
+            eprintln!("syz: '{target}' names system \"{a}\", but --system names \"{b}\"");
+            return 2;
+        }
+        (Some(a), _) => Some(a),
+        (None, b) => b,
+    };
+    let Some((body, qty)) = rest.split_once('.') else {
+        eprintln!("syz: expected BODY.QUANTITY (or SYSTEM/BODY.QUANTITY), such as b.density, found '{target}'");
         return 2;
     };
     let one = match files::one_body(file, system, body, flags, read) {

@@ -475,6 +475,33 @@ pub fn one_body(
     let (Some(analysis), Some(settings)) = (analyses.pop(), settings.into_iter().next()) else {
         return Err((2, format!("{}: nothing to read", file.display())));
     };
+    // A body of that id in several systems: which one is meant is not for `syz` to guess.
+    if system.is_none() {
+        let holding: Vec<String> = analysis
+            .model
+            .systems
+            .iter()
+            .filter(|s| s.body(body).is_some())
+            .map(|s| format!("\"{}\"", s.name))
+            .collect();
+        if holding.len() > 1 {
+            let shown: Vec<String> = holding.iter().take(4).cloned().collect();
+            let more = if holding.len() > 4 {
+                format!(" and {} more", holding.len() - 4)
+            } else {
+                String::new()
+            };
+            return Err((
+                2,
+                format!(
+                    "'{body}' names a body of several systems of {}: {}{more}; name the system with --system {}",
+                    file.display(),
+                    shown.join(", "),
+                    shown.first().map_or("NAME", |s| s.as_str())
+                ),
+            ));
+        }
+    }
     let Some((system, body_index)) = syzygy::report::find_body(&analysis, system, body) else {
         let past = analysis.model.systems.iter().find(|s| {
             system.is_none_or(|n| n == s.name) && s.not_read.iter().any(|(n, _)| n == body)

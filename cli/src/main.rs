@@ -272,7 +272,10 @@ enum Command {
     Explain {
         /// The *.syz file.
         file: PathBuf,
-        /// BODY.QUANTITY, for example `b.density` or `veyra.luminosity`.
+        /// [SYSTEM/]BODY.QUANTITY, for example `b.density`, `veyra.luminosity` or
+        /// `Veyra/b.density` (the system, when several systems of the file have a body of
+        /// that name).
+        #[arg(value_name = "[SYSTEM/]BODY.QUANTITY")]
         target: String,
         /// The system, when several systems of the file have a body of that name.
         #[arg(long)]

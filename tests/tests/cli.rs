@@ -259,3 +259,39 @@ fn compact_json_is_the_same_document_on_one_line() {
     let c: serde_json::Value = serde_json::from_str(&c).unwrap();
     assert_eq!(p, c);
 }
+
+/// A body id found in several systems of the file is not guessed: `explain` names the
+/// systems and asks for one, which `--system` or `SYSTEM/BODY.QUANTITY` gives (invented
+/// systems).
+#[test]
+fn explain_asks_which_system_when_a_body_is_in_several() {
+    let dir = scratch("explain-ambiguous");
+    let file = dir.join("two.syz");
+    std::fs::write(
+        &file,
+        "system \"Pellicor\" {\n  star p { mass = 0.9 ± 0.03 Msun }\n  planet b orbits p { period = 3 ± 0.01 d; rv_amplitude = 20 ± 2 m/s }\n}\nsystem \"Nodrey\" {\n  star n { mass = 1.1 ± 0.03 Msun }\n  planet b orbits n { period = 9 ± 0.01 d; rv_amplitude = 9 ± 1 m/s }\n}\n",
+    )
+    .unwrap();
+    let f = file.to_str().unwrap();
+    let o = run(&["explain", f, "b.min_mass"]);
+    assert_eq!(o.status.code(), Some(2), "{}", stdout(&o));
+    let e = stderr(&o);
+    assert!(
+        e.contains("'b' names a body of several systems") && e.contains("\"Pellicor\", \"Nodrey\""),
+        "{e}"
+    );
+    // Either way of naming the system explains Nodrey's planet, and says so.
+    for args in [
+        vec!["explain", f, "Nodrey/b.min_mass"],
+        vec!["explain", f, "b.min_mass", "--system", "Nodrey"],
+    ] {
+        let o = run(&args);
+        assert_eq!(o.status.code(), Some(0), "{args:?}: {}", stderr(&o));
+        assert!(stdout(&o).contains("n.mass"), "{args:?}: {}", stdout(&o));
+        assert!(!stdout(&o).contains("p.mass"), "{args:?}: {}", stdout(&o));
+    }
+    // The two ways must agree.
+    let o = run(&["explain", f, "Nodrey/b.min_mass", "--system", "Pellicor"]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stderr(&o).contains("but --system names"), "{}", stderr(&o));
+}
