@@ -106,8 +106,16 @@ impl<'m> Derivation<'m> {
             .find_map(|k| self.declared_span(*k))
             .or_else(|| involved.iter().find_map(|k| self.declared_span(*k)))
             .unwrap_or_default();
-        let mut d = Diagnostic::new(Rule::Inconsistent, span, message)
-            .with_help("check the units and the sources of these measurements; one of them may belong to another body or epoch");
+        // The declared one of the two, off by the ratio of two units (a mass in Mearth meant
+        // as Mjup falls below the minimum mass 318 times over).
+        let slip = match (s.rule, l.rule) {
+            (None, _) => super::slips::unit_slip(small.1, s.value.nominal, l.value.nominal),
+            (_, None) => super::slips::unit_slip(large.1, l.value.nominal, s.value.nominal),
+            _ => None,
+        };
+        let mut d = Diagnostic::new(Rule::Inconsistent, span, message).with_help(
+            slip.unwrap_or_else(|| "check the units and the sources of these measurements; one of them may belong to another body or epoch".to_string()),
+        );
         if let Some(n) = self.shared(unit, &s.value, &l.value, sigma) {
             d = d.with_note(n);
         }
@@ -224,8 +232,14 @@ impl<'m> Derivation<'m> {
             .or_else(|| involved.iter().find_map(|k| self.declared_span(*k)))
             .or_else(|| body.map(|b| b.name_span))
             .unwrap_or_default();
-        let mut d = Diagnostic::new(Rule::Inconsistent, span, message)
-            .with_help("check the units and the sources of these measurements; one of them may belong to another body or epoch");
+        // A declared value off by the ratio of two units says which (318 times: Mearth
+        // written for Mjup); else the general advice.
+        let slip = (entry.rule.is_none())
+            .then(|| super::slips::unit_slip(key.1, entry.value.nominal, c.value.nominal))
+            .flatten();
+        let mut d = Diagnostic::new(Rule::Inconsistent, span, message).with_help(
+            slip.unwrap_or_else(|| "check the units and the sources of these measurements; one of them may belong to another body or epoch".to_string()),
+        );
         if let Some(r) = rule {
             d = d.with_note(format!("{}: {}", r.id, r.formula));
         }

@@ -23,6 +23,7 @@ mod rounds;
 pub mod rules;
 mod select;
 mod set;
+mod slips;
 pub mod sources;
 mod summary;
 pub mod truncation;
