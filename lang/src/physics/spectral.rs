@@ -111,6 +111,16 @@ pub fn parse(text: &str) -> Result<SpectralType, String> {
             "'{text}' has unexpected text '{tail}' after the type"
         ));
     }
+    // A class in lower case (`k2v`) would pass for a peculiarity flag and leave the type
+    // without a class: said, with the spelling of MK types.
+    let first = tail.split_whitespace().next().unwrap_or("");
+    if lum.is_empty() && matches!(first, "i" | "ii" | "iii" | "iv" | "v" | "vi") {
+        let digits_shown = digits.as_str();
+        return Err(format!(
+            "'{text}' writes its luminosity class in lower case; spectral types write it in capitals: '{class}{digits_shown}{}'",
+            first.to_ascii_uppercase()
+        ));
+    }
     let lum = lum.trim_end_matches(['-', '/']);
     let lum = lum.trim_end_matches(['a', 'b']);
     let lum_class = if lum.is_empty() {
@@ -451,6 +461,21 @@ mod tests {
         assert!(matches!(estimate("K1IV-V"), Err(Refusal::NotADwarf(_))));
         assert!(matches!(estimate("B2Ia"), Err(Refusal::NotADwarf(_))));
         assert_eq!(estimate("G5"), Err(Refusal::NoLuminosityClass));
+        // A class in lower case is not taken for a missing one: the spelling is said.
+        assert_eq!(
+            estimate("k2v"),
+            Err(Refusal::Unreadable(
+                "'k2v' writes its luminosity class in lower case; spectral types write it in capitals: 'K2V'".into()
+            ))
+        );
+        assert!(
+            matches!(estimate("G8 iii"), Err(Refusal::Unreadable(w)) if w.ends_with("'G8III'"))
+        );
+        // A peculiarity flag stays one.
+        assert_eq!(
+            estimate("K2Ve").map(|(t, _)| t.luminosity_class),
+            Ok(Some("V".into()))
+        );
         assert_eq!(estimate("B5V"), Err(Refusal::OutsideTable));
         assert!(matches!(estimate("hot"), Err(Refusal::Unreadable(_))));
     }

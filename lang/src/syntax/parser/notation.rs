@@ -35,6 +35,19 @@ impl Cursor<'_> {
         let written = self.src.get(unit.start..n.end)?;
         let exponent = self.text(*n);
         let symbol = self.text(*unit);
+        // `ms-1` is how metres per second are written where spaces are dropped; `ms` here is
+        // the millisecond, so `ms^-1` would be a frequency.
+        if symbol == "ms" && exponent == "1" {
+            return Some(
+                Diagnostic::new(
+                    Rule::Syntax,
+                    at,
+                    format!("`{written}` reads as a subtraction, not as a unit with an exponent"),
+                )
+                .with_help("for metres per second write `m/s` (`ms` is the millisecond)")
+                .with_fix(at, "m/s".to_string()),
+            );
+        }
         Some(
             Diagnostic::new(
                 Rule::Syntax,

@@ -522,6 +522,12 @@ fn an_exponent_without_a_caret_gets_the_unit_rewritten() {
     assert!(h.contains("`s^-1`"), "{h}");
     let h = help_of("1.33 g cm-3").unwrap();
     assert!(h.contains("`cm^-3`"), "{h}");
+    // `ms-1` means metres per second: `ms^-1` (per millisecond) would be another error.
+    let h = help_of("45 ± 3 ms-1").unwrap();
+    assert_eq!(
+        h,
+        "for metres per second write `m/s` (`ms` is the millisecond)"
+    );
     // A subtraction of a name that is no unit, or with spaces, is left to the grammar.
     for value in ["2 * b.mass - 1", "x-1", "3 km - 1 km", "d-1"] {
         let src = format!("system \"S\" {{ star s {{ x = {value} }} }}");
