@@ -27,10 +27,12 @@ pub(super) fn default_for(q: Qty) -> Option<(f64, &'static str)> {
 /// An input asymmetric by this factor or more is skewed: first order does not describe it.
 const SKEWED_RATIO: f64 = 1.5;
 
-/// The share of a measurement's stated distribution outside its quantity's range from which
-/// the truncation is noted: about a two-sigma reach (2.3 % on one side); below it, the
-/// median moves by less than a tenth of the uncertainty.
-const TRUNCATED_SHARE: f64 = 0.025;
+/// How far, in its uncertainty on that side, the truncation of a measurement to its
+/// quantity's range must move its median to be noted: a tenth, about where the two digits
+/// every output shows of an uncertainty would see it (an eccentricity of `0.05 ± 0.03`,
+/// 4.8 % of it below 0, moves by 0.07 of its uncertainty and is not noted; `0.2 ± 0.3`
+/// moves by 0.32).
+const TRUNCATED_SHIFT: f64 = 0.1;
 /// The factor is compared to a part in 10^4, so that one measurement written in another unit
 /// (`0.88 +0.03/-0.02 Rsun` as `95.9872 +3.27229/-2.18153 Rearth`, a ratio of 1.499998) is
 /// classed alike.
@@ -39,6 +41,23 @@ const RATIO_TOLERANCE: f64 = 1e-4;
 impl<'m> Derivation<'m> {
     /// A new input of the engine: `key` is the quantity it is the value of (`None` for a
     /// literal in an expression or a prediction's scatter, which are always sampled).
+    /// A standard normal input (mean 0, standard deviation 1) shared by the values that
+    /// scale it: a relation's scatter, a spectral type's subtype.
+    pub(super) fn unit_normal(&mut self, label: String) -> Value {
+        self.new_input(
+            None,
+            label,
+            &Measurement {
+                value: 0.0,
+                below: 1.0,
+                above: 1.0,
+                form: Form::Symmetric,
+            },
+            f64::NEG_INFINITY,
+            f64::INFINITY,
+        )
+    }
+
     pub(super) fn new_input(
         &mut self,
         key: Option<Key>,
@@ -102,9 +121,10 @@ impl<'m> Derivation<'m> {
         }
     }
 
-    /// A note on a measurement whose uncertainty puts more than [`TRUNCATED_SHARE`] of its
-    /// stated distribution outside its quantity's range, and the words of the assumption
-    /// that says how it is sampled ([`super::truncation`]).
+    /// A note on a measurement whose uncertainty puts enough of its stated distribution
+    /// outside its quantity's range to move the median by [`TRUNCATED_SHIFT`] of its
+    /// uncertainty, and the words of the assumption that says how it is sampled
+    /// ([`super::truncation`]).
     fn truncated_note(
         &mut self,
         label: &str,
@@ -115,7 +135,8 @@ impl<'m> Derivation<'m> {
         let (lo, hi) = quantities::def(qty).limits();
         let (below, above, median) = super::truncation::truncation(m, lo, hi)?;
         let outside = below + above;
-        if outside < TRUNCATED_SHARE {
+        let side = if median >= m.value { m.above } else { m.below };
+        if (median - m.value).abs() < TRUNCATED_SHIFT * side {
             return None;
         }
         let unit = summary::display_unit(qty, m.value);
@@ -577,6 +598,10 @@ impl<'m> Derivation<'m> {
                 return;
             }
         };
+        // One standard-normal input for the subtype, shared by the estimates (a star one
+        // subtype later is cooler, smaller and lighter together), and one for each
+        // estimate's own intrinsic spread: the three are correlated as the table makes them.
+        let subtype = self.unit_normal(format!("{}.spectral_type (±1 subtype)", body.id));
         for q in wanted {
             let e = match q {
                 Qty::Teff => est.teff,
@@ -587,13 +612,24 @@ impl<'m> Derivation<'m> {
             let def = quantities::def(q);
             let m = Measurement {
                 value: e.value,
-                below: e.sigma,
-                above: e.sigma,
+                below: e.intrinsic,
+                above: e.intrinsic,
                 form: Form::Symmetric,
             };
             let (lo, hi) = def.limits();
             let label = format!("{}.{}", body.id, def.name);
-            let v = self.new_input(Some((bi, q)), label, &m, lo, hi);
+            let own = self.new_input(Some((bi, q)), label, &m, lo, hi);
+            let step = e.per_subtype;
+            let Some(v) = value::apply(
+                &|x: &[f64]| match x {
+                    [own, z] => Some(own + step * z).filter(|v| *v > lo && *v < hi),
+                    _ => None,
+                },
+                &[&own, &subtype],
+                &self.inputs,
+            ) else {
+                continue;
+            };
             let f = unit.factor;
             let words = format!(
                 "{}.{} = {} {unit} estimated from spectral type {text} ({}; {})",

@@ -299,18 +299,7 @@ impl Derivation<'_> {
         };
         let body = self.sys.bodies.get(out.0).map_or("?", |b| b.id.as_str());
         let label = format!("{body}.{} scatter", quantities::def(out.1).name);
-        let z = self.new_input(
-            None,
-            label,
-            &Measurement {
-                value: 0.0,
-                below: 1.0,
-                above: 1.0,
-                form: Form::Symmetric,
-            },
-            f64::NEG_INFINITY,
-            f64::INFINITY,
-        );
+        let z = self.unit_normal(label);
         let widen = move |x: &[f64]| match x {
             [v, z] => Some(v * 10f64.powf(z * sigma)),
             _ => None,

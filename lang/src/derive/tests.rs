@@ -1693,3 +1693,31 @@ fn many_bindings_are_sampled_within_the_budget() {
     );
     assert_eq!(p.precision.map(|x| x.samples), Some(most));
 }
+
+#[test]
+fn estimates_from_one_spectral_type_move_together() {
+    // Mass, radius and Teff read from one spectral type share the table's change over a
+    // subtype (a later type is lighter and smaller at once) and keep their intrinsic spreads
+    // apart. First order then gives log g = log10(G M / R^2) the uncertainty
+    // (1/ln 10) sqrt((s_M/M - 2 s_R/R)^2 + (i_M/M)^2 + (2 i_R/R)^2), with s the shared
+    // change and i the intrinsic spread (propagation of uncertainty, common practice),
+    // smaller than if the three were independent.
+    let (_, est) = crate::spectral::estimate("M3.5V").unwrap();
+    let (m, r) = (est.mass, est.radius);
+    let shared = m.per_subtype / m.value - 2.0 * r.per_subtype / r.value;
+    let own = ((m.intrinsic / m.value).powi(2) + (2.0 * r.intrinsic / r.value).powi(2)).sqrt();
+    let expect = (shared.powi(2) + own.powi(2)).sqrt() / std::f64::consts::LN_10;
+    let independent = ((m.sigma / m.value).powi(2) + (2.0 * r.sigma / r.value).powi(2)).sqrt()
+        / std::f64::consts::LN_10;
+    let a = run(
+        "system \"Ketch\" {\n  star k { spectral_type = \"M3.5V\" }\n}\n",
+        &Options::linear(),
+    );
+    let logg = get(&a, "k", Qty::LogG).unwrap();
+    let sigma = (logg.below + logg.above) / 2.0;
+    assert!(
+        (sigma / expect - 1.0).abs() < 1e-4,
+        "{sigma} against {expect}"
+    );
+    assert!(sigma < 0.6 * independent, "{sigma} against {independent}");
+}

@@ -257,6 +257,13 @@ pub fn dwarf_at(index: f64) -> Option<DwarfRow> {
 pub struct Estimate {
     pub value: f64,
     pub sigma: f64,
+    /// The change of the value over one subtype later (half the difference between the
+    /// values one subtype later and one earlier; signed, SI): the part of `sigma` that
+    /// Teff, radius and mass share, since a star one subtype later is cooler, smaller and
+    /// lighter at once.
+    pub per_subtype: f64,
+    /// The independent part of `sigma`, the intrinsic spread (SI).
+    pub intrinsic: f64,
 }
 
 /// Teff (K), radius (m) and mass (kg) of a mean dwarf of this type, with the widened
@@ -269,7 +276,7 @@ pub struct DwarfEstimate {
 }
 
 /// How the uncertainty of an estimate is made, in words (shown with every estimate).
-pub const UNCERTAINTY_WORDS: &str = "uncertainty: the table's change over ±1 subtype added in quadrature to an intrinsic spread of 2% (Teff) or 10% (radius, mass)";
+pub const UNCERTAINTY_WORDS: &str = "uncertainty: the table's change over ±1 subtype, shared by Teff, radius and mass (one subtype later is cooler, smaller and lighter at once), added in quadrature to an independent intrinsic spread of 2% (Teff) or 10% (radius, mass)";
 
 /// Why a spectral type gives no estimate.
 #[derive(Debug, Clone, PartialEq)]
@@ -315,12 +322,21 @@ pub fn estimate(text: &str) -> Result<(SpectralType, DwarfEstimate), Refusal> {
     let last = DWARF_SEQUENCE.last().map_or(i, |r| r.index);
     let lo = dwarf_at((i - 1.0).max(first)).unwrap_or(mid);
     let hi = dwarf_at((i + 1.0).min(last)).unwrap_or(mid);
+    // `a` one subtype earlier, `b` one later.
     let est = |v: f64, a: f64, b: f64, floor: f64| {
-        let step = (a - b).abs() / 2.0;
+        let step = (b - a) / 2.0;
         Estimate {
             value: v,
             sigma: (step * step + (floor * v).powi(2)).sqrt(),
+            per_subtype: step,
+            intrinsic: floor * v,
         }
+    };
+    let scaled = |e: Estimate, f: f64| Estimate {
+        value: e.value * f,
+        sigma: e.sigma * f,
+        per_subtype: e.per_subtype * f,
+        intrinsic: e.intrinsic * f,
     };
     let teff = est(mid.teff_k, lo.teff_k, hi.teff_k, 0.02);
     let radius = est(mid.radius_rsun, lo.radius_rsun, hi.radius_rsun, 0.10);
@@ -329,14 +345,8 @@ pub fn estimate(text: &str) -> Result<(SpectralType, DwarfEstimate), Refusal> {
         st,
         DwarfEstimate {
             teff,
-            radius: Estimate {
-                value: radius.value * R_SUN,
-                sigma: radius.sigma * R_SUN,
-            },
-            mass: Estimate {
-                value: mass.value * M_SUN,
-                sigma: mass.sigma * M_SUN,
-            },
+            radius: scaled(radius, R_SUN),
+            mass: scaled(mass, M_SUN),
         },
     ))
 }
