@@ -45,6 +45,7 @@ pub struct CompositionNote {
 pub fn run(d: &Derivation, diags: &mut Vec<Diagnostic>) -> Vec<CompositionNote> {
     let mut notes = Vec::new();
     for (bi, body) in d.sys.bodies.iter().enumerate() {
+        exact::exact_measurements(d, bi, diags);
         match body.kind {
             BodyKind::Planet => {
                 if let Some(n) = composition_check(d, bi, diags) {
@@ -650,6 +651,7 @@ fn plausible_star(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
     );
 }
 
+mod exact;
 mod idle;
 #[cfg(test)]
 mod tests;

@@ -93,6 +93,7 @@ rules! {
     InvalidValue = "invalid-value", Error, "A number that is not finite, or an expression that cannot be evaluated.";
     Inconsistent = "inconsistent", Warning, "A declared value disagrees with the value derived from other measurements.";
     SourcesDisagree = "sources-disagree", Warning, "Two declarations of one quantity, from different sources, disagree.";
+    NoUncertainty = "no-uncertainty", Note, "A measured quantity is declared without an uncertainty, so what is derived from it looks more precise than the data are.";
     Truncated = "truncated", Note, "An uncertainty reaches past the quantity's valid range: sampled values are kept inside it, which moves their median.";
     NotDerivable = "not-derivable", Note, "A quantity could not be derived because an input is missing or unusable.";
     CombinedUncertainty = "combined-uncertainty", Note, "Several uncertainties given for one value are combined in quadrature.";

@@ -496,3 +496,39 @@ fn measurements_idle_for_want_of_the_star_s_mass_say_so() {
         a.diagnostics
     );
 }
+
+#[test]
+fn measurements_without_an_uncertainty_among_others_with_one_are_noted_once_per_body() {
+    // Invented: the star's radius and temperature lost their uncertainties, the planet's
+    // values kept theirs.
+    let src = "system \"Orwen\" {\n  star o { mass = 1.05 ± 0.04 Msun; radius = 1.02 Rsun; teff = 5900 K }\n  planet b orbits o { period = 3.3 ± 0.0001 d; transit_depth = 0.9 ± 0.03 % }\n}\n";
+    let a = run(src);
+    let notes: Vec<_> = a
+        .diagnostics
+        .iter()
+        .filter(|d| d.rule == Rule::NoUncertainty)
+        .collect();
+    assert_eq!(notes.len(), 1, "{:?}", a.diagnostics);
+    assert!(
+        notes[0].message.starts_with(
+            "o.radius and o.teff are declared without an uncertainty: each is taken as exact"
+        ),
+        "{}",
+        notes[0].message
+    );
+    assert_eq!(notes[0].labels.len(), 1);
+    // Marked `assumed`: meant as written.
+    let assumed = src
+        .replace("1.02 Rsun;", "1.02 Rsun assumed;")
+        .replace("5900 K", "5900 K assumed");
+    assert!(run(&assumed)
+        .diagnostics
+        .iter()
+        .all(|d| d.rule != Rule::NoUncertainty));
+    // A system with no uncertainty anywhere is a sketch: nothing said.
+    let sketch = "system \"Orwen\" {\n  star o { mass = 1.05 Msun; radius = 1.02 Rsun; teff = 5900 K }\n  planet b orbits o { period = 3.3 d; transit_depth = 0.9 % }\n}\n";
+    assert!(run(sketch)
+        .diagnostics
+        .iter()
+        .all(|d| d.rule != Rule::NoUncertainty));
+}
