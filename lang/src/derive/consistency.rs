@@ -244,6 +244,28 @@ impl<'m> Derivation<'m> {
             d = d.with_note(format!("{}: {}", r.id, r.formula));
         }
         if let Some(n) = self.shared(unit, &entry.value, &c.value, sigma) {
+            // Where two routes share most inputs, the disagreement comes from the
+            // measurements only one of them uses: name them, so that two nearly equal
+            // numbers far apart in sigma point to what to check.
+            let mine = self.declared_deps(&entry.deps);
+            let mut theirs = self.declared_deps(&c.deps);
+            theirs.remove(&key);
+            let only = |a: &SortedSet<Key>, b: &SortedSet<Key>| -> Vec<String> {
+                a.iter()
+                    .filter(|k| !b.contains(k))
+                    .map(|k| self.key_name(*k))
+                    .collect()
+            };
+            let (first, second) = (only(&mine, &theirs), only(&theirs, &mine));
+            let n = if first.is_empty() || second.is_empty() {
+                n
+            } else {
+                format!(
+                    "{n}; it comes from the measurements the two routes do not share: {} against {}",
+                    crate::text::and_list(&first),
+                    crate::text::and_list(&second)
+                )
+            };
             d = d.with_note(n);
         }
         self.grade(&mut d, z);

@@ -1721,3 +1721,30 @@ fn estimates_from_one_spectral_type_move_together() {
     );
     assert!(sigma < 0.6 * independent, "{sigma} against {independent}");
 }
+
+#[test]
+fn two_nearly_equal_routes_far_apart_in_sigma_name_what_they_do_not_share() {
+    // Invented: the planet's mass written in Mearth where Mjup was meant. The transiting
+    // planet's axis from the amplitude and the axis from the declared mass differ by 3e-4 of
+    // their value, many sigma of a difference whose shared inputs cancel; the note names
+    // the measurements behind it.
+    let src = "system \"Tamberly\" {\n  star t { mass = 1.10 ± 0.04 Msun; radius = 1.15 ± 0.04 Rsun }\n  planet b orbits t {\n    period = 4.40 ± 0.0001 d\n    rv_amplitude = 120 ± 5 m/s\n    mass = 1.05 ± 0.05 Mearth\n    transit_depth = 0.95 ± 0.04 %\n    impact = 0.3 ± 0.1\n  }\n}\n";
+    let a = run(src, &Options::linear());
+    let axis = a
+        .diagnostics
+        .iter()
+        .find(|d| {
+            d.rule == crate::diagnostic::Rule::Inconsistent
+                && d.message.starts_with("b.semi_major_axis")
+        })
+        .unwrap_or_else(|| panic!("{:?}", a.diagnostics));
+    let note = axis
+        .notes
+        .iter()
+        .find(|n| n.starts_with("the two share inputs"))
+        .unwrap_or_else(|| panic!("{:?}", axis.notes));
+    assert!(
+        note.ends_with("it comes from the measurements the two routes do not share: t.radius, b.impact and b.rv_amplitude against b.mass"),
+        "{note}"
+    );
+}
