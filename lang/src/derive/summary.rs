@@ -377,6 +377,13 @@ impl<'m> Derivation<'m> {
                 sampled = Some(words);
                 (v, 0.0, 0.0, form)
             }
+            // An estimate from a spectral type is an input, shown as it is defined (the
+            // table's value and widened uncertainty, as its assumption line says), not as a
+            // summary of its draws, which differs in the last digit.
+            _ if entry.origin == Origin::Estimated => {
+                let (lo, hi) = entry.value.linear_spread(&self.inputs);
+                (entry.value.nominal, lo, hi, Form::Symmetric)
+            }
             _ => {
                 let (lo, hi) = entry.value.linear_spread(&self.inputs);
                 match (self.options.propagation, entry.value.sample_summary()) {

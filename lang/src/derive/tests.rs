@@ -1748,3 +1748,35 @@ fn two_nearly_equal_routes_far_apart_in_sigma_name_what_they_do_not_share() {
         "{note}"
     );
 }
+
+#[test]
+fn an_estimate_is_shown_as_defined_in_monte_carlo_too() {
+    // Not the median of its draws, which differs in the last digit from the value and
+    // uncertainty its assumption line gives.
+    let (_, est) = crate::spectral::estimate("K3V").unwrap();
+    let a = run(
+        "system \"Thale\" {\n  star t { spectral_type = \"K3V\" }\n}\n",
+        &Options::default(),
+    );
+    for (q, e) in [
+        (Qty::StarMass, est.mass),
+        (Qty::StarRadius, est.radius),
+        (Qty::Teff, est.teff),
+    ] {
+        let r = get(&a, "t", q).unwrap();
+        assert_eq!(r.origin, Origin::Estimated);
+        assert!(
+            (r.value / e.value - 1.0).abs() < 1e-12,
+            "{q:?}: {} against {}",
+            r.value,
+            e.value
+        );
+        for side in [r.below, r.above] {
+            assert!(
+                (side / e.sigma - 1.0).abs() < 1e-6,
+                "{q:?}: {side} against {}",
+                e.sigma
+            );
+        }
+    }
+}
