@@ -63,13 +63,49 @@ pub fn diagnostic(db: &dyn SourceDb, index: &LineIndex, d: &Diagnostic, color: b
     let _ = report(d, PLACEHOLDER, excerpt.range(&primary), &labels, color)
         .write((PLACEHOLDER, Source::from(excerpt.text.as_str())), &mut buf);
     let at = index.line_col(text, primary.start);
-    note_header(
+    notes_in_the_margin(
         d,
-        excerpt.with_file_positions(
-            &String::from_utf8_lossy(&buf),
-            &format!("{name}:{}:{}", at.line, at.column),
+        note_header(
+            d,
+            excerpt.with_file_positions(
+                &String::from_utf8_lossy(&buf),
+                &format!("{name}:{}:{}", at.line, at.column),
+            ),
         ),
     )
+}
+
+/// ariadne 0.4 keeps one note per report, so several are given to it as lines of one; it
+/// prints the lines after the first at the left edge, outside the report's margin. Each is
+/// given the first one's margin and `Note:` instead, as a note of its own.
+fn notes_in_the_margin(d: &Diagnostic, rendered: String) -> String {
+    let [first, rest @ ..] = d.notes.as_slice() else {
+        return rendered;
+    };
+    if rest.is_empty() {
+        return rendered;
+    }
+    let mut out = String::with_capacity(rendered.len() + 64 * rest.len());
+    let mut prefix: Option<String> = None;
+    let mut pending = rest.iter();
+    let mut next = pending.next();
+    for line in rendered.split_inclusive('\n') {
+        let text = line.trim_end_matches('\n');
+        match (&prefix, next) {
+            (Some(p), Some(note)) if text == note.as_str() => {
+                out.push_str(p);
+                out.push_str(line);
+                next = pending.next();
+                continue;
+            }
+            (None, _) if text.ends_with(first.as_str()) => {
+                prefix = text.strip_suffix(first.as_str()).map(str::to_string);
+            }
+            _ => {}
+        }
+        out.push_str(line);
+    }
+    out
 }
 
 /// A note is called a note, as in every other output and in the docs: ariadne's header for
@@ -586,7 +622,30 @@ mod tests {
         let mut buf = Vec::new();
         let _ =
             report(d, name, primary, &labels, color).write((name, Source::from(text)), &mut buf);
-        note_header(d, String::from_utf8_lossy(&buf).into_owned())
+        notes_in_the_margin(
+            d,
+            note_header(d, String::from_utf8_lossy(&buf).into_owned()),
+        )
+    }
+
+    #[test]
+    fn every_note_is_in_the_margin_with_its_own_label() {
+        let src = "system \"S\" { star s { mass = 1 Msun } }\n";
+        let mut db = MemoryDb::new();
+        let f = db.add("n.syz", src);
+        let d = Diagnostic::new(
+            syzygy::diagnostic::Rule::Inconsistent,
+            syzygy::source::Span::new(f, 24, 37),
+            "message",
+        )
+        .with_note("the first note")
+        .with_note("the second note")
+        .with_note("the third note");
+        let out = diagnostic(&db, &LineIndex::new(src), &d, false);
+        for n in ["first", "second", "third"] {
+            assert!(out.contains(&format!("   │ Note: the {n} note\n")), "{out}");
+        }
+        assert!(!out.lines().any(|l| l.starts_with("the ")), "{out}");
     }
 
     #[test]

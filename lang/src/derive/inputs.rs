@@ -134,9 +134,7 @@ impl<'m> Derivation<'m> {
     ) -> Option<String> {
         let (lo, hi) = quantities::def(qty).limits();
         let (below, above, median) = super::truncation::truncation(m, lo, hi)?;
-        let outside = below + above;
-        let side = if median >= m.value { m.above } else { m.below };
-        if (median - m.value).abs() < TRUNCATED_SHIFT * side {
+        if (median - m.value).abs() < TRUNCATED_SHIFT * m.below.max(m.above) {
             return None;
         }
         let unit = summary::display_unit(qty, m.value);
@@ -154,17 +152,25 @@ impl<'m> Derivation<'m> {
             let t = crate::format::with_uncertainty(v / f, m.below / f, m.above / f);
             with_unit(t.split(' ').next().unwrap_or_default().to_string())
         };
-        let side = if below >= 0.9 * outside {
-            format!("below {}", end(lo))
-        } else if above >= 0.9 * outside {
-            format!("above {}", end(hi))
-        } else {
-            format!("outside {} to {}", end(lo), end(hi))
-        };
+        // Each tail that holds at least 0.05 %, with its own share.
+        let pct = |p: f64| crate::format::number((p * 1000.0).round() / 10.0);
+        let tails: Vec<String> = [(below, "below", lo), (above, "above", hi)]
+            .into_iter()
+            .filter(|(p, _, _)| *p >= 0.0005)
+            .enumerate()
+            .map(|(i, (p, word, at))| {
+                let lies = if i == 0 {
+                    " of its probability lies"
+                } else {
+                    ""
+                };
+                format!("{}%{lies} {word} {}", pct(p), end(at))
+            })
+            .collect();
+        let side = crate::text::and_list(&tails);
         let declared = crate::report::shown_in(m.value, m.below, m.above, m.form, unit);
-        let pct = crate::format::number((outside * 1000.0).round() / 10.0);
         let words = format!(
-            "{label} = {declared} sampled inside its valid range: {pct}% of the stated distribution lies {side}, where draws are drawn again, so the sampled median is {} (a truncated distribution)",
+            "{label} = {declared} sampled inside its valid range ({side}, drawn again there), so the sampled median is {} (a truncated distribution)",
             at_digits(median)
         );
         self.diagnostics.push(
@@ -172,7 +178,7 @@ impl<'m> Derivation<'m> {
                 Rule::Truncated,
                 span,
                 format!(
-                    "{label} = {declared} puts {pct}% of its probability {side}, outside the range it can take: sampled values are kept inside it, so their median is {}, not {}",
+                    "{label} = {declared} reaches outside the range it can take: {side}; sampled values are kept inside the range, so their median is {}, not {}",
                     at_digits(median),
                     at_digits(m.value)
                 ),

@@ -15,31 +15,60 @@ pub fn truncation(m: &Measurement, lo: f64, hi: f64) -> Option<(f64, f64, f64)> 
     if !matches!(m.form, Form::Symmetric | Form::Asymmetric) {
         return None;
     }
-    let cdf = |x: f64| {
-        if x.is_infinite() {
-            return if x > 0.0 { 1.0 } else { 0.0 };
-        }
-        let s = if x < m.value { m.below } else { m.above };
-        if s > 0.0 {
-            phi((x - m.value) / s)
-        } else if x < m.value {
-            0.0
+    let v = m.value;
+    // P(X < x) and P(X > x), strict: a side of zero width is a point mass at `v` (half the
+    // probability), which lies inside a range that ends at `v` (`0 +0.1/-0` is an
+    // eccentricity of 0 or more, none of it below 0).
+    let less = |x: f64| {
+        if x <= v {
+            if m.below > 0.0 && x.is_finite() {
+                phi((x - v) / m.below)
+            } else if m.below > 0.0 && x > 0.0 {
+                1.0
+            } else {
+                0.0
+            }
+        } else if m.above > 0.0 {
+            if x.is_finite() {
+                phi((x - v) / m.above)
+            } else {
+                1.0
+            }
         } else {
             1.0
         }
     };
-    let (below, above) = (cdf(lo), 1.0 - cdf(hi));
+    let more = |x: f64| {
+        if x >= v {
+            if m.above > 0.0 && x.is_finite() {
+                1.0 - phi((x - v) / m.above)
+            } else {
+                0.0
+            }
+        } else if m.below > 0.0 {
+            if x.is_finite() {
+                1.0 - phi((x - v) / m.below)
+            } else {
+                1.0
+            }
+        } else {
+            1.0
+        }
+    };
+    let (below, above) = (less(lo), more(hi));
     let outside = below + above;
     if !(outside > 0.0 && outside < 1.0) {
         return None;
     }
     // The truncated median: where the stated distribution function reaches halfway between
-    // its values at the two ends of the range.
+    // its values at the two ends of the range (at `v` itself where a side has no width).
     let target = below + 0.5 * (1.0 - outside);
-    let median = if target < 0.5 {
-        m.value + m.below * probit(target)
+    let median = if target < 0.5 && m.below > 0.0 {
+        v + m.below * probit(target)
+    } else if target > 0.5 && m.above > 0.0 {
+        v + m.above * probit(target)
     } else {
-        m.value + m.above * probit(target)
+        v
     };
     Some((below, above, median))
 }
@@ -120,7 +149,7 @@ mod tests {
             .collect();
         assert_eq!(
             notes,
-            ["b.eccentricity = 0.20 ± 0.30 puts 25.6% of its probability below 0, outside the range it can take: sampled values are kept inside it, so their median is 0.30, not 0.20"]
+            ["b.eccentricity = 0.20 ± 0.30 reaches outside the range it can take: 25.2% of its probability lies below 0 and 0.4% above 1; sampled values are kept inside the range, so their median is 0.30, not 0.20"]
         );
         // What rests on it says how the eccentricity was sampled.
         let min_mass = mc.results[0].bodies[1].get(Qty::MinMass).unwrap();
@@ -141,6 +170,21 @@ mod tests {
             .diagnostics
             .iter()
             .all(|d| d.rule != crate::diagnostic::Rule::Truncated));
+    }
+
+    #[test]
+    fn a_side_of_zero_width_at_the_end_of_the_range_is_inside_it() {
+        // `0 +0.1/-0`: an eccentricity of 0 or more, as papers publish e = 0; nothing of it
+        // is below 0 (the lower half is the point 0, inside the range).
+        assert!(truncation(&m(0.0, 0.0, 0.1), 0.0, 1.0).is_none());
+        // `1.0 +0/-0.2` for an albedo in [0, 1]: nothing above 1 (and 3e-7 below 0).
+        let (below, above, median) = truncation(&m(1.0, 0.2, 0.0), 0.0, 1.0).unwrap();
+        assert!(above == 0.0 && below < 1e-6 && (median - 1.0).abs() < 1e-6);
+        // Whereas `0 ± 0.1` puts half below 0, and the truncated median is
+        // 0.1 * probit(0.75) = 0.0674 (standard normal table: probit(0.75) = 0.6745).
+        let (below, _, median) = truncation(&m(0.0, 0.1, 0.1), 0.0, 1.0).unwrap();
+        assert!((below - 0.5).abs() < 1e-12, "{below}");
+        assert!((median - 0.06745).abs() < 1e-4, "{median}");
     }
 
     #[test]
