@@ -475,6 +475,39 @@ pub fn one_body(
     let (Some(analysis), Some(settings)) = (analyses.pop(), settings.into_iter().next()) else {
         return Err((2, format!("{}: nothing to read", file.display())));
     };
+    // A system named that the file does not have: say so, with the file's systems (the
+    // body may well exist in one of them).
+    if let Some(name) = system {
+        if !analysis.model.systems.iter().any(|s| s.name == name) {
+            let names: Vec<String> = analysis
+                .model
+                .systems
+                .iter()
+                .take(6)
+                .map(|s| format!("\"{}\"", s.name))
+                .collect();
+            let close = analysis
+                .model
+                .systems
+                .iter()
+                .find(|s| s.name.eq_ignore_ascii_case(name))
+                .map(|s| format!(" (\"{}\" differs only in letter case)", s.name))
+                .unwrap_or_default();
+            return Err((
+                2,
+                format!(
+                    "no system \"{name}\" in {}{close}; its systems: {}{}",
+                    file.display(),
+                    names.join(", "),
+                    if analysis.model.systems.len() > 6 {
+                        ", ..."
+                    } else {
+                        ""
+                    }
+                ),
+            ));
+        }
+    }
     // A body of that id in several systems: which one is meant is not for `syz` to guess.
     if system.is_none() {
         let holding: Vec<String> = analysis

@@ -290,6 +290,15 @@ fn explain_asks_which_system_when_a_body_is_in_several() {
         assert!(stdout(&o).contains("n.mass"), "{args:?}: {}", stdout(&o));
         assert!(!stdout(&o).contains("p.mass"), "{args:?}: {}", stdout(&o));
     }
+    // A system the file does not have is said to be missing, with the file's systems.
+    let o = run(&["explain", f, "nodrey/b.min_mass"]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        stderr(&o).contains("no system \"nodrey\"")
+            && stderr(&o).contains("\"Nodrey\" differs only in letter case"),
+        "{}",
+        stderr(&o)
+    );
     // The two ways must agree.
     let o = run(&["explain", f, "Nodrey/b.min_mass", "--system", "Pellicor"]);
     assert_eq!(o.status.code(), Some(2));

@@ -42,12 +42,12 @@ pub(super) fn exact_measurements(d: &Derivation, bi: usize, diags: &mut Vec<Diag
     };
     // A system written without any uncertainty is a sketch on purpose; one that gives
     // uncertainties elsewhere and none here has probably lost one.
-    let uncertain_elsewhere = d
-        .sys
-        .bodies
-        .iter()
-        .flat_map(|b| &b.declared)
-        .any(|decl| matches!(&decl.content, Content::Measured(m) if m.form != Form::Exact));
+    // Uncertainties on the quantities this note is about count; a limit or a period's tiny
+    // uncertainty does not make a sketch a measured system.
+    let uncertain_elsewhere = d.sys.bodies.iter().flat_map(|b| &b.declared).any(|decl| {
+        measured(decl.qty)
+            && matches!(&decl.content, Content::Measured(m) if matches!(m.form, Form::Symmetric | Form::Asymmetric))
+    });
     if !uncertain_elsewhere {
         return;
     }
@@ -84,7 +84,7 @@ pub(super) fn exact_measurements(d: &Derivation, bi: usize, diags: &mut Vec<Diag
             if names.len() == 1 { "its" } else { "their" },
         ),
     )
-    .with_help("give the published uncertainty (`1.05 ± 0.04 Msun`), or mark a value meant as exact `assumed`");
+    .with_help("give each its published uncertainty (`value ± uncertainty unit`, or `+above/-below`), or mark a value meant as exact `assumed`");
     for decl in exact.iter().filter(|x| x.span != first.span) {
         diag = diag.with_label(
             decl.span,

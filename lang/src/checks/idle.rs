@@ -32,22 +32,49 @@ pub(super) fn idle_measurements(d: &Derivation, bi: usize, diags: &mut Vec<Diagn
         let Some((rule, lacking)) = waiting_route(d, bi, body.kind, decl.qty) else {
             continue;
         };
+        // A host star written with nothing in it has a note of its own, which says that
+        // nothing resting on it is derived.
+        let host = lacking.first().and_then(|k| d.sys.bodies.get(k.0));
+        if host.is_some_and(|h| h.declared.is_empty() && h.refused.is_empty()) {
+            continue;
+        }
         let names: Vec<String> = lacking.iter().map(|k| d.key_name(*k)).collect();
         let listed = crate::text::and_list(&names);
         let first = names.first().cloned().unwrap_or_default();
+        // Declared, but refused (a wrong unit) or unusable (a lower limit with no upper
+        // end): the diagnostic there says why, and declaring it again is not the answer.
+        let written = lacking.iter().any(|k| {
+            d.sys
+                .bodies
+                .get(k.0)
+                .is_some_and(|b| b.get(k.1).is_some() || b.refused.iter().any(|(q, _)| *q == k.1))
+        });
+        let (state, help) = if written {
+            (
+                "is declared but could not be used",
+                format!("see the finding on the declaration of {listed}, or declare measurements it can be derived from (`syz explain FILE {first}` lists the routes)"),
+            )
+        } else {
+            (
+                if lacking.len() == 1 { "has no value" } else { "have no value" },
+                format!("declare {listed}, or measurements it can be derived from (`syz explain FILE {first}` lists the routes)"),
+            )
+        };
+        let state = if written && lacking.len() > 1 {
+            "are declared but could not all be used"
+        } else {
+            state
+        };
         diags.push(
             Diagnostic::new(
                 Rule::NotDerivable,
                 decl.span,
                 format!(
-                    "nothing is derived from {}: {rule} also needs {listed}, which {} no value",
+                    "nothing is derived from {}: {rule} also needs {listed}, which {state}",
                     d.key_name((bi, decl.qty)),
-                    if lacking.len() == 1 { "has" } else { "have" }
                 ),
             )
-            .with_help(format!(
-                "declare {listed}, or measurements it can be derived from (`syz explain FILE {first}` lists the routes)"
-            )),
+            .with_help(help),
         );
     }
 }

@@ -485,6 +485,26 @@ fn measurements_idle_for_want_of_the_star_s_mass_say_so() {
         "{:?}",
         run(&whole).diagnostics
     );
+    // A mass declared in a wrong unit is refused: the note says it could not be used rather
+    // than asking for it again.
+    let refused = src.replace("radius = 0.9", "mass = 0.92 ± 0.04 Rsun; radius = 0.9");
+    let a = run(&refused);
+    assert!(
+        a.diagnostics.iter().any(|d| d.message
+            == "nothing is derived from b.rv_amplitude: rv-minimum-mass also needs n.mass, which is declared but could not be used"),
+        "{:?}",
+        a.diagnostics
+    );
+    // A star with nothing in it has its own note; none per planet measurement.
+    let empty = src.replace("radius = 0.9 ± 0.03 Rsun; teff = 5300 ± 80 K", "");
+    let a = run(&empty);
+    assert!(
+        a.diagnostics
+            .iter()
+            .all(|d| !d.message.starts_with("nothing is derived")),
+        "{:?}",
+        a.diagnostics
+    );
     // A planet's own partial data (a radius without a mass: no density) are no such case.
     let partial = "system \"Tessaly\" {\n  star t { mass = 0.92 ± 0.04 Msun; radius = 0.9 ± 0.03 Rsun; teff = 5300 ± 80 K }\n  planet b orbits t { period = 4.2 ± 0.001 d; radius = 2.1 ± 0.1 Rearth }\n}\n";
     let a = run(partial);
@@ -528,6 +548,15 @@ fn measurements_without_an_uncertainty_among_others_with_one_are_noted_once_per_
     // A system with no uncertainty anywhere is a sketch: nothing said.
     let sketch = "system \"Orwen\" {\n  star o { mass = 1.05 Msun; radius = 1.02 Rsun; teff = 5900 K }\n  planet b orbits o { period = 3.3 d; transit_depth = 0.9 % }\n}\n";
     assert!(run(sketch)
+        .diagnostics
+        .iter()
+        .all(|d| d.rule != Rule::NoUncertainty));
+    // Nor is one whose only uncertainties are a limit and the period's.
+    let limit = sketch.replace(
+        "period = 3.3 d",
+        "period = 3.3 ± 0.0001 d; eccentricity < 0.1",
+    );
+    assert!(run(&limit)
         .diagnostics
         .iter()
         .all(|d| d.rule != Rule::NoUncertainty));
