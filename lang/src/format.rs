@@ -111,18 +111,31 @@ fn rounded(value: f64, below: f64, above: f64) -> Option<String> {
     if u <= 0.0 {
         return None;
     }
+    // Each part in its own significant digits: for the cases the one rounding cannot serve.
+    let own_digits = || {
+        let (lo, hi) = (sig(below, 2), sig(above, 2));
+        Some(if lo == hi {
+            format!("{} ± {hi}", sig(value, 3))
+        } else {
+            format!("{} +{hi}/-{lo}", sig(value, 3))
+        })
+    };
+    // A side many orders of magnitude smaller than the other (`0 +1e-300/-0.5`) would set the
+    // digits of the whole (hundreds of them), and one near the smallest float would make the
+    // rounding step 0 (`± 1e-320`).
+    if u < 1e-12 * below.max(above) {
+        return own_digits();
+    }
     let last = last_digit(u);
     let step = 10f64.powi(last);
+    if !(step > 0.0 && step.is_finite()) {
+        return own_digits();
+    }
     let value_r = (value / step).round() * step;
     if value_r == 0.0 && value != 0.0 {
         // An uncertainty far larger than the value would round the value itself to 0
         // (`3 ± 1e300` as `0.0e300 ± 1.0e300`): each is shown in its own digits instead.
-        let (lo, hi) = (sig(below, 2), sig(above, 2));
-        return Some(if lo == hi {
-            format!("{} ± {hi}", sig(value, 3))
-        } else {
-            format!("{} +{hi}/-{lo}", sig(value, 3))
-        });
+        return own_digits();
     }
     let scale = value_r.abs().max(u);
     let plain = (-15..=1).contains(&last) && (1e-3..1e6).contains(&scale);
@@ -293,6 +306,10 @@ mod tests {
             (5310.0, 80.0, 80.0, "5310 ± 80"),
             // An uncertainty so large the value would round to 0: each in its own digits.
             (3.0, 1e300, 1e300, "3.00 ± 1e300"),
+            // A side of 1e-300 beside one of 0.5 would set hundreds of digits, and one near
+            // the smallest float a rounding step of 0 (which printed NaN): each in its own.
+            (0.0, 0.5, 1e-300, "0 +1e-300/-0.50"),
+            (-0.0, 1e-320, 1e-320, "0 ± 1e-320"),
             (0.01, 2.0, 2.0, "0.0100 ± 2.0"),
             (288.4, 24.0, 27.0, "288 +27/-24"),
             // An insolation in W/m^2 and a star's mass in Earth masses: six digits each

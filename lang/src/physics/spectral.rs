@@ -117,7 +117,7 @@ pub fn parse(text: &str) -> Result<SpectralType, String> {
     if lum.is_empty() && matches!(first, "i" | "ii" | "iii" | "iv" | "v" | "vi") {
         let digits_shown = digits.as_str();
         return Err(format!(
-            "'{text}' writes its luminosity class in lower case; spectral types write it in capitals: '{class}{digits_shown}{}'",
+            "'{text}' writes its luminosity class in lower case, where it would pass for a peculiarity flag; spectral types are written in capitals: '{class}{digits_shown}{}'",
             first.to_ascii_uppercase()
         ));
     }
@@ -475,7 +475,7 @@ mod tests {
         assert_eq!(
             estimate("k2v"),
             Err(Refusal::Unreadable(
-                "'k2v' writes its luminosity class in lower case; spectral types write it in capitals: 'K2V'".into()
+                "'k2v' writes its luminosity class in lower case, where it would pass for a peculiarity flag; spectral types are written in capitals: 'K2V'".into()
             ))
         );
         assert!(
