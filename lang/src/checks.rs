@@ -45,7 +45,6 @@ pub struct CompositionNote {
 pub fn run(d: &Derivation, diags: &mut Vec<Diagnostic>) -> Vec<CompositionNote> {
     let mut notes = Vec::new();
     for (bi, body) in d.sys.bodies.iter().enumerate() {
-        exact::exact_measurements(d, bi, diags);
         match body.kind {
             BodyKind::Planet => {
                 if let Some(n) = composition_check(d, bi, diags) {
@@ -64,6 +63,7 @@ pub fn run(d: &Derivation, diags: &mut Vec<Diagnostic>) -> Vec<CompositionNote> 
             }
         }
     }
+    exact::exact_measurements(d, diags);
     orbit_spacing(d, diags);
     notes
 }

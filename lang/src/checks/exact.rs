@@ -34,16 +34,13 @@ fn measured(q: Qty) -> bool {
     )
 }
 
-/// One note for body `bi` naming its measured quantities declared without an uncertainty,
-/// at the first of them, with a label at each other.
-pub(super) fn exact_measurements(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
-    let Some(body) = d.sys.bodies.get(bi) else {
-        return;
-    };
+/// One note per body naming its measured quantities declared without an uncertainty, at
+/// the first of them, with a label at each other.
+pub(super) fn exact_measurements(d: &Derivation, diags: &mut Vec<Diagnostic>) {
     // A system written without any uncertainty is a sketch on purpose; one that gives
-    // uncertainties elsewhere and none here has probably lost one.
-    // Uncertainties on the quantities this note is about count; a limit or a period's tiny
-    // uncertainty does not make a sketch a measured system.
+    // uncertainties elsewhere and none here has probably lost one. Uncertainties on the
+    // quantities this note is about count; a limit or a period's tiny uncertainty does not
+    // make a sketch a measured system. Looked at once per system.
     let uncertain_elsewhere = d.sys.bodies.iter().flat_map(|b| &b.declared).any(|decl| {
         measured(decl.qty)
             && matches!(&decl.content, Content::Measured(m) if matches!(m.form, Form::Symmetric | Form::Asymmetric))
@@ -51,6 +48,16 @@ pub(super) fn exact_measurements(d: &Derivation, bi: usize, diags: &mut Vec<Diag
     if !uncertain_elsewhere {
         return;
     }
+    for bi in 0..d.sys.bodies.len() {
+        body_note(d, bi, diags);
+    }
+}
+
+/// The note of body `bi`, if it has measurements without an uncertainty.
+fn body_note(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
+    let Some(body) = d.sys.bodies.get(bi) else {
+        return;
+    };
     let exact: Vec<_> = body
         .declared
         .iter()

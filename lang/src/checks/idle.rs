@@ -119,14 +119,18 @@ fn waiting_route(
     let has = |k: Key| d.value(k).is_some() || has_default(k.1);
     // The bodies a rule is applied to when it takes this quantity: the body itself, or for
     // a star's quantity in a planet's rule, each planet of the star.
-    let planets: Vec<usize> = d
-        .sys
-        .bodies
-        .iter()
-        .enumerate()
-        .filter(|(_, b)| b.orbits == Some(bi))
-        .map(|(i, _)| i)
-        .collect();
+    // Only for a star (a scan of the system's bodies, so not once per planet's measurement).
+    let planets: Vec<usize> = if kind == BodyKind::Star {
+        d.sys
+            .bodies
+            .iter()
+            .enumerate()
+            .filter(|(_, b)| b.orbits == Some(bi))
+            .map(|(i, _)| i)
+            .collect()
+    } else {
+        Vec::new()
+    };
     let mut best: Option<(&'static str, Vec<Key>)> = None;
     for rule in RULES.iter().filter(|r| !predicts(r.id)) {
         let subjects: Vec<(usize, Option<usize>)> = match (kind, rule.output) {
