@@ -410,18 +410,21 @@ mod tests {
 
     #[test]
     fn a_halo_is_a_white_copy_under_the_text_not_a_paint_order_stroke() {
-        let mut s = Svg::new();
-        s.text(
-            10.0,
-            10.0,
-            12.0,
-            Anchor::Start,
-            "Orrin b",
-            "#123456",
-            false,
-            true,
-        );
-        let doc = s.finish(100.0, 50.0);
+        let drawn = |halo: bool| {
+            let mut s = Svg::new();
+            s.text(
+                10.0,
+                10.0,
+                12.0,
+                Anchor::Start,
+                "Orrin b",
+                "#123456",
+                false,
+                halo,
+            );
+            s.finish(100.0, 50.0)
+        };
+        let doc = drawn(true);
         assert!(!doc.contains("paint-order"), "{doc}");
         let halo = doc
             .find("fill=\"#ffffff\" stroke=\"#ffffff\"")
@@ -432,17 +435,6 @@ mod tests {
         // Drawn first, so it lies under the text in every renderer.
         assert!(halo < text, "{doc}");
         // Without a halo, only the text.
-        let mut s = Svg::new();
-        s.text(
-            10.0,
-            10.0,
-            12.0,
-            Anchor::Start,
-            "Orrin b",
-            "#123456",
-            false,
-            false,
-        );
-        assert_eq!(s.finish(100.0, 50.0).matches("<text").count(), 1);
+        assert_eq!(drawn(false).matches("<text").count(), 1);
     }
 }

@@ -9,7 +9,7 @@
 
 use crate::derive::Derivation;
 use crate::diagnostic::{Diagnostic, Rule};
-use crate::model::{Content, Form};
+use crate::model::{Body, Content, Form};
 use crate::quantities::Qty;
 
 /// The quantities a note is given for when declared without an uncertainty.
@@ -48,16 +48,13 @@ pub(super) fn exact_measurements(d: &Derivation, diags: &mut Vec<Diagnostic>) {
     if !uncertain_elsewhere {
         return;
     }
-    for bi in 0..d.sys.bodies.len() {
-        body_note(d, bi, diags);
+    for (bi, body) in d.sys.bodies.iter().enumerate() {
+        body_note(d, bi, body, diags);
     }
 }
 
 /// The note of body `bi`, if it has measurements without an uncertainty.
-fn body_note(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
-    let Some(body) = d.sys.bodies.get(bi) else {
-        return;
-    };
+fn body_note(d: &Derivation, bi: usize, body: &Body, diags: &mut Vec<Diagnostic>) {
     let exact: Vec<_> = body
         .declared
         .iter()
@@ -76,19 +73,17 @@ fn body_note(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
         .iter()
         .map(|decl| d.key_name((bi, decl.qty)))
         .collect();
-    let (is, each) = if names.len() == 1 {
-        ("is", "it is")
+    let (is, each, it, its) = if names.len() == 1 {
+        ("is", "it is", "it", "its")
     } else {
-        ("are", "each is")
+        ("are", "each is", "them", "their")
     };
     let mut diag = Diagnostic::new(
         Rule::NoUncertainty,
         first.span,
         format!(
-            "{} {is} declared without an uncertainty: {each} taken as exact, so what is derived from {} carries none of {} uncertainty and looks more precise than the data are",
+            "{} {is} declared without an uncertainty: {each} taken as exact, so what is derived from {it} carries none of {its} uncertainty and looks more precise than the data are",
             crate::text::and_list(&names),
-            if names.len() == 1 { "it" } else { "them" },
-            if names.len() == 1 { "its" } else { "their" },
         ),
     )
     .with_help("give each its published uncertainty (`value ± uncertainty unit`, or `+above/-below`), or mark a value meant as exact `assumed`");

@@ -49,21 +49,21 @@ pub(super) fn idle_measurements(d: &Derivation, bi: usize, diags: &mut Vec<Diagn
                 .get(k.0)
                 .is_some_and(|b| b.get(k.1).is_some() || b.refused.iter().any(|(q, _)| *q == k.1))
         });
+        let plural = lacking.len() > 1;
         let (state, help) = if written {
             (
-                "is declared but could not be used",
+                if plural {
+                    "are declared but could not all be used"
+                } else {
+                    "is declared but could not be used"
+                },
                 format!("see the finding on the declaration of {listed}, or declare measurements it can be derived from (`syz explain FILE {first}` lists the routes)"),
             )
         } else {
             (
-                if lacking.len() == 1 { "has no value" } else { "have no value" },
+                if plural { "have no value" } else { "has no value" },
                 format!("declare {listed}, or measurements it can be derived from (`syz explain FILE {first}` lists the routes)"),
             )
-        };
-        let state = if written && lacking.len() > 1 {
-            "are declared but could not all be used"
-        } else {
-            state
         };
         diags.push(
             Diagnostic::new(

@@ -113,9 +113,8 @@ impl<'m> Derivation<'m> {
             (_, None) => super::slips::unit_slip(large.1, l.value.nominal, s.value.nominal),
             _ => None,
         };
-        let mut d = Diagnostic::new(Rule::Inconsistent, span, message).with_help(
-            slip.unwrap_or_else(|| "check the units and the sources of these measurements; one of them may belong to another body or epoch".to_string()),
-        );
+        let mut d = Diagnostic::new(Rule::Inconsistent, span, message)
+            .with_help(slip.unwrap_or_else(|| GENERAL_HELP.to_string()));
         if let Some(n) = self.shared(unit, &s.value, &l.value, sigma) {
             d = d.with_note(n);
         }
@@ -237,9 +236,8 @@ impl<'m> Derivation<'m> {
         let slip = (entry.rule.is_none())
             .then(|| super::slips::unit_slip(key.1, entry.value.nominal, c.value.nominal))
             .flatten();
-        let mut d = Diagnostic::new(Rule::Inconsistent, span, message).with_help(
-            slip.unwrap_or_else(|| "check the units and the sources of these measurements; one of them may belong to another body or epoch".to_string()),
-        );
+        let mut d = Diagnostic::new(Rule::Inconsistent, span, message)
+            .with_help(slip.unwrap_or_else(|| GENERAL_HELP.to_string()));
         if let Some(r) = rule {
             d = d.with_note(format!("{}: {}", r.id, r.formula));
         }
@@ -353,6 +351,10 @@ pub(super) fn shared_note(
         crate::format::sig(unit.of(sigma), 2)
     ))
 }
+
+/// The help of an inconsistency that no unit slip explains.
+const GENERAL_HELP: &str =
+    "check the units and the sources of these measurements; one of them may belong to another body or epoch";
 
 /// A difference or uncertainty below this fraction of the values compared counts as none:
 /// rounding and the tolerance of the numerical solutions (the transiting planet's axis is

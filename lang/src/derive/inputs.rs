@@ -39,8 +39,6 @@ const TRUNCATED_SHIFT: f64 = 0.1;
 const RATIO_TOLERANCE: f64 = 1e-4;
 
 impl<'m> Derivation<'m> {
-    /// A new input of the engine: `key` is the quantity it is the value of (`None` for a
-    /// literal in an expression or a prediction's scatter, which are always sampled).
     /// A standard normal input (mean 0, standard deviation 1) shared by the values that
     /// scale it: a relation's scatter, a spectral type's subtype.
     pub(super) fn unit_normal(&mut self, label: String) -> Value {
@@ -58,6 +56,8 @@ impl<'m> Derivation<'m> {
         )
     }
 
+    /// A new input of the engine: `key` is the quantity it is the value of (`None` for a
+    /// literal in an expression or a prediction's scatter, which are always sampled).
     pub(super) fn new_input(
         &mut self,
         key: Option<Key>,

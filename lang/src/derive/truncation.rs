@@ -19,41 +19,18 @@ pub fn truncation(m: &Measurement, lo: f64, hi: f64) -> Option<(f64, f64, f64)> 
     // P(X < x) and P(X > x), strict: a side of zero width is a point mass at `v` (half the
     // probability), which lies inside a range that ends at `v` (`0 +0.1/-0` is an
     // eccentricity of 0 or more, none of it below 0).
-    let less = |x: f64| {
-        if x <= v {
-            if m.below > 0.0 && x.is_finite() {
-                phi((x - v) / m.below)
-            } else if m.below > 0.0 && x > 0.0 {
-                1.0
-            } else {
-                0.0
-            }
-        } else if m.above > 0.0 {
-            if x.is_finite() {
-                phi((x - v) / m.above)
-            } else {
-                1.0
-            }
-        } else {
-            1.0
-        }
+    // `phi` takes the infinite ends of a range to 0 and 1.
+    let less = |x: f64| match (x <= v, m.below > 0.0, m.above > 0.0) {
+        (true, true, _) => phi((x - v) / m.below),
+        (true, false, _) => 0.0,
+        (false, _, true) => phi((x - v) / m.above),
+        (false, _, false) => 1.0,
     };
-    let more = |x: f64| {
-        if x >= v {
-            if m.above > 0.0 && x.is_finite() {
-                1.0 - phi((x - v) / m.above)
-            } else {
-                0.0
-            }
-        } else if m.below > 0.0 {
-            if x.is_finite() {
-                1.0 - phi((x - v) / m.below)
-            } else {
-                1.0
-            }
-        } else {
-            1.0
-        }
+    let more = |x: f64| match (x >= v, m.above > 0.0, m.below > 0.0) {
+        (true, true, _) => 1.0 - phi((x - v) / m.above),
+        (true, false, _) => 0.0,
+        (false, _, true) => 1.0 - phi((x - v) / m.below),
+        (false, _, false) => 1.0,
     };
     let (below, above) = (less(lo), more(hi));
     let outside = below + above;

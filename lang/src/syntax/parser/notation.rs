@@ -37,27 +37,27 @@ impl Cursor<'_> {
         let symbol = self.text(*unit);
         // `ms-1` is how metres per second are written where spaces are dropped; `ms` here is
         // the millisecond, so `ms^-1` would be a frequency.
-        if symbol == "ms" && exponent == "1" {
-            return Some(
-                Diagnostic::new(
-                    Rule::Syntax,
-                    at,
-                    format!("`{written}` reads as a subtraction, not as a unit with an exponent"),
-                )
-                .with_help("for metres per second write `m/s` (`ms` is the millisecond)")
-                .with_fix(at, "m/s".to_string()),
-            );
-        }
+        let (help, fix) = if symbol == "ms" && exponent == "1" {
+            (
+                "for metres per second write `m/s` (`ms` is the millisecond)".to_string(),
+                "m/s".to_string(),
+            )
+        } else {
+            (
+                format!(
+                    "write the exponent with `^`: `{symbol}^-{exponent}` (or divide: `/{symbol}`)"
+                ),
+                format!("{symbol}^-{exponent}"),
+            )
+        };
         Some(
             Diagnostic::new(
                 Rule::Syntax,
                 at,
                 format!("`{written}` reads as a subtraction, not as a unit with an exponent"),
             )
-            .with_help(format!(
-                "write the exponent with `^`: `{symbol}^-{exponent}` (or divide: `/{symbol}`)"
-            ))
-            .with_fix(at, format!("{symbol}^-{exponent}")),
+            .with_help(help)
+            .with_fix(at, fix),
         )
     }
 
