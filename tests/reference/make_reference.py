@@ -35,6 +35,9 @@ Formulas used for ``derivations.json`` (all in SI internally):
     star luminosity:   L* = 4 pi R*^2 sigma Teff^4
     star log g:        log10(G M* / R*^2 expressed in cm s^-2)   (dex, dimensionless)
     star density:      M* / (4/3 pi R*^3)
+    without the star's mass or radius (``DENSITY_CASES``): rho* = 3 pi (a/R*)^3 / (G P^2)
+                       (Seager & Mallen-Ornelas 2003 eq. 9, the planet's mass neglected), then
+                       M* = 4/3 pi rho* R*^3 or R* = (3 M* / (4 pi rho*))^(1/3), a = (a/R*) R*
     insolation:        S = L* / (4 pi a^2)      (at distance a, not orbit-averaged)
     equilibrium temp.: Teq = Teff sqrt(R* / (2 a)) (f (1 - A))^(1/4)
                        f = redistribution factor (f = 1: heat spread over the whole planet),
@@ -275,6 +278,7 @@ INPUT_SI = {
     "b.eccentricity": "1",
     "b.albedo": "1",
     "b.redistribution": "1",
+    "b.scaled_semi_major_axis": "1",
 }
 
 OUTPUT_SI = {
@@ -291,6 +295,8 @@ OUTPUT_SI = {
     "star.luminosity": "W",
     "star.log_g": "1",
     "star.density": "kg/m^3",
+    "star.mass": "kg",
+    "star.radius": "m",
 }
 
 
@@ -382,14 +388,84 @@ CASES = [
     },
 ]
 
+# The star's mass or radius missing: a transit's a/R* and the period give the star's density
+# (Seager & Mallen-Ornelas 2003 eq. 9, the planet's mass neglected), and the density with the
+# other of mass and radius gives the missing one; a = (a/R*) R*. Both invented.
+DENSITY_CASES = [
+    {
+        "name": "transit-density-gives-the-mass",
+        "note": "Invented hot giant whose host has a radius and Teff but no mass: the mass "
+        "follows from the transit's stellar density, M* = 4/3 pi rho* R*^3.",
+        "inputs": {
+            "star.radius": inp(0.92, 0.03, "Rsun"),
+            "star.teff": inp(5400.0, 80.0, "K"),
+            "b.period": inp(3.2145, 0.0001, "d"),
+            "b.scaled_semi_major_axis": inp(9.1, 0.3, "1"),
+            "b.rv_amplitude": inp(85.0, 5.0, "m/s"),
+            "b.eccentricity": inp(0.0, 0.0, "1"),
+        },
+    },
+    {
+        "name": "transit-density-gives-the-radius",
+        "note": "Invented hot giant whose host has a mass and Teff but no radius: the radius "
+        "follows from the transit's stellar density, R* = (3 M* / (4 pi rho*))^(1/3).",
+        "inputs": {
+            "star.mass": inp(0.80, 0.04, "Msun"),
+            "star.teff": inp(5400.0, 80.0, "K"),
+            "b.period": inp(3.2145, 0.0001, "d"),
+            "b.scaled_semi_major_axis": inp(9.1, 0.3, "1"),
+            "b.rv_amplitude": inp(85.0, 5.0, "m/s"),
+            "b.eccentricity": inp(0.0, 0.0, "1"),
+        },
+    },
+]
 
-def derive(inputs):
+
+def read_inputs(inputs):
+    """SI values, with an uncertainty where sigma > 0 (each input its own variable)."""
     x = {}
     for key, spec in inputs.items():
         si_unit = INPUT_SI[key]
         val = to_si(spec["value"], spec["unit"], si_unit)
         sig = to_si(spec["sigma"], spec["unit"], si_unit)
         x[key] = ufloat(val, sig, key) if spec["sigma"] > 0 else val
+    return x
+
+
+def expected_of(out):
+    """The outputs in OUTPUT_SI order, as the test reads them."""
+    expected = {}
+    for key in OUTPUT_SI:
+        if key in out:
+            v = out[key]
+            expected[key] = {"si": _nominal(v), "sigma_si": _std(v), "si_unit": OUTPUT_SI[key]}
+    return expected
+
+
+def derive_density(inputs):
+    x = read_inputs(inputs)
+    period, ars = x["b.period"], x["b.scaled_semi_major_axis"]
+    k_amp, ecc, teff = x["b.rv_amplitude"], x["b.eccentricity"], x["star.teff"]
+    rho = 3 * PI * ars**3 / (G * period**2)
+    out = {"star.density": rho}
+    if "star.mass" in x:
+        mstar = x["star.mass"]
+        rstar = (3 * mstar / (4 * PI * rho)) ** (1.0 / 3.0)
+        out["star.radius"] = rstar
+    else:
+        rstar = x["star.radius"]
+        mstar = 4.0 / 3.0 * PI * rstar**3 * rho
+        out["star.mass"] = mstar
+        # a = (a/R*) R* is the value shown only where no Kepler route fills it first.
+        out["b.semi_major_axis"] = ars * rstar
+    out["star.luminosity"] = 4 * PI * rstar**2 * SIGMA_SB * teff**4
+    out["star.log_g"] = umath.log10(G * mstar / rstar**2 * 100.0)
+    out["b.min_mass"] = mass_from_k(k_amp, period, mstar, ecc)
+    return expected_of(out)
+
+
+def derive(inputs):
+    x = read_inputs(inputs)
 
     mstar, rstar, teff = x["star.mass"], x["star.radius"], x["star.teff"]
     period, k_amp, ecc = x["b.period"], x["b.rv_amplitude"], x["b.eccentricity"]
@@ -423,23 +499,18 @@ def derive(inputs):
         out["b.density"] = mp / (4.0 / 3.0 * PI * rp**3)
         out["b.surface_gravity"] = G * mp / rp**2
 
-    expected = {}
-    for key in OUTPUT_SI:
-        if key in out:
-            v = out[key]
-            expected[key] = {"si": _nominal(v), "sigma_si": _std(v), "si_unit": OUTPUT_SI[key]}
-    return expected
+    return expected_of(out)
 
 
 def make_derivations():
     cases = []
-    for case in CASES:
+    for case, how in [(c, derive) for c in CASES] + [(c, derive_density) for c in DENSITY_CASES]:
         cases.append(
             {
                 "name": case["name"],
                 "note": case["note"],
                 "inputs": case["inputs"],
-                "expected": derive(case["inputs"]),
+                "expected": how(case["inputs"]),
             }
         )
     return {
@@ -456,6 +527,8 @@ def make_derivations():
             "teq": "Teff sqrt(R*/(2a)) (f (1-A))^(1/4)",
             "insolation": "L*/(4 pi a^2)",
             "star.log_g": "log10(G M*/R*^2 in cm s^-2)",
+            "star.density": "M*/(4/3 pi R*^3); without M* or R*: 3 pi (a/R*)^3 / (G P^2), "
+            "and M* = 4/3 pi rho R*^3 or R* = (3 M*/(4 pi rho))^(1/3)",
         },
         "cases": cases,
     }

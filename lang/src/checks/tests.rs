@@ -495,6 +495,18 @@ fn measurements_idle_for_want_of_the_star_s_mass_say_so() {
         "{:?}",
         a.diagnostics
     );
+    // With the transit's a/R*, the star's density and radius give its mass
+    // (M* = 4/3 pi rho* R*^3): everything is used, so nothing is said.
+    let scaled = src.replace("rv_amplitude =", "a_rs = 11.2 ± 0.4\n    rv_amplitude =");
+    let a = run(&scaled);
+    assert!(
+        a.diagnostics.iter().all(|d| d.rule != Rule::NotDerivable),
+        "{:?}",
+        a.diagnostics
+    );
+    let sys = a.model.systems.first().expect("system");
+    let mass = a.results[0].bodies[sys.body("n").expect("n")].get(crate::quantities::Qty::StarMass);
+    assert_eq!(mass.and_then(|m| m.rule), Some("mass-from-density"));
     // A star with nothing in it has its own note; none per planet measurement.
     let empty = src.replace("radius = 0.9 ± 0.03 Rsun; teff = 5300 ± 80 K", "");
     let a = run(&empty);

@@ -1,7 +1,7 @@
 //! What a rule is beyond its formula: an approximation that stands in for a quantity only
 //! while that quantity is unknown, or a prediction from a population relation.
 
-use crate::quantities::Qty::{self, Impact, Mass, Radius};
+use crate::quantities::Qty::{self, Impact, Mass, Radius, SemiMajorAxis, StarMass, StarRadius};
 
 /// The quantity a rule's approximation stands in for: the rule is not used once that
 /// quantity is known (the minimum mass stands in for a planet's mass only while the mass is
@@ -18,6 +18,13 @@ pub fn stands_in_for(id: &str) -> Option<Qty> {
         // sqrt(depth) and k^2 take the transit as not grazing, which only the impact
         // parameter can tell (see `depth-impact-radius-ratio`, `radius-ratio-impact-depth`).
         "depth-radius-ratio" | "radius-ratio-depth" => Some(Impact),
+        // Inverses of a rule that already compares the same measurements (`mean-density-star`,
+        // `scaled-semi-major-axis`): they fill a gap (a star with a radius and a transit's
+        // density but no mass) and stand in for their own output, so one disagreement is not
+        // reported again through them.
+        "mass-from-density" => Some(StarMass),
+        "radius-from-density" => Some(StarRadius),
+        "semi-major-axis-from-scaled" => Some(SemiMajorAxis),
         _ => None,
     }
 }

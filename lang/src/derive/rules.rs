@@ -6,7 +6,9 @@
 use crate::formulas as f;
 use crate::quantities::Qty;
 use uom::si::angle::radian;
-use uom::si::f64::{Angle, Length, Mass, Power, ThermodynamicTemperature, Time, Velocity};
+use uom::si::f64::{
+    Angle, Length, Mass, MassDensity, Power, ThermodynamicTemperature, Time, Velocity,
+};
 use uom::si::heat_flux_density::watt_per_square_meter;
 use uom::si::length::meter;
 use uom::si::mass::kilogram;
@@ -33,7 +35,8 @@ pub struct RuleDef {
     pub output: Slot,
     pub inputs: &'static [Slot],
     /// Lower is more complete physics; among routes to one quantity the lowest tier wins,
-    /// then the most precise.
+    /// then the most precise. Tier 3 holds the inverses that only fill a gap once nothing
+    /// else gives their output (see [`stands_in_for`]).
     pub tier: u8,
     pub eval: fn(&[f64]) -> Option<f64>,
 }
@@ -49,6 +52,9 @@ fn l(x: f64) -> Length {
 }
 fn ang(x: f64) -> Angle {
     Angle::new::<radian>(x)
+}
+fn density(x: f64) -> MassDensity {
+    MassDensity::new::<kilogram_per_cubic_meter>(x)
 }
 fn vel(x: f64) -> Velocity {
     Velocity::new::<meter_per_second>(x)
@@ -169,6 +175,28 @@ pub static RULES: &[RuleDef] = &[
         eval: |x| {
             args!(x, [ms, r]);
             f::mean_density(m(ms), l(r)).map(|v| v.get::<kilogram_per_cubic_meter>())
+        },
+    },
+    RuleDef {
+        id: "mass-from-density",
+        formula: "M = 4/3 pi R^3 rho",
+        output: S(StarMass),
+        inputs: &[S(StarDensity), S(StarRadius)],
+        tier: 3,
+        eval: |x| {
+            args!(x, [rho, r]);
+            f::mass_from_density(density(rho), l(r)).map(|v| v.get::<kilogram>())
+        },
+    },
+    RuleDef {
+        id: "radius-from-density",
+        formula: "R = (3 M / (4 pi rho))^(1/3)",
+        output: S(StarRadius),
+        inputs: &[S(StarDensity), S(StarMass)],
+        tier: 3,
+        eval: |x| {
+            args!(x, [rho, ms]);
+            f::radius_from_density(density(rho), m(ms)).map(|v| v.get::<meter>())
         },
     },
     // ---- orbit ----
@@ -384,6 +412,17 @@ pub static RULES: &[RuleDef] = &[
         eval: |x| {
             args!(x, [a, r]);
             Some(a / r).filter(|v| v.is_finite() && *v > 0.0)
+        },
+    },
+    RuleDef {
+        id: "semi-major-axis-from-scaled",
+        formula: "a = (a/R*) R*",
+        output: P(SemiMajorAxis),
+        inputs: &[P(ScaledAxis), H(StarRadius)],
+        tier: 3,
+        eval: |x| {
+            args!(x, [ar, r]);
+            Some(ar * r).filter(|v| v.is_finite() && *v > 0.0)
         },
     },
     RuleDef {

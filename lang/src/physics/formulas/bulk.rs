@@ -14,6 +14,24 @@ pub fn mean_density(mass: Mass, radius: Length) -> Option<MassDensity> {
     finite(mass / (4.0 / 3.0 * PI * radius * radius * radius))
 }
 
+/// Mass of a sphere of mean density `rho` and radius `R`, `M = 4/3 pi R^3 rho` (the inverse of
+/// [`mean_density`]). `None` for a non-positive density or radius.
+pub fn mass_from_density(density: MassDensity, radius: Length) -> Option<Mass> {
+    if !(is_positive(&density) && is_positive(&radius)) {
+        return None;
+    }
+    finite(4.0 / 3.0 * PI * radius * radius * radius * density)
+}
+
+/// Radius of a sphere of mean density `rho` and mass `M`, `R = (3 M / (4 pi rho))^(1/3)` (the
+/// inverse of [`mean_density`]). `None` for a non-positive density or mass.
+pub fn radius_from_density(density: MassDensity, mass: Mass) -> Option<Length> {
+    if !(is_positive(&density) && is_positive(&mass)) {
+        return None;
+    }
+    finite((3.0 * mass / (4.0 * PI * density)).cbrt())
+}
+
 /// A planet's bulk density, `rho = M / (4/3 pi R^3)` (same relation as [`mean_density`]).
 pub fn bulk_density(mass: Mass, radius: Length) -> Option<MassDensity> {
     mean_density(mass, radius)

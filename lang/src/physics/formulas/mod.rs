@@ -55,7 +55,10 @@ mod stellar;
 mod transit;
 mod typed;
 
-pub use bulk::{bulk_density, escape_velocity, mean_density, surface_gravity};
+pub use bulk::{
+    bulk_density, escape_velocity, mass_from_density, mean_density, radius_from_density,
+    surface_gravity,
+};
 pub use irradiation::{equilibrium_temperature, insolation, insolation_earth_units};
 pub use kepler::{
     mean_orbital_speed, period_from_axis, semi_major_axis, semi_major_axis_transiting,
@@ -86,3 +89,5 @@ pub use transit::{
 
 #[cfg(test)]
 mod tests;
+#[cfg(test)]
+mod tests_density;
