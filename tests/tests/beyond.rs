@@ -304,8 +304,28 @@ fn spectral_type_estimates_show_in_eval_json() {
     let star = &v["systems"][0]["bodies"][0]["quantities"];
     for q in ["mass", "radius", "teff"] {
         assert_eq!(star[q]["origin"], "estimated", "{q}");
-        let words = star[q]["assumptions"][0].as_str().unwrap();
-        assert!(words.contains("Pecaut & Mamajek 2013"), "{words}");
+        // The estimate in a line of its own, the table and the uncertainty model in one line
+        // shared by the three estimates.
+        let words: Vec<&str> = star[q]["assumptions"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .filter_map(|a| a.as_str())
+            .collect();
+        let own = format!("corvane.{q} = ");
+        assert!(
+            words
+                .iter()
+                .any(|w| w.starts_with(&own) && w.ends_with("estimated from spectral type M3.5V")),
+            "{words:?}"
+        );
+        assert!(
+            words
+                .iter()
+                .any(|w| w.starts_with("estimates from a spectral type: ")
+                    && w.contains("Pecaut & Mamajek 2013")),
+            "{words:?}"
+        );
     }
     // M3.5V: the table's own row, 3270 K (Mamajek's mean dwarf table, version 2024.05.15);
     // the value shown is a Monte Carlo median.

@@ -608,6 +608,11 @@ impl<'m> Derivation<'m> {
         // subtype later is cooler, smaller and lighter together), and one for each
         // estimate's own intrinsic spread: the three are correlated as the table makes them.
         let subtype = self.unit_normal(format!("{}.spectral_type (±1 subtype)", body.id));
+        let how: Arc<str> = Arc::from(format!(
+            "estimates from a spectral type: the {}; {}",
+            crate::spectral::TABLE_SOURCE,
+            crate::spectral::UNCERTAINTY_WORDS
+        ));
         for q in wanted {
             let e = match q {
                 Qty::Teff => est.teff,
@@ -638,13 +643,14 @@ impl<'m> Derivation<'m> {
             };
             let f = unit.factor;
             let words = format!(
-                "{}.{} = {} {unit} estimated from spectral type {text} ({}; {})",
+                "{}.{} = {} {unit} estimated from spectral type {text}",
                 body.id,
                 def.name,
                 crate::format::with_uncertainty(e.value / f, e.sigma / f, e.sigma / f),
-                crate::spectral::TABLE_SOURCE,
-                crate::spectral::UNCERTAINTY_WORDS
             );
+            // The table and the uncertainty model once, not once per estimate.
+            let mut assumptions = SortedSet::one(Arc::from(words));
+            assumptions.insert(Arc::clone(&how));
             self.entries.insert(
                 (bi, q),
                 Entry {
@@ -653,7 +659,7 @@ impl<'m> Derivation<'m> {
                     rule: None,
                     inputs: Vec::new(),
                     deps: SortedSet::one((bi, q)),
-                    assumptions: SortedSet::one(Arc::from(words)),
+                    assumptions,
                 },
             );
         }

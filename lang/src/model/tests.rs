@@ -519,6 +519,19 @@ fn a_limit_on_text_is_refused() {
     );
 }
 
+/// A spectral type written without quotes is refused, and the help quotes what was written
+/// (it said `"K0V"` whatever the star's type).
+#[test]
+fn an_unquoted_spectral_type_is_shown_in_quotes() {
+    let (m, diags) = lower_text("system \"S\" {\n star s { spectral_type = K2V }\n}\n");
+    assert!(m.systems[0].bodies[0].get(Qty::SpectralType).is_none());
+    assert_eq!(messages(&diags), ["'spectral_type' takes text in quotes"]);
+    assert_eq!(
+        diags[0].help.as_deref(),
+        Some("write `spectral_type = \"K2V\"`")
+    );
+}
+
 /// A UTC timestamp before 1972 is refused when the file is read (its seconds were not SI
 /// seconds, so no time scale follows from it); `syz check` passed it, and only `ephemeris`
 /// refused it later. 1972-01-01T00:00:00Z itself is taken.

@@ -167,7 +167,15 @@ pub(super) fn lower_value(
                 expr.span,
                 format!("'{}' takes text in quotes", def.name),
             )
-            .with_help(format!("write `{} = \"K0V\"`", def.name)),
+            .with_help(format!(
+                "write `{} = \"{}\"`",
+                def.name,
+                // A bare word (`K2V`) is what was meant, in quotes.
+                match &expr.kind {
+                    ast::ExprKind::Name(word) => word.name.as_str(),
+                    _ => "K0V",
+                }
+            )),
         );
         return None;
     }

@@ -8,6 +8,7 @@ use crate::quantities::{self, Qty};
 use crate::source::{Places, SourceDb};
 use crate::Analysis;
 
+mod assumed;
 mod explain;
 pub mod json;
 mod missing;
@@ -429,13 +430,7 @@ pub fn eval_text(a: &Analysis, db: &dyn SourceDb) -> String {
             if let Some(c) = a.composition.get(&(si, b.id.clone())) {
                 out.push_str(&format!("    composition: {}\n", c.text));
             }
-            let mut assumed: Vec<&String> = r
-                .quantities
-                .iter()
-                .flat_map(|q| q.assumptions.iter())
-                .collect();
-            assumed.sort();
-            assumed.dedup();
+            let assumed = assumed::assumed_lines(sys, res, bi);
             if !assumed.is_empty() {
                 out.push_str("    assumed:\n");
                 for s in assumed {
