@@ -109,8 +109,8 @@ impl<'m> Derivation<'m> {
         // The declared one of the two, off by the ratio of two units (a mass in Mearth meant
         // as Mjup falls below the minimum mass 318 times over).
         let slip = match (s.rule, l.rule) {
-            (None, _) => super::slips::unit_slip(small.1, s.value.nominal, l.value.nominal),
-            (_, None) => super::slips::unit_slip(large.1, l.value.nominal, s.value.nominal),
+            (None, _) => self.slip(small, &s.value, &l.value, Some(true)),
+            (_, None) => self.slip(large, &l.value, &s.value, Some(false)),
             _ => None,
         };
         let mut d = Diagnostic::new(Rule::Inconsistent, span, message)
@@ -141,12 +141,17 @@ impl<'m> Derivation<'m> {
     /// declaration is not always the one used), or the first source averaged for a weighted
     /// mean.
     fn declared_span(&self, k: Key) -> Option<Span> {
+        self.declaration_used(k).map(|d| d.value_span)
+    }
+
+    /// The declaration whose value is used for `k` (see [`Self::declared_span`]).
+    fn declaration_used(&self, k: Key) -> Option<&crate::model::Declared> {
         let body = self.sys.bodies.get(k.0)?;
         match self.chosen.get(&k) {
             Some(c) => {
                 let all = body.sources(k.1);
                 match c.index {
-                    Some(i) => all.get(i).map(|d| d.value_span),
+                    Some(i) => all.get(i).copied(),
                     // A weighted mean: its first source averaged (not a limit, an assumed
                     // value or one without an uncertainty listed before it).
                     None => all
@@ -158,11 +163,117 @@ impl<'m> Derivation<'m> {
                             _ => false,
                         })
                         .or(all.first())
-                        .map(|d| d.value_span),
+                        .copied(),
                 }
             }
-            None => body.get(k.1).map(|d| d.value_span),
+            None => body.get(k.1),
         }
+    }
+
+    /// The unit help for declared `k` (value `declared`) against `other`: a unit slip of
+    /// the declaration, read in the other unit of a common pair, after which the two would
+    /// fit (see [`super::slips`]). `order`: `None` when the two should be equal; `Some(true)`
+    /// when the declared value may not exceed `other` (a true mass below its minimum mass is
+    /// the other way round: `Some(false)`), and then it must also come within a factor of
+    /// 10 of it, since any large enough unit would pass the order alone.
+    fn slip(&self, k: Key, declared: &Value, other: &Value, order: Option<bool>) -> Option<String> {
+        let written = self.declaration_used(k)?.written_unit.as_deref();
+        let spread = |v: &Value| {
+            let (lo, hi) = v.linear_spread(&self.inputs);
+            (lo + hi) / 2.0
+        };
+        let (d, o) = (declared.nominal, other.nominal);
+        let (sd, so) = (spread(declared), spread(other));
+        let threshold = self.options.consistency_sigma;
+        let fits = |x: f64| {
+            let sigma = (sd * x / d).hypot(so);
+            match order {
+                None => (x - o).abs() <= threshold * sigma || super::slips::within_ratio(x, o),
+                Some(true) => x <= o + threshold * sigma && x >= o / 10.0,
+                Some(false) => x >= o - threshold * sigma && x <= o * 10.0,
+            }
+        };
+        super::slips::unit_slip(k.1, written, d, fits)
+    }
+
+    /// A unit slip further up a route: one declared measurement `route` rests on (and
+    /// `other` does not), read in the other unit of a common pair, makes the route, evaluated
+    /// again through its rules, fit `other` (a period in hours meant as days, seen only
+    /// through the star's mass from Kepler's third law: 576 times off).
+    fn upstream_slip(
+        &self,
+        route: (usize, &[Key], &Value, &SortedSet<Key>),
+        other: (&Value, &SortedSet<Key>, &str),
+        unit: DisplayUnit,
+    ) -> Vec<String> {
+        let (rule, inputs, value, deps) = route;
+        let (target, other_deps, other_name) = other;
+        let spread = |v: &Value| {
+            let (lo, hi) = v.linear_spread(&self.inputs);
+            (lo + hi) / 2.0
+        };
+        let (sv, st) = (spread(value), spread(target));
+        let threshold = self.options.consistency_sigma;
+        let mut out = Vec::new();
+        for leaf in self.declared_deps(deps).iter() {
+            if other_deps.contains(leaf) {
+                continue;
+            }
+            let Some(decl) = self.declaration_used(*leaf) else {
+                continue;
+            };
+            for r in super::slips::readings(leaf.1, decl.written_unit.as_deref()) {
+                let Some(x) = self.reevaluate(rule, inputs, *leaf, r.factor, 0) else {
+                    continue;
+                };
+                let sigma = (sv * x / value.nominal).abs().hypot(st);
+                if (x - target.nominal).abs() <= threshold * sigma
+                    || super::slips::within_ratio(x, target.nominal)
+                {
+                    let shown = if unit.symbol == "1" {
+                        crate::format::sig(unit.of(x), 3)
+                    } else {
+                        format!("{} {unit}", crate::format::sig(unit.of(x), 3))
+                    };
+                    out.push(super::slips::upstream_slip(
+                        &self.key_name(*leaf),
+                        &r,
+                        &shown,
+                        other_name,
+                    ));
+                }
+            }
+        }
+        out
+    }
+
+    /// `rule` on `inputs` again, with declared `leaf` multiplied by `factor` wherever the
+    /// inputs rest on it (through their own rules, at most [`REEVALUATE_DEPTH`] deep).
+    fn reevaluate(
+        &self,
+        rule: usize,
+        inputs: &[Key],
+        leaf: Key,
+        factor: f64,
+        depth: usize,
+    ) -> Option<f64> {
+        if depth > REEVALUATE_DEPTH {
+            return None;
+        }
+        let args = inputs
+            .iter()
+            .map(|k| {
+                let e = self.entries.get(k)?;
+                if *k == leaf {
+                    Some(e.value.nominal * factor)
+                } else if !e.deps.contains(&leaf) {
+                    Some(e.value.nominal)
+                } else {
+                    self.reevaluate(e.rule?, &e.inputs, leaf, factor, depth + 1)
+                }
+            })
+            .collect::<Option<Vec<f64>>>()?;
+        (RULES.get(rule)?.eval)(&args).filter(|v| v.is_finite())
     }
 
     /// Whether the value used for `k` is the weighted mean of its sources.
@@ -233,9 +344,34 @@ impl<'m> Derivation<'m> {
             .unwrap_or_default();
         // A declared value off by the ratio of two units says which (318 times: Mearth
         // written for Mjup); else the general advice.
-        let slip = (entry.rule.is_none())
-            .then(|| super::slips::unit_slip(key.1, entry.value.nominal, c.value.nominal))
-            .flatten();
+        // Further up either route too (the candidate's, then the value's own): every reading
+        // that fits is named, since two can (a radius in Rearth meant as Rjup, or the depth
+        // it comes from written as a fraction where % was meant).
+        let name = self.key_name(key);
+        let mut slips: Vec<String> = (entry.rule.is_none())
+            .then(|| self.slip(key, &entry.value, &c.value, None))
+            .flatten()
+            .into_iter()
+            .collect();
+        slips.extend(self.upstream_slip(
+            (c.rule, &c.inputs, &c.value, &c.deps),
+            (&entry.value, &entry.deps, &name),
+            unit,
+        ));
+        if let Some(r) = entry.rule {
+            slips.extend(self.upstream_slip(
+                (r, &entry.inputs, &entry.value, &entry.deps),
+                (&c.value, &c.deps, &name),
+                unit,
+            ));
+        }
+        let slip = (!slips.is_empty()).then(|| {
+            let mut s = slips.join(" Or, ");
+            if let Some(first) = s.get(..1) {
+                s = first.to_uppercase() + &s[1..];
+            }
+            s
+        });
         let mut d = Diagnostic::new(Rule::Inconsistent, span, message)
             .with_help(slip.unwrap_or_else(|| GENERAL_HELP.to_string()));
         if let Some(r) = rule {
@@ -351,6 +487,9 @@ pub(super) fn shared_note(
         crate::format::sig(unit.of(sigma), 2)
     ))
 }
+
+/// How many rules deep a unit slip is traced up a route.
+const REEVALUATE_DEPTH: usize = 8;
 
 /// The help of an inconsistency that no unit slip explains.
 const GENERAL_HELP: &str =

@@ -1,0 +1,96 @@
+//! Unit slips named in an inconsistency's help: the declared value's own unit, or the unit of
+//! a measurement further up the route that disagrees. Every system here is invented.
+
+use crate::derive::Options;
+use crate::diagnostic::Rule;
+use crate::source::FileId;
+use crate::{analyze, Analysis};
+
+fn run(src: &str) -> Analysis {
+    analyze(FileId(0), src, &Options::linear().into())
+}
+
+/// The help of every `inconsistent` finding.
+fn helps(a: &Analysis) -> Vec<String> {
+    a.diagnostics
+        .iter()
+        .filter(|d| d.rule == Rule::Inconsistent)
+        .map(|d| d.help.clone().unwrap_or_default())
+        .collect()
+}
+
+const EVRIN: &str = "system \"Evrin\" {
+  star a { mass = 0.95 ± 0.04 Msun; radius = 0.91 ± 0.03 Rsun; teff = 5500 ± 80 K }
+  planet b orbits a { period = 4.1 ± 0.001 d; semi_major_axis = 0.0475 ± 0.0008 au }
+  planet c orbits a { period = 6.2 ± 0.001 d; transit_depth = 0.12 ± 0.005 %; radius = 3.4 ± 0.2 Rearth }
+}";
+
+#[test]
+fn a_consistent_system_has_nothing_to_name() {
+    // Kepler's third law: 4.1 d around 0.95 Msun is about 0.048 au (common practice: 1 yr at
+    // 1 au around 1 Msun, a ∝ P^(2/3) M^(1/3)); sqrt(0.0012) 0.91 Rsun is 3.44 Rearth.
+    let a = run(EVRIN);
+    assert!(helps(&a).is_empty(), "{:#?}", a.diagnostics);
+}
+
+#[test]
+fn a_period_in_hours_is_found_through_the_star() {
+    // 4.1 h for 4.1 d: the period enters the star's mass from Kepler's third law squared
+    // (576 times too large), and its density from a/R* and P (576 times too).
+    let a = run(&EVRIN.replace("period = 4.1 ± 0.001 d", "period = 4.1 ± 0.001 h"));
+    let found = helps(&a);
+    assert!(!found.is_empty(), "{:#?}", a.diagnostics);
+    for h in &found {
+        assert!(
+            h.contains("was b.period written in h where d was meant?"),
+            "{found:#?}"
+        );
+    }
+}
+
+#[test]
+fn a_depth_as_a_fraction_meant_as_percent_is_found_through_the_radius() {
+    // 0.12 for 0.12 %: the radius ratio is 10 times too large, the radius 34 Rearth.
+    let a = run(&EVRIN.replace("0.12 ± 0.005 %", "0.12 ± 0.005"));
+    let found = helps(&a);
+    assert_eq!(found.len(), 1, "{:#?}", a.diagnostics);
+    assert!(
+        found[0].contains("was c.transit_depth written in a fraction where % was meant?"),
+        "{}",
+        found[0]
+    );
+    // The declared radius read in Rjup fits as well (38 Rearth against 34 ± 1.3): both are
+    // named, the value's own unit first.
+    assert!(
+        found[0].starts_with("Read in Rjup instead of Rearth")
+            && found[0].contains(" Or, read in % "),
+        "{}",
+        found[0]
+    );
+}
+
+#[test]
+fn a_mass_in_earth_masses_meant_as_jupiter_masses_falls_below_the_minimum_mass() {
+    // K = 120 m/s at 4.1 d around 1 Msun is a minimum mass of about 0.95 Mjup (common
+    // practice: 1 Mjup on a 1 yr orbit of 1 Msun gives 28.4 m/s, and K scales as P^(-1/3),
+    // so 127 m/s at 4.1 d).
+    let src = "system \"Dovan\" {
+  star s { mass = 1.0 ± 0.04 Msun; radius = 1.0 ± 0.03 Rsun }
+  planet b orbits s { period = 4.1 ± 0.001 d; rv_amplitude = 120 ± 5 m/s; mass = 1.05 ± 0.05 Mearth }
+}";
+    let a = run(src);
+    let found = helps(&a);
+    assert!(
+        found
+            .iter()
+            .any(|h| h.contains("was it written in Mearth where Mjup was meant?")),
+        "{found:#?}"
+    );
+    // The amplitude in km/s meant as m/s makes the minimum mass about 1000 times too large,
+    // near the ratio of Msun to Mjup; but the mass was written in Mearth, so no unit of the
+    // mass is named.
+    let a = run(&src.replace("120 ± 5 m/s", "120 ± 5 km/s"));
+    let found = helps(&a);
+    assert!(!found.is_empty(), "{:#?}", a.diagnostics);
+    assert!(found.iter().all(|h| !h.contains("Msun")), "{found:#?}");
+}
