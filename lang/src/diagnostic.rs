@@ -53,16 +53,20 @@ macro_rules! rules {
             }
 
             /// Whether the rule keeps its severity whatever the user asks: a syntax error, an
-            /// unreadable file or bodies past a system's bound mean values were not read at
-            /// all, so silencing it would make them disappear without a word.
+            /// unreadable file, or bodies or bindings past a system's bound mean values were
+            /// not read at all, so silencing it would make them disappear without a word.
             pub fn is_fixed(self) -> bool {
-                matches!(self, Rule::Syntax | Rule::Io | Rule::TooManyBodies)
+                matches!(
+                    self,
+                    Rule::Syntax | Rule::Io | Rule::TooManyBodies | Rule::TooManyBindings
+                )
             }
 
             /// Why a fixed rule keeps its severity, in words for messages.
             pub fn why_fixed(self) -> &'static str {
                 match self {
                     Rule::TooManyBodies => "bodies past a system's bound are not read",
+                    Rule::TooManyBindings => "bindings past a system's bound are not evaluated",
                     _ => "a syntax error or an unreadable file means values were not read",
                 }
             }
@@ -89,6 +93,7 @@ rules! {
     UnknownName = "unknown-name", Error, "A name in an expression that is neither a let binding nor a constant.";
     Duplicate = "duplicate", Error, "The same body, reference, binding or quantity is declared twice.";
     TooManyBodies = "too-many-bodies", Error, "A system declares more bodies than one system is read with (1,000); the rest are not read.";
+    TooManyBindings = "too-many-bindings", Error, "A system declares more let bindings than one system is read with (1,000); the rest are not evaluated.";
     OutOfRange = "out-of-range", Error, "A declared value lies outside the range the quantity can take.";
     InvalidValue = "invalid-value", Error, "A number that is not finite, or an expression that cannot be evaluated.";
     Inconsistent = "inconsistent", Warning, "A declared value disagrees with the value derived from other measurements.";

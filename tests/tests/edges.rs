@@ -528,3 +528,71 @@ fn a_system_past_its_bound_on_bodies_says_which_bodies_are_not_read() {
     assert_eq!(v["summary"]["rules"]["too-many-bodies"], 3, "{v}");
     assert!(v["summary"]["rules"].get("unused-allow").is_none(), "{v}");
 }
+
+/// A system evaluates at most 1,000 `let` bindings (`syzygy::model::limits::
+/// MAX_SYSTEM_BINDINGS`): a chain of 1,003 bindings, each adding an uncertain number, is
+/// checked with an error on each binding past the bound that `--allow` cannot silence, and
+/// the period that uses the last one is listed as not used; within the bound the chain keeps
+/// its value (x999 = 1000 ± 0.32, the sum of 1,000 numbers 1 ± 0.01: 0.01 sqrt(1000)).
+#[test]
+fn a_system_past_its_bound_on_bindings_says_which_are_not_evaluated() {
+    let dir = scratch("long-chain");
+    let file = dir.join("long.syz");
+    let chain = |n: usize, uses: &str| {
+        let mut src = String::from(
+            "system \"Long\" {\n  star s { mass = 1 ± 0.01 Msun }\n  let x0 = 1 ± 0.01\n",
+        );
+        for i in 1..n {
+            src.push_str(&format!("  let x{i} = x{} + (1 ± 0.01)\n", i - 1));
+        }
+        src.push_str(&format!(
+            "  planet b orbits s {{ period = {uses} * 0.005 d }}\n}}\n"
+        ));
+        src
+    };
+    let eval_json = || -> serde_json::Value {
+        let args = ["eval", "--format", "json", "--propagation", "linear"];
+        let o = run_bounded(&[&args[..], &[path(&file)]].concat(), HANG);
+        serde_json::from_slice(&o.stdout).unwrap()
+    };
+    std::fs::write(&file, chain(1003, "x1002")).unwrap();
+    let o = run_bounded(
+        &["check", "--allow", "too-many-bindings", path(&file)],
+        HANG,
+    );
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        stderr(&o).contains("'too-many-bindings' cannot be changed"),
+        "{}",
+        stderr(&o)
+    );
+    let o = run_bounded(&["check", "--format", "json", path(&file)], HANG);
+    assert_eq!(o.status.code(), Some(1), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["summary"]["rules"]["too-many-bindings"], 3, "{v}");
+    let v = eval_json();
+    let not_used = v["systems"][0]["not_used"].as_array().unwrap();
+    assert!(
+        not_used
+            .iter()
+            .any(|u| u["body"] == "b" && u["quantity"] == "period"),
+        "{not_used:?}"
+    );
+    // Within the bound: the period is 0.005 d times the last binding's value.
+    std::fs::write(&file, chain(1000, "x999")).unwrap();
+    let v = eval_json();
+    assert!(
+        v["systems"][0]["not_used"]
+            .as_array()
+            .is_none_or(|a| a.is_empty()),
+        "{v}"
+    );
+    let period = &v["systems"][0]["bodies"][1]["quantities"]["period"];
+    let days = period["value"].as_f64().unwrap();
+    let sigma = period["above"].as_f64().unwrap();
+    assert!((days - 5.0).abs() < 1e-9, "{period}");
+    assert!(
+        (sigma / (0.005 * 0.01 * 1000f64.sqrt()) - 1.0).abs() < 1e-6,
+        "{period}"
+    );
+}

@@ -1,8 +1,10 @@
 //! How much of one system is read: a bound on the bodies of a system, so that the results
-//! of one system, held whole until it is written, stay small whatever the file holds.
+//! of one system, held whole until it is written, stay small whatever the file holds, and one
+//! on its `let` bindings, so that the work of first-order propagation stays bounded.
 
 use crate::ast;
 use crate::diagnostic::{Diagnostic, Rule};
+use crate::source::Span;
 
 /// The most bodies read in one system. A planetary system is a star (or a few) and its
 /// planets; a thousand is far past any, and at about 10 kB of results per body (more in
@@ -43,5 +45,37 @@ pub(super) fn too_many_bodies(s: &ast::SystemDecl, b: &ast::BodyDecl, first: boo
 pub fn not_read(system: &str, id: &str) -> String {
     format!(
         "'{id}' is declared but not read: system \"{system}\" has more than {MAX_SYSTEM_BODIES} bodies, the most one system is read with (too-many-bodies)"
+    )
+}
+
+/// The most `let` bindings evaluated in one system (its own and its bodies', in the order
+/// written). A value's first-order uncertainty keeps one slope per uncertain input it rests
+/// on, so a chain of bindings that each add an uncertain number costs the square of its
+/// length: 32,000 such bindings (a 1 MB file) took 4 s, and ten times as many would take
+/// minutes. A thousand is far past what a system's derivation needs, and keeps the square
+/// under a second.
+pub const MAX_SYSTEM_BINDINGS: usize = 1000;
+
+/// The error on a binding past the bound: it is not evaluated, and what uses it has no
+/// value. The first says how to fix it.
+pub(super) fn too_many_bindings(system: &str, name: &str, span: Span, first: bool) -> Diagnostic {
+    let d = Diagnostic::new(
+        Rule::TooManyBindings,
+        span,
+        format!(
+            "let '{name}' is not evaluated: system \"{system}\" already has {MAX_SYSTEM_BINDINGS} \
+             bindings, the most one system is evaluated with"
+        ),
+    );
+    if !first {
+        return d;
+    }
+    d.with_note(
+        "this binding and the ones after it in the system are not evaluated, and values that \
+         use them are not derived; a bound keeps the work of propagating uncertainties small",
+    )
+    .with_help(
+        "compute long series of numbers outside the file and write the results as \
+         measurements, or split the work over several systems",
     )
 }

@@ -218,9 +218,29 @@ impl<'a> Resolver<'a> {
             })
             .collect();
         let (order, cyclic) = self.dependency_order(&all, &edges, diags);
+        // Bindings past the system's bound, in the order written, are not evaluated.
+        let past: rustc_hash::FxHashSet<LetId> = all
+            .iter()
+            .skip(super::limits::MAX_SYSTEM_BINDINGS)
+            .copied()
+            .collect();
+        for (i, id) in all
+            .iter()
+            .skip(super::limits::MAX_SYSTEM_BINDINGS)
+            .enumerate()
+        {
+            if let Some(info) = self.let_info(*id) {
+                diags.push(super::limits::too_many_bindings(
+                    &self.sys.name,
+                    &info.name,
+                    info.name_span,
+                    i == 0,
+                ));
+            }
+        }
         let mut resolved = Vec::with_capacity(all.len());
         for id in order.iter().copied() {
-            let (value, dim) = if cyclic.contains(&id) {
+            let (value, dim) = if cyclic.contains(&id) || past.contains(&id) {
                 (None, None)
             } else {
                 match syntax(id).and_then(|e| self.expr(e, id.body, diags)) {
