@@ -646,9 +646,43 @@ fn plausible_star(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
         .collect::<Vec<_>>()
         .join("; ");
     diags.push(
-        Diagnostic::new(Rule::ImplausibleStar, anchor(d, bi, &[first, Qty::StarMass, Qty::StarRadius]), format!("{name} is not a plausible star: {msg}"))
-            .with_help("check the units: a radius in Rjup or au instead of Rsun, or a mass in Mjup, gives this"),
+        Diagnostic::new(
+            Rule::ImplausibleStar,
+            anchor(d, bi, &[first, Qty::StarMass, Qty::StarRadius]),
+            format!("{name} is not a plausible star: {msg}"),
+        )
+        .with_help(implausible_star_help(d, bi, &problems)),
     );
+}
+
+/// What to check for an implausible star: a unit slip up the route of a derived value that
+/// would make it plausible (a period in hours meant as days, seen through the mass from a
+/// transit's density), else the inputs of the route; for declared values, their units.
+fn implausible_star_help(d: &Derivation, bi: usize, problems: &[(Qty, String)]) -> String {
+    let range = |q: Qty| match q {
+        Qty::Teff => STAR_TEFF,
+        Qty::StarMass => STAR_MASS,
+        _ => STAR_LOG_G,
+    };
+    for (q, _) in problems {
+        let (lo, hi) = range(*q);
+        let found = d.plausible_readings((bi, *q), |x| x >= lo && x <= hi, "a plausible star");
+        if !found.is_empty() {
+            return crate::text::sentence_case(&found.join(" Or, "));
+        }
+    }
+    // Every implausible value derived: the measurements its route rests on are what to check.
+    let derived: Option<Vec<String>> = problems
+        .iter()
+        .map(|(q, _)| d.route_words((bi, *q)))
+        .collect();
+    match derived.as_ref().and_then(|r| r.first()) {
+        Some(route) => format!("{route}: check the units and sources of those measurements"),
+        None => {
+            "check the units: a radius in Rjup or au instead of Rsun, or a mass in Mjup, gives this"
+                .to_string()
+        }
+    }
 }
 
 mod exact;

@@ -12,6 +12,15 @@ pub fn and_list(items: &[String]) -> String {
 }
 
 /// Levenshtein distance over characters.
+/// The text with its first letter in upper case (`read in d ...` -> `Read in d ...`).
+pub fn sentence_case(text: &str) -> String {
+    let mut chars = text.chars();
+    match chars.next() {
+        Some(c) => c.to_uppercase().chain(chars).collect(),
+        None => String::new(),
+    }
+}
+
 pub fn edit_distance(a: &str, b: &str) -> usize {
     let a: Vec<char> = a.chars().collect();
     let b: Vec<char> = b.chars().collect();

@@ -6,7 +6,7 @@
 //! alone surprises nobody.
 
 use crate::ast::BodyKind;
-use crate::derive::rules::{predicts, Slot, RULES};
+use crate::derive::rules::{predicts, RuleDef, Slot, RULES};
 use crate::derive::{has_default, Derivation, Key};
 use crate::diagnostic::{Diagnostic, Rule};
 use crate::model::Content;
@@ -19,9 +19,10 @@ pub(super) fn idle_measurements(d: &Derivation, bi: usize, diags: &mut Vec<Diagn
     let Some(body) = d.sys.bodies.get(bi) else {
         return;
     };
+    let mut unsolved: Vec<(&RuleDef, Vec<&crate::model::Declared>)> = Vec::new();
     for decl in &body.declared {
         if matches!(decl.content, Content::Text(_))
-            || d.is_used((bi, decl.qty))
+            || d.feeds_a_route((bi, decl.qty))
             // A declaration without a value (a limit that cannot be sampled, an expression
             // with no value) is reported where it is refused.
             || d.value((bi, decl.qty)).is_none()
@@ -30,6 +31,14 @@ pub(super) fn idle_measurements(d: &Derivation, bi: usize, diags: &mut Vec<Diagn
             continue;
         }
         let Some((rule, lacking)) = waiting_route(d, bi, body.kind, decl.qty) else {
+            // A rule that had every input but no solution for them: said once for the
+            // rule, below.
+            if let Some(rule) = d.unsolved_with((bi, decl.qty)) {
+                match unsolved.iter_mut().find(|(r, _)| std::ptr::eq(*r, rule)) {
+                    Some((_, decls)) => decls.push(decl),
+                    None => unsolved.push((rule, vec![decl])),
+                }
+            }
             continue;
         };
         // A host star written with nothing in it has a note of its own, which says that
@@ -76,6 +85,9 @@ pub(super) fn idle_measurements(d: &Derivation, bi: usize, diags: &mut Vec<Diagn
             )
             .with_help(help),
         );
+    }
+    for (rule, decls) in unsolved {
+        diags.push(unsolved_note(d, bi, rule, &decls));
     }
 }
 
@@ -172,4 +184,41 @@ fn waiting_route(
         }
     }
     best
+}
+
+/// The note on measurements left unused by a rule that had every input but no solution for
+/// them (the formula's domain excludes the values: T14, T23 and the depth that admit no
+/// impact parameter), with a unit slip of one of its inputs that would give one.
+fn unsolved_note(
+    d: &Derivation,
+    bi: usize,
+    rule: &RuleDef,
+    decls: &[&crate::model::Declared],
+) -> Diagnostic {
+    let names: Vec<String> = decls.iter().map(|x| d.key_name((bi, x.qty))).collect();
+    let listed = crate::text::and_list(&names);
+    let first = names.first().cloned().unwrap_or_default();
+    let slips = d.solving_readings(bi, rule);
+    let help = if slips.is_empty() {
+        format!(
+            "check {listed} and their units against the other inputs of {}; `syz explain FILE {first}` lists the routes",
+            rule.id
+        )
+    } else {
+        crate::text::sentence_case(&slips.join(" Or, "))
+    };
+    let mut diag = Diagnostic::new(
+        Rule::NotDerivable,
+        decls.first().map(|x| x.span).unwrap_or_default(),
+        format!(
+            "nothing is derived from {listed}: {} has no solution for the values given",
+            rule.id
+        ),
+    )
+    .with_help(help)
+    .with_note(format!("{}: {}", rule.id, rule.formula));
+    for x in decls.iter().skip(1) {
+        diag = diag.with_label(x.span, format!("{} is not used", d.key_name((bi, x.qty))));
+    }
+    diag
 }

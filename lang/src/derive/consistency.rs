@@ -40,6 +40,14 @@ impl<'m> Derivation<'m> {
                 if mine.is_subset(&theirs) || theirs.is_subset(&mine) {
                     continue;
                 }
+                // A route through a rule that only fills a gap (the star's mass from a
+                // transit's density) inverts a rule whose own comparison says the same:
+                // compared again through it, one disagreement would be reported twice.
+                if self.through_fill(entry.rule, &entry.inputs, 0)
+                    || self.through_fill(Some(c.rule), &c.inputs, 0)
+                {
+                    continue;
+                }
                 let sigma = entry.value.sigma_of_difference(&c.value, &self.inputs);
                 let diff = (entry.value.nominal - c.value.nominal).abs();
                 let floor = NO_UNCERTAINTY * entry.value.nominal.abs().max(c.value.nominal.abs());
@@ -61,6 +69,26 @@ impl<'m> Derivation<'m> {
                 self.check_order((bi, *small), (bi, *large), why, threshold, &mut reported);
             }
         }
+    }
+
+    /// Whether a value from `rule` on `inputs` rests on a rule that only fills a gap
+    /// ([`rules::stands_in_for`] its own output), up the route at most
+    /// [`super::slips::REEVALUATE_DEPTH`] rules deep.
+    fn through_fill(&self, rule: Option<usize>, inputs: &[Key], depth: usize) -> bool {
+        let Some(r) = rule.and_then(|r| RULES.get(r)) else {
+            return false;
+        };
+        let fills = match (rules::stands_in_for(r.id), r.output) {
+            (Some(q), Slot::Planet(o) | Slot::Host(o) | Slot::Star(o)) => q == o,
+            _ => false,
+        };
+        fills
+            || (depth < super::slips::REEVALUATE_DEPTH
+                && inputs.iter().any(|k| {
+                    self.entries
+                        .get(k)
+                        .is_some_and(|e| self.through_fill(e.rule, &e.inputs, depth + 1))
+                }))
     }
 
     /// `small` may not exceed `large` (a minimum mass and the true mass, a full and a total
@@ -140,12 +168,12 @@ impl<'m> Derivation<'m> {
     /// Where the value used for `k` is declared: the source chosen among several (the first
     /// declaration is not always the one used), or the first source averaged for a weighted
     /// mean.
-    fn declared_span(&self, k: Key) -> Option<Span> {
+    pub(super) fn declared_span(&self, k: Key) -> Option<Span> {
         self.declaration_used(k).map(|d| d.value_span)
     }
 
     /// The declaration whose value is used for `k` (see [`Self::declared_span`]).
-    fn declaration_used(&self, k: Key) -> Option<&crate::model::Declared> {
+    pub(super) fn declaration_used(&self, k: Key) -> Option<&crate::model::Declared> {
         let body = self.sys.bodies.get(k.0)?;
         match self.chosen.get(&k) {
             Some(c) => {
@@ -168,112 +196,6 @@ impl<'m> Derivation<'m> {
             }
             None => body.get(k.1),
         }
-    }
-
-    /// The unit help for declared `k` (value `declared`) against `other`: a unit slip of
-    /// the declaration, read in the other unit of a common pair, after which the two would
-    /// fit (see [`super::slips`]). `order`: `None` when the two should be equal; `Some(true)`
-    /// when the declared value may not exceed `other` (a true mass below its minimum mass is
-    /// the other way round: `Some(false)`), and then it must also come within a factor of
-    /// 10 of it, since any large enough unit would pass the order alone.
-    fn slip(&self, k: Key, declared: &Value, other: &Value, order: Option<bool>) -> Option<String> {
-        let written = self.declaration_used(k)?.written_unit.as_deref();
-        let spread = |v: &Value| {
-            let (lo, hi) = v.linear_spread(&self.inputs);
-            (lo + hi) / 2.0
-        };
-        let (d, o) = (declared.nominal, other.nominal);
-        let (sd, so) = (spread(declared), spread(other));
-        let threshold = self.options.consistency_sigma;
-        let fits = |x: f64| {
-            let sigma = (sd * x / d).hypot(so);
-            match order {
-                None => (x - o).abs() <= threshold * sigma || super::slips::within_ratio(x, o),
-                Some(true) => x <= o + threshold * sigma && x >= o / 10.0,
-                Some(false) => x >= o - threshold * sigma && x <= o * 10.0,
-            }
-        };
-        super::slips::unit_slip(k.1, written, d, fits)
-    }
-
-    /// A unit slip further up a route: one declared measurement `route` rests on (and
-    /// `other` does not), read in the other unit of a common pair, makes the route, evaluated
-    /// again through its rules, fit `other` (a period in hours meant as days, seen only
-    /// through the star's mass from Kepler's third law: 576 times off).
-    fn upstream_slip(
-        &self,
-        route: (usize, &[Key], &Value, &SortedSet<Key>),
-        other: (&Value, &SortedSet<Key>, &str),
-        unit: DisplayUnit,
-    ) -> Vec<String> {
-        let (rule, inputs, value, deps) = route;
-        let (target, other_deps, other_name) = other;
-        let spread = |v: &Value| {
-            let (lo, hi) = v.linear_spread(&self.inputs);
-            (lo + hi) / 2.0
-        };
-        let (sv, st) = (spread(value), spread(target));
-        let threshold = self.options.consistency_sigma;
-        let mut out = Vec::new();
-        for leaf in self.declared_deps(deps).iter() {
-            if other_deps.contains(leaf) {
-                continue;
-            }
-            let Some(decl) = self.declaration_used(*leaf) else {
-                continue;
-            };
-            for r in super::slips::readings(leaf.1, decl.written_unit.as_deref()) {
-                let Some(x) = self.reevaluate(rule, inputs, *leaf, r.factor, 0) else {
-                    continue;
-                };
-                let sigma = (sv * x / value.nominal).abs().hypot(st);
-                if (x - target.nominal).abs() <= threshold * sigma
-                    || super::slips::within_ratio(x, target.nominal)
-                {
-                    let shown = if unit.symbol == "1" {
-                        crate::format::sig(unit.of(x), 3)
-                    } else {
-                        format!("{} {unit}", crate::format::sig(unit.of(x), 3))
-                    };
-                    out.push(super::slips::upstream_slip(
-                        &self.key_name(*leaf),
-                        &r,
-                        &shown,
-                        other_name,
-                    ));
-                }
-            }
-        }
-        out
-    }
-
-    /// `rule` on `inputs` again, with declared `leaf` multiplied by `factor` wherever the
-    /// inputs rest on it (through their own rules, at most [`REEVALUATE_DEPTH`] deep).
-    fn reevaluate(
-        &self,
-        rule: usize,
-        inputs: &[Key],
-        leaf: Key,
-        factor: f64,
-        depth: usize,
-    ) -> Option<f64> {
-        if depth > REEVALUATE_DEPTH {
-            return None;
-        }
-        let args = inputs
-            .iter()
-            .map(|k| {
-                let e = self.entries.get(k)?;
-                if *k == leaf {
-                    Some(e.value.nominal * factor)
-                } else if !e.deps.contains(&leaf) {
-                    Some(e.value.nominal)
-                } else {
-                    self.reevaluate(e.rule?, &e.inputs, leaf, factor, depth + 1)
-                }
-            })
-            .collect::<Option<Vec<f64>>>()?;
-        (RULES.get(rule)?.eval)(&args).filter(|v| v.is_finite())
     }
 
     /// Whether the value used for `k` is the weighted mean of its sources.
@@ -365,13 +287,7 @@ impl<'m> Derivation<'m> {
                 unit,
             ));
         }
-        let slip = (!slips.is_empty()).then(|| {
-            let mut s = slips.join(" Or, ");
-            if let Some(first) = s.get(..1) {
-                s = first.to_uppercase() + &s[1..];
-            }
-            s
-        });
+        let slip = (!slips.is_empty()).then(|| crate::text::sentence_case(&slips.join(" Or, ")));
         let mut d = Diagnostic::new(Rule::Inconsistent, span, message)
             .with_help(slip.unwrap_or_else(|| GENERAL_HELP.to_string()));
         if let Some(r) = rule {
@@ -487,9 +403,6 @@ pub(super) fn shared_note(
         crate::format::sig(unit.of(sigma), 2)
     ))
 }
-
-/// How many rules deep a unit slip is traced up a route.
-const REEVALUATE_DEPTH: usize = 8;
 
 /// The help of an inconsistency that no unit slip explains.
 const GENERAL_HELP: &str =

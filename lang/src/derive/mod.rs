@@ -214,6 +214,13 @@ pub struct Derivation<'m> {
     focus: Option<FxHashSet<Key>>,
     /// Draw samples for every input, even those no value of the focus rests on.
     draw_all: bool,
+    /// Rules whose inputs were all known but which gave no value for them (outside their
+    /// formula's domain: durations that admit no impact parameter), with those inputs: the
+    /// measurements they leave unused say why.
+    no_solution: Vec<(usize, Vec<Key>)>,
+    /// Inputs of every route found, the value's or an alternative compared with it: a
+    /// measurement among them is not idle, even where another route gave the value.
+    fed: FxHashSet<Key>,
 }
 
 /// The most samples adaptive Monte Carlo draws for one system (besides the memory bound of
@@ -385,6 +392,8 @@ impl<'m> Derivation<'m> {
             bounded: FxHashMap::default(),
             focus,
             draw_all,
+            no_solution: Vec::new(),
+            fed: FxHashSet::default(),
         };
         d.declare_measurements();
         d.fixed_point();
@@ -421,6 +430,22 @@ impl<'m> Derivation<'m> {
     /// Whether a derived value was computed from `k` (it is an input of a chosen route).
     pub fn is_used(&self, k: Key) -> bool {
         self.used.contains(&k)
+    }
+
+    /// Whether `k` is an input of any route found (the value's own or an alternative
+    /// compared with it).
+    pub fn feeds_a_route(&self, k: Key) -> bool {
+        self.used.contains(&k) || self.fed.contains(&k)
+    }
+
+    /// The first rule that takes `k` and had every input but gave no value for them.
+    pub fn unsolved_with(&self, k: Key) -> Option<&'static RuleDef> {
+        // A prediction outside its relation's range says so in a note of its own.
+        self.no_solution
+            .iter()
+            .filter_map(|(ri, ins)| Some((RULES.get(*ri)?, ins)))
+            .find(|(r, ins)| ins.contains(&k) && !rules::predicts(r.id))
+            .map(|(r, _)| r)
     }
 
     pub fn origin(&self, k: Key) -> Option<Origin> {

@@ -204,6 +204,7 @@ impl<'m> Derivation<'m> {
                         }
                     }
                     let Some(value) = value::apply(&rule.eval, &args, &self.inputs) else {
+                        self.no_solution.push((ri, ins));
                         continue;
                     };
                     let value = if rules::predicts(rule.id) {
@@ -218,6 +219,7 @@ impl<'m> Derivation<'m> {
                     if !self.entries.contains_key(&out) {
                         fresh.push(out);
                     }
+                    self.fed.extend(ins.iter().copied());
                     self.candidates.entry(out).or_default().push(Candidate {
                         rule: ri,
                         value,

@@ -6,6 +6,8 @@
 //! as m/s makes a mass about 1000 times too large, near Msun/Mjup, though no mass was written
 //! in either), and the ratio must hold within 5 %.
 
+use super::rules::{RuleDef, RULES};
+use super::{Derivation, DisplayUnit, Key, SortedSet, Value};
 use crate::constants::{AU, DAY, M_EARTH, M_JUPITER, M_SUN, R_EARTH, R_JUPITER, R_SUN};
 use crate::quantities::Qty;
 
@@ -21,10 +23,12 @@ fn pairs(q: Qty) -> &'static [Pair] {
     const MASS: &[Pair] = &[
         (("Mjup", M_JUPITER), ("Mearth", M_EARTH)),
         (("Msun", M_SUN), ("Mjup", M_JUPITER)),
+        (("Msun", M_SUN), ("Mearth", M_EARTH)),
     ];
     const RADIUS: &[Pair] = &[
         (("Rjup", R_JUPITER), ("Rearth", R_EARTH)),
         (("Rsun", R_SUN), ("Rjup", R_JUPITER)),
+        (("Rsun", R_SUN), ("Rearth", R_EARTH)),
     ];
     const AXIS: &[Pair] = &[(("au", AU), ("Rsun", R_SUN)), (("au", AU), ("km", 1e3))];
     const PERIOD: &[Pair] = &[
@@ -38,10 +42,10 @@ fn pairs(q: Qty) -> &'static [Pair] {
         (("a fraction", 1.0), ("%", 1e-2)),
     ];
     match q {
-        // A star's mass and radius are written in solar units; a planet's unit read as the
-        // star's would make a brown dwarf of it, which no slip explains.
-        Qty::Mass | Qty::MinMass => MASS,
-        Qty::Radius => RADIUS,
+        // A star's mass and radius are read in a planet's units only one way (see
+        // [`readings`]).
+        Qty::Mass | Qty::MinMass | Qty::StarMass => MASS,
+        Qty::Radius | Qty::StarRadius => RADIUS,
         Qty::SemiMajorAxis => AXIS,
         Qty::Period => PERIOD,
         Qty::TransitDuration | Qty::TransitDurationFull => DURATION,
@@ -97,14 +101,23 @@ impl Reading {
 /// each pair of `q`'s units that holds the unit written, the value read in the other.
 pub(super) fn readings(q: Qty, written: Option<&str>) -> Vec<Reading> {
     let mut out = Vec::new();
+    // A star's mass or radius written in a planet's unit may have been meant in the Sun's,
+    // and a planet's written in the Sun's in a planet's; the other way round would make a
+    // brown dwarf of the star, or a star of the planet, which no slip explains.
+    let solar = |u: &str| u == "Msun" || u == "Rsun";
+    let meant_ok = |meant: &str| match q {
+        Qty::StarMass | Qty::StarRadius => solar(meant),
+        Qty::Mass | Qty::MinMass | Qty::Radius => !solar(meant),
+        _ => true,
+    };
     for &((big, big_si), (small, small_si)) in pairs(q) {
-        if written_in(written, small_si) {
+        if written_in(written, small_si) && meant_ok(big) {
             out.push(Reading {
                 factor: big_si / small_si,
                 written: small,
                 meant: big,
             });
-        } else if written_in(written, big_si) {
+        } else if written_in(written, big_si) && meant_ok(small) {
             out.push(Reading {
                 factor: small_si / big_si,
                 written: big,
@@ -155,6 +168,219 @@ pub(super) fn upstream_slip(name: &str, r: &Reading, shown: &str, other: &str) -
 /// uncertainties say nothing better).
 pub(super) fn within_ratio(x: f64, derived: f64) -> bool {
     (x / derived).ln().abs() < WITHIN.ln()
+}
+
+/// How many rules deep a unit slip is traced up a route.
+pub(super) const REEVALUATE_DEPTH: usize = 8;
+
+impl<'m> Derivation<'m> {
+    /// For a rule of body `bi` that had every input but no solution: each declared transit
+    /// duration of a quarter of the period or more (longer than any transit lasts) that, read
+    /// in the smaller unit of a common pair, gives it one (a total transit duration written
+    /// in days where hours were meant), in words. Other inputs are not read otherwise: for
+    /// durations that merely contradict each other, some reading of some input nearly
+    /// always gives a solution, and naming it would mislead.
+    pub fn solving_readings(&self, bi: usize, rule: &RuleDef) -> Vec<String> {
+        let Some((ri, ins)) = self.no_solution.iter().find(|(ri, ins)| {
+            RULES.get(*ri).is_some_and(|r| std::ptr::eq(r, rule)) && ins.iter().any(|k| k.0 == bi)
+        }) else {
+            return Vec::new();
+        };
+        let period = ins
+            .iter()
+            .find(|k| k.1 == Qty::Period)
+            .and_then(|k| self.entries.get(k))
+            .map(|e| e.value.nominal);
+        let mut out = Vec::new();
+        for leaf in ins {
+            let Some(e) = self.entries.get(leaf).filter(|e| e.rule.is_none()) else {
+                continue;
+            };
+            let too_long = period.is_some_and(|p| e.value.nominal >= p / 4.0);
+            if !matches!(leaf.1, Qty::TransitDuration | Qty::TransitDurationFull) || !too_long {
+                continue;
+            }
+            let Some(decl) = self.declaration_used(*leaf) else {
+                continue;
+            };
+            for r in readings(leaf.1, decl.written_unit.as_deref()) {
+                if r.factor < 1.0 && self.reevaluate(*ri, ins, *leaf, r.factor, 0).is_some() {
+                    out.push(format!(
+                        "read in {} instead of {} {}, {} gives {} a solution: {}",
+                        r.meant,
+                        r.written,
+                        r.change(),
+                        self.key_name(*leaf),
+                        rule.id,
+                        r.question().replacen("it", &self.key_name(*leaf), 1)
+                    ));
+                }
+            }
+        }
+        out
+    }
+
+    /// `brisk.mass is derived (mass-from-density) from b.period, b.scaled_semi_major_axis
+    /// and brisk.radius`: the rule of a derived value and the measurements it rests on, when
+    /// one of them is another body's (a value from the body's own measurements points at
+    /// their units).
+    pub fn route_words(&self, key: Key) -> Option<String> {
+        let e = self.entries.get(&key)?;
+        let rule = RULES.get(e.rule?)?;
+        let deps = self.declared_deps(&e.deps);
+        if deps.iter().all(|k| k.0 == key.0) {
+            return None;
+        }
+        let names: Vec<String> = deps.iter().map(|k| self.key_name(*k)).collect();
+        Some(format!(
+            "{} is derived ({}) from {}",
+            self.key_name(key),
+            rule.id,
+            crate::text::and_list(&names)
+        ))
+    }
+
+    /// For a derived value `key` that a check finds implausible: each declared measurement
+    /// up its route that, read in the other unit of a common pair, would make it plausible
+    /// (`ok`, on the SI value), in words (`fits` names what it would then be); empty when
+    /// the value is declared or no reading helps.
+    pub fn plausible_readings(
+        &self,
+        key: Key,
+        ok: impl Fn(f64) -> bool,
+        fits: &str,
+    ) -> Vec<String> {
+        let Some(e) = self.entries.get(&key) else {
+            return Vec::new();
+        };
+        let Some(rule) = e.rule else {
+            return Vec::new();
+        };
+        let mut out = Vec::new();
+        for leaf in self.declared_deps(&e.deps).iter() {
+            let Some(decl) = self.declaration_used(*leaf) else {
+                continue;
+            };
+            for r in readings(leaf.1, decl.written_unit.as_deref()) {
+                let Some(x) = self.reevaluate(rule, &e.inputs, *leaf, r.factor, 0) else {
+                    continue;
+                };
+                if ok(x) {
+                    let unit = super::display_unit(key.1, x);
+                    let shown = format!("{} {unit}", crate::format::sig(unit.of(x), 3));
+                    out.push(upstream_slip(&self.key_name(*leaf), &r, &shown, fits));
+                }
+            }
+        }
+        out
+    }
+
+    /// The unit help for declared `k` (value `declared`) against `other`: a unit slip of
+    /// the declaration, read in the other unit of a common pair, after which the two would
+    /// fit (see [`super::slips`]). `order`: `None` when the two should be equal; `Some(true)`
+    /// when the declared value may not exceed `other` (a true mass below its minimum mass is
+    /// the other way round: `Some(false)`), and then it must also come within a factor of
+    /// 10 of it, since any large enough unit would pass the order alone.
+    pub(super) fn slip(
+        &self,
+        k: Key,
+        declared: &Value,
+        other: &Value,
+        order: Option<bool>,
+    ) -> Option<String> {
+        let written = self.declaration_used(k)?.written_unit.as_deref();
+        let spread = |v: &Value| {
+            let (lo, hi) = v.linear_spread(&self.inputs);
+            (lo + hi) / 2.0
+        };
+        let (d, o) = (declared.nominal, other.nominal);
+        let (sd, so) = (spread(declared), spread(other));
+        let threshold = self.options.consistency_sigma;
+        let fits = |x: f64| {
+            let sigma = (sd * x / d).hypot(so);
+            match order {
+                None => (x - o).abs() <= threshold * sigma || within_ratio(x, o),
+                Some(true) => x <= o + threshold * sigma && x >= o / 10.0,
+                Some(false) => x >= o - threshold * sigma && x <= o * 10.0,
+            }
+        };
+        unit_slip(k.1, written, d, fits)
+    }
+
+    /// A unit slip further up a route: one declared measurement `route` rests on (and
+    /// `other` does not), read in the other unit of a common pair, makes the route, evaluated
+    /// again through its rules, fit `other` (a period in hours meant as days, seen only
+    /// through the star's mass from Kepler's third law: 576 times off).
+    pub(super) fn upstream_slip(
+        &self,
+        route: (usize, &[Key], &Value, &SortedSet<Key>),
+        other: (&Value, &SortedSet<Key>, &str),
+        unit: DisplayUnit,
+    ) -> Vec<String> {
+        let (rule, inputs, value, deps) = route;
+        let (target, other_deps, other_name) = other;
+        let spread = |v: &Value| {
+            let (lo, hi) = v.linear_spread(&self.inputs);
+            (lo + hi) / 2.0
+        };
+        let (sv, st) = (spread(value), spread(target));
+        let threshold = self.options.consistency_sigma;
+        let mut out = Vec::new();
+        for leaf in self.declared_deps(deps).iter() {
+            if other_deps.contains(leaf) {
+                continue;
+            }
+            let Some(decl) = self.declaration_used(*leaf) else {
+                continue;
+            };
+            for r in readings(leaf.1, decl.written_unit.as_deref()) {
+                let Some(x) = self.reevaluate(rule, inputs, *leaf, r.factor, 0) else {
+                    continue;
+                };
+                let sigma = (sv * x / value.nominal).abs().hypot(st);
+                if (x - target.nominal).abs() <= threshold * sigma
+                    || within_ratio(x, target.nominal)
+                {
+                    let shown = if unit.symbol == "1" {
+                        crate::format::sig(unit.of(x), 3)
+                    } else {
+                        format!("{} {unit}", crate::format::sig(unit.of(x), 3))
+                    };
+                    out.push(upstream_slip(&self.key_name(*leaf), &r, &shown, other_name));
+                }
+            }
+        }
+        out
+    }
+
+    /// `rule` on `inputs` again, with declared `leaf` multiplied by `factor` wherever the
+    /// inputs rest on it (through their own rules, at most [`REEVALUATE_DEPTH`] deep).
+    fn reevaluate(
+        &self,
+        rule: usize,
+        inputs: &[Key],
+        leaf: Key,
+        factor: f64,
+        depth: usize,
+    ) -> Option<f64> {
+        if depth > REEVALUATE_DEPTH {
+            return None;
+        }
+        let args = inputs
+            .iter()
+            .map(|k| {
+                let e = self.entries.get(k)?;
+                if *k == leaf {
+                    Some(e.value.nominal * factor)
+                } else if !e.deps.contains(&leaf) {
+                    Some(e.value.nominal)
+                } else {
+                    self.reevaluate(e.rule?, &e.inputs, leaf, factor, depth + 1)
+                }
+            })
+            .collect::<Option<Vec<f64>>>()?;
+        (RULES.get(rule)?.eval)(&args).filter(|v| v.is_finite())
+    }
 }
 
 #[cfg(test)]

@@ -94,3 +94,100 @@ fn a_mass_in_earth_masses_meant_as_jupiter_masses_falls_below_the_minimum_mass()
     assert!(!found.is_empty(), "{:#?}", a.diagnostics);
     assert!(found.iter().all(|h| !h.contains("Msun")), "{found:#?}");
 }
+
+/// The help of every finding of `rule`.
+fn helps_of(a: &Analysis, rule: Rule) -> Vec<String> {
+    a.diagnostics
+        .iter()
+        .filter(|d| d.rule == rule)
+        .map(|d| d.help.clone().unwrap_or_default())
+        .collect()
+}
+
+#[test]
+fn an_implausible_star_from_a_period_in_hours_names_the_period() {
+    // The star's mass comes only from the transit's density, 3 pi (a/R*)^3 / (G P^2)
+    // (Seager & Mallén-Ornelas 2003 eq. 9): a period of 4.2 h for 4.2 d makes it 576 times
+    // too large (608 Msun), and the help names the period, not the star's units.
+    let src = "system \"Brisk\" {
+  star s { radius = 0.97 ± 0.03 Rsun; teff = 5700 ± 100 K }
+  planet b orbits s { period = 4.2 ± 0.0001 h; a_rs = 11.5 ± 0.3 }
+}";
+    let a = run(src);
+    let found = helps_of(&a, Rule::ImplausibleStar);
+    assert_eq!(found.len(), 1, "{:#?}", a.diagnostics);
+    assert!(
+        found[0].contains("was b.period written in h where d was meant?"),
+        "{}",
+        found[0]
+    );
+    // A star whose mass was declared keeps the help about its own units.
+    let declared = "system \"Brisk\" {\n  star s { mass = 600 Msun; radius = 0.97 Rsun }\n}";
+    let found = helps_of(&run(declared), Rule::ImplausibleStar);
+    assert!(found[0].starts_with("check the units"), "{found:?}");
+}
+
+#[test]
+fn durations_with_no_solution_are_said_once_and_a_long_one_is_read_in_hours() {
+    // T14 and T23 so close (3.9 h and 3.8 h) that with k = sqrt(0.3 %) no impact parameter
+    // gives them (Seager & Mallén-Ornelas 2003 eq. 7: b^2 < 0): one note names both, and no
+    // unit is suggested, since no duration is longer than a transit can last.
+    let src = "system \"Lumen\" {
+  star s { radius = 0.90 ± 0.03 Rsun; mass = 1.0 ± 0.05 Msun }
+  planet c orbits s {
+    period = 11.0 ± 0.001 d
+    transit_depth = 0.3 ± 0.02 %
+    transit_duration = 3.9 ± 0.05 h
+    transit_duration_full = 3.8 ± 0.05 h
+  }
+}";
+    let a = run(src);
+    let notes: Vec<_> = a
+        .diagnostics
+        .iter()
+        .filter(|d| d.rule == Rule::NotDerivable)
+        .collect();
+    assert_eq!(notes.len(), 1, "{:#?}", a.diagnostics);
+    assert_eq!(
+        notes[0].message,
+        "nothing is derived from c.transit_duration and c.transit_duration_full: impact-from-durations has no solution for the values given"
+    );
+    assert!(notes[0].help.as_deref().unwrap_or("").starts_with("check "));
+    // A total duration of 2.9 d on a 5.1 d orbit is no transit; 2.9 h is.
+    let long = src
+        .replace("3.9 ± 0.05 h", "2.9 ± 0.03 d")
+        .replace("3.8 ± 0.05 h", "2.3 ± 0.03 h")
+        .replace("11.0 ± 0.001 d", "5.1 ± 0.001 d")
+        .replace("0.3 ± 0.02 %", "1.0 ± 0.02 %");
+    let found = helps_of(&run(&long), Rule::NotDerivable);
+    assert!(
+        found
+            .iter()
+            .any(|h| h.contains("was c.transit_duration written in d where h was meant?")),
+        "{found:#?}"
+    );
+}
+
+#[test]
+fn two_transits_that_disagree_on_the_star_are_one_finding() {
+    // Two planets' a/R* give the star two densities (2.00 and 1.15 g/cm^3); the star's mass
+    // filled from one and compared with Kepler's law through the other would say the same
+    // again.
+    let src = "system \"Lumen\" {
+  star s { radius = 0.90 ± 0.03 Rsun }
+  planet b orbits s { period = 5.1 ± 0.0001 d; a_rs = 14.0 ± 0.4 }
+  planet c orbits s { period = 9.0 ± 0.0001 d; a_rs = 17.0 ± 0.4 }
+}";
+    let a = run(src);
+    let found: Vec<_> = a
+        .diagnostics
+        .iter()
+        .filter(|d| d.rule == Rule::Inconsistent)
+        .collect();
+    assert_eq!(found.len(), 1, "{:#?}", a.diagnostics);
+    assert!(
+        found[0].message.starts_with("s.density = "),
+        "{}",
+        found[0].message
+    );
+}
