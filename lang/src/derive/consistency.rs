@@ -20,7 +20,9 @@ const ORDERED: &[(Qty, Qty, &str)] = &[
 impl<'m> Derivation<'m> {
     pub(super) fn check_consistency(&mut self) {
         let threshold = self.options.consistency_sigma;
-        let mut reported: FxHashSet<SortedSet<Key>> = FxHashSet::default();
+        // Every disagreement with the measurements it involves; reported below, fewest
+        // measurements first.
+        let mut found: Vec<(SortedSet<Key>, Diagnostic)> = Vec::new();
         let keys: Vec<Key> = self.candidates.keys().copied().collect();
         for key in keys {
             let (Some(entry), Some(cands)) = (self.entries.get(&key), self.candidates.get(&key))
@@ -57,17 +59,30 @@ impl<'m> Derivation<'m> {
                 }
                 let mut involved: SortedSet<Key> = entry.deps.union(&c.deps);
                 involved.retain(|k| self.entries.get(k).is_some_and(|e| e.rule.is_none()));
-                if !reported.insert(involved.clone()) {
+                if found.iter().any(|(f, _)| *f == involved) {
                     continue;
                 }
                 let diag = self.inconsistency(key, entry, c, (z, sigma), &involved);
-                self.diagnostics.push(diag);
+                found.push((involved, diag));
             }
         }
         for bi in 0..self.sys.bodies.len() {
             for (small, large, why) in ORDERED {
-                self.check_order((bi, *small), (bi, *large), why, threshold, &mut reported);
+                self.check_order((bi, *small), (bi, *large), why, threshold, &mut found);
             }
+        }
+        // One disagreement shows in every comparison whose measurements include those
+        // that disagree (a declared axis against the star's mass by Kepler's law, and again
+        // against its density through a/R*): the comparison with the fewest measurements is
+        // reported, and none whose measurements include all of a reported one's.
+        found.sort_by_key(|(involved, _)| involved.len());
+        let mut reported: Vec<SortedSet<Key>> = Vec::new();
+        for (involved, diag) in found {
+            if reported.iter().any(|r| r.is_subset(&involved)) {
+                continue;
+            }
+            reported.push(involved);
+            self.diagnostics.push(diag);
         }
     }
 
@@ -100,7 +115,7 @@ impl<'m> Derivation<'m> {
         large: Key,
         why: &str,
         threshold: f64,
-        reported: &mut FxHashSet<SortedSet<Key>>,
+        found: &mut Vec<(SortedSet<Key>, Diagnostic)>,
     ) {
         let (Some(s), Some(l)) = (self.entries.get(&small), self.entries.get(&large)) else {
             return;
@@ -118,7 +133,7 @@ impl<'m> Derivation<'m> {
         }
         let mut involved: SortedSet<Key> = s.deps.union(&l.deps);
         involved.retain(|k| self.entries.get(k).is_some_and(|e| e.rule.is_none()));
-        if !reported.insert(involved.clone()) {
+        if found.iter().any(|(f, _)| *f == involved) {
             return;
         }
         let unit = display_unit(small.1, s.value.nominal);
@@ -148,7 +163,7 @@ impl<'m> Derivation<'m> {
         }
         self.grade(&mut d, z);
         let d = self.label_involved(d, span, &involved);
-        self.diagnostics.push(d);
+        found.push((involved, d));
     }
 
     /// [`shared_note`] for two values.
