@@ -437,16 +437,11 @@ pub fn eval_text(a: &Analysis, db: &dyn SourceDb) -> String {
                     out.push_str(&format!("      - {s}\n"));
                 }
             }
-            let mut notes: Vec<String> = r
-                .quantities
-                .iter()
-                .flat_map(|q| {
-                    q.notes
-                        .iter()
-                        .map(move |n| format!("{}: {n}", quantities::def(q.qty).name))
-                })
-                .collect();
-            notes.dedup();
+            let notes = assumed::grouped(r.quantities.iter().flat_map(|q| {
+                q.notes
+                    .iter()
+                    .map(move |n| (quantities::def(q.qty).name, n.as_str()))
+            }));
             for n in notes {
                 out.push_str(&format!("    note: {n}\n"));
             }
