@@ -433,9 +433,9 @@ impl<'m> Derivation<'m> {
     }
 
     /// Whether `k` is an input of any route found (the value's own or an alternative
-    /// compared with it).
+    /// compared with it), or itself compared with a route to it.
     pub fn feeds_a_route(&self, k: Key) -> bool {
-        self.used.contains(&k) || self.fed.contains(&k)
+        self.used.contains(&k) || self.fed.contains(&k) || self.candidates.contains_key(&k)
     }
 
     /// The first rule that takes `k` and had every input but gave no value for them.

@@ -191,3 +191,26 @@ fn two_transits_that_disagree_on_the_star_are_one_finding() {
         found[0].message
     );
 }
+
+#[test]
+fn a_declared_value_compared_with_a_route_is_not_called_idle() {
+    // a/R* = 0.8 (inside the star) gives the star no density, but the value is compared with
+    // a/R* from Kepler's law (about 18): the disagreement says what became of it, and no
+    // note calls it unused.
+    let src = "system \"Gorm\" {
+  star s { mass = 1 ± 0.05 Msun; radius = 1 ± 0.03 Rsun }
+  planet c orbits s { period = 9 ± 0.001 d; a_rs = 0.8 ± 0.05 }
+}";
+    let a = run(src);
+    assert_eq!(
+        helps_of(&a, Rule::Inconsistent).len(),
+        1,
+        "{:#?}",
+        a.diagnostics
+    );
+    assert!(
+        helps_of(&a, Rule::NotDerivable).is_empty(),
+        "{:#?}",
+        a.diagnostics
+    );
+}

@@ -532,6 +532,24 @@ fn an_unquoted_spectral_type_is_shown_in_quotes() {
     );
 }
 
+/// A unit on a plain number: the help offers % and ppm only for a quantity written as a
+/// fraction (a depth), not for a/R*, where a percentage means nothing.
+#[test]
+fn a_unit_on_a_plain_number_is_dropped_and_percent_offered_only_for_fractions() {
+    let (_, diags) = lower_text(
+        "system \"S\" {\n star s { mass = 1 Msun }\n planet b orbits s { a_rs = 9.5 Rsun; transit_depth = 0.5 Rsun }\n}\n",
+    );
+    let helps: Vec<&str> = diags.iter().filter_map(|d| d.help.as_deref()).collect();
+    assert_eq!(
+        helps,
+        [
+            "'scaled_semi_major_axis' is a plain number; drop the unit",
+            "'transit_depth' is a plain number; drop the unit or use % or ppm",
+        ],
+        "{diags:?}"
+    );
+}
+
 /// A UTC timestamp before 1972 is refused when the file is read (its seconds were not SI
 /// seconds, so no time scale follows from it); `syz check` passed it, and only `ephemeris`
 /// refused it later. 1972-01-01T00:00:00Z itself is taken.

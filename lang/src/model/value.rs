@@ -667,9 +667,12 @@ fn mismatch_for(
             d = d.with_note("angles and plain numbers are different types: write `deg` or `rad`");
         }
     } else if def.dim == Dimension::NONE {
+        // % and ppm only where the quantity is a fraction people write so (a depth).
+        let fraction = matches!(unit_suffix(def), "%" | "ppm");
         d = d.with_help(format!(
-            "'{}' is a plain number; drop the unit or use % or ppm",
-            def.name
+            "'{}' is a plain number; drop the unit{}",
+            def.name,
+            if fraction { " or use % or ppm" } else { "" }
         ));
     } else if unit.text.starts_with("ms") && def.dim == Dimension::LENGTH.per(Dimension::TIME) {
         // `ms^-1` is per millisecond: the metre and the second need a space or a `/`.
