@@ -70,6 +70,7 @@ impl<'m> Derivation<'m> {
             for (small, large, why) in ORDERED {
                 self.check_order((bi, *small), (bi, *large), why, threshold, &mut found);
             }
+            self.check_transit_mass(bi, threshold, &mut found);
         }
         // One disagreement shows in every comparison whose measurements include those
         // that disagree (a declared axis against the star's mass by Kepler's law, and again
@@ -161,6 +162,90 @@ impl<'m> Derivation<'m> {
         if let Some(n) = self.shared(unit, &s.value, &l.value, sigma) {
             d = d.with_note(n);
         }
+        self.grade(&mut d, z);
+        let d = self.label_involved(d, span, &involved);
+        found.push((involved, d));
+    }
+
+    /// A transiting planet's declared mass may not exceed its minimum mass over the sine of
+    /// the lowest inclination at which it still transits: cos i <= (1 + k) / (a/R*), widened
+    /// for an eccentric orbit by 1/(1 - e) (the most (1 + e sin omega)/(1 - e^2) can be;
+    /// Winn 2010 eq. 7 with b <= 1 + k). Checked where no inclination is known (with one,
+    /// the true mass is derived and compared as a route); the planet's mass in M* + Mp is
+    /// neglected in the bound, which only makes it looser for a heavy planet.
+    fn check_transit_mass(
+        &mut self,
+        bi: usize,
+        threshold: f64,
+        found: &mut Vec<(SortedSet<Key>, Diagnostic)>,
+    ) {
+        let get = |q: Qty| self.entries.get(&(bi, q));
+        let transits = [Qty::TransitDepth, Qty::RadiusRatio, Qty::TransitDuration]
+            .iter()
+            .any(|q| get(*q).is_some_and(|e| e.rule.is_none()));
+        if !transits || get(Qty::Inclination).is_some() {
+            return;
+        }
+        let (Some(mass), Some(min), Some(ars)) =
+            (get(Qty::Mass), get(Qty::MinMass), get(Qty::ScaledAxis))
+        else {
+            return;
+        };
+        if mass.rule.is_some() {
+            return; // only a declared mass is bounded here
+        }
+        let k = get(Qty::RadiusRatio).map_or(0.0, |e| e.value.nominal.max(0.0));
+        let e = get(Qty::Eccentricity).map_or(0.0, |e| e.value.nominal.clamp(0.0, 0.99));
+        // a/R* two standard deviations low: the bound errs on the side of no finding.
+        let (lo, _) = ars.value.linear_spread(&self.inputs);
+        let ars_low = ars.value.nominal - 2.0 * lo;
+        let cos_max = (1.0 + k) / (ars_low * (1.0 - e));
+        if !(cos_max.is_finite() && cos_max > 0.0 && cos_max < 1.0) {
+            return;
+        }
+        let sin_min = (1.0 - cos_max * cos_max).sqrt();
+        let most = Value {
+            nominal: min.value.nominal / sin_min,
+            grad: min
+                .value
+                .grad
+                .iter()
+                .map(|&(i, d)| (i, d / sin_min))
+                .collect(),
+            samples: None,
+        };
+        let excess = mass.value.nominal - most.nominal;
+        let floor = NO_UNCERTAINTY * mass.value.nominal.abs().max(most.nominal.abs());
+        let sigma = mass.value.sigma_of_difference(&most, &self.inputs);
+        let z = excess / sigma.max(floor);
+        if excess <= floor || z <= threshold {
+            return;
+        }
+        let mut involved: SortedSet<Key> = mass.deps.union(&min.deps).union(&ars.deps);
+        involved.retain(|k| self.entries.get(k).is_some_and(|e| e.rule.is_none()));
+        if found.iter().any(|(f, _)| *f == involved) {
+            return;
+        }
+        let key = (bi, Qty::Mass);
+        let unit = display_unit(Qty::Mass, mass.value.nominal);
+        let message = format!(
+            "{} exceeds {}, the most a transiting orbit allows, {}: the minimum mass {} over sin i at the lowest inclination that still transits ({:.1} deg for a/R* = {}, two standard deviations low)",
+            self.described(key, mass, unit),
+            self.shown(unit, &most),
+            apart(z, mass.value.nominal, most.nominal, sigma),
+            self.shown(unit, &min.value),
+            cos_max.acos().to_degrees(),
+            crate::format::sig(ars_low, 3),
+        );
+        let span = self.declared_span(key).unwrap_or_default();
+        let slip = self.slip(key, &mass.value, &most, Some(false));
+        let mut d = Diagnostic::new(Rule::Inconsistent, span, message)
+            .with_help(slip.unwrap_or_else(|| GENERAL_HELP.to_string()))
+            .with_note(if e > 0.0 {
+                "cos i <= (1 + Rp/R*) / ((a/R*)(1 - e)): the transit's impact parameter is at most 1 + Rp/R* (Winn 2010 eq. 7, the orbit's shape taken at its most favourable)"
+            } else {
+                "cos i <= (1 + Rp/R*) / (a/R*): the transit's impact parameter is at most 1 + Rp/R* (Winn 2010 eq. 7, circular orbit)"
+            });
         self.grade(&mut d, z);
         let d = self.label_involved(d, span, &involved);
         found.push((involved, d));

@@ -214,3 +214,56 @@ fn a_declared_value_compared_with_a_route_is_not_called_idle() {
         a.diagnostics
     );
 }
+
+#[test]
+fn a_transiting_planet_s_mass_is_bounded_by_its_minimum_mass() {
+    // K = 3.2 m/s at 3.5 d around 0.93 Msun: Mp sin i = 7.24 Mearth (the exact solution of
+    // the mass function). The planet transits, so i is near 90 deg: with a/R* about 10.8
+    // (Kepler's law) and k = sqrt(700 ppm), cos i <= (1 + k)/(a/R*) (Winn 2010 eq. 7 with
+    // b <= 1 + k), sin i >= 0.995, and the mass is at most about 7.3 Mearth. A declared
+    // 10 Mjup is 318 times that: a unit slip, named.
+    let src = "system \"Hask\" {
+  star s { mass = 0.93 ± 0.04 Msun; radius = 0.88 ± 0.03 Rsun }
+  planet b orbits s {
+    period = 3.5 ± 0.0001 d
+    rv_amplitude = 3.2 ± 0.3 m/s
+    mass = 10 ± 1 Mjup
+    transit_depth = 700 ± 30 ppm
+  }
+}";
+    let a = run(src);
+    let found: Vec<_> = a
+        .diagnostics
+        .iter()
+        .filter(|d| d.rule == Rule::Inconsistent)
+        .collect();
+    assert_eq!(found.len(), 1, "{:#?}", a.diagnostics);
+    assert!(
+        found[0]
+            .message
+            .contains("the most a transiting orbit allows"),
+        "{}",
+        found[0].message
+    );
+    assert!(
+        found[0]
+            .help
+            .as_deref()
+            .unwrap_or("")
+            .contains("was it written in Mjup where Mearth was meant?"),
+        "{:?}",
+        found[0].help
+    );
+    // 7.5 ± 0.5 Mearth fits the bound; without the transit nothing bounds the mass.
+    for fine in [
+        src.replace("10 ± 1 Mjup", "7.5 ± 0.5 Mearth"),
+        src.replace("    transit_depth = 700 ± 30 ppm\n", ""),
+    ] {
+        let a = run(&fine);
+        assert!(
+            helps_of(&a, Rule::Inconsistent).is_empty(),
+            "{:#?}",
+            a.diagnostics
+        );
+    }
+}
