@@ -95,6 +95,11 @@ fn a_mass_in_earth_masses_meant_as_jupiter_masses_falls_below_the_minimum_mass()
     assert!(found.iter().all(|h| !h.contains("Msun")), "{found:#?}");
 }
 
+/// Every finding of `rule`.
+fn findings(a: &Analysis, rule: Rule) -> Vec<&crate::diagnostic::Diagnostic> {
+    a.diagnostics.iter().filter(|d| d.rule == rule).collect()
+}
+
 /// The help of every finding of `rule`.
 fn helps_of(a: &Analysis, rule: Rule) -> Vec<String> {
     a.diagnostics
@@ -142,11 +147,7 @@ fn durations_with_no_solution_are_said_once_and_a_long_one_is_read_in_hours() {
   }
 }";
     let a = run(src);
-    let notes: Vec<_> = a
-        .diagnostics
-        .iter()
-        .filter(|d| d.rule == Rule::NotDerivable)
-        .collect();
+    let notes = findings(&a, Rule::NotDerivable);
     assert_eq!(notes.len(), 1, "{:#?}", a.diagnostics);
     assert_eq!(
         notes[0].message,
@@ -179,11 +180,7 @@ fn two_transits_that_disagree_on_the_star_are_one_finding() {
   planet c orbits s { period = 9.0 ± 0.0001 d; a_rs = 17.0 ± 0.4 }
 }";
     let a = run(src);
-    let found: Vec<_> = a
-        .diagnostics
-        .iter()
-        .filter(|d| d.rule == Rule::Inconsistent)
-        .collect();
+    let found = findings(&a, Rule::Inconsistent);
     assert_eq!(found.len(), 1, "{:#?}", a.diagnostics);
     assert!(
         found[0].message.starts_with("s.density = "),
@@ -232,11 +229,7 @@ fn a_transiting_planet_s_mass_is_bounded_by_its_minimum_mass() {
   }
 }";
     let a = run(src);
-    let found: Vec<_> = a
-        .diagnostics
-        .iter()
-        .filter(|d| d.rule == Rule::Inconsistent)
-        .collect();
+    let found = findings(&a, Rule::Inconsistent);
     assert_eq!(found.len(), 1, "{:#?}", a.diagnostics);
     assert!(
         found[0]
