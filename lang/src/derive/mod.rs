@@ -208,7 +208,7 @@ pub struct Derivation<'m> {
     pinned: Pins,
     /// Derived values that rest mostly on one limit, given as limits themselves: the value
     /// at that limit, its form, and the sentence that says so.
-    bounded: FxHashMap<Key, (f64, Form, String)>,
+    bounded: FxHashMap<Key, (f64, Form, String, Option<f64>)>,
     /// When only some values are wanted (see [`Derivation::run_pinned`]): those keys and
     /// every key they rest on.
     focus: Option<FxHashSet<Key>>,

@@ -57,6 +57,10 @@ pub struct QuantityResult {
     /// For a value summarised from Monte Carlo samples: how precisely the samples fix its
     /// median and interval ends.
     pub precision: Option<value::Precision>,
+    /// For a derived limit that the other ends of its inputs' ranges bound as well (a Hill
+    /// radius at most as large as at zero eccentricity): that other end (SI), so the value
+    /// lies between `value` and it.
+    pub range_end: Option<f64>,
 }
 
 /// One of several declarations of a quantity, as reported.
@@ -304,6 +308,7 @@ impl<'m> Derivation<'m> {
             sources: Vec::new(),
             choice: None,
             precision: None,
+            range_end: None,
         }
     }
 
@@ -360,6 +365,7 @@ impl<'m> Derivation<'m> {
         let mut notes = Vec::new();
         let mut sampled = None;
         let mut precision = None;
+        let mut range_end = None;
         let chosen = self.chosen.get(&key);
         let (sources, used) = self.sources_of(key, decl);
         let (value, below, above, form) = match (chosen, decl.map(|d| &d.content)) {
@@ -369,12 +375,14 @@ impl<'m> Derivation<'m> {
             }
             (None, Some(Content::Measured(m))) => (m.value, m.below, m.above, m.form),
             _ if self.bounded.contains_key(&key) => {
-                let (v, form, words) = self.bounded.get(&key).cloned().unwrap_or((
+                let (v, form, words, other) = self.bounded.get(&key).cloned().unwrap_or((
                     f64::NAN,
                     Form::Exact,
                     String::new(),
+                    None,
                 ));
                 sampled = Some(words);
+                range_end = other;
                 (v, 0.0, 0.0, form)
             }
             // An estimate from a spectral type is an input, shown as it is defined (the
@@ -523,6 +531,7 @@ impl<'m> Derivation<'m> {
             choice: chosen.map(|c| c.choice),
             sources,
             precision,
+            range_end,
         }
     }
 }

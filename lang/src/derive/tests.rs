@@ -1657,6 +1657,25 @@ fn a_value_on_a_limit_gives_both_ends_where_both_are_bounded() {
         )),
         "{words} (top {top})"
     );
+    // The other end is carried with the value (Teq at zero albedo, A = 0: Teff sqrt(R*/2a)),
+    // and the text shows the range, not an open-ended `> ...`.
+    let end = teq.range_end.expect("the other end");
+    assert!((end / top - 1.0).abs() < 1e-9, "{end} against {top}");
+    let mut db = crate::source::MemoryDb::new();
+    db.add("orl.syz", src);
+    let text = crate::report::eval_text(&a, &db);
+    let row = text
+        .lines()
+        .find(|l| l.trim_start().starts_with("teq "))
+        .unwrap();
+    assert!(
+        row.contains(&format!(
+            "{} to {} K",
+            crate::format::number(three(teq.value)),
+            crate::format::number(three(top))
+        )),
+        "{row}"
+    );
 }
 
 /// A system of many uncertain bindings holds the samples of each (a tree of them all at

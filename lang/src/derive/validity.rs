@@ -367,7 +367,7 @@ impl<'m> Derivation<'m> {
                     self.key_name(key),
                     (share * 100.0).min(100.0),
                 );
-                self.bounded.insert(key, (v, result, words));
+                self.bounded.insert(key, (v, result, words, other));
             }
         }
     }

@@ -82,6 +82,7 @@ fn quantity_json<'a>(
     });
     json::Quantity {
         precision,
+        range_end: q.range_end.map(|o| q.shown_unit().of(o)),
         text: q.text.as_deref(),
         measured,
         form: q.form.as_str(),
@@ -223,6 +224,31 @@ fn value_text_in(q: &QuantityResult, unit: DisplayUnit, flux: DisplayUnit) -> St
             shown_in(q.value, q.below, q.above, q.form, unit)
         }
     };
+    // A limit bounded at its other end too reads as the range it is: `0.00171 to 0.00249
+    // au`, not an open-ended `> 0.00171 au`.
+    if let Some(o) = q.range_end.filter(|_| derived_limit) {
+        let three = |x: f64| -> f64 { format!("{:.2e}", x).parse().unwrap_or(f64::NAN) };
+        let (lo, hi) = if o < q.value {
+            (o, q.value)
+        } else {
+            (q.value, o)
+        };
+        let end =
+            |u: DisplayUnit, x: f64| shown_in(three(u.of(x)) * u.factor, 0.0, 0.0, Form::Exact, u);
+        let range = |u: DisplayUnit| {
+            let hi = end(u, hi);
+            let lo = end(u, lo);
+            // The unit once, after the upper end.
+            let lo = lo.strip_suffix(&format!(" {u}")).unwrap_or(&lo).to_string();
+            format!("{lo} to {hi}")
+        };
+        let extra = if q.qty == Qty::Insolation {
+            format!(" ({})", range(flux))
+        } else {
+            String::new()
+        };
+        return format!("{}{extra}", range(unit));
+    }
     let extra = if q.qty == Qty::Insolation {
         format!(" ({})", show(flux))
     } else {

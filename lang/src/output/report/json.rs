@@ -237,6 +237,10 @@ pub struct Quantity<'a> {
     /// A value summarised from Monte Carlo samples: how precisely they fix it.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub precision: Option<Precision>,
+    /// A derived limit bounded at its other end as well (in the value's unit): the value
+    /// lies between `value` and this.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub range_end: Option<f64>,
 }
 
 /// The numerical precision of a Monte Carlo value, in the value's display unit: twice the
