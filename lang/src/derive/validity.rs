@@ -54,10 +54,6 @@ pub const LIMIT_SHARE: f64 = 0.5;
 /// share of its variance.
 type Limited = (Key, f64, f64);
 
-/// Another declared limit with at least this share of a limited value's first-order variance
-/// is taken at its limit too (or, pulling the other way, leaves the value without a bound).
-pub const OTHER_LIMIT_SHARE: f64 = 0.01;
-
 /// How the assumption that a value was given as a limit begins.
 pub const LIMITED: &str = "a limit, not an interval";
 
@@ -229,8 +225,9 @@ impl<'m> Derivation<'m> {
             if share < LIMIT_SHARE || slope == 0.0 {
                 continue;
             }
-            // Other limits it rests on are taken at the end of their range that bounds it
-            // from the same side: the limit itself, or for one that pulls the other way the
+            // Other limits it rests on, however small their share, are taken at the end of
+            // their range that bounds it from the same side (one left at the middle of its
+            // range would move the bound: a minimum mass < 6.71 Mearth, not < 6.72): the limit itself, or for one that pulls the other way the
             // other end of its range (an eccentricity `< 0.2` at 0). Where that end is open
             // or makes the value vanish, there is no bound (see below).
             let mut set = vec![(id, false)];
@@ -238,7 +235,6 @@ impl<'m> Derivation<'m> {
                 budget
                     .iter()
                     .skip(1)
-                    .filter(|(_, s)| *s >= OTHER_LIMIT_SHARE)
                     .filter_map(|&(other, _)| bounds_above(other).map(|b| (other, b != above))),
             );
             by_limits.entry(set).or_default().push((*key, slope, share));
