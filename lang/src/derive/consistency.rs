@@ -152,11 +152,32 @@ impl<'m> Derivation<'m> {
             .unwrap_or_default();
         // The declared one of the two, off by the ratio of two units (a mass in Mearth meant
         // as Mjup falls below the minimum mass 318 times over).
-        let slip = match (s.rule, l.rule) {
+        let direct = match (s.rule, l.rule) {
             (None, _) => self.slip(small, &s.value, &l.value, Some(true)),
             (_, None) => self.slip(large, &l.value, &s.value, Some(false)),
             _ => None,
         };
+        // Else further up the derived one's route (an amplitude in km/s meant as m/s makes
+        // the minimum mass exceed the declared mass a thousand times over).
+        let (small_name, large_name) = (self.key_name(small), self.key_name(large));
+        let mut slips: Vec<String> = direct.into_iter().collect();
+        if let Some(r) = s.rule.filter(|_| slips.is_empty()) {
+            slips.extend(self.upstream_slip(
+                (r, &s.inputs, &s.value, &s.deps),
+                (&l.value, &l.deps, &large_name),
+                unit,
+                Some(true),
+            ));
+        }
+        if let Some(r) = l.rule.filter(|_| slips.is_empty()) {
+            slips.extend(self.upstream_slip(
+                (r, &l.inputs, &l.value, &l.deps),
+                (&s.value, &s.deps, &small_name),
+                unit,
+                Some(false),
+            ));
+        }
+        let slip = (!slips.is_empty()).then(|| crate::text::sentence_case(&slips.join(" Or, ")));
         let mut d = Diagnostic::new(Rule::Inconsistent, span, message)
             .with_help(slip.unwrap_or_else(|| GENERAL_HELP.to_string()));
         if let Some(n) = self.shared(unit, &s.value, &l.value, sigma) {
@@ -194,7 +215,20 @@ impl<'m> Derivation<'m> {
         if mass.rule.is_some() {
             return; // only a declared mass is bounded here
         }
-        let k = get(Qty::RadiusRatio).map_or(0.0, |e| e.value.nominal.max(0.0));
+        // A depth alone cannot tell a grazing transit, whose radius ratio may be far above
+        // sqrt(depth): without a declared radius the ratio is taken as large as
+        // GRAZING_RATIO; with one, as the declared radius over the star's.
+        let from_depth = get(Qty::RadiusRatio).map_or(0.0, |e| e.value.nominal.max(0.0));
+        let declared_ratio = match (get(Qty::Radius), self.entries.get(&(bi, Qty::StarRadius))) {
+            (Some(r), Some(rs)) if r.rule.is_none() && rs.value.nominal > 0.0 => {
+                Some(r.value.nominal / rs.value.nominal)
+            }
+            _ => None,
+        };
+        let k = match declared_ratio {
+            Some(k) => k.max(from_depth),
+            None => from_depth.max(GRAZING_RATIO),
+        };
         let e = get(Qty::Eccentricity).map_or(0.0, |e| e.value.nominal.clamp(0.0, 0.99));
         // a/R* two standard deviations low: the bound errs on the side of no finding.
         let (lo, _) = ars.value.linear_spread(&self.inputs);
@@ -240,11 +274,11 @@ impl<'m> Derivation<'m> {
         let span = self.declared_span(key).unwrap_or_default();
         let slip = self.slip(key, &mass.value, &most, Some(false));
         let mut d = Diagnostic::new(Rule::Inconsistent, span, message)
-            .with_help(slip.unwrap_or_else(|| GENERAL_HELP.to_string()))
+            .with_help(slip.map_or_else(|| GENERAL_HELP.to_string(), |s| crate::text::sentence_case(&s)))
             .with_note(if e > 0.0 {
-                "cos i <= (1 + Rp/R*) / ((a/R*)(1 - e)): the transit's impact parameter is at most 1 + Rp/R* (Winn 2010 eq. 7, the orbit's shape taken at its most favourable)"
+                "cos i <= (1 + Rp/R*) / ((a/R*)(1 - e)): the transit's impact parameter is at most 1 + Rp/R* (Winn 2010 eq. 7, the orbit's shape taken at its most favourable; without a declared radius, Rp/R* up to 0.5, as a grazing transit allows)"
             } else {
-                "cos i <= (1 + Rp/R*) / (a/R*): the transit's impact parameter is at most 1 + Rp/R* (Winn 2010 eq. 7, circular orbit)"
+                "cos i <= (1 + Rp/R*) / (a/R*): the transit's impact parameter is at most 1 + Rp/R* (Winn 2010 eq. 7, circular orbit; without a declared radius, Rp/R* up to 0.5, as a grazing transit allows)"
             });
         self.grade(&mut d, z);
         let d = self.label_involved(d, span, &involved);
@@ -379,12 +413,14 @@ impl<'m> Derivation<'m> {
             (c.rule, &c.inputs, &c.value, &c.deps),
             (&entry.value, &entry.deps, &name),
             unit,
+            None,
         ));
         if let Some(r) = entry.rule {
             slips.extend(self.upstream_slip(
                 (r, &entry.inputs, &entry.value, &entry.deps),
                 (&c.value, &c.deps, &name),
                 unit,
+                None,
             ));
         }
         let slip = (!slips.is_empty()).then(|| crate::text::sentence_case(&slips.join(" Or, ")));
@@ -503,6 +539,11 @@ pub(super) fn shared_note(
         crate::format::sig(unit.of(sigma), 2)
     ))
 }
+
+/// The largest radius ratio a transit seen only through its depth is allowed in the bound on
+/// a transiting planet's mass (a grazing transit's depth says little of it): a Jupiter-sized
+/// body before a star of 0.2 Rsun.
+const GRAZING_RATIO: f64 = 0.5;
 
 /// The help of an inconsistency that no unit slip explains.
 const GENERAL_HELP: &str =

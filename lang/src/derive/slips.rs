@@ -90,10 +90,12 @@ impl Reading {
 
     /// `was it written in Mearth where Mjup was meant?`
     fn question(&self) -> String {
-        format!(
-            "was it written in {} where {} was meant?",
-            self.written, self.meant
-        )
+        // A plain number is written as a fraction, not in one.
+        let written = match self.written {
+            "a fraction" => "as a fraction".to_string(),
+            unit => format!("in {unit}"),
+        };
+        format!("was it written {written} where {} was meant?", self.meant)
     }
 }
 
@@ -311,11 +313,16 @@ impl<'m> Derivation<'m> {
     /// `other` does not), read in the other unit of a common pair, makes the route, evaluated
     /// again through its rules, fit `other` (a period in hours meant as days, seen only
     /// through the star's mass from Kepler's third law: 576 times off).
+    /// `order`: `None` when the route's value and `other` should be equal; `Some(true)` when
+    /// the route's value may not exceed `other` (a minimum mass against a declared true
+    /// mass), `Some(false)` when it may not fall below it; then the reading must also bring
+    /// it within a factor of 10, as for a declared value.
     pub(super) fn upstream_slip(
         &self,
         route: (usize, &[Key], &Value, &SortedSet<Key>),
         other: (&Value, &SortedSet<Key>, &str),
         unit: DisplayUnit,
+        order: Option<bool>,
     ) -> Vec<String> {
         let (rule, inputs, value, deps) = route;
         let (target, other_deps, other_name) = other;
@@ -338,9 +345,13 @@ impl<'m> Derivation<'m> {
                     continue;
                 };
                 let sigma = (sv * x / value.nominal).abs().hypot(st);
-                if (x - target.nominal).abs() <= threshold * sigma
-                    || within_ratio(x, target.nominal)
-                {
+                let o = target.nominal;
+                let fits = match order {
+                    None => (x - o).abs() <= threshold * sigma || within_ratio(x, o),
+                    Some(true) => x <= o + threshold * sigma && x >= o / 10.0,
+                    Some(false) => x >= o - threshold * sigma && x <= o * 10.0,
+                };
+                if fits {
                     let shown = if unit.symbol == "1" {
                         crate::format::sig(unit.of(x), 3)
                     } else {
@@ -436,7 +447,7 @@ mod tests {
         .contains("written in min where h was meant"));
         assert!(unit_slip(Qty::TransitDepth, None, 0.8, near(0.008))
             .unwrap()
-            .contains("written in a fraction where % was meant"));
+            .contains("written as a fraction where % was meant"));
         // A plain disagreement of a factor of two names no unit.
         assert!(unit_slip(Qty::Mass, Some("Mjup"), 2.0 * M_JUPITER, near(M_JUPITER)).is_none());
         assert!(unit_slip(Qty::Teq, Some("K"), 1000.0, near(10.0)).is_none());

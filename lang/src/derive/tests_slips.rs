@@ -55,7 +55,7 @@ fn a_depth_as_a_fraction_meant_as_percent_is_found_through_the_radius() {
     let found = helps(&a);
     assert_eq!(found.len(), 1, "{:#?}", a.diagnostics);
     assert!(
-        found[0].contains("was c.transit_depth written in a fraction where % was meant?"),
+        found[0].contains("was c.transit_depth written as a fraction where % was meant?"),
         "{}",
         found[0]
     );
@@ -284,4 +284,41 @@ fn a_minor_limit_is_taken_at_the_end_that_bounds_the_value() {
     };
     let (c, e) = (bound(circular), bound(&eccentric));
     assert!((e / c - 1.0).abs() < 1e-12, "{e} against {c}");
+}
+
+#[test]
+fn an_amplitude_in_km_s_is_found_behind_a_minimum_mass_above_the_mass() {
+    // 5.0 km/s for 5.0 m/s: the minimum mass (45 Mjup) exceeds the declared 0.044 Mjup, and
+    // read in m/s the amplitude gives 0.044 Mjup (Mp sin i ∝ K).
+    let src = "system \"Quorra\" {
+  star q { mass = 0.95 ± 0.02 Msun }
+  planet b orbits q { period = 6.3 ± 0.0001 d; rv_amplitude = 5.0 ± 0.3 km/s; mass = 0.044 ± 0.004 Mjup }
+}";
+    let found = helps_of(&run(src), Rule::Inconsistent);
+    assert_eq!(found.len(), 1, "{found:#?}");
+    assert!(
+        found[0].contains("was b.rv_amplitude written in km/s where m/s was meant?"),
+        "{}",
+        found[0]
+    );
+}
+
+#[test]
+fn a_grazing_transit_does_not_bound_the_mass_by_the_depth_alone() {
+    // Invented grazing companion: M* = R* = 0.3 (solar units), P = 0.25 d, a true radius
+    // ratio of 0.343 at b = 1.33 (i = 69.9 deg) shows only 424 ppm. Its 40 Mjup is 6 % above
+    // the minimum mass: allowed, since sin 69.9 deg = 0.94, though sqrt(424 ppm) = 0.021
+    // would put the grazing inclination at 74 deg.
+    let src = "system \"Brisel\" {
+  star s { mass = 0.300 ± 0.003 Msun; radius = 0.300 ± 0.003 Rsun }
+  planet b orbits s { period = 0.25 ± 0.00001 d; transit_depth = 424 ± 20 ppm; rv_amplitude = 24974 ± 120 m/s; mass = 40.0 ± 0.2 Mjup }
+}";
+    let a = run(src);
+    assert!(
+        findings(&a, Rule::Inconsistent)
+            .iter()
+            .all(|d| !d.message.contains("the most a transiting orbit allows")),
+        "{:#?}",
+        a.diagnostics
+    );
 }
