@@ -68,8 +68,18 @@ pub fn run(d: &Derivation, diags: &mut Vec<Diagnostic>) -> Vec<CompositionNote> 
     notes
 }
 
+/// A value as a point for the checks: `None` for one that rests mostly on a declared limit
+/// (a `mass < 60 Mjup`, or what follows from it), whose nominal is only the middle of the
+/// range the limit leaves open: a check read it as a value ("a mass of 30.0 Mjup is above
+/// the deuterium-burning limit", an orbit crossing at the middle of an eccentricity's
+/// range) that the file never gave.
 fn nominal(d: &Derivation, k: Key) -> Option<f64> {
-    d.value(k).map(|v| v.nominal).filter(|v| v.is_finite())
+    let v = d.value(k)?;
+    let on_limit = v.budget(&d.inputs).first().is_some_and(|&(id, share)| {
+        share >= crate::derive::validity::LIMIT_SHARE
+            && d.inputs.get(id as usize).is_some_and(|i| i.limit.is_some())
+    });
+    Some(v.nominal).filter(|v| v.is_finite() && !on_limit)
 }
 
 /// Where to point a diagnostic about a body: the first of `qtys` it declares, else its name.

@@ -573,3 +573,19 @@ fn measurements_without_an_uncertainty_among_others_with_one_are_noted_once_per_
         .iter()
         .all(|d| d.rule != Rule::NoUncertainty));
 }
+
+#[test]
+fn a_limit_is_not_read_as_a_value_by_the_checks() {
+    // `mass < 60 Mjup` is sampled over 0-60 Mjup; its middle (30 Mjup) is no mass the file
+    // gives, so no check says the planet is above the deuterium-burning limit. A mass of
+    // 30 ± 2 Mjup is.
+    let src = "system \"Rennet\" {\n  star s { mass = 0.82 ± 0.03 Msun; radius = 0.8 ± 0.02 Rsun }\n  planet b orbits s { period = 40.5 ± 0.01 d; mass < 60 Mjup }\n}\n";
+    let fired = |src: &str| {
+        run(src)
+            .diagnostics
+            .iter()
+            .any(|d| d.rule == Rule::AboveDeuteriumLimit)
+    };
+    assert!(!fired(src));
+    assert!(fired(&src.replace("mass < 60 Mjup", "mass = 30 ± 2 Mjup")));
+}
