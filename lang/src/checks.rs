@@ -141,7 +141,9 @@ fn composition_check(
     let p_iron = summary.probability(composition::CompositionClass::DenserThanIron);
     if p_iron.is_finite() && p_iron >= IRON_WARNING_PROBABILITY {
         let certain = p_iron >= IRON_PROBABILITY;
-        let density = nominal(d, (bi, Qty::Density)).unwrap_or(f64::NAN);
+        // The density of the mass and radius the classes were decided on (a declared
+        // density that disagrees with them is another finding's matter).
+        let density = mass / (4.0 / 3.0 * std::f64::consts::PI * radius.powi(3));
         // The same curve the classes were decided on: the iron fit, extrapolated where the
         // mass is outside its fitted range, and said so.
         let iron_curve = composition::radius_of_extrapolated(composition::Curve::PureIron, mass);

@@ -589,3 +589,27 @@ fn a_limit_is_not_read_as_a_value_by_the_checks() {
     assert!(!fired(src));
     assert!(fired(&src.replace("mass < 60 Mjup", "mass = 30 ± 2 Mjup")));
 }
+
+#[test]
+fn denser_than_iron_quotes_the_density_it_tests() {
+    // 0.8 Mjup in 1.05 Rearth (the radius's unit slipped) is about 1,210 g/cm^3; a declared
+    // density of 0.857 g/cm^3 is not what the check tests, and quoting it made the message
+    // say 0.857 is denser than the 99 g/cm^3 of iron.
+    let src = "system \"Aster\" {\n  star s { mass = 0.95 ± 0.03 Msun; radius = 0.92 ± 0.02 Rsun }\n  planet b orbits s { period = 5 ± 0.001 d; mass = 0.8 ± 0.03 Mjup; density = 0.857 ± 0.06 g/cm^3; radius = 1.05 ± 0.03 Rearth }\n}\n";
+    let a = run(src);
+    let iron = a
+        .diagnostics
+        .iter()
+        .find(|d| d.rule == Rule::DenserThanIron)
+        .unwrap_or_else(|| panic!("{:#?}", a.diagnostics));
+    // 0.8 Mjup / (4/3 pi (1.05 Rearth)^3) with the IAU 2015 B3 nominal values.
+    let rho = 0.8 * crate::constants::M_JUPITER
+        / (4.0 / 3.0 * std::f64::consts::PI * (1.05 * crate::constants::R_EARTH).powi(3))
+        / 1000.0;
+    assert!((rho - 1207.0).abs() < 5.0, "{rho}");
+    assert!(
+        iron.message.contains(": 1207 g/cm^3 at"),
+        "{}",
+        iron.message
+    );
+}
