@@ -56,23 +56,41 @@ pub fn not_read(system: &str, id: &str) -> String {
 /// under a second.
 pub const MAX_SYSTEM_BINDINGS: usize = 1000;
 
-/// The error on a binding past the bound: it is not evaluated, and what uses it has no
-/// value. The first says how to fix it.
-pub(super) fn too_many_bindings(system: &str, name: &str, span: Span, first: bool) -> Diagnostic {
+/// The error on the first binding of a scope (`owner`: a body's kind and id, `None` for the
+/// system's own) past the bound, naming how many of that scope (`count`, itself included)
+/// are not evaluated; what uses them has no value. The first such error says how to fix it.
+pub(super) fn too_many_bindings(
+    system: &str,
+    owner: Option<(&str, &str)>,
+    (name, span): (&str, Span),
+    count: usize,
+    first: bool,
+) -> Diagnostic {
+    let scope = match owner {
+        Some((kind, id)) => format!("of {kind} '{id}'"),
+        None => format!("of system \"{system}\""),
+    };
+    let which = match count {
+        1 => format!("let '{name}' {scope} is not evaluated"),
+        n => format!(
+            "let '{name}' and the {} bindings {scope} after it are not evaluated",
+            n - 1
+        ),
+    };
     let d = Diagnostic::new(
         Rule::TooManyBindings,
         span,
         format!(
-            "let '{name}' is not evaluated: system \"{system}\" already has {MAX_SYSTEM_BINDINGS} \
-             bindings, the most one system is evaluated with"
+            "{which}: system \"{system}\" already has {MAX_SYSTEM_BINDINGS} bindings, the most \
+             one system is evaluated with (its own first, then its bodies', as written)"
         ),
     );
     if !first {
         return d;
     }
     d.with_note(
-        "this binding and the ones after it in the system are not evaluated, and values that \
-         use them are not derived; a bound keeps the work of propagating uncertainties small",
+        "values that use a binding not evaluated are not derived (`syz eval` lists them as not \
+         used); a bound keeps the work of propagating uncertainties small",
     )
     .with_help(
         "compute long series of numbers outside the file and write the results as \

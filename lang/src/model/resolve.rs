@@ -224,16 +224,26 @@ impl<'a> Resolver<'a> {
             .skip(super::limits::MAX_SYSTEM_BINDINGS)
             .copied()
             .collect();
-        for (i, id) in all
-            .iter()
-            .skip(super::limits::MAX_SYSTEM_BINDINGS)
-            .enumerate()
-        {
-            if let Some(info) = self.let_info(*id) {
+        // One error per scope (the system's own bindings, each body's) at its first binding
+        // past the bound, with how many of that scope are not evaluated: thousands of
+        // errors would bury a body's binding among those not shown.
+        let mut scopes: Vec<(Option<usize>, LetId, usize)> = Vec::new();
+        for id in all.iter().skip(super::limits::MAX_SYSTEM_BINDINGS) {
+            match scopes.iter_mut().find(|(scope, _, _)| *scope == id.body) {
+                Some((_, _, n)) => *n += 1,
+                None => scopes.push((id.body, *id, 1)),
+            }
+        }
+        for (i, (scope, first, count)) in scopes.into_iter().enumerate() {
+            let owner = scope
+                .and_then(|b| self.body(b))
+                .map(|b| (b.kind.as_str(), b.id.as_str()));
+            if let Some(info) = self.let_info(first) {
                 diags.push(super::limits::too_many_bindings(
                     &self.sys.name,
-                    &info.name,
-                    info.name_span,
+                    owner,
+                    (&info.name, info.name_span),
+                    count,
                     i == 0,
                 ));
             }

@@ -662,3 +662,34 @@ fn a_power_written_without_a_caret_says_how_to_write_it() {
     let d = only_diagnostic("density = 1.4 g/qq3");
     assert!(!d.help.unwrap().contains("power"));
 }
+
+/// Bindings past a system's bound (`limits::MAX_SYSTEM_BINDINGS`, the system's own first,
+/// then its bodies'): one error per scope, at its first such binding, with the count; a
+/// body's binding is named in an error of its own, not buried among the system's.
+#[test]
+fn bindings_past_the_bound_get_one_error_per_scope() {
+    let mut src = String::from("system \"Long\" {\n");
+    for i in 0..1003 {
+        src.push_str(&format!(" let x{i} = {i}\n"));
+    }
+    src.push_str(" star s {\n  let y = 2\n  mass = y * 1 Msun\n }\n}\n");
+    let (_, diags) = lower_text(&src);
+    let found: Vec<&str> = diags
+        .iter()
+        .filter(|d| d.rule == Rule::TooManyBindings)
+        .map(|d| d.message.as_str())
+        .collect();
+    assert_eq!(found.len(), 2, "{found:#?}");
+    assert!(
+        found[0].starts_with(
+            "let 'x1000' and the 2 bindings of system \"Long\" after it are not evaluated"
+        ),
+        "{}",
+        found[0]
+    );
+    assert!(
+        found[1].starts_with("let 'y' of star 's' is not evaluated"),
+        "{}",
+        found[1]
+    );
+}
