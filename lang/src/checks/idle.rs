@@ -211,7 +211,7 @@ fn unsolved_note(
         Rule::NotDerivable,
         decls.first().map(|x| x.span).unwrap_or_default(),
         format!(
-            "nothing is derived from {listed}: {} has no solution for the values given",
+            "nothing is derived from {listed}: {} has no solution for the values as given (at their nominal values)",
             rule.id
         ),
     )

@@ -132,6 +132,10 @@ impl<'m> Derivation<'m> {
         if excess <= floor || z <= threshold {
             return;
         }
+        // Compared, and found out of order: neither is idle (durations that contradict
+        // each other have no impact parameter either, which this finding says already).
+        self.fed.insert(small);
+        self.fed.insert(large);
         let mut involved: SortedSet<Key> = s.deps.union(&l.deps);
         involved.retain(|k| self.entries.get(k).is_some_and(|e| e.rule.is_none()));
         if found.iter().any(|(f, _)| *f == involved) {

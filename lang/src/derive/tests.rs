@@ -1652,12 +1652,11 @@ fn a_value_on_a_limit_gives_both_ends_where_both_are_bounded() {
     let axis = get(&a, "b", Qty::SemiMajorAxis).unwrap().value;
     let r_star = 0.85 * crate::constants::R_SUN;
     let top = 5200.0 * (r_star / (2.0 * axis)).sqrt();
-    let three = |x: f64| format!("{:.2e}", x).parse::<f64>().unwrap();
     assert!(
         words.ends_with(&format!(
             "so it lies between {} K and {} K",
-            crate::format::number(three(teq.value)),
-            crate::format::number(three(top))
+            crate::format::sig(teq.value, 3),
+            crate::format::sig(top, 3)
         )),
         "{words} (top {top})"
     );
@@ -1675,8 +1674,8 @@ fn a_value_on_a_limit_gives_both_ends_where_both_are_bounded() {
     assert!(
         row.contains(&format!(
             "{} to {} K",
-            crate::format::number(three(teq.value)),
-            crate::format::number(three(top))
+            crate::format::sig(teq.value, 3),
+            crate::format::sig(top, 3)
         )),
         "{row}"
     );

@@ -335,10 +335,14 @@ impl<'m> Derivation<'m> {
                 let between = match other {
                     Some(o) => {
                         let unit = summary::display_unit(key.1, v);
-                        // Three significant digits, as a derived limit is shown.
+                        // Three significant digits, as the range is shown (0.0220, 1055).
                         let shown = |x: f64| {
-                            let r: f64 = format!("{:.2e}", unit.of(x)).parse().unwrap_or(f64::NAN);
-                            crate::report::shown_in(r * unit.factor, 0.0, 0.0, Form::Exact, unit)
+                            let n = crate::format::sig(unit.of(x), 3);
+                            if unit.symbol == "1" {
+                                n
+                            } else {
+                                format!("{n} {unit}")
+                            }
                         };
                         let (lo, hi) = if o < v { (o, v) } else { (v, o) };
                         format!(

@@ -227,20 +227,22 @@ fn value_text_in(q: &QuantityResult, unit: DisplayUnit, flux: DisplayUnit) -> St
     // A limit bounded at its other end too reads as the range it is: `0.00171 to 0.00249
     // au`, not an open-ended `> 0.00171 au`.
     if let Some(o) = q.range_end.filter(|_| derived_limit) {
-        let three = |x: f64| -> f64 { format!("{:.2e}", x).parse().unwrap_or(f64::NAN) };
         let (lo, hi) = if o < q.value {
             (o, q.value)
         } else {
             (q.value, o)
         };
-        let end =
-            |u: DisplayUnit, x: f64| shown_in(three(u.of(x)) * u.factor, 0.0, 0.0, Form::Exact, u);
+        // Three significant digits at both ends (0.0185 to 0.0220 au), the unit once.
         let range = |u: DisplayUnit| {
-            let hi = end(u, hi);
-            let lo = end(u, lo);
-            // The unit once, after the upper end.
-            let lo = lo.strip_suffix(&format!(" {u}")).unwrap_or(&lo).to_string();
-            format!("{lo} to {hi}")
+            let (lo, hi) = (
+                crate::format::sig(u.of(lo), 3),
+                crate::format::sig(u.of(hi), 3),
+            );
+            if u.symbol == "1" {
+                format!("{lo} to {hi}")
+            } else {
+                format!("{lo} to {hi} {u}")
+            }
         };
         let extra = if q.qty == Qty::Insolation {
             format!(" ({})", range(flux))
