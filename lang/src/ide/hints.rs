@@ -82,9 +82,12 @@ pub fn hints(a: &Analysis, src: &str, range: std::ops::Range<usize>, method: &Me
                         // samples; it says so itself.
                         let sampled = crate::derive::validity::was_sampled(q);
                         first_order |= !sampled;
+                        // As `syz eval` shows it (a derived limit in three digits, or the
+                        // range it lies in), and `M sin i < 7.96 Mearth`, not `= < ...`.
+                        let value = crate::report::value_text(q);
+                        let sep = if value.starts_with(['<', '>']) { " " } else { " = " };
                         parts.push(format!(
-                            "{label} = {}{}",
-                            shown(*qty, q.value, q.below, q.above, q.form),
+                            "{label}{sep}{value}{}",
                             if sampled { " (sampled)" } else { "" }
                         ));
                     }

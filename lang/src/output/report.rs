@@ -551,15 +551,15 @@ pub fn precision_line(quantities: &[QuantityResult], adaptive: bool) -> Option<S
             } else {
                 "--samples auto draws until they are"
             };
+            let (values, their) = if sampled.len() == 1 {
+                ("value", "its")
+            } else {
+                ("values", "their")
+            };
             format!(
-                "{k} of {} {} not yet stable to two significant digits of their uncertainty \
-                 ({named}; {how})",
+                "{k} of {} {values} not yet stable to two significant digits of {their} \
+                 uncertainty ({named}; {how})",
                 sampled.len(),
-                if sampled.len() == 1 {
-                    "value"
-                } else {
-                    "values"
-                }
             )
         }
     };
