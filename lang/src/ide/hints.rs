@@ -85,7 +85,11 @@ pub fn hints(a: &Analysis, src: &str, range: std::ops::Range<usize>, method: &Me
                         // As `syz eval` shows it (a derived limit in three digits, or the
                         // range it lies in), and `M sin i < 7.96 Mearth`, not `= < ...`.
                         let value = crate::report::value_text(q);
-                        let sep = if value.starts_with(['<', '>']) { " " } else { " = " };
+                        let sep = if value.starts_with(['<', '>']) {
+                            " "
+                        } else {
+                            " = "
+                        };
                         parts.push(format!(
                             "{label}{sep}{value}{}",
                             if sampled { " (sampled)" } else { "" }

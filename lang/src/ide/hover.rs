@@ -2,7 +2,7 @@
 //! a binding.
 
 use super::symbols::{self, Occurrence, Symbol};
-use super::{result, shown, shown_in, Method};
+use super::{result, shown, Method};
 use crate::derive::{display_unit, Origin, QuantityResult};
 use crate::model::Form;
 use crate::quantities::{self, Qty};
@@ -127,7 +127,7 @@ fn other_units(q: &QuantityResult) -> Vec<String> {
         if !(1e-3..1e4).contains(&unit.of(q.value).abs()) {
             continue;
         }
-        out.push(shown_in(q.value, q.below, q.above, q.form, unit));
+        out.push(crate::report::value_text_in_unit(q, unit));
         if out.len() == 5 {
             break;
         }
@@ -143,7 +143,7 @@ fn other_units(q: &QuantityResult) -> Vec<String> {
             symbol: &si,
             factor: 1.0,
         };
-        out.push(shown_in(q.value, q.below, q.above, q.form, unit));
+        out.push(crate::report::value_text_in_unit(q, unit));
     }
     out
 }
@@ -467,6 +467,16 @@ mod tests {
         assert!(!h.contains("uncertainties:"), "{h}");
         let h = hover_in(LIMITS, "transit_depth)");
         assert!(h.contains("not declared, and not derivable"), "{h}");
+    }
+
+    /// A derived limit that the other end of its input's range bounds too reads as a range,
+    /// in its own unit and in the others (`> 0.00171 au` read as open-ended).
+    #[test]
+    fn a_limit_bounded_at_both_ends_is_a_range_in_every_unit() {
+        let src = "system \"S\" {\n star s { mass = 0.85 ± 0.03 Msun }\n planet b orbits s {\n  period = 12.4 ± 0.001 d\n  rv_amplitude = 4.1 ± 0.3 m/s\n  eccentricity < 0.3\n }\n let h = b.hill_radius * 2\n}\n";
+        let h = hover_in(src, "hill_radius");
+        assert!(h.contains("0.00171 to 0.00249 au"), "{h}");
+        assert!(!h.contains("> "), "{h}");
     }
 
     #[test]

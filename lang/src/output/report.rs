@@ -197,11 +197,20 @@ pub fn shown_in(value: f64, below: f64, above: f64, form: Form, unit: DisplayUni
 /// A value as people read it: `0.0443 ± 0.0006 au`, `< 0.08`, `"K0V"`, in its own display
 /// unit (the one written in the file, else the usual one for its size).
 pub fn value_text(q: &QuantityResult) -> String {
-    value_text_in(q, q.shown_unit(), flux_unit(q.value))
+    value_text_in(q, q.shown_unit(), Some(flux_unit(q.value)))
+}
+
+/// A value in `unit` alone, as `syz eval` shows it (a derived limit in three digits, or the
+/// range it lies in): for a list of the same value in other units.
+pub fn value_text_in_unit(q: &QuantityResult, unit: DisplayUnit) -> String {
+    if q.qty == Qty::TransitEpoch || q.text.is_some() {
+        return shown_in(q.value, q.below, q.above, q.form, unit);
+    }
+    value_text_in(q, unit, None)
 }
 
 /// A value as people read it in `unit`; an insolation also in the SI flux unit `flux`.
-fn value_text_in(q: &QuantityResult, unit: DisplayUnit, flux: DisplayUnit) -> String {
+fn value_text_in(q: &QuantityResult, unit: DisplayUnit, flux: Option<DisplayUnit>) -> String {
     if let Some(t) = &q.text {
         return format!("\"{t}\"");
     }
@@ -244,17 +253,15 @@ fn value_text_in(q: &QuantityResult, unit: DisplayUnit, flux: DisplayUnit) -> St
                 format!("{lo} to {hi} {u}")
             }
         };
-        let extra = if q.qty == Qty::Insolation {
-            format!(" ({})", range(flux))
-        } else {
-            String::new()
+        let extra = match flux.filter(|_| q.qty == Qty::Insolation) {
+            Some(flux) => format!(" ({})", range(flux)),
+            None => String::new(),
         };
         return format!("{}{extra}", range(unit));
     }
-    let extra = if q.qty == Qty::Insolation {
-        format!(" ({})", show(flux))
-    } else {
-        String::new()
+    let extra = match flux.filter(|_| q.qty == Qty::Insolation) {
+        Some(flux) => format!(" ({})", show(flux)),
+        None => String::new(),
     };
     format!("{}{extra}", show(unit))
 }
@@ -320,7 +327,7 @@ impl TableUnits {
             .iter()
             .find(|(qty, _)| *qty == Self::group(q.qty))
             .map_or_else(|| q.shown_unit(), |(_, u)| *u);
-        value_text_in(q, unit, self.flux)
+        value_text_in(q, unit, Some(self.flux))
     }
 }
 
