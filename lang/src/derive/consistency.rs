@@ -88,22 +88,33 @@ impl<'m> Derivation<'m> {
     }
 
     /// Whether a value from `rule` on `inputs` rests on a rule that only fills a gap
-    /// ([`rules::stands_in_for`] its own output), up the route at most
-    /// [`super::slips::REEVALUATE_DEPTH`] rules deep.
+    /// ([`rules::stands_in_for`] its own output).
     fn through_fill(&self, rule: Option<usize>, inputs: &[Key], depth: usize) -> bool {
-        let Some(r) = rule.and_then(|r| RULES.get(r)) else {
-            return false;
-        };
-        let fills = match (rules::stands_in_for(r.id), r.output) {
+        let fills = |r: &RuleDef| match (rules::stands_in_for(r.id), r.output) {
             (Some(q), Slot::Planet(o) | Slot::Host(o) | Slot::Star(o)) => q == o,
             _ => false,
         };
-        fills
+        self.route_uses(rule, inputs, &fills, depth)
+    }
+
+    /// Whether a value from `rule` on `inputs` rests on a rule for which `what` holds, up the
+    /// route at most [`super::slips::REEVALUATE_DEPTH`] rules deep.
+    fn route_uses(
+        &self,
+        rule: Option<usize>,
+        inputs: &[Key],
+        what: &dyn Fn(&RuleDef) -> bool,
+        depth: usize,
+    ) -> bool {
+        let Some(r) = rule.and_then(|r| RULES.get(r)) else {
+            return false;
+        };
+        what(r)
             || (depth < super::slips::REEVALUATE_DEPTH
                 && inputs.iter().any(|k| {
                     self.entries
                         .get(k)
-                        .is_some_and(|e| self.through_fill(e.rule, &e.inputs, depth + 1))
+                        .is_some_and(|e| self.route_uses(e.rule, &e.inputs, what, depth + 1))
                 }))
     }
 
@@ -432,6 +443,25 @@ impl<'m> Derivation<'m> {
             .with_help(slip.unwrap_or_else(|| GENERAL_HELP.to_string()));
         if let Some(r) = rule {
             d = d.with_note(format!("{}: {}", r.id, r.formula));
+        }
+        // A radius ratio of sqrt(depth) takes the transit as not grazing: a larger radius
+        // on the other side may be a grazing transit's, which only an impact parameter tells.
+        let not_grazing = |r: &RuleDef| r.id == "depth-radius-ratio";
+        let (from_depth, other) = if self.route_uses(Some(c.rule), &c.inputs, &not_grazing, 0) {
+            (&c.value, &entry.value)
+        } else {
+            (&entry.value, &c.value)
+        };
+        if self.route_uses(Some(c.rule), &c.inputs, &not_grazing, 0)
+            != self.route_uses(entry.rule, &entry.inputs, &not_grazing, 0)
+            && other.nominal > from_depth.nominal
+        {
+            d = d.with_note(
+                "the radius ratio from the depth, sqrt(depth), takes the transit as not grazing; \
+                 a grazing transit shows a smaller depth for the same radius, so unless the \
+                 transit grazes the star (an impact parameter near 1 + Rp/R* would say so), the \
+                 two disagree",
+            );
         }
         if let Some(n) = self.shared(unit, &entry.value, &c.value, sigma) {
             // Where two routes share most inputs, the disagreement comes from the

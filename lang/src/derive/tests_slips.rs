@@ -344,3 +344,28 @@ fn durations_out_of_order_are_one_finding_not_also_idle() {
         a.diagnostics
     );
 }
+
+#[test]
+fn a_radius_above_the_depth_s_says_the_transit_may_graze() {
+    // 424 ppm gives k = 0.021 if the transit is not grazing; a declared radius of 1 Rjup
+    // before 0.3 Rsun (k = 0.34) is what a grazing transit at b = 1.33 shows (invented). The
+    // finding stays (no impact parameter tells), with a note that says so; a declared radius
+    // below sqrt(depth) R* gets no such note, since no geometry makes a depth larger than k^2.
+    let src = "system \"Brisel\" {
+  star s { mass = 0.300 ± 0.003 Msun; radius = 0.300 ± 0.003 Rsun }
+  planet b orbits s { period = 0.25 ± 0.00001 d; transit_depth = 424 ± 20 ppm; radius = 1.0 ± 0.03 Rjup }
+}";
+    let grazing = |src: &str| -> bool {
+        let a = run(src);
+        let found = findings(&a, Rule::Inconsistent);
+        assert_eq!(found.len(), 1, "{:#?}", a.diagnostics);
+        found[0]
+            .notes
+            .iter()
+            .any(|n| n.contains("takes the transit as not grazing"))
+    };
+    assert!(grazing(src));
+    assert!(!grazing(
+        &src.replace("1.0 ± 0.03 Rjup", "0.5 ± 0.03 Rearth")
+    ));
+}
