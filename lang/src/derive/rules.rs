@@ -1,14 +1,13 @@
 //! The derivation rules: which quantity follows from which, through which formula.
 //!
 //! Each rule adapts one typed formula of [`crate::formulas`] to the engine's SI numbers; the
-//! conversion between plain SI values and `uom` quantities happens here and nowhere else.
+//! conversion between plain SI values and `uom` quantities happens here (the adapters in
+//! `rules/si.rs`) and nowhere else.
 
 use crate::formulas as f;
 use crate::quantities::Qty;
+use si::*;
 use uom::si::angle::radian;
-use uom::si::f64::{
-    Angle, Length, Mass, MassDensity, Power, ThermodynamicTemperature, Time, Velocity,
-};
 use uom::si::heat_flux_density::watt_per_square_meter;
 use uom::si::length::meter;
 use uom::si::mass::kilogram;
@@ -17,6 +16,8 @@ use uom::si::power::watt;
 use uom::si::thermodynamic_temperature::kelvin;
 use uom::si::time::second;
 use uom::si::velocity::meter_per_second;
+
+mod si;
 
 /// Where a rule reads or writes a quantity: on the planet, on its host star, or (for rules
 /// about a star alone) on the star itself.
@@ -41,34 +42,6 @@ pub struct RuleDef {
     pub eval: fn(&[f64]) -> Option<f64>,
 }
 
-fn t(x: f64) -> Time {
-    Time::new::<second>(x)
-}
-fn m(x: f64) -> Mass {
-    Mass::new::<kilogram>(x)
-}
-fn l(x: f64) -> Length {
-    Length::new::<meter>(x)
-}
-fn ang(x: f64) -> Angle {
-    Angle::new::<radian>(x)
-}
-fn density(x: f64) -> MassDensity {
-    MassDensity::new::<kilogram_per_cubic_meter>(x)
-}
-fn vel(x: f64) -> Velocity {
-    Velocity::new::<meter_per_second>(x)
-}
-fn temp(x: f64) -> ThermodynamicTemperature {
-    ThermodynamicTemperature::new::<kelvin>(x)
-}
-fn pow(x: f64) -> Power {
-    Power::new::<watt>(x)
-}
-fn sin_of(i: f64) -> f64 {
-    ang(i).sin().value.abs()
-}
-
 use Qty::*;
 use Slot::{Host as H, Planet as P, Star as S};
 
@@ -83,20 +56,6 @@ pub use super::roles::{predicts, stands_in_for};
 /// Tier of the rules that predict from a population relation: after every route from
 /// measurements has had its chance.
 const PREDICTION_TIER: u8 = 5;
-
-fn mass_earth(x: f64) -> f64 {
-    x / crate::constants::M_EARTH
-}
-fn radius_earth(x: f64) -> f64 {
-    x / crate::constants::R_EARTH
-}
-fn habitable(edge: f::HabitableEdge, te: f64) -> Option<f64> {
-    f::habitable_flux(edge, temp(te)).map(|s| s * crate::constants::INSOLATION_EARTH)
-}
-fn habitable_at(lum: f64, flux: f64) -> Option<f64> {
-    f::habitable_distance(pow(lum), flux / crate::constants::INSOLATION_EARTH)
-        .map(|v| v.get::<meter>())
-}
 
 pub static RULES: &[RuleDef] = &[
     // ---- stars ----
