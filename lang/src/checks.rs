@@ -679,8 +679,8 @@ fn implausible_star_help(d: &Derivation, bi: usize, problems: &[(Qty, String)]) 
     for (q, _) in problems {
         let (lo, hi) = range(*q);
         let found = d.plausible_readings((bi, *q), |x| x >= lo && x <= hi, "a plausible star");
-        if !found.is_empty() {
-            return crate::text::sentence_case(&found.join(" Or, "));
+        if let Some(help) = crate::derive::readings_help(&found) {
+            return help;
         }
     }
     // Every implausible value derived: the measurements its route rests on are what to check.

@@ -199,14 +199,12 @@ fn unsolved_note(
     let listed = crate::text::and_list(&names);
     let first = names.first().cloned().unwrap_or_default();
     let slips = d.solving_readings(bi, rule);
-    let help = if slips.is_empty() {
+    let help = crate::derive::readings_help(&slips).unwrap_or_else(|| {
         format!(
             "check {listed} and their units against the other inputs of {}; `syz explain FILE {first}` lists the routes",
             rule.id
         )
-    } else {
-        crate::text::sentence_case(&slips.join(" Or, "))
-    };
+    });
     let mut diag = Diagnostic::new(
         Rule::NotDerivable,
         decls.first().map(|x| x.span).unwrap_or_default(),

@@ -57,8 +57,7 @@ impl<'m> Derivation<'m> {
                 if z <= threshold || diff <= floor {
                     continue;
                 }
-                let mut involved: SortedSet<Key> = entry.deps.union(&c.deps);
-                involved.retain(|k| self.entries.get(k).is_some_and(|e| e.rule.is_none()));
+                let involved = self.declared_in(&entry.deps.union(&c.deps));
                 if found.iter().any(|(f, _)| *f == involved) {
                     continue;
                 }
@@ -136,19 +135,14 @@ impl<'m> Derivation<'m> {
         if mine.is_subset(&theirs) || theirs.is_subset(&mine) {
             return; // one follows from the other's measurements, so the model orders them
         }
-        let excess = s.value.nominal - l.value.nominal;
-        let floor = NO_UNCERTAINTY * s.value.nominal.abs().max(l.value.nominal.abs());
-        let sigma = s.value.sigma_of_difference(&l.value, &self.inputs);
-        let z = excess / sigma.max(floor);
-        if excess <= floor || z <= threshold {
+        let Some((z, sigma)) = self.excess(&s.value, &l.value, threshold) else {
             return;
-        }
+        };
         // Compared, and found out of order: neither is idle (durations that contradict
         // each other have no impact parameter either, which this finding says already).
         self.fed.insert(small);
         self.fed.insert(large);
-        let mut involved: SortedSet<Key> = s.deps.union(&l.deps);
-        involved.retain(|k| self.entries.get(k).is_some_and(|e| e.rule.is_none()));
+        let involved = self.declared_in(&s.deps.union(&l.deps));
         if found.iter().any(|(f, _)| *f == involved) {
             return;
         }
@@ -192,7 +186,7 @@ impl<'m> Derivation<'m> {
                 Some(false),
             ));
         }
-        let slip = (!slips.is_empty()).then(|| crate::text::sentence_case(&slips.join(" Or, ")));
+        let slip = super::slips::readings_help(&slips);
         let mut d = Diagnostic::new(Rule::Inconsistent, span, message)
             .with_help(slip.unwrap_or_else(|| GENERAL_HELP.to_string()));
         if let Some(n) = self.shared(unit, &s.value, &l.value, sigma) {
@@ -263,15 +257,10 @@ impl<'m> Derivation<'m> {
                 .collect(),
             samples: None,
         };
-        let excess = mass.value.nominal - most.nominal;
-        let floor = NO_UNCERTAINTY * mass.value.nominal.abs().max(most.nominal.abs());
-        let sigma = mass.value.sigma_of_difference(&most, &self.inputs);
-        let z = excess / sigma.max(floor);
-        if excess <= floor || z <= threshold {
+        let Some((z, sigma)) = self.excess(&mass.value, &most, threshold) else {
             return;
-        }
-        let mut involved: SortedSet<Key> = mass.deps.union(&min.deps).union(&ars.deps);
-        involved.retain(|k| self.entries.get(k).is_some_and(|e| e.rule.is_none()));
+        };
+        let involved = self.declared_in(&mass.deps.union(&min.deps).union(&ars.deps));
         if found.iter().any(|(f, _)| *f == involved) {
             return;
         }
@@ -287,9 +276,12 @@ impl<'m> Derivation<'m> {
             crate::format::sig(ars_low, 3),
         );
         let span = self.declared_span(key).unwrap_or_default();
-        let slip = self.slip(key, &mass.value, &most, Some(false));
+        let slips: Vec<String> = self
+            .slip(key, &mass.value, &most, Some(false))
+            .into_iter()
+            .collect();
         let mut d = Diagnostic::new(Rule::Inconsistent, span, message)
-            .with_help(slip.map_or_else(|| GENERAL_HELP.to_string(), |s| crate::text::sentence_case(&s)))
+            .with_help(super::slips::readings_help(&slips).unwrap_or_else(|| GENERAL_HELP.to_string()))
             .with_note(if e > 0.0 {
                 "cos i <= (1 + Rp/R*) / ((a/R*)(1 - e)): the transit's impact parameter is at most 1 + Rp/R* (Winn 2010 eq. 7, the orbit's shape taken at its most favourable; without a declared radius, Rp/R* up to 0.5, as a grazing transit allows)"
             } else {
@@ -298,6 +290,25 @@ impl<'m> Derivation<'m> {
         self.grade(&mut d, z);
         let d = self.label_involved(d, span, &involved);
         found.push((involved, d));
+    }
+
+    /// How many combined standard deviations `small` exceeds `large` by, with the standard
+    /// deviation of their difference (shared inputs counted once), when past `threshold`
+    /// and past the floor below which a difference is rounding.
+    fn excess(&self, small: &Value, large: &Value, threshold: f64) -> Option<(f64, f64)> {
+        let excess = small.nominal - large.nominal;
+        let floor = NO_UNCERTAINTY * small.nominal.abs().max(large.nominal.abs());
+        let sigma = small.sigma_of_difference(large, &self.inputs);
+        let z = excess / sigma.max(floor);
+        (excess > floor && z > threshold).then_some((z, sigma))
+    }
+
+    /// The values among `deps` that no rule derived (declared, and defaults): the
+    /// measurements a finding involves.
+    fn declared_in(&self, deps: &SortedSet<Key>) -> SortedSet<Key> {
+        let mut involved = deps.clone();
+        involved.retain(|k| self.entries.get(k).is_some_and(|e| e.rule.is_none()));
+        involved
     }
 
     /// [`shared_note`] for two values.
@@ -414,10 +425,10 @@ impl<'m> Derivation<'m> {
             .or_else(|| body.map(|b| b.name_span))
             .unwrap_or_default();
         // A declared value off by the ratio of two units says which (318 times: Mearth
-        // written for Mjup); else the general advice.
-        // Further up either route too (the candidate's, then the value's own): every reading
-        // that fits is named, since two can (a radius in Rearth meant as Rjup, or the depth
-        // it comes from written as a fraction where % was meant).
+        // written for Mjup), and so does a measurement further up either route (the
+        // candidate's, then the value's own): every reading that fits is named, since two can
+        // (a radius in Rearth meant as Rjup, or the depth it comes from written as a fraction
+        // where % was meant).
         let name = self.key_name(key);
         let mut slips: Vec<String> = (entry.rule.is_none())
             .then(|| self.slip(key, &entry.value, &c.value, None))
@@ -438,7 +449,7 @@ impl<'m> Derivation<'m> {
                 None,
             ));
         }
-        let slip = (!slips.is_empty()).then(|| crate::text::sentence_case(&slips.join(" Or, ")));
+        let slip = super::slips::readings_help(&slips);
         let mut d = Diagnostic::new(Rule::Inconsistent, span, message)
             .with_help(slip.unwrap_or_else(|| GENERAL_HELP.to_string()));
         if let Some(r) = rule {
@@ -447,15 +458,14 @@ impl<'m> Derivation<'m> {
         // A radius ratio of sqrt(depth) takes the transit as not grazing: a larger radius
         // on the other side may be a grazing transit's, which only an impact parameter tells.
         let not_grazing = |r: &RuleDef| r.id == "depth-radius-ratio";
-        let (from_depth, other) = if self.route_uses(Some(c.rule), &c.inputs, &not_grazing, 0) {
+        let theirs_from_depth = self.route_uses(Some(c.rule), &c.inputs, &not_grazing, 0);
+        let mine_from_depth = self.route_uses(entry.rule, &entry.inputs, &not_grazing, 0);
+        let (from_depth, other) = if theirs_from_depth {
             (&c.value, &entry.value)
         } else {
             (&entry.value, &c.value)
         };
-        if self.route_uses(Some(c.rule), &c.inputs, &not_grazing, 0)
-            != self.route_uses(entry.rule, &entry.inputs, &not_grazing, 0)
-            && other.nominal > from_depth.nominal
-        {
+        if theirs_from_depth != mine_from_depth && other.nominal > from_depth.nominal {
             d = d.with_note(
                 "the radius ratio from the depth, sqrt(depth), takes the transit as not grazing; \
                  a grazing transit shows a smaller depth for the same radius, so unless the \

@@ -38,6 +38,7 @@ use crate::source::{InSystem, Span};
 use rules::{RuleDef, Slot, RULES};
 use rustc_hash::{FxHashMap, FxHashSet};
 use set::SortedSet;
+pub(crate) use slips::readings_help;
 pub use sources::{Choice, Lines, SourceChoice};
 use std::collections::BTreeMap;
 use std::sync::Arc;

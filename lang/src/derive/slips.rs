@@ -166,16 +166,66 @@ pub(super) fn upstream_slip(name: &str, r: &Reading, shown: &str, other: &str) -
     )
 }
 
+/// The help that names the readings found (each `read in ... instead of ...: was it
+/// written in ...?`), as one sentence each; `None` when there are none.
+pub(crate) fn readings_help(found: &[String]) -> Option<String> {
+    (!found.is_empty()).then(|| crate::text::sentence_case(&found.join(" Or, ")))
+}
+
 /// Whether `x` and `derived` agree to within 5 % (the test of a slip where the
 /// uncertainties say nothing better).
 pub(super) fn within_ratio(x: f64, derived: f64) -> bool {
     (x / derived).ln().abs() < WITHIN.ln()
 }
 
+/// Whether `x`, a reading of one side, fits `o`, the other side's value, with `sigma` the
+/// combined standard deviation at `x`: within `threshold` of it (or 5 %) when the two should
+/// be equal (`order` `None`); on the right side of it and within a factor of 10 when one may
+/// not exceed the other (`Some(true)`: `x` may not exceed `o`), since any large enough unit
+/// would pass the order alone.
+fn fits(x: f64, o: f64, sigma: f64, threshold: f64, order: Option<bool>) -> bool {
+    match order {
+        None => (x - o).abs() <= threshold * sigma || within_ratio(x, o),
+        Some(true) => x <= o + threshold * sigma && x >= o / 10.0,
+        Some(false) => x >= o - threshold * sigma && x <= o * 10.0,
+    }
+}
+
+/// `x` (SI) in `unit` to three significant digits, with the unit unless a plain number.
+pub(super) fn three_digits(unit: DisplayUnit, x: f64) -> String {
+    let n = crate::format::sig(unit.of(x), 3);
+    if unit.symbol == "1" {
+        n
+    } else {
+        format!("{n} {unit}")
+    }
+}
+
 /// How many rules deep a unit slip is traced up a route.
 pub(super) const REEVALUATE_DEPTH: usize = 8;
 
 impl<'m> Derivation<'m> {
+    /// Each declared measurement among `leaves` read in the other unit of a common pair, with
+    /// the value `rule` on `inputs` then gives (`None` where it gives none): what every search
+    /// for a unit slip up a route tries.
+    fn leaf_readings<'k>(
+        &'k self,
+        rule: usize,
+        inputs: &'k [Key],
+        leaves: impl IntoIterator<Item = Key> + 'k,
+    ) -> impl Iterator<Item = (Key, Reading, Option<f64>)> + 'k {
+        leaves.into_iter().flat_map(move |leaf| {
+            // A leaf with no declaration of its own (a default) has no unit to have slipped.
+            let found = self
+                .declaration_used(leaf)
+                .map_or_else(Vec::new, |d| readings(leaf.1, d.written_unit.as_deref()));
+            found.into_iter().map(move |r| {
+                let x = self.reevaluate(rule, inputs, leaf, r.factor, 0);
+                (leaf, r, x)
+            })
+        })
+    }
+
     /// For a rule of body `bi` that had every input but no solution: each declared transit
     /// duration of a quarter of the period or more (longer than any transit lasts) that, read
     /// in the smaller unit of a common pair, gives it one (a total transit duration written
@@ -193,33 +243,27 @@ impl<'m> Derivation<'m> {
             .find(|k| k.1 == Qty::Period)
             .and_then(|k| self.entries.get(k))
             .map(|e| e.value.nominal);
-        let mut out = Vec::new();
-        for leaf in ins {
-            let Some(e) = self.entries.get(leaf).filter(|e| e.rule.is_none()) else {
-                continue;
-            };
-            let too_long = period.is_some_and(|p| e.value.nominal >= p / 4.0);
-            if !matches!(leaf.1, Qty::TransitDuration | Qty::TransitDurationFull) || !too_long {
-                continue;
-            }
-            let Some(decl) = self.declaration_used(*leaf) else {
-                continue;
-            };
-            for r in readings(leaf.1, decl.written_unit.as_deref()) {
-                if r.factor < 1.0 && self.reevaluate(*ri, ins, *leaf, r.factor, 0).is_some() {
-                    out.push(format!(
-                        "read in {} instead of {} {}, {} gives {} a solution: {}",
-                        r.meant,
-                        r.written,
-                        r.change(),
-                        self.key_name(*leaf),
-                        rule.id,
-                        r.question().replacen("it", &self.key_name(*leaf), 1)
-                    ));
-                }
-            }
-        }
-        out
+        let too_long = |leaf: &Key| {
+            matches!(leaf.1, Qty::TransitDuration | Qty::TransitDurationFull)
+                && self.entries.get(leaf).is_some_and(|e| {
+                    e.rule.is_none() && period.is_some_and(|p| e.value.nominal >= p / 4.0)
+                })
+        };
+        let leaves: Vec<Key> = ins.iter().copied().filter(too_long).collect();
+        self.leaf_readings(*ri, ins, leaves)
+            .filter(|(_, r, x)| r.factor < 1.0 && x.is_some())
+            .map(|(leaf, r, _)| {
+                let name = self.key_name(leaf);
+                format!(
+                    "read in {} instead of {} {}, {name} gives {} a solution: {}",
+                    r.meant,
+                    r.written,
+                    r.change(),
+                    rule.id,
+                    r.question().replacen("it", &name, 1)
+                )
+            })
+            .collect()
     }
 
     /// `brisk.mass is derived (mass-from-density) from b.period, b.scaled_semi_major_axis
@@ -258,23 +302,14 @@ impl<'m> Derivation<'m> {
         let Some(rule) = e.rule else {
             return Vec::new();
         };
-        let mut out = Vec::new();
-        for leaf in self.declared_deps(&e.deps).iter() {
-            let Some(decl) = self.declaration_used(*leaf) else {
-                continue;
-            };
-            for r in readings(leaf.1, decl.written_unit.as_deref()) {
-                let Some(x) = self.reevaluate(rule, &e.inputs, *leaf, r.factor, 0) else {
-                    continue;
-                };
-                if ok(x) {
-                    let unit = super::display_unit(key.1, x);
-                    let shown = format!("{} {unit}", crate::format::sig(unit.of(x), 3));
-                    out.push(upstream_slip(&self.key_name(*leaf), &r, &shown, fits));
-                }
-            }
-        }
-        out
+        let leaves: Vec<Key> = self.declared_deps(&e.deps).iter().copied().collect();
+        self.leaf_readings(rule, &e.inputs, leaves)
+            .filter_map(|(leaf, r, x)| x.filter(|x| ok(*x)).map(|x| (leaf, r, x)))
+            .map(|(leaf, r, x)| {
+                let shown = three_digits(super::display_unit(key.1, x), x);
+                upstream_slip(&self.key_name(leaf), &r, &shown, fits)
+            })
+            .collect()
     }
 
     /// The unit help for declared `k` (value `declared`) against `other`: a unit slip of
@@ -291,22 +326,18 @@ impl<'m> Derivation<'m> {
         order: Option<bool>,
     ) -> Option<String> {
         let written = self.declaration_used(k)?.written_unit.as_deref();
-        let spread = |v: &Value| {
-            let (lo, hi) = v.linear_spread(&self.inputs);
-            (lo + hi) / 2.0
-        };
         let (d, o) = (declared.nominal, other.nominal);
-        let (sd, so) = (spread(declared), spread(other));
+        let (sd, so) = (self.spread(declared), self.spread(other));
         let threshold = self.options.consistency_sigma;
-        let fits = |x: f64| {
-            let sigma = (sd * x / d).hypot(so);
-            match order {
-                None => (x - o).abs() <= threshold * sigma || within_ratio(x, o),
-                Some(true) => x <= o + threshold * sigma && x >= o / 10.0,
-                Some(false) => x >= o - threshold * sigma && x <= o * 10.0,
-            }
-        };
-        unit_slip(k.1, written, d, fits)
+        unit_slip(k.1, written, d, |x| {
+            fits(x, o, (sd * x / d).hypot(so), threshold, order)
+        })
+    }
+
+    /// A value's first-order standard uncertainty, the mean of its two sides.
+    fn spread(&self, v: &Value) -> f64 {
+        let (lo, hi) = v.linear_spread(&self.inputs);
+        (lo + hi) / 2.0
     }
 
     /// A unit slip further up a route: one declared measurement `route` rests on (and
@@ -326,42 +357,23 @@ impl<'m> Derivation<'m> {
     ) -> Vec<String> {
         let (rule, inputs, value, deps) = route;
         let (target, other_deps, other_name) = other;
-        let spread = |v: &Value| {
-            let (lo, hi) = v.linear_spread(&self.inputs);
-            (lo + hi) / 2.0
-        };
-        let (sv, st) = (spread(value), spread(target));
+        let (sv, st) = (self.spread(value), self.spread(target));
         let threshold = self.options.consistency_sigma;
-        let mut out = Vec::new();
-        for leaf in self.declared_deps(deps).iter() {
-            if other_deps.contains(leaf) {
-                continue;
-            }
-            let Some(decl) = self.declaration_used(*leaf) else {
-                continue;
-            };
-            for r in readings(leaf.1, decl.written_unit.as_deref()) {
-                let Some(x) = self.reevaluate(rule, inputs, *leaf, r.factor, 0) else {
-                    continue;
-                };
+        let leaves: Vec<Key> = self
+            .declared_deps(deps)
+            .iter()
+            .copied()
+            .filter(|k| !other_deps.contains(k))
+            .collect();
+        self.leaf_readings(rule, inputs, leaves)
+            .filter_map(|(leaf, r, x)| {
+                let x = x?;
                 let sigma = (sv * x / value.nominal).abs().hypot(st);
-                let o = target.nominal;
-                let fits = match order {
-                    None => (x - o).abs() <= threshold * sigma || within_ratio(x, o),
-                    Some(true) => x <= o + threshold * sigma && x >= o / 10.0,
-                    Some(false) => x >= o - threshold * sigma && x <= o * 10.0,
-                };
-                if fits {
-                    let shown = if unit.symbol == "1" {
-                        crate::format::sig(unit.of(x), 3)
-                    } else {
-                        format!("{} {unit}", crate::format::sig(unit.of(x), 3))
-                    };
-                    out.push(upstream_slip(&self.key_name(*leaf), &r, &shown, other_name));
-                }
-            }
-        }
-        out
+                fits(x, target.nominal, sigma, threshold, order).then(|| {
+                    upstream_slip(&self.key_name(leaf), &r, &three_digits(unit, x), other_name)
+                })
+            })
+            .collect()
     }
 
     /// `rule` on `inputs` again, with declared `leaf` multiplied by `factor` wherever the

@@ -336,14 +336,7 @@ impl<'m> Derivation<'m> {
                     Some(o) => {
                         let unit = summary::display_unit(key.1, v);
                         // Three significant digits, as the range is shown (0.0220, 1055).
-                        let shown = |x: f64| {
-                            let n = crate::format::sig(unit.of(x), 3);
-                            if unit.symbol == "1" {
-                                n
-                            } else {
-                                format!("{n} {unit}")
-                            }
-                        };
+                        let shown = |x: f64| super::slips::three_digits(unit, x);
                         let (lo, hi) = if o < v { (o, v) } else { (v, o) };
                         format!(
                             "; taken at the other end of the range instead, it is {}, so it lies between {} and {}",

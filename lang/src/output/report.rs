@@ -420,6 +420,8 @@ pub fn eval_text(a: &Analysis, db: &dyn SourceDb) -> String {
             }
         }
         out.push_str(&format!("system \"{}\"  ({})\n", sys.name, db.name(a.file)));
+        // Each body's assumption lines once: a planet's list is compared with its star's.
+        let lines = assumed::body_lines_of(res);
         for (bi, (b, r)) in sys.bodies.iter().zip(&res.bodies).enumerate() {
             match b.orbits.and_then(|h| sys.bodies.get(h)) {
                 Some(h) => {
@@ -465,7 +467,7 @@ pub fn eval_text(a: &Analysis, db: &dyn SourceDb) -> String {
             if let Some(c) = a.composition.get(&(si, b.id.clone())) {
                 out.push_str(&format!("    composition: {}\n", c.text));
             }
-            let assumed = assumed::assumed_lines(sys, res, bi);
+            let assumed = assumed::assumed_lines(sys, &lines, bi);
             if !assumed.is_empty() {
                 out.push_str("    assumed:\n");
                 for s in assumed {

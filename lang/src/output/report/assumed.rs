@@ -13,8 +13,9 @@ const FOLDED: usize = 3;
 /// table it comes from), when there are at least [`FOLDED`], and says in one line where
 /// they are: what a star assumes is spelt out under the star, not again under each of its
 /// planets.
-pub(super) fn assumed_lines(sys: &System, res: &SystemResult, bi: usize) -> Vec<String> {
-    let own = |i: usize| -> Vec<String> { body_lines(res, i) };
+/// `lines` holds each body's own lines ([`body_lines_of`]).
+pub(super) fn assumed_lines(sys: &System, lines: &[Vec<String>], bi: usize) -> Vec<String> {
+    let own = |i: usize| lines.get(i).cloned().unwrap_or_default();
     let mine = own(bi);
     let host = sys
         .bodies
@@ -24,7 +25,7 @@ pub(super) fn assumed_lines(sys: &System, res: &SystemResult, bi: usize) -> Vec<
     let Some(h) = host else {
         return mine;
     };
-    let theirs = own(h);
+    let theirs = lines.get(h).map_or(&[][..], |l| &l[..]);
     let (shared, kept): (Vec<&String>, Vec<&String>) =
         mine.iter().partition(|s| theirs.binary_search(s).is_ok());
     if shared.len() < FOLDED {
@@ -47,6 +48,11 @@ pub(super) fn assumed_lines(sys: &System, res: &SystemResult, bi: usize) -> Vec<
         )
     });
     lines
+}
+
+/// Every body's assumption lines ([`body_lines`]), in the system's order.
+pub(super) fn body_lines_of(res: &SystemResult) -> Vec<Vec<String>> {
+    (0..res.bodies.len()).map(|i| body_lines(res, i)).collect()
 }
 
 /// The assumption lines of body `i`, sorted, each once. A line that speaks of one value
