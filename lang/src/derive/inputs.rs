@@ -408,7 +408,32 @@ impl<'m> Derivation<'m> {
             })
             .unzip();
         let marked = all.iter().position(|d| d.preferred);
-        let chosen = sources::choose(&measurements, &assumed, marked, self.options.source_choice);
+        let mut policy = self.options.source_choice;
+        let not_averaged = (first.qty == Qty::TransitEpoch
+            && policy == sources::SourceChoice::WeightedMean)
+            .then(|| {
+                let scales: Vec<Option<&str>> =
+                    all.iter().map(|d| d.written_unit.as_deref()).collect();
+                let period = body
+                    .sources(Qty::Period)
+                    .iter()
+                    .find_map(|d| match &d.content {
+                        Content::Measured(m) if !m.form.is_limit() => Some(m.value),
+                        _ => None,
+                    });
+                sources::epochs_not_averaged(&measurements, &scales, period)
+            })
+            .flatten();
+        if not_averaged.is_some() {
+            policy = sources::SourceChoice::MostPrecise;
+        }
+        let chosen = sources::choose(&measurements, &assumed, marked, policy).map(|c| {
+            if c.choice == sources::Choice::MostPrecise {
+                sources::Chosen { not_averaged, ..c }
+            } else {
+                c
+            }
+        });
         // The index among the measurements is the index among all declarations when every
         // one is a measurement (a text quantity is never chosen among).
         let used = chosen

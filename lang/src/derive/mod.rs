@@ -495,4 +495,6 @@ pub fn default_of(q: Qty) -> Option<(f64, &'static str)> {
 #[cfg(test)]
 mod tests;
 #[cfg(test)]
+mod tests_epochs;
+#[cfg(test)]
 mod tests_slips;

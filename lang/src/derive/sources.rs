@@ -74,6 +74,9 @@ pub struct Chosen {
     /// Why the source used could not be ranked by precision, when it could not (in the words
     /// of the choice's sentence).
     pub unranked: Option<&'static str>,
+    /// Why the weighted mean the project file asks for was not taken, when it was not
+    /// (transit epochs of different transits or time scales: see [`epochs_not_averaged`]).
+    pub not_averaged: Option<&'static str>,
 }
 
 /// An inverse-variance weighted mean and its Birge ratio.
@@ -162,6 +165,7 @@ pub fn choose(
             choice,
             mean: None,
             unranked: None,
+            not_averaged: None,
         })
     };
     if let Some(i) = marked {
@@ -230,10 +234,46 @@ pub fn choose(
                     choice: Choice::WeightedMean,
                     mean: Some(w),
                     unranked: None,
+                    not_averaged: None,
                 }),
                 None => most_precise(),
             }
         }
+    }
+}
+
+/// Why transit epochs may not be averaged as numbers, if they may not: a weighted mean of
+/// the dates of different transits is a date between them, as likely as not half an orbit
+/// from any transit, and dates in different time scales differ by the scales' offset (69 s
+/// between UTC and TDB in 2017, up to 8.3 min more for a barycentric correction), which
+/// averaging would hide. `scales` are the units as written, `period` the period in use (SI
+/// seconds, the same as the epochs). Averaging several transits properly is a fit of the
+/// linear ephemeris (common practice), which this choice does not do.
+pub fn epochs_not_averaged(
+    epochs: &[Measurement],
+    scales: &[Option<&str>],
+    period: Option<f64>,
+) -> Option<&'static str> {
+    if scales.windows(2).any(|w| w[0] != w[1]) {
+        return Some("transit epochs in different time scales are not averaged");
+    }
+    let measured: Vec<f64> = epochs
+        .iter()
+        .filter(|m| !m.form.is_limit())
+        .map(|m| m.value)
+        .collect();
+    let (lo, hi) = measured
+        .iter()
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), &v| {
+            (lo.min(v), hi.max(v))
+        });
+    if measured.len() < 2 {
+        return None;
+    }
+    match period.filter(|p| *p > 0.0 && p.is_finite()) {
+        Some(p) if hi - lo < p / 2.0 => None,
+        Some(_) => Some("transit epochs of different transits are not averaged (that needs a fit of the linear ephemeris)"),
+        None => Some("transit epochs are not averaged without a period to tell whether they time the same transit"),
     }
 }
 
@@ -328,6 +368,11 @@ pub fn words(
         (_, Some(i), _) if chosen.unranked.is_some() => format!(
             "chosen: {} ({})",
             chosen.unranked.unwrap_or_default(),
+            source(i)
+        ),
+        (_, Some(i), _) if chosen.not_averaged.is_some() => format!(
+            "{}; chosen: the most precise, by standard uncertainty ({})",
+            chosen.not_averaged.unwrap_or_default(),
             source(i)
         ),
         (_, Some(i), _) => format!(
