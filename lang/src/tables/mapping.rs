@@ -407,6 +407,14 @@ fn unit_for(
 ) -> Result<(String, f64), MappingError> {
     let col_name = col.map_or("?", |c| c.name.as_str());
     let field = col.and_then(|c| c.unit.as_deref());
+    // A field in degrees Celsius stays in Celsius whatever the mapping says: `unit = "K"`
+    // would read 5000 (°C) as 5000 K.
+    if let Some(why) = field.and_then(|vo| super::votable::offset_scale(vo.trim())) {
+        return Err(MappingError(format!(
+            "{what}: field `{col_name}` is in `{}`, {why}",
+            field.unwrap_or_default().trim()
+        )));
+    }
     if let (Some(u), Some(vo)) = (given, field) {
         disagreeing(u, vo, col_name, what)?;
     }
@@ -455,6 +463,14 @@ fn unit_for(
             )
         };
         return Err(MappingError(need));
+    }
+    // Magnitudes and dex are logarithms of a ratio, not scale factors: only the quantities
+    // shown in them take them (a depth in mmag is not a fraction times 1e-3).
+    if !crate::units::takes_unit(def.display, text.trim()) {
+        return Err(MappingError(format!(
+            "{what}: the unit `{text}` (column `{col_name}`) is logarithmic, and {} is not: convert the column (a depth in mmag to a fraction, for example, is 1 - 10^(-mmag/2500))",
+            def.name
+        )));
     }
     // `1`, a plain number, is written without a unit (`0.02 1` would not parse).
     let text = if text == "1" { String::new() } else { text };

@@ -636,7 +636,9 @@ fn vounits_in_syzygy_spelling() {
         assert_eq!(vounit_to_syzygy(vo).as_deref(), Ok(syz), "{vo}");
         assert!(crate::units::parse_unit_text(syz).is_some(), "{syz}");
     }
-    assert!(vounit_to_syzygy("mag").is_err());
+    // Magnitudes are Syzygy's unit of the magnitudes (`magnitude_v`), as in VOUnits.
+    assert_eq!(vounit_to_syzygy("mag").as_deref(), Ok("mag"));
+    assert!(vounit_to_syzygy("Celsius").unwrap_err().contains("offset"));
     assert!(vounit_to_syzygy("furlong")
         .unwrap_err()
         .contains("`furlong`"));
@@ -644,12 +646,48 @@ fn vounits_in_syzygy_spelling() {
 
 #[test]
 fn a_field_unit_without_equivalent_names_the_field() {
-    let text = VOT.replace("unit=\"solRad\"", "unit=\"mag\"");
+    let text = VOT.replace("unit=\"solRad\"", "unit=\"furlong\"");
     let t = VoTable::new(text.as_bytes(), Limits::default()).unwrap();
     let m =
         Mapping::from_toml("[bodies]\nsystem = \"sys\"\n[star.radius]\nvalue = \"r\"\n").unwrap();
     let e = Importer::new(&m, t.columns(), "t").err().unwrap();
-    assert!(e.0.contains("`mag` of field `r`"), "{e}");
+    assert!(e.0.contains("`furlong` of field `r`"), "{e}");
+}
+
+/// A field in degrees Celsius is refused even when the mapping names a unit: `unit = "K"`
+/// read 5000 (°C, 5273.15 K) as 5000 K.
+#[test]
+fn a_celsius_field_is_refused_whatever_the_mapping_says() {
+    let text = VOT.replace("unit=\"solRad\"", "unit=\"Celsius\"");
+    for mapping in [
+        "[bodies]\nsystem = \"sys\"\n[star.teff]\nvalue = \"r\"\n",
+        "[bodies]\nsystem = \"sys\"\n[star.teff]\nvalue = \"r\"\nunit = \"K\"\n",
+    ] {
+        let t = VoTable::new(text.as_bytes(), Limits::default()).unwrap();
+        let m = Mapping::from_toml(mapping).unwrap();
+        let e = Importer::new(&m, t.columns(), "t").err().unwrap();
+        assert!(e.0.contains("field `r` is in `Celsius`"), "{e}");
+        assert!(e.0.contains("convert the column to K"), "{e}");
+    }
+}
+
+/// Magnitudes are taken only by the quantities shown in them: a depth in mmag is refused
+/// (it is not a fraction times 1e-3), a V magnitude in mag is read.
+#[test]
+fn a_logarithmic_unit_is_taken_only_by_a_quantity_shown_in_it() {
+    let depth = VOT.replace("unit=\"solRad\"", "unit=\"mmag\"");
+    let t = VoTable::new(depth.as_bytes(), Limits::default()).unwrap();
+    let m = Mapping::from_toml(
+        "[bodies]\nsystem = \"sys\"\nplanet = \"sys\"\n[planet.transit_depth]\nvalue = \"r\"\n",
+    )
+    .unwrap();
+    let e = Importer::new(&m, t.columns(), "t").err().unwrap();
+    assert!(e.0.contains("`mmag` (column `r`) is logarithmic"), "{e}");
+    let vmag = VOT.replace("unit=\"solRad\"", "unit=\"mag\"");
+    let t = VoTable::new(vmag.as_bytes(), Limits::default()).unwrap();
+    let m = Mapping::from_toml("[bodies]\nsystem = \"sys\"\n[star.magnitude_v]\nvalue = \"r\"\n")
+        .unwrap();
+    assert!(Importer::new(&m, t.columns(), "t").is_ok());
 }
 
 /// An uncertainty FIELD with a unit of its own is converted into the value's unit (2.4 h is

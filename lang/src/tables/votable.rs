@@ -547,6 +547,17 @@ pub fn vounit_to_syzygy(vo: &str) -> Result<String, String> {
     Ok(out)
 }
 
+/// Why a temperature scale with an offset from kelvin (VOUnits' `Celsius`, and the usual
+/// spellings of it and of Fahrenheit) cannot be read: a unit here is a factor, and 0 °C is
+/// 273.15 K, not 0 K.
+pub fn offset_scale(s: &str) -> Option<&'static str> {
+    matches!(
+        s,
+        "Celsius" | "degC" | "deg_C" | "°C" | "℃" | "Fahrenheit" | "degF" | "deg_F" | "°F"
+    )
+    .then_some("a temperature scale with an offset from kelvin (0 °C is 273.15 K), which no unit factor can carry: convert the column to K")
+}
+
 /// `m**2`, `m^2`, `m2`, `s-1`, `m**(-2)` into symbol and exponent.
 fn split_power(f: &str) -> Result<(&str, i32), String> {
     let bad = || format!("cannot read the factor `{f}`");
@@ -607,8 +618,8 @@ fn syzygy_symbol(s: &str) -> Result<String, String> {
     if let Some((_, syz)) = NAMES.iter().find(|(v, _)| *v == s) {
         return Ok((*syz).to_string());
     }
-    if s == "mag" {
-        return Err("magnitudes are not a unit of any Syzygy quantity".into());
+    if let Some(why) = offset_scale(s) {
+        return Err(why.into());
     }
     if crate::units::lookup(s).is_some() {
         return Ok(s.to_string());
