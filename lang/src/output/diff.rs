@@ -98,6 +98,8 @@ pub struct SystemSnapshot {
     pub file: String,
     pub bodies: Vec<BodySnapshot>,
     pub diagnostics: Vec<DiagnosticSnapshot>,
+    /// What a file says outside any system: its own references, each id with its text.
+    pub refs: Vec<(String, String)>,
 }
 
 /// Reduce an analysis (of a whole file or a part of one) to what [`compare`] reads. `file`
@@ -127,6 +129,7 @@ pub fn snapshot(a: &Analysis, file: &str) -> Vec<SystemSnapshot> {
                 })
                 .collect(),
             diagnostics: Vec::new(),
+            refs: Vec::new(),
         })
         .collect();
     let mut outside = Vec::new();
@@ -160,12 +163,21 @@ pub fn snapshot(a: &Analysis, file: &str) -> Vec<SystemSnapshot> {
             });
         }
     }
-    if !outside.is_empty() {
+    // The file's own references (a shared one is the project's, compared in its own file).
+    let refs: Vec<(String, String)> = a
+        .model
+        .refs
+        .iter()
+        .filter(|r| r.shared.is_none())
+        .map(|r| (r.id.clone(), r.text.clone()))
+        .collect();
+    if !outside.is_empty() || !refs.is_empty() {
         out.push(SystemSnapshot {
             name: None,
             file: file.to_string(),
             bodies: Vec::new(),
             diagnostics: outside,
+            refs,
         });
     }
     out
@@ -220,6 +232,10 @@ pub enum ChangeKind {
     ClassChanged,
     DiagnosticAdded,
     DiagnosticRemoved,
+    /// A file's `ref`, by id: declared on the new side only, the old only, or with another text.
+    ReferenceAdded,
+    ReferenceRemoved,
+    ReferenceChanged,
 }
 
 impl ChangeKind {
@@ -236,6 +252,9 @@ impl ChangeKind {
             ChangeKind::ClassChanged => "class-changed",
             ChangeKind::DiagnosticAdded => "diagnostic-added",
             ChangeKind::DiagnosticRemoved => "diagnostic-removed",
+            ChangeKind::ReferenceAdded => "reference-added",
+            ChangeKind::ReferenceRemoved => "reference-removed",
+            ChangeKind::ReferenceChanged => "reference-changed",
         }
     }
 
@@ -253,6 +272,9 @@ impl ChangeKind {
             ChangeKind::ClassChanged => "composition class changed",
             ChangeKind::DiagnosticAdded => "diagnostic appeared",
             ChangeKind::DiagnosticRemoved => "diagnostic went away",
+            ChangeKind::ReferenceAdded => "reference added",
+            ChangeKind::ReferenceRemoved => "reference removed",
+            ChangeKind::ReferenceChanged => "reference text changed",
         }
     }
 }
@@ -409,17 +431,34 @@ impl Diff {
     }
 }
 
-/// The key a system is matched by: its name, or for a name that occurs more than once on a
-/// side, its name and file; what a file says outside systems goes by the file.
-fn keys(side: &[SystemSnapshot]) -> Vec<(String, Option<String>)> {
-    // Counted once (a count per system made a side of many systems quadratic).
-    let mut count: std::collections::HashMap<&str, usize> = std::collections::HashMap::new();
-    for n in side.iter().filter_map(|s| s.name.as_deref()) {
-        *count.entry(n).or_insert(0) += 1;
+/// The names that occur more than once on either side: those are matched by name and file
+/// on both sides, so that a system copied into a second file is one added, not one
+/// removed and two added.
+fn repeated<'a>(
+    old: &'a [SystemSnapshot],
+    new: &'a [SystemSnapshot],
+) -> std::collections::HashSet<&'a str> {
+    // Counted once per side (a count per system made a side of many systems quadratic).
+    let mut out = std::collections::HashSet::new();
+    for side in [old, new] {
+        let mut count: std::collections::HashMap<&str, usize> = std::collections::HashMap::new();
+        for n in side.iter().filter_map(|s| s.name.as_deref()) {
+            *count.entry(n).or_insert(0) += 1;
+        }
+        out.extend(count.into_iter().filter(|(_, c)| *c > 1).map(|(n, _)| n));
     }
+    out
+}
+
+/// The key a system is matched by: its name, or for a name in `repeated`, its name and
+/// file; what a file says outside systems goes by the file.
+fn keys(
+    side: &[SystemSnapshot],
+    repeated: &std::collections::HashSet<&str>,
+) -> Vec<(String, Option<String>)> {
     side.iter()
         .map(|s| match &s.name {
-            Some(n) if count.get(n.as_str()) == Some(&1) => (n.clone(), None),
+            Some(n) if !repeated.contains(n.as_str()) => (n.clone(), None),
             Some(n) => (n.clone(), Some(s.file.clone())),
             None => (String::new(), Some(s.file.clone())),
         })
@@ -428,7 +467,8 @@ fn keys(side: &[SystemSnapshot]) -> Vec<(String, Option<String>)> {
 
 /// Compare two sides, each the snapshots of all its files.
 pub fn compare(old: &[SystemSnapshot], new: &[SystemSnapshot], options: DiffOptions) -> Diff {
-    let (old_keys, new_keys) = (keys(old), keys(new));
+    let repeated = repeated(old, new);
+    let (old_keys, new_keys) = (keys(old, &repeated), keys(new, &repeated));
     // Each key's first place on the old side, and the keys of the new side: found through
     // hashes, not scans.
     let mut old_at: std::collections::HashMap<&(String, Option<String>), usize> =
@@ -447,6 +487,7 @@ pub fn compare(old: &[SystemSnapshot], new: &[SystemSnapshot], options: DiffOpti
             let mut changes = Vec::new();
             if n.name.is_none() {
                 changes.extend(diagnostic_changes(&[], &n.diagnostics));
+                changes.extend(reference_changes(&[], &n.refs));
             }
             found += changes.len().max(1);
             systems.push(SystemDiff {
@@ -462,7 +503,7 @@ pub fn compare(old: &[SystemSnapshot], new: &[SystemSnapshot], options: DiffOpti
             });
             continue;
         };
-        compared += 1;
+        compared += usize::from(n.name.is_some());
         let all = system_changes(o, n, options);
         found += all.len();
         let mut changes: Vec<Change> = all
@@ -485,7 +526,9 @@ pub fn compare(old: &[SystemSnapshot], new: &[SystemSnapshot], options: DiffOpti
             continue;
         }
         let changes = if o.name.is_none() {
-            diagnostic_changes(&o.diagnostics, &[])
+            let mut c = diagnostic_changes(&o.diagnostics, &[]);
+            c.extend(reference_changes(&o.refs, &[]));
+            c
         } else {
             Vec::new()
         };
@@ -546,6 +589,47 @@ fn system_changes(o: &SystemSnapshot, n: &SystemSnapshot, options: DiffOptions) 
         }
     }
     out.extend(diagnostic_changes(&o.diagnostics, &n.diagnostics));
+    out.extend(reference_changes(&o.refs, &n.refs));
+    out
+}
+
+/// A file's references declared on one side only, or with another text (a corrected
+/// citation is a change a reviewer must see, though no number moves).
+fn reference_changes(old: &[(String, String)], new: &[(String, String)]) -> Vec<Change> {
+    let quoted = |id: &str, text: &str| format!("{id} \"{text}\"");
+    // Looked up through hashes: a file may declare thousands of references.
+    let by_id = |side: &[(String, String)]| -> std::collections::HashMap<String, String> {
+        side.iter().cloned().collect()
+    };
+    let (old_ids, new_ids) = (by_id(old), by_id(new));
+    let mut out = Vec::new();
+    for (id, text) in new {
+        match old_ids.get(id) {
+            None => out.push(Change::plain(
+                ChangeKind::ReferenceAdded,
+                None,
+                None,
+                Some(quoted(id, text)),
+            )),
+            Some(was) if was != text => out.push(Change::plain(
+                ChangeKind::ReferenceChanged,
+                None,
+                Some(quoted(id, was)),
+                Some(quoted(id, text)),
+            )),
+            Some(_) => {}
+        }
+    }
+    for (id, text) in old {
+        if !new_ids.contains_key(id) {
+            out.push(Change::plain(
+                ChangeKind::ReferenceRemoved,
+                None,
+                Some(quoted(id, text)),
+                None,
+            ));
+        }
+    }
     out
 }
 
@@ -662,10 +746,20 @@ fn value_change(
         };
         let sigma = combined_sigma(numbers(o), numbers(n));
         change.sigma = (sigma > 0.0).then_some(sigma / factor);
+        // Exact values have no uncertainty to measure a move by, not even a move of zero.
+        if sigma == 0.0 {
+            change.shift = None;
+        }
     }
     let derived_limits =
         o.form.is_limit() && n.form == o.form && o.origin.is_computed() && n.origin.is_computed();
+    // The same exact number declared another way (`assumed`, another citation) did not move.
+    let same_exact = change.sigma.is_none()
+        && !o.form.is_limit()
+        && o.form == n.form
+        && same_number(o.value, n.value);
     change.significant = match change.shift {
+        None if same_exact => false,
         Some(s) => s.abs() >= options.threshold,
         // A derived limit has no uncertainty to measure its move by: it counts when it
         // moved at the digits shown, not by the rounding noise of its inputs.

@@ -51,6 +51,7 @@ fn system(name: &str, values: Vec<ValueSnapshot>, class: Option<&'static str>) -
             class,
         }],
         diagnostics: Vec::new(),
+        refs: Vec::new(),
     }
 }
 
@@ -326,4 +327,88 @@ fn a_new_refused_declaration_with_its_finding_silenced_is_a_change() {
             .contains("`eccentricity = 1.5` of b is not used"),
         "{change:?}"
     );
+}
+
+/// A system copied into a second file: the first file's copy is matched with the old one
+/// (unchanged, nothing listed) and only the copy is added; taking the copy away again is
+/// one removal.
+#[test]
+fn a_system_copied_into_a_second_file_is_one_addition() {
+    let one = system(
+        "Wendle",
+        vec![value("period", Origin::Declared, 3.0, 0.3)],
+        None,
+    );
+    let mut copy = one.clone();
+    copy.file = "copy.syz".into();
+    let options = DiffOptions {
+        threshold: 1.0,
+        all: false,
+    };
+    let d = compare(
+        std::slice::from_ref(&one),
+        &[one.clone(), copy.clone()],
+        options,
+    );
+    let statuses: Vec<(SystemStatus, Option<&str>)> = d
+        .systems
+        .iter()
+        .map(|s| (s.status, s.new_file.as_deref().or(s.old_file.as_deref())))
+        .collect();
+    assert_eq!(statuses, [(SystemStatus::Added, Some("copy.syz"))], "{d:?}");
+    assert_eq!(d.systems_compared, 1);
+    let back = compare(&[one.clone(), copy], std::slice::from_ref(&one), options);
+    let statuses: Vec<(SystemStatus, Option<&str>)> = back
+        .systems
+        .iter()
+        .map(|s| (s.status, s.new_file.as_deref().or(s.old_file.as_deref())))
+        .collect();
+    assert_eq!(
+        statuses,
+        [(SystemStatus::Removed, Some("copy.syz"))],
+        "{back:?}"
+    );
+}
+
+/// A corrected citation is listed though no number moves: a reference whose text changed,
+/// one added and one removed.
+#[test]
+fn a_changed_reference_text_is_listed() {
+    let file = |refs: &[(&str, &str)]| SystemSnapshot {
+        name: None,
+        file: "x.syz".into(),
+        bodies: Vec::new(),
+        diagnostics: Vec::new(),
+        refs: refs
+            .iter()
+            .map(|(i, t)| (i.to_string(), t.to_string()))
+            .collect(),
+    };
+    let old = [file(&[("p1", "Invented paper 2030"), ("p2", "Gone")])];
+    let new = [file(&[("p1", "Invented paper 2031"), ("p3", "New")])];
+    let options = DiffOptions {
+        threshold: 1.0,
+        all: false,
+    };
+    let d = compare(&old, &new, options);
+    assert!(d.significant());
+    let kinds: Vec<(ChangeKind, Option<&str>, Option<&str>)> = d
+        .systems
+        .iter()
+        .flat_map(|s| &s.changes)
+        .map(|c| (c.kind, c.old.as_deref(), c.new.as_deref()))
+        .collect();
+    assert_eq!(
+        kinds,
+        [
+            (
+                ChangeKind::ReferenceChanged,
+                Some("p1 \"Invented paper 2030\""),
+                Some("p1 \"Invented paper 2031\"")
+            ),
+            (ChangeKind::ReferenceAdded, None, Some("p3 \"New\"")),
+            (ChangeKind::ReferenceRemoved, Some("p2 \"Gone\""), None),
+        ]
+    );
+    assert!(!compare(&old, &old, options).significant());
 }
