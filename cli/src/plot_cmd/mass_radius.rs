@@ -211,6 +211,8 @@ pub(super) fn draw(
     // What the labels must keep clear of, and the labels, in order: curve names and Solar
     // System names first (they are few and always wanted), then the planets.
     let mut obstacles: Vec<Rect> = Vec::new();
+    // Drawn lines no label may be crossed by: the curves and the error bars.
+    let mut lines: Vec<labels::Segment> = Vec::new();
     let mut requests: Vec<Request> = Vec::new();
     let mut texts: Vec<(String, &'static str, f64)> = Vec::new();
     let inside = |(x, y): (f64, f64)| Rect::around(x, y, 0.0).inside(&PLOT);
@@ -242,8 +244,11 @@ pub(super) fn draw(
             .map(|p| (p.0, p.1))
             .partition(|p| p.0 < lo);
         for side in [before, after] {
-            body.polyline(&clip(side), colour, 1.4, dash, 0.4);
+            let side = clip(side);
+            lines.extend(side.windows(2).map(|w| (w[0], w[1])));
+            body.polyline(&side, colour, 1.4, dash, 0.4);
         }
+        lines.extend(fitted.windows(2).map(|w| (w[0], w[1])));
         body.polyline(&fitted, colour, 2.2, dash, 1.0);
         if let Some(&(x, y)) = fitted.last() {
             let (w, h) = text_size(trace.short, LABEL_FONT);
@@ -320,11 +325,17 @@ pub(super) fn draw(
         };
         match p.mass_limit {
             Some(limit) => arrow(&mut body, limit, true),
-            None => body.polyline(&[(mx0, y), (mx1, y)], colour, 1.1, "", 0.7),
+            None => {
+                lines.push(((mx0, y), (mx1, y)));
+                body.polyline(&[(mx0, y), (mx1, y)], colour, 1.1, "", 0.7);
+            }
         }
         match p.radius_limit {
             Some(limit) => arrow(&mut body, limit, false),
-            None => body.polyline(&[(x, ry0), (x, ry1)], colour, 1.1, "", 0.7),
+            None => {
+                lines.push(((x, ry0), (x, ry1)));
+                body.polyline(&[(x, ry0), (x, ry1)], colour, 1.1, "", 0.7);
+            }
         }
     }
     obstacles.extend(arrows);
@@ -342,7 +353,7 @@ pub(super) fn draw(
         });
         texts.push((p.label.clone(), INK, LABEL_FONT));
     }
-    let placed = labels::place(PLOT, &obstacles, &requests, fixed);
+    let placed = labels::place(PLOT, &obstacles, &lines, &requests, fixed);
     let mut unlabelled: Vec<&str> = Vec::new();
     for (i, (spot, (text, colour, size))) in placed.iter().zip(&texts).enumerate() {
         match spot {

@@ -1,5 +1,6 @@
 //! Where the text labels of a diagram go: a greedy placement that never lets two labels
-//! overlap, nor a label cover a marker or cross the plot's frame.
+//! overlap, nor a label cover a marker, be crossed by a drawn line (an error bar, a curve)
+//! or cross the plot's frame. Leader lines may cross drawn lines.
 //!
 //! Each label is tried at up to [`CANDIDATES`] positions around its anchor (eight directions
 //! beside it, then sixteen at each of six farther distances, with a leader line back to the
@@ -132,7 +133,8 @@ const PAD: f64 = 1.5;
 /// The side of a bucket of the collision grid, in pixels.
 const CELL: f64 = 48.0;
 
-type Segment = ((f64, f64), (f64, f64));
+/// A line from one point to another, in pixels.
+pub type Segment = ((f64, f64), (f64, f64));
 
 /// A grid of buckets over the frame: each box (with the leader line it bounds, if it is
 /// one) is listed in every bucket it touches.
@@ -193,6 +195,12 @@ impl Grid {
     fn hits(&self, r: &Rect) -> bool {
         self.near(r).any(|(b, _)| b.overlaps(r))
     }
+
+    /// Whether a segment listed here passes through `r`.
+    fn crosses(&self, r: &Rect) -> bool {
+        self.near(r)
+            .any(|(b, seg)| b.overlaps(r) && seg.is_some_and(|(a, c)| r.crossed_by(a, c)))
+    }
 }
 
 /// The box of a label at distance `gap` from the marker's edge in direction `degrees`:
@@ -230,18 +238,24 @@ fn segments_cross(a: (f64, f64), b: (f64, f64), c: (f64, f64), d: (f64, f64)) ->
     d1 * d2 < 0.0 && d3 * d4 < 0.0
 }
 
-/// Place `labels` inside `frame`, clear of `obstacles` (markers, other drawn boxes) and of
-/// each other; `None` for a label with no free position. `fixed` labels are placed first,
-/// in their order, before the crowding order applies to the rest.
+/// Place `labels` inside `frame`, clear of `obstacles` (markers, other drawn boxes), of
+/// the drawn `lines` (segments: error bars, the pieces of a curve) and of each other; `None`
+/// for a label with no free position. `fixed` labels are placed first, in their order,
+/// before the crowding order applies to the rest.
 pub fn place(
     frame: Rect,
     obstacles: &[Rect],
+    lines: &[Segment],
     labels: &[Request],
     fixed: usize,
 ) -> Vec<Option<Placed>> {
     let mut grid = Grid::new(frame);
     for o in obstacles {
         grid.insert(*o, None);
+    }
+    let mut drawn = Grid::new(frame);
+    for &(a, b) in lines {
+        drawn.insert(Rect::new(a.0, a.1, b.0, b.1), Some((a, b)));
     }
     // Crowding: how many obstacles lie within a few label heights of the anchor.
     let crowding: Vec<usize> = labels
@@ -270,7 +284,7 @@ pub fn place(
         let spot = tries.take(CANDIDATES).find_map(|(ring, gap, dir)| {
             let r = candidate(req, gap, dir);
             let padded = r.grown(PAD);
-            if !padded.inside(&frame) || grid.hits(&padded) {
+            if !padded.inside(&frame) || grid.hits(&padded) || drawn.crosses(&padded) {
                 return None;
             }
             if ring == 0 {
@@ -331,7 +345,7 @@ mod tests {
 
     #[test]
     fn a_lone_label_sits_right_of_its_marker_without_a_leader() {
-        let out = place(frame(), &[], &[req(100.0, 100.0, 7)], 0);
+        let out = place(frame(), &[], &[], &[req(100.0, 100.0, 7)], 0);
         let p = out[0].unwrap();
         assert!(p.rect.x0 > 105.0 && p.rect.x0 < 110.0, "{p:?}");
         assert!(p.rect.y0 < 100.0 && p.rect.y1 > 100.0);
@@ -340,7 +354,7 @@ mod tests {
 
     #[test]
     fn labels_near_the_right_edge_go_left_and_stay_inside() {
-        let out = place(frame(), &[], &[req(790.0, 300.0, 10)], 0);
+        let out = place(frame(), &[], &[], &[req(790.0, 300.0, 10)], 0);
         let p = out[0].unwrap();
         assert!(p.rect.x1 < 790.0 && p.rect.inside(&frame()), "{p:?}");
     }
@@ -352,7 +366,7 @@ mod tests {
             .map(|i| req(300.0 + 4.0 * i as f64, 300.0 - 3.0 * i as f64, 9))
             .collect();
         let markers: Vec<Rect> = labels.iter().map(|l| Rect::around(l.x, l.y, 5.0)).collect();
-        let out = place(frame(), &markers, &labels, 0);
+        let out = place(frame(), &markers, &[], &labels, 0);
         let rects: Vec<Rect> = out.iter().flatten().map(|p| p.rect).collect();
         for (i, a) in rects.iter().enumerate() {
             assert!(a.inside(&frame()));
@@ -367,18 +381,41 @@ mod tests {
         assert!(rects.len() >= 12, "only {} placed", rects.len());
     }
 
+    /// A planet's own error bars and a curve through the spot beside it: the label goes
+    /// where none of them crosses it.
+    #[test]
+    fn drawn_lines_never_cross_a_label() {
+        let bars = [
+            ((40.0, 100.0), (260.0, 100.0)),
+            ((100.0, 40.0), (100.0, 160.0)),
+            ((60.0, 60.0), (300.0, 130.0)),
+        ];
+        let labels = [req(100.0, 100.0, 12)];
+        let out = place(frame(), &[], &bars, &labels, 0);
+        let p = out[0].expect("placed");
+        for (a, b) in bars {
+            assert!(
+                !p.rect.grown(PAD).crossed_by(a, b),
+                "{p:?} crossed by {a:?}-{b:?}"
+            );
+        }
+        // Without the lines it would sit right of the marker, across the horizontal bar.
+        let free = place(frame(), &[], &[], &labels, 0)[0].expect("placed");
+        assert!(free.rect.crossed_by(bars[0].0, bars[0].1), "{free:?}");
+    }
+
     #[test]
     fn a_label_with_no_room_is_not_placed() {
         let tiny = Rect::new(0.0, 0.0, 40.0, 40.0);
-        let out = place(tiny, &[], &[req(20.0, 20.0, 30)], 0);
+        let out = place(tiny, &[], &[], &[req(20.0, 20.0, 30)], 0);
         assert_eq!(out, vec![None]);
     }
 
     #[test]
     fn fixed_labels_are_placed_first_and_the_result_is_deterministic() {
         let labels = vec![req(200.0, 200.0, 8), req(204.0, 200.0, 8)];
-        let a = place(frame(), &[], &labels, 1);
-        assert_eq!(a, place(frame(), &[], &labels, 1));
+        let a = place(frame(), &[], &[], &labels, 1);
+        assert_eq!(a, place(frame(), &[], &[], &labels, 1));
         // The fixed one gets its first choice (right of it, no leader).
         assert!(a[0].unwrap().leader.is_none());
         assert!(a[0].unwrap().rect.x0 > 200.0);
