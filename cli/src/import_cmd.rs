@@ -182,10 +182,13 @@ fn import_one(
         };
     };
     let mut importer = match Importer::new(mapping, source.columns(), &name) {
-        Ok(i) => i,
+        Ok(i) => i.with_full_rows(source.full_rows()),
         Err(e) => {
             finish_bar(bar);
-            eprintln!("syz: error: {shown}: mapping: {e}");
+            eprintln!(
+                "syz: error: {shown}: mapping: {e}{}",
+                param_hint(&e.to_string(), source.params())
+            );
             return 2;
         }
     };
@@ -201,7 +204,46 @@ fn import_one(
         }
     }
     finish_bar(bar);
+    report_params(&shown, source.params());
     finish(&shown, &importer.finish(), args, written)
+}
+
+/// A VOTable's PARAMs are one value for the whole table, which the import does not read:
+/// each is named, so that none is passed over without a word (the first ten, then a count).
+fn report_params(table: &str, params: &[syzygy::tables::Param]) {
+    if params.is_empty() {
+        return;
+    }
+    let shown: Vec<String> = params
+        .iter()
+        .take(10)
+        .map(|p| match &p.unit {
+            Some(u) => format!("{} = {} {u}", p.name, p.value),
+            None => format!("{} = {}", p.name, p.value),
+        })
+        .collect();
+    let more = match params.len().saturating_sub(shown.len()) {
+        0 => String::new(),
+        n => format!(" and {n} more"),
+    };
+    eprintln!(
+        "syz: {table}: PARAMs (one value for the whole table) are not imported: {}{more}; a value every star or planet should get goes under [constants.star] or [constants.planet] in the mapping (docs/import.md)",
+        shown.join(", ")
+    );
+}
+
+/// For a mapping that names a column the header lacks but a PARAM has: what a PARAM is.
+fn param_hint(error: &str, params: &[syzygy::tables::Param]) -> String {
+    params
+        .iter()
+        .find(|p| !p.name.is_empty() && error.contains(&format!("`{}` is not in the table's header", p.name)))
+        .map(|p| {
+            format!(
+                "; `{}` is a PARAM of the table (one value for all rows), not a FIELD: give its value under [constants.star] or [constants.planet] instead (docs/import.md)",
+                p.name
+            )
+        })
+        .unwrap_or_default()
 }
 
 /// Report an import, write its files, and say how it went (the exit code).

@@ -245,10 +245,10 @@ pub(super) fn draw(
             .partition(|p| p.0 < lo);
         for side in [before, after] {
             let side = clip(side);
-            lines.extend(side.windows(2).map(|w| (w[0], w[1])));
+            lines.extend(side.iter().copied().zip(side.iter().copied().skip(1)));
             body.polyline(&side, colour, 1.4, dash, 0.4);
         }
-        lines.extend(fitted.windows(2).map(|w| (w[0], w[1])));
+        lines.extend(fitted.iter().copied().zip(fitted.iter().copied().skip(1)));
         body.polyline(&fitted, colour, 2.2, dash, 1.0);
         if let Some(&(x, y)) = fitted.last() {
             let (w, h) = text_size(trace.short, LABEL_FONT);

@@ -254,7 +254,7 @@ pub fn epochs_not_averaged(
     scales: &[Option<&str>],
     period: Option<f64>,
 ) -> Option<&'static str> {
-    if scales.windows(2).any(|w| w[0] != w[1]) {
+    if scales.iter().any(|s| Some(s) != scales.first()) {
         return Some("transit epochs in different time scales are not averaged");
     }
     let measured: Vec<f64> = epochs

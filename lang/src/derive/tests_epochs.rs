@@ -103,7 +103,7 @@ fn timings_of_one_transit_in_one_scale_are_averaged() {
     let t = epoch(&a);
     assert_eq!(t.choice, Some(Choice::WeightedMean), "{t:?}");
     assert!(
-        (t.value / DAY - 2_459_000.1001).abs() < 1e-7,
+        (t.value / DAY - 2_459_000.100_1).abs() < 1e-7,
         "{}",
         t.value / DAY
     );

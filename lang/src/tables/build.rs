@@ -102,6 +102,8 @@ pub struct Importer {
     ref_names: Ids,
     issues: Vec<Issue>,
     summary: Summary,
+    /// Every row must have a cell per column ([`super::RowSource::full_rows`]).
+    full_rows: bool,
 }
 
 impl Importer {
@@ -121,6 +123,7 @@ impl Importer {
             ref_names: Ids::default(),
             issues: Vec::new(),
             summary: Summary::default(),
+            full_rows: false,
         })
     }
 
@@ -179,6 +182,13 @@ impl Importer {
             })
     }
 
+    /// Refuse rows with fewer cells than columns, for a source whose rows must be full
+    /// ([`super::RowSource::full_rows`]).
+    pub fn with_full_rows(mut self, full: bool) -> Self {
+        self.full_rows = full;
+        self
+    }
+
     /// Import one row.
     pub fn add_row(&mut self, row: &Row) {
         self.summary.rows += 1;
@@ -188,21 +198,42 @@ impl Importer {
         let extra: Vec<usize> = (self.columns.len()..row.cells.len())
             .filter(|i| row.cells.get(*i).is_some_and(|c| !c.is_empty()))
             .collect();
-        if !extra.is_empty() {
-            // More cells than columns means the cells may have moved (an unquoted decimal
-            // comma: `1,05` is two cells): every cell after the slip would be read under the
-            // wrong column, with nothing to show it. The row is refused whole.
+        // A row whose cells may have moved is refused whole: every cell after the slip would
+        // be read under the wrong column, with nothing to show it. More cells than columns:
+        // an unquoted decimal comma (`1,05` is two cells). Fewer, where every row must be
+        // full (a VOTable row has one TD per FIELD): a cell lost.
+        let shifted = if !extra.is_empty() {
+            Some((
+                IssueKind::ExtraCells,
+                format!(
+                    "the header has {} columns: the cells may be shifted (an unquoted decimal comma, or a comma inside a value, makes two cells of one)",
+                    self.columns.len()
+                ),
+                "quote such a cell, or write the number with a decimal point",
+            ))
+        } else if self.full_rows && !row.cells.is_empty() && row.cells.len() < self.columns.len() {
+            Some((
+                IssueKind::MissingCells,
+                format!(
+                    "the table has {} fields: a cell is missing, so those after it would sit under the wrong fields",
+                    self.columns.len()
+                ),
+                "give every field of the row its <TD> (an empty <TD/> for no value)",
+            ))
+        } else {
+            None
+        };
+        if let Some((kind, why, fix)) = shifted {
             let filled = row.cells.iter().filter(|c| !c.is_empty()).count();
             self.summary.skipped_cells += filled;
+            let cells = if filled == 1 { "cell is" } else { "cells are" };
             self.issue(
-                IssueKind::ExtraCells,
+                kind,
                 row,
                 None,
                 format!(
-                    "{} cells, the header has {} columns: the cells may be shifted (an unquoted decimal comma, or a comma inside a value, makes two cells of one), so none of the row's {filled} non-empty {} imported; quote such a cell, or write the number with a decimal point",
-                    row.cells.len(),
-                    self.columns.len(),
-                    if filled == 1 { "cell is" } else { "cells are" },
+                    "{} cells, {why}, so none of the row's {filled} non-empty {cells} imported; {fix}",
+                    row.cells.len()
                 ),
             );
             return;

@@ -63,6 +63,14 @@ pub struct Column {
     pub floating: bool,
 }
 
+/// A VOTable PARAM: a name, a value and a unit, for the whole table.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Param {
+    pub name: String,
+    pub value: String,
+    pub unit: Option<String>,
+}
+
 /// One data row: 1-based number among the data rows, the line it starts on, its cells.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct Row {
@@ -76,6 +84,16 @@ pub trait RowSource {
     fn columns(&self) -> &[Column];
     /// The next row, `None` at the end; an error ends the table.
     fn next_row(&mut self) -> Result<Option<Row>, TableError>;
+    /// Whether every row must have one cell per column (a VOTable's rows must: a row with
+    /// fewer cells has lost one, and the cells after it sit under the wrong columns).
+    fn full_rows(&self) -> bool {
+        false
+    }
+    /// A VOTable's PARAMs (one value for the whole table), which the import does not read:
+    /// the front end names them, so that none is passed over without a word.
+    fn params(&self) -> &[Param] {
+        &[]
+    }
 }
 
 /// Why a table could not be read on (the import stops; exit status 2).
@@ -137,6 +155,8 @@ pub enum IssueKind {
     /// An uncertainty or other cell that cannot be used with its value (an uncertainty on a
     /// limit, an uncertainty without a value).
     Unused,
+    /// A row of a table whose rows must be full (a VOTable) with fewer cells than columns.
+    MissingCells,
     /// A system or body name equal to an earlier one but for letter case.
     NameCase,
     /// A system with more bodies than one system is read with.
@@ -146,7 +166,7 @@ pub enum IssueKind {
 }
 
 impl IssueKind {
-    pub const ALL: [IssueKind; 11] = [
+    pub const ALL: [IssueKind; 12] = [
         IssueKind::BadNumber,
         IssueKind::OutOfRange,
         IssueKind::MissingName,
@@ -154,6 +174,7 @@ impl IssueKind {
         IssueKind::Conflict,
         IssueKind::BadLimitCode,
         IssueKind::ExtraCells,
+        IssueKind::MissingCells,
         IssueKind::Unused,
         IssueKind::NameCase,
         IssueKind::TooManyBodies,
@@ -169,6 +190,7 @@ impl IssueKind {
             IssueKind::Conflict => "conflict",
             IssueKind::BadLimitCode => "bad-limit-code",
             IssueKind::ExtraCells => "extra-cells",
+            IssueKind::MissingCells => "missing-cells",
             IssueKind::Unused => "unused-cell",
             IssueKind::NameCase => "name-case",
             IssueKind::TooManyBodies => "too-many-bodies",

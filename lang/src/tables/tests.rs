@@ -1060,3 +1060,55 @@ fn reference_cells_that_cannot_be_used_are_issues() {
     assert!(text.contains("period = 15.1 d\n"), "{text}");
     assert!(text.contains("period = 4.4 d [vk29]"), "{text}");
 }
+
+/// A VOTable row with fewer cells than fields has lost one, and the cells after it would
+/// sit under the wrong fields: the row is refused whole, and said so. The table's PARAMs
+/// are collected, so that the front end can name them (they are not imported).
+#[test]
+fn a_short_votable_row_is_refused_and_params_are_collected() {
+    let text = r#"<?xml version="1.0"?>
+<VOTABLE version="1.4"><RESOURCE>
+<PARAM name="mst" datatype="double" value="0.77" unit="solMass"/>
+<TABLE>
+<FIELD name="sys" datatype="char" arraysize="*"/>
+<FIELD name="pl" datatype="char" arraysize="*"/>
+<FIELD name="per" datatype="double" unit="d"/>
+<FIELD name="k" datatype="double" unit="m/s"/>
+<DATA><TABLEDATA>
+<TR><TD>Vintry</TD><TD>b</TD><TD>3.5</TD><TD>40</TD></TR>
+<TR><TD>Wessel</TD><TD>b</TD><TD>4.5</TD></TR>
+</TABLEDATA></DATA></TABLE></RESOURCE></VOTABLE>
+"#;
+    let mapping = "[bodies]\nsystem = \"sys\"\nplanet = \"pl\"\n[planet.period]\nvalue = \"per\"\n[planet.rv_amplitude]\nvalue = \"k\"\n";
+    let m = Mapping::from_toml(mapping).unwrap();
+    let mut t = VoTable::new(text.as_bytes(), Limits::default()).unwrap();
+    assert!(t.full_rows());
+    assert_eq!(
+        t.params(),
+        [crate::tables::Param {
+            name: "mst".into(),
+            value: "0.77".into(),
+            unit: Some("solMass".into()),
+        }]
+    );
+    let mut imp = Importer::new(&m, t.columns(), "t.vot")
+        .unwrap()
+        .with_full_rows(t.full_rows());
+    while let Some(r) = t.next_row().unwrap() {
+        imp.add_row(&r);
+    }
+    let r = imp.finish();
+    assert_eq!(r.issues.len(), 1, "{:?}", r.issues);
+    assert_eq!(r.issues[0].kind, IssueKind::MissingCells);
+    assert!(r.issues[0]
+        .message
+        .contains("3 cells, the table has 4 fields"));
+    assert_eq!(r.summary.skipped_cells, 3);
+    assert_eq!(r.summary.systems, 1);
+    // A CSV row may end early (writers drop trailing empty cells): read as it is.
+    assert!(
+        !CsvTable::new("a,b\n1\n".as_bytes(), None, Limits::default())
+            .unwrap()
+            .full_rows()
+    );
+}

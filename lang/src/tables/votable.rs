@@ -5,7 +5,7 @@
 //! references are expanded (quick-xml's `unescape`). Every tag, text run, cell, row and the
 //! field count are bounded, and the input is read incrementally.
 
-use super::{Column, Limits, Row, RowSource, TableError};
+use super::{Column, Limits, Param, Row, RowSource, TableError};
 use quick_xml::events::{BytesStart, Event};
 use std::io::BufRead;
 
@@ -64,6 +64,8 @@ pub struct VoTable<R: BufRead> {
     reader: quick_xml::Reader<Counted<R>>,
     buf: Vec<u8>,
     columns: Vec<Column>,
+    /// The PARAMs met before the data, which are not read.
+    params: Vec<Param>,
     limits: Limits,
     depth: usize,
     rows: usize,
@@ -87,6 +89,7 @@ impl<R: BufRead> VoTable<R> {
             reader,
             buf: Vec::new(),
             columns: Vec::new(),
+            params: Vec::new(),
             limits,
             depth: 0,
             rows: 0,
@@ -149,6 +152,14 @@ impl<R: BufRead> VoTable<R> {
                     in_field = ev == Kind::Start;
                 }
                 (Kind::End, "FIELD") => in_field = false,
+                (Kind::Start | Kind::Empty, "PARAM") => {
+                    let get = |k: &str| attrs.iter().find(|(n, _)| n == k).map(|(_, v)| v.clone());
+                    t.params.push(Param {
+                        name: get("name").or_else(|| get("ID")).unwrap_or_default(),
+                        value: get("value").unwrap_or_default(),
+                        unit: get("unit").filter(|u| !u.trim().is_empty()),
+                    });
+                }
                 (Kind::Start | Kind::Empty, "VALUES") if in_field => {
                     if let Some((_, v)) = attrs.iter().find(|(n, _)| n == "null") {
                         if let Some(c) = t.columns.last_mut() {
@@ -393,6 +404,14 @@ fn attributes(s: &BytesStart) -> Result<Attributes, String> {
 impl<R: BufRead> RowSource for VoTable<R> {
     fn columns(&self) -> &[Column] {
         &self.columns
+    }
+
+    fn full_rows(&self) -> bool {
+        true
+    }
+
+    fn params(&self) -> &[Param] {
+        &self.params
     }
 
     fn next_row(&mut self) -> Result<Option<Row>, TableError> {
