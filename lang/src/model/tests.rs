@@ -693,3 +693,32 @@ fn bindings_past_the_bound_get_one_error_per_scope() {
         found[1]
     );
 }
+
+/// An epoch with the published offset left off (BJD - 2457000, say) is a date in the
+/// fifth millennium BC: refused with the offsets to add back, instead of read and refused
+/// only by `ephemeris`. The first day of the year 1000 (JD 2086302.5, astropy's
+/// `Time('1000-01-01').jd`) is read.
+#[test]
+fn an_epoch_with_its_offset_left_off_is_refused() {
+    let src = |jd: &str| {
+        format!(
+            "system \"A\" {{\n star s {{ mass = 1 Msun }}\n planet b orbits s {{ transit_epoch = {jd} ± 0.0005 BJD_TDB }}\n}}\n"
+        )
+    };
+    let (m, diags) = lower_text(&src("1234.5678"));
+    let d = diags
+        .iter()
+        .find(|d| d.rule == Rule::InvalidValue)
+        .expect("refused");
+    assert!(
+        d.message
+            .contains("Julian date 1234.5678 is before the year 1000"),
+        "{}",
+        d.message
+    );
+    assert!(d.help.as_deref().is_some_and(|h| h.contains("2457000")));
+    assert!(m.systems[0].bodies[1].get(Qty::TransitEpoch).is_none());
+    let (m, diags) = lower_text(&src("2086302.5"));
+    assert!(diags.is_empty(), "{diags:?}");
+    assert!(m.systems[0].bodies[1].get(Qty::TransitEpoch).is_some());
+}

@@ -314,6 +314,24 @@ pub(super) fn lower_value(
             return None;
         }
     }
+    // A Julian date before year 1000 times no observation: almost always a date published
+    // with an offset taken off (BJD - 2450000, say), which only `ephemeris` refused.
+    if def.qty == Qty::TransitEpoch && value / crate::constants::DAY < crate::time::FIRST_JD {
+        diags.push(
+            Diagnostic::new(
+                Rule::InvalidValue,
+                expr.span,
+                format!(
+                    "Julian date {} is before the year 1000: not the time of a transit anyone observed",
+                    sign * lit.value
+                ),
+            )
+            .with_help(
+                "epochs are often published with an offset taken off (2400000, 2450000, 2454833 or 2457000, common practice): write the full Julian date, the offset added back",
+            ),
+        );
+        return None;
+    }
     if !def.in_range(value) {
         let what = match form {
             Form::UpperLimit => "upper limit",
