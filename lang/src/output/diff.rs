@@ -807,6 +807,23 @@ fn source_notes(old: &ValueSnapshot, new: &ValueSnapshot) -> Vec<String> {
         }
     }
     notes.extend(left.iter().map(|d| format!("source removed: {d}")));
+    // Which source is used (a `preferred` mark moved, or the policy picks another one).
+    let used = |v: &ValueSnapshot| {
+        v.sources
+            .iter()
+            .find_map(|s| s.strip_suffix(" (used)"))
+            .map(str::to_string)
+    };
+    match (used(old), used(new)) {
+        (Some(a), Some(b)) if a != b => notes.push(format!("source used: {a} → {b}")),
+        (Some(a), None) if !new.sources.is_empty() => {
+            notes.push(format!("source used: {a} → a combination of the sources"))
+        }
+        (None, Some(b)) if !old.sources.is_empty() => {
+            notes.push(format!("source used: a combination of the sources → {b}"))
+        }
+        _ => {}
+    }
     notes
 }
 

@@ -213,6 +213,19 @@ fn sources_added_and_removed_are_named() {
     assert_eq!(c.notes, vec!["citations changed: [a] → (no citation)"]);
     // Nothing changed, nothing said.
     assert!(value_change(Some("b"), Some(&two), Some(&two), options).is_none());
+    // The `preferred` mark moved to the other source: the same two sources, another used.
+    let moved = ValueSnapshot {
+        sources: vec![
+            "10.0021 ± 0.0002 [a]".into(),
+            "10.003 ± 0.001 [b] (used)".into(),
+        ],
+        ..value("period", Origin::Declared, 10.003, 0.001)
+    };
+    let c = value_change(Some("b"), Some(&two), Some(&moved), options).unwrap();
+    assert_eq!(
+        c.notes,
+        vec!["source used: 10.0021 ± 0.0002 [a] → 10.003 ± 0.001 [b]"]
+    );
 }
 
 /// A derived limit has no uncertainty: one that moved only below the digits shown (its
