@@ -14,6 +14,7 @@
 //! albedo, full heat redistribution); a default that a result used is listed with it.
 
 mod adaptive;
+pub mod asymmetric;
 mod caveats;
 mod consistency;
 mod expr;
@@ -204,6 +205,10 @@ pub struct Derivation<'m> {
     /// In first-order mode, Monte Carlo results for the values first order cannot
     /// describe (see [`validity`]).
     sampled: Option<validity::Sampled<'m>>,
+    /// In first-order mode, the values whose only doubt is one asymmetric input, with their
+    /// exact first-order distribution's median and percentiles and the words that say so
+    /// ([`asymmetric`]): not sampled.
+    two_lines: FxHashMap<Key, (value::SampleSummary, String)>,
     /// Labels of declared limits taken at one end of their range rather than spread over it
     /// (for [`validity::bound_where_limited`]; empty in every ordinary run).
     pinned: Pins,
@@ -389,6 +394,7 @@ impl<'m> Derivation<'m> {
             diagnostics: Vec::new(),
             sample_note,
             sampled: None,
+            two_lines: FxHashMap::default(),
             pinned,
             bounded: FxHashMap::default(),
             focus,
@@ -494,6 +500,8 @@ pub fn default_of(q: Qty) -> Option<(f64, &'static str)> {
 
 #[cfg(test)]
 mod tests;
+#[cfg(test)]
+mod tests_asymmetric;
 #[cfg(test)]
 mod tests_epochs;
 #[cfg(test)]

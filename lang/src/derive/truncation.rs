@@ -41,9 +41,9 @@ pub fn truncation(m: &Measurement, lo: f64, hi: f64) -> Option<(f64, f64, f64)> 
     // its values at the two ends of the range (at `v` itself where a side has no width).
     let target = below + 0.5 * (1.0 - outside);
     let median = if target < 0.5 && m.below > 0.0 {
-        v + m.below * probit(target)
+        v + m.below * super::asymmetric::probit(target).unwrap_or(0.0)
     } else if target > 0.5 && m.above > 0.0 {
-        v + m.above * probit(target)
+        v + m.above * super::asymmetric::probit(target).unwrap_or(0.0)
     } else {
         v
     };
@@ -53,20 +53,6 @@ pub fn truncation(m: &Measurement, lo: f64, hi: f64) -> Option<(f64, f64, f64)> 
 /// The standard normal distribution function.
 fn phi(z: f64) -> f64 {
     0.5 * libm::erfc(-z / std::f64::consts::SQRT_2)
-}
-
-/// Its inverse, by bisection (once per declared value, so speed does not matter).
-fn probit(p: f64) -> f64 {
-    let (mut lo, mut hi) = (-40.0f64, 40.0f64);
-    for _ in 0..200 {
-        let mid = 0.5 * (lo + hi);
-        if phi(mid) < p {
-            lo = mid;
-        } else {
-            hi = mid;
-        }
-    }
-    0.5 * (lo + hi)
 }
 
 #[cfg(test)]

@@ -60,6 +60,9 @@ pub const LIMITED: &str = "a limit, not an interval";
 /// How the assumption that a value was sampled begins.
 pub const SAMPLED: &str = "sampled, not first-order";
 
+/// How the assumption that a value's interval keeps an asymmetric input's two sides begins.
+pub const TWO_LINES: &str = "first order with an asymmetric input's distribution kept";
+
 /// Whether a value of a first-order analysis was sampled instead (see the module doc).
 pub fn was_sampled(q: &QuantityResult) -> bool {
     q.assumptions.iter().any(|a| a.starts_with(SAMPLED))
@@ -73,9 +76,11 @@ pub(super) struct Sampled<'m> {
 }
 
 impl<'m> Derivation<'m> {
-    /// Derived values whose first-order interval cannot be trusted, each with why.
-    pub(super) fn doubts(&self) -> FxHashMap<Key, String> {
+    /// Derived values whose first-order interval cannot be trusted, each with why, and those
+    /// of them doubted only for asymmetric inputs.
+    fn doubts(&self) -> (FxHashMap<Key, String>, FxHashSet<Key>) {
         let mut out = FxHashMap::default();
+        let mut only_skew = FxHashSet::default();
         for (key, entry) in &self.entries {
             if !entry.origin.is_computed()
                 || entry.value.grad.is_empty()
@@ -87,7 +92,9 @@ impl<'m> Derivation<'m> {
             let size = entry.value.nominal.abs();
             let relative = lo.max(hi) / size.max(f64::MIN_POSITIVE);
             let mut why = Vec::new();
+            let mut skew_only = true;
             if relative > RELATIVE_LIMIT && ratio_scale(key.1) {
+                skew_only = false;
                 why.push(format!(
                     "its first-order uncertainty is {:.0}% of the value",
                     (relative * 100.0).min(999.0)
@@ -102,16 +109,58 @@ impl<'m> Derivation<'m> {
                 }
                 let what = match input.shape {
                     Shape::Normal => continue,
-                    Shape::Uniform => "is spread uniformly (a limit or an unknown angle)",
+                    Shape::Uniform => {
+                        skew_only = false;
+                        "is spread uniformly (a limit or an unknown angle)"
+                    }
                     Shape::Skewed => "has a strongly asymmetric uncertainty",
                 };
                 why.push(format!("{} {what}", input.label));
             }
             if !why.is_empty() {
                 out.insert(*key, why.join("; "));
+                if skew_only {
+                    only_skew.insert(*key);
+                }
             }
         }
-        out
+        (out, only_skew)
+    }
+
+    /// The exact distribution, to first order, of a value resting on one asymmetric input
+    /// and any number of symmetric ones ([`super::asymmetric`]): its median and 16th and
+    /// 84th percentiles. `None` when another input is asymmetric too, or one is spread
+    /// uniformly (a limit, an angle over a full turn), where only sampling describes it.
+    fn two_lines_interval(&self, v: &Value) -> Option<value::SampleSummary> {
+        let mut skewed: Option<(f64, &InputInfo)> = None;
+        let mut rest = 0.0;
+        for &(id, g) in &v.grad {
+            let input = self.inputs.get(id as usize)?;
+            if g == 0.0 {
+                continue;
+            }
+            if input.shape == Shape::Uniform {
+                return None;
+            }
+            if input.below != input.above {
+                if skewed.is_some() {
+                    return None;
+                }
+                skewed = Some((g, input));
+            } else {
+                rest += (g * input.below).powi(2);
+            }
+        }
+        let (g, input) = skewed?;
+        let d = super::asymmetric::TwoLines::new(g, input.above, input.below, rest.sqrt())?;
+        let at = |p: f64| d.quantile(p).map(|t| v.nominal + t);
+        Some(value::SampleSummary {
+            median: at(0.5)?,
+            low: at(value::P_LOW)?,
+            high: at(value::P_HIGH)?,
+            finite: 1.0,
+            precision: None,
+        })
     }
 
     /// Values whose size says nothing about how well first order describes them (see
@@ -163,7 +212,22 @@ impl<'m> Derivation<'m> {
         if self.options.propagation != Propagation::Linear {
             return;
         }
-        let mut doubts = self.doubts();
+        let (mut doubts, only_skew) = self.doubts();
+        // A value doubted only for one asymmetric input has an exact first-order
+        // distribution: no sampling for it.
+        for key in only_skew {
+            let Some(summary) = self
+                .entries
+                .get(&key)
+                .and_then(|e| self.two_lines_interval(&e.value))
+            else {
+                continue;
+            };
+            if let Some(why) = doubts.remove(&key) {
+                let words = format!("{TWO_LINES}: {why}, so this interval is the median and 16th-84th percentiles of the first-order distribution with that input's two sides kept (two half-normal lines, Barlow 2003), computed exactly, not sampled");
+                self.two_lines.insert(key, (summary, words));
+            }
+        }
         if doubts.is_empty() {
             return;
         }
@@ -386,6 +450,9 @@ impl<'m> Derivation<'m> {
     /// The Monte Carlo median and 16th and 84th percentiles standing in for a doubted
     /// value's first-order interval, with the sentence that says so.
     pub(super) fn sampled_instead(&self, key: Key) -> Option<(value::SampleSummary, String)> {
+        if let Some(exact) = self.two_lines.get(&key) {
+            return Some(exact.clone());
+        }
         let s = self.sampled.as_ref()?;
         let why = s.doubts.get(&key)?;
         let summary = s.derivation.value(key)?.sample_summary()?;

@@ -190,8 +190,8 @@ impl Value {
 }
 
 /// The 16th and 84th percentiles: the ends of a 68 % interval around the median.
-const P_LOW: f64 = 0.158_655_253_931_457;
-const P_HIGH: f64 = 0.841_344_746_068_543;
+pub const P_LOW: f64 = 0.158_655_253_931_457;
+pub const P_HIGH: f64 = 0.841_344_746_068_543;
 
 /// The fewest finite samples of which a numerical precision is stated: with fewer, the
 /// order statistics either side of the 16th percentile run into the sample's end.

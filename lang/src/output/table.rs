@@ -321,7 +321,9 @@ pub fn cell<'a>(a: &'a Analysis, file: &'a str, row: Row, column: &Column) -> Ce
             for (body, id) in [(planet, name(row.planet)), (host, name(row.host))] {
                 for q in body.iter().flat_map(|b| &b.quantities) {
                     for a in &q.assumptions {
-                        if a.starts_with(crate::derive::validity::SAMPLED) {
+                        if a.starts_with(crate::derive::validity::SAMPLED)
+                            || a.starts_with(crate::derive::validity::TWO_LINES)
+                        {
                             let qname = quantities::def(q.qty).name;
                             assumed.insert(format!("{id}.{qname}: {a}").into());
                         } else {

@@ -66,7 +66,9 @@ fn body_lines(res: &SystemResult, i: usize) -> Vec<String> {
     let mut of_values: Vec<(&str, &str)> = Vec::new();
     for q in &r.quantities {
         for a in &q.assumptions {
-            if a.starts_with(crate::derive::validity::SAMPLED) {
+            if a.starts_with(crate::derive::validity::SAMPLED)
+                || a.starts_with(crate::derive::validity::TWO_LINES)
+            {
                 of_values.push((crate::quantities::def(q.qty).name, a));
             } else {
                 plain.push(a.clone());
