@@ -24,6 +24,10 @@ pub(super) fn default_for(q: Qty) -> Option<(f64, &'static str)> {
     })
 }
 
+/// The assumption of an eccentric orbit's argument of periastron when none is declared.
+pub const SPREAD_PERIASTRON: &str =
+    "argument of periastron unknown: spread uniformly over 0-360 deg (default)";
+
 /// An input asymmetric by this factor or more is skewed: first order does not describe it.
 const SKEWED_RATIO: f64 = 1.5;
 
@@ -353,9 +357,7 @@ impl<'m> Derivation<'m> {
                                 rule: None,
                                 inputs: Vec::new(),
                                 deps: SortedSet::one((bi, q)),
-                                assumptions: SortedSet::one(Arc::from(
-                                    "argument of periastron unknown: spread uniformly over 0-360 deg (default)",
-                                )),
+                                assumptions: SortedSet::one(Arc::from(SPREAD_PERIASTRON)),
                             },
                         );
                         continue;

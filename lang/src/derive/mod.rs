@@ -36,6 +36,7 @@ use crate::diagnostic::{Diagnostic, Rule};
 use crate::model::{self, Content, Form, Measurement, System};
 use crate::quantities::{self, Qty};
 use crate::source::{InSystem, Span};
+pub use inputs::SPREAD_PERIASTRON;
 use rules::{RuleDef, Slot, RULES};
 use rustc_hash::{FxHashMap, FxHashSet};
 use set::SortedSet;

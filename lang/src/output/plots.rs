@@ -232,8 +232,7 @@ impl<'a> Inputs<'a> {
         if q == Qty::ArgPeriastron && self.result(q).is_none() && !circular {
             // The engine spreads an unknown orientation over a full turn (see
             // `derive::Derivation`); the model curves do the same.
-            let words = "argument of periastron unknown: spread uniformly over 0-360 deg (default)"
-                .to_string();
+            let words = crate::derive::SPREAD_PERIASTRON.to_string();
             if !self.assumptions.contains(&words) {
                 self.assumptions.push(words);
             }

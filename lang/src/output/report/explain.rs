@@ -80,7 +80,26 @@ fn explain_node(
         .and_then(|r| r.bodies.get(key.0))
         .and_then(|b| b.get(key.1))
     else {
-        out.push_str(&format!("{lead}{label} (not available)\n"));
+        // An eccentric orbit's undeclared argument of periastron is an input, spread over a
+        // full turn, but no reported value.
+        let spread = key.1 == crate::quantities::Qty::ArgPeriastron
+            && a.results.get(si).is_some_and(|r| {
+                r.bodies.get(key.0).is_some_and(|b| {
+                    b.quantities.iter().any(|q| {
+                        q.assumptions
+                            .iter()
+                            .any(|s| s.as_str() == crate::derive::SPREAD_PERIASTRON)
+                    })
+                })
+            });
+        if spread {
+            out.push_str(&format!(
+                "{lead}{label}: not declared; {}\n",
+                crate::derive::SPREAD_PERIASTRON
+            ));
+        } else {
+            out.push_str(&format!("{lead}{label} (not available)\n"));
+        }
         return;
     };
     let how = match (q.origin, q.rule, q.formula) {

@@ -244,3 +244,20 @@ fn one_unit_per_quantity_in_a_table() {
     let masses = [units_of(&text, "mass"), units_of(&text, "min_mass")].concat();
     assert_eq!(masses, ["Msun", "Mjup", "Mjup", "Mjup"], "{text}");
 }
+
+/// An eccentric orbit's undeclared argument of periastron is an input spread over a full
+/// turn: `explain` says so instead of calling it "not available".
+#[test]
+fn explain_names_a_spread_argument_of_periastron() {
+    let src = SRC.replace(
+        "  transit_depth = 1 ± 0.04 %\n",
+        "  transit_depth = 1 ± 0.04 %\n  impact = 0.3 ± 0.05\n  eccentricity = 0.2 ± 0.05\n",
+    );
+    let a = crate::analyze(FileId(0), &src, &crate::Settings::linear());
+    let e = explain_text(&a, 0, (1, Qty::Inclination)).unwrap();
+    assert!(
+        e.contains("b.arg_periastron: not declared; argument of periastron unknown: spread uniformly over 0-360 deg (default)"),
+        "{e}"
+    );
+    assert!(!e.contains("not available"), "{e}");
+}
