@@ -393,3 +393,29 @@ fn a_mass_radius_diagram_says_what_errors_and_cut_bars_hide() {
     assert!(t.contains("The input has 1 error"), "{t}");
     assert!(t.contains("1 error bar is cut at the edge"), "{t}");
 }
+
+/// The largest signal an amplitude limit allows is one curve: no band is drawn, so neither
+/// the legend nor the caption speaks of one (they did).
+#[test]
+fn an_rv_plot_of_an_amplitude_limit_speaks_of_no_band() {
+    let dir = scratch("plot-rv-limit");
+    let file = dir.join("limit.syz");
+    std::fs::write(
+        &file,
+        "system \"Quell\" {\n  star quell { mass = 0.8 ± 0.03 Msun }\n  planet b orbits quell {\n    period = 12.5 ± 0.01 d\n    rv_amplitude < 5 m/s\n  }\n}\n",
+    )
+    .unwrap();
+    let svg = dir.join("limit.svg");
+    let o = run(&[
+        "plot",
+        "rv",
+        file.to_str().unwrap(),
+        "b",
+        "-o",
+        svg.to_str().unwrap(),
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let t = texts(&std::fs::read_to_string(&svg).unwrap());
+    assert!(t.iter().any(|x| x.contains("largest signal")), "{t:?}");
+    assert!(!t.iter().any(|x| x.contains("band")), "{t:?}");
+}

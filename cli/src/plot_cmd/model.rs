@@ -33,12 +33,27 @@ pub(super) fn draw(
     let values = b.low.iter().chain(&b.median).chain(&b.high).copied();
     let (y, clamped) = linear_range(values).ok_or("the model has no finite value to plot")?;
     let on_axis = |v: f64| v.clamp(y.start, y.end);
+    let scale = b
+        .high
+        .iter()
+        .chain(&b.low)
+        .fold(0.0f64, |m, v| m.max(v.abs()));
+    let has_band = b
+        .high
+        .iter()
+        .zip(&b.low)
+        .any(|(h, l)| (h - l).abs() > 1e-9 * scale);
     let mut lines: Vec<String> = Vec::new();
     lines.push(format!("Inputs: {}.", c.inputs.join("; ")));
     if let Some(m) = model {
         lines.push(format!("Model: {m}."));
     }
-    lines.extend(c.assumptions.iter().map(|a| format!("Assumed: {a}.")));
+    lines.extend(
+        c.assumptions
+            .iter()
+            .filter(|a| has_band || !a.starts_with("band:"))
+            .map(|a| format!("Assumed: {a}.")),
+    );
     let mut left_out: Vec<String> = c.left_out.clone();
     if clamped {
         left_out.push(format!(
@@ -109,30 +124,33 @@ pub(super) fn draw(
             .map(|(x, v)| frame.at((*x, on_axis(*v))))
             .collect();
     svg.polyline(&median, BLUE, 2.2, "", 1.0);
-    // The legend: one row between the title and the plot.
+    // The legend: one row between the title and the plot. A band of no width (the largest
+    // signal a limit allows is one curve) gets no entry.
     let top = 50.0;
     let mut x = PLOT.x0;
-    svg.polygon(
-        &[
-            (x, top + 2.0),
-            (x + 26.0, top + 2.0),
-            (x + 26.0, top + 12.0),
-            (x, top + 12.0),
-        ],
-        BLUE,
-        0.2,
-    );
-    let r = svg.text(
-        x + 34.0,
-        top,
-        13.0,
-        Anchor::Start,
-        "1σ band (16th–84th percentile of draws)",
-        INK,
-        false,
-        false,
-    );
-    x = r.x1 + 28.0;
+    if has_band {
+        svg.polygon(
+            &[
+                (x, top + 2.0),
+                (x + 26.0, top + 2.0),
+                (x + 26.0, top + 12.0),
+                (x, top + 12.0),
+            ],
+            BLUE,
+            0.2,
+        );
+        let r = svg.text(
+            x + 34.0,
+            top,
+            13.0,
+            Anchor::Start,
+            "1σ band (16th–84th percentile of draws)",
+            INK,
+            false,
+            false,
+        );
+        x = r.x1 + 28.0;
+    }
     svg.polyline(&[(x, top + 7.0), (x + 26.0, top + 7.0)], BLUE, 2.2, "", 1.0);
     svg.text(
         x + 34.0,
