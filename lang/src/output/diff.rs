@@ -642,9 +642,22 @@ fn body_changes(ob: &BodySnapshot, nb: &BodySnapshot, options: DiffOptions, out:
             out.push(c);
         }
     }
+    // An eccentric orbit with no declared argument of periastron has it spread over a full
+    // turn: an input, not a reported value. Where a default of 90 deg was reported before,
+    // it did not go away: it is now spread.
+    let spread_now = nb.values.iter().any(|v| {
+        v.assumptions
+            .iter()
+            .any(|a| a.as_str() == crate::derive::SPREAD_PERIASTRON)
+    });
     for ov in &ob.values {
         if !nb.values.iter().any(|v| v.name == ov.name) {
-            if let Some(c) = value_change(body, Some(ov), None, options) {
+            if let Some(mut c) = value_change(body, Some(ov), None, options) {
+                if spread_now && ov.name == "arg_periastron" && ov.origin == Origin::Default {
+                    c.kind = ChangeKind::DerivedChanged;
+                    c.new = Some("spread uniformly over 0-360 deg".to_string());
+                    c.notes.push(crate::derive::SPREAD_PERIASTRON.to_string());
+                }
                 out.push(c);
             }
         }

@@ -425,3 +425,31 @@ fn a_changed_reference_text_is_listed() {
     );
     assert!(!compare(&old, &old, options).significant());
 }
+
+/// A planet newly declared eccentric, with no argument of periastron: the default 90 deg
+/// reported before is now spread over a full turn, not "no longer derived".
+#[test]
+fn a_default_argument_of_periastron_now_spread_is_said_so() {
+    let omega = value("arg_periastron", Origin::Default, 1.570_796, 0.0);
+    let mut inclination = value("inclination", Origin::Derived, 1.5, 0.01);
+    inclination.assumptions = vec![crate::derive::SPREAD_PERIASTRON.to_string()];
+    let old = [system(
+        "Wendle",
+        vec![omega, value("inclination", Origin::Derived, 1.5, 0.01)],
+        None,
+    )];
+    let new = [system("Wendle", vec![inclination], None)];
+    let options = DiffOptions {
+        threshold: 1.0,
+        all: true,
+    };
+    let d = compare(&old, &new, options);
+    let c = d
+        .systems
+        .iter()
+        .flat_map(|s| &s.changes)
+        .find(|c| c.quantity == Some("arg_periastron"))
+        .expect("a change of the argument of periastron");
+    assert_eq!(c.kind, ChangeKind::DerivedChanged);
+    assert_eq!(c.new.as_deref(), Some("spread uniformly over 0-360 deg"));
+}
