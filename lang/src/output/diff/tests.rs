@@ -430,7 +430,12 @@ fn a_changed_reference_text_is_listed() {
 /// reported before is now spread over a full turn, not "no longer derived".
 #[test]
 fn a_default_argument_of_periastron_now_spread_is_said_so() {
-    let omega = value("arg_periastron", Origin::Default, 1.570_796, 0.0);
+    let omega = value(
+        "arg_periastron",
+        Origin::Default,
+        std::f64::consts::FRAC_PI_2,
+        0.0,
+    );
     let mut inclination = value("inclination", Origin::Derived, 1.5, 0.01);
     inclination.assumptions = vec![crate::derive::SPREAD_PERIASTRON.to_string()];
     let old = [system(
