@@ -146,7 +146,12 @@ impl<'m> Derivation<'m> {
         if found.iter().any(|(f, _)| *f == involved) {
             return;
         }
-        let unit = display_unit(small.1, s.value.nominal);
+        // Both in one unit: the one a declared value of the two was written in.
+        let unit = if l.rule.is_none() && s.rule.is_some() {
+            self.unit_for(large, l)
+        } else {
+            self.unit_for(small, s)
+        };
         let message = format!(
             "{} exceeds {} {}, but {why}",
             self.described(small, s, unit),
@@ -265,7 +270,7 @@ impl<'m> Derivation<'m> {
             return;
         }
         let key = (bi, Qty::Mass);
-        let unit = display_unit(Qty::Mass, mass.value.nominal);
+        let unit = self.unit_for(key, mass);
         let message = format!(
             "{} exceeds {}, the most a transiting orbit allows, {}: the minimum mass {} over sin i at the lowest inclination that still transits ({:.1} deg for a/R* = {}, two standard deviations low)",
             self.described(key, mass, unit),
@@ -377,6 +382,26 @@ impl<'m> Derivation<'m> {
     }
 
     /// `declared b.mass = ...`, or `b.mass = ... from inputs (rule)`, in `unit`.
+    /// The unit a finding quotes a value in: for a declared value, the unit it was written
+    /// in (a mass written in Mjup stays in Mjup, however small); else the usual one.
+    fn unit_for(&self, key: Key, entry: &Entry) -> DisplayUnit<'_> {
+        let written = entry
+            .rule
+            .is_none()
+            .then(|| {
+                self.sys
+                    .bodies
+                    .get(key.0)?
+                    .get(key.1)?
+                    .written_unit
+                    .as_deref()
+            })
+            .flatten()
+            .and_then(DisplayUnit::parse)
+            .filter(|u| u.factor > 0.0);
+        written.unwrap_or_else(|| display_unit(key.1, entry.value.nominal))
+    }
+
     fn described(&self, key: Key, entry: &Entry, unit: DisplayUnit) -> String {
         let value = self.shown(unit, &entry.value);
         match entry.rule {
@@ -410,7 +435,7 @@ impl<'m> Derivation<'m> {
     ) -> Diagnostic {
         let body = self.sys.bodies.get(key.0);
         let rule = RULES.get(c.rule);
-        let unit = display_unit(key.1, entry.value.nominal);
+        let unit = self.unit_for(key, entry);
         let message = format!(
             "{} disagrees with {} from {} ({}) {}",
             self.described(key, entry, unit),

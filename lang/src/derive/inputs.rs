@@ -133,6 +133,7 @@ impl<'m> Derivation<'m> {
         &mut self,
         label: &str,
         qty: Qty,
+        written: Option<&str>,
         m: &Measurement,
         span: crate::source::Span,
     ) -> Option<String> {
@@ -141,7 +142,7 @@ impl<'m> Derivation<'m> {
         if (median - m.value).abs() < TRUNCATED_SHIFT * m.below.max(m.above) {
             return None;
         }
-        let unit = summary::display_unit(qty, m.value);
+        let unit = summary::written_unit(written, qty, m.value);
         let f = unit.factor;
         let with_unit = |text: String| {
             if unit.symbol.is_empty() || unit.symbol == "1" {
@@ -241,7 +242,13 @@ impl<'m> Derivation<'m> {
                     continue;
                 }
                 let label = format!("{}.{}", body.id, def.name);
-                let truncated = self.truncated_note(&label, decl.qty, m, used.span);
+                let truncated = self.truncated_note(
+                    &label,
+                    decl.qty,
+                    used.written_unit.as_deref(),
+                    m,
+                    used.span,
+                );
                 let before = self.inputs.len();
                 let v = self.new_input(Some((bi, decl.qty)), label, m, lo, hi);
                 // A declared limit (an unknown angle spread over a turn is not one); a limit
@@ -275,7 +282,8 @@ impl<'m> Derivation<'m> {
                 // The value itself, in the unit people read it in (an axis was given in
                 // metres without a unit); not for a mean, which no assumed value enters.
                 if used.assumed && !combined {
-                    let unit = summary::display_unit(decl.qty, m.value);
+                    let unit =
+                        summary::written_unit(used.written_unit.as_deref(), decl.qty, m.value);
                     assumptions.insert(Arc::from(format!(
                         "{}.{} = {} (assumed)",
                         body.id,
@@ -289,8 +297,9 @@ impl<'m> Derivation<'m> {
                     }
                 }
                 if m.form.is_limit() {
-                    // In the unit people read the quantity in (`< 3 m/s`, `< 0.08`).
-                    let unit = summary::display_unit(decl.qty, m.value);
+                    // In the unit it was written in (`< 3 m/s`, `< 0.08`).
+                    let unit =
+                        summary::written_unit(used.written_unit.as_deref(), decl.qty, m.value);
                     assumptions.insert(Arc::from(format!(
                         "{}.{} {} sampled uniformly within its physical range",
                         body.id,
@@ -476,7 +485,7 @@ impl<'m> Derivation<'m> {
                 let jd = crate::format::julian_date(m.value / day, m.below / day, m.above / day);
                 return Some((*m, format!("{jd} {scale} {cites}")));
             }
-            let unit = display_unit(d.qty, m.value);
+            let unit = summary::written_unit(d.written_unit.as_deref(), d.qty, m.value);
             let f = unit.factor;
             let value = match m.form {
                 Form::UpperLimit => format!("< {}", crate::format::number(m.value / f)),

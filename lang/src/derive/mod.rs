@@ -504,6 +504,6 @@ mod tests;
 #[cfg(test)]
 mod tests_asymmetric;
 #[cfg(test)]
-mod tests_epochs;
-#[cfg(test)]
 mod tests_slips;
+#[cfg(test)]
+mod tests_sources;

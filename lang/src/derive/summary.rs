@@ -744,6 +744,16 @@ impl std::fmt::Display for DisplayUnit<'_> {
     }
 }
 
+/// The unit a declared value is spoken of in: the one it was written in, where that is a
+/// unit of the quantity (a mass written in Mjup is quoted in Mjup, however small), else
+/// [`display_unit`].
+pub fn written_unit(written: Option<&str>, qty: Qty, si: f64) -> DisplayUnit<'_> {
+    written
+        .and_then(DisplayUnit::parse)
+        .filter(|u| u.factor > 0.0)
+        .unwrap_or_else(|| display_unit(qty, si))
+}
+
 /// The unit a quantity is shown in, chosen by size for planet masses, radii and depths.
 pub fn display_unit(qty: Qty, si: f64) -> DisplayUnit<'static> {
     let def = quantities::def(qty);

@@ -1,5 +1,6 @@
-//! Several published transit epochs under the project file's `weighted-mean` choice: only
-//! timings of one transit in one time scale are averaged. Every system here is invented.
+//! Several published values of one quantity: under the project file's `weighted-mean`
+//! choice only timings of one transit in one time scale are averaged, and findings quote
+//! each source in the unit it was written in. Every system here is invented.
 
 use crate::derive::{Choice, Options, SourceChoice};
 use crate::quantities::Qty;
@@ -107,4 +108,56 @@ fn timings_of_one_transit_in_one_scale_are_averaged() {
         "{}",
         t.value / DAY
     );
+}
+
+/// Two sources of a mass written in Mjup are quoted in Mjup, however small (a declared
+/// 0.044 Mjup was shown as 14.0 Mearth).
+#[test]
+fn disagreeing_sources_are_quoted_in_the_unit_written() {
+    let src = r#"ref pa "Invented paper A"
+ref pb "Invented paper B"
+system "Gallant" {
+  star gallant {
+    mass = 0.9 +- 0.03 Msun
+  }
+  planet b orbits gallant {
+    period = 4.0 +- 0.0001 d
+    mass = 0.044 +- 0.002 Mjup [pa]
+    mass = 0.060 +- 0.002 Mjup [pb]
+  }
+}
+"#;
+    let a = analyze(FileId(0), src, &Options::linear().into());
+    let d = a
+        .diagnostics
+        .iter()
+        .find(|d| d.rule == crate::diagnostic::Rule::SourcesDisagree)
+        .expect("a disagreement");
+    assert!(d.message.contains("0.0440 ± 0.0020 Mjup"), "{}", d.message);
+    assert!(d.message.contains("0.0600 ± 0.0020 Mjup"), "{}", d.message);
+}
+
+/// A finding quotes a declared value in the unit it was written in, and the value it is
+/// compared with in that unit too: 0.0300 Mjup, not 9.53 Mearth.
+#[test]
+fn a_finding_quotes_a_declared_value_in_the_unit_written() {
+    let src = r#"system "Gallant" {
+  star gallant {
+    mass = 1.0 +- 0.03 Msun
+  }
+  planet b orbits gallant {
+    period = 4.2 +- 0.0001 d
+    rv_amplitude = 12 +- 0.5 m/s
+    mass = 0.0300 +- 0.0010 Mjup
+  }
+}
+"#;
+    let a = analyze(FileId(0), src, &Options::linear().into());
+    let d = a
+        .diagnostics
+        .iter()
+        .find(|d| d.rule == crate::diagnostic::Rule::Inconsistent)
+        .expect("a finding");
+    assert!(d.message.contains("0.0300 ± 0.0010 Mjup"), "{}", d.message);
+    assert!(!d.message.contains("Mearth"), "{}", d.message);
 }
