@@ -4,8 +4,11 @@
 //! `v + b u` for `u < 0`, `u` a standard normal (R. Barlow, "Asymmetric systematic errors",
 //! arXiv:physics/0306138, 2003, sect. 2; the reading [`super::value::draw`] samples). A
 //! derived value described to first order, `y = y0 + g (x - v) + n`, with `n` normal of
-//! standard deviation `s` (every other input, each symmetric), then has the distribution of
-//! `g D(u) + s w`, `w` another standard normal. Its distribution function follows in closed
+//! standard deviation `s` (every other input), then has the distribution of
+//! `g D(u) + s w`, `w` another standard normal. (The engine takes the value's moves to the
+//! input's two sides through its formulas, `y(v + a) - y0` and `y0 - y(v - b)`, in place of
+//! `g a` and `g b`: exact for a monotone formula of that input alone; see
+//! `validity::two_lines_at_sides`.) Its distribution function follows in closed
 //! form from Owen's T function (Owen 1956, Ann. Math. Statist. 27, 1075; the skew-normal
 //! distribution function `Phi(k) - 2 T(k, alpha)` of Azzalini 1985): for `g > 0`, with
 //! `sa = sqrt((g a)^2 + s^2)` and `sb = sqrt((g b)^2 + s^2)`,

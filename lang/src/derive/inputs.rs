@@ -71,14 +71,25 @@ impl<'m> Derivation<'m> {
         hi: f64,
     ) -> Value {
         let id = u32::try_from(self.inputs.len()).unwrap_or(u32::MAX);
-        if let Some(at) = self.pinned.get(&label).filter(|_| m.form.is_limit()) {
-            // Evaluated at one end of its range (see `validity::bound_where_limited`).
+        if let Some(at) = self.pinned.get(&label) {
+            // A limit evaluated at one end of its range (see
+            // `validity::bound_where_limited`), a measurement at one of its sides (see
+            // `validity::two_lines_at_sides`).
             let v = match (at, m.form) {
-                (super::PinAt::OtherEnd, Form::UpperLimit) => lo,
-                (super::PinAt::OtherEnd, _) => hi,
-                (super::PinAt::Limit, _) => m.value,
+                (super::PinAt::OtherEnd, Form::UpperLimit) => Some(lo),
+                (super::PinAt::OtherEnd, Form::LowerLimit) => Some(hi),
+                (super::PinAt::Limit, Form::UpperLimit | Form::LowerLimit) => Some(m.value),
+                (super::PinAt::Above, Form::Symmetric | Form::Asymmetric) => {
+                    Some(m.value + m.above)
+                }
+                (super::PinAt::Below, Form::Symmetric | Form::Asymmetric) => {
+                    Some(m.value - m.below)
+                }
+                _ => None,
             };
-            return Value::exact(v, self.n());
+            if let Some(v) = v {
+                return Value::exact(v, self.n());
+            }
         }
         let (below, above) = match m.form {
             Form::UpperLimit | Form::LowerLimit => {
@@ -110,12 +121,16 @@ impl<'m> Derivation<'m> {
         } else {
             value::Shape::Normal
         };
+        // All but 1e-3 of its stated distribution inside the quantity's range.
+        let inside = super::truncation::truncation(m, lo, hi)
+            .is_none_or(|(under, over, _)| under + over < 1e-3);
         self.inputs.push(InputInfo {
             label,
             below,
             above,
             shape,
             limit: None,
+            inside,
         });
         let exact = below == 0.0 && above == 0.0;
         Value {

@@ -484,6 +484,9 @@ fn relative_spread(v: &Value, inputs: &[InputInfo]) -> f64 {
 pub(super) enum PinAt {
     Limit,
     OtherEnd,
+    /// A measurement at its value plus its uncertainty above, or less its uncertainty below.
+    Above,
+    Below,
 }
 
 /// Declared limits by label, each with where it is taken.

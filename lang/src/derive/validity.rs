@@ -127,40 +127,94 @@ impl<'m> Derivation<'m> {
         (out, only_skew)
     }
 
-    /// The exact distribution, to first order, of a value resting on one asymmetric input
-    /// and any number of symmetric ones ([`super::asymmetric`]): its median and 16th and
-    /// 84th percentiles. `None` when another input is asymmetric too, or one is spread
-    /// uniformly (a limit, an angle over a full turn), where only sampling describes it.
-    fn two_lines_interval(&self, v: &Value) -> Option<value::SampleSummary> {
-        let mut skewed: Option<(f64, &InputInfo)> = None;
+    /// The one input a value is doubted for, if it is doubted only for one strongly
+    /// asymmetric input whose stated distribution lies inside its range: that input's id and
+    /// the standard deviation of the rest of the value's first-order spread (every other
+    /// input, each by the mean of its two sides, as the error budget counts it). `None`
+    /// when a second input is not normal and gives at least [`SHARE_LIMIT`] of the variance
+    /// (two asymmetric inputs, a limit, an angle over a full turn), where only sampling
+    /// describes the value.
+    fn one_skewed_input(&self, v: &Value) -> Option<(u32, f64)> {
+        let shares: FxHashMap<u32, f64> = v.budget(&self.inputs).into_iter().collect();
+        let mut skewed: Option<u32> = None;
         let mut rest = 0.0;
         for &(id, g) in &v.grad {
             let input = self.inputs.get(id as usize)?;
             if g == 0.0 {
                 continue;
             }
-            if input.shape == Shape::Uniform {
-                return None;
-            }
-            if input.below != input.above {
-                if skewed.is_some() {
-                    return None;
+            let share = shares.get(&id).copied().unwrap_or(0.0);
+            match input.shape {
+                Shape::Skewed if share >= SHARE_LIMIT => {
+                    if skewed.is_some() || !input.inside {
+                        return None;
+                    }
+                    skewed = Some(id);
                 }
-                skewed = Some((g, input));
-            } else {
-                rest += (g * input.below).powi(2);
+                Shape::Uniform if share >= SHARE_LIMIT => return None,
+                _ => rest += (g * (input.below + input.above) / 2.0).powi(2),
             }
         }
-        let (g, input) = skewed?;
-        let d = super::asymmetric::TwoLines::new(g, input.above, input.below, rest.sqrt())?;
-        let at = |p: f64| d.quantile(p).map(|t| v.nominal + t);
-        Some(value::SampleSummary {
-            median: at(0.5)?,
-            low: at(value::P_LOW)?,
-            high: at(value::P_HIGH)?,
-            finite: 1.0,
-            precision: None,
-        })
+        Some((skewed?, rest.sqrt()))
+    }
+
+    /// For values each doubted only for the input `id` ([`Derivation::one_skewed_input`]),
+    /// each with the rest of its spread: their intervals with the input's two sides carried
+    /// through the formulas exactly. The system is evaluated again with the input at its
+    /// value plus its uncertainty above, and at its value less its uncertainty below; a
+    /// value that moves monotonically through them is `y0 + (y(+) - y0) u` for `u > 0` and
+    /// `y0 - (y(-) - y0) u` for `u < 0` along the input's two half-normal lines (exact for the
+    /// input alone: a monotone formula carries its percentiles to the value's), plus the
+    /// rest's normal spread ([`super::asymmetric`]). A value that does not move
+    /// monotonically is left out (sampled).
+    fn two_lines_at_sides(&self, id: u32, keys: &[(Key, f64)]) -> Vec<(Key, value::SampleSummary)> {
+        let Some(label) = self.inputs.get(id as usize).map(|i| i.label.clone()) else {
+            return Vec::new();
+        };
+        let options = Options {
+            propagation: Propagation::Linear,
+            ..self.options.clone()
+        };
+        let focus = self.cone(keys.iter().map(|(k, _)| k));
+        let at = |side: PinAt| {
+            let mut pins = Pins::default();
+            pins.insert(label.clone(), side);
+            Derivation::run_pinned(self.sys, &options, self.lines, pins, Some(focus.clone()))
+        };
+        let (up, down) = (at(PinAt::Above), at(PinAt::Below));
+        let mut out = Vec::new();
+        for &(key, rest) in keys {
+            let nominal = |d: &Derivation| d.entries.get(&key).map(|e| e.value.nominal);
+            let (Some(y0), Some(hi), Some(lo)) = (nominal(self), nominal(&up), nominal(&down))
+            else {
+                continue;
+            };
+            let (du, dd) = (hi - y0, lo - y0);
+            let lines = if du >= 0.0 && dd <= 0.0 {
+                super::asymmetric::TwoLines::new(1.0, du, -dd, rest)
+            } else if du <= 0.0 && dd >= 0.0 {
+                super::asymmetric::TwoLines::new(-1.0, -du, dd, rest)
+            } else {
+                None
+            };
+            let Some(d) = lines else { continue };
+            let at = |p: f64| d.quantile(p).map(|t| y0 + t);
+            if let (Some(median), Some(low), Some(high)) =
+                (at(0.5), at(value::P_LOW), at(value::P_HIGH))
+            {
+                out.push((
+                    key,
+                    value::SampleSummary {
+                        median,
+                        low,
+                        high,
+                        finite: 1.0,
+                        precision: None,
+                    },
+                ));
+            }
+        }
+        out
     }
 
     /// Values whose size says nothing about how well first order describes them (see
@@ -213,25 +267,46 @@ impl<'m> Derivation<'m> {
             return;
         }
         let (mut doubts, only_skew) = self.doubts();
-        // A value doubted only for one asymmetric input has an exact first-order
-        // distribution: no sampling for it.
-        for key in only_skew {
-            let Some(summary) = self
-                .entries
-                .get(&key)
-                .and_then(|e| self.two_lines_interval(&e.value))
-            else {
+        if doubts.is_empty() {
+            return;
+        }
+        self.inherit_doubts(&mut doubts);
+        // A value doubted only for one asymmetric input, and resting on no value sampled
+        // for another reason, takes that input's two sides through its formulas exactly:
+        // no sampling for it.
+        let sampled_otherwise: FxHashSet<Key> = doubts
+            .keys()
+            .filter(|k| !only_skew.contains(k))
+            .copied()
+            .collect();
+        let mut by_input: BTreeMap<u32, Vec<(Key, f64)>> = BTreeMap::new();
+        for key in &only_skew {
+            let Some(e) = self.entries.get(key) else {
                 continue;
             };
+            if e.deps
+                .iter()
+                .any(|d| d != key && sampled_otherwise.contains(d))
+            {
+                continue;
+            }
+            if let Some((id, rest)) = self.one_skewed_input(&e.value) {
+                by_input.entry(id).or_default().push((*key, rest));
+            }
+        }
+        let exact: Vec<(Key, value::SampleSummary)> = by_input
+            .iter()
+            .flat_map(|(id, keys)| self.two_lines_at_sides(*id, keys))
+            .collect();
+        for (key, summary) in exact {
             if let Some(why) = doubts.remove(&key) {
-                let words = format!("{TWO_LINES}: {why}, so this interval is the median and 16th-84th percentiles of the first-order distribution with that input's two sides kept (two half-normal lines, Barlow 2003), computed exactly, not sampled");
+                let words = format!("{TWO_LINES}: {why}, so this interval is the median and 16th-84th percentiles of the value with that input at its two sides carried through the formulas exactly (its distribution read as two half-normal lines, Barlow 2003) and the other inputs' first-order spread added; not sampled");
                 self.two_lines.insert(key, (summary, words));
             }
         }
         if doubts.is_empty() {
             return;
         }
-        self.inherit_doubts(&mut doubts);
         let options = Options {
             propagation: Propagation::MonteCarlo,
             samples: self.options.samples.min(MOST_SAMPLES),

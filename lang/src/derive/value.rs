@@ -27,6 +27,10 @@ pub struct InputInfo {
     pub shape: Shape,
     /// For a declared limit: its form and the limit itself (SI).
     pub limit: Option<(crate::model::Form, f64)>,
+    /// Whether its stated distribution lies inside its quantity's range (all but 1e-3 of
+    /// it): where it does not, samples are kept inside, and no formula of the stated
+    /// distribution describes them.
+    pub inside: bool,
 }
 
 /// An input's distribution, as far as first-order propagation is concerned: only a normal
@@ -432,6 +436,7 @@ mod tests {
             above: s,
             shape: Shape::Normal,
             limit: None,
+            inside: true,
         }
     }
 
