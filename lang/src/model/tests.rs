@@ -721,4 +721,21 @@ fn an_epoch_with_its_offset_left_off_is_refused() {
     let (m, diags) = lower_text(&src("2086302.5"));
     assert!(diags.is_empty(), "{diags:?}");
     assert!(m.systems[0].bodies[1].get(Qty::TransitEpoch).is_some());
+    // A digit too many, past the year 9999; a huge number is written short.
+    for (jd, said) in [
+        (
+            "24601234.567",
+            "Julian date 24601234.567 is after the year 9999",
+        ),
+        ("1e300", "Julian date 1e300 is after the year 9999"),
+    ] {
+        let (m, diags) = lower_text(&src(jd));
+        assert!(diags.iter().any(|d| d.message.contains(said)), "{diags:?}");
+        assert!(m.systems[0].bodies[1].get(Qty::TransitEpoch).is_none());
+    }
+    // A Julian date read as UTC (`HJD`) gets the same help, not only the UTC range error.
+    let (_, diags) = lower_text(&src("60123.4567").replace("BJD_TDB", "HJD"));
+    let d = diags.first().expect("refused");
+    assert!(d.message.contains("before the year 1000"), "{}", d.message);
+    assert!(d.help.as_deref().is_some_and(|h| h.contains("2400000")));
 }

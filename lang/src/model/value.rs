@@ -299,13 +299,47 @@ pub(super) fn lower_value(
         );
         return None;
     }
+    // A Julian date outside the years 1000 to 9999 times no observation: before, almost
+    // always a date published with an offset taken off (BJD - 2450000, say); after, a digit
+    // too many. Only `ephemeris` refused them.
+    let jd = value / crate::constants::DAY;
+    if def.qty == Qty::TransitEpoch && !(crate::time::FIRST_JD..crate::time::END_JD).contains(&jd) {
+        let written = sign * lit.value;
+        let written = if (1e-3..1e15).contains(&written.abs()) {
+            written.to_string()
+        } else {
+            format!("{written:e}")
+        };
+        let (when, help) = if jd < crate::time::FIRST_JD {
+            (
+                "before the year 1000",
+                "epochs are often published with an offset taken off (2400000, 2450000, 2454833 or 2457000, common practice): write the full Julian date, the offset added back",
+            )
+        } else {
+            (
+                "after the year 9999",
+                "check the digits: a Julian date of a transit observed today is about 2460000",
+            )
+        };
+        diags.push(
+            Diagnostic::new(
+                Rule::InvalidValue,
+                expr.span,
+                format!(
+                    "Julian date {written} is {when}: not the time of a transit anyone observed"
+                ),
+            )
+            .with_help(help),
+        );
+        return None;
+    }
     // An epoch in UTC before 1972, as a timestamp is: no time scale follows from it (its
     // seconds were not SI seconds), and only `ephemeris` refused it.
     // A Julian date with no scale named (`JD`, `HJD`) is read as UTC, so the same holds.
     let system = crate::time::system_of_unit(&unit.text);
     let utc = system.is_some_and(|(s, _)| s.scale == crate::time::Scale::Utc);
     if def.qty == Qty::TransitEpoch && utc {
-        if let Err(e) = crate::time::tai_minus_utc(value / crate::constants::DAY) {
+        if let Err(e) = crate::time::tai_minus_utc(jd) {
             let mut d = Diagnostic::new(Rule::InvalidValue, expr.span, e.to_string());
             if let Some((_, Some(read_as))) = system {
                 d = d.with_note(read_as);
@@ -313,24 +347,6 @@ pub(super) fn lower_value(
             diags.push(d);
             return None;
         }
-    }
-    // A Julian date before year 1000 times no observation: almost always a date published
-    // with an offset taken off (BJD - 2450000, say), which only `ephemeris` refused.
-    if def.qty == Qty::TransitEpoch && value / crate::constants::DAY < crate::time::FIRST_JD {
-        diags.push(
-            Diagnostic::new(
-                Rule::InvalidValue,
-                expr.span,
-                format!(
-                    "Julian date {} is before the year 1000: not the time of a transit anyone observed",
-                    sign * lit.value
-                ),
-            )
-            .with_help(
-                "epochs are often published with an offset taken off (2400000, 2450000, 2454833 or 2457000, common practice): write the full Julian date, the offset added back",
-            ),
-        );
-        return None;
     }
     if !def.in_range(value) {
         let what = match form {

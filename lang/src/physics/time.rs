@@ -225,12 +225,14 @@ pub const NO_FUTURE_LEAP_SECONDS: &str =
 /// The first Julian date of the supported range: 1000-01-01T00:00 in the proleptic Gregorian
 /// calendar (astropy's `Time('1000-01-01').jd` gives the same).
 pub const FIRST_JD: f64 = 2_086_302.5;
+/// The Julian date just past the supported range: 10000-01-01T00:00.
+pub const END_JD: f64 = 5_373_484.5;
 
 fn check_range(jd: f64) -> Result<(), TimeError> {
     // Years 1000 to 9999 whole, in the proleptic Gregorian calendar the timestamps are read
     // in: JD 2086302.5 (1000-01-01T00:00) up to 5373484.5 (10000-01-01T00:00). The bounds were
     // the Julian calendar's at the start (five days late) and cut half a day off the end.
-    if jd.is_finite() && (FIRST_JD..5_373_484.5).contains(&jd) {
+    if jd.is_finite() && (FIRST_JD..END_JD).contains(&jd) {
         Ok(())
     } else {
         Err(TimeError::OutOfRange(jd))
