@@ -451,15 +451,28 @@ fn repeated<'a>(
 }
 
 /// The key a system is matched by: its name, or for a name in `repeated`, its name and
-/// file; what a file says outside systems goes by the file.
+/// file (and its place among the systems of that name in the file); what a file says
+/// outside systems goes by the file.
 fn keys(
     side: &[SystemSnapshot],
     repeated: &std::collections::HashSet<&str>,
 ) -> Vec<(String, Option<String>)> {
+    // A name written twice in one file (a `duplicate` error) is told apart by its place
+    // among them: the first with the first, the second with the second.
+    let mut seen: std::collections::HashMap<(&str, &str), usize> = std::collections::HashMap::new();
     side.iter()
         .map(|s| match &s.name {
             Some(n) if !repeated.contains(n.as_str()) => (n.clone(), None),
-            Some(n) => (n.clone(), Some(s.file.clone())),
+            Some(n) => {
+                let k = seen.entry((n.as_str(), s.file.as_str())).or_insert(0);
+                *k += 1;
+                let file = if *k == 1 {
+                    s.file.clone()
+                } else {
+                    format!("{} ({})", s.file, k)
+                };
+                (n.clone(), Some(file))
+            }
             None => (String::new(), Some(s.file.clone())),
         })
         .collect()

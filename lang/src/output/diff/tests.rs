@@ -458,3 +458,41 @@ fn a_default_argument_of_periastron_now_spread_is_said_so() {
     assert_eq!(c.kind, ChangeKind::DerivedChanged);
     assert_eq!(c.new.as_deref(), Some("spread uniformly over 0-360 deg"));
 }
+
+/// A name written twice in one file: the same file on both sides compares as unchanged
+/// (the second of one side was paired with the first of the other), and an edit of the
+/// second is its own.
+#[test]
+fn a_name_written_twice_in_one_file_pairs_each_with_its_own() {
+    let first = system(
+        "Cardell",
+        vec![value("period", Origin::Declared, 3.5, 0.001)],
+        None,
+    );
+    let second = system(
+        "Cardell",
+        vec![value("period", Origin::Declared, 7.5, 0.001)],
+        None,
+    );
+    let options = DiffOptions {
+        threshold: 1.0,
+        all: false,
+    };
+    let side = [first.clone(), second.clone()];
+    let same = compare(&side, &side, options);
+    assert!(!same.significant(), "{same:?}");
+    assert_eq!(same.systems_compared, 2);
+    let edited = system(
+        "Cardell",
+        vec![value("period", Origin::Declared, 9.5, 0.001)],
+        None,
+    );
+    let d = compare(&side, &[first, edited], options);
+    let moved: Vec<(Option<&str>, Option<&str>)> = d
+        .systems
+        .iter()
+        .flat_map(|s| &s.changes)
+        .map(|c| (c.old.as_deref(), c.new.as_deref()))
+        .collect();
+    assert_eq!(moved, [(Some("7.5 ± 0.001"), Some("9.5 ± 0.001"))]);
+}
