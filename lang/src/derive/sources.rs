@@ -254,8 +254,13 @@ pub fn epochs_not_averaged(
     scales: &[Option<&str>],
     period: Option<f64>,
 ) -> Option<&'static str> {
-    if scales.iter().any(|s| Some(s) != scales.first()) {
-        return Some("transit epochs in different time scales are not averaged");
+    // Compared as the time systems they name: `BJD` is read as `BJD_TDB`.
+    let system = |u: &Option<&str>| u.and_then(crate::time::system_of_unit).map(|(s, _)| s);
+    let first = scales.first().map(system);
+    if scales.iter().any(|u| Some(system(u)) != first) {
+        return Some(
+            "transit epochs in different time systems (scale or reference point) are not averaged",
+        );
     }
     let measured: Vec<f64> = epochs
         .iter()
@@ -271,9 +276,11 @@ pub fn epochs_not_averaged(
         return None;
     }
     match period.filter(|p| *p > 0.0 && p.is_finite()) {
-        Some(p) if hi - lo < p / 2.0 => None,
+        // Timings of one transit differ by minutes; a quarter of the period apart is
+        // another event (a secondary eclipse sits half a period away).
+        Some(p) if hi - lo < p / 4.0 => None,
         Some(_) => Some("transit epochs of different transits are not averaged (that needs a fit of the linear ephemeris)"),
-        None => Some("transit epochs are not averaged without a period to tell whether they time the same transit"),
+        None => Some("transit epochs are not averaged without a declared period to tell whether they time the same transit"),
     }
 }
 

@@ -87,7 +87,8 @@ fn epochs_in_different_time_scales_are_not_averaged() {
     assert!(
         t.assumptions
             .iter()
-            .any(|s| s.contains("different time scales are not averaged")),
+            .any(|s| s
+                .contains("different time systems (scale or reference point) are not averaged")),
         "{:?}",
         t.assumptions
     );
@@ -160,4 +161,20 @@ fn a_finding_quotes_a_declared_value_in_the_unit_written() {
         .expect("a finding");
     assert!(d.message.contains("0.0300 ± 0.0010 Mjup"), "{}", d.message);
     assert!(!d.message.contains("Mearth"), "{}", d.message);
+}
+
+/// `BJD` is read as `BJD_TDB`: two timings of one transit written each way are averaged; a
+/// timing half a period away (a secondary eclipse entered by mistake) is not.
+#[test]
+fn one_time_system_however_written_is_averaged_and_half_a_period_is_not() {
+    let a = run(&system(
+        "2459000.1000 +- 0.0002 BJD",
+        "2459000.1002 +- 0.0002 BJD_TDB",
+    ));
+    assert_eq!(epoch(&a).choice, Some(Choice::WeightedMean));
+    let a = run(&system(
+        "2459000.1000 +- 0.0002 BJD_TDB",
+        "2459002.0999 +- 0.0002 BJD_TDB",
+    ));
+    assert_eq!(epoch(&a).choice, Some(Choice::MostPrecise));
 }
