@@ -179,3 +179,29 @@ fn a_value_resting_on_a_sampled_value_is_sampled() {
         );
     }
 }
+
+/// A value declared as an expression propagates its inputs as a rule would: one whose
+/// first-order uncertainty is 30 % of it is sampled too (it was shown to first order, with
+/// no word).
+#[test]
+fn a_value_declared_by_an_expression_is_doubted_like_a_derived_one() {
+    let src = r#"system "Hollin" {
+  let k = 0.1 +0.03/-0.01
+  star hollin {
+    mass = 1.0 +- 0.03 Msun
+    radius = 0.88 +- 0.01 Rsun
+  }
+  planet b orbits hollin {
+    period = 5.0 +- 0.001 d
+    radius = k * hollin.radius
+  }
+}
+"#;
+    let a = run(src, Options::linear());
+    let r = a.results[0].bodies[1].get(Qty::Radius).expect("a radius");
+    assert!(
+        r.assumptions.iter().any(|a| a.starts_with(SAMPLED)),
+        "{:?}",
+        r.assumptions
+    );
+}

@@ -82,7 +82,7 @@ impl<'m> Derivation<'m> {
         let mut out = FxHashMap::default();
         let mut only_skew = FxHashSet::default();
         for (key, entry) in &self.entries {
-            if !entry.origin.is_computed()
+            if !self.is_computed(*key, entry)
                 || entry.value.grad.is_empty()
                 || self.bounded.contains_key(key)
             {
@@ -217,6 +217,20 @@ impl<'m> Derivation<'m> {
         out
     }
 
+    /// Whether a value is computed from others: derived or predicted by a rule, or declared
+    /// as an expression (`radius = k * s.radius` propagates `k` and `s.radius` as a rule
+    /// would, and first order may describe it as badly).
+    fn is_computed(&self, key: Key, entry: &Entry) -> bool {
+        entry.origin.is_computed()
+            || (entry.rule.is_none()
+                && self
+                    .sys
+                    .bodies
+                    .get(key.0)
+                    .and_then(|b| b.get(key.1))
+                    .is_some_and(|d| matches!(d.content, Content::Expr(_))))
+    }
+
     /// Values whose size says nothing about how well first order describes them (see
     /// [`ratio_scale`]) are doubted when a value they rest on is: its skew passes on.
     fn inherit_doubts(&self, doubts: &mut FxHashMap<Key, String>) {
@@ -224,7 +238,7 @@ impl<'m> Derivation<'m> {
         for (key, entry) in &self.entries {
             if ratio_scale(key.1)
                 || doubts.contains_key(key)
-                || !entry.origin.is_computed()
+                || !self.is_computed(*key, entry)
                 || self.bounded.contains_key(key)
             {
                 continue;
