@@ -490,6 +490,16 @@ pub fn compare(old: &[SystemSnapshot], new: &[SystemSnapshot], options: DiffOpti
         old_at.entry(k).or_insert(i);
     }
     let new_set: std::collections::HashSet<&(String, Option<String>)> = new_keys.iter().collect();
+    // Every reference of each side, whatever its file: one in a file that moved or was
+    // split is not added on one side and removed on the other.
+    let all_refs = |side: &[SystemSnapshot]| -> Vec<(String, String)> {
+        side.iter().flat_map(|s| s.refs.iter().cloned()).collect()
+    };
+    let (old_refs, new_refs) = (all_refs(old), all_refs(new));
+    let (old_ref_set, new_ref_set): (
+        std::collections::HashSet<&(String, String)>,
+        std::collections::HashSet<&(String, String)>,
+    ) = (old_refs.iter().collect(), new_refs.iter().collect());
     let mut systems = Vec::new();
     let mut compared = 0;
     let mut found = 0;
@@ -500,7 +510,16 @@ pub fn compare(old: &[SystemSnapshot], new: &[SystemSnapshot], options: DiffOpti
             let mut changes = Vec::new();
             if n.name.is_none() {
                 changes.extend(diagnostic_changes(&[], &n.diagnostics));
-                changes.extend(reference_changes(&[], &n.refs));
+                let fresh: Vec<(String, String)> = n
+                    .refs
+                    .iter()
+                    .filter(|r| !old_ref_set.contains(r))
+                    .cloned()
+                    .collect();
+                changes.extend(reference_changes(&[], &fresh));
+                if changes.is_empty() {
+                    continue; // a file that moved, saying nothing new outside its systems
+                }
             }
             found += changes.len().max(1);
             systems.push(SystemDiff {
@@ -540,7 +559,16 @@ pub fn compare(old: &[SystemSnapshot], new: &[SystemSnapshot], options: DiffOpti
         }
         let changes = if o.name.is_none() {
             let mut c = diagnostic_changes(&o.diagnostics, &[]);
-            c.extend(reference_changes(&o.refs, &[]));
+            let gone: Vec<(String, String)> = o
+                .refs
+                .iter()
+                .filter(|r| !new_ref_set.contains(r))
+                .cloned()
+                .collect();
+            c.extend(reference_changes(&gone, &[]));
+            if c.is_empty() {
+                continue;
+            }
             c
         } else {
             Vec::new()

@@ -496,3 +496,22 @@ fn a_name_written_twice_in_one_file_pairs_each_with_its_own() {
         .collect();
     assert_eq!(moved, [(Some("7.5 ± 0.001"), Some("9.5 ± 0.001"))]);
 }
+
+/// A file renamed with its references: nothing is added or removed outside its systems.
+#[test]
+fn references_of_a_renamed_file_are_not_added_and_removed() {
+    let file = |name: &str| SystemSnapshot {
+        name: None,
+        file: name.into(),
+        bodies: Vec::new(),
+        diagnostics: Vec::new(),
+        refs: vec![("p1".into(), "Invented paper 2030".into())],
+    };
+    let options = DiffOptions {
+        threshold: 1.0,
+        all: true,
+    };
+    let d = compare(&[file("p.syz")], &[file("r.syz")], options);
+    assert!(d.systems.is_empty(), "{d:?}");
+    assert!(!d.significant());
+}
