@@ -496,10 +496,8 @@ pub fn compare(old: &[SystemSnapshot], new: &[SystemSnapshot], options: DiffOpti
         side.iter().flat_map(|s| s.refs.iter().cloned()).collect()
     };
     let (old_refs, new_refs) = (all_refs(old), all_refs(new));
-    let (old_ref_set, new_ref_set): (
-        std::collections::HashSet<&(String, String)>,
-        std::collections::HashSet<&(String, String)>,
-    ) = (old_refs.iter().collect(), new_refs.iter().collect());
+    let old_ref_set: std::collections::HashSet<&(String, String)> = old_refs.iter().collect();
+    let new_ref_set: std::collections::HashSet<&(String, String)> = new_refs.iter().collect();
     let mut systems = Vec::new();
     let mut compared = 0;
     let mut found = 0;
