@@ -74,13 +74,24 @@ pub fn difference_text(c: &Change) -> String {
         format!(" {}", c.unit)
     };
     let number = if d > 0.0 {
-        format!("+{}", crate::format::sig(d, 2))
+        format!("+{}", two_digits(d))
     } else {
-        crate::format::sig(d, 2)
+        two_digits(d)
     };
     match c.sigma {
-        Some(s) => format!("{number}{unit} (σ {}{unit})", crate::format::sig(s, 2)),
+        Some(s) => format!("{number}{unit} (σ {}{unit})", two_digits(s)),
         None => format!("{number}{unit}"),
+    }
+}
+
+/// Two significant digits, both shown in scientific notation too (`8.0e-4` beside
+/// `9.8e-4`, not `8e-4`), so a difference and its σ read alike.
+fn two_digits(v: f64) -> String {
+    let a = v.abs();
+    if v.is_finite() && v != 0.0 && !(1e-3..1e6).contains(&a) {
+        format!("{v:.1e}")
+    } else {
+        crate::format::sig(v, 2)
     }
 }
 
@@ -178,4 +189,16 @@ pub fn render(diff: &Diff, about: &About) -> String {
     out.push_str(&summary_line(diff));
     out.push('\n');
     out
+}
+
+#[cfg(test)]
+mod digits {
+    /// A difference and its σ in one notation with the same digits.
+    #[test]
+    fn a_difference_and_its_sigma_read_alike() {
+        assert_eq!(super::two_digits(9.8e-4), "9.8e-4");
+        assert_eq!(super::two_digits(8e-4), "8.0e-4");
+        assert_eq!(super::two_digits(0.05), "0.050");
+        assert_eq!(super::two_digits(-0.0061), "-0.0061");
+    }
 }
