@@ -224,10 +224,16 @@ pub fn run(args: &Args, flags: &syzygy::settings::Layer, read: files::ReadArgs) 
                 args.body
             );
             if let Some(s) = &site {
+                // East positive; a longitude past 180 is said as the west one it is too.
+                let lon = s.longitude * deg;
+                let west = if lon > 180.0 {
+                    format!(", i.e. {:.4}° west", 360.0 - lon)
+                } else {
+                    String::new()
+                };
                 println!(
-                    "  seen from latitude {:.4}°, longitude {:.4}° (east positive), {:.0} m; star at least {}° up",
+                    "  seen from latitude {:.4}°, longitude {lon:.4}° (east positive{west}), {:.0} m; star at least {}° up",
                     s.latitude * deg,
-                    s.longitude * deg,
                     s.elevation_m,
                     args.min_altitude
                 );

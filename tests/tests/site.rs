@@ -172,3 +172,24 @@ fn a_site_without_a_sky_position_or_bad_flags_are_clear_errors() {
     ]);
     assert_eq!(o.status.code(), Some(2));
 }
+
+/// A longitude past 180 (east positive, as the flag reads it) is said as the west one it also
+/// is: `200` is 160 degrees west.
+#[test]
+fn a_longitude_past_180_is_said_as_west_too() {
+    let o = run(&[
+        "ephemeris",
+        "examples/orrin.syz",
+        "b",
+        "--count",
+        "1",
+        "--site",
+        "28.7,200",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let out = stdout(&o);
+    assert!(
+        out.contains("longitude 200.0000° (east positive, i.e. 160.0000° west)"),
+        "{out}"
+    );
+}
