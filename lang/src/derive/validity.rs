@@ -158,32 +158,51 @@ impl<'m> Derivation<'m> {
         Some((skewed?, rest.sqrt()))
     }
 
-    /// For values each doubted only for the input `id` ([`Derivation::one_skewed_input`]),
-    /// each with the rest of its spread: their intervals with the input's two sides carried
-    /// through the formulas exactly. The system is evaluated again with the input at its
-    /// value plus its uncertainty above, and at its value less its uncertainty below; a
-    /// value that moves monotonically through them is `y0 + (y(+) - y0) u` for `u > 0` and
-    /// `y0 - (y(-) - y0) u` for `u < 0` along the input's two half-normal lines (exact for the
-    /// input alone: a monotone formula carries its percentiles to the value's), plus the
-    /// rest's normal spread ([`super::asymmetric`]). A value that does not move
-    /// monotonically is left out (sampled).
-    fn two_lines_at_sides(&self, id: u32, keys: &[(Key, f64)]) -> Vec<(Key, value::SampleSummary)> {
-        let Some(label) = self.inputs.get(id as usize).map(|i| i.label.clone()) else {
-            return Vec::new();
-        };
+    /// For values each doubted only for one input ([`Derivation::one_skewed_input`]), by
+    /// input, each with the rest of its spread: their intervals with the input's two sides
+    /// carried through the formulas exactly. The system is evaluated again with every such
+    /// input at its value plus its uncertainty above, and once more at its value less its
+    /// uncertainty below (two runs, however many inputs: a system of many planets each with
+    /// an asymmetric input costs what one does); a value that moves monotonically through
+    /// them is `y0 + (y(+) - y0) u` for `u > 0` and `y0 - (y(-) - y0) u` for `u < 0` along
+    /// its input's two half-normal lines (exact for the input alone: a monotone formula
+    /// carries its percentiles to the value's), plus the rest's normal spread
+    /// ([`super::asymmetric`]). A value that also rests on another of the inputs moved, or
+    /// that does not move monotonically, is left out (sampled).
+    fn two_lines_at_sides(
+        &self,
+        by_input: &BTreeMap<u32, Vec<(Key, f64)>>,
+    ) -> Vec<(Key, value::SampleSummary)> {
         let options = Options {
             propagation: Propagation::Linear,
             ..self.options.clone()
         };
-        let focus = self.cone(keys.iter().map(|(k, _)| k));
+        let focus = self.cone(by_input.values().flatten().map(|(k, _)| k));
         let at = |side: PinAt| {
-            let mut pins = Pins::default();
-            pins.insert(label.clone(), side);
+            let pins: Pins = by_input
+                .keys()
+                .filter_map(|id| self.inputs.get(*id as usize))
+                .map(|i| (i.label.clone(), side))
+                .collect();
             Derivation::run_pinned(self.sys, &options, self.lines, pins, Some(focus.clone()))
         };
         let (up, down) = (at(PinAt::Above), at(PinAt::Below));
+        let keys: Vec<(Key, f64)> = by_input
+            .iter()
+            .flat_map(|(id, keys)| keys.iter().map(move |k| (*id, *k)))
+            .filter(|(id, (key, _))| {
+                // Moved by its own input alone.
+                self.entries.get(key).is_some_and(|e| {
+                    e.value
+                        .grad
+                        .iter()
+                        .all(|(other, g)| other == id || *g == 0.0 || !by_input.contains_key(other))
+                })
+            })
+            .map(|(_, k)| k)
+            .collect();
         let mut out = Vec::new();
-        for &(key, rest) in keys {
+        for (key, rest) in keys {
             let nominal = |d: &Derivation| d.entries.get(&key).map(|e| e.value.nominal);
             let (Some(y0), Some(hi), Some(lo)) = (nominal(self), nominal(&up), nominal(&down))
             else {
@@ -308,10 +327,11 @@ impl<'m> Derivation<'m> {
                 by_input.entry(id).or_default().push((*key, rest));
             }
         }
-        let exact: Vec<(Key, value::SampleSummary)> = by_input
-            .iter()
-            .flat_map(|(id, keys)| self.two_lines_at_sides(*id, keys))
-            .collect();
+        let exact = if by_input.is_empty() {
+            Vec::new()
+        } else {
+            self.two_lines_at_sides(&by_input)
+        };
         for (key, summary) in exact {
             if let Some(why) = doubts.remove(&key) {
                 let words = format!("{TWO_LINES}: {why}, so this interval is the median and 16th-84th percentiles of the value with that input at its two sides carried through the formulas exactly (its distribution read as two half-normal lines, Barlow 2003) and the other inputs' first-order spread added; not sampled");
