@@ -24,6 +24,11 @@ use super::*;
 /// the interval ends by more than a tenth of the uncertainty (common practice: the first-
 /// order formula for `x^n` misses the `n(n-1)/2 (s/x)^2` term).
 pub const RELATIVE_LIMIT: f64 = 0.25;
+/// A value whose moves to an asymmetric input's two sides differ from its slope's prediction
+/// by more than this fraction of its uncertainty is sampled: the second-order term first
+/// order leaves out shifts its interval ends by that much (the same tenth as
+/// [`RELATIVE_LIMIT`] allows).
+pub const CURVATURE_LIMIT: f64 = 0.1;
 /// A derived value to which inputs that are not normal contribute at least this share of
 /// the first-order variance is sampled.
 pub const SHARE_LIMIT: f64 = 0.05;
@@ -127,6 +132,72 @@ impl<'m> Derivation<'m> {
         (out, only_skew)
     }
 
+    /// Values first order passed that rest on an asymmetric input moved in `up` and `down`
+    /// ([`Derivation::at_sides`]), where their moves to the inputs' sides differ from what
+    /// their slopes predict by more than [`CURVATURE_LIMIT`] of their uncertainty (a formula
+    /// flat or turning at the value, as a duration at an argument of periastron of 90 deg
+    /// is, which first order reads as no spread at all), each with why.
+    fn curved(
+        &self,
+        keys: &[Key],
+        moved: &FxHashSet<u32>,
+        [up, down]: &[Derivation<'m>; 2],
+    ) -> Vec<(Key, String)> {
+        let mut out = Vec::new();
+        for key in keys {
+            let Some(e) = self.entries.get(key) else {
+                continue;
+            };
+            let v = &e.value;
+            let mut labels: Vec<&str> = Vec::new();
+            let (mut lin_up, mut lin_down) = (0.0, 0.0);
+            for &(id, g) in &v.grad {
+                if let Some(input) = self.inputs.get(id as usize).filter(|_| moved.contains(&id)) {
+                    lin_up += g * input.above;
+                    lin_down -= g * input.below;
+                    labels.push(input.label.as_str());
+                }
+            }
+            let nominal = |d: &Derivation| d.entries.get(key).map(|e| e.value.nominal);
+            let names = if labels.is_empty() {
+                // Flat along them: its slope names none of them, so all are named.
+                let all: Vec<&str> = moved
+                    .iter()
+                    .filter_map(|id| self.inputs.get(*id as usize))
+                    .map(|i| i.label.as_str())
+                    .collect();
+                let mut all = all;
+                all.sort_unstable();
+                format!("the system's asymmetric inputs ({})", all.join(", "))
+            } else {
+                labels.join(", ")
+            };
+            let (Some(hi), Some(lo)) = (nominal(up), nominal(down)) else {
+                out.push((*key, format!("it has no value at a side of {names}")));
+                continue;
+            };
+            let (du, dd) = (hi - v.nominal, lo - v.nominal);
+            let miss = (du - lin_up).abs().max((dd - lin_down).abs());
+            let (below, above) = v.linear_spread(&self.inputs);
+            let sigma = below.max(above);
+            if miss > CURVATURE_LIMIT * sigma && miss > 1e-9 * v.nominal.abs() {
+                let how = if sigma > 0.0 {
+                    format!(
+                        "{:.0}% of its first-order uncertainty",
+                        (100.0 * miss / sigma).min(999.0)
+                    )
+                } else {
+                    "all of it, as its slope there is flat".to_string()
+                };
+                out.push((
+                    *key,
+                    format!("at the two sides of {names} it moves by other amounts than its slope predicts, by {how}"),
+                ));
+            }
+        }
+        out
+    }
+
     /// The one input a value is doubted for, if it is doubted only for one strongly
     /// asymmetric input whose stated distribution lies inside its range: that input's id and
     /// the standard deviation of the rest of the value's first-order spread (every other
@@ -158,35 +229,40 @@ impl<'m> Derivation<'m> {
         Some((skewed?, rest.sqrt()))
     }
 
+    /// The system evaluated again, to first order, for the values of `focus`, with every
+    /// input of `ids` at its value plus its uncertainty above, and once more at its value
+    /// less its uncertainty below: two runs, however many inputs (a system of many planets
+    /// each with an asymmetric input costs what one does).
+    fn at_sides(&self, ids: &FxHashSet<u32>, focus: &FxHashSet<Key>) -> [Derivation<'m>; 2] {
+        let options = Options {
+            propagation: Propagation::Linear,
+            ..self.options.clone()
+        };
+        [PinAt::Above, PinAt::Below].map(|side| {
+            let pins: Pins = ids
+                .iter()
+                .filter_map(|id| self.inputs.get(*id as usize))
+                .map(|i| (i.label.clone(), side))
+                .collect();
+            Derivation::run_pinned(self.sys, &options, self.lines, pins, Some(focus.clone()))
+        })
+    }
+
     /// For values each doubted only for one input ([`Derivation::one_skewed_input`]), by
     /// input, each with the rest of its spread: their intervals with the input's two sides
-    /// carried through the formulas exactly. The system is evaluated again with every such
-    /// input at its value plus its uncertainty above, and once more at its value less its
-    /// uncertainty below (two runs, however many inputs: a system of many planets each with
-    /// an asymmetric input costs what one does); a value that moves monotonically through
-    /// them is `y0 + (y(+) - y0) u` for `u > 0` and `y0 - (y(-) - y0) u` for `u < 0` along
-    /// its input's two half-normal lines (exact for the input alone: a monotone formula
+    /// carried through the formulas exactly, from the runs `up` and `down` with the inputs
+    /// `moved` at their sides ([`Derivation::at_sides`]). A value that moves monotonically
+    /// through them is `y0 + (y(+) - y0) u` for `u > 0` and `y0 - (y(-) - y0) u` for `u < 0`
+    /// along its input's two half-normal lines (exact for the input alone: a monotone formula
     /// carries its percentiles to the value's), plus the rest's normal spread
     /// ([`super::asymmetric`]). A value that also rests on another of the inputs moved, or
     /// that does not move monotonically, is left out (sampled).
     fn two_lines_at_sides(
         &self,
         by_input: &BTreeMap<u32, Vec<(Key, f64)>>,
+        moved: &FxHashSet<u32>,
+        [up, down]: &[Derivation<'m>; 2],
     ) -> Vec<(Key, value::SampleSummary)> {
-        let options = Options {
-            propagation: Propagation::Linear,
-            ..self.options.clone()
-        };
-        let focus = self.cone(by_input.values().flatten().map(|(k, _)| k));
-        let at = |side: PinAt| {
-            let pins: Pins = by_input
-                .keys()
-                .filter_map(|id| self.inputs.get(*id as usize))
-                .map(|i| (i.label.clone(), side))
-                .collect();
-            Derivation::run_pinned(self.sys, &options, self.lines, pins, Some(focus.clone()))
-        };
-        let (up, down) = (at(PinAt::Above), at(PinAt::Below));
         let keys: Vec<(Key, f64)> = by_input
             .iter()
             .flat_map(|(id, keys)| keys.iter().map(move |k| (*id, *k)))
@@ -196,7 +272,7 @@ impl<'m> Derivation<'m> {
                     e.value
                         .grad
                         .iter()
-                        .all(|(other, g)| other == id || *g == 0.0 || !by_input.contains_key(other))
+                        .all(|(other, g)| other == id || *g == 0.0 || !moved.contains(other))
                 })
             })
             .map(|(_, k)| k)
@@ -204,8 +280,7 @@ impl<'m> Derivation<'m> {
         let mut out = Vec::new();
         for (key, rest) in keys {
             let nominal = |d: &Derivation| d.entries.get(&key).map(|e| e.value.nominal);
-            let (Some(y0), Some(hi), Some(lo)) = (nominal(self), nominal(&up), nominal(&down))
-            else {
+            let (Some(y0), Some(hi), Some(lo)) = (nominal(self), nominal(up), nominal(down)) else {
                 continue;
             };
             let (du, dd) = (hi - y0, lo - y0);
@@ -300,7 +375,12 @@ impl<'m> Derivation<'m> {
             return;
         }
         let (mut doubts, only_skew) = self.doubts();
-        if doubts.is_empty() {
+        let skewed: FxHashSet<u32> = (0u32..)
+            .zip(&self.inputs)
+            .filter(|(_, i)| i.shape == Shape::Skewed)
+            .map(|(id, _)| id)
+            .collect();
+        if doubts.is_empty() && skewed.is_empty() {
             return;
         }
         self.inherit_doubts(&mut doubts);
@@ -327,16 +407,36 @@ impl<'m> Derivation<'m> {
                 by_input.entry(id).or_default().push((*key, rest));
             }
         }
-        let exact = if by_input.is_empty() {
+        // The values first order passed, where the system has an asymmetric input: checked
+        // at its sides for a curvature first order misses. Every such value, not only those
+        // whose slopes name the input: at a flat point (a duration at an argument of
+        // periastron of 90 deg) the slope is 0 and names nothing.
+        let mut checked: Vec<Key> = if skewed.is_empty() {
             Vec::new()
         } else {
-            self.two_lines_at_sides(&by_input)
+            self.entries
+                .iter()
+                .filter(|(k, e)| {
+                    !doubts.contains_key(k)
+                        && !self.bounded.contains_key(k)
+                        && self.is_computed(**k, e)
+                })
+                .map(|(k, _)| *k)
+                .collect()
         };
-        for (key, summary) in exact {
-            if let Some(why) = doubts.remove(&key) {
-                let words = format!("{TWO_LINES}: {why}, so this interval is the median and 16th-84th percentiles of the value with that input at its two sides carried through the formulas exactly (its distribution read as two half-normal lines, Barlow 2003) and the other inputs' first-order spread added; not sampled");
-                self.two_lines.insert(key, (summary, words));
+        checked.sort();
+        if !by_input.is_empty() || !checked.is_empty() {
+            let focus = self.cone(by_input.values().flatten().map(|(k, _)| k).chain(&checked));
+            let sides = self.at_sides(&skewed, &focus);
+            let exact = self.two_lines_at_sides(&by_input, &skewed, &sides);
+            let curved = self.curved(&checked, &skewed, &sides);
+            for (key, summary) in exact {
+                if let Some(why) = doubts.remove(&key) {
+                    let words = format!("{TWO_LINES}: {why}, so this interval is the median and 16th-84th percentiles of the value with that input at its two sides carried through the formulas exactly (its distribution read as two half-normal lines, Barlow 2003) and the other inputs' first-order spread added; not sampled");
+                    self.two_lines.insert(key, (summary, words));
+                }
             }
+            doubts.extend(curved);
         }
         if doubts.is_empty() {
             return;
