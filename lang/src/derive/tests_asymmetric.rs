@@ -146,7 +146,10 @@ fn a_lopsided_input_through_a_steep_formula_is_carried_exactly() {
     let a = run(albedo, Options::linear());
     let teq = a.results[0].bodies[1].get(Qty::Teq).expect("a Teq");
     assert!(
-        teq.assumptions.iter().any(|a| a.starts_with(SAMPLED)),
+        teq.assumptions.iter().any(|a| a.starts_with(SAMPLED)
+            && a.contains(
+                "not carried exactly: the stated distribution of b.albedo reaches past its range"
+            )),
         "{:?}",
         teq.assumptions
     );
@@ -178,6 +181,16 @@ fn a_value_resting_on_a_sampled_value_is_sampled() {
             r.assumptions
         );
     }
+    // The position says why its asymmetric radius was not carried exactly.
+    let hz = b.get(Qty::HabitableZonePosition).expect("derived");
+    assert!(
+        hz.assumptions
+            .iter()
+            .any(|a| a.contains("(not carried exactly: it rests on ")
+                && a.contains(", sampled for another reason)")),
+        "{:?}",
+        hz.assumptions
+    );
 }
 
 /// A value declared as an expression propagates its inputs as a rule would: one whose

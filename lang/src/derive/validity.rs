@@ -393,18 +393,48 @@ impl<'m> Derivation<'m> {
             .copied()
             .collect();
         let mut by_input: BTreeMap<u32, Vec<(Key, f64)>> = BTreeMap::new();
+        // Why a value doubted only for an asymmetric input is sampled all the same.
+        let mut not_exact: FxHashMap<Key, String> = FxHashMap::default();
         for key in &only_skew {
             let Some(e) = self.entries.get(key) else {
                 continue;
             };
-            if e.deps
+            if let Some(d) = e
+                .deps
                 .iter()
-                .any(|d| d != key && sampled_otherwise.contains(d))
+                .filter(|d| *d != key && sampled_otherwise.contains(d))
+                .min()
             {
+                not_exact.insert(
+                    *key,
+                    format!(
+                        "it rests on {}, sampled for another reason",
+                        self.key_name(*d)
+                    ),
+                );
                 continue;
             }
-            if let Some((id, rest)) = self.one_skewed_input(&e.value) {
-                by_input.entry(id).or_default().push((*key, rest));
+            match self.one_skewed_input(&e.value) {
+                Some((id, rest)) => by_input.entry(id).or_default().push((*key, rest)),
+                None => {
+                    let outside: Vec<&str> = e
+                        .value
+                        .grad
+                        .iter()
+                        .filter_map(|(id, _)| self.inputs.get(*id as usize))
+                        .filter(|i| i.shape == Shape::Skewed && !i.inside)
+                        .map(|i| i.label.as_str())
+                        .collect();
+                    if !outside.is_empty() {
+                        not_exact.insert(
+                            *key,
+                            format!(
+                                "the stated distribution of {} reaches past its range",
+                                outside.join(", ")
+                            ),
+                        );
+                    }
+                }
             }
         }
         // The values first order passed, where the system has an asymmetric input: checked
@@ -430,6 +460,15 @@ impl<'m> Derivation<'m> {
             let sides = self.at_sides(&skewed, &focus);
             let exact = self.two_lines_at_sides(&by_input, &skewed, &sides);
             let curved = self.curved(&checked, &skewed, &sides);
+            let resolved: FxHashSet<Key> = exact.iter().map(|(k, _)| *k).collect();
+            for key in by_input.values().flatten().map(|(k, _)| *k) {
+                if !resolved.contains(&key) {
+                    not_exact.insert(
+                        key,
+                        "it does not move one way across the input's two sides, or rests on another asymmetric input too".to_string(),
+                    );
+                }
+            }
             for (key, summary) in exact {
                 if let Some(why) = doubts.remove(&key) {
                     let words = format!("{TWO_LINES}: {why}, so this interval is the median and 16th-84th percentiles of the value with that input at its two sides carried through the formulas exactly (its distribution read as two half-normal lines, Barlow 2003) and the other inputs' first-order spread added; not sampled");
@@ -437,6 +476,12 @@ impl<'m> Derivation<'m> {
                 }
             }
             doubts.extend(curved);
+        }
+        // Say why the exact path was not taken, where it was not.
+        for (key, why_not) in not_exact {
+            if let Some(why) = doubts.get_mut(&key) {
+                why.push_str(&format!(" (not carried exactly: {why_not})"));
+            }
         }
         if doubts.is_empty() {
             return;
