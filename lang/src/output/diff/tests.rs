@@ -1,4 +1,5 @@
 use super::*;
+use crate::model::Form;
 
 /// Hand-computed: a move up from 1.00 (+0.30/-0.10) to 1.50 (+0.20/-0.40) is measured by the
 /// old value's upper side and the new value's lower side: sqrt(0.3² + 0.4²) = 0.5, so the
