@@ -270,3 +270,46 @@ fn a_value_flat_along_an_asymmetric_input_is_sampled() {
     assert!((lin.value - mc.value).abs() < 0.1 * u, "{lin:?} {mc:?}");
     assert!((lin.above - mc.above).abs() < 0.1 * u, "{lin:?} {mc:?}");
 }
+
+/// A symmetric impact parameter whose upper side reaches the grazing region: short of it
+/// the depth fixes Rp/R* whatever b (a slope of 0), past it Rp/R* grows fast. First order
+/// showed `0.1000 ± 0.0025`; the value is now sampled, with the long upper side a Monte
+/// Carlo run gives.
+#[test]
+fn a_transit_that_may_graze_is_sampled() {
+    let src = r#"system "Grazel" {
+  star g {
+    mass = 0.93 +- 0.04 Msun
+    radius = 0.9 +- 0.02 Rsun
+    teff = 5310 +- 80 K
+  }
+  planet b orbits g {
+    period = 5.2 +- 0.0001 d
+    transit_depth = 1.0 +- 0.05 %
+    impact = 0.8 +- 0.2
+  }
+}
+"#;
+    let a = run(src, Options::linear());
+    let k = a.results[0].bodies[1]
+        .get(Qty::RadiusRatio)
+        .expect("a ratio");
+    assert!(
+        k.assumptions
+            .iter()
+            .any(|a| a.starts_with(SAMPLED) && a.contains("may be grazing")),
+        "{:?}",
+        k.assumptions
+    );
+    assert!(k.above > 5.0 * k.below, "{k:?}");
+    // Not grazing within its uncertainty: first order, as before.
+    let far = run(&src.replace("0.8 +- 0.2", "0.3 +- 0.05"), Options::linear());
+    let k = far.results[0].bodies[1]
+        .get(Qty::RadiusRatio)
+        .expect("a ratio");
+    assert!(
+        !k.assumptions.iter().any(|a| a.starts_with(SAMPLED)),
+        "{:?}",
+        k.assumptions
+    );
+}

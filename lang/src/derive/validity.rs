@@ -86,6 +86,7 @@ impl<'m> Derivation<'m> {
     fn doubts(&self) -> (FxHashMap<Key, String>, FxHashSet<Key>) {
         let mut out = FxHashMap::default();
         let mut only_skew = FxHashSet::default();
+        let grazing = self.may_graze();
         for (key, entry) in &self.entries {
             if !self.is_computed(*key, entry)
                 || entry.value.grad.is_empty()
@@ -103,6 +104,16 @@ impl<'m> Derivation<'m> {
                 why.push(format!(
                     "its first-order uncertainty is {:.0}% of the value",
                     (relative * 100.0).min(999.0)
+                ));
+            }
+            if let Some(k) = grazing
+                .iter()
+                .find(|k| **k == *key || entry.deps.contains(k))
+            {
+                skew_only = false;
+                why.push(format!(
+                    "the transit may be grazing within the uncertainty of {}.impact, where the depth no longer fixes Rp/R* alone (first order sees no slope along b short of it)",
+                    self.sys.bodies.get(k.0).map_or("?", |b| b.id.as_str())
                 ));
             }
             for (id, share) in entry.value.budget(&self.inputs) {
@@ -130,6 +141,33 @@ impl<'m> Derivation<'m> {
             }
         }
         (out, only_skew)
+    }
+
+    /// The radius ratios solved from a transit's depth and impact parameter where the impact
+    /// parameter's upper side reaches the grazing region, `b + sigma > 1 - Rp/R*`: short of
+    /// it the depth gives `(Rp/R*)^2` whatever `b`, so first order sees no slope along `b`
+    /// and no spread from it, while past it `Rp/R*` grows fast (a kink no slope describes).
+    fn may_graze(&self) -> Vec<Key> {
+        let mut out = Vec::new();
+        for (bi, _) in self.sys.bodies.iter().enumerate() {
+            let ratio = (bi, Qty::RadiusRatio);
+            let Some(k) = self.entries.get(&ratio) else {
+                continue;
+            };
+            let solved = k
+                .rule
+                .and_then(|r| RULES.get(r))
+                .is_some_and(|r| r.id == "depth-impact-radius-ratio");
+            let Some(b) = self.entries.get(&(bi, Qty::Impact)) else {
+                continue;
+            };
+            let (_, above) = b.value.linear_spread(&self.inputs);
+            let edge = 1.0 - k.value.nominal;
+            if solved && b.value.nominal < edge && b.value.nominal + above > edge {
+                out.push(ratio);
+            }
+        }
+        out
     }
 
     /// Values first order passed that rest on an asymmetric input moved in `up` and `down`
