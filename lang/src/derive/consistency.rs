@@ -396,10 +396,8 @@ impl<'m> Derivation<'m> {
                     .written_unit
                     .as_deref()
             })
-            .flatten()
-            .and_then(DisplayUnit::parse)
-            .filter(|u| u.factor > 0.0);
-        written.unwrap_or_else(|| display_unit(key.1, entry.value.nominal))
+            .flatten();
+        summary::written_unit(written, key.1, entry.value.nominal)
     }
 
     fn described(&self, key: Key, entry: &Entry, unit: DisplayUnit) -> String {

@@ -59,6 +59,10 @@ pub const LIMIT_SHARE: f64 = 0.5;
 /// share of its variance.
 type Limited = (Key, f64, f64);
 
+/// Values the exact path may take, by the one asymmetric input each is doubted for, each with
+/// the standard deviation of the rest of its spread.
+type ByInput = BTreeMap<u32, Vec<(Key, f64)>>;
+
 /// How the assumption that a value was given as a limit begins.
 pub const LIMITED: &str = "a limit, not an interval";
 
@@ -297,7 +301,7 @@ impl<'m> Derivation<'m> {
     /// that does not move monotonically, is left out (sampled).
     fn two_lines_at_sides(
         &self,
-        by_input: &BTreeMap<u32, Vec<(Key, f64)>>,
+        by_input: &ByInput,
         moved: &FxHashSet<u32>,
         [up, down]: &[Derivation<'m>; 2],
     ) -> Vec<(Key, value::SampleSummary)> {
@@ -406,34 +410,24 @@ impl<'m> Derivation<'m> {
         out
     }
 
-    /// In first-order mode, sample the system when some derived value cannot be described
-    /// to first order: the doubted values take their intervals from the samples.
-    pub(super) fn sample_where_doubtful(&mut self) {
-        if self.options.propagation != Propagation::Linear {
-            return;
-        }
-        let (mut doubts, only_skew) = self.doubts();
-        let skewed: FxHashSet<u32> = (0u32..)
-            .zip(&self.inputs)
-            .filter(|(_, i)| i.shape == Shape::Skewed)
-            .map(|(id, _)| id)
-            .collect();
-        if doubts.is_empty() && skewed.is_empty() {
-            return;
-        }
-        self.inherit_doubts(&mut doubts);
-        // A value doubted only for one asymmetric input, and resting on no value sampled
-        // for another reason, takes that input's two sides through its formulas exactly:
-        // no sampling for it.
+    /// Of the values doubted only for an asymmetric input (`only_skew`), those the exact
+    /// path may take, by their input with the rest of their spread
+    /// ([`Derivation::one_skewed_input`]), and why each of the others is sampled all the
+    /// same (it rests on a value in `doubts` for another reason, or its input reaches past
+    /// its range).
+    fn exact_candidates(
+        &self,
+        doubts: &FxHashMap<Key, String>,
+        only_skew: &FxHashSet<Key>,
+    ) -> (ByInput, FxHashMap<Key, String>) {
         let sampled_otherwise: FxHashSet<Key> = doubts
             .keys()
             .filter(|k| !only_skew.contains(k))
             .copied()
             .collect();
-        let mut by_input: BTreeMap<u32, Vec<(Key, f64)>> = BTreeMap::new();
-        // Why a value doubted only for an asymmetric input is sampled all the same.
+        let mut by_input: ByInput = BTreeMap::new();
         let mut not_exact: FxHashMap<Key, String> = FxHashMap::default();
-        for key in &only_skew {
+        for key in only_skew {
             let Some(e) = self.entries.get(key) else {
                 continue;
             };
@@ -475,11 +469,34 @@ impl<'m> Derivation<'m> {
                 }
             }
         }
+        (by_input, not_exact)
+    }
+
+    /// In first-order mode, sample the system when some derived value cannot be described
+    /// to first order: the doubted values take their intervals from the samples.
+    pub(super) fn sample_where_doubtful(&mut self) {
+        if self.options.propagation != Propagation::Linear {
+            return;
+        }
+        let (mut doubts, only_skew) = self.doubts();
+        let skewed: FxHashSet<u32> = (0u32..)
+            .zip(&self.inputs)
+            .filter(|(_, i)| i.shape == Shape::Skewed)
+            .map(|(id, _)| id)
+            .collect();
+        if doubts.is_empty() && skewed.is_empty() {
+            return;
+        }
+        self.inherit_doubts(&mut doubts);
+        // A value doubted only for one asymmetric input, and resting on no value sampled
+        // for another reason, takes that input's two sides through its formulas exactly:
+        // no sampling for it.
+        let (by_input, mut not_exact) = self.exact_candidates(&doubts, &only_skew);
         // The values first order passed, where the system has an asymmetric input: checked
         // at its sides for a curvature first order misses. Every such value, not only those
         // whose slopes name the input: at a flat point (a duration at an argument of
         // periastron of 90 deg) the slope is 0 and names nothing.
-        let mut checked: Vec<Key> = if skewed.is_empty() {
+        let checked: Vec<Key> = if skewed.is_empty() {
             Vec::new()
         } else {
             self.entries
@@ -492,7 +509,6 @@ impl<'m> Derivation<'m> {
                 .map(|(k, _)| *k)
                 .collect()
         };
-        checked.sort();
         if !by_input.is_empty() || !checked.is_empty() {
             let focus = self.cone(by_input.values().flatten().map(|(k, _)| k).chain(&checked));
             let sides = self.at_sides(&skewed, &focus);
