@@ -28,11 +28,11 @@
 
 use std::f64::consts::SQRT_2;
 
-fn phi_cdf(z: f64) -> f64 {
+pub(super) fn phi_cdf(z: f64) -> f64 {
     0.5 * libm::erfc(-z / SQRT_2)
 }
 
-fn phi_pdf(z: f64) -> f64 {
+pub(super) fn phi_pdf(z: f64) -> f64 {
     (-0.5 * z * z).exp() / (2.0 * std::f64::consts::PI).sqrt()
 }
 
@@ -122,7 +122,7 @@ pub fn probit(p: f64) -> Option<f64> {
 
 /// The `t` in `[lo, hi]` where the increasing `cdf` reaches `p`: Newton's method with the
 /// density `pdf`, from `start`, a step that would leave the bracket replaced by halving it.
-fn solve(
+pub(super) fn solve(
     cdf: impl Fn(f64) -> f64,
     pdf: impl Fn(f64) -> f64,
     p: f64,
@@ -155,6 +155,21 @@ fn solve(
         t = next;
     }
     t
+}
+
+/// A reference file of percentiles from scipy (`tests/reference/make_*_reference.py`): the
+/// probabilities and the cases, each with its quantiles at them.
+#[cfg(test)]
+pub(super) fn reference(text: &str) -> (Vec<f64>, Vec<serde_json::Value>) {
+    let json: serde_json::Value = serde_json::from_str(text).expect("reference JSON");
+    let ps = json["percentiles"]
+        .as_array()
+        .expect("percentiles")
+        .iter()
+        .filter_map(serde_json::Value::as_f64)
+        .collect();
+    let cases = json["cases"].as_array().expect("cases").clone();
+    (ps, cases)
 }
 
 #[cfg(test)]
@@ -194,18 +209,9 @@ mod tests {
     /// definition, not the closed form): tests/reference/make_two_lines_reference.py.
     #[test]
     fn percentiles_match_scipy_integration() {
-        let json: serde_json::Value =
-            serde_json::from_str(include_str!("../../../tests/reference/two_lines.json"))
-                .expect("reference JSON");
-        let ps: Vec<f64> = json["percentiles"]
-            .as_array()
-            .expect("percentiles")
-            .iter()
-            .filter_map(serde_json::Value::as_f64)
-            .collect();
-        let cases = json["cases"].as_array().expect("cases");
+        let (ps, cases) = reference(include_str!("../../../tests/reference/two_lines.json"));
         assert!(cases.len() >= 8);
-        for case in cases {
+        for case in &cases {
             let num = |k: &str| case[k].as_f64().expect("number");
             let d = TwoLines::new(num("g"), num("above"), num("below"), num("s")).expect("spread");
             let scale = (num("g").abs() * num("above").max(num("below"))).max(num("s"));

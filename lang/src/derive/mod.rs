@@ -22,6 +22,7 @@ mod inputs;
 mod roles;
 mod rounds;
 pub mod rules;
+mod scatter;
 mod select;
 mod set;
 mod slips;
@@ -210,6 +211,8 @@ pub struct Derivation<'m> {
     /// exact first-order distribution's median and percentiles and the words that say so
     /// ([`asymmetric`]): not sampled.
     two_lines: FxHashMap<Key, (value::SampleSummary, String)>,
+    /// The values predicted by a relation and widened by its scatter (see [`scatter`]).
+    widened: FxHashMap<Key, scatter::Widened>,
     /// Labels of declared limits taken at one end of their range rather than spread over it
     /// (for [`validity::bound_where_limited`]; empty in every ordinary run).
     pinned: Pins,
@@ -396,6 +399,7 @@ impl<'m> Derivation<'m> {
             sample_note,
             sampled: None,
             two_lines: FxHashMap::default(),
+            widened: FxHashMap::default(),
             pinned,
             bounded: FxHashMap::default(),
             focus,
@@ -506,6 +510,8 @@ pub fn default_of(q: Qty) -> Option<(f64, &'static str)> {
 mod tests;
 #[cfg(test)]
 mod tests_asymmetric;
+#[cfg(test)]
+mod tests_scatter;
 #[cfg(test)]
 mod tests_slips;
 #[cfg(test)]

@@ -284,24 +284,44 @@ impl Derivation<'_> {
     /// the scatter in log10 of the predicted quantity on the branch of the nominal value.
     fn with_relation_scatter(&mut self, out: Key, value: Value) -> Value {
         let nominal_of = |q: Qty| self.entries.get(&(out.0, q)).map(|e| e.value.nominal);
-        // The branch the prediction was made on, found as the rule found it.
-        let sigma = match out.1 {
+        // The branch the prediction was made on, found as the rule found it, and the mass it
+        // rests on (none where the prediction is the mass).
+        let mass_key = [Qty::Mass, Qty::MinMass]
+            .into_iter()
+            .map(|q| (out.0, q))
+            .find(|k| self.entries.contains_key(k));
+        let found = match out.1 {
             Qty::PredictedMass => nominal_of(Qty::Radius)
                 .and_then(|r| crate::formulas::predicted_mass_earth(r / crate::constants::R_EARTH))
-                .map(|(_, b)| b.sigma / b.s),
-            _ => nominal_of(Qty::Mass)
-                .or_else(|| nominal_of(Qty::MinMass))
-                .and_then(|m| {
-                    crate::formulas::predicted_radius_earth(m / crate::constants::M_EARTH)
+                .map(|(_, b)| (b.sigma / b.s, b, None)),
+            _ => mass_key
+                .and_then(|k| self.entries.get(&k))
+                .and_then(|e| {
+                    crate::formulas::predicted_radius_earth(
+                        e.value.nominal / crate::constants::M_EARTH,
+                    )
                 })
-                .map(|(_, b)| b.sigma),
+                .map(|(_, b)| (b.sigma, b, mass_key)),
         };
-        let Some(sigma) = sigma.filter(|s| s.is_finite() && *s > 0.0) else {
+        let Some((sigma, branch, mass)) = found.filter(|(s, _, _)| s.is_finite() && *s > 0.0)
+        else {
             return value;
         };
         let body = self.sys.bodies.get(out.0).map_or("?", |b| b.id.as_str());
         let label = format!("{body}.{} scatter", quantities::def(out.1).name);
         let z = self.unit_normal(label);
+        if let Some(&(input, _)) = z.grad.first() {
+            self.widened.insert(
+                out,
+                super::scatter::Widened {
+                    input,
+                    sigma_dex: sigma,
+                    from: branch.from * crate::constants::M_EARTH,
+                    to: branch.to * crate::constants::M_EARTH,
+                    mass,
+                },
+            );
+        }
         let widen = move |x: &[f64]| match x {
             [v, z] => Some(v * 10f64.powf(z * sigma)),
             _ => None,

@@ -72,6 +72,18 @@ pub const SAMPLED: &str = "sampled, not first-order";
 /// How the assumption that a value's interval keeps an asymmetric input's two sides begins.
 pub const TWO_LINES: &str = "first order with an asymmetric input's distribution kept";
 
+/// How the assumption that a prediction's interval keeps its relation's log-normal scatter
+/// begins (see [`super::scatter`]).
+pub const SCATTER_KEPT: &str = "first order with the relation's log-normal scatter kept";
+
+/// Whether an assumption says how one value's interval was found in place of first order
+/// (sampled, or a distribution kept exactly): a note of that value, not of the system.
+pub fn is_interval_note(a: &str) -> bool {
+    [SAMPLED, TWO_LINES, SCATTER_KEPT]
+        .iter()
+        .any(|p| a.starts_with(p))
+}
+
 /// Whether a value of a first-order analysis was sampled instead (see the module doc).
 pub fn was_sampled(q: &QuantityResult) -> bool {
     q.assumptions.iter().any(|a| a.starts_with(SAMPLED))
@@ -85,11 +97,13 @@ pub(super) struct Sampled<'m> {
 }
 
 impl<'m> Derivation<'m> {
-    /// Derived values whose first-order interval cannot be trusted, each with why, and those
-    /// of them doubted only for asymmetric inputs.
-    fn doubts(&self) -> (FxHashMap<Key, String>, FxHashSet<Key>) {
+    /// Derived values whose first-order interval cannot be trusted, each with why; those of
+    /// them doubted only for asymmetric inputs; and those doubted only for the size of their
+    /// uncertainty.
+    fn doubts(&self) -> (FxHashMap<Key, String>, FxHashSet<Key>, FxHashSet<Key>) {
         let mut out = FxHashMap::default();
         let mut only_skew = FxHashSet::default();
+        let mut only_size = FxHashSet::default();
         let grazing = self.may_graze();
         for (key, entry) in &self.entries {
             if !self.is_computed(*key, entry)
@@ -103,7 +117,8 @@ impl<'m> Derivation<'m> {
             let relative = lo.max(hi) / size.max(f64::MIN_POSITIVE);
             let mut why = Vec::new();
             let mut skew_only = true;
-            if relative > RELATIVE_LIMIT && ratio_scale(key.1) {
+            let too_wide = relative > RELATIVE_LIMIT && ratio_scale(key.1);
+            if too_wide {
                 skew_only = false;
                 why.push(format!(
                     "its first-order uncertainty is {:.0}% of the value",
@@ -138,13 +153,15 @@ impl<'m> Derivation<'m> {
                 why.push(format!("{} {what}", input.label));
             }
             if !why.is_empty() {
-                out.insert(*key, why.join("; "));
                 if skew_only {
                     only_skew.insert(*key);
+                } else if too_wide && why.len() == 1 {
+                    only_size.insert(*key);
                 }
+                out.insert(*key, why.join("; "));
             }
         }
-        (out, only_skew)
+        (out, only_skew, only_size)
     }
 
     /// The radius ratios solved from a transit's depth and impact parameter where the impact
@@ -478,7 +495,7 @@ impl<'m> Derivation<'m> {
         if self.options.propagation != Propagation::Linear {
             return;
         }
-        let (mut doubts, only_skew) = self.doubts();
+        let (mut doubts, only_skew, only_size) = self.doubts();
         let skewed: FxHashSet<u32> = (0u32..)
             .zip(&self.inputs)
             .filter(|(_, i)| i.shape == Shape::Skewed)
@@ -488,10 +505,14 @@ impl<'m> Derivation<'m> {
             return;
         }
         self.inherit_doubts(&mut doubts);
+        // A prediction doubted only for its relation's wide scatter takes that scatter's
+        // log-normal exactly: no sampling for it.
+        let not_widened = self.scatter_exactly(&mut doubts, &only_size);
         // A value doubted only for one asymmetric input, and resting on no value sampled
         // for another reason, takes that input's two sides through its formulas exactly:
         // no sampling for it.
         let (by_input, mut not_exact) = self.exact_candidates(&doubts, &only_skew);
+        not_exact.extend(not_widened);
         // The values first order passed, where the system has an asymmetric input: checked
         // at its sides for a curvature first order misses. Every such value, not only those
         // whose slopes name the input: at a flat point (a duration at an argument of

@@ -321,9 +321,7 @@ pub fn cell<'a>(a: &'a Analysis, file: &'a str, row: Row, column: &Column) -> Ce
             for (body, id) in [(planet, name(row.planet)), (host, name(row.host))] {
                 for q in body.iter().flat_map(|b| &b.quantities) {
                     for a in &q.assumptions {
-                        if a.starts_with(crate::derive::validity::SAMPLED)
-                            || a.starts_with(crate::derive::validity::TWO_LINES)
-                        {
+                        if crate::derive::validity::is_interval_note(a) {
                             let qname = quantities::def(q.qty).name;
                             assumed.insert(format!("{id}.{qname}: {a}").into());
                         } else {

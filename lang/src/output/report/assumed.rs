@@ -66,9 +66,7 @@ fn body_lines(res: &SystemResult, i: usize) -> Vec<String> {
     let mut of_values: Vec<(&str, &str)> = Vec::new();
     for q in &r.quantities {
         for a in &q.assumptions {
-            if a.starts_with(crate::derive::validity::SAMPLED)
-                || a.starts_with(crate::derive::validity::TWO_LINES)
-            {
+            if crate::derive::validity::is_interval_note(a) {
                 of_values.push((crate::quantities::def(q.qty).name, a));
             } else {
                 plain.push(a.clone());
