@@ -8,7 +8,7 @@
 //! `g D(u) + s w`, `w` another standard normal. (The engine takes the value's moves to the
 //! input's two sides through its formulas, `y(v + a) - y0` and `y0 - y(v - b)`, in place of
 //! `g a` and `g b`: exact for a monotone formula of that input alone; see
-//! `validity::two_lines_at_sides`.) Its distribution function follows in closed
+//! [`Derivation::two_lines_at_sides`], below.) Its distribution function follows in closed
 //! form from Owen's T function (Owen 1956, Ann. Math. Statist. 27, 1075; the skew-normal
 //! distribution function `Phi(k) - 2 T(k, alpha)` of Azzalini 1985): for `g > 0`, with
 //! `sa = sqrt((g a)^2 + s^2)` and `sb = sqrt((g b)^2 + s^2)`,
@@ -27,6 +27,12 @@
 //! percentiles from a numerical integration in scipy (`tests/reference/two_lines.py`).
 
 use std::f64::consts::SQRT_2;
+
+use rustc_hash::{FxHashMap, FxHashSet};
+
+use super::validity::{ByInput, SHARE_LIMIT};
+use super::value::{self, Shape, Value};
+use super::{Derivation, Key, Options, PinAt, Pins, Propagation};
 
 pub(super) fn phi_cdf(z: f64) -> f64 {
     0.5 * libm::erfc(-z / SQRT_2)
@@ -155,6 +161,125 @@ pub(super) fn solve(
         t = next;
     }
     t
+}
+
+impl<'m> Derivation<'m> {
+    /// The one input a value is doubted for, if it is doubted only for one strongly
+    /// asymmetric input whose stated distribution lies inside its range: that input's id and
+    /// the standard deviation of the rest of the value's first-order spread (every other
+    /// input, each by the mean of its two sides, as the error budget counts it). `None`
+    /// when a second input is not normal and gives at least [`SHARE_LIMIT`] of the variance
+    /// (two asymmetric inputs, a limit, an angle over a full turn), where only sampling
+    /// describes the value.
+    pub(super) fn one_skewed_input(&self, v: &Value) -> Option<(u32, f64)> {
+        let shares: FxHashMap<u32, f64> = v.budget(&self.inputs).into_iter().collect();
+        let mut skewed: Option<u32> = None;
+        let mut rest = 0.0;
+        for &(id, g) in &v.grad {
+            let input = self.inputs.get(id as usize)?;
+            if g == 0.0 {
+                continue;
+            }
+            let share = shares.get(&id).copied().unwrap_or(0.0);
+            match input.shape {
+                Shape::Skewed if share >= SHARE_LIMIT => {
+                    if skewed.is_some() || !input.inside() {
+                        return None;
+                    }
+                    skewed = Some(id);
+                }
+                Shape::Uniform if share >= SHARE_LIMIT => return None,
+                _ => rest += (g * (input.below + input.above) / 2.0).powi(2),
+            }
+        }
+        Some((skewed?, rest.sqrt()))
+    }
+
+    /// The system evaluated again, to first order, for the values of `focus`, with every
+    /// input of `ids` at its value plus its uncertainty above, and once more at its value
+    /// less its uncertainty below: two runs, however many inputs (a system of many planets
+    /// each with an asymmetric input costs what one does).
+    pub(super) fn at_sides(
+        &self,
+        ids: &FxHashSet<u32>,
+        focus: &FxHashSet<Key>,
+    ) -> [Derivation<'m>; 2] {
+        let options = Options {
+            propagation: Propagation::Linear,
+            ..self.options.clone()
+        };
+        [PinAt::Above, PinAt::Below].map(|side| {
+            let pins: Pins = ids
+                .iter()
+                .filter_map(|id| self.inputs.get(*id as usize))
+                .map(|i| (i.label.clone(), side))
+                .collect();
+            Derivation::run_pinned(self.sys, &options, self.lines, pins, Some(focus.clone()))
+        })
+    }
+
+    /// For values each doubted only for one input ([`Derivation::one_skewed_input`]), by
+    /// input, each with the rest of its spread: their intervals with the input's two sides
+    /// carried through the formulas exactly, from the runs `up` and `down` with the inputs
+    /// `moved` at their sides ([`Derivation::at_sides`]). A value that moves monotonically
+    /// through them is `y0 + (y(+) - y0) u` for `u > 0` and `y0 - (y(-) - y0) u` for `u < 0`
+    /// along its input's two half-normal lines (exact for the input alone: a monotone formula
+    /// carries its percentiles to the value's), plus the rest's normal spread
+    /// ([`super::asymmetric`]). A value that also rests on another of the inputs moved, or
+    /// that does not move monotonically, is left out (sampled).
+    pub(super) fn two_lines_at_sides(
+        &self,
+        by_input: &ByInput,
+        moved: &FxHashSet<u32>,
+        [up, down]: &[Derivation<'m>; 2],
+    ) -> Vec<(Key, value::SampleSummary)> {
+        let keys: Vec<(Key, f64)> = by_input
+            .iter()
+            .flat_map(|(id, keys)| keys.iter().map(move |k| (*id, *k)))
+            .filter(|(id, (key, _))| {
+                // Moved by its own input alone.
+                self.entries.get(key).is_some_and(|e| {
+                    e.value
+                        .grad
+                        .iter()
+                        .all(|(other, g)| other == id || *g == 0.0 || !moved.contains(other))
+                })
+            })
+            .map(|(_, k)| k)
+            .collect();
+        let mut out = Vec::new();
+        for (key, rest) in keys {
+            let nominal = |d: &Derivation| d.entries.get(&key).map(|e| e.value.nominal);
+            let (Some(y0), Some(hi), Some(lo)) = (nominal(self), nominal(up), nominal(down)) else {
+                continue;
+            };
+            let (du, dd) = (hi - y0, lo - y0);
+            let lines = if du >= 0.0 && dd <= 0.0 {
+                TwoLines::new(1.0, du, -dd, rest)
+            } else if du <= 0.0 && dd >= 0.0 {
+                TwoLines::new(-1.0, -du, dd, rest)
+            } else {
+                None
+            };
+            let Some(d) = lines else { continue };
+            let at = |p: f64| d.quantile(p).map(|t| y0 + t);
+            if let (Some(median), Some(low), Some(high)) =
+                (at(0.5), at(value::P_LOW), at(value::P_HIGH))
+            {
+                out.push((
+                    key,
+                    value::SampleSummary {
+                        median,
+                        low,
+                        high,
+                        finite: 1.0,
+                        precision: None,
+                    },
+                ));
+            }
+        }
+        out
+    }
 }
 
 /// A reference file of percentiles from scipy (`tests/reference/make_*_reference.py`): the

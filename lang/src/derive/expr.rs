@@ -321,8 +321,13 @@ impl<'m> Derivation<'m> {
                 .inputs
                 .get(id as usize)
                 .map_or("", |i| i.label.as_str());
-            let seed = value::stable_hash(&[&self.sys.name, label], self.options.seed);
-            value::draw(m, f64::NEG_INFINITY, f64::INFINITY, n, seed)
+            match &self.grid {
+                Some(grid) => grid.column(label, m.value),
+                None => {
+                    let seed = value::stable_hash(&[&self.sys.name, label], self.options.seed);
+                    value::draw(m, f64::NEG_INFINITY, f64::INFINITY, n, seed)
+                }
+            }
         })
     }
 

@@ -74,7 +74,7 @@ impl<'m> Derivation<'m> {
         if let Some(at) = self.pinned.get(&label) {
             // A limit evaluated at one end of its range (see
             // `validity::bound_where_limited`), a measurement at one of its sides (see
-            // `validity::two_lines_at_sides`).
+            // `asymmetric.rs`, `two_lines_at_sides`).
             let v = match (at, m.form) {
                 (super::PinAt::OtherEnd, Form::UpperLimit) => Some(lo),
                 (super::PinAt::OtherEnd, Form::LowerLimit) => Some(hi),
@@ -110,10 +110,14 @@ impl<'m> Derivation<'m> {
         };
         let n = self.n();
         // Each input's draws come from its own seed, so leaving some out changes no other.
-        let samples = (n > 0 && key.is_none_or(|k| self.wants_samples(k))).then(|| {
-            let seed = value::stable_hash(&[&self.sys.name, &label], self.options.seed);
-            value::draw(m, lo, hi, n, seed)
-        });
+        let samples =
+            (n > 0 && key.is_none_or(|k| self.wants_samples(k))).then(|| match &self.grid {
+                Some(grid) => grid.column(&label, nominal),
+                None => {
+                    let seed = value::stable_hash(&[&self.sys.name, &label], self.options.seed);
+                    value::draw(m, lo, hi, n, seed)
+                }
+            });
         let shape = if m.form.is_limit() {
             value::Shape::Uniform
         } else if below.max(above) >= SKEWED_RATIO * (1.0 - RATIO_TOLERANCE) * below.min(above) {
@@ -121,16 +125,16 @@ impl<'m> Derivation<'m> {
         } else {
             value::Shape::Normal
         };
-        // All but 1e-3 of its stated distribution inside the quantity's range.
-        let inside = super::truncation::truncation(m, lo, hi)
-            .is_none_or(|(under, over, _)| under + over < 1e-3);
+        // The share of its stated distribution outside the quantity's range.
+        let outside =
+            super::truncation::truncation(m, lo, hi).map_or(0.0, |(under, over, _)| under + over);
         self.inputs.push(InputInfo {
             label,
             below,
             above,
             shape,
             limit: None,
-            inside,
+            outside,
         });
         let exact = below == 0.0 && above == 0.0;
         Value {

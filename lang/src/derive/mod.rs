@@ -29,6 +29,7 @@ mod slips;
 pub mod sources;
 mod summary;
 pub mod truncation;
+mod turn;
 pub mod validity;
 pub mod value;
 
@@ -224,6 +225,8 @@ pub struct Derivation<'m> {
     focus: Option<FxHashSet<Key>>,
     /// Draw samples for every input, even those no value of the focus rests on.
     draw_all: bool,
+    /// Deterministic columns in place of random draws (see [`turn`]).
+    grid: Option<turn::Grid>,
     /// Rules whose inputs were all known but which gave no value for them (outside their
     /// formula's domain: durations that admit no impact parameter), with those inputs: the
     /// measurements they leave unused say why.
@@ -352,7 +355,7 @@ impl<'m> Derivation<'m> {
         pinned: Pins,
         focus: Option<FxHashSet<Key>>,
     ) -> Derivation<'m> {
-        let d = Derivation::run_drawing(sys, options, lines, pinned, focus, false);
+        let d = Derivation::run_drawing(sys, options, lines, pinned, focus, false, None);
         let unsampled = d.n() > 0
             && d.focus
                 .iter()
@@ -362,7 +365,7 @@ impl<'m> Derivation<'m> {
             return d;
         }
         let Derivation { pinned, focus, .. } = d;
-        Derivation::run_drawing(sys, options, lines, pinned, focus, true)
+        Derivation::run_drawing(sys, options, lines, pinned, focus, true, None)
     }
 
     /// [`Derivation::run_pinned`], drawing every input if `draw_all`.
@@ -373,6 +376,7 @@ impl<'m> Derivation<'m> {
         pinned: Pins,
         focus: Option<FxHashSet<Key>>,
         draw_all: bool,
+        grid: Option<turn::Grid>,
     ) -> Derivation<'m> {
         let mut options = options.clone();
         let mut sample_note = None;
@@ -404,6 +408,7 @@ impl<'m> Derivation<'m> {
             bounded: FxHashMap::default(),
             focus,
             draw_all,
+            grid,
             no_solution: Vec::new(),
             fed: FxHashSet::default(),
         };
@@ -516,3 +521,5 @@ mod tests_scatter;
 mod tests_slips;
 #[cfg(test)]
 mod tests_sources;
+#[cfg(test)]
+mod tests_turn;

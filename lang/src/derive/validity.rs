@@ -59,9 +59,22 @@ pub const LIMIT_SHARE: f64 = 0.5;
 /// share of its variance.
 type Limited = (Key, f64, f64);
 
+/// The derived values first order cannot describe ([`Derivation::doubts`]).
+struct Doubted {
+    /// Each with why, in words.
+    why: FxHashMap<Key, String>,
+    /// Those doubted only for asymmetric inputs.
+    only_skew: FxHashSet<Key>,
+    /// Those doubted only for the size of their uncertainty.
+    only_size: FxHashSet<Key>,
+    /// Those doubted only for one angle spread over a full turn (an orbit's unknown
+    /// orientation), with that input (the width it gives them aside).
+    only_turn: FxHashMap<Key, u32>,
+}
+
 /// Values the exact path may take, by the one asymmetric input each is doubted for, each with
 /// the standard deviation of the rest of its spread.
-type ByInput = BTreeMap<u32, Vec<(Key, f64)>>;
+pub(super) type ByInput = BTreeMap<u32, Vec<(Key, f64)>>;
 
 /// How the assumption that a value was given as a limit begins.
 pub const LIMITED: &str = "a limit, not an interval";
@@ -76,10 +89,14 @@ pub const TWO_LINES: &str = "first order with an asymmetric input's distribution
 /// begins (see [`super::scatter`]).
 pub const SCATTER_KEPT: &str = "first order with the relation's log-normal scatter kept";
 
+/// How the assumption that a value's interval was integrated over an orbit's unknown
+/// orientation begins (see [`super::turn`]).
+pub const TURN_KEPT: &str = "first order at every orientation of the orbit";
+
 /// Whether an assumption says how one value's interval was found in place of first order
 /// (sampled, or a distribution kept exactly): a note of that value, not of the system.
 pub fn is_interval_note(a: &str) -> bool {
-    [SAMPLED, TWO_LINES, SCATTER_KEPT]
+    [SAMPLED, TWO_LINES, SCATTER_KEPT, TURN_KEPT]
         .iter()
         .any(|p| a.starts_with(p))
 }
@@ -97,13 +114,13 @@ pub(super) struct Sampled<'m> {
 }
 
 impl<'m> Derivation<'m> {
-    /// Derived values whose first-order interval cannot be trusted, each with why; those of
-    /// them doubted only for asymmetric inputs; and those doubted only for the size of their
-    /// uncertainty.
-    fn doubts(&self) -> (FxHashMap<Key, String>, FxHashSet<Key>, FxHashSet<Key>) {
+    /// Derived values whose first-order interval cannot be trusted, each with why, and which
+    /// of them have one reason of a kind an exact path may answer.
+    fn doubts(&self) -> Doubted {
         let mut out = FxHashMap::default();
         let mut only_skew = FxHashSet::default();
         let mut only_size = FxHashSet::default();
+        let mut only_turn = FxHashMap::default();
         let grazing = self.may_graze();
         for (key, entry) in &self.entries {
             if !self.is_computed(*key, entry)
@@ -117,6 +134,7 @@ impl<'m> Derivation<'m> {
             let relative = lo.max(hi) / size.max(f64::MIN_POSITIVE);
             let mut why = Vec::new();
             let mut skew_only = true;
+            let mut uniform = Vec::new();
             let too_wide = relative > RELATIVE_LIMIT && ratio_scale(key.1);
             if too_wide {
                 skew_only = false;
@@ -146,6 +164,7 @@ impl<'m> Derivation<'m> {
                     Shape::Normal => continue,
                     Shape::Uniform => {
                         skew_only = false;
+                        uniform.push((id, input.limit.is_none()));
                         "is spread uniformly (a limit or an unknown angle)"
                     }
                     Shape::Skewed => "has a strongly asymmetric uncertainty",
@@ -157,11 +176,37 @@ impl<'m> Derivation<'m> {
                     only_skew.insert(*key);
                 } else if too_wide && why.len() == 1 {
                     only_size.insert(*key);
+                } else if let [(id, true)] = uniform.as_slice() {
+                    // An unknown orientation (no declared limit) alone, or with a width that
+                    // is its own: the rest of the spread is within the limit.
+                    let rest_narrow = || {
+                        let rest = Value {
+                            nominal: entry.value.nominal,
+                            grad: entry
+                                .value
+                                .grad
+                                .iter()
+                                .filter(|(i, _)| i != id)
+                                .copied()
+                                .collect(),
+                            samples: None,
+                        };
+                        let (lo, hi) = rest.linear_spread(&self.inputs);
+                        lo.max(hi) <= RELATIVE_LIMIT * size
+                    };
+                    if why.len() == 1 || (why.len() == 2 && too_wide && rest_narrow()) {
+                        only_turn.insert(*key, *id);
+                    }
                 }
                 out.insert(*key, why.join("; "));
             }
         }
-        (out, only_skew, only_size)
+        Doubted {
+            why: out,
+            only_skew,
+            only_size,
+            only_turn,
+        }
     }
 
     /// The radius ratios solved from a transit's depth and impact parameter where the impact
@@ -257,119 +302,6 @@ impl<'m> Derivation<'m> {
         out
     }
 
-    /// The one input a value is doubted for, if it is doubted only for one strongly
-    /// asymmetric input whose stated distribution lies inside its range: that input's id and
-    /// the standard deviation of the rest of the value's first-order spread (every other
-    /// input, each by the mean of its two sides, as the error budget counts it). `None`
-    /// when a second input is not normal and gives at least [`SHARE_LIMIT`] of the variance
-    /// (two asymmetric inputs, a limit, an angle over a full turn), where only sampling
-    /// describes the value.
-    fn one_skewed_input(&self, v: &Value) -> Option<(u32, f64)> {
-        let shares: FxHashMap<u32, f64> = v.budget(&self.inputs).into_iter().collect();
-        let mut skewed: Option<u32> = None;
-        let mut rest = 0.0;
-        for &(id, g) in &v.grad {
-            let input = self.inputs.get(id as usize)?;
-            if g == 0.0 {
-                continue;
-            }
-            let share = shares.get(&id).copied().unwrap_or(0.0);
-            match input.shape {
-                Shape::Skewed if share >= SHARE_LIMIT => {
-                    if skewed.is_some() || !input.inside {
-                        return None;
-                    }
-                    skewed = Some(id);
-                }
-                Shape::Uniform if share >= SHARE_LIMIT => return None,
-                _ => rest += (g * (input.below + input.above) / 2.0).powi(2),
-            }
-        }
-        Some((skewed?, rest.sqrt()))
-    }
-
-    /// The system evaluated again, to first order, for the values of `focus`, with every
-    /// input of `ids` at its value plus its uncertainty above, and once more at its value
-    /// less its uncertainty below: two runs, however many inputs (a system of many planets
-    /// each with an asymmetric input costs what one does).
-    fn at_sides(&self, ids: &FxHashSet<u32>, focus: &FxHashSet<Key>) -> [Derivation<'m>; 2] {
-        let options = Options {
-            propagation: Propagation::Linear,
-            ..self.options.clone()
-        };
-        [PinAt::Above, PinAt::Below].map(|side| {
-            let pins: Pins = ids
-                .iter()
-                .filter_map(|id| self.inputs.get(*id as usize))
-                .map(|i| (i.label.clone(), side))
-                .collect();
-            Derivation::run_pinned(self.sys, &options, self.lines, pins, Some(focus.clone()))
-        })
-    }
-
-    /// For values each doubted only for one input ([`Derivation::one_skewed_input`]), by
-    /// input, each with the rest of its spread: their intervals with the input's two sides
-    /// carried through the formulas exactly, from the runs `up` and `down` with the inputs
-    /// `moved` at their sides ([`Derivation::at_sides`]). A value that moves monotonically
-    /// through them is `y0 + (y(+) - y0) u` for `u > 0` and `y0 - (y(-) - y0) u` for `u < 0`
-    /// along its input's two half-normal lines (exact for the input alone: a monotone formula
-    /// carries its percentiles to the value's), plus the rest's normal spread
-    /// ([`super::asymmetric`]). A value that also rests on another of the inputs moved, or
-    /// that does not move monotonically, is left out (sampled).
-    fn two_lines_at_sides(
-        &self,
-        by_input: &ByInput,
-        moved: &FxHashSet<u32>,
-        [up, down]: &[Derivation<'m>; 2],
-    ) -> Vec<(Key, value::SampleSummary)> {
-        let keys: Vec<(Key, f64)> = by_input
-            .iter()
-            .flat_map(|(id, keys)| keys.iter().map(move |k| (*id, *k)))
-            .filter(|(id, (key, _))| {
-                // Moved by its own input alone.
-                self.entries.get(key).is_some_and(|e| {
-                    e.value
-                        .grad
-                        .iter()
-                        .all(|(other, g)| other == id || *g == 0.0 || !moved.contains(other))
-                })
-            })
-            .map(|(_, k)| k)
-            .collect();
-        let mut out = Vec::new();
-        for (key, rest) in keys {
-            let nominal = |d: &Derivation| d.entries.get(&key).map(|e| e.value.nominal);
-            let (Some(y0), Some(hi), Some(lo)) = (nominal(self), nominal(up), nominal(down)) else {
-                continue;
-            };
-            let (du, dd) = (hi - y0, lo - y0);
-            let lines = if du >= 0.0 && dd <= 0.0 {
-                super::asymmetric::TwoLines::new(1.0, du, -dd, rest)
-            } else if du <= 0.0 && dd >= 0.0 {
-                super::asymmetric::TwoLines::new(-1.0, -du, dd, rest)
-            } else {
-                None
-            };
-            let Some(d) = lines else { continue };
-            let at = |p: f64| d.quantile(p).map(|t| y0 + t);
-            if let (Some(median), Some(low), Some(high)) =
-                (at(0.5), at(value::P_LOW), at(value::P_HIGH))
-            {
-                out.push((
-                    key,
-                    value::SampleSummary {
-                        median,
-                        low,
-                        high,
-                        finite: 1.0,
-                        precision: None,
-                    },
-                ));
-            }
-        }
-        out
-    }
-
     /// Whether a value is computed from others: derived or predicted by a rule, or declared
     /// as an expression (`radius = k * s.radius` propagates `k` and `s.radius` as a rule
     /// would, and first order may describe it as badly).
@@ -416,7 +348,7 @@ impl<'m> Derivation<'m> {
     }
 
     /// `keys` and every key their values rest on.
-    fn cone<'k>(&self, keys: impl Iterator<Item = &'k Key>) -> FxHashSet<Key> {
+    pub(super) fn cone<'k>(&self, keys: impl Iterator<Item = &'k Key>) -> FxHashSet<Key> {
         let mut out = FxHashSet::default();
         for k in keys {
             out.insert(*k);
@@ -471,7 +403,7 @@ impl<'m> Derivation<'m> {
                         .grad
                         .iter()
                         .filter_map(|(id, _)| self.inputs.get(*id as usize))
-                        .filter(|i| i.shape == Shape::Skewed && !i.inside)
+                        .filter(|i| i.shape == Shape::Skewed && !i.inside())
                         .map(|i| i.label.as_str())
                         .collect();
                     if !outside.is_empty() {
@@ -495,7 +427,12 @@ impl<'m> Derivation<'m> {
         if self.options.propagation != Propagation::Linear {
             return;
         }
-        let (mut doubts, only_skew, only_size) = self.doubts();
+        let Doubted {
+            why: mut doubts,
+            only_skew,
+            only_size,
+            only_turn,
+        } = self.doubts();
         let skewed: FxHashSet<u32> = (0u32..)
             .zip(&self.inputs)
             .filter(|(_, i)| i.shape == Shape::Skewed)
@@ -508,11 +445,14 @@ impl<'m> Derivation<'m> {
         // A prediction doubted only for its relation's wide scatter takes that scatter's
         // log-normal exactly: no sampling for it.
         let not_widened = self.scatter_exactly(&mut doubts, &only_size);
+        // A value doubted only for an orbit's unknown orientation is integrated over it.
+        let not_turned = self.turn_exactly(&mut doubts, &only_turn, &only_skew);
         // A value doubted only for one asymmetric input, and resting on no value sampled
         // for another reason, takes that input's two sides through its formulas exactly:
         // no sampling for it.
         let (by_input, mut not_exact) = self.exact_candidates(&doubts, &only_skew);
         not_exact.extend(not_widened);
+        not_exact.extend(not_turned);
         // The values first order passed, where the system has an asymmetric input: checked
         // at its sides for a curvature first order misses. Every such value, not only those
         // whose slopes name the input: at a flat point (a duration at an argument of

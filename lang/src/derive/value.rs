@@ -27,10 +27,9 @@ pub struct InputInfo {
     pub shape: Shape,
     /// For a declared limit: its form and the limit itself (SI).
     pub limit: Option<(crate::model::Form, f64)>,
-    /// Whether its stated distribution lies inside its quantity's range (all but 1e-3 of
-    /// it): where it does not, samples are kept inside, and no formula of the stated
-    /// distribution describes them.
-    pub inside: bool,
+    /// The share of its stated distribution outside its quantity's range (samples are kept
+    /// inside, and no formula of the stated distribution describes them).
+    pub outside: f64,
 }
 
 /// An input's distribution, as far as first-order propagation is concerned: only a normal
@@ -46,6 +45,11 @@ pub enum Shape {
 }
 
 impl InputInfo {
+    /// Whether its stated distribution lies inside its quantity's range: all but 1e-3 of it.
+    pub fn inside(&self) -> bool {
+        self.outside < 1e-3
+    }
+
     fn sigma_for(&self, derivative: f64, side_above: bool) -> f64 {
         // A positive derivative maps the input's upper side onto the output's upper side.
         let up = (derivative >= 0.0) == side_above;
@@ -436,7 +440,7 @@ mod tests {
             above: s,
             shape: Shape::Normal,
             limit: None,
-            inside: true,
+            outside: 0.0,
         }
     }
 
