@@ -313,3 +313,42 @@ fn a_transit_that_may_graze_is_sampled() {
         k.assumptions
     );
 }
+
+/// A planet's radius from a lopsided stellar radius (+8 %/-2 %) and a transit depth that is
+/// asymmetric too but gives little of the radius's variance: the two are moved to their sides
+/// in runs of their own (`asymmetric.rs`, `side_groups`), so the star's radius is carried
+/// exactly and the depth joins the normal rest. Moved together, the depth's move made the
+/// radius's unreadable and it was sampled.
+#[test]
+fn a_second_asymmetric_input_of_small_share_does_not_block_the_exact_path() {
+    let src = r#"system "Pellucid" {
+  star p {
+    mass = 1.0 +- 0.03 Msun
+    radius = 1.0 +0.08/-0.02 Rsun
+    teff = 5700 +- 80 K
+  }
+  planet b orbits p {
+    period = 4.2 +- 0.0001 d
+    transit_depth = 0.0100 +0.0002/-0.0001
+    impact = 0.3 +- 0.05
+  }
+}
+"#;
+    let radius = |a: &Analysis| {
+        a.results
+            .first()
+            .and_then(|r| r.bodies.get(1))
+            .and_then(|b| b.get(Qty::Radius))
+            .cloned()
+            .expect("a radius")
+    };
+    let lin = radius(&run(src, Options::linear()));
+    assert!(
+        lin.assumptions
+            .iter()
+            .any(|a| a.starts_with(TWO_LINES) && a.contains("p.radius")),
+        "{:?}",
+        lin.assumptions
+    );
+    agree(&lin, &radius(&run(src, monte_carlo())));
+}

@@ -73,8 +73,17 @@ struct Doubted {
 }
 
 /// Values the exact path may take, by the one asymmetric input each is doubted for, each with
-/// the standard deviation of the rest of its spread.
-pub(super) type ByInput = BTreeMap<u32, Vec<(Key, f64)>>;
+/// the rest of its spread ([`Rest`]).
+pub(super) type ByInput = BTreeMap<u32, Vec<(Key, Rest)>>;
+
+/// The rest of a value's first-order spread beside its one asymmetric input: a normal of
+/// standard deviation `sd` about `shift`, the mean offset of the small asymmetric inputs
+/// folded into it (see [`Derivation::one_skewed_input`]).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub(super) struct Rest {
+    pub sd: f64,
+    pub shift: f64,
+}
 
 /// How the assumption that a value was given as a limit begins.
 pub const LIMITED: &str = "a limit, not an interval";
@@ -472,9 +481,24 @@ impl<'m> Derivation<'m> {
         };
         if !by_input.is_empty() || !checked.is_empty() {
             let focus = self.cone(by_input.values().flatten().map(|(k, _)| k).chain(&checked));
-            let sides = self.at_sides(&skewed, &focus);
-            let exact = self.two_lines_at_sides(&by_input, &skewed, &sides);
-            let curved = self.curved(&checked, &skewed, &sides);
+            // Each group of inputs no value rests on two of is moved in runs of its own, so
+            // that a value's move there is its one input's.
+            let mut exact = Vec::new();
+            let mut curved: Vec<(Key, String)> = Vec::new();
+            for group in self.side_groups(&skewed) {
+                let sides = self.at_sides(&group, &focus);
+                let in_group: ByInput = by_input
+                    .iter()
+                    .filter(|(id, _)| group.contains(id))
+                    .map(|(id, keys)| (*id, keys.clone()))
+                    .collect();
+                exact.extend(self.two_lines_at_sides(&in_group, &group, &sides));
+                for (key, why) in self.curved(&checked, &group, &sides) {
+                    if !curved.iter().any(|(k, _)| *k == key) {
+                        curved.push((key, why));
+                    }
+                }
+            }
             let resolved: FxHashSet<Key> = exact.iter().map(|(k, _)| *k).collect();
             for key in by_input.values().flatten().map(|(k, _)| *k) {
                 if !resolved.contains(&key) {
