@@ -307,6 +307,14 @@ impl Derivation<'_> {
         else {
             return value;
         };
+        // A mass is predicted only up to the largest radius the relation maps to one mass
+        // (11.3 Rearth, below the Neptunian branch's own end): the range ends there.
+        let to = if out.1 == Qty::PredictedMass {
+            let r = crate::formulas::largest_invertible_radius_earth();
+            branch.to.min((r / branch.c).powf(1.0 / branch.s))
+        } else {
+            branch.to
+        };
         let body = self.sys.bodies.get(out.0).map_or("?", |b| b.id.as_str());
         let label = format!("{body}.{} scatter", quantities::def(out.1).name);
         let z = self.unit_normal(label);
@@ -317,7 +325,7 @@ impl Derivation<'_> {
                     input,
                     sigma_dex: sigma,
                     from: branch.from * crate::constants::M_EARTH,
-                    to: branch.to * crate::constants::M_EARTH,
+                    to: to * crate::constants::M_EARTH,
                     mass,
                 },
             );

@@ -48,6 +48,15 @@ pub(super) struct Widened {
     pub mass: Option<super::Key>,
 }
 
+/// Why a prediction near an end of its relation's branch is sampled.
+pub(super) const BRANCH_END: &str = "the mass it is predicted at is within three standard deviations of an end of the relation's branch or range, where the relation bends or stops";
+
+/// A value's first-order standard deviation, its two sides averaged in square.
+fn spread(v: &Value, inputs: &[super::value::InputInfo]) -> f64 {
+    let (lo, hi) = v.linear_spread(inputs);
+    ((lo * lo + hi * hi) / 2.0).sqrt()
+}
+
 /// Nodes of the Gauss-Hermite rule (even: the rule's halves mirror each other).
 pub const NODES: usize = 40;
 const _: () = assert!(NODES.is_multiple_of(2));
@@ -242,6 +251,32 @@ impl super::Derivation<'_> {
         not_exact
     }
 
+    /// The relative first-order spread of the widened prediction `key` without its
+    /// relation's scatter: the spread of the relation's mean at the inputs.
+    fn rest_of_prediction(&self, key: Key) -> Option<f64> {
+        let (w, e) = (self.widened.get(&key)?, self.entries.get(&key)?);
+        let rest = e.value.without(w.input);
+        Some(spread(&rest, &self.inputs) / e.value.nominal)
+    }
+
+    /// Whether the mass a widened prediction is made at (the mass it rests on, or the
+    /// predicted mass without the relation's scatter) lies within three standard deviations
+    /// of an end of the relation's branch or range: there the relation bends or stops, which
+    /// first order does not describe.
+    pub(super) fn near_branch_end(&self, key: Key) -> bool {
+        let (Some(w), Some(e)) = (self.widened.get(&key), self.entries.get(&key)) else {
+            return false;
+        };
+        let (m0, sm) = match w.mass.and_then(|k| self.entries.get(&k)) {
+            Some(m) => (m.value.nominal, spread(&m.value, &self.inputs)),
+            None => (
+                e.value.nominal,
+                spread(&e.value.without(w.input), &self.inputs),
+            ),
+        };
+        !(m0 - 3.0 * sm >= w.from && m0 + 3.0 * sm < w.to)
+    }
+
     /// The exact median and percentiles of the widened prediction `key`, with its scatter in
     /// dex, or why first order cannot describe the rest of its spread.
     fn scattered_interval(
@@ -264,40 +299,15 @@ impl super::Derivation<'_> {
             ));
         }
         let v0 = e.value.nominal;
-        let spread = |v: &Value| {
-            let (lo, hi) = v.linear_spread(&self.inputs);
-            ((lo * lo + hi * hi) / 2.0).sqrt()
-        };
-        // The rest: every input but the scatter, to first order.
-        let rest = Value {
-            nominal: v0,
-            grad: e
-                .value
-                .grad
-                .iter()
-                .filter(|(id, _)| *id != w.input)
-                .copied()
-                .collect(),
-            samples: None,
-        };
-        let rho = spread(&rest) / v0;
+        let rho = self.rest_of_prediction(key).unwrap_or(f64::INFINITY);
         if !(v0 > 0.0 && rho <= RELATIVE_LIMIT) {
             return Err(format!(
                 "the rest of its spread is {:.0}% of it, too wide for first order",
                 (rho * 100.0).min(999.0)
             ));
         }
-        // The mass the prediction rests on, within its branch of the relation: a spread that
-        // reaches the branch's end meets a kink.
-        let (m0, sm) = match w.mass.and_then(|k| self.entries.get(&k)) {
-            Some(m) => (m.value.nominal, spread(&m.value)),
-            None => (v0, rho * v0),
-        };
-        if !(m0 - 3.0 * sm >= w.from && m0 + 3.0 * sm < w.to) {
-            return Err(
-                "the mass it rests on is within three standard deviations of an end of the relation's branch, where the relation has a kink"
-                    .to_string(),
-            );
+        if self.near_branch_end(key) {
+            return Err(BRANCH_END.to_string());
         }
         let d = Scattered::new(rho, w.sigma_dex).ok_or("its scatter is not positive")?;
         let at = |p: f64| d.quantile(p).map(|x| v0 * x);

@@ -536,7 +536,7 @@ fn an_unknown_orientation_is_not_linearised_even_to_first_order() {
         lin.assumptions
             .iter()
             .any(|a| a.starts_with(crate::derive::validity::TURN_KEPT)
-                && a.contains("b.arg_periastron is spread uniformly")),
+                && a.contains("b.arg_periastron is not known: spread uniformly")),
         "{:?}",
         lin.assumptions
     );

@@ -152,6 +152,10 @@ impl<'m> Derivation<'m> {
                     (relative * 100.0).min(999.0)
                 ));
             }
+            if self.near_branch_end(*key) {
+                skew_only = false;
+                why.push(super::scatter::BRANCH_END.to_string());
+            }
             if let Some(k) = grazing
                 .iter()
                 .find(|k| **k == *key || entry.deps.contains(k))
@@ -174,7 +178,11 @@ impl<'m> Derivation<'m> {
                     Shape::Uniform => {
                         skew_only = false;
                         uniform.push((id, input.limit.is_none()));
-                        "is spread uniformly (a limit or an unknown angle)"
+                        if input.limit.is_none() {
+                            "is not known: spread uniformly over a full turn"
+                        } else {
+                            "is a limit, spread uniformly over the range it leaves open"
+                        }
                     }
                     Shape::Skewed => "has a strongly asymmetric uncertainty",
                 };
@@ -189,18 +197,7 @@ impl<'m> Derivation<'m> {
                     // An unknown orientation (no declared limit) alone, or with a width that
                     // is its own: the rest of the spread is within the limit.
                     let rest_narrow = || {
-                        let rest = Value {
-                            nominal: entry.value.nominal,
-                            grad: entry
-                                .value
-                                .grad
-                                .iter()
-                                .filter(|(i, _)| i != id)
-                                .copied()
-                                .collect(),
-                            samples: None,
-                        };
-                        let (lo, hi) = rest.linear_spread(&self.inputs);
+                        let (lo, hi) = entry.value.without(*id).linear_spread(&self.inputs);
                         lo.max(hi) <= RELATIVE_LIMIT * size
                     };
                     if why.len() == 1 || (why.len() == 2 && too_wide && rest_narrow()) {

@@ -66,6 +66,20 @@ pub struct Value {
 }
 
 impl Value {
+    /// The value without its dependence on input `id` (first order: the slope dropped).
+    pub fn without(&self, id: u32) -> Value {
+        Value {
+            nominal: self.nominal,
+            grad: self
+                .grad
+                .iter()
+                .filter(|(i, _)| *i != id)
+                .copied()
+                .collect(),
+            samples: None,
+        }
+    }
+
     pub fn exact(v: f64, n: usize) -> Value {
         Value {
             nominal: v,

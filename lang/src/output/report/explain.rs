@@ -10,7 +10,22 @@ use crate::Analysis;
 /// measurement is never named as what drives it: a declared value gets its own sentence.
 fn improve_line(a: &Analysis, si: usize, key: crate::derive::Key, q: &QuantityResult) -> String {
     let me = a.key_name(si, key);
-    match q.budget.iter().find(|(input, _)| *input != me) {
+    // A relation's intrinsic scatter is not a measurement: no observation reduces it.
+    let scatter = |input: &str| input.ends_with(" scatter");
+    let first = q.budget.iter().find(|(input, _)| *input != me);
+    if let Some((top, _)) = first.filter(|(input, _)| scatter(input)) {
+        let then = q
+            .budget
+            .iter()
+            .find(|(input, _)| *input != me && !scatter(input))
+            .map_or(String::new(), |(m, _)| {
+                format!("; of the measurements, improve {m} first")
+            });
+        return format!(
+            "  the largest part of its uncertainty is the relation's own scatter ({top}), which no measurement reduces{then}\n"
+        );
+    }
+    match first {
         Some((top, _)) => format!("  to improve this value, improve {top} first\n"),
         None if q.origin.is_computed() => String::new(),
         None => format!(
