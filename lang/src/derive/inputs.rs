@@ -135,6 +135,7 @@ impl<'m> Derivation<'m> {
             shape,
             limit: None,
             outside,
+            angle: key.is_some_and(|k| quantities::def(k.1).dim == crate::units::Dimension::ANGLE),
         });
         let exact = below == 0.0 && above == 0.0;
         Value {

@@ -30,6 +30,8 @@ pub struct InputInfo {
     /// The share of its stated distribution outside its quantity's range (samples are kept
     /// inside, and no formula of the stated distribution describes them).
     pub outside: f64,
+    /// Whether it is an angle (an argument of periastron, an inclination).
+    pub angle: bool,
 }
 
 /// An input's distribution, as far as first-order propagation is concerned: only a normal
@@ -455,6 +457,7 @@ mod tests {
             shape: Shape::Normal,
             limit: None,
             outside: 0.0,
+            angle: false,
         }
     }
 
