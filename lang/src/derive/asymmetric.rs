@@ -30,7 +30,7 @@ use std::f64::consts::SQRT_2;
 
 use rustc_hash::{FxHashMap, FxHashSet};
 
-use super::validity::{ByInput, Rest, SHARE_LIMIT};
+use super::validity::{ByInput, Rest, CURVATURE_LIMIT, SHARE_LIMIT};
 use super::value::{self, Shape, Value};
 use super::{Derivation, Key, Options, PinAt, Pins, Propagation};
 
@@ -210,6 +210,75 @@ impl<'m> Derivation<'m> {
                 shift,
             },
         ))
+    }
+
+    /// Values first order passed that rest on an asymmetric input moved in `up` and `down`
+    /// ([`Derivation::at_sides`]), where their moves to the inputs' sides differ from what
+    /// their slopes predict by more than [`CURVATURE_LIMIT`] of their uncertainty (a formula
+    /// flat or turning at the value, as a duration at an argument of periastron of 90 deg
+    /// is, which first order reads as no spread at all), each with why.
+    pub(super) fn curved(
+        &self,
+        keys: &[Key],
+        moved: &FxHashSet<u32>,
+        [up, down]: &[Derivation<'m>; 2],
+    ) -> Vec<(Key, String)> {
+        let mut out = Vec::new();
+        for key in keys {
+            let Some(e) = self.entries.get(key) else {
+                continue;
+            };
+            let v = &e.value;
+            let mut labels: Vec<&str> = Vec::new();
+            let (mut lin_up, mut lin_down) = (0.0, 0.0);
+            for &(id, g) in &v.grad {
+                if let Some(input) = self.inputs.get(id as usize).filter(|_| moved.contains(&id)) {
+                    lin_up += g * input.above;
+                    lin_down -= g * input.below;
+                    labels.push(input.label.as_str());
+                }
+            }
+            let nominal = |d: &Derivation| d.entries.get(key).map(|e| e.value.nominal);
+            let names = if labels.is_empty() {
+                // Flat along them: its slope names none of them, so those of them it rests on
+                // are named (all, if none is among the quantities it rests on).
+                let all: Vec<&str> = moved
+                    .iter()
+                    .filter_map(|id| self.inputs.get(*id as usize))
+                    .map(|i| i.label.as_str())
+                    .collect();
+                let own: FxHashSet<String> = e.deps.iter().map(|d| self.key_name(*d)).collect();
+                let mine: Vec<&str> = all.iter().filter(|l| own.contains(**l)).copied().collect();
+                let mut all = if mine.is_empty() { all } else { mine };
+                all.sort_unstable();
+                all.join(", ")
+            } else {
+                labels.join(", ")
+            };
+            let (Some(hi), Some(lo)) = (nominal(up), nominal(down)) else {
+                out.push((*key, format!("it has no value at a side of {names}")));
+                continue;
+            };
+            let (du, dd) = (hi - v.nominal, lo - v.nominal);
+            let miss = (du - lin_up).abs().max((dd - lin_down).abs());
+            let (below, above) = v.linear_spread(&self.inputs);
+            let sigma = below.max(above);
+            if miss > CURVATURE_LIMIT * sigma && miss > 1e-9 * v.nominal.abs() {
+                let how = if sigma > 0.0 {
+                    format!(
+                        "{:.0}% of its first-order uncertainty",
+                        (100.0 * miss / sigma).min(999.0)
+                    )
+                } else {
+                    "all of it, as its slope there is flat".to_string()
+                };
+                out.push((
+                    *key,
+                    format!("at the two sides of {names} it moves by other amounts than its slope predicts, by {how}"),
+                ));
+            }
+        }
+        out
     }
 
     /// The asymmetric inputs `skewed` in groups, no value resting on two inputs of one group

@@ -294,7 +294,7 @@ impl super::Derivation<'_> {
             .min()
         {
             return Err(format!(
-                "it rests on {}, sampled for another reason",
+                "it rests on {}, which first order cannot describe",
                 self.key_name(*d)
             ));
         }

@@ -22,7 +22,7 @@
 //! values rest on moved to its value plus and less its standard uncertainty: half their
 //! difference is its first-order move at each node, and half their sum less the value its
 //! curvature, which must stay within a tenth of the value's spread (the test
-//! `validity::curved` applies at one orientation). A system of `k` such inputs costs
+//! `Derivation::curved` in `asymmetric.rs` applies at one orientation). A system of `k` such inputs costs
 //! `NODES (2k + 1)` evaluations, a fraction of the 4,000 draws it replaces, and the result has no seed and no sampling noise. The percentiles are found by
 //! Newton's method inside a bracket.
 
@@ -211,7 +211,7 @@ impl Derivation<'_> {
                     not_exact.insert(
                         *key,
                         format!(
-                            "it rests on {}, sampled for another reason",
+                            "it rests on {}, which first order cannot describe",
                             self.key_name(*d)
                         ),
                     );
@@ -334,7 +334,7 @@ impl Derivation<'_> {
                     return (*key, Err(why));
                 }
                 // First order at each orientation: the value's moves to an input's two
-                // sides must match its slope there, as `validity::curved` asks of values at
+                // sides must match its slope there, as `Derivation::curved` asks of values at
                 // one orientation (an inclination from an eccentricity of 0.64 +- 0.15 bends
                 // within it). Over the turn, in the root mean square: the mixture's ends are
                 // made of many orientations.

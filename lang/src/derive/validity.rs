@@ -153,10 +153,14 @@ impl<'m> Derivation<'m> {
             let too_wide = relative > RELATIVE_LIMIT && ratio_scale(key.1);
             if too_wide {
                 skew_only = false;
-                why.push(format!(
-                    "its first-order uncertainty is {:.0}% of the value",
-                    (relative * 100.0).min(999.0)
-                ));
+                why.push(if relative < 10.0 {
+                    format!(
+                        "its first-order uncertainty is {:.0}% of the value",
+                        relative * 100.0
+                    )
+                } else {
+                    "its first-order uncertainty is more than ten times the value".to_string()
+                });
             }
             if self.near_branch_end(*key) {
                 skew_only = false;
@@ -243,72 +247,6 @@ impl<'m> Derivation<'m> {
             let edge = 1.0 - k.value.nominal;
             if solved && b.value.nominal < edge && b.value.nominal + above > edge {
                 out.push(ratio);
-            }
-        }
-        out
-    }
-
-    /// Values first order passed that rest on an asymmetric input moved in `up` and `down`
-    /// ([`Derivation::at_sides`]), where their moves to the inputs' sides differ from what
-    /// their slopes predict by more than [`CURVATURE_LIMIT`] of their uncertainty (a formula
-    /// flat or turning at the value, as a duration at an argument of periastron of 90 deg
-    /// is, which first order reads as no spread at all), each with why.
-    fn curved(
-        &self,
-        keys: &[Key],
-        moved: &FxHashSet<u32>,
-        [up, down]: &[Derivation<'m>; 2],
-    ) -> Vec<(Key, String)> {
-        let mut out = Vec::new();
-        for key in keys {
-            let Some(e) = self.entries.get(key) else {
-                continue;
-            };
-            let v = &e.value;
-            let mut labels: Vec<&str> = Vec::new();
-            let (mut lin_up, mut lin_down) = (0.0, 0.0);
-            for &(id, g) in &v.grad {
-                if let Some(input) = self.inputs.get(id as usize).filter(|_| moved.contains(&id)) {
-                    lin_up += g * input.above;
-                    lin_down -= g * input.below;
-                    labels.push(input.label.as_str());
-                }
-            }
-            let nominal = |d: &Derivation| d.entries.get(key).map(|e| e.value.nominal);
-            let names = if labels.is_empty() {
-                // Flat along them: its slope names none of them, so all are named.
-                let all: Vec<&str> = moved
-                    .iter()
-                    .filter_map(|id| self.inputs.get(*id as usize))
-                    .map(|i| i.label.as_str())
-                    .collect();
-                let mut all = all;
-                all.sort_unstable();
-                all.join(", ")
-            } else {
-                labels.join(", ")
-            };
-            let (Some(hi), Some(lo)) = (nominal(up), nominal(down)) else {
-                out.push((*key, format!("it has no value at a side of {names}")));
-                continue;
-            };
-            let (du, dd) = (hi - v.nominal, lo - v.nominal);
-            let miss = (du - lin_up).abs().max((dd - lin_down).abs());
-            let (below, above) = v.linear_spread(&self.inputs);
-            let sigma = below.max(above);
-            if miss > CURVATURE_LIMIT * sigma && miss > 1e-9 * v.nominal.abs() {
-                let how = if sigma > 0.0 {
-                    format!(
-                        "{:.0}% of its first-order uncertainty",
-                        (100.0 * miss / sigma).min(999.0)
-                    )
-                } else {
-                    "all of it, as its slope there is flat".to_string()
-                };
-                out.push((
-                    *key,
-                    format!("at the two sides of {names} it moves by other amounts than its slope predicts, by {how}"),
-                ));
             }
         }
         out
@@ -463,6 +401,8 @@ impl<'m> Derivation<'m> {
             return;
         }
         self.inherit_doubts(&mut doubts);
+        // Why each value is doubted, before the exact paths take some (see the end).
+        let first_why = doubts.clone();
         // A prediction doubted only for its relation's wide scatter takes that scatter's
         // log-normal exactly: no sampling for it.
         let not_widened = self.scatter_exactly(&mut doubts, &only_size);
@@ -527,6 +467,43 @@ impl<'m> Derivation<'m> {
                 }
             }
             doubts.extend(curved);
+        }
+        // A value given an exact interval that rests on a value found to need sampling only
+        // afterwards (at an input's sides) is sampled too: its exact path took that value's
+        // first-order interval for granted. Until nothing changes: each such value can stand
+        // in the way of another.
+        loop {
+            let undone: Vec<(Key, Key)> = self
+                .two_lines
+                .keys()
+                .filter_map(|k| {
+                    let e = self.entries.get(k)?;
+                    let d = e
+                        .deps
+                        .iter()
+                        .filter(|d| *d != k && doubts.contains_key(d))
+                        .min()?;
+                    Some((*k, *d))
+                })
+                .collect();
+            if undone.is_empty() {
+                break;
+            }
+            for (key, dep) in undone {
+                self.two_lines.remove(&key);
+                let why = first_why
+                    .get(&key)
+                    .cloned()
+                    .unwrap_or_else(|| "a value it rests on is sampled".to_string());
+                not_exact.insert(
+                    key,
+                    format!(
+                        "it rests on {}, which first order cannot describe",
+                        self.key_name(dep)
+                    ),
+                );
+                doubts.insert(key, why);
+            }
         }
         // Say why the exact path was not taken, where it was not.
         for (key, why_not) in not_exact {
