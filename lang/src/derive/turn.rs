@@ -32,15 +32,14 @@ use std::sync::Arc;
 use rustc_hash::{FxHashMap, FxHashSet};
 
 use super::asymmetric::{phi_cdf, phi_pdf, probit, solve};
-use super::validity::{ratio_scale, CURVATURE_LIMIT, RELATIVE_LIMIT, SHARE_LIMIT, TURN_KEPT};
+use super::validity::{
+    ratio_scale, CURVATURE_LIMIT, OUTSIDE_LIMIT, RELATIVE_LIMIT, SHARE_LIMIT, TURN_KEPT,
+};
 use super::value::{SampleSummary, Shape, P_HIGH, P_LOW};
 use super::{Derivation, Key, Options, Propagation};
 
 /// Equally spaced orientations the integral is taken at.
 pub const NODES: usize = 64;
-/// The share of an input's stated distribution outside its range beyond which first order
-/// at each orientation does not describe it (see [`Derivation::over_turn`]).
-const OUTSIDE_LIMIT: f64 = 0.01;
 
 /// The orientation of node `j`, radians: the nodes sit half a step from 0.
 fn node(j: usize) -> f64 {
@@ -361,8 +360,8 @@ impl Derivation<'_> {
                 // close to normal where they give a share of its variance over the turn (the
                 // test of `validity::SHARE_LIMIT`, which at one orientation the angle's own
                 // spread hides): not a limit, not strongly asymmetric, and not kept inside
-                // its range for more than 1 % of it (an eccentricity of 0.04 +- 0.04 has 16 %
-                // below 0; at 1 % its mean moves by 0.03 of its uncertainty).
+                // its range for more than `validity::OUTSIDE_LIMIT` of it (an eccentricity of
+                // 0.04 +- 0.04 has 16 % below 0).
                 let total: f64 = s.iter().map(|v| v * v).sum();
                 let not_normal: Vec<String> = inputs
                     .iter()
