@@ -184,14 +184,14 @@ impl Derivation<'_> {
     /// that angle's input), those the integral over it describes (the module doc) leave
     /// `doubts` with their interval recorded beside the other exact ones. Returns why each
     /// other such value is sampled all the same.
-    /// A value it rests on that is doubted only for asymmetric inputs (`only_skew`) does not
-    /// stand in the way: the value's own budget gives those inputs less than
+    /// A value it rests on that is doubted only for inputs that are not normal (`by_inputs`)
+    /// does not stand in the way: the value's own budget gives those inputs less than
     /// [`SHARE_LIMIT`] of its variance, or it would be doubted for them too.
     pub(super) fn turn_exactly(
         &mut self,
         doubts: &mut FxHashMap<Key, String>,
         only_turn: &FxHashMap<Key, u32>,
-        only_skew: &FxHashSet<Key>,
+        by_inputs: &FxHashSet<Key>,
     ) -> FxHashMap<Key, String> {
         let mut not_exact = FxHashMap::default();
         // Each angle in a run of its own: a value resting on two would need both.
@@ -202,7 +202,7 @@ impl Derivation<'_> {
             };
             let other = e.deps.iter().filter(|d| *d != key).find(|d| {
                 doubts.contains_key(d)
-                    && !only_skew.contains(d)
+                    && !by_inputs.contains(d)
                     && only_turn.get(d).is_none_or(|a| a != angle)
             });
             match other {

@@ -79,6 +79,10 @@ struct Doubted {
     why: FxHashMap<Key, String>,
     /// Those doubted only for asymmetric inputs.
     only_skew: FxHashSet<Key>,
+    /// Those doubted only for inputs that are not normal (asymmetric, limits, spread angles,
+    /// reaching past their range): a value resting on one of them takes those inputs' shares
+    /// into its own budget, so it is doubted for them itself where they matter to it.
+    by_inputs: FxHashSet<Key>,
     /// Those doubted only for the size of their uncertainty.
     only_size: FxHashSet<Key>,
     /// Those doubted only for one angle spread over a full turn (an orbit's unknown
@@ -142,6 +146,7 @@ impl<'m> Derivation<'m> {
     fn doubts(&self) -> Doubted {
         let mut out = FxHashMap::default();
         let mut only_skew = FxHashSet::default();
+        let mut by_inputs = FxHashSet::default();
         let mut only_size = FxHashSet::default();
         let mut only_turn = FxHashMap::default();
         let grazing = self.may_graze();
@@ -211,6 +216,13 @@ impl<'m> Derivation<'m> {
                 why.push(format!("{} {what}", input.label));
             }
             if !why.is_empty() {
+                let other_reason = too_wide
+                    || why.iter().any(|w| {
+                        w.starts_with(super::scatter::BRANCH_END) || w.contains("grazing")
+                    });
+                if !other_reason {
+                    by_inputs.insert(*key);
+                }
                 if skew_only {
                     only_skew.insert(*key);
                 } else if too_wide && why.len() == 1 {
@@ -232,6 +244,7 @@ impl<'m> Derivation<'m> {
         Doubted {
             why: out,
             only_skew,
+            by_inputs,
             only_size,
             only_turn,
         }
@@ -330,10 +343,11 @@ impl<'m> Derivation<'m> {
         &self,
         doubts: &FxHashMap<Key, String>,
         only_skew: &FxHashSet<Key>,
+        by_inputs: &FxHashSet<Key>,
     ) -> (ByInput, FxHashMap<Key, String>) {
         let sampled_otherwise: FxHashSet<Key> = doubts
             .keys()
-            .filter(|k| !only_skew.contains(k))
+            .filter(|k| !by_inputs.contains(k))
             .copied()
             .collect();
         let mut by_input: ByInput = BTreeMap::new();
@@ -392,20 +406,24 @@ impl<'m> Derivation<'m> {
         let Doubted {
             why: mut doubts,
             only_skew,
+            by_inputs,
             only_size,
             only_turn,
         } = self.doubts();
         // The inputs whose two sides the values are checked at: the strongly asymmetric
-        // ones, and angles measured loosely enough for their sines to bend within their
+        // ones, angles measured loosely enough for their sines to bend within their
         // uncertainty (a duration at an argument of periastron of 90 +- 60 deg, flat there to
-        // first order, spans 0.4 h to 1 h of Monte Carlo's).
+        // first order, spans 0.4 h to 1 h of Monte Carlo's), and measurements reaching past
+        // their range (a duration is flat in an impact parameter of 0.02 +- 0.2 at its value,
+        // so takes no share of its variance from it, yet its samples kept above 0 shorten
+        // it: 0.4 of its uncertainty).
         let skewed: FxHashSet<u32> = (0u32..)
             .zip(&self.inputs)
             .filter(|(_, i)| {
                 i.shape == Shape::Skewed
                     || (i.shape == Shape::Normal
-                        && i.angle
-                        && 0.5 * (i.below + i.above) > WIDE_ANGLE)
+                        && ((i.angle && 0.5 * (i.below + i.above) > WIDE_ANGLE)
+                            || i.outside > OUTSIDE_LIMIT))
             })
             .map(|(id, _)| id)
             .collect();
@@ -419,11 +437,11 @@ impl<'m> Derivation<'m> {
         // log-normal exactly: no sampling for it.
         let not_widened = self.scatter_exactly(&mut doubts, &only_size);
         // A value doubted only for an orbit's unknown orientation is integrated over it.
-        let not_turned = self.turn_exactly(&mut doubts, &only_turn, &only_skew);
+        let not_turned = self.turn_exactly(&mut doubts, &only_turn, &by_inputs);
         // A value doubted only for one asymmetric input, and resting on no value sampled
         // for another reason, takes that input's two sides through its formulas exactly:
         // no sampling for it.
-        let (by_input, mut not_exact) = self.exact_candidates(&doubts, &only_skew);
+        let (by_input, mut not_exact) = self.exact_candidates(&doubts, &only_skew, &by_inputs);
         not_exact.extend(not_widened);
         not_exact.extend(not_turned);
         // The values first order passed, where the system has an asymmetric input: checked
@@ -457,12 +475,22 @@ impl<'m> Derivation<'m> {
                     .map(|(id, keys)| (*id, keys.clone()))
                     .collect();
                 exact.extend(self.two_lines_at_sides(&in_group, &group, &sides));
-                for (key, why) in self.curved(&checked, &group, &sides) {
+                // The exact path's values too, at the sides of the other groups' inputs
+                // (their own input's sides are the exact path's).
+                let mut here = checked.clone();
+                here.extend(
+                    by_input
+                        .iter()
+                        .filter(|(id, _)| !group.contains(id))
+                        .flat_map(|(_, keys)| keys.iter().map(|(k, _)| *k)),
+                );
+                for (key, why) in self.curved(&here, &group, &sides) {
                     if !curved.iter().any(|(k, _)| *k == key) {
                         curved.push((key, why));
                     }
                 }
             }
+            exact.retain(|(k, _)| !curved.iter().any(|(c, _)| c == k));
             let resolved: FxHashSet<Key> = exact.iter().map(|(k, _)| *k).collect();
             for key in by_input.values().flatten().map(|(k, _)| *k) {
                 if !resolved.contains(&key) {
@@ -493,7 +521,11 @@ impl<'m> Derivation<'m> {
                     let d = e
                         .deps
                         .iter()
-                        .filter(|d| *d != k && doubts.contains_key(d))
+                        .filter(|d| {
+                            *d != k
+                                && doubts.contains_key(d)
+                                && (self.widened.contains_key(k) || !by_inputs.contains(d))
+                        })
                         .min()?;
                     Some((*k, *d))
                 })
