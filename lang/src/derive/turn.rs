@@ -13,8 +13,8 @@
 //! the integral of a smooth periodic function, which the trapezoid rule on [`NODES`] equally
 //! spaced orientations integrates with an error that falls geometrically with their number
 //! (Trefethen & Weideman 2014, "The exponentially convergent trapezoidal rule", SIAM Review
-//! 56, 385), once neighbouring nodes are closer in `f` than the spread `s` ([`Mixture::resolved`];
-//! a value that is not is sampled).
+//! 56, 385), once neighbouring nodes are closer in `f` than the spread `s`
+//! ([`Mixture::resolved`]; a value that is not is sampled).
 //!
 //! `f` and `s` at the nodes come from one run of the engine over columns, as Monte Carlo runs
 //! it, but with deterministic columns in place of draws ([`Grid`]): the orientation at the
@@ -22,9 +22,10 @@
 //! values rest on moved to its value plus and less its standard uncertainty: half their
 //! difference is its first-order move at each node, and half their sum less the value its
 //! curvature, which must stay within a tenth of the value's spread (the test
-//! `Derivation::curved` in `asymmetric.rs` applies at one orientation). A system of `k` such inputs costs
-//! `NODES (2k + 1)` evaluations, a fraction of the 4,000 draws it replaces, and the result has no seed and no sampling noise. The percentiles are found by
-//! Newton's method inside a bracket.
+//! `Derivation::curved` in `asymmetric.rs` applies at one orientation). A system of `k` such
+//! inputs costs `NODES (2k + 1)` evaluations, a fraction of the 4,000 draws it replaces, and
+//! the result has no seed and no sampling noise. The percentiles are found by Newton's method
+//! inside a bracket.
 
 use std::collections::BTreeMap;
 use std::sync::Arc;
