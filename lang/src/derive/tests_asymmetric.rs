@@ -17,8 +17,17 @@ const STAR: &str = r#"system "Tessaly" {
 }
 "#;
 
-fn run(src: &str, options: Options) -> Analysis {
+pub(super) fn run(src: &str, options: Options) -> Analysis {
     analyze(FileId(0), src, &options.into())
+}
+
+/// The words saying why a value was sampled; the test fails, showing its assumptions, if it
+/// was not.
+pub(super) fn sampled_why(q: &crate::derive::QuantityResult) -> &str {
+    q.assumptions
+        .iter()
+        .find(|a| a.starts_with(SAMPLED))
+        .unwrap_or_else(|| panic!("not sampled: {:?}", q.assumptions))
 }
 
 /// Monte Carlo with 2e5 draws: interval ends good to about 0.3 % of the uncertainty.
@@ -32,6 +41,15 @@ fn monte_carlo() -> Options {
 
 /// The median and both ends within 4 % of the uncertainty of a Monte Carlo run's.
 fn agree(lin: &crate::derive::QuantityResult, mc: &crate::derive::QuantityResult) {
+    agree_within(lin, mc, 0.04);
+}
+
+/// The median and both ends within `share` of the uncertainty of a Monte Carlo run's.
+pub(super) fn agree_within(
+    lin: &crate::derive::QuantityResult,
+    mc: &crate::derive::QuantityResult,
+    share: f64,
+) {
     let u = 0.5 * (mc.below + mc.above);
     for (what, a, b) in [
         ("median", lin.value, mc.value),
@@ -46,7 +64,7 @@ fn agree(lin: &crate::derive::QuantityResult, mc: &crate::derive::QuantityResult
             mc.value + mc.above,
         ),
     ] {
-        assert!((a - b).abs() < 0.04 * u, "{what}: {a} vs {b} (u {u})");
+        assert!((a - b).abs() < share * u, "{what}: {a} vs {b} (u {u})");
     }
 }
 
@@ -374,11 +392,7 @@ fn an_input_reaching_past_its_range_is_sampled() {
             .expect("an inclination")
     };
     let lin = inclination(&run(src, Options::linear()));
-    let words = lin
-        .assumptions
-        .iter()
-        .find(|a| a.starts_with(SAMPLED))
-        .unwrap_or_else(|| panic!("{:?}", lin.assumptions));
+    let words = sampled_why(&lin);
     assert!(words.contains("b.impact reaches past its range"), "{words}");
     // Skewed as Monte Carlo's: the lower side the longer.
     assert!(lin.below > 1.3 * lin.above, "{} {}", lin.below, lin.above);
@@ -407,11 +421,7 @@ fn a_flat_value_on_an_input_reaching_past_its_range_is_checked_at_its_sides() {
             .expect("a value")
     };
     let duration = get(Qty::TransitDuration);
-    let words = duration
-        .assumptions
-        .iter()
-        .find(|a| a.starts_with(SAMPLED))
-        .unwrap_or_else(|| panic!("{:?}", duration.assumptions));
+    let words = sampled_why(&duration);
     assert!(words.contains("b.impact"), "{words}");
     let density = get(Qty::Density);
     assert!(

@@ -1,11 +1,11 @@
 //! A prediction widened by its relation's log-normal scatter keeps that scatter exactly in
 //! first-order mode ([`super::scatter`]), not a sample. Every system here is invented.
 
+use crate::derive::tests_asymmetric::{agree_within, run, sampled_why};
 use crate::derive::validity::{SAMPLED, SCATTER_KEPT};
 use crate::derive::{Options, Propagation, QuantityResult};
 use crate::quantities::Qty;
-use crate::source::FileId;
-use crate::{analyze, Analysis};
+use crate::Analysis;
 
 /// Two radial-velocity planets of Neptunian minimum mass (the branch of 0.146 dex scatter,
 /// Chen & Kipping 2017): b's amplitude known to 10 %, c's to 24 %.
@@ -26,10 +26,6 @@ const SYSTEM: &str = r#"system "Orrin Vale" {
 }
 "#;
 
-fn run(src: &str, options: Options) -> Analysis {
-    analyze(FileId(0), src, &options.into())
-}
-
 fn predicted(a: &Analysis, body: usize) -> QuantityResult {
     a.results
         .first()
@@ -37,18 +33,6 @@ fn predicted(a: &Analysis, body: usize) -> QuantityResult {
         .and_then(|b| b.get(Qty::PredictedRadius))
         .cloned()
         .expect("a predicted radius")
-}
-
-/// The median and both ends within `share` of the uncertainty of a Monte Carlo run's.
-fn agree(lin: &QuantityResult, mc: &QuantityResult, share: f64) {
-    let u = 0.5 * (mc.below + mc.above);
-    for (what, a, b) in [
-        ("median", lin.value, mc.value),
-        ("16th", lin.value - lin.below, mc.value - mc.below),
-        ("84th", lin.value + lin.above, mc.value + mc.above),
-    ] {
-        assert!((a - b).abs() < share * u, "{what}: {a} vs {b} (u {u})");
-    }
 }
 
 #[test]
@@ -75,7 +59,7 @@ fn a_wide_scatter_is_kept_exactly_and_agrees_with_monte_carlo() {
         assert!(l.above > 1.3 * l.below, "{} {}", l.below, l.above);
         // b's mass is known to 10 %, so first order describes the rest well (1 % of the
         // uncertainty); c's to 24 %, whose own skew first order leaves out (3 %).
-        agree(&l, &m, share);
+        agree_within(&l, &m, share);
     }
     // Deterministic: no seed enters it.
     let again = run(
@@ -96,11 +80,7 @@ fn a_mass_spread_across_a_branch_end_is_sampled_and_says_why() {
     let src = SYSTEM.replace("4.1 +- 0.4 m/s", "0.60 +- 0.08 m/s");
     let lin = run(&src, Options::linear());
     let b = predicted(&lin, 1);
-    let words = b
-        .assumptions
-        .iter()
-        .find(|a| a.starts_with(SAMPLED))
-        .unwrap_or_else(|| panic!("{:?}", b.assumptions));
+    let words = sampled_why(&b);
     assert!(words.contains("end of the relation's branch"), "{words}");
 }
 
@@ -131,11 +111,7 @@ fn a_prediction_near_the_end_of_its_relation_is_sampled() {
             .and_then(|b| b.get(q))
             .cloned()
             .expect("a prediction");
-        let words = v
-            .assumptions
-            .iter()
-            .find(|a| a.starts_with(SAMPLED))
-            .unwrap_or_else(|| panic!("{q:?}: {:?}", v.assumptions));
+        let words = sampled_why(&v);
         assert!(
             words.contains("end of the relation's branch or range"),
             "{words}"
@@ -155,10 +131,6 @@ fn a_prediction_on_a_mass_sampled_at_the_sides_is_sampled() {
 "#;
     let a = run(src, Options::linear());
     let r = predicted(&a, 1);
-    let words = r
-        .assumptions
-        .iter()
-        .find(|a| a.starts_with(SAMPLED))
-        .unwrap_or_else(|| panic!("{:?}", r.assumptions));
+    let words = sampled_why(&r);
     assert!(words.contains("it rests on c.mass"), "{words}");
 }

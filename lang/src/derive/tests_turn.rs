@@ -2,11 +2,11 @@
 //! mode, with first order in the other inputs at each orientation ([`super::turn`]), not
 //! sampled. Every system here is invented.
 
+use crate::derive::tests_asymmetric::{agree_within, run, sampled_why};
 use crate::derive::validity::{SAMPLED, TURN_KEPT};
 use crate::derive::{Options, Propagation, QuantityResult};
 use crate::quantities::Qty;
-use crate::source::FileId;
-use crate::{analyze, Analysis};
+use crate::Analysis;
 
 /// An eccentric transiting planet whose argument of periastron is not known.
 const SYSTEM: &str = r#"system "Calder Reach" {
@@ -24,10 +24,6 @@ const SYSTEM: &str = r#"system "Calder Reach" {
   }
 }
 "#;
-
-fn run(src: &str, options: Options) -> Analysis {
-    analyze(FileId(0), src, &options.into())
-}
 
 fn planet(a: &Analysis, q: Qty) -> QuantityResult {
     a.results
@@ -64,14 +60,7 @@ fn durations_and_inclination_over_every_orientation_agree_with_monte_carlo() {
         assert!(!l.assumptions.iter().any(|a| a.starts_with(SAMPLED)));
         // Measured: within 5 % of the uncertainty (first order in the other inputs at each
         // orientation is what is left out).
-        let u = 0.5 * (m.below + m.above);
-        for (what, a, b) in [
-            ("median", l.value, m.value),
-            ("16th", l.value - l.below, m.value - m.below),
-            ("84th", l.value + l.above, m.value + m.above),
-        ] {
-            assert!((a - b).abs() < 0.06 * u, "{q:?} {what}: {a} vs {b} (u {u})");
-        }
+        agree_within(&l, &m, 0.06);
     }
     // Deterministic: no seed enters it.
     let again = run(
@@ -94,11 +83,7 @@ fn an_eccentricity_reaching_below_zero_or_a_skewed_radius_is_sampled_and_says_wh
     // not the normal first order would take at each orientation.
     let src = SYSTEM.replace("0.12 +- 0.04", "0.04 +- 0.04");
     let d = planet(&run(&src, Options::linear()), Qty::TransitDuration);
-    let words = d
-        .assumptions
-        .iter()
-        .find(|a| a.starts_with(SAMPLED))
-        .unwrap_or_else(|| panic!("{:?}", d.assumptions));
+    let words = sampled_why(&d);
     assert!(
         words.contains("b.eccentricity reaches past its range"),
         "{words}"
@@ -107,11 +92,7 @@ fn an_eccentricity_reaching_below_zero_or_a_skewed_radius_is_sampled_and_says_wh
     // that one orientation hides behind the angle's own spread.
     let src = SYSTEM.replace("1.12 +- 0.04 Rsun", "1.12 +0.03/-0.08 Rsun");
     let d = planet(&run(&src, Options::linear()), Qty::TransitDuration);
-    let words = d
-        .assumptions
-        .iter()
-        .find(|a| a.starts_with(SAMPLED))
-        .unwrap_or_else(|| panic!("{:?}", d.assumptions));
+    let words = sampled_why(&d);
     assert!(words.contains("strongly asymmetric"), "{words}");
 }
 
@@ -126,11 +107,7 @@ fn a_value_bending_across_an_inputs_sides_is_sampled() {
 }
 "#;
     let i = planet(&run(src, Options::linear()), Qty::Inclination);
-    let words = i
-        .assumptions
-        .iter()
-        .find(|a| a.starts_with(SAMPLED))
-        .unwrap_or_else(|| panic!("{:?}", i.assumptions));
+    let words = sampled_why(&i);
     assert!(
         words.contains("bends across the two sides of b.eccentricity"),
         "{words}"

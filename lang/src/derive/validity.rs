@@ -162,10 +162,13 @@ impl<'m> Derivation<'m> {
             let relative = lo.max(hi) / size.max(f64::MIN_POSITIVE);
             let mut why = Vec::new();
             let mut skew_only = true;
+            // Doubted only for its inputs' shapes (see `Doubted::by_inputs`).
+            let mut by_shape = true;
             let mut uniform = Vec::new();
             let too_wide = relative > RELATIVE_LIMIT && ratio_scale(key.1);
             if too_wide {
                 skew_only = false;
+                by_shape = false;
                 why.push(if relative < 10.0 {
                     format!(
                         "its first-order uncertainty is {:.0}% of the value",
@@ -177,6 +180,7 @@ impl<'m> Derivation<'m> {
             }
             if self.near_branch_end(*key) {
                 skew_only = false;
+                by_shape = false;
                 why.push(super::scatter::BRANCH_END.to_string());
             }
             if let Some(k) = grazing
@@ -184,6 +188,7 @@ impl<'m> Derivation<'m> {
                 .find(|k| **k == *key || entry.deps.contains(k))
             {
                 skew_only = false;
+                by_shape = false;
                 why.push(format!(
                     "the transit may be grazing within the uncertainty of {}.impact, where the depth no longer fixes Rp/R* alone (first order sees no slope along b short of it)",
                     self.sys.bodies.get(k.0).map_or("?", |b| b.id.as_str())
@@ -216,11 +221,7 @@ impl<'m> Derivation<'m> {
                 why.push(format!("{} {what}", input.label));
             }
             if !why.is_empty() {
-                let other_reason = too_wide
-                    || why.iter().any(|w| {
-                        w.starts_with(super::scatter::BRANCH_END) || w.contains("grazing")
-                    });
-                if !other_reason {
+                if by_shape {
                     by_inputs.insert(*key);
                 }
                 if skew_only {
