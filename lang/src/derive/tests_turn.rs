@@ -144,3 +144,24 @@ fn a_loosely_measured_angle_is_checked_at_its_sides() {
         lin.assumptions
     );
 }
+
+/// The run over every orientation takes 64 (2k + 1) columns for k inputs: a value resting on
+/// more inputs than fit in the 4,000 draws it replaces (an impact parameter written as a sum
+/// of 40 uncertain literals) is sampled instead, and says why.
+#[test]
+fn a_value_on_very_many_inputs_is_sampled_not_integrated() {
+    let terms = vec!["(0.01 +- 0.001)"; 40].join(" + ");
+    let src = format!(
+        r#"system "Manifold Reach" {{
+  star m {{ mass = 1.0 +- 0.05 Msun; radius = 1.0 +- 0.03 Rsun; teff = 5800 +- 80 K }}
+  planet b orbits m {{ period = 8.0 +- 0.001 d; transit_depth = 0.5 +- 0.01 %; impact = {terms}; eccentricity = 0.15 +- 0.03 }}
+}}
+"#
+    );
+    let i = planet(&run(&src, Options::linear()), Qty::Inclination);
+    assert!(
+        sampled_why(&i).contains("more inputs than the run over every orientation takes"),
+        "{:?}",
+        i.assumptions
+    );
+}

@@ -34,7 +34,8 @@ use rustc_hash::{FxHashMap, FxHashSet};
 
 use super::asymmetric::{phi_cdf, phi_pdf, probit, solve};
 use super::validity::{
-    ratio_scale, CURVATURE_LIMIT, OUTSIDE_LIMIT, RELATIVE_LIMIT, SHARE_LIMIT, TURN_KEPT,
+    ratio_scale, CURVATURE_LIMIT, MOST_SAMPLES, OUTSIDE_LIMIT, RELATIVE_LIMIT, SHARE_LIMIT,
+    TURN_KEPT,
 };
 use super::value::{SampleSummary, Shape, P_HIGH, P_LOW};
 use super::{Derivation, Key, Options, Propagation};
@@ -272,6 +273,22 @@ impl Derivation<'_> {
                 .collect(),
         };
         let n = grid.len();
+        // Never more columns than the draws it replaces: values resting on very many inputs
+        // (an expression of hundreds of uncertain literals) are sampled instead.
+        if n > MOST_SAMPLES {
+            return keys
+                .iter()
+                .map(|k| {
+                    (
+                        *k,
+                        Err(format!(
+                            "it rests on more inputs than the run over every orientation takes ({})",
+                            (MOST_SAMPLES / NODES - 1) / 2
+                        )),
+                    )
+                })
+                .collect();
+        }
         let options = Options {
             propagation: Propagation::MonteCarlo,
             samples: n,
