@@ -28,6 +28,22 @@ pub(super) fn default_for(q: Qty) -> Option<(f64, &'static str)> {
 pub const SPREAD_PERIASTRON: &str =
     "argument of periastron unknown: spread uniformly over 0-360 deg (default)";
 
+/// The turn a limit on an argument of periastron is read within. On a circle a one-sided
+/// limit bounds nothing without its other end, so `< 90 deg` is read as 0 to 90 deg, within
+/// the turn 0 to 360 deg of common practice; a limit at or below 0 within -180 to 180 deg,
+/// the other common convention (`> -30 deg` is -30 to 180 deg), and one below -180 deg
+/// within -360 to 0 deg.
+pub(super) fn turn_of_limit(form: Form, limit: f64) -> (f64, f64) {
+    use std::f64::consts::{PI, TAU};
+    let start = match form {
+        Form::UpperLimit if limit > 0.0 => 0.0,
+        Form::LowerLimit if limit >= 0.0 => 0.0,
+        _ if limit >= -PI => -PI,
+        _ => -TAU,
+    };
+    (start, start + TAU)
+}
+
 /// An input asymmetric by this factor or more is skewed: first order does not describe it.
 const SKEWED_RATIO: f64 = 1.5;
 
@@ -138,6 +154,7 @@ impl<'m> Derivation<'m> {
             limit: None,
             outside,
             angle: key.is_some_and(|k| quantities::def(k.1).dim == crate::units::Dimension::ANGLE),
+            periodic: key.is_some_and(|k| k.1 == Qty::ArgPeriastron),
         });
         let exact = below == 0.0 && above == 0.0;
         Value {
@@ -239,7 +256,11 @@ impl<'m> Derivation<'m> {
                     }
                     None => (m, None),
                 };
-                let (lo, hi) = def.limits();
+                let (lo, hi) = if decl.qty == Qty::ArgPeriastron && m.form.is_limit() {
+                    turn_of_limit(m.form, m.value)
+                } else {
+                    def.limits()
+                };
                 if !m.can_be_sampled(def) {
                     let mut d = Diagnostic::new(
                         Rule::NotDerivable,
@@ -322,12 +343,31 @@ impl<'m> Derivation<'m> {
                     // In the unit it was written in (`< 3 m/s`, `< 0.08`).
                     let unit =
                         summary::written_unit(used.written_unit.as_deref(), decl.qty, m.value);
-                    assumptions.insert(Arc::from(format!(
-                        "{}.{} {} sampled uniformly within its physical range",
-                        body.id,
-                        def.name,
-                        crate::report::shown_in(m.value, 0.0, 0.0, m.form, unit),
-                    )));
+                    let declared = crate::report::shown_in(m.value, 0.0, 0.0, m.form, unit);
+                    let words = if decl.qty == Qty::ArgPeriastron {
+                        let shown =
+                            |x: f64| crate::report::shown_in(x, 0.0, 0.0, Form::Exact, unit);
+                        let (from, to) = if m.form == Form::UpperLimit {
+                            (lo, m.value)
+                        } else {
+                            (m.value, hi)
+                        };
+                        format!(
+                            "{}.{} {declared} sampled uniformly from {} to {}: a limit on an angle bounds nothing on a circle without its other end, so it is read within the turn {} to {} (common practice)",
+                            body.id,
+                            def.name,
+                            shown(from),
+                            shown(to),
+                            shown(lo),
+                            shown(hi),
+                        )
+                    } else {
+                        format!(
+                            "{}.{} {declared} sampled uniformly within its physical range",
+                            body.id, def.name,
+                        )
+                    };
+                    assumptions.insert(Arc::from(words));
                 }
                 self.entries.insert(
                     (bi, decl.qty),

@@ -165,3 +165,78 @@ fn a_value_on_very_many_inputs_is_sampled_not_integrated() {
         i.assumptions
     );
 }
+
+/// An eccentric transiting planet whose argument of periastron is known only as a limit.
+fn omega_system(omega: &str) -> String {
+    format!(
+        r#"system "Tessaly" {{
+  star tess {{
+    mass   = 0.95 +- 0.04 Msun
+    radius = 0.92 +- 0.03 Rsun
+    teff   = 5600 +- 80 K
+  }}
+  planet b orbits tess {{
+    period        = 5.2 +- 0.001 d
+    transit_depth = 4000 +- 100 ppm
+    impact        = 0.3 +- 0.05
+    eccentricity  = 0.3 +- 0.03
+    arg_periastron {omega}
+  }}
+}}
+"#
+    )
+}
+
+#[test]
+fn a_limit_on_the_argument_of_periastron_is_read_within_one_turn_and_bounds_nothing() {
+    use crate::model::Form;
+    // The duration at one orientation, every input at its value.
+    let at = |deg: f64| {
+        let a = run(&omega_system(&format!("= {deg} deg")), Options::linear());
+        planet(&a, Qty::TransitDuration).value
+    };
+    let (at_0, at_45, at_90) = (at(0.0), at(45.0), at(90.0));
+    // Winn (2010, eq. 16): durations scale as sqrt(1 - e^2) / (1 + e sin omega), so the
+    // duration at 0 deg is about (1 + e) = 1.3 times that at 90 deg (the inclination also
+    // moves a little with omega at a fixed impact parameter).
+    assert!(((at_0 / at_90) / 1.3 - 1.0).abs() < 0.02, "{at_0} {at_90}");
+    for options in [Options::linear(), Options::default()] {
+        let a = run(&omega_system("< 90 deg"), options.clone());
+        let t = planet(&a, Qty::TransitDuration);
+        // Shortest at 90 deg and longest at 0 deg: the limit is no bound at 90 deg (it was
+        // given as `< 2.21 h`, the shortest duration, in both modes).
+        assert_eq!(t.form, Form::Asymmetric, "{options:?}: {t:?}");
+        // Omega uniform over 0-90 deg and the duration monotone in it there: its median is
+        // the duration at 45 deg, the other inputs' spread small beside it.
+        assert!(
+            (t.value / at_45 - 1.0).abs() < 0.01,
+            "{} vs {at_45}",
+            t.value
+        );
+        assert!(t.value - t.below > at_90 * 0.97 && t.value + t.above < at_0 * 1.03);
+        assert!(t.below > 0.0 && t.above > 0.0);
+        let w = planet(&a, Qty::ArgPeriastron);
+        assert!(
+            w.assumptions
+                .iter()
+                .any(|s| s.contains("sampled uniformly from 0 deg to 90 deg")),
+            "{:?}",
+            w.assumptions
+        );
+    }
+}
+
+#[test]
+fn a_limit_on_an_angle_takes_the_turn_its_convention_implies() {
+    use crate::derive::inputs::turn_of_limit;
+    use crate::model::Form;
+    use std::f64::consts::{PI, TAU};
+    let deg = PI / 180.0;
+    assert_eq!(turn_of_limit(Form::UpperLimit, 90.0 * deg), (0.0, TAU));
+    assert_eq!(turn_of_limit(Form::LowerLimit, 300.0 * deg), (0.0, TAU));
+    assert_eq!(turn_of_limit(Form::LowerLimit, 0.0), (0.0, TAU));
+    // At or below 0: the turn -180 to 180 deg.
+    assert_eq!(turn_of_limit(Form::UpperLimit, 0.0), (-PI, PI));
+    assert_eq!(turn_of_limit(Form::LowerLimit, -30.0 * deg), (-PI, PI));
+    assert_eq!(turn_of_limit(Form::UpperLimit, -200.0 * deg), (-TAU, 0.0));
+}

@@ -596,7 +596,15 @@ impl<'m> Derivation<'m> {
             let Some(&(id, share)) = budget.first() else {
                 continue;
             };
-            let limit_of = |id: u32| self.inputs.get(id as usize).and_then(|i| i.limit);
+            // A limit on an angle around a turn bounds no value at that limit: the value
+            // need not move one way with it (a duration is shortest at 90 deg and longest at
+            // 270 deg), so such a value keeps its interval over the range the limit leaves.
+            let limit_of = |id: u32| {
+                self.inputs
+                    .get(id as usize)
+                    .filter(|i| !i.periodic)
+                    .and_then(|i| i.limit)
+            };
             let slope_of = |id: u32| {
                 entry
                     .value

@@ -32,6 +32,9 @@ pub struct InputInfo {
     pub outside: f64,
     /// Whether it is an angle (an argument of periastron, an inclination).
     pub angle: bool,
+    /// Whether it is an angle around a whole turn (an argument of periastron): no value
+    /// moves one way with it over its range, so a limit on it bounds no value at that limit.
+    pub periodic: bool,
 }
 
 /// An input's distribution, as far as first-order propagation is concerned: only a normal
@@ -458,6 +461,7 @@ mod tests {
             limit: None,
             outside: 0.0,
             angle: false,
+            periodic: false,
         }
     }
 
