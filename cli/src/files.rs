@@ -384,15 +384,25 @@ fn for_each_unit<T: Send>(
             }
             continue;
         }
-        let mut parts = syzygy::parts::Parts::new(f, text, part_bytes)
-            .with_shared(settings.shared_refs.clone())
-            .peekable();
-        while let Some(part) = parts.next() {
+        // The next parts are read while this one is analysed; a part is known to be the
+        // last once the reading ends, so each is queued one part late.
+        let mut held: Option<syzygy::parts::Part> = None;
+        let mut queue = |part: syzygy::parts::Part, last: bool| {
             bytes += part.region.end - part.region.start;
-            units.push(Unit::Part(Box::new(part), settings, parts.peek().is_none()));
+            units.push(Unit::Part(Box::new(part), settings, last));
             if units.len() >= BATCH || bytes >= BATCH_BYTES {
                 run(&mut units, &mut bytes, &mut sink);
             }
+        };
+        syzygy::parts::Parts::new(f, text, part_bytes)
+            .with_shared(settings.shared_refs.clone())
+            .read_parts(|part| {
+                if let Some(before) = held.replace(part) {
+                    queue(before, false);
+                }
+            });
+        if let Some(part) = held {
+            queue(part, true);
         }
     }
     run(&mut units, &mut bytes, &mut sink);

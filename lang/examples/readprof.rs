@@ -1,7 +1,8 @@
 //! The reader stage alone, run many times in one process, for profiling and for the
 //! reader figures of docs/performance.md (not a test):
 //! `cargo run --release -p syzygy --example readprof -- read 10` (also `lex`, `parse`, `lower`
-//! (one parse lowered again and again), `parts`,
+//! (one parse lowered again and again), `parts`, `overlapped` (the parts with reading and
+//! lowering on two threads),
 //! `sizes` for the tree's node sizes, `mc` and `lin1` for one system's derivation). It
 //! generates the same invented 10 MB catalogue as the `bench` example.
 #[path = "common/catalogue.rs"]
@@ -81,6 +82,14 @@ fn main() {
                     syzygy::parts::Parts::new(FileId(0), &src, syzygy::parts::PART_BYTES)
                         .map(|p| p.model.systems.len())
                         .sum();
+                std::hint::black_box(n);
+            }
+            "overlapped" => {
+                // The same parts, read on a thread of their own while the last one is
+                // lowered (`Parts::read_parts`, what `syz check` does).
+                let mut n = 0;
+                syzygy::parts::Parts::new(FileId(0), &src, syzygy::parts::PART_BYTES)
+                    .read_parts(|p| n += p.model.systems.len());
                 std::hint::black_box(n);
             }
             "lower" => {

@@ -38,15 +38,36 @@ pub struct Part {
 }
 
 /// The parts of one file, in order. There is always at least one (an empty file is one
-/// empty part).
+/// empty part). [`read_parts`] gives the same parts with reading and lowering overlapped.
 pub struct Parts<'a> {
+    split: Split<'a>,
+    lower: Lower<'a>,
+}
+
+/// What lowers the parts, in order: the file's references (read ahead on the first part,
+/// when the file has more than one) and what lowering remembers between parts (systems and
+/// references declared twice).
+struct Lower<'a> {
     file: FileId,
+    src: &'a str,
+    /// Whether the file has more than one part, so its references are read ahead.
+    ahead: bool,
+    refs: Option<Vec<model::RefInfo>>,
+    lowering: Lowering,
+}
+
+/// A part read but not yet lowered.
+struct Parsed {
+    region: Region,
+    ast: ast::File,
+    diagnostics: Vec<Diagnostic>,
+}
+
+/// What reads the declarations of a file and cuts them into parts.
+struct Split<'a> {
     src: &'a str,
     items: Items<'a>,
     part_bytes: usize,
-    /// The file's references, read ahead, when it has more than one part.
-    refs: Option<Vec<model::RefInfo>>,
-    lowering: Lowering,
     /// The declaration that starts the next part, read while ending this one.
     carried: Option<Item>,
     /// Comments and diagnostics read but placed after the part just returned.
@@ -65,55 +86,122 @@ pub struct Parts<'a> {
 fn refs_end(src: &str) -> usize {
     use crate::syntax::lexer::{tokens, Tok};
     let mut toks = tokens(src);
-    match toks.find(|t| t.kind == Tok::System) {
-        Some(system) if !toks.any(|t| t.kind == Tok::Ref) => system.start,
-        _ => usize::MAX,
+    let Some(system) = toks.find(|t| t.kind == Tok::System) else {
+        return usize::MAX;
+    };
+    // A `ref` token is the bytes `ref` not followed by a letter, digit or underscore (those
+    // would make a longer name): where the rest of the file holds none, it holds no `ref`
+    // token, and the search costs a small part of lexing the rest.
+    let rest = src.as_bytes().get(system.start..).unwrap_or_default();
+    let may_be_ref = memchr::memmem::find_iter(rest, b"ref").any(|i| {
+        !rest
+            .get(i + 3)
+            .is_some_and(|b| b.is_ascii_alphanumeric() || *b == b'_')
+    });
+    if !may_be_ref || !toks.any(|t| t.kind == Tok::Ref) {
+        system.start
+    } else {
+        usize::MAX
     }
+}
+
+/// The file's references, read ahead: a citation in one part may name a reference
+/// declared in a later one.
+fn read_refs(file: FileId, src: &str) -> Vec<model::RefInfo> {
+    let until = refs_end(src);
+    let mut items = Items::new(file, src);
+    let mut refs = Vec::new();
+    while let Some(item) = items.next_item() {
+        let end = item.span().end as usize;
+        if let Item::Ref(r) = item {
+            refs.push(r);
+        }
+        // Comments are not needed here; let them go as they come.
+        drop(items.take_comments());
+        if end > until {
+            break;
+        }
+    }
+    model::first_refs(&refs)
 }
 
 impl<'a> Parts<'a> {
     /// Parts of about `part_bytes` bytes (`usize::MAX`: the whole file as one part).
     pub fn new(file: FileId, src: &'a str, part_bytes: usize) -> Parts<'a> {
-        let refs = (src.len() > part_bytes).then(|| {
-            let until = refs_end(src);
-            let mut items = Items::new(file, src);
-            let mut refs = Vec::new();
-            while let Some(item) = items.next_item() {
-                let end = item.span().end as usize;
-                if let Item::Ref(r) = item {
-                    refs.push(r);
-                }
-                // Comments are not needed here; let them go as they come.
-                drop(items.take_comments());
-                if end > until {
-                    break;
-                }
-            }
-            model::first_refs(&refs)
-        });
         Parts {
-            file,
-            src,
-            items: Items::new(file, src),
-            part_bytes,
-            refs,
-            lowering: Lowering::default(),
-            carried: None,
-            comments: Vec::new(),
-            diagnostics: Vec::new(),
-            next_start: 0,
-            next_line: 0,
-            done: false,
+            split: Split::new(file, src, part_bytes),
+            lower: Lower {
+                file,
+                src,
+                ahead: src.len() > part_bytes,
+                refs: None,
+                lowering: Lowering::default(),
+            },
         }
     }
 
     /// Citations may also name these shared references (the project's, see
     /// [`crate::catalogue::shared`]).
     pub fn with_shared(mut self, shared: std::sync::Arc<crate::catalogue::SharedRefs>) -> Self {
-        self.lowering = Lowering::with_shared(shared);
+        self.lower.lowering = Lowering::with_shared(shared);
         self
     }
 
+    /// Every part, in order, handed to `each`: the same parts as the iterator gives, with
+    /// the reading of the next parts (on a thread of its own) overlapping the lowering of
+    /// this one and whatever `each` does with it. At most two parts wait between the two.
+    /// Parts already taken from the iterator are not given again.
+    pub fn read_parts(self, mut each: impl FnMut(Part)) {
+        let Parts { split, mut lower } = self;
+        let (file, src, part_bytes) = (lower.file, split.src, split.part_bytes);
+        let fresh = split.next_start == 0 && split.carried.is_none() && !split.done;
+        if src.len() <= part_bytes || !fresh {
+            // One part, nothing to overlap; or a reading already begun, which goes on here.
+            Parts { split, lower }.for_each(each);
+            return;
+        }
+        // The parser is not `Send`: the reading thread makes its own.
+        drop(split);
+        std::thread::scope(|scope| {
+            let (send, receive) = std::sync::mpsc::sync_channel(2);
+            scope.spawn(move || {
+                let mut split = Split::new(file, src, part_bytes);
+                while let Some(parsed) = split.next_parsed() {
+                    if send.send(parsed).is_err() {
+                        break;
+                    }
+                }
+            });
+            for parsed in receive {
+                each(lower.lower(parsed));
+            }
+        });
+    }
+}
+
+impl Lower<'_> {
+    fn lower(&mut self, parsed: Parsed) -> Part {
+        let Parsed {
+            region,
+            ast,
+            mut diagnostics,
+        } = parsed;
+        if self.ahead && self.refs.is_none() {
+            self.refs = Some(read_refs(self.file, self.src));
+        }
+        let model = self
+            .lowering
+            .lower(self.file, &ast, self.refs.as_deref(), &mut diagnostics);
+        Part {
+            region,
+            ast,
+            model,
+            diagnostics,
+        }
+    }
+}
+
+impl Split<'_> {
     /// Where the next part starts, given where its first declaration starts: at the first
     /// of the blank and comment-only lines right above that declaration's line. A comment on
     /// a line of its own covers the next line of code, so those comments belong with the
@@ -152,6 +240,27 @@ impl Iterator for Parts<'_> {
     type Item = Part;
 
     fn next(&mut self) -> Option<Part> {
+        let parsed = self.split.next_parsed()?;
+        Some(self.lower.lower(parsed))
+    }
+}
+
+impl<'a> Split<'a> {
+    fn new(file: FileId, src: &'a str, part_bytes: usize) -> Split<'a> {
+        Split {
+            src,
+            items: Items::new(file, src),
+            part_bytes,
+            carried: None,
+            comments: Vec::new(),
+            diagnostics: Vec::new(),
+            next_start: 0,
+            next_line: 0,
+            done: false,
+        }
+    }
+
+    fn next_parsed(&mut self) -> Option<Parsed> {
         if self.done {
             return None;
         }
@@ -183,7 +292,7 @@ impl Iterator for Parts<'_> {
         // The last part takes everything left, including what is placed at the very end.
         let cut = if self.done { usize::MAX } else { end };
         let comments = take_before(&mut self.comments, cut, |c| c.span.start as usize);
-        let mut diagnostics = take_before(&mut self.diagnostics, cut, |d| d.span.start as usize);
+        let diagnostics = take_before(&mut self.diagnostics, cut, |d| d.span.start as usize);
         let region = Region {
             start: self.next_start,
             end,
@@ -201,13 +310,9 @@ impl Iterator for Parts<'_> {
                 Item::System(s) => ast.systems.push(s),
             }
         }
-        let model = self
-            .lowering
-            .lower(self.file, &ast, self.refs.as_deref(), &mut diagnostics);
-        Some(Part {
+        Some(Parsed {
             region,
             ast,
-            model,
             diagnostics,
         })
     }
@@ -233,10 +338,12 @@ fn take_before<T>(from: &mut Vec<T>, end: usize, at: impl Fn(&T) -> usize) -> Ve
 /// Line breaks in `text`, counted as the line index counts them (`\n`, `\r\n`, lone `\r`).
 fn line_breaks(text: &str) -> usize {
     let b = text.as_bytes();
-    b.iter()
-        .enumerate()
-        .filter(|&(i, &c)| c == b'\n' || (c == b'\r' && b.get(i + 1) != Some(&b'\n')))
-        .count()
+    // Every `\n`, and every `\r` not followed by one (found by `memchr`'s vector search;
+    // a `\r` is rare).
+    let lone_cr = memchr::memchr_iter(b'\r', b)
+        .filter(|&i| b.get(i + 1) != Some(&b'\n'))
+        .count();
+    memchr::memchr_iter(b'\n', b).count() + lone_cr
 }
 
 #[cfg(test)]

@@ -20,7 +20,16 @@ fn in_parts(src: &str, part_bytes: usize) -> (Seen, usize) {
     let settings = Settings::linear();
     let (mut diags, mut systems, mut n) = (Vec::new(), Vec::new(), 0);
     let mut next_start = 0;
-    for part in Parts::new(FileId(0), src, part_bytes) {
+    // Reading and lowering overlapped give the same parts as the iterator.
+    let mut overlapped = Vec::new();
+    Parts::new(FileId(0), src, part_bytes).read_parts(|p| overlapped.push(p));
+    let parts: Vec<Part> = Parts::new(FileId(0), src, part_bytes).collect();
+    first_difference(
+        &overlapped,
+        &parts,
+        &format!("overlapped parts of {part_bytes} bytes"),
+    );
+    for part in overlapped {
         // Parts tile the file: each starts where the one before ended.
         assert_eq!(part.region.start, next_start);
         next_start = part.region.end;
@@ -242,4 +251,41 @@ system "Borrin" {
     // No system at all, or a reference below the systems.
     assert_eq!(refs_end("ref a \"A\"\n"), usize::MAX);
     assert_eq!(refs_end(TWO), usize::MAX);
+}
+
+#[test]
+fn a_reading_already_begun_goes_on_where_it_stopped() {
+    let src = "system \"Ardel\" {\n  star a { mass = 1 Msun }\n}\nsystem \"Brisk\" {\n  star b { mass = 2 Msun }\n}\nsystem \"Cwen\" {\n  star c { mass = 3 Msun }\n}\n";
+    let all: Vec<Part> = Parts::new(FileId(0), src, 10).collect();
+    assert_eq!(all.len(), 3);
+    let mut parts = Parts::new(FileId(0), src, 10);
+    let first = parts.next().unwrap();
+    let mut rest = Vec::new();
+    parts.read_parts(|p| rest.push(p));
+    rest.insert(0, first);
+    first_difference(&rest, &all, "parts after one taken");
+}
+
+#[test]
+fn the_read_ahead_of_references_stops_at_the_first_system_only_when_none_follows() {
+    let head = "ref paper \"An invented paper\"\n# a note\n";
+    let start = head.len();
+    // Names, words and strings holding the letters `ref` are no reference.
+    let none = format!("{head}system \"Preferred\" {{\n  star refx {{ mass = 1 Msun [paper] }}\n}}\n# ref in a comment\n");
+    assert_eq!(refs_end(&none), start);
+    // A reference declared below a system: read to the end.
+    let below =
+        format!("{head}system \"A\" {{\n  star a {{ mass = 1 Msun }}\n}}\nref late \"Another\"\n");
+    assert_eq!(refs_end(&below), usize::MAX);
+    // No system at all.
+    assert_eq!(refs_end(head), usize::MAX);
+}
+
+#[test]
+fn line_breaks_count_each_ending_once() {
+    // `\n`, `\r\n` and a lone `\r` each end a line, as the line index counts them.
+    assert_eq!(line_breaks("a\nb\r\nc\rd"), 3);
+    assert_eq!(line_breaks("\r\r\n\n"), 3);
+    assert_eq!(line_breaks("no break"), 0);
+    assert_eq!(line_breaks("ends\r"), 1);
 }
