@@ -176,6 +176,23 @@ impl Region {
 pub struct LineIndex {
     starts: Vec<u32>,
     len: usize,
+    /// Places on lines longer than [`MARK_STEP`] bytes, about that far apart, with the
+    /// characters before them on their line: a column is counted from the nearest one
+    /// before it, so a file of one very long line (declarations separated by `;`) has
+    /// every column in bounded time, not in time that grows with the line.
+    marks: Vec<Mark>,
+}
+
+/// About how many bytes apart the [`LineIndex`]'s marks on a long line are.
+const MARK_STEP: usize = 1024;
+
+/// A character boundary on a long line, with the characters and UTF-16 units between its
+/// line's start and it.
+#[derive(Debug, Clone, Copy)]
+struct Mark {
+    at: u32,
+    chars: u32,
+    utf16: u32,
 }
 
 impl LineIndex {
@@ -198,10 +215,49 @@ impl LineIndex {
                 starts.push(clamp_u32(i + 1));
             }
         }
+        let mut marks = Vec::new();
+        let mut bounds = starts.iter().map(|&s| s as usize).peekable();
+        while let Some(start) = bounds.next() {
+            let end = bounds.peek().copied().unwrap_or(text.len());
+            if end - start <= MARK_STEP {
+                continue;
+            }
+            let (mut chars, mut utf16, mut next) = (0u32, 0u32, start + MARK_STEP);
+            for (i, ch) in text.get(start..end).unwrap_or_default().char_indices() {
+                if start + i >= next {
+                    marks.push(Mark {
+                        at: clamp_u32(start + i),
+                        chars,
+                        utf16,
+                    });
+                    next = start + i + MARK_STEP;
+                }
+                chars += 1;
+                utf16 += clamp_u32(ch.len_utf16());
+            }
+        }
         LineIndex {
             starts,
             len: text.len(),
+            marks,
         }
+    }
+
+    /// The characters and UTF-16 units between the line start `start` and `offset` (a
+    /// character boundary on that line), counted from the nearest mark between them.
+    fn counted(&self, text: &str, start: usize, offset: usize) -> (usize, usize) {
+        let nearest = self.marks.partition_point(|m| m.at as usize <= offset);
+        let (from, chars, utf16) = match nearest.checked_sub(1).and_then(|i| self.marks.get(i)) {
+            Some(m) if m.at as usize >= start => {
+                (m.at as usize, m.chars as usize, m.utf16 as usize)
+            }
+            _ => (start, 0, 0),
+        };
+        let rest = text.get(from..offset).unwrap_or_default();
+        (
+            chars + rest.chars().count(),
+            utf16 + rest.chars().map(char::len_utf16).sum::<usize>(),
+        )
     }
 
     /// The 0-based line holding `offset` (clamped to the text).
@@ -233,7 +289,7 @@ impl LineIndex {
     pub fn line_col(&self, text: &str, offset: usize) -> LineCol {
         let (line, start) = self.line_of(offset);
         let offset = floor_char_boundary(text, offset.min(text.len()));
-        let column = text.get(start..offset).map_or(0, |s| s.chars().count());
+        let column = self.counted(text, start, offset).0;
         LineCol {
             line: clamp_u32(line + 1),
             column: clamp_u32(column + 1),
@@ -244,9 +300,7 @@ impl LineIndex {
     pub fn utf16_position(&self, text: &str, offset: usize) -> (u32, u32) {
         let (line, start) = self.line_of(offset);
         let offset = floor_char_boundary(text, offset.min(text.len()));
-        let col: usize = text
-            .get(start..offset)
-            .map_or(0, |s| s.chars().map(char::len_utf16).sum());
+        let col = self.counted(text, start, offset).1;
         (clamp_u32(line), clamp_u32(col))
     }
 
@@ -382,6 +436,32 @@ mod tests {
         assert_eq!(idx.line_col(text, b), LineCol { line: 1, column: 5 });
         let s = text.find("second").unwrap_or(0);
         assert_eq!(idx.line_col(text, s), LineCol { line: 2, column: 1 });
+    }
+
+    /// Columns on lines longer than a mark's step, counted from the marks, equal columns
+    /// counted from the line's start, for characters of one to four bytes (and two UTF-16
+    /// units).
+    #[test]
+    fn columns_on_long_lines_are_those_counted_from_the_line_start() {
+        let piece = "mass = 1 ± 0.1 Msun; é 🪐 x; ";
+        let long: String = piece.repeat(300);
+        let text = format!("short\n{long}\r\n{long}\rlast");
+        let idx = LineIndex::new(&text);
+        assert!(idx.marks.len() > 10);
+        for (offset, _) in text.char_indices() {
+            let (line, start) = idx.line_of(offset);
+            let before = &text[start..offset];
+            assert_eq!(
+                idx.line_col(&text, offset).column as usize,
+                before.chars().count() + 1,
+                "{offset}"
+            );
+            let units: usize = before.chars().map(char::len_utf16).sum();
+            assert_eq!(
+                idx.utf16_position(&text, offset),
+                (line as u32, units as u32)
+            );
+        }
     }
 
     #[test]
