@@ -653,7 +653,7 @@ impl Importer {
             .collect();
         if same
             .iter()
-            .any(|e| e.op == d.op && e.text == d.text && e.refs == d.refs)
+            .any(|e| e.op == d.op && cells::same_value(&e.text, &d.text) && e.refs == d.refs)
         {
             self.summary.merged += 1;
             return;
@@ -678,7 +678,7 @@ impl Importer {
         if let Some((r, op, text, uncited)) = first {
             // Say what actually differs: the values, or only the citations (one row with an
             // empty reference cell).
-            let why = if op == d.op && text == d.text {
+            let why = if op == d.op && cells::same_value(&text, &d.text) {
                 let empty = if d.refs.is_empty() {
                     "this row"
                 } else {

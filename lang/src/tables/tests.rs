@@ -182,6 +182,21 @@ fn two_papers_give_two_sources_and_the_same_paper_a_conflict() {
 }
 
 #[test]
+fn the_same_number_written_two_ways_is_one_value() {
+    // Spreadsheets write 0.9 in one row and 0.90 or 9e-1 in the next: one value of one
+    // paper, kept once, not a conflict.
+    let csv = format!(
+        "{HEADER}Orrin,Orrin,b,,0.9,0.03,3.5,0.01,,,,,,P1 2030,\nOrrin,Orrin,b,,0.90,0.030,3.50,1e-2,,,,,,P1 2030,\nOrrin,Orrin,b,,9e-1,3e-2,,,,,,,,P1 2030,\n"
+    );
+    let r = import_csv(&csv, MAPPING);
+    assert!(r.issues.is_empty(), "{:?}", r.issues);
+    assert_eq!(r.summary.merged, 3);
+    let t = text_of(&r, "Orrin");
+    assert_eq!(t.matches("mass").count(), 1, "{t}");
+    clean(&t);
+}
+
+#[test]
 fn a_repeated_value_with_an_empty_reference_cell_says_so() {
     // Row 2 repeats row 1's period with its reference cell empty: the values are the same,
     // only the citation differs, and the message says that rather than a clash of values.

@@ -98,3 +98,59 @@ pub(super) fn shorten(s: &str) -> String {
         format!("{head}…")
     }
 }
+
+/// Whether two declared values (`0.91 ± 0.03 Msun`, `< 5 m/s`) are the same: their numbers
+/// equal as numbers (`0.91`, `0.910` and `9.1e-1` are one value), everything else equal as
+/// written.
+pub(super) fn same_value(a: &str, b: &str) -> bool {
+    let (mut x, mut y) = (pieces(a), pieces(b));
+    loop {
+        match (x.next(), y.next()) {
+            (None, None) => return true,
+            (Some(p), Some(q)) => {
+                let equal = match (p.parse::<f64>(), q.parse::<f64>()) {
+                    (Ok(u), Ok(v)) => u == v,
+                    _ => p == q,
+                };
+                if !equal {
+                    return false;
+                }
+            }
+            _ => return false,
+        }
+    }
+}
+
+/// `text` cut into runs of the characters numbers are written with and runs of the rest.
+fn pieces(text: &str) -> impl Iterator<Item = &str> {
+    let numeric = |c: char| c.is_ascii_digit() || matches!(c, '.' | 'e' | 'E' | '+' | '-');
+    let mut rest = text;
+    std::iter::from_fn(move || {
+        let first = rest.chars().next()?;
+        let kind = numeric(first);
+        let end = rest
+            .find(|c: char| numeric(c) != kind)
+            .unwrap_or(rest.len());
+        let (piece, after) = rest.split_at(end);
+        rest = after;
+        Some(piece)
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::same_value;
+
+    #[test]
+    fn values_are_the_same_when_their_numbers_are() {
+        assert!(same_value("0.91 ± 0.03 Msun", "0.910 ± 0.030 Msun"));
+        assert!(same_value("0.91 ± 0.03 Msun", "9.1e-1 ± 3e-2 Msun"));
+        assert!(same_value("4.2 +0.3/-0.20 d", "4.20 +0.30/-0.2 d"));
+        assert!(!same_value("0.91 ± 0.03 Msun", "0.92 ± 0.03 Msun"));
+        assert!(!same_value("0.91 ± 0.03 Msun", "0.91 ± 0.03 Rsun"));
+        assert!(!same_value("0.91 ± 0.03 Msun", "0.91 Msun"));
+        assert!(!same_value("4.2 +0.3/-0.2 d", "4.2 +0.2/-0.3 d"));
+        assert!(same_value("\"K0V\"", "\"K0V\""));
+        assert!(!same_value("\"K0V\"", "\"K1V\""));
+    }
+}
