@@ -203,10 +203,19 @@ impl<'m> Derivation<'m> {
                             continue;
                         }
                     }
-                    let Some(value) = value::apply(&rule.eval, &args, &self.inputs) else {
+                    let edge = rules::draws_at_edge(rule.id);
+                    let drawn = match edge {
+                        Some((g, _)) => value::apply_drawing(&rule.eval, &g, &args, &self.inputs),
+                        None => value::apply(&rule.eval, &args, &self.inputs),
+                    };
+                    let Some(value) = drawn else {
                         self.no_solution.push((ri, ins));
                         continue;
                     };
+                    if let Some(words) = edge.and_then(|(_, at)| at_edge_words(rule.id, &value, at))
+                    {
+                        assumptions.insert(Arc::from(words));
+                    }
                     let value = if rules::predicts(rule.id) {
                         self.with_relation_scatter(out, value)
                     } else {
@@ -336,4 +345,22 @@ impl Derivation<'_> {
         };
         value::apply(&widen, &[&value, &z], &self.inputs).unwrap_or(value)
     }
+}
+
+/// How the assumption of a value some of whose draws were taken at the edge of its
+/// formula's domain starts.
+pub(super) const EDGE_DRAWS: &str = "b^2 < 0 in ";
+
+/// The assumption of a value some of whose draws were taken at the edge of its formula's
+/// domain ([`rules::draws_at_edge`]): how many, and what it means.
+fn at_edge_words(rule: &str, value: &Value, at: f64) -> Option<String> {
+    let samples = value.samples.as_deref()?;
+    let n = samples.iter().filter(|&&x| x == at).count();
+    if n == 0 || samples.is_empty() {
+        return None;
+    }
+    let share = 100.0 * n as f64 / samples.len() as f64;
+    Some(format!(
+        "{EDGE_DRAWS}{share:.1}% of the Monte Carlo draws of {rule} (durations closer together than any impact parameter gives: more central than a central transit); they are taken at b = 0, the nearest geometry, rather than left out, which would move the interval away from 0"
+    ))
 }

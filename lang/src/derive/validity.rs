@@ -791,8 +791,19 @@ impl<'m> Derivation<'m> {
         let s = self.sampled.as_ref()?;
         let why = s.doubts.get(&key)?;
         let summary = s.derivation.value(key)?.sample_summary()?;
+        // Draws taken at the edge of a formula's domain, said as Monte Carlo says them.
+        let edge = s
+            .derivation
+            .entries
+            .get(&key)
+            .and_then(|e| {
+                e.assumptions
+                    .iter()
+                    .find(|a| a.starts_with(super::rounds::EDGE_DRAWS))
+            })
+            .map_or(String::new(), |a| format!("; {a}"));
         let words = format!(
-            "{SAMPLED}: {why}, so this interval is the median and 16th-84th percentiles of {} Monte Carlo draws (seed {})",
+            "{SAMPLED}: {why}, so this interval is the median and 16th-84th percentiles of {} Monte Carlo draws (seed {}){edge}",
             s.derivation.options.samples, s.derivation.options.seed
         );
         Some((summary, words))

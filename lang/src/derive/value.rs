@@ -298,6 +298,16 @@ pub fn apply<F: Fn(&[f64]) -> Option<f64>>(
     args: &[&Value],
     inputs: &[InputInfo],
 ) -> Option<Value> {
+    apply_drawing(f, f, args, inputs)
+}
+
+/// [`apply`], with `g` instead of `f` over the samples.
+pub fn apply_drawing<F: Fn(&[f64]) -> Option<f64>, G: Fn(&[f64]) -> Option<f64>>(
+    f: &F,
+    g: &G,
+    args: &[&Value],
+    inputs: &[InputInfo],
+) -> Option<Value> {
     let mut x: Vec<f64> = args.iter().map(|a| a.nominal).collect();
     let y = f(&x).filter(|v| v.is_finite())?;
     let mut grad = Vec::new();
@@ -331,7 +341,7 @@ pub fn apply<F: Fn(&[f64]) -> Option<f64>>(
         grad.extend(arg.grad.iter().map(|&(id, g)| (id, g * d)));
     }
     let grad = merge(grad);
-    let samples = sample_through(f, args);
+    let samples = sample_through(g, args);
     Some(Value {
         nominal: y,
         grad,

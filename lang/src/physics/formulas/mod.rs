@@ -82,9 +82,10 @@ pub use stellar::{
 };
 pub use transit::{
     depth_from_radius_ratio, depth_from_radius_ratio_and_impact, impact_from_durations,
-    impact_from_inclination, inclination_from_impact, is_grazing, radius_ratio_from_depth,
-    radius_ratio_from_depth_and_impact, scaled_axis_from_duration, stellar_density_from_duration,
-    stellar_density_from_transit, transit_duration_full, transit_duration_total,
+    impact_from_durations_or_central, impact_from_inclination, inclination_from_impact, is_grazing,
+    radius_ratio_from_depth, radius_ratio_from_depth_and_impact, scaled_axis_from_duration,
+    stellar_density_from_duration, stellar_density_from_transit, transit_duration_full,
+    transit_duration_total,
 };
 
 #[cfg(test)]

@@ -308,6 +308,36 @@ pub fn impact_from_durations(
     e: f64,
     omega: Angle,
 ) -> Option<f64> {
+    let b_sq = impact_squared_from_durations(period, t14, t23, radius_ratio, e, omega)?;
+    (b_sq >= 0.0).then(|| b_sq.sqrt()).and_then(finite_f64)
+}
+
+/// [`impact_from_durations`], with durations closer together than any impact parameter
+/// gives (`b^2 < 0`: more central than a central transit) taken at `b = 0`, the nearest
+/// geometry. For Monte Carlo draws of measured durations: a draw past that edge says the
+/// transit is near central, and leaving it out would move the interval away from 0.
+pub fn impact_from_durations_or_central(
+    period: Time,
+    t14: Time,
+    t23: Time,
+    radius_ratio: f64,
+    e: f64,
+    omega: Angle,
+) -> Option<f64> {
+    let b_sq = impact_squared_from_durations(period, t14, t23, radius_ratio, e, omega)?;
+    finite_f64(b_sq.max(0.0).sqrt())
+}
+
+/// `b^2` of [`impact_from_durations`], negative where no impact parameter gives the
+/// durations.
+fn impact_squared_from_durations(
+    period: Time,
+    t14: Time,
+    t23: Time,
+    radius_ratio: f64,
+    e: f64,
+    omega: Angle,
+) -> Option<f64> {
     if !(radius_ratio.is_finite() && radius_ratio > 0.0 && radius_ratio < 1.0) {
         return None;
     }
@@ -316,8 +346,7 @@ pub fn impact_from_durations(
     if !(r.is_finite() && r > 0.0 && r < 1.0) {
         return None;
     }
-    let b_sq = ((1.0 - radius_ratio).powi(2) - r * (1.0 + radius_ratio).powi(2)) / (1.0 - r);
-    (b_sq >= 0.0).then(|| b_sq.sqrt()).and_then(finite_f64)
+    finite_f64(((1.0 - radius_ratio).powi(2) - r * (1.0 + radius_ratio).powi(2)) / (1.0 - r))
 }
 
 /// Scaled semi-major axis from the total duration, the radius ratio and the impact parameter
