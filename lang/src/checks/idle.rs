@@ -186,6 +186,39 @@ fn waiting_route(
     best
 }
 
+/// For a measurement of a quantity that cannot be negative whose interval reaches 0 (`K = 0 ±
+/// 0.5 m/s`, a non-detection): how to declare it so that it bounds what follows from it.
+fn non_detection_help(
+    d: &Derivation,
+    bi: usize,
+    decls: &[&crate::model::Declared],
+) -> Option<String> {
+    decls.iter().find_map(|x| {
+        let Content::Measured(m) = &x.content else {
+            return None;
+        };
+        let def = quantities::def(x.qty);
+        let from_zero = matches!(def.min, quantities::Bound::Inclusive(z) | quantities::Bound::Exclusive(z) if z == 0.0);
+        if m.form.is_limit() || !from_zero || m.value < 0.0 || m.value > m.below {
+            return None;
+        }
+        let unit = crate::derive::written_unit(x.written_unit.as_deref(), x.qty, m.value);
+        let shown = crate::report::shown_in(m.value, m.below, m.above, m.form, unit);
+        let bound = crate::report::shown_in(
+            m.value + 2.0 * m.above,
+            0.0,
+            0.0,
+            crate::model::Form::UpperLimit,
+            unit,
+        );
+        Some(format!(
+            "{} = {shown} is consistent with 0, no signal: declare a non-detection as an upper limit, such as `{} {bound}` (the value plus twice its uncertainty, one common convention; the bound the paper gives is better), and what follows from it is given as a limit",
+            d.key_name((bi, x.qty)),
+            def.name
+        ))
+    })
+}
+
 /// The note on measurements left unused by a rule that had every input but no solution for
 /// them (the formula's domain excludes the values: T14, T23 and the depth that admit no
 /// impact parameter), with a unit slip of one of its inputs that would give one.
@@ -199,7 +232,9 @@ fn unsolved_note(
     let listed = crate::text::and_list(&names);
     let first = names.first().cloned().unwrap_or_default();
     let slips = d.solving_readings(bi, rule);
-    let help = crate::derive::readings_help(&slips).unwrap_or_else(|| {
+    let help = crate::derive::readings_help(&slips)
+        .or_else(|| non_detection_help(d, bi, decls))
+        .unwrap_or_else(|| {
         format!(
             "check {listed} and their units against the other inputs of {}; `syz explain FILE {first}` lists the routes",
             rule.id

@@ -28,6 +28,7 @@ mod set;
 mod slips;
 pub mod sources;
 mod summary;
+pub(crate) use summary::written_unit;
 pub mod truncation;
 mod turn;
 pub mod validity;

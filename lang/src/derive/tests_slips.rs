@@ -369,3 +369,41 @@ fn a_radius_above_the_depth_s_says_the_transit_may_graze() {
         &src.replace("1.0 ± 0.03 Rjup", "0.5 ± 0.03 Rearth")
     ));
 }
+
+/// A velocity amplitude of `0 ± 0.5 m/s` (a non-detection) has no minimum mass at its
+/// value: the note says how to declare it so that it bounds the mass, and `explain` names
+/// the route that had every input first.
+#[test]
+fn a_non_detection_written_as_zero_is_pointed_to_a_limit() {
+    let src = "system \"Zerrow\" {
+  star s { mass = 0.8 ± 0.03 Msun; radius = 0.75 ± 0.02 Rsun; teff = 4800 ± 70 K }
+  planet b orbits s { period = 2.5 ± 0.0001 d; rv_amplitude = 0 ± 0.5 m/s }
+}";
+    let a = run(src);
+    let found = helps_of(&a, Rule::NotDerivable);
+    assert!(
+        found
+            .iter()
+            .any(|h| h.contains("consistent with 0") && h.contains("`rv_amplitude < 1 m/s`")),
+        "{found:#?}"
+    );
+    let why = crate::report::missing_text(&a, 0, 1, crate::quantities::Qty::MinMass);
+    assert!(
+        why.contains("rv-minimum-mass has every input but gives no value")
+            && why.contains("; otherwise it follows by projected-mass"),
+        "{why}"
+    );
+    // Declared as that limit, the mass is a limit.
+    let limited = run(&src.replace("= 0 ± 0.5 m/s", "< 1 m/s"));
+    assert!(helps_of(&limited, Rule::NotDerivable).is_empty());
+    let m = limited.results[0].bodies[1]
+        .get(crate::quantities::Qty::MinMass)
+        .cloned()
+        .expect("a minimum mass");
+    assert_eq!(m.form, crate::model::Form::UpperLimit);
+    // A measurement well away from 0 gets no such advice.
+    let far = run(&src.replace("= 0 ± 0.5 m/s", "= 1e9 ± 1 m/s"));
+    assert!(!helps_of(&far, Rule::NotDerivable)
+        .iter()
+        .any(|h| h.contains("consistent with 0")));
+}

@@ -147,10 +147,8 @@ fn routes_missing(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<String
         );
         routes.push((lacking.len(), rule.tier, text));
     }
-    if routes.is_empty() {
-        if failed.is_empty() {
-            return None;
-        }
+    // The rules that had every input come first: what to look at is their inputs' values.
+    let failed_text = (!failed.is_empty()).then(|| {
         let value = |q: Qty| result(bi, q).map(|r| r.value);
         let grazing = matches!(
             (value(Qty::RadiusRatio), value(Qty::Impact)),
@@ -166,14 +164,17 @@ fn routes_missing(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<String
         } else {
             ("have", "give")
         };
-        return Some(format!(
+        format!(
             "{} {has} every input but {gives} no value at these inputs{why}",
             crate::text::and_list(&failed)
-        ));
+        )
+    });
+    if routes.is_empty() {
+        return failed_text;
     }
     routes.sort_by(|x, y| (x.0, x.1).cmp(&(y.0, y.1)).then_with(|| x.2.cmp(&y.2)));
     let shown: Vec<String> = routes.into_iter().take(3).map(|r| r.2).collect();
-    Some(format!(
+    let follows = format!(
         "{} {}",
         if shown.len() == 1 {
             "it follows by"
@@ -181,7 +182,11 @@ fn routes_missing(a: &Analysis, si: usize, bi: usize, qty: Qty) -> Option<String
             "it follows by any of"
         },
         shown.join("; ")
-    ))
+    );
+    Some(match failed_text {
+        Some(f) => format!("{f}; otherwise {follows}"),
+        None => follows,
+    })
 }
 
 /// The declarations of `qty` of body `bi` that could not be used, one sentence each (empty
