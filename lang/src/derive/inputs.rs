@@ -521,7 +521,7 @@ impl<'m> Derivation<'m> {
             .collect();
         let lines: Vec<Option<usize>> = all.iter().map(|d| self.lines.line(d.span.start)).collect();
         let name = format!("{}.{}", body.id, quantities::def(first.qty).name);
-        let words = sources::words(&name, &cites, &lines, &chosen);
+        let words = sources::words(&name, &cites, &lines, &chosen, &measurements);
         self.chosen.insert((bi, first.qty), chosen.clone());
         Some((chosen, words))
     }

@@ -336,6 +336,7 @@ pub fn words(
     cites: &[Vec<String>],
     lines: &[Option<usize>],
     chosen: &Chosen,
+    measurements: &[Measurement],
 ) -> String {
     let n = cites.len();
     let source = |i: usize| {
@@ -366,11 +367,27 @@ pub fn words(
             )
         }
         (Choice::Marked, Some(i), _) => format!("chosen: the one marked preferred ({})", source(i)),
+        (Choice::Last, Some(i), _) if i + 1 < measurements.len() => format!(
+            "chosen: the last measurement listed that states an uncertainty and is not assumed ({}); a later source is a limit, states no uncertainty or is assumed",
+            source(i)
+        ),
         (Choice::Last, Some(i), _) => {
             format!("chosen: the last measurement listed ({})", source(i))
         }
         (_, Some(i), _) if chosen.measurement.form.is_limit() => {
-            format!("chosen: the most constraining limit ({})", source(i))
+            let (which, other, side) = if chosen.measurement.form == Form::UpperLimit {
+                ("the smallest upper limit", Form::LowerLimit, "lower")
+            } else {
+                ("the largest lower limit", Form::UpperLimit, "upper")
+            };
+            let unused = if measurements.iter().any(|m| m.form == other) {
+                format!(
+                    "; the {side} limit declared too bounds the other side and is not used (derivations take one limit, not the range between two)"
+                )
+            } else {
+                String::new()
+            };
+            format!("chosen: {which}, the most constraining ({}){unused}", source(i))
         }
         (_, Some(i), _) if chosen.unranked.is_some() => format!(
             "chosen: {} ({})",
@@ -549,7 +566,45 @@ mod tests {
         let only = [upper(0.3), upper(0.2)];
         let l = choose(&only, &[], None, SourceChoice::Last).unwrap();
         assert_eq!(l.index, Some(1));
-        assert!(words("b.eccentricity", &[vec![], vec![]], &[], &l).contains("most constraining"));
+        assert!(words("b.eccentricity", &[vec![], vec![]], &[], &l, &only)
+            .contains("most constraining"));
+        // An upper and a lower limit: the one used is named for what it is, and the other
+        // is said to go unused.
+        let lower = Measurement {
+            form: Form::LowerLimit,
+            ..upper(5.0)
+        };
+        let both = [lower, upper(30.0)];
+        let c = choose(&both, &[], None, SourceChoice::MostPrecise).unwrap();
+        let w = words("b.rv_amplitude", &[vec![], vec![]], &[], &c, &both);
+        assert!(w.contains("chosen: the smallest upper limit"), "{w}");
+        assert!(
+            w.contains("the lower limit declared too bounds the other side and is not used"),
+            "{w}"
+        );
+        let w = words("b.eccentricity", &[vec![], vec![]], &[], &l, &only);
+        assert!(!w.contains("declared too"), "{w}");
+    }
+
+    #[test]
+    fn the_last_measurement_is_named_as_the_last_that_states_an_uncertainty() {
+        let m = |v: f64, s: f64| Measurement {
+            value: v,
+            below: s,
+            above: s,
+            form: Form::Symmetric,
+        };
+        let s = [m(5.0, 0.001), m(5.01, 0.01), m(5.0, 0.0)];
+        let c = choose(&s, &[], None, SourceChoice::Last).unwrap();
+        assert_eq!(c.index, Some(1));
+        let w = words("b.period", &[vec![], vec![], vec![]], &[], &c, &s);
+        assert!(
+            w.contains("the last measurement listed that states an uncertainty"),
+            "{w}"
+        );
+        let c = choose(&s[..2], &[], None, SourceChoice::Last).unwrap();
+        let w = words("b.period", &[vec![], vec![]], &[], &c, &s[..2]);
+        assert!(w.contains("chosen: the last measurement listed ("), "{w}");
     }
 
     #[test]
@@ -593,10 +648,10 @@ mod tests {
         let c = choose(&s, &[], None, SourceChoice::MostPrecise).unwrap();
         let cites = [vec!["disc".to_string()], vec!["followup".to_string()]];
         assert_eq!(
-            words("b.period", &cites, &[Some(6), Some(14)], &c),
+            words("b.period", &cites, &[Some(6), Some(14)], &c, &[]),
             "b.period: 2 sources; chosen: the most precise, by standard uncertainty ([followup], source 2 of 2, line 14)"
         );
-        assert!(words("b.period", &cites, &[], &c).ends_with("source 2 of 2)"));
+        assert!(words("b.period", &cites, &[], &c, &[]).ends_with("source 2 of 2)"));
     }
 
     #[test]
@@ -655,7 +710,7 @@ mod tests {
         ];
         let c = choose(&s, &[], None, SourceChoice::MostPrecise).unwrap();
         assert_eq!(c.index, Some(0));
-        assert!(words("s.radius", &[vec![], vec![]], &[], &c).contains(
+        assert!(words("s.radius", &[vec![], vec![]], &[], &c, &[]).contains(
             "the first measurement listed that is not assumed, as none states an uncertainty"
         ));
         // An assumption with an uncertainty and one without: the one with it, as the most
@@ -678,7 +733,7 @@ mod tests {
         ];
         let c = choose(&s, &[true, false], None, SourceChoice::MostPrecise).unwrap();
         assert_eq!(c.index, Some(1));
-        assert!(words("b.period", &[vec![], vec![]], &[], &c).contains("not assumed"));
+        assert!(words("b.period", &[vec![], vec![]], &[], &c, &[]).contains("not assumed"));
         // Only assumptions without uncertainty: the first, said so.
         let s = [
             exact,
@@ -689,7 +744,9 @@ mod tests {
         ];
         let c = choose(&s, &[true, true], None, SourceChoice::MostPrecise).unwrap();
         assert_eq!(c.index, Some(0));
-        assert!(words("s.radius", &[vec![], vec![]], &[], &c).contains("every source is assumed"));
+        assert!(
+            words("s.radius", &[vec![], vec![]], &[], &c, &[]).contains("every source is assumed")
+        );
     }
 
     #[test]
