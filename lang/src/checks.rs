@@ -630,7 +630,16 @@ fn plausible_star(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
             ));
         }
     }
-    if let Some(g) = nominal(d, (bi, Qty::LogG)) {
+    // A radius or mass so far off that g itself overflows or underflows (a radius of
+    // 1e-200 Rsun) leaves no log g among the values: it is computed here in logarithms.
+    let log_g = nominal(d, (bi, Qty::LogG)).or_else(|| {
+        let m = nominal(d, (bi, Qty::StarMass))?;
+        let r = nominal(d, (bi, Qty::StarRadius))?;
+        // log10 of G M / R^2 in cm/s^2 (the unit log g is given in).
+        let g = (crate::constants::G * m).log10() - 2.0 * r.log10() + 2.0;
+        (m > 0.0 && r > 0.0 && g.is_finite()).then_some(g)
+    });
+    if let Some(g) = log_g {
         if g < STAR_LOG_G.0 || g > STAR_LOG_G.1 {
             problems.push((
                 Qty::LogG,

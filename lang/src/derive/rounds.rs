@@ -208,7 +208,14 @@ impl<'m> Derivation<'m> {
                         Some((g, _)) => value::apply_drawing(&rule.eval, &g, &args, &self.inputs),
                         None => value::apply(&rule.eval, &args, &self.inputs),
                     };
-                    let Some(value) = drawn else {
+                    // A value of exactly 0 where the quantity cannot be 0 (a luminosity, a
+                    // density) is a number too small to represent, from absurd inputs (a
+                    // radius of 1e-200 Rsun): no solution, not a value of 0.
+                    let zero_excluded = |v: &Value| {
+                        v.nominal == 0.0
+                            && matches!(quantities::def(out.1).min, quantities::Bound::Exclusive(z) if z == 0.0)
+                    };
+                    let Some(value) = drawn.filter(|v| !zero_excluded(v)) else {
                         self.no_solution.push((ri, ins));
                         continue;
                     };

@@ -407,3 +407,42 @@ fn a_non_detection_written_as_zero_is_pointed_to_a_limit() {
         .iter()
         .any(|h| h.contains("consistent with 0")));
 }
+
+/// Radii too absurd for g to be represented (1e-200 and 1e200 Rsun) are still found
+/// implausible (log g computed in logarithms), and no derived value that cannot be 0 is
+/// shown as 0 after underflowing.
+#[test]
+fn absurd_radii_are_implausible_and_underflow_is_no_value() {
+    let src = "system \"Nib\" {
+  star n { mass = 1 ± 0.05 Msun; radius = 1e-200 ± 1e-201 Rsun; teff = 5000 ± 50 K }
+  planet b orbits n { period = 10 ± 0.01 d; transit_depth = 0.1 ± 0.01 % }
+}
+system \"Vast\" {
+  star v { mass = 1 ± 0.05 Msun; radius = 1e200 ± 1e199 Rsun; teff = 5000 ± 50 K }
+  planet b orbits v { period = 10 ± 0.01 d }
+}";
+    let a = run(src);
+    let found = findings(&a, Rule::ImplausibleStar);
+    assert_eq!(found.len(), 2, "{:#?}", a.diagnostics);
+    assert!(
+        found[0].message.contains("log g 404.44"),
+        "{}",
+        found[0].message
+    );
+    assert!(
+        found[1].message.contains("log g -395.56"),
+        "{}",
+        found[1].message
+    );
+    for r in &a.results {
+        for body in &r.bodies {
+            for q in body.quantities.iter() {
+                let from_zero = matches!(
+                    crate::quantities::def(q.qty).min,
+                    crate::quantities::Bound::Exclusive(z) if z == 0.0
+                );
+                assert!(!(from_zero && q.value == 0.0), "{:?} is 0", q.qty);
+            }
+        }
+    }
+}
