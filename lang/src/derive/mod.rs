@@ -295,7 +295,7 @@ impl SampleCount {
 /// Monte Carlo sample arrays one system may hold at once (in bytes), and about how many
 /// arrays a body holds: past this, the system is sampled more thinly and says so.
 const SAMPLE_BUDGET: usize = 512 << 20;
-const ARRAYS_PER_BODY: usize = 24;
+const ARRAYS_PER_BODY: usize = 40;
 /// The fewest samples drawn however large the system.
 const MIN_SAMPLES: usize = 100;
 
@@ -320,7 +320,7 @@ fn samples_for(sys: &System, asked: usize) -> (usize, Option<Arc<str>>) {
     let words = format!(
         "Monte Carlo with {most} samples, not the {asked} asked for: this system has {held}, \
          and fewer samples per value keep its memory bounded; interval ends are less precise \
-         (first-order propagation, --propagation linear, has no such limit)"
+         (first-order propagation, --propagation linear, samples only the values it cannot describe)"
     );
     (most, Some(Arc::from(words)))
 }

@@ -1720,9 +1720,9 @@ fn many_bindings_are_sampled_within_the_budget() {
         .chain(&p.notes)
         .find(|w| w.contains("asked for: this system has"))
         .unwrap_or_else(|| panic!("{p:?}"));
-    // The budget, 512 MiB, over the arrays: 24 for each of the two bodies and one per
+    // The budget, 512 MiB, over the arrays: 40 for each of the two bodies and one per
     // binding.
-    let most = (512usize << 20) / ((2 * 24 + lets) * 8);
+    let most = (512usize << 20) / ((2 * 40 + lets) * 8);
     assert!(
         said.starts_with(&format!(
             "Monte Carlo with {most} samples, not the 100000 asked for: this system has {lets} bindings"
