@@ -20,11 +20,24 @@ impl<'m> Derivation<'m> {
         // The value's dominant limit first, then the other limits it rests on, pinned
         // together: each key with its slope and share along the dominant one.
         let mut by_limits: BTreeMap<Vec<(u32, bool)>, Vec<Limited>> = BTreeMap::new();
+        // A prediction's share of its variance from its relation's scatter.
+        let mut scattered: FxHashMap<Key, f64> = FxHashMap::default();
         for (key, entry) in &self.entries {
             if !entry.origin.is_computed() || entry.value.grad.is_empty() {
                 continue;
             }
-            let budget = entry.value.budget(&self.inputs);
+            let mut budget = entry.value.budget(&self.inputs);
+            // A prediction's relation scatter is no measurement and bounds nothing: the
+            // limit's share is counted among the measurements' variance (a mass predicted
+            // from a radius `< 1.9 Rearth` is a limit however wide the relation).
+            if let Some(w) = self.widened.get(key) {
+                let share = budget.iter().find(|b| b.0 == w.input).map_or(0.0, |b| b.1);
+                budget.retain(|b| b.0 != w.input);
+                if share < 1.0 {
+                    budget.iter_mut().for_each(|b| b.1 /= 1.0 - share);
+                }
+                scattered.insert(*key, share);
+            }
             let Some(&(id, share)) = budget.first() else {
                 continue;
             };
@@ -181,13 +194,24 @@ impl<'m> Derivation<'m> {
                 // What the other inputs' uncertainties would add is left out of the limit:
                 // said when it is not negligible, so the bound is not read as a safe one.
                 let rest = 100.0 - (share * 100.0).min(100.0);
-                let unwidened = if rest >= 5.0 {
+                let mut unwidened = if rest >= 5.0 {
                     format!("; the uncertainties of the other inputs ({rest:.0}% of the variance) do not widen it")
                 } else {
                     String::new()
                 };
+                if let Some(s) = scattered.get(&key).filter(|s| **s >= 0.05) {
+                    unwidened.push_str(&format!(
+                        "; it is the relation's mean at that limit, and the relation's scatter ({:.0}% of the variance) does not widen it: a planet there may lie above or below the mean",
+                        s * 100.0
+                    ));
+                }
+                let of = if scattered.contains_key(&key) {
+                    "its measurements' variance"
+                } else {
+                    "its variance"
+                };
                 let words = format!(
-                    "{} is {LIMITED}: {:.0}% of its variance comes from {first}, so it is given at that limit{also}, with the other inputs at their values (common practice){unwidened}{between}",
+                    "{} is {LIMITED}: {:.0}% of {of} comes from {first}, so it is given at that limit{also}, with the other inputs at their values (common practice){unwidened}{between}",
                     self.key_name(key),
                     (share * 100.0).min(100.0),
                 );

@@ -1608,7 +1608,8 @@ fn a_limit_that_hardly_moves_a_value_leaves_it_a_value() {
 
 /// A value that rests on a limit for only part of its variance is still given at the limit,
 /// and says what is left out: here the radius predicted from a minimum mass, whose relation
-/// scatter is about half the variance (it said nothing of it).
+/// scatter is about half the variance (it said nothing of it). The scatter is said as the
+/// relation's, not as a measurement's.
 #[test]
 fn a_bound_says_what_the_other_inputs_would_add() {
     let src = "system \"Orl\" {\n star s { mass = 0.9 ± 0.03 Msun; radius = 0.85 ± 0.02 Rsun }\n planet b orbits s {\n  period = 4.2 ± 0.001 d\n  rv_amplitude < 10 m/s\n }\n}\n";
@@ -1624,14 +1625,14 @@ fn a_bound_says_what_the_other_inputs_would_add() {
     };
     let predicted = words(Qty::PredictedRadius);
     let share: f64 = predicted
-        .split("the other inputs (")
+        .split("the relation's scatter (")
         .nth(1)
         .and_then(|r| r.split('%').next())
         .and_then(|n| n.parse().ok())
         .unwrap_or_else(|| panic!("{predicted}"));
     assert!((5.0..95.0).contains(&share), "{predicted}");
     assert!(
-        predicted.ends_with("of the variance) do not widen it"),
+        predicted.ends_with("does not widen it: a planet there may lie above or below the mean"),
         "{predicted}"
     );
     // The minimum mass rests on the limit alone: nothing to add.

@@ -134,3 +134,43 @@ fn a_prediction_on_a_mass_sampled_at_the_sides_is_sampled() {
     let words = sampled_why(&r);
     assert!(words.contains("it rests on c.mass"), "{words}");
 }
+
+/// A mass predicted from a radius that is only an upper limit is an upper limit too: the
+/// relation's scatter is no measurement and does not keep it an interval (it was given as
+/// `1.9 +2.6/-1.6 Mearth`, its lower part from sampling the depth down to 0).
+#[test]
+fn a_prediction_from_a_limit_is_a_limit() {
+    use crate::model::Form;
+    let src = r#"system "Zephran" {
+  star z { mass = 0.80 +- 0.03 Msun; radius = 0.78 +- 0.02 Rsun; teff = 5000 +- 70 K }
+  planet e orbits z { period = 70 +- 0.1 d; transit_depth < 0.05 % }
+}
+"#;
+    // Rp = sqrt(depth) R* at the limit, IAU 2015 B3 nominal radii (Rsun 6.957e8 m, Rearth
+    // 6.3781e6 m); Chen & Kipping (2017) Neptunian branch R = 0.80811 M^0.589 (Earth units).
+    let r = 0.0005f64.sqrt() * 0.78 * 6.957e8 / 6.3781e6;
+    let want = (r / 0.80811).powf(1.0 / 0.589);
+    for options in [Options::linear(), Options::default()] {
+        let a = run(src, options);
+        let m = predicted_mass(&a);
+        assert_eq!(m.form, Form::UpperLimit, "{m:?}");
+        let earth = m.value / crate::constants::M_EARTH;
+        assert!((earth / want - 1.0).abs() < 2e-3, "{earth} vs {want}");
+        assert!(
+            m.assumptions
+                .iter()
+                .any(|s| s.contains("the relation's scatter")),
+            "{:?}",
+            m.assumptions
+        );
+    }
+}
+
+fn predicted_mass(a: &Analysis) -> QuantityResult {
+    a.results
+        .first()
+        .and_then(|r| r.bodies.get(1))
+        .and_then(|b| b.get(Qty::PredictedMass))
+        .cloned()
+        .expect("a predicted mass")
+}
