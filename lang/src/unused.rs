@@ -109,7 +109,16 @@ pub fn collect(
                         .find(|d| d.span == p.span)
                         .is_none_or(|d| values.is_none_or(|v| v.get(d.qty).is_some()))
                 };
-                if kept && valued() {
+                // Replaced by a value set on the command line (`--set`), whose assumption
+                // names every declaration it stands in for: not a declaration refused.
+                let replaced = || {
+                    crate::quantities::find(b.kind, &p.name.name).is_some_and(|def| {
+                        body.declared
+                            .iter()
+                            .any(|d| d.qty == def.qty && d.set.is_some())
+                    })
+                };
+                if (kept && valued()) || replaced() {
                     continue;
                 }
                 let (mut rule, mut why) = reasons.of(p.span);
@@ -410,5 +419,45 @@ system \"Tessaly\" {
             &[],
         );
         assert!(a.unused.is_empty(), "{:?}", a.unused);
+    }
+}
+
+#[cfg(test)]
+mod tests_set {
+    use crate::settings::Settings;
+    use crate::source::FileId;
+
+    /// Declarations replaced by a value set on the command line are not listed as refused,
+    /// whether or not the file has an unrelated error (they were listed as "it could not be
+    /// used" when it had one); the set value's assumption names them.
+    #[test]
+    fn declarations_replaced_by_set_are_not_refused() {
+        let src = "ref a \"Avrel 2030 (invented)\"\nref b \"Brisko 2031 (invented)\"\nsystem \"Yarrow\" {\n  star y { mass = 0.9 ± 0.04 Msun; radius = 0.9 ± 0.03 Rsun }\n  planet b orbits y {\n    period = 5.0 ± 0.001 d [a]\n    period = 5.01 ± 0.01 d [b]\n    radius_ratio = 0.10 ± 0.002\n    transit_depth = 1.30 ± 0.03 %\n  }\n}\n";
+        let settings = Settings {
+            what_if: vec![crate::model::what_if::parse("b.period=5.5 ± 0.1 d").unwrap()],
+            ..Settings::linear()
+        };
+        let a = crate::analyze(FileId(0), src, &settings);
+        // The radius ratio and depth disagree: the file has a finding of its own.
+        assert!(!a.diagnostics.is_empty());
+        assert!(
+            !a.unused
+                .iter()
+                .any(|u| u.quantity.as_deref() == Some("period")),
+            "{:?}",
+            a.unused
+        );
+        let period = a.results[0].bodies[1]
+            .get(crate::quantities::Qty::Period)
+            .cloned()
+            .unwrap();
+        assert!(
+            period
+                .assumptions
+                .iter()
+                .any(|s| s.contains("in place of the file's 5.0 ± 0.001 d, 5.01 ± 0.01 d")),
+            "{:?}",
+            period.assumptions
+        );
     }
 }
