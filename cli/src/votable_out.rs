@@ -106,11 +106,11 @@ pub fn head(propagation: &str, which: TableArg) -> String {
     out.push_str("/>\n  <INFO name=\"propagation\"");
     attr(&mut out, "value", propagation);
     out.push_str("/>\n");
-    // Transit epochs are barycentric Julian dates in TDB unless their `.system` column says
-    // otherwise (VOTable 1.4, section 4.6).
-    out.push_str(
-        "  <TIMESYS ID=\"bjd_tdb\" timeorigin=\"JD-origin\" timescale=\"TDB\" refposition=\"BARYCENTER\"/>\n",
-    );
+    // No TIMESYS (VOTable 1.4, section 4.6): one FIELD may reference only one, and the
+    // epochs of a catalogue are Julian dates in the time system each row's
+    // `transit_epoch.system` names (BJD_TDB, HJD_UTC, JD_UTC...). Labelling the column TDB at
+    // the barycentre would have a reader that honours TIMESYS take a UTC or heliocentric
+    // epoch as BJD_TDB (off by a minute and up to 8 minutes of light time).
     match which {
         TableArg::Planets => planet_fields(&mut out),
         TableArg::Sources => source_fields(&mut out),
@@ -135,11 +135,6 @@ fn planet_fields(out: &mut String) {
         }
         if let Some(ucd) = table::column_ucd(&column) {
             attr(out, "ucd", &ucd);
-        }
-        if let Content::Quantity(def, Part::Value) = column.content {
-            if def.qty == Qty::TransitEpoch {
-                out.push_str(" ref=\"bjd_tdb\"");
-            }
         }
         out.push_str(">\n    <DESCRIPTION>");
         escape(out, &description(&column));
