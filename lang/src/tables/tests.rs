@@ -651,6 +651,29 @@ fn vounits_in_syzygy_spelling() {
         assert_eq!(vounit_to_syzygy(vo).as_deref(), Ok(syz), "{vo}");
         assert!(crate::units::parse_unit_text(syz).is_some(), "{syz}");
     }
+    // Units with a scale factor, as `syz` writes Jupiter's and the Earth's (IAU 2015 B3
+    // nominal values: G M_J / G with CODATA 2018 G, R_J equatorial 7.1492e7 m, R_E
+    // equatorial 6.3781e6 m), and astropy with them.
+    for (vo, syz) in [
+        ("1.8981245973360505e27kg", "Mjup"),
+        ("7.1492e+07m", "Rjup"),
+        ("6.3781e6m", "Rearth"),
+        ("5.972167867791379e24kg", "Mearth"),
+    ] {
+        assert_eq!(vounit_to_syzygy(vo).as_deref(), Ok(syz), "{vo}");
+    }
+    for (vo, why) in [
+        ("2e27kg", "no astronomical unit"),
+        ("1.5e3furlong", "`furlong`"),
+    ] {
+        let e = vounit_to_syzygy(vo).unwrap_err();
+        assert!(e.contains(why), "{vo}: {e}");
+    }
+    // What syz writes, it reads: every scaled unit of its tables.
+    for unit in ["Mjup", "Rjup", "Mearth", "Rearth"] {
+        let vo = crate::output::table::vo_unit(unit).unwrap();
+        assert_eq!(vounit_to_syzygy(&vo).as_deref(), Ok(unit), "{vo}");
+    }
     // Magnitudes are Syzygy's unit of the magnitudes (`magnitude_v`), as in VOUnits.
     assert_eq!(vounit_to_syzygy("mag").as_deref(), Ok("mag"));
     assert!(vounit_to_syzygy("Celsius").unwrap_err().contains("offset"));

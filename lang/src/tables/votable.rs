@@ -529,6 +529,9 @@ pub fn vounit_to_syzygy(vo: &str) -> Result<String, String> {
     if vo == "%" || vo == "ppm" {
         return Ok(vo.to_string());
     }
+    if vo.starts_with(|c: char| c.is_ascii_digit()) {
+        return scaled_unit(vo);
+    }
     let mut num: Vec<String> = Vec::new();
     let mut den: Vec<String> = Vec::new();
     for (i, part) in vo.split('/').enumerate() {
@@ -564,6 +567,37 @@ pub fn vounit_to_syzygy(vo: &str) -> Result<String, String> {
         }
     }
     Ok(out)
+}
+
+/// A unit with a scale factor (VOUnits 1.0, 2.7: `1.8981245973360505e27kg`, how Jupiter's
+/// and the Earth's mass and radius are written, by `syz` among others, as VOUnit has no
+/// symbols for them): the Syzygy unit of that size and dimension, among the astronomical
+/// ones (Mjup, Mearth, Msun, Rjup, Rearth, Rsun, au), equal to a part in 10^9.
+fn scaled_unit(vo: &str) -> Result<String, String> {
+    // The factor is the longest leading run that reads as a number.
+    let split = (1..=vo.len())
+        .rev()
+        .filter(|&i| vo.is_char_boundary(i))
+        .find(|&i| vo[..i].parse::<f64>().is_ok())
+        .unwrap_or(0);
+    let (factor, rest) = vo.split_at(split);
+    let factor: f64 = factor
+        .parse()
+        .map_err(|_| format!("cannot read the factor of `{vo}`"))?;
+    let rest = vounit_to_syzygy(rest.trim_start_matches('.'))?;
+    let unit = crate::units::parse_unit_text(&rest)
+        .ok_or_else(|| format!("cannot read the unit of `{vo}`"))?;
+    let size = factor * unit.factor;
+    ["Mjup", "Mearth", "Msun", "Rjup", "Rearth", "Rsun", "au"]
+        .into_iter()
+        .find(|name| {
+            crate::units::parse_unit_text(name)
+                .is_some_and(|u| u.dim == unit.dim && ((u.factor - size) / u.factor).abs() < 1e-9)
+        })
+        .map(str::to_string)
+        .ok_or_else(|| {
+            format!("`{vo}` is {factor} times {rest}, no astronomical unit Syzygy knows")
+        })
 }
 
 /// Why a temperature scale with an offset from kelvin (VOUnits' `Celsius`, and the usual
