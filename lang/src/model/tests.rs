@@ -739,3 +739,26 @@ fn an_epoch_with_its_offset_left_off_is_refused() {
     assert!(d.message.contains("before the year 1000"), "{}", d.message);
     assert!(d.help.as_deref().is_some_and(|h| h.contains("2400000")));
 }
+
+#[test]
+fn numbers_and_uncertainties_too_small_to_represent_are_refused() {
+    // Below f64::MIN_POSITIVE a number keeps fewer digits than it shows: `1 ± 1e-320 %`
+    // was shown as `1.00 ± 9.9e-321 %`.
+    for (value, said) in [
+        ("1 ± 1e-320 %", "this uncertainty is too small to represent"),
+        (
+            "1 +1e-320/-0.1 %",
+            "this uncertainty is too small to represent",
+        ),
+        ("1e-320 %", "this number is too small to represent"),
+    ] {
+        let (_, diags) = lower_text(&format!(
+            "system \"Umber\" {{ star s {{ mass = 1 Msun }}\n planet b orbits s {{ transit_depth = {value} }} }}"
+        ));
+        assert!(messages(&diags).contains(&said), "{value}: {diags:#?}");
+    }
+    let (_, diags) = lower_text(
+        "system \"Umber\" { star s { mass = 1 Msun }\n planet b orbits s { transit_depth = 1 ± 1e-300 % } }",
+    );
+    assert!(diags.is_empty(), "{diags:#?}");
+}

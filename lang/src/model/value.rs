@@ -275,12 +275,28 @@ pub(super) fn lower_value(
         );
         return None;
     }
-    if unit.factor != 0.0 && value != 0.0 && value.abs() < f64::MIN_POSITIVE {
+    let subnormal = |x: f64| x != 0.0 && x.abs() < f64::MIN_POSITIVE;
+    if unit.factor != 0.0 && subnormal(value) {
         diags.push(Diagnostic::new(
             Rule::InvalidValue,
             expr.span,
             "this number is too small to represent",
         ));
+        return None;
+    }
+    // An uncertainty too small for full precision (`1 ± 1e-320 %`) would be shown with
+    // digits it does not have.
+    if unit.factor != 0.0 && (subnormal(below) || subnormal(above)) {
+        diags.push(
+            Diagnostic::new(
+                Rule::InvalidValue,
+                expr.span,
+                "this uncertainty is too small to represent",
+            )
+            .with_help(
+                "an uncertainty this small is no uncertainty: write the value without one (exact)",
+            ),
+        );
         return None;
     }
     // A radial-velocity amplitude cannot reach the speed of light. Not a bound of the

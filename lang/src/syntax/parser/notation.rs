@@ -515,6 +515,40 @@ impl Cursor<'_> {
         }
     }
 
+    /// A sign slip inside an asymmetric uncertainty, which the grammar would read as a
+    /// division and report as a wrong dimension: `± 0.05/-0.02` (`+-` for `+`) and
+    /// `+0.1/--0.1` (a doubled minus).
+    pub(super) fn sign_slip_in_uncertainty(&self, slice: &[Token]) -> Option<Diagnostic> {
+        let kinds: Vec<Tok> = slice.iter().map(|t| t.kind).collect();
+        kinds.windows(5).enumerate().find_map(|(k, w)| {
+            let (fix, len) = match w {
+                [Tok::PlusMinus, Tok::Number, Tok::Slash, Tok::Minus, Tok::Number] => {
+                    let (a, b) = (slice.get(k + 1)?, slice.get(k + 4)?);
+                    (format!("+{}/-{}", self.text(*a), self.text(*b)), 5)
+                }
+                [Tok::Plus, Tok::Number, Tok::Slash, Tok::Minus, Tok::Minus] => {
+                    let (a, b) = (slice.get(k + 1)?, slice.get(k + 5)?);
+                    (b.kind == Tok::Number).then_some(())?;
+                    (format!("+{}/-{}", self.text(*a), self.text(*b)), 6)
+                }
+                _ => return None,
+            };
+            let (first, last) = (slice.get(k)?, slice.get(k + len - 1)?);
+            let written = self.src.get(first.start..last.end).unwrap_or("");
+            Some(
+                Diagnostic::new(
+                    Rule::Syntax,
+                    Span::new(self.file, first.start, last.end),
+                    format!("`{written}` is not an uncertainty: the signs are mixed up"),
+                )
+                .with_help(format!(
+                    "write an asymmetric uncertainty as `{fix}` (above, then below), or a symmetric one as `± {}`",
+                    self.text(*slice.get(k + 1)?)
+                )),
+            )
+        })
+    }
+
     /// Both kinds of uncertainty on a literal inside an expression (`2 * 3 ± 1 +1/-1`), which
     /// the grammar read as arithmetic without a word (a value at the start is checked by
     /// [`Cursor::uncertainty_in_another_notation`]).

@@ -729,3 +729,29 @@ fn a_value_with_both_kinds_of_uncertainty_says_to_keep_one() {
         );
     }
 }
+
+#[test]
+fn mixed_up_signs_in_an_uncertainty_are_named() {
+    // Read as arithmetic, `+-0.05/-0.02 Rsun` was a division and said the dimension was
+    // wrong (m^-1); `+0.1/--0.1 d` said it could not add a number and a frequency.
+    for (value, fix) in [
+        ("1.0 +-0.05/-0.02 Rsun", "`+0.05/-0.02`"),
+        ("1.0 ± 0.05/-0.02 Rsun", "`+0.05/-0.02`"),
+        ("3.0 +0.1/--0.1 d", "`+0.1/-0.1`"),
+    ] {
+        let src = format!("system \"Umber\" {{ star s {{ radius = {value} }} }}");
+        let diags = parse(FileId(0), &src).diagnostics;
+        let d = diags
+            .iter()
+            .find(|d| d.message.contains("the signs are mixed up"))
+            .unwrap_or_else(|| panic!("{value}: {diags:#?}"));
+        assert!(d.help.as_deref().unwrap_or("").contains(fix), "{d:?}");
+    }
+    // A correct asymmetric uncertainty is no slip.
+    let diags = parse(
+        FileId(0),
+        "system \"U\" { star s { radius = 1.0 +0.05/-0.02 Rsun } }",
+    )
+    .diagnostics;
+    assert!(diags.is_empty(), "{diags:#?}");
+}

@@ -210,6 +210,7 @@ impl Cursor<'_> {
         }
         if let Some(d) = self
             .uncertainty_in_another_notation(slice)
+            .or_else(|| self.sign_slip_in_uncertainty(slice))
             .or_else(|| self.uncertainty_twice_inside(slice))
             .or_else(|| self.exponent_without_caret(slice))
         {
