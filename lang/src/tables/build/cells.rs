@@ -41,6 +41,15 @@ pub(super) fn not_a_number_hint(raw: &str, has_limit_column: bool) -> String {
             how.replace("{rest}", rest)
         );
     }
+    // `0,91` in a table whose cells are separated by `;` or tabs: a decimal comma.
+    if let Some((int, frac)) = t.split_once(',') {
+        let point = format!("{int}.{frac}");
+        if !frac.contains(',') && number(&point).is_some() {
+            return format!(
+                "; it looks like a decimal comma: write `{point}`, with a decimal point"
+            );
+        }
+    }
     let lower = t.to_ascii_lowercase();
     if [
         "nan", "na", "n/a", "null", "none", "-", "--", "---", "?", "...",
@@ -140,6 +149,16 @@ fn pieces(text: &str) -> impl Iterator<Item = &str> {
 #[cfg(test)]
 mod tests {
     use super::same_value;
+
+    #[test]
+    fn a_decimal_comma_is_pointed_out() {
+        let hint = super::not_a_number_hint("0,91", false);
+        assert!(hint.contains("decimal comma: write `0.91`"), "{hint}");
+        let hint = super::not_a_number_hint("-1,5e3", false);
+        assert!(hint.contains("`-1.5e3`"), "{hint}");
+        assert!(!super::not_a_number_hint("1,2,3", false).contains("decimal"));
+        assert!(!super::not_a_number_hint("a,b", false).contains("decimal"));
+    }
 
     #[test]
     fn values_are_the_same_when_their_numbers_are() {
