@@ -1,6 +1,6 @@
 #!/usr/bin/env python3
-"""Percentiles of an impact parameter derived from two transit durations, with the draws
-that no impact parameter gives (b^2 < 0) taken at b = 0 (reference for the draws taken at
+"""Percentiles of an impact parameter derived from two transit durations, and of the
+inclination that follows, with the draws that no impact parameter gives (b^2 < 0) taken at b = 0 (reference for the draws taken at
 a formula's edge in ``lang/src/derive/rules.rs``, ``draws_at_edge``).
 
 For a circular orbit (Seager & Mallen-Ornelas 2003, ApJ 585, 1038, eq. 7):
@@ -42,6 +42,10 @@ def main():
     b2 = ((1 - k) ** 2 - r * (1 + k) ** 2) / (1 - r)
     clamped = np.sqrt(np.maximum(b2, 0.0))
     kept = np.sqrt(b2[b2 >= 0])
+    # The inclination from that b and a/R* from T14 (eq. 8), cos i = b / (a/R*) (eq. 4 with
+    # a circular orbit).
+    ars = np.sqrt(((1 + k) ** 2 - clamped ** 2 * (1 - s14)) / s14)
+    inclination = np.degrees(np.arccos(clamped / ars))
     q = lambda x: [float(v) for v in np.quantile(x, [P_LOW, 0.5, P_HIGH])]
     print(json.dumps({
         "source": "numpy Monte Carlo, 4e6 draws; Seager & Mallen-Ornelas 2003 eq. 7",
@@ -50,6 +54,7 @@ def main():
         "share_past_edge": float(np.mean(b2 < 0)),
         "at_edge": q(clamped),
         "left_out": q(kept),
+        "inclination_deg": q(inclination),
     }, indent=2))
 
 

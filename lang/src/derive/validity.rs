@@ -59,6 +59,12 @@ pub const MOST_SAMPLES: usize = 4_000;
 /// log g) can sit near 0 with no skew at all, and its relative uncertainty says nothing.
 pub fn ratio_scale(q: Qty) -> bool {
     use quantities::Bound;
+    // An inclination is measured from 0, but what matters is its distance from 90 deg (edge
+    // on): 88.2 ± 0.7 deg is a small fraction of its value and still bends as an impact
+    // parameter near 0 folds it at 90 deg.
+    if q == Qty::Inclination {
+        return false;
+    }
     match quantities::def(q).min {
         Bound::Inclusive(m) | Bound::Exclusive(m) => m >= 0.0,
         Bound::None => false,
