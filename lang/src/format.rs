@@ -47,6 +47,19 @@ pub fn sig(v: f64, n: usize) -> String {
     format!("{v:.digits$}")
 }
 
+/// A number to `n` significant figures with every one of them shown (`1.0e-5`, not `1e-5`,
+/// beside `1.2e-5`): for figures read side by side.
+pub fn sig_all(v: f64, n: usize) -> String {
+    if !v.is_finite() || v == 0.0 {
+        return number(v);
+    }
+    let a = v.abs();
+    if !(1e-3..1e6).contains(&a) {
+        return format!("{v:.*e}", n.saturating_sub(1));
+    }
+    sig(v, n)
+}
+
 /// `v` with `decimals` digits after the point, as a message shows a number it compares
 /// with a threshold; a magnitude past 10^6, one too small to show in those decimals, or
 /// one not finite in four significant figures instead, so that an absurd input never
@@ -233,6 +246,14 @@ pub fn julian_date(jd: f64, below: f64, above: f64) -> String {
 
 #[cfg(test)]
 mod tests {
+    #[test]
+    fn every_significant_figure_is_shown() {
+        assert_eq!(super::sig_all(1.0e-5, 2), "1.0e-5");
+        assert_eq!(super::sig_all(1.23e-5, 2), "1.2e-5");
+        assert_eq!(super::sig_all(0.010, 2), "0.010");
+        assert_eq!(super::sig_all(2.0e7, 2), "2.0e7");
+    }
+
     use super::*;
 
     #[test]

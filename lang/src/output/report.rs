@@ -595,8 +595,8 @@ pub fn precision_text(q: &QuantityResult) -> Option<String> {
     let p = q.precision?;
     let unit = q.shown_unit();
     let at = |x: f64| match unit.suffix() {
-        "" => crate::format::sig(unit.of(x), 2),
-        u => format!("{} {u}", crate::format::sig(unit.of(x), 2)),
+        "" => crate::format::sig_all(unit.of(x), 2),
+        u => format!("{} {u}", crate::format::sig_all(unit.of(x), 2)),
     };
     Some(format!(
         "Monte Carlo precision ({} samples, twice the standard error): lower end ± {}, \
