@@ -31,13 +31,13 @@ pub const SPREAD_PERIASTRON: &str =
 /// The turn a limit on an argument of periastron is read within. On a circle a one-sided
 /// limit bounds nothing without its other end, so `< 90 deg` is read as 0 to 90 deg, within
 /// the turn 0 to 360 deg of common practice; a limit at or below 0 within -180 to 180 deg,
-/// the other common convention (`> -30 deg` is -30 to 180 deg), and one below -180 deg
-/// within -360 to 0 deg.
+/// the other common convention (`> -30 deg` is -30 to 180 deg, `> 0 deg` 0 to 180 deg, not
+/// the whole turn), and one below -180 deg within -360 to 0 deg.
 pub(super) fn turn_of_limit(form: Form, limit: f64) -> (f64, f64) {
     use std::f64::consts::{PI, TAU};
     let start = match form {
         Form::UpperLimit if limit > 0.0 => 0.0,
-        Form::LowerLimit if limit >= 0.0 => 0.0,
+        Form::LowerLimit if limit > 0.0 => 0.0,
         _ if limit >= -PI => -PI,
         _ => -TAU,
     };

@@ -20,19 +20,25 @@ impl<'m> Derivation<'m> {
         // The value's dominant limit first, then the other limits it rests on, pinned
         // together: each key with its slope and share along the dominant one.
         let mut by_limits: BTreeMap<Vec<(u32, bool)>, Vec<Limited>> = BTreeMap::new();
-        // A prediction's share of its variance from its relation's scatter.
+        // A value's share of its variance from relations' scatter (a prediction's own, or
+        // that of a prediction it rests on: an amplitude from a predicted mass).
         let mut scattered: FxHashMap<Key, f64> = FxHashMap::default();
+        let scatter: FxHashSet<u32> = self.widened.values().map(|w| w.input).collect();
         for (key, entry) in &self.entries {
             if !entry.origin.is_computed() || entry.value.grad.is_empty() {
                 continue;
             }
             let mut budget = entry.value.budget(&self.inputs);
-            // A prediction's relation scatter is no measurement and bounds nothing: the
-            // limit's share is counted among the measurements' variance (a mass predicted
-            // from a radius `< 1.9 Rearth` is a limit however wide the relation).
-            if let Some(w) = self.widened.get(key) {
-                let share = budget.iter().find(|b| b.0 == w.input).map_or(0.0, |b| b.1);
-                budget.retain(|b| b.0 != w.input);
+            // A relation's scatter is no measurement and bounds nothing: the limit's share is
+            // counted among the measurements' variance (a mass predicted from a radius
+            // `< 1.9 Rearth` is a limit however wide the relation).
+            let share: f64 = budget
+                .iter()
+                .filter(|b| scatter.contains(&b.0))
+                .map(|b| b.1)
+                .sum();
+            if share > 0.0 {
+                budget.retain(|b| !scatter.contains(&b.0));
                 if share < 1.0 {
                     budget.iter_mut().for_each(|b| b.1 /= 1.0 - share);
                 }
@@ -201,7 +207,7 @@ impl<'m> Derivation<'m> {
                 };
                 if let Some(s) = scattered.get(&key).filter(|s| **s >= 0.05) {
                     unwidened.push_str(&format!(
-                        "; it is the relation's mean at that limit, and the relation's scatter ({:.0}% of the variance) does not widen it: a planet there may lie above or below the mean",
+                        "; it rests on a relation's mean at that limit, and the relation's scatter ({:.0}% of the variance) does not widen it: a planet there may lie above or below the mean",
                         s * 100.0
                     ));
                 }

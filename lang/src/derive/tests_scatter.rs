@@ -163,6 +163,21 @@ fn a_prediction_from_a_limit_is_a_limit() {
             "{:?}",
             m.assumptions
         );
+        // So is the amplitude predicted from that mass: the scatter it inherits is no
+        // measurement either (it was an interval, 0.79 +1.03/-0.66 m/s, on a mass `< 4.5
+        // Mearth`).
+        let with_impact = run(
+            &src.replace(
+                "transit_depth < 0.05 %",
+                "transit_depth < 0.05 %; impact = 0.2 +- 0.1",
+            ),
+            Options::linear(),
+        );
+        let k = with_impact.results[0].bodies[1]
+            .get(Qty::PredictedRvAmplitude)
+            .cloned()
+            .expect("a predicted amplitude");
+        assert_eq!(k.form, Form::UpperLimit, "{k:?}");
     }
 }
 

@@ -153,8 +153,9 @@ impl<'m> Derivation<'m> {
         let mut only_turn = FxHashMap::default();
         let grazing = self.may_graze();
         for (key, entry) in &self.entries {
+            let on_angle_limit = self.angle_limit_under(*key, entry);
             if !self.is_computed(*key, entry)
-                || entry.value.grad.is_empty()
+                || (entry.value.grad.is_empty() && on_angle_limit.is_none())
                 || self.bounded.contains_key(key)
             {
                 continue;
@@ -194,6 +195,15 @@ impl<'m> Derivation<'m> {
                 why.push(format!(
                     "the transit may be grazing within the uncertainty of {}.impact, where the depth no longer fixes Rp/R* alone (first order sees no slope along b short of it)",
                     self.sys.bodies.get(k.0).map_or("?", |b| b.id.as_str())
+                ));
+            }
+            if let Some(label) = on_angle_limit {
+                // At the middle of the range a limit leaves (`< 180 deg`: -90 deg), a
+                // duration's slope along the angle is 0, so first order sees no spread at all.
+                skew_only = false;
+                by_shape = false;
+                why.push(format!(
+                    "{label} is a limit on an angle: the value need not move one way with it over the range the limit leaves, and first order sees only its slope at the middle of that range"
                 ));
             }
             for (id, share) in entry.value.budget(&self.inputs) {
@@ -292,6 +302,21 @@ impl<'m> Derivation<'m> {
                     .get(key.0)
                     .and_then(|b| b.get(key.1))
                     .is_some_and(|d| matches!(d.content, Content::Expr(_))))
+    }
+
+    /// The label of the limit on an angle around a turn (an argument of periastron declared
+    /// `< 180 deg`) that the value at `key` rests on, if any: found through the value's
+    /// dependencies, as its slope along the angle may be 0 where first order takes it.
+    fn angle_limit_under(&self, key: Key, entry: &Entry) -> Option<&str> {
+        entry
+            .deps
+            .iter()
+            .filter(|d| **d != key && d.1 == Qty::ArgPeriastron)
+            .filter_map(|d| self.entries.get(d))
+            .flat_map(|e| e.value.grad.iter())
+            .filter_map(|(id, _)| self.inputs.get(*id as usize))
+            .find(|i| i.periodic && i.limit.is_some())
+            .map(|i| i.label.as_str())
     }
 
     /// Values whose size says nothing about how well first order describes them (see
