@@ -123,6 +123,7 @@ pub fn run(
         let line = index.line_col(db.text(s.file), s.start as usize).line;
         format!("{}:{line}", db.name(s.file))
     };
+    let uncompared = checked >= 2 && entries.iter().all(|e| e.catalogue.is_none());
     for d in syzygy::catalogue::check(&entries, &place) {
         if let Some(c) = counts.get_mut(d.severity as usize) {
             *c += 1;
@@ -189,6 +190,14 @@ pub fn run(
                 notes,
                 plural(notes)
             );
+            // The checks between files compare the files under one project file; said when
+            // none is found, so a folder that holds a system twice is not taken for clean.
+            if uncompared {
+                let _ = writeln!(
+                    out,
+                    "not compared with each other (system-in-two-files, star-disagrees-across-files, paper-under-two-ids): no syzygy.toml holds these files; an empty one at the catalogue's root turns those checks on"
+                );
+            }
             if !per_rule.is_empty() {
                 let words: Vec<String> = per_rule
                     .iter()

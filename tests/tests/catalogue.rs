@@ -259,3 +259,29 @@ fn one_paper_under_two_ids_is_a_note_naming_both() {
     );
     assert!(m.contains("a.syz:1"), "{m}");
 }
+
+/// Files under no project file are not compared with each other: `syz check` says so, so
+/// that a folder holding one system twice with masses 10 sigma apart is not taken for clean.
+#[test]
+fn files_under_no_project_file_are_said_not_to_be_compared() {
+    let dir = scratch("catalogue-none");
+    write(&dir, "a.syz", QUARREL);
+    write(
+        &dir,
+        "b.syz",
+        "system \"Quarrel\" {\n  star quarrel { mass = 1.30 ± 0.02 Msun }\n}\n",
+    );
+    let d = dir.to_str().unwrap();
+    let o = run(&["check", d]);
+    let said = "not compared with each other (system-in-two-files, star-disagrees-across-files, paper-under-two-ids): no syzygy.toml holds these files";
+    assert!(stdout(&o).contains(said), "{}", stdout(&o));
+    // Under a project file they are compared, and the line is gone.
+    write(&dir, "syzygy.toml", "");
+    let o = run(&["check", d]);
+    assert!(!stdout(&o).contains(said), "{}", stdout(&o));
+    assert!(
+        stdout(&o).contains("system-in-two-files: 1"),
+        "{}",
+        stdout(&o)
+    );
+}

@@ -108,7 +108,17 @@ impl Entry {
     pub fn absorb(&mut self, other: Entry) {
         self.systems.extend(other.systems);
         self.stars.extend(other.stars);
-        self.refs.extend(other.refs);
+        // Every part of a file read in parts holds the file's references (read ahead, so a
+        // citation may name one declared further down): each is kept once, or one text under
+        // two ids would be reported once per part.
+        let held: rustc_hash::FxHashSet<(u32, u32)> =
+            self.refs.iter().map(|k| (k.2.start, k.2.end)).collect();
+        self.refs.extend(
+            other
+                .refs
+                .into_iter()
+                .filter(|r| !held.contains(&(r.2.start, r.2.end))),
+        );
     }
 
     /// The same entry for the file `file` (a front end that numbers files when it checks

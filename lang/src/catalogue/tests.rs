@@ -231,3 +231,35 @@ fn only_files_under_the_same_project_file_are_compared() {
     assert!(check(&entries(&one, &none), &place).is_empty());
     assert_eq!(check(&entries(&one, &one), &place).len(), 1);
 }
+
+/// A file read in parts gives each part its file's references (read ahead): one text under
+/// two ids is still one finding, not one per part (it was reported once per part).
+#[test]
+fn a_file_in_parts_reports_one_text_under_two_ids_once() {
+    let mut src = String::from(
+        "ref rv \"Demo velocities (invented)\"\nref rvel \"Demo velocities (invented)\"\n",
+    );
+    for i in 0..6 {
+        src.push_str(&format!(
+            "system \"Part {i}\" {{\n  star s{i} {{ mass = 1 ± 0.1 Msun [rv] }}\n}}\n"
+        ));
+    }
+    let settings = catalogue();
+    let mut entry: Option<Entry> = None;
+    let mut parts = 0;
+    crate::parts::Parts::new(FileId(0), &src, 40).read_parts(|p| {
+        parts += 1;
+        let e = Entry::of(&crate::analyze_part(&src, p, &settings), &settings);
+        match entry.as_mut() {
+            Some(held) => held.absorb(e),
+            None => entry = Some(e),
+        }
+    });
+    assert!(parts > 3);
+    let place = |s: crate::source::Span| format!("{}", s.start);
+    let found: Vec<_> = check(&entry.into_iter().collect::<Vec<_>>(), &place)
+        .into_iter()
+        .filter(|d| d.rule == Rule::PaperUnderTwoIds)
+        .collect();
+    assert_eq!(found.len(), 1, "{found:#?}");
+}
