@@ -751,6 +751,9 @@ fn numbers_and_uncertainties_too_small_to_represent_are_refused() {
             "this uncertainty is too small to represent",
         ),
         ("1e-320 %", "this number is too small to represent"),
+        // Too small even for a subnormal: it read as 0, an exact value, without a word.
+        ("1 ± 1e-400 %", "this uncertainty is too small to represent"),
+        ("1e-400 %", "this number is too small to represent"),
     ] {
         let (_, diags) = lower_text(&format!(
             "system \"Umber\" {{ star s {{ mass = 1 Msun }}\n planet b orbits s {{ transit_depth = {value} }} }}"
@@ -761,4 +764,12 @@ fn numbers_and_uncertainties_too_small_to_represent_are_refused() {
         "system \"Umber\" { star s { mass = 1 Msun }\n planet b orbits s { transit_depth = 1 ± 1e-300 % } }",
     );
     assert!(diags.is_empty(), "{diags:#?}");
+    // In solar masses as written, whatever it is in kilograms; and 0 written as 0 is 0.
+    let (_, diags) =
+        lower_text("system \"U\" { star s { mass = 1 ± 1e-400 Msun; teff = 5000 ± 0 K } }");
+    assert_eq!(
+        messages(&diags),
+        ["this uncertainty is too small to represent"],
+        "{diags:#?}"
+    );
 }

@@ -276,7 +276,15 @@ pub(super) fn lower_value(
         return None;
     }
     let subnormal = |x: f64| x != 0.0 && x.abs() < f64::MIN_POSITIVE;
-    if unit.factor != 0.0 && subnormal(value) {
+    // The numbers as written too, before the unit's factor (`± 1e-400 Msun` is a subnormal
+    // number of solar masses, whatever it is in kilograms, and `± 1e-400 %` is 0 in SI).
+    let written: Vec<f64> = match &lit.uncertainty {
+        ast::Uncertainty::None => Vec::new(),
+        ast::Uncertainty::Symmetric(u, _) => vec![*u],
+        ast::Uncertainty::Quadrature(us, _) => us.to_vec(),
+        ast::Uncertainty::Asymmetric { plus, minus, .. } => vec![*plus, *minus],
+    };
+    if unit.factor != 0.0 && (subnormal(value) || subnormal(lit.value)) {
         diags.push(Diagnostic::new(
             Rule::InvalidValue,
             expr.span,
@@ -286,7 +294,9 @@ pub(super) fn lower_value(
     }
     // An uncertainty too small for full precision (`1 ± 1e-320 %`) would be shown with
     // digits it does not have.
-    if unit.factor != 0.0 && (subnormal(below) || subnormal(above)) {
+    if unit.factor != 0.0
+        && (subnormal(below) || subnormal(above) || written.iter().any(|u| subnormal(*u)))
+    {
         diags.push(
             Diagnostic::new(
                 Rule::InvalidValue,

@@ -264,8 +264,7 @@ impl Cursor<'_> {
         let sp = |t: &Token| Span::new(self.file, t.start, t.end);
         let num = |i: usize| -> Option<(f64, Span)> {
             let t = slice.get(i)?;
-            (t.kind == Tok::Number)
-                .then(|| (self.text(*t).parse::<f64>().unwrap_or(f64::NAN), sp(t)))
+            (t.kind == Tok::Number).then(|| (literal_number(self.text(*t)), sp(t)))
         };
         let mut i;
         let first = slice.first()?;
@@ -489,11 +488,7 @@ pub(super) fn value_parser<'a>(src: &'a str, file: FileId) -> ValueParser<'a> {
         span: sp(r),
     });
     let number = tok(Tok::Number).map_with_span(move |_, r: Range| {
-        let v = src
-            .get(r.clone())
-            .unwrap_or("")
-            .parse::<f64>()
-            .unwrap_or(f64::NAN);
+        let v = literal_number(src.get(r.clone()).unwrap_or(""));
         (v, sp(r))
     });
     let exponent = tok(Tok::Minus)
@@ -766,4 +761,17 @@ pub(super) fn unescape(quoted: &str) -> String {
         }
     }
     out
+}
+
+/// A number literal's value. One too small for a 64-bit float (`1e-400`) would read as 0
+/// and pass for an exact value or a zero uncertainty without a word: it is read as the
+/// smallest subnormal number instead, which lowering refuses as too small to represent.
+fn literal_number(text: &str) -> f64 {
+    let v = text.parse::<f64>().unwrap_or(f64::NAN);
+    let mantissa = text.split(['e', 'E']).next().unwrap_or("");
+    if v == 0.0 && mantissa.bytes().any(|b| (b'1'..=b'9').contains(&b)) {
+        f64::from_bits(1)
+    } else {
+        v
+    }
 }
