@@ -217,12 +217,19 @@ impl<'m> Derivation<'m> {
             "{label} = {declared} sampled inside its valid range ({side}, drawn again there), so the sampled median is {} (a truncated distribution)",
             at_digits(median)
         );
+        // First-order mode draws it only for the values it cannot describe (those taking a
+        // share of their variance from it, see `validity::OUTSIDE_LIMIT`).
+        let kept = if self.options.propagation == Propagation::Linear {
+            "values that take much of their variance from it are sampled, with its draws kept inside the range, whose median is"
+        } else {
+            "sampled values are kept inside the range, so their median is"
+        };
         self.diagnostics.push(
             Diagnostic::new(
                 Rule::Truncated,
                 span,
                 format!(
-                    "{label} = {declared} reaches outside the range it can take: {side}; sampled values are kept inside the range, so their median is {}, not {}",
+                    "{label} = {declared} reaches outside the range it can take: {side}; {kept} {}, not {}",
                     at_digits(median),
                     at_digits(m.value)
                 ),

@@ -397,3 +397,32 @@ fn a_transit_that_may_graze_within_two_sigma_is_sampled() {
         assert!((g - w).abs() < 0.08 * sigma, "{l:?} vs {m:?}");
     }
 }
+
+/// The note on a measurement reaching past its range says what each mode does with it:
+/// Monte Carlo keeps every draw inside; first order samples only the values resting on it.
+#[test]
+fn a_truncated_note_says_what_each_mode_does() {
+    let src = r#"system "Tarn" {
+  star t { mass = 0.9 +- 0.03 Msun; radius = 0.85 +- 0.02 Rsun }
+  planet b orbits t { period = 4.2 +- 0.0001 d; transit_depth = 0.5 +- 0.02 %; impact = 0.02 +- 0.2 }
+}
+"#;
+    let said = |options: Options| -> String {
+        run(src, options)
+            .diagnostics
+            .iter()
+            .find(|d| d.rule == crate::diagnostic::Rule::Truncated)
+            .map(|d| d.message.clone())
+            .expect("a truncated note")
+    };
+    let lin = said(Options::linear());
+    assert!(
+        lin.contains("values that take much of their variance from it are sampled"),
+        "{lin}"
+    );
+    let mc = said(Options::default());
+    assert!(
+        mc.contains("sampled values are kept inside the range"),
+        "{mc}"
+    );
+}
