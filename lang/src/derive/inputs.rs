@@ -44,6 +44,14 @@ pub(super) fn turn_of_limit(form: Form, limit: f64) -> (f64, f64) {
     (start, start + TAU)
 }
 
+/// Whether `m` is a limit on an inclination at or below 90 deg, read within 0 to 90 deg:
+/// `inclination > 86 deg` means 86 to 90 deg, as i and 180 deg - i give the same transit and
+/// radial velocities; over the whole valid range (to 180 deg) it would reach sin i = 0 and
+/// an unbounded mass.
+fn folded_inclination(q: Qty, m: &Measurement) -> bool {
+    q == Qty::Inclination && m.form.is_limit() && m.value <= std::f64::consts::FRAC_PI_2
+}
+
 /// An input asymmetric by this factor or more is skewed: first order does not describe it.
 const SKEWED_RATIO: f64 = 1.5;
 
@@ -265,6 +273,8 @@ impl<'m> Derivation<'m> {
                 };
                 let (lo, hi) = if decl.qty == Qty::ArgPeriastron && m.form.is_limit() {
                     turn_of_limit(m.form, m.value)
+                } else if folded_inclination(decl.qty, m) {
+                    (0.0, std::f64::consts::FRAC_PI_2)
                 } else {
                     def.limits()
                 };
@@ -351,7 +361,22 @@ impl<'m> Derivation<'m> {
                     let unit =
                         summary::written_unit(used.written_unit.as_deref(), decl.qty, m.value);
                     let declared = crate::report::shown_in(m.value, 0.0, 0.0, m.form, unit);
-                    let words = if decl.qty == Qty::ArgPeriastron {
+                    let words = if folded_inclination(decl.qty, m) {
+                        let shown =
+                            |x: f64| crate::report::shown_in(x, 0.0, 0.0, Form::Exact, unit);
+                        let (from, to) = if m.form == Form::UpperLimit {
+                            (lo, m.value)
+                        } else {
+                            (m.value, hi)
+                        };
+                        format!(
+                            "{}.{} {declared} sampled uniformly from {} to {}: an inclination and its supplement (180 deg - i) give the same transit and radial velocities, so a limit on it is read within 0 to 90 deg (common practice)",
+                            body.id,
+                            def.name,
+                            shown(from),
+                            shown(to),
+                        )
+                    } else if decl.qty == Qty::ArgPeriastron {
                         let shown =
                             |x: f64| crate::report::shown_in(x, 0.0, 0.0, Form::Exact, unit);
                         let (from, to) = if m.form == Form::UpperLimit {

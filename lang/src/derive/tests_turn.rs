@@ -426,3 +426,40 @@ fn a_truncated_note_says_what_each_mode_does() {
         "{mc}"
     );
 }
+
+/// A limit on an inclination is read within 0 to 90 deg: `> 86 deg` is 86 to 90 deg, as i
+/// and 180 deg - i give the same transit and radial velocities. Over the whole valid range
+/// (to 180 deg) it reached sin i = 0: the mass lay "between 0.169 and 2.36e39 Mjup".
+#[test]
+fn a_limit_on_an_inclination_is_read_within_0_to_90_deg() {
+    use crate::model::Form;
+    let src = r#"system "Radi" {
+  star r { mass = 1 +- 0.05 Msun; radius = 1 +- 0.03 Rsun }
+  planet b orbits r { period = 5 +- 0.001 d; inclination > 86 deg; rv_amplitude = 20 +- 2 m/s }
+}
+"#;
+    for options in [Options::linear(), Options::default()] {
+        let a = run(src, options);
+        let (m, min) = (planet(&a, Qty::Mass), planet(&a, Qty::MinMass));
+        // sin 86 deg = 0.99756: the true mass is the minimum mass to 0.25 % at most.
+        assert!(
+            m.value >= min.value && m.value <= min.value / 0.99756,
+            "{m:?} {min:?}"
+        );
+        assert!(
+            !m.assumptions.iter().any(|s| s.contains("lies between")),
+            "{:?}",
+            m.assumptions
+        );
+        let b = planet(&a, Qty::Impact);
+        assert_eq!(b.form, Form::UpperLimit, "{b:?}");
+        let i = planet(&a, Qty::Inclination);
+        assert!(
+            i.assumptions
+                .iter()
+                .any(|s| s.contains("sampled uniformly from 86 deg to 90 deg")),
+            "{:?}",
+            i.assumptions
+        );
+    }
+}
