@@ -28,30 +28,6 @@ pub(super) fn default_for(q: Qty) -> Option<(f64, &'static str)> {
 pub const SPREAD_PERIASTRON: &str =
     "argument of periastron unknown: spread uniformly over 0-360 deg (default)";
 
-/// The turn a limit on an argument of periastron is read within. On a circle a one-sided
-/// limit bounds nothing without its other end, so `< 90 deg` is read as 0 to 90 deg, within
-/// the turn 0 to 360 deg of common practice; a limit at or below 0 within -180 to 180 deg,
-/// the other common convention (`> -30 deg` is -30 to 180 deg, `> 0 deg` 0 to 180 deg, not
-/// the whole turn), and one below -180 deg within -360 to 0 deg.
-pub(super) fn turn_of_limit(form: Form, limit: f64) -> (f64, f64) {
-    use std::f64::consts::{PI, TAU};
-    let start = match form {
-        Form::UpperLimit if limit > 0.0 => 0.0,
-        Form::LowerLimit if limit > 0.0 => 0.0,
-        _ if limit >= -PI => -PI,
-        _ => -TAU,
-    };
-    (start, start + TAU)
-}
-
-/// Whether `m` is a limit on an inclination at or below 90 deg, read within 0 to 90 deg:
-/// `inclination > 86 deg` means 86 to 90 deg, as i and 180 deg - i give the same transit and
-/// radial velocities; over the whole valid range (to 180 deg) it would reach sin i = 0 and
-/// an unbounded mass.
-fn folded_inclination(q: Qty, m: &Measurement) -> bool {
-    q == Qty::Inclination && m.form.is_limit() && m.value <= std::f64::consts::FRAC_PI_2
-}
-
 /// An input asymmetric by this factor or more is skewed: first order does not describe it.
 const SKEWED_RATIO: f64 = 1.5;
 
@@ -271,13 +247,7 @@ impl<'m> Derivation<'m> {
                     }
                     None => (m, None),
                 };
-                let (lo, hi) = if decl.qty == Qty::ArgPeriastron && m.form.is_limit() {
-                    turn_of_limit(m.form, m.value)
-                } else if folded_inclination(decl.qty, m) {
-                    (0.0, std::f64::consts::FRAC_PI_2)
-                } else {
-                    def.limits()
-                };
+                let (lo, hi) = super::limit_range::range(def, m);
                 if !m.can_be_sampled(def) {
                     let mut d = Diagnostic::new(
                         Rule::NotDerivable,
@@ -361,44 +331,14 @@ impl<'m> Derivation<'m> {
                     let unit =
                         summary::written_unit(used.written_unit.as_deref(), decl.qty, m.value);
                     let declared = crate::report::shown_in(m.value, 0.0, 0.0, m.form, unit);
-                    let words = if folded_inclination(decl.qty, m) {
-                        let shown =
-                            |x: f64| crate::report::shown_in(x, 0.0, 0.0, Form::Exact, unit);
-                        let (from, to) = if m.form == Form::UpperLimit {
-                            (lo, m.value)
-                        } else {
-                            (m.value, hi)
-                        };
-                        format!(
-                            "{}.{} {declared} sampled uniformly from {} to {}: an inclination and its supplement (180 deg - i) give the same transit and radial velocities, so a limit on it is read within 0 to 90 deg (common practice)",
-                            body.id,
-                            def.name,
-                            shown(from),
-                            shown(to),
-                        )
-                    } else if decl.qty == Qty::ArgPeriastron {
-                        let shown =
-                            |x: f64| crate::report::shown_in(x, 0.0, 0.0, Form::Exact, unit);
-                        let (from, to) = if m.form == Form::UpperLimit {
-                            (lo, m.value)
-                        } else {
-                            (m.value, hi)
-                        };
-                        format!(
-                            "{}.{} {declared} sampled uniformly from {} to {}: a limit on an angle bounds nothing on a circle without its other end, so it is read within the turn {} to {} (common practice)",
-                            body.id,
-                            def.name,
-                            shown(from),
-                            shown(to),
-                            shown(lo),
-                            shown(hi),
-                        )
-                    } else {
-                        format!(
-                            "{}.{} {declared} sampled uniformly within its physical range",
-                            body.id, def.name,
-                        )
-                    };
+                    let words = super::limit_range::words(
+                        &format!("{}.{}", body.id, def.name),
+                        &declared,
+                        m,
+                        (lo, hi),
+                        def,
+                        unit,
+                    );
                     assumptions.insert(Arc::from(words));
                 }
                 self.entries.insert(

@@ -29,6 +29,7 @@ mod slips;
 pub mod sources;
 mod summary;
 pub(crate) use summary::written_unit;
+mod limit_range;
 mod limited;
 pub mod truncation;
 mod turn;

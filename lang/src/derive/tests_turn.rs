@@ -228,7 +228,7 @@ fn a_limit_on_the_argument_of_periastron_is_read_within_one_turn_and_bounds_noth
 
 #[test]
 fn a_limit_on_an_angle_takes_the_turn_its_convention_implies() {
-    use crate::derive::inputs::turn_of_limit;
+    use crate::derive::limit_range::turn_of_limit;
     use crate::model::Form;
     use std::f64::consts::{PI, TAU};
     let deg = PI / 180.0;
