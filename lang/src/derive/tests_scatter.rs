@@ -27,12 +27,17 @@ const SYSTEM: &str = r#"system "Orrin Vale" {
 "#;
 
 fn predicted(a: &Analysis, body: usize) -> QuantityResult {
+    value_of(a, body, Qty::PredictedRadius)
+}
+
+/// Quantity `q` of body `body` of the first system.
+fn value_of(a: &Analysis, body: usize, q: Qty) -> QuantityResult {
     a.results
         .first()
         .and_then(|r| r.bodies.get(body))
-        .and_then(|b| b.get(Qty::PredictedRadius))
+        .and_then(|b| b.get(q))
         .cloned()
-        .expect("a predicted radius")
+        .unwrap_or_else(|| panic!("no {q:?}"))
 }
 
 #[test]
@@ -152,7 +157,7 @@ fn a_prediction_from_a_limit_is_a_limit() {
     let want = (r / 0.80811).powf(1.0 / 0.589);
     for options in [Options::linear(), Options::default()] {
         let a = run(src, options);
-        let m = predicted_mass(&a);
+        let m = value_of(&a, 1, Qty::PredictedMass);
         assert_eq!(m.form, Form::UpperLimit, "{m:?}");
         let earth = m.value / crate::constants::M_EARTH;
         assert!((earth / want - 1.0).abs() < 2e-3, "{earth} vs {want}");
@@ -173,19 +178,7 @@ fn a_prediction_from_a_limit_is_a_limit() {
             ),
             Options::linear(),
         );
-        let k = with_impact.results[0].bodies[1]
-            .get(Qty::PredictedRvAmplitude)
-            .cloned()
-            .expect("a predicted amplitude");
+        let k = value_of(&with_impact, 1, Qty::PredictedRvAmplitude);
         assert_eq!(k.form, Form::UpperLimit, "{k:?}");
     }
-}
-
-fn predicted_mass(a: &Analysis) -> QuantityResult {
-    a.results
-        .first()
-        .and_then(|r| r.bodies.get(1))
-        .and_then(|b| b.get(Qty::PredictedMass))
-        .cloned()
-        .expect("a predicted mass")
 }

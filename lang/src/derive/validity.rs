@@ -158,11 +158,11 @@ impl<'m> Derivation<'m> {
         let mut only_turn = FxHashMap::default();
         let grazing = self.may_graze();
         for (key, entry) in &self.entries {
+            if !self.is_computed(*key, entry) || self.bounded.contains_key(key) {
+                continue;
+            }
             let on_angle_limit = self.angle_limit_under(*key, entry);
-            if !self.is_computed(*key, entry)
-                || (entry.value.grad.is_empty() && on_angle_limit.is_none())
-                || self.bounded.contains_key(key)
-            {
+            if entry.value.grad.is_empty() && on_angle_limit.is_none() {
                 continue;
             }
             let (lo, hi) = entry.value.linear_spread(&self.inputs);
