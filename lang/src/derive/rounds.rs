@@ -205,7 +205,9 @@ impl<'m> Derivation<'m> {
                     }
                     let edge = rules::draws_at_edge(rule.id);
                     let drawn = match edge {
-                        Some((g, _)) => value::apply_drawing(&rule.eval, &g, &args, &self.inputs),
+                        Some(e) => {
+                            value::apply_drawing(&rule.eval, &e.formula, &args, &self.inputs)
+                        }
                         None => value::apply(&rule.eval, &args, &self.inputs),
                     };
                     // A value of exactly 0 where the quantity cannot be 0 (a luminosity, a
@@ -219,8 +221,7 @@ impl<'m> Derivation<'m> {
                         self.no_solution.push((ri, ins));
                         continue;
                     };
-                    if let Some(words) = edge.and_then(|(_, at)| at_edge_words(rule.id, &value, at))
-                    {
+                    if let Some(words) = edge.and_then(|e| at_edge_words(rule.id, &value, &e)) {
                         assumptions.insert(Arc::from(words));
                     }
                     let value = if rules::predicts(rule.id) {
@@ -355,19 +356,23 @@ impl Derivation<'_> {
 }
 
 /// How the assumption of a value some of whose draws were taken at the edge of its
-/// formula's domain starts.
-pub(super) const EDGE_DRAWS: &str = "b^2 < 0 in ";
+/// formula's domain ends, to find it among a value's assumptions.
+pub(super) const EDGE_TAKEN: &str = "rather than left out, which would move the interval away from";
 
 /// The assumption of a value some of whose draws were taken at the edge of its formula's
 /// domain ([`rules::draws_at_edge`]): how many, and what it means.
-fn at_edge_words(rule: &str, value: &Value, at: f64) -> Option<String> {
+fn at_edge_words(rule: &str, value: &Value, edge: &rules::Edge) -> Option<String> {
     let samples = value.samples.as_deref()?;
-    let n = samples.iter().filter(|&&x| x == at).count();
+    let n = samples.iter().filter(|&&x| x == edge.at).count();
     if n == 0 || samples.is_empty() {
         return None;
     }
     let share = 100.0 * n as f64 / samples.len() as f64;
     Some(format!(
-        "{EDGE_DRAWS}{share:.1}% of the Monte Carlo draws of {rule} (durations closer together than any impact parameter gives: more central than a central transit); they are taken at b = 0, the nearest geometry, rather than left out, which would move the interval away from 0"
+        "{} in {share:.1}% of the Monte Carlo draws of {rule} ({}); they are taken at {}, the nearest geometry, {EDGE_TAKEN} {}",
+        edge.past,
+        edge.meaning,
+        edge.taken,
+        crate::format::number(edge.at)
     ))
 }

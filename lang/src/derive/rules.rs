@@ -53,7 +53,7 @@ macro_rules! args {
 
 mod edge;
 pub use super::roles::{predicts, stands_in_for};
-pub use edge::{draws_at_edge, Formula};
+pub use edge::{draws_at_edge, Edge, Formula};
 
 /// Tier of the rules that predict from a population relation: after every route from
 /// measurements has had its chance.

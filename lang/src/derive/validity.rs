@@ -629,7 +629,7 @@ impl<'m> Derivation<'m> {
             .and_then(|e| {
                 e.assumptions
                     .iter()
-                    .find(|a| a.starts_with(super::rounds::EDGE_DRAWS))
+                    .find(|a| a.contains(super::rounds::EDGE_TAKEN))
             })
             .map_or(String::new(), |a| format!("; {a}"));
         let words = format!(
