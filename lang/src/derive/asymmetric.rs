@@ -31,7 +31,7 @@ use std::f64::consts::SQRT_2;
 use rustc_hash::{FxHashMap, FxHashSet};
 
 use super::validity::{ByInput, Rest, CURVATURE_LIMIT, SHARE_LIMIT};
-use super::value::{self, Shape, Value};
+use super::value::{self, InputInfo, Shape, Value};
 use super::{Derivation, Key, Options, PinAt, Pins, Propagation};
 
 pub(super) fn phi_cdf(z: f64) -> f64 {
@@ -176,8 +176,23 @@ impl<'m> Derivation<'m> {
     /// (two asymmetric inputs, a limit, an angle over a full turn), where only sampling
     /// describes the value.
     pub(super) fn one_skewed_input(&self, v: &Value) -> Option<(u32, Rest)> {
+        self.one_input_and_rest(v, |_, input, share| {
+            input.shape == Shape::Skewed && share >= SHARE_LIMIT
+        })
+    }
+
+    /// The one input of `v` that `is_it` picks (given its id, description and share of the
+    /// variance), with the rest of the value's first-order spread as
+    /// [`Derivation::one_skewed_input`] counts it. `None` when `is_it` picks none or two, the
+    /// picked input's stated distribution reaches past its range, or another input that is
+    /// not normal gives at least [`SHARE_LIMIT`] of the variance.
+    pub(super) fn one_input_and_rest(
+        &self,
+        v: &Value,
+        is_it: impl Fn(u32, &InputInfo, f64) -> bool,
+    ) -> Option<(u32, Rest)> {
         let shares: FxHashMap<u32, f64> = v.budget(&self.inputs).into_iter().collect();
-        let mut skewed: Option<u32> = None;
+        let mut picked: Option<u32> = None;
         let mut rest = 0.0;
         let mut shift = 0.0;
         for &(id, g) in &v.grad {
@@ -186,25 +201,22 @@ impl<'m> Derivation<'m> {
                 continue;
             }
             let share = shares.get(&id).copied().unwrap_or(0.0);
-            match input.shape {
-                Shape::Skewed if share >= SHARE_LIMIT => {
-                    if skewed.is_some() || !input.inside() {
-                        return None;
-                    }
-                    skewed = Some(id);
+            if is_it(id, input, share) {
+                if picked.is_some() || !input.inside() {
+                    return None;
                 }
-                Shape::Uniform if share >= SHARE_LIMIT => return None,
-                _ => {
-                    rest += (g * (input.below + input.above) / 2.0).powi(2);
-                    if input.shape != Shape::Uniform && input.limit.is_none() {
-                        shift +=
-                            g * (input.above - input.below) / (2.0 * std::f64::consts::PI).sqrt();
-                    }
+                picked = Some(id);
+            } else if input.shape != Shape::Normal && share >= SHARE_LIMIT {
+                return None;
+            } else {
+                rest += (g * (input.below + input.above) / 2.0).powi(2);
+                if input.shape != Shape::Uniform && input.limit.is_none() {
+                    shift += g * (input.above - input.below) / (2.0 * std::f64::consts::PI).sqrt();
                 }
             }
         }
         Some((
-            skewed?,
+            picked?,
             Rest {
                 sd: rest.sqrt(),
                 shift,

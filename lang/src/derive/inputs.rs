@@ -130,6 +130,11 @@ impl<'m> Derivation<'m> {
         // The share of its stated distribution outside the quantity's range.
         let outside =
             super::truncation::truncation(m, lo, hi).map_or(0.0, |(under, over, _)| under + over);
+        let angle = key.is_some_and(|k| quantities::def(k.1).dim == crate::units::Dimension::ANGLE);
+        let wide = shape == value::Shape::Normal
+            && !angle
+            && key.is_some_and(|k| super::validity::ratio_scale(k.1))
+            && 0.5 * (below + above) > super::validity::WIDE_RELATIVE * nominal.abs();
         self.inputs.push(InputInfo {
             label,
             below,
@@ -137,8 +142,9 @@ impl<'m> Derivation<'m> {
             shape,
             limit: None,
             outside,
-            angle: key.is_some_and(|k| quantities::def(k.1).dim == crate::units::Dimension::ANGLE),
+            angle,
             periodic: key.is_some_and(|k| k.1 == Qty::ArgPeriastron),
+            wide,
         });
         let exact = below == 0.0 && above == 0.0;
         Value {

@@ -519,6 +519,8 @@ mod tests;
 #[cfg(test)]
 mod tests_asymmetric;
 #[cfg(test)]
+mod tests_heavy;
+#[cfg(test)]
 mod tests_scatter;
 #[cfg(test)]
 mod tests_slips;

@@ -19,28 +19,8 @@ use uom::si::velocity::meter_per_second;
 
 mod si;
 
-/// Where a rule reads or writes a quantity: on the planet, on its host star, or (for rules
-/// about a star alone) on the star itself.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum Slot {
-    Planet(Qty),
-    Host(Qty),
-    Star(Qty),
-}
-
-pub struct RuleDef {
-    /// Stable id shown in output (`rule` in JSON).
-    pub id: &'static str,
-    /// The formula in words, for `explain` and hovers.
-    pub formula: &'static str,
-    pub output: Slot,
-    pub inputs: &'static [Slot],
-    /// Lower is more complete physics; among routes to one quantity the lowest tier wins,
-    /// then the most precise. Tier 3 holds the inverses that only fill a gap once nothing
-    /// else gives their output (see [`stands_in_for`]).
-    pub tier: u8,
-    pub eval: fn(&[f64]) -> Option<f64>,
-}
+mod def;
+pub use def::{RuleDef, Slot};
 
 use Qty::*;
 use Slot::{Host as H, Planet as P, Star as S};
@@ -239,6 +219,18 @@ pub static RULES: &[RuleDef] = &[
             f::total_mass_from_orbit(l(a), t(p))
                 .map(|v| v.get::<kilogram>() - mp)
                 .filter(|v| *v > 0.0)
+        },
+    },
+    RuleDef {
+        id: "kepler-stellar-mass-rv",
+        formula: "M* = 4 pi^2 a^3 / (G P^2) - Mp, with Mp = (f (M* + Mp)^2)^(1/3) / sin i from the mass function f = P K^3 (1 - e^2)^(3/2) / (2 pi G)",
+        output: H(StarMass),
+        inputs: &[P(SemiMajorAxis), P(Period), P(RvAmplitude), P(Eccentricity), P(Inclination)],
+        tier: 1,
+        eval: |x| {
+            args!(x, [a, p, k, e, i]);
+            f::stellar_mass_from_orbit_and_rv(l(a), t(p), vel(k), e, sin_of(i))
+                .map(|v| v.get::<kilogram>())
         },
     },
     RuleDef {

@@ -35,6 +35,16 @@ pub const CURVATURE_LIMIT: f64 = 0.1;
 /// (an argument of periastron of 90 deg) that departure is all the spread there is.
 pub const WIDE_ANGLE: f64 = 5.0 * std::f64::consts::PI / 180.0;
 
+/// A measurement whose standard uncertainty is more than this fraction of its value (on a
+/// quantity with a true zero) has the values resting on it checked at its two sides, as an
+/// asymmetric input's are: a power `x^n` of it bends within that spread, and its interval
+/// ends move by about `|n - 1| s / 2` of the uncertainty for a relative uncertainty `s`
+/// (the second-order term `n (n - 1)/2 s^2` over the first-order `n s`), a tenth
+/// ([`CURVATURE_LIMIT`]) at 5 % for the steepest power the rules take (a density's `R^-3`).
+/// A scale height (`1/Mp`) from a mass known to 20 % passed [`RELATIVE_LIMIT`] and had its
+/// upper end a quarter of its uncertainty short.
+pub const WIDE_RELATIVE: f64 = 0.05;
+
 /// The share of an input's stated distribution outside its quantity's range beyond which
 /// first order, which takes the stated normal, does not describe it: samples are kept inside
 /// the range (an impact parameter of 0.02 +- 0.2 has 46 % of it below 0, and an inclination
@@ -119,6 +129,10 @@ pub const SAMPLED: &str = "sampled, not first-order";
 /// How the assumption that a value's interval keeps an asymmetric input's two sides begins.
 pub const TWO_LINES: &str = "first order with an asymmetric input's distribution kept";
 
+/// How the assumption that a value's interval carries a wide measurement's two sides
+/// through the formulas begins (see [`WIDE_RELATIVE`]).
+pub const WIDE_KEPT: &str = "first order with a wide measurement's two sides carried exactly";
+
 /// How the assumption that a prediction's interval keeps its relation's log-normal scatter
 /// begins (see [`super::scatter`]).
 pub const SCATTER_KEPT: &str = "first order with the relation's log-normal scatter kept";
@@ -130,7 +144,7 @@ pub const TURN_KEPT: &str = "first order at every orientation of the orbit";
 /// Whether an assumption says how one value's interval was found in place of first order
 /// (sampled, or a distribution kept exactly): a note of that value, not of the system.
 pub fn is_interval_note(a: &str) -> bool {
-    [SAMPLED, TWO_LINES, SCATTER_KEPT, TURN_KEPT]
+    [SAMPLED, TWO_LINES, WIDE_KEPT, SCATTER_KEPT, TURN_KEPT]
         .iter()
         .any(|p| a.starts_with(p))
 }
@@ -452,8 +466,9 @@ impl<'m> Derivation<'m> {
         // first order, spans 0.4 h to 1 h of Monte Carlo's), and measurements reaching past
         // their range (a duration is flat in an impact parameter of 0.02 +- 0.2 at its value,
         // so takes no share of its variance from it, yet its samples kept above 0 shorten
-        // it: 0.4 of its uncertainty).
-        let skewed: FxHashSet<u32> = (0u32..)
+        // it: 0.4 of its uncertainty), and measurements whose uncertainty is a large part of
+        // their value (see `WIDE_RELATIVE`).
+        let shaped: FxHashSet<u32> = (0u32..)
             .zip(&self.inputs)
             .filter(|(_, i)| {
                 i.shape == Shape::Skewed
@@ -463,6 +478,15 @@ impl<'m> Derivation<'m> {
             })
             .map(|(id, _)| id)
             .collect();
+        // The wide ones are moved in groups of their own: a value flat in an angle at its
+        // value (a duration at an argument of periastron of 90 deg) has no slope to keep the
+        // angle out of a wide input's group, and its bend would be put down to that input.
+        let wide: FxHashSet<u32> = (0u32..)
+            .zip(&self.inputs)
+            .filter(|(id, i)| i.wide && !shaped.contains(id))
+            .map(|(id, _)| id)
+            .collect();
+        let skewed: FxHashSet<u32> = shaped.union(&wide).copied().collect();
         if doubts.is_empty() && skewed.is_empty() {
             return;
         }
@@ -503,7 +527,8 @@ impl<'m> Derivation<'m> {
             // that a value's move there is its one input's.
             let mut exact = Vec::new();
             let mut curved: Vec<(Key, String)> = Vec::new();
-            for group in self.side_groups(&skewed) {
+            let groups = self.side_groups(&shaped);
+            for group in groups.into_iter().chain(self.side_groups(&wide)) {
                 let sides = self.at_sides(&group, &focus);
                 let in_group: ByInput = by_input
                     .iter()
@@ -520,7 +545,33 @@ impl<'m> Derivation<'m> {
                         .filter(|(id, _)| !group.contains(id))
                         .flat_map(|(_, keys)| keys.iter().map(|(k, _)| *k)),
                 );
-                for (key, why) in self.curved(&here, &group, &sides) {
+                let mut bent = self.curved(&here, &group, &sides);
+                // A value bent along one wide measurement alone (see `WIDE_RELATIVE`) takes
+                // its two sides through the formulas exactly, as a value on one asymmetric
+                // input does: a normal is two half-normal lines of one width.
+                let mut on_wide: ByInput = BTreeMap::new();
+                for (key, _) in &bent {
+                    let Some(e) = self.entries.get(key) else {
+                        continue;
+                    };
+                    let one = self.one_input_and_rest(&e.value, |id, input, _| {
+                        input.wide && input.shape == Shape::Normal && group.contains(&id)
+                    });
+                    if let Some((id, rest)) = one.filter(|(id, _)| {
+                        (e.value.grad.iter())
+                            .all(|(o, g)| o == id || *g == 0.0 || !skewed.contains(o))
+                    }) {
+                        on_wide.entry(id).or_default().push((*key, rest));
+                    }
+                }
+                for (key, summary) in self.two_lines_at_sides(&on_wide, &group, &sides) {
+                    if let Some(i) = bent.iter().position(|(k, _)| *k == key) {
+                        let (_, why) = bent.swap_remove(i);
+                        let words = format!("{WIDE_KEPT}: {why}, so this interval is the median and 16th-84th percentiles of the value with that measurement at its two standard uncertainties carried through the formulas exactly (a monotone formula carries a normal's percentiles to the value's) and the other inputs' first-order spread added; not sampled");
+                        self.two_lines.insert(key, (summary, words));
+                    }
+                }
+                for (key, why) in bent {
                     if !curved.iter().any(|(k, _)| *k == key) {
                         curved.push((key, why));
                     }

@@ -35,6 +35,10 @@ pub struct InputInfo {
     /// Whether it is an angle around a whole turn (an argument of periastron): no value
     /// moves one way with it over its range, so a limit on it bounds no value at that limit.
     pub periodic: bool,
+    /// Whether it is a measurement of a quantity with a true zero whose uncertainty is more
+    /// than [`super::validity::WIDE_RELATIVE`] of its value: formulas with steep powers of it
+    /// bend within that spread (see `Derivation::sample_where_doubtful`).
+    pub wide: bool,
 }
 
 /// An input's distribution, as far as first-order propagation is concerned: only a normal
@@ -472,6 +476,7 @@ mod tests {
             outside: 0.0,
             angle: false,
             periodic: false,
+            wide: false,
         }
     }
 

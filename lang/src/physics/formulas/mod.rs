@@ -71,7 +71,9 @@ pub use planning::{
     predicted_radius_earth, scale_height, transmission_metric, tsm_scale_factor, Branch,
     HabitableEdge, HABITABLE_TEFF_RANGE,
 };
-pub use radial_velocity::{minimum_mass_from_rv, planet_mass_from_rv, rv_semi_amplitude};
+pub use radial_velocity::{
+    minimum_mass_from_rv, planet_mass_from_rv, rv_semi_amplitude, stellar_mass_from_orbit_and_rv,
+};
 pub use stability::{
     hill_radius, is_hill_stable_circular, mutual_hill_radius, roche_limit_fluid,
     spacing_in_mutual_hill_radii, HILL_STABLE_SPACING, ROCHE_FLUID_COEFFICIENT,

@@ -208,3 +208,35 @@ pub(super) fn mass_ratio_guess(f: Mass, m_star: Mass) -> Option<f64> {
 pub fn minimum_mass_from_rv(k: Velocity, period: Time, m_star: Mass, e: f64) -> Option<Mass> {
     planet_mass_from_rv(k, period, m_star, e, 1.0)
 }
+
+/// The star's mass from the relative orbit and the radial velocities together, where the
+/// planet's mass is not known beforehand: Kepler's third law gives the total
+/// `M = M* + Mp = 4 pi^2 a^3 / (G P^2)`, and with the total known the mass function
+/// `f = (Mp sin i)^3 / M^2 = P K^3 (1 - e^2)^(3/2) / (2 pi G)` gives
+/// `Mp = (f M^2)^(1/3) / sin i` in closed form; `M* = M - Mp`. Both relations are those of
+/// [`rv_semi_amplitude`] and `kepler::total_mass_from_orbit`, so no light planet is assumed.
+///
+/// `None` for a non-positive axis, period or `k`, `e` outside `[0, 1)`, `sin_i` outside
+/// `(0, 1]`, or a companion at least as heavy as the whole (no star left).
+pub fn stellar_mass_from_orbit_and_rv(
+    a: uom::si::f64::Length,
+    period: Time,
+    k: Velocity,
+    e: f64,
+    sin_i: f64,
+) -> Option<Mass> {
+    if !(is_positive(&k) && is_eccentricity(e) && is_sin_inclination(sin_i)) {
+        return None;
+    }
+    let total = super::kepler::total_mass_from_orbit(a, period)?;
+    let f = period * k * k * k * one_minus_e2_to_three_halves(e)
+        / (2.0 * PI * gravitational_constant());
+    let projected_cubed = f * total * total;
+    let m_planet = typed(
+        || projected_cubed.cbrt(),
+        fastmath::cbrt(projected_cubed.value),
+    ) / sin_i;
+    let m_star = total - m_planet;
+    (is_positive(&m_star)).then_some(())?;
+    finite(m_star)
+}

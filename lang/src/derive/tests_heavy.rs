@@ -1,0 +1,85 @@
+//! A companion heavy enough to matter in Kepler's third law: the star's mass from the
+//! relative orbit and the radial velocities together (`kepler-stellar-mass-rv`), not with the
+//! companion's mass neglected. Every system here is invented.
+
+use super::tests_asymmetric::run;
+use crate::derive::Options;
+use crate::formulas as f;
+use crate::quantities::Qty;
+use uom::si::f64::{Length, Mass, Time, Velocity};
+use uom::si::{length::meter, mass::kilogram, time::second, velocity::meter_per_second};
+
+/// The closed form inverts the two relations it rests on: a star and companion put through
+/// Kepler's third law (the axis) and the semi-amplitude formula (K) come back out.
+#[test]
+fn the_star_mass_from_orbit_and_velocities_inverts_both_relations() {
+    let day = 86_400.0;
+    let msun = 1.988_409_870_698_051e30;
+    for (m_star, q, e, sin_i, p_days) in [
+        (1.0, 0.06, 0.0, 0.9998, 6.0),
+        (0.3, 0.2, 0.4, 0.8, 40.0),
+        (1.4, 1e-4, 0.1, 1.0, 365.0),
+    ] {
+        let ms = Mass::new::<kilogram>(m_star * msun);
+        let mp = ms * q;
+        let p = Time::new::<second>(p_days * day);
+        let a = f::semi_major_axis(p, ms, mp).expect("an axis");
+        let k = f::rv_semi_amplitude(mp, p, ms, e, sin_i).expect("a K");
+        let back = f::stellar_mass_from_orbit_and_rv(a, p, k, e, sin_i).expect("a mass");
+        let rel = (back / ms).value - 1.0;
+        assert!(rel.abs() < 1e-12, "{m_star} {q}: {rel}");
+    }
+    // A companion as heavy as the whole leaves no star.
+    let p = Time::new::<second>(10.0 * day);
+    let a = Length::new::<meter>(1.5e10);
+    let k = Velocity::new::<meter_per_second>(3e5);
+    assert_eq!(f::stellar_mass_from_orbit_and_rv(a, p, k, 0.0, 1.0), None);
+}
+
+/// A brown-dwarf companion (K = 7 km/s at 6 d, a = 0.06465 au, i = 88.76 deg) around a star
+/// with no declared mass. Neglecting the companion gave M* = 1.0014 Msun and Mp = 65.2 Mjup;
+/// the two relations solved together give M* = 0.94157 Msun and Mp = 62.657 Mjup (a numpy
+/// computation of the same two relations with astropy's constants, done when this test was
+/// written: M = 4 pi^2 a^3 / (G P^2), Mp = (P K^3 M^2 / (2 pi G))^(1/3) / sin i).
+#[test]
+fn a_heavy_companion_is_not_neglected_in_the_stars_mass() {
+    let src = r#"system "Thornacre" {
+  star thornacre { radius = 1.0 +- 0.01 Rsun; teff = 5800 +- 50 K }
+  planet b orbits thornacre {
+    period = 6.0 +- 0.0001 d
+    semi_major_axis = 0.06465 +- 0.0002 au
+    rv_amplitude = 7000 +- 50 m/s
+    inclination = 88.76 +- 0.2 deg
+  }
+}
+"#;
+    let a = run(src, Options::linear());
+    let get = |body: usize, q: Qty| {
+        a.results
+            .first()
+            .and_then(|r| r.bodies.get(body))
+            .and_then(|b| b.get(q))
+            .cloned()
+            .expect("a value")
+    };
+    let star = get(0, Qty::StarMass);
+    assert_eq!(star.rule, Some("kepler-stellar-mass-rv"));
+    let msun = 1.988_409_870_698_051e30;
+    assert!(
+        (star.value / msun / 0.941_57 - 1.0).abs() < 1e-4,
+        "{}",
+        star.value / msun
+    );
+    let mjup = 1.898_124_597_104_549e27;
+    let planet = get(1, Qty::Mass);
+    assert!(
+        (planet.value / mjup / 62.657 - 1.0).abs() < 1e-4,
+        "{}",
+        planet.value / mjup
+    );
+    assert!(
+        !star.assumptions.iter().any(|x| x.contains("neglected")),
+        "{:?}",
+        star.assumptions
+    );
+}
