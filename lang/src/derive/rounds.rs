@@ -130,7 +130,12 @@ impl<'m> Derivation<'m> {
         pending_exprs: &mut Vec<Key>,
         pending_lets: &mut Vec<crate::model::LetId>,
     ) {
-        for _round in 0..32 {
+        // A rule that stands in for a quantity (depth = k^2 while the impact parameter is
+        // unknown) waits for a round in which nothing else fires: the quantity may become
+        // known a few rounds later (an impact parameter from an inclination and a/R*), and
+        // then it must not have fired (a planet with b = 3.4 got a transit depth).
+        let mut stand_ins_now = false;
+        for _round in 0..64 {
             let mut progress = false;
             // Bindings, each after those it uses, so one pass takes a whole chain.
             let mut still = Vec::new();
@@ -173,6 +178,13 @@ impl<'m> Derivation<'m> {
                     let stands_in = RULES.get(*ri).and_then(|r| rules::stands_in_for(r.id));
                     if stands_in.is_some_and(|q| self.entries.contains_key(&(out.0, q))) {
                         continue; // the quantity it stands in for is known
+                    }
+                    // Rp/R* from a depth does not wait: a depth says the planet transits, and
+                    // the ratio from it meets the other routes to the radius in the round it
+                    // can (a depth written in the wrong unit is found through the radius).
+                    let waits = RULES.get(*ri).is_some_and(|r| r.id != "depth-radius-ratio");
+                    if stands_in.is_some() && waits && !stand_ins_now {
+                        continue; // not yet: see `stand_ins_now`
                     }
                     let Some((ri, out, ins)) = slot.take() else {
                         continue;
@@ -287,8 +299,12 @@ impl<'m> Derivation<'m> {
                     );
                 }
             }
-            if !progress {
+            if progress {
+                stand_ins_now = false;
+            } else if stand_ins_now {
                 break;
+            } else {
+                stand_ins_now = true;
             }
         }
     }

@@ -1,6 +1,8 @@
-//! A companion heavy enough to matter in Kepler's third law: the star's mass from the
-//! relative orbit and the radial velocities together (`kepler-stellar-mass-rv`), not with the
-//! companion's mass neglected. Every system here is invented.
+//! Routes that must not take a shortcut: a companion heavy enough to matter in Kepler's third
+//! law (the star's mass from the relative orbit and the radial velocities together,
+//! `kepler-stellar-mass-rv`, not with the companion's mass neglected), and a depth that
+//! neglects the impact parameter waiting until the impact parameter cannot become known.
+//! Every system here is invented.
 
 use super::tests_asymmetric::run;
 use crate::derive::Options;
@@ -82,4 +84,32 @@ fn a_heavy_companion_is_not_neglected_in_the_stars_mass() {
         "{:?}",
         star.assumptions
     );
+}
+
+/// A planet seen at i = 80 deg with a/R* of about 19 has b = a cos i / R* = 3.4: it does not
+/// transit, so no transit depth follows from its radius. The depth rule that neglects b
+/// (depth = k^2) stands in for the impact parameter, and it had fired before the impact
+/// parameter was derived a few rounds later: the planet got a depth of 1.06 %.
+#[test]
+fn a_planet_that_does_not_transit_gets_no_depth() {
+    let src = r#"system "Dunmere" {
+  star dunmere { mass = 1.0 +- 0.04 Msun; radius = 1.0 +- 0.03 Rsun; teff = 5700 +- 80 K }
+  planet b orbits dunmere { period = 10 +- 0.001 d; radius = 1.0 +- 0.05 Rjup; mass = 1.0 +- 0.1 Mjup; inclination = 80 +- 0.5 deg }
+}
+"#;
+    for options in [Options::linear(), Options::default()] {
+        let a = run(src, options);
+        let planet = a.results.first().and_then(|r| r.bodies.get(1)).expect("b");
+        let b = planet.get(Qty::Impact).expect("an impact parameter");
+        assert!(b.value > 3.0, "{b:?}");
+        assert!(planet.get(Qty::TransitDepth).is_none());
+        assert!(planet.get(Qty::TransitDuration).is_none());
+    }
+    // At i = 89.5 deg it transits (b = 0.17), and the depth is k^2 again.
+    let a = run(
+        &src.replace("80 +- 0.5 deg", "89.5 +- 0.2 deg"),
+        Options::linear(),
+    );
+    let planet = a.results.first().and_then(|r| r.bodies.get(1)).expect("b");
+    assert!(planet.get(Qty::TransitDepth).is_some());
 }

@@ -395,6 +395,39 @@ fn a_truncated_note_says_what_each_mode_does() {
     );
 }
 
+/// The truncation of an asymmetric measurement is weighed on the side its median moves to:
+/// `4 +1/-6 m/s` has Phi(-4/6) = 25 % of it below 0 and its median moves up to
+/// 4 + probit(0.626) = 4.32 m/s, a third of its upper side (a twentieth of the lower, which
+/// hid it). `7 +1/-318 Mearth` (a lower error in the wrong unit) moves to 7.66.
+#[test]
+fn an_asymmetric_measurement_reaching_past_its_range_is_noted() {
+    let src = r#"system "Wrenfold" {
+  star w { mass = 0.9 +- 0.04 Msun; radius = 0.85 +- 0.03 Rsun; teff = 5300 +- 80 K }
+  planet b orbits w { period = 8.0 +- 0.001 d; rv_amplitude = 4 +1/-6 m/s }
+  planet c orbits w { period = 11.3 +- 0.1 d; mass = 7 +1/-318 Mearth; radius = 2.1 +- 0.1 Rearth }
+}
+"#;
+    let notes: Vec<String> = run(src, Options::default())
+        .diagnostics
+        .iter()
+        .filter(|d| d.rule == crate::diagnostic::Rule::Truncated)
+        .map(|d| d.message.clone())
+        .collect();
+    assert_eq!(notes.len(), 2, "{notes:?}");
+    assert!(
+        notes
+            .iter()
+            .any(|n| n.contains("b.rv_amplitude") && n.contains("median is 4.3")),
+        "{notes:?}"
+    );
+    assert!(
+        notes
+            .iter()
+            .any(|n| n.contains("c.mass") && n.contains("median is 7.7")),
+        "{notes:?}"
+    );
+}
+
 /// A limit on an inclination is read within 0 to 90 deg: `> 86 deg` is 86 to 90 deg, as i
 /// and 180 deg - i give the same transit and radial velocities. Over the whole valid range
 /// (to 180 deg) it reached sin i = 0: the mass lay "between 0.169 and 2.36e39 Mjup".
