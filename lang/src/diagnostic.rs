@@ -204,6 +204,9 @@ pub fn apply_overrides(diags: &mut Vec<Diagnostic>, overrides: &[SeverityOverrid
         }
         match overrides.iter().rev().find(|(r, _)| *r == d.rule) {
             Some((_, Some(sev))) => {
+                if d.severity != *sev {
+                    regrade_notes(d, *sev);
+                }
                 d.severity = *sev;
                 true
             }
@@ -211,6 +214,30 @@ pub fn apply_overrides(diags: &mut Vec<Diagnostic>, overrides: &[SeverityOverrid
             None => true,
         }
     });
+}
+
+/// A note that grades its finding by size (`an error: past the error threshold of 5 sigma`)
+/// says so no more once the user's severity for the rule replaces that grading: it says
+/// which severity holds, and what the size alone would have made it.
+fn regrade_notes(d: &mut Diagnostic, to: Severity) {
+    let article = |s: Severity| match s {
+        Severity::Error => "an error",
+        Severity::Warning => "a warning",
+        Severity::Note => "a note",
+    };
+    let rule = d.rule.id();
+    for note in &mut d.notes {
+        for from in [Severity::Error, Severity::Warning, Severity::Note] {
+            if let Some(rest) = note.strip_prefix(&format!("{}: ", article(from))) {
+                *note = format!(
+                    "{}, as the severity set for `{rule}` says; by its size alone it would be {} ({rest})",
+                    article(to),
+                    article(from)
+                );
+                break;
+            }
+        }
+    }
 }
 
 /// Sort diagnostics into a stable, reading order: by file, position, then rule.
@@ -249,6 +276,24 @@ mod tests {
         assert_eq!(d.len(), 2);
         assert_eq!(d[0].severity, Severity::Error);
         assert_eq!(d[1].rule, Rule::Syntax);
+    }
+
+    /// An `inconsistent` finding graded an error by its size, shown as a warning because the
+    /// project says so, no longer says it is an error.
+    #[test]
+    fn an_override_rewrites_the_grading_note() {
+        let mut error = Diagnostic::new(Rule::Inconsistent, Span::default(), "a")
+            .with_note("an error: past the error threshold of 5 sigma (--error-sigma)")
+            .with_note("this file: x");
+        error.severity = Severity::Error;
+        let mut d = vec![error];
+        apply_overrides(&mut d, &[(Rule::Inconsistent, Some(Severity::Warning))]);
+        assert_eq!(d[0].severity, Severity::Warning);
+        assert_eq!(
+            d[0].notes[0],
+            "a warning, as the severity set for `inconsistent` says; by its size alone it would be an error (past the error threshold of 5 sigma (--error-sigma))"
+        );
+        assert_eq!(d[0].notes[1], "this file: x");
     }
 
     #[test]

@@ -95,8 +95,9 @@ pub struct Importer {
     table: String,
     systems: Vec<System>,
     system_index: HashMap<String, usize>,
+    /// The id of each reference text, by its text with case and white space normalised.
     ref_ids: HashMap<String, String>,
-    /// The key cell each reference text first came with (empty for none).
+    /// The key cell each reference text first came with (empty for none), by normalised text.
     ref_keys: HashMap<String, String>,
     ref_texts: HashMap<String, String>,
     ref_names: Ids,

@@ -158,3 +158,37 @@ fn two_values_citing_one_paper_name_it_instead_of_asking_for_a_reference_column(
     assert!(m[0].contains("give each row its own reference"), "{m:?}");
     assert!(!m[0].contains("add a reference column"), "{m:?}");
 }
+
+/// One paper typed three ways (spacing, letter case) is one reference, as `syz check` judges
+/// reference texts: imported as three, a weighted mean counted its period three times.
+#[test]
+fn a_reference_text_typed_differently_is_one_reference() {
+    let csv = format!(
+        "{HEADER}Vosk,Vosk,b,,,,3.1,0.01,,,,,,Quillon et al. 2030,\nVosk,Vosk,b,,,,3.1,0.01,,,,,,\"Quillon et al.  2030 \",\nVosk,Vosk,b,,,,3.1,0.01,,,,,,quillon et al. 2030,\n"
+    );
+    let r = import_csv(&csv, MAPPING);
+    let t = text_of(&r, "Vosk");
+    assert_eq!(t.matches("ref ").count(), 1, "{t}");
+    assert_eq!(t.matches("period =").count(), 1, "{t}");
+    assert!(r.issues.is_empty(), "{:?}", r.issues);
+}
+
+/// A reference key given to two different texts (a copied cell) is a conflict, not a
+/// silent second id.
+#[test]
+fn a_reference_key_reused_for_another_text_is_a_conflict() {
+    let mapping = MAPPING.replace("text = [\"paper\"]", "text = [\"paper\"]\nkey = \"note\"");
+    let mapping = mapping.replace("ignore = [\"note\"]\n", "");
+    let csv = format!(
+        "{HEADER}Lorn,Lorn,b,,,,3.1,0.01,,,,,,Alpha 2030,star\nLorn,Lorn,c,,,,7.1,0.01,,,,,,Gamma 2032,star\n"
+    );
+    let r = import_csv(&csv, &mapping);
+    let m = messages(&r, IssueKind::Conflict);
+    assert_eq!(m.len(), 1, "{:?}", r.issues);
+    assert!(
+        m[0].contains("`star` was given to another text earlier (\"Alpha 2030\")"),
+        "{}",
+        m[0]
+    );
+    assert!(text_of(&r, "Lorn").contains("ref ref_star_2 \"Gamma 2032\""));
+}
