@@ -13,11 +13,19 @@ use syzygy::{Options, Propagation, Settings};
 pub fn run(
     paths: &[PathBuf],
     format: EvalFormat,
-    table: TableArg,
+    table: Option<TableArg>,
     compact: bool,
     flags: &Layer,
     read: files::ReadArgs,
 ) -> u8 {
+    // A table chosen for a format that writes none would be dropped without a word.
+    let table = match (table, format) {
+        (Some(_), EvalFormat::Human | EvalFormat::Json) => {
+            eprintln!("syz: error: --table chooses the table of --format csv or --format votable; add one of them (the text and JSON outputs hold every value already)");
+            return 2;
+        }
+        (t, _) => t.unwrap_or(TableArg::Planets),
+    };
     let Some((loaded, settings)) = load_with_settings(paths, flags, read) else {
         return 2;
     };

@@ -255,9 +255,9 @@ enum Command {
         paths: Vec<PathBuf>,
         #[arg(long, value_enum, default_value = "human")]
         format: EvalFormat,
-        /// Which table `--format csv` and `--format votable` write.
-        #[arg(long, value_enum, default_value = "planets")]
-        table: TableArg,
+        /// Which table `--format csv` and `--format votable` write [default: planets].
+        #[arg(long, value_enum)]
+        table: Option<TableArg>,
         /// With `--format json`: the same document on one line, without indentation (about
         /// half the bytes, for machines).
         #[arg(long)]

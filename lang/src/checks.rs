@@ -53,6 +53,8 @@ pub fn run(d: &Derivation, diags: &mut Vec<Diagnostic>) -> Vec<CompositionNote> 
                 object_class(d, bi, diags);
                 size_and_orbit(d, bi, diags);
                 implausible_planet(d, bi, diags);
+                relation::compact_for_its_mass(d, bi, diags);
+                relation::prediction_beyond_limit(d, bi, diags);
                 transit_geometry(d, bi, diags);
                 no_prediction(d, bi, diags);
                 idle::idle_measurements(d, bi, diags);
@@ -64,6 +66,7 @@ pub fn run(d: &Derivation, diags: &mut Vec<Diagnostic>) -> Vec<CompositionNote> 
         }
     }
     exact::exact_measurements(d, diags);
+    neglect::neglected_mass(d, diags);
     orbit_spacing(d, diags);
     notes
 }
@@ -708,5 +711,7 @@ fn implausible_star_help(d: &Derivation, bi: usize, problems: &[(Qty, String)]) 
 
 mod exact;
 mod idle;
+mod neglect;
+mod relation;
 #[cfg(test)]
 mod tests;

@@ -111,8 +111,9 @@ rules! {
     TransitGeometry = "transit-geometry", Error, "A transit is declared but the impact parameter or inclination allows none.";
     CrossingOrbits = "crossing-orbits", Error, "Two planets of one star have orbits that cross.";
     UnstableSpacing = "unstable-spacing", Warning, "Neighbouring planets are closer than 2 sqrt(3) mutual Hill radii.";
-    ImplausiblePlanet = "implausible-planet", Warning, "The planet is larger or less dense than any known planet: usually a unit slip.";
+    ImplausiblePlanet = "implausible-planet", Warning, "The planet is larger, far smaller for its mass, or less dense than any known planet: usually a unit slip.";
     ImplausibleStar = "implausible-star", Warning, "No main-sequence or evolved star combines this mass, radius and temperature.";
+    MassNeglected = "mass-neglected", Warning, "A value derived with the planet's mass neglected, where the planet is heavy enough to move it by a third of its uncertainty or more.";
     UnusedAllow = "unused-allow", Warning, "A silencing comment that no longer silences anything.";
     SystemInTwoFiles = "system-in-two-files", Warning, "A system of the same name is declared in another file of the catalogue.";
     StarDisagreesAcrossFiles = "star-disagrees-across-files", Warning, "A star of the same id is declared in another file with values that disagree.";

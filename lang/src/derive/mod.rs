@@ -447,6 +447,18 @@ impl<'m> Derivation<'m> {
         self.entries.get(&k).map(|e| &e.value)
     }
 
+    /// The rule a value was derived by and the quantities it read, for the checks that judge
+    /// a route (a planet's mass neglected where it matters); `None` for a declared value.
+    pub fn derived_by(&self, k: Key) -> Option<(&'static str, &[Key])> {
+        let e = self.entries.get(&k)?;
+        Some((rules::RULES.get(e.rule?)?.id, e.inputs.as_slice()))
+    }
+
+    /// Every quantity with a value, in no particular order.
+    pub fn keys(&self) -> impl Iterator<Item = Key> + '_ {
+        self.entries.keys().copied()
+    }
+
     /// Whether a derived value was computed from `k` (it is an input of a chosen route).
     pub fn is_used(&self, k: Key) -> bool {
         self.used.contains(&k)

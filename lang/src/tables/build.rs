@@ -757,6 +757,11 @@ impl Importer {
                 }
                 kept.push(body);
             }
+            if kept.is_empty() {
+                // Every body was refused (a planet without its star): no empty file, which
+                // would say nothing; the refusals above name why.
+                continue;
+            }
             let hosts: Vec<Option<String>> = kept
                 .iter()
                 .map(|b| b.host.as_ref().and_then(|h| stars.get(h)).cloned())

@@ -260,6 +260,14 @@ fn a_planet_whose_host_is_missing_is_reported() {
     assert_eq!(r.summary.skipped_cells, 2);
     assert_eq!(r.summary.planets, 0);
     clean(&text_of(&r, "Orrin"));
+    // A system whose only body was refused gets no file (it would be an empty system).
+    let r = import_csv(
+        &format!("{HEADER}Pellucid,,Pellucid b,,,,3.5,,,,,,,,\n"),
+        MAPPING,
+    );
+    assert_eq!(r.issues.len(), 1, "{:?}", r.issues);
+    assert!(r.files.is_empty(), "{:?}", r.files);
+    assert_eq!(r.summary.systems, 0);
 }
 
 #[test]

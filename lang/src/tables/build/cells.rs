@@ -6,8 +6,11 @@
 pub(super) fn number(raw: &str) -> Option<(f64, String)> {
     let t = raw.trim();
     let t = t.strip_prefix('+').unwrap_or(t);
+    // The minus sign of typeset text (U+2212, from a PDF), which the language reads too.
+    let unicode_minus = t.strip_prefix('\u{2212}').map(|r| format!("-{r}"));
+    let t = unicode_minus.as_deref().unwrap_or(t);
     let v: f64 = t.parse().ok()?;
-    if !v.is_finite() {
+    if !v.is_finite() || too_small(v, t) {
         return None;
     }
     let (neg, digits) = match t.strip_prefix('-') {
@@ -19,6 +22,14 @@ pub(super) fn number(raw: &str) -> Option<(f64, String)> {
         return Some((v, if neg { format!("-{digits}") } else { digits }));
     }
     Some((v, format!("{v:e}")))
+}
+
+/// A number the language refuses as too small to represent: below the smallest normal
+/// `f64` (`1e-320`, which would lose digits), or read as 0 though a digit is not (`1e-400`).
+fn too_small(v: f64, t: &str) -> bool {
+    let mantissa = t.split(['e', 'E']).next().unwrap_or("");
+    let nonzero_digit = mantissa.bytes().any(|b| (b'1'..=b'9').contains(&b));
+    (v != 0.0 && v.abs() < f64::MIN_POSITIVE) || (v == 0.0 && nonzero_digit)
 }
 
 /// What a value cell that is not a number probably meant, as a clause to add to the issue:
@@ -48,6 +59,12 @@ pub(super) fn not_a_number_hint(raw: &str, has_limit_column: bool) -> String {
             return format!(
                 "; it looks like a decimal comma: write `{point}`, with a decimal point"
             );
+        }
+    }
+    if let Ok(v) = t.parse::<f64>() {
+        if v.is_finite() && too_small(v, t) {
+            return "; it is too small to represent (below 2.2e-308): if it means 0, write 0"
+                .to_string();
         }
     }
     let lower = t.to_ascii_lowercase();
@@ -158,6 +175,22 @@ mod tests {
         assert!(hint.contains("`-1.5e3`"), "{hint}");
         assert!(!super::not_a_number_hint("1,2,3", false).contains("decimal"));
         assert!(!super::not_a_number_hint("a,b", false).contains("decimal"));
+    }
+
+    /// A typeset minus (U+2212, as a PDF gives it) is read as the language reads it; a number
+    /// too small to represent is refused with the reason, as `syz check` would refuse it.
+    #[test]
+    fn a_typeset_minus_is_read_and_a_subnormal_refused() {
+        assert_eq!(
+            super::number("\u{2212}0.05"),
+            Some((-0.05, "-0.05".to_string()))
+        );
+        for tiny in ["1e-320", "1e-400", "0.5e-310"] {
+            assert_eq!(super::number(tiny), None, "{tiny}");
+            let hint = super::not_a_number_hint(tiny, false);
+            assert!(hint.contains("too small to represent"), "{tiny}: {hint}");
+        }
+        assert_eq!(super::number("0e-400"), Some((0.0, "0e-400".to_string())));
     }
 
     #[test]
