@@ -280,7 +280,7 @@ fn report(table: &str, r: &ImportResult) {
     };
     let n = |count: usize, word: &str| format!("{count} {word}{}", crate::check_cmd::plural(count));
     println!(
-        "{table}: {}: {}, {}, {}, {} imported{merged}; {} skipped",
+        "{table}: {}: {}, {}, {}, {} read{merged}; {} skipped",
         n(s.rows, "row"),
         n(s.systems, "system"),
         n(s.stars, "star"),

@@ -87,10 +87,24 @@ pub fn run(plot: &Plot, flags: &Layer, read: files::ReadArgs) -> u8 {
         } => one_planet(file, body, system.as_deref(), flags, read).and_then(|(a, si, bi)| {
             input_errors = a.error_count();
             let c = plots::rv_curve(&a, si, bi)?;
+            // Inferior conjunction is a mid-transit only for a planet that transits.
+            let transits = a
+                .results
+                .get(si)
+                .and_then(|r| r.bodies.get(bi))
+                .is_some_and(|b| {
+                    b.get(syzygy::quantities::Qty::TransitDepth).is_some()
+                        || b.get(syzygy::quantities::Qty::TransitDuration).is_some()
+                });
+            let axis = if transits {
+                "time from mid-transit (inferior conjunction) [days]"
+            } else {
+                "time from inferior conjunction [days]"
+            };
             Ok(model::draw(
                 &c,
                 &format!("Radial velocity of {}'s star", c.label),
-                "time from mid-transit (inferior conjunction) [days]",
+                axis,
                 "stellar radial velocity [m/s]",
                 None,
             )?)

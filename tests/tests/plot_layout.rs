@@ -314,3 +314,60 @@ fn the_readme_figure_is_what_the_command_under_it_draws() {
         "the README should say it draws {planets} planets"
     );
 }
+
+/// The radial-velocity curve's time axis counts from inferior conjunction; only for a
+/// planet that transits is that the mid-transit (Veyra b transits, Veyra c is seen in
+/// radial velocities only).
+#[test]
+fn the_rv_time_axis_says_mid_transit_only_for_a_transiting_planet() {
+    let dir = scratch("rv-axis");
+    for (planet, axis) in [
+        ("b", "time from mid-transit (inferior conjunction) [days]"),
+        ("c", "time from inferior conjunction [days]"),
+    ] {
+        let out = dir.join(format!("{planet}.svg"));
+        let o = run(&[
+            "plot",
+            "rv",
+            "examples/veyra.syz",
+            planet,
+            "-o",
+            out.to_str().unwrap(),
+        ]);
+        assert!(o.status.success(), "{}", stderr(&o));
+        let texts: Vec<String> = text_boxes(&std::fs::read_to_string(&out).unwrap())
+            .into_iter()
+            .map(|(t, _)| t)
+            .collect();
+        assert!(texts.iter().any(|t| t == axis), "{planet}: {texts:?}");
+    }
+}
+
+/// A planet clear of its star's disc (b = 3.4 > 1 + Rp/R*) has no transit to draw: the
+/// command says so and exits 1, rather than drawing a flat line titled "Transit of ...".
+#[test]
+fn a_planet_that_does_not_transit_has_no_transit_plot() {
+    let dir = scratch("no-transit");
+    let file = dir.join("dunmere.syz");
+    std::fs::write(
+        &file,
+        "# Invented.\nsystem \"Dunmere\" {\n  star dunmere { mass = 1.0 ± 0.04 Msun; radius = 1.0 ± 0.03 Rsun; teff = 5700 ± 80 K }\n  planet b orbits dunmere { period = 10 ± 0.001 d; radius = 1.0 ± 0.05 Rjup; mass = 1.0 ± 0.1 Mjup; inclination = 80 ± 0.5 deg }\n}\n",
+    )
+    .unwrap();
+    let out = dir.join("t.svg");
+    let o = run(&[
+        "plot",
+        "transit",
+        file.to_str().unwrap(),
+        "b",
+        "-o",
+        out.to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(1), "{}", stderr(&o));
+    assert!(
+        stderr(&o).contains("Dunmere b does not transit"),
+        "{}",
+        stderr(&o)
+    );
+    assert!(!out.exists());
+}

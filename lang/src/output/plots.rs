@@ -492,6 +492,17 @@ pub fn transit_curve(
     };
     let ars = inp.draws(Qty::ScaledAxis, n, 22)?;
     let b = inp.draws(Qty::Impact, n, 23)?;
+    // A planet whose impact parameter puts it clear of the star's disc does not transit: a
+    // flat line titled "Transit of ..." would say it does.
+    let (b0, k0) = (inp.nominal(Qty::Impact), inp.nominal(Qty::RadiusRatio));
+    if b0 >= 1.0 + k0 {
+        return Err(format!(
+            "{} does not transit: its impact parameter ({}) is at least 1 + Rp/R* ({}), so the planet passes clear of the star's disc",
+            inp.label,
+            crate::format::sig(b0, 3),
+            crate::format::sig(1.0 + k0, 3)
+        ));
+    }
     let k: Vec<f64> = if from_depth {
         // Without limb darkening the inverse is k = sqrt(depth), as the engine reads it:
         // nothing more to say.

@@ -133,7 +133,7 @@ impl CompositionClass {
             CompositionClass::GasGiant => "gas giant",
             CompositionClass::InflatedGiant => "inflated gas giant (radius above cold models)",
             CompositionClass::OutsideModels => {
-                "outside the models' range: no composition class below 0.05 or above 20 Earth masses (short of a giant)"
+                "outside the models' range: the interior models that tell iron, rock and water apart stop at 0.05 and 20 Earth masses, and short of a giant's mass or radius this body is given no class"
             }
         }
     }
