@@ -269,10 +269,19 @@ impl<'m> Derivation<'m> {
                     .min_by(|a, b| {
                         let ta = RULES.get(a.rule).map_or(9, |r| r.tier);
                         let tb = RULES.get(b.rule).map_or(9, |r| r.tier);
-                        ta.cmp(&tb).then(
-                            relative_spread(&a.value, &self.inputs)
-                                .total_cmp(&relative_spread(&b.value, &self.inputs)),
-                        )
+                        // Routes as precise as each other (to rounding) are the same
+                        // information: the one resting on fewer values is the direct one (a
+                        // star's density from a/R*, not through a duration derived from it).
+                        let (sa, sb) = (
+                            relative_spread(&a.value, &self.inputs),
+                            relative_spread(&b.value, &self.inputs),
+                        );
+                        let same = (sa - sb).abs() <= 1e-9 * sa.abs().max(sb.abs());
+                        ta.cmp(&tb).then(if same {
+                            a.deps.len().cmp(&b.deps.len())
+                        } else {
+                            sa.total_cmp(&sb)
+                        })
                     })
                     .cloned();
                 if let Some(c) = best {

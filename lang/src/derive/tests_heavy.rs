@@ -113,3 +113,25 @@ fn a_planet_that_does_not_transit_gets_no_depth() {
     let planet = a.results.first().and_then(|r| r.bodies.get(1)).expect("b");
     assert!(planet.get(Qty::TransitDepth).is_some());
 }
+
+/// Two routes as precise as each other are the same information, and the value names the
+/// direct one: a star's density from a declared a/R* and period, not through a transit
+/// duration derived from that a/R* (both give 1.411 +- 0.015 g/cm^3; the explanation went
+/// through the duration).
+#[test]
+fn of_two_equally_precise_routes_the_direct_one_is_named() {
+    let src = r#"system "Thornacre" {
+  star thornacre { radius = 1.0 +- 0.01 Rsun; teff = 5800 +- 50 K }
+  planet b orbits thornacre { period = 6.0 +- 0.0001 d; scaled_semi_major_axis = 13.90 +- 0.05; radius_ratio = 0.09 +- 0.001; impact = 0.3 +- 0.05 }
+}
+"#;
+    let a = run(src, Options::linear());
+    let rho = a
+        .results
+        .first()
+        .and_then(|r| r.bodies.first())
+        .and_then(|b| b.get(Qty::StarDensity))
+        .cloned()
+        .expect("a density");
+    assert_eq!(rho.rule, Some("stellar-density-from-transit"), "{rho:?}");
+}
