@@ -553,6 +553,13 @@ fn orbit_spacing(d: &Derivation, diags: &mut Vec<Diagnostic>) {
 pub const STAR_TEFF: (f64, f64) = (2_000.0, 60_000.0);
 pub const STAR_MASS: (f64, f64) = (0.07 * M_SUN, 300.0 * M_SUN);
 pub const STAR_LOG_G: (f64, f64) = (-1.0, 5.8);
+/// From the smallest M dwarfs (about 0.08 Rsun) to the largest red supergiants (about 1,500
+/// Rsun), with room either side: a radius in km written as Rsun (695,700 Rsun) or in Rearth
+/// as Rsun lands far outside, with no mass needed to see it.
+pub const STAR_RADIUS: (f64, f64) = (
+    0.05 * crate::constants::R_SUN,
+    2_500.0 * crate::constants::R_SUN,
+);
 
 /// The habitable-zone fits hold for 2600-7200 K only: outside, the zone is not derived, and
 /// this says why.
@@ -633,6 +640,17 @@ fn plausible_star(d: &Derivation, bi: usize, diags: &mut Vec<Diagnostic>) {
             ));
         }
     }
+    if let Some(r) = nominal(d, (bi, Qty::StarRadius)) {
+        if r < STAR_RADIUS.0 || r > STAR_RADIUS.1 {
+            problems.push((
+                Qty::StarRadius,
+                format!(
+                    "radius {} Rsun lies outside 0.05–2500 Rsun",
+                    crate::format::sig(r / crate::constants::R_SUN, 3)
+                ),
+            ));
+        }
+    }
     // A radius or mass so far off that g itself overflows or underflows (a radius of
     // 1e-200 Rsun) leaves no log g among the values: it is computed here in logarithms.
     let log_g = nominal(d, (bi, Qty::LogG)).or_else(|| {
@@ -686,6 +704,7 @@ fn implausible_star_help(d: &Derivation, bi: usize, problems: &[(Qty, String)]) 
     let range = |q: Qty| match q {
         Qty::Teff => STAR_TEFF,
         Qty::StarMass => STAR_MASS,
+        Qty::StarRadius => STAR_RADIUS,
         _ => STAR_LOG_G,
     };
     for (q, _) in problems {
@@ -703,7 +722,7 @@ fn implausible_star_help(d: &Derivation, bi: usize, problems: &[(Qty, String)]) 
     match derived.as_ref().and_then(|r| r.first()) {
         Some(route) => format!("{route}: check the units and sources of those measurements"),
         None => {
-            "check the units: a radius in Rjup or au instead of Rsun, or a mass in Mjup, gives this"
+            "check the units: a radius in Rjup, km or au instead of Rsun, or a mass in Mjup, gives this"
                 .to_string()
         }
     }

@@ -717,3 +717,29 @@ fn a_heavy_companions_neglected_mass_is_reported() {
         light.diagnostics
     );
 }
+
+/// A star's radius from a table in km, imported as Rsun (695,700 "Rsun"), with no mass to
+/// make a log g of: the radius alone is outside what any star has.
+#[test]
+fn a_star_radius_no_star_has_is_implausible_without_a_mass() {
+    let src = "system \"Km\" {\n  star km { radius = 695700 ± 7000 Rsun; teff = 5600 ± 80 K }\n}\n";
+    let a = run(src);
+    let found: Vec<&str> = a
+        .diagnostics
+        .iter()
+        .filter(|d| d.rule == Rule::ImplausibleStar)
+        .map(|d| d.message.as_str())
+        .collect();
+    assert_eq!(found.len(), 1, "{:?}", a.diagnostics);
+    assert!(
+        found[0].contains("radius 695700 Rsun lies outside 0.05–2500 Rsun"),
+        "{}",
+        found[0]
+    );
+    let fine = run(&src.replace("695700 ± 7000", "1.0 ± 0.01"));
+    assert!(
+        !rules(&fine).contains(&Rule::ImplausibleStar),
+        "{:?}",
+        fine.diagnostics
+    );
+}
