@@ -527,6 +527,7 @@ impl<'m> Derivation<'m> {
             // that a value's move there is its one input's.
             let mut exact = Vec::new();
             let mut curved: Vec<(Key, String)> = Vec::new();
+            let mut wide_carried: Vec<Key> = Vec::new();
             let groups = self.side_groups(&shaped);
             for group in groups.into_iter().chain(self.side_groups(&wide)) {
                 let sides = self.at_sides(&group, &focus);
@@ -557,18 +558,25 @@ impl<'m> Derivation<'m> {
                     let one = self.one_input_and_rest(&e.value, |id, input, _| {
                         input.wide && input.shape == Shape::Normal && group.contains(&id)
                     });
+                    // Another checked input under it may give it a small share (an impact
+                    // parameter's under a scale height, through sin i): its own group's
+                    // runs check the value's bend along it (see `wide_carried` below).
+                    let shares: FxHashMap<u32, f64> =
+                        e.value.budget(&self.inputs).into_iter().collect();
+                    let small = |o: &u32| shares.get(o).copied().unwrap_or(0.0) < SHARE_LIMIT;
                     if let Some((id, rest)) = one.filter(|(id, _)| {
                         (e.value.grad.iter())
-                            .all(|(o, g)| o == id || *g == 0.0 || !skewed.contains(o))
+                            .all(|(o, g)| o == id || *g == 0.0 || !skewed.contains(o) || small(o))
                     }) {
                         on_wide.entry(id).or_default().push((*key, rest));
                     }
                 }
-                for (key, summary) in self.two_lines_at_sides(&on_wide, &group, &sides) {
+                for (key, summary) in self.two_lines_in(&on_wide, &group, &sides, true) {
                     if let Some(i) = bent.iter().position(|(k, _)| *k == key) {
                         let (_, why) = bent.swap_remove(i);
                         let words = format!("{WIDE_KEPT}: {why}, so this interval is the median and 16th-84th percentiles of the value with that measurement at its two standard uncertainties carried through the formulas exactly (a monotone formula carries a normal's percentiles to the value's) and the other inputs' first-order spread added; not sampled");
                         self.two_lines.insert(key, (summary, words));
+                        wide_carried.push(key);
                     }
                 }
                 for (key, why) in bent {
@@ -578,6 +586,13 @@ impl<'m> Derivation<'m> {
                 }
             }
             exact.retain(|(k, _)| !curved.iter().any(|(c, _)| c == k));
+            // A value carried along its wide measurement but found bent along another
+            // checked input in that input's runs is sampled after all.
+            for key in wide_carried {
+                if curved.iter().any(|(c, _)| *c == key) {
+                    self.two_lines.remove(&key);
+                }
+            }
             let resolved: FxHashSet<Key> = exact.iter().map(|(k, _)| *k).collect();
             for key in by_input.values().flatten().map(|(k, _)| *k) {
                 if !resolved.contains(&key) {
