@@ -77,8 +77,8 @@ pub(super) fn neglected_mass(d: &Derivation, diags: &mut Vec<Diagnostic>) {
                     shift / relative.max(f64::MIN_POSITIVE)
                 ),
             )
-            .with_note("the full relation needs the planet's mass where this value is derived, and here the planet's mass is derived from it in turn")
-            .with_help("declare the star's mass (or the semi-major axis and inclination with the velocities) so that both masses are solved without neglecting either"),
+            .with_note("the full relation needs the planet's mass, which was not known where this value was derived")
+            .with_help("declare the star's mass, so that the star's values come from it and not from the planet's orbit with its mass left out"),
         );
     }
 }

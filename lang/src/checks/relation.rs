@@ -1,7 +1,8 @@
 //! Planets set against the mean mass-radius relation of Chen & Kipping (2017): a giant far
-//! more compact than any planet of its mass (the composition models stop at 20 Mearth, so
-//! no `denser-than-iron` check sees it), and a prediction from the relation that a declared
-//! limit the derivations cannot use contradicts.
+//! more compact than any planet of its mass (the composition curves are fitted up to 20
+//! Mearth, and the iron curve extrapolated far beyond does not rule it out), and a
+//! prediction from the relation that a declared limit the derivations cannot use
+//! contradicts.
 
 use super::{anchor, nominal, shown};
 use crate::constants::{M_EARTH, R_EARTH};
@@ -17,8 +18,8 @@ use crate::quantities::Qty;
 /// practice), while a unit slip lands far beyond it (5.2 Mjup at 0.21 Rjup is 9 of them).
 const COMPACT_SCATTERS: f64 = 5.0;
 
-/// Above this mass (Earth masses) the composition classes, and with them the
-/// `denser-than-iron` check, do not reach: it is the upper end of their models.
+/// Above this mass (Earth masses) the composition curves are extrapolated (their fits stop
+/// there), and `denser-than-iron` rests on the iron curve's extrapolation alone.
 const MODELS_TOP_EARTH: f64 = 20.0;
 
 /// A planet heavier than the composition models reach and far smaller than planets of its
@@ -46,6 +47,18 @@ pub(super) fn compact_for_its_mass(d: &Derivation, bi: usize, diags: &mut Vec<Di
         return;
     }
     let name = d.sys.bodies.get(bi).map_or("?", |b| b.id.as_str());
+    // A radius from a transit depth: the depth's unit (ppm written for %) and the star's
+    // radius are as likely as the mass's unit.
+    let declared_radius = d
+        .sys
+        .bodies
+        .get(bi)
+        .is_some_and(|b| b.get(Qty::Radius).is_some());
+    let help = if declared_radius {
+        "check the mass's unit (a mass in Mjup meant as Mearth is 318 times too heavy) and the radius's (Rearth meant as Rjup is 11 times too small)"
+    } else {
+        "check the transit depth's unit (ppm written where % was meant makes the radius 100 times too small), the star's radius, and the mass's unit (Mjup meant as Mearth is 318 times too heavy)"
+    };
     diags.push(
         Diagnostic::new(
             Rule::ImplausiblePlanet,
@@ -59,8 +72,8 @@ pub(super) fn compact_for_its_mass(d: &Derivation, bi: usize, diags: &mut Vec<Di
                 branch.sigma
             ),
         )
-        .with_note("the density this gives is beyond any known planet's; the composition models (and the denser-than-iron check) stop at 20 Mearth")
-        .with_help("check the mass's unit (a mass in Mjup meant as Mearth is 318 times too heavy) and the radius's (Rearth meant as Rjup is 11 times too small)"),
+        .with_note("the composition curves are fitted up to 20 Mearth; extrapolated this far, the iron curve does not rule this radius out, but no planet of the population lies here")
+        .with_help(help),
     );
 }
 

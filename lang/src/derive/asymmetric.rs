@@ -234,6 +234,7 @@ impl<'m> Derivation<'m> {
         keys: &[Key],
         moved: &FxHashSet<u32>,
         [up, down]: &[Derivation<'m>; 2],
+        shifts: &mut FxHashMap<Key, f64>,
     ) -> Vec<(Key, String)> {
         let mut out = Vec::new();
         for key in keys {
@@ -273,6 +274,10 @@ impl<'m> Derivation<'m> {
             };
             let (du, dd) = (hi - v.nominal, lo - v.nominal);
             let miss = (du - lin_up).abs().max((dd - lin_down).abs());
+            // The second-order shift of its median these inputs give, `f'' s^2 / 2` for each
+            // (half the sum of its two misses), summed over the groups by the caller: small
+            // bends that all lower a value add up.
+            *shifts.entry(*key).or_default() += 0.5 * ((du - lin_up) + (dd - lin_down));
             let (below, above) = v.linear_spread(&self.inputs);
             let sigma = below.max(above);
             if miss > CURVATURE_LIMIT * sigma && miss > 1e-9 * v.nominal.abs() {

@@ -449,7 +449,7 @@ pub static RULES: &[RuleDef] = &[
         formula: "rho* = 3 pi (a/R*)^3 / (G P^2) with a/R* from T14, k and b (Seager & Mallén-Ornelas 2003 eqs. 8-9)",
         output: H(StarDensity),
         inputs: &[P(Period), P(TransitDuration), P(RadiusRatio), P(Impact), P(Eccentricity), P(ArgPeriastron)],
-        tier: 1,
+        tier: 2,
         eval: |x| {
             args!(x, [p, t14, k, b, e, w]);
             f::stellar_density_from_duration(t(p), t(t14), k, b, e, ang(w))
@@ -461,7 +461,7 @@ pub static RULES: &[RuleDef] = &[
         formula: "rho* = 3 pi (a/R*)^3 / (G P^2) (Seager & Mallén-Ornelas 2003)",
         output: H(StarDensity),
         inputs: &[P(ScaledAxis), P(Period)],
-        tier: 1,
+        tier: 2,
         eval: |x| {
             args!(x, [ars, p]);
             f::stellar_density_from_transit(ars, t(p)).map(|v| v.get::<kilogram_per_cubic_meter>())

@@ -519,3 +519,28 @@ fn a_steep_power_of_a_wide_measurement_is_carried_exactly() {
         tight.assumptions
     );
 }
+
+/// A duration at e = 0.5 +- 0.06 and omega = -30 deg (where sqrt(1 - e^2) / (1 + e sin w)
+/// peaks near e = 0.5) and b = 0.3 +- 0.06 bends along each by under a tenth of its
+/// uncertainty, both lowering its median: first order put it 0.12 of the uncertainty high
+/// (8.629 +- 0.354 h against a numpy Monte Carlo of 2e6 draws, 8.587 +0.357/-0.353). The
+/// bends are summed, and it is sampled.
+#[test]
+fn small_bends_that_add_up_are_sampled() {
+    let src = r#"system "Quorra" {
+  star quorra { mass = 1.04 +- 0.04 Msun; radius = 1.08 +- 0.03 Rsun; teff = 5880 +- 80 K }
+  planet d orbits quorra { period = 60.2 +- 0.01 d; rv_amplitude = 2.4 +- 0.4 m/s; eccentricity = 0.5 +- 0.06; arg_periastron = -30 +- 2 deg; transit_depth = 0.09 +- 0.005 %; impact = 0.3 +- 0.06 }
+}
+"#;
+    let lin = planet_value(&run(src, Options::linear()), Qty::TransitDuration);
+    let why = sampled_why(&lin);
+    assert!(
+        why.contains("bends at the sides of several inputs"),
+        "{why}"
+    );
+    agree_within(
+        &lin,
+        &planet_value(&run(src, monte_carlo()), Qty::TransitDuration),
+        0.06,
+    );
+}

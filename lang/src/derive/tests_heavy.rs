@@ -135,3 +135,35 @@ fn of_two_equally_precise_routes_the_direct_one_is_named() {
         .expect("a density");
     assert_eq!(rho.rule, Some("stellar-density-from-transit"), "{rho:?}");
 }
+
+/// A companion of 46 % of its star's mass, seen in the star's velocities (no transit): the
+/// star's mass comes from the orbit and velocities together (0.718 Msun: 4 pi^2 a^3 /
+/// (G P^2) = 1.0487 Msun less Mp = 0.3307 Msun from the mass function; numpy with
+/// astropy's constants, done when this test was written), and its density from that mass
+/// and its radius (0.718 / 0.9^3 x 1.41 = 1.39 g/cm^3), not from a/R* with the companion
+/// neglected (2.03 g/cm^3, the total mass over R*^3).
+#[test]
+fn a_stars_density_comes_from_its_mass_before_an_approximation() {
+    let src = r#"system "Corrim" {
+  star corrim { radius = 0.9 +- 0.02 Rsun; teff = 5400 +- 80 K }
+  planet b orbits corrim { period = 200.0 +- 0.1 d; semi_major_axis = 0.68 +- 0.004 au; rv_amplitude = 9.0 +- 0.1 km/s; inclination = 45 +- 1 deg; eccentricity = 0.4 +- 0.01 }
+}
+"#;
+    let a = run(src, Options::linear());
+    let star = a
+        .results
+        .first()
+        .and_then(|r| r.bodies.first())
+        .expect("the star");
+    let rho = star.get(Qty::StarDensity).expect("a density");
+    assert_eq!(rho.rule, Some("mean-density-star"), "{rho:?}");
+    // 1.39 g/cm^3 = 1390 kg/m^3.
+    assert!((rho.value / 1390.0 - 1.0).abs() < 0.01, "{}", rho.value);
+    let msun = 1.988_409_870_698_051e30;
+    let m = star.get(Qty::StarMass).expect("a mass");
+    assert!(
+        (m.value / msun / 0.7180 - 1.0).abs() < 1e-3,
+        "{}",
+        m.value / msun
+    );
+}

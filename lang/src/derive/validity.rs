@@ -528,6 +528,7 @@ impl<'m> Derivation<'m> {
             let mut exact = Vec::new();
             let mut curved: Vec<(Key, String)> = Vec::new();
             let mut wide_carried: Vec<Key> = Vec::new();
+            let mut shifts: FxHashMap<Key, f64> = FxHashMap::default();
             let groups = self.side_groups(&shaped);
             for group in groups.into_iter().chain(self.side_groups(&wide)) {
                 let sides = self.at_sides(&group, &focus);
@@ -546,7 +547,7 @@ impl<'m> Derivation<'m> {
                         .filter(|(id, _)| !group.contains(id))
                         .flat_map(|(_, keys)| keys.iter().map(|(k, _)| *k)),
                 );
-                let mut bent = self.curved(&here, &group, &sides);
+                let mut bent = self.curved(&here, &group, &sides, &mut shifts);
                 // A value bent along one wide measurement alone (see `WIDE_RELATIVE`) takes
                 // its two sides through the formulas exactly, as a value on one asymmetric
                 // input does: a normal is two half-normal lines of one width.
@@ -583,6 +584,34 @@ impl<'m> Derivation<'m> {
                     if !curved.iter().any(|(k, _)| *k == key) {
                         curved.push((key, why));
                     }
+                }
+            }
+            // Bends each under the limit along several inputs that all move the median one
+            // way: together they may pass it (a duration at e = 0.5 +- 0.06 and
+            // omega = -30 deg, flat in e there, and b = 0.3 +- 0.06: 0.08 of its uncertainty
+            // each, 0.12 together).
+            let mut keys: Vec<Key> = shifts.keys().copied().collect();
+            keys.sort();
+            for key in keys {
+                let done = curved.iter().any(|(k, _)| *k == key)
+                    || wide_carried.contains(&key)
+                    || exact.iter().any(|(k, _)| *k == key);
+                let (Some(e), Some(shift)) = (self.entries.get(&key), shifts.get(&key)) else {
+                    continue;
+                };
+                let (below, above) = e.value.linear_spread(&self.inputs);
+                let sigma = below.max(above);
+                if !done
+                    && shift.abs() > CURVATURE_LIMIT * sigma
+                    && shift.abs() > 1e-9 * e.value.nominal.abs()
+                {
+                    curved.push((
+                        key,
+                        format!(
+                            "its bends at the sides of several inputs together move its median by {:.0}% of its first-order uncertainty",
+                            (100.0 * shift.abs() / sigma).min(999.0)
+                        ),
+                    ));
                 }
             }
             exact.retain(|(k, _)| !curved.iter().any(|(c, _)| c == k));
