@@ -197,7 +197,11 @@ impl<'m> Derivation<'m> {
         if let Some(n) = self.shared(unit, &s.value, &l.value, sigma) {
             d = d.with_note(n);
         }
-        self.grade(&mut d, z);
+        self.grade(
+            &mut d,
+            z,
+            no_uncertainty(s.value.nominal, l.value.nominal, sigma),
+        );
         let d = self.label_involved(d, span, &involved);
         found.push((involved, d));
     }
@@ -292,7 +296,11 @@ impl<'m> Derivation<'m> {
             } else {
                 "cos i <= (1 + Rp/R*) / (a/R*): the transit's impact parameter is at most 1 + Rp/R* (Winn 2010 eq. 7, circular orbit; without a declared radius, Rp/R* up to 0.5, as a grazing transit allows)"
             });
-        self.grade(&mut d, z);
+        self.grade(
+            &mut d,
+            z,
+            no_uncertainty(mass.value.nominal, most.nominal, sigma),
+        );
         let d = self.label_involved(d, span, &involved);
         found.push((involved, d));
     }
@@ -521,7 +529,11 @@ impl<'m> Derivation<'m> {
             };
             d = d.with_note(n);
         }
-        self.grade(&mut d, z);
+        self.grade(
+            &mut d,
+            z,
+            no_uncertainty(entry.value.nominal, c.value.nominal, sigma),
+        );
         self.label_involved(d, span, involved)
     }
 
@@ -552,11 +564,17 @@ impl<'m> Derivation<'m> {
 
     /// An `inconsistent` finding at `z` combined sigma is an error past the error threshold,
     /// else a warning; the note says which threshold it crossed.
-    pub(super) fn grade(&self, d: &mut Diagnostic, z: f64) {
+    pub(super) fn grade(&self, d: &mut Diagnostic, z: f64, exact: bool) {
         let (warn, error) = (
             self.options.consistency_sigma,
             self.options.consistency_error_sigma,
         );
+        if exact {
+            // No sigma to speak of: the difference has no uncertainty at all.
+            d.severity = crate::diagnostic::Severity::Error;
+            d.notes.push("an error: every value both routes rest on is exact, so any difference past rounding passes every threshold; a value written without an uncertainty is taken as exact: if these are rounded (2.1 for 2.146), give each the uncertainty its digits allow (± 0.05 for 2.1)".to_string());
+            return;
+        }
         if z > error {
             d.severity = crate::diagnostic::Severity::Error;
             d.notes.push(format!(
@@ -623,13 +641,19 @@ const GENERAL_HELP: &str =
 /// their difference has an uncertainty smaller still.
 const NO_UNCERTAINTY: f64 = 1e-6;
 
+/// Whether the difference of `a` and `b` has no uncertainty to weigh it by (see
+/// [`NO_UNCERTAINTY`]).
+fn no_uncertainty(a: f64, b: f64, sigma: f64) -> bool {
+    sigma <= NO_UNCERTAINTY * a.abs().max(b.abs())
+}
+
 /// How far apart two values are, for a message: `by 3.2 sigma`; or, when the difference has
 /// no uncertainty to weigh it by (every input both rest on is exact, so any difference
 /// passes every threshold), by how many per cent: a number of sigma over a zero uncertainty
 /// (`by 133764973.4 sigma`) says nothing.
 fn apart(z: f64, a: f64, b: f64, sigma: f64) -> String {
     let scale = a.abs().max(b.abs());
-    if sigma > NO_UNCERTAINTY * scale {
+    if !no_uncertainty(a, b, sigma) {
         return format!("by {z:.1} sigma");
     }
     let percent = (a - b).abs() / scale * 100.0;

@@ -256,6 +256,21 @@ fn a_disagreement_between_exact_values_is_said_in_per_cent() {
         "{message}"
     );
     assert!(!message.contains("sigma"), "{message}");
+    // Nor does its grading note speak of sigma: it says why exact values fail any
+    // threshold and how rounded ones are given their uncertainty.
+    let a = run(src, &Options::linear());
+    let d = a
+        .diagnostics
+        .iter()
+        .find(|d| d.rule == crate::diagnostic::Rule::Inconsistent)
+        .expect("an inconsistency");
+    assert_eq!(d.severity, crate::diagnostic::Severity::Error);
+    let notes = d.notes.join(" | ");
+    assert!(
+        notes.contains("every value both routes rest on is exact"),
+        "{notes}"
+    );
+    assert!(!notes.contains("sigma"), "{notes}");
 }
 
 #[test]
