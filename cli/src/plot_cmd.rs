@@ -87,24 +87,13 @@ pub fn run(plot: &Plot, flags: &Layer, read: files::ReadArgs) -> u8 {
         } => one_planet(file, body, system.as_deref(), flags, read).and_then(|(a, si, bi)| {
             input_errors = a.error_count();
             let c = plots::rv_curve(&a, si, bi)?;
-            // Inferior conjunction is a mid-transit only for a planet known to transit: one
-            // that declares a transit quantity (a depth derived from a declared radius alone is
-            // the depth it would have, not a transit seen).
-            use syzygy::quantities::Qty;
-            let transit_qtys = [
-                Qty::TransitDepth,
-                Qty::RadiusRatio,
-                Qty::Impact,
-                Qty::TransitDuration,
-                Qty::TransitDurationFull,
-                Qty::TransitEpoch,
-            ];
+            // Inferior conjunction is a mid-transit only for a planet known to transit.
             let transits = a
                 .model
                 .systems
                 .get(si)
                 .and_then(|s| s.bodies.get(bi))
-                .is_some_and(|b| transit_qtys.iter().any(|q| b.get(*q).is_some()));
+                .is_some_and(|b| b.declares_transit_quantity());
             let axis = if transits {
                 "time from mid-transit (inferior conjunction) [days]"
             } else {

@@ -62,16 +62,15 @@ pub(super) fn neglected_mass(d: &Derivation, diags: &mut Vec<Diagnostic>) {
             continue;
         }
         let name = |b: usize| d.sys.bodies.get(b).map_or("?", |b| b.id.as_str());
+        let planet_name = name(pi);
         diags.push(
             Diagnostic::new(
                 Rule::MassNeglected,
                 anchor(d, pi, &[Qty::Mass, Qty::RvAmplitude, Qty::MinMass]),
                 format!(
-                    "{}.{} was derived with {}'s mass neglected ({rule}), but {} is {:.1}% of its star's mass: that moves it by about {:.1}%, {:.1} times its relative uncertainty",
+                    "{}.{} was derived with {planet_name}'s mass neglected ({rule}), but {planet_name} is {:.1}% of its star's mass: that moves it by about {:.1}%, {:.1} times its relative uncertainty",
                     name(key.0),
                     quantities::def(key.1).name,
-                    name(pi),
-                    name(pi),
                     100.0 * q,
                     100.0 * shift,
                     shift / relative.max(f64::MIN_POSITIVE)

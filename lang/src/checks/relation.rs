@@ -46,15 +46,12 @@ pub(super) fn compact_for_its_mass(d: &Derivation, bi: usize, diags: &mut Vec<Di
     if below_by.is_nan() || below_by <= COMPACT_SCATTERS {
         return;
     }
-    let name = d.sys.bodies.get(bi).map_or("?", |b| b.id.as_str());
+    let Some(body) = d.sys.bodies.get(bi) else {
+        return;
+    };
     // A radius from a transit depth: the depth's unit (ppm written for %) and the star's
     // radius are as likely as the mass's unit.
-    let declared_radius = d
-        .sys
-        .bodies
-        .get(bi)
-        .is_some_and(|b| b.get(Qty::Radius).is_some());
-    let help = if declared_radius {
+    let help = if body.get(Qty::Radius).is_some() {
         "check the mass's unit (a mass in Mjup meant as Mearth is 318 times too heavy) and the radius's (Rearth meant as Rjup is 11 times too small)"
     } else {
         "check the transit depth's unit (ppm written where % was meant makes the radius 100 times too small), the star's radius, and the mass's unit (Mjup meant as Mearth is 318 times too heavy)"
@@ -64,7 +61,8 @@ pub(super) fn compact_for_its_mass(d: &Derivation, bi: usize, diags: &mut Vec<Di
             Rule::ImplausiblePlanet,
             anchor(d, bi, &[Qty::Radius, Qty::TransitDepth, Qty::RadiusRatio, Qty::Mass]),
             format!(
-                "{name}'s radius ({}) is far smaller than planets of its mass ({}) have: the mass-radius relation of Chen & Kipping (2017) puts them at {}, and this radius, even at its upper end, is {:.0} times the relation's scatter ({} dex) below it",
+                "{}'s radius ({}) is far smaller than planets of its mass ({}) have: the mass-radius relation of Chen & Kipping (2017) puts them at {}, and this radius, even at its upper end, is {:.0} times the relation's scatter ({} dex) below it",
+                body.id,
                 shown(Qty::Radius, radius),
                 shown(Qty::Mass, mass),
                 shown(Qty::Radius, r_pred * R_EARTH),
@@ -113,12 +111,8 @@ pub(super) fn prediction_beyond_limit(d: &Derivation, bi: usize, diags: &mut Vec
             Qty::Mass => Some(mid),
             _ => nominal(d, (bi, Qty::Mass)).or_else(|| nominal(d, (bi, Qty::MinMass))),
         };
-        let Some(branch) = mass.and_then(|m| {
-            let m_earth = m / M_EARTH;
-            formulas::mass_radius_branches()
-                .into_iter()
-                .find(|b| m_earth >= b.from && m_earth < b.to)
-        }) else {
+        let Some((_, branch)) = mass.and_then(|m| formulas::predicted_radius_earth(m / M_EARTH))
+        else {
             continue;
         };
         let scatter = if declared == Qty::Mass {

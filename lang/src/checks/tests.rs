@@ -12,6 +12,15 @@ fn rules(a: &Analysis) -> Vec<Rule> {
     a.diagnostics.iter().map(|d| d.rule).collect()
 }
 
+/// The messages of the findings of one rule.
+fn messages(a: &Analysis, rule: Rule) -> Vec<&str> {
+    a.diagnostics
+        .iter()
+        .filter(|d| d.rule == rule)
+        .map(|d| d.message.as_str())
+        .collect()
+}
+
 /// The eight planets with masses, mean radii and semi-major axes from the NASA planetary
 /// fact sheets (`solar_system.rs`, values from memory there), 1% errors on mass and radius,
 /// around the IAU 2015 B3 nominal Sun.
@@ -626,12 +635,7 @@ fn a_giant_far_too_compact_for_its_mass_is_implausible() {
 }
 "#;
     let a = run(src);
-    let found: Vec<&str> = a
-        .diagnostics
-        .iter()
-        .filter(|d| d.rule == Rule::ImplausiblePlanet)
-        .map(|d| d.message.as_str())
-        .collect();
+    let found = messages(&a, Rule::ImplausiblePlanet);
     assert_eq!(found.len(), 1, "{:?}", a.diagnostics);
     assert!(
         found[0].contains("far smaller than planets of its mass"),
@@ -658,12 +662,7 @@ fn a_prediction_below_a_declared_lower_limit_is_pointed_out() {
 }
 "#;
     let a = run(src);
-    let found: Vec<&str> = a
-        .diagnostics
-        .iter()
-        .filter(|d| d.rule == Rule::Inconsistent)
-        .map(|d| d.message.as_str())
-        .collect();
+    let found = messages(&a, Rule::Inconsistent);
     assert_eq!(found.len(), 1, "{:?}", a.diagnostics);
     assert!(
         found[0].contains("mass predicted from its radius")
@@ -698,12 +697,7 @@ fn a_heavy_companions_neglected_mass_is_reported() {
 }
 "#;
     let a = run(src);
-    let found: Vec<&str> = a
-        .diagnostics
-        .iter()
-        .filter(|d| d.rule == Rule::MassNeglected)
-        .map(|d| d.message.as_str())
-        .collect();
+    let found = messages(&a, Rule::MassNeglected);
     assert_eq!(found.len(), 1, "{:?}", a.diagnostics);
     assert!(
         found[0].starts_with("thornacre.density was derived with b's mass neglected"),
@@ -724,12 +718,7 @@ fn a_heavy_companions_neglected_mass_is_reported() {
 fn a_star_radius_no_star_has_is_implausible_without_a_mass() {
     let src = "system \"Km\" {\n  star km { radius = 695700 ± 7000 Rsun; teff = 5600 ± 80 K }\n}\n";
     let a = run(src);
-    let found: Vec<&str> = a
-        .diagnostics
-        .iter()
-        .filter(|d| d.rule == Rule::ImplausibleStar)
-        .map(|d| d.message.as_str())
-        .collect();
+    let found = messages(&a, Rule::ImplausibleStar);
     assert_eq!(found.len(), 1, "{:?}", a.diagnostics);
     assert!(
         found[0].contains("radius 695700 Rsun lies outside 0.05–2500 Rsun"),

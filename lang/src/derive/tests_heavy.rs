@@ -5,24 +5,33 @@
 //! Every system here is invented.
 
 use super::tests_asymmetric::run;
-use crate::derive::Options;
+use crate::constants::{M_JUPITER, M_SUN};
+use crate::derive::{BodyResult, Options};
 use crate::formulas as f;
 use crate::quantities::Qty;
+use crate::Analysis;
 use uom::si::f64::{Length, Mass, Time, Velocity};
 use uom::si::{length::meter, mass::kilogram, time::second, velocity::meter_per_second};
+
+/// Body `i` of the first system (0 is the star).
+fn body(a: &Analysis, i: usize) -> &BodyResult {
+    a.results
+        .first()
+        .and_then(|r| r.bodies.get(i))
+        .expect("the body")
+}
 
 /// The closed form inverts the two relations it rests on: a star and companion put through
 /// Kepler's third law (the axis) and the semi-amplitude formula (K) come back out.
 #[test]
 fn the_star_mass_from_orbit_and_velocities_inverts_both_relations() {
     let day = 86_400.0;
-    let msun = 1.988_409_870_698_051e30;
     for (m_star, q, e, sin_i, p_days) in [
         (1.0, 0.06, 0.0, 0.9998, 6.0),
         (0.3, 0.2, 0.4, 0.8, 40.0),
         (1.4, 1e-4, 0.1, 1.0, 365.0),
     ] {
-        let ms = Mass::new::<kilogram>(m_star * msun);
+        let ms = Mass::new::<kilogram>(m_star * M_SUN);
         let mp = ms * q;
         let p = Time::new::<second>(p_days * day);
         let a = f::semi_major_axis(p, ms, mp).expect("an axis");
@@ -56,28 +65,18 @@ fn a_heavy_companion_is_not_neglected_in_the_stars_mass() {
 }
 "#;
     let a = run(src, Options::linear());
-    let get = |body: usize, q: Qty| {
-        a.results
-            .first()
-            .and_then(|r| r.bodies.get(body))
-            .and_then(|b| b.get(q))
-            .cloned()
-            .expect("a value")
-    };
-    let star = get(0, Qty::StarMass);
+    let star = body(&a, 0).get(Qty::StarMass).expect("a mass");
     assert_eq!(star.rule, Some("kepler-stellar-mass-rv"));
-    let msun = 1.988_409_870_698_051e30;
     assert!(
-        (star.value / msun / 0.941_57 - 1.0).abs() < 1e-4,
+        (star.value / M_SUN / 0.941_57 - 1.0).abs() < 1e-4,
         "{}",
-        star.value / msun
+        star.value / M_SUN
     );
-    let mjup = 1.898_124_597_104_549e27;
-    let planet = get(1, Qty::Mass);
+    let planet = body(&a, 1).get(Qty::Mass).expect("a mass");
     assert!(
-        (planet.value / mjup / 62.657 - 1.0).abs() < 1e-4,
+        (planet.value / M_JUPITER / 62.657 - 1.0).abs() < 1e-4,
         "{}",
-        planet.value / mjup
+        planet.value / M_JUPITER
     );
     assert!(
         !star.assumptions.iter().any(|x| x.contains("neglected")),
@@ -99,7 +98,7 @@ fn a_planet_that_does_not_transit_gets_no_depth() {
 "#;
     for options in [Options::linear(), Options::default()] {
         let a = run(src, options);
-        let planet = a.results.first().and_then(|r| r.bodies.get(1)).expect("b");
+        let planet = body(&a, 1);
         let b = planet.get(Qty::Impact).expect("an impact parameter");
         assert!(b.value > 3.0, "{b:?}");
         assert!(planet.get(Qty::TransitDepth).is_none());
@@ -110,7 +109,7 @@ fn a_planet_that_does_not_transit_gets_no_depth() {
         &src.replace("80 +- 0.5 deg", "89.5 +- 0.2 deg"),
         Options::linear(),
     );
-    let planet = a.results.first().and_then(|r| r.bodies.get(1)).expect("b");
+    let planet = body(&a, 1);
     assert!(planet.get(Qty::TransitDepth).is_some());
 }
 
@@ -126,13 +125,7 @@ fn of_two_equally_precise_routes_the_direct_one_is_named() {
 }
 "#;
     let a = run(src, Options::linear());
-    let rho = a
-        .results
-        .first()
-        .and_then(|r| r.bodies.first())
-        .and_then(|b| b.get(Qty::StarDensity))
-        .cloned()
-        .expect("a density");
+    let rho = body(&a, 0).get(Qty::StarDensity).expect("a density");
     assert_eq!(rho.rule, Some("stellar-density-from-transit"), "{rho:?}");
 }
 
@@ -150,20 +143,15 @@ fn a_stars_density_comes_from_its_mass_before_an_approximation() {
 }
 "#;
     let a = run(src, Options::linear());
-    let star = a
-        .results
-        .first()
-        .and_then(|r| r.bodies.first())
-        .expect("the star");
+    let star = body(&a, 0);
     let rho = star.get(Qty::StarDensity).expect("a density");
     assert_eq!(rho.rule, Some("mean-density-star"), "{rho:?}");
     // 1.39 g/cm^3 = 1390 kg/m^3.
     assert!((rho.value / 1390.0 - 1.0).abs() < 0.01, "{}", rho.value);
-    let msun = 1.988_409_870_698_051e30;
     let m = star.get(Qty::StarMass).expect("a mass");
     assert!(
-        (m.value / msun / 0.7180 - 1.0).abs() < 1e-3,
+        (m.value / M_SUN / 0.7180 - 1.0).abs() < 1e-3,
         "{}",
-        m.value / msun
+        m.value / M_SUN
     );
 }

@@ -143,6 +143,22 @@ impl Body {
         self.declared.iter().find(|d| d.qty == qty)
     }
 
+    /// Whether it declares something only a transit gives (a depth, radius ratio, impact
+    /// parameter, duration or transit epoch): a planet known to transit, not one whose depth
+    /// is merely derivable from a declared radius.
+    pub fn declares_transit_quantity(&self) -> bool {
+        [
+            Qty::TransitDepth,
+            Qty::RadiusRatio,
+            Qty::Impact,
+            Qty::TransitDuration,
+            Qty::TransitDurationFull,
+            Qty::TransitEpoch,
+        ]
+        .iter()
+        .any(|q| self.get(*q).is_some())
+    }
+
     /// Every declaration of `qty`, in file order: one, or several published values.
     pub fn sources(&self, qty: Qty) -> Vec<&Declared> {
         let mut all: Vec<&Declared> = self
